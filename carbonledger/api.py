@@ -1,0 +1,223 @@
+"""Library API: score a project file (or a validated project) against a factor set.
+
+``score`` is what the command line calls; notebook users call it directly. Per-project work is
+a pure function of (project, factor set, options) so that portfolios can be mapped over workers.
+"""
+
+from __future__ import annotations
+
+import functools
+from pathlib import Path
+
+import numpy as np
+
+from . import CAUTION, __version__
+from .engine import build_matrices, solve
+from .errors import InputError
+from .factors import DEFAULT_SET, FactorSet, load_factor_set
+from .inventory import FLOWS, STAGES, NumericInputs, build_inventory, check_physical_limits
+from .project import Project, load_project
+from .reference import ReferenceValue
+from .results import Check, ExchangeRow, FactorSetRef, FactorUsed, Intensity, ScoreResult
+from .schemes import Scheme, load_schemes, select_schemes
+from .stages.ammonia import hydrogen_mass_fraction_of_ammonia
+
+DEFAULT_GWP = "ar6"
+FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
+
+
+@functools.cache
+def _schemes() -> dict[str, Scheme]:
+    return load_schemes()
+
+
+def gwp_sets(factor_set: FactorSet) -> list[str]:
+    return sorted({key.split(".")[1] for key in factor_set.ids_with_prefix("gwp.") if key.endswith(".co2")})
+
+
+def characterisation(inputs: NumericInputs, gwp: str) -> np.ndarray:
+    """GWP100 factor per flow, in the order of ``FLOWS``; pre-characterised CO2e counts 1."""
+    known = gwp_sets(inputs.factor_set)
+    if gwp not in known:
+        raise InputError("--gwp", gwp, f"one of {', '.join(known)}")
+    values = []
+    for flow in FLOWS:
+        if flow == "co2e_precharacterised":
+            values.append(1.0)
+        else:
+            gas = flow.split("_")[0]
+            factor_id = f"gwp.{gwp}.{gas}" if gas == "co2" else f"gwp.{gwp}.{flow}"
+            values.append(inputs.factor(factor_id, f"kg CO2e/kg {gas.upper()}"))
+    return np.array(values)
+
+
+def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:
+    """The same result per t NH3, per kg NH3, per kg H2 (contained, for ammonia) and per MJ (LHV)."""
+    if product == "hydrogen":
+        return {
+            "kg_co2e_per_t_nh3": None,
+            "kg_co2e_per_kg_nh3": None,
+            "kg_co2e_per_kg_h2": total_per_unit,
+            "g_co2e_per_mj": total_per_unit * 1000.0 / hydrogen_lhv,
+        }
+    return {
+        "kg_co2e_per_t_nh3": total_per_unit,
+        "kg_co2e_per_kg_nh3": total_per_unit / 1000.0,
+        "kg_co2e_per_kg_h2": total_per_unit / 1000.0 / hydrogen_fraction,
+        "g_co2e_per_mj": total_per_unit / ammonia_lhv,
+    }
+
+
+def _factor_rows(used: dict) -> list[FactorUsed]:
+    rows = []
+    for key in sorted(used):
+        item = used[key]
+        if isinstance(item, ReferenceValue):
+            rows.append(FactorUsed(id=item.id, value=item.value, unit=item.unit, source=item.source))
+        else:
+            rows.append(FactorUsed(**{k: getattr(item, k) for k in FactorUsed.model_fields}))
+    return rows
+
+
+def score_project(
+    project: Project,
+    factor_set: FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    project_sha256: str = "",
+) -> ScoreResult:
+    """Score a validated project with a loaded factor set (the reusable core of ``score``)."""
+    params = project.model_dump()
+    inputs = NumericInputs(factor_set)
+    check_physical_limits(params, inputs, source)
+    inventory = build_inventory(params, inputs)
+    product = inventory.product
+    chosen = select_schemes(_schemes(), schemes, product)
+    headline = characterisation(inputs, gwp)
+    per_gwp = {gwp: headline}
+    for scheme in chosen:
+        if scheme.gwp not in per_gwp:
+            per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp)
+
+    matrices = build_matrices(inventory)
+    demands = [inventory.reference] + ([inventory.hydrogen] if inventory.hydrogen != inventory.reference else [])
+    solutions, bw_score = solve(matrices, demands, headline)
+    main = solutions[inventory.reference]
+    contributions = main.contributions(headline)
+    total = float(contributions.sum())
+    if not np.isclose(total, bw_score, rtol=1e-9, atol=1e-12):
+        raise RuntimeError(f"characterisation disagrees with bw2calc: {total} vs {bw_score}")
+
+    keys = matrices.activity_keys
+    stage_of = {key: inventory.activities[key].stage for key in keys}
+    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0))}
+    by_stage = {stage: 0.0 for stage in STAGES if any(s == stage for s in stage_of.values())}
+    for key, value in by_activity.items():
+        by_stage[stage_of[key]] += value
+    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1))}
+
+    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
+    ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if product == "ammonia" else float("nan")
+    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
+    hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+
+    checks = []
+    for scheme in chosen:
+        zero_rated = np.array(
+            [
+                (scheme.electricity == "renewable_at_zero" and inventory.electricity_kinds.get(key) == "renewable")
+                or stage_of[key] in scheme.excluded_stages
+                for key in keys
+            ]
+        )
+        basis_demand = inventory.reference if scheme.basis == "product" else inventory.hydrogen
+        basis_product = product if scheme.basis == "product" else "hydrogen"
+        scheme_total = float(solutions[basis_demand].contributions(per_gwp[scheme.gwp], zero_rated).sum())
+        value = intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity]
+        verdict = scheme.evaluate(value)
+        checks.append(
+            Check(
+                scheme=scheme.id,
+                name=scheme.name,
+                quantity=scheme.quantity,
+                basis=scheme.basis,
+                boundary=scheme.boundary,
+                gwp_basis=scheme.gwp,
+                electricity_rule=scheme.electricity,
+                unit=scheme.unit,
+                value=value,
+                from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
+                note=scheme.note,
+                **verdict,
+            )
+        )
+
+    supply = dict(zip(keys, main.supply))
+    exchanges = [
+        ExchangeRow(
+            activity=activity.key,
+            stage=activity.stage,
+            kind=exchange.kind,
+            input=exchange.input,
+            label=exchange.label,
+            amount=float(exchange.amount),
+            unit=exchange.unit,
+            activity_supply=float(supply[activity.key]),
+        )
+        for activity in inventory.activities.values()
+        for exchange in activity.exchanges
+    ]
+    functional_unit, unit = FUNCTIONAL_UNITS[product]
+    heating = {"hydrogen_lhv": hydrogen_lhv}
+    if product == "ammonia":
+        heating["ammonia_lhv"] = ammonia_lhv
+    all_intensities = intensities(total, product, hydrogen_lhv, ammonia_lhv, fraction)
+    return ScoreResult(
+        carbonledger_version=__version__,
+        caution=CAUTION,
+        project=project.project.name,
+        project_file=source,
+        project_sha256=project_sha256,
+        product=product,
+        boundary=project.project.boundary,
+        functional_unit=functional_unit,
+        unit=unit,
+        gwp_basis=gwp,
+        factor_set=FactorSetRef(name=factor_set.name, sha256=factor_set.sha256),
+        total=total,
+        intensity=Intensity(**{k: all_intensities[k] for k in Intensity.model_fields}),
+        hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
+        by_stage=by_stage,
+        by_gas=by_gas,
+        by_activity=by_activity,
+        heating_values_mj_per_kg=heating,
+        factors_used=_factor_rows(inputs.used),
+        checks=checks,
+        exchanges=exchanges,
+        parameters=params,
+    )
+
+
+def score(
+    project_file: str | Path,
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+) -> ScoreResult:
+    """Score a project file: cradle-to-gate carbon intensity, by stage and gas, with scheme checks.
+
+    Parameters
+    ----------
+    project_file : path of the project TOML.
+    factors : factor set name, set folder, override CSV, or a loaded FactorSet.
+    gwp : GWP100 set of the headline result ('ar4', 'ar5', 'ar6'); each scheme check uses its own.
+    schemes : scheme ids to check; default all that apply to the product.
+    overrides : 'dotted.parameter=value' strings applied to the project before validation.
+    """
+    project, sha = load_project(project_file, overrides)
+    factor_set = factors if isinstance(factors, FactorSet) else load_factor_set(factors)
+    return score_project(project, factor_set, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)

@@ -1,0 +1,91 @@
+"""The result of scoring a project: everything an output needs, so outputs never recompute.
+
+Pydantic models at the output edge; ``ScoreResult.model_dump(mode="json")`` is the stable
+JSON documented in the README.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from pydantic import BaseModel
+
+
+class FactorSetRef(BaseModel):
+    name: str
+    sha256: str
+
+
+class Intensity(BaseModel):
+    kg_co2e_per_t_nh3: float | None
+    kg_co2e_per_kg_h2: float
+    g_co2e_per_mj: float
+
+
+class FactorUsed(BaseModel):
+    id: str
+    value: float
+    unit: str
+    source: str
+    table: str = ""
+    year: int | None = None
+    region: str = ""
+    note: str = ""
+    from_memory: bool = False
+
+
+class Check(BaseModel):
+    scheme: str
+    name: str
+    quantity: str
+    basis: str
+    boundary: str
+    gwp_basis: str
+    electricity_rule: str
+    limit: float
+    unit: str
+    value: float
+    passes: bool
+    margin: float
+    tier: str | None
+    from_memory: bool
+    note: str = ""
+
+
+class ExchangeRow(BaseModel):
+    activity: str
+    stage: str
+    kind: str
+    input: str
+    label: str
+    amount: float
+    unit: str
+    activity_supply: float  # units of the activity per functional unit
+
+
+class ScoreResult(BaseModel):
+    carbonledger_version: str
+    caution: str
+    project: str
+    project_file: str
+    project_sha256: str
+    product: str
+    boundary: str
+    functional_unit: str
+    unit: str
+    gwp_basis: str
+    factor_set: FactorSetRef
+    total: float
+    intensity: Intensity
+    hydrogen_production_kg_co2e_per_kg_h2: float
+    by_stage: dict[str, float]
+    by_gas: dict[str, float]
+    by_activity: dict[str, float]
+    heating_values_mj_per_kg: dict[str, float]
+    factors_used: list[FactorUsed]
+    checks: list[Check]
+    exchanges: list[ExchangeRow]
+    parameters: dict[str, Any]
+
+    def to_json(self) -> str:
+        return self.model_dump_json(indent=2)

@@ -1,0 +1,18 @@
+"""Electricity supply: a mix of named sources, each with its own emission factor.
+
+A source factor is either life-cycle CO2e (e.g. IPCC AR5 WGIII Annex III medians) or direct
+CO2 of generation (some grid averages); the unit of the factor row decides which.
+"""
+
+
+def source_emission_kg_per_kwh(emission_factor_g_per_kwh):
+    """kg of CO2 or CO2e per kWh delivered by one source, from a factor in g/kWh."""
+    return emission_factor_g_per_kwh / 1000.0
+
+
+def kind_of_source(factor_id: str) -> str:
+    """'grid', 'renewable', 'fossil', 'low_carbon' or 'other', read from the factor id's namespace."""
+    parts = factor_id.split(".")
+    if len(parts) >= 3 and parts[0] == "electricity":
+        return parts[1]
+    return "other"
