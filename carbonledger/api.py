@@ -90,7 +90,7 @@ def score_project(
 ) -> ScoreResult:
     """Score a validated project with a loaded factor set (the reusable core of ``score``)."""
     params = project.model_dump()
-    inputs = NumericInputs(factor_set)
+    inputs = NumericInputs(factor_set, source)
     check_physical_limits(params, inputs, source)
     inventory = build_inventory(params, inputs)
     product = inventory.product

@@ -75,16 +75,22 @@ class Inventory:
 class NumericInputs:
     """Factor and reference values as numbers, recording every one that is used."""
 
-    def __init__(self, factor_set: FactorSet):
+    def __init__(self, factor_set: FactorSet, source: str = "project"):
         from .units import UnitMismatch, conversion_factor
 
         self.factor_set = factor_set
+        self.source = source  # the project file, named when one of its factor ids is unknown
         self.used: dict[str, Any] = {}
         self._convert = conversion_factor
         self._mismatch = UnitMismatch
 
+    def _row(self, factor_id: str, where: str):
+        if where != "factor" and factor_id not in self.factor_set.factors:
+            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'")
+        return self.factor_set.get(factor_id, where)
+
     def factor(self, factor_id: str, unit: str, where: str = "factor"):
-        row = self.factor_set.get(factor_id, where)
+        row = self._row(factor_id, where)
         self.used[factor_id] = row
         try:
             return row.value * self._convert(row.unit, unit)
@@ -92,7 +98,7 @@ class NumericInputs:
             raise InputError(row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}") from None
 
     def factor_unit(self, factor_id: str, where: str = "factor") -> str:
-        return self.factor_set.get(factor_id, where).unit
+        return self._row(factor_id, where).unit
 
     def molar_mass(self, formula: str):
         value = molar_mass(formula)

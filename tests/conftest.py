@@ -1,0 +1,21 @@
+from __future__ import annotations
+
+import textwrap
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "demo_projects"
+
+
+@pytest.fixture
+def write_project(tmp_path):
+    """Write a project TOML (dedented text) into a temporary folder and return its path."""
+
+    def write(text: str, name: str = "project.toml") -> Path:
+        path = tmp_path / name
+        path.write_text(textwrap.dedent(text), encoding="utf-8")
+        return path
+
+    return write
