@@ -136,7 +136,8 @@ def connect(path: str | Path) -> sqlite3.Connection:
         tables = {row[0] for row in connection.execute("SELECT name FROM sqlite_master WHERE type = 'table'")}
         if tables:
             _check_format(connection, path, tables)
-        connection.execute("PRAGMA journal_mode = WAL")
+        if connection.execute("PRAGMA journal_mode").fetchone()[0].lower() != "wal":
+            _when_free(lambda: connection.execute("PRAGMA journal_mode = WAL"))
         connection.execute("PRAGMA synchronous = NORMAL")
         if not tables or "records" not in tables:
             connection.execute("BEGIN IMMEDIATE")
@@ -161,6 +162,23 @@ def connect(path: str | Path) -> sqlite3.Connection:
         connection.close()
         raise _refuse(path, str(error)) from None
     return connection
+
+
+def _when_free(statement, timeout_s: float = BUSY_TIMEOUT_S):
+    """Run a statement that SQLite refuses at once (no busy handler) while another writer is
+    active, such as switching the journal mode of a new file: retry until it is free."""
+    import time
+
+    deadline = time.monotonic() + timeout_s
+    while True:
+        try:
+            return statement()
+        except sqlite3.OperationalError as error:
+            if "locked" not in str(error) and "busy" not in str(error):
+                raise
+            if time.monotonic() > deadline:
+                raise
+            time.sleep(0.01)
 
 
 def _check_format(connection: sqlite3.Connection, path: Path, tables: set[str]) -> None:
