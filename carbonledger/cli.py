@@ -81,6 +81,8 @@ def score(
         typer.echo(render(result), nl=False)
 
 
+
+
 @app.command()
 def params(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],

@@ -175,7 +175,7 @@ def lifetime_table(result) -> str:
         for s in schemes
     ]
     lines.append(_table(["scheme", "avg without", "avg with", "counts construction", "lifetime value", "limit", "unit", "verdict", "years missed"], rows, {"avg without", "avg with", "lifetime value", "limit"}))
-    lines.append("* each rulebook's construction rule is recorded from memory (see `carbonledger schemes`)")
+    lines.append("* each rulebook's construction rule (counts_construction in factors/schemes/*.toml) is recorded from memory")
     lines.append(f"Caution: {CAUTION}")
     return "\n".join(lines) + "\n"
 
