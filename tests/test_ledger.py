@@ -166,3 +166,16 @@ def test_a_process_killed_mid_run_leaves_no_partial_record(tmp_path):
 def test_connect_refuses_a_folder(tmp_path):
     with pytest.raises(InputError):
         connect(tmp_path)
+
+
+def test_lifetime_runs_are_recorded_with_their_lifetime_values(_ledger_in_tmp):
+    from helpers import PORTFOLIO
+
+    project = PORTFOLIO / "vennor_hybrid_hydrogen.toml"
+    assert run_cli("score", project, "--lifetime").exit_code == 0
+    assert run_cli("score", project).exit_code == 0
+    first, second = project_history(project, _ledger_in_tmp)
+    assert first["kind"] == "lifetime" and first["results"]["lifetime"] is True
+    # the trajectory rows (invented, 281 g CO2e/kWh in 2027) are stored with the factors used
+    assert {"id": "trajectory.2027", "value": 281.0}.items() <= next(r for r in first["factors_used"] if r["id"] == "trajectory.2027").items()
+    assert second["kind"] == "score"
