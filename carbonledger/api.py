@@ -7,6 +7,7 @@ a pure function of (project, factor set, options) so that portfolios can be mapp
 from __future__ import annotations
 
 import functools
+from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
@@ -79,16 +80,32 @@ def _factor_rows(used: dict) -> list[FactorUsed]:
     return rows
 
 
-def score_project(
-    project: Project,
-    factor_set: FactorSet,
-    *,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    source: str = "project",
-    project_sha256: str = "",
-) -> ScoreResult:
-    """Score a validated project with a loaded factor set (the reusable core of ``score``)."""
+@dataclass
+class Prepared:
+    """A project made ready to solve: its inventory, matrices, characterisations and schemes.
+
+    Everything here depends on (project, factor set, options) only, so a portfolio run can
+    prepare many projects and solve those that share a matrix structure together.
+    """
+
+    project: Project
+    factor_set: FactorSet
+    params: dict
+    inputs: NumericInputs
+    inventory: object
+    chosen: list[Scheme]
+    gwp: str
+    headline: np.ndarray
+    per_gwp: dict[str, np.ndarray]
+    matrices: object
+    demands: list[str]
+    hydrogen_lhv: float
+    ammonia_lhv: float
+    fraction: float
+
+
+def prepare(project: Project, factor_set: FactorSet, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None, source: str = "project") -> Prepared:
+    """Validated project + factor set -> inventory, matrices and characterisation vectors."""
     params = project.model_dump()
     inputs = NumericInputs(factor_set, source)
     check_physical_limits(params, inputs, source)
@@ -100,31 +117,21 @@ def score_project(
     for scheme in chosen:
         if scheme.gwp not in per_gwp:
             per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp)
-
     matrices = build_matrices(inventory)
     demands = [inventory.reference] + ([inventory.hydrogen] if inventory.hydrogen != inventory.reference else [])
-    solutions, bw_score = solve(matrices, demands, headline)
-    main = solutions[inventory.reference]
-    contributions = main.contributions(headline)
-    total = float(contributions.sum())
-    if not np.isclose(total, bw_score, rtol=1e-9, atol=1e-12):
-        raise RuntimeError(f"characterisation disagrees with bw2calc: {total} vs {bw_score}")
-
-    keys = matrices.activity_keys
-    stage_of = {key: inventory.activities[key].stage for key in keys}
-    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0))}
-    by_stage = {stage: 0.0 for stage in STAGES if any(s == stage for s in stage_of.values())}
-    for key, value in by_activity.items():
-        by_stage[stage_of[key]] += value
-    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1))}
-
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
     ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if product == "ammonia" else float("nan")
     fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
-    hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+    return Prepared(project, factor_set, params, inputs, inventory, chosen, gwp, headline, per_gwp, matrices, demands, hydrogen_lhv, ammonia_lhv, fraction)
 
+
+def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
+    """Each chosen scheme's value and verdict under its own rulebook, from solved inventories."""
+    inventory = prepared.inventory
+    keys = prepared.matrices.activity_keys
+    stage_of = {key: inventory.activities[key].stage for key in keys}
     checks = []
-    for scheme in chosen:
+    for scheme in prepared.chosen:
         zero_rated = np.array(
             [
                 (scheme.electricity == "renewable_at_zero" and inventory.electricity_kinds.get(key) == "renewable")
@@ -133,9 +140,9 @@ def score_project(
             ]
         )
         basis_demand = inventory.reference if scheme.basis == "product" else inventory.hydrogen
-        basis_product = product if scheme.basis == "product" else "hydrogen"
-        scheme_total = float(solutions[basis_demand].contributions(per_gwp[scheme.gwp], zero_rated).sum())
-        value = intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity]
+        basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
+        scheme_total = float(solutions[basis_demand].contributions(prepared.per_gwp[scheme.gwp], zero_rated).sum())
+        value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
         verdict = scheme.evaluate(value)
         checks.append(
             Check(
@@ -153,6 +160,40 @@ def score_project(
                 **verdict,
             )
         )
+    return checks
+
+
+def score_project(
+    project: Project,
+    factor_set: FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    project_sha256: str = "",
+) -> ScoreResult:
+    """Score a validated project with a loaded factor set (the reusable core of ``score``)."""
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source)
+    params, inputs, inventory, matrices = prepared.params, prepared.inputs, prepared.inventory, prepared.matrices
+    product, headline = inventory.product, prepared.headline
+    solutions, bw_score = solve(matrices, prepared.demands, headline)
+    main = solutions[inventory.reference]
+    contributions = main.contributions(headline)
+    total = float(contributions.sum())
+    if not np.isclose(total, bw_score, rtol=1e-9, atol=1e-12):
+        raise RuntimeError(f"characterisation disagrees with bw2calc: {total} vs {bw_score}")
+
+    keys = matrices.activity_keys
+    stage_of = {key: inventory.activities[key].stage for key in keys}
+    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0))}
+    by_stage = {stage: 0.0 for stage in STAGES if any(s == stage for s in stage_of.values())}
+    for key, value in by_activity.items():
+        by_stage[stage_of[key]] += value
+    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1))}
+
+    hydrogen_lhv, ammonia_lhv, fraction = prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction
+    hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+    checks = scheme_checks(prepared, solutions)
 
     supply = dict(zip(keys, main.supply))
     exchanges = [

@@ -31,6 +31,8 @@ GwpOption = Annotated[str, typer.Option("--gwp", help="GWP100 set of the headlin
 SchemeOption = Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id to check (repeatable); default: all that apply.")]
 SetOption = Annotated[Optional[list[str]], typer.Option("--set", help="Override a project parameter: dotted.path=value (repeatable).")]
 FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
+LedgerOption = Annotated[Optional[Path], typer.Option("--ledger", help="Run ledger (SQLite) to record in; default $CARBONLEDGER_LEDGER or the user's data folder.")]
+NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
 
 
 def _fail(error: InputError) -> None:
@@ -45,13 +47,26 @@ def score(
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    lifetime: Annotated[bool, typer.Option("--lifetime", help="Score every operating year of the project's [lifetime] and the lifetime average.")] = False,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
     """Score a project cradle-to-gate: total, intensities, by stage, by gas, scheme checks."""
     from .api import score as run
+    from .ledger import check_ledger, ledger_path, record_run
 
     try:
+        where = ledger_path(ledger, not no_ledger)
+        check_ledger(where)
+        if lifetime:
+            from .cli_recalc import score_lifetime
+
+            score_lifetime(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, ledger=where, output_format=output_format)
+            return
         result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_)
+        if where is not None:
+            record_run("score", [result], ledger=where)
     except InputError as error:
         _fail(error)
     if output_format is OutputFormat.json:
@@ -200,3 +215,6 @@ def main() -> None:
     except BrokenPipeError:  # e.g. piped into head
         sys.stderr.close()
         sys.exit(0)
+
+
+from . import cli_recalc  # noqa: E402,F401

@@ -157,3 +157,61 @@ def solve(matrices: Matrices, demands: list[str], characterisation: np.ndarray) 
                 inventory[row, :] = dense[position, activity_order]
         solutions[demand] = Solution(demand, matrices.activity_keys, matrices.flow_keys, np.asarray(lca.supply_array)[activity_order], inventory)
     return solutions, first_score
+
+
+def structure_key(matrices: Matrices, demands: list[str]) -> tuple:
+    """What two systems must share to be solved together: activities, coordinates, demands."""
+    return (
+        tuple(matrices.activity_keys),
+        matrices.technosphere_indices.tobytes(),
+        matrices.technosphere_flip.tobytes(),
+        matrices.biosphere_indices.tobytes(),
+        tuple(demands),
+    )
+
+
+def solve_many(systems: list[Matrices], demands: list[str]) -> list[dict[str, Solution]]:
+    """Solve many systems of one structure (same ``structure_key``) at once.
+
+    The coordinates are taken from the first system and the values of all systems are stacked,
+    so A is assembled once as an (n, k, k) array and ``numpy.linalg.solve`` factorises every
+    system in one call; the supply s = A^-1 f and inventory g = B diag(s) are as in ``solve``.
+    bw2calc stays the reference: ``solve`` on any one system gives the same numbers, which the
+    callers check on one member of every group and the tests check on all of them.
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+    """
+    first = systems[0]
+    count, size = len(systems), len(first.activity_keys)
+    column = {key: number for number, key in enumerate(first.activity_keys)}
+    signs = np.where(first.technosphere_flip, -1.0, 1.0)
+    technosphere = np.zeros((count, size, size))
+    batch = np.arange(count)[:, None]
+    values = np.stack([system.technosphere_values for system in systems]) * signs
+    np.add.at(technosphere, (batch, first.technosphere_indices["row"][None, :], first.technosphere_indices["col"][None, :]), values)
+    biosphere = np.zeros((count, len(first.flow_keys), size))
+    if len(first.biosphere_indices):
+        bio_values = np.stack([system.biosphere_values for system in systems])
+        rows = first.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
+        np.add.at(biosphere, (batch, rows[None, :], first.biosphere_indices["col"][None, :]), bio_values)
+    demand_vectors = np.zeros((count, size, len(demands)))
+    for number, demand in enumerate(demands):
+        demand_vectors[:, column[demand], number] = 1.0
+    supply = np.linalg.solve(technosphere, demand_vectors)  # (n, k, demands)
+    results = []
+    for index in range(count):
+        results.append(
+            {
+                demand: Solution(
+                    demand,
+                    first.activity_keys,
+                    first.flow_keys,
+                    supply[index, :, number],
+                    biosphere[index] * supply[index, None, :, number],
+                )
+                for number, demand in enumerate(demands)
+            }
+        )
+    return results

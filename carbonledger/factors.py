@@ -243,3 +243,54 @@ def _cached_set(folder: str, chain: tuple[str, ...]) -> FactorSet:
     if key not in _SET_CACHE:
         _SET_CACHE[key] = _read_set_folder(Path(folder), chain)
     return _SET_CACHE[key]
+
+
+@dataclass(frozen=True)
+class FactorChange:
+    """One row that differs between two sets: ``kind`` is changed, added or removed."""
+
+    id: str
+    kind: str
+    old: Factor | None
+    new: Factor | None
+
+
+def _row(factor: Factor) -> dict:
+    return {key: value for key, value in asdict(factor).items() if key != "origin"}
+
+
+def diff_sets(old: FactorSet, new: FactorSet) -> list[FactorChange]:
+    """Every factor changed (any field but the file it came from), added or removed, by id."""
+    changes = []
+    for factor_id in sorted(set(old.factors) | set(new.factors)):
+        before, after = old.factors.get(factor_id), new.factors.get(factor_id)
+        if before is None:
+            changes.append(FactorChange(factor_id, "added", None, after))
+        elif after is None:
+            changes.append(FactorChange(factor_id, "removed", before, None))
+        elif _row(before) != _row(after):
+            changes.append(FactorChange(factor_id, "changed", before, after))
+    return changes
+
+
+def set_listing() -> list[dict]:
+    """Name, date, sha256, description and base of every set under factors/sets."""
+    rows = []
+    for name in available_sets():
+        meta_path = factors_root() / "sets" / name / "set.toml"
+        try:
+            meta = tomllib.loads(meta_path.read_text(encoding="utf-8"))
+        except tomllib.TOMLDecodeError as error:
+            raise InputError(meta_path, "", f"valid TOML ({error})") from None
+        loaded = load_factor_set(name)
+        rows.append(
+            {
+                "name": loaded.name,
+                "date": loaded.date,
+                "sha256": loaded.sha256,
+                "description": loaded.description,
+                "base": str(meta.get("base", "")),
+                "factors": len(loaded.factors),
+            }
+        )
+    return rows

@@ -98,6 +98,24 @@ class Ammonia(_Section):
     storage_loss_fraction: float = P(0.0, "fraction", "Ammonia lost in storage and loading", ge=0, lt=1)
 
 
+class Lifetime(_Section):
+    """Operating life: yearly output, electrolyser ageing, grid trajectory, construction emissions."""
+
+    operating_years: int = P(unit="years", description="Years of operation (at least 1)", ge=1)
+    first_year: int = P(unit="calendar year", description="Calendar year of the first operating year", ge=1900, le=2200)
+    nameplate_output_t_per_year: float = P(unit="t product/year", description="Output at full load with new stacks (t NH3 or t H2)", gt=0)
+    capacity_factor: float = P(1.0, "fraction", "Annual capacity factor (share of the nameplate output produced)", gt=0, le=1)
+    efficiency_loss_per_year: float = P(0.0, "fraction/year", "Electrolysis: drop of stack efficiency per year of stack age", ge=0, lt=1)
+    stack_replacement_years: int | None = P(None, "years", "Electrolysis: stacks replaced every N years, which resets the efficiency loss (absent: never)", ge=1)
+    plant_construction_t_co2e: float = P(0.0, "t CO2e", "Construction (capital) emissions of the plant", ge=0)
+    renewables_construction_t_co2e: float = P(0.0, "t CO2e", "Construction emissions of dedicated renewable generation", ge=0)
+    renewables_mw: float = P(0.0, "MW", "Dedicated renewable capacity, with renewables_construction_factor", ge=0)
+    renewables_construction_factor: str = P("", description="Factor id (t CO2e/MW) for the construction of the dedicated renewables")
+    grid_source: str = P("grid", description="Name of the electricity source whose factor follows the trajectory")
+    grid_trajectory_csv: str = P("", description="Factor CSV of yearly grid factors (year column = calendar year), relative to the project file")
+    grid_trajectory_factors: str = P("", description="Factor id prefix in the factor set: rows PREFIX.YEAR give the yearly grid factor")
+
+
 class Project(_Section):
     project: ProjectInfo
     hydrogen: Hydrogen
@@ -107,6 +125,7 @@ class Project(_Section):
     electrolysis: Electrolysis | None = None
     natural_gas: NaturalGas | None = None
     ammonia: Ammonia | None = None
+    lifetime: Lifetime | None = None
 
     @model_validator(mode="after")
     def _sections_fit_the_route(self):
@@ -130,6 +149,17 @@ class Project(_Section):
             raise _SectionError("ammonia", "no [ammonia] section for product 'hydrogen'")
         if self.ammonia is not None and self.ammonia.nitrogen_source == "process_air" and not reforming:
             raise _SectionError("ammonia.nitrogen_source", "'air_separation' (process air needs a reformer)")
+        if self.lifetime is not None:
+            life = self.lifetime
+            if life.grid_trajectory_csv and life.grid_trajectory_factors:
+                raise _SectionError("lifetime.grid_trajectory_csv", "either grid_trajectory_csv or grid_trajectory_factors, not both")
+            if (life.grid_trajectory_csv or life.grid_trajectory_factors) and life.grid_source not in self.electricity.sources:
+                raise _SectionError("lifetime.grid_source", f"the name of an electricity source ({', '.join(self.electricity.sources)}), got '{life.grid_source}'")
+            if bool(life.renewables_mw) != bool(life.renewables_construction_factor):
+                raise _SectionError("lifetime.renewables_mw", "renewables_mw and renewables_construction_factor given together")
+            oldest = (life.stack_replacement_years or life.operating_years) - 1
+            if life.efficiency_loss_per_year * oldest >= 1:
+                raise _SectionError("lifetime.efficiency_loss_per_year", f"a loss that leaves some efficiency at a stack age of {oldest} years")
         if self.uses_natural_gas() and self.natural_gas is None:
             raise _SectionError("natural_gas", "a [natural_gas] section with methane_loss_rate, since the project burns natural gas")
         return self

@@ -4,7 +4,8 @@ A rulebook (``factors/schemes/ID.toml``) states the product(s) it applies to, th
 it limits and its unit, the basis (the product, or the hydrogen at the hydrogen plant's gate),
 the boundary and stages it leaves out, the GWP100 set, how electricity counts
 (``lifecycle``: every source at its factor; ``renewable_at_zero``: renewable sources count
-zero), and one or more thresholds (tiers) with their legal source.
+zero), whether construction (capital) emissions count (``counts_construction``, used by
+lifetime scoring), and one or more thresholds (tiers) with their legal source.
 """
 
 from __future__ import annotations
@@ -47,6 +48,8 @@ class Scheme(BaseModel):
     gwp: str
     electricity: Literal["lifecycle", "renewable_at_zero"]
     excluded_stages: list[str] = []
+    counts_construction: bool = False  # construction (capital) emissions added over the life
+    construction_note: str = ""
     from_memory: bool = False
     note: str = ""
     thresholds: list[Threshold] = Field(min_length=1)

@@ -9,6 +9,14 @@ ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
 
 
+@pytest.fixture(autouse=True)
+def _ledger_in_tmp(tmp_path, monkeypatch):
+    """Every test records runs in its own temporary ledger, never in the user's data folder."""
+    path = tmp_path / "ledger.sqlite"
+    monkeypatch.setenv("CARBONLEDGER_LEDGER", str(path))
+    return path
+
+
 @pytest.fixture
 def write_project(tmp_path):
     """Write a project TOML (dedented text) into a temporary folder and return its path."""

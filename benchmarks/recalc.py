@@ -1,0 +1,118 @@
+"""Benchmark: recalculate a portfolio of 1,000 varied projects under a new factor set.
+
+Generates the projects (invented, varied routes and parameters) in a temporary folder, then
+times ``carbonledger.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading
+and validating every file once, scoring under the old set, diffing the sets, rescoring the
+projects that use a changed factor (stacked solves per matrix structure, one bw2calc check per
+structure). For comparison it also times the naive path (``api.score_project`` with one bw2calc
+LCA per project and set) on a sample. Prints figures only; nothing is asserted.
+
+    python benchmarks/recalc.py [N]
+"""
+
+from __future__ import annotations
+
+import random
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
+
+GRIDS = ["electricity.grid.eu27_2018", "electricity.grid.ireland_2015"]
+RENEWABLES = ["electricity.renewable.wind_onshore", "electricity.renewable.solar_pv_utility", "electricity.renewable.wind_offshore", "electricity.renewable.hydropower"]
+
+
+def electricity(rng: random.Random, grid_share: float) -> str:
+    text = ""
+    if grid_share > 0:
+        text += f'[electricity.sources.grid]\nshare = {grid_share}\nfactor = "{rng.choice(GRIDS)}"\n'
+    if grid_share < 1:
+        text += f'[electricity.sources.renewable]\nshare = {round(1 - grid_share, 6)}\nfactor = "{rng.choice(RENEWABLES)}"\n'
+    return text
+
+
+def ammonia(rng: random.Random, process_air: bool) -> str:
+    nitrogen = "process_air" if process_air else "air_separation"
+    return (
+        f'[ammonia]\nnitrogen_source = "{nitrogen}"\nair_separation_kwh_per_t_n2 = {0 if process_air else rng.uniform(90, 130):.1f}\n'
+        f"hydrogen_loss_allowance = {rng.uniform(0, 0.03):.4f}\nsynthesis_electricity_kwh_per_t_nh3 = {rng.uniform(100, 700):.1f}\n"
+        f"storage_electricity_kwh_per_t_nh3 = {rng.uniform(10, 40):.1f}\nstorage_loss_fraction = {rng.uniform(0, 0.003):.5f}\n"
+    )
+
+
+def project(number: int, rng: random.Random) -> str:
+    kind = rng.choice(["green", "hybrid", "grid", "grey", "blue_smr", "blue_atr"])
+    product = rng.choice(["ammonia", "hydrogen"])
+    head = f'# INVENTED benchmark project\n[project]\nname = "Benchmark project {number} ({kind}, invented)"\nproduct = "{product}"\n\n'
+    if kind in ("green", "hybrid", "grid"):
+        grid_share = {"green": 0.0, "hybrid": round(rng.uniform(0.05, 0.5), 4), "grid": 1.0}[kind]
+        body = (
+            f'[hydrogen]\nroute = "electrolysis"\nconditioning_kwh_per_kg_h2 = {rng.uniform(0, 2):.3f}\n'
+            f'[electrolysis]\ntechnology = "{rng.choice(["alkaline", "pem"])}"\nelectricity_kwh_per_kg_h2 = {rng.uniform(48, 58):.3f}\n'
+            + electricity(rng, grid_share)
+        )
+        if product == "ammonia":
+            body += ammonia(rng, False)
+        return head + body
+    atr = kind == "blue_atr"
+    body = (
+        f'[hydrogen]\nroute = "{"autothermal_reforming" if atr else "steam_methane_reforming"}"\n'
+        f"[reforming]\nnatural_gas_gj_per_kg_h2 = {rng.uniform(0.155, 0.175):.4f}\nelectricity_kwh_per_kg_h2 = {rng.uniform(0.2, 2):.3f}\n"
+        f"process_co2_share = {0.96 if atr else rng.uniform(0.55, 0.65):.3f}\n"
+        f"[natural_gas]\nmethane_loss_rate = {rng.uniform(0.002, 0.03):.4f}\n"
+    )
+    if kind != "grey":
+        body += (
+            f'[capture]\ncapture_rate = {rng.uniform(0.55, 0.95):.3f}\napplies_to = "{"process" if atr else "process_and_flue"}"\n'
+            f"compression_kwh_per_t_co2 = {rng.uniform(90, 130):.1f}\ntransport_storage_loss_fraction = {rng.uniform(0, 0.03):.4f}\n"
+        )
+    body += electricity(rng, round(rng.uniform(0.3, 1.0), 4))
+    if product == "ammonia":
+        body += ammonia(rng, kind == "grey")
+    return head + body
+
+
+def main(count: int = 1000) -> None:
+    t0 = time.perf_counter()
+    from carbonledger.api import score_project
+    from carbonledger.engine import _bw2calc
+    from carbonledger.factors import load_factor_set
+    from carbonledger.portfolio import load_portfolio, recalc
+
+    _bw2calc()  # import cost reported apart
+    print(f"imports (bw2calc included): {time.perf_counter() - t0:.2f} s")
+    rng = random.Random(2026)
+    with tempfile.TemporaryDirectory() as folder:
+        for number in range(count):
+            (Path(folder) / f"project_{number:04d}.toml").write_text(project(number, rng), encoding="utf-8")
+        start = time.perf_counter()
+        old_set, new_set = load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision")
+        loaded = time.perf_counter()
+        portfolio = load_portfolio([folder])
+        parsed = time.perf_counter()
+        result = recalc(portfolio, old_set, new_set)
+        done = time.perf_counter()
+        total = done - start
+        print(f"projects: {count}; structures: {len({(s.product, tuple(s.by_stage)) for s in result.old_scores})} (by product and stages)")
+        print(f"factor sets loaded: {loaded - start:.3f} s; projects read and validated once: {parsed - loaded:.3f} s")
+        print(f"recalc (score under old set, diff, rescore {result.rescored} projects that use a changed factor): {done - parsed:.3f} s")
+        print(f"total: {total:.2f} s for {count} projects = {total / count * 1000:.2f} ms per project (target: under 10 s)")
+        print(f"newly failing project-scheme pairs: {len(result.newly_failing)}")
+        from carbonledger.ledger import record_run
+
+        ledger_start = time.perf_counter()
+        record_run("recalc (benchmark)", [*result.old_scores, *result.new_scores], ledger=Path(folder) / "ledger.sqlite", kind="recalc")
+        print(f"recording the run in a new ledger ({2 * count} records, one transaction): {time.perf_counter() - ledger_start:.2f} s")
+        sample = portfolio[:100]
+        naive_start = time.perf_counter()
+        for item in sample:
+            score_project(item.project, old_set)
+            score_project(item.project, new_set)
+        naive = (time.perf_counter() - naive_start) / len(sample)
+        print(f"naive path for comparison (one bw2calc LCA per project and set, 100 projects): {naive * 1000:.2f} ms per project, {naive * count:.1f} s for {count}")
+
+
+if __name__ == "__main__":
+    main(int(sys.argv[1]) if len(sys.argv) > 1 else 1000)

@@ -1,0 +1,161 @@
+"""Lifetime scoring: output-weighted averages, stack replacement, construction emissions."""
+
+import json
+import shutil
+
+import pytest
+
+from carbonledger.errors import InputError
+from carbonledger.factors import load_factor_set
+from carbonledger.lifetime import lifetime_score
+from carbonledger.project import load_project
+
+from helpers import FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
+
+PROJECT = """\
+# test project (invented numbers)
+[project]
+name = "Lifetime test"
+product = "hydrogen"
+
+[hydrogen]
+route = "electrolysis"
+
+[electrolysis]
+technology = "alkaline"
+electricity_kwh_per_kg_h2 = 50.0
+
+[electricity.sources.grid]
+share = 1.0
+factor = "electricity.grid.eu27_2018"
+
+[lifetime]
+{lifetime}
+"""
+
+SHORT_LIFE = """\
+operating_years = 3
+first_year = 2030
+nameplate_output_t_per_year = 1000
+capacity_factor = 0.5
+efficiency_loss_per_year = 0.1
+stack_replacement_years = 2
+plant_construction_t_co2e = 1450
+grid_trajectory_csv = "grid.csv"
+"""
+
+
+def _trajectory(folder, values):
+    rows = "".join(f"grid.{year},{value},g CO2e/kWh,test trajectory (invented),,{year},,,false\n" for year, value in values.items())
+    return write(folder / "grid.csv", FACTOR_HEADER + rows)
+
+
+def _score(tmp_path, lifetime_text, trajectory=None, **options):
+    if trajectory is not None:
+        _trajectory(tmp_path, trajectory)
+    path = write(tmp_path / "project.toml", PROJECT.format(lifetime=lifetime_text))
+    project, sha = load_project(path)
+    return lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha, **options)
+
+
+def test_lifetime_average_is_the_output_weighted_mean(tmp_path):
+    result = _score(tmp_path, SHORT_LIFE, {2030: 300, 2031: 200, 2032: 100})
+    # Hand computation. Stack ages 0, 1, 0 (replaced after 2 years); efficiency 1, 0.9, 1 of new.
+    # Electricity 50, 50/0.9 = 55.556, 50 kWh/kg; grid 300, 200, 100 g CO2e/kWh, so
+    # intensity 15, 11.111, 5 kg CO2e/kg H2. Output 1000 t x 0.5 x efficiency = 500, 450, 500 t.
+    yearly = [15.0, 50 / 0.9 * 0.2, 5.0]
+    outputs = [500.0, 450.0, 500.0]
+    assert [y.total for y in result.years] == pytest.approx(yearly, rel=1e-12)
+    assert [y.output_t for y in result.years] == pytest.approx(outputs, rel=1e-12)
+    # (15 x 500 + 11.111 x 450 + 5 x 500) / 1450 = 15000 / 1450 = 10.3448 kg CO2e/kg H2
+    assert result.average_without_construction == pytest.approx(15000 / 1450, rel=1e-12)
+    assert result.lifetime_output_t == pytest.approx(1450.0)
+    # Japan hydrogen (3.4 kg CO2e/kg H2, life-cycle electricity): every year is above it.
+    japan = next(s for s in result.schemes if s.scheme == "japan-hydrogen")
+    assert japan.years_missed == [2030, 2031, 2032]
+    assert japan.average_without_construction == pytest.approx(15000 / 1450, rel=1e-12)
+
+
+def test_stack_replacement_resets_efficiency(tmp_path):
+    life = "operating_years = 5\nfirst_year = 2030\nnameplate_output_t_per_year = 100\nefficiency_loss_per_year = 0.02\nstack_replacement_years = 3\n"
+    result = _score(tmp_path, life)
+    assert [y.stack_age_years for y in result.years] == [0, 1, 2, 0, 1]
+    assert [y.efficiency_fraction for y in result.years] == pytest.approx([1.0, 0.98, 0.96, 1.0, 0.98])
+    # constant grid (281 g/kWh): year 4 (new stacks) is back to year 1, 50 kWh x 0.281 = 14.05
+    assert result.years[3].total == pytest.approx(result.years[0].total, rel=1e-12)
+    assert result.years[0].total == pytest.approx(50 * 0.281, rel=1e-12)
+    assert result.years[2].total == pytest.approx(50 / 0.96 * 0.281, rel=1e-12)
+    never = _score(tmp_path, life.replace("stack_replacement_years = 3\n", ""))
+    assert [y.stack_age_years for y in never.years] == [0, 1, 2, 3, 4]
+    assert never.years[3].total > result.years[3].total
+
+
+def test_construction_emissions_are_divided_by_lifetime_output(tmp_path):
+    result = _score(tmp_path, SHORT_LIFE, {2030: 300, 2031: 200, 2032: 100})
+    # 1450 t CO2e over 1450 t H2 = 1.0 kg CO2e/kg H2
+    assert result.construction_kg_co2e_per_unit == pytest.approx(1.0, rel=1e-12)
+    assert result.average_with_construction == pytest.approx(15000 / 1450 + 1.0, rel=1e-12)
+    us = next(s for s in result.schemes if s.scheme == "us-45v")
+    assert us.average_with_construction - us.average_without_construction == pytest.approx(1.0, rel=1e-9)
+    # per MJ: 1 kg/kg = 1000 g / 119.96 MJ (hydrogen LHV, US DOE HyARC table) = 8.336 g CO2e/MJ
+    eu = next(s for s in result.schemes if s.scheme == "eu-rfnbo")
+    assert eu.average_with_construction - eu.average_without_construction == pytest.approx(1000 / 119.96, rel=1e-9)
+    # every shipped rulebook leaves construction out (recorded from memory): the verdict uses the average without
+    assert not us.counts_construction and us.lifetime_value == us.average_without_construction
+
+
+def test_a_rulebook_that_counts_construction_uses_the_average_with_it(tmp_path, monkeypatch):
+    from carbonledger import api
+
+    factors = tmp_path / "factors"
+    shutil.copytree(ROOT / "factors", factors)
+    scheme = factors / "schemes" / "us-45v.toml"
+    scheme.write_text(scheme.read_text().replace("counts_construction = false", "counts_construction = true"))
+    monkeypatch.setenv("CARBONLEDGER_FACTORS", str(factors))
+    api._schemes.cache_clear()
+    try:
+        project_folder = tmp_path / "p"
+        result = _score(project_folder, SHORT_LIFE, {2030: 300, 2031: 200, 2032: 100})
+    finally:
+        api._schemes.cache_clear()
+    us = next(s for s in result.schemes if s.scheme == "us-45v")
+    assert us.counts_construction and us.lifetime_value == pytest.approx(15000 / 1450 + 1.0)
+
+
+def test_trajectory_from_a_factor_set_with_years():
+    path = PORTFOLIO / "vennor_hybrid_hydrogen.toml"
+    project, _ = load_project(path, ["lifetime.grid_trajectory_csv=''", "lifetime.grid_trajectory_factors='electricity.grid.vennor_bay'"])
+    result = lifetime_score(project, load_factor_set("demo-2027-grid-revision"), project_file=str(path))
+    # the invented demo trajectory: 300 g CO2e/kWh in 2027, 80 in 2036
+    assert result.years[0].grid_factor == 300 and result.years[-1].grid_factor == 80
+    # 2027: 13.78 kWh/kg from the grid x 0.300 kg/kWh = 4.134 kg CO2e/kg H2 under 45V (wind at zero)
+    assert result.years[0].scheme_values["us-45v"] == pytest.approx(13.78 * 0.300, rel=1e-12)
+
+
+def test_bad_lifetime_input(tmp_path):
+    with pytest.raises(InputError, match="missing 2031"):
+        _score(tmp_path, SHORT_LIFE, {2030: 300, 2032: 100})
+    result = run_cli("score", tmp_path / "project.toml", "--lifetime")
+    assert_one_line_error(result)
+    assert "missing 2031" in result.stderr
+    short = write(tmp_path / "short.toml", PROJECT.format(lifetime=SHORT_LIFE.replace("operating_years = 3", "operating_years = 0")))
+    result = run_cli("score", short, "--lifetime")
+    assert_one_line_error(result)
+    assert "lifetime.operating_years" in result.stderr
+    half = write(tmp_path / "half.toml", PROJECT.format(lifetime=SHORT_LIFE.replace("operating_years = 3", "operating_years = 0.5")))
+    assert_one_line_error(run_cli("score", half, "--lifetime"))
+    no_section = write(tmp_path / "plain.toml", PROJECT.replace("[lifetime]\n{lifetime}\n", ""))
+    assert_one_line_error(run_cli("score", no_section, "--lifetime"))
+
+
+def test_score_lifetime_command_formats(tmp_path):
+    _trajectory(tmp_path, {2030: 300, 2031: 200, 2032: 100})
+    path = write(tmp_path / "project.toml", PROJECT.format(lifetime=SHORT_LIFE))
+    table = run_cli("score", path, "--lifetime")
+    assert table.exit_code == 0, table.output
+    assert "years missed" in table.stdout and "2031" in table.stdout and "Caution" in table.stdout
+    data = json.loads(run_cli("score", path, "--lifetime", "--format", "json").stdout)
+    assert data["average_without_construction"] == pytest.approx(15000 / 1450)
+    assert len(data["years"]) == 3
+    csv_text = run_cli("score", path, "--lifetime", "--format", "csv").stdout
+    assert csv_text.splitlines()[0].startswith("year,") and "lifetime_with_construction" in csv_text

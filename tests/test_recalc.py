@@ -1,0 +1,109 @@
+"""Portfolio recalculation: which projects move, by how much, and the exit codes."""
+
+import csv
+import io
+import json
+
+import pytest
+
+from carbonledger.api import score_project
+from carbonledger.factors import load_factor_set
+from carbonledger.portfolio import load_portfolio, recalc, score_many
+
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
+
+# EEA indicator IND-353: EU-27 2018 average 281 g CO2e/kWh (the value in default-2026).
+EU27_2018_G_PER_KWH = 281.0
+NEW_GRID_G_PER_KWH = 318.0
+
+
+@pytest.fixture
+def grid_update(tmp_path):
+    """An override CSV that changes only the EU-27 grid factor, 281 -> 318 g CO2e/kWh."""
+    return write(
+        tmp_path / "grid_update.csv",
+        FACTOR_HEADER + f"electricity.grid.eu27_2018,{NEW_GRID_G_PER_KWH},g CO2e/kWh,test update (invented),,2018,EU-27,,false\n",
+    )
+
+
+def _rows(result, project_stem):
+    return {row.scheme: row for row in result.rows if row.project_file.endswith(project_stem + ".toml")}
+
+
+def test_grid_change_moves_only_grid_projects_by_the_hand_computed_amount(grid_update):
+    projects = load_portfolio([DEMO, PORTFOLIO])
+    result = recalc(projects, load_factor_set("default-2026"), load_factor_set(str(grid_update)))
+    delta_g = NEW_GRID_G_PER_KWH - EU27_2018_G_PER_KWH  # 37 g CO2e/kWh
+
+    # Grid-connected hydrogen: 52 kWh/kg electrolysis + 1.5 kWh/kg conditioning, all from the grid
+    # (demo file). Change = 53.5 kWh/kg x 37 g/kWh = 1979.5 g = 1.9795 kg CO2e/kg H2, whatever the
+    # GWP set (the grid factor is already in CO2e).
+    grid = _rows(result, "grid_electrolysis_hydrogen")
+    assert grid["japan-hydrogen"].change == pytest.approx(53.5 * delta_g / 1000, rel=1e-12)
+    assert grid["us-45v"].change == pytest.approx(1.9795, rel=1e-12)
+    # per MJ: 1979.5 g / 119.96 MJ/kg (hydrogen LHV, US DOE HyARC table) = 16.5013 g CO2e/MJ
+    assert grid["eu-rfnbo"].change == pytest.approx(1979.5 / 119.96, rel=1e-12)
+
+    # Hybrid: (52 + 1.0) kWh/kg x 26 % grid = 13.78 kWh/kg from the grid; under 45V wind counts
+    # zero, so 45V moves 13.78 x 37 / 1000 = 0.50986 kg CO2e/kg H2, from 3.87218 (13.78 x 0.281)
+    # under the 4 kg limit to 4.38204 above it.
+    hybrid = _rows(result, "vennor_hybrid_hydrogen")
+    assert hybrid["us-45v"].old_value == pytest.approx(13.78 * 0.281, rel=1e-12)
+    assert hybrid["us-45v"].change == pytest.approx(0.50986, rel=1e-12)
+    assert hybrid["us-45v"].status == "newly fails"
+
+    # Projects without grid electricity do not move and are not even rescored.
+    for stem in ("green_electrolysis_ammonia", "skelmar_green_hydrogen"):
+        for row in _rows(result, stem).values():
+            assert row.change == 0.0 and not row.rescored and row.status in ("still passes", "still fails")
+    moved = {row.project_file for row in result.rows if row.change != 0.0}
+    assert all("green" not in name for name in moved)
+    assert result.changed_factors == ["electricity.grid.eu27_2018"]
+
+
+def test_newly_failing_rows_come_first(grid_update):
+    result = recalc(load_portfolio([DEMO, PORTFOLIO]), load_factor_set("default-2026"), load_factor_set(str(grid_update)))
+    statuses = [row.status for row in result.rows]
+    count = statuses.count("newly fails")
+    assert count == 2  # blue ATR ammonia under the EU RFNBO rule, hybrid hydrogen under 45V
+    assert statuses[:count] == ["newly fails"] * count
+
+
+def test_fast_path_equals_bw2calc_score_project():
+    """The stacked numpy solve against bw2calc (one LCA per project), to 1e-9 relative."""
+    projects = load_portfolio([DEMO, PORTFOLIO])
+    for name in ("default-2026", "demo-2027-grid-revision"):
+        factor_set = load_factor_set(name)
+        for item, quick in zip(projects, score_many(projects, factor_set, check_with_bw2calc=False)):
+            reference = score_project(item.project, factor_set)
+            assert quick.total == pytest.approx(reference.total, rel=1e-9, abs=1e-12)
+            for stage, value in reference.by_stage.items():
+                assert quick.by_stage[stage] == pytest.approx(value, rel=1e-9, abs=1e-9)
+            assert [c.scheme for c in quick.checks] == [c.scheme for c in reference.checks]
+            for fast, slow in zip(quick.checks, reference.checks):
+                assert fast.value == pytest.approx(slow.value, rel=1e-9, abs=1e-12)
+                assert fast.passes == slow.passes
+
+
+def test_recalc_exit_codes_and_formats(tmp_path):
+    args = ["recalc", DEMO, PORTFOLIO, "--from", "default-2026", "--to", "demo-2027-grid-revision"]
+    plain = run_cli(*args)
+    assert plain.exit_code == 0, plain.output
+    assert "NEWLY FAILS" in plain.stdout
+    failing = run_cli(*args, "--fail-on-new-failures", "--format", "json")
+    assert failing.exit_code == 3
+    data = json.loads(failing.stdout)
+    assert data["newly_failing"] == 2 and data["rows"][0]["status"] == "newly fails"
+    # the other way round, projects only newly pass: exit 0 even with the flag
+    back = run_cli("recalc", DEMO, PORTFOLIO, "--from", "demo-2027-grid-revision", "--to", "default-2026", "--fail-on-new-failures", "--format", "csv")
+    assert back.exit_code == 0, back.output
+    rows = list(csv.DictReader(io.StringIO(back.stdout)))
+    assert rows[0]["status"] == "newly passes" and not [r for r in rows if r["status"] == "newly fails"]
+    assert_one_line_error(run_cli("recalc", tmp_path / "missing", "--to", "demo-2027-grid-revision"))
+    assert_one_line_error(run_cli("recalc", DEMO, "--to", "no-such-set"))
+
+
+def test_recalc_scheme_filter_keeps_schemes_that_apply():
+    result = recalc(load_portfolio([DEMO]), load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision"), schemes=["japan-ammonia"])
+    assert {row.scheme for row in result.rows} == {"japan-ammonia"}
+    assert {row.project_file.split("/")[-1] for row in result.rows} == {"blue_atr_ammonia.toml", "green_electrolysis_ammonia.toml", "grey_smr_ammonia.toml"}
