@@ -31,6 +31,7 @@ GwpOption = Annotated[str, typer.Option("--gwp", help="GWP100 set of the headlin
 SchemeOption = Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id to check (repeatable); default: all that apply.")]
 SetOption = Annotated[Optional[list[str]], typer.Option("--set", help="Override a project parameter: dotted.path=value (repeatable).")]
 FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
+BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
 
 
 def _fail(error: InputError) -> None:
@@ -46,12 +47,13 @@ def score(
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     output_format: FormatOption = OutputFormat.table,
+    boundary: BoundaryOption = None,
 ) -> None:
-    """Score a project cradle-to-gate: total, intensities, by stage, by gas, scheme checks."""
+    """Score a project: total, intensities, by stage, by gas, scheme checks."""
     from .api import score as run
 
     try:
-        result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_)
+        result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
     except InputError as error:
         _fail(error)
     if output_format is OutputFormat.json:
@@ -200,3 +202,4 @@ def main() -> None:
     except BrokenPipeError:  # e.g. piped into head
         sys.stderr.close()
         sys.exit(0)
+from . import cli_compare  # noqa: E402,F401

@@ -65,7 +65,7 @@ def render(result: ScoreResult) -> str:
     from rich.console import Console
     from rich.table import Table
 
-    console = Console(record=True, width=110, force_terminal=False, color_system=None)
+    console = Console(file=io.StringIO(), record=True, width=110, force_terminal=False, color_system=None)
     console.print(f"[bold]{result.project}[/bold]  ({result.product}, {result.boundary})")
     console.print(
         f"functional unit: {result.functional_unit}   GWP100: {result.gwp_basis.upper()}   "
