@@ -72,11 +72,9 @@ def voyage_figures(ship: dict, inputs) -> dict[str, Any]:
     laden = shipping.laden_leg_fuel_t(ship["fuel_t_per_day_at_sea"], days, ship["fuel_g_per_tonne_nautical_mile"], ship["cargo_t_per_voyage"], ship["distance_nautical_miles"])
     main = shipping.voyage_fuel_t(laden, ship["ballast_return_fuel_ratio"], ship["port_days"], ship["port_fuel_t_per_day"])
     figures: dict[str, Any] = {"destination": ship["destination"], "days_at_sea_laden": days, "fuel": ship["fuel"]}
-    boil_off = 0.0 * main
-    if ship["tank_heat_ingress_kw"] > 0:
-        latent = inputs.latent_heat_ammonia()
-        boil_off = shipping.boil_off_t(ship["tank_heat_ingress_kw"], shipping.HOURS_PER_DAY * (days + ship["port_days"]), latent)
-        figures["latent_heat_kj_per_kg"] = latent
+    latent = inputs.latent_heat_ammonia()
+    boil_off = shipping.boil_off_t(ship["tank_heat_ingress_kw"], shipping.HOURS_PER_DAY * (days + ship["port_days"]), latent)
+    figures["latent_heat_kj_per_kg"] = latent
     reliquefied = ship["boil_off_handling"] == "reliquefaction"
     relique_fuel = shipping.reliquefaction_fuel_t(boil_off, ship["reliquefaction_kwh_per_kg_boil_off"], ship["generator_fuel_g_per_kwh"])
     main = main + (relique_fuel if reliquefied else 0.0 * relique_fuel)

@@ -341,3 +341,21 @@ def test_hydrogen_burnt_cannot_exceed_the_recovery(tmp_path):
     with pytest.raises(InputError) as error:
         score(write_project(tmp_path, body))
     assert error.value.field == "cracking.hydrogen_recovery_fraction"
+
+
+def test_stage_functions_take_arrays_of_draws():
+    # Arithmetic only: a batch of Monte Carlo draws flows through the same functions.
+    import numpy as np
+
+    from carbonledger.stages import cracking, shipping
+
+    distance = np.array([3000.0, 6000.0, 9000.0])
+    days = shipping.days_at_sea(distance, 15.0)
+    laden = shipping.laden_leg_fuel_t(35.0, days, 0.0, 38000.0, distance)
+    fuel = shipping.voyage_fuel_t(laden, 0.85, 4.0, 5.0)
+    assert fuel.shape == (3,) and np.all(np.diff(fuel) > 0)
+    boil = shipping.boil_off_t(np.array([0.0, 300.0]), 24.0, 1370.0)
+    assert boil[0] == 0.0 and boil[1] == pytest.approx(300 * 86400 / 1370 / 1000)
+    burnt = cracking.hydrogen_burnt_share(np.array([20.0, 30.0]), 119.96, "hydrogen")
+    assert burnt.shape == (2,)
+    assert np.all(cracking.hydrogen_burnt_share(np.array([20.0, 30.0]), 119.96, "ammonia") == 0)
