@@ -202,4 +202,6 @@ def main() -> None:
     except BrokenPipeError:  # e.g. piped into head
         sys.stderr.close()
         sys.exit(0)
+
+
 from . import cli_compare  # noqa: E402,F401

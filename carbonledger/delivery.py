@@ -209,9 +209,12 @@ def add_delivery(params: dict, inputs, gate: str, product: str, source: str = "p
 
 
 def check_delivery(params: dict, inputs, source: str) -> None:
-    """Refuse delivery inputs that no factor covers or that physics forbids (numbers only)."""
-    if params["project"]["boundary"] == "cradle-to-gate":
-        return
+    """Refuse delivery inputs that no factor covers or that physics forbids (numbers only).
+
+    Fuel and engine names are checked whatever the boundary; the voyage and cracker balances
+    (which need CoolProp) only when the boundary reaches beyond the gate.
+    """
+    beyond_gate = params["project"]["boundary"] != "cradle-to-gate"
     if params["project"]["boundary"] == "well-to-wake" and params.get("end_use") is None and params["project"]["product"] == "ammonia" and not params.get("cracking"):
         raise InputError(source, "end_use", "an [end_use] section (converter, N2O and ammonia slip) for boundary 'well-to-wake'")
     factor_set = inputs.factor_set
@@ -224,17 +227,16 @@ def check_delivery(params: dict, inputs, source: str) -> None:
             raise InputError(source, "shipping.engine", f"an LNG engine type with a methane slip factor ({', '.join(lng_engines(factor_set))}), got '{ship['engine']}'")
         if ship["fuel"] != "lng" and ship["engine"]:
             raise InputError(source, "shipping.engine", f"no engine type for fuel '{ship['fuel']}' (it only selects the methane slip of LNG)")
-        for field in ("pilot_fuel",):
-            if ship[field] and ship[field] not in fuels[:-1]:
-                raise InputError(source, f"shipping.{field}", f"a marine fuel of set '{factor_set.name}' ({', '.join(fuels[:-1])}), got '{ship[field]}'")
-        figures = voyage_figures(ship, inputs)
-        if not figures["cargo_delivered_t_per_voyage"] > 0:
+        if ship["pilot_fuel"] and ship["pilot_fuel"] not in fuels[:-1]:
+            raise InputError(source, "shipping.pilot_fuel", f"a marine fuel of set '{factor_set.name}' ({', '.join(fuels[:-1])}), got '{ship['pilot_fuel']}'")
+        figures = voyage_figures(ship, inputs) if beyond_gate else {}
+        if figures and not figures["cargo_delivered_t_per_voyage"] > 0:
             raise InputError(source, "shipping.tank_heat_ingress_kw", f"a heat ingress that leaves cargo to deliver (boil-off {figures['boil_off_t_per_voyage']:.0f} t of {ship['cargo_t_per_voyage']:g} t loaded)")
     use = params.get("end_use")
     if use and use["pilot_fuel"] and use["pilot_fuel"] not in fuels[:-1]:
         raise InputError(source, "end_use.pilot_fuel", f"a marine fuel of set '{factor_set.name}' ({', '.join(fuels[:-1])}), got '{use['pilot_fuel']}'")
     c = params.get("cracking")
-    if c:
+    if c and beyond_gate:
         figures = cracking_figures(c, inputs)
         if not c["hydrogen_recovery_fraction"] > figures["hydrogen_burnt_per_kg_h2_cracked"]:
             raise InputError(

@@ -359,3 +359,9 @@ def test_stage_functions_take_arrays_of_draws():
     burnt = cracking.hydrogen_burnt_share(np.array([20.0, 30.0]), 119.96, "hydrogen")
     assert burnt.shape == (2,)
     assert np.all(cracking.hydrogen_burnt_share(np.array([20.0, 30.0]), 119.96, "ammonia") == 0)
+
+
+def test_unknown_fuel_is_refused_even_at_the_plant_gate(tmp_path):
+    with pytest.raises(InputError) as error:
+        score(write_project(tmp_path, VOYAGE.replace('"heavy_fuel_oil"', '"methanol"'), boundary="cradle-to-gate"))
+    assert error.value.field == "shipping.fuel"

@@ -123,8 +123,13 @@ def comparison_figure(result: ComparisonResult):
     axes.set_ylabel(f"{result.unit}, {result.boundary}")
     axes.set_title(f"Carbon intensity by stage, {result.boundary} (GWP100 {result.gwp_basis.upper()})", fontsize=10)
     axes.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
-    axes.margins(y=0.1)
-    figure.supxlabel("Screening estimate, not a certification. Dashed lines: scheme limits, each applying on its scheme's own boundary and basis.", fontsize=6.5)
+    limits = [limit for limit, _ in threshold_lines(result)]
+    axes.set_ylim(min(below + [0.0]) * 1.1, max(above + limits + [0.0]) * 1.1 or 1.0)
+    figure.supxlabel(
+        "Dashed lines: scheme limits, each applying on its scheme's own boundary and basis. Screening estimate, not a certification:\n"
+        "the scheme's official methodology, an accredited verifier and local regulation take precedence.",
+        fontsize=6.5,
+    )
     return figure
 
 
