@@ -6,7 +6,7 @@ from pathlib import Path
 
 from ..comparison import ComparisonResult
 from ..errors import InputError
-from .text import INTENSITY_UNITS, _fmt, to_csv
+from .text import INTENSITY_UNITS, _fmt
 
 CHART_FORMATS = ("png", "svg")
 
