@@ -24,4 +24,8 @@ def __getattr__(name):  # lazy: keep `import carbonledger` cheap for the command
         from . import api
 
         return getattr(api, name)
+    if name == "compare":
+        from .comparison import compare
+
+        return compare
     raise AttributeError(name)

@@ -16,8 +16,8 @@ from . import CAUTION, __version__
 from .engine import build_matrices, solve
 from .errors import InputError
 from .factors import DEFAULT_SET, FactorSet, load_factor_set
-from .inventory import FLOWS, STAGES, NumericInputs, build_inventory, check_physical_limits
-from .project import Project, load_project
+from .inventory import FLOWS, NON_GHG_FLOWS, STAGES, NumericInputs, build_inventory, check_physical_limits
+from .project import BOUNDARIES, Project, load_project
 from .reference import ReferenceValue
 from .results import Check, ExchangeRow, FactorSetRef, FactorUsed, Intensity, ScoreResult
 from .schemes import Scheme, load_schemes, select_schemes
@@ -45,6 +45,8 @@ def characterisation(inputs: NumericInputs, gwp: str) -> np.ndarray:
     for flow in FLOWS:
         if flow == "co2e_precharacterised":
             values.append(1.0)
+        elif flow in NON_GHG_FLOWS:
+            values.append(0.0)
         else:
             gas = flow.split("_")[0]
             factor_id = f"gwp.{gwp}.{gas}" if gas == "co2" else f"gwp.{gwp}.{flow}"
@@ -104,9 +106,24 @@ class Prepared:
     fraction: float
 
 
-def prepare(project: Project, factor_set: FactorSet, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None, source: str = "project") -> Prepared:
-    """Validated project + factor set -> inventory, matrices and characterisation vectors."""
+def prepare(
+    project: Project,
+    factor_set: FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    boundary: str | None = None,
+) -> Prepared:
+    """Validated project + factor set -> inventory, matrices and characterisation vectors.
+
+    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
+    """
     params = project.model_dump()
+    if boundary is not None:
+        if boundary not in BOUNDARIES:
+            raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+        params["project"]["boundary"] = boundary
     inputs = NumericInputs(factor_set, source)
     check_physical_limits(params, inputs, source)
     inventory = build_inventory(params, inputs)
@@ -118,7 +135,7 @@ def prepare(project: Project, factor_set: FactorSet, *, gwp: str = DEFAULT_GWP, 
         if scheme.gwp not in per_gwp:
             per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp)
     matrices = build_matrices(inventory)
-    demands = [inventory.reference] + ([inventory.hydrogen] if inventory.hydrogen != inventory.reference else [])
+    demands = list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
     ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if product == "ammonia" else float("nan")
     fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
@@ -139,7 +156,7 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
                 for key in keys
             ]
         )
-        basis_demand = inventory.reference if scheme.basis == "product" else inventory.hydrogen
+        basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
         basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
         scheme_total = float(solutions[basis_demand].contributions(prepared.per_gwp[scheme.gwp], zero_rated).sum())
         value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
@@ -171,9 +188,13 @@ def score_project(
     schemes: list[str] | None = None,
     source: str = "project",
     project_sha256: str = "",
+    boundary: str | None = None,
 ) -> ScoreResult:
-    """Score a validated project with a loaded factor set (the reusable core of ``score``)."""
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source)
+    """Score a validated project with a loaded factor set (the reusable core of ``score``).
+
+    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
+    """
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary)
     params, inputs, inventory, matrices = prepared.params, prepared.inputs, prepared.inventory, prepared.matrices
     product, headline = inventory.product, prepared.headline
     solutions, bw_score = solve(matrices, prepared.demands, headline)
@@ -189,7 +210,8 @@ def score_project(
     by_stage = {stage: 0.0 for stage in STAGES if any(s == stage for s in stage_of.values())}
     for key, value in by_activity.items():
         by_stage[stage_of[key]] += value
-    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1))}
+    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1)) if flow not in NON_GHG_FLOWS}
+    non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1)) if flow in NON_GHG_FLOWS}
 
     hydrogen_lhv, ammonia_lhv, fraction = prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
@@ -210,11 +232,12 @@ def score_project(
         for activity in inventory.activities.values()
         for exchange in activity.exchanges
     ]
-    functional_unit, unit = FUNCTIONAL_UNITS[product]
+    reference_product = inventory.reference_product
+    unit = FUNCTIONAL_UNITS[reference_product][1]
     heating = {"hydrogen_lhv": hydrogen_lhv}
     if product == "ammonia":
         heating["ammonia_lhv"] = ammonia_lhv
-    all_intensities = intensities(total, product, hydrogen_lhv, ammonia_lhv, fraction)
+    all_intensities = intensities(total, reference_product, hydrogen_lhv, ammonia_lhv, fraction)
     return ScoreResult(
         carbonledger_version=__version__,
         caution=CAUTION,
@@ -222,8 +245,9 @@ def score_project(
         project_file=source,
         project_sha256=project_sha256,
         product=product,
-        boundary=project.project.boundary,
-        functional_unit=functional_unit,
+        boundary=params["project"]["boundary"],
+        functional_unit=inventory.functional_unit,
+        reference_product=reference_product,
         unit=unit,
         gwp_basis=gwp,
         factor_set=FactorSetRef(name=factor_set.name, sha256=factor_set.sha256),
@@ -232,13 +256,22 @@ def score_project(
         hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
         by_stage=by_stage,
         by_gas=by_gas,
+        non_ghg_kg=non_ghg,
         by_activity=by_activity,
         heating_values_mj_per_kg=heating,
         factors_used=_factor_rows(inputs.used),
         checks=checks,
         exchanges=exchanges,
         parameters=params,
+        delivery=_plain(inventory.delivery),
     )
+
+
+def _plain(value):
+    """Figures as JSON-ready floats and text."""
+    if isinstance(value, dict):
+        return {key: _plain(item) for key, item in value.items()}
+    return value if isinstance(value, str) else float(value)
 
 
 def score(
@@ -248,8 +281,9 @@ def score(
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
+    boundary: str | None = None,
 ) -> ScoreResult:
-    """Score a project file: cradle-to-gate carbon intensity, by stage and gas, with scheme checks.
+    """Score a project file: carbon intensity, by stage and gas, with scheme checks.
 
     Parameters
     ----------
@@ -258,7 +292,8 @@ def score(
     gwp : GWP100 set of the headline result ('ar4', 'ar5', 'ar6'); each scheme check uses its own.
     schemes : scheme ids to check; default all that apply to the product.
     overrides : 'dotted.parameter=value' strings applied to the project before validation.
+    boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
     """
     project, sha = load_project(project_file, overrides)
     factor_set = factors if isinstance(factors, FactorSet) else load_factor_set(factors)
-    return score_project(project, factor_set, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
+    return score_project(project, factor_set, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, boundary=boundary)

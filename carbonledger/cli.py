@@ -33,6 +33,7 @@ SetOption = Annotated[Optional[list[str]], typer.Option("--set", help="Override 
 FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
 LedgerOption = Annotated[Optional[Path], typer.Option("--ledger", help="Run ledger (SQLite) to record in; default $CARBONLEDGER_LEDGER or the user's data folder.")]
 NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
+BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
 
 
 def _fail(error: InputError) -> None:
@@ -51,8 +52,9 @@ def score(
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
+    boundary: BoundaryOption = None,
 ) -> None:
-    """Score a project cradle-to-gate: total, intensities, by stage, by gas, scheme checks."""
+    """Score a project: total, intensities, by stage, by gas, scheme checks."""
     from .api import score as run
     from .ledger import check_ledger, ledger_path, record_run
 
@@ -62,9 +64,10 @@ def score(
         if lifetime:
             from .cli_recalc import score_lifetime
 
-            score_lifetime(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, ledger=where, output_format=output_format)
+            overrides = list(set_ or []) + ([f'project.boundary="{boundary}"'] if boundary else [])
+            score_lifetime(project, factors=factors, gwp=gwp, schemes=scheme, overrides=overrides, ledger=where, output_format=output_format)
             return
-        result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_)
+        result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
         if where is not None:
             record_run("score", [result], ledger=where)
     except InputError as error:
@@ -217,4 +220,4 @@ def main() -> None:
         sys.exit(0)
 
 
-from . import cli_recalc  # noqa: E402,F401
+from . import cli_compare, cli_recalc  # noqa: E402,F401

@@ -26,7 +26,9 @@ FLOWS = {
     "ch4_non_fossil": "CH4, non-fossil",
     "n2o": "N2O",
     "co2e_precharacterised": "CO2e given by a life-cycle factor (not split by gas)",
+    "nh3": "NH3 (ammonia slip; not a greenhouse gas, reported separately)",
 }
+NON_GHG_FLOWS = ("nh3",)  # in the inventory, characterised at zero, left out of by_gas
 
 STAGES = (
     "natural_gas_supply",
@@ -36,6 +38,9 @@ STAGES = (
     "nitrogen_supply",
     "ammonia_synthesis",
     "ammonia_storage",
+    "shipping",
+    "cracking",
+    "end_use",
 )
 
 
@@ -70,6 +75,10 @@ class Inventory:
     hydrogen: str  # the hydrogen production activity (gate of the hydrogen plant)
     product: str
     electricity_kinds: dict[str, str]  # electricity activity key -> grid / renewable / ...
+    gate: str = ""  # the product at the plant gate (ammonia storage, or the hydrogen plant)
+    reference_product: str = ""  # product of the reference activity: ammonia or hydrogen
+    functional_unit: str = ""
+    delivery: dict = field(default_factory=dict)  # voyage and cracking figures
 
 
 class NumericInputs:
@@ -102,6 +111,22 @@ class NumericInputs:
 
     def molar_mass(self, formula: str):
         value = molar_mass(formula)
+        self.used[value.id] = value
+        return value.value
+
+    def latent_heat_ammonia(self):
+        """kJ/kg at 1 atm, from CoolProp (imported only when a project needs it)."""
+        from .reference import ammonia_latent_heat
+
+        value = ammonia_latent_heat()
+        self.used[value.id] = value
+        return value.value
+
+    def formation_enthalpy_ammonia(self):
+        """kJ/mol, NH3(g) at 298.15 K, from the chemicals library."""
+        from .reference import ammonia_formation_enthalpy
+
+        value = ammonia_formation_enthalpy()
         self.used[value.id] = value
         return value.value
 
@@ -239,12 +264,19 @@ def build_inventory(params: dict, inputs) -> Inventory:
     product = params["project"]["product"]
     if product == "ammonia":
         activities += _ammonia_plant(params, inputs)
-    reference = "ammonia_storage" if product == "ammonia" else "hydrogen_production"
-    return Inventory({a.key: a for a in activities}, reference, "hydrogen_production", product, kinds)
+    gate = "ammonia_storage" if product == "ammonia" else "hydrogen_production"
+    from .delivery import add_delivery
+
+    delivered, reference, reference_product, functional_unit, figures = add_delivery(params, inputs, gate, product)
+    activities += delivered
+    return Inventory({a.key: a for a in activities}, reference, "hydrogen_production", product, kinds, gate, reference_product, functional_unit, figures)
 
 
 def check_physical_limits(params: dict, inputs: NumericInputs, source: str) -> None:
     """Refuse values below what physics allows (numbers only; run before building)."""
+    from .delivery import check_delivery
+
+    check_delivery(params, inputs, source)
     route = params["hydrogen"]["route"]
     if route == "electrolysis":
         e = params["electrolysis"]

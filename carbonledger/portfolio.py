@@ -169,18 +169,18 @@ def score_many(
         by_stage = {stage: 0.0 for stage in STAGES if any(a.stage == stage for a in inventory.activities.values())}
         for key, value in zip(ready.matrices.activity_keys, contributions.sum(axis=0)):
             by_stage[inventory.activities[key].stage] += float(value)
-        every = intensities(total, inventory.product, ready.hydrogen_lhv, ready.ammonia_lhv, ready.fraction)
+        every = intensities(total, inventory.reference_product, ready.hydrogen_lhv, ready.ammonia_lhv, ready.fraction)
         scores.append(
             QuickScore(
                 project_file=item.path,
                 project_name=item.project.project.name,
                 project_sha256=item.sha256,
                 product=inventory.product,
-                boundary=item.project.project.boundary,
+                boundary=ready.params["project"]["boundary"],
                 gwp=gwp,
                 factor_set_name=one_set.name,
                 factor_set_sha256=one_set.sha256,
-                unit=FUNCTIONAL_UNITS[inventory.product][1],
+                unit=FUNCTIONAL_UNITS[inventory.reference_product][1],
                 total=total,
                 intensity={k: every[k] for k in ("kg_co2e_per_t_nh3", "kg_co2e_per_kg_h2", "g_co2e_per_mj")},
                 by_stage=by_stage,

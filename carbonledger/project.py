@@ -18,7 +18,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, model_valida
 from .errors import InputError
 
 ROUTES = ("steam_methane_reforming", "autothermal_reforming", "electrolysis")
-BOUNDARIES = ("cradle-to-gate",)
+BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
 
 
 def P(default: Any = ..., unit: str = "", description: str = "", **limits) -> Any:
@@ -35,7 +35,7 @@ class ProjectInfo(_Section):
     product: Literal["ammonia", "hydrogen"] = P(description="Product leaving the plant gate")
     site: str = P("", description="Site (free text)")
     note: str = P("", description="Free text, e.g. where the numbers come from")
-    boundary: Literal[BOUNDARIES] = P("cradle-to-gate", description="System boundary of the headline result")
+    boundary: Literal[BOUNDARIES] = P("cradle-to-gate", description="System boundary of the headline result (--boundary overrides it)")
 
 
 class Hydrogen(_Section):
@@ -116,6 +116,45 @@ class Lifetime(_Section):
     grid_trajectory_factors: str = P("", description="Factor id prefix in the factor set: rows PREFIX.YEAR give the yearly grid factor")
 
 
+class Shipping(_Section):
+    destination: str = P("destination port", description="Port where the ammonia is delivered (free text)")
+    distance_nautical_miles: float = P(unit="nautical miles", description="Laden leg, loading port to destination", gt=0)
+    cargo_t_per_voyage: float = P(unit="t NH3", description="Ammonia loaded per voyage", gt=0)
+    speed_knots: float = P(unit="knots", description="Service speed at sea", gt=0)
+    fuel: str = P(description="Main fuel: a marine fuel of the factor set (heavy_fuel_oil, very_low_sulphur_fuel_oil, marine_gas_oil, lng) or ammonia")
+    engine: str = P("", description="LNG only: engine type, for its methane slip (otto_dual_fuel_medium_speed, otto_dual_fuel_slow_speed, diesel_dual_fuel_slow_speed, lean_burn_spark_ignited)")
+    fuel_t_per_day_at_sea: float = P(0.0, "t fuel/day", "Main fuel per day at sea, laden (give this or fuel_g_per_tonne_nautical_mile)", ge=0)
+    fuel_g_per_tonne_nautical_mile: float = P(0.0, "g fuel/(t cargo x nautical mile)", "Main fuel per tonne of cargo per nautical mile, laden leg", ge=0)
+    ballast_return_fuel_ratio: float = P(unit="fraction of the laden leg's fuel", description="Fuel of the ballast return leg (0: the ship returns with other cargo)", ge=0)
+    port_days: float = P(0.0, "days", "Days in port per voyage (loading and unloading)", ge=0)
+    port_fuel_t_per_day: float = P(0.0, "t fuel/day", "Main fuel per day in port", ge=0)
+    pilot_fuel: str = P("", description="Pilot fuel of an ammonia or dual-fuel engine (a marine fuel of the factor set); empty for none")
+    pilot_fuel_energy_share: float = P(0.0, "fraction of fuel energy", "Share of the engine's fuel energy from the pilot fuel", ge=0, lt=1)
+    ammonia_n2o_g_per_kg: float = P(0.0, "g N2O/kg NH3 burnt", "N2O from ammonia burnt aboard (ammonia fuel, burnt boil-off)", ge=0)
+    ammonia_slip_g_per_kg: float = P(0.0, "g NH3/kg NH3 burnt", "Ammonia passing the engine unburnt (reported, not a GHG)", ge=0)
+    tank_heat_ingress_kw: float = P(0.0, "kW", "Heat leaking into the refrigerated cargo tanks while laden", ge=0)
+    boil_off_handling: Literal["reliquefaction", "burnt"] = P("reliquefaction", description="Boil-off reliquefied on board (generator fuel) or burnt (cargo lost)")
+    reliquefaction_kwh_per_kg_boil_off: float = P(0.0, "kWh/kg NH3", "Electricity to reliquefy boil-off", ge=0)
+    generator_fuel_g_per_kwh: float = P(0.0, "g fuel/kWh", "Specific fuel consumption of the generators (main fuel)", ge=0)
+
+
+class Cracking(_Section):
+    hydrogen_recovery_fraction: float = P(unit="fraction", description="Hydrogen recovered as product per hydrogen cracked (purification losses)", gt=0, le=1)
+    heat_source: Literal["ammonia", "hydrogen", "natural_gas"] = P(description="Fuel burnt for the cracker's heat")
+    heat_to_reactor_efficiency: float = P(unit="fraction", description="Share of the fuel heat (LHV) that reaches the reaction and the feed vaporiser", gt=0, le=1)
+    burner_n2o_g_per_kg_ammonia: float = P(0.0, "g N2O/kg NH3 burnt", "N2O from burning ammonia for heat", ge=0)
+    electricity_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity of the cracker (pumps, purification, compression)", ge=0)
+    electricity_factor: str = P("", description="Factor id of the electricity at the destination (needed when electricity_kwh_per_kg_h2 > 0)")
+
+
+class EndUse(_Section):
+    converter: Literal["engine", "turbine"] = P(description="Where the delivered ammonia is burnt")
+    n2o_g_per_kg_ammonia: float = P(unit="g N2O/kg NH3", description="N2O formed in combustion (engine or turbine data)", ge=0)
+    ammonia_slip_g_per_kg_ammonia: float = P(unit="g NH3/kg NH3", description="Ammonia passing unburnt (reported, not a GHG)", ge=0)
+    pilot_fuel: str = P("", description="Pilot fuel (a marine fuel of the factor set); empty for none")
+    pilot_fuel_energy_share: float = P(0.0, "fraction of fuel energy", "Share of the fuel energy from the pilot fuel", ge=0, lt=1)
+
+
 class Project(_Section):
     project: ProjectInfo
     hydrogen: Hydrogen
@@ -126,6 +165,9 @@ class Project(_Section):
     natural_gas: NaturalGas | None = None
     ammonia: Ammonia | None = None
     lifetime: Lifetime | None = None
+    shipping: Shipping | None = None
+    cracking: Cracking | None = None
+    end_use: EndUse | None = None
 
     @model_validator(mode="after")
     def _sections_fit_the_route(self):
@@ -160,9 +202,31 @@ class Project(_Section):
             oldest = (life.stack_replacement_years or life.operating_years) - 1
             if life.efficiency_loss_per_year * oldest >= 1:
                 raise _SectionError("lifetime.efficiency_loss_per_year", f"a loss that leaves some efficiency at a stack age of {oldest} years")
+        self._delivery_fits()
         if self.uses_natural_gas() and self.natural_gas is None:
             raise _SectionError("natural_gas", "a [natural_gas] section with methane_loss_rate, since the project burns natural gas")
         return self
+
+    def _delivery_fits(self) -> None:
+        for name in ("shipping", "cracking", "end_use"):
+            if getattr(self, name) is not None and self.project.product != "ammonia":
+                raise _SectionError(name, f"no [{name}] section for product 'hydrogen' (delivery is modelled for ammonia)")
+        ship = self.shipping
+        if ship is not None:
+            if (ship.fuel_t_per_day_at_sea > 0) == (ship.fuel_g_per_tonne_nautical_mile > 0):
+                raise _SectionError("shipping.fuel_t_per_day_at_sea", "either fuel_t_per_day_at_sea or fuel_g_per_tonne_nautical_mile above 0, not both")
+            if ship.fuel == "lng" and not ship.engine:
+                raise _SectionError("shipping.engine", "an engine type for fuel 'lng' (its methane slip depends on it)")
+            if bool(ship.pilot_fuel) != (ship.pilot_fuel_energy_share > 0):
+                raise _SectionError("shipping.pilot_fuel_energy_share", "a share above 0 together with a pilot_fuel, or neither")
+            if ship.tank_heat_ingress_kw > 0 and ship.boil_off_handling == "reliquefaction" and not (ship.reliquefaction_kwh_per_kg_boil_off > 0 and ship.generator_fuel_g_per_kwh > 0):
+                raise _SectionError("shipping.reliquefaction_kwh_per_kg_boil_off", "reliquefaction_kwh_per_kg_boil_off and generator_fuel_g_per_kwh above 0 to reliquefy the boil-off")
+        crack = self.cracking
+        if crack is not None and crack.electricity_kwh_per_kg_h2 > 0 and not crack.electricity_factor:
+            raise _SectionError("cracking.electricity_factor", "a factor id for the cracker's electricity")
+        use = self.end_use
+        if use is not None and bool(use.pilot_fuel) != (use.pilot_fuel_energy_share > 0):
+            raise _SectionError("end_use.pilot_fuel_energy_share", "a share above 0 together with a pilot_fuel, or neither")
 
     def uses_natural_gas(self) -> bool:
         return bool(
@@ -170,6 +234,7 @@ class Project(_Section):
             or (self.electrolysis is not None and self.electrolysis.heat_source == "natural_gas" and self.electrolysis.heat_kwh_per_kg_h2 > 0)
             or (self.capture is not None and self.capture.extra_natural_gas_gj_per_t_co2 > 0)
             or (self.ammonia is not None and self.ammonia.synthesis_natural_gas_gj_per_t_nh3 > 0)
+            or (self.cracking is not None and self.cracking.heat_source == "natural_gas")
         )
 
 

@@ -45,3 +45,56 @@ def molar_mass(formula: str) -> ReferenceValue:
         unit="g/mol",
         source=f"chemicals {_chemicals_version()} (chemicals.elements.molecular_weight, IUPAC standard atomic weights)",
     )
+
+
+ATMOSPHERE_PA = 101325.0
+_AMMONIA_CAS = "7664-41-7"
+
+
+@functools.cache
+def _coolprop_version() -> str:
+    from importlib.metadata import version
+
+    return version("CoolProp")
+
+
+@functools.cache
+def ammonia_saturation_at_one_atmosphere() -> tuple[float, float]:
+    """Normal boiling point (K) and latent heat of vaporisation (kJ/kg) of ammonia, from CoolProp.
+
+    CoolProp is imported here, not at module level: it takes about two seconds to load and only
+    projects with a voyage or a cracker need it.
+    """
+    from CoolProp.CoolProp import PropsSI
+
+    boiling_point_k = PropsSI("T", "P", ATMOSPHERE_PA, "Q", 0, "Ammonia")
+    vapour = PropsSI("H", "P", ATMOSPHERE_PA, "Q", 1, "Ammonia")
+    liquid = PropsSI("H", "P", ATMOSPHERE_PA, "Q", 0, "Ammonia")
+    return float(boiling_point_k), float((vapour - liquid) / 1000.0)
+
+
+def ammonia_latent_heat() -> ReferenceValue:
+    """Latent heat of vaporisation of ammonia at 1 atm (refrigerated cargo), kJ/kg."""
+    return ReferenceValue(
+        id="reference.latent_heat.ammonia",
+        value=ammonia_saturation_at_one_atmosphere()[1],
+        unit="kJ/kg",
+        source=f"CoolProp {_coolprop_version()} (PropsSI, saturated ammonia at 101325 Pa: h_vapour - h_liquid)",
+    )
+
+
+@functools.cache
+def _ammonia_formation_enthalpy_j_per_mol() -> float:
+    from chemicals.reaction import Hfg
+
+    return float(Hfg(_AMMONIA_CAS))
+
+
+def ammonia_formation_enthalpy() -> ReferenceValue:
+    """Standard enthalpy of formation of gaseous ammonia at 298.15 K, kJ/mol (negative)."""
+    return ReferenceValue(
+        id="reference.formation_enthalpy.ammonia_gas",
+        value=_ammonia_formation_enthalpy_j_per_mol() / 1000.0,
+        unit="kJ/mol",
+        source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, default method: Active Thermochemical Tables)",
+    )

@@ -72,6 +72,7 @@ class ScoreResult(BaseModel):
     product: str
     boundary: str
     functional_unit: str
+    reference_product: str = ""  # product of the functional unit: ammonia, or hydrogen (at the gate or cracked)
     unit: str
     gwp_basis: str
     factor_set: FactorSetRef
@@ -80,12 +81,14 @@ class ScoreResult(BaseModel):
     hydrogen_production_kg_co2e_per_kg_h2: float
     by_stage: dict[str, float]
     by_gas: dict[str, float]
+    non_ghg_kg: dict[str, float] = {}  # kg per functional unit of flows that are not greenhouse gases (ammonia slip)
     by_activity: dict[str, float]
     heating_values_mj_per_kg: dict[str, float]
     factors_used: list[FactorUsed]
     checks: list[Check]
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]
+    delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
 
     def to_json(self) -> str:
         return self.model_dump_json(indent=2)

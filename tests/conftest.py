@@ -1,5 +1,7 @@
 from __future__ import annotations
 
+import os
+import sys
 import textwrap
 from pathlib import Path
 
@@ -7,6 +9,8 @@ import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
+sys.path.insert(0, str(ROOT))
+os.environ.setdefault("MPLBACKEND", "Agg")
 
 
 @pytest.fixture(autouse=True)

@@ -41,6 +41,7 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str]]:
     rows.append(("hydrogen_production", "kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2, "kg CO2e/kg H2"))
     rows += [("by_stage", key, value, result.unit) for key, value in result.by_stage.items()]
     rows += [("by_gas", key, value, result.unit) for key, value in result.by_gas.items()]
+    rows += [("non_ghg", key, value, "kg per functional unit") for key, value in result.non_ghg_kg.items()]
     for check in result.checks:
         rows += [
             (f"check:{check.scheme}", "value", check.value, check.unit),
@@ -65,7 +66,7 @@ def render(result: ScoreResult) -> str:
     from rich.console import Console
     from rich.table import Table
 
-    console = Console(record=True, width=110, force_terminal=False, color_system=None)
+    console = Console(file=io.StringIO(), record=True, width=110, force_terminal=False, color_system=None)
     console.print(f"[bold]{result.project}[/bold]  ({result.product}, {result.boundary})")
     console.print(
         f"functional unit: {result.functional_unit}   GWP100: {result.gwp_basis.upper()}   "
@@ -90,6 +91,9 @@ def render(result: ScoreResult) -> str:
             share = value / result.total if result.total else 0.0
             table.add_row(key.replace("_", " "), _fmt(value), f"{share:.1%}")
         console.print(table)
+    for flow, kilograms in result.non_ghg_kg.items():
+        if kilograms:
+            console.print(f"{flow.upper()} emitted (not a greenhouse gas, not in CO2e): {_fmt(kilograms)} kg per functional unit")
     if result.checks:
         table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
         for column in ("scheme", "value", "limit", "unit", "verdict", "margin", "tier", "GWP", "electricity"):
@@ -107,6 +111,8 @@ def render(result: ScoreResult) -> str:
                 check.electricity_rule.replace("_", " "),
             )
         console.print(table)
+        if result.boundary != "cradle-to-gate":
+            console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
         if any(check.from_memory for check in result.checks):
             console.print("* rulebook or threshold recorded from memory, not yet checked against the legal text")
     flagged = [f.id for f in result.factors_used if f.from_memory]

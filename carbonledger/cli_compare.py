@@ -1,0 +1,52 @@
+"""`carbonledger compare`: several projects side by side (a thin layer over comparison.compare)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from .cli import BoundaryOption, FactorsOption, FormatOption, GwpOption, OutputFormat, SchemeOption, _fail, app
+from .errors import InputError
+
+
+@app.command()
+def compare(
+    projects: Annotated[list[Path], typer.Argument(help="Project TOML files.")],
+    boundary: BoundaryOption = None,
+    scheme: SchemeOption = None,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    output_format: FormatOption = OutputFormat.table,
+    basis: Annotated[str, typer.Option("--basis", help="auto, t-nh3, kg-h2 or mj (LHV); auto: the products' own unit when all agree, else MJ.")] = "auto",
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")] = None,
+    force: Annotated[bool, typer.Option("--force", help="Overwrite an existing chart file.")] = False,
+) -> None:
+    """Compare projects side by side: total, intensity, by stage, by gas, scheme verdicts."""
+    from .comparison import compare as run
+
+    try:
+        if chart is not None and chart.suffix.lower() not in (".png", ".svg"):
+            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+        if chart is not None and chart.exists() and not force:
+            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        result = run(projects, boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis)
+        if chart is not None:
+            from .outputs.comparison import write_chart
+
+            write_chart(result, chart, force=force)
+    except InputError as error:
+        _fail(error)
+    if output_format is OutputFormat.json:
+        typer.echo(result.to_json())
+    elif output_format is OutputFormat.csv:
+        from .outputs.comparison import comparison_csv
+
+        typer.echo(comparison_csv(result), nl=False)
+    else:
+        from .outputs.comparison import render_comparison
+
+        typer.echo(render_comparison(result), nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)

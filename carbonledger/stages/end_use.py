@@ -1,0 +1,21 @@
+"""End use of delivered ammonia as a fuel (engine or turbine), and ammonia burnt aboard ships.
+
+Ammonia holds no carbon, so burning it emits no CO2; nitrous oxide formed in combustion is a
+greenhouse gas, ammonia that passes unburnt (slip) is not one but is reported separately, and
+the pilot fuel that ignites it burns with its own CO2 conversion factor.
+
+References
+----------
+.. [1] IMO resolution MEPC.376(80) (2023), Guidelines on life cycle GHG intensity of marine
+   fuels: tank-to-wake emissions of ammonia and pilot fuel.
+"""
+
+
+def per_kg(grams_per_kg):
+    """kg emitted per kg of ammonia burnt, from a figure in g/kg."""
+    return grams_per_kg / 1000.0
+
+
+def pilot_fuel_kg_per_kg_ammonia(ammonia_lhv_mj_per_kg, pilot_fuel_lhv_mj_per_kg, pilot_fuel_energy_share):
+    """Pilot fuel per kg of ammonia burnt, for a pilot share of the fuel energy."""
+    return ammonia_lhv_mj_per_kg * pilot_fuel_energy_share / ((1.0 - pilot_fuel_energy_share) * pilot_fuel_lhv_mj_per_kg)

@@ -1,0 +1,172 @@
+"""`carbonledger compare` and its chart, `score --boundary`, and one-line errors with exit code 2."""
+
+import json
+import subprocess
+import sys
+import xml.etree.ElementTree as ET
+from pathlib import Path
+
+import pytest
+from typer.testing import CliRunner
+
+from carbonledger.cli import app
+from carbonledger.comparison import compare
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "demo_projects"
+SHIPPED = [DEMO / f"{name}.toml" for name in ("grey_smr_ammonia_shipped", "blue_atr_ammonia_shipped", "green_electrolysis_ammonia_shipped")]
+CRACKED = DEMO / "green_ammonia_cracked_hydrogen.toml"
+runner = CliRunner()
+
+
+def run(*args):
+    return runner.invoke(app, [str(a) for a in args])
+
+
+def test_compare_same_product_stays_per_tonne_and_stages_sum():
+    result = compare(SHIPPED, boundary="well-to-tank")
+    assert result.basis == "t-nh3" and result.unit == "kg CO2e/t NH3"
+    for project in result.projects:
+        assert project.value == pytest.approx(project.total)
+        assert sum(project.by_stage.values()) == pytest.approx(project.value, rel=1e-9)
+        assert sum(project.by_gas.values()) == pytest.approx(project.value, rel=1e-9)
+    assert "shipping" in result.stages
+
+
+def test_mixed_products_are_put_per_mj_of_lhv():
+    result = compare(SHIPPED[:1] + [CRACKED], boundary="well-to-tank")
+    assert result.basis == "mj"
+    ammonia, hydrogen = result.projects
+    # Per MJ: kg CO2e/t NH3 x 1000 g/kg / (1000 kg x 18.6 MJ/kg), ammonia LHV 18.6 MJ/kg (IEA AMF)
+    assert ammonia.value == pytest.approx(ammonia.total * 1000 / 18600, rel=1e-9)
+    # kg CO2e/kg H2 x 1000 g/kg / 119.96 MJ/kg, hydrogen LHV (DOE HyARC)
+    assert hydrogen.value == pytest.approx(hydrogen.total * 1000 / 119.96, rel=1e-9)
+    assert sum(hydrogen.by_stage.values()) == pytest.approx(hydrogen.value, rel=1e-9)
+
+
+def test_compare_json_and_csv_have_a_column_per_project():
+    out = run("compare", *SHIPPED, "--boundary", "well-to-wake", "--format", "json")
+    assert out.exit_code == 0, out.output
+    data = json.loads(out.stdout)
+    assert data["boundary"] == "well-to-wake" and len(data["projects"]) == 3
+    assert all("end_use" in p["by_stage"] for p in data["projects"])
+    assert all(p["checks"] for p in data["projects"])
+    out = run("compare", *SHIPPED, "--format", "csv", "--scheme", "us-45v")
+    assert out.exit_code == 0, out.output
+    lines = out.stdout.splitlines()
+    assert lines[0].split(",")[3:] == [p.stem for p in SHIPPED]
+    assert any(line.startswith("check:us-45v,verdict") for line in lines)
+    assert not any(line.startswith("check:eu-rfnbo") for line in lines)
+
+
+def test_compare_table_names_boundary_schemes_and_caution():
+    out = run("compare", *SHIPPED, CRACKED, "--boundary", "well-to-tank")
+    assert out.exit_code == 0, out.output
+    text = out.stdout
+    assert "boundary well-to-tank" in text and "g CO2e/MJ (LHV)" in text
+    assert "eu-rfnbo" in text and "Caution" in text
+    assert text.count("Caution") == 1
+
+
+def test_png_chart_is_valid_with_one_bar_per_project(tmp_path):
+    import matplotlib.image
+
+    from carbonledger.outputs.comparison import comparison_figure
+
+    chart = tmp_path / "c.png"
+    out = run("compare", *SHIPPED, "--boundary", "well-to-tank", "--chart", chart)
+    assert out.exit_code == 0, out.output
+    assert chart.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature (PNG specification, ISO/IEC 15948)
+    assert matplotlib.image.imread(chart).ndim == 3
+    figure = comparison_figure(compare(SHIPPED, boundary="well-to-tank"))
+    axes = figure.axes[0]
+    assert all(len(container.patches) == len(SHIPPED) for container in axes.containers)
+    assert [t.get_text() for t in axes.get_xticklabels()] == [p.stem for p in SHIPPED]
+    assert "kg CO2e/t NH3" in axes.get_ylabel()
+
+
+def test_svg_chart_is_valid_xml_with_bars_per_project_and_threshold_lines(tmp_path):
+    chart = tmp_path / "c.svg"
+    out = run("compare", SHIPPED[0], CRACKED, "--boundary", "well-to-tank", "--chart", chart)
+    assert out.exit_code == 0, out.output
+    root = ET.parse(chart).getroot()
+    assert root.tag.endswith("svg")
+    ids = [element.get("id") for element in root.iter() if (element.get("id") or "").startswith("bar-")]
+    assert {i.split("-")[1] for i in ids} == {"0", "1"}
+    text = chart.read_text()
+    assert "eu-rfnbo" in text  # the 28.2 g CO2e/MJ line is drawn and labelled on a per-MJ chart
+
+
+def test_chart_is_not_overwritten_without_force(tmp_path):
+    chart = tmp_path / "c.png"
+    chart.write_bytes(b"keep")
+    out = run("compare", *SHIPPED, "--chart", chart)
+    assert out.exit_code == 2 and "--force" in out.output
+    assert chart.read_bytes() == b"keep"
+    out = run("compare", *SHIPPED, "--chart", chart, "--force")
+    assert out.exit_code == 0 and chart.read_bytes()[:4] == b"\x89PNG"
+
+
+def test_score_boundary_option_and_json_keys():
+    out = run("score", CRACKED, "--boundary", "well-to-wake", "--format", "json")
+    assert out.exit_code == 0, out.output
+    data = json.loads(out.stdout)
+    for key in ("boundary", "functional_unit", "unit", "total", "by_stage", "by_gas", "checks", "non_ghg_kg", "reference_product"):
+        assert key in data
+    assert data["boundary"] == "well-to-wake" and data["reference_product"] == "hydrogen"
+    assert data["functional_unit"].startswith("1 kg H2 delivered")
+    assert sum(data["by_stage"].values()) == pytest.approx(data["total"])
+
+
+def one_line_error(out, field):
+    assert out.exit_code == 2, out.output
+    lines = out.output.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("error: ") and field in lines[0], out.output
+    assert "Traceback" not in out.output
+
+
+@pytest.mark.parametrize(
+    ("setting", "field"),
+    [
+        ("shipping.cargo_t_per_voyage=0", "shipping.cargo_t_per_voyage"),
+        ("shipping.distance_nautical_miles=-10", "shipping.distance_nautical_miles"),
+        ('shipping.fuel="coal_slurry"', "shipping.fuel"),
+        ('shipping.engine="steam_turbine"', "shipping.engine"),
+        ("cracking.hydrogen_recovery_fraction=0", "cracking.hydrogen_recovery_fraction"),
+    ],
+)
+def test_bad_voyage_or_cracker_is_one_line_and_exit_2(setting, field):
+    project = CRACKED if setting.startswith("cracking") else DEMO / "blue_atr_ammonia_shipped.toml"
+    one_line_error(run("score", project, "--set", setting), field)
+
+
+def test_projects_that_cannot_share_a_basis_are_refused():
+    # A hydrogen functional unit has no per-tonne-of-ammonia figure.
+    one_line_error(run("compare", SHIPPED[0], CRACKED, "--boundary", "well-to-tank", "--basis", "t-nh3"), "--basis")
+    # Projects left on their own, different boundaries are not compared.
+    one_line_error(run("compare", DEMO / "grey_smr_ammonia.toml", SHIPPED[0]), "boundary")
+
+
+def test_bad_chart_name_and_boundary_are_refused(tmp_path):
+    one_line_error(run("compare", *SHIPPED, "--chart", tmp_path / "c.pdf"), "--chart")
+    one_line_error(run("score", SHIPPED[0], "--boundary", "cradle-to-grave"), "cradle-to-grave")
+
+
+def test_exit_code_2_from_the_installed_entry_point(tmp_path):
+    out = subprocess.run(
+        [sys.executable, "-m", "carbonledger", "compare", str(SHIPPED[0]), str(CRACKED), "--basis", "t-nh3", "--boundary", "well-to-tank"],
+        capture_output=True, text=True, cwd=ROOT, env={"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin"},
+    )
+    assert out.returncode == 2 and out.stderr.startswith("error: ") and len(out.stderr.strip().splitlines()) == 1
+
+
+def test_plant_gate_score_does_not_load_coolprop_or_matplotlib():
+    code = (
+        "import sys; from carbonledger.cli import main; sys.argv = ['carbonledger', 'score', "
+        f"{str(DEMO / 'green_electrolysis_ammonia.toml')!r}, '--format', 'json']\n"
+        "try:\n    main()\nexcept SystemExit:\n    pass\n"
+        "print([m for m in ('CoolProp', 'matplotlib') if m in sys.modules], file=sys.stderr)"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT, env={"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin"})
+    assert out.returncode == 0, out.stderr
+    assert out.stderr.strip().splitlines()[-1] == "[]"
