@@ -7,7 +7,7 @@ from typing import Annotated, Optional
 
 import typer
 
-from .cli import BoundaryOption, FactorsOption, FormatOption, GwpOption, OutputFormat, SchemeOption, _fail, app
+from .cli import BoundaryOption, FactorsOption, FormatOption, GwpOption, LedgerOption, NoLedgerOption, OutputFormat, SchemeOption, _fail, app
 from .errors import InputError
 
 
@@ -22,11 +22,16 @@ def compare(
     basis: Annotated[str, typer.Option("--basis", help="auto, t-nh3, kg-h2 or mj (LHV); auto: the products' own unit when all agree, else MJ.")] = "auto",
     chart: Annotated[Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")] = None,
     force: Annotated[bool, typer.Option("--force", help="Overwrite an existing chart file.")] = False,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
 ) -> None:
     """Compare projects side by side: total, intensity, by stage, by gas, scheme verdicts."""
     from .comparison import compare as run
+    from .ledger import check_ledger, ledger_path, record_run
 
     try:
+        where = ledger_path(ledger, not no_ledger)
+        check_ledger(where)
         if chart is not None and chart.suffix.lower() not in (".png", ".svg"):
             raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
         if chart is not None and chart.exists() and not force:
@@ -36,6 +41,8 @@ def compare(
             from .outputs.comparison import write_chart
 
             write_chart(result, chart, force=force)
+        if where is not None:
+            record_run("compare", result.scores, ledger=where)
     except InputError as error:
         _fail(error)
     if output_format is OutputFormat.json:

@@ -12,7 +12,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Any
 
-from pydantic import BaseModel
+from pydantic import BaseModel, PrivateAttr
 
 from . import CAUTION
 from .errors import InputError
@@ -53,6 +53,11 @@ class ComparisonResult(BaseModel):
     unit: str
     stages: list[str]  # every stage met, in chain order
     projects: list[ComparedProject]
+    _scores: list = PrivateAttr(default_factory=list)  # the full ScoreResult of each project (for the run ledger)
+
+    @property
+    def scores(self) -> list:
+        return self._scores
 
     def to_json(self) -> str:
         return self.model_dump_json(indent=2)
@@ -129,7 +134,7 @@ def compare(
             )
         )
     met = {stage for r in results for stage in r.by_stage}
-    return ComparisonResult(
+    comparison = ComparisonResult(
         caution=CAUTION,
         boundary=results[0].boundary,
         gwp_basis=gwp,
@@ -141,6 +146,8 @@ def compare(
         stages=[stage for stage in STAGES if stage in met],
         projects=compared,
     )
+    comparison._scores = results
+    return comparison
 
 
 def _known_schemes(requested: list[str]) -> list[str]:

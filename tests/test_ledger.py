@@ -42,6 +42,17 @@ def test_score_and_recalc_are_recorded(_ledger_in_tmp):
     assert json.loads(row[6])["checks"]
 
 
+def test_compare_is_recorded_one_record_per_project(_ledger_in_tmp):
+    projects = [DEMO / "grey_smr_ammonia.toml", DEMO / "green_electrolysis_ammonia.toml"]
+    assert run_cli("compare", *projects, "--boundary", "cradle-to-gate").exit_code == 0
+    runs, records = _counts(_ledger_in_tmp)
+    assert [count for _, count in runs] == [2]
+    with sqlite3.connect(_ledger_in_tmp) as connection:
+        assert connection.execute("SELECT command FROM runs").fetchone()[0] == "compare"
+    assert run_cli("compare", *projects, "--no-ledger").exit_code == 0
+    assert len(_counts(_ledger_in_tmp)[0]) == 1
+
+
 def test_no_ledger_and_explicit_ledger(tmp_path, _ledger_in_tmp):
     project = DEMO / "grid_electrolysis_hydrogen.toml"
     assert run_cli("score", project, "--no-ledger").exit_code == 0
