@@ -40,18 +40,27 @@ def _fail(error: InputError) -> None:
 
 @app.command()
 def score(
-    project: Annotated[Path, typer.Argument(help="Project TOML file.")],
+    ctx: typer.Context,
+    project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (or use --from-workbook).")] = None,
     scheme: SchemeOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     output_format: FormatOption = OutputFormat.table,
+    from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
 ) -> None:
     """Score a project cradle-to-gate: total, intensities, by stage, by gas, scheme checks."""
     from .api import score as run
 
     try:
-        result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_)
+        if (project is None) == (from_workbook is None):
+            raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
+        if from_workbook is not None:
+            from .cli_workbook import score_from_workbook
+
+            result = score_from_workbook(ctx, from_workbook, factors, gwp, scheme, set_)
+        else:
+            result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_)
     except InputError as error:
         _fail(error)
     if output_format is OutputFormat.json:
@@ -200,3 +209,6 @@ def main() -> None:
     except BrokenPipeError:  # e.g. piped into head
         sys.stderr.close()
         sys.exit(0)
+
+
+from . import cli_workbook  # noqa: E402,F401

@@ -659,3 +659,59 @@ def write_workbook_file(path: str | Path, workbook, force: bool = False) -> Path
 
 def number_literal(value: float) -> str:  # re-exported for tests and period blocks
     return number_text(value)
+
+
+def audit_workbook(
+    project_file: str | Path | None = None,
+    *,
+    from_workbook: str | Path | None = None,
+    factors: str | None = None,
+    gwp: str | None = None,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    periods: str | Path | None = None,
+):
+    """The audit workbook of a project file, or of the inputs read back from an earlier workbook.
+
+    Options left as None take the defaults (``--gwp ar6``, the default factor set, every scheme
+    that applies), or, with ``from_workbook``, the settings recorded on that workbook's cover.
+    Returns (openpyxl Workbook, engine ScoreResult).
+    """
+    from ..api import DEFAULT_GWP, score_project
+    from ..factors import DEFAULT_SET, load_factor_set
+    from ..project import load_project
+
+    if from_workbook is not None:
+        from ..workbook_inputs import base_factor_set, factor_set_from_workbook, load_project_from_workbook
+
+        project, sha, settings = load_project_from_workbook(from_workbook, overrides)
+        factor_set = factor_set_from_workbook(from_workbook, base_factor_set(settings, factors))
+        gwp = gwp or settings.gwp
+        schemes = schemes or settings.schemes or None
+        factors_option = factors or settings.factors_option
+        source = str(from_workbook)
+    else:
+        project, sha = load_project(project_file, overrides)
+        factors_option = factors or DEFAULT_SET
+        factor_set = load_factor_set(factors_option)
+        gwp = gwp or DEFAULT_GWP
+        source = str(project_file)
+    meters = None
+    if periods is not None:
+        from ..periods import read_meters
+
+        meters = read_meters(periods, project)
+    engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha)
+    workbook = build_workbook(
+        project,
+        factor_set,
+        gwp=gwp,
+        schemes=schemes,
+        source=source,
+        project_sha256=sha,
+        factors_option=factors_option,
+        meters=meters,
+        meters_source=str(periods or ""),
+        engine_result=engine,
+    )
+    return workbook, engine

@@ -1,0 +1,299 @@
+"""The audit workbook: formulas agree with the engine, inputs round-trip, text stays text."""
+
+from __future__ import annotations
+
+import math
+import os
+import re
+from pathlib import Path
+
+import openpyxl
+import pytest
+
+from carbonledger.api import score
+from carbonledger.formula import Term
+from workbook_support import DEMO, labelled, recalculate_with_formulas, recalculate_with_libreoffice, run_cli, sheet, soffice
+
+DEMOS = sorted(DEMO.glob("*.toml"))
+FLOW_LABELS = {
+    "co2_fossil": "CO2, fossil",
+    "ch4_fossil": "CH4, fossil",
+    "ch4_non_fossil": "CH4, non-fossil",
+    "n2o": "N2O",
+    "co2e_precharacterised": "CO2e given by a life-cycle factor (not split by gas)",
+}
+
+
+def write(project: Path, out: Path, *options: str) -> Path:
+    code, _, err = run_cli("workbook", str(project), "-o", str(out), *options)
+    assert code == 0, err
+    return out
+
+
+def close(a, b, rel=1e-9):
+    return math.isclose(a, b, rel_tol=rel, abs_tol=1e-12)
+
+
+def assert_agrees(values_workbook, result) -> None:
+    """Every recalculated figure equals the engine's (bw2calc) figure to 1e-9."""
+    results = labelled(sheet(values_workbook, "Results"))
+    assert close(results["total"], result.total), (results["total"], result.total)
+    for stage, value in result.by_stage.items():
+        assert close(results[stage], value), (stage, results[stage], value)
+    for flow, value in result.by_gas.items():
+        assert close(results[FLOW_LABELS[flow]], value), (flow, results[FLOW_LABELS[flow]], value)
+    for key, value in result.intensity.model_dump().items():
+        if value is not None:
+            assert close(results[key], value), key
+    assert close(results["hydrogen_production_kg_co2e_per_kg_h2"], result.hydrogen_production_kg_co2e_per_kg_h2)
+    ws = sheet(values_workbook, "Results")
+    rows = {}
+    for row in ws.iter_rows(min_row=1, max_row=ws.max_row):
+        rows.setdefault(row[0].value, row)  # check rows come before the thresholds table
+    for check in result.checks:
+        row = rows[check.scheme]
+        assert close(row[9].value, check.value), check.scheme
+        assert close(row[10].value, check.limit)
+        assert row[11].value == ("pass" if check.passes else "fail")
+        assert close(row[12].value, check.margin)
+        assert row[13].value == (check.tier or "none")
+
+
+# formula text -----------------------------------------------------------------------------
+def _evaluate(text: str, values: dict[str, float]) -> float:
+    """Python evaluates the spreadsheet text (same precedence for + - * / and parentheses)."""
+    return eval(re.sub(r"\$?([A-Z]+)\$?(\d+)", lambda m: repr(values[m.group(1) + m.group(2)]), text))
+
+
+def test_formula_text_keeps_the_order_of_operations():
+    a, b, c = Term("A1"), Term("B1"), Term("C1")
+    values = {"A1": 2.0, "B1": 3.0, "C1": 5.0}
+    cases = [
+        (a - (b - c), 2.0 - (3.0 - 5.0)),
+        (a / (b * c), 2.0 / (3.0 * 5.0)),
+        ((a + b) * c, (2.0 + 3.0) * 5.0),
+        (-(a + b) * c, -(2.0 + 3.0) * 5.0),
+        (1.0 / (1.0 - a / 10.0), 1.0 / (1.0 - 2.0 / 10.0)),
+        (a * (1.0 - b) - c, 2.0 * (1.0 - 3.0) - 5.0),
+        (a - b * -c, 2.0 - 3.0 * -5.0),
+        (a / b / c, 2.0 / 3.0 / 5.0),
+        (a * 1e-05 + 0.1 * b, 2.0 * 1e-05 + 0.1 * 3.0),
+        (-2.5 * a - (-b), -2.5 * 2.0 - (-3.0)),
+    ]
+    for term, expected in cases:
+        assert _evaluate(term.text, values) == expected, term.text
+
+
+def test_a_symbolic_value_refuses_a_branch():
+    with pytest.raises(TypeError):
+        bool(Term("A1"))
+
+
+# recalculation agreement ------------------------------------------------------------------
+@pytest.mark.parametrize("project", DEMOS, ids=lambda p: p.stem)
+def test_formulas_library_recalculates_the_engine_figures(project, tmp_path):
+    out = write(project, tmp_path / f"{project.stem}.xlsx")
+    assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), score(project))
+
+
+def test_agreement_holds_for_other_gwp_sets_and_a_chosen_scheme(tmp_path):
+    project = DEMO / "blue_smr_hydrogen.toml"
+    out = write(project, tmp_path / "b.xlsx", "--gwp", "ar4", "--scheme", "us-45v", "--set", "natural_gas.methane_loss_rate=0.02")
+    result = score(project, gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_loss_rate=0.02"])
+    assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), result)
+
+
+def test_grid_electrolysis_by_hand(tmp_path):
+    """Worked example: (52 + 1.5) kWh/kg H2 x 281 g CO2e/kWh (EEA IND-353, EU-27 2018) = 15.0335 kg CO2e/kg H2."""
+    out = write(DEMO / "grid_electrolysis_hydrogen.toml", tmp_path / "g.xlsx")
+    results = labelled(sheet(recalculate_with_formulas(out, tmp_path / "calc"), "Results"))
+    assert close(results["total"], (52.0 + 1.5) * 281.0 / 1000.0)
+
+
+@pytest.mark.parametrize("project", DEMOS, ids=lambda p: p.stem)
+def test_libreoffice_recalculates_the_engine_figures(project, tmp_path):
+    if soffice() is None:
+        if os.environ.get("CI") == "true":
+            pytest.fail("LibreOffice (soffice) is required under CI=true; .ci/run installs libreoffice-calc")
+        pytest.skip("LibreOffice not installed here")
+    out = write(project, tmp_path / f"{project.stem}.xlsx")
+    assert_agrees(recalculate_with_libreoffice(out, tmp_path / "lo"), score(project))
+
+
+# every exchange is a formula --------------------------------------------------------------
+def test_exchange_amounts_are_formulas_not_numbers(tmp_path):
+    out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx")
+    ws = openpyxl.load_workbook(out)["Calculation"]
+    amounts = [row[6] for row in ws.iter_rows() if row[2].value in ("input", "emission")]
+    assert len(amounts) > 20
+    assert all(isinstance(cell.value, str) and cell.value.startswith("=") for cell in amounts)
+
+
+def test_changing_an_input_moves_the_result(tmp_path):
+    """Edit an input with openpyxl; the recalculated total follows (Excel-side of the round trip)."""
+    out = write(DEMO / "grid_electrolysis_hydrogen.toml", tmp_path / "g.xlsx")
+    book = openpyxl.load_workbook(out)
+    inputs = book["Inputs"]
+    row = next(r for r in range(1, inputs.max_row + 1) if inputs.cell(r, 1).value == "electrolysis.electricity_kwh_per_kg_h2")
+    inputs.cell(row, 2).value = 48.0
+    book.save(out)
+    results = labelled(sheet(recalculate_with_formulas(out, tmp_path / "calc"), "Results"))
+    assert close(results["total"], (48.0 + 1.5) * 281.0 / 1000.0)
+
+
+# round trip -------------------------------------------------------------------------------
+def _edit_input(path: Path, parameter: str, value) -> str:
+    book = openpyxl.load_workbook(path)
+    ws = book["Inputs"]
+    row = next(r for r in range(1, ws.max_row + 1) if ws.cell(r, 1).value == parameter)
+    ws.cell(row, 2).value = value
+    book.save(path)
+    return f"B{row}"
+
+
+def test_round_trip_with_an_edited_input(tmp_path):
+    project = DEMO / "green_electrolysis_ammonia.toml"
+    out = write(project, tmp_path / "g.xlsx", "--gwp", "ar5")
+    _edit_input(out, "electrolysis.electricity_kwh_per_kg_h2", 49.5)
+    code, text, err = run_cli("score", "--from-workbook", str(out), "--format", "json")
+    assert code == 0, err
+    import json
+
+    from_workbook = json.loads(text)
+    expected = score(project, gwp="ar5", overrides=["electrolysis.electricity_kwh_per_kg_h2=49.5"])
+    assert from_workbook["gwp_basis"] == "ar5"  # the cover's setting, not the command's default
+    assert close(from_workbook["total"], expected.total)
+    assert from_workbook["by_stage"] == pytest.approx(expected.by_stage, rel=1e-12)
+    recalculated = labelled(sheet(recalculate_with_formulas(out, tmp_path / "calc"), "Results"))
+    assert close(recalculated["total"], from_workbook["total"])
+
+
+def test_round_trip_of_an_edited_factor(tmp_path):
+    out = write(DEMO / "grid_electrolysis_hydrogen.toml", tmp_path / "g.xlsx")
+    book = openpyxl.load_workbook(out)
+    ws = book["Factors"]
+    row = next(r for r in range(1, ws.max_row + 1) if ws.cell(r, 1).value == "electricity.grid.eu27_2018")
+    ws.cell(row, 2).value = 200.0
+    book.save(out)
+    code, text, err = run_cli("score", "--from-workbook", str(out), "--format", "json")
+    assert code == 0, err
+    import json
+
+    assert close(json.loads(text)["total"], 53.5 * 200.0 / 1000.0)
+    recalculated = labelled(sheet(recalculate_with_formulas(out, tmp_path / "calc"), "Results"))
+    assert close(recalculated["total"], 53.5 * 200.0 / 1000.0)
+
+
+def test_workbook_from_workbook_keeps_the_edit(tmp_path):
+    out = write(DEMO / "grid_electrolysis_hydrogen.toml", tmp_path / "g.xlsx")
+    _edit_input(out, "hydrogen.conditioning_kwh_per_kg_h2", 3.0)
+    code, _, err = run_cli("workbook", "--from-workbook", str(out), "-o", str(tmp_path / "again.xlsx"))
+    assert code == 0, err
+    results = labelled(sheet(recalculate_with_formulas(tmp_path / "again.xlsx", tmp_path / "calc"), "Results"))
+    assert close(results["total"], (52.0 + 3.0) * 281.0 / 1000.0)
+
+
+def test_text_in_a_number_cell_names_the_sheet_and_cell(tmp_path):
+    out = write(DEMO / "grey_smr_ammonia.toml", tmp_path / "g.xlsx")
+    cell = _edit_input(out, "reforming.natural_gas_gj_per_kg_h2", "about 0.16")
+    code, text, err = run_cli("score", "--from-workbook", str(out))
+    assert code == 2 and text == ""
+    assert err.count("\n") == 1 and err.startswith("error: ")
+    assert f"sheet Inputs, cell {cell} (reforming.natural_gas_gj_per_kg_h2)" in err and "a number" in err
+
+
+def test_a_deleted_sheet_is_named(tmp_path):
+    out = write(DEMO / "grey_smr_ammonia.toml", tmp_path / "g.xlsx")
+    book = openpyxl.load_workbook(out)
+    del book["Inputs"]
+    book.save(out)
+    code, _, err = run_cli("score", "--from-workbook", str(out))
+    assert code == 2 and "sheet Inputs" in err and err.count("\n") == 1
+
+
+def test_text_in_a_factor_cell_is_named(tmp_path):
+    out = write(DEMO / "grey_smr_ammonia.toml", tmp_path / "g.xlsx")
+    book = openpyxl.load_workbook(out)
+    book["Factors"]["B5"].value = "n/a"
+    book.save(out)
+    code, _, err = run_cli("score", "--from-workbook", str(out))
+    assert code == 2 and "sheet Factors, cell B5" in err
+
+
+def test_not_a_workbook(tmp_path):
+    bad = tmp_path / "x.xlsx"
+    bad.write_text("not a workbook")
+    code, _, err = run_cli("score", "--from-workbook", str(bad))
+    assert code == 2 and err.startswith("error: ")
+
+
+# safety -----------------------------------------------------------------------------------
+INJECTIONS = ['=HYPERLINK("http://example.invalid","x")', "+1+1", "-2+3", "@SUM(1,1)"]
+
+
+def test_formula_injection_strings_stay_text(tmp_path):
+    project = tmp_path / "p.toml"
+    text = (DEMO / "grid_electrolysis_hydrogen.toml").read_text()
+    text = re.sub(r'^name = .*$', 'name = """' + INJECTIONS[0] + '"""', text, count=1, flags=re.M)
+    text = re.sub(r'^site = .*$', 'site = "' + INJECTIONS[1] + '"', text, count=1, flags=re.M)
+    text = re.sub(r'^note = .*$', 'note = "' + INJECTIONS[2] + '"', text, count=1, flags=re.M)
+    text = text.replace("[electricity.sources.grid]", '[electricity.sources."@SUM(1,1)"]')
+    project.write_text(text)
+    out = write(project, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(out)
+    found = {}
+    for ws in book.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                for injection in INJECTIONS:
+                    if isinstance(cell.value, str) and injection in cell.value:
+                        found.setdefault(injection, set()).add(cell.data_type)
+    assert set(found) == set(INJECTIONS)  # each string was written somewhere...
+    assert all(kinds == {"s"} for kinds in found.values())  # ...and only ever as text
+    values = recalculate_with_formulas(out, tmp_path / "calc")
+    cover = labelled(sheet(values, "Cover"))
+    assert cover["Project"] == INJECTIONS[0]
+    if soffice() is not None:
+        cover = labelled(sheet(recalculate_with_libreoffice(out, tmp_path / "lo"), "Cover"))
+        assert cover["Project"] == INJECTIONS[0]
+    # and the round trip gives the same text back
+    code, text, err = run_cli("score", "--from-workbook", str(out), "--format", "json")
+    assert code == 0, err
+    assert '"project": "=HYPERLINK' in text
+
+
+def test_existing_file_is_not_overwritten_without_force(tmp_path):
+    out = tmp_path / "w.xlsx"
+    out.write_bytes(b"keep me")
+    code, _, err = run_cli("workbook", str(DEMO / "grey_smr_ammonia.toml"), "-o", str(out))
+    assert code == 2 and "--force" in err
+    assert out.read_bytes() == b"keep me"
+    code, _, err = run_cli("workbook", str(DEMO / "grey_smr_ammonia.toml"), "-o", str(out), "--force")
+    assert code == 0, err
+    assert out.read_bytes()[:2] == b"PK"
+    assert not [p for p in tmp_path.iterdir() if p.name.endswith(".part")]
+
+
+def test_boundary_option(tmp_path):
+    code, _, err = run_cli("workbook", str(DEMO / "grey_smr_ammonia.toml"), "-o", str(tmp_path / "a.xlsx"), "--boundary", "cradle-to-gate")
+    assert code == 0, err
+    code, _, err = run_cli("workbook", str(DEMO / "grey_smr_ammonia.toml"), "-o", str(tmp_path / "b.xlsx"), "--boundary", "well-to-wake")
+    assert code == 2 and "--boundary" in err
+    assert not (tmp_path / "b.xlsx").exists()
+
+
+def test_cover_states_what_a_verifier_needs(tmp_path):
+    from carbonledger import CAUTION, __version__
+    from carbonledger.factors import load_factor_set
+
+    out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx")
+    book = openpyxl.load_workbook(out)
+    cover = labelled(book["Cover"])
+    assert cover["carbonledger version"] == __version__
+    assert cover["Factor set sha256"] == load_factor_set().sha256
+    assert cover["Boundary"] == "cradle-to-gate" and cover["GWP100 set of the headline result"] == "ar6"
+    assert any(CAUTION in str(cell.value) for cell in book["Cover"]["A"])
+    assert book["Results"]._charts, "a chart of contributions by stage"
+    factors = labelled(book["Factors"], column=9)
+    assert factors["combustion.natural_gas.co2"] == "yes"  # flagged from memory in the factor set
+    assert "reference.molar_mass.nh3" in factors
