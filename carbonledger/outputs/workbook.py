@@ -239,9 +239,11 @@ def build_workbook(
     check_acyclic(model.inventory, source)
     period_plan = None
     if meters is not None:
+        from ..periods import month_results
         from .periods_sheet import plan_periods
 
-        period_plan = plan_periods(meters, params, model, factor_set, source=meters_source)
+        engine_months = month_results(meters, project, factor_set, gwp=gwp, design=engine_result)
+        period_plan = plan_periods(meters, params, model, factor_set, engine=engine_months)
 
     address = _write_factors_sheet(factors_ws, model.inputs.used)
     block = write_calculation_block(calculation_ws, model, chosen, address, top=1, title="Calculation: every exchange as a live formula")
@@ -249,7 +251,7 @@ def build_workbook(
     if period_plan is not None:
         from .periods_sheet import write_periods_sheet
 
-        write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, chosen, address, result_cells, factor_set)
+        write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, engine_result.unit)
     _write_cover(
         cover,
         engine_result,
