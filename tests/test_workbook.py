@@ -297,3 +297,18 @@ def test_cover_states_what_a_verifier_needs(tmp_path):
     factors = labelled(book["Factors"], column=9)
     assert factors["combustion.natural_gas.co2"] == "yes"  # flagged from memory in the factor set
     assert "reference.molar_mass.nh3" in factors
+
+
+def test_score_does_not_import_the_workbook_libraries():
+    import subprocess
+    import sys
+
+    code = (
+        "import sys; from carbonledger.cli import app; from typer.testing import CliRunner; "
+        f"r = CliRunner().invoke(app, ['score', {str(DEMO / 'grey_smr_ammonia.toml')!r}]); assert r.exit_code == 0; "
+        "print(sorted(m for m in ('openpyxl', 'formulas') if m in sys.modules))"
+    )
+    root = str(Path(__file__).resolve().parent.parent)
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=root, env=dict(os.environ, PYTHONPATH=root))
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.strip() == "[]"

@@ -152,3 +152,26 @@ def test_a_month_below_the_physical_floor_is_refused(tmp_path):
     meters.write_text("month,electricity.grid [MWh],hydrogen [t]\n2026-01,1000,60\n")
     code, _, err = run_cli("workbook", str(DEMO / "grid_electrolysis_hydrogen.toml"), "-o", str(tmp_path / "p.xlsx"), "--periods", str(meters))
     assert code == 2 and "month 2026-01" in err and "electrolysis.electricity_kwh_per_kg_h2" in err
+
+
+def test_libreoffice_recalculates_the_period_blocks(tmp_path):
+    import os
+
+    from workbook_support import recalculate_with_libreoffice, soffice
+
+    if soffice() is None:
+        if os.environ.get("CI") == "true":
+            pytest.fail("LibreOffice (soffice) is required under CI=true; .ci/run installs libreoffice-calc")
+        pytest.skip("LibreOffice not installed here")
+    project = DEMO / "blue_atr_ammonia.toml"
+    meters = DEMO / "blue_atr_ammonia_meters_2026.csv"
+    out = tmp_path / "p.xlsx"
+    code, _, err = run_cli("workbook", str(project), "-o", str(out), "--periods", str(meters))
+    assert code == 0, err
+    model, _ = load_project(project)
+    parsed = read_meters(meters, model)
+    engine = month_results(parsed, model, load_factor_set(), gwp="ar6", design=score(project))
+    rows = summary(recalculate_with_libreoffice(out, tmp_path / "lo"))
+    assert len(parsed.months) == 12
+    for month, result in zip(parsed.months, engine):
+        assert close(rows[month][2], result.total), month
