@@ -29,6 +29,7 @@ References
 from __future__ import annotations
 
 import datetime as _dt
+import re
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -106,6 +107,20 @@ def _set_path(tree: dict, path: str, value: Any) -> None:
     for part in parts[:-1]:
         node = node[part]
     node[parts[-1]] = value
+
+
+def _name_cell(workbook, prefix: str, key: str, sheet: str, row: int) -> Term:
+    """A defined name for an input or factor cell (``p_reforming_natural_gas_gj_per_kg_h2``,
+    ``f_gwp_ar6_ch4_fossil``), so formulas read as words; the plain cell reference when the
+    name would be ambiguous or too long."""
+    from openpyxl.workbook.defined_name import DefinedName
+
+    name = prefix + re.sub(r"[^A-Za-z0-9_]", "_", key)
+    taken = {existing.lower() for existing in workbook.defined_names}
+    if len(name) > 200 or name.lower() in taken:
+        return ref(sheet, "B", row)
+    workbook.defined_names[name] = DefinedName(name, attr_text=f"{sheet}!$B${row}")
+    return Term(name)
 
 
 def is_number(value: Any) -> bool:
@@ -274,7 +289,9 @@ def _copy_tree(value):
 def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term]) -> None:
     put_text(ws, 1, 1, "Inputs: every project parameter. Edit a value here and every formula follows; "
              "`carbonledger score --from-workbook` reads this sheet back.")
-    put_text(ws, 2, 1, "Record in the evidence column the meter, invoice or design document behind each value.")
+    put_text(ws, 2, 1, "Record in the evidence column the meter, invoice or design document behind each value. Numbers are named cells (p_<parameter path>). "
+             "Text options (route, technology, sources, factor ids) fix the structure of the calculation: after changing one, write a new workbook with "
+             "`carbonledger workbook --from-workbook`.")
     for column, title in enumerate(INPUT_COLUMNS, start=1):
         put_text(ws, INPUT_HEADER_ROW, column, title)
     _bold_row(ws, INPUT_HEADER_ROW, len(INPUT_COLUMNS))
@@ -286,7 +303,7 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term]) -
         put_text(ws, row, 3, unit)
         put_text(ws, row, 4, description)
         if is_number(value):
-            cell = ref(INPUTS, "B", row)
+            cell = _name_cell(ws.parent, "p_", path, INPUTS, row)
             input_cell[path] = cell
             _set_path(symbolic, path, cell)
     _widths(ws, {"A": 46, "B": 36, "C": 18, "D": 70, "E": 40})
@@ -297,7 +314,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
     from ..reference import ReferenceValue
 
     put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source. 'from memory' = not yet checked against the document.")
-    put_text(ws, 2, 1, "Molar masses (reference.*) come from the chemicals library and are not read back from this sheet.")
+    put_text(ws, 2, 1, "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; molar masses (reference.*) come from the chemicals library and are not.")
     for column, title in enumerate(FACTOR_COLUMNS, start=1):
         put_text(ws, FACTOR_HEADER_ROW, column, title)
     _bold_row(ws, FACTOR_HEADER_ROW, len(FACTOR_COLUMNS))
@@ -306,7 +323,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
     for key in sorted(used):
         item = used[key]
         row += 1
-        address[key] = f"{FACTORS}!$B${row}"
+        address[key] = _name_cell(ws.parent, "f_", key, FACTORS, row).text
         put_text(ws, row, 1, key)
         put_value(ws, row, 2, float(item.value))
         put_text(ws, row, 3, item.unit)
