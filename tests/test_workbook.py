@@ -312,3 +312,45 @@ def test_score_does_not_import_the_workbook_libraries():
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=root, env=dict(os.environ, PYTHONPATH=root))
     assert done.returncode == 0, done.stderr
     assert done.stdout.strip() == "[]"
+
+
+def _trees():
+    from hypothesis import strategies as st
+
+    leaves = st.sampled_from(["A1", "B1", "C1"]) | st.floats(min_value=-50, max_value=50, allow_nan=False).filter(lambda x: abs(x) > 1e-3)
+    return st.recursive(leaves, lambda inner: st.tuples(st.sampled_from("+-*/n"), inner, inner), max_leaves=8)
+
+
+def _build(tree, values, symbolic: bool):
+    if isinstance(tree, str):
+        return Term(tree) if symbolic else values[tree]
+    if isinstance(tree, float):
+        return tree
+    operator, left, right = tree
+    a, b = _build(left, values, symbolic), _build(right, values, symbolic)
+    if operator == "n":
+        return -a if not isinstance(a, float) or not symbolic else -Term.of(a)
+    if operator == "/" and not symbolic and b == 0:
+        raise ZeroDivisionError
+    return {"+": lambda: a + b, "-": lambda: a - b, "*": lambda: a * b, "/": lambda: a / b}[operator]()
+
+
+def test_any_expression_prints_with_the_right_parentheses():
+    """Property: the formula text, evaluated with the usual precedence (Python's, the same as the
+    spreadsheet's for + - * / and unary minus in parentheses), equals the float arithmetic."""
+    from hypothesis import given, settings
+
+    values = {"A1": 2.5, "B1": -3.25, "C1": 7.0}
+
+    @settings(max_examples=300, deadline=None)
+    @given(_trees())
+    def check(tree):
+        try:
+            expected = _build(tree, values, symbolic=False)
+        except ZeroDivisionError:
+            return
+        term = _build(tree, values, symbolic=True)
+        text = term.text if isinstance(term, Term) else Term.of(term).text
+        assert math.isclose(_evaluate(text, values), expected, rel_tol=1e-12, abs_tol=1e-12), text
+
+    check()

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import math
-from pathlib import Path
 
 import pytest
 
@@ -11,7 +10,7 @@ from carbonledger.api import score
 from carbonledger.factors import load_factor_set
 from carbonledger.periods import month_results, read_meters
 from carbonledger.project import load_project
-from workbook_support import DEMO, labelled, recalculate_with_formulas, run_cli, sheet
+from workbook_support import DEMO, recalculate_with_formulas, run_cli, sheet
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
 GREEN_METERS = """month,electricity.solar [MWh],electricity.wind [MWh],hydrogen [t],ammonia [t]

@@ -18,7 +18,6 @@ from ..inventory import build_inventory
 from ..periods import CANONICAL, NM3_FACTOR, Meters, scaled_parameters
 from .workbook import (
     CALCULATION,
-    PERIODS,
     _bold_row,
     _copy_tree,
     _font_bold,
@@ -131,7 +130,8 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         put_text(ws, row, 5, "kg CO2e")
         hydrogen_check = ("hydrogen", "") in converted and product == "ammonia"
         if hydrogen_check:
-            hydrogen_metered = derived("hydrogen per t NH3, metered (cross-check, not used)", converted[("hydrogen", "")] / output, "kg H2/t NH3")
+            derived("hydrogen per t NH3, metered (cross-check, not used)", converted[("hydrogen", "")] / output, "kg H2/t NH3")
+            hydrogen_row = row
 
         # the month's parameters: design cells, shares and scale factors
         symbolic = _copy_tree(params)
@@ -157,7 +157,6 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         biosphere = [r for r, _, e in block.exchange_rows if e.kind == "biosphere"]
         put_formula(ws, total_row, 4, sum_of(local("K", r) for r in biosphere), address)
         if hydrogen_check:
-            hydrogen_row = hydrogen_metered_row(hydrogen_metered)
             put_text(ws, hydrogen_row, 6, "model, kg H2/t NH3:")
             put_formula(ws, hydrogen_row, 7, local("E", block.activity_row["hydrogen_production"]), address)
 
@@ -187,10 +186,6 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         weighted = sum_of(local(letter, r) * local("B", r) for r in range(first_month_row, last + 1))
         put_formula(ws, year_row, 6 + position, weighted / local("B", year_row), address)
     _widths(ws, {"A": 60, "B": 16, "C": 18, "D": 20, "E": 18})
-
-
-def hydrogen_metered_row(cell: Term) -> int:
-    return int(cell.text.rsplit("$", 1)[1])
 
 
 def exchange_index(block, row: int) -> int:

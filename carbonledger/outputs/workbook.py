@@ -36,7 +36,7 @@ from typing import Any
 
 from .. import CAUTION, __version__
 from ..errors import InputError
-from ..formula import SymbolicInputs, Term, local, number_text, ref, resolve, sum_of
+from ..formula import SymbolicInputs, Term, local, ref, resolve, sum_of
 from ..inventory import FLOWS, STAGES, Inventory, build_inventory
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
@@ -262,7 +262,7 @@ def build_workbook(
 
     address = _write_factors_sheet(factors_ws, model.inputs.used)
     block = write_calculation_block(calculation_ws, model, chosen, address, top=1, title="Calculation: every exchange as a live formula")
-    result_cells = _write_results_sheet(results_ws, model, chosen, block, address, engine_result)
+    _write_results_sheet(results_ws, model, chosen, block, address, engine_result)
     if period_plan is not None:
         from .periods_sheet import write_periods_sheet
 
@@ -675,9 +675,6 @@ def write_workbook_file(path: str | Path, workbook, force: bool = False) -> Path
 
     return atomic_write(path, lambda tmp: workbook.save(tmp), force=force)
 
-
-def number_literal(value: float) -> str:  # re-exported for tests and period blocks
-    return number_text(value)
 
 
 def audit_workbook(
