@@ -82,10 +82,13 @@ class _CachedValues:
         return self._workbook[sheet][cell].value
 
 
-def _cell_value(ws, cell: str, cached: _CachedValues):
+def _cell_value(ws, cell: str, cached: _CachedValues, path: Path, name: str):
+    """A cell's value; for a formula typed into an input cell, the value a spreadsheet saved."""
     value = ws[cell].value
     if isinstance(value, str) and ws[cell].data_type == "f":
-        value = cached.get(ws.title, cell)
+        formula, value = value, cached.get(ws.title, cell)
+        if value is None:
+            raise InputError(path, f"sheet {ws.title}, cell {cell} ({name})", f"a number; the cell holds the formula {formula!r} with no saved value (save the workbook in a spreadsheet program, or type the number)")
     return value
 
 
@@ -115,7 +118,7 @@ def read_input_rows(workbook, path: Path) -> list[tuple[str, Any, str]]:
         if name is None or str(name).strip() == "":
             continue
         cell = f"B{row}"
-        rows.append((str(name).strip(), _cell_value(ws, cell, cached), cell))
+        rows.append((str(name).strip(), _cell_value(ws, cell, cached, path, str(name).strip()), cell))
     if not rows:
         raise InputError(path, f"sheet {INPUTS}", "parameter rows below the header (none found)")
     return rows
@@ -159,7 +162,7 @@ def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
         factor_id = ws.cell(row=row, column=1).value
         if factor_id is None or str(factor_id).strip() == "":
             continue
-        value = _cell_value(ws, f"B{row}", cached)
+        value = _cell_value(ws, f"B{row}", cached, path, str(factor_id))
         if not is_number(value):
             raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
         record = {name: ws.cell(row=row, column=column).value for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}

@@ -354,3 +354,28 @@ def test_any_expression_prints_with_the_right_parentheses():
         assert math.isclose(_evaluate(text, values), expected, rel_tol=1e-12, abs_tol=1e-12), text
 
     check()
+
+
+def test_a_formula_typed_into_an_input_cell(tmp_path):
+    out = write(DEMO / "grid_electrolysis_hydrogen.toml", tmp_path / "g.xlsx")
+    cell = _edit_input(out, "electrolysis.electricity_kwh_per_kg_h2", "=50+2")
+    code, _, err = run_cli("score", "--from-workbook", str(out))
+    assert code == 2 and f"sheet Inputs, cell {cell}" in err and "no saved value" in err
+
+
+def test_round_trip_through_a_workbook_saved_by_libreoffice(tmp_path):
+    """A workbook opened and saved by LibreOffice still reads back: same inputs, same score."""
+    if soffice() is None:
+        if os.environ.get("CI") == "true":
+            pytest.fail("LibreOffice (soffice) is required under CI=true")
+        pytest.skip("LibreOffice not installed here")
+    import json
+
+    project = DEMO / "blue_atr_ammonia.toml"
+    out = write(project, tmp_path / "a.xlsx", "--gwp", "ar5")
+    recalculate_with_libreoffice(out, tmp_path / "lo")
+    code, text, err = run_cli("score", "--from-workbook", str(tmp_path / "lo" / "out" / "a.xlsx"), "--format", "json")
+    assert code == 0, err
+    data = json.loads(text)
+    expected = score(project, gwp="ar5")
+    assert close(data["total"], expected.total) and data["factor_set"]["sha256"] == expected.factor_set.sha256
