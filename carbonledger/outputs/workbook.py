@@ -64,7 +64,9 @@ _FORMULA_START = ("=", "+", "-", "@")
 def put_text(ws, row: int, column: int, text: Any):
     """Write text that stays text: a leading = + - or @ is never read as a formula."""
     cell = ws.cell(row=row, column=column)
-    cell.value = "" if text is None else str(text)
+    if text is None or text == "":
+        return cell  # left empty rather than an empty string
+    cell.value = str(text)
     cell.data_type = "s"
     return cell
 
