@@ -379,3 +379,31 @@ def test_round_trip_through_a_workbook_saved_by_libreoffice(tmp_path):
     data = json.loads(text)
     expected = score(project, gwp="ar5")
     assert close(data["total"], expected.total) and data["factor_set"]["sha256"] == expected.factor_set.sha256
+
+
+def test_a_loop_in_the_supply_chain_is_refused():
+    from carbonledger.errors import InputError
+    from carbonledger.inventory import Activity, Inventory
+    from carbonledger.outputs.workbook import check_acyclic
+
+    gas = Activity("natural_gas_supply", "natural_gas_supply", "gas", "GJ")
+    power = Activity("electricity_mix", "electricity_supply", "power", "kWh")
+    gas.consume("electricity_mix", 2.0, "compression", "kWh")
+    power.consume("natural_gas_supply", 0.01, "gas turbine", "GJ")
+    inventory = Inventory({"natural_gas_supply": gas, "electricity_mix": power}, "electricity_mix", "electricity_mix", "hydrogen", {})
+    with pytest.raises(InputError, match="without loops"):
+        check_acyclic(inventory, "p.toml")
+    power.exchanges.clear()
+    assert check_acyclic(inventory, "p.toml") == ["natural_gas_supply", "electricity_mix"]  # consumer first
+
+
+def test_library_functions_for_other_commands(tmp_path):
+    """What `compare --from-workbook` can call: the validated project and the cover's settings."""
+    from carbonledger.workbook_inputs import load_project_from_workbook, score_workbook
+
+    out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx", "--gwp", "ar4", "--scheme", "japan-ammonia")
+    project, sha, settings = load_project_from_workbook(out, ["capture.capture_rate=0.9"])
+    assert project.capture.capture_rate == 0.9 and len(sha) == 64
+    assert (settings.gwp, settings.schemes, settings.factor_set) == ("ar4", ["japan-ammonia"], "default-2026")
+    result = score_workbook(out)
+    assert [c.scheme for c in result.checks] == ["japan-ammonia"] and result.gwp_basis == "ar4"
