@@ -10,8 +10,6 @@ import typer
 from .cli import FactorsOption, GwpOption, SchemeOption, SetOption, _fail, app
 from .errors import InputError
 
-BOUNDARY_CHOICES = ("cradle-to-gate",)
-
 
 def explicit(ctx: typer.Context, name: str, value):
     """The option's value if given on the command line, else None (the workbook's own setting)."""
@@ -40,19 +38,20 @@ def workbook(
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
-    boundary: Annotated[Optional[str], typer.Option("--boundary", help="System boundary: cradle-to-gate.")] = None,
+    boundary: Annotated[Optional[str], typer.Option("--boundary", help="System boundary of the headline result (see project.boundary).")] = None,
     periods: Annotated[Optional[Path], typer.Option("--periods", help="CSV of metered monthly data: one calculation block per month and a yearly summary.")] = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Read inputs and edited factors from an earlier audit workbook.")] = None,
     force: Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")] = False,
 ) -> None:
     """Write an audit workbook: inputs, cited factors, every exchange as a live formula, results, checks, chart."""
     from .outputs.workbook import audit_workbook, write_workbook_file
+    from .project import BOUNDARIES
 
     try:
         if (project is None) == (from_workbook is None):
             raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
-        if boundary is not None and boundary not in BOUNDARY_CHOICES:
-            raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARY_CHOICES)}")
+        if boundary is not None and boundary not in BOUNDARIES:
+            raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
         if output.exists() and not force:
             raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
         book, result = audit_workbook(

@@ -407,3 +407,24 @@ def test_library_functions_for_other_commands(tmp_path):
     assert (settings.gwp, settings.schemes, settings.factor_set) == ("ar4", ["japan-ammonia"], "default-2026")
     result = score_workbook(out)
     assert [c.scheme for c in result.checks] == ["japan-ammonia"] and result.gwp_basis == "ar4"
+
+
+def test_override_factors_travel_with_the_workbook(tmp_path):
+    """A factor override CSV shapes the workbook; the round trip still works once the CSV is gone,
+    because every factor used is on the Factors sheet."""
+    import json
+
+    override = tmp_path / "site_grid.csv"
+    override.write_text(
+        "id,value,unit,source,table,year,region,note,from_memory\n"
+        "electricity.grid.eu27_2018,150,g CO2e/kWh,Invented test value,,2026,,test only,true\n"
+    )
+    project = DEMO / "grid_electrolysis_hydrogen.toml"
+    out = write(project, tmp_path / "g.xlsx", "--factors", str(override))
+    assert labelled(openpyxl.load_workbook(out)["Cover"])["Factor set"] == "default-2026+site_grid"
+    results = labelled(sheet(recalculate_with_formulas(out, tmp_path / "calc"), "Results"))
+    assert close(results["total"], 53.5 * 150.0 / 1000.0)
+    override.unlink()
+    code, text, err = run_cli("score", "--from-workbook", str(out), "--format", "json")
+    assert code == 0, err
+    assert close(json.loads(text)["total"], 53.5 * 150.0 / 1000.0)
