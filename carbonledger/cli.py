@@ -43,7 +43,8 @@ def _fail(error: InputError) -> None:
 
 @app.command()
 def score(
-    project: Annotated[Path, typer.Argument(help="Project TOML file.")],
+    ctx: typer.Context,
+    project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (or use --from-workbook).")] = None,
     scheme: SchemeOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
@@ -53,6 +54,7 @@ def score(
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
+    from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
     from .api import score as run
@@ -61,13 +63,22 @@ def score(
     try:
         where = ledger_path(ledger, not no_ledger)
         check_ledger(where)
+        if (project is None) == (from_workbook is None):
+            raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
         if lifetime:
+            if from_workbook is not None:
+                raise InputError("--lifetime", "--from-workbook", "a project TOML file (lifetime scoring reads the project's [lifetime] section)")
             from .cli_recalc import score_lifetime
 
             overrides = list(set_ or []) + ([f'project.boundary="{boundary}"'] if boundary else [])
             score_lifetime(project, factors=factors, gwp=gwp, schemes=scheme, overrides=overrides, ledger=where, output_format=output_format)
             return
-        result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
+        if from_workbook is not None:
+            from .cli_workbook import boundary_overrides, score_from_workbook
+
+            result = score_from_workbook(ctx, from_workbook, factors, gwp, scheme, boundary_overrides(boundary, set_))
+        else:
+            result = run(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
         if where is not None:
             record_run("score", [result], ledger=where)
     except InputError as error:
@@ -82,8 +93,6 @@ def score(
         from .outputs.text import render
 
         typer.echo(render(result), nl=False)
-
-
 
 
 @app.command()
@@ -220,4 +229,4 @@ def main() -> None:
         sys.exit(0)
 
 
-from . import cli_compare, cli_recalc  # noqa: E402,F401
+from . import cli_compare, cli_recalc, cli_workbook  # noqa: E402,F401

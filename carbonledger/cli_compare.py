@@ -13,7 +13,7 @@ from .errors import InputError
 
 @app.command()
 def compare(
-    projects: Annotated[list[Path], typer.Argument(help="Project TOML files.")],
+    projects: Annotated[Optional[list[Path]], typer.Argument(help="Project TOML files or audit workbooks (.xlsx).")] = None,
     boundary: BoundaryOption = None,
     scheme: SchemeOption = None,
     gwp: GwpOption = "ar6",
@@ -22,6 +22,7 @@ def compare(
     basis: Annotated[str, typer.Option("--basis", help="auto, t-nh3, kg-h2 or mj (LHV); auto: the products' own unit when all agree, else MJ.")] = "auto",
     chart: Annotated[Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")] = None,
     force: Annotated[bool, typer.Option("--force", help="Overwrite an existing chart file.")] = False,
+    from_workbook: Annotated[Optional[list[Path]], typer.Option("--from-workbook", help="An audit workbook to compare, its inputs and edited factors read back (repeatable).")] = None,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
 ) -> None:
@@ -36,7 +37,7 @@ def compare(
             raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
         if chart is not None and chart.exists() and not force:
             raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
-        result = run(projects, boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis)
+        result = run(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis)
         if chart is not None:
             from .outputs.comparison import write_chart
 

@@ -86,7 +86,7 @@ def compare(
 
     Parameters
     ----------
-    project_files : two or more project TOML paths (one is allowed).
+    project_files : two or more project TOML paths or audit workbooks (.xlsx) (one is allowed).
     boundary : applied to every project; default each project's own (they must then agree).
     gwp, factors, schemes : as for ``score``.
     basis : 'auto', 't-nh3', 'kg-h2' or 'mj' (LHV of the delivered product).
@@ -94,15 +94,14 @@ def compare(
     from .api import score_project
     from .factors import FactorSet, load_factor_set
     from .inventory import STAGES
-    from .project import load_project
 
     if not project_files:
         raise InputError("compare", "PROJECTS", "at least one project file")
     factor_set = factors if isinstance(factors, FactorSet) else load_factor_set(factors)
     results = []
     for path in project_files:
-        project, sha = load_project(path)
-        result = score_project(project, factor_set, gwp=gwp, source=str(path), project_sha256=sha, boundary=boundary)
+        project, sha, project_set = _load(path, factor_set)
+        result = score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha, boundary=boundary)
         result.checks = [c for c in result.checks if not schemes or c.scheme in _known_schemes(schemes)]
         results.append(result)
     boundaries = {r.boundary for r in results}
@@ -148,6 +147,19 @@ def compare(
     )
     comparison._scores = results
     return comparison
+
+
+def _load(path, factor_set):
+    """A project file, or the inputs of an audit workbook (.xlsx) with its edited factors layered on."""
+    from .project import load_project
+
+    if str(path).lower().endswith(".xlsx"):
+        from .workbook_inputs import factor_set_from_workbook, load_project_from_workbook
+
+        project, sha, _ = load_project_from_workbook(path)
+        return project, sha, factor_set_from_workbook(path, factor_set)
+    project, sha = load_project(path)
+    return project, sha, factor_set
 
 
 def _known_schemes(requested: list[str]) -> list[str]:

@@ -170,3 +170,23 @@ def test_plant_gate_score_does_not_load_coolprop_or_matplotlib():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT, env={"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin"})
     assert out.returncode == 0, out.stderr
     assert out.stderr.strip().splitlines()[-1] == "[]"
+
+
+def test_compare_reads_audit_workbooks(tmp_path):
+    # A workbook's inputs (here an edited methane loss rate) flow into compare, as into score.
+    import openpyxl
+
+    from carbonledger.api import score
+
+    book_path = tmp_path / "grey.xlsx"
+    assert run("workbook", DEMO / "grey_smr_ammonia.toml", "-o", book_path).exit_code == 0
+    book = openpyxl.load_workbook(book_path)
+    inputs = book["Inputs"]
+    for row in inputs.iter_rows():
+        if row[0].value == "natural_gas.methane_loss_rate":
+            row[1].value = 0.02
+    book.save(book_path)
+    result = compare([DEMO / "blue_atr_ammonia.toml", book_path])
+    expected = score(DEMO / "grey_smr_ammonia.toml", overrides=["natural_gas.methane_loss_rate=0.02"])
+    assert result.projects[1].total == pytest.approx(expected.total, rel=1e-12)
+    assert run("compare", DEMO / "blue_atr_ammonia.toml", "--from-workbook", book_path).exit_code == 0

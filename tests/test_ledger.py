@@ -53,6 +53,13 @@ def test_compare_is_recorded_one_record_per_project(_ledger_in_tmp):
     assert len(_counts(_ledger_in_tmp)[0]) == 1
 
 
+def test_workbook_is_recorded(tmp_path, _ledger_in_tmp):
+    assert run_cli("workbook", DEMO / "grey_smr_ammonia.toml", "-o", tmp_path / "grey.xlsx").exit_code == 0
+    with sqlite3.connect(_ledger_in_tmp) as connection:
+        assert connection.execute("SELECT command FROM runs").fetchall() == [("workbook",)]
+        assert connection.execute("SELECT COUNT(*) FROM records").fetchone()[0] == 1
+
+
 def test_no_ledger_and_explicit_ledger(tmp_path, _ledger_in_tmp):
     project = DEMO / "grid_electrolysis_hydrogen.toml"
     assert run_cli("score", project, "--no-ledger").exit_code == 0
