@@ -19,9 +19,9 @@ def main() -> None:
     from carbonledger.api import score
     from carbonledger.outputs.workbook import audit_workbook, write_workbook_file
 
-    demos = sorted((ROOT / "demo_projects").glob("*.toml"))
-    largest = max(demos, key=lambda path: len(score(path).exchanges))
-    meters = ROOT / "demo_projects" / f"{largest.stem}_meters_2026.csv"
+    demos = [path for path in sorted((ROOT / "demo_projects").glob("*.toml")) if path.with_name(f"{path.stem}_meters_2026.csv").exists()]
+    largest = max(demos, key=lambda path: len(score(path).exchanges))  # of the demo projects with 12 metered months
+    meters = largest.with_name(f"{largest.stem}_meters_2026.csv")
     imported = time.perf_counter()
     with tempfile.TemporaryDirectory() as folder:
         audit_workbook(largest, periods=meters)  # warm caches (factor set, schemes, pint)

@@ -174,3 +174,14 @@ def test_libreoffice_recalculates_the_period_blocks(tmp_path):
     assert len(parsed.months) == 12
     for month, result in zip(parsed.months, engine):
         assert close(rows[month][2], result.total), month
+
+
+def test_periods_need_the_plant_gate_boundary(tmp_path):
+    # Meters describe the plant: a delivered boundary is refused, the plant gate accepted.
+    project = DEMO / "blue_atr_ammonia_shipped.toml"
+    meters = DEMO / "blue_atr_ammonia_meters_2026.csv"
+    code, _, err = run_cli("workbook", str(project), "-o", str(tmp_path / "a.xlsx"), "--periods", str(meters))
+    assert code == 2 and "cradle-to-gate" in err and len(err.strip().splitlines()) == 1
+    assert not (tmp_path / "a.xlsx").exists()
+    code, _, err = run_cli("workbook", str(project), "-o", str(tmp_path / "b.xlsx"), "--periods", str(meters), "--boundary", "cradle-to-gate")
+    assert code == 0, err

@@ -727,6 +727,8 @@ def audit_workbook(
     if periods is not None:
         from ..periods import read_meters
 
+        if project.project.boundary != "cradle-to-gate":
+            raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
         meters = read_meters(periods, project)
     engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha)
     workbook = build_workbook(
