@@ -58,11 +58,10 @@ def score(
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
     from .api import score as run
-    from .ledger import check_ledger, ledger_path, record_run
+    from .ledger import ledger_for_run, record_run
 
     try:
-        where = ledger_path(ledger, not no_ledger)
-        check_ledger(where)
+        where = ledger_for_run(ledger, not no_ledger)
         if (project is None) == (from_workbook is None):
             raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
         if lifetime:

@@ -28,11 +28,10 @@ def compare(
 ) -> None:
     """Compare projects side by side: total, intensity, by stage, by gas, scheme verdicts."""
     from .comparison import compare as run
-    from .ledger import check_ledger, ledger_path, record_run
+    from .ledger import ledger_for_run, record_run
 
     try:
-        where = ledger_path(ledger, not no_ledger)
-        check_ledger(where)
+        where = ledger_for_run(ledger, not no_ledger)
         if chart is not None and chart.suffix.lower() not in (".png", ".svg"):
             raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
         if chart is not None and chart.exists() and not force:

@@ -76,14 +76,13 @@ def recalc(
 ) -> None:
     """Rescore projects under a new factor set: old and new value per scheme, newly failing first."""
     from .factors import load_factor_set
-    from .ledger import check_ledger, ledger_path, record_run
+    from .ledger import ledger_for_run, record_run
     from .outputs.portfolio import recalc_csv, recalc_json, recalc_table
     from .portfolio import load_portfolio
     from .portfolio import recalc as run
 
     try:
-        where = ledger_path(ledger, not no_ledger)
-        check_ledger(where)
+        where = ledger_for_run(ledger, not no_ledger)
         old_set, new_set = load_factor_set(from_set), load_factor_set(to_set)
         portfolio = load_portfolio(projects)
         result = run(portfolio, old_set, new_set, gwp=gwp, schemes=scheme)

@@ -47,12 +47,11 @@ def workbook(
 ) -> None:
     """Write an audit workbook: inputs, cited factors, every exchange as a live formula, results, checks, chart."""
     from .outputs.workbook import audit_workbook, write_workbook_file
-    from .ledger import check_ledger, ledger_path, record_run
+    from .ledger import ledger_for_run, record_run
     from .project import BOUNDARIES
 
     try:
-        where = ledger_path(ledger, not no_ledger)
-        check_ledger(where)
+        where = ledger_for_run(ledger, not no_ledger)
         if (project is None) == (from_workbook is None):
             raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
         if boundary is not None and boundary not in BOUNDARIES:

@@ -197,6 +197,13 @@ def check_ledger(ledger: Path | None) -> None:
         connect(ledger).close()
 
 
+def ledger_for_run(ledger: str | Path | None, enabled: bool) -> Path | None:
+    """The ledger a command will record in (None when turned off), checked before any work."""
+    where = ledger_path(ledger, enabled)
+    check_ledger(where)
+    return where
+
+
 def _canonical(value: Any) -> tuple[str, str]:
     text = json.dumps(value, sort_keys=True, separators=(",", ":"), ensure_ascii=False, default=str)
     return text, hashlib.sha256(text.encode("utf-8")).hexdigest()
