@@ -279,7 +279,18 @@ def build_workbook(
         source=source,
         meters_source=meters_source if meters is not None else "",
     )
+    for sheet in workbook.worksheets:
+        _print_layout(sheet)
     return workbook
+
+
+def _print_layout(ws) -> None:
+    """Landscape, one page wide, header rows repeated: a verifier can print every sheet."""
+    ws.page_setup.orientation = "landscape"
+    ws.page_setup.paperSize = ws.PAPERSIZE_A4
+    ws.sheet_properties.pageSetUpPr.fitToPage = True
+    ws.page_setup.fitToWidth = 1
+    ws.page_setup.fitToHeight = 0
 
 
 def _copy_tree(value):
