@@ -97,6 +97,17 @@ def test_month_blocks_agree_with_the_engine_and_the_meters(project, text, tmp_pa
     year = rows["all months (output-weighted)"]
     emissions = sum(r.total * rows[m][1] for m, r in zip(parsed.months, engine))
     assert close(year[2], emissions / sum(rows[m][1] for m in parsed.months))
+    # each month is checked against every scheme: value equals the engine's, verdict its pass/fail
+    stages = len(score(project).by_stage)
+    for month, result in zip(parsed.months, engine):
+        for position, check in enumerate(result.checks):
+            column = 5 + stages + 3 * position
+            assert close(rows[month][column], check.value), (month, check.scheme)
+            assert rows[month][column + 1] == ("pass" if check.passes else "fail")
+    for position, check in enumerate(engine[0].checks):
+        column = 5 + stages + 3 * position
+        weighted = sum(r.checks[position].value * rows[m][1] for m, r in zip(parsed.months, engine)) / sum(rows[m][1] for m in parsed.months)
+        assert close(year[column], weighted), check.scheme
 
 
 def test_volume_factor_is_near_pure_methane():

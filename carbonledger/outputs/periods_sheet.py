@@ -16,8 +16,10 @@ from typing import Any
 from ..formula import Term, local, ref, sum_of
 from ..inventory import build_inventory
 from ..periods import CANONICAL, NM3_FACTOR, Meters, scaled_parameters
+from ..api import intensities
 from .workbook import (
     CALCULATION,
+    RESULTS,
     _bold_row,
     _copy_tree,
     _font_bold,
@@ -52,7 +54,7 @@ def _output_quantity(product: str) -> str:
     return "ammonia" if product == "ammonia" else "hydrogen"
 
 
-def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, model, design_block, address: dict, unit: str) -> None:
+def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, model, design_block, address: dict, unit: str, chosen=(), results_cells: dict | None = None) -> None:
     meters = plan.meters
     inventory = model.inventory
     product = inventory.product
@@ -65,6 +67,9 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
     put_text(ws, 2, 1, "Each month: electricity shares from the meters; gas and electricity parameters = design value x the month's scale factor, so the month's gas and electricity per functional unit equal the metered figures.")
     header_row = 4
     summary_header = ["month", f"output ({output_unit})", f"{unit}", "kg CO2e in the month", "engine at writing"] + [f"{stage} ({unit})" for stage in stages]
+    check_column = 6 + len(stages)  # per scheme: value, verdict against the Results sheet's threshold, engine value
+    for scheme in chosen:
+        summary_header += [f"{scheme.id} [{scheme.unit}]", f"{scheme.id} verdict", f"{scheme.id}, engine at writing"]
     for column, text in enumerate(summary_header, start=1):
         put_text(ws, header_row, column, text)
     _bold_row(ws, header_row, len(summary_header))
@@ -145,7 +150,7 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         for path in electricity_paths:
             _set_path(symbolic, path, input_cell[path] * k_electricity)
         month_model = dataclasses.replace(model, inventory=build_inventory(symbolic, model.inputs))
-        block = write_calculation_block(ws, month_model, [], address, top=row + 2, title=f"Calculation for {month}")
+        block = write_calculation_block(ws, month_model, list(chosen), address, top=row + 2, title=f"Calculation for {month}")
 
         # electricity of the design's consumers at this month's supplies
         terms = []
@@ -171,6 +176,16 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         month_stages = stage_sums(block, month_model.inventory, "K")
         for position, stage in enumerate(stages):
             put_formula(ws, srow, 6 + position, month_stages.get(stage, Term("0")), address)
+        engine_checks = {check.scheme: check for check in engine.checks} if engine is not None else {}
+        for position, scheme in enumerate(chosen):
+            column = check_column + 3 * position
+            letter = block.scheme_column[scheme.id]
+            scheme_total = Term(f"SUM({letter}{biosphere[0]}:{letter}{biosphere[-1]})") if biosphere else Term("0")  # SUM skips zero-rated rows (text)
+            basis_product = product if scheme.basis == "product" else "hydrogen"
+            value = intensities(scheme_total, basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
+            put_formula(ws, srow, column, value, address)
+            _verdict(ws, srow, column, scheme, results_cells, address)
+            put_value(ws, srow, column + 2, engine_checks[scheme.id].value if scheme.id in engine_checks else None)
         top = block.end_row + 3
 
     last = year_row - 1
@@ -185,7 +200,27 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         letter = get_column_letter(6 + position)
         weighted = sum_of(local(letter, r) * local("B", r) for r in range(first_month_row, last + 1))
         put_formula(ws, year_row, 6 + position, weighted / local("B", year_row), address)
+    for position, scheme in enumerate(chosen):
+        column = check_column + 3 * position
+        letter = get_column_letter(column)
+        weighted = sum_of(local(letter, r) * local("B", r) for r in range(first_month_row, last + 1))
+        put_formula(ws, year_row, column, weighted / local("B", year_row), address)
+        _verdict(ws, year_row, column, scheme, results_cells, address)
     _widths(ws, {"A": 60, "B": 16, "C": 18, "D": 20, "E": 18})
+
+
+def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None, address: dict) -> None:
+    """pass/fail of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
+    from openpyxl.utils import get_column_letter
+
+    loosest = max(scheme.thresholds, key=lambda t: t.limit)
+    operator = "<=" if loosest.inclusive else "<"
+    if results_cells and f"check:{scheme.id}" in results_cells:
+        limit = f"{RESULTS}!$K${results_cells[f'check:{scheme.id}']}"
+    else:
+        limit = repr(loosest.limit)
+    value = f"{get_column_letter(value_column)}{row}"
+    put_formula(ws, row, value_column + 1, Term(f'IF({value}{operator}{limit},"pass","fail")'), address)
 
 
 def exchange_index(block, row: int) -> int:

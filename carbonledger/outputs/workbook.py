@@ -259,16 +259,16 @@ def build_workbook(
         from ..periods import month_results
         from .periods_sheet import plan_periods
 
-        engine_months = month_results(meters, project, factor_set, gwp=gwp, design=engine_result)
+        engine_months = month_results(meters, project, factor_set, gwp=gwp, design=engine_result, schemes=schemes)
         period_plan = plan_periods(meters, params, model, factor_set, engine=engine_months)
 
     address = _write_factors_sheet(factors_ws, model.inputs.used)
     block = write_calculation_block(calculation_ws, model, chosen, address, top=1, title="Calculation: every exchange as a live formula")
-    _write_results_sheet(results_ws, model, chosen, block, address, engine_result)
+    results_cells = _write_results_sheet(results_ws, model, chosen, block, address, engine_result)
     if period_plan is not None:
         from .periods_sheet import write_periods_sheet
 
-        write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, engine_result.unit)
+        write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, engine_result.unit, chosen, results_cells)
     _write_cover(
         cover,
         engine_result,
