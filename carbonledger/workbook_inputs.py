@@ -107,18 +107,23 @@ def read_settings(workbook, path: Path) -> WorkbookSettings:
     return WorkbookSettings(str(found["gwp"]), schemes, str(found["factors_option"]), str(found.get("factor_set") or ""))
 
 
+def _named_rows(ws, header_row: int):
+    """(row number, name) of every row below the header whose first cell holds a name."""
+    for row in range(header_row + 1, ws.max_row + 1):
+        name = ws.cell(row=row, column=1).value
+        if name is not None and str(name).strip():
+            yield row, str(name).strip()
+
+
 def read_input_rows(workbook, path: Path) -> list[tuple[str, Any, str]]:
     """(parameter path, value, cell) for every row of the Inputs sheet."""
     ws = _sheet(workbook, INPUTS, path)
     _check_header(ws, INPUT_HEADER_ROW, INPUT_COLUMNS, path)
     cached = _CachedValues(path)
     rows = []
-    for row in range(INPUT_HEADER_ROW + 1, ws.max_row + 1):
-        name = ws.cell(row=row, column=1).value
-        if name is None or str(name).strip() == "":
-            continue
+    for row, name in _named_rows(ws, INPUT_HEADER_ROW):
         cell = f"B{row}"
-        rows.append((str(name).strip(), _cell_value(ws, cell, cached, path, str(name).strip()), cell))
+        rows.append((name, _cell_value(ws, cell, cached, path, name), cell))
     if not rows:
         raise InputError(path, f"sheet {INPUTS}", "parameter rows below the header (none found)")
     return rows
@@ -158,15 +163,12 @@ def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
     _check_header(ws, FACTOR_HEADER_ROW, FACTOR_COLUMNS, path)
     cached = _CachedValues(path)
     rows = []
-    for row in range(FACTOR_HEADER_ROW + 1, ws.max_row + 1):
-        factor_id = ws.cell(row=row, column=1).value
-        if factor_id is None or str(factor_id).strip() == "":
-            continue
-        value = _cell_value(ws, f"B{row}", cached, path, str(factor_id))
+    for row, factor_id in _named_rows(ws, FACTOR_HEADER_ROW):
+        value = _cell_value(ws, f"B{row}", cached, path, factor_id)
         if not is_number(value):
             raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
         record = {name: ws.cell(row=row, column=column).value for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}
-        record["id"], record["value"] = str(factor_id).strip(), float(value)
+        record["id"], record["value"] = factor_id, float(value)
         rows.append((record, f"B{row}"))
     return rows
 
