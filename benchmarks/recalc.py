@@ -1,7 +1,7 @@
 """Benchmark: recalculate a portfolio of 1,000 varied projects under a new factor set.
 
 Generates the projects (invented, varied routes and parameters) in a temporary folder, then
-times ``carbonledger.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading
+times ``carbonledger.analyses.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading
 and validating every file once, scoring under the old set, diffing the sets, rescoring the
 projects that use a changed factor (stacked solves per matrix structure, one bw2calc check per
 structure). For comparison it also times the naive path (``api.score_project`` with one bw2calc
@@ -76,12 +76,12 @@ def project(number: int, rng: random.Random) -> str:
 
 def main(count: int = 1000) -> None:
     t0 = time.perf_counter()
-    from carbonledger.api import score_project
-    from carbonledger.engine import _bw2calc
-    from carbonledger.factors import load_factor_set
-    from carbonledger.portfolio import load_portfolio, recalc
+    from carbonledger.core.scoring import score_project
+    from carbonledger.core.engine import import_bw2calc
+    from carbonledger.model.factors import load_factor_set
+    from carbonledger.analyses.portfolio import load_portfolio, recalc
 
-    _bw2calc()  # import cost reported apart
+    import_bw2calc()  # import cost reported apart
     print(f"imports (bw2calc included): {time.perf_counter() - t0:.2f} s")
     rng = random.Random(2026)
     with tempfile.TemporaryDirectory() as folder:
@@ -100,7 +100,7 @@ def main(count: int = 1000) -> None:
         print(f"recalc (score under old set, diff, rescore {result.rescored} projects that use a changed factor): {done - parsed:.3f} s")
         print(f"total: {total:.2f} s for {count} projects = {total / count * 1000:.2f} ms per project (target: under 10 s)")
         print(f"newly failing project-scheme pairs: {len(result.newly_failing)}")
-        from carbonledger.ledger import record_run
+        from carbonledger.io.ledger import record_run
 
         ledger_start = time.perf_counter()
         record_run("recalc (benchmark)", [*result.old_scores, *result.new_scores], ledger=Path(folder) / "ledger.sqlite", kind="recalc")

@@ -17,7 +17,8 @@ sys.path.insert(0, str(ROOT))
 def main() -> None:
     started = time.perf_counter()
     from carbonledger.api import score
-    from carbonledger.outputs.workbook import audit_workbook, write_workbook_file
+    from carbonledger.api import audit_workbook
+    from carbonledger.io.workbook.writer import write_workbook_file
 
     demos = [path for path in sorted((ROOT / "demo_projects").glob("*.toml")) if path.with_name(f"{path.stem}_meters_2026.csv").exists()]
     largest = max(demos, key=lambda path: len(score(path).exchanges))  # of the demo projects with 12 metered months

@@ -11,21 +11,14 @@ Results are estimates for screening and reporting support, not a certification.
 
 from __future__ import annotations
 
-__version__ = "0.1.0"
+from .about import CAUTION, __version__
 
-CAUTION = (
-    "Estimate for screening and reporting support only, not a certification. The official "
-    "methodology of each scheme, an accredited verifier and local regulation take precedence."
-)
+__all__ = ["CAUTION", "__version__", "score", "compare", "load_project", "load_factor_set", "audit_workbook"]
 
 
 def __getattr__(name):  # lazy: keep `import carbonledger` cheap for the command line
-    if name in {"score", "load_project", "load_factor_set"}:
+    if name in {"score", "compare", "load_project", "load_factor_set", "audit_workbook", "score_project"}:
         from . import api
 
         return getattr(api, name)
-    if name == "compare":
-        from .comparison import compare
-
-        return compare
     raise AttributeError(name)

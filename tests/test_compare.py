@@ -10,7 +10,7 @@ import pytest
 from typer.testing import CliRunner
 
 from carbonledger.cli import app
-from carbonledger.comparison import compare
+from carbonledger.api import compare
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
@@ -71,7 +71,7 @@ def test_compare_table_names_boundary_schemes_and_caution():
 def test_png_chart_is_valid_with_one_bar_per_project(tmp_path):
     import matplotlib.image
 
-    from carbonledger.outputs.comparison import comparison_figure
+    from carbonledger.io.compare_output import comparison_figure
 
     chart = tmp_path / "c.png"
     out = run("compare", *SHIPPED, "--boundary", "well-to-tank", "--chart", chart)

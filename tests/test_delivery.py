@@ -9,9 +9,9 @@ from hypothesis import strategies as st
 
 from carbonledger.api import score, score_project
 from carbonledger.errors import InputError
-from carbonledger.factors import load_factor_set
-from carbonledger.project import validate_project
-from carbonledger.reference import ammonia_formation_enthalpy, ammonia_saturation_at_one_atmosphere, molar_mass_g_per_mol
+from carbonledger.model.factors import load_factor_set
+from carbonledger.routes.project import validate_project
+from carbonledger.model.reference import ammonia_formation_enthalpy, ammonia_saturation_at_one_atmosphere, molar_mass_g_per_mol
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"

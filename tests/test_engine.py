@@ -3,8 +3,9 @@
 import numpy as np
 import pytest
 
-from carbonledger.engine import build_matrices, solve
-from carbonledger.inventory import FLOWS, Activity, Inventory
+from carbonledger.core.engine import build_matrices, solve
+from carbonledger.core.inventory import Inventory
+from carbonledger.routes.base import FLOWS, Activity
 
 
 def small_chain() -> Inventory:

@@ -3,8 +3,8 @@
 import pytest
 
 from carbonledger.errors import InputError
-from carbonledger.factors import DEFAULT_SET, load_factor_set, read_factor_rows
-from carbonledger.units import conversion_factor
+from carbonledger.model.factors import DEFAULT_SET, load_factor_set, read_factor_rows
+from carbonledger.model.units import conversion_factor
 
 
 @pytest.fixture(scope="module")

@@ -5,7 +5,7 @@ import json
 import pytest
 
 from carbonledger.errors import InputError
-from carbonledger.factors import diff_sets, load_factor_set
+from carbonledger.model.factors import diff_sets, load_factor_set
 
 from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
 

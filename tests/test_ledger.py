@@ -10,7 +10,7 @@ import textwrap
 import pytest
 
 from carbonledger.errors import InputError
-from carbonledger.ledger import connect, project_history, record_run
+from carbonledger.io.ledger import connect, project_history, record_run
 
 from helpers import DEMO, ROOT, assert_one_line_error, run_cli, write
 
@@ -118,7 +118,7 @@ _WRITER = textwrap.dedent(
     """
     import sys
     sys.path.insert(0, {root!r})
-    from carbonledger.ledger import LedgerRecord, record_run
+    from carbonledger.io.ledger import LedgerRecord, record_run
 
     def record(number, who):
         return LedgerRecord(f"/tmp/project_{{who}}_{{number}}.toml", "p", "0" * 64, "set", "1" * 64, ["s"], "cradle-to-gate", "ar6",
@@ -145,7 +145,7 @@ _KILLED = textwrap.dedent(
     """
     import sys, time
     sys.path.insert(0, {root!r})
-    from carbonledger.ledger import LedgerRecord, record_run
+    from carbonledger.io.ledger import LedgerRecord, record_run
 
     def record(number):
         return LedgerRecord(f"/tmp/p{{number}}.toml", "p", "0" * 64, "set", "1" * 64, ["s"], "cradle-to-gate", "ar6",
@@ -174,7 +174,7 @@ def test_a_process_killed_mid_run_leaves_no_partial_record(tmp_path):
     runs, records = _counts(ledger)
     assert runs == [(1, 1)] and records == {1: 1}
     # the ledger still takes new runs, and the killed run left nothing behind
-    from carbonledger.ledger import LedgerRecord
+    from carbonledger.io.ledger import LedgerRecord
 
     record_run("after the crash", [LedgerRecord("/tmp/x.toml", "x", "0" * 64, "set", "1" * 64, [], "b", "ar6", {"total": 0, "unit": "u", "checks": []}, {}, [])], ledger=ledger)
     runs, records = _counts(ledger)

@@ -6,9 +6,9 @@ import shutil
 import pytest
 
 from carbonledger.errors import InputError
-from carbonledger.factors import load_factor_set
-from carbonledger.lifetime import lifetime_score
-from carbonledger.project import load_project
+from carbonledger.model.factors import load_factor_set
+from carbonledger.analyses.lifetime import lifetime_score
+from carbonledger.routes.project import load_project
 
 from helpers import FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
 
@@ -105,19 +105,19 @@ def test_construction_emissions_are_divided_by_lifetime_output(tmp_path):
 
 
 def test_a_rulebook_that_counts_construction_uses_the_average_with_it(tmp_path, monkeypatch):
-    from carbonledger import api
+    from carbonledger.core import scoring
 
     factors = tmp_path / "factors"
     shutil.copytree(ROOT / "factors", factors)
     scheme = factors / "schemes" / "us-45v.toml"
     scheme.write_text(scheme.read_text().replace("counts_construction = false", "counts_construction = true"))
     monkeypatch.setenv("CARBONLEDGER_FACTORS", str(factors))
-    api._schemes.cache_clear()
+    scoring.rulebooks.cache_clear()
     try:
         project_folder = tmp_path / "p"
         result = _score(project_folder, SHORT_LIFE, {2030: 300, 2031: 200, 2032: 100})
     finally:
-        api._schemes.cache_clear()
+        scoring.rulebooks.cache_clear()
     us = next(s for s in result.schemes if s.scheme == "us-45v")
     assert us.counts_construction and us.lifetime_value == pytest.approx(15000 / 1450 + 1.0)
 

@@ -5,9 +5,9 @@ import dataclasses
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from carbonledger.api import score_project
-from carbonledger.factors import DEFAULT_SET, FactorSet, load_factor_set
-from carbonledger.project import load_project
+from carbonledger.core.scoring import score_project
+from carbonledger.model.factors import DEFAULT_SET, FactorSet, load_factor_set
+from carbonledger.routes.project import load_project
 from conftest import DEMO
 
 BLUE = DEMO / "blue_smr_hydrogen.toml"

@@ -6,9 +6,9 @@ import json
 
 import pytest
 
-from carbonledger.api import score_project
-from carbonledger.factors import load_factor_set
-from carbonledger.portfolio import load_portfolio, recalc, score_many
+from carbonledger.core.scoring import score_project
+from carbonledger.model.factors import load_factor_set
+from carbonledger.analyses.portfolio import load_portfolio, recalc, score_portfolio as score_many
 
 from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 

@@ -3,7 +3,7 @@
 import pytest
 from CoolProp.CoolProp import PropsSI
 
-from carbonledger.reference import molar_mass_g_per_mol
+from carbonledger.model.reference import molar_mass_g_per_mol
 from carbonledger.stages import ammonia, electrolysis, reforming
 
 

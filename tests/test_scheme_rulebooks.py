@@ -2,7 +2,7 @@
 
 import pytest
 
-from carbonledger.schemes import load_schemes
+from carbonledger.model.rulebooks import load_schemes
 
 
 @pytest.fixture(scope="module")

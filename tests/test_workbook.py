@@ -11,7 +11,7 @@ import openpyxl
 import pytest
 
 from carbonledger.api import score
-from carbonledger.formula import Term
+from carbonledger.io.workbook.cells import Term
 from workbook_support import DEMO, labelled, recalculate_with_formulas, recalculate_with_libreoffice, run_cli, sheet, soffice
 
 DEMOS = sorted(DEMO.glob("*.toml"))
@@ -290,7 +290,7 @@ def test_well_to_wake_workbook_recalculates_the_engine_figures(tmp_path):
 
 def test_cover_states_what_a_verifier_needs(tmp_path):
     from carbonledger import CAUTION, __version__
-    from carbonledger.factors import load_factor_set
+    from carbonledger.model.factors import load_factor_set
 
     out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx")
     book = openpyxl.load_workbook(out)
@@ -389,8 +389,9 @@ def test_round_trip_through_a_workbook_saved_by_libreoffice(tmp_path):
 
 def test_a_loop_in_the_supply_chain_is_refused():
     from carbonledger.errors import InputError
-    from carbonledger.inventory import Activity, Inventory
-    from carbonledger.outputs.workbook import check_acyclic
+    from carbonledger.core.inventory import Inventory
+    from carbonledger.routes.base import Activity
+    from carbonledger.io.workbook.calculation import check_acyclic
 
     gas = Activity("natural_gas_supply", "natural_gas_supply", "gas", "GJ")
     power = Activity("electricity_mix", "electricity_supply", "power", "kWh")
@@ -405,7 +406,8 @@ def test_a_loop_in_the_supply_chain_is_refused():
 
 def test_library_functions_for_other_commands(tmp_path):
     """What `compare --from-workbook` can call: the validated project and the cover's settings."""
-    from carbonledger.workbook_inputs import load_project_from_workbook, score_workbook
+    from carbonledger.io.workbook.reader import load_project_from_workbook
+    from carbonledger.api import score_workbook
 
     out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx", "--gwp", "ar4", "--scheme", "japan-ammonia")
     project, sha, settings = load_project_from_workbook(out, ["capture.capture_rate=0.9"])

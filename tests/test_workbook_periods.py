@@ -7,9 +7,9 @@ import math
 import pytest
 
 from carbonledger.api import score
-from carbonledger.factors import load_factor_set
-from carbonledger.periods import month_results, read_meters
-from carbonledger.project import load_project
+from carbonledger.model.factors import load_factor_set
+from carbonledger.analyses.periods import month_results, read_meters
+from carbonledger.routes.project import load_project
 from workbook_support import DEMO, recalculate_with_formulas, run_cli, sheet
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"

@@ -1,0 +1,1 @@
+"""Analyses over scored projects: compare, portfolio recalculation, lifetime, metered periods."""

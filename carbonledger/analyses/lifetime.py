@@ -1,0 +1,284 @@
+"""Lifetime scoring: intensity year by year over a project's operating life.
+
+Each operating year is the project with its own electrolyser electricity (stack ageing, reset
+by stack replacement) and its own grid factor (a trajectory by calendar year, from a factor CSV
+beside the project file or from rows ``PREFIX.YEAR`` of the factor set). All years share one
+matrix structure, so they are solved together (``portfolio.score_portfolio``). The lifetime average
+is weighted by each year's output; construction emissions are spread over the lifetime output
+and added for the schemes whose rulebook counts them (``counts_construction``).
+
+References
+----------
+.. [1] ISO 14067:2018, 6.3 (capital goods).
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from ..core.scoring import intensities, rulebooks
+from ..errors import InputError
+from ..model.factors import Factor, FactorSet, read_factor_rows
+from ..model.reference import molar_mass_g_per_mol
+from ..routes import routes_of
+from ..routes.project import validate_project
+from ..stages import lifetime as stage
+from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
+from .portfolio import PortfolioProject, score_portfolio
+
+
+@dataclass
+class LifetimeYear:
+    year: int
+    stack_age_years: int
+    efficiency_fraction: float
+    output_t: float
+    grid_factor: float | None
+    grid_factor_unit: str
+    total: float
+    scheme_values: dict[str, float]
+    passes: dict[str, bool]  # under each scheme's rule (construction added where the rulebook counts it)
+
+
+@dataclass
+class LifetimeScheme:
+    scheme: str
+    unit: str
+    limit: float
+    counts_construction: bool
+    average_without_construction: float
+    average_with_construction: float
+    lifetime_value: float  # the average the rulebook asks for
+    passes: bool
+    years_missed: list[int] = field(default_factory=list)
+
+
+@dataclass
+class LifetimeResult:
+    project: str
+    project_file: str
+    product: str
+    unit: str
+    factor_set: str
+    factor_set_sha256: str
+    gwp: str
+    operating_years: int
+    lifetime_output_t: float
+    construction_t_co2e: float
+    construction_kg_co2e_per_unit: float
+    average_without_construction: float
+    average_with_construction: float
+    years: list[LifetimeYear]
+    schemes: list[LifetimeScheme]
+    trajectory_source: str
+    project_sha256: str = ""
+    boundary: str = ""
+    parameters: dict = field(default_factory=dict)
+    factors_used: list[dict] = field(default_factory=list)  # first operating year's rows
+
+    def summary(self) -> dict:
+        """The compact result stored in the run ledger."""
+        return {
+            "lifetime": True,
+            "total": self.average_without_construction,
+            "total_with_construction": self.average_with_construction,
+            "unit": self.unit,
+            "checks": [
+                {"scheme": s.scheme, "value": s.lifetime_value, "unit": s.unit, "limit": s.limit, "passes": s.passes, "years_missed": s.years_missed}
+                for s in self.schemes
+            ],
+        }
+
+    def to_dict(self) -> dict:
+        return asdict(self)
+
+    def ledger_entry(self, kind: str = "lifetime") -> dict:
+        """What the run ledger stores of this result."""
+        return {
+            "project_path": self.project_file,
+            "project_name": self.project,
+            "project_sha256": self.project_sha256,
+            "factor_set": self.factor_set,
+            "factor_set_sha256": self.factor_set_sha256,
+            "schemes": [s.scheme for s in self.schemes],
+            "boundary": self.boundary,
+            "gwp": self.gwp,
+            "results": self.summary(),
+            "parameters": self.parameters,
+            "factors_used": self.factors_used,
+            "kind": "lifetime",
+        }
+
+
+def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet) -> tuple[dict[int, Factor], str]:
+    """Yearly grid factors by calendar year, and where they come from ({} when none is given)."""
+    if lifetime.grid_trajectory_csv:
+        path = Path(project_file).parent / lifetime.grid_trajectory_csv
+        rows = read_factor_rows(path)
+        origin = str(path)
+    elif lifetime.grid_trajectory_factors:
+        prefix = lifetime.grid_trajectory_factors.rstrip(".") + "."
+        rows = [factor_set.factors[key] for key in factor_set.ids_with_prefix(prefix)]
+        origin = f"factor set {factor_set.name}, rows {prefix}YEAR"
+        if not rows:
+            raise InputError(project_file, "lifetime.grid_trajectory_factors", f"rows '{prefix}YEAR' in factor set '{factor_set.name}' (none found)")
+    else:
+        return {}, ""
+    by_year: dict[int, Factor] = {}
+    for row in rows:
+        if row.year is None:
+            raise InputError(origin, row.id, "a calendar year in the year column of every trajectory row")
+        if row.year in by_year:
+            raise InputError(origin, row.id, f"one row per year, {row.year} appears twice")
+        by_year[row.year] = row
+    wanted = range(lifetime.first_year, lifetime.first_year + lifetime.operating_years)
+    missing = [year for year in wanted if year not in by_year]
+    if missing:
+        shown = ", ".join(str(y) for y in missing[:8]) + (" ..." if len(missing) > 8 else "")
+        raise InputError(origin, "year", f"a grid factor for every operating year {wanted[0]}-{wanted[-1]}; missing {shown}")
+    return by_year, origin
+
+
+def _ageing_parameter(project) -> str:
+    """The parameter path that stack ageing raises (declared by the hydrogen route), or ''."""
+    return next((route.ageing for route in routes_of(project.model_dump()) if route.ageing), "")
+
+
+def _with_value(data: dict, path: str, value) -> dict:
+    section, name = path.split(".")
+    return {**data, section: {**data[section], name: value}}
+
+
+def lifetime_score(
+    project,
+    factor_set: FactorSet,
+    *,
+    project_file: str = "project",
+    project_sha256: str = "",
+    gwp: str = "ar6",
+    schemes: list[str] | None = None,
+) -> LifetimeResult:
+    """Score every operating year of a project and average over its life (see module notes)."""
+    life = project.lifetime
+    if life is None:
+        raise InputError(project_file, "lifetime", "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime")
+    trajectory, trajectory_origin = read_trajectory(project_file, life, factor_set)
+    data = project.model_dump(exclude_none=True)
+    ageing = _ageing_parameter(project)
+    grid_factor_id = project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
+
+    indices = np.arange(life.operating_years)
+    ages = stage.stack_age_years(indices, life.stack_replacement_years or life.operating_years)
+    loss = life.efficiency_loss_per_year if ageing else 0.0
+    efficiency = stage.efficiency_fraction_of_new(loss, ages)
+    outputs = stage.annual_output_t(life.nameplate_output_t_per_year, life.capacity_factor, efficiency)
+
+    year_projects, year_sets = [], []
+    for index in indices:
+        year = life.first_year + int(index)
+        year_data = data
+        if ageing:
+            section, name = ageing.split(".")
+            year_data = _with_value(data, ageing, stage.electricity_kwh_per_kg_h2_aged(data[section][name], float(efficiency[index])))
+        year_projects.append(PortfolioProject(project_file, validate_project(year_data, project_file), project_sha256))
+        if trajectory:
+            row = trajectory[year]
+            replaced = Factor(**{**row.__dict__, "id": grid_factor_id})
+            year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
+        else:
+            year_sets.append(factor_set)
+    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes)
+    first = scores[0]
+    # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
+    # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
+    gate_units = outputs * (1000.0 if first.product == "hydrogen" else 1.0)
+    units = gate_units / first.gate_product_per_unit
+
+    construction_t = life.plant_construction_t_co2e + life.renewables_construction_t_co2e
+    if life.renewables_mw:
+        per_mw = factor_set.get(life.renewables_construction_factor, "lifetime.renewables_construction_factor")
+        if per_mw.unit.replace(" ", "") != "tCO2e/MW":
+            raise InputError(per_mw.origin or factor_set.name, per_mw.id, f"a factor in t CO2e/MW, got {per_mw.unit}")
+        construction_t += stage.construction_t_co2e_from_capacity(life.renewables_mw, per_mw.value)
+    construction_per_gate_unit = float(stage.construction_kg_co2e_per_unit(construction_t, gate_units.sum()))
+    construction_per_unit = construction_per_gate_unit * first.gate_product_per_unit
+
+    totals = np.array([score.total for score in scores])
+    average = float(stage.output_weighted_mean(totals, units))
+    hydrogen_lhv = first.heating_values_mj_per_kg["hydrogen_lhv"]
+    ammonia_lhv = first.heating_values_mj_per_kg.get("ammonia_lhv", float("nan"))
+    fraction = hydrogen_mass_fraction_of_ammonia(molar_mass_g_per_mol("H2"), molar_mass_g_per_mol("NH3")) if first.product == "ammonia" else 1.0
+    books = rulebooks()
+    lifetime_schemes = []
+    yearly_pass: list[dict[str, bool]] = [{} for _ in scores]
+    for number, check in enumerate(first.checks):
+        rulebook = books[check.scheme]
+        values = np.array([score.checks[number].value for score in scores])
+        basis_product = first.product if rulebook.basis == "product" else "hydrogen"
+        per_basis_unit = construction_per_gate_unit if rulebook.basis == "product" else construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
+        added = intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[rulebook.quantity]
+        without = float(stage.output_weighted_mean(values, units))
+        with_construction = without + float(added)
+        counted = values + float(added) if rulebook.counts_construction else values
+        lifetime_value = with_construction if rulebook.counts_construction else without
+        missed = []
+        for index, value in enumerate(counted):
+            verdict = rulebook.evaluate(float(value))["passes"]
+            yearly_pass[index][check.scheme] = verdict
+            if not verdict:
+                missed.append(life.first_year + index)
+        lifetime_schemes.append(
+            LifetimeScheme(
+                scheme=check.scheme,
+                unit=check.unit,
+                limit=check.limit,
+                counts_construction=rulebook.counts_construction,
+                average_without_construction=without,
+                average_with_construction=with_construction,
+                lifetime_value=lifetime_value,
+                passes=rulebook.evaluate(lifetime_value)["passes"],
+                years_missed=missed,
+            )
+        )
+    years = []
+    for index, score in enumerate(scores):
+        grid = trajectory.get(life.first_year + index) if trajectory else None
+        years.append(
+            LifetimeYear(
+                year=life.first_year + index,
+                stack_age_years=int(ages[index]),
+                efficiency_fraction=float(efficiency[index]),
+                output_t=float(outputs[index]),
+                grid_factor=grid.value if grid else None,
+                grid_factor_unit=grid.unit if grid else "",
+                total=score.total,
+                scheme_values={check.scheme: check.value for check in score.checks},
+                passes=yearly_pass[index],
+            )
+        )
+    return LifetimeResult(
+        project=project.project.name,
+        project_file=project_file,
+        product=first.product,
+        unit=first.unit,
+        factor_set=factor_set.name,
+        factor_set_sha256=factor_set.sha256,
+        gwp=gwp,
+        operating_years=life.operating_years,
+        lifetime_output_t=float(outputs.sum()),
+        construction_t_co2e=float(construction_t),
+        construction_kg_co2e_per_unit=float(construction_per_unit),
+        average_without_construction=average,
+        average_with_construction=average + float(construction_per_unit),
+        years=years,
+        schemes=lifetime_schemes,
+        trajectory_source=trajectory_origin,
+        project_sha256=project_sha256,
+        boundary=project.project.boundary,
+        parameters=project.model_dump(),
+        factors_used=[factor.model_dump() for factor in first.factors_used]
+        + ([{"id": f"trajectory.{row.year}", "value": row.value, "unit": row.unit, "source": row.source, "year": row.year} for _, row in sorted(trajectory.items())] if trajectory else []),
+    )

@@ -1,0 +1,65 @@
+"""``carbonledger compare``: several projects side by side."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from .. import api
+from ..errors import InputError
+from ..io.compare_output import (
+    CHART_FORMATS,
+    comparison_csv,
+    render_comparison,
+    write_chart,
+)
+from ..io.ledger import ledger_for_run, record_run
+from .options import (
+    BoundaryOption,
+    FactorsOption,
+    ForceOption,
+    FormatOption,
+    GwpOption,
+    LedgerOption,
+    NoLedgerOption,
+    OutputFormat,
+    SchemeOption,
+    fail,
+    render,
+)
+
+
+def compare(
+    projects: Annotated[Optional[list[Path]], typer.Argument(help="Project TOML files or audit workbooks (.xlsx).")] = None,
+    boundary: BoundaryOption = None,
+    scheme: SchemeOption = None,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    output_format: FormatOption = OutputFormat.table,
+    basis: Annotated[str, typer.Option("--basis", help="auto, t-nh3, kg-h2 or mj (LHV); auto: the products' own unit when all agree, else MJ.")] = "auto",
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
+    from_workbook: Annotated[Optional[list[Path]], typer.Option("--from-workbook", help="An audit workbook to compare, its inputs and edited factors read back (repeatable).")] = None,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
+) -> None:
+    """Compare projects side by side: total, intensity, by stage, by gas, scheme verdicts."""
+    try:
+        where = ledger_for_run(ledger, not no_ledger)
+        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+        if chart is not None and chart.exists() and not force:
+            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis)
+        text = render(output_format, table=lambda: render_comparison(result), json=result.to_json, csv=lambda: comparison_csv(result))
+        if chart is not None:
+            write_chart(result, chart, force=force)
+        if where is not None:
+            record_run("compare", result.scores, ledger=where)
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)

@@ -1,0 +1,112 @@
+"""``carbonledger factors``: browse the factor library (list, show, sets, diff)."""
+
+from __future__ import annotations
+
+import json
+from dataclasses import asdict
+from typing import Annotated
+
+import typer
+
+from ..errors import InputError
+from ..io.portfolio_output import csv_text, diff_rows, diff_table, sets_table
+from ..model.factors import FACTOR_COLUMNS, diff_sets, load_factor_set, set_listing
+from .options import FactorsOption, FormatOption, OutputFormat, fail, render
+
+
+def factors_list(
+    factors: FactorsOption = "default-2026",
+    prefix: Annotated[str, typer.Option("--prefix", help="Only ids starting with this text.")] = "",
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """List the factors of a set: id, value, unit, source; '*' marks values from memory."""
+    try:
+        factor_set = load_factor_set(factors)
+    except InputError as error:
+        fail(error)
+    rows = [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)]
+
+    def table() -> str:
+        width = max((len(f.id) for f in rows), default=10)
+        lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}); * = from memory, not checked against the document"]
+        lines += [f"{'*' if f.from_memory else ' '} {f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.source[:60]}" for f in rows]
+        return "\n".join(lines)
+
+    typer.echo(
+        render(
+            output_format,
+            table=table,
+            json=lambda: json.dumps([asdict(f) for f in rows], indent=2),
+            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(f, column) for column in FACTOR_COLUMNS) for f in rows]),
+        ),
+        nl=False,
+    )
+
+
+def factors_show(
+    factor_id: Annotated[str, typer.Argument(help="Factor id, e.g. combustion.natural_gas.co2")],
+    factors: FactorsOption = "default-2026",
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Show one factor with its full source."""
+    try:
+        factor = load_factor_set(factors).get(factor_id, "FACTOR_ID")
+    except InputError as error:
+        fail(error)
+    shown = (
+        ("id", factor.id),
+        ("value", f"{factor.value:g} {factor.unit}"),
+        ("source", factor.source),
+        ("table or article", factor.table or "-"),
+        ("year", factor.year or "-"),
+        ("region", factor.region or "-"),
+        ("note", factor.note or "-"),
+        ("checked against document", "no (from memory)" if factor.from_memory else "yes"),
+        ("file", factor.origin),
+    )
+    typer.echo(
+        render(
+            output_format,
+            table=lambda: "\n".join(f"{label:>26}: {value}" for label, value in shown),
+            json=lambda: json.dumps(asdict(factor), indent=2),
+            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)]),
+        ),
+        nl=False,
+    )
+
+
+def factors_sets(output_format: FormatOption = OutputFormat.table) -> None:
+    """List the factor sets in factors/sets: name, date, sha256, base and description."""
+    try:
+        sets = set_listing()
+    except InputError as error:
+        fail(error)
+    keys = ("name", "date", "sha256", "base", "factors", "description")
+    typer.echo(
+        render(output_format, table=lambda: sets_table(sets), json=lambda: json.dumps(sets, indent=2), csv=lambda: csv_text(keys, [tuple(s[k] for k in keys) for s in sets])),
+        nl=False,
+    )
+
+
+def factors_diff(
+    old: Annotated[str, typer.Argument(help="Old factor set: name, set folder or override CSV.")],
+    new: Annotated[str, typer.Argument(help="New factor set: name, set folder or override CSV.")],
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Every factor changed, added or removed between two sets, with old and new value and source."""
+    try:
+        old_set, new_set = load_factor_set(old), load_factor_set(new)
+    except InputError as error:
+        fail(error)
+    changes = diff_sets(old_set, new_set)
+    rows = diff_rows(changes)
+    keys = ("kind", "id", "old_value", "new_value", "unit", "old_source", "new_source", "from_memory")
+    typer.echo(
+        render(
+            output_format,
+            table=lambda: diff_table(old_set.name, new_set.name, changes),
+            json=lambda: json.dumps({"old": {"name": old_set.name, "sha256": old_set.sha256}, "new": {"name": new_set.name, "sha256": new_set.sha256}, "changes": rows}, indent=2),
+            csv=lambda: csv_text(keys, [tuple(r.get(k, "") for k in keys) for r in rows]),
+        ),
+        nl=False,
+    )

@@ -1,0 +1,46 @@
+"""What every command shares: its options, the one-line error, and the one format dispatcher."""
+
+from __future__ import annotations
+
+from enum import Enum
+from pathlib import Path
+from typing import Annotated, Callable, Optional
+
+import typer
+
+from ..errors import InputError
+
+
+class OutputFormat(str, Enum):
+    table = "table"
+    json = "json"
+    csv = "csv"
+
+
+FactorsOption = Annotated[str, typer.Option("--factors", help="Factor set name, set folder, or override CSV over the default set.")]
+GwpOption = Annotated[str, typer.Option("--gwp", help="GWP100 set of the headline result: ar4, ar5 or ar6.")]
+SchemeOption = Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id to check (repeatable); default: all that apply.")]
+SetOption = Annotated[Optional[list[str]], typer.Option("--set", help="Override a project parameter: dotted.path=value (repeatable).")]
+FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
+LedgerOption = Annotated[Optional[Path], typer.Option("--ledger", help="Run ledger (SQLite) to record in; default $CARBONLEDGER_LEDGER or the user's data folder.")]
+NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
+BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
+ForceOption = Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")]
+
+
+def fail(error: InputError) -> None:
+    """Print one line on stderr and exit 2."""
+    typer.echo(f"error: {error}", err=True)
+    raise typer.Exit(2)
+
+
+def render(output_format: OutputFormat, *, table: Callable[[], str], json: Callable[[], str], csv: Callable[[], str]) -> str:
+    """The output text of a command in the chosen format (every command offers all three)."""
+    text = {OutputFormat.table: table, OutputFormat.json: json, OutputFormat.csv: csv}[output_format]()
+    return text if text.endswith("\n") else text + "\n"
+
+
+def explicit(ctx: typer.Context, name: str, value):
+    """The option's value if given on the command line, else None (a workbook's own setting)."""
+    source = ctx.get_parameter_source(name)  # typer may vendor its own click: compare by name
+    return value if source is not None and source.name == "COMMANDLINE" else None

@@ -1,0 +1,88 @@
+"""``carbonledger recalc`` and ``history``: portfolios under a new factor set, and what changed."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from .. import api
+from ..errors import InputError
+from ..io.ledger import ledger_for_run, project_history, record_run
+from ..io.portfolio_output import (
+    csv_text,
+    history_table,
+    recalc_csv,
+    recalc_json,
+    recalc_table,
+)
+from ..model.factors import load_factor_set
+from .options import (
+    FormatOption,
+    GwpOption,
+    LedgerOption,
+    NoLedgerOption,
+    OutputFormat,
+    SchemeOption,
+    fail,
+    render,
+)
+
+NEW_FAILURE_EXIT_CODE = 3
+
+
+def recalc(
+    projects: Annotated[list[Path], typer.Argument(help="Project TOML files or folders of them.")],
+    to_set: Annotated[str, typer.Option("--to", help="The new factor set (name, folder or override CSV).")],
+    from_set: Annotated[str, typer.Option("--from", help="Factor set the projects were scored with (name, folder or override CSV).")] = "default-2026",
+    scheme: SchemeOption = None,
+    gwp: GwpOption = "ar6",
+    fail_on_new_failures: Annotated[bool, typer.Option("--fail-on-new-failures", help="Exit with code 3 when any project newly fails a scheme.")] = False,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Rescore projects under a new factor set: old and new value per scheme, newly failing first."""
+    try:
+        where = ledger_for_run(ledger, not no_ledger)
+        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme)
+        text = render(output_format, table=lambda: recalc_table(result), json=lambda: recalc_json(result), csv=lambda: recalc_csv(result))
+        if where is not None:
+            record_run(f"recalc --from {from_set} --to {to_set}", [*result.old_scores, *result.new_scores], ledger=where, kind="recalc")
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+    if fail_on_new_failures and result.newly_failing:
+        raise typer.Exit(NEW_FAILURE_EXIT_CODE)
+
+
+def _named(option_value: str, option: str):
+    """Load a factor set, naming the option it came from in the error."""
+    try:
+        return load_factor_set(option_value)
+    except InputError as error:
+        raise InputError(option, option_value, error.expected) from None
+
+
+def history(
+    project: Annotated[Path, typer.Argument(help="Project TOML file (matched by its full path).")],
+    ledger: LedgerOption = None,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """How a project's results changed over the recorded runs, and why (inputs, factors)."""
+    try:
+        entries = project_history(project, ledger)
+    except InputError as error:
+        fail(error)
+    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes")
+    rows = [
+        (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c["passes"])
+        for e in entries
+        for c in e["results"]["checks"]
+    ]
+    typer.echo(
+        render(output_format, table=lambda: history_table(str(project), entries), json=lambda: json.dumps(entries, indent=2, default=str), csv=lambda: csv_text(header, rows)),
+        nl=False,
+    )

@@ -1,0 +1,1 @@
+"""The calculation core: inventory (from the route registry) -> matrices -> solve -> one scoring path -> one result type."""

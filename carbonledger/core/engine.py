@@ -1,0 +1,217 @@
+"""Matrix LCA: exchanges -> technosphere and biosphere matrices -> Brightway solve.
+
+Building the matrices (``build_matrices``) is kept apart from solving them (``solve``) so
+that one assembled system can be solved for several demands and characterised with several
+GWP100 sets without being rebuilt. Solving uses bw2calc on an in-memory bw_processing
+datapackage; no Brightway project directory is created.
+
+Notation as in Heijungs and Suh (2002): technosphere matrix A, biosphere matrix B, demand f,
+supply s = A^-1 f, inventory g = B s, characterised score h = c^T B s.
+
+References
+----------
+.. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+   Kluwer Academic Publishers.
+.. [2] Mutel, C. (2017). Brightway: An open source framework for Life Cycle Assessment.
+   Journal of Open Source Software, 2(12), 236.
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..routes.base import FLOWS
+
+INDICES_DTYPE = np.dtype([("row", np.int32), ("col", np.int32)])  # same layout as bw_processing
+FLOW_ID_OFFSET = 10_000
+
+
+@dataclass
+class Matrices:
+    """Coordinates and values of A and B, ready for a datapackage."""
+
+    activity_keys: list[str]
+    flow_keys: list[str]
+    technosphere_indices: np.ndarray
+    technosphere_values: np.ndarray
+    technosphere_flip: np.ndarray
+    biosphere_indices: np.ndarray
+    biosphere_values: np.ndarray
+
+
+@dataclass
+class Solution:
+    """Supply and inventory of one demand, in the order of ``activity_keys``/``flow_keys``."""
+
+    demand: str
+    activity_keys: list[str]
+    flow_keys: list[str]
+    supply: np.ndarray  # units of each activity's product per unit of demand
+    inventory: np.ndarray  # kg of each flow (rows) emitted by each activity (columns)
+
+    def contributions(self, characterisation: np.ndarray, zero_rated: np.ndarray | None = None) -> np.ndarray:
+        """kg CO2e by (flow, activity); activities in ``zero_rated`` (bool mask) count zero."""
+        result = characterisation[:, None] * self.inventory
+        if zero_rated is not None:
+            result = result * ~zero_rated[None, :]
+        return result
+
+
+def build_matrices(inventory) -> Matrices:
+    activity_keys = list(inventory.activities)
+    column = {key: number for number, key in enumerate(activity_keys)}
+    flow_keys = list(FLOWS)
+    flow_row = {key: FLOW_ID_OFFSET + number for number, key in enumerate(flow_keys)}
+    tech_rows, tech_values, tech_flip = [], [], []
+    bio_rows, bio_values = [], []
+    for key, activity in inventory.activities.items():
+        col = column[key]
+        tech_rows.append((col, col))
+        tech_values.append(1.0)
+        tech_flip.append(False)
+        for exchange in activity.exchanges:
+            if exchange.kind == "technosphere":
+                tech_rows.append((column[exchange.input], col))
+                tech_values.append(float(exchange.amount))
+                tech_flip.append(True)
+            else:
+                bio_rows.append((flow_row[exchange.input], col))
+                bio_values.append(float(exchange.amount))
+    return Matrices(
+        activity_keys=activity_keys,
+        flow_keys=flow_keys,
+        technosphere_indices=np.array(tech_rows, dtype=INDICES_DTYPE),
+        technosphere_values=np.array(tech_values, dtype=float),
+        technosphere_flip=np.array(tech_flip, dtype=bool),
+        biosphere_indices=np.array(bio_rows, dtype=INDICES_DTYPE),
+        biosphere_values=np.array(bio_values, dtype=float),
+    )
+
+
+def import_bw2calc():
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        import bw2calc
+        import bw_processing
+
+    return bw2calc, bw_processing
+
+
+def datapackage(matrices: Matrices, characterisation: np.ndarray):
+    """An in-memory bw_processing datapackage of A, B and a diagonal characterisation matrix."""
+    _, bwp = import_bw2calc()
+    package = bwp.create_datapackage()
+    package.add_persistent_vector(
+        matrix="technosphere_matrix",
+        name="technosphere",
+        indices_array=matrices.technosphere_indices,
+        data_array=matrices.technosphere_values,
+        flip_array=matrices.technosphere_flip,
+    )
+    package.add_persistent_vector(
+        matrix="biosphere_matrix",
+        name="biosphere",
+        indices_array=matrices.biosphere_indices,
+        data_array=matrices.biosphere_values,
+    )
+    flow_ids = [FLOW_ID_OFFSET + number for number in range(len(matrices.flow_keys))]
+    package.add_persistent_vector(
+        matrix="characterization_matrix",
+        name="characterization",
+        indices_array=np.array([(i, i) for i in flow_ids], dtype=INDICES_DTYPE),
+        data_array=np.asarray(characterisation, dtype=float),
+    )
+    return package
+
+
+def solve(matrices: Matrices, demands: list[str], characterisation: np.ndarray) -> tuple[dict[str, Solution], float]:
+    """Solve A s = f for each demand (one unit of an activity's product) with bw2calc.
+
+    Returns the solutions by demand and bw2calc's characterised score of the first demand, which
+    callers use as the reference the numpy characterisation is checked against.
+    """
+    bw2calc, _ = import_bw2calc()
+    column = {key: number for number, key in enumerate(matrices.activity_keys)}
+    flow_ids = [FLOW_ID_OFFSET + number for number in range(len(matrices.flow_keys))]
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        lca = bw2calc.LCA({column[demands[0]]: 1.0}, data_objs=[datapackage(matrices, characterisation)])
+        lca.lci()
+        lca.lcia()
+        first_score = float(lca.score)
+    activity_order = [lca.dicts.activity[column[key]] for key in matrices.activity_keys]
+    flow_order = [lca.dicts.biosphere[i] if i in lca.dicts.biosphere else None for i in flow_ids]
+    solutions: dict[str, Solution] = {}
+    for number, demand in enumerate(demands):
+        if number:
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                lca.lci(demand={column[demand]: 1.0})
+        dense = lca.inventory.toarray()
+        inventory = np.zeros((len(flow_ids), len(activity_order)))
+        for row, position in enumerate(flow_order):
+            if position is not None:
+                inventory[row, :] = dense[position, activity_order]
+        solutions[demand] = Solution(demand, matrices.activity_keys, matrices.flow_keys, np.asarray(lca.supply_array)[activity_order], inventory)
+    return solutions, first_score
+
+
+def structure_key(matrices: Matrices, demands: list[str]) -> tuple:
+    """What two systems must share to be solved together: activities, coordinates, demands."""
+    return (
+        tuple(matrices.activity_keys),
+        matrices.technosphere_indices.tobytes(),
+        matrices.technosphere_flip.tobytes(),
+        matrices.biosphere_indices.tobytes(),
+        tuple(demands),
+    )
+
+
+def solve_many(systems: list[Matrices], demands: list[str]) -> list[dict[str, Solution]]:
+    """Solve many systems of one structure (same ``structure_key``) at once.
+
+    The coordinates are taken from the first system and the values of all systems are stacked,
+    so A is assembled once as an (n, k, k) array and ``numpy.linalg.solve`` factorises every
+    system in one call; the supply s = A^-1 f and inventory g = B diag(s) are as in ``solve``.
+    bw2calc stays the reference: ``solve`` on any one system gives the same numbers, which the
+    callers check on one member of every group and the tests check on all of them.
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+    """
+    first = systems[0]
+    count, size = len(systems), len(first.activity_keys)
+    column = {key: number for number, key in enumerate(first.activity_keys)}
+    signs = np.where(first.technosphere_flip, -1.0, 1.0)
+    technosphere = np.zeros((count, size, size))
+    batch = np.arange(count)[:, None]
+    values = np.stack([system.technosphere_values for system in systems]) * signs
+    np.add.at(technosphere, (batch, first.technosphere_indices["row"][None, :], first.technosphere_indices["col"][None, :]), values)
+    biosphere = np.zeros((count, len(first.flow_keys), size))
+    if len(first.biosphere_indices):
+        bio_values = np.stack([system.biosphere_values for system in systems])
+        rows = first.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
+        np.add.at(biosphere, (batch, rows[None, :], first.biosphere_indices["col"][None, :]), bio_values)
+    demand_vectors = np.zeros((count, size, len(demands)))
+    for number, demand in enumerate(demands):
+        demand_vectors[:, column[demand], number] = 1.0
+    supply = np.linalg.solve(technosphere, demand_vectors)  # (n, k, demands)
+    results = []
+    for index in range(count):
+        results.append(
+            {
+                demand: Solution(
+                    demand,
+                    first.activity_keys,
+                    first.flow_keys,
+                    supply[index, :, number],
+                    biosphere[index] * supply[index, None, :, number],
+                )
+                for number, demand in enumerate(demands)
+            }
+        )
+    return results

@@ -1,0 +1,59 @@
+"""Factor and reference values as the route modules ask for them, recording every one used.
+
+``NumericInputs`` gives numbers; the audit workbook's ``SymbolicInputs`` gives cells. What is
+recorded in ``used`` is what a result cites, what the workbook lists and what ``recalc``
+compares between factor sets, so every value that reaches a result must come through here.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from ..errors import InputError
+from ..model.factors import FactorSet
+from ..model.reference import (
+    ammonia_formation_enthalpy,
+    ammonia_latent_heat,
+    molar_mass,
+)
+from ..model.units import UnitMismatch, conversion_factor
+
+
+class NumericInputs:
+    """Factor and reference values as numbers, recording every one that is used."""
+
+    def __init__(self, factor_set: FactorSet, source: str = "project"):
+        self.factor_set = factor_set
+        self.source = source  # the project file, named when one of its factor ids is unknown
+        self.used: dict[str, Any] = {}
+
+    def _row(self, factor_id: str, where: str):
+        if where != "factor" and factor_id not in self.factor_set.factors:
+            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'")
+        return self.factor_set.get(factor_id, where)
+
+    def factor(self, factor_id: str, unit: str, where: str = "factor"):
+        row = self._row(factor_id, where)
+        self.used[factor_id] = row
+        try:
+            return row.value * conversion_factor(row.unit, unit)
+        except UnitMismatch as error:
+            raise InputError(row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}") from None
+
+    def factor_unit(self, factor_id: str, where: str = "factor") -> str:
+        return self._row(factor_id, where).unit
+
+    def _reference(self, value):
+        self.used[value.id] = value
+        return value.value
+
+    def molar_mass(self, formula: str):
+        return self._reference(molar_mass(formula))
+
+    def latent_heat_ammonia(self):
+        """kJ/kg at 1 atm (see ``model.reference.ammonia_latent_heat``)."""
+        return self._reference(ammonia_latent_heat())
+
+    def formation_enthalpy_ammonia(self):
+        """kJ/mol, NH3(g) at 298.15 K, from the chemicals library."""
+        return self._reference(ammonia_formation_enthalpy())

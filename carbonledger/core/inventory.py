@@ -1,0 +1,72 @@
+"""The inventory of a project: every activity with its exchanges, built by the route registry.
+
+``build_inventory(params, inputs)`` asks each route module that takes part in the project (in
+chain order: supplies, the hydrogen route, conversion to ammonia, delivery legs) for its
+activities. It names no route itself. ``check_physical_limits`` asks the same modules to refuse
+values that physics forbids, before anything is built.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from ..routes import REGISTRY, routes_of
+from ..routes.base import Activity, Chain
+
+UNIT_OF_PRODUCT = {"ammonia": "t NH3", "hydrogen": "kg H2"}
+
+
+@dataclass
+class Inventory:
+    activities: dict[str, Activity]
+    reference: str  # the activity whose product is the functional unit
+    hydrogen: str  # the hydrogen production activity (gate of the hydrogen plant)
+    product: str
+    electricity_kinds: dict[str, str]  # electricity activity key -> grid / renewable / ...
+    gate: str = ""  # the product at the plant gate (ammonia storage, or the hydrogen plant)
+    reference_product: str = ""  # product of the reference activity: ammonia or hydrogen
+    functional_unit: str = ""
+    delivery: dict = field(default_factory=dict)  # voyage and cracking figures
+
+
+def build_inventory(params: dict, inputs) -> Inventory:
+    """All activities of a project, from its validated parameters (a plain nested dict)."""
+    product = params["project"]["product"]
+    chain = Chain(boundary=params["project"]["boundary"], product="hydrogen", reference="hydrogen_production")
+    activities: list[Activity] = []
+    gate = ""
+    for route in routes_of(params):
+        if route.kind == "delivery_leg" and not gate:
+            gate = chain.reference
+        activities += route.build(params, inputs, chain)
+    gate = gate or chain.reference
+    activities += chain.extra
+    functional_unit = f"1 {UNIT_OF_PRODUCT[chain.product]} " + ("at the plant gate" if chain.boundary == "cradle-to-gate" else f"delivered {chain.place}")
+    if chain.boundary != "cradle-to-gate":
+        if chain.product != product:
+            functional_unit += ", cracked from ammonia"
+        if chain.boundary == "well-to-wake":
+            functional_unit += ", burnt" if chain.product == "ammonia" else ", used (hydrogen use emits no CO2)"
+    return Inventory(
+        {a.key: a for a in activities},
+        reference=chain.reference,
+        hydrogen="hydrogen_production",
+        product=product,
+        electricity_kinds=chain.electricity_kinds,
+        gate=gate,
+        reference_product=chain.product,
+        functional_unit=functional_unit,
+        delivery=chain.figures,
+    )
+
+
+def check_physical_limits(params: dict, inputs, source: str) -> None:
+    """Refuse values that physics or the factor set forbid (numbers only; run before building).
+
+    Every module whose section the project has is asked, whatever the boundary (fuel names are
+    checked at the plant gate too); a module checks balances beyond the gate itself.
+    """
+    for route in REGISTRY:
+        owns = [name for name in {**route.sections, **route.optional_sections} if params.get(name) is not None]
+        if route.applies(params) or owns:
+            route.check_limits(params, inputs, source)

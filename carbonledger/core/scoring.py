@@ -1,0 +1,335 @@
+"""One scoring path: a validated project and a factor set -> one ``ScoreResult``.
+
+``prepare`` builds everything up to the matrices (inventory, characterisation vectors, the
+schemes to check). The solved inventories come either from bw2calc (``solve_with_bw2calc``,
+one project) or from stacked numpy solves (``solve_stacked``, many projects of one matrix
+structure, one member of each structure checked against bw2calc). Both hand their solutions to
+``assemble``, the one place where totals, stages, gases, intensities and scheme checks are
+computed, so the two solvers cannot drift apart.
+
+Per-project work is a pure function of (project, factor set, options) so that portfolios can be
+mapped over workers.
+"""
+
+from __future__ import annotations
+
+import functools
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..about import CAUTION, __version__
+from ..errors import InputError
+from ..model.factors import FactorSet
+from ..model.project import BOUNDARIES
+from ..model.reference import ReferenceValue
+from ..model.rulebooks import Scheme, load_schemes, select_schemes
+from ..routes import STAGES
+from ..routes.base import FLOWS, NON_GHG_FLOWS
+from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
+from .engine import Matrices, build_matrices, solve, solve_many, structure_key
+from .inputs import NumericInputs
+from .inventory import Inventory, build_inventory, check_physical_limits
+from .results import (
+    Check,
+    ExchangeRow,
+    FactorSetRef,
+    FactorUsed,
+    Intensity,
+    ScoreResult,
+)
+
+DEFAULT_GWP = "ar6"
+FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
+AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2calc's own score
+
+
+@functools.cache
+def rulebooks() -> dict[str, Scheme]:
+    """Every rulebook of the factors folder, loaded once per process (an empty folder is an error)."""
+    return load_schemes()
+
+
+def gwp_sets(factor_set: FactorSet) -> list[str]:
+    return sorted({key.split(".")[1] for key in factor_set.ids_with_prefix("gwp.") if key.endswith(".co2")})
+
+
+def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
+    """GWP100 factor per flow, in the order of ``FLOWS``; pre-characterised CO2e counts 1."""
+    known = gwp_sets(inputs.factor_set)
+    if gwp not in known:
+        raise InputError(where, gwp, f"one of {', '.join(known)}")
+    values = []
+    for flow in FLOWS:
+        if flow == "co2e_precharacterised":
+            values.append(1.0)
+        elif flow in NON_GHG_FLOWS:
+            values.append(0.0)
+        else:
+            gas = flow.split("_")[0]
+            factor_id = f"gwp.{gwp}.{gas}" if gas == "co2" else f"gwp.{gwp}.{flow}"
+            values.append(inputs.factor(factor_id, f"kg CO2e/kg {gas.upper()}"))
+    return np.array(values)
+
+
+def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:
+    """The same result per t NH3, per kg NH3, per kg H2 (contained, for ammonia) and per MJ (LHV)."""
+    if product == "hydrogen":
+        return {
+            "kg_co2e_per_t_nh3": None,
+            "kg_co2e_per_kg_nh3": None,
+            "kg_co2e_per_kg_h2": total_per_unit,
+            "g_co2e_per_mj": total_per_unit * 1000.0 / hydrogen_lhv,
+        }
+    return {
+        "kg_co2e_per_t_nh3": total_per_unit,
+        "kg_co2e_per_kg_nh3": total_per_unit / 1000.0,
+        "kg_co2e_per_kg_h2": total_per_unit / 1000.0 / hydrogen_fraction,
+        "g_co2e_per_mj": total_per_unit / ammonia_lhv,
+    }
+
+
+def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str) -> str:
+    """Why a scheme counts an activity's direct emissions as zero ('' when it counts them)."""
+    activity = inventory.activities[activity_key]
+    if scheme.electricity == "renewable_at_zero" and inventory.electricity_kinds.get(activity_key) == "renewable":
+        return "renewable electricity: zero under this scheme"
+    if activity.stage in scheme.excluded_stages:
+        return "stage outside this scheme's boundary"
+    return ""
+
+
+@dataclass
+class Prepared:
+    """A project made ready to solve: its inventory, matrices, characterisations and schemes.
+
+    Everything here depends on (project, factor set, options) only, so a portfolio run can
+    prepare many projects and solve those that share a matrix structure together.
+    """
+
+    project: object
+    factor_set: FactorSet
+    params: dict
+    inputs: NumericInputs
+    inventory: Inventory
+    chosen: list[Scheme]
+    gwp: str
+    headline: np.ndarray
+    per_gwp: dict[str, np.ndarray]
+    matrices: Matrices
+    demands: list[str]
+    hydrogen_lhv: float
+    ammonia_lhv: float
+    fraction: float
+    source: str = "project"
+    project_sha256: str = ""
+
+
+def prepare(
+    project,
+    factor_set: FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    boundary: str | None = None,
+    project_sha256: str = "",
+) -> Prepared:
+    """Validated project + factor set -> inventory, matrices and characterisation vectors.
+
+    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
+    """
+    params = project.model_dump()
+    if boundary is not None:
+        if boundary not in BOUNDARIES:
+            raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+        params["project"]["boundary"] = boundary
+    inputs = NumericInputs(factor_set, source)
+    check_physical_limits(params, inputs, source)
+    inventory = build_inventory(params, inputs)
+    product = inventory.product
+    chosen = select_schemes(rulebooks(), schemes, product)
+    headline = characterisation(inputs, gwp)
+    per_gwp = {gwp: headline}
+    for scheme in chosen:
+        if scheme.gwp not in per_gwp:
+            per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp")
+    matrices = build_matrices(inventory)
+    demands = list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
+    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
+    ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if product == "ammonia" else float("nan")
+    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
+    return Prepared(project, factor_set, params, inputs, inventory, chosen, gwp, headline, per_gwp, matrices, demands, hydrogen_lhv, ammonia_lhv, fraction, source, project_sha256)
+
+
+def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
+    """Each chosen scheme's value and verdict under its own rulebook, from solved inventories."""
+    inventory = prepared.inventory
+    keys = prepared.matrices.activity_keys
+    checks = []
+    for scheme in prepared.chosen:
+        mask = np.array([bool(zero_rated(scheme, inventory, key)) for key in keys])
+        basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
+        basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
+        scheme_total = float(solutions[basis_demand].contributions(prepared.per_gwp[scheme.gwp], mask).sum())
+        value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
+        verdict = scheme.evaluate(value)
+        checks.append(
+            Check(
+                scheme=scheme.id,
+                name=scheme.name,
+                quantity=scheme.quantity,
+                basis=scheme.basis,
+                boundary=scheme.boundary,
+                gwp_basis=scheme.gwp,
+                electricity_rule=scheme.electricity,
+                unit=scheme.unit,
+                value=value,
+                from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
+                note=scheme.note,
+                **verdict,
+            )
+        )
+    return checks
+
+
+def _factor_rows(used: dict) -> list[FactorUsed]:
+    rows = []
+    for key in sorted(used):
+        item = used[key]
+        if isinstance(item, ReferenceValue):
+            rows.append(FactorUsed(id=item.id, value=item.value, unit=item.unit, source=item.source))
+        else:
+            rows.append(FactorUsed(**{k: getattr(item, k) for k in FactorUsed.model_fields}))
+    return rows
+
+
+def _plain(value):
+    """Figures as JSON-ready floats and text."""
+    if isinstance(value, dict):
+        return {key: _plain(item) for key, item in value.items()}
+    return value if isinstance(value, str) else float(value)
+
+
+def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
+    """The result of one project from its solved inventories: the one place figures are summed."""
+    params, inventory, matrices, headline = prepared.params, prepared.inventory, prepared.matrices, prepared.headline
+    main = solutions[inventory.reference]
+    contributions = main.contributions(headline)
+    total = float(contributions.sum())
+    keys = matrices.activity_keys
+    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0))}
+    present = {inventory.activities[key].stage for key in keys}
+    by_stage = {stage: 0.0 for stage in STAGES if stage in present}
+    for key, value in by_activity.items():
+        by_stage[inventory.activities[key].stage] += value
+    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1)) if flow not in NON_GHG_FLOWS}
+    non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1)) if flow in NON_GHG_FLOWS}
+    hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+    supply = dict(zip(keys, main.supply))
+    exchanges = [
+        ExchangeRow(
+            activity=activity.key,
+            stage=activity.stage,
+            kind=exchange.kind,
+            input=exchange.input,
+            label=exchange.label,
+            amount=float(exchange.amount),
+            unit=exchange.unit,
+            activity_supply=float(supply[activity.key]),
+        )
+        for activity in inventory.activities.values()
+        for exchange in activity.exchanges
+    ]
+    product, reference_product = inventory.product, inventory.reference_product
+    heating = {"hydrogen_lhv": prepared.hydrogen_lhv}
+    if product == "ammonia":
+        heating["ammonia_lhv"] = prepared.ammonia_lhv
+    every = intensities(total, reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
+    factor_set = prepared.factor_set
+    return ScoreResult(
+        carbonledger_version=__version__,
+        caution=CAUTION,
+        project=params["project"]["name"],
+        project_file=prepared.source,
+        project_sha256=prepared.project_sha256,
+        product=product,
+        boundary=params["project"]["boundary"],
+        functional_unit=inventory.functional_unit,
+        reference_product=reference_product,
+        unit=FUNCTIONAL_UNITS[reference_product][1],
+        gwp_basis=prepared.gwp,
+        factor_set=FactorSetRef(name=factor_set.name, sha256=factor_set.sha256),
+        total=total,
+        intensity=Intensity(**{k: every[k] for k in Intensity.model_fields}),
+        hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
+        hydrogen_kg_per_unit=float(supply[inventory.hydrogen]),
+        gate_product_per_unit=float(supply[inventory.gate]),
+        by_stage=by_stage,
+        by_gas=by_gas,
+        non_ghg_kg=non_ghg,
+        by_activity=by_activity,
+        heating_values_mj_per_kg=heating,
+        factors_used=_factor_rows(prepared.inputs.used),
+        checks=scheme_checks(prepared, solutions),
+        exchanges=exchanges,
+        parameters=params,
+        delivery=_plain(inventory.delivery),
+    )
+
+
+def _check_agreement(prepared: Prepared, solutions: dict, bw_score: float, what: str) -> None:
+    fast = float(solutions[prepared.inventory.reference].contributions(prepared.headline).sum())
+    if not np.isfinite(fast) or not np.isclose(fast, bw_score, **AGREEMENT):
+        raise RuntimeError(f"{what} disagrees with bw2calc for {prepared.source}: {fast} vs {bw_score}")
+
+
+def solve_with_bw2calc(prepared: Prepared) -> dict:
+    """Solve one prepared project with bw2calc; the numpy characterisation must agree with it."""
+    solutions, bw_score = solve(prepared.matrices, prepared.demands, prepared.headline)
+    _check_agreement(prepared, solutions, bw_score, "characterisation")
+    return solutions
+
+
+def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[dict]:
+    """Solve many prepared projects, one stacked numpy solve per matrix structure.
+
+    With ``check_with_bw2calc`` one member of every structure group is also solved with bw2calc
+    and must agree to 1e-9 (relative).
+    """
+    groups: dict[tuple, list[int]] = {}
+    for number, ready in enumerate(prepared):
+        groups.setdefault(structure_key(ready.matrices, ready.demands), []).append(number)
+    solutions: list[dict] = [{}] * len(prepared)
+    for members in groups.values():
+        solved = solve_many([prepared[n].matrices for n in members], prepared[members[0]].demands)
+        for number, solution in zip(members, solved):
+            solutions[number] = solution
+        if check_with_bw2calc:
+            reference = prepared[members[0]]
+            _, bw_score = solve(reference.matrices, reference.demands, reference.headline)
+            _check_agreement(reference, solutions[members[0]], bw_score, "stacked solve")
+    return solutions
+
+
+def score_project(
+    project,
+    factor_set: FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    project_sha256: str = "",
+    boundary: str | None = None,
+) -> ScoreResult:
+    """Score a validated project with a loaded factor set, solved by bw2calc.
+
+    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
+    """
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary, project_sha256=project_sha256)
+    return assemble(prepared, solve_with_bw2calc(prepared))
+
+
+def score_many(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[ScoreResult]:
+    """Score many prepared projects with stacked solves; the same results as ``score_project``."""
+    return [assemble(ready, solution) for ready, solution in zip(prepared, solve_stacked(prepared, check_with_bw2calc))]

@@ -1,0 +1,149 @@
+"""Side-by-side table, wide CSV and stacked-bar chart of a ComparisonResult (never recomputed)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from ..analyses.compare import ComparisonResult
+from ..errors import InputError
+from .files import atomic_write
+from .tables import INTENSITY_UNITS, display_number
+
+CHART_FORMATS = ("png", "svg")
+
+
+def _label(project) -> str:
+    return Path(project.project_file).stem
+
+
+def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]]:
+    """(section, key, unit, one value per project) rows: the table and the CSV share them."""
+    projects = result.projects
+    rows: list[tuple[str, str, str, list]] = [
+        ("project", "name", "", [p.project for p in projects]),
+        ("project", "product", "", [p.product for p in projects]),
+        ("project", "functional_unit", "", [p.functional_unit for p in projects]),
+        ("total", "per functional unit", "kg CO2e", [p.total for p in projects]),
+        ("total", "unit", "", [p.unit for p in projects]),
+        ("basis", result.basis, result.unit, [p.value for p in projects]),
+    ]
+    for key, unit in INTENSITY_UNITS.items():
+        rows.append(("intensity", key, unit, [p.intensity.get(key) for p in projects]))
+    for stage in result.stages:
+        rows.append(("by_stage", stage, result.unit, [p.by_stage.get(stage) for p in projects]))
+    gases = list(dict.fromkeys(gas for p in projects for gas in p.by_gas))
+    for gas in gases:
+        rows.append(("by_gas", gas, result.unit, [p.by_gas.get(gas) for p in projects]))
+    for flow in dict.fromkeys(f for p in projects for f in p.non_ghg_kg):
+        rows.append(("non_ghg", f"{flow} (not a GHG)", "kg per functional unit", [p.non_ghg_kg.get(flow) for p in projects]))
+    schemes = list(dict.fromkeys(c.scheme for p in projects for c in p.checks))
+    for scheme in schemes:
+        checks = [next((c for c in p.checks if c.scheme == scheme), None) for p in projects]
+        unit = next(c.unit for c in checks if c is not None)
+        rows += [
+            (f"check:{scheme}", "value", unit, [c.value if c else None for c in checks]),
+            (f"check:{scheme}", "limit", unit, [c.limit if c else None for c in checks]),
+            (f"check:{scheme}", "verdict", "", [("pass" if c.passes else "FAIL") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
+            (f"check:{scheme}", "tier", "", [(c.tier or "-") if c else "n/a" for c in checks]),
+        ]
+    return rows
+
+
+def comparison_csv(result: ComparisonResult) -> str:
+    import csv
+    import io
+
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(["section", "key", "unit"] + [_label(p) for p in result.projects])
+    for section, key, unit, values in comparison_rows(result):
+        writer.writerow([section, key, unit] + ["" if v is None else v for v in values])
+    return buffer.getvalue()
+
+
+def render_comparison(result: ComparisonResult) -> str:
+    from rich.console import Console
+    from rich.table import Table
+
+    width = max(110, 34 + 22 * len(result.projects))
+    import io
+
+    console = Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
+    console.print(f"[bold]Comparison[/bold]: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    table = Table(show_header=True, show_lines=False)
+    table.add_column("")
+    table.add_column("unit")
+    for project in result.projects:
+        table.add_column(_label(project), justify="right", overflow="fold")
+    section_titles = {"project": None, "total": None, "basis": None}
+    last = None
+    for section, key, unit, values in comparison_rows(result):
+        group = section.split(":")[0]
+        if group != last and group not in section_titles:
+            table.add_section()
+        last = group
+        name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
+        if section == "intensity":
+            name = "per " + key.split("_per_")[1].replace("_", " ")
+        cells = [v if isinstance(v, str) else display_number(v) for v in values]
+        table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
+    console.print(table)
+    console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
+    console.print(f"Caution: {result.caution}")
+    return console.export_text()
+
+
+def comparison_figure(result: ComparisonResult):
+    """A matplotlib figure: one stacked bar per project by stage, scheme limits as lines."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    labels = [_label(p) for p in result.projects]
+    figure, axes = plt.subplots(figsize=(max(7.0, 1.5 * len(labels) + 3.5), 5.5), layout="constrained")
+    colours = plt.get_cmap("tab20").colors
+    positions = list(range(len(labels)))
+    above = [0.0] * len(labels)
+    below = [0.0] * len(labels)
+    for number, stage in enumerate(result.stages):
+        values = [p.by_stage.get(stage, 0.0) for p in result.projects]
+        bottoms = [a if v >= 0 else b for v, a, b in zip(values, above, below)]
+        bars = axes.bar(positions, values, bottom=bottoms, width=0.6, label=stage.replace("_", " "), color=colours[number % len(colours)])
+        for index, patch in enumerate(bars.patches):
+            patch.set_gid(f"bar-{index}-{stage}")
+        above = [a + max(v, 0.0) for v, a in zip(values, above)]
+        below = [b + min(v, 0.0) for v, b in zip(values, below)]
+    for position, project in zip(positions, result.projects):
+        axes.annotate(display_number(project.value), (position, max(above[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
+    for limit, text in ((line.limit, line.label) for line in result.thresholds):
+        axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
+        axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
+    axes.set_xticks(positions, labels, rotation=20, ha="right", fontsize=8)
+    axes.set_ylabel(f"{result.unit}, {result.boundary}")
+    axes.set_title(f"Carbon intensity by stage, {result.boundary} (GWP100 {result.gwp_basis.upper()})", fontsize=10)
+    axes.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+    limits = [line.limit for line in result.thresholds]
+    axes.set_ylim(min(below + [0.0]) * 1.1, max(above + limits + [0.0]) * 1.1 or 1.0)
+    figure.supxlabel(
+        "Dashed lines: scheme limits, each applying on its scheme's own boundary and basis. Screening estimate, not a certification:\n"
+        "the scheme's official methodology, an accredited verifier and local regulation take precedence.",
+        fontsize=6.5,
+    )
+    return figure
+
+
+def write_chart(result: ComparisonResult, path: str | Path, force: bool = False) -> Path:
+    """Write the chart as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
+    path = Path(path)
+    kind = path.suffix.lower().lstrip(".")
+    if kind not in CHART_FORMATS:
+        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
+    figure = comparison_figure(result)
+    import matplotlib.pyplot as plt
+
+    try:
+        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
+    finally:
+        plt.close(figure)

@@ -1,0 +1,229 @@
+"""Text, CSV and JSON of portfolio outputs: recalc rows, factor-set diffs, lifetime, history.
+
+They read result objects and never recompute.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from dataclasses import asdict
+
+from ..about import CAUTION
+from .tables import display_number
+
+
+def csv_text(header: tuple, rows: list[tuple]) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(header)
+    writer.writerows(rows)
+    return buffer.getvalue()
+
+
+def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozenset()) -> str:
+    widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
+
+    def line(cells):
+        return "  ".join(c.rjust(w) if h in right else c.ljust(w) for c, w, h in zip(cells, widths, headers)).rstrip()
+
+    return "\n".join([line(headers), line(["-" * w for w in widths])] + [line(r) for r in rows]) + "\n"
+
+
+# --- recalc ------------------------------------------------------------------------------------
+
+RECALC_COLUMNS = ("status", "project_file", "project", "scheme", "old_value", "new_value", "change", "unit", "limit", "old_passes", "new_passes", "rescored")
+
+
+def recalc_json(recalc) -> str:
+    return json.dumps(
+        {
+            "caution": CAUTION,
+            "from": {"name": recalc.old_set, "sha256": recalc.old_sha256},
+            "to": {"name": recalc.new_set, "sha256": recalc.new_sha256},
+            "changed_factors": recalc.changed_factors,
+            "projects": len(recalc.old_scores),
+            "rescored": recalc.rescored,
+            "newly_failing": len(recalc.newly_failing),
+            "rows": [{key: getattr(row, key) for key in RECALC_COLUMNS} for row in recalc.rows],
+        },
+        indent=2,
+    )
+
+
+def recalc_csv(recalc) -> str:
+    return csv_text(RECALC_COLUMNS, [tuple(getattr(row, key) for key in RECALC_COLUMNS) for row in recalc.rows])
+
+
+def recalc_table(recalc) -> str:
+    rescored = recalc.rescored
+    head = (
+        f"recalc: {len(recalc.old_scores)} projects, factors {recalc.old_set} (sha256 {recalc.old_sha256[:12]}) -> "
+        f"{recalc.new_set} (sha256 {recalc.new_sha256[:12]})\n"
+        f"{len(recalc.changed_factors)} factor rows differ; {rescored} projects use one of them and were rescored, "
+        f"the others kept their result\n\n"
+    )
+    rows = [
+        [
+            row.status.upper() if row.status.startswith("newly") else row.status,
+            row.project,
+            row.scheme,
+            display_number(row.old_value),
+            display_number(row.new_value),
+            f"{row.change:+.4g}",
+            row.unit,
+            display_number(row.limit),
+        ]
+        for row in recalc.rows
+    ]
+    body = _table(["status", "project", "scheme", "old", "new", "change", "unit", "limit"], rows, {"old", "new", "change", "limit"})
+    newly = recalc.newly_failing
+    tail = f"\n{len(newly)} project-scheme pairs newly fail" + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "") + "\n"
+    return head + body + tail + f"Caution: {CAUTION}\n"
+
+
+# --- factor sets ---------------------------------------------------------------------------------
+
+
+def sets_table(sets: list[dict]) -> str:
+    rows = [[s["name"], s["date"], s["sha256"][:16], s["base"] or "-", s["description"][:70] + ("..." if len(s["description"]) > 70 else "")] for s in sets]
+    return _table(["name", "date", "sha256", "base", "description"], rows)
+
+
+def diff_rows(changes) -> list[dict]:
+    return [
+        {
+            "id": c.id,
+            "kind": c.kind,
+            "old_value": c.old.value if c.old else None,
+            "new_value": c.new.value if c.new else None,
+            "unit": (c.new or c.old).unit,
+            "old_source": c.old.citation() if c.old else None,
+            "new_source": c.new.citation() if c.new else None,
+            "from_memory": (c.new or c.old).from_memory,
+        }
+        for c in changes
+    ]
+
+
+def diff_table(old_name: str, new_name: str, changes) -> str:
+    rows = [
+        [r["kind"], r["id"], "-" if r["old_value"] is None else f"{r['old_value']:g}", "-" if r["new_value"] is None else f"{r['new_value']:g}", r["unit"], (r["new_source"] or r["old_source"])[:70]]
+        for r in diff_rows(changes)
+    ]
+    head = f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, {sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} removed\n"
+    return head + (_table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}) if rows else "")
+
+
+# --- lifetime ------------------------------------------------------------------------------------
+
+
+def lifetime_json(result) -> str:
+    data = asdict(result)
+    data["caution"] = CAUTION
+    return json.dumps(data, indent=2, default=float)
+
+
+def lifetime_csv(result) -> str:
+    schemes = [s.scheme for s in result.schemes]
+    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes)
+    rows = [
+        (y.year, y.stack_age_years, y.efficiency_fraction, y.output_t, "" if y.grid_factor is None else y.grid_factor, y.grid_factor_unit, y.total, result.unit)
+        + tuple(y.scheme_values[s] for s in schemes)
+        for y in result.years
+    ]
+    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes))
+    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes))
+    return csv_text(header, rows)
+
+
+def lifetime_table(result) -> str:
+    schemes = result.schemes
+    lines = [
+        f"{result.project}  ({result.product}, lifetime {result.operating_years} years)",
+        f"factors: {result.factor_set} (sha256 {result.factor_set_sha256[:12]})   GWP100 of the total: {result.gwp.upper()}"
+        + (f"   grid trajectory: {result.trajectory_source}" if result.trajectory_source else ""),
+        "",
+    ]
+    headers = ["year", "stack age", "efficiency", "output t", "grid", f"total {result.unit}"] + [f"{s.scheme} [{s.unit}]" for s in schemes]
+    rows = []
+    for y in result.years:
+        rows.append(
+            [str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction:.3f}", f"{y.output_t:,.0f}", "-" if y.grid_factor is None else f"{y.grid_factor:g}", display_number(y.total)]
+            + [display_number(y.scheme_values[s.scheme]) + ("" if y.passes[s.scheme] else " x") for s in schemes]
+        )
+    lines.append(_table(headers, rows, set(headers) - {"year"}))
+    lines.append("x = misses the scheme's threshold that year (construction added where the rulebook counts it)")
+    lines.append(
+        f"lifetime output {result.lifetime_output_t:,.0f} t; construction {result.construction_t_co2e:,.0f} t CO2e = "
+        f"{display_number(result.construction_kg_co2e_per_unit)} {result.unit}"
+    )
+    lines.append(f"lifetime average (output-weighted): {display_number(result.average_without_construction)} {result.unit} without construction, {display_number(result.average_with_construction)} with")
+    lines.append("")
+    rows = [
+        [
+            s.scheme,
+            display_number(s.average_without_construction),
+            display_number(s.average_with_construction),
+            "yes" if s.counts_construction else "no *",
+            display_number(s.lifetime_value),
+            display_number(s.limit),
+            s.unit,
+            "pass" if s.passes else "FAIL",
+            ", ".join(str(y) for y in s.years_missed) or "none",
+        ]
+        for s in schemes
+    ]
+    lines.append(_table(["scheme", "avg without", "avg with", "counts construction", "lifetime value", "limit", "unit", "verdict", "years missed"], rows, {"avg without", "avg with", "lifetime value", "limit"}))
+    lines.append("* each rulebook's construction rule (counts_construction in factors/schemes/*.toml) is recorded from memory")
+    lines.append(f"Caution: {CAUTION}")
+    return "\n".join(lines) + "\n"
+
+
+# --- history -------------------------------------------------------------------------------------
+
+
+def _why(changes: dict | None) -> list[str]:
+    if changes is None:
+        return ["first record"]
+    why = []
+    if changes["project_file"]:
+        why.append("project file edited")
+    if changes["factor_set"]:
+        why.append(f"factor set {changes['factor_set']['old']} -> {changes['factor_set']['new']}")
+    if changes["gwp"]:
+        why.append(f"GWP set {changes['gwp']['old']} -> {changes['gwp']['new']}")
+    for p in changes["parameters"]:
+        why.append(f"input {p['parameter']}: {p['old']} -> {p['new']}")
+    for f in changes["factors"]:
+        if f["kind"] == "changed":
+            source = "" if f["old_source"] == f["new_source"] else f" (source now: {f['new_source']})"
+            why.append(f"factor {f['id']}: {f['old']:g} -> {f['new']:g} {f['unit']}{source}")
+        else:
+            why.append(f"factor {f['id']} {f['kind']}")
+    return why or ["nothing changed in inputs or factors"]
+
+
+def history_table(project_file: str, history: list[dict]) -> str:
+    if not history:
+        return f"no runs of {project_file} in the ledger\n"
+    lines = [f"history of {history[-1]['project']} ({project_file}): {len(history)} records", ""]
+    previous_checks: dict[str, float] = {}
+    for entry in history:
+        lines.append(
+            f"#{entry['record']}  {entry['time']}  {entry['command']}  [{entry['kind']}]  factors {entry['factor_set']} ({entry['factor_set_sha256'][:8]})"
+            f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}"
+        )
+        results = entry["results"]
+        lines.append(f"    total {display_number(results['total'])} {results['unit']}")
+        for check in results["checks"]:
+            old = previous_checks.get(check["scheme"])
+            change = 0.0 if old is None or abs(check["value"] - old) <= 1e-9 * max(1.0, abs(old)) else check["value"] - old
+            delta = "" if old is None else f"  ({change:+.4g})"
+            lines.append(f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} {'pass' if check['passes'] else 'FAIL'}{delta}")
+            previous_checks[check["scheme"]] = check["value"]
+        for reason in _why(entry["changes"]):
+            lines.append(f"    why: {reason}")
+        lines.append("")
+    return "\n".join(lines)

@@ -1,0 +1,239 @@
+"""The Calculation sheet's machinery, shared by the Results and Periods sheets: the project's
+inventory run on symbolic cells, and one block of exchanges written as live formulas.
+
+Supply of activity j per functional unit: s_j = f_j + sum over consumers k of a_jk * s_k, where
+a_jk is the amount of j one unit of k consumes. The chain is acyclic, so each s_j is a finite
+formula of the s_k downstream of it; this is the technosphere system A s = f of the engine
+(Heijungs and Suh 2002) written out row by row.
+
+References
+----------
+.. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+from ...core.inventory import Inventory, build_inventory
+from ...core.scoring import characterisation, zero_rated
+from ...errors import InputError
+from ...routes import STAGES
+from ...routes.base import FLOWS
+from ...stages.ammonia import hydrogen_mass_fraction_of_ammonia
+from .cells import SymbolicInputs, Term, local, ref, sum_of
+from .layout import bold_row, font_bold, put_formula, put_text, set_widths
+
+
+# the symbolic model -------------------------------------------------------------------------
+@dataclass
+class SymbolicModel:
+    """The project's inventory and figures as Terms, with where each input lives."""
+
+    inventory: Inventory
+    inputs: SymbolicInputs
+    headline: list  # GWP Term (or 1.0) per flow, in the order of FLOWS
+    per_gwp: dict[str, list]
+    hydrogen_lhv: Any
+    ammonia_lhv: Any
+    hydrogen_fraction: Any
+
+
+def symbolic_model(params_symbolic: dict, factor_set, gwp: str, scheme_gwps: list[str]) -> SymbolicModel:
+    """Run the engine's own arithmetic (inventory, characterisation, heating values) on cells."""
+    inputs = SymbolicInputs(factor_set)
+    inventory = build_inventory(params_symbolic, inputs)
+    headline = list(characterisation(inputs, gwp))
+    per_gwp = {gwp: headline}
+    for other in scheme_gwps:
+        if other not in per_gwp:
+            per_gwp[other] = list(characterisation(inputs, other))
+    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
+    ammonia = inventory.product == "ammonia"
+    ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if ammonia else 0.0
+    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if ammonia else 1.0
+    return SymbolicModel(inventory, inputs, headline, per_gwp, hydrogen_lhv, ammonia_lhv, fraction)
+
+
+def consumers_of(inventory: Inventory) -> dict[str, list[tuple[str, int]]]:
+    """For each activity, the (consumer, exchange index) pairs that consume its product."""
+    result: dict[str, list[tuple[str, int]]] = {key: [] for key in inventory.activities}
+    for key, activity in inventory.activities.items():
+        for index, exchange in enumerate(activity.exchanges):
+            if exchange.kind == "technosphere":
+                result[exchange.input].append((key, index))
+    return result
+
+
+def check_acyclic(inventory: Inventory, source: str) -> list[str]:
+    """Activities in supply order (consumers before suppliers); refuse a loop in the chain."""
+    consumers = consumers_of(inventory)
+    order: list[str] = []
+    state: dict[str, int] = {}
+
+    def visit(key: str, path: tuple[str, ...]) -> None:
+        if state.get(key) == 2:
+            return
+        if state.get(key) == 1:
+            loop = " -> ".join(path[path.index(key):] + (key,))
+            raise InputError(source, "inventory", f"a supply chain without loops for the workbook; found {loop}")
+        state[key] = 1
+        for consumer, _ in consumers[key]:
+            visit(consumer, path + (key,))
+        state[key] = 2
+        order.append(key)
+
+    for key in inventory.activities:
+        visit(key, ())
+    return order
+
+
+@dataclass
+class CalculationBlock:
+    """Where one block of exchanges was written, for the results to reference."""
+
+    sheet: str
+    activity_row: dict[str, int] = field(default_factory=dict)
+    exchange_rows: list[tuple[int, str, Any]] = field(default_factory=list)  # (row, activity key, exchange)
+    headline_column: str = "K"
+    scheme_column: dict[str, str] = field(default_factory=dict)
+    gate_column: str = "L"
+    end_row: int = 0
+
+
+EXCHANGE_COLUMNS = (
+    "activity",
+    "stage",
+    "kind",
+    "input (activity) or emission (gas)",
+    "description",
+    "unit, per unit of the activity's product",
+    "amount per unit of the activity",
+    "supply of the activity per functional unit",
+    "amount per functional unit",
+    "GWP100 (headline set)",
+    "kg CO2e per functional unit",
+    "kg CO2e per kg H2 at the hydrogen plant gate (headline set)",
+)
+
+
+
+
+def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str, str], *, top: int, title: str, scale_column: dict | None = None) -> CalculationBlock:
+    """Activities with supply formulas, then one row per exchange; returns where things are.
+
+    ``scale_column`` optionally maps a supplier key to a cell (Term) that multiplies every
+    exchange consuming it (used by the period blocks to match metered electricity).
+    """
+    from openpyxl.utils import get_column_letter
+
+    inventory = model.inventory
+    block = CalculationBlock(sheet=ws.title)
+    row = top
+    put_text(ws, row, 1, title)
+    ws.cell(row=row, column=1).font = font_bold()
+    row += 1
+    put_text(ws, row, 1, "Supply: units of each activity's product per functional unit = demand + sum over consumers of (amount consumed per unit of the consumer x supply of the consumer).")
+    row += 2
+    activity_header = (
+        "activity",
+        "stage",
+        "name",
+        "unit of product",
+        "supply per functional unit",
+        "supply per kg H2 at the hydrogen plant gate",
+        "supply per unit of product at the plant gate",
+    )
+    for column, text in enumerate(activity_header, start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, len(activity_header))
+    for key in inventory.activities:
+        row += 1
+        block.activity_row[key] = row
+    exchange_header_row = row + 2
+    # exchange rows first (their addresses are needed by the supply formulas)
+    row = exchange_header_row
+    headers = list(EXCHANGE_COLUMNS) + [f"kg CO2e per unit of basis, {scheme.id} ({scheme.gwp.upper()})" for scheme in chosen]
+    for column, text in enumerate(headers, start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, len(headers))
+    for position, scheme in enumerate(chosen):
+        block.scheme_column[scheme.id] = get_column_letter(len(EXCHANGE_COLUMNS) + 1 + position)
+    exchange_row: dict[tuple[str, int], int] = {}
+    flow_index = {flow: number for number, flow in enumerate(FLOWS)}
+    for key, activity in inventory.activities.items():
+        supply = local("E", block.activity_row[key])
+        hydrogen_gate_supply = local("F", block.activity_row[key])
+        product_gate_supply = local("G", block.activity_row[key])
+        for index, exchange in enumerate(activity.exchanges):
+            row += 1
+            exchange_row[(key, index)] = row
+            block.exchange_rows.append((row, key, exchange))
+            put_text(ws, row, 1, key)
+            put_text(ws, row, 2, activity.stage)
+            put_text(ws, row, 3, "input" if exchange.kind == "technosphere" else "emission")
+            put_text(ws, row, 4, exchange.input)
+            put_text(ws, row, 5, exchange.label)
+            put_text(ws, row, 6, exchange.unit)
+            amount = exchange.amount
+            if scale_column and exchange.kind == "technosphere" and exchange.input in scale_column:
+                amount = Term.of(amount) * scale_column[exchange.input]
+            put_formula(ws, row, 7, amount, address)
+            put_formula(ws, row, 8, supply, address)
+            put_formula(ws, row, 9, local("G", row) * local("H", row), address)
+            if exchange.kind != "biosphere":
+                continue
+            number = flow_index[exchange.input]
+            put_formula(ws, row, 10, model.headline[number], address)
+            put_formula(ws, row, 11, local("I", row) * local("J", row), address)
+            put_formula(ws, row, 12, local("G", row) * hydrogen_gate_supply * local("J", row), address)
+            for scheme in chosen:
+                column = len(EXCHANGE_COLUMNS) + 1 + list(block.scheme_column).index(scheme.id)
+                reason = zero_rated(scheme, inventory, key)
+                if reason:
+                    put_text(ws, row, column, reason)
+                    continue
+                basis_supply = product_gate_supply if scheme.basis == "product" else hydrogen_gate_supply
+                put_formula(ws, row, column, local("G", row) * basis_supply * model.per_gwp[scheme.gwp][number], address)
+    # activities with supply formulas
+    consumers = consumers_of(inventory)
+    for key, activity in inventory.activities.items():
+        arow = block.activity_row[key]
+        put_text(ws, arow, 1, key)
+        put_text(ws, arow, 2, activity.stage)
+        put_text(ws, arow, 3, activity.name)
+        put_text(ws, arow, 4, activity.unit)
+        for column, letter, demand in ((5, "E", inventory.reference), (6, "F", inventory.hydrogen), (7, "G", inventory.gate)):
+            terms = [Term("1")] if key == demand else []
+            terms += [local("G", exchange_row[(consumer, index)]) * local(letter, block.activity_row[consumer]) for consumer, index in consumers[key]]
+            put_formula(ws, arow, column, sum_of(terms), address)
+    set_widths(ws, {"A": 26, "B": 24, "C": 10, "D": 26, "E": 52, "F": 22, "G": 18, "H": 18, "I": 18, "J": 12, "K": 18, "L": 18})
+    for position in range(len(chosen)):
+        ws.column_dimensions[get_column_letter(len(EXCHANGE_COLUMNS) + 1 + position)].width = 20
+    block.end_row = row
+    return block
+
+
+
+
+def cell_of(block: CalculationBlock, column: str, row: int) -> Term:
+    return ref(block.sheet, column, row)
+
+
+def stage_sums(block: CalculationBlock, inventory: Inventory, column: str) -> dict[str, Term]:
+    present = {activity.stage for activity in inventory.activities.values()}
+    return {
+        stage: sum_of(cell_of(block, column, row) for row, key, exchange in block.exchange_rows if exchange.kind == "biosphere" and inventory.activities[key].stage == stage)
+        for stage in STAGES
+        if stage in present
+    }
+
+
+def gas_sums(block: CalculationBlock, column: str) -> dict[str, Term]:
+    return {
+        flow: sum_of(cell_of(block, column, row) for row, _, exchange in block.exchange_rows if exchange.kind == "biosphere" and exchange.input == flow)
+        for flow in FLOWS
+    }
+
+

@@ -1,0 +1,237 @@
+"""Read an audit workbook back: its inputs as a validated project, its factors as a factor set.
+
+A practitioner edits inputs (or factors) in the spreadsheet; ``score --from-workbook`` (and
+``workbook --from-workbook``) read them back here, so edited values flow both ways and the
+engine's score equals the workbook's own recalculated figure. A workbook whose structure was
+broken (a deleted sheet, text in a number cell, a moved header) is refused with one line that
+names the sheet and the cell.
+
+Entry points for the library and the command line:
+
+- ``load_project_from_workbook(path, overrides)`` -> (Project, sha256 of the file, settings)
+- ``factor_set_from_workbook(path, base)`` -> the base set with the workbook's edited rows layered on
+- ``score_workbook(path, ...)`` -> ScoreResult, with the settings recorded on the cover as defaults
+"""
+
+from __future__ import annotations
+
+import hashlib
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from ...errors import InputError
+from ...model.factors import DEFAULT_SET, Factor, FactorSet, load_factor_set
+from ...model.project import apply_overrides, parse_override
+from ...model.reference import molar_mass_g_per_mol
+from ...routes.project import validate_project
+from .layout import (
+    COVER,
+    COVER_LABELS,
+    FACTOR_COLUMNS,
+    FACTOR_HEADER_ROW,
+    FACTORS,
+    INPUT_COLUMNS,
+    INPUT_HEADER_ROW,
+    INPUTS,
+    is_number,
+)
+
+
+@dataclass
+class WorkbookSettings:
+    gwp: str
+    schemes: list[str]
+    factors_option: str
+    factor_set: str
+
+
+def _open(path: Path, data_only: bool = False):
+    from openpyxl import load_workbook
+
+    try:
+        return load_workbook(path, data_only=data_only)
+    except FileNotFoundError:
+        raise InputError(path, "", "an existing audit workbook (.xlsx written by `carbonledger workbook`)") from None
+    except Exception as error:  # openpyxl raises zipfile, KeyError, InvalidFileException...
+        raise InputError(path, "", f"an .xlsx audit workbook written by `carbonledger workbook` ({type(error).__name__})") from None
+
+
+def _sheet(workbook, name: str, path: Path):
+    if name not in workbook.sheetnames:
+        raise InputError(path, f"sheet {name}", f"the sheet '{name}' of an audit workbook (it was deleted or renamed)")
+    return workbook[name]
+
+
+def _check_header(ws, row: int, expected: tuple[str, ...], path: Path) -> None:
+    from openpyxl.utils import get_column_letter
+
+    for column, title in enumerate(expected[:3], start=1):
+        found = ws.cell(row=row, column=column).value
+        if (found or "") != title:
+            cell = f"{get_column_letter(column)}{row}"
+            raise InputError(path, f"sheet {ws.title}, cell {cell}", f"the column header '{title}' (rows were moved or deleted), got {found!r}")
+
+
+class _CachedValues:
+    """Values a spreadsheet program saved for formula cells, loaded only when needed."""
+
+    def __init__(self, path: Path):
+        self.path = path
+        self._workbook = None
+
+    def get(self, sheet: str, cell: str):
+        if self._workbook is None:
+            self._workbook = _open(self.path, data_only=True)
+        return self._workbook[sheet][cell].value
+
+
+def _cell_value(ws, cell: str, cached: _CachedValues, path: Path, name: str):
+    """A cell's value; for a formula typed into an input cell, the value a spreadsheet saved."""
+    value = ws[cell].value
+    if isinstance(value, str) and ws[cell].data_type == "f":
+        formula, value = value, cached.get(ws.title, cell)
+        if value is None:
+            raise InputError(path, f"sheet {ws.title}, cell {cell} ({name})", f"a number; the cell holds the formula {formula!r} with no saved value (save the workbook in a spreadsheet program, or type the number)")
+    return value
+
+
+def read_settings(workbook, path: Path) -> WorkbookSettings:
+    ws = _sheet(workbook, COVER, path)
+    found: dict[str, Any] = {}
+    labels = {text: key for key, text in COVER_LABELS.items()}
+    for row in range(1, ws.max_row + 1):
+        label = ws.cell(row=row, column=1).value
+        if label in labels:
+            found[labels[label]] = ws.cell(row=row, column=2).value
+    for key in ("gwp", "factors_option"):
+        if not found.get(key):
+            raise InputError(path, f"sheet {COVER}", f"the row '{COVER_LABELS[key]}' written by `carbonledger workbook`")
+    schemes = [text.strip() for text in str(found.get("schemes") or "").split(",") if text.strip()]
+    return WorkbookSettings(str(found["gwp"]), schemes, str(found["factors_option"]), str(found.get("factor_set") or ""))
+
+
+def _named_rows(ws, header_row: int):
+    """(row number, name) of every row below the header whose first cell holds a name."""
+    for row in range(header_row + 1, ws.max_row + 1):
+        name = ws.cell(row=row, column=1).value
+        if name is not None and str(name).strip():
+            yield row, str(name).strip()
+
+
+def read_input_rows(workbook, path: Path) -> list[tuple[str, Any, str]]:
+    """(parameter path, value, cell) for every row of the Inputs sheet."""
+    ws = _sheet(workbook, INPUTS, path)
+    _check_header(ws, INPUT_HEADER_ROW, INPUT_COLUMNS, path)
+    cached = _CachedValues(path)
+    rows = []
+    for row, name in _named_rows(ws, INPUT_HEADER_ROW):
+        cell = f"B{row}"
+        rows.append((name, _cell_value(ws, cell, cached, path, name), cell))
+    if not rows:
+        raise InputError(path, f"sheet {INPUTS}", "parameter rows below the header (none found)")
+    return rows
+
+
+def load_project_from_workbook(path: str | Path, overrides: list[str] | None = None):
+    """The project written in a workbook's Inputs sheet (after ``--set`` overrides), validated.
+
+    Returns (Project, sha256 of the workbook file, WorkbookSettings). Errors name the sheet,
+    the cell and the parameter.
+    """
+    path = Path(path)
+    workbook = _open(path)
+    settings = read_settings(workbook, path)
+    rows = read_input_rows(workbook, path)
+    data: dict = {}
+    cells: dict[str, str] = {}
+    for name, value, cell in rows:
+        cells[name] = cell
+        if value is None:
+            continue  # an emptied cell: the parameter's default (or 'a value is required')
+        data = apply_overrides(data, [(name, value)], f"{path}: sheet {INPUTS}, cell {cell}")
+    data = apply_overrides(data, [parse_override(text) for text in overrides or []], str(path))
+    try:
+        project = validate_project(data, str(path))
+    except InputError as error:
+        where = cells.get(error.field)
+        field = f"sheet {INPUTS}, cell {where} ({error.field})" if where else f"sheet {INPUTS} ({error.field})"
+        raise InputError(path, field, error.expected) from None
+    return project, hashlib.sha256(path.read_bytes()).hexdigest(), settings
+
+
+def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
+    ws = _sheet(workbook, FACTORS, path)
+    _check_header(ws, FACTOR_HEADER_ROW, FACTOR_COLUMNS, path)
+    cached = _CachedValues(path)
+    rows = []
+    for row, factor_id in _named_rows(ws, FACTOR_HEADER_ROW):
+        value = _cell_value(ws, f"B{row}", cached, path, factor_id)
+        if not is_number(value):
+            raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
+        record = {name: ws.cell(row=row, column=column).value for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}
+        record["id"], record["value"] = factor_id, float(value)
+        rows.append((record, f"B{row}"))
+    return rows
+
+
+def factor_set_from_workbook(path: str | Path, base):
+    """``base`` with every factor row whose value or unit was edited in the workbook layered on.
+
+    Molar masses (``reference.*``) come from the chemicals library; an edited one is refused
+    rather than silently ignored.
+    """
+    path = Path(path)
+    workbook = _open(path)
+    changed: dict[str, Factor] = {}
+    for record, cell in read_factor_rows(workbook, path):
+        factor_id = record["id"]
+        if factor_id.startswith("reference.molar_mass."):
+            formula = factor_id.rsplit(".", 1)[1].upper()
+            library = molar_mass_g_per_mol(formula)
+            if abs(record["value"] - library) > 1e-9 * library:
+                raise InputError(path, f"sheet {FACTORS}, cell {cell} ({factor_id})", f"the reference-library value {library!r} (molar masses are not read back from the workbook)")
+            continue
+        known = base.factors.get(factor_id)
+        unit = str(record["unit"] or "").strip()
+        if known is not None and known.value == record["value"] and known.unit == unit:
+            continue
+        year = record["year"]
+        changed[factor_id] = Factor(
+            id=factor_id,
+            value=record["value"],
+            unit=unit or (known.unit if known else ""),
+            source=str(record["source"] or (known.source if known else "")).strip() or f"edited in {path.name}",
+            table=str(record["table"] or ""),
+            year=int(year) if is_number(year) else None,
+            region=str(record["region"] or ""),
+            note=(str(record["note"] or "") + f" [value edited in workbook {path.name}, sheet {FACTORS}, cell {cell}]").strip(),
+            from_memory=str(record["from_memory"] or "").strip().lower() in ("yes", "true"),
+            origin=f"{path}: sheet {FACTORS}",
+        )
+    if not changed:
+        return base
+    factors = dict(base.factors)
+    factors.update(changed)
+    return FactorSet(
+        name=f"{base.name}+edits from {path.name}",
+        description=f"{base.description} with factor values edited in {path.name}".strip(),
+        date=base.date,
+        factors=factors,
+        layers=base.layers + (f"{path}: sheet {FACTORS}",),
+    )
+
+
+def base_factor_set(settings: WorkbookSettings, factors: str | None):
+    """The factor set the workbook was written with (or ``factors`` when given).
+
+    When the recorded set cannot be found here (an override CSV left on another machine), the
+    default set is the base: every factor the workbook uses is on its Factors sheet and is
+    layered over it by ``factor_set_from_workbook``.
+    """
+    if factors:
+        return load_factor_set(factors)
+    try:
+        return load_factor_set(settings.factors_option)
+    except InputError:
+        return load_factor_set(DEFAULT_SET)

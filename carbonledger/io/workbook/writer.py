@@ -1,0 +1,416 @@
+"""The audit workbook: every exchange of the project as a live spreadsheet formula.
+
+A verifier changes an input or a factor and sees every result move. The formulas are not
+typed here: the stage code itself runs on symbolic cells (``formula.Term``), through
+``inventory.build_inventory``, ``api.characterisation`` and ``api.intensities``, so the
+workbook and the engine share one source of arithmetic. The engine (bw2calc) stays the
+reference: its figures are written beside the formulas, labelled, for comparison.
+
+Sheets
+------
+Cover        project, date, version, factor set and its sha256, boundary, GWP set, schemes, caution
+Inputs       every project parameter: path, value, unit, description, evidence (empty)
+Factors      every factor used: id, value, unit, source, table or article, year, region, note, from memory
+Calculation  activities with their supply per functional unit (formulas), then one row per exchange
+Results      by stage, by gas, intensities, scheme checks and their thresholds, a bar chart
+Periods      (with metered data) one block per month and a summary for the year
+
+Supply of activity j per functional unit: s_j = f_j + sum over consumers k of a_jk * s_k, where
+a_jk is the amount of j one unit of k consumes. The chain is acyclic, so each s_j is a finite
+formula of the s_k downstream of it; this is the technosphere system A s = f of the engine
+(Heijungs and Suh 2002) written out row by row.
+
+References
+----------
+.. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+.. [2] ECMA-376 Office Open XML File Formats, Part 1 (SpreadsheetML).
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import re
+from pathlib import Path
+from typing import Any
+
+from ...about import CAUTION, __version__
+from ...core.results import ScoreResult
+from ...core.scoring import FUNCTIONAL_UNITS, intensities, rulebooks
+from ...model.project import parameter_table
+from ...model.reference import ReferenceValue
+from ...routes.base import FLOWS
+from ..files import atomic_write
+from .calculation import (
+    CalculationBlock,
+    SymbolicModel,
+    cell_of,
+    check_acyclic,
+    gas_sums,
+    stage_sums,
+    symbolic_model,
+    write_calculation_block,
+)
+from .cells import Term, local, ref, sum_of
+from .layout import (
+    CALCULATION,
+    COVER,
+    COVER_LABELS,
+    FACTOR_COLUMNS,
+    FACTOR_HEADER_ROW,
+    FACTORS,
+    FORMAT_MARK,
+    INPUT_COLUMNS,
+    INPUT_HEADER_ROW,
+    INPUTS,
+    INTENSITY_UNITS,
+    PERIODS,
+    RESULTS,
+    bold_row,
+    copy_tree,
+    font_bold,
+    is_number,
+    put_formula,
+    put_text,
+    put_value,
+    set_path,
+    set_widths,
+)
+from .periods_sheet import plan_periods, write_periods_sheet
+
+
+def _name_cell(workbook, prefix: str, key: str, sheet: str, row: int) -> Term:
+    """A defined name for an input or factor cell (``p_reforming_natural_gas_gj_per_kg_h2``,
+    ``f_gwp_ar6_ch4_fossil``), so formulas read as words; the plain cell reference when the
+    name would be ambiguous or too long."""
+    from openpyxl.workbook.defined_name import DefinedName
+
+    name = prefix + re.sub(r"[^A-Za-z0-9_]", "_", key)
+    taken = {existing.lower() for existing in workbook.defined_names}
+    if len(name) > 200 or name.lower() in taken:
+        return ref(sheet, "B", row)
+    workbook.defined_names[name] = DefinedName(name, attr_text=f"{sheet}!$B${row}")
+    return Term(name)
+
+
+
+
+# the workbook -------------------------------------------------------------------------------
+def build_workbook(
+    result: ScoreResult,
+    project,
+    factor_set,
+    *,
+    factors_option: str = "",
+    meters=None,
+    month_results=None,
+    meters_source: str = "",
+):
+    """The audit workbook of a scored project, as an openpyxl Workbook (not yet saved).
+
+    ``result`` is the engine's ScoreResult of ``project`` under ``factor_set``: the writer never
+    scores. Its options (GWP set, schemes, boundary) decide the formulas, and its figures are
+    written beside them for comparison. With ``meters`` (``analyses.periods.read_meters``) the
+    Periods sheet is added, with ``month_results`` (``analyses.periods.month_results``) beside it.
+    """
+    from openpyxl import Workbook
+
+    books = rulebooks()
+    chosen = [books[check.scheme] for check in result.checks]
+    gwp, source = result.gwp_basis, result.project_file
+    params = copy_tree(result.parameters)
+
+    workbook = Workbook()
+    cover = workbook.active
+    cover.title = COVER
+    inputs_ws = workbook.create_sheet(INPUTS)
+    factors_ws = workbook.create_sheet(FACTORS)
+    calculation_ws = workbook.create_sheet(CALCULATION)
+    results_ws = workbook.create_sheet(RESULTS)
+
+    # Inputs: every parameter; numbers become cell references in the symbolic parameters.
+    symbolic = copy_tree(params)
+    input_cell: dict[str, Term] = {}
+    _write_inputs_sheet(inputs_ws, parameter_table(project), symbolic, input_cell)
+    symbolic["project"]["boundary"] = result.boundary
+
+    model = symbolic_model(symbolic, factor_set, gwp, [s.gwp for s in chosen])
+    check_acyclic(model.inventory, source)
+    period_plan = None
+    if meters is not None:
+        period_plan = plan_periods(meters, params, model, factor_set, engine=month_results)
+
+    address = _write_factors_sheet(factors_ws, model.inputs.used)
+    block = write_calculation_block(calculation_ws, model, chosen, address, top=1, title="Calculation: every exchange as a live formula")
+    results_cells = _write_results_sheet(results_ws, model, chosen, block, address, result)
+    if period_plan is not None:
+        write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, result.unit, chosen, results_cells)
+    _write_cover(
+        cover,
+        result,
+        factor_set,
+        gwp=gwp,
+        chosen=chosen,
+        factors_option=factors_option,
+        source=source,
+        meters_source=meters_source if meters is not None else "",
+    )
+    for sheet in workbook.worksheets:
+        _print_layout(sheet)
+    return workbook
+
+
+def _print_layout(ws) -> None:
+    """Landscape, one page wide, header rows repeated: a verifier can print every sheet."""
+    ws.page_setup.orientation = "landscape"
+    ws.page_setup.paperSize = ws.PAPERSIZE_A4
+    ws.sheet_properties.pageSetUpPr.fitToPage = True
+    ws.page_setup.fitToWidth = 1
+    ws.page_setup.fitToHeight = 0
+
+
+
+
+def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term]) -> None:
+    put_text(ws, 1, 1, "Inputs: every project parameter. Edit a value here and every formula follows; "
+             "`carbonledger score --from-workbook` reads this sheet back.")
+    put_text(ws, 2, 1, "Record in the evidence column the meter, invoice or design document behind each value. Numbers are named cells (p_<parameter path>). "
+             "Text options (route, technology, sources, factor ids) fix the structure of the calculation: after changing one, write a new workbook with "
+             "`carbonledger workbook --from-workbook`.")
+    for column, title in enumerate(INPUT_COLUMNS, start=1):
+        put_text(ws, INPUT_HEADER_ROW, column, title)
+    bold_row(ws, INPUT_HEADER_ROW, len(INPUT_COLUMNS))
+    row = INPUT_HEADER_ROW
+    for path, value, unit, description in rows:
+        row += 1
+        put_text(ws, row, 1, path)
+        put_value(ws, row, 2, value)
+        put_text(ws, row, 3, unit)
+        put_text(ws, row, 4, description)
+        if is_number(value):
+            cell = _name_cell(ws.parent, "p_", path, INPUTS, row)
+            input_cell[path] = cell
+            set_path(symbolic, path, cell)
+    set_widths(ws, {"A": 46, "B": 36, "C": 18, "D": 70, "E": 40})
+    ws.freeze_panes = ws.cell(row=INPUT_HEADER_ROW + 1, column=1)
+
+
+def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
+    put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source. 'from memory' = not yet checked against the document.")
+    put_text(ws, 2, 1, "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; molar masses (reference.*) come from the chemicals library and are not.")
+    for column, title in enumerate(FACTOR_COLUMNS, start=1):
+        put_text(ws, FACTOR_HEADER_ROW, column, title)
+    bold_row(ws, FACTOR_HEADER_ROW, len(FACTOR_COLUMNS))
+    address: dict[str, str] = {}
+    row = FACTOR_HEADER_ROW
+    for key in sorted(used):
+        item = used[key]
+        row += 1
+        address[key] = _name_cell(ws.parent, "f_", key, FACTORS, row).text
+        put_text(ws, row, 1, key)
+        put_value(ws, row, 2, float(item.value))
+        put_text(ws, row, 3, item.unit)
+        put_text(ws, row, 4, item.source)
+        if isinstance(item, ReferenceValue):
+            put_text(ws, row, 5, "chemicals.elements.molecular_weight")
+            put_text(ws, row, 9, "no")
+            continue
+        put_text(ws, row, 5, item.table)
+        put_value(ws, row, 6, item.year)
+        put_text(ws, row, 7, item.region)
+        put_text(ws, row, 8, item.note)
+        put_text(ws, row, 9, "yes" if item.from_memory else "no")
+    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 60, "E": 24, "F": 8, "G": 10, "H": 60, "I": 12})
+    ws.freeze_panes = ws.cell(row=FACTOR_HEADER_ROW + 1, column=1)
+    return address
+
+
+def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlock, address, engine) -> dict:
+    """By stage, by gas, intensities, checks, thresholds and the chart; returns key cells."""
+    from openpyxl.chart import BarChart, Reference
+
+    inventory = model.inventory
+    product = inventory.product
+    functional_unit, unit = FUNCTIONAL_UNITS[product]
+    cells: dict[str, Any] = {}
+    put_text(ws, 1, 1, f"Results per functional unit ({functional_unit}), GWP100 {engine.gwp_basis.upper()}: live formulas over the Calculation sheet.")
+    put_text(ws, 2, 1, CAUTION)
+    put_text(ws, 3, 1, "The last column holds the figure carbonledger's engine (bw2calc) computed when the workbook was written, for comparison only.")
+
+    row = 5
+    for column, text in enumerate(("stage", unit, "share of total", "engine at writing"), start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, 4)
+    stages = stage_sums(block, inventory, block.headline_column)
+    first_stage = row + 1
+    total_row = first_stage + len(stages)
+    for stage, term in stages.items():
+        row += 1
+        put_text(ws, row, 1, stage)
+        put_formula(ws, row, 2, term, address)
+        put_formula(ws, row, 3, Term(f"IF($B${total_row}=0,0,B{row}/$B${total_row})"), address)
+        put_value(ws, row, 4, engine.by_stage.get(stage))
+        cells[f"stage:{stage}"] = f"B{row}"
+    last_stage = row
+    row += 1
+    put_text(ws, row, 1, "total")
+    put_formula(ws, row, 2, sum_of(local("B", r) for r in range(first_stage, last_stage + 1)), address)
+    put_value(ws, row, 4, engine.total)
+    ws.cell(row=row, column=1).font = font_bold()
+    cells["total"] = f"B{row}"
+    total = local("B", row)
+
+    row += 2
+    for column, text in enumerate(("gas", unit, "", "engine at writing"), start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, 4)
+    for flow, term in gas_sums(block, block.headline_column).items():
+        row += 1
+        put_text(ws, row, 1, FLOWS[flow])
+        put_formula(ws, row, 2, term, address)
+        put_value(ws, row, 4, engine.by_gas.get(flow))
+        cells[f"gas:{flow}"] = f"B{row}"
+
+    row += 2
+    for column, text in enumerate(("intensity", "value", "unit", "engine at writing"), start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, 4)
+    figures = intensities(total, model.inventory.reference_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)
+    engine_figures = engine.intensity.model_dump()
+    for key, term in figures.items():
+        if term is None:
+            continue
+        row += 1
+        put_text(ws, row, 1, key)
+        put_formula(ws, row, 2, term, address)
+        put_text(ws, row, 3, INTENSITY_UNITS[key])
+        put_value(ws, row, 4, engine_figures.get(key))
+        cells[f"intensity:{key}"] = f"B{row}"
+    row += 1
+    put_text(ws, row, 1, "hydrogen_production_kg_co2e_per_kg_h2")
+    put_formula(ws, row, 2, sum_of(cell_of(block, block.gate_column, r) for r, _, e in block.exchange_rows if e.kind == "biosphere"), address)
+    put_text(ws, row, 3, "kg CO2e/kg H2 at the hydrogen plant gate")
+    put_value(ws, row, 4, engine.hydrogen_production_kg_co2e_per_kg_h2)
+    cells["hydrogen_gate"] = f"B{row}"
+
+    # thresholds table first in address order (checks reference it)
+    checks_header = row + 2
+    thresholds_header = checks_header + len(chosen) + 3
+    threshold_rows: dict[str, list[tuple[int, Any]]] = {}
+    trow = thresholds_header
+    for column, text in enumerate(("scheme", "tier", "limit", "comparison", "unit", "legal source", "from memory"), start=1):
+        put_text(ws, trow, column, text)
+    put_text(ws, trow - 1, 1, "Thresholds (edit a limit and the checks above follow)")
+    bold_row(ws, trow, 7)
+    for scheme in chosen:
+        for threshold in sorted(scheme.thresholds, key=lambda t: t.limit):
+            trow += 1
+            put_text(ws, trow, 1, scheme.id)
+            put_text(ws, trow, 2, threshold.tier)
+            put_value(ws, trow, 3, threshold.limit)
+            put_text(ws, trow, 4, "value <= limit" if threshold.inclusive else "value < limit")
+            put_text(ws, trow, 5, scheme.unit)
+            put_text(ws, trow, 6, threshold.source)
+            put_text(ws, trow, 7, "yes" if threshold.from_memory else "no")
+            threshold_rows.setdefault(scheme.id, []).append((trow, threshold))
+
+    row = checks_header
+    check_columns = (
+        "scheme", "name", "basis", "GWP100 set", "electricity rule", "stages left out", "quantity", "unit",
+        "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "pass or fail", "margin (threshold - value)",
+        "best tier met", "from memory", "engine value at writing",
+    )
+    for column, text in enumerate(check_columns, start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, len(check_columns))
+    engine_checks = {check.scheme: check for check in engine.checks}
+    for scheme in chosen:
+        row += 1
+        column = block.scheme_column[scheme.id]
+        rows = [r for r, _, e in block.exchange_rows if e.kind == "biosphere"]
+        scheme_total = Term(f"SUM({block.sheet}!${column}${rows[0]}:${column}${rows[-1]})") if rows else Term("0")
+        basis_product = product if scheme.basis == "product" else "hydrogen"
+        value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
+        loosest_row = max(threshold_rows[scheme.id], key=lambda item: item[1].limit)[0]
+        for number, text in enumerate(
+            (scheme.id, scheme.name, scheme.basis, scheme.gwp, scheme.electricity, ", ".join(scheme.excluded_stages) or "none", scheme.quantity, scheme.unit),
+            start=1,
+        ):
+            put_text(ws, row, number, text)
+        put_formula(ws, row, 9, scheme_total, address)
+        put_formula(ws, row, 10, value, address)
+        put_formula(ws, row, 11, local("C", loosest_row), address)
+        loosest = max(scheme.thresholds, key=lambda t: t.limit)
+        operator = "<=" if loosest.inclusive else "<"
+        put_formula(ws, row, 12, Term(f'IF($J${row}{operator}$K${row},"pass","fail")'), address)
+        put_formula(ws, row, 13, local("K", row) - local("J", row), address)
+        tier = '"none"'
+        for trow_, threshold in reversed(threshold_rows[scheme.id]):  # loosest outermost, strictest innermost
+            comparison = "<=" if threshold.inclusive else "<"
+            tier = f"IF($J${row}{comparison}$C${trow_},$B${trow_},{tier})"
+        put_formula(ws, row, 14, Term(tier), address)
+        put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
+        engine_check = engine_checks.get(scheme.id)
+        put_value(ws, row, 16, engine_check.value if engine_check else None)
+        cells[f"check:{scheme.id}"] = row
+    set_widths(ws, {"A": 40, "B": 22, "C": 16, "D": 18, "E": 18, "F": 22, "G": 18, "H": 18, "I": 18, "J": 16, "K": 16, "L": 12, "M": 16, "N": 30, "O": 12, "P": 18})
+
+    chart = BarChart()
+    chart.type = "bar"
+    chart.title = "Contributions by stage (estimate, not a certification)"
+    chart.y_axis.title = unit
+    chart.x_axis.title = "stage"
+    chart.legend = None
+    chart.add_data(Reference(ws, min_col=2, min_row=first_stage - 1, max_row=last_stage), titles_from_data=True)
+    chart.set_categories(Reference(ws, min_col=1, min_row=first_stage, max_row=last_stage))
+    chart.width, chart.height = 20, 9
+    ws.add_chart(chart, f"R{5}")
+    cells["stage_rows"] = (first_stage, last_stage)
+    return cells
+
+
+def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source) -> None:
+    put_text(ws, 1, 1, "carbonledger audit workbook")
+    ws.cell(row=1, column=1).font = font_bold()
+    put_text(ws, 2, 1, f"Caution: {CAUTION}")
+    ws.cell(row=2, column=1).font = font_bold()
+    rows = [
+        ("Project", engine.project),
+        ("Project file", source),
+        ("Project file sha256", engine.project_sha256),
+        ("Product", engine.product),
+        ("Functional unit", engine.functional_unit),
+        ("Boundary", engine.boundary),
+        ("Written (UTC)", _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M")),
+        ("carbonledger version", __version__),
+        (COVER_LABELS["factor_set"], factor_set.name),
+        ("Factor set sha256", factor_set.sha256),
+        (COVER_LABELS["factors_option"], factors_option or factor_set.name),
+        (COVER_LABELS["gwp"], gwp),
+        (COVER_LABELS["schemes"], ", ".join(scheme.id for scheme in chosen)),
+    ]
+    if meters_source:
+        rows.append(("Metered periods file", meters_source))
+    rows.append(("Layout", FORMAT_MARK))
+    row = 3
+    for label, value in rows:
+        row += 1
+        put_text(ws, row, 1, label)
+        put_text(ws, row, 2, value)
+    row += 2
+    guide = (
+        "How to read this workbook:",
+        "Inputs: the project parameters. Factors: every factor used, with its source.",
+        "Calculation: the supply of each activity per functional unit and one row per exchange, all live formulas.",
+        "Results: totals by stage and gas, intensities, each scheme's check under its own GWP set and electricity rule, and a chart.",
+        "Change an input or a factor and every figure follows. The engine's own figures are shown beside the formulas for comparison.",
+        "Scheme checks use each scheme's rulebook as carbonledger reads it; the scheme's official methodology and an accredited verifier decide.",
+    )
+    for text in guide:
+        put_text(ws, row, 1, text)
+        row += 1
+    set_widths(ws, {"A": 40, "B": 90})
+
+
+def write_workbook_file(path: str | Path, workbook, force: bool = False) -> Path:
+    """Save atomically; an existing file is left untouched unless ``force``."""
+    return atomic_write(path, lambda tmp: workbook.save(tmp), force=force)

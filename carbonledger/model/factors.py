@@ -1,0 +1,307 @@
+"""Factor sets: load, validate, layer and hash the published factors in ``factors/``.
+
+A factor set is a folder ``factors/sets/NAME/`` holding ``set.toml`` (name, date, description,
+optionally ``base`` = the set it updates) and ``factors.csv`` with the columns of
+``FACTOR_COLUMNS``. Every row must name its source; a value not checked against its document
+carries ``from_memory = true``, which every output shows. A set with a ``base`` holds only
+the rows it changes or adds; a partial override CSV (a user's own rows, each with a source)
+can be layered on top of any set with the same rules.
+
+The set's sha256 is taken over its resolved rows (sorted, canonical JSON), so it identifies the
+content whatever the layout of the files that produced it.
+"""
+
+from __future__ import annotations
+
+import csv
+import functools
+import hashlib
+import json
+import math
+import os
+from importlib import resources
+import tomllib
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+
+from ..errors import InputError
+
+FACTOR_COLUMNS = ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")
+REQUIRED_COLUMNS = ("id", "value", "unit", "source")
+DEFAULT_SET = "default-2026"
+_TRUE = {"true", "yes", "1", "y"}
+_FALSE = {"false", "no", "0", "n", ""}
+
+
+@dataclass(frozen=True)
+class Factor:
+    id: str
+    value: float
+    unit: str
+    source: str
+    table: str = ""
+    year: int | None = None
+    region: str = ""
+    note: str = ""
+    from_memory: bool = False
+    origin: str = ""  # the file the row was read from
+
+    def citation(self) -> str:
+        parts = [self.source]
+        if self.table:
+            parts.append(self.table)
+        if self.year:
+            parts.append(str(self.year))
+        text = ", ".join(parts)
+        return text + (" [from memory, not checked against the document]" if self.from_memory else "")
+
+
+@dataclass
+class FactorSet:
+    name: str
+    description: str = ""
+    date: str = ""
+    factors: dict[str, Factor] = field(default_factory=dict)
+    layers: tuple[str, ...] = ()
+
+    @functools.cached_property
+    def sha256(self) -> str:
+        rows = [
+            {key: value for key, value in asdict(factor).items() if key != "origin"}
+            for _, factor in sorted(self.factors.items())
+        ]
+        payload = json.dumps(rows, sort_keys=True, separators=(",", ":"), ensure_ascii=False)
+        return hashlib.sha256(payload.encode("utf-8")).hexdigest()
+
+    def get(self, factor_id: str, where: str = "factor") -> Factor:
+        try:
+            return self.factors[factor_id]
+        except KeyError:
+            raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'") from None
+
+    def ids_with_prefix(self, prefix: str) -> list[str]:
+        return sorted(key for key in self.factors if key.startswith(prefix))
+
+
+def factors_root() -> Path:
+    """The factor library: $CARBONLEDGER_FACTORS, else the one shipped with the package.
+
+    In a wheel the library is the package ``carbonledger.factor_library`` (the repository's
+    ``factors/`` folder, mapped by pyproject.toml); in a source checkout it is ``factors/`` itself.
+    """
+    env = os.environ.get("CARBONLEDGER_FACTORS")
+    if env:
+        return Path(env)
+    try:
+        shipped = Path(str(resources.files("carbonledger.factor_library")))
+        if (shipped / "schemes").is_dir():
+            return shipped
+    except ModuleNotFoundError:
+        pass
+    return Path(__file__).resolve().parents[2] / "factors"
+
+
+def available_sets() -> list[str]:
+    root = factors_root() / "sets"
+    if not root.is_dir():
+        return []
+    return sorted(path.name for path in root.iterdir() if (path / "set.toml").is_file())
+
+
+def _parse_bool(text: str, where: str) -> bool:
+    lowered = text.strip().lower()
+    if lowered in _TRUE:
+        return True
+    if lowered in _FALSE:
+        return False
+    raise InputError(where, "from_memory", f"true or false, got '{text}'")
+
+
+def read_factor_rows(path: Path) -> list[Factor]:
+    """Read and validate one factor CSV; every problem names the file, line and column."""
+    try:
+        handle = path.open(newline="", encoding="utf-8")
+    except OSError as error:
+        raise InputError(path, "", f"a readable factor CSV ({error.strerror})") from None
+    with handle:
+        reader = csv.DictReader(row for row in handle if not row.lstrip().startswith("#"))
+        header = reader.fieldnames or []
+        missing = [column for column in REQUIRED_COLUMNS if column not in header]
+        if missing:
+            raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
+        unknown = [column for column in header if column not in FACTOR_COLUMNS]
+        if unknown:
+            raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS)}; unknown {', '.join(unknown)}")
+        rows: list[Factor] = []
+        seen: set[str] = set()
+        for number, row in enumerate(reader, start=2):
+            where = f"{path}:{number}"
+            factor_id = (row.get("id") or "").strip()
+            if not factor_id:
+                raise InputError(where, "id", "a factor id")
+            if factor_id in seen:
+                raise InputError(where, "id", f"a unique id, '{factor_id}' appears twice")
+            seen.add(factor_id)
+            try:
+                value = float(row.get("value") or "")
+            except ValueError:
+                raise InputError(where, "value", f"a number for '{factor_id}', got '{row.get('value')}'") from None
+            if not math.isfinite(value):
+                raise InputError(where, "value", f"a finite number for '{factor_id}'")
+            unit = (row.get("unit") or "").strip()
+            if not unit:
+                raise InputError(where, "unit", f"a unit for '{factor_id}'")
+            source = (row.get("source") or "").strip()
+            if not source:
+                raise InputError(where, "source", f"a source document for '{factor_id}' (every factor must cite one)")
+            year_text = (row.get("year") or "").strip()
+            try:
+                year = int(year_text) if year_text else None
+            except ValueError:
+                raise InputError(where, "year", f"a year for '{factor_id}', got '{year_text}'") from None
+            rows.append(
+                Factor(
+                    id=factor_id,
+                    value=value,
+                    unit=unit,
+                    source=source,
+                    table=(row.get("table") or "").strip(),
+                    year=year,
+                    region=(row.get("region") or "").strip(),
+                    note=(row.get("note") or "").strip(),
+                    from_memory=_parse_bool(row.get("from_memory") or "", where),
+                    origin=str(path),
+                )
+            )
+    return rows
+
+
+def _read_set_folder(folder: Path, chain: tuple[str, ...] = ()) -> FactorSet:
+    meta_path = folder / "set.toml"
+    try:
+        meta = tomllib.loads(meta_path.read_text(encoding="utf-8"))
+    except OSError:
+        raise InputError(folder, "set.toml", "a factor set folder with set.toml and factors.csv") from None
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(meta_path, "", f"valid TOML ({error})") from None
+    name = str(meta.get("name") or folder.name)
+    if name in chain:
+        raise InputError(meta_path, "base", f"a base set that does not loop back to '{name}'")
+    base_name = meta.get("base")
+    if base_name:
+        base = load_factor_set(str(base_name), _chain=chain + (name,))
+        factors = dict(base.factors)
+        layers = base.layers
+    else:
+        factors, layers = {}, ()
+    for factor in read_factor_rows(folder / "factors.csv"):
+        factors[factor.id] = factor
+    for removed in meta.get("removed", []):
+        factors.pop(removed, None)
+    return FactorSet(
+        name=name,
+        description=str(meta.get("description", "")),
+        date=str(meta.get("date", "")),
+        factors=factors,
+        layers=layers + (str(folder),),
+    )
+
+
+def apply_override(base: FactorSet, csv_path: str | Path) -> FactorSet:
+    """Layer a partial CSV of changed or added rows (each with its source) over a set."""
+    path = Path(csv_path)
+    factors = dict(base.factors)
+    for factor in read_factor_rows(path):
+        factors[factor.id] = factor
+    return FactorSet(
+        name=f"{base.name}+{path.stem}",
+        description=f"{base.description} with overrides from {path.name}".strip(),
+        date=base.date,
+        factors=factors,
+        layers=base.layers + (str(path),),
+    )
+
+
+def load_factor_set(name_or_path: str | Path = DEFAULT_SET, overrides=(), _chain: tuple[str, ...] = ()) -> FactorSet:
+    """Load a factor set by name (a folder under factors/sets) or by path.
+
+    ``name_or_path`` may be a set folder, a set name, or a CSV file (read as an override over
+    the default set). ``overrides`` are CSV files layered on top in order.
+    """
+    text = str(name_or_path)
+    path = Path(text)
+    if path.suffix.lower() == ".csv" and path.is_file():
+        factor_set = apply_override(_cached_set(str((factors_root() / "sets" / DEFAULT_SET).resolve()), _chain), path)
+    elif path.is_dir():
+        factor_set = _cached_set(str(path.resolve()), _chain)
+    elif (factors_root() / "sets" / text).is_dir():
+        factor_set = _cached_set(str((factors_root() / "sets" / text).resolve()), _chain)
+    else:
+        known = ", ".join(available_sets()) or "none found"
+        raise InputError(text, "--factors", f"a factor set name ({known}), a set folder or an override CSV")
+    for override in overrides:
+        factor_set = apply_override(factor_set, override)
+    return factor_set
+
+
+_SET_CACHE: dict[tuple[str, float], FactorSet] = {}
+
+
+def _cached_set(folder: str, chain: tuple[str, ...]) -> FactorSet:
+    """Parse a set folder once per process while its files are unchanged."""
+    stamp = max((p.stat().st_mtime for p in Path(folder).glob("*") if p.is_file()), default=0.0)
+    key = (folder, stamp)
+    if key not in _SET_CACHE:
+        _SET_CACHE[key] = _read_set_folder(Path(folder), chain)
+    return _SET_CACHE[key]
+
+
+@dataclass(frozen=True)
+class FactorChange:
+    """One row that differs between two sets: ``kind`` is changed, added or removed."""
+
+    id: str
+    kind: str
+    old: Factor | None
+    new: Factor | None
+
+
+def _row(factor: Factor) -> dict:
+    return {key: value for key, value in asdict(factor).items() if key != "origin"}
+
+
+def diff_sets(old: FactorSet, new: FactorSet) -> list[FactorChange]:
+    """Every factor changed (any field but the file it came from), added or removed, by id."""
+    changes = []
+    for factor_id in sorted(set(old.factors) | set(new.factors)):
+        before, after = old.factors.get(factor_id), new.factors.get(factor_id)
+        if before is None:
+            changes.append(FactorChange(factor_id, "added", None, after))
+        elif after is None:
+            changes.append(FactorChange(factor_id, "removed", before, None))
+        elif _row(before) != _row(after):
+            changes.append(FactorChange(factor_id, "changed", before, after))
+    return changes
+
+
+def set_listing() -> list[dict]:
+    """Name, date, sha256, description and base of every set under factors/sets."""
+    rows = []
+    for name in available_sets():
+        meta_path = factors_root() / "sets" / name / "set.toml"
+        try:
+            meta = tomllib.loads(meta_path.read_text(encoding="utf-8"))
+        except tomllib.TOMLDecodeError as error:
+            raise InputError(meta_path, "", f"valid TOML ({error})") from None
+        loaded = load_factor_set(name)
+        rows.append(
+            {
+                "name": loaded.name,
+                "date": loaded.date,
+                "sha256": loaded.sha256,
+                "description": loaded.description,
+                "base": str(meta.get("base", "")),
+                "factors": len(loaded.factors),
+            }
+        )
+    return rows

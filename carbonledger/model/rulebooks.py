@@ -1,0 +1,105 @@
+"""Scheme rulebooks: what each low-carbon scheme limits, on which basis, and the verdict.
+
+A rulebook (``factors/schemes/ID.toml``) states the product(s) it applies to, the quantity
+it limits and its unit, the basis (the product, or the hydrogen at the hydrogen plant's gate),
+the boundary and stages it leaves out, the GWP100 set, how electricity counts
+(``lifecycle``: every source at its factor; ``renewable_at_zero``: renewable sources count
+zero), whether construction (capital) emissions count (``counts_construction``, used by
+lifetime scoring), and one or more thresholds (tiers) with their legal source.
+"""
+
+from __future__ import annotations
+
+import tomllib
+from pathlib import Path
+from typing import Literal
+
+from pydantic import BaseModel, ConfigDict, Field, ValidationError
+
+from ..errors import InputError
+from .factors import factors_root
+
+QUANTITIES = ("kg_co2e_per_kg_h2", "g_co2e_per_mj", "kg_co2e_per_t_nh3", "kg_co2e_per_kg_nh3")
+
+
+class Threshold(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    tier: str
+    limit: float
+    inclusive: bool = True
+    source: str = Field(min_length=1)
+    from_memory: bool = False
+
+    def met_by(self, value: float) -> bool:
+        return value <= self.limit if self.inclusive else value < self.limit
+
+
+class Scheme(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    id: str
+    name: str
+    document: str = Field(min_length=1)
+    year: int
+    products: list[Literal["hydrogen", "ammonia"]]
+    basis: Literal["product", "hydrogen_production"]
+    quantity: Literal[QUANTITIES]
+    unit: str
+    boundary: str
+    gwp: str
+    electricity: Literal["lifecycle", "renewable_at_zero"]
+    excluded_stages: list[str] = []
+    counts_construction: bool = False  # construction (capital) emissions added over the life
+    construction_note: str = ""
+    from_memory: bool = False
+    note: str = ""
+    thresholds: list[Threshold] = Field(min_length=1)
+
+    def loosest(self) -> Threshold:
+        return max(self.thresholds, key=lambda t: t.limit)
+
+    def evaluate(self, value: float) -> dict:
+        """Pass/fail against the loosest threshold, margin (limit - value) and best tier met."""
+        loosest = self.loosest()
+        met = [t for t in self.thresholds if t.met_by(value)]
+        best = min(met, key=lambda t: t.limit) if met else None
+        return {
+            "limit": loosest.limit,
+            "passes": loosest.met_by(value),
+            "margin": loosest.limit - value,
+            "tier": best.tier if best else None,
+        }
+
+
+def schemes_folder() -> Path:
+    return factors_root() / "schemes"
+
+
+def load_schemes(folder: Path | None = None) -> dict[str, Scheme]:
+    folder = folder or schemes_folder()
+    schemes: dict[str, Scheme] = {}
+    for path in sorted(folder.glob("*.toml")):
+        try:
+            data = tomllib.loads(path.read_text(encoding="utf-8"))
+            scheme = Scheme.model_validate(data)
+        except tomllib.TOMLDecodeError as error:
+            raise InputError(path, "", f"valid TOML ({error})") from None
+        except ValidationError as error:
+            first = error.errors()[0]
+            raise InputError(path, ".".join(str(p) for p in first["loc"]), first["msg"].lower()) from None
+        schemes[scheme.id] = scheme
+    return schemes
+
+
+def select_schemes(all_schemes: dict[str, Scheme], requested: list[str] | None, product: str) -> list[Scheme]:
+    """The schemes to check: those requested (each must exist and fit the product), else all that apply."""
+    if not requested:
+        return [s for s in all_schemes.values() if product in s.products]
+    chosen = []
+    for scheme_id in requested:
+        if scheme_id not in all_schemes:
+            raise InputError("--scheme", scheme_id, f"one of {', '.join(all_schemes)}")
+        scheme = all_schemes[scheme_id]
+        if product not in scheme.products:
+            raise InputError("--scheme", scheme_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})")
+        chosen.append(scheme)
+    return chosen

@@ -1,0 +1,64 @@
+"""The route registry: every production route, supply, conversion and delivery leg, in chain order.
+
+Adding a route or a delivery leg is one module here (its sections, exchanges, limits, metered
+parameters and starter text, declared as a ``Route``) plus one line in ``REGISTRY``. The
+inventory builder, project validation, metered periods, ``carbonledger init`` and lifetime
+scoring loop over this list; none of them names a route.
+"""
+
+from __future__ import annotations
+
+from . import (
+    ammonia,
+    cracking,
+    electricity,
+    electrolysis,
+    end_use,
+    natural_gas,
+    reforming,
+    shipping,
+)
+from .base import Route
+
+REGISTRY: tuple[Route, ...] = (
+    natural_gas.ROUTE,
+    electricity.ROUTE,
+    reforming.STEAM_METHANE_REFORMING,
+    reforming.AUTOTHERMAL_REFORMING,
+    electrolysis.ROUTE,
+    ammonia.ROUTE,
+    shipping.ROUTE,
+    cracking.ROUTE,
+    end_use.ROUTE,
+)
+
+HYDROGEN_ROUTES: dict[str, Route] = {route.name: route for route in REGISTRY if route.kind == "hydrogen_route"}
+DELIVERY_LEGS: tuple[Route, ...] = tuple(route for route in REGISTRY if route.kind == "delivery_leg")
+STAGES: tuple[str, ...] = tuple(dict.fromkeys(stage for route in REGISTRY for stage in route.stages))
+
+
+def owned_sections() -> dict[str, type]:
+    """Every project-file section a route module owns (name -> model), in registry order."""
+    sections: dict[str, type] = {}
+    for route in REGISTRY:
+        sections.update(route.sections)
+        sections.update(route.optional_sections)
+    return sections
+
+
+def section_owners(section: str) -> list[Route]:
+    return [route for route in REGISTRY if section in route.sections or section in route.optional_sections]
+
+
+def routes_of(params: dict) -> list[Route]:
+    """The route modules that take part in a project (at its boundary), in chain order."""
+    return [route for route in REGISTRY if route.applies(params)]
+
+
+def metered_parameters(params: dict) -> dict[str, list[str]]:
+    """Parameter paths scaled by metered natural gas and electricity, for a project's routes."""
+    paths: dict[str, list[str]] = {"natural_gas": [], "electricity": ["hydrogen.conditioning_kwh_per_kg_h2"]}
+    for route in routes_of(params):
+        for quantity, names in route.metered(params).items():
+            paths[quantity].extend(names)
+    return paths

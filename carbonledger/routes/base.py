@@ -1,0 +1,141 @@
+"""What every route and delivery leg is made of: activities with exchanges, and the Route record.
+
+A route module (a production route, a supply, a conversion or a delivery leg) declares one
+``Route``: the project-file sections it owns (pydantic models), the stages it builds, the
+activities and exchanges it adds to the inventory (stage functions on plain values), its
+physical limits, the parameters metered operation scales, and its starter text for
+``carbonledger init``. The registry (``carbonledger.routes``) lists them; the inventory,
+validation, periods, ``init`` and lifetime loop over it.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any, Callable
+
+from ..stages import electricity, natural_gas
+
+FLOWS = {
+    "co2_fossil": "CO2, fossil",
+    "ch4_fossil": "CH4, fossil",
+    "ch4_non_fossil": "CH4, non-fossil",
+    "n2o": "N2O",
+    "co2e_precharacterised": "CO2e given by a life-cycle factor (not split by gas)",
+    "nh3": "NH3 (ammonia slip; not a greenhouse gas, reported separately)",
+}
+NON_GHG_FLOWS = ("nh3",)  # in the inventory, characterised at zero, left out of by_gas
+
+
+@dataclass
+class Exchange:
+    input: str  # activity key (technosphere) or flow key (biosphere)
+    amount: Any
+    kind: str  # "technosphere" or "biosphere"
+    label: str
+    unit: str
+
+
+@dataclass
+class Activity:
+    key: str
+    stage: str
+    name: str
+    unit: str
+    exchanges: list[Exchange] = field(default_factory=list)
+
+    def consume(self, supplier: str, amount, label: str, unit: str) -> None:
+        self.exchanges.append(Exchange(supplier, amount, "technosphere", label, unit))
+
+    def emit(self, flow: str, amount, label: str) -> None:
+        self.exchanges.append(Exchange(flow, amount, "biosphere", label, f"kg {flow}"))
+
+
+class SectionError(ValueError):
+    """A rule across sections was broken: names the field and what was expected."""
+
+    def __init__(self, field: str, expected: str):
+        self.field, self.expected = field, expected
+        super().__init__(expected)
+
+
+def _nothing(*_args, **_kwargs) -> None:
+    return None
+
+
+def _never(_project) -> bool:
+    return False
+
+
+@dataclass
+class Chain:
+    """What the inventory builder carries from one route module to the next.
+
+    ``reference`` is the activity whose product is the functional unit so far (the gate product,
+    then each delivery leg's), ``product`` its product (ammonia or hydrogen), ``place`` where it
+    is (text for the functional unit), ``extra`` activities shared by legs (fuel supplies),
+    ``figures`` the legs' own figures (voyage, cracking), ``electricity_kinds`` the kind of each
+    electricity source activity (grid, renewable).
+    """
+
+    boundary: str
+    product: str
+    reference: str = ""
+    place: str = "at the plant gate (no voyage in the project)"
+    extra: list = field(default_factory=list)
+    figures: dict = field(default_factory=dict)
+    electricity_kinds: dict = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Route:
+    """One production route, supply, conversion or delivery leg, as the registry sees it.
+
+    ``sections``: project-file sections it owns (name -> pydantic model), required when the
+    route applies. ``optional_sections``: sections it may take. ``applies``: (params) -> whether
+    the route is part of this project. ``build``: (params, inputs, chain) -> list of activities;
+    a delivery leg also moves ``chain.reference`` to its own activity.
+    ``check_limits``: (params, inputs, source) -> None, raises ``InputError``. ``validate``:
+    (project) -> None, raises ``SectionError`` for rules across sections. ``metered``: parameter
+    paths scaled by metered electricity and natural gas in operating periods (a callable of the
+    params, since some depend on text options). ``ageing``: the parameter path that stack ageing
+    raises over a lifetime. ``starter``: (product) -> the sections of a starter project file
+    after ``[project]`` and ``[hydrogen]`` (for ``carbonledger init``); ``starter_variants``: more
+    ``init --route`` choices of the same route (name -> starter).
+    """
+
+    name: str
+    kind: str  # "hydrogen_route", "supply", "conversion", "delivery_leg"
+    stages: tuple[str, ...]
+    applies: Callable[[dict], bool]
+    build: Callable[..., Any]
+    sections: dict[str, type] = field(default_factory=dict)
+    optional_sections: dict[str, type] = field(default_factory=dict)
+    validate: Callable[[Any], None] = _nothing
+    check_limits: Callable[..., None] = _nothing
+    uses_natural_gas: Callable[[Any], bool] = _never
+    metered: Callable[[dict], dict[str, list[str]]] = lambda params: {}
+    ageing: str = ""
+    starter: Callable[..., str] = lambda *args: ""
+    starter_variants: dict[str, Callable[..., str]] = field(default_factory=dict)
+    description: str = ""
+
+
+def combustion_kg_per_gj(inputs, gas: str) -> Any:
+    """kg of a gas per GJ of natural gas burnt, from the factor set's IPCC default (kg/TJ)."""
+    return natural_gas.combustion_kg_per_gj(inputs.factor(f"combustion.natural_gas.{gas}", f"kg {gas.upper()}/TJ"))
+
+
+def burn_natural_gas(activity: Activity, inputs, gas_gj, label: str) -> None:
+    """Natural gas bought and burnt on site: supply input plus its combustion emissions."""
+    activity.consume("natural_gas_supply", gas_gj, f"natural gas, {label}", "GJ")
+    activity.emit("co2_fossil", gas_gj * combustion_kg_per_gj(inputs, "co2"), f"CO2 from burning natural gas, {label}")
+    activity.emit("ch4_fossil", gas_gj * combustion_kg_per_gj(inputs, "ch4"), f"CH4 from burning natural gas, {label}")
+    activity.emit("n2o", gas_gj * combustion_kg_per_gj(inputs, "n2o"), f"N2O from burning natural gas, {label}")
+
+
+def electricity_flow(inputs, factor_id: str, where: str) -> tuple[str, Any]:
+    """(flow, kg per kWh) of an electricity factor: g CO2/kWh counts as fossil CO2, g CO2e/kWh as pre-characterised CO2e."""
+    unit = inputs.factor_unit(factor_id, where)
+    direct = unit.replace(" ", "").startswith("gCO2/")
+    factor = inputs.factor(factor_id, "g CO2/kWh" if direct else "g CO2e/kWh", where)
+    return ("co2_fossil" if direct else "co2e_precharacterised"), electricity.source_emission_kg_per_kwh(factor)

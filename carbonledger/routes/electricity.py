@@ -1,0 +1,71 @@
+"""Electricity supply: the project's mix of named sources, each with its own emission factor."""
+
+from __future__ import annotations
+
+from pydantic import Field, model_validator
+
+from ..model.project import P, Section
+from ..stages import electricity
+from .base import Activity, Route, electricity_flow
+
+
+class ElectricitySource(Section):
+    share: float = P(unit="fraction", description="Share of the electricity bought", ge=0, le=1)
+    factor: str = P(description="Factor id of the source's emission factor")
+
+
+class Electricity(Section):
+    sources: dict[str, ElectricitySource] = Field(min_length=1, description="Named sources of electricity")
+
+    @model_validator(mode="after")
+    def _shares_sum_to_one(self):
+        total = sum(source.share for source in self.sources.values())
+        if abs(total - 1.0) > 1e-6:
+            raise ValueError(f"source shares summing to 1, got {total:g}")
+        return self
+
+
+def build(params: dict, inputs, chain) -> list[Activity]:
+    mix = Activity("electricity_mix", "electricity_supply", "electricity, project mix", "kWh")
+    activities = [mix]
+    for name, source in params["electricity"]["sources"].items():
+        key = f"electricity:{name}"
+        flow, kg_per_kwh = electricity_flow(inputs, source["factor"], f"electricity.sources.{name}.factor")
+        supply = Activity(key, "electricity_supply", f"electricity, {name}", "kWh")
+        supply.emit(flow, kg_per_kwh, f"generation of electricity, {name}")
+        mix.consume(key, source["share"], f"share of {name}", "kWh")
+        activities.append(supply)
+        chain.electricity_kinds[key] = electricity.kind_of_source(source["factor"])
+    return activities
+
+
+def starter(product: str, grid: bool = False) -> str:
+    if grid:
+        return """
+# One block per source; shares sum to 1. Factor ids: `carbonledger factors list`.
+[electricity.sources.grid]
+share = 1.0
+factor = "electricity.grid.eu27_2018"
+"""
+    return """
+# One block per source; shares sum to 1. Factor ids: `carbonledger factors list`.
+[electricity.sources.solar]
+share = 0.5
+factor = "electricity.renewable.solar_pv_utility"
+
+[electricity.sources.wind]
+share = 0.5
+factor = "electricity.renewable.wind_onshore"
+"""
+
+
+ROUTE = Route(
+    name="electricity",
+    kind="supply",
+    stages=("electricity_supply",),
+    applies=lambda params: True,
+    build=build,
+    sections={"electricity": Electricity},
+    starter=starter,
+    description="The project's electricity mix of named sources",
+)

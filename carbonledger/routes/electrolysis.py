@@ -1,0 +1,99 @@
+"""Hydrogen from water electrolysis: alkaline, PEM or solid oxide, any electricity mix."""
+
+from __future__ import annotations
+
+from typing import Literal
+
+from ..errors import InputError
+from ..model.project import P, Section
+from ..stages import electrolysis
+from .ammonia import starter as ammonia_starter
+from .base import Activity, Route, SectionError, burn_natural_gas
+from .electricity import starter as electricity_starter
+
+
+class Electrolysis(Section):
+    technology: Literal["alkaline", "pem", "solid_oxide"] = P(description="Electrolyser technology")
+    electricity_kwh_per_kg_h2: float = P(unit="kWh/kg H2", description="System electricity, stack and balance of plant", gt=0)
+    heat_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Heat (solid oxide: steam raising and stack heat)", ge=0)
+    heat_source: Literal["recovered", "natural_gas", "electricity"] = P("recovered", description="Where the heat comes from; recovered heat carries no burden")
+    heat_boiler_efficiency: float = P(0.9, "fraction", "Boiler efficiency when heat comes from natural gas", gt=0, le=1)
+    water_litres_per_kg_h2: float = P(0.0, "L/kg H2", "Raw water drawn (0: water treatment not counted)", ge=0)
+    water_treatment_kwh_per_m3: float = P(0.0, "kWh/m3", "Electricity to treat or desalinate raw water", ge=0)
+
+
+def build(params: dict, inputs, chain) -> list[Activity]:
+    e = params["electrolysis"]
+    plant = Activity("hydrogen_production", "hydrogen_production", f"hydrogen, {e['technology'].replace('_', ' ')} electrolysis", "kg H2")
+    water_kwh = electrolysis.water_treatment_kwh_per_kg_h2(e["water_litres_per_kg_h2"], e["water_treatment_kwh_per_m3"])
+    heat_kwh = e["heat_kwh_per_kg_h2"] if e["heat_source"] == "electricity" else 0.0 * e["heat_kwh_per_kg_h2"]
+    plant.consume(
+        "electricity_mix",
+        e["electricity_kwh_per_kg_h2"] + heat_kwh + water_kwh + params["hydrogen"]["conditioning_kwh_per_kg_h2"],
+        "electricity, electrolysis, heat, water treatment and conditioning",
+        "kWh",
+    )
+    if e["heat_source"] == "natural_gas":
+        burn_natural_gas(plant, inputs, electrolysis.heat_gas_gj_per_kg_h2(e["heat_kwh_per_kg_h2"], e["heat_boiler_efficiency"]), "boiler for electrolyser heat")
+    return [plant]
+
+
+def check_limits(params: dict, inputs, source: str) -> None:
+    """Electricity plus heat at least the heating value of hydrogen; water at least stoichiometric."""
+    e = params["electrolysis"]
+    floor = electrolysis.energy_floor_kwh_per_kg_h2(e["technology"], inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"))
+    energy = e["electricity_kwh_per_kg_h2"] + e["heat_kwh_per_kg_h2"]
+    if energy < floor:
+        basis = "lower" if e["technology"] == "solid_oxide" else "higher"
+        raise InputError(source, "electrolysis.electricity_kwh_per_kg_h2", f"electricity plus heat of at least {floor:.2f} kWh/kg H2 (the {basis} heating value of hydrogen), got {energy:g}")
+    water = e["water_litres_per_kg_h2"]
+    least_water = electrolysis.stoichiometric_water_kg_per_kg_h2(inputs.molar_mass("H2O"), inputs.molar_mass("H2"))
+    if 0 < water < least_water:
+        raise InputError(source, "electrolysis.water_litres_per_kg_h2", f"0 (not counted) or at least {least_water:.2f} L/kg H2 (stoichiometric water), got {water:g}")
+
+
+def metered(params: dict) -> dict[str, list[str]]:
+    e = params["electrolysis"]
+    paths = {"natural_gas": [], "electricity": ["electrolysis.electricity_kwh_per_kg_h2", "electrolysis.water_treatment_kwh_per_m3"]}
+    if e["heat_source"] in ("natural_gas", "electricity"):
+        paths[e["heat_source"]].append("electrolysis.heat_kwh_per_kg_h2")
+    return paths
+
+
+def validate(project) -> None:
+    if project.capture is not None:
+        raise SectionError("capture", "no [capture] section for route 'electrolysis' (no process CO2 to capture)")
+
+
+def uses_natural_gas(project) -> bool:
+    e = project.electrolysis
+    return e.heat_source == "natural_gas" and e.heat_kwh_per_kg_h2 > 0
+
+
+def starter(product: str) -> str:
+    return """
+[electrolysis]
+technology = "pem"                   # alkaline | pem | solid_oxide
+electricity_kwh_per_kg_h2 = 54.0     # system electricity; at least the physical floor
+heat_kwh_per_kg_h2 = 0.0
+heat_source = "recovered"            # recovered | natural_gas | electricity
+water_litres_per_kg_h2 = 0.0         # 0: water treatment not counted
+water_treatment_kwh_per_m3 = 0.0
+""" + electricity_starter(product) + (ammonia_starter(product) if product == "ammonia" else "")
+
+
+ROUTE = Route(
+    name="electrolysis",
+    kind="hydrogen_route",
+    stages=("hydrogen_production",),
+    applies=lambda params: params["hydrogen"]["route"] == "electrolysis",
+    build=build,
+    sections={"electrolysis": Electrolysis},
+    validate=validate,
+    check_limits=check_limits,
+    uses_natural_gas=uses_natural_gas,
+    metered=metered,
+    ageing="electrolysis.electricity_kwh_per_kg_h2",
+    starter=starter,
+    description="Water electrolysis (green with renewable electricity, or grid-connected)",
+)

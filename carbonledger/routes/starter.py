@@ -1,0 +1,42 @@
+"""Commented starter project files for ``carbonledger init``, one per hydrogen route (and variant)."""
+
+from __future__ import annotations
+
+import json
+
+from . import HYDROGEN_ROUTES
+
+_HEADER = """\
+# carbonledger project file. Every number below is a placeholder to replace with the
+# project's own data; units are in the parameter names. `carbonledger params FILE` lists them.
+[project]
+name = {name}
+product = "{product}"            # ammonia | hydrogen
+site = ""
+note = "Where the numbers come from (design documents, meters, invoices)"
+
+[hydrogen]
+route = "{route}"
+conditioning_kwh_per_kg_h2 = 0.0   # compression and purification to the delivery specification
+"""
+
+
+def starter_choices() -> dict[str, tuple[str, object]]:
+    """``init --route`` choice -> (route name, starter text function), from the registry."""
+    choices: dict[str, tuple[str, object]] = {}
+    for route in HYDROGEN_ROUTES.values():
+        choices[route.name] = (route.name, route.starter)
+        for variant, text in route.starter_variants.items():
+            choices[variant] = (route.name, text)
+    return choices
+
+
+def normalise_choice(text: str) -> str:
+    """Route names are accepted with hyphens or underscores, in any case."""
+    return text.strip().lower().replace("-", "_")
+
+
+def starter_project(choice: str, product: str, name: str = "New project") -> str:
+    route, text = starter_choices()[normalise_choice(choice)]
+    quoted = json.dumps(name, ensure_ascii=False)  # a JSON string is a valid TOML basic string
+    return _HEADER.format(name=quoted, product=product, route=route) + text(product)
