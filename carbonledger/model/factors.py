@@ -84,21 +84,19 @@ class FactorSet:
 
 
 def factors_root() -> Path:
-    """The factor library: $CARBONLEDGER_FACTORS, else the one shipped with the package.
-
-    In a wheel the library is the package ``carbonledger.factor_library`` (the repository's
-    ``factors/`` folder, mapped by pyproject.toml); in a source checkout it is ``factors/`` itself.
-    """
+    """The factor library: $CARBONLEDGER_FACTORS, else ``factors/`` of the source tree the package
+    runs from, else the copy shipped in the wheel (the package ``carbonledger.factor_library``,
+    which pyproject.toml maps to the same ``factors/`` folder)."""
     env = os.environ.get("CARBONLEDGER_FACTORS")
     if env:
         return Path(env)
+    source_tree = Path(__file__).resolve().parents[2] / "factors"
+    if (source_tree / "schemes").is_dir():
+        return source_tree
     try:
-        shipped = Path(str(resources.files("carbonledger.factor_library")))
-        if (shipped / "schemes").is_dir():
-            return shipped
+        return Path(str(resources.files("carbonledger.factor_library")))
     except ModuleNotFoundError:
-        pass
-    return Path(__file__).resolve().parents[2] / "factors"
+        return source_tree
 
 
 def available_sets() -> list[str]:
