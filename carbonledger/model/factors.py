@@ -19,7 +19,6 @@ import hashlib
 import json
 import math
 import os
-from importlib import resources
 import tomllib
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
@@ -85,18 +84,14 @@ class FactorSet:
 
 def factors_root() -> Path:
     """The factor library: $CARBONLEDGER_FACTORS, else ``factors/`` of the source tree the package
-    runs from, else the copy shipped in the wheel (the package ``carbonledger.factor_library``,
-    which pyproject.toml maps to the same ``factors/`` folder)."""
+    runs from, else the copy shipped in the wheel (``carbonledger/factor_library``, which
+    pyproject.toml maps from the same ``factors/`` folder)."""
     env = os.environ.get("CARBONLEDGER_FACTORS")
     if env:
         return Path(env)
-    source_tree = Path(__file__).resolve().parents[2] / "factors"
-    if (source_tree / "schemes").is_dir():
-        return source_tree
-    try:
-        return Path(str(resources.files("carbonledger.factor_library")))
-    except ModuleNotFoundError:
-        return source_tree
+    package = Path(__file__).resolve().parents[1]
+    source_tree = package.parent / "factors"
+    return source_tree if (source_tree / "schemes").is_dir() else package / "factor_library"
 
 
 def available_sets() -> list[str]:

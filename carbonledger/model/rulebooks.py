@@ -76,6 +76,8 @@ def schemes_folder() -> Path:
 
 def load_schemes(folder: Path | None = None) -> dict[str, Scheme]:
     folder = folder or schemes_folder()
+    if not folder.is_dir() or not any(folder.glob("*.toml")):
+        raise InputError(folder, "", "a folder of scheme rulebooks (*.toml); none found (set CARBONLEDGER_FACTORS to a factor library with schemes/, or reinstall carbonledger)")
     schemes: dict[str, Scheme] = {}
     for path in sorted(folder.glob("*.toml")):
         try:
