@@ -15,9 +15,7 @@ from ..about import CAUTION
 from ..core.results import Check, ScoreResult
 from ..core.scoring import intensities, rulebooks
 from ..errors import InputError
-from ..model.reference import molar_mass_g_per_mol
 from ..routes import STAGES
-from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 
 BASES = {
     "t-nh3": ("kg_co2e_per_t_nh3", "kg CO2e/t NH3"),
@@ -171,5 +169,5 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
 def _scale(result: ScoreResult, quantity: str) -> float | None:
     """Factor from the project's functional unit to the basis (the intensities are linear)."""
     lhv = result.heating_values_mj_per_kg
-    fraction = hydrogen_mass_fraction_of_ammonia(molar_mass_g_per_mol("H2"), molar_mass_g_per_mol("NH3"))
+    fraction = result.hydrogen_mass_fraction if result.product == "ammonia" else 1.0
     return intensities(1.0, result.reference_product, lhv["hydrogen_lhv"], lhv.get("ammonia_lhv", float("nan")), fraction)[quantity]

@@ -22,11 +22,9 @@ import numpy as np
 from ..core.scoring import intensities, rulebooks
 from ..errors import InputError
 from ..model.factors import Factor, FactorSet, read_factor_rows
-from ..model.reference import molar_mass_g_per_mol
 from ..routes import routes_of
 from ..routes.project import validate_project
 from ..stages import lifetime as stage
-from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 from .portfolio import PortfolioProject, score_portfolio
 
 
@@ -210,7 +208,7 @@ def lifetime_score(
     average = float(stage.output_weighted_mean(totals, units))
     hydrogen_lhv = first.heating_values_mj_per_kg["hydrogen_lhv"]
     ammonia_lhv = first.heating_values_mj_per_kg.get("ammonia_lhv", float("nan"))
-    fraction = hydrogen_mass_fraction_of_ammonia(molar_mass_g_per_mol("H2"), molar_mass_g_per_mol("NH3")) if first.product == "ammonia" else 1.0
+    fraction = first.hydrogen_mass_fraction
     books = rulebooks()
     lifetime_schemes = []
     yearly_pass: list[dict[str, bool]] = [{} for _ in scores]

@@ -81,6 +81,7 @@ class ScoreResult(BaseModel):
     hydrogen_production_kg_co2e_per_kg_h2: float
     hydrogen_kg_per_unit: float = 1.0  # kg H2 produced at the hydrogen plant per functional unit
     gate_product_per_unit: float = 1.0  # t NH3 or kg H2 leaving the plant gate per functional unit
+    hydrogen_mass_fraction: float = 1.0  # kg H2 contained per kg of the plant's product (1 for hydrogen)
     by_stage: dict[str, float]
     by_gas: dict[str, float]
     non_ghg_kg: dict[str, float] = {}  # kg per functional unit of flows that are not greenhouse gases (ammonia slip)

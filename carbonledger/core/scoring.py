@@ -265,6 +265,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
         hydrogen_kg_per_unit=float(supply[inventory.hydrogen]),
         gate_product_per_unit=float(supply[inventory.gate]),
+        hydrogen_mass_fraction=float(prepared.fraction),
         by_stage=by_stage,
         by_gas=by_gas,
         non_ghg_kg=non_ghg,

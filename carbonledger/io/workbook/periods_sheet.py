@@ -212,7 +212,7 @@ def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None
     """pass/fail of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
     from openpyxl.utils import get_column_letter
 
-    loosest = max(scheme.thresholds, key=lambda t: t.limit)
+    loosest = scheme.loosest()
     operator = "<=" if loosest.inclusive else "<"
     if results_cells and f"check:{scheme.id}" in results_cells:
         limit = f"{RESULTS}!$K${results_cells[f'check:{scheme.id}']}"

@@ -339,7 +339,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         put_formula(ws, row, 9, scheme_total, address)
         put_formula(ws, row, 10, value, address)
         put_formula(ws, row, 11, local("C", loosest_row), address)
-        loosest = max(scheme.thresholds, key=lambda t: t.limit)
+        loosest = scheme.loosest()
         operator = "<=" if loosest.inclusive else "<"
         put_formula(ws, row, 12, Term(f'IF($J${row}{operator}$K${row},"pass","fail")'), address)
         put_formula(ws, row, 13, local("K", row) - local("J", row), address)
