@@ -193,15 +193,16 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     return checks
 
 
+@functools.lru_cache(maxsize=4096)
+def _factor_row(item) -> FactorUsed:
+    """A factor row or reference value as cited in results (rows are frozen, so one copy serves every result)."""
+    if isinstance(item, ReferenceValue):
+        return FactorUsed(id=item.id, value=item.value, unit=item.unit, source=item.source)
+    return FactorUsed(**{k: getattr(item, k) for k in FactorUsed.model_fields})
+
+
 def _factor_rows(used: dict) -> list[FactorUsed]:
-    rows = []
-    for key in sorted(used):
-        item = used[key]
-        if isinstance(item, ReferenceValue):
-            rows.append(FactorUsed(id=item.id, value=item.value, unit=item.unit, source=item.source))
-        else:
-            rows.append(FactorUsed(**{k: getattr(item, k) for k in FactorUsed.model_fields}))
-    return rows
+    return [_factor_row(used[key]) for key in sorted(used)]
 
 
 def _plain(value):

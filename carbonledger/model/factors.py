@@ -13,6 +13,7 @@ content whatever the layout of the files that produced it.
 
 from __future__ import annotations
 
+import bisect
 import csv
 import functools
 import hashlib
@@ -78,8 +79,17 @@ class FactorSet:
         except KeyError:
             raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'") from None
 
+    @functools.cached_property
+    def _sorted_ids(self) -> list[str]:
+        return sorted(self.factors)
+
     def ids_with_prefix(self, prefix: str) -> list[str]:
-        return sorted(key for key in self.factors if key.startswith(prefix))
+        ids = self._sorted_ids
+        start = bisect.bisect_left(ids, prefix)
+        end = start
+        while end < len(ids) and ids[end].startswith(prefix):
+            end += 1
+        return ids[start:end]
 
 
 def factors_root() -> Path:
