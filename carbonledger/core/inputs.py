@@ -14,6 +14,7 @@ from ..model.factors import FactorSet
 from ..model.reference import (
     ammonia_formation_enthalpy,
     ammonia_latent_heat,
+    hydrogen_latent_heat,
     molar_mass,
 )
 from ..model.units import UnitMismatch, conversion_factor
@@ -53,6 +54,10 @@ class NumericInputs:
     def latent_heat_ammonia(self):
         """kJ/kg at 1 atm (see ``model.reference.ammonia_latent_heat``)."""
         return self._reference(ammonia_latent_heat())
+
+    def latent_heat_hydrogen(self):
+        """kJ/kg at 1 atm, from CoolProp (imported only by projects that carry liquid hydrogen)."""
+        return self._reference(hydrogen_latent_heat())
 
     def formation_enthalpy_ammonia(self):
         """kJ/mol, NH3(g) at 298.15 K, from the chemicals library."""

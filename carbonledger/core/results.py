@@ -84,6 +84,8 @@ class ScoreResult(BaseModel):
     hydrogen_mass_fraction: float = 1.0  # kg H2 contained per kg of the plant's product (1 for hydrogen)
     by_stage: dict[str, float]
     by_gas: dict[str, float]
+    hydrogen_leakage_kg: float = 0.0  # kg H2 leaked or vented per functional unit (in non_ghg_kg too)
+    hydrogen_leakage_kg_co2e: float = 0.0  # its indirect effect with the GWP100 of hydrogen (factor gwp_indirect.h2): not in total, by_gas or any scheme value
     non_ghg_kg: dict[str, float] = {}  # kg per functional unit of flows that are not greenhouse gases (ammonia slip)
     by_activity: dict[str, float]
     heating_values_mj_per_kg: dict[str, float]

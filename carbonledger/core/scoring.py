@@ -227,6 +227,8 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1)) if flow not in NON_GHG_FLOWS}
     non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1)) if flow in NON_GHG_FLOWS}
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+    leakage = non_ghg.get("h2", 0.0)
+    leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
     supply = dict(zip(keys, main.supply))
     exchanges = [
         ExchangeRow(
@@ -269,6 +271,8 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         hydrogen_mass_fraction=float(prepared.fraction),
         by_stage=by_stage,
         by_gas=by_gas,
+        hydrogen_leakage_kg=leakage,
+        hydrogen_leakage_kg_co2e=float(leakage_co2e),
         non_ghg_kg=non_ghg,
         by_activity=by_activity,
         heating_values_mj_per_kg=heating,

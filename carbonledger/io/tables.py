@@ -42,6 +42,7 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str]]:
     rows += [("by_stage", key, value, result.unit) for key, value in result.by_stage.items()]
     rows += [("by_gas", key, value, result.unit) for key, value in result.by_gas.items()]
     rows += [("non_ghg", key, value, "kg per functional unit") for key, value in result.non_ghg_kg.items()]
+    rows.append(("hydrogen_leakage", "kg_co2e_indirect_gwp100", result.hydrogen_leakage_kg_co2e, "kg CO2e per functional unit (not in the total)"))
     for check in result.checks:
         rows += [
             (f"check:{check.scheme}", "value", check.value, check.unit),
@@ -91,9 +92,13 @@ def render(result: ScoreResult) -> str:
             share = value / result.total if result.total else 0.0
             table.add_row(key.replace("_", " "), display_number(value), f"{share:.1%}")
         console.print(table)
-    for flow, kilograms in result.non_ghg_kg.items():
-        if kilograms:
-            console.print(f"{flow.upper()} emitted (not a greenhouse gas, not in CO2e): {display_number(kilograms)} kg per functional unit")
+    if result.non_ghg_kg.get("nh3"):
+        console.print(f"NH3 emitted (not a greenhouse gas, not in CO2e): {display_number(result.non_ghg_kg['nh3'])} kg per functional unit")
+    if result.hydrogen_leakage_kg:
+        console.print(
+            f"H2 leaked: {display_number(result.hydrogen_leakage_kg)} kg per functional unit; its indirect effect, "
+            f"{display_number(result.hydrogen_leakage_kg_co2e)} kg CO2e (GWP100 of hydrogen), is not in the total or any scheme value"
+        )
     if result.checks:
         table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
         for column in ("scheme", "value", "limit", "unit", "verdict", "margin", "tier", "GWP", "electricity"):

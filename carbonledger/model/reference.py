@@ -98,3 +98,44 @@ def ammonia_formation_enthalpy() -> ReferenceValue:
         unit="kJ/mol",
         source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, default method: Active Thermochemical Tables)",
     )
+
+
+HYDROGEN_FLUID = "Hydrogen"  # CoolProp's normal hydrogen (Leachman et al. 2009); ortho-para conversion not included
+AMBIENT_TEMPERATURE_K = 298.15
+
+
+@functools.cache
+def _hydrogen_states() -> dict[str, float]:
+    """Saturated liquid and vapour at 1 atm, and the gas at 25 degC and 1 atm, from CoolProp (SI units)."""
+    from CoolProp.CoolProp import PropsSI
+
+    return {
+        "h_liquid": PropsSI("H", "P", ATMOSPHERE_PA, "Q", 0, HYDROGEN_FLUID),
+        "s_liquid": PropsSI("S", "P", ATMOSPHERE_PA, "Q", 0, HYDROGEN_FLUID),
+        "h_vapour": PropsSI("H", "P", ATMOSPHERE_PA, "Q", 1, HYDROGEN_FLUID),
+        "h_ambient": PropsSI("H", "P", ATMOSPHERE_PA, "T", AMBIENT_TEMPERATURE_K, HYDROGEN_FLUID),
+        "s_ambient": PropsSI("S", "P", ATMOSPHERE_PA, "T", AMBIENT_TEMPERATURE_K, HYDROGEN_FLUID),
+    }
+
+
+def hydrogen_latent_heat() -> ReferenceValue:
+    """Latent heat of vaporisation of hydrogen at 1 atm (liquid hydrogen cargo), kJ/kg."""
+    states = _hydrogen_states()
+    return ReferenceValue(
+        id="reference.latent_heat.hydrogen",
+        value=(states["h_vapour"] - states["h_liquid"]) / 1000.0,
+        unit="kJ/kg",
+        source=f"CoolProp {_coolprop_version()} (PropsSI, saturated normal hydrogen at 101325 Pa: h_vapour - h_liquid)",
+    )
+
+
+def hydrogen_liquefaction_states() -> dict[str, float]:
+    """h (kJ/kg) and s (kJ/kg/K) of saturated liquid at 1 atm and of the gas at 25 degC, 1 atm."""
+    states = _hydrogen_states()
+    return {
+        "h_liquid_kj_per_kg": states["h_liquid"] / 1000.0,
+        "s_liquid_kj_per_kg_k": states["s_liquid"] / 1000.0,
+        "h_ambient_kj_per_kg": states["h_ambient"] / 1000.0,
+        "s_ambient_kj_per_kg_k": states["s_ambient"] / 1000.0,
+        "ambient_temperature_k": AMBIENT_TEMPERATURE_K,
+    }

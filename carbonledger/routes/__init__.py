@@ -14,6 +14,9 @@ from . import (
     electricity,
     electrolysis,
     end_use,
+    hydrogen_pipeline,
+    hydrogen_truck,
+    liquid_hydrogen,
     natural_gas,
     reforming,
     shipping,
@@ -29,6 +32,9 @@ REGISTRY: tuple[Route, ...] = (
     ammonia.ROUTE,
     shipping.ROUTE,
     cracking.ROUTE,
+    hydrogen_pipeline.ROUTE,
+    hydrogen_truck.ROUTE,
+    liquid_hydrogen.ROUTE,
     end_use.ROUTE,
 )
 

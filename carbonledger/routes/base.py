@@ -22,8 +22,9 @@ FLOWS = {
     "n2o": "N2O",
     "co2e_precharacterised": "CO2e given by a life-cycle factor (not split by gas)",
     "nh3": "NH3 (ammonia slip; not a greenhouse gas, reported separately)",
+    "h2": "H2 (hydrogen leakage; an indirect greenhouse effect, reported separately, in no scheme value)",
 }
-NON_GHG_FLOWS = ("nh3",)  # in the inventory, characterised at zero, left out of by_gas
+NON_GHG_FLOWS = ("nh3", "h2")  # in the inventory, characterised at zero, left out of by_gas
 
 
 @dataclass

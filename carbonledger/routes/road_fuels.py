@@ -1,0 +1,36 @@
+"""Road fuels as data, like marine fuels: a fuel is known when the factor set holds
+``road_fuel.<fuel>.co2``, ``.ch4``, ``.n2o`` (kg per TJ burnt), ``.lhv`` and ``.well_to_tank``."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from ..stages import shipping
+from .base import Activity
+
+
+def road_fuels(factor_set) -> list[str]:
+    return sorted(key.split(".")[1] for key in factor_set.ids_with_prefix("road_fuel.") if key.endswith(".co2"))
+
+
+def road_fuel_factors(inputs, fuel: str, where: str) -> dict[str, Any]:
+    """kg of each gas per kg of fuel burnt, the heating value and the well-to-tank factor."""
+    lhv = inputs.factor(f"road_fuel.{fuel}.lhv", "MJ/kg", where)
+    return {
+        gas: lhv * inputs.factor(f"road_fuel.{fuel}.{gas}", f"kg {gas.upper()}/MJ", where)
+        for gas in ("co2", "ch4", "n2o")
+    } | {"lhv": lhv, "well_to_tank": inputs.factor(f"road_fuel.{fuel}.well_to_tank", "g CO2e/MJ", where)}
+
+
+def burn_road_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:
+    """Fuel bought (its well-to-tank supply activity, shared in ``extra``) and burnt in an engine."""
+    supplier = f"fuel_supply:{stage}:{fuel}"
+    name = fuel.replace("_", " ")
+    if not any(a.key == supplier for a in extra):
+        supply = Activity(supplier, stage, f"{name}, supplied (well-to-tank)", "kg fuel")
+        supply.emit("co2e_precharacterised", shipping.well_to_tank_kg_co2e_per_kg_fuel(factors["lhv"], factors["well_to_tank"]), f"well-to-tank of {name}")
+        extra.append(supply)
+    activity.consume(supplier, fuel_kg, f"{name}, {label}", "kg fuel")
+    activity.emit("co2_fossil", fuel_kg * factors["co2"], f"CO2 from burning {name}, {label}")
+    activity.emit("ch4_fossil", fuel_kg * factors["ch4"], f"CH4 from burning {name}, {label}")
+    activity.emit("n2o", fuel_kg * factors["n2o"], f"N2O from burning {name}, {label}")
