@@ -137,3 +137,39 @@ def test_a_hydrogen_leg_needs_hydrogen(write_project):
     grey = (DEMO / "grey_smr_ammonia.toml").read_text(encoding="utf-8")
     path = write_project(grey + "\n[hydrogen_pipeline]\nlength_km = 100.0\n")
     assert_one_line_error(run_cli("score", path, "--no-ledger"))
+
+
+def test_ammonia_by_pipeline_then_rail_worked_example(write_project):
+    grey = (DEMO / "grey_smr_ammonia.toml").read_text(encoding="utf-8").replace('boundary = "cradle-to-gate"', "")
+    legs = """
+[ammonia_pipeline]
+destination = "Tarrow junction (invented)"
+length_km = 200.0
+pumping_kwh_per_t_km = 0.01
+loss_share = 0.001
+
+[ammonia_rail]
+destination = "Esk Harbour rail terminal (invented)"
+distance_km = 400.0
+fuel = "diesel"
+fuel_g_per_t_km = 5.0
+return_fuel_ratio = 0.8
+loss_share = 0.002
+"""
+    path = write_project(grey + legs)
+    gate = score(path)
+    delivered = score(path, boundary="well-to-tank")
+    grid = value(next(f.id for f in gate.factors_used if f.id.startswith("electricity.grid."))) / 1000.0  # kg CO2 per kWh, one grid source
+    into_pipe, into_rail = 1.0 / (1.0 - 0.001), 1.0 / (1.0 - 0.002)
+    # locomotive fuel: 5 g/t-km x 400 km x 1.8 (return at 80 %) per tonne loaded = 3.6 kg per t loaded
+    fuel_kg = 5.0 * 400.0 * into_rail * 1.8 / 1000.0
+    lhv = value("rail_fuel.diesel.lhv")
+    gwp = {"co2": 1.0, "ch4": value("gwp.ar6.ch4_fossil"), "n2o": value("gwp.ar6.n2o")}
+    # IPCC 2006 Vol. 2 Table 3.4.1 (railways), kg per TJ: CO2 74,100, CH4 4.15, N2O 28.6
+    burnt = sum(fuel_kg * lhv * value(f"rail_fuel.diesel.{gas}") / 1e6 * gwp[gas] for gas in ("co2", "ch4", "n2o"))
+    upstream = fuel_kg * lhv * value("rail_fuel.diesel.well_to_tank") / 1000.0
+    expected = (gate.total * into_pipe + 0.01 * 200.0 * into_pipe * grid) * into_rail + burnt + upstream
+    assert delivered.total == pytest.approx(expected, rel=1e-9)
+    lost_kg = 1000.0 * (0.001 / 0.999 * into_rail + 0.002 / 0.998)
+    assert delivered.non_ghg_kg["nh3"] == pytest.approx(lost_kg, rel=1e-9)
+    assert delivered.functional_unit == "1 t NH3 delivered at Esk Harbour rail terminal (invented)"

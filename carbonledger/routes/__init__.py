@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from . import (
     ammonia,
+    ammonia_overland,
     cracking,
     electricity,
     electrolysis,
@@ -30,6 +31,8 @@ REGISTRY: tuple[Route, ...] = (
     reforming.AUTOTHERMAL_REFORMING,
     electrolysis.ROUTE,
     ammonia.ROUTE,
+    ammonia_overland.AMMONIA_PIPELINE,
+    ammonia_overland.AMMONIA_RAIL,
     shipping.ROUTE,
     cracking.ROUTE,
     hydrogen_pipeline.ROUTE,

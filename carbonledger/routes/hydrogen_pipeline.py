@@ -28,9 +28,9 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     leg = params["hydrogen_pipeline"]
     lost = loss_share(leg)
     pipe = Activity("hydrogen_piped", "hydrogen_pipeline", f"hydrogen, piped to {leg['destination']}", "kg H2")
-    pipe.consume(chain.reference, hydrogen_delivery.hydrogen_in_per_kg_delivered(lost), "hydrogen fed into the pipeline (leaks included)", "kg H2")
+    pipe.consume(chain.reference, hydrogen_delivery.intake_per_unit_delivered(lost), "hydrogen fed into the pipeline (leaks included)", "kg H2")
     pipe.consume("electricity_mix", leg["compression_kwh_per_kg_h2"], "electricity, compression", "kWh")
-    pipe.emit("h2", hydrogen_delivery.hydrogen_lost_per_kg_delivered(lost), "hydrogen leaked from the pipeline")
+    pipe.emit("h2", hydrogen_delivery.lost_per_unit_delivered(lost), "hydrogen leaked from the pipeline")
     chain.reference, chain.place = pipe.key, f"at {leg['destination']}"
     chain.figures["hydrogen_pipeline"] = {"loss_share": lost, "length_km": leg["length_km"]}
     return [pipe]

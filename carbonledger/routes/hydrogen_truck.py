@@ -29,11 +29,11 @@ class HydrogenTruck(Section):
 def build(params: dict, inputs, chain) -> list[Activity]:
     leg = params["hydrogen_truck"]
     truck = Activity("hydrogen_trucked", "hydrogen_trucking", f"hydrogen, trucked to {leg['destination']}", "kg H2")
-    truck.consume(chain.reference, hydrogen_delivery.hydrogen_in_per_kg_delivered(leg["loss_share"]), "hydrogen loaded (losses included)", "kg H2")
+    truck.consume(chain.reference, hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"]), "hydrogen loaded (losses included)", "kg H2")
     truck.consume("electricity_mix", leg["compression_kwh_per_kg_h2"], "electricity, compression into the trailer", "kWh")
     fuel_kg = hydrogen_delivery.truck_fuel_kg_per_kg_h2(leg["distance_km"], leg["fuel_kg_per_km"], leg["return_fuel_ratio"], leg["payload_kg_h2"])
     burn_road_fuel(truck, "hydrogen_trucking", leg["fuel"], road_fuel_factors(inputs, leg["fuel"], "hydrogen_truck.fuel"), fuel_kg, "truck, laden and return trips", chain.extra)
-    truck.emit("h2", hydrogen_delivery.hydrogen_lost_per_kg_delivered(leg["loss_share"]), "hydrogen vented or leaked from the trailer")
+    truck.emit("h2", hydrogen_delivery.lost_per_unit_delivered(leg["loss_share"]), "hydrogen vented or leaked from the trailer")
     chain.reference, chain.place = truck.key, f"at {leg['destination']}"
     chain.figures["hydrogen_truck"] = {"fuel_kg_per_kg_h2": fuel_kg}
     return [truck]

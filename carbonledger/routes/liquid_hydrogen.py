@@ -44,13 +44,13 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     liquefier.consume("electricity_mix", leg["liquefaction_kwh_per_kg_h2"], "electricity, liquefaction", "kWh")
     lost = boil_off(leg, inputs)
     carriage = Activity("liquid_hydrogen_delivered", "liquid_hydrogen_carriage", f"liquid hydrogen, carried by {leg['carrier']} to {leg['destination']}", "kg H2")
-    carriage.consume(liquefier.key, hydrogen_delivery.hydrogen_in_per_kg_delivered(lost), "liquid hydrogen loaded (boil-off included)", "kg H2")
+    carriage.consume(liquefier.key, hydrogen_delivery.intake_per_unit_delivered(lost), "liquid hydrogen loaded (boil-off included)", "kg H2")
     fuel_kg = leg["fuel_kg_per_trip"] / (leg["cargo_kg_h2"] * (1.0 - lost))
     if leg["carrier"] == "truck":
         burn_road_fuel(carriage, "liquid_hydrogen_carriage", leg["fuel"], road_fuel_factors(inputs, leg["fuel"], "liquid_hydrogen.fuel"), fuel_kg, "road tanker", chain.extra)
     else:
         burn_marine_fuel(carriage, "liquid_hydrogen_carriage", leg["fuel"], fuel_factors(inputs, leg["fuel"], "", "liquid_hydrogen.fuel"), fuel_kg, "ship", chain.extra)
-    carriage.emit("h2", hydrogen_delivery.hydrogen_lost_per_kg_delivered(lost), "boil-off vented")
+    carriage.emit("h2", hydrogen_delivery.lost_per_unit_delivered(lost), "boil-off vented")
     chain.reference, chain.place = carriage.key, f"at {leg['destination']}"
     chain.figures["liquid_hydrogen"] = {"boil_off_share": lost, "latent_heat_kj_per_kg": inputs.latent_heat_hydrogen()}
     return [liquefier, carriage]

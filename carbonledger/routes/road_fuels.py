@@ -1,5 +1,7 @@
-"""Road fuels as data, like marine fuels: a fuel is known when the factor set holds
-``road_fuel.<fuel>.co2``, ``.ch4``, ``.n2o`` (kg per TJ burnt), ``.lhv`` and ``.well_to_tank``."""
+"""Road and rail fuels as data, like marine fuels: a fuel is known when the factor set holds
+``<namespace>.<fuel>.co2``, ``.ch4``, ``.n2o`` (kg per TJ burnt), ``.lhv`` and ``.well_to_tank``,
+with namespace ``road_fuel`` (road engines) or ``rail_fuel`` (locomotives: the IPCC defaults
+for CH4 and N2O differ by engine type)."""
 
 from __future__ import annotations
 
@@ -9,17 +11,17 @@ from ..stages import shipping
 from .base import Activity
 
 
-def road_fuels(factor_set) -> list[str]:
-    return sorted(key.split(".")[1] for key in factor_set.ids_with_prefix("road_fuel.") if key.endswith(".co2"))
+def road_fuels(factor_set, namespace: str = "road_fuel") -> list[str]:
+    return sorted(key.split(".")[1] for key in factor_set.ids_with_prefix(f"{namespace}.") if key.endswith(".co2"))
 
 
-def road_fuel_factors(inputs, fuel: str, where: str) -> dict[str, Any]:
+def road_fuel_factors(inputs, fuel: str, where: str, namespace: str = "road_fuel") -> dict[str, Any]:
     """kg of each gas per kg of fuel burnt, the heating value and the well-to-tank factor."""
-    lhv = inputs.factor(f"road_fuel.{fuel}.lhv", "MJ/kg", where)
+    lhv = inputs.factor(f"{namespace}.{fuel}.lhv", "MJ/kg", where)
     return {
-        gas: lhv * inputs.factor(f"road_fuel.{fuel}.{gas}", f"kg {gas.upper()}/MJ", where)
+        gas: lhv * inputs.factor(f"{namespace}.{fuel}.{gas}", f"kg {gas.upper()}/MJ", where)
         for gas in ("co2", "ch4", "n2o")
-    } | {"lhv": lhv, "well_to_tank": inputs.factor(f"road_fuel.{fuel}.well_to_tank", "g CO2e/MJ", where)}
+    } | {"lhv": lhv, "well_to_tank": inputs.factor(f"{namespace}.{fuel}.well_to_tank", "g CO2e/MJ", where)}
 
 
 def burn_road_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:

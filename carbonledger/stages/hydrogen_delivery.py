@@ -19,13 +19,13 @@ SECONDS_PER_HOUR = 3600.0
 KJ_PER_KWH = 3600.0
 
 
-def hydrogen_in_per_kg_delivered(loss_share):
-    """kg H2 taken into a leg per kg delivered when ``loss_share`` of the intake is lost."""
+def intake_per_unit_delivered(loss_share):
+    """Product taken into a leg per unit delivered when ``loss_share`` of the intake is lost (any product)."""
     return 1.0 / (1.0 - loss_share)
 
 
-def hydrogen_lost_per_kg_delivered(loss_share):
-    """kg H2 lost (leaked or vented) per kg delivered."""
+def lost_per_unit_delivered(loss_share):
+    """Product lost (leaked, vented, spilled) per unit delivered."""
     return loss_share / (1.0 - loss_share)
 
 
