@@ -24,7 +24,7 @@ import tomllib
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
-from ..errors import InputError
+from ..errors import InputError, did_you_mean, match_id
 
 FACTOR_COLUMNS = ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")
 REQUIRED_COLUMNS = ("id", "value", "unit", "source")
@@ -77,7 +77,7 @@ class FactorSet:
         try:
             return self.factors[factor_id]
         except KeyError:
-            raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'") from None
+            raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'{did_you_mean(factor_id, self.factors)}") from None
 
     def ids_with_prefix(self, prefix: str) -> list[str]:
         return sorted(key for key in self.factors if key.startswith(prefix))
@@ -104,6 +104,48 @@ def available_sets() -> list[str]:
     if not root.is_dir():
         return []
     return sorted(path.name for path in root.iterdir() if (path / "set.toml").is_file())
+
+
+_GASES = ("CO2e", "CO2", "CH4", "N2O")
+_ENERGY = ("J", "kJ", "MJ", "GJ", "TJ", "PJ", "Wh", "kWh", "MWh", "GWh")
+
+
+def physical_range(factor_id: str, unit: str) -> tuple[float | None, bool, float | None, str]:
+    """The physically possible range of a factor, decided by its id and unit (one rule for every
+    factor, whatever file it comes from): (low, low inclusive, high, what the value is).
+
+    - a global warming potential (``gwp.*``, kg CO2e per kg of a gas): > 0;
+    - a mass of methane per mass of gas or fuel (``kg CH4/kg``, ``kg CH4/kg fuel``): 0 to 1;
+    - an emission factor (a greenhouse-gas mass per unit of activity: g CO2e/kWh, kg CO2/TJ,
+      t N2O/t fuel...): >= 0 (these factors describe emissions; removals are not modelled);
+    - a heating value (energy per mass or volume: MJ/kg, TJ/Gg, MJ/m3): > 0.
+
+    Other units: any finite number. ``low``/``high`` None means unbounded.
+    """
+    numerator, _, denominator = (part.strip() for part in unit.partition("/"))
+    top = numerator.split()
+    bottom = denominator.split()
+    if factor_id.startswith("gwp."):
+        return 0.0, False, None, "a global warming potential"
+    if top[-1:] == ["CH4"] and len(bottom) >= 1 and bottom[-1] in ("kg", "t", "fuel") and top[0] == bottom[0]:
+        return 0.0, True, 1.0, "a mass fraction of methane"
+    if top[-1:] and top[-1] in _GASES:
+        return 0.0, True, None, "an emission factor"
+    if len(top) == 1 and top[0] in _ENERGY and bottom:
+        return 0.0, False, None, "a heating value"
+    return None, True, None, ""
+
+
+def check_factor_value(factor_id: str, value: float, unit: str, where: str) -> None:
+    """Refuse a factor value that is not finite or outside ``physical_range``: one InputError naming the id."""
+    if not math.isfinite(value):
+        raise InputError(where, "value", f"a finite number for '{factor_id}', got {value!r}")
+    low, inclusive, high, what = physical_range(factor_id, unit)
+    below = low is not None and (value < low if inclusive else value <= low)
+    above = high is not None and value > high
+    if below or above:
+        bounds = f"{'>=' if inclusive else '>'} {low:g}" + (f" and <= {high:g}" if high is not None else "")
+        raise InputError(where, "value", f"a value {bounds} for '{factor_id}' ({what}, {unit}), got {value:g}")
 
 
 def _parse_bool(text: str, where: str) -> bool:
@@ -144,11 +186,10 @@ def read_factor_rows(path: Path) -> list[Factor]:
                 value = float(row.get("value") or "")
             except ValueError:
                 raise InputError(where, "value", f"a number for '{factor_id}', got '{row.get('value')}'") from None
-            if not math.isfinite(value):
-                raise InputError(where, "value", f"a finite number for '{factor_id}'")
             unit = (row.get("unit") or "").strip()
             if not unit:
                 raise InputError(where, "unit", f"a unit for '{factor_id}'")
+            check_factor_value(factor_id, value, unit, where)
             source = (row.get("source") or "").strip()
             if not source:
                 raise InputError(where, "source", f"a source document for '{factor_id}' (every factor must cite one)")

@@ -1,0 +1,174 @@
+"""Bad input from every channel: one line ``error: ...`` and exit 2, never a traceback, never a
+silent wrong result. Each test feeds a whole class of bad values (every numeric parameter,
+every factor kind), not one example.
+
+The physical ranges checked here are facts of the trade, not this project's choices: a global
+warming potential of CO2, CH4 or N2O is positive (IPCC AR6 WG1 Table 7.15: 1, 29.8, 273); an
+emission factor of electricity or of fuel combustion is a mass of gas emitted, so >= 0 (2006
+IPCC Guidelines Vol. 2 Ch. 2, Table 2.2); a methane mass fraction of natural gas is a fraction
+(0..1); a heating value is positive (a fuel releases heat when burnt).
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from carbonledger.errors import InputError
+from carbonledger.model.project import parameter_table
+from carbonledger.routes.project import load_project
+
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
+
+GRID = DEMO / "grid_electrolysis_hydrogen.toml"
+BLUE = DEMO / "blue_smr_hydrogen.toml"
+DEMOS = sorted(DEMO.glob("*.toml")) + sorted(PORTFOLIO.glob("*.toml"))
+
+
+def _numeric_parameters():
+    """(project, parameter path) of every number in every demo project."""
+    cases = []
+    for path in DEMOS:
+        model, _ = load_project(path)
+        for name, value, _, _ in parameter_table(model):
+            if isinstance(value, (int, float)) and not isinstance(value, bool):
+                cases.append((path, name))
+    return cases
+
+
+NUMERIC = _numeric_parameters()
+
+
+def test_the_class_is_large_enough():
+    # every route and leg of the demo projects: reforming, capture, electrolysis, ammonia, shipping, cracking, lifetime
+    assert len({name.split(".")[0] for _, name in NUMERIC}) >= 8, NUMERIC
+
+
+@pytest.mark.parametrize("bad", ["inf", "-inf", "nan", "true", "false", '"0.5"'])
+def test_every_number_refuses_infinity_nan_truth_values_and_text_through_set(bad):
+    for path, name in NUMERIC:  # the loader the command line uses, for speed
+        with pytest.raises(InputError) as refused:
+            load_project(path, [f"{name}={bad}"])
+        assert refused.value.field == name, (name, bad, str(refused.value))
+    path, name = NUMERIC[0]
+    result = run_cli("score", path, "--set", f"{name}={bad}", "--no-ledger")
+    assert_one_line_error(result)
+    assert name in result.stderr
+
+
+@pytest.mark.parametrize("bad", ["inf", "nan", "true"])
+def test_a_toml_file_with_inf_nan_or_true_for_a_number_is_refused(tmp_path, bad):
+    text = BLUE.read_text(encoding="utf-8").replace("capture_rate = 0.9", f"capture_rate = {bad}")
+    assert f"capture_rate = {bad}" in text
+    result = run_cli("score", write(tmp_path / "p.toml", text), "--no-ledger")
+    assert_one_line_error(result)
+    assert "capture.capture_rate" in result.stderr
+
+
+def test_operating_years_is_bounded_instead_of_exhausting_memory(tmp_path):
+    project = PORTFOLIO / "vennor_hybrid_hydrogen.toml"
+    for years in ("1000000000000", "201"):
+        result = run_cli("score", project, "--lifetime", "--set", f"lifetime.operating_years={years}", "--no-ledger")
+        assert_one_line_error(result)
+        assert "lifetime.operating_years" in result.stderr and "<= 200" in result.stderr
+
+
+@pytest.mark.parametrize("nesting", ["x = " + "[" * 5000 + "]" * 5000, "x = " + "[" * 60 + "]" * 60, "x." * 3000 + "y = 1", "x = " + "{a = " * 400 + "1" + "}" * 400], ids=["arrays-5000", "arrays-60", "dotted-keys-3000", "inline-tables-400"])
+def test_deeply_nested_toml_is_one_line(tmp_path, nesting):
+    path = write(tmp_path / "deep.toml", GRID.read_text(encoding="utf-8") + "\n" + nesting + "\n")
+    assert_one_line_error(run_cli("score", path, "--no-ledger"))
+    assert_one_line_error(run_cli("score", GRID, "--no-ledger", "--set", nesting.replace(" ", "")))
+
+
+def test_a_project_file_with_a_byte_order_mark_is_read(tmp_path):
+    path = tmp_path / "bom.toml"
+    path.write_bytes(b"\xef\xbb\xbf" + GRID.read_bytes())
+    with_bom = run_cli("score", path, "--no-ledger", "--format", "json")
+    plain = run_cli("score", GRID, "--no-ledger", "--format", "json")
+    assert with_bom.exit_code == 0, with_bom.output
+    assert with_bom.stdout.split('"total"')[1][:40] == plain.stdout.split('"total"')[1][:40]
+
+
+def test_a_project_file_that_is_not_utf8_is_one_line(tmp_path):
+    path = tmp_path / "cp1252.toml"
+    path.write_bytes(GRID.read_text(encoding="utf-8").replace("(invented)", "(invent\u00e9)").encode("cp1252"))
+    result = run_cli("score", path, "--no-ledger")
+    assert_one_line_error(result)
+    assert "UTF-8" in result.stderr
+
+
+# --- factor rows: finite and physically possible, whatever file they come from --------------
+
+BAD_FACTOR_ROWS = [
+    ("electricity.grid.eu27_2018", "-300", "g CO2e/kWh"),  # emission factor < 0
+    ("electricity.grid.eu27_2018", "inf", "g CO2e/kWh"),
+    ("electricity.grid.eu27_2018", "nan", "g CO2e/kWh"),
+    ("combustion.natural_gas.co2", "-1", "kg CO2/TJ"),
+    ("natural_gas.methane_mass_fraction", "1.7", "kg CH4/kg"),  # a fraction above 1
+    ("natural_gas.methane_mass_fraction", "-0.1", "kg CH4/kg"),
+    ("heating_value.hydrogen.lhv", "0", "MJ/kg"),  # zero heating value: was ZeroDivisionError
+    ("heating_value.ammonia.lhv", "-18.6", "MJ/kg"),
+    ("natural_gas.net_calorific_value", "0", "TJ/Gg"),
+    ("gwp.ar6.ch4_fossil", "0", "kg CO2e/kg CH4"),
+    ("gwp.ar6.n2o", "-273", "kg CO2e/kg N2O"),
+    ("marine_fuel.lng.methane_slip.otto_dual_fuel_medium_speed", "1.5", "kg CH4/kg fuel"),
+]
+
+
+@pytest.mark.parametrize("factor_id,value,unit", BAD_FACTOR_ROWS, ids=[f"{i}={v}" for i, v, _ in BAD_FACTOR_ROWS])
+def test_an_impossible_factor_in_an_override_csv_is_refused_with_file_id_and_range(tmp_path, factor_id, value, unit):
+    override = write(tmp_path / "override.csv", FACTOR_HEADER + f"{factor_id},{value},{unit},my own source,,2026,,,false\n")
+    for project in (GRID, DEMO / "grey_smr_ammonia.toml"):
+        result = run_cli("score", project, "--factors", override, "--no-ledger")
+        assert_one_line_error(result)
+        assert "override.csv:2" in result.stderr and factor_id in result.stderr, result.stderr
+
+
+def test_an_impossible_factor_in_a_factor_set_folder_is_refused(tmp_path):
+    folder = tmp_path / "bad-set"
+    write(folder / "set.toml", 'name = "bad-set"\nbase = "default-2026"\n')
+    write(folder / "factors.csv", FACTOR_HEADER + "heating_value.hydrogen.lhv,0,MJ/kg,my own source,,2026,,,false\n")
+    result = run_cli("score", GRID, "--factors", folder, "--no-ledger")
+    assert_one_line_error(result)
+    assert "heating_value.hydrogen.lhv" in result.stderr and "> 0" in result.stderr
+
+
+def test_every_shipped_factor_is_inside_its_physical_range():
+    from carbonledger.model.factors import available_sets, load_factor_set
+
+    # the shipped sets load through the same check; this fails if a rule refuses a published value
+    for name in available_sets():
+        assert load_factor_set(name).factors
+
+
+# --- names that point at the right place, with a suggestion -----------------------------------
+
+
+def test_a_misspelt_parameter_is_named_with_a_suggestion(tmp_path):
+    text = GRID.read_text(encoding="utf-8").replace("electricity_kwh_per_kg_h2", "electricty_kwh_per_kg_h2")
+    result = run_cli("score", write(tmp_path / "p.toml", text), "--no-ledger")
+    assert_one_line_error(result)
+    assert "electrolysis.electricty_kwh_per_kg_h2" in result.stderr
+    assert "did you mean 'electricity_kwh_per_kg_h2'" in result.stderr
+
+
+def test_a_misspelt_section_is_named_with_a_suggestion(tmp_path):
+    text = GRID.read_text(encoding="utf-8").replace("[project]", "[projekt]")
+    result = run_cli("score", write(tmp_path / "p.toml", text), "--no-ledger")
+    assert_one_line_error(result)
+    assert "projekt" in result.stderr and "did you mean 'project'" in result.stderr
+
+
+def test_misspelt_route_and_factor_id_get_suggestions():
+    result = run_cli("score", GRID, "--no-ledger", "--set", "hydrogen.route=electrolisys")
+    assert_one_line_error(result)
+    assert "did you mean 'electrolysis'" in result.stderr
+    result = run_cli("score", GRID, "--no-ledger", "--set", "electricity.sources.grid.factor=electricity.grid.eu27_218")
+    assert_one_line_error(result)
+    assert "electricity.sources.grid.factor" in result.stderr and "did you mean 'electricity.grid.eu27_2018'" in result.stderr
+
+
+def test_a_factor_of_the_wrong_unit_blames_the_project_field_not_the_factor_csv():
+    result = run_cli("score", GRID, "--no-ledger", "--set", "electricity.sources.grid.factor=heating_value.hydrogen.lhv")
+    assert_one_line_error(result)
+    assert "grid_electrolysis_hydrogen.toml: electricity.sources.grid.factor" in result.stderr
+    assert "factors.csv" not in result.stderr
