@@ -25,7 +25,7 @@ from .io.workbook.reader import (
 )
 from .io.workbook.writer import build_workbook
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from .model.project import BOUNDARIES
+from .model.project import boundary_id
 from .routes.project import load_project
 
 __all__ = [
@@ -48,8 +48,7 @@ def _factor_set(factors: str | Path | FactorSet) -> FactorSet:
 
 def _boundary_overrides(boundary: str | None, overrides: list[str] | None) -> list[str]:
     """``boundary`` is ``project.boundary=...``: the project model validates it."""
-    if boundary is not None and boundary not in BOUNDARIES:
-        raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+    boundary = boundary_id(boundary) if boundary is not None else None
     return list(overrides or []) + ([f"project.boundary={boundary}"] if boundary else [])
 
 

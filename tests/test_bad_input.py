@@ -172,3 +172,98 @@ def test_a_factor_of_the_wrong_unit_blames_the_project_field_not_the_factor_csv(
     assert_one_line_error(result)
     assert "grid_electrolysis_hydrogen.toml: electricity.sources.grid.factor" in result.stderr
     assert "factors.csv" not in result.stderr
+
+
+# --- CSV files as spreadsheet programs save them: a byte-order mark, or Windows-1252 ------------
+
+METERS = DEMO / "blue_atr_ammonia_meters_2026.csv"
+TRAJECTORY_PROJECT = PORTFOLIO / "vennor_hybrid_hydrogen.toml"
+
+
+def _saved(tmp_path, name: str, text: str, encoding: str):
+    """``text`` saved as 'CSV UTF-8' (with BOM) or as the Windows-1252 'CSV' of spreadsheet programs."""
+    path = tmp_path / name
+    if encoding == "bom":
+        path.write_bytes(b"\xef\xbb\xbf" + text.encode("utf-8"))
+    else:
+        path.write_bytes(text.encode("cp1252"))
+    return path
+
+
+def _csv_channels(tmp_path, encoding: str):
+    """(command line, file) for each CSV channel: factor override, factor set folder, lifetime trajectory, meters."""
+    note = "Stra\u00dfe \u00e9tude \u2013 50 \u00b0C"  # characters Windows-1252 encodes differently from UTF-8
+    row = f"electricity.grid.eu27_2018,281,g CO2e/kWh,my source ({note}),,2018,,,false\n"
+    override = _saved(tmp_path, "override.csv", FACTOR_HEADER + row, encoding)
+    folder = tmp_path / "set"
+    write(folder / "set.toml", 'name = "set"\nbase = "default-2026"\n')
+    in_set = _saved(folder, "factors.csv", FACTOR_HEADER + row, encoding)
+    project = tmp_path / "life" / TRAJECTORY_PROJECT.name
+    write(project, TRAJECTORY_PROJECT.read_text(encoding="utf-8"))
+    trajectory_text = (PORTFOLIO / "vennor_grid_trajectory.csv").read_text(encoding="utf-8").replace("Invented;", f"Invented ({note});")
+    trajectory = _saved(project.parent, "vennor_grid_trajectory.csv", trajectory_text, encoding)
+    meters = _saved(tmp_path, "meters.csv", METERS.read_text(encoding="utf-8").replace("invented", f"invented ({note})"), encoding)
+    return [
+        (("score", GRID, "--factors", override, "--no-ledger"), override),
+        (("score", GRID, "--factors", folder, "--no-ledger"), in_set),
+        (("score", project, "--lifetime", "--no-ledger"), trajectory),
+        (("workbook", DEMO / "blue_atr_ammonia.toml", "-o", tmp_path / "m.xlsx", "--periods", meters, "--no-ledger"), meters),
+    ]
+
+
+def test_every_csv_reader_accepts_a_byte_order_mark(tmp_path):
+    for args, _ in _csv_channels(tmp_path, "bom"):
+        result = run_cli(*args)
+        assert result.exit_code == 0, (args, result.output)
+
+
+def test_every_csv_reader_names_a_file_that_is_not_utf8(tmp_path):
+    for args, path in _csv_channels(tmp_path, "cp1252"):
+        result = run_cli(*args)
+        assert_one_line_error(result)
+        assert str(path) in result.stderr and "UTF-8 CSV (save as CSV UTF-8)" in result.stderr, result.stderr
+
+
+def test_months_out_of_order_are_called_out_of_order(tmp_path):
+    lines = METERS.read_text(encoding="utf-8").splitlines(keepends=True)
+    header_at = next(i for i, line in enumerate(lines) if line.startswith("month"))
+    body = lines[header_at + 1 :]
+    swapped = lines[: header_at + 1] + [body[2], body[0], body[1]] + body[3:]
+    meters = write(tmp_path / "meters.csv", "".join(swapped))
+    result = run_cli("workbook", DEMO / "blue_atr_ammonia.toml", "-o", tmp_path / "m.xlsx", "--periods", meters, "--no-ledger")
+    assert_one_line_error(result)
+    assert "out of order" in result.stderr and "missing" not in result.stderr and "-" + "2 month" not in result.stderr
+    assert not (tmp_path / "m.xlsx").exists()
+
+
+# --- ids are case-insensitive; an unknown one gets the closest known id --------------------------
+
+
+def test_ids_are_accepted_whatever_their_case():
+    plain = run_cli("score", GRID, "--no-ledger", "--format", "json", "--gwp", "ar6", "--scheme", "eu-rfnbo", "--boundary", "well-to-tank", "--factors", "default-2026")
+    shouted = run_cli("score", GRID, "--no-ledger", "--format", "json", "--gwp", "AR6", "--scheme", "EU-RFNBO", "--boundary", "Well-To-Tank", "--factors", "Default-2026")
+    assert plain.exit_code == 0 and shouted.exit_code == 0, shouted.output
+    assert plain.stdout == shouted.stdout  # the ids are stored as the library spells them
+    assert run_cli("compare", GRID, BLUE, "--no-ledger", "--scheme", "EU-RFNBO", "--gwp", "AR5").exit_code == 0
+    assert run_cli("recalc", PORTFOLIO, "--to", "Demo-2027-Grid-Revision", "--scheme", "US-45V", "--gwp", "AR6", "--no-ledger").exit_code == 0
+    assert run_cli("score", PORTFOLIO / "vennor_hybrid_hydrogen.toml", "--lifetime", "--gwp", "AR6", "--no-ledger").exit_code == 0
+
+
+@pytest.mark.parametrize(
+    "option,bad,suggestion",
+    [("--gwp", "ar7", "ar6"), ("--scheme", "eu-rfnb", "eu-rfnbo"), ("--boundary", "well-to-tnk", "well-to-tank"), ("--factors", "default-2062", "default-2026")],
+)
+def test_an_unknown_id_gets_the_closest_known_one(option, bad, suggestion):
+    for args in (("score", GRID), ("compare", GRID, BLUE)):
+        result = run_cli(*args, option, bad, "--no-ledger")
+        assert_one_line_error(result)
+        assert f"did you mean '{suggestion}'" in result.stderr, result.stderr
+
+
+def test_recalc_to_an_unknown_set_blames_to():
+    result = run_cli("recalc", PORTFOLIO, "--to", "default-2072", "--no-ledger")
+    assert_one_line_error(result)
+    assert result.stderr.startswith("error: --to: default-2072") and "--factors" not in result.stderr
+    result = run_cli("recalc", PORTFOLIO, "--from", "default-2062", "--to", "default-2026", "--no-ledger")
+    assert_one_line_error(result)
+    assert result.stderr.startswith("error: --from: default-2062")

@@ -16,6 +16,7 @@ from ..core.results import Check, ScoreResult
 from ..core.scoring import intensities, rulebooks
 from ..errors import InputError
 from ..model.reference import molar_mass_g_per_mol
+from ..model.rulebooks import scheme_ids
 from ..routes import STAGES
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 
@@ -116,9 +117,7 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
     if not results:
         raise InputError("compare", "PROJECTS", "at least one project file")
     known = rulebooks()
-    for scheme_id in schemes or []:
-        if scheme_id not in known:
-            raise InputError("--scheme", scheme_id, f"one of {', '.join(known)}")
+    schemes = scheme_ids(schemes, known) or None
     if schemes:
         results = [r.model_copy(update={"checks": [c for c in r.checks if c.scheme in schemes]}) for r in results]
     boundaries = {r.boundary for r in results}

@@ -16,6 +16,7 @@ from __future__ import annotations
 import csv
 import functools
 import hashlib
+import io
 import json
 import math
 import os
@@ -157,61 +158,75 @@ def _parse_bool(text: str, where: str) -> bool:
     raise InputError(where, "from_memory", f"true or false, got '{text}'")
 
 
+def read_csv_text(path: str | Path, what: str) -> str:
+    """The text of a CSV file saved as UTF-8 (a byte-order mark, as spreadsheet programs write
+    it, is dropped); a file in another encoding is one InputError naming the file."""
+    try:
+        raw = Path(path).read_bytes()
+    except OSError as error:
+        raise InputError(path, "", f"a readable {what} ({error.strerror})") from None
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError as error:
+        raise InputError(path, "", f"a UTF-8 CSV (save as CSV UTF-8); byte {error.start} is not UTF-8 (the file looks like Windows-1252 or another encoding)") from None
+
+
 def read_factor_rows(path: Path) -> list[Factor]:
     """Read and validate one factor CSV; every problem names the file, line and column."""
+    text = read_csv_text(path, "factor CSV")
+    lines = io.StringIO(text, newline="")
+    reader = csv.DictReader(row for row in lines if not row.lstrip().startswith("#"))
     try:
-        handle = path.open(newline="", encoding="utf-8")
-    except OSError as error:
-        raise InputError(path, "", f"a readable factor CSV ({error.strerror})") from None
-    with handle:
-        reader = csv.DictReader(row for row in handle if not row.lstrip().startswith("#"))
         header = reader.fieldnames or []
-        missing = [column for column in REQUIRED_COLUMNS if column not in header]
-        if missing:
-            raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
-        unknown = [column for column in header if column not in FACTOR_COLUMNS]
-        if unknown:
-            raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS)}; unknown {', '.join(unknown)}")
-        rows: list[Factor] = []
-        seen: set[str] = set()
-        for number, row in enumerate(reader, start=2):
-            where = f"{path}:{number}"
-            factor_id = (row.get("id") or "").strip()
-            if not factor_id:
-                raise InputError(where, "id", "a factor id")
-            if factor_id in seen:
-                raise InputError(where, "id", f"a unique id, '{factor_id}' appears twice")
-            seen.add(factor_id)
-            try:
-                value = float(row.get("value") or "")
-            except ValueError:
-                raise InputError(where, "value", f"a number for '{factor_id}', got '{row.get('value')}'") from None
-            unit = (row.get("unit") or "").strip()
-            if not unit:
-                raise InputError(where, "unit", f"a unit for '{factor_id}'")
-            check_factor_value(factor_id, value, unit, where)
-            source = (row.get("source") or "").strip()
-            if not source:
-                raise InputError(where, "source", f"a source document for '{factor_id}' (every factor must cite one)")
-            year_text = (row.get("year") or "").strip()
-            try:
-                year = int(year_text) if year_text else None
-            except ValueError:
-                raise InputError(where, "year", f"a year for '{factor_id}', got '{year_text}'") from None
-            rows.append(
-                Factor(
-                    id=factor_id,
-                    value=value,
-                    unit=unit,
-                    source=source,
-                    table=(row.get("table") or "").strip(),
-                    year=year,
-                    region=(row.get("region") or "").strip(),
-                    note=(row.get("note") or "").strip(),
-                    from_memory=_parse_bool(row.get("from_memory") or "", where),
-                    origin=str(path),
-                )
+        records = list(reader)
+    except csv.Error as error:
+        raise InputError(path, "", f"a well-formed CSV ({error})") from None
+    missing = [column for column in REQUIRED_COLUMNS if column not in header]
+    if missing:
+        raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
+    unknown = [column for column in header if column not in FACTOR_COLUMNS]
+    if unknown:
+        raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS)}; unknown {', '.join(unknown)}")
+    rows: list[Factor] = []
+    seen: set[str] = set()
+    for number, row in enumerate(records, start=2):
+        where = f"{path}:{number}"
+        factor_id = (row.get("id") or "").strip()
+        if not factor_id:
+            raise InputError(where, "id", "a factor id")
+        if factor_id in seen:
+            raise InputError(where, "id", f"a unique id, '{factor_id}' appears twice")
+        seen.add(factor_id)
+        try:
+            value = float(row.get("value") or "")
+        except ValueError:
+            raise InputError(where, "value", f"a number for '{factor_id}', got '{row.get('value')}'") from None
+        unit = (row.get("unit") or "").strip()
+        if not unit:
+            raise InputError(where, "unit", f"a unit for '{factor_id}'")
+        check_factor_value(factor_id, value, unit, where)
+        source = (row.get("source") or "").strip()
+        if not source:
+            raise InputError(where, "source", f"a source document for '{factor_id}' (every factor must cite one)")
+        year_text = (row.get("year") or "").strip()
+        try:
+            year = int(year_text) if year_text else None
+        except ValueError:
+            raise InputError(where, "year", f"a year for '{factor_id}', got '{year_text}'") from None
+        rows.append(
+            Factor(
+                id=factor_id,
+                value=value,
+                unit=unit,
+                source=source,
+                table=(row.get("table") or "").strip(),
+                year=year,
+                region=(row.get("region") or "").strip(),
+                note=(row.get("note") or "").strip(),
+                from_memory=_parse_bool(row.get("from_memory") or "", where),
+                origin=str(path),
             )
+        )
     return rows
 
 
@@ -273,11 +288,12 @@ def load_factor_set(name_or_path: str | Path = DEFAULT_SET, overrides=(), _chain
         factor_set = apply_override(_cached_set(str((factors_root() / "sets" / DEFAULT_SET).resolve()), _chain), path)
     elif path.is_dir():
         factor_set = _cached_set(str(path.resolve()), _chain)
-    elif (factors_root() / "sets" / text).is_dir():
-        factor_set = _cached_set(str((factors_root() / "sets" / text).resolve()), _chain)
+    elif match_id(text, available_sets()) is not None:
+        name = match_id(text, available_sets())  # set names are case-insensitive
+        factor_set = _cached_set(str((factors_root() / "sets" / name).resolve()), _chain)
     else:
         known = ", ".join(available_sets()) or "none found"
-        raise InputError(text, "--factors", f"a factor set name ({known}), a set folder or an override CSV")
+        raise InputError(text, "--factors", f"a factor set name ({known}), a set folder or an override CSV{did_you_mean(text, available_sets())}")
     for override in overrides:
         factor_set = apply_override(factor_set, override)
     return factor_set

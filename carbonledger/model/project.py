@@ -20,9 +20,19 @@ from typing import Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
-from ..errors import InputError, did_you_mean
+from ..errors import InputError, did_you_mean, match_id
 
 BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
+
+
+def boundary_id(boundary: str, where: str = "--boundary") -> str:
+    """A system boundary as spelt in BOUNDARIES (case-insensitive: Well-To-Tank = well-to-tank)."""
+    found = match_id(boundary, BOUNDARIES)
+    if found is None:
+        raise InputError(where, boundary, f"one of {', '.join(BOUNDARIES)}{did_you_mean(boundary, BOUNDARIES)}")
+    return found
+
+
 MAX_DEPTH = 16  # tables and arrays inside one another: a project needs 4
 
 
