@@ -267,3 +267,47 @@ def test_recalc_to_an_unknown_set_blames_to():
     result = run_cli("recalc", PORTFOLIO, "--from", "default-2062", "--to", "default-2026", "--no-ledger")
     assert_one_line_error(result)
     assert result.stderr.startswith("error: --from: default-2062")
+
+
+# --- a workbook given where a project file goes; outputs that cannot be written ----------------
+
+
+def test_a_workbook_given_as_project_points_to_from_workbook(tmp_path):
+    book = tmp_path / "audit.xlsx"
+    assert run_cli("workbook", GRID, "-o", book, "--no-ledger").exit_code == 0
+    renamed = tmp_path / "audit.toml"  # the same bytes under a .toml name: recognised by content
+    renamed.write_bytes(book.read_bytes())
+    for path in (book, renamed):
+        for command in ("score", "params"):
+            result = run_cli(command, path, *(["--no-ledger"] if command == "score" else []))
+            assert_one_line_error(result)
+            assert "--from-workbook" in result.stderr
+
+
+def test_an_output_that_is_a_folder_is_refused_even_with_force(tmp_path):
+    for name in ("out.xlsx", "out.toml", "out.png"):
+        (tmp_path / name).mkdir()
+    cases = [
+        ("workbook", GRID, "-o", tmp_path / "out.xlsx", "--force", "--no-ledger"),
+        ("init", tmp_path / "out.toml", "--route", "electrolysis", "--force"),
+        ("compare", GRID, BLUE, "--chart", tmp_path / "out.png", "--force", "--no-ledger"),
+    ]
+    for args in cases:
+        result = run_cli(*args)
+        assert_one_line_error(result)
+        assert "folder" in result.stderr
+    assert all((tmp_path / name).is_dir() for name in ("out.xlsx", "out.toml", "out.png"))
+
+
+def test_an_output_in_a_folder_that_does_not_exist_is_refused(tmp_path):
+    missing = tmp_path / "no such folder"
+    cases = [
+        ("workbook", GRID, "-o", missing / "out.xlsx", "--no-ledger"),
+        ("init", missing / "out.toml", "--route", "electrolysis"),
+        ("compare", GRID, BLUE, "--chart", missing / "out.png", "--no-ledger"),
+    ]
+    for args in cases:
+        result = run_cli(*args)
+        assert_one_line_error(result)
+        assert "does not exist" in result.stderr
+    assert not missing.exists()

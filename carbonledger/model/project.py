@@ -228,6 +228,8 @@ def read_project_file(path: str | Path) -> tuple[dict, bytes]:
         raw = path.read_bytes()
     except OSError as error:
         raise InputError(path, "", f"a readable project file ({error.strerror})") from None
+    if raw.startswith(b"PK\x03\x04") or path.suffix.lower() in (".xlsx", ".xlsm"):
+        raise InputError(path, "", "a project TOML file; this is a workbook: read it with `--from-workbook` (e.g. carbonledger score --from-workbook FILE.xlsx)")
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:
