@@ -311,3 +311,47 @@ def test_an_output_in_a_folder_that_does_not_exist_is_refused(tmp_path):
         assert_one_line_error(result)
         assert "does not exist" in result.stderr
     assert not missing.exists()
+
+
+# --- the ledger: only a carbonledger ledger or no file at all -------------------------------------
+
+
+def _empty_sqlite(path):
+    import sqlite3
+
+    connection = sqlite3.connect(path)
+    connection.execute("VACUUM")  # a valid SQLite database with no tables, as another program leaves it
+    connection.close()
+
+
+@pytest.mark.parametrize("kind", ["zero bytes", "sqlite without tables", "sqlite with other tables"])
+def test_an_existing_file_that_is_not_a_ledger_is_refused_and_left_untouched(tmp_path, kind):
+    import sqlite3
+
+    path = tmp_path / "other.db"
+    if kind == "zero bytes":
+        path.write_bytes(b"")
+    elif kind == "sqlite without tables":
+        _empty_sqlite(path)
+        assert path.read_bytes().startswith(b"SQLite format 3\x00")
+    else:
+        with sqlite3.connect(path) as connection:
+            connection.execute("CREATE TABLE readings (month TEXT, kwh REAL)")
+    before = path.read_bytes()
+    for args in (("score", GRID), ("workbook", GRID, "-o", tmp_path / "w.xlsx"), ("history", GRID)):
+        result = run_cli(*args, "--ledger", path)
+        assert_one_line_error(result)
+        assert "ledger" in result.stderr and "left untouched" in result.stderr, result.stderr
+    assert path.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["other.db"]
+
+
+def test_a_new_ledger_is_created_whole_and_reused(tmp_path):
+    import sqlite3
+
+    path = tmp_path / "sub" / "ledger.sqlite"
+    assert run_cli("score", GRID, "--ledger", path).exit_code == 0
+    assert run_cli("score", GRID, "--ledger", path).exit_code == 0
+    with sqlite3.connect(path) as connection:
+        assert connection.execute("SELECT count(*) FROM runs").fetchone()[0] == 2
+    assert sorted(p.name for p in path.parent.iterdir() if not p.name.startswith("ledger.sqlite")) == []
