@@ -142,12 +142,14 @@ def audit_workbook(
     Returns (openpyxl Workbook, engine ScoreResult).
     """
     overrides = _boundary_overrides(boundary, overrides)
+    evidence: dict[str, str] = {}
     if from_workbook is not None:
         project, sha, settings = load_project_from_workbook(from_workbook, overrides)
         factor_set = factor_set_from_workbook(from_workbook, base_factor_set(settings, factors))
         gwp = gwp or settings.gwp
         schemes = schemes or settings.schemes or None
         factors_option = factors or settings.factors_option
+        evidence = settings.evidence
         source = str(from_workbook)
     else:
         project, sha = load_project(project_file, overrides)
@@ -162,7 +164,7 @@ def audit_workbook(
             raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
         meters = read_meters(periods, project)
         months = month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
-    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""))
+    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence)
     return workbook, engine
 
 

@@ -355,3 +355,98 @@ def test_a_new_ledger_is_created_whole_and_reused(tmp_path):
     with sqlite3.connect(path) as connection:
         assert connection.execute("SELECT count(*) FROM runs").fetchone()[0] == 2
     assert sorted(p.name for p in path.parent.iterdir() if not p.name.startswith("ledger.sqlite")) == []
+
+
+# --- workbook read-back: what a spreadsheet user can do to the Inputs sheet ----------------------
+
+
+def _book_with(tmp_path, edit, name="edited.xlsx"):
+    """A workbook of the blue SMR demo, with ``edit(inputs_sheet, row_of)`` applied and saved."""
+    import openpyxl
+
+    original = tmp_path / "original.xlsx"
+    if not original.exists():
+        assert run_cli("workbook", BLUE, "-o", original, "--no-ledger").exit_code == 0
+    book = openpyxl.load_workbook(original)
+    ws = book["Inputs"]
+    row_of = {ws.cell(row=r, column=1).value: r for r in range(5, ws.max_row + 1)}
+    edit(ws, row_of)
+    path = tmp_path / name
+    book.save(path)
+    return path
+
+
+def test_a_truth_value_in_a_number_cell_is_refused(tmp_path):
+    def edit(ws, row_of):
+        ws.cell(row=row_of["capture.capture_rate"], column=2).value = True
+
+    result = run_cli("score", "--from-workbook", _book_with(tmp_path, edit), "--no-ledger")
+    assert_one_line_error(result)
+    assert "sheet Inputs, cell B" in result.stderr and "capture.capture_rate" in result.stderr and "number" in result.stderr
+
+
+@pytest.mark.parametrize("parameter", ["hydrogen.conditioning_kwh_per_kg_h2", "capture.capture_rate", "project.boundary", "natural_gas.upstream_co2_factor"])
+def test_an_emptied_input_cell_does_not_silently_take_the_default(tmp_path, parameter):
+    def edit(ws, row_of):
+        ws.cell(row=row_of[parameter], column=2).value = None
+
+    result = run_cli("score", "--from-workbook", _book_with(tmp_path, edit), "--no-ledger")
+    assert_one_line_error(result)
+    assert f"sheet Inputs, cell B" in result.stderr and parameter in result.stderr, result.stderr
+
+
+@pytest.mark.parametrize("parameter", ["hydrogen.conditioning_kwh_per_kg_h2", "capture.transport_storage_loss_fraction", "project.boundary"])
+def test_a_deleted_inputs_row_does_not_silently_take_the_default(tmp_path, parameter):
+    def edit(ws, row_of):
+        ws.delete_rows(row_of[parameter])
+
+    result = run_cli("score", "--from-workbook", _book_with(tmp_path, edit), "--no-ledger")
+    assert_one_line_error(result)
+    assert "sheet Inputs" in result.stderr and parameter in result.stderr and "deleted" in result.stderr, result.stderr
+
+
+def test_an_optional_text_left_empty_is_fine(tmp_path):
+    def edit(ws, row_of):
+        ws.cell(row=row_of["project.site"], column=2).value = None
+
+    assert run_cli("score", "--from-workbook", _book_with(tmp_path, edit), "--no-ledger").exit_code == 0
+
+
+def test_workbook_from_workbook_keeps_the_evidence_column(tmp_path):
+    import openpyxl
+
+    texts = {"capture.capture_rate": "capture test report CR-7, 2026 (invented)", "reforming.natural_gas_gj_per_kg_h2": "gas meter M-12 invoices Jan-Dec (invented)"}
+
+    def edit(ws, row_of):
+        for name, text in texts.items():
+            ws.cell(row=row_of[name], column=5).value = text
+
+    again = tmp_path / "again.xlsx"
+    result = run_cli("workbook", "--from-workbook", _book_with(tmp_path, edit), "-o", again, "--no-ledger")
+    assert result.exit_code == 0, result.output
+    ws = openpyxl.load_workbook(again)["Inputs"]
+    found = {ws.cell(row=r, column=1).value: ws.cell(row=r, column=5).value for r in range(5, ws.max_row + 1)}
+    assert {name: found[name] for name in texts} == texts
+    assert sum(1 for value in found.values() if value) == len(texts)
+
+
+def test_a_workbook_too_large_to_open_safely_is_refused(tmp_path):
+    import zipfile
+
+    original = tmp_path / "original.xlsx"
+    assert run_cli("workbook", BLUE, "-o", original, "--no-ledger").exit_code == 0
+    big = tmp_path / "big.xlsx"  # over 20 MB on disk
+    big.write_bytes(original.read_bytes())
+    with big.open("r+b") as handle:
+        handle.truncate(21 * 1024 * 1024)
+    bomb = tmp_path / "bomb.xlsx"  # small on disk, unpacks to over 100 MB
+    with zipfile.ZipFile(original) as source, zipfile.ZipFile(bomb, "w", zipfile.ZIP_DEFLATED) as target:
+        for member in source.infolist():
+            target.writestr(member, source.read(member))
+        target.writestr("xl/media/padding.bin", b"\0" * (101 * 1024 * 1024))
+    assert bomb.stat().st_size < 2 * 1024 * 1024
+    for path, words in ((big, "at most 20 MB"), (bomb, "unpacks to at most 100 MB")):
+        for args in (("score", "--from-workbook", path, "--no-ledger"), ("workbook", "--from-workbook", path, "-o", tmp_path / "x.xlsx", "--no-ledger"), ("compare", path, BLUE, "--no-ledger")):
+            result = run_cli(*args)
+            assert_one_line_error(result)
+            assert words in result.stderr, result.stderr
