@@ -25,7 +25,7 @@ from .io.workbook.reader import (
 )
 from .io.workbook.writer import build_workbook
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from .model.project import BOUNDARIES
+from .model.project import boundary_id
 from .routes.project import load_project
 
 __all__ = [
@@ -48,8 +48,7 @@ def _factor_set(factors: str | Path | FactorSet) -> FactorSet:
 
 def _boundary_overrides(boundary: str | None, overrides: list[str] | None) -> list[str]:
     """``boundary`` is ``project.boundary=...``: the project model validates it."""
-    if boundary is not None and boundary not in BOUNDARIES:
-        raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+    boundary = boundary_id(boundary) if boundary is not None else None
     return list(overrides or []) + ([f"project.boundary={boundary}"] if boundary else [])
 
 
@@ -143,12 +142,14 @@ def audit_workbook(
     Returns (openpyxl Workbook, engine ScoreResult).
     """
     overrides = _boundary_overrides(boundary, overrides)
+    evidence: dict[str, str] = {}
     if from_workbook is not None:
         project, sha, settings = load_project_from_workbook(from_workbook, overrides)
         factor_set = factor_set_from_workbook(from_workbook, base_factor_set(settings, factors))
         gwp = gwp or settings.gwp
         schemes = schemes or settings.schemes or None
         factors_option = factors or settings.factors_option
+        evidence = settings.evidence
         source = str(from_workbook)
     else:
         project, sha = load_project(project_file, overrides)
@@ -163,7 +164,7 @@ def audit_workbook(
             raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
         meters = read_meters(periods, project)
         months = month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
-    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""))
+    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence)
     return workbook, engine
 
 

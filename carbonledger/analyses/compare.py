@@ -15,6 +15,7 @@ from ..about import CAUTION
 from ..core.results import Check, ScoreResult
 from ..core.scoring import intensities, rulebooks
 from ..errors import InputError
+from ..model.rulebooks import scheme_ids
 from ..routes import STAGES
 
 BASES = {
@@ -114,9 +115,7 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
     if not results:
         raise InputError("compare", "PROJECTS", "at least one project file")
     known = rulebooks()
-    for scheme_id in schemes or []:
-        if scheme_id not in known:
-            raise InputError("--scheme", scheme_id, f"one of {', '.join(known)}")
+    schemes = scheme_ids(schemes, known) or None
     if schemes:
         results = [r.model_copy(update={"checks": [c for c in r.checks if c.scheme in schemes]}) for r in results]
     boundaries = {r.boundary for r in results}

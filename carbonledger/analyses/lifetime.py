@@ -19,7 +19,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..core.scoring import intensities, rulebooks
+from ..core.scoring import gwp_set, intensities, rulebooks
 from ..errors import InputError
 from ..model.factors import Factor, FactorSet, read_factor_rows
 from ..routes import routes_of
@@ -160,6 +160,7 @@ def lifetime_score(
     schemes: list[str] | None = None,
 ) -> LifetimeResult:
     """Score every operating year of a project and average over its life (see module notes)."""
+    gwp = gwp_set(gwp, factor_set)
     life = project.lifetime
     if life is None:
         raise InputError(project_file, "lifetime", "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime")

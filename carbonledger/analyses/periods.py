@@ -29,12 +29,14 @@ sub-meters, where a plant has them, belong in the design parameters.
 from __future__ import annotations
 
 import csv
+import io
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..core.scoring import score_project
 from ..errors import InputError
+from ..model.factors import read_csv_text
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import metered_parameters
 from ..routes.project import validate_project
@@ -115,71 +117,75 @@ def _month_number(text: str) -> int:
 def read_meters(path: str | Path, project) -> Meters:
     """Read and validate a meters CSV against a validated project; one line per problem."""
     path = Path(path)
+    lines = io.StringIO(read_csv_text(path, "meters CSV"), newline="")
     try:
-        handle = path.open(newline="", encoding="utf-8-sig")
-    except OSError as error:
-        raise InputError(path, "", f"a readable meters CSV ({error.strerror})") from None
-    with handle:
-        reader = csv.reader(row for row in handle if row.strip() and not row.lstrip().startswith("#"))
-        try:
-            header = next(reader)
-        except StopIteration:
-            raise InputError(path, "header", "a header row: month, electricity.<source> [MWh], ...") from None
-        header = [h.strip() for h in header]
-        if not header or header[0] != "month":
-            raise InputError(path, "header", f"'month' as the first column, got '{header[0] if header else ''}'")
-        if len(set(header)) != len(header):
-            raise InputError(path, "header", "each column once")
-        columns = [_parse_column(h, project, str(path)) for h in header[1:]]
-        kinds = [(c.quantity, c.source) for c in columns]
-        if len(set(kinds)) != len(kinds):
-            raise InputError(path, "header", "one column per meter (the same meter appears twice with different units)")
-        required = [("electricity", name) for name in project.electricity.sources]
-        required.append(("ammonia", "") if project.project.product == "ammonia" else ("hydrogen", ""))
-        if project.uses_natural_gas():
-            required.append(("natural_gas", ""))
-        for quantity, source in required:
-            if (quantity, source) not in kinds:
-                name = f"{quantity}.{source}" if source else quantity
-                raise InputError(path, "header", f"a column '{name} [{CANONICAL[quantity] if quantity != 'electricity' else 'MWh'}]' (missing)")
-        meters = Meters(str(path), columns, [])
-        for line, row in enumerate(reader, start=2):
-            if len(row) != len(header):
-                raise InputError(path, f"line {line}", f"{len(header)} values, got {len(row)}")
-            month = row[0].strip()
-            if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
-                raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
-            values: dict[str, float] = {}
-            for column, text in zip(columns, row[1:]):
-                where = f"line {line}, {column.header}"
-                try:
-                    value = float(text)
-                except ValueError:
-                    raise InputError(path, where, f"a number, got '{text.strip()}'") from None
-                if not value == value or value in (float("inf"), float("-inf")):
-                    raise InputError(path, where, f"a finite number, got '{text.strip()}'")
-                if value < 0:
-                    raise InputError(path, where, f"a number >= 0, got {value:g}")
-                values[column.header] = value
-            output = meters.column("ammonia") if project.project.product == "ammonia" else meters.column("hydrogen")
-            if values[output.header] <= 0:
-                raise InputError(path, f"line {line}, {output.header}", "a production > 0 in every month (the month's intensity divides by it)")
-            if sum(values[c.header] for c in columns if c.quantity == "electricity") <= 0:
-                raise InputError(path, f"line {line}", "some electricity in every month (the shares of the sources divide by the total)")
-            gas = meters.column("natural_gas")
-            if gas is not None and values[gas.header] <= 0:
-                raise InputError(path, f"line {line}, {gas.header}", "a gas use > 0 (the project burns natural gas)")
-            meters.months.append(month)
-            meters.values.append(values)
+        rows = list(csv.reader(row for row in lines if row.strip() and not row.lstrip().startswith("#")))
+    except csv.Error as error:
+        raise InputError(path, "", f"a well-formed CSV ({error})") from None
+    reader = iter(rows)
+    try:
+        header = next(reader)
+    except StopIteration:
+        raise InputError(path, "header", "a header row: month, electricity.<source> [MWh], ...") from None
+    header = [h.strip() for h in header]
+    if not header or header[0] != "month":
+        raise InputError(path, "header", f"'month' as the first column, got '{header[0] if header else ''}'")
+    if len(set(header)) != len(header):
+        raise InputError(path, "header", "each column once")
+    columns = [_parse_column(h, project, str(path)) for h in header[1:]]
+    kinds = [(c.quantity, c.source) for c in columns]
+    if len(set(kinds)) != len(kinds):
+        raise InputError(path, "header", "one column per meter (the same meter appears twice with different units)")
+    required = [("electricity", name) for name in project.electricity.sources]
+    required.append(("ammonia", "") if project.project.product == "ammonia" else ("hydrogen", ""))
+    if project.uses_natural_gas():
+        required.append(("natural_gas", ""))
+    for quantity, source in required:
+        if (quantity, source) not in kinds:
+            name = f"{quantity}.{source}" if source else quantity
+            raise InputError(path, "header", f"a column '{name} [{CANONICAL[quantity] if quantity != 'electricity' else 'MWh'}]' (missing)")
+    meters = Meters(str(path), columns, [])
+    for line, row in enumerate(reader, start=2):
+        if len(row) != len(header):
+            raise InputError(path, f"line {line}", f"{len(header)} values, got {len(row)}")
+        month = row[0].strip()
+        if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
+            raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
+        values: dict[str, float] = {}
+        for column, text in zip(columns, row[1:]):
+            where = f"line {line}, {column.header}"
+            try:
+                value = float(text)
+            except ValueError:
+                raise InputError(path, where, f"a number, got '{text.strip()}'") from None
+            if not value == value or value in (float("inf"), float("-inf")):
+                raise InputError(path, where, f"a finite number, got '{text.strip()}'")
+            if value < 0:
+                raise InputError(path, where, f"a number >= 0, got {value:g}")
+            values[column.header] = value
+        output = meters.column("ammonia") if project.project.product == "ammonia" else meters.column("hydrogen")
+        if values[output.header] <= 0:
+            raise InputError(path, f"line {line}, {output.header}", "a production > 0 in every month (the month's intensity divides by it)")
+        if sum(values[c.header] for c in columns if c.quantity == "electricity") <= 0:
+            raise InputError(path, f"line {line}", "some electricity in every month (the shares of the sources divide by the total)")
+        gas = meters.column("natural_gas")
+        if gas is not None and values[gas.header] <= 0:
+            raise InputError(path, f"line {line}, {gas.header}", "a gas use > 0 (the project burns natural gas)")
+        meters.months.append(month)
+        meters.values.append(values)
     if not meters.months:
         raise InputError(path, "", "at least one month of metered data")
     numbers = [_month_number(m) for m in meters.months]
-    for previous, (month, number) in zip(numbers, list(zip(meters.months, numbers))[1:]):
-        if number == previous:
+    first_seen: dict[str, int] = {}
+    for month in meters.months:
+        if month in first_seen:
             raise InputError(path, "month", f"each month once, {month} appears twice")
+        first_seen[month] = 1
+    for (before, previous), (month, number) in zip(zip(meters.months, numbers), list(zip(meters.months, numbers))[1:]):
+        if number < previous:
+            raise InputError(path, "month", f"months in calendar order; {month} comes after {before} (out of order)")
         if number != previous + 1:
-            missing = number - previous - 1
-            raise InputError(path, "month", f"consecutive months in order; {missing} month(s) missing or out of order before {month}")
+            raise InputError(path, "month", f"consecutive months; {number - previous - 1} month(s) missing between {before} and {month}")
     return meters
 
 

@@ -26,6 +26,7 @@ from ..core.results import FactorSetRef, ScoreResult
 from ..core.scoring import DEFAULT_GWP, prepare, rulebooks, score_many
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
+from ..model.rulebooks import scheme_ids
 from ..routes.project import load_project
 
 STATUSES = ("newly fails", "newly passes", "still fails", "still passes")
@@ -84,9 +85,7 @@ def score_portfolio(
     product); an unknown id is refused.
     """
     known = rulebooks()
-    for scheme_id in schemes or []:
-        if scheme_id not in known:
-            raise InputError("--scheme", scheme_id, f"one of {', '.join(known)}")
+    schemes = scheme_ids(schemes, known) or None
     sets = factor_set if isinstance(factor_set, list) else [factor_set] * len(projects)
     prepared = []
     for item, one_set in zip(projects, sets):

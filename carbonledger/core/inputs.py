@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from ..errors import InputError
+from ..errors import InputError, did_you_mean
 from ..model.factors import FactorSet
 from ..model.reference import (
     ammonia_formation_enthalpy,
@@ -30,7 +30,8 @@ class NumericInputs:
 
     def _row(self, factor_id: str, where: str):
         if where != "factor" and factor_id not in self.factor_set.factors:
-            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'")
+            hint = did_you_mean(factor_id, self.factor_set.factors)
+            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'{hint} (see `carbonledger factors list`)")
         return self.factor_set.get(factor_id, where)
 
     def factor(self, factor_id: str, unit: str, where: str = "factor"):
@@ -39,6 +40,8 @@ class NumericInputs:
         try:
             return row.value * conversion_factor(row.unit, unit)
         except UnitMismatch as error:
+            if where != "factor":  # the project named a factor of the wrong kind: blame the project
+                raise InputError(self.source, where, f"a factor id whose unit converts to {unit}; '{factor_id}' is in {row.unit}") from None
             raise InputError(row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}") from None
 
     def factor_unit(self, factor_id: str, where: str = "factor") -> str:

@@ -19,9 +19,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..about import CAUTION, __version__
-from ..errors import InputError
+from ..errors import InputError, did_you_mean, match_id
 from ..model.factors import FactorSet
-from ..model.project import BOUNDARIES
+from ..model.project import boundary_id
 from ..model.reference import ReferenceValue
 from ..model.rulebooks import Scheme, load_schemes, select_schemes
 from ..routes import STAGES
@@ -54,11 +54,18 @@ def gwp_sets(factor_set: FactorSet) -> list[str]:
     return sorted({key.split(".")[1] for key in factor_set.ids_with_prefix("gwp.") if key.endswith(".co2")})
 
 
+def gwp_set(gwp: str, factor_set: FactorSet, where: str = "--gwp") -> str:
+    """The GWP100 set id as the factor set spells it (ids are case-insensitive: AR6 = ar6)."""
+    known = gwp_sets(factor_set)
+    found = match_id(gwp, known)
+    if found is None:
+        raise InputError(where, gwp, f"one of {', '.join(known)}{did_you_mean(gwp, known)}")
+    return found
+
+
 def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
     """GWP100 factor per flow, in the order of ``FLOWS``; pre-characterised CO2e counts 1."""
-    known = gwp_sets(inputs.factor_set)
-    if gwp not in known:
-        raise InputError(where, gwp, f"one of {', '.join(known)}")
+    gwp = gwp_set(gwp, inputs.factor_set, where)
     values = []
     for flow in FLOWS:
         if flow == "co2e_precharacterised":
@@ -140,10 +147,9 @@ def prepare(
     ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
     """
     params = project.model_dump()
+    gwp = gwp_set(gwp, factor_set)
     if boundary is not None:
-        if boundary not in BOUNDARIES:
-            raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
-        params["project"]["boundary"] = boundary
+        params["project"]["boundary"] = boundary_id(boundary)
     inputs = NumericInputs(factor_set, source)
     check_physical_limits(params, inputs, source)
     inventory = build_inventory(params, inputs)

@@ -26,6 +26,7 @@ import hashlib
 import json
 import os
 import sqlite3
+import tempfile
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
 from pathlib import Path
@@ -110,51 +111,32 @@ def _refuse(path: Path, why: str) -> InputError:
 
 
 def connect(path: str | Path) -> sqlite3.Connection:
-    """Open (creating if new) a ledger; refuse, without writing, a file that is not one."""
+    """Open a ledger, creating it when no file is there; refuse, without writing, any existing
+    file that is not one (an empty file, another program's SQLite database, any other file)."""
     path = Path(path)
     if path.is_dir():
         raise _refuse(path, "it is a folder")
-    existed = path.exists() and path.stat().st_size > 0
-    if existed:
-        try:
-            with path.open("rb") as handle:
-                header = handle.read(16)
-        except OSError as error:
-            raise InputError(path, "--ledger", f"a readable ledger file ({error.strerror})") from None
-        if header != b"SQLite format 3\x00":
-            raise _refuse(path, "it is not an SQLite file")
-    else:
-        try:
-            path.parent.mkdir(parents=True, exist_ok=True)
-        except OSError as error:
-            raise InputError(path, "--ledger", f"a path where a ledger can be created ({error.strerror})") from None
+    if not path.exists():
+        _create(path)
+    try:
+        with path.open("rb") as handle:
+            header = handle.read(16)
+    except OSError as error:
+        raise InputError(path, "--ledger", f"a readable ledger file ({error.strerror})") from None
+    if not header:
+        raise _refuse(path, "it is an empty file, not a ledger")
+    if header != b"SQLite format 3\x00":
+        raise _refuse(path, "it is not an SQLite file")
     try:
         connection = sqlite3.connect(path, timeout=BUSY_TIMEOUT_S, isolation_level=None)
     except sqlite3.Error as error:
         raise InputError(path, "--ledger", f"a ledger file that can be opened ({error})") from None
     try:
         tables = {row[0] for row in connection.execute("SELECT name FROM sqlite_master WHERE type = 'table'")}
-        if tables:
-            _check_format(connection, path, tables)
+        _check_format(connection, path, tables)
         if connection.execute("PRAGMA journal_mode").fetchone()[0].lower() != "wal":
             _when_free(lambda: connection.execute("PRAGMA journal_mode = WAL"))
         connection.execute("PRAGMA synchronous = NORMAL")
-        if not tables or "records" not in tables:
-            connection.execute("BEGIN IMMEDIATE")
-            try:
-                again = {row[0] for row in connection.execute("SELECT name FROM sqlite_master WHERE type = 'table'")}
-                if again:
-                    _check_format(connection, path, again)
-                for statement in _SCHEMA.split(";"):
-                    if statement.strip():
-                        connection.execute(statement)
-                connection.execute("INSERT OR IGNORE INTO ledger_meta (key, value) VALUES ('format', ?)", (LEDGER_FORMAT,))
-                connection.execute("INSERT OR IGNORE INTO ledger_meta (key, value) VALUES ('schema_version', ?)", (SCHEMA_VERSION,))
-                connection.execute("COMMIT")
-            except BaseException:
-                if connection.in_transaction:
-                    connection.execute("ROLLBACK")
-                raise
     except InputError:
         connection.close()
         raise
@@ -162,6 +144,45 @@ def connect(path: str | Path) -> sqlite3.Connection:
         connection.close()
         raise _refuse(path, str(error)) from None
     return connection
+
+
+def _create(path: Path) -> None:
+    """Write a new, complete ledger beside ``path`` and link it into place: the ledger appears
+    whole or not at all, so any file found at a ledger path that is not a ledger was made by
+    something else. When another process created it first, its ledger is kept."""
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        handle, name = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".new", dir=path.parent)
+        os.close(handle)
+    except OSError as error:
+        raise InputError(path, "--ledger", f"a path where a ledger can be created ({error.strerror})") from None
+    temporary = Path(name)
+    try:
+        connection = sqlite3.connect(temporary, isolation_level=None)
+        try:
+            connection.execute("PRAGMA journal_mode = WAL")
+            connection.execute("BEGIN")
+            for statement in _SCHEMA.split(";"):
+                if statement.strip():
+                    connection.execute(statement)
+            connection.execute("INSERT INTO ledger_meta (key, value) VALUES ('format', ?)", (LEDGER_FORMAT,))
+            connection.execute("INSERT INTO ledger_meta (key, value) VALUES ('schema_version', ?)", (SCHEMA_VERSION,))
+            connection.execute("COMMIT")
+        finally:
+            connection.close()
+        try:
+            os.link(temporary, path)
+        except FileExistsError:
+            pass  # another process created the ledger meanwhile: use that one
+        except OSError:  # a file system without hard links
+            if not path.exists():
+                os.replace(temporary, path)
+    except (OSError, sqlite3.Error) as error:
+        raise InputError(path, "--ledger", f"a path where a ledger can be created ({error})") from None
+    finally:
+        for leftover in (temporary, Path(f"{temporary}-wal"), Path(f"{temporary}-shm")):
+            if leftover.exists():
+                leftover.unlink()
 
 
 def _when_free(statement, timeout_s: float = BUSY_TIMEOUT_S):
@@ -182,6 +203,8 @@ def _when_free(statement, timeout_s: float = BUSY_TIMEOUT_S):
 
 
 def _check_format(connection: sqlite3.Connection, path: Path, tables: set[str]) -> None:
+    if not tables:
+        raise _refuse(path, "an SQLite database without tables, made by another program")
     if "ledger_meta" not in tables:
         raise _refuse(path, "an SQLite file without a carbonledger ledger_meta table")
     meta = dict(connection.execute("SELECT key, value FROM ledger_meta"))

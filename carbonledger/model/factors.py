@@ -17,6 +17,7 @@ import bisect
 import csv
 import functools
 import hashlib
+import io
 import json
 import math
 import os
@@ -24,7 +25,7 @@ import tomllib
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
-from ..errors import InputError
+from ..errors import InputError, did_you_mean, match_id
 
 FACTOR_COLUMNS = ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")
 REQUIRED_COLUMNS = ("id", "value", "unit", "source")
@@ -77,7 +78,7 @@ class FactorSet:
         try:
             return self.factors[factor_id]
         except KeyError:
-            raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'") from None
+            raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'{did_you_mean(factor_id, self.factors)}") from None
 
     @functools.cached_property
     def _sorted_ids(self) -> list[str]:
@@ -111,6 +112,48 @@ def available_sets() -> list[str]:
     return sorted(path.name for path in root.iterdir() if (path / "set.toml").is_file())
 
 
+_GASES = ("CO2e", "CO2", "CH4", "N2O")
+_ENERGY = ("J", "kJ", "MJ", "GJ", "TJ", "PJ", "Wh", "kWh", "MWh", "GWh")
+
+
+def physical_range(factor_id: str, unit: str) -> tuple[float | None, bool, float | None, str]:
+    """The physically possible range of a factor, decided by its id and unit (one rule for every
+    factor, whatever file it comes from): (low, low inclusive, high, what the value is).
+
+    - a global warming potential (``gwp.*``, kg CO2e per kg of a gas): > 0;
+    - a mass of methane per mass of gas or fuel (``kg CH4/kg``, ``kg CH4/kg fuel``): 0 to 1;
+    - an emission factor (a greenhouse-gas mass per unit of activity: g CO2e/kWh, kg CO2/TJ,
+      t N2O/t fuel...): >= 0 (these factors describe emissions; removals are not modelled);
+    - a heating value (energy per mass or volume: MJ/kg, TJ/Gg, MJ/m3): > 0.
+
+    Other units: any finite number. ``low``/``high`` None means unbounded.
+    """
+    numerator, _, denominator = (part.strip() for part in unit.partition("/"))
+    top = numerator.split()
+    bottom = denominator.split()
+    if factor_id.startswith("gwp."):
+        return 0.0, False, None, "a global warming potential"
+    if top[-1:] == ["CH4"] and len(bottom) >= 1 and bottom[-1] in ("kg", "t", "fuel") and top[0] == bottom[0]:
+        return 0.0, True, 1.0, "a mass fraction of methane"
+    if top[-1:] and top[-1] in _GASES:
+        return 0.0, True, None, "an emission factor"
+    if len(top) == 1 and top[0] in _ENERGY and bottom:
+        return 0.0, False, None, "a heating value"
+    return None, True, None, ""
+
+
+def check_factor_value(factor_id: str, value: float, unit: str, where: str) -> None:
+    """Refuse a factor value that is not finite or outside ``physical_range``: one InputError naming the id."""
+    if not math.isfinite(value):
+        raise InputError(where, "value", f"a finite number for '{factor_id}', got {value!r}")
+    low, inclusive, high, what = physical_range(factor_id, unit)
+    below = low is not None and (value < low if inclusive else value <= low)
+    above = high is not None and value > high
+    if below or above:
+        bounds = f"{'>=' if inclusive else '>'} {low:g}" + (f" and <= {high:g}" if high is not None else "")
+        raise InputError(where, "value", f"a value {bounds} for '{factor_id}' ({what}, {unit}), got {value:g}")
+
+
 def _parse_bool(text: str, where: str) -> bool:
     lowered = text.strip().lower()
     if lowered in _TRUE:
@@ -120,62 +163,75 @@ def _parse_bool(text: str, where: str) -> bool:
     raise InputError(where, "from_memory", f"true or false, got '{text}'")
 
 
+def read_csv_text(path: str | Path, what: str) -> str:
+    """The text of a CSV file saved as UTF-8 (a byte-order mark, as spreadsheet programs write
+    it, is dropped); a file in another encoding is one InputError naming the file."""
+    try:
+        raw = Path(path).read_bytes()
+    except OSError as error:
+        raise InputError(path, "", f"a readable {what} ({error.strerror})") from None
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError as error:
+        raise InputError(path, "", f"a UTF-8 CSV (save as CSV UTF-8); byte {error.start} is not UTF-8 (the file looks like Windows-1252 or another encoding)") from None
+
+
 def read_factor_rows(path: Path) -> list[Factor]:
     """Read and validate one factor CSV; every problem names the file, line and column."""
+    text = read_csv_text(path, "factor CSV")
+    lines = io.StringIO(text, newline="")
+    reader = csv.DictReader(row for row in lines if not row.lstrip().startswith("#"))
     try:
-        handle = path.open(newline="", encoding="utf-8")
-    except OSError as error:
-        raise InputError(path, "", f"a readable factor CSV ({error.strerror})") from None
-    with handle:
-        reader = csv.DictReader(row for row in handle if not row.lstrip().startswith("#"))
         header = reader.fieldnames or []
-        missing = [column for column in REQUIRED_COLUMNS if column not in header]
-        if missing:
-            raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
-        unknown = [column for column in header if column not in FACTOR_COLUMNS]
-        if unknown:
-            raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS)}; unknown {', '.join(unknown)}")
-        rows: list[Factor] = []
-        seen: set[str] = set()
-        for number, row in enumerate(reader, start=2):
-            where = f"{path}:{number}"
-            factor_id = (row.get("id") or "").strip()
-            if not factor_id:
-                raise InputError(where, "id", "a factor id")
-            if factor_id in seen:
-                raise InputError(where, "id", f"a unique id, '{factor_id}' appears twice")
-            seen.add(factor_id)
-            try:
-                value = float(row.get("value") or "")
-            except ValueError:
-                raise InputError(where, "value", f"a number for '{factor_id}', got '{row.get('value')}'") from None
-            if not math.isfinite(value):
-                raise InputError(where, "value", f"a finite number for '{factor_id}'")
-            unit = (row.get("unit") or "").strip()
-            if not unit:
-                raise InputError(where, "unit", f"a unit for '{factor_id}'")
-            source = (row.get("source") or "").strip()
-            if not source:
-                raise InputError(where, "source", f"a source document for '{factor_id}' (every factor must cite one)")
-            year_text = (row.get("year") or "").strip()
-            try:
-                year = int(year_text) if year_text else None
-            except ValueError:
-                raise InputError(where, "year", f"a year for '{factor_id}', got '{year_text}'") from None
-            rows.append(
-                Factor(
-                    id=factor_id,
-                    value=value,
-                    unit=unit,
-                    source=source,
-                    table=(row.get("table") or "").strip(),
-                    year=year,
-                    region=(row.get("region") or "").strip(),
-                    note=(row.get("note") or "").strip(),
-                    from_memory=_parse_bool(row.get("from_memory") or "", where),
-                    origin=str(path),
-                )
+        records = list(reader)
+    except csv.Error as error:
+        raise InputError(path, "", f"a well-formed CSV ({error})") from None
+    missing = [column for column in REQUIRED_COLUMNS if column not in header]
+    if missing:
+        raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
+    unknown = [column for column in header if column not in FACTOR_COLUMNS]
+    if unknown:
+        raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS)}; unknown {', '.join(unknown)}")
+    rows: list[Factor] = []
+    seen: set[str] = set()
+    for number, row in enumerate(records, start=2):
+        where = f"{path}:{number}"
+        factor_id = (row.get("id") or "").strip()
+        if not factor_id:
+            raise InputError(where, "id", "a factor id")
+        if factor_id in seen:
+            raise InputError(where, "id", f"a unique id, '{factor_id}' appears twice")
+        seen.add(factor_id)
+        try:
+            value = float(row.get("value") or "")
+        except ValueError:
+            raise InputError(where, "value", f"a number for '{factor_id}', got '{row.get('value')}'") from None
+        unit = (row.get("unit") or "").strip()
+        if not unit:
+            raise InputError(where, "unit", f"a unit for '{factor_id}'")
+        check_factor_value(factor_id, value, unit, where)
+        source = (row.get("source") or "").strip()
+        if not source:
+            raise InputError(where, "source", f"a source document for '{factor_id}' (every factor must cite one)")
+        year_text = (row.get("year") or "").strip()
+        try:
+            year = int(year_text) if year_text else None
+        except ValueError:
+            raise InputError(where, "year", f"a year for '{factor_id}', got '{year_text}'") from None
+        rows.append(
+            Factor(
+                id=factor_id,
+                value=value,
+                unit=unit,
+                source=source,
+                table=(row.get("table") or "").strip(),
+                year=year,
+                region=(row.get("region") or "").strip(),
+                note=(row.get("note") or "").strip(),
+                from_memory=_parse_bool(row.get("from_memory") or "", where),
+                origin=str(path),
             )
+        )
     return rows
 
 
@@ -237,11 +293,12 @@ def load_factor_set(name_or_path: str | Path = DEFAULT_SET, overrides=(), _chain
         factor_set = apply_override(_cached_set(str((factors_root() / "sets" / DEFAULT_SET).resolve()), _chain), path)
     elif path.is_dir():
         factor_set = _cached_set(str(path.resolve()), _chain)
-    elif (factors_root() / "sets" / text).is_dir():
-        factor_set = _cached_set(str((factors_root() / "sets" / text).resolve()), _chain)
+    elif match_id(text, available_sets()) is not None:
+        name = match_id(text, available_sets())  # set names are case-insensitive
+        factor_set = _cached_set(str((factors_root() / "sets" / name).resolve()), _chain)
     else:
         known = ", ".join(available_sets()) or "none found"
-        raise InputError(text, "--factors", f"a factor set name ({known}), a set folder or an override CSV")
+        raise InputError(text, "--factors", f"a factor set name ({known}), a set folder or an override CSV{did_you_mean(text, available_sets())}")
     for override in overrides:
         factor_set = apply_override(factor_set, override)
     return factor_set

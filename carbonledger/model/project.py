@@ -11,15 +11,29 @@ to one and impossible values are refused with one line naming the file and the f
 
 from __future__ import annotations
 
+import difflib
 import tomllib
+import types
+import typing
 from pathlib import Path
 from typing import Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, ValidationError
+from pydantic import BaseModel, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
-from ..errors import InputError
+from ..errors import InputError, did_you_mean, match_id
 
 BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
+
+
+def boundary_id(boundary: str, where: str = "--boundary") -> str:
+    """A system boundary as spelt in BOUNDARIES (case-insensitive: Well-To-Tank = well-to-tank)."""
+    found = match_id(boundary, BOUNDARIES)
+    if found is None:
+        raise InputError(where, boundary, f"one of {', '.join(BOUNDARIES)}{did_you_mean(boundary, BOUNDARIES)}")
+    return found
+
+
+MAX_DEPTH = 16  # tables and arrays inside one another: a project needs 4
 
 
 def P(default: Any = ..., unit: str = "", description: str = "", **limits) -> Any:
@@ -27,8 +41,27 @@ def P(default: Any = ..., unit: str = "", description: str = "", **limits) -> An
     return Field(default, description=description, json_schema_extra={"unit": unit}, **limits)
 
 
+def _type_arguments(annotation: Any) -> set:
+    """The plain types an annotation accepts (``float | None`` -> {float, NoneType})."""
+    if typing.get_origin(annotation) in (typing.Union, types.UnionType):
+        return set().union(*(_type_arguments(arg) for arg in typing.get_args(annotation)))
+    return {annotation}
+
+
 class Section(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    """A project-file section: unknown keys, infinities, NaN, and truth values or text given
+    for a number are refused (TOML allows ``inf`` and ``nan``; ``true`` is not 1)."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
+
+    @field_validator("*", mode="before")
+    @classmethod
+    def _numbers_are_numbers(cls, value: Any, info: ValidationInfo) -> Any:
+        accepted = _type_arguments(cls.model_fields[info.field_name].annotation)
+        if accepted & {float, int} and not accepted & {bool, str} and isinstance(value, (bool, str)):
+            kind = "a truth value" if isinstance(value, bool) else "text"
+            raise ValueError(f"a number, got {value!r} ({kind})")
+        return value
 
 
 class ProjectInfo(Section):
@@ -42,12 +75,13 @@ class ProjectInfo(Section):
 class Lifetime(Section):
     """Operating life: yearly output, electrolyser ageing, grid trajectory, construction emissions."""
 
-    operating_years: int = P(unit="years", description="Years of operation (at least 1)", ge=1)
+    # at most 200 years: longer than any plant runs, and it bounds the yearly loop and its output
+    operating_years: int = P(unit="years", description="Years of operation (1 to 200)", ge=1, le=200)
     first_year: int = P(unit="calendar year", description="Calendar year of the first operating year", ge=1900, le=2200)
     nameplate_output_t_per_year: float = P(unit="t product/year", description="Output at full load with new stacks (t NH3 or t H2)", gt=0)
     capacity_factor: float = P(1.0, "fraction", "Annual capacity factor (share of the nameplate output produced)", gt=0, le=1)
     efficiency_loss_per_year: float = P(0.0, "fraction/year", "Electrolysis: drop of stack efficiency per year of stack age", ge=0, lt=1)
-    stack_replacement_years: int | None = P(None, "years", "Electrolysis: stacks replaced every N years, which resets the efficiency loss (absent: never)", ge=1)
+    stack_replacement_years: int | None = P(None, "years", "Electrolysis: stacks replaced every N years, which resets the efficiency loss (absent: never)", ge=1, le=200)
     plant_construction_t_co2e: float = P(0.0, "t CO2e", "Construction (capital) emissions of the plant", ge=0)
     renewables_construction_t_co2e: float = P(0.0, "t CO2e", "Construction emissions of dedicated renewable generation", ge=0)
     renewables_mw: float = P(0.0, "MW", "Dedicated renewable capacity, with renewables_construction_factor", ge=0)
@@ -57,12 +91,39 @@ class Lifetime(Section):
     grid_trajectory_factors: str = P("", description="Factor id prefix in the factor set: rows PREFIX.YEAR give the yearly grid factor")
 
 
-def _describe(error: dict) -> tuple[str, str]:
+def _submodel(annotation: Any):
+    """The section model an annotation holds (``Optional[Model]``, ``dict[str, Model]``), or None."""
+    if isinstance(annotation, type) and issubclass(annotation, BaseModel):
+        return annotation
+    for arg in typing.get_args(annotation):
+        found = _submodel(arg)
+        if found is not None:
+            return found
+    return None
+
+
+def _known_names(model: type[BaseModel], loc: tuple) -> list[str]:
+    """The parameter names of the section at ``loc`` (a dict key such as a source name is skipped)."""
+    current: Any = model
+    for part in loc:
+        fields = getattr(current, "model_fields", {})
+        if part in fields:
+            current = _submodel(fields[part].annotation)
+        # else: a key of a dict section (an electricity source's name): same model below it
+        if current is None:
+            return []
+    return list(getattr(current, "model_fields", {}))
+
+
+def _describe(error: dict, model: type[BaseModel] | None = None) -> tuple[str, str]:
     field = ".".join(str(part) for part in error["loc"])
     kind = error["type"]
     context = error.get("ctx") or {}
     if kind == "extra_forbidden":
-        return field, "unknown parameter (see `carbonledger params` or `carbonledger init` for the known ones)"
+        known = _known_names(model, error["loc"][:-1]) if model is not None else []
+        what = "section or key" if len(error["loc"]) == 1 else "parameter"
+        hint = did_you_mean(str(error["loc"][-1]), known)
+        return field, f"unknown {what}{hint} (see `carbonledger params` or `carbonledger init` for the known ones)"
     if kind == "missing":
         return field, "a value is required"
     if kind in ("greater_than_equal", "greater_than", "less_than_equal", "less_than"):
@@ -70,9 +131,14 @@ def _describe(error: dict) -> tuple[str, str]:
         limit = next(iter(context.values()), "")
         return field, f"a number {words} {limit}, got {error.get('input')!r}"
     if kind == "literal_error":
-        return field, f"{context.get('expected', 'a listed value')}, got {error.get('input')!r}"
+        known = [part.strip().strip("'") for part in str(context.get("expected", "")).replace(" or ", ", ").split(",")]
+        return field, f"{context.get('expected', 'a listed value')}, got {error.get('input')!r}{did_you_mean(str(error.get('input')), known)}"
     if kind in ("float_parsing", "float_type"):
         return field, f"a number, got {error.get('input')!r}"
+    if kind == "finite_number":
+        return field, f"a finite number, got {error.get('input')!r}"
+    if kind in ("int_parsing", "int_type", "int_from_float"):
+        return field, f"a whole number, got {error.get('input')!r}"
     if kind == "value_error":
         inner = context.get("error")
         if hasattr(inner, "field") and hasattr(inner, "expected"):
@@ -92,7 +158,39 @@ def parse_override(text: str) -> tuple[str, Any]:
         value = tomllib.loads(f"v = {raw}")["v"]
     except tomllib.TOMLDecodeError:
         value = raw
+    except RecursionError:
+        raise InputError("--set", path, f"a value nested at most {MAX_DEPTH} levels deep") from None
+    if _depth(value) + path.count(".") > MAX_DEPTH:
+        raise InputError("--set", path[:60] + ("..." if len(path) > 60 else ""), f"a parameter path and value nested at most {MAX_DEPTH} levels deep")
     return path, value
+
+
+def _depth(value: Any) -> int:
+    """How deeply tables and arrays nest inside ``value`` (a scalar: 0), without recursion."""
+    deepest, stack = 0, [(value, 0)]
+    while stack:
+        node, level = stack.pop()
+        children = node.values() if isinstance(node, dict) else node if isinstance(node, list) else None
+        if children is None:
+            continue
+        deepest = max(deepest, level + 1)
+        if deepest > MAX_DEPTH + 1:
+            break
+        stack.extend((child, level + 1) for child in children)
+    return deepest
+
+
+def loads_toml(text: str, source: str | Path) -> dict:
+    """Parse TOML text (a leading byte-order mark ignored); bad or too deeply nested TOML is one InputError."""
+    try:
+        data = tomllib.loads(text.removeprefix("\ufeff"))
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(source, "", f"valid TOML ({error})") from None
+    except RecursionError:
+        raise InputError(source, "", f"TOML nested at most {MAX_DEPTH} levels deep") from None
+    if _depth(data) > MAX_DEPTH:
+        raise InputError(source, "", f"TOML nested at most {MAX_DEPTH} levels deep")
+    return data
 
 
 def apply_overrides(data: dict, overrides: list[tuple[str, Any]], source: str) -> dict:
@@ -117,8 +215,10 @@ def validate_with(model: type[BaseModel], data: dict, source: str):
     try:
         return model.model_validate(data)
     except ValidationError as error:
-        first = error.errors()[0]
-        field, expected = _describe(first)
+        errors = error.errors()
+        # a misspelt name shows up twice: as unknown, and as the right name missing; name the unknown one
+        first = next((e for e in errors if e["type"] == "extra_forbidden"), errors[0])
+        field, expected = _describe(first, model)
         raise InputError(source, field, expected) from None
 
 
@@ -128,12 +228,13 @@ def read_project_file(path: str | Path) -> tuple[dict, bytes]:
         raw = path.read_bytes()
     except OSError as error:
         raise InputError(path, "", f"a readable project file ({error.strerror})") from None
+    if raw.startswith(b"PK\x03\x04") or path.suffix.lower() in (".xlsx", ".xlsm"):
+        raise InputError(path, "", "a project TOML file; this is a workbook: read it with `--from-workbook` (e.g. carbonledger score --from-workbook FILE.xlsx)")
     try:
-        return tomllib.loads(raw.decode("utf-8")), raw
+        text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:
-        raise InputError(path, "", "a UTF-8 TOML project file") from None
-    except tomllib.TOMLDecodeError as error:
-        raise InputError(path, "", f"valid TOML ({error})") from None
+        raise InputError(path, "", "a UTF-8 TOML project file (save it as UTF-8)") from None
+    return loads_toml(text, path), raw
 
 
 def parameter_table(project: BaseModel) -> list[tuple[str, Any, str, str]]:

@@ -16,7 +16,7 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
-from ..errors import InputError
+from ..errors import InputError, did_you_mean, match_id
 from .factors import factors_root
 
 QUANTITIES = ("kg_co2e_per_kg_h2", "g_co2e_per_mj", "kg_co2e_per_t_nh3", "kg_co2e_per_kg_nh3")
@@ -92,16 +92,26 @@ def load_schemes(folder: Path | None = None) -> dict[str, Scheme]:
     return schemes
 
 
+def scheme_ids(requested: list[str] | None, all_schemes: dict[str, Scheme]) -> list[str]:
+    """The requested scheme ids as the rulebooks spell them (ids are case-insensitive); an
+    unknown id is refused with the closest known one."""
+    found = []
+    for scheme_id in requested or []:
+        known = match_id(scheme_id, all_schemes)
+        if known is None:
+            raise InputError("--scheme", scheme_id, f"one of {', '.join(all_schemes)}{did_you_mean(scheme_id, all_schemes)}")
+        found.append(known)
+    return found
+
+
 def select_schemes(all_schemes: dict[str, Scheme], requested: list[str] | None, product: str) -> list[Scheme]:
     """The schemes to check: those requested (each must exist and fit the product), else all that apply."""
     if not requested:
         return [s for s in all_schemes.values() if product in s.products]
     chosen = []
-    for scheme_id in requested:
-        if scheme_id not in all_schemes:
-            raise InputError("--scheme", scheme_id, f"one of {', '.join(all_schemes)}")
+    for requested_id, scheme_id in zip(requested, scheme_ids(requested, all_schemes)):
         scheme = all_schemes[scheme_id]
         if product not in scheme.products:
-            raise InputError("--scheme", scheme_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})")
+            raise InputError("--scheme", requested_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})")
         chosen.append(scheme)
     return chosen

@@ -16,13 +16,14 @@ Entry points for the library and the command line:
 from __future__ import annotations
 
 import hashlib
-from dataclasses import dataclass
+import zipfile
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
 from ...model.factors import DEFAULT_SET, Factor, FactorSet, load_factor_set
-from ...model.project import apply_overrides, parse_override
+from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
 from .layout import (
@@ -37,6 +38,12 @@ from .layout import (
     is_number,
 )
 
+# An audit workbook of the largest project with twelve metered months is well under 1 MB
+# (about 5 MB unpacked). The limits refuse a file that would take minutes and gigabytes of
+# memory to open (a small zip can unpack to a huge sheet) before openpyxl reads it.
+MAX_WORKBOOK_BYTES = 20 * 1024 * 1024
+MAX_UNPACKED_BYTES = 100 * 1024 * 1024
+
 
 @dataclass
 class WorkbookSettings:
@@ -44,11 +51,32 @@ class WorkbookSettings:
     schemes: list[str]
     factors_option: str
     factor_set: str
+    evidence: dict[str, str] = field(default_factory=dict)  # Inputs sheet: parameter -> evidence text
+
+
+def check_size(path: Path) -> None:
+    """Refuse, before it is opened, a workbook larger than MAX_WORKBOOK_BYTES or whose parts
+    unpack to more than MAX_UNPACKED_BYTES (as their zip headers state them; zipfile reads no
+    more than the stated size of a part)."""
+    try:
+        size = path.stat().st_size
+    except OSError:
+        return  # not there: openpyxl's error names it
+    if size > MAX_WORKBOOK_BYTES:
+        raise InputError(path, "", f"an audit workbook of at most {MAX_WORKBOOK_BYTES // 2**20} MB, got {size / 2**20:.1f} MB")
+    try:
+        with zipfile.ZipFile(path) as archive:
+            unpacked = sum(member.file_size for member in archive.infolist())
+    except (zipfile.BadZipFile, OSError):
+        return  # not a zip: openpyxl's error names it
+    if unpacked > MAX_UNPACKED_BYTES:
+        raise InputError(path, "", f"an audit workbook that unpacks to at most {MAX_UNPACKED_BYTES // 2**20} MB, got {unpacked / 2**20:.0f} MB")
 
 
 def _open(path: Path, data_only: bool = False):
     from openpyxl import load_workbook
 
+    check_size(path)
     try:
         return load_workbook(path, data_only=data_only)
     except FileNotFoundError:
@@ -119,15 +147,16 @@ def _named_rows(ws, header_row: int):
             yield row, str(name).strip()
 
 
-def read_input_rows(workbook, path: Path) -> list[tuple[str, Any, str]]:
-    """(parameter path, value, cell) for every row of the Inputs sheet."""
+def read_input_rows(workbook, path: Path) -> list[tuple[str, Any, str, str]]:
+    """(parameter path, value, cell, evidence text) for every row of the Inputs sheet."""
     ws = _sheet(workbook, INPUTS, path)
     _check_header(ws, INPUT_HEADER_ROW, INPUT_COLUMNS, path)
     cached = _CachedValues(path)
     rows = []
     for row, name in _named_rows(ws, INPUT_HEADER_ROW):
         cell = f"B{row}"
-        rows.append((name, _cell_value(ws, cell, cached, path, name), cell))
+        evidence = ws.cell(row=row, column=len(INPUT_COLUMNS)).value
+        rows.append((name, _cell_value(ws, cell, cached, path, name), cell, "" if evidence is None else str(evidence)))
     if not rows:
         raise InputError(path, f"sheet {INPUTS}", "parameter rows below the header (none found)")
     return rows
@@ -145,18 +174,31 @@ def load_project_from_workbook(path: str | Path, overrides: list[str] | None = N
     rows = read_input_rows(workbook, path)
     data: dict = {}
     cells: dict[str, str] = {}
-    for name, value, cell in rows:
+    emptied: set[str] = set()
+    for name, value, cell, evidence in rows:
         cells[name] = cell
-        if value is None:
-            continue  # an emptied cell: the parameter's default (or 'a value is required')
+        if evidence:
+            settings.evidence[name] = evidence
+        if value is None or value == "":
+            emptied.add(name)  # allowed only where the parameter has no value (checked below)
+            continue
         data = apply_overrides(data, [(name, value)], f"{path}: sheet {INPUTS}, cell {cell}")
-    data = apply_overrides(data, [parse_override(text) for text in overrides or []], str(path))
+    parsed = [parse_override(text) for text in overrides or []]
+    data = apply_overrides(data, parsed, str(path))
     try:
         project = validate_project(data, str(path))
     except InputError as error:
         where = cells.get(error.field)
         field = f"sheet {INPUTS}, cell {where} ({error.field})" if where else f"sheet {INPUTS} ({error.field})"
         raise InputError(path, field, error.expected) from None
+    overridden = {name for name, _ in parsed}
+    for name, value, _, _ in parameter_table(project):
+        if value is None or value == "" or name in overridden:
+            continue  # an optional parameter without a value: an empty cell or no row is right
+        if name in emptied:
+            raise InputError(path, f"sheet {INPUTS}, cell {cells[name]} ({name})", f"a value (the cell is empty; the default {value!r} is not taken silently: type it to use it)")
+        if name not in cells:
+            raise InputError(path, f"sheet {INPUTS} ({name})", f"a row for this parameter (it was deleted; the default {value!r} is not taken silently: write a new workbook from the project file)")
     return project, hashlib.sha256(path.read_bytes()).hexdigest(), settings
 
 

@@ -9,7 +9,7 @@ reference: its figures are written beside the formulas, labelled, for comparison
 Sheets
 ------
 Cover        project, date, version, factor set and its sha256, boundary, GWP set, schemes, caution
-Inputs       every project parameter: path, value, unit, description, evidence (empty)
+Inputs       every project parameter: path, value, unit, description, evidence (kept from an earlier workbook)
 Factors      every factor used: id, value, unit, source, table or article, year, region, note, from memory
 Calculation  activities with their supply per functional unit (formulas), then one row per exchange
 Results      by stage, by gas, intensities, scheme checks and their thresholds, a bar chart
@@ -104,6 +104,7 @@ def build_workbook(
     meters=None,
     month_results=None,
     meters_source: str = "",
+    evidence: dict[str, str] | None = None,
 ):
     """The audit workbook of a scored project, as an openpyxl Workbook (not yet saved).
 
@@ -111,6 +112,8 @@ def build_workbook(
     scores. Its options (GWP set, schemes, boundary) decide the formulas, and its figures are
     written beside them for comparison. With ``meters`` (``analyses.periods.read_meters``) the
     Periods sheet is added, with ``month_results`` (``analyses.periods.month_results``) beside it.
+    ``evidence`` (parameter path -> text, as read back from an earlier workbook) fills the
+    Inputs sheet's evidence column, so a workbook written again keeps it.
     """
     from openpyxl import Workbook
 
@@ -130,7 +133,7 @@ def build_workbook(
     # Inputs: every parameter; numbers become cell references in the symbolic parameters.
     symbolic = copy_tree(params)
     input_cell: dict[str, Term] = {}
-    _write_inputs_sheet(inputs_ws, parameter_table(project), symbolic, input_cell)
+    _write_inputs_sheet(inputs_ws, parameter_table(project), symbolic, input_cell, evidence or {})
     symbolic["project"]["boundary"] = result.boundary
 
     model = symbolic_model(symbolic, factor_set, gwp, [s.gwp for s in chosen])
@@ -170,7 +173,7 @@ def _print_layout(ws) -> None:
 
 
 
-def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term]) -> None:
+def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], evidence: dict[str, str]) -> None:
     put_text(ws, 1, 1, "Inputs: every project parameter. Edit a value here and every formula follows; "
              "`carbonledger score --from-workbook` reads this sheet back.")
     put_text(ws, 2, 1, "Record in the evidence column the meter, invoice or design document behind each value. Numbers are named cells (p_<parameter path>). "
@@ -186,6 +189,7 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term]) -
         put_value(ws, row, 2, value)
         put_text(ws, row, 3, unit)
         put_text(ws, row, 4, description)
+        put_text(ws, row, len(INPUT_COLUMNS), evidence.get(path))
         if is_number(value):
             cell = _name_cell(ws.parent, "p_", path, INPUTS, row)
             input_cell[path] = cell
