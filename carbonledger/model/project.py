@@ -11,7 +11,6 @@ to one and impossible values are refused with one line naming the file and the f
 
 from __future__ import annotations
 
-import difflib
 import tomllib
 import types
 import typing
