@@ -7,6 +7,7 @@ compares between factor sets, so every value that reaches a result must come thr
 
 from __future__ import annotations
 
+import difflib
 from typing import Any
 
 from ..errors import InputError
@@ -29,7 +30,9 @@ class NumericInputs:
 
     def _row(self, factor_id: str, where: str):
         if where != "factor" and factor_id not in self.factor_set.factors:
-            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'")
+            close = difflib.get_close_matches(factor_id, self.factor_set.factors, n=3, cutoff=0.75)
+            hint = f"; did you mean {' or '.join(repr(c) for c in close)}?" if close else ""
+            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'{hint}")
         return self.factor_set.get(factor_id, where)
 
     def factor(self, factor_id: str, unit: str, where: str = "factor"):
