@@ -98,3 +98,31 @@ def test_factors_diff_command(tmp_path):
     table = run_cli("factors", "diff", "default-2026", "demo-2027-grid-revision")
     assert table.exit_code == 0 and "2 changed, 10 added, 0 removed" in table.stdout
     assert_one_line_error(run_cli("factors", "diff", "default-2026", "no-such-set"))
+
+
+def _standalone_set(folder, files: dict[str, str]):
+    write(folder / "set.toml", 'name = "split"\ndate = "2027-03-01"\ndescription = "test set in several files"\n')
+    for name, rows in files.items():
+        write(folder / name, FACTOR_HEADER + rows)
+    return folder
+
+
+ROW_A = "electricity.grid.test_a_2026,100,g CO2e/kWh,test source A,,2026,,,false\n"
+ROW_B = "electricity.grid.test_b_2026,200,g CO2/kWh,test source B,,2026,,,false\n"
+
+
+def test_a_set_reads_every_csv_and_its_hash_ignores_the_file_layout(tmp_path):
+    one_file = load_factor_set(_standalone_set(tmp_path / "one", {"factors.csv": ROW_A + ROW_B}))
+    two_files = load_factor_set(_standalone_set(tmp_path / "two", {"factors.csv": ROW_A, "grid-electricity.csv": ROW_B}))
+    assert set(two_files.factors) == {"electricity.grid.test_a_2026", "electricity.grid.test_b_2026"}
+    assert two_files.factors["electricity.grid.test_b_2026"].origin.endswith("grid-electricity.csv")
+    assert one_file.sha256 == two_files.sha256
+
+
+def test_an_id_in_two_files_of_one_set_is_refused(tmp_path):
+    folder = _standalone_set(tmp_path / "dup", {"a.csv": ROW_A, "b.csv": ROW_A})
+    with pytest.raises(InputError) as caught:
+        load_factor_set(folder)
+    assert "electricity.grid.test_a_2026" in str(caught.value) and "a.csv" in str(caught.value)
+    result = run_cli("factors", "list", "--factors", folder)
+    assert_one_line_error(result)

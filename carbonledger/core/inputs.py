@@ -7,9 +7,10 @@ compares between factor sets, so every value that reaches a result must come thr
 
 from __future__ import annotations
 
+import difflib
 from typing import Any
 
-from ..errors import InputError, did_you_mean
+from ..errors import InputError
 from ..model.factors import FactorSet
 from ..model.reference import (
     ammonia_formation_enthalpy,
@@ -18,6 +19,17 @@ from ..model.reference import (
     molar_mass,
 )
 from ..model.units import UnitMismatch, conversion_factor
+
+
+def close_factor_ids(factor_id: str, known_ids) -> list[str]:
+    """Up to three known ids that look like ``factor_id``: the last segment is compared among ids of the
+    same namespace (``electricity.grid.germany_2022`` finds ``electricity.grid.germany_2019``), else the
+    whole id among all ids."""
+    namespace, _, leaf = factor_id.rpartition(".")
+    leaves = {known.rpartition(".")[2]: known for known in known_ids if known.rpartition(".")[0] == namespace}
+    if leaves:
+        return [leaves[match] for match in difflib.get_close_matches(leaf, leaves, n=3, cutoff=0.6)]
+    return difflib.get_close_matches(factor_id, list(known_ids), n=3, cutoff=0.75)
 
 
 class NumericInputs:
@@ -30,7 +42,8 @@ class NumericInputs:
 
     def _row(self, factor_id: str, where: str):
         if where != "factor" and factor_id not in self.factor_set.factors:
-            hint = did_you_mean(factor_id, self.factor_set.factors)
+            close = close_factor_ids(factor_id, self.factor_set.factors)
+            hint = f"; did you mean {' or '.join(repr(c) for c in close)}?" if close else ""
             raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'{hint} (see `carbonledger factors list`)")
         return self.factor_set.get(factor_id, where)
 

@@ -1,8 +1,9 @@
 """Factor sets: load, validate, layer and hash the published factors in ``factors/``.
 
 A factor set is a folder ``factors/sets/NAME/`` holding ``set.toml`` (name, date, description,
-optionally ``base`` = the set it updates) and ``factors.csv`` with the columns of
-``FACTOR_COLUMNS``. Every row must name its source; a value not checked against its document
+optionally ``base`` = the set it updates) and one or more CSV files (``factors.csv``, and e.g.
+``grid-electricity.csv``) with the columns of ``FACTOR_COLUMNS``. Every ``*.csv`` of the folder is
+read, in sorted order; an id may appear in only one of them. Every row must name its source; a value not checked against its document
 carries ``from_memory = true``, which every output shows. A set with a ``base`` holds only
 the rows it changes or adds; a partial override CSV (a user's own rows, each with a source)
 can be layered on top of any set with the same rules.
@@ -235,12 +236,28 @@ def read_factor_rows(path: Path) -> list[Factor]:
     return rows
 
 
+def read_set_rows(folder: Path) -> list[Factor]:
+    """The rows of every ``*.csv`` in a set folder, files in sorted order; an id in two files is refused."""
+    paths = sorted(folder.glob("*.csv"))
+    if not paths:
+        raise InputError(folder, "", "a factor set folder with at least one factor CSV file")
+    rows: list[Factor] = []
+    first_file: dict[str, Path] = {}
+    for path in paths:
+        for factor in read_factor_rows(path):
+            if factor.id in first_file:
+                raise InputError(path, "id", f"a unique id in the set, '{factor.id}' is also in {first_file[factor.id].name}")
+            first_file[factor.id] = path
+            rows.append(factor)
+    return rows
+
+
 def _read_set_folder(folder: Path, chain: tuple[str, ...] = ()) -> FactorSet:
     meta_path = folder / "set.toml"
     try:
         meta = tomllib.loads(meta_path.read_text(encoding="utf-8"))
     except OSError:
-        raise InputError(folder, "set.toml", "a factor set folder with set.toml and factors.csv") from None
+        raise InputError(folder, "set.toml", "a factor set folder with set.toml and factor CSV files") from None
     except tomllib.TOMLDecodeError as error:
         raise InputError(meta_path, "", f"valid TOML ({error})") from None
     name = str(meta.get("name") or folder.name)
@@ -253,7 +270,7 @@ def _read_set_folder(folder: Path, chain: tuple[str, ...] = ()) -> FactorSet:
         layers = base.layers
     else:
         factors, layers = {}, ()
-    for factor in read_factor_rows(folder / "factors.csv"):
+    for factor in read_set_rows(folder):
         factors[factor.id] = factor
     for removed in meta.get("removed", []):
         factors.pop(removed, None)

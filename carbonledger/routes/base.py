@@ -13,6 +13,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
+from ..model.units import split_substance
 from ..stages import electricity, natural_gas
 
 FLOWS = {
@@ -135,8 +136,13 @@ def burn_natural_gas(activity: Activity, inputs, gas_gj, label: str) -> None:
 
 
 def electricity_flow(inputs, factor_id: str, where: str) -> tuple[str, Any]:
-    """(flow, kg per kWh) of an electricity factor: g CO2/kWh counts as fossil CO2, g CO2e/kWh as pre-characterised CO2e."""
+    """(flow, kg per kWh) of an electricity factor.
+
+    A factor whose unit names CO2 (``g CO2/kWh``, ``lb CO2/MWh``, ``t CO2/MWh``) counts as fossil
+    CO2; one that names CO2e (``g CO2e/kWh``, ``kg CO2e/kWh``) as pre-characterised CO2e. Any
+    energy and mass units pint knows are converted to g/kWh.
+    """
     unit = inputs.factor_unit(factor_id, where)
-    direct = unit.replace(" ", "").startswith("gCO2/")
+    direct = split_substance(unit)[1] == ("CO2",)
     factor = inputs.factor(factor_id, "g CO2/kWh" if direct else "g CO2e/kWh", where)
     return ("co2_fossil" if direct else "co2e_precharacterised"), electricity.source_emission_kg_per_kwh(factor)

@@ -43,6 +43,7 @@ def starter(product: str, grid: bool = False) -> str:
     if grid:
         return """
 # One block per source; shares sum to 1. Factor ids: `carbonledger factors list`.
+# Your region's grid: `carbonledger factors list --prefix electricity.grid.` (e.g. electricity.grid.us_erct_2022).
 [electricity.sources.grid]
 share = 1.0
 factor = "electricity.grid.eu27_2018"
