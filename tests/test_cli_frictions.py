@@ -18,7 +18,7 @@ def test_version():
     assert result.exit_code == 0 and result.stdout.strip() == f"carbonledger {__version__}"
 
 
-@pytest.mark.parametrize("route", ["electrolysis", "steam_methane_reforming_with_capture", "steam-methane-reforming-with-capture", "Autothermal-Reforming"])
+@pytest.mark.parametrize("route", ["electrolysis", "methane-pyrolysis", "steam_methane_reforming_with_capture", "steam-methane-reforming-with-capture", "Autothermal-Reforming"])
 def test_init_takes_route_names_as_project_files_write_them(tmp_path, route):
     path = tmp_path / "p.toml"
     result = run_cli("init", path, "--route", route, "--product", "ammonia")

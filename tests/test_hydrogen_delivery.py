@@ -8,13 +8,12 @@ from __future__ import annotations
 import json
 
 import pytest
+from helpers import DEMO, assert_one_line_error, run_cli
 
 from carbonledger.api import score
 from carbonledger.model.factors import load_factor_set
 from carbonledger.model.reference import hydrogen_latent_heat, molar_mass_g_per_mol
 from carbonledger.routes.liquid_hydrogen import ideal_liquefaction_work_kwh_per_kg
-
-from helpers import DEMO, assert_one_line_error, run_cli
 
 PIPED = DEMO / "green_hydrogen_piped_and_trucked.toml"
 FACTORS = load_factor_set("default-2026").factors

@@ -15,6 +15,7 @@ from ..model.factors import FactorSet
 from ..model.reference import (
     ammonia_formation_enthalpy,
     ammonia_latent_heat,
+    co2_formation_enthalpy,
     hydrogen_latent_heat,
     molar_mass,
 )
@@ -74,6 +75,10 @@ class NumericInputs:
     def latent_heat_hydrogen(self):
         """kJ/kg at 1 atm, from CoolProp (imported only by projects that carry liquid hydrogen)."""
         return self._reference(hydrogen_latent_heat())
+
+    def formation_enthalpy_co2(self):
+        """kJ/mol, CO2(g) at 298.15 K, from the chemicals library (the heat of combustion of solid carbon)."""
+        return self._reference(co2_formation_enthalpy())
 
     def formation_enthalpy_ammonia(self):
         """kJ/mol, NH3(g) at 298.15 K, from the chemicals library."""

@@ -27,6 +27,7 @@ class Inventory:
     reference_product: str = ""  # product of the reference activity: ammonia or hydrogen
     functional_unit: str = ""
     delivery: dict = field(default_factory=dict)  # voyage and cracking figures
+    co_products: dict = field(default_factory=dict)  # co-product, amount and how the burden was shared
 
 
 def build_inventory(params: dict, inputs) -> Inventory:
@@ -56,7 +57,8 @@ def build_inventory(params: dict, inputs) -> Inventory:
         gate=gate,
         reference_product=chain.product,
         functional_unit=functional_unit,
-        delivery=chain.figures,
+        delivery={key: value for key, value in chain.figures.items() if key != "co_products"},
+        co_products=chain.figures.get("co_products", {}),
     )
 
 

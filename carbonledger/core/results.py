@@ -94,6 +94,7 @@ class ScoreResult(BaseModel):
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]
     delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
+    co_products: dict[str, Any] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
 
     def to_json(self) -> str:
         return self.model_dump_json(indent=2)

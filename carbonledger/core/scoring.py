@@ -287,6 +287,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         exchanges=exchanges,
         parameters=params,
         delivery=_plain(inventory.delivery),
+        co_products=_plain(inventory.co_products),
     )
 
 

@@ -139,3 +139,23 @@ def hydrogen_liquefaction_states() -> dict[str, float]:
         "s_ambient_kj_per_kg_k": states["s_ambient"] / 1000.0,
         "ambient_temperature_k": AMBIENT_TEMPERATURE_K,
     }
+
+
+_CO2_CAS = "124-38-9"
+
+
+@functools.cache
+def _co2_formation_enthalpy_j_per_mol() -> float:
+    from chemicals.reaction import Hfg
+
+    return float(Hfg(_CO2_CAS))
+
+
+def co2_formation_enthalpy() -> ReferenceValue:
+    """Standard enthalpy of formation of CO2(g) at 298.15 K, kJ/mol (negative): the heat of combustion of graphite."""
+    return ReferenceValue(
+        id="reference.formation_enthalpy.co2_gas",
+        value=_co2_formation_enthalpy_j_per_mol() / 1000.0,
+        unit="kJ/mol",
+        source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, default method: Active Thermochemical Tables)",
+    )

@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 
 from . import HYDROGEN_ROUTES
+from .ammonia import starter as ammonia_starter
 
 _HEADER = """\
 # carbonledger project file. Every number below is a placeholder to replace with the
@@ -39,4 +40,7 @@ def normalise_choice(text: str) -> str:
 def starter_project(choice: str, product: str, name: str = "New project") -> str:
     route, text = starter_choices()[normalise_choice(choice)]
     quoted = json.dumps(name, ensure_ascii=False)  # a JSON string is a valid TOML basic string
-    return _HEADER.format(name=quoted, product=product, route=route) + text(product)
+    body = text(product)
+    if product == "ammonia" and "[ammonia]" not in body:  # routes that do not write their own ammonia block
+        body += ammonia_starter(product)
+    return _HEADER.format(name=quoted, product=product, route=route) + body

@@ -157,6 +157,10 @@ class SymbolicInputs:
         self._numeric.latent_heat_ammonia()
         return Term("{F:reference.latent_heat.ammonia}")
 
+    def formation_enthalpy_co2(self):
+        self._numeric.formation_enthalpy_co2()
+        return Term("{F:reference.formation_enthalpy.co2_gas}")
+
     def latent_heat_hydrogen(self):
         self._numeric.latent_heat_hydrogen()
         return Term("{F:reference.latent_heat.hydrogen}")
