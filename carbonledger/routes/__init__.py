@@ -11,6 +11,7 @@ from __future__ import annotations
 from . import (
     ammonia,
     ammonia_overland,
+    chlor_alkali,
     cracking,
     electricity,
     electrolysis,
@@ -32,6 +33,7 @@ REGISTRY: tuple[Route, ...] = (
     reforming.AUTOTHERMAL_REFORMING,
     electrolysis.ROUTE,
     methane_pyrolysis.ROUTE,
+    chlor_alkali.ROUTE,
     ammonia.ROUTE,
     ammonia_overland.AMMONIA_PIPELINE,
     ammonia_overland.AMMONIA_RAIL,

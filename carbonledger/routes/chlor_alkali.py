@@ -1,0 +1,77 @@
+"""By-product hydrogen from chlor-alkali electrolysis, the cell's burden shared with chlorine and
+sodium hydroxide by the project's rule (``none``: all on hydrogen; ``mass``; ``economic`` with the
+products' prices). Purification and compression of the hydrogen (``conditioning``) are charged
+to hydrogen whole. The result states what was done under ``co_products``.
+"""
+
+from __future__ import annotations
+
+from typing import Literal
+
+from ..model.project import P, Section
+from ..stages import chlor_alkali
+from .base import Activity, Route, SectionError
+from .electricity import starter as electricity_starter
+
+
+class ChlorAlkali(Section):
+    cell_electricity_kwh_per_kg_h2: float = P(unit="kWh/kg H2", description="Electricity of the cells and their plant per kg of hydrogen made (membrane cells: about 2,500 kWh per t Cl2)", gt=0)
+    allocation: Literal["none", "mass", "economic"] = P("none", description="How the cell's burden is shared with chlorine and sodium hydroxide")
+    hydrogen_price_per_kg: float = P(0.0, "currency/kg", "economic: price of the hydrogen", ge=0)
+    chlorine_price_per_kg: float = P(0.0, "currency/kg", "economic: price of the chlorine", ge=0)
+    sodium_hydroxide_price_per_kg: float = P(0.0, "currency/kg", "economic: price of the sodium hydroxide (as 100 % NaOH)", ge=0)
+
+
+def build(params: dict, inputs, chain) -> list[Activity]:
+    c = params["chlor_alkali"]
+    m_h2 = inputs.molar_mass("H2")
+    chlorine = chlor_alkali.chlorine_kg_per_kg_h2(inputs.molar_mass("Cl2"), m_h2)
+    caustic = chlor_alkali.sodium_hydroxide_kg_per_kg_h2(inputs.molar_mass("NaOH"), m_h2)
+    if c["allocation"] == "mass":
+        share = chlor_alkali.hydrogen_share_by_mass(chlorine, caustic)
+    elif c["allocation"] == "economic":
+        share = chlor_alkali.hydrogen_share_by_value(chlorine, caustic, c["hydrogen_price_per_kg"], c["chlorine_price_per_kg"], c["sodium_hydroxide_price_per_kg"])
+    else:
+        share = 1.0
+    plant = Activity("hydrogen_production", "hydrogen_production", "hydrogen, by-product of chlor-alkali electrolysis", "kg H2")
+    plant.consume("electricity_mix", c["cell_electricity_kwh_per_kg_h2"] * share + params["hydrogen"]["conditioning_kwh_per_kg_h2"], "electricity, cells (hydrogen's share) and conditioning", "kWh")
+    chain.figures["co_products"] = {
+        "co_product": "chlorine and sodium hydroxide",
+        "kg_per_kg_h2": {"chlorine": chlorine, "sodium_hydroxide": caustic},
+        "method": c["allocation"],
+        "hydrogen_share": share,
+    }
+    return [plant]
+
+
+def validate(project) -> None:
+    c = project.chlor_alkali
+    if c.allocation == "economic" and not (c.hydrogen_price_per_kg > 0 and c.chlorine_price_per_kg > 0 and c.sodium_hydroxide_price_per_kg > 0):
+        raise SectionError("chlor_alkali.hydrogen_price_per_kg", "prices above 0 for hydrogen, chlorine and sodium hydroxide, for allocation 'economic'")
+
+
+def metered(params: dict) -> dict[str, list[str]]:
+    return {"electricity": ["chlor_alkali.cell_electricity_kwh_per_kg_h2"]}
+
+
+def starter(product: str) -> str:
+    text = """
+[chlor_alkali]
+cell_electricity_kwh_per_kg_h2 = 88.0   # cells and plant per kg H2 (about 2,500 kWh/t Cl2 x 35.2 kg Cl2/kg H2)
+allocation = "mass"                     # none | mass | economic (then the three prices)
+"""
+    return text + electricity_starter(product, grid=True)
+
+
+ROUTE = Route(
+    name="chlor_alkali_by_product",
+    kind="hydrogen_route",
+    stages=("hydrogen_production",),
+    applies=lambda params: params["hydrogen"]["route"] == "chlor_alkali_by_product",
+    build=build,
+    sections={"chlor_alkali": ChlorAlkali},
+    validate=validate,
+    metered=metered,
+    starter=starter,
+    description="By-product hydrogen of chlor-alkali electrolysis, shared with chlorine and sodium hydroxide",
+)

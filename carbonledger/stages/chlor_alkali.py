@@ -1,0 +1,32 @@
+"""By-product hydrogen of chlor-alkali electrolysis: 2 NaCl + 2 H2O -> Cl2 + H2 + 2 NaOH.
+
+Per kg of hydrogen the cells also make chlorine and sodium hydroxide in fixed proportions (the
+molar masses of the reaction). The cell's burden is shared among the three products by the
+rule the project chooses; work done on the hydrogen alone (purification, compression) is
+charged to it whole.
+
+References
+----------
+.. [1] ISO 14044:2006, 4.3.4 (allocation by physical relationships, then by economic value).
+.. [2] European Commission, Best Available Techniques Reference Document for the Production of
+   Chlor-alkali (2014), ch. 2: the cell reaction and the co-production of chlorine, sodium
+   hydroxide and hydrogen.
+"""
+
+
+def chlorine_kg_per_kg_h2(molar_mass_cl2_g_per_mol, molar_mass_h2_g_per_mol):
+    return molar_mass_cl2_g_per_mol / molar_mass_h2_g_per_mol
+
+
+def sodium_hydroxide_kg_per_kg_h2(molar_mass_naoh_g_per_mol, molar_mass_h2_g_per_mol):
+    return 2.0 * molar_mass_naoh_g_per_mol / molar_mass_h2_g_per_mol
+
+
+def hydrogen_share_by_mass(chlorine_kg, sodium_hydroxide_kg):
+    """Share of the cell's burden on 1 kg of hydrogen when split by product mass [1]_."""
+    return 1.0 / (1.0 + chlorine_kg + sodium_hydroxide_kg)
+
+
+def hydrogen_share_by_value(chlorine_kg, sodium_hydroxide_kg, hydrogen_price, chlorine_price, sodium_hydroxide_price):
+    """Share on 1 kg of hydrogen when split by the products' value (prices per kg, one currency) [1]_."""
+    return hydrogen_price / (hydrogen_price + chlorine_kg * chlorine_price + sodium_hydroxide_kg * sodium_hydroxide_price)
