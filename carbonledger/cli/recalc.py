@@ -2,17 +2,17 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 from typing import Annotated
 
 import typer
 
 from .. import api
+from ..core.results import strict_json
 from ..errors import InputError
+from ..io.csv_text import csv_text
 from ..io.ledger import ledger_for_run, project_history, record_run
 from ..io.portfolio_output import (
-    csv_text,
     history_table,
     recalc_csv,
     recalc_json,
@@ -83,6 +83,6 @@ def history(
         for c in e["results"]["checks"]
     ]
     typer.echo(
-        render(output_format, table=lambda: history_table(str(project), entries), json=lambda: json.dumps(entries, indent=2, default=str), csv=lambda: csv_text(header, rows)),
+        render(output_format, table=lambda: history_table(str(project), entries), json=lambda: strict_json(entries, str(project)), csv=lambda: csv_text(header, rows)),
         nl=False,
     )

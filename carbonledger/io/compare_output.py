@@ -7,7 +7,8 @@ from pathlib import Path
 from ..analyses.compare import ComparisonResult
 from ..errors import InputError
 from .files import atomic_write
-from .tables import INTENSITY_UNITS, display_number
+from .csv_text import csv_text
+from .tables import INTENSITY_UNITS, display_number, plain_console
 
 CHART_FORMATS = ("png", "svg")
 
@@ -45,32 +46,25 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
             (f"check:{scheme}", "limit", unit, [c.limit if c else None for c in checks]),
             (f"check:{scheme}", "verdict", "", [("pass" if c.passes else "FAIL") if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
-            (f"check:{scheme}", "tier", "", [(c.tier or "-") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "from_memory", "", [("yes" if c.from_memory else "no") if c else "n/a" for c in checks]),
         ]
+    rows.append(("from_memory", "factors", "", ["; ".join(p.factors_from_memory) or "none" for p in projects]))
     return rows
 
 
 def comparison_csv(result: ComparisonResult) -> str:
-    import csv
-    import io
-
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(["section", "key", "unit"] + [_label(p) for p in result.projects])
-    for section, key, unit, values in comparison_rows(result):
-        writer.writerow([section, key, unit] + ["" if v is None else v for v in values])
-    return buffer.getvalue()
+    """Wide CSV: a column per project, the from-memory rows, and the caution row last."""
+    header = ["section", "key", "unit"] + [_label(p) for p in result.projects]
+    rows = [[section, key, unit] + ["" if v is None else v for v in values] for section, key, unit, values in comparison_rows(result)]
+    return csv_text(header, rows, caution=result.caution)
 
 
 def render_comparison(result: ComparisonResult) -> str:
-    from rich.console import Console
     from rich.table import Table
 
-    width = max(110, 34 + 22 * len(result.projects))
-    import io
-
-    console = Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
-    console.print(f"[bold]Comparison[/bold]: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    console = plain_console(max(110, 34 + 22 * len(result.projects)))
+    console.print(f"Comparison: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
     table = Table(show_header=True, show_lines=False)
     table.add_column("")
     table.add_column("unit")
@@ -87,9 +81,16 @@ def render_comparison(result: ComparisonResult) -> str:
         if section == "intensity":
             name = "per " + key.split("_per_")[1].replace("_", " ")
         cells = [v if isinstance(v, str) else display_number(v) for v in values]
+        if section == "from_memory":  # the ids are listed below the table
+            cells = [str(len(p.factors_from_memory)) for p in result.projects]
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
+    flagged = result.from_memory
+    if flagged["rulebooks"]:
+        console.print(f"Rulebooks or thresholds recorded from memory, not yet checked against the legal text: {', '.join(flagged['rulebooks'])}")
+    if flagged["factors"]:
+        console.print(f"Factors used that are flagged from memory (not checked against their document): {', '.join(flagged['factors'])}")
     console.print(f"Caution: {result.caution}")
     return console.export_text()
 
