@@ -24,7 +24,6 @@ import pytest
 from carbonledger import api
 from carbonledger.about import CAUTION
 from carbonledger.errors import InputError
-from carbonledger.io.csv_text import csv_text
 from carbonledger.io.files import atomic_write
 from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
@@ -137,7 +136,7 @@ def test_csv_format_is_csv_for_every_command(args):
 
 def _renamed(tmp_path, name: str, source=GREEN, file_name="named.toml"):
     text = source.read_text(encoding="utf-8")
-    text = re.sub(r'(?m)^name = ".*"$', "name = " + json.dumps(name), text, count=1)
+    text = re.sub(r'(?m)^name = ".*"$', lambda _: "name = " + json.dumps(name), text, count=1)
     return write(tmp_path / file_name, text)
 
 
@@ -205,6 +204,8 @@ def test_scoring_refuses_a_non_finite_check_value():
 
 
 def test_csv_cells_are_safe_in_a_spreadsheet():
+    from carbonledger.io.csv_text import csv_text
+
     text = csv_text(("a", "b", "c", "d", "e", "f", "g"), [("=1+1", "+x", "-x", "@x", "\tx", "\rx", -12.5), ("plain", "note\rwith return", "", None, True, 3, "-")])
     rows = list(csv.reader(io.StringIO(text)))
     # OWASP CSV injection: text cells starting with = + - @ tab CR get a leading single quote
@@ -255,3 +256,65 @@ def test_written_files_follow_the_umask(tmp_path):
     finally:
         os.umask(old)
     assert stat.S_IMODE(private.stat().st_mode) == 0o600
+
+
+# --- workbook text ------------------------------------------------------------------------------------
+
+
+def _total(result) -> float:
+    assert result.exit_code == 0, result.output
+    return _strict_json(result.stdout)["total"]
+
+
+@pytest.mark.parametrize(
+    "source_key, name",
+    [
+        ('"wind PPA no. 2"', "Skelmar Point (invented)"),  # a dot in an electricity source name
+        ('"wind\\u0001farm"', "Bell\\u0007plant\\u001f x"),  # control characters (TOML \\u escapes) in names
+    ],
+)
+def test_workbook_round_trip_keeps_names_with_dots_and_control_characters(tmp_path, source_key, name):
+    text = GREEN.read_text(encoding="utf-8").replace("[electricity.sources.wind]", f"[electricity.sources.{source_key}]")
+    text = re.sub(r'(?m)^name = ".*"$', lambda _: f'name = "{name}"', text, count=1)
+    project = write(tmp_path / "named.toml", text)
+    expected = _total(run_cli("score", project, "--format", "json", "--no-ledger"))
+    book = tmp_path / "named.xlsx"
+    written = run_cli("workbook", project, "-o", book, "--no-ledger")
+    assert written.exit_code == 0, written.output
+    back = run_cli("score", "--from-workbook", book, "--format", "json", "--no-ledger")
+    assert _total(back) == pytest.approx(expected, rel=1e-12)
+    data = _strict_json(back.stdout)
+    source = json.loads(source_key)  # the TOML quoted key is also a JSON string here
+    assert data["project"] == json.loads(f'"{name}"')
+    assert source in data["parameters"]["electricity"]["sources"]
+
+
+def test_workbook_refuses_text_longer_than_a_cell_holds(tmp_path, _ledger_in_tmp):
+    # Excel specifications and limits: a cell holds at most 32,767 characters
+    text = re.sub(r'(?m)^note = ".*"$', lambda _: 'note = "' + "x" * 32768 + '"', GREEN.read_text(encoding="utf-8"), count=1)
+    project = write(tmp_path / "long.toml", text)
+    book = tmp_path / "long.xlsx"
+    result = run_cli("workbook", project, "-o", book)
+    assert_one_line_error(result)
+    assert "project.note" in result.stderr and "32,767" in result.stderr
+    assert not book.exists()
+    assert not _ledger_in_tmp.exists() or _records(_ledger_in_tmp) == 0
+    exact = write(tmp_path / "exact.toml", text.replace("x" * 32768, "x" * 32767))
+    assert run_cli("workbook", exact, "-o", tmp_path / "exact.xlsx", "--no-ledger").exit_code == 0
+
+
+def test_workbook_states_the_caution_and_the_from_memory_flags(tmp_path):
+    import openpyxl
+
+    book = tmp_path / "green.xlsx"
+    assert run_cli("workbook", GREEN, "-o", book, "--no-ledger").exit_code == 0
+    workbook = openpyxl.load_workbook(book)
+    cover_text = " ".join(str(c.value) for row in workbook["Cover"].iter_rows() for c in row if c.value is not None)
+    assert CAUTION in cover_text
+    factors = workbook["Factors"]
+    header = [c.value for c in factors[4]]
+    flag_column = header.index("from memory") + 1
+    flagged = {factors.cell(row=r, column=1).value for r in range(5, factors.max_row + 1) if factors.cell(row=r, column=flag_column).value == "yes"}
+    assert flagged == {f.id for f in api.score(GREEN).factors_used if f.from_memory}
+    results_text = " ".join(str(c.value) for row in workbook["Results"].iter_rows() for c in row if c.value is not None)
+    assert CAUTION in results_text and "from memory" in results_text
