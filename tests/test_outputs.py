@@ -112,6 +112,12 @@ def test_the_flagged_factors_of_a_score_are_named_in_every_format(outputs):
     assert all(f in compare_rows["from_memory factors"][3] for f in flagged)
 
 
+def test_score_tables_name_the_project_file(outputs):
+    # the README's demo loop scores every demo project: each table must say which file it is
+    assert f"project file: {GREEN}" in outputs["score", "table"]
+    assert f"project file: {LIFETIME}" in outputs["score --lifetime", "table"]
+
+
 @pytest.mark.parametrize(
     "args",
     [

@@ -158,6 +158,7 @@ def lifetime_table(result) -> str:
     schemes = result.schemes
     lines = [
         f"{result.project}  ({result.product}, lifetime {result.operating_years} years)",
+        f"project file: {result.project_file}",
         f"factors: {result.factor_set} (sha256 {result.factor_set_sha256[:12]})   GWP100 of the total: {result.gwp.upper()}"
         + (f"   grid trajectory: {result.trajectory_source}" if result.trajectory_source else ""),
         "",

@@ -83,6 +83,7 @@ def render(result: ScoreResult) -> str:
 
     console = plain_console(110)
     console.print(f"{result.project}  ({result.product}, {result.boundary})")
+    console.print(f"project file: {result.project_file}")
     console.print(
         f"functional unit: {result.functional_unit}   GWP100: {result.gwp_basis.upper()}   "
         f"factors: {result.factor_set.name} (sha256 {result.factor_set.sha256[:12]})"
