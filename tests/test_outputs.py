@@ -20,12 +20,12 @@ import sqlite3
 import stat
 
 import pytest
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
 from carbonledger import api
 from carbonledger.about import CAUTION
 from carbonledger.errors import InputError
 from carbonledger.io.files import atomic_write
-from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
 GREY = DEMO / "grey_smr_ammonia.toml"

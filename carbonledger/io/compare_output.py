@@ -6,8 +6,8 @@ from pathlib import Path
 
 from ..analyses.compare import ComparisonResult
 from ..errors import InputError
-from .files import atomic_write
 from .csv_text import csv_text
+from .files import atomic_write
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 CHART_FORMATS = ("png", "svg")

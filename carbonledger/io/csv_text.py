@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import csv
 import io
-from typing import Iterable
+from collections.abc import Iterable
 
 FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 
