@@ -262,6 +262,10 @@ def test_written_files_follow_the_umask(tmp_path):
     finally:
         os.umask(old)
     assert stat.S_IMODE(private.stat().st_mode) == 0o600
+    # a file replaced with --force keeps its own mode
+    path.chmod(0o640)
+    atomic_write(path, lambda tmp: tmp.write_text("y", encoding="utf-8"), force=True)
+    assert stat.S_IMODE(path.stat().st_mode) == 0o640 and path.read_text(encoding="utf-8") == "y"
 
 
 # --- workbook text ------------------------------------------------------------------------------------
@@ -313,7 +317,12 @@ def test_workbook_states_the_caution_and_the_from_memory_flags(tmp_path):
     import openpyxl
 
     book = tmp_path / "green.xlsx"
-    assert run_cli("workbook", GREEN, "-o", book, "--no-ledger").exit_code == 0
+    old = os.umask(0o022)
+    try:
+        assert run_cli("workbook", GREEN, "-o", book, "--no-ledger").exit_code == 0
+    finally:
+        os.umask(old)
+    assert stat.S_IMODE(book.stat().st_mode) == 0o644  # POSIX: 0666 under umask 022
     workbook = openpyxl.load_workbook(book)
     cover_text = " ".join(str(c.value) for row in workbook["Cover"].iter_rows() for c in row if c.value is not None)
     assert CAUTION in cover_text
