@@ -82,7 +82,7 @@ def render_comparison(result: ComparisonResult) -> str:
             name = "per " + key.split("_per_")[1].replace("_", " ")
         cells = [v if isinstance(v, str) else display_number(v) for v in values]
         if section == "from_memory":  # the ids are listed below the table
-            cells = [str(len(p.factors_from_memory)) for p in result.projects]
+            name, unit, cells = "factors from memory", "count", [str(len(p.factors_from_memory)) for p in result.projects]
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
