@@ -100,6 +100,24 @@ def test_caution_and_from_memory_flags_in_every_format(outputs, name):
     assert any("from_memory" in cell for cell in rows[0]) or any("from_memory" in cell for row in rows for cell in row[:2])
 
 
+@pytest.mark.parametrize("output_format", ["table", "json", "csv"])
+def test_history_states_the_caution_and_the_flagged_factors(output_format):
+    assert run_cli("score", GREEN).exit_code == 0
+    result = run_cli("history", GREEN, "--format", output_format)
+    assert result.exit_code == 0, result.output
+    flagged = [f.id for f in api.score(GREEN).factors_used if f.from_memory]
+    if output_format == "table":
+        assert _words(CAUTION) in _words(result.stdout) and all(f in result.stdout for f in flagged)
+    elif output_format == "json":
+        data = _strict_json(result.stdout)
+        assert data["caution"] == CAUTION
+        assert [f["id"] for f in data["records"][0]["factors_used"] if f["from_memory"]] == flagged
+    else:
+        rows = _csv(result.stdout)
+        assert rows[-1][:2] == ["caution", CAUTION]
+        assert rows[1][rows[0].index("factors_from_memory")] == "; ".join(flagged)
+
+
 def test_the_flagged_factors_of_a_score_are_named_in_every_format(outputs):
     flagged = [f.id for f in api.score(GREEN).factors_used if f.from_memory]
     assert flagged, "the green demo uses factors recorded from memory (default-2026)"

@@ -225,9 +225,14 @@ def _why(changes: dict | None) -> list[str]:
     return why or ["nothing changed in inputs or factors"]
 
 
+def flagged_factors(entry: dict) -> list[str]:
+    """Ids of a ledger record's factors that were recorded from memory."""
+    return [factor["id"] for factor in entry.get("factors_used", []) if factor.get("from_memory")]
+
+
 def history_table(project_file: str, history: list[dict]) -> str:
     if not history:
-        return f"no runs of {project_file} in the ledger\n"
+        return f"no runs of {project_file} in the ledger\nCaution: {CAUTION}\n"
     lines = [f"history of {history[-1]['project']} ({project_file}): {len(history)} records", ""]
     previous_checks: dict[str, float] = {}
     for entry in history:
@@ -245,5 +250,9 @@ def history_table(project_file: str, history: list[dict]) -> str:
             previous_checks[check["scheme"]] = check["value"]
         for reason in _why(entry["changes"]):
             lines.append(f"    why: {reason}")
+        flagged = flagged_factors(entry)
+        if flagged:
+            lines.append(f"    factors from memory (not checked against their document): {', '.join(flagged)}")
         lines.append("")
-    return "\n".join(lines)
+    lines.append(f"Caution: {CAUTION}")
+    return "\n".join(lines) + "\n"
