@@ -351,3 +351,12 @@ def test_workbook_states_the_caution_and_the_from_memory_flags(tmp_path):
     assert flagged == {f.id for f in api.score(GREEN).factors_used if f.from_memory}
     results_text = " ".join(str(c.value) for row in workbook["Results"].iter_rows() for c in row if c.value is not None)
     assert CAUTION in results_text and "from memory" in results_text
+
+
+def test_a_chart_shows_a_file_name_with_dollar_signs(tmp_path):
+    # matplotlib reads text between $ signs as mathematical notation; a file name is not
+    project = write(tmp_path / "a$x^{2$b.toml", GREY.read_text(encoding="utf-8"))
+    chart = tmp_path / "chart.svg"
+    result = run_cli("compare", project, GREEN, "--chart", chart, "--no-ledger")
+    assert result.exit_code == 0, result.output
+    assert chart.stat().st_size > 0

@@ -95,6 +95,12 @@ def render_comparison(result: ComparisonResult) -> str:
     return console.export_text()
 
 
+def _chart_text(text: str) -> str:
+    """Text as typed on a matplotlib chart: a ``$`` would start mathematical notation (and an
+    unbalanced one fails to draw), so it is escaped."""
+    return text.replace("$", r"\$")
+
+
 def comparison_figure(result: ComparisonResult):
     """A matplotlib figure: one stacked bar per project by stage, scheme limits as lines."""
     import matplotlib
@@ -102,7 +108,7 @@ def comparison_figure(result: ComparisonResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    labels = [_label(p) for p in result.projects]
+    labels = [_chart_text(_label(p)) for p in result.projects]
     figure, axes = plt.subplots(figsize=(max(7.0, 1.5 * len(labels) + 3.5), 5.5), layout="constrained")
     colours = plt.get_cmap("tab20").colors
     positions = list(range(len(labels)))
@@ -118,7 +124,7 @@ def comparison_figure(result: ComparisonResult):
         below = [b + min(v, 0.0) for v, b in zip(values, below)]
     for position, project in zip(positions, result.projects):
         axes.annotate(display_number(project.value), (position, max(above[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
-    for limit, text in ((line.limit, line.label) for line in result.thresholds):
+    for limit, text in ((line.limit, _chart_text(line.label)) for line in result.thresholds):
         axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
         axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
     axes.set_xticks(positions, labels, rotation=20, ha="right", fontsize=8)
