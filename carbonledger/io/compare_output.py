@@ -47,7 +47,7 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
             (f"check:{scheme}", "verdict", "", [("pass" if c.passes else "FAIL") if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
             (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
-            (f"check:{scheme}", "from_memory", "", [("yes" if c.from_memory else "no") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "from_memory", "", [c.from_memory if c else "n/a" for c in checks]),
         ]
     rows.append(("from_memory", "factors", "", ["; ".join(p.factors_from_memory) or "none" for p in projects]))
     return rows
@@ -80,7 +80,7 @@ def render_comparison(result: ComparisonResult) -> str:
         name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
         if section == "intensity":
             name = "per " + key.split("_per_")[1].replace("_", " ")
-        cells = [v if isinstance(v, str) else display_number(v) for v in values]
+        cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
         if section == "from_memory":  # the ids are listed below the table
             name, unit, cells = "factors from memory", "count", [str(len(p.factors_from_memory)) for p in result.projects]
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
