@@ -58,7 +58,7 @@ def test_score_table_and_csv():
     assert table.returncode == 0
     assert "kg CO2e/t NH3" in table.stdout and "Caution" in table.stdout
     csv_out = run("score", GREEN, "--format", "csv")
-    assert csv_out.stdout.splitlines()[0] == "section,key,value,unit"
+    assert csv_out.stdout.splitlines()[0] == "section,key,value,unit,from_memory"
     assert any(line.startswith("total,total,") for line in csv_out.stdout.splitlines())
 
 

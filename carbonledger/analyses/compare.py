@@ -9,10 +9,10 @@ or projects left on different boundaries, are refused with one line saying why.
 
 from __future__ import annotations
 
-from pydantic import BaseModel, PrivateAttr
+from pydantic import BaseModel, PrivateAttr, computed_field
 
 from ..about import CAUTION
-from ..core.results import Check, ScoreResult
+from ..core.results import Check, ScoreResult, strict_json
 from ..core.scoring import intensities, rulebooks
 from ..errors import InputError
 from ..model.rulebooks import scheme_ids
@@ -70,8 +70,17 @@ class ComparisonResult(BaseModel):
     def scores(self) -> list:
         return self._scores
 
+    @computed_field
+    @property
+    def from_memory(self) -> dict[str, list[str]]:
+        """Ids of the factors used and rulebooks checked (by any project) recorded from memory."""
+        return {
+            "factors": sorted({key for project in self.projects for key in project.factors_from_memory}),
+            "rulebooks": sorted({check.scheme for project in self.projects for check in project.checks if check.from_memory}),
+        }
+
     def to_json(self) -> str:
-        return self.model_dump_json(indent=2)
+        return strict_json(self.model_dump(mode="json"), "compare")
 
 
 def common_basis(reference_products: list[str], requested: str = "auto") -> str:

@@ -39,6 +39,7 @@ class LifetimeYear:
     total: float
     scheme_values: dict[str, float]
     passes: dict[str, bool]  # under each scheme's rule (construction added where the rulebook counts it)
+    factors_from_memory: list[str] = field(default_factory=list)  # ids of that year's factors recorded from memory
 
 
 @dataclass
@@ -52,6 +53,7 @@ class LifetimeScheme:
     lifetime_value: float  # the average the rulebook asks for
     passes: bool
     years_missed: list[int] = field(default_factory=list)
+    from_memory: bool = False  # the rulebook or a threshold was recorded from memory
 
 
 @dataclass
@@ -76,6 +78,14 @@ class LifetimeResult:
     boundary: str = ""
     parameters: dict = field(default_factory=dict)
     factors_used: list[dict] = field(default_factory=list)  # first operating year's rows
+
+    @property
+    def from_memory(self) -> dict[str, list[str]]:
+        """Ids of the factors used (any year) and of the rulebooks checked that were recorded from memory."""
+        return {
+            "factors": sorted({key for year in self.years for key in year.factors_from_memory}),
+            "rulebooks": [s.scheme for s in self.schemes if s.from_memory],
+        }
 
     def summary(self) -> dict:
         """The compact result stored in the run ledger."""
@@ -240,6 +250,7 @@ def lifetime_score(
                 lifetime_value=lifetime_value,
                 passes=rulebook.evaluate(lifetime_value)["passes"],
                 years_missed=missed,
+                from_memory=check.from_memory,
             )
         )
     years = []
@@ -256,6 +267,7 @@ def lifetime_score(
                 total=score.total,
                 scheme_values={check.scheme: check.value for check in score.checks},
                 passes=yearly_pass[index],
+                factors_from_memory=score.from_memory["factors"],
             )
         )
     return LifetimeResult(
@@ -279,5 +291,5 @@ def lifetime_score(
         boundary=project.project.boundary,
         parameters=project.model_dump(),
         factors_used=[factor.model_dump() for factor in first.factors_used]
-        + ([{"id": f"trajectory.{row.year}", "value": row.value, "unit": row.unit, "source": row.source, "year": row.year} for _, row in sorted(trajectory.items())] if trajectory else []),
+        + ([{"id": f"trajectory.{row.year}", "value": row.value, "unit": row.unit, "source": row.source, "year": row.year, "from_memory": row.from_memory} for _, row in sorted(trajectory.items())] if trajectory else []),
     )

@@ -37,6 +37,7 @@ from pathlib import Path
 from ..core.scoring import score_project
 from ..errors import InputError
 from ..model.factors import read_csv_text
+from ..model.project import split_path
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import metered_parameters
 from ..routes.project import validate_project
@@ -77,7 +78,7 @@ def scaled_parameters(params: dict) -> tuple[list[str], list[str]]:
 
 def _get(tree: dict, path: str):
     node = tree
-    for part in path.split("."):
+    for part in split_path(path):
         if not isinstance(node, dict) or node.get(part) is None:
             return None
         node = node[part]
@@ -224,7 +225,7 @@ def month_parameters(meters: Meters, number: int, project, factor_set, design) -
 
 
 def _set(tree: dict, path: str, value) -> None:
-    parts = path.split(".")
+    parts = split_path(path)
     node = tree
     for part in parts[:-1]:
         node = node[part]

@@ -19,7 +19,7 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..core.results import FactorSetRef, ScoreResult
@@ -112,6 +112,8 @@ class RecalcRow:
     new_passes: bool
     status: str  # one of STATUSES
     rescored: bool  # False when none of the project's factors changed and the old result was reused
+    rulebook_from_memory: bool = False  # the scheme's rulebook or a threshold was recorded from memory
+    factors_from_memory: list[str] = field(default_factory=list)  # ids of the new result's factors recorded from memory
 
 
 @dataclass
@@ -125,6 +127,14 @@ class Recalc:
     old_scores: list[ScoreResult]
     new_scores: list[ScoreResult]
     rescored: int = 0  # projects that use a changed factor (the others kept their old result)
+
+    @property
+    def from_memory(self) -> dict[str, list[str]]:
+        """Ids of the factors and rulebooks behind the new results that were recorded from memory."""
+        return {
+            "factors": sorted({key for score in self.new_scores for key in score.from_memory["factors"]}),
+            "rulebooks": sorted({key for score in self.new_scores for key in score.from_memory["rulebooks"]}),
+        }
 
     @property
     def newly_failing(self) -> list[RecalcRow]:
@@ -180,6 +190,8 @@ def recalc(
                     new_passes=after.passes,
                     status=status_of(check.passes, after.passes),
                     rescored=number in rescored_numbers,
+                    rulebook_from_memory=after.from_memory,
+                    factors_from_memory=new.from_memory["factors"],
                 )
             )
     order = {"newly fails": 0, "newly passes": 1}

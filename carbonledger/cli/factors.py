@@ -2,14 +2,16 @@
 
 from __future__ import annotations
 
-import json
 from dataclasses import asdict
 from typing import Annotated
 
 import typer
 
+from ..about import CAUTION
+from ..core.results import strict_json
 from ..errors import InputError
-from ..io.portfolio_output import csv_text, diff_rows, diff_table, sets_table
+from ..io.csv_text import csv_text
+from ..io.portfolio_output import diff_rows, diff_table, sets_table
 from ..model.factors import FACTOR_COLUMNS, diff_sets, load_factor_set, set_listing
 from .options import FactorsOption, FormatOption, OutputFormat, fail, render
 
@@ -30,14 +32,25 @@ def factors_list(
         width = max((len(f.id) for f in rows), default=10)
         lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}); * = from memory, not checked against the document"]
         lines += [f"{'*' if f.from_memory else ' '} {f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.source[:60]}" for f in rows]
-        return "\n".join(lines)
+        return "\n".join(lines + [f"Caution: {CAUTION}"])
+
+    def json_text() -> str:
+        return strict_json(
+            {
+                "caution": CAUTION,
+                "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256},
+                "from_memory": {"factors": [f.id for f in rows if f.from_memory]},
+                "factors": [asdict(f) for f in rows],
+            },
+            factor_set.name,
+        )
 
     typer.echo(
         render(
             output_format,
             table=table,
-            json=lambda: json.dumps([asdict(f) for f in rows], indent=2),
-            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(f, column) for column in FACTOR_COLUMNS) for f in rows]),
+            json=json_text,
+            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(f, column) for column in FACTOR_COLUMNS) for f in rows], caution=CAUTION),
         ),
         nl=False,
     )
@@ -61,15 +74,16 @@ def factors_show(
         ("year", factor.year or "-"),
         ("region", factor.region or "-"),
         ("note", factor.note or "-"),
-        ("checked against document", "no (from memory)" if factor.from_memory else "yes"),
+        ("recorded from memory", "yes (not checked against the document)" if factor.from_memory else "no (checked against the document)"),
         ("file", factor.origin),
+        ("caution", CAUTION),
     )
     typer.echo(
         render(
             output_format,
             table=lambda: "\n".join(f"{label:>26}: {value}" for label, value in shown),
-            json=lambda: json.dumps(asdict(factor), indent=2),
-            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)]),
+            json=lambda: strict_json({"caution": CAUTION, **asdict(factor)}, factor.id),
+            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)], caution=CAUTION),
         ),
         nl=False,
     )
@@ -83,7 +97,7 @@ def factors_sets(output_format: FormatOption = OutputFormat.table) -> None:
         fail(error)
     keys = ("name", "date", "sha256", "base", "factors", "description")
     typer.echo(
-        render(output_format, table=lambda: sets_table(sets), json=lambda: json.dumps(sets, indent=2), csv=lambda: csv_text(keys, [tuple(s[k] for k in keys) for s in sets])),
+        render(output_format, table=lambda: sets_table(sets), json=lambda: strict_json(sets, "factors sets"), csv=lambda: csv_text(keys, [tuple(s[k] for k in keys) for s in sets])),
         nl=False,
     )
 
@@ -105,8 +119,11 @@ def factors_diff(
         render(
             output_format,
             table=lambda: diff_table(old_set.name, new_set.name, changes),
-            json=lambda: json.dumps({"old": {"name": old_set.name, "sha256": old_set.sha256}, "new": {"name": new_set.name, "sha256": new_set.sha256}, "changes": rows}, indent=2),
-            csv=lambda: csv_text(keys, [tuple(r.get(k, "") for k in keys) for r in rows]),
+            json=lambda: strict_json(
+                {"caution": CAUTION, "old": {"name": old_set.name, "sha256": old_set.sha256}, "new": {"name": new_set.name, "sha256": new_set.sha256}, "changes": rows},
+                f"{old} -> {new}",
+            ),
+            csv=lambda: csv_text(keys, [tuple(r.get(k, "") for k in keys) for r in rows], caution=CAUTION),
         ),
         nl=False,
     )

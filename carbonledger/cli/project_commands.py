@@ -2,19 +2,21 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 from typing import Annotated, Optional
 
 import typer
 
 from .. import api
+from ..about import CAUTION
+from ..core.results import strict_json
 from ..errors import InputError
+from ..io.csv_text import csv_text
 from ..io.files import atomic_write
 from ..io.ledger import ledger_for_run, record_run
 from ..io.portfolio_output import lifetime_csv, lifetime_json, lifetime_table
-from ..io.tables import csv_rows, to_csv
 from ..io.tables import render as render_score
+from ..io.tables import score_csv
 from ..model.project import parameter_table
 from ..model.rulebooks import load_schemes
 from ..routes.project import load_project
@@ -65,7 +67,7 @@ def score(
                 result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary)
             else:
                 result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
-            text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: to_csv(csv_rows(result)))
+            text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
             command, kind = "score", "score"
         if where is not None:
             record_run(command, [result], ledger=where, kind=kind)
@@ -94,8 +96,8 @@ def params(
         render(
             output_format,
             table=table,
-            json=lambda: json.dumps([{"path": p, "value": v, "unit": u, "description": d} for p, v, u, d in rows], indent=2),
-            csv=lambda: to_csv([("parameter", p, v, u) for p, v, u, _ in rows]),
+            json=lambda: strict_json([{"path": p, "value": v, "unit": u, "description": d} for p, v, u, d in rows], str(project)),
+            csv=lambda: csv_text(("section", "key", "value", "unit"), [("parameter", p, v, u) for p, v, u, _ in rows]),
         ),
         nl=False,
     )
@@ -113,21 +115,26 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
         for s in books.values():
             tiers = "; ".join(f"{'<=' if t.inclusive else '<'} {t.limit:g}: {t.tier}" for t in sorted(s.thresholds, key=lambda t: -t.limit))
             lines += [
-                f"{s.id}{' *' if s.from_memory else ''}: {s.name}",
+                f"{s.id}{' *' if s.from_memory or any(t.from_memory for t in s.thresholds) else ''}: {s.name}",
                 f"    products {', '.join(s.products)}; limits {s.quantity} [{s.unit}] on {s.basis.replace('_', ' ')}; boundary {s.boundary}",
                 f"    GWP100 {s.gwp.upper()}; electricity {s.electricity.replace('_', ' ')}; thresholds {tiers}",
                 f"    source: {s.document}",
             ]
-        return "\n".join(lines + ["* recorded from memory, not yet checked against the legal text"])
+        return "\n".join(lines + ["* recorded from memory, not yet checked against the legal text", f"Caution: {CAUTION}"])
 
     def csv() -> str:
-        rows = [("scheme", "name", "tier", "limit", "inclusive", "unit", "quantity", "basis", "gwp", "electricity", "from_memory", "source")]
+        header = ("scheme", "name", "tier", "limit", "inclusive", "unit", "quantity", "basis", "gwp", "electricity", "from_memory", "source")
+        rows = []
         for s in books.values():
             for t in s.thresholds:
                 rows.append((s.id, s.name, t.tier, t.limit, t.inclusive, s.unit, s.quantity, s.basis, s.gwp, s.electricity, s.from_memory or t.from_memory, t.source))
-        return to_csv(rows)
+        return csv_text(header, rows, caution=CAUTION)
 
-    typer.echo(render(output_format, table=table, json=lambda: json.dumps([s.model_dump() for s in books.values()], indent=2), csv=csv), nl=False)
+    def json_text() -> str:
+        flagged = [s.id for s in books.values() if s.from_memory or any(t.from_memory for t in s.thresholds)]
+        return strict_json({"caution": CAUTION, "from_memory": {"rulebooks": flagged}, "schemes": [s.model_dump() for s in books.values()]}, "schemes")
+
+    typer.echo(render(output_format, table=table, json=json_text, csv=csv), nl=False)
 
 
 def init(

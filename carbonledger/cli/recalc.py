@@ -2,17 +2,19 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 from typing import Annotated
 
 import typer
 
 from .. import api
+from ..about import CAUTION
+from ..core.results import strict_json
 from ..errors import InputError
+from ..io.csv_text import csv_text
 from ..io.ledger import ledger_for_run, project_history, record_run
 from ..io.portfolio_output import (
-    csv_text,
+    flagged_factors,
     history_table,
     recalc_csv,
     recalc_json,
@@ -76,13 +78,18 @@ def history(
         entries = project_history(project, ledger)
     except InputError as error:
         fail(error)
-    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes")
+    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes", "factors_from_memory")
     rows = [
-        (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c["passes"])
+        (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c["passes"], "; ".join(flagged_factors(e)))
         for e in entries
         for c in e["results"]["checks"]
     ]
     typer.echo(
-        render(output_format, table=lambda: history_table(str(project), entries), json=lambda: json.dumps(entries, indent=2, default=str), csv=lambda: csv_text(header, rows)),
+        render(
+            output_format,
+            table=lambda: history_table(str(project), entries),
+            json=lambda: strict_json({"caution": CAUTION, "project_file": str(project), "records": entries}, str(project)),
+            csv=lambda: csv_text(header, rows, caution=CAUTION),
+        ),
         nl=False,
     )

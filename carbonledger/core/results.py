@@ -6,9 +6,29 @@ JSON documented in the README.
 
 from __future__ import annotations
 
+import json
 from typing import Any
 
-from pydantic import BaseModel
+from pydantic import BaseModel, computed_field
+
+from ..errors import InputError
+
+
+def _plain_number(value: Any) -> Any:
+    """numpy scalars as Python numbers; anything else JSON cannot hold as text."""
+    return value.item() if hasattr(value, "item") else str(value)
+
+
+def strict_json(data: Any, where: str = "result") -> str:
+    """JSON text that any JSON parser reads: NaN and infinities are refused, never written.
+
+    (Python's ``json`` writes ``NaN``/``Infinity`` by default, which is not JSON (RFC 8259, section 6);
+    pydantic's own JSON turns them into ``null``, which would hide a broken result.)
+    """
+    try:
+        return json.dumps(data, indent=2, allow_nan=False, default=_plain_number)
+    except ValueError:
+        raise InputError(where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)") from None
 
 
 class FactorSetRef(BaseModel):
@@ -96,8 +116,17 @@ class ScoreResult(BaseModel):
     delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
     co_products: dict[str, Any] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
 
+    @computed_field
+    @property
+    def from_memory(self) -> dict[str, list[str]]:
+        """Ids of the factors used and of the rulebooks checked that were recorded from memory."""
+        return {
+            "factors": [factor.id for factor in self.factors_used if factor.from_memory],
+            "rulebooks": [check.scheme for check in self.checks if check.from_memory],
+        }
+
     def to_json(self) -> str:
-        return self.model_dump_json(indent=2)
+        return strict_json(self.model_dump(mode="json"), self.project_file)
 
     def summary(self) -> dict:
         """The compact figures stored in the run ledger."""

@@ -256,7 +256,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         heating["ammonia_lhv"] = prepared.ammonia_lhv
     every = intensities(total, reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
     factor_set = prepared.factor_set
-    return ScoreResult(
+    return finite_result(ScoreResult(
         carbonledger_version=__version__,
         caution=CAUTION,
         project=params["project"]["name"],
@@ -288,12 +288,34 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         parameters=params,
         delivery=_plain(inventory.delivery),
         co_products=_plain(inventory.co_products),
-    )
+    ))
+
+
+def refuse_non_finite(source: str, field: str, value: float | None) -> None:
+    """A total or scheme value that is NaN or infinite is an error naming the project, never an output."""
+    if value is not None and not np.isfinite(value):
+        raise InputError(source, field, f"a finite result (the inputs give {value}; look for an infinite, missing or huge input or factor)")
+
+
+def finite_result(result: ScoreResult) -> ScoreResult:
+    """The result itself when its total, intensities, stages, gases and scheme values are all finite."""
+    refuse_non_finite(result.project_file, "total", result.total)
+    for key, value in result.intensity.model_dump().items():
+        refuse_non_finite(result.project_file, f"intensity.{key}", value)
+    refuse_non_finite(result.project_file, "hydrogen_production_kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2)
+    for group, values in (("by_stage", result.by_stage), ("by_gas", result.by_gas)):
+        for key, value in values.items():
+            refuse_non_finite(result.project_file, f"{group}.{key}", value)
+    for check in result.checks:
+        refuse_non_finite(result.project_file, f"check {check.scheme}", check.value)
+    return result
 
 
 def _check_agreement(prepared: Prepared, solutions: dict, bw_score: float, what: str) -> None:
     fast = float(solutions[prepared.inventory.reference].contributions(prepared.headline).sum())
-    if not np.isfinite(fast) or not np.isclose(fast, bw_score, **AGREEMENT):
+    refuse_non_finite(prepared.source, "total", fast)
+    refuse_non_finite(prepared.source, "total", bw_score)
+    if not np.isclose(fast, bw_score, **AGREEMENT):
         raise RuntimeError(f"{what} disagrees with bw2calc for {prepared.source}: {fast} vs {bw_score}")
 
 

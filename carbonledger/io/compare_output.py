@@ -6,8 +6,9 @@ from pathlib import Path
 
 from ..analyses.compare import ComparisonResult
 from ..errors import InputError
+from .csv_text import csv_text
 from .files import atomic_write
-from .tables import INTENSITY_UNITS, display_number
+from .tables import INTENSITY_UNITS, display_number, plain_console
 
 CHART_FORMATS = ("png", "svg")
 
@@ -45,32 +46,25 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
             (f"check:{scheme}", "limit", unit, [c.limit if c else None for c in checks]),
             (f"check:{scheme}", "verdict", "", [("pass" if c.passes else "FAIL") if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
-            (f"check:{scheme}", "tier", "", [(c.tier or "-") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "from_memory", "", [c.from_memory if c else "n/a" for c in checks]),
         ]
+    rows.append(("from_memory", "factors", "", ["; ".join(p.factors_from_memory) or "none" for p in projects]))
     return rows
 
 
 def comparison_csv(result: ComparisonResult) -> str:
-    import csv
-    import io
-
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(["section", "key", "unit"] + [_label(p) for p in result.projects])
-    for section, key, unit, values in comparison_rows(result):
-        writer.writerow([section, key, unit] + ["" if v is None else v for v in values])
-    return buffer.getvalue()
+    """Wide CSV: a column per project, the from-memory rows, and the caution row last."""
+    header = ["section", "key", "unit"] + [_label(p) for p in result.projects]
+    rows = [[section, key, unit] + ["" if v is None else v for v in values] for section, key, unit, values in comparison_rows(result)]
+    return csv_text(header, rows, caution=result.caution)
 
 
 def render_comparison(result: ComparisonResult) -> str:
-    from rich.console import Console
     from rich.table import Table
 
-    width = max(110, 34 + 22 * len(result.projects))
-    import io
-
-    console = Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
-    console.print(f"[bold]Comparison[/bold]: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    console = plain_console(max(110, 34 + 22 * len(result.projects)))
+    console.print(f"Comparison: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
     table = Table(show_header=True, show_lines=False)
     table.add_column("")
     table.add_column("unit")
@@ -86,12 +80,25 @@ def render_comparison(result: ComparisonResult) -> str:
         name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
         if section == "intensity":
             name = "per " + key.split("_per_")[1].replace("_", " ")
-        cells = [v if isinstance(v, str) else display_number(v) for v in values]
+        cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
+        if section == "from_memory":  # the ids are listed below the table
+            name, unit, cells = "factors from memory", "count", [str(len(p.factors_from_memory)) for p in result.projects]
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
+    flagged = result.from_memory
+    if flagged["rulebooks"]:
+        console.print(f"Rulebooks or thresholds recorded from memory, not yet checked against the legal text: {', '.join(flagged['rulebooks'])}")
+    if flagged["factors"]:
+        console.print(f"Factors used that are flagged from memory (not checked against their document): {', '.join(flagged['factors'])}")
     console.print(f"Caution: {result.caution}")
     return console.export_text()
+
+
+def _chart_text(text: str) -> str:
+    """Text as typed on a matplotlib chart: a ``$`` would start mathematical notation (and an
+    unbalanced one fails to draw), so it is escaped."""
+    return text.replace("$", r"\$")
 
 
 def comparison_figure(result: ComparisonResult):
@@ -101,7 +108,7 @@ def comparison_figure(result: ComparisonResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    labels = [_label(p) for p in result.projects]
+    labels = [_chart_text(_label(p)) for p in result.projects]
     figure, axes = plt.subplots(figsize=(max(7.0, 1.5 * len(labels) + 3.5), 5.5), layout="constrained")
     colours = plt.get_cmap("tab20").colors
     positions = list(range(len(labels)))
@@ -117,7 +124,7 @@ def comparison_figure(result: ComparisonResult):
         below = [b + min(v, 0.0) for v, b in zip(values, below)]
     for position, project in zip(positions, result.projects):
         axes.annotate(display_number(project.value), (position, max(above[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
-    for limit, text in ((line.limit, line.label) for line in result.thresholds):
+    for limit, text in ((line.limit, _chart_text(line.label)) for line in result.thresholds):
         axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
         axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
     axes.set_xticks(positions, labels, rotation=20, ha="right", fontsize=8)

@@ -3,9 +3,10 @@
 from __future__ import annotations
 
 import os
+import stat
 import tempfile
+from collections.abc import Callable
 from pathlib import Path
-from typing import Callable
 
 from ..errors import InputError
 
@@ -13,7 +14,9 @@ from ..errors import InputError
 def atomic_write(path: str | Path, write: Callable[[Path], None], force: bool = False, option: str = "--force") -> Path:
     """Call ``write(tmp_path)`` on a temporary file beside ``path``, then rename it into place.
 
-    An existing file is left untouched unless ``force``; a failure leaves no partial file.
+    An existing file is left untouched unless ``force``; a failure leaves no partial file. The
+    file gets the mode a newly created file gets (0666 less the umask), or keeps the mode of the
+    file it replaces: the temporary file's private 0600 is not passed on.
     """
     target = Path(path)
     if target.is_dir():
@@ -30,7 +33,9 @@ def atomic_write(path: str | Path, write: Callable[[Path], None], force: bool = 
     os.close(handle)
     temporary_path = Path(temporary)
     try:
+        mode = stat.S_IMODE(target.stat().st_mode) if target.is_file() else 0o666 & ~current_umask()
         write(temporary_path)
+        os.chmod(temporary_path, mode)
         os.replace(temporary_path, target)
     except OSError as error:
         raise InputError(target, "", f"a path that can be written ({error.strerror}); nothing was written") from None
@@ -38,3 +43,10 @@ def atomic_write(path: str | Path, write: Callable[[Path], None], force: bool = 
         if temporary_path.exists():
             temporary_path.unlink()
     return target
+
+
+def current_umask() -> int:
+    """The process umask (read by setting it and putting it back at once)."""
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask

@@ -5,21 +5,18 @@ They read result objects and never recompute.
 
 from __future__ import annotations
 
-import csv
-import io
-import json
 from dataclasses import asdict
 
 from ..about import CAUTION
+from ..core.results import strict_json
+from .csv_text import csv_text
 from .tables import display_number
 
+FROM_MEMORY_RULEBOOK = "* rulebook or threshold recorded from memory, not yet checked against the legal text"
 
-def csv_text(header: tuple, rows: list[tuple]) -> str:
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(header)
-    writer.writerows(rows)
-    return buffer.getvalue()
+
+def _flagged_factors(ids: list[str]) -> str:
+    return f"Factors used that are flagged from memory (not checked against their document): {', '.join(ids) or 'none'}"
 
 
 def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozenset()) -> str:
@@ -33,13 +30,17 @@ def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozense
 
 # --- recalc ------------------------------------------------------------------------------------
 
-RECALC_COLUMNS = ("status", "project_file", "project", "scheme", "old_value", "new_value", "change", "unit", "limit", "old_passes", "new_passes", "rescored")
+RECALC_COLUMNS = (
+    "status", "project_file", "project", "scheme", "old_value", "new_value", "change", "unit", "limit",
+    "old_passes", "new_passes", "rescored", "rulebook_from_memory", "factors_from_memory",
+)  # fmt: skip
 
 
 def recalc_json(recalc) -> str:
-    return json.dumps(
+    return strict_json(
         {
             "caution": CAUTION,
+            "from_memory": recalc.from_memory,
             "from": {"name": recalc.old_set, "sha256": recalc.old_sha256},
             "to": {"name": recalc.new_set, "sha256": recalc.new_sha256},
             "changed_factors": recalc.changed_factors,
@@ -48,12 +49,13 @@ def recalc_json(recalc) -> str:
             "newly_failing": len(recalc.newly_failing),
             "rows": [{key: getattr(row, key) for key in RECALC_COLUMNS} for row in recalc.rows],
         },
-        indent=2,
+        "recalc",
     )
 
 
 def recalc_csv(recalc) -> str:
-    return csv_text(RECALC_COLUMNS, [tuple(getattr(row, key) for key in RECALC_COLUMNS) for row in recalc.rows])
+    rows = [tuple("; ".join(value) if isinstance(value, list) else value for value in (getattr(row, key) for key in RECALC_COLUMNS)) for row in recalc.rows]
+    return csv_text(RECALC_COLUMNS, rows, caution=CAUTION)
 
 
 def recalc_table(recalc) -> str:
@@ -68,7 +70,7 @@ def recalc_table(recalc) -> str:
         [
             row.status.upper() if row.status.startswith("newly") else row.status,
             row.project,
-            row.scheme,
+            row.scheme + (" *" if row.rulebook_from_memory else ""),
             display_number(row.old_value),
             display_number(row.new_value),
             f"{row.change:+.4g}",
@@ -80,7 +82,8 @@ def recalc_table(recalc) -> str:
     body = _table(["status", "project", "scheme", "old", "new", "change", "unit", "limit"], rows, {"old", "new", "change", "limit"})
     newly = recalc.newly_failing
     tail = f"\n{len(newly)} project-scheme pairs newly fail" + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "") + "\n"
-    return head + body + tail + f"Caution: {CAUTION}\n"
+    flags = (FROM_MEMORY_RULEBOOK + "\n" if any(row.rulebook_from_memory for row in recalc.rows) else "") + _flagged_factors(recalc.from_memory["factors"]) + "\n"
+    return head + body + tail + flags + f"Caution: {CAUTION}\n"
 
 
 # --- factor sets ---------------------------------------------------------------------------------
@@ -109,11 +112,19 @@ def diff_rows(changes) -> list[dict]:
 
 def diff_table(old_name: str, new_name: str, changes) -> str:
     rows = [
-        [r["kind"], r["id"], "-" if r["old_value"] is None else f"{r['old_value']:g}", "-" if r["new_value"] is None else f"{r['new_value']:g}", r["unit"], (r["new_source"] or r["old_source"])[:70]]
+        [
+            r["kind"],
+            ("* " if r["from_memory"] else "  ") + r["id"],
+            "-" if r["old_value"] is None else f"{r['old_value']:g}",
+            "-" if r["new_value"] is None else f"{r['new_value']:g}",
+            r["unit"],
+            (r["new_source"] or r["old_source"])[:70],
+        ]
         for r in diff_rows(changes)
     ]
     head = f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, {sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} removed\n"
-    return head + (_table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}) if rows else "")
+    body = _table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}) if rows else ""
+    return head + body + "* = value recorded from memory, not checked against the document\n" + f"Caution: {CAUTION}\n"
 
 
 # --- lifetime ------------------------------------------------------------------------------------
@@ -122,26 +133,32 @@ def diff_table(old_name: str, new_name: str, changes) -> str:
 def lifetime_json(result) -> str:
     data = asdict(result)
     data["caution"] = CAUTION
-    return json.dumps(data, indent=2, default=float)
+    data["from_memory"] = result.from_memory
+    return strict_json(data, result.project_file)
 
 
 def lifetime_csv(result) -> str:
+    """One row per operating year, then the two lifetime averages; the ``from_memory`` column lists
+    the factors of each year, and on the average rows the rulebooks, recorded from memory."""
     schemes = [s.scheme for s in result.schemes]
-    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes)
+    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + ("from_memory",)
     rows = [
         (y.year, y.stack_age_years, y.efficiency_fraction, y.output_t, "" if y.grid_factor is None else y.grid_factor, y.grid_factor_unit, y.total, result.unit)
         + tuple(y.scheme_values[s] for s in schemes)
+        + ("; ".join(y.factors_from_memory),)
         for y in result.years
     ]
-    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes))
-    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes))
-    return csv_text(header, rows)
+    rulebooks = "; ".join(result.from_memory["rulebooks"])
+    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes) + (rulebooks,))
+    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes) + (rulebooks,))
+    return csv_text(header, rows, caution=CAUTION)
 
 
 def lifetime_table(result) -> str:
     schemes = result.schemes
     lines = [
         f"{result.project}  ({result.product}, lifetime {result.operating_years} years)",
+        f"project file: {result.project_file}",
         f"factors: {result.factor_set} (sha256 {result.factor_set_sha256[:12]})   GWP100 of the total: {result.gwp.upper()}"
         + (f"   grid trajectory: {result.trajectory_source}" if result.trajectory_source else ""),
         "",
@@ -163,7 +180,7 @@ def lifetime_table(result) -> str:
     lines.append("")
     rows = [
         [
-            s.scheme,
+            s.scheme + (" *" if s.from_memory else ""),
             display_number(s.average_without_construction),
             display_number(s.average_with_construction),
             "yes" if s.counts_construction else "no *",
@@ -177,6 +194,9 @@ def lifetime_table(result) -> str:
     ]
     lines.append(_table(["scheme", "avg without", "avg with", "counts construction", "lifetime value", "limit", "unit", "verdict", "years missed"], rows, {"avg without", "avg with", "lifetime value", "limit"}))
     lines.append("* each rulebook's construction rule (counts_construction in factors/schemes/*.toml) is recorded from memory")
+    if any(s.from_memory for s in schemes):
+        lines.append(FROM_MEMORY_RULEBOOK)
+    lines.append(_flagged_factors(result.from_memory["factors"]))
     lines.append(f"Caution: {CAUTION}")
     return "\n".join(lines) + "\n"
 
@@ -205,9 +225,14 @@ def _why(changes: dict | None) -> list[str]:
     return why or ["nothing changed in inputs or factors"]
 
 
+def flagged_factors(entry: dict) -> list[str]:
+    """Ids of a ledger record's factors that were recorded from memory."""
+    return [factor["id"] for factor in entry.get("factors_used", []) if factor.get("from_memory")]
+
+
 def history_table(project_file: str, history: list[dict]) -> str:
     if not history:
-        return f"no runs of {project_file} in the ledger\n"
+        return f"no runs of {project_file} in the ledger\nCaution: {CAUTION}\n"
     lines = [f"history of {history[-1]['project']} ({project_file}): {len(history)} records", ""]
     previous_checks: dict[str, float] = {}
     for entry in history:
@@ -225,5 +250,9 @@ def history_table(project_file: str, history: list[dict]) -> str:
             previous_checks[check["scheme"]] = check["value"]
         for reason in _why(entry["changes"]):
             lines.append(f"    why: {reason}")
+        flagged = flagged_factors(entry)
+        if flagged:
+            lines.append(f"    factors from memory (not checked against their document): {', '.join(flagged)}")
         lines.append("")
-    return "\n".join(lines)
+    lines.append(f"Caution: {CAUTION}")
+    return "\n".join(lines) + "\n"

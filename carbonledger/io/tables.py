@@ -2,10 +2,12 @@
 
 from __future__ import annotations
 
-import csv
 import io
 
 from ..core.results import ScoreResult
+from .csv_text import csv_text
+
+SCORE_CSV_HEADER = ("section", "key", "value", "unit", "from_memory")
 
 INTENSITY_UNITS = {
     "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
@@ -25,55 +27,69 @@ def display_number(value: float | None) -> str:
     return f"{value:.4g}"
 
 
-def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str]]:
-    """(section, key, value, unit) rows: the result in a shape any spreadsheet reads."""
-    rows: list[tuple[str, str, object, str]] = [
-        ("project", "name", result.project, ""),
-        ("project", "product", result.product, ""),
-        ("project", "boundary", result.boundary, ""),
-        ("project", "functional_unit", result.functional_unit, ""),
-        ("project", "gwp_basis", result.gwp_basis, ""),
-        ("project", "factor_set", result.factor_set.name, ""),
-        ("project", "factor_set_sha256", result.factor_set.sha256, ""),
-        ("total", "total", result.total, result.unit),
+def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str, object]]:
+    """(section, key, value, unit, from_memory) rows: the result in a shape any spreadsheet reads.
+
+    Every factor used is a ``factor`` row and every scheme check says whether its rulebook was
+    recorded from memory.
+    """
+    rows: list[tuple[str, str, object, str, object]] = [
+        ("project", "name", result.project, "", ""),
+        ("project", "product", result.product, "", ""),
+        ("project", "boundary", result.boundary, "", ""),
+        ("project", "functional_unit", result.functional_unit, "", ""),
+        ("project", "gwp_basis", result.gwp_basis, "", ""),
+        ("project", "factor_set", result.factor_set.name, "", ""),
+        ("project", "factor_set_sha256", result.factor_set.sha256, "", ""),
+        ("total", "total", result.total, result.unit, ""),
     ]
-    rows += [("intensity", key, value, INTENSITY_UNITS[key]) for key, value in result.intensity.model_dump().items() if value is not None]
-    rows.append(("hydrogen_production", "kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2, "kg CO2e/kg H2"))
-    rows += [("by_stage", key, value, result.unit) for key, value in result.by_stage.items()]
-    rows += [("by_gas", key, value, result.unit) for key, value in result.by_gas.items()]
-    rows += [("non_ghg", key, value, "kg per functional unit") for key, value in result.non_ghg_kg.items()]
-    rows.append(("hydrogen_leakage", "kg_co2e_indirect_gwp100", result.hydrogen_leakage_kg_co2e, "kg CO2e per functional unit (not in the total)"))
+    rows += [("intensity", key, value, INTENSITY_UNITS[key], "") for key, value in result.intensity.model_dump().items() if value is not None]
+    rows.append(("hydrogen_production", "kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2, "kg CO2e/kg H2", ""))
+    rows += [("by_stage", key, value, result.unit, "") for key, value in result.by_stage.items()]
+    rows += [("by_gas", key, value, result.unit, "") for key, value in result.by_gas.items()]
+    rows += [("non_ghg", key, value, "kg per functional unit", "") for key, value in result.non_ghg_kg.items()]
+    rows.append(("hydrogen_leakage", "kg_co2e_indirect_gwp100", result.hydrogen_leakage_kg_co2e, "kg CO2e per functional unit (not in the total)", ""))
     for check in result.checks:
+        section = f"check:{check.scheme}"
         rows += [
-            (f"check:{check.scheme}", "value", check.value, check.unit),
-            (f"check:{check.scheme}", "limit", check.limit, check.unit),
-            (f"check:{check.scheme}", "margin", check.margin, check.unit),
-            (f"check:{check.scheme}", "passes", check.passes, ""),
-            (f"check:{check.scheme}", "tier", check.tier or "", ""),
+            (section, "value", check.value, check.unit, check.from_memory),
+            (section, "limit", check.limit, check.unit, check.from_memory),
+            (section, "margin", check.margin, check.unit, check.from_memory),
+            (section, "passes", check.passes, "", check.from_memory),
+            (section, "tier", check.tier or "", "", check.from_memory),
         ]
+    rows += [("factor", factor.id, factor.value, factor.unit, factor.from_memory) for factor in result.factors_used]
     return rows
 
 
-def to_csv(rows: list[tuple]) -> str:
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(("section", "key", "value", "unit"))
-    writer.writerows(rows)
-    return buffer.getvalue()
+def score_csv(result: ScoreResult) -> str:
+    """The long-format CSV of a result, ending in the caution row."""
+    return csv_text(SCORE_CSV_HEADER, csv_rows(result), caution=result.caution)
+
+
+def plain_console(width: int):
+    """A rich console that renders text as written: no markup, no emoji codes, no highlighting.
+
+    Project names, factor ids and set names come from users; with markup off, "Plant [phase1] test"
+    or "[bold]" print as typed and "[/]" cannot break the output.
+    """
+    from rich.console import Console
+
+    return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None, markup=False, emoji=False, highlight=False)
 
 
 def render(result: ScoreResult) -> str:
     """A readable report of one result, as plain text."""
-    from rich.console import Console
     from rich.table import Table
 
-    console = Console(file=io.StringIO(), record=True, width=110, force_terminal=False, color_system=None)
-    console.print(f"[bold]{result.project}[/bold]  ({result.product}, {result.boundary})")
+    console = plain_console(110)
+    console.print(f"{result.project}  ({result.product}, {result.boundary})")
+    console.print(f"project file: {result.project_file}")
     console.print(
         f"functional unit: {result.functional_unit}   GWP100: {result.gwp_basis.upper()}   "
         f"factors: {result.factor_set.name} (sha256 {result.factor_set.sha256[:12]})"
     )
-    console.print(f"total: [bold]{display_number(result.total)} {result.unit}[/bold]")
+    console.print(f"total: {display_number(result.total)} {result.unit}")
     intensity = Table(title="Carbon intensity", title_justify="left", show_header=True)
     intensity.add_column("per")
     intensity.add_column("value", justify="right")

@@ -11,6 +11,8 @@ to one and impossible values are refused with one line naming the file and the f
 
 from __future__ import annotations
 
+import json
+import re
 import tomllib
 import types
 import typing
@@ -192,6 +194,32 @@ def loads_toml(text: str, source: str | Path) -> dict:
     return data
 
 
+_BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")
+
+
+def path_key(key: str) -> str:
+    """A name as one part of a dotted parameter path, written as TOML writes a key: bare when it
+    is letters, digits, ``_`` and ``-``, else a quoted string (``electricity.sources."wind PPA no. 2".share``)."""
+    if _BARE_KEY.fullmatch(key):
+        return key
+    return json.dumps(key, ensure_ascii=False).replace("\x7f", "\\u007f")  # a JSON string is a TOML basic string (DEL escaped)
+
+
+def split_path(path: str, source: str = "parameter path") -> list[str]:
+    """The parts of a dotted parameter path; quoted parts as in TOML (see ``path_key``)."""
+    if '"' not in path and "'" not in path:
+        return path.split(".")
+    try:
+        node = tomllib.loads(f"{path} = 0")
+        parts = []
+        while isinstance(node, dict):
+            ((key, node),) = node.items()
+            parts.append(key)
+        return parts
+    except (tomllib.TOMLDecodeError, ValueError):
+        raise InputError(source, path, 'a dotted parameter path, a name with a dot or a space in double quotes (electricity.sources."wind PPA no. 2".share)') from None
+
+
 def apply_overrides(data: dict, overrides: list[tuple[str, Any]], source: str) -> dict:
     """Set dotted paths in a raw project dict (a copy); the model then validates them."""
     import copy
@@ -199,7 +227,7 @@ def apply_overrides(data: dict, overrides: list[tuple[str, Any]], source: str) -
     data = copy.deepcopy(data)
     for path, value in overrides:
         node = data
-        parts = path.split(".")
+        parts = split_path(path, source)
         for part in parts[:-1]:
             child = node.setdefault(part, {})
             if not isinstance(child, dict):
@@ -248,7 +276,7 @@ def parameter_table(project: BaseModel) -> list[tuple[str, Any, str, str]]:
                 walk(value, path + ".")
             elif isinstance(value, dict):
                 for key, child in value.items():
-                    walk(child, f"{path}.{key}.")
+                    walk(child, f"{path}.{path_key(key)}.")
             elif value is not None or prefix:
                 extra = info.json_schema_extra or {}
                 rows.append((path, value, extra.get("unit", ""), info.description or ""))

@@ -7,8 +7,11 @@ on ``INPUT_HEADER_ROW`` / ``FACTOR_HEADER_ROW`` and the cover settings by their 
 
 from __future__ import annotations
 
+import re
 from typing import Any
 
+from ...errors import InputError
+from ...model.project import split_path
 from .cells import Term, resolve
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
@@ -32,21 +35,47 @@ INTENSITY_UNITS = {
 _FORMULA_START = ("=", "+", "-", "@")
 
 
+EXCEL_CELL_CHARACTERS = 32767  # Excel specifications and limits: total characters a cell can contain
+# control characters an .xlsx cell cannot hold (XML 1.0 section 2.2; openpyxl ILLEGAL_CHARACTERS_RE),
+# written as their Unicode control pictures (U+2400 + code) and turned back on reading
+_CONTROL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f]")
+_CONTROL_PICTURE = re.compile(r"[\u2400-\u2408\u240b\u240c\u240e-\u241f]")
+
+
+def cell_text(text: Any, where: str = "") -> str:
+    """Text as a cell holds it: control characters as control pictures; longer than a cell can
+    hold is refused (one line naming ``where``), never cut."""
+    text = _CONTROL.sub(lambda match: chr(0x2400 + ord(match.group())), str(text))
+    if len(text) > EXCEL_CELL_CHARACTERS:
+        raise InputError("workbook", where or "text", f"text of at most {EXCEL_CELL_CHARACTERS:,} characters (the most a spreadsheet cell holds), got {len(text):,}; shorten it")
+    return text
+
+
+def text_from_cell(value: Any) -> Any:
+    """A cell's text with control pictures turned back into the control characters written."""
+    if not isinstance(value, str):
+        return value
+    return _CONTROL_PICTURE.sub(lambda match: chr(ord(match.group()) - 0x2400), value)
+
+
 # cell helpers -------------------------------------------------------------------------------
-def put_text(ws, row: int, column: int, text: Any):
-    """Write text that stays text: a leading = + - or @ is never read as a formula."""
+def put_text(ws, row: int, column: int, text: Any, where: str = ""):
+    """Write text that stays text: a leading = + - or @ is never read as a formula.
+
+    ``where`` names the field in the error for text too long for a cell (default: sheet and cell).
+    """
     cell = ws.cell(row=row, column=column)
     if text is None or text == "":
         return cell  # left empty rather than an empty string
-    cell.value = str(text)
+    cell.value = cell_text(text, where or f"sheet {ws.title}, cell {cell.coordinate}")
     cell.data_type = "s"
     return cell
 
 
-def put_value(ws, row: int, column: int, value: Any):
+def put_value(ws, row: int, column: int, value: Any, where: str = ""):
     """Write a number, a truth value or text (text always as text)."""
     if isinstance(value, str) or value is None:
-        return put_text(ws, row, column, value)
+        return put_text(ws, row, column, value, where)
     cell = ws.cell(row=row, column=column)
     cell.value = value
     return cell
@@ -92,7 +121,7 @@ def set_widths(ws, widths: dict[str, float]) -> None:
 
 
 def set_path(tree: dict, path: str, value: Any) -> None:
-    parts = path.split(".")
+    parts = split_path(path)
     node = tree
     for part in parts[:-1]:
         node = node[part]

@@ -36,6 +36,7 @@ from .layout import (
     INPUT_HEADER_ROW,
     INPUTS,
     is_number,
+    text_from_cell,
 )
 
 # An audit workbook of the largest project with twelve metered months is well under 1 MB
@@ -121,7 +122,7 @@ def _cell_value(ws, cell: str, cached: _CachedValues, path: Path, name: str):
         formula, value = value, cached.get(ws.title, cell)
         if value is None:
             raise InputError(path, f"sheet {ws.title}, cell {cell} ({name})", f"a number; the cell holds the formula {formula!r} with no saved value (save the workbook in a spreadsheet program, or type the number)")
-    return value
+    return text_from_cell(value)
 
 
 def read_settings(workbook, path: Path) -> WorkbookSettings:
@@ -131,7 +132,7 @@ def read_settings(workbook, path: Path) -> WorkbookSettings:
     for row in range(1, ws.max_row + 1):
         label = ws.cell(row=row, column=1).value
         if label in labels:
-            found[labels[label]] = ws.cell(row=row, column=2).value
+            found[labels[label]] = text_from_cell(ws.cell(row=row, column=2).value)
     for key in ("gwp", "factors_option"):
         if not found.get(key):
             raise InputError(path, f"sheet {COVER}", f"the row '{COVER_LABELS[key]}' written by `carbonledger workbook`")
@@ -211,7 +212,7 @@ def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
         value = _cell_value(ws, f"B{row}", cached, path, factor_id)
         if not is_number(value):
             raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
-        record = {name: ws.cell(row=row, column=column).value for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}
+        record = {name: text_from_cell(ws.cell(row=row, column=column).value) for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}
         record["id"], record["value"] = factor_id, float(value)
         rows.append((record, f"B{row}"))
     return rows

@@ -185,8 +185,8 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], e
     row = INPUT_HEADER_ROW
     for path, value, unit, description in rows:
         row += 1
-        put_text(ws, row, 1, path)
-        put_value(ws, row, 2, value)
+        put_text(ws, row, 1, path, f"parameter path {path[:80]}")
+        put_value(ws, row, 2, value, path)
         put_text(ws, row, 3, unit)
         put_text(ws, row, 4, description)
         put_text(ws, row, len(INPUT_COLUMNS), evidence.get(path))
@@ -213,7 +213,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
         put_text(ws, row, 1, key)
         put_value(ws, row, 2, float(item.value))
         put_text(ws, row, 3, item.unit)
-        put_text(ws, row, 4, item.source)
+        put_text(ws, row, 4, item.source, f"factor {key}: source")
         if isinstance(item, ReferenceValue):
             put_text(ws, row, 5, "chemicals.elements.molecular_weight")
             put_text(ws, row, 9, "no")
@@ -221,7 +221,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
         put_text(ws, row, 5, item.table)
         put_value(ws, row, 6, item.year)
         put_text(ws, row, 7, item.region)
-        put_text(ws, row, 8, item.note)
+        put_text(ws, row, 8, item.note, f"factor {key}: note")
         put_text(ws, row, 9, "yes" if item.from_memory else "no")
     set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 60, "E": 24, "F": 8, "G": 10, "H": 60, "I": 12})
     ws.freeze_panes = ws.cell(row=FACTOR_HEADER_ROW + 1, column=1)
