@@ -22,7 +22,7 @@ from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ...model.factors import DEFAULT_SET, Factor, FactorSet, load_factor_set
+from ...model.factors import DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
 from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
@@ -238,6 +238,7 @@ def factor_set_from_workbook(path: str | Path, base):
         unit = str(record["unit"] or "").strip()
         if known is not None and known.value == record["value"] and known.unit == unit:
             continue
+        check_factor_value(factor_id, record["value"], unit or (known.unit if known else ""), f"{path}: sheet {FACTORS}, cell {cell}")
         year = record["year"]
         changed[factor_id] = Factor(
             id=factor_id,
