@@ -20,9 +20,9 @@ import io
 import json
 import math
 import os
-from importlib import resources
 import tomllib
 from dataclasses import asdict, dataclass, field
+from importlib import resources
 from pathlib import Path
 
 from ..errors import InputError, did_you_mean, match_id
