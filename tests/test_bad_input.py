@@ -450,3 +450,19 @@ def test_a_workbook_too_large_to_open_safely_is_refused(tmp_path):
             result = run_cli(*args)
             assert_one_line_error(result)
             assert words in result.stderr, result.stderr
+
+
+@pytest.mark.parametrize("factor_id,value", [("heating_value.hydrogen.lhv", 0), ("electricity.grid.eu27_2018", -300), ("natural_gas.methane_mass_fraction", 1.7), ("gwp.ar6.ch4_fossil", True)])
+def test_an_impossible_factor_edited_in_a_workbook_is_refused(tmp_path, factor_id, value):
+    import openpyxl
+
+    original = tmp_path / "original.xlsx"
+    assert run_cli("workbook", BLUE, "-o", original, "--no-ledger").exit_code == 0
+    book = openpyxl.load_workbook(original)
+    ws = book["Factors"]
+    row = next(r for r in range(5, ws.max_row + 1) if ws.cell(row=r, column=1).value == factor_id)
+    ws.cell(row=row, column=2).value = value
+    book.save(tmp_path / "edited.xlsx")
+    result = run_cli("score", "--from-workbook", tmp_path / "edited.xlsx", "--no-ledger")
+    assert_one_line_error(result)
+    assert f"sheet Factors, cell B{row}" in result.stderr and factor_id in result.stderr, result.stderr

@@ -24,6 +24,7 @@ import math
 import os
 import tomllib
 from dataclasses import asdict, dataclass, field
+from importlib import resources
 from pathlib import Path
 
 from ..errors import InputError, did_you_mean, match_id
@@ -121,7 +122,7 @@ def physical_range(factor_id: str, unit: str) -> tuple[float | None, bool, float
     """The physically possible range of a factor, decided by its id and unit (one rule for every
     factor, whatever file it comes from): (low, low inclusive, high, what the value is).
 
-    - a global warming potential (``gwp.*``, kg CO2e per kg of a gas): > 0;
+    - a global warming potential (``gwp.*``, ``gwp_indirect.*``: kg CO2e per kg of a gas): > 0;
     - a mass of methane per mass of gas or fuel (``kg CH4/kg``, ``kg CH4/kg fuel``): 0 to 1;
     - an emission factor (a greenhouse-gas mass per unit of activity: g CO2e/kWh, kg CO2/TJ,
       t N2O/t fuel...): >= 0 (these factors describe emissions; removals are not modelled);
@@ -132,7 +133,7 @@ def physical_range(factor_id: str, unit: str) -> tuple[float | None, bool, float
     numerator, _, denominator = (part.strip() for part in unit.partition("/"))
     top = numerator.split()
     bottom = denominator.split()
-    if factor_id.startswith("gwp."):
+    if factor_id.split(".")[0] in ("gwp", "gwp_indirect"):
         return 0.0, False, None, "a global warming potential"
     if top[-1:] == ["CH4"] and len(bottom) >= 1 and bottom[-1] in ("kg", "t", "fuel") and top[0] == bottom[0]:
         return 0.0, True, 1.0, "a mass fraction of methane"

@@ -22,7 +22,7 @@ from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ...model.factors import DEFAULT_SET, Factor, FactorSet, load_factor_set
+from ...model.factors import DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
 from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
@@ -39,8 +39,8 @@ from .layout import (
     text_from_cell,
 )
 
-# An audit workbook of the largest project with twelve metered months is well under 1 MB
-# (about 5 MB unpacked). The limits refuse a file that would take minutes and gigabytes of
+# An audit workbook of a shipped demo project with twelve metered months is about 70 kB
+# (0.5 MB unpacked), measured 2026. The limits refuse a file that would take minutes and gigabytes of
 # memory to open (a small zip can unpack to a huge sheet) before openpyxl reads it.
 MAX_WORKBOOK_BYTES = 20 * 1024 * 1024
 MAX_UNPACKED_BYTES = 100 * 1024 * 1024
@@ -239,6 +239,7 @@ def factor_set_from_workbook(path: str | Path, base):
         unit = str(record["unit"] or "").strip()
         if known is not None and known.value == record["value"] and known.unit == unit:
             continue
+        check_factor_value(factor_id, record["value"], unit or (known.unit if known else ""), f"{path}: sheet {FACTORS}, cell {cell}")
         year = record["year"]
         changed[factor_id] = Factor(
             id=factor_id,
