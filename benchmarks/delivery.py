@@ -20,9 +20,7 @@ def wall(args):
 
 
 def main():
-    sys.path.insert(0, str(ROOT))
-    from carbonledger.api import score
-    from carbonledger.api import compare
+    from carbonledger.api import compare, score
 
     score(DEMO / "green_electrolysis_ammonia_shipped.toml")  # warm imports (bw2calc, CoolProp)
     for boundary in ("cradle-to-gate", "well-to-tank", "well-to-wake"):

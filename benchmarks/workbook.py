@@ -11,13 +11,11 @@ import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
-sys.path.insert(0, str(ROOT))
 
 
 def main() -> None:
     started = time.perf_counter()
-    from carbonledger.api import score
-    from carbonledger.api import audit_workbook
+    from carbonledger.api import audit_workbook, score
     from carbonledger.io.workbook.writer import write_workbook_file
 
     demos = [path for path in sorted((ROOT / "demo_projects").glob("*.toml")) if path.with_name(f"{path.stem}_meters_2026.csv").exists()]

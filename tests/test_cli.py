@@ -2,11 +2,8 @@
 entry point are in test_compare.py and test_ledger.py): outputs and every bad input."""
 
 import json
-import subprocess
-import sys
 
 import pytest
-
 from helpers import DEMO, run_cli
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
@@ -133,15 +130,3 @@ def test_bad_options():
     assert_one_line_error(run("score", GRID, "--set", "nonsense"), "--set")
     assert_one_line_error(run("score", "missing.toml"), "missing.toml")
     assert_one_line_error(run("factors", "show", "no.such.factor"), "no.such.factor")
-
-
-def test_no_brightway_project_directory_is_created(tmp_path):
-    # bw2calc solves in memory: nothing Brightway-related may appear in the user's home.
-    import os
-
-    env = dict(os.environ, HOME=str(tmp_path), XDG_DATA_HOME=str(tmp_path / "data"), XDG_CACHE_HOME=str(tmp_path / "cache"))
-    env.pop("BRIGHTWAY2_DIR", None)
-    process = subprocess.run([sys.executable, "-m", "carbonledger", "score", str(GREEN), "--format", "json"], capture_output=True, text=True, cwd=tmp_path, env=env)
-    assert process.returncode == 0, process.stderr
-    created = [p for p in tmp_path.rglob("*") if "brightway" in p.name.lower()]
-    assert created == []

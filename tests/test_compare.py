@@ -10,8 +10,8 @@ from pathlib import Path
 import pytest
 from typer.testing import CliRunner
 
-from carbonledger.cli import app
 from carbonledger.api import compare
+from carbonledger.cli import app
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
@@ -187,17 +187,22 @@ print("shipped and cracked", loaded("CoolProp", "matplotlib", "openpyxl", "formu
 """
 
 
-def test_help_and_score_do_not_load_what_they_do_not_need(tmp_path, _ledger_in_tmp):
+def test_help_and_score_load_only_what_they_need_and_create_no_brightway_folder(tmp_path, _ledger_in_tmp):
     # `--help` needs neither the solver nor the chart library; no score needs CoolProp (the latent
     # heat of ammonia comes from chemicals' CRC table), nor matplotlib without a chart, nor the
     # workbook libraries (openpyxl; formulas is a test-only dependency).
-    # One real process (sys.modules of a fresh interpreter), recording in the temporary ledger.
+    # One real process (sys.modules of a fresh interpreter), recording in the temporary ledger,
+    # with a temporary home: bw2calc solves in memory, so nothing Brightway-related may appear there.
     paths = [DEMO / "green_electrolysis_ammonia.toml", *SHIPPED, CRACKED]
-    out = subprocess.run([sys.executable, "-c", _IMPORT_PROBE, *map(str, paths)], capture_output=True, text=True, cwd=tmp_path, env=dict(os.environ))
+    home = tmp_path / "home"
+    env = dict(os.environ, HOME=str(home), XDG_DATA_HOME=str(home / "data"), XDG_CACHE_HOME=str(home / "cache"))
+    env.pop("BRIGHTWAY2_DIR", None)
+    out = subprocess.run([sys.executable, "-c", _IMPORT_PROBE, *map(str, paths)], capture_output=True, text=True, cwd=tmp_path, env=env)
     assert out.returncode == 0, out.stderr
     lines = out.stderr.strip().splitlines()[-3:]
     assert lines == ["help []", "plant gate []", "shipped and cracked []"], out.stderr
     assert _ledger_in_tmp.exists()  # the runs went to the temporary ledger, not the user's
+    assert [p for p in tmp_path.rglob("*") if "brightway" in p.name.lower()] == []
 
 
 def test_compare_reads_audit_workbooks(tmp_path):

@@ -10,8 +10,8 @@ from hypothesis import strategies as st
 from carbonledger.api import score, score_project
 from carbonledger.errors import InputError
 from carbonledger.model.factors import load_factor_set
-from carbonledger.routes.project import validate_project
 from carbonledger.model.reference import ammonia_formation_enthalpy, ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
+from carbonledger.routes.project import validate_project
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"

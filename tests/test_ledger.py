@@ -8,11 +8,10 @@ import sys
 import textwrap
 
 import pytest
+from helpers import DEMO, assert_one_line_error, run_cli, write
 
 from carbonledger.errors import InputError
 from carbonledger.io.ledger import connect, project_history, record_run
-
-from helpers import DEMO, ROOT, assert_one_line_error, run_cli, write
 
 
 def _counts(path):

@@ -43,8 +43,9 @@ def test_eu_rfnbo_limit_per_kg_of_hydrogen():
     # The engine puts a hydrogen result per MJ with hydrogen's LHV, 119.96 MJ/kg (US DOE HyARC);
     # the limit then corresponds to the 3.38 t CO2e/t H2 that a published legal summary states
     # beside 28.2 g CO2e/MJ (Baker McKenzie, on Delegated Regulation (EU) 2023/1185).
-    from carbonledger.api import score
     from helpers import DEMO
+
+    from carbonledger.api import score
 
     result = score(DEMO / "grid_electrolysis_hydrogen.toml", schemes=["eu-rfnbo"])
     (check,) = result.checks

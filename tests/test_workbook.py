@@ -8,10 +8,10 @@ from pathlib import Path
 
 import openpyxl
 import pytest
+from workbook_support import DEMO, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 from carbonledger.api import score
 from carbonledger.io.workbook.cells import Term
-from workbook_support import DEMO, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 DEMOS = sorted(DEMO.glob("*.toml"))
 FLOW_LABELS = {
@@ -382,10 +382,10 @@ def test_round_trip_through_a_workbook_saved_by_libreoffice(libreoffice_recalcul
 
 
 def test_a_loop_in_the_supply_chain_is_refused():
-    from carbonledger.errors import InputError
     from carbonledger.core.inventory import Inventory
-    from carbonledger.routes.base import Activity
+    from carbonledger.errors import InputError
     from carbonledger.io.workbook.calculation import check_acyclic
+    from carbonledger.routes.base import Activity
 
     gas = Activity("natural_gas_supply", "natural_gas_supply", "gas", "GJ")
     power = Activity("electricity_mix", "electricity_supply", "power", "kWh")
@@ -400,8 +400,8 @@ def test_a_loop_in_the_supply_chain_is_refused():
 
 def test_library_functions_for_other_commands(tmp_path):
     """What `compare --from-workbook` can call: the validated project and the cover's settings."""
-    from carbonledger.io.workbook.reader import load_project_from_workbook
     from carbonledger.api import score_workbook
+    from carbonledger.io.workbook.reader import load_project_from_workbook
 
     out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx", "--gwp", "ar4", "--scheme", "japan-ammonia")
     project, sha, settings = load_project_from_workbook(out, ["capture.capture_rate=0.9"])

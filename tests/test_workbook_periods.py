@@ -5,12 +5,12 @@ from __future__ import annotations
 import math
 
 import pytest
+from workbook_support import DEMO, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
+from carbonledger.analyses.periods import month_results, read_meters
 from carbonledger.api import score
 from carbonledger.model.factors import load_factor_set
-from carbonledger.analyses.periods import month_results, read_meters
 from carbonledger.routes.project import load_project
-from workbook_support import DEMO, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
 GREEN_METERS = """month,electricity.solar [MWh],electricity.wind [MWh],hydrogen [t],ammonia [t]
@@ -104,29 +104,29 @@ def assert_months_agree(values_workbook, project, meters) -> int:
     engine = month_results(parsed, model, factor_set, gwp="ar6", design=score(project))
     rows = summary(values_workbook)
     volume_factor = factor_set.get("natural_gas.net_calorific_value_volume").value
-    for month, values, result in zip(parsed.months, parsed.values, engine):
+    for month, values, result in zip(parsed.months, parsed.values, engine, strict=True):
         assert close(rows[month][2], result.total), month
         supply = {row.activity: row.activity_supply for row in result.exchanges}
         output = rows[month][1]
         # the month reproduces its meters: electricity and gas per functional unit x output
-        electricity_kwh = sum(v * c.multiplier for c, v in zip(parsed.columns, values.values()) if c.quantity == "electricity")
+        electricity_kwh = sum(v * c.multiplier for c, v in zip(parsed.columns, values.values(), strict=True) if c.quantity == "electricity")
         assert close(supply["electricity_mix"] * output, electricity_kwh)
         gas = next(c for c in parsed.columns if c.quantity == "natural_gas")
         gas_gj = values[gas.header] * (volume_factor / 1000.0 if gas.by_volume else gas.multiplier)
         assert close(supply["natural_gas_supply"] * output, gas_gj)
     year = rows["all months (output-weighted)"]
-    emissions = sum(r.total * rows[m][1] for m, r in zip(parsed.months, engine))
+    emissions = sum(r.total * rows[m][1] for m, r in zip(parsed.months, engine, strict=True))
     assert close(year[2], emissions / sum(rows[m][1] for m in parsed.months))
     # each month is checked against every scheme: value equals the engine's, verdict its pass/fail
     stages = len(score(project).by_stage)
-    for month, result in zip(parsed.months, engine):
+    for month, result in zip(parsed.months, engine, strict=True):
         for position, check in enumerate(result.checks):
             column = 5 + stages + 3 * position
             assert close(rows[month][column], check.value), (month, check.scheme)
             assert rows[month][column + 1] == ("pass" if check.passes else "fail")
     for position, check in enumerate(engine[0].checks):
         column = 5 + stages + 3 * position
-        weighted = sum(r.checks[position].value * rows[m][1] for m, r in zip(parsed.months, engine)) / sum(rows[m][1] for m in parsed.months)
+        weighted = sum(r.checks[position].value * rows[m][1] for m, r in zip(parsed.months, engine, strict=True)) / sum(rows[m][1] for m in parsed.months)
         assert close(year[column], weighted), check.scheme
     return len(parsed.months)
 

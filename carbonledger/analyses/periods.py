@@ -150,7 +150,7 @@ def read_meters(path: str | Path, project) -> Meters:
             if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
                 raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
             values: dict[str, float] = {}
-            for column, text in zip(columns, row[1:]):
+            for column, text in zip(columns, row[1:], strict=True):
                 where = f"line {line}, {column.header}"
                 try:
                     value = float(text)
@@ -174,7 +174,7 @@ def read_meters(path: str | Path, project) -> Meters:
     if not meters.months:
         raise InputError(path, "", "at least one month of metered data")
     numbers = [_month_number(m) for m in meters.months]
-    for previous, (month, number) in zip(numbers, list(zip(meters.months, numbers))[1:]):
+    for previous, (month, number) in zip(numbers, list(zip(meters.months, numbers, strict=True))[1:], strict=False):
         if number == previous:
             raise InputError(path, "month", f"each month once, {month} appears twice")
         if number != previous + 1:

@@ -19,9 +19,9 @@ import hashlib
 import json
 import math
 import os
-from importlib import resources
 import tomllib
 from dataclasses import asdict, dataclass, field
+from importlib import resources
 from pathlib import Path
 
 from ..errors import InputError
