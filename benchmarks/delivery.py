@@ -22,7 +22,7 @@ def wall(args):
 def main():
     from carbonledger.api import compare, score
 
-    score(DEMO / "green_electrolysis_ammonia_shipped.toml")  # warm imports (bw2calc, CoolProp)
+    score(DEMO / "green_electrolysis_ammonia_shipped.toml")  # warm imports (bw2calc)
     for boundary in ("cradle-to-gate", "well-to-tank", "well-to-wake"):
         start = time.perf_counter()
         for _ in range(20):
