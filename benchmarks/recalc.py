@@ -18,8 +18,6 @@ import tempfile
 import time
 from pathlib import Path
 
-sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
-
 GRIDS = ["electricity.grid.eu27_2018", "electricity.grid.ireland_2015"]
 RENEWABLES = ["electricity.renewable.wind_onshore", "electricity.renewable.solar_pv_utility", "electricity.renewable.wind_offshore", "electricity.renewable.hydropower"]
 
@@ -76,10 +74,10 @@ def project(number: int, rng: random.Random) -> str:
 
 def main(count: int = 1000) -> None:
     t0 = time.perf_counter()
-    from carbonledger.core.scoring import score_project
-    from carbonledger.core.engine import import_bw2calc
-    from carbonledger.model.factors import load_factor_set
     from carbonledger.analyses.portfolio import load_portfolio, recalc
+    from carbonledger.core.engine import import_bw2calc
+    from carbonledger.core.scoring import score_project
+    from carbonledger.model.factors import load_factor_set
 
     import_bw2calc()  # import cost reported apart
     print(f"imports (bw2calc included): {time.perf_counter() - t0:.2f} s")

@@ -11,13 +11,11 @@ import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
-sys.path.insert(0, str(ROOT))
 
 
 def main() -> None:
     started = time.perf_counter()
-    from carbonledger.api import score
-    from carbonledger.api import audit_workbook
+    from carbonledger.api import audit_workbook, score
     from carbonledger.io.workbook.writer import write_workbook_file
 
     demos = [path for path in sorted((ROOT / "demo_projects").glob("*.toml")) if path.with_name(f"{path.stem}_meters_2026.csv").exists()]
@@ -38,13 +36,12 @@ def main() -> None:
     print(f"imports and first scores: {imported - started:.2f} s")
     best = min(timings, key=sum)
     print(f"workbook with 12 periods: build {best[0]:.2f} s + save {best[1]:.2f} s = {sum(best):.2f} s (best of 3; target < 2 s); {rows} rows")
-    import os
     import subprocess
 
     with tempfile.TemporaryDirectory() as folder:
         begin = time.perf_counter()
-        command = [sys.executable, "-m", "carbonledger", "workbook", str(largest), "--periods", str(meters), "-o", str(Path(folder) / "w.xlsx")]
-        subprocess.run(command, check=True, capture_output=True, env=dict(os.environ, PYTHONPATH=str(ROOT)))
+        command = [sys.executable, "-m", "carbonledger", "workbook", str(largest), "--periods", str(meters), "-o", str(Path(folder) / "w.xlsx"), "--no-ledger"]
+        subprocess.run(command, check=True, capture_output=True)
         print(f"whole process, `carbonledger workbook ... --periods` from a cold start: {time.perf_counter() - begin:.2f} s")
 
 

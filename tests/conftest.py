@@ -1,7 +1,6 @@
 from __future__ import annotations
 
 import os
-import sys
 import textwrap
 from pathlib import Path
 
@@ -9,8 +8,32 @@ import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
-sys.path.insert(0, str(ROOT))
 os.environ.setdefault("MPLBACKEND", "Agg")
+
+
+@pytest.fixture(scope="session", autouse=True)
+def _session_ledger_in_tmp(tmp_path_factory):
+    """Session-scoped fixtures (which run before the per-test ledger is set) record here too."""
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setenv("CARBONLEDGER_LEDGER", str(tmp_path_factory.mktemp("session") / "ledger.sqlite"))
+        yield
+
+
+@pytest.fixture(scope="session")
+def libreoffice_recalculated(tmp_path_factory):
+    """Every workbook registered with ``workbook_support.libreoffice_job``, recalculated by ONE
+    LibreOffice start: {name: (written workbook, LibreOffice's recalculated copy)}."""
+    from workbook_support import LIBREOFFICE_JOBS, recalculate_many_with_libreoffice, soffice
+
+    if soffice() is None:
+        if os.environ.get("CI") == "true":
+            pytest.fail("LibreOffice (soffice) is required under CI=true; .ci/run installs libreoffice-calc")
+        pytest.skip("LibreOffice not installed here")
+    folder = tmp_path_factory.mktemp("libreoffice")
+    (folder / "in").mkdir()
+    written = {name: build(folder / "in" / f"{name}.xlsx") for name, build in sorted(LIBREOFFICE_JOBS.items())}
+    out = recalculate_many_with_libreoffice(list(written.values()), folder)
+    return {name: (path, out / path.name) for name, path in written.items()}
 
 
 @pytest.fixture(autouse=True)

@@ -12,12 +12,11 @@ IPCC Guidelines Vol. 2 Ch. 2, Table 2.2); a methane mass fraction of natural gas
 from __future__ import annotations
 
 import pytest
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
 from carbonledger.errors import InputError
 from carbonledger.model.project import parameter_table
 from carbonledger.routes.project import load_project
-
-from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
 GRID = DEMO / "grid_electrolysis_hydrogen.toml"
 BLUE = DEMO / "blue_smr_hydrogen.toml"
@@ -392,7 +391,7 @@ def test_an_emptied_input_cell_does_not_silently_take_the_default(tmp_path, para
 
     result = run_cli("score", "--from-workbook", _book_with(tmp_path, edit), "--no-ledger")
     assert_one_line_error(result)
-    assert f"sheet Inputs, cell B" in result.stderr and parameter in result.stderr, result.stderr
+    assert "sheet Inputs, cell B" in result.stderr and parameter in result.stderr, result.stderr
 
 
 @pytest.mark.parametrize("parameter", ["hydrogen.conditioning_kwh_per_kg_h2", "capture.transport_storage_loss_fraction", "project.boundary"])

@@ -6,11 +6,10 @@ from __future__ import annotations
 import tomllib
 
 import pytest
+from helpers import DEMO, assert_one_line_error, run_cli
 
 from carbonledger.about import __version__
 from carbonledger.routes.project import load_project
-
-from helpers import DEMO, assert_one_line_error, run_cli
 
 
 def test_version():

@@ -1,6 +1,7 @@
 """`carbonledger compare` and its chart, `score --boundary`, and one-line errors with exit code 2."""
 
 import json
+import os
 import subprocess
 import sys
 import xml.etree.ElementTree as ET
@@ -9,8 +10,8 @@ from pathlib import Path
 import pytest
 from typer.testing import CliRunner
 
-from carbonledger.cli import app
 from carbonledger.api import compare
+from carbonledger.cli import app
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
@@ -155,21 +156,53 @@ def test_bad_chart_name_and_boundary_are_refused(tmp_path):
 def test_exit_code_2_from_the_installed_entry_point(tmp_path):
     out = subprocess.run(
         [sys.executable, "-m", "carbonledger", "compare", str(SHIPPED[0]), str(CRACKED), "--basis", "t-nh3", "--boundary", "well-to-tank"],
-        capture_output=True, text=True, cwd=ROOT, env={"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin"},
+        capture_output=True, text=True, cwd=tmp_path, env=dict(os.environ),  # cwd outside the source tree: the installed package runs
     )
     assert out.returncode == 2 and out.stderr.startswith("error: ") and len(out.stderr.strip().splitlines()) == 1
 
 
-def test_plant_gate_score_does_not_load_coolprop_or_matplotlib():
-    code = (
-        "import sys; from carbonledger.cli import main; sys.argv = ['carbonledger', 'score', "
-        f"{str(DEMO / 'green_electrolysis_ammonia.toml')!r}, '--format', 'json']\n"
-        "try:\n    main()\nexcept SystemExit:\n    pass\n"
-        "print([m for m in ('CoolProp', 'matplotlib') if m in sys.modules], file=sys.stderr)"
-    )
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT, env={"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin"})
+_IMPORT_PROBE = """
+import sys
+from carbonledger.cli import main
+
+paths = sys.argv[1:]
+
+def run(*args):
+    sys.argv = ["carbonledger", *args]
+    try:
+        main()
+    except SystemExit as stop:
+        assert not stop.code, (args, stop.code)
+
+def loaded(*names):
+    return [name for name in names if name in sys.modules]
+
+run("--help")
+print("help", loaded("bw2calc", "CoolProp", "matplotlib"), file=sys.stderr)
+run("score", paths[0], "--format", "json")
+print("plant gate", loaded("CoolProp", "matplotlib", "openpyxl", "formulas"), file=sys.stderr)
+for path in paths[1:]:
+    run("score", path, "--format", "json")
+print("shipped and cracked", loaded("CoolProp", "matplotlib", "openpyxl", "formulas"), file=sys.stderr)
+"""
+
+
+def test_help_and_score_load_only_what_they_need_and_create_no_brightway_folder(tmp_path, _ledger_in_tmp):
+    # `--help` needs neither the solver nor the chart library; no score needs CoolProp (the latent
+    # heat of ammonia comes from chemicals' CRC table), nor matplotlib without a chart, nor the
+    # workbook libraries (openpyxl; formulas is a test-only dependency).
+    # One real process (sys.modules of a fresh interpreter), recording in the temporary ledger,
+    # with a temporary home: bw2calc solves in memory, so nothing Brightway-related may appear there.
+    paths = [DEMO / "green_electrolysis_ammonia.toml", *SHIPPED, CRACKED]
+    home = tmp_path / "home"
+    env = dict(os.environ, HOME=str(home), XDG_DATA_HOME=str(home / "data"), XDG_CACHE_HOME=str(home / "cache"))
+    env.pop("BRIGHTWAY2_DIR", None)
+    out = subprocess.run([sys.executable, "-c", _IMPORT_PROBE, *map(str, paths)], capture_output=True, text=True, cwd=tmp_path, env=env)
     assert out.returncode == 0, out.stderr
-    assert out.stderr.strip().splitlines()[-1] == "[]"
+    lines = out.stderr.strip().splitlines()[-3:]
+    assert lines == ["help []", "plant gate []", "shipped and cracked []"], out.stderr
+    assert _ledger_in_tmp.exists()  # the runs went to the temporary ledger, not the user's
+    assert [p for p in tmp_path.rglob("*") if "brightway" in p.name.lower()] == []
 
 
 def test_compare_reads_audit_workbooks(tmp_path):

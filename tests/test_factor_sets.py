@@ -3,11 +3,10 @@
 import json
 
 import pytest
+from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
 
 from carbonledger.errors import InputError
 from carbonledger.model.factors import diff_sets, load_factor_set
-
-from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
 
 
 def _derived_set(tmp_path):

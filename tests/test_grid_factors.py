@@ -10,6 +10,7 @@ from __future__ import annotations
 import csv
 
 import pytest
+from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
 
 from carbonledger.api import score
 from carbonledger.core.inputs import NumericInputs
@@ -18,8 +19,6 @@ from carbonledger.model.factors import factors_root, load_factor_set
 from carbonledger.model.units import conversion_factor
 from carbonledger.routes.base import electricity_flow
 from carbonledger.stages.electricity import kind_of_source
-
-from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
 
 GRID_CSV = factors_root() / "sets" / "default-2026" / "grid-electricity.csv"
 

@@ -8,11 +8,10 @@ import sys
 import textwrap
 
 import pytest
+from helpers import DEMO, assert_one_line_error, run_cli, write
 
 from carbonledger.errors import InputError
 from carbonledger.io.ledger import connect, project_history, record_run
-
-from helpers import DEMO, ROOT, assert_one_line_error, run_cli, write
 
 
 def _counts(path):
@@ -117,7 +116,6 @@ def test_history_without_a_ledger(tmp_path):
 _WRITER = textwrap.dedent(
     """
     import sys
-    sys.path.insert(0, {root!r})
     from carbonledger.io.ledger import LedgerRecord, record_run
 
     def record(number, who):
@@ -133,7 +131,7 @@ _WRITER = textwrap.dedent(
 
 def test_two_processes_writing_at_once(tmp_path):
     ledger = tmp_path / "shared.sqlite"
-    script = write(tmp_path / "writer.py", _WRITER.format(root=str(ROOT)))
+    script = write(tmp_path / "writer.py", _WRITER.format())
     writers = [subprocess.Popen([sys.executable, str(script), str(ledger), who, "25"]) for who in ("a", "b")]
     assert [w.wait(timeout=120) for w in writers] == [0, 0]
     runs, records = _counts(ledger)
@@ -144,7 +142,6 @@ def test_two_processes_writing_at_once(tmp_path):
 _KILLED = textwrap.dedent(
     """
     import sys, time
-    sys.path.insert(0, {root!r})
     from carbonledger.io.ledger import LedgerRecord, record_run
 
     def record(number):
@@ -166,7 +163,7 @@ _KILLED = textwrap.dedent(
 
 def test_a_process_killed_mid_run_leaves_no_partial_record(tmp_path):
     ledger = tmp_path / "ledger.sqlite"
-    script = write(tmp_path / "killed.py", _KILLED.format(root=str(ROOT)))
+    script = write(tmp_path / "killed.py", _KILLED.format())
     child = subprocess.Popen([sys.executable, str(script), str(ledger)], stdout=subprocess.PIPE, text=True)
     assert child.stdout.readline().strip() == "inside the transaction"
     os.kill(child.pid, signal.SIGKILL)

@@ -4,13 +4,12 @@ import json
 import shutil
 
 import pytest
+from helpers import FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
 
+from carbonledger.analyses.lifetime import lifetime_score
 from carbonledger.errors import InputError
 from carbonledger.model.factors import load_factor_set
-from carbonledger.analyses.lifetime import lifetime_score
 from carbonledger.routes.project import load_project
-
-from helpers import FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
 
 PROJECT = """\
 # test project (invented numbers)

@@ -2,13 +2,13 @@
 
 import dataclasses
 
+from helpers import DEMO
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from carbonledger.core.scoring import score_project
 from carbonledger.model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from carbonledger.routes.project import load_project
-from conftest import DEMO
 
 BLUE = DEMO / "blue_smr_hydrogen.toml"
 GRID = DEMO / "grid_electrolysis_hydrogen.toml"

@@ -5,12 +5,12 @@ import io
 import json
 
 import pytest
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
+from carbonledger.analyses.portfolio import load_portfolio, recalc
+from carbonledger.analyses.portfolio import score_portfolio as score_many
 from carbonledger.core.scoring import score_project
 from carbonledger.model.factors import load_factor_set
-from carbonledger.analyses.portfolio import load_portfolio, recalc, score_portfolio as score_many
-
-from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
 # EEA indicator IND-353: EU-27 2018 average 281 g CO2e/kWh (the value in default-2026).
 EU27_2018_G_PER_KWH = 281.0
@@ -74,13 +74,13 @@ def test_fast_path_equals_bw2calc_score_project():
     projects = load_portfolio([DEMO, PORTFOLIO])
     for name in ("default-2026", "demo-2027-grid-revision"):
         factor_set = load_factor_set(name)
-        for item, quick in zip(projects, score_many(projects, factor_set, check_with_bw2calc=False)):
+        for item, quick in zip(projects, score_many(projects, factor_set, check_with_bw2calc=False), strict=True):
             reference = score_project(item.project, factor_set)
             assert quick.total == pytest.approx(reference.total, rel=1e-9, abs=1e-12)
             for stage, value in reference.by_stage.items():
                 assert quick.by_stage[stage] == pytest.approx(value, rel=1e-9, abs=1e-9)
             assert [c.scheme for c in quick.checks] == [c.scheme for c in reference.checks]
-            for fast, slow in zip(quick.checks, reference.checks):
+            for fast, slow in zip(quick.checks, reference.checks, strict=True):
                 assert fast.value == pytest.approx(slow.value, rel=1e-9, abs=1e-12)
                 assert fast.passes == slow.passes
 

@@ -3,7 +3,7 @@
 import pytest
 from CoolProp.CoolProp import PropsSI
 
-from carbonledger.model.reference import molar_mass_g_per_mol
+from carbonledger.model.reference import ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
 from carbonledger.stages import ammonia, electrolysis, reforming
 
 
@@ -14,6 +14,18 @@ from carbonledger.stages import ammonia, electrolysis, reforming
 def test_molar_masses_agree_with_coolprop(formula, coolprop_name):
     # Independent reference library: CoolProp's molar mass (kg/mol) for the same substance.
     assert molar_mass_g_per_mol(formula) == pytest.approx(PropsSI("M", coolprop_name) * 1000.0, rel=2e-4)
+
+
+def test_ammonia_latent_heat_from_chemicals_agrees_with_coolprop():
+    # The score takes the CRC Handbook value shipped with the chemicals library (23.33 kJ/mol at
+    # 239.82 K); CoolProp's reference equation of state for ammonia (Gao et al. 2020 in CoolProp 8), saturated
+    # liquid and vapour at 101325 Pa, gives 1369.67 kJ/kg. The two agree within 0.05 %.
+    vapour = PropsSI("H", "P", 101325.0, "Q", 1, "Ammonia")
+    liquid = PropsSI("H", "P", 101325.0, "Q", 0, "Ammonia")
+    assert ammonia_latent_heat().value == pytest.approx((vapour - liquid) / 1000.0, rel=5e-4)
+    # Same for the normal boiling point: CoolProp 239.83 K, CRC 239.82 K.
+    boiling_point_k, _ = ammonia_vaporisation_at_normal_boiling_point()
+    assert boiling_point_k == pytest.approx(PropsSI("T", "P", 101325.0, "Q", 0, "Ammonia"), abs=0.05)
 
 
 def test_molar_masses_agree_with_iupac_atomic_weights():
@@ -48,13 +60,6 @@ def test_electrolysis_energy_floor_is_the_heating_value_of_hydrogen():
     assert electrolysis.energy_floor_kwh_per_kg_h2("solid_oxide", 119.96, 141.88) == pytest.approx(33.32, abs=0.01)
 
 
-def test_higher_heating_value_from_the_enthalpy_of_formation_of_water():
-    # NIST: standard enthalpy of formation of liquid water -285.83 kJ/mol; one mol H2 per mol H2O,
-    # so HHV = 285.83 kJ / 2.01588 g = 141.79 MJ/kg, within 0.1 % of the tabulated 141.88 MJ/kg.
-    hhv = 285.83 / molar_mass_g_per_mol("H2")
-    assert hhv == pytest.approx(141.88, rel=1e-3)
-
-
 def test_stoichiometric_water_per_kg_hydrogen():
     # H2O -> H2 + 1/2 O2: 18.015 / 2.016 = 8.94 kg water per kg H2 (common practice: "about 9 L/kg").
     water = electrolysis.stoichiometric_water_kg_per_kg_h2(molar_mass_g_per_mol("H2O"), molar_mass_g_per_mol("H2"))
@@ -67,5 +72,8 @@ def test_reforming_stoichiometric_floor_and_co2():
     # 44.01 / (4 * 2.016) = 5.46 kg CO2/kg H2 (the "about 5.5 kg" of the trade).
     floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(molar_mass_g_per_mol("CH4"), molar_mass_g_per_mol("H2"), 50.04)
     assert floor == pytest.approx(0.0995, abs=0.0002)
-    co2 = molar_mass_g_per_mol("CO2") / (4 * molar_mass_g_per_mol("H2"))
-    assert co2 == pytest.approx(5.46, abs=0.01)
+    # The reforming stage burns that floor with the IPCC natural gas factor (56.1 kg CO2/GJ,
+    # 2006 IPCC Guidelines Vol. 2 Table 2.2): within 3 % of the 5.46 kg of the reaction, the gap
+    # being natural gas (heavier hydrocarbons, some CO2) against pure methane.
+    co2 = reforming.direct_co2_kg_per_kg_h2(floor, 56.1)
+    assert co2 == pytest.approx(5.46, rel=0.03)

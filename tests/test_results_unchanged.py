@@ -30,13 +30,13 @@ import json, sys
 from carbonledger.api import score
 out = {}
 for path in sys.argv[1:]:
-    for boundary in %r:
+    for boundary in BOUNDARIES:
         r = score(path, boundary=boundary)
         out[path + "|" + boundary] = {"total": r.total, "by_stage": r.by_stage, "by_gas": r.by_gas,
             "intensity": r.intensity.model_dump(), "checks": {c.scheme: c.value for c in r.checks},
             "hydrogen_gate": r.hydrogen_production_kg_co2e_per_kg_h2}
 print(json.dumps(out))
-""" % (BOUNDARIES,)
+""".replace("BOUNDARIES", repr(BOUNDARIES))
 
 
 def demos(folder: Path) -> list[Path]:

@@ -3,16 +3,15 @@
 from __future__ import annotations
 
 import math
-import os
 import re
 from pathlib import Path
 
 import openpyxl
 import pytest
+from workbook_support import DEMO, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 from carbonledger.api import score
 from carbonledger.io.workbook.cells import Term
-from workbook_support import DEMO, labelled, recalculate_with_formulas, recalculate_with_libreoffice, run_cli, sheet, soffice
 
 DEMOS = sorted(DEMO.glob("*.toml"))
 FLOW_LABELS = {
@@ -110,14 +109,14 @@ def test_grid_electrolysis_by_hand(tmp_path):
     assert close(results["total"], (52.0 + 1.5) * 281.0 / 1000.0)
 
 
+for _project in DEMOS:
+    libreoffice_job(f"demo-{_project.stem}")(lambda out, project=_project: write(project, out))
+
+
 @pytest.mark.parametrize("project", DEMOS, ids=lambda p: p.stem)
-def test_libreoffice_recalculates_the_engine_figures(project, tmp_path):
-    if soffice() is None:
-        if os.environ.get("CI") == "true":
-            pytest.fail("LibreOffice (soffice) is required under CI=true; .ci/run installs libreoffice-calc")
-        pytest.skip("LibreOffice not installed here")
-    out = write(project, tmp_path / f"{project.stem}.xlsx")
-    assert_agrees(recalculate_with_libreoffice(out, tmp_path / "lo"), score(project))
+def test_libreoffice_recalculates_the_engine_figures(project, libreoffice_recalculated):
+    _, recalculated = libreoffice_recalculated[f"demo-{project.stem}"]
+    assert_agrees(openpyxl.load_workbook(recalculated, data_only=True), score(project))
 
 
 # every exchange is a formula --------------------------------------------------------------
@@ -231,15 +230,23 @@ def test_not_a_workbook(tmp_path):
 INJECTIONS = ['=HYPERLINK("http://example.invalid","x")', "+1+1", "-2+3", "@SUM(1,1)"]
 
 
-def test_formula_injection_strings_stay_text(tmp_path):
-    project = tmp_path / "p.toml"
+def write_injection_workbook(out: Path) -> Path:
+    """The grid demo with formula-like text in the name, site, note and an electricity source."""
+    project = out.with_suffix(".toml")
     text = (DEMO / "grid_electrolysis_hydrogen.toml").read_text()
     text = re.sub(r'^name = .*$', 'name = """' + INJECTIONS[0] + '"""', text, count=1, flags=re.M)
     text = re.sub(r'^site = .*$', 'site = "' + INJECTIONS[1] + '"', text, count=1, flags=re.M)
     text = re.sub(r'^note = .*$', 'note = "' + INJECTIONS[2] + '"', text, count=1, flags=re.M)
     text = text.replace("[electricity.sources.grid]", '[electricity.sources."@SUM(1,1)"]')
     project.write_text(text)
-    out = write(project, tmp_path / "p.xlsx")
+    return write(project, out)
+
+
+libreoffice_job("injection")(write_injection_workbook)
+
+
+def test_formula_injection_strings_stay_text(tmp_path):
+    out = write_injection_workbook(tmp_path / "p.xlsx")
     book = openpyxl.load_workbook(out)
     found = {}
     for ws in book.worksheets:
@@ -253,13 +260,16 @@ def test_formula_injection_strings_stay_text(tmp_path):
     values = recalculate_with_formulas(out, tmp_path / "calc")
     cover = labelled(sheet(values, "Cover"))
     assert cover["Project"] == INJECTIONS[0]
-    if soffice() is not None:
-        cover = labelled(sheet(recalculate_with_libreoffice(out, tmp_path / "lo"), "Cover"))
-        assert cover["Project"] == INJECTIONS[0]
     # and the round trip gives the same text back
     code, text, err = run_cli("score", "--from-workbook", str(out), "--format", "json")
     assert code == 0, err
     assert '"project": "=HYPERLINK' in text
+
+
+def test_formula_injection_strings_stay_text_in_libreoffice(libreoffice_recalculated):
+    _, recalculated = libreoffice_recalculated["injection"]
+    cover = labelled(sheet(openpyxl.load_workbook(recalculated, data_only=True), "Cover"))
+    assert cover["Project"] == INJECTIONS[0]
 
 
 def test_existing_file_is_not_overwritten_without_force(tmp_path):
@@ -303,21 +313,6 @@ def test_cover_states_what_a_verifier_needs(tmp_path):
     factors = labelled(book["Factors"], column=9)
     assert factors["combustion.natural_gas.co2"] == "yes"  # flagged from memory in the factor set
     assert "reference.molar_mass.nh3" in factors
-
-
-def test_score_does_not_import_the_workbook_libraries():
-    import subprocess
-    import sys
-
-    code = (
-        "import sys; from carbonledger.cli import app; from typer.testing import CliRunner; "
-        f"r = CliRunner().invoke(app, ['score', {str(DEMO / 'grey_smr_ammonia.toml')!r}]); assert r.exit_code == 0; "
-        "print(sorted(m for m in ('openpyxl', 'formulas') if m in sys.modules))"
-    )
-    root = str(Path(__file__).resolve().parent.parent)
-    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=root, env=dict(os.environ, PYTHONPATH=root))
-    assert done.returncode == 0, done.stderr
-    assert done.stdout.strip() == "[]"
 
 
 def _trees():
@@ -369,29 +364,28 @@ def test_a_formula_typed_into_an_input_cell(tmp_path):
     assert code == 2 and f"sheet Inputs, cell {cell}" in err and "no saved value" in err
 
 
-def test_round_trip_through_a_workbook_saved_by_libreoffice(tmp_path):
+@libreoffice_job("blue-atr-ar5")
+def _blue_atr_ar5(out: Path) -> Path:
+    return write(DEMO / "blue_atr_ammonia.toml", out, "--gwp", "ar5")
+
+
+def test_round_trip_through_a_workbook_saved_by_libreoffice(libreoffice_recalculated):
     """A workbook opened and saved by LibreOffice still reads back: same inputs, same score."""
-    if soffice() is None:
-        if os.environ.get("CI") == "true":
-            pytest.fail("LibreOffice (soffice) is required under CI=true")
-        pytest.skip("LibreOffice not installed here")
     import json
 
-    project = DEMO / "blue_atr_ammonia.toml"
-    out = write(project, tmp_path / "a.xlsx", "--gwp", "ar5")
-    recalculate_with_libreoffice(out, tmp_path / "lo")
-    code, text, err = run_cli("score", "--from-workbook", str(tmp_path / "lo" / "out" / "a.xlsx"), "--format", "json")
+    _, saved_by_libreoffice = libreoffice_recalculated["blue-atr-ar5"]
+    code, text, err = run_cli("score", "--from-workbook", str(saved_by_libreoffice), "--format", "json")
     assert code == 0, err
     data = json.loads(text)
-    expected = score(project, gwp="ar5")
+    expected = score(DEMO / "blue_atr_ammonia.toml", gwp="ar5")
     assert close(data["total"], expected.total) and data["factor_set"]["sha256"] == expected.factor_set.sha256
 
 
 def test_a_loop_in_the_supply_chain_is_refused():
-    from carbonledger.errors import InputError
     from carbonledger.core.inventory import Inventory
-    from carbonledger.routes.base import Activity
+    from carbonledger.errors import InputError
     from carbonledger.io.workbook.calculation import check_acyclic
+    from carbonledger.routes.base import Activity
 
     gas = Activity("natural_gas_supply", "natural_gas_supply", "gas", "GJ")
     power = Activity("electricity_mix", "electricity_supply", "power", "kWh")
@@ -406,8 +400,8 @@ def test_a_loop_in_the_supply_chain_is_refused():
 
 def test_library_functions_for_other_commands(tmp_path):
     """What `compare --from-workbook` can call: the validated project and the cover's settings."""
-    from carbonledger.io.workbook.reader import load_project_from_workbook
     from carbonledger.api import score_workbook
+    from carbonledger.io.workbook.reader import load_project_from_workbook
 
     out = write(DEMO / "blue_atr_ammonia.toml", tmp_path / "a.xlsx", "--gwp", "ar4", "--scheme", "japan-ammonia")
     project, sha, settings = load_project_from_workbook(out, ["capture.capture_rate=0.9"])

@@ -5,6 +5,7 @@ from __future__ import annotations
 import os
 import shutil
 import subprocess
+from collections.abc import Callable
 from pathlib import Path
 
 import openpyxl
@@ -47,8 +48,32 @@ def soffice() -> str | None:
     return shutil.which("soffice") or shutil.which("libreoffice")
 
 
-def recalculate_with_libreoffice(path: Path, folder: Path):
-    """LibreOffice headless recalculates formulas without cached values when converting."""
+LIBREOFFICE_JOBS: dict[str, Callable[[Path], Path]] = {}
+
+
+def libreoffice_job(name: str):
+    """Register a workbook for the one LibreOffice recalculation of the session.
+
+    The decorated function writes the workbook to the path it is given and returns it; the
+    session fixture ``libreoffice_recalculated`` (conftest.py) writes every registered workbook,
+    starts LibreOffice once for all of them, and maps each name to (written, recalculated) paths.
+    """
+
+    def register(build: Callable[[Path], Path]) -> Callable[[Path], Path]:
+        assert name not in LIBREOFFICE_JOBS, name
+        LIBREOFFICE_JOBS[name] = build
+        return build
+
+    return register
+
+
+def recalculate_many_with_libreoffice(paths: list[Path], folder: Path) -> Path:
+    """One LibreOffice start converts (and so recalculates) every workbook; returns the output folder.
+
+    LibreOffice headless recalculates formulas without cached values when converting. The file
+    names must differ: each converted workbook keeps its name in the output folder.
+    """
+    assert len({path.name for path in paths}) == len(paths), "workbook names must differ"
     folder.mkdir(parents=True, exist_ok=True)
     home = folder / "home"
     home.mkdir(exist_ok=True)
@@ -62,10 +87,10 @@ def recalculate_with_libreoffice(path: Path, folder: Path):
         "xlsx",
         "--outdir",
         str(folder / "out"),
-        str(path),
+        *map(str, paths),
     ]
-    subprocess.run(command, check=True, capture_output=True, env=environment, timeout=180)
-    return openpyxl.load_workbook(folder / "out" / path.name, data_only=True)
+    subprocess.run(command, check=True, capture_output=True, env=environment, timeout=900)
+    return folder / "out"
 
 
 def labelled(ws, column: int = 2) -> dict[str, object]:

@@ -153,7 +153,7 @@ def read_meters(path: str | Path, project) -> Meters:
         if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
             raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
         values: dict[str, float] = {}
-        for column, text in zip(columns, row[1:]):
+        for column, text in zip(columns, row[1:], strict=True):
             where = f"line {line}, {column.header}"
             try:
                 value = float(text)
@@ -182,7 +182,8 @@ def read_meters(path: str | Path, project) -> Meters:
         if month in first_seen:
             raise InputError(path, "month", f"each month once, {month} appears twice")
         first_seen[month] = 1
-    for (before, previous), (month, number) in zip(zip(meters.months, numbers), list(zip(meters.months, numbers))[1:]):
+    pairs = list(zip(meters.months, numbers, strict=True))
+    for (before, previous), (month, number) in zip(pairs, pairs[1:], strict=False):
         if number < previous:
             raise InputError(path, "month", f"months in calendar order; {month} comes after {before} (out of order)")
         if number != previous + 1:

@@ -88,7 +88,7 @@ def score_portfolio(
     schemes = scheme_ids(schemes, known) or None
     sets = factor_set if isinstance(factor_set, list) else [factor_set] * len(projects)
     prepared = []
-    for item, one_set in zip(projects, sets):
+    for item, one_set in zip(projects, sets, strict=True):
         ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256)
         if schemes:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
@@ -168,11 +168,11 @@ def recalc(
     rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes) if to_rescore else []
     new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
     new_scores = [score.model_copy(update={"factor_set": new_ref}) for score in old_scores]
-    for number, score in zip(to_rescore, rescored):
+    for number, score in zip(to_rescore, rescored, strict=True):
         new_scores[number] = score
     rescored_numbers = set(to_rescore)
     rows = []
-    for number, (old, new) in enumerate(zip(old_scores, new_scores)):
+    for number, (old, new) in enumerate(zip(old_scores, new_scores, strict=True)):
         new_checks = {check.scheme: check for check in new.checks}
         for check in old.checks:
             after = new_checks[check.scheme]

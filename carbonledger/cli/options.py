@@ -2,16 +2,17 @@
 
 from __future__ import annotations
 
-from enum import Enum
+from collections.abc import Callable
+from enum import StrEnum
 from pathlib import Path
-from typing import Annotated, Callable, Optional
+from typing import Annotated, Optional
 
 import typer
 
 from ..errors import InputError
 
 
-class OutputFormat(str, Enum):
+class OutputFormat(StrEnum):
     table = "table"
     json = "json"
     csv = "csv"

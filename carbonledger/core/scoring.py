@@ -225,17 +225,17 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     contributions = main.contributions(headline)
     total = float(contributions.sum())
     keys = matrices.activity_keys
-    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0))}
+    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0), strict=True)}
     present = {inventory.activities[key].stage for key in keys}
     by_stage = {stage: 0.0 for stage in STAGES if stage in present}
     for key, value in by_activity.items():
         by_stage[inventory.activities[key].stage] += value
-    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1)) if flow not in NON_GHG_FLOWS}
-    non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1)) if flow in NON_GHG_FLOWS}
+    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1), strict=True) if flow not in NON_GHG_FLOWS}
+    non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in NON_GHG_FLOWS}
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
     leakage = non_ghg.get("h2", 0.0)
     leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
-    supply = dict(zip(keys, main.supply))
+    supply = dict(zip(keys, main.supply, strict=True))
     exchanges = [
         ExchangeRow(
             activity=activity.key,
@@ -338,7 +338,7 @@ def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> 
     solutions: list[dict] = [{}] * len(prepared)
     for members in groups.values():
         solved = solve_many([prepared[n].matrices for n in members], prepared[members[0]].demands)
-        for number, solution in zip(members, solved):
+        for number, solution in zip(members, solved, strict=True):
             solutions[number] = solution
         if check_with_bw2calc:
             reference = prepared[members[0]]
@@ -367,4 +367,4 @@ def score_project(
 
 def score_many(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[ScoreResult]:
     """Score many prepared projects with stacked solves; the same results as ``score_project``."""
-    return [assemble(ready, solution) for ready, solution in zip(prepared, solve_stacked(prepared, check_with_bw2calc))]
+    return [assemble(ready, solution) for ready, solution in zip(prepared, solve_stacked(prepared, check_with_bw2calc), strict=True)]

@@ -116,13 +116,13 @@ def comparison_figure(result: ComparisonResult):
     below = [0.0] * len(labels)
     for number, stage in enumerate(result.stages):
         values = [p.by_stage.get(stage, 0.0) for p in result.projects]
-        bottoms = [a if v >= 0 else b for v, a, b in zip(values, above, below)]
+        bottoms = [a if v >= 0 else b for v, a, b in zip(values, above, below, strict=True)]
         bars = axes.bar(positions, values, bottom=bottoms, width=0.6, label=stage.replace("_", " "), color=colours[number % len(colours)])
         for index, patch in enumerate(bars.patches):
             patch.set_gid(f"bar-{index}-{stage}")
-        above = [a + max(v, 0.0) for v, a in zip(values, above)]
-        below = [b + min(v, 0.0) for v, b in zip(values, below)]
-    for position, project in zip(positions, result.projects):
+        above = [a + max(v, 0.0) for v, a in zip(values, above, strict=True)]
+        below = [b + min(v, 0.0) for v, b in zip(values, below, strict=True)]
+    for position, project in zip(positions, result.projects, strict=True):
         axes.annotate(display_number(project.value), (position, max(above[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
     for limit, text in ((line.limit, _chart_text(line.label)) for line in result.thresholds):
         axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)

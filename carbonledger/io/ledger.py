@@ -27,10 +27,11 @@ import json
 import os
 import sqlite3
 import tempfile
+from collections.abc import Iterable
 from dataclasses import dataclass, field
-from datetime import datetime, timezone
+from datetime import UTC, datetime
 from pathlib import Path
-from typing import Any, Iterable
+from typing import Any
 
 from ..about import __version__
 from ..errors import InputError
@@ -267,7 +268,7 @@ def record_run(command: str, results: Iterable, *, ledger: str | Path | None = N
     factor_cache: dict[tuple, tuple[str, str]] = {}
     try:
         connection.execute("BEGIN IMMEDIATE")
-        now = datetime.now(timezone.utc).isoformat(timespec="milliseconds")
+        now = datetime.now(UTC).isoformat(timespec="milliseconds")
         run_id = connection.execute(
             "INSERT INTO runs (time, command, carbonledger_version) VALUES (?, ?, ?)", (now, command, __version__)
         ).lastrowid

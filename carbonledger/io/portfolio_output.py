@@ -23,7 +23,7 @@ def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozense
     widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
 
     def line(cells):
-        return "  ".join(c.rjust(w) if h in right else c.ljust(w) for c, w, h in zip(cells, widths, headers)).rstrip()
+        return "  ".join(c.rjust(w) if h in right else c.ljust(w) for c, w, h in zip(cells, widths, headers, strict=True)).rstrip()
 
     return "\n".join([line(headers), line(["-" * w for w in widths])] + [line(r) for r in rows]) + "\n"
 

@@ -24,7 +24,6 @@ import math
 import os
 import tomllib
 from dataclasses import asdict, dataclass, field
-from importlib import resources
 from pathlib import Path
 
 from ..errors import InputError, did_you_mean, match_id

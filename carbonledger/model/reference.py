@@ -1,7 +1,8 @@
 """Physical reference data taken from general-purpose reference libraries, never typed in.
 
-Molar masses come from the ``chemicals`` library (standard atomic weights). Each value is
-reported with its source so that it can be listed beside the factors of a result.
+Molar masses, ammonia's enthalpy of formation and its enthalpy of vaporisation come from the
+``chemicals`` library (standard atomic weights; Active Thermochemical Tables; CRC Handbook). Each
+value is reported with its source so that it can be listed beside the factors of a result.
 
 References
 ----------
@@ -47,39 +48,47 @@ def molar_mass(formula: str) -> ReferenceValue:
     )
 
 
-ATMOSPHERE_PA = 101325.0
 _AMMONIA_CAS = "7664-41-7"
+_CRC_VAPORISATION_TABLE = "CRC Handbook Heat of Vaporization.tsv"
 
 
 @functools.cache
-def _coolprop_version() -> str:
-    from importlib.metadata import version
+def ammonia_vaporisation_at_normal_boiling_point() -> tuple[float, float]:
+    """Normal boiling point (K) and molar enthalpy of vaporisation there (J/mol) of ammonia.
 
-    return version("CoolProp")
-
-
-@functools.cache
-def ammonia_saturation_at_one_atmosphere() -> tuple[float, float]:
-    """Normal boiling point (K) and latent heat of vaporisation (kJ/kg) of ammonia, from CoolProp.
-
-    CoolProp is imported here, not at module level: it takes about two seconds to load and only
-    projects with a voyage or a cracker need it.
+    Read from the CRC Handbook table that ``chemicals`` ships (``chemicals.phase_change``
+    registers it; ``Hvap_data_CRC`` is the same table). Only this table is read: the module
+    attribute ``Hvap_data_CRC`` would load every phase-change table at once (about a second).
     """
-    from CoolProp.CoolProp import PropsSI
+    import chemicals.phase_change  # noqa: F401  (registers the phase-change tables)
+    from chemicals.data_reader import data_source
 
-    boiling_point_k = PropsSI("T", "P", ATMOSPHERE_PA, "Q", 0, "Ammonia")
-    vapour = PropsSI("H", "P", ATMOSPHERE_PA, "Q", 1, "Ammonia")
-    liquid = PropsSI("H", "P", ATMOSPHERE_PA, "Q", 0, "Ammonia")
-    return float(boiling_point_k), float((vapour - liquid) / 1000.0)
+    row = data_source(_CRC_VAPORISATION_TABLE).loc[_AMMONIA_CAS]
+    return float(row["Tb"]), float(row["HvapTb"])
 
 
 def ammonia_latent_heat() -> ReferenceValue:
-    """Latent heat of vaporisation of ammonia at 1 atm (refrigerated cargo), kJ/kg."""
+    """Latent heat of vaporisation of ammonia at its normal boiling point (1 atm, refrigerated cargo), kJ/kg.
+
+    The molar enthalpy of vaporisation at the normal boiling point (CRC Handbook, through the
+    ``chemicals`` library) divided by the molar mass of NH3 (``chemicals.elements``); J/mol over
+    g/mol is kJ/kg. tests/test_reference_values.py checks it against CoolProp's equation of state.
+
+    References
+    ----------
+    Haynes, W. M. (ed.), CRC Handbook of Chemistry and Physics, 95th ed., "Enthalpy of
+    vaporization" (as tabulated in chemicals' ``Phase Change/CRC Handbook Heat of Vaporization.tsv``).
+    """
+    boiling_point_k, molar_j_per_mol = ammonia_vaporisation_at_normal_boiling_point()
     return ReferenceValue(
         id="reference.latent_heat.ammonia",
-        value=ammonia_saturation_at_one_atmosphere()[1],
+        value=molar_j_per_mol / molar_mass_g_per_mol("NH3"),
         unit="kJ/kg",
-        source=f"CoolProp {_coolprop_version()} (PropsSI, saturated ammonia at 101325 Pa: h_vapour - h_liquid)",
+        source=(
+            f"chemicals {_chemicals_version()} (CRC Handbook of Chemistry and Physics, 95th ed. 2014, enthalpy of vaporization "
+            f"at the normal boiling point {boiling_point_k:.2f} K: {molar_j_per_mol / 1000:.2f} kJ/mol, "
+            "divided by the molar mass of NH3)"
+        ),
     )
 
 
@@ -100,8 +109,16 @@ def ammonia_formation_enthalpy() -> ReferenceValue:
     )
 
 
+ATMOSPHERE_PA = 101325.0
 HYDROGEN_FLUID = "Hydrogen"  # CoolProp's normal hydrogen (Leachman et al. 2009); ortho-para conversion not included
 AMBIENT_TEMPERATURE_K = 298.15
+
+
+@functools.cache
+def _coolprop_version() -> str:
+    from importlib.metadata import version
+
+    return version("CoolProp")
 
 
 @functools.cache

@@ -109,7 +109,7 @@ def select_schemes(all_schemes: dict[str, Scheme], requested: list[str] | None, 
     if not requested:
         return [s for s in all_schemes.values() if product in s.products]
     chosen = []
-    for requested_id, scheme_id in zip(requested, scheme_ids(requested, all_schemes)):
+    for requested_id, scheme_id in zip(requested, scheme_ids(requested, all_schemes), strict=True):
         scheme = all_schemes[scheme_id]
         if product not in scheme.products:
             raise InputError("--scheme", requested_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})")

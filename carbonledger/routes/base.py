@@ -10,8 +10,9 @@ validation, periods, ``init`` and lifetime loop over it.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any, Callable
+from typing import Any
 
 from ..model.units import split_substance
 from ..stages import electricity, natural_gas

@@ -10,7 +10,8 @@ References
 .. [1] Reaction enthalpy from the standard enthalpy of formation of NH3(g) in the ``chemicals``
    library (Active Thermochemical Tables, -45.56 kJ/mol; CRC Handbook -45.9 kJ/mol):
    dH = -2 dfH(NH3) per 3 mol H2, since N2 and H2 are elements in their standard state.
-.. [2] Latent heat of vaporisation of ammonia at 1 atm from CoolProp.
+.. [2] Latent heat of vaporisation of ammonia at 1 atm: CRC Handbook through the ``chemicals``
+   library (see ``model.reference.ammonia_latent_heat``).
 """
 
 

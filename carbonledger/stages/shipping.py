@@ -13,8 +13,10 @@ References
    attained EEDI, §2.2.1: CO2 conversion factors Cf of marine fuels (t CO2/t fuel).
 .. [2] IMO resolution MEPC.376(80) (2023), Guidelines on life cycle GHG intensity of marine
    fuels: well-to-tank factors, tank-to-wake CH4 and N2O factors and methane slip (Cslip).
-.. [3] Latent heat of vaporisation of ammonia at 1 atm from CoolProp (Bell et al., Ind. Eng.
-   Chem. Res. 53 (2014) 2498-2508).
+.. [3] Latent heat of vaporisation of ammonia at its normal boiling point (1 atm): CRC Handbook
+   of Chemistry and Physics (95th ed., 2014) through the ``chemicals`` library; checked in the
+   tests against CoolProp's equation of state for ammonia (Bell et al., Ind. Eng. Chem. Res. 53
+   (2014) 2498-2508).
 """
 
 HOURS_PER_DAY = 24.0

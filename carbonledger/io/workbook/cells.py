@@ -50,7 +50,7 @@ class Term:
 
     # helpers -----------------------------------------------------------------------------
     @staticmethod
-    def of(value) -> "Term":
+    def of(value) -> Term:
         if isinstance(value, Term):
             return value
         if isinstance(value, bool):
