@@ -11,12 +11,14 @@ from pathlib import Path
 
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
+from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.lifetime import LifetimeResult, lifetime_score
+from .analyses.matching import matched_checks
 from .analyses.periods import month_results, read_meters
 from .analyses.portfolio import Recalc, load_portfolio
 from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
-from .core.scoring import DEFAULT_GWP, score_project
+from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
 from .io.workbook.reader import (
     base_factor_set,
@@ -61,6 +63,7 @@ def score(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    matching: str | None = None,
 ) -> ScoreResult:
     """Score a project file: carbon intensity, by stage and gas, with scheme checks.
 
@@ -72,9 +75,31 @@ def score(
     schemes : scheme ids to check; default all that apply to the product.
     overrides : 'dotted.parameter=value' strings applied to the project before validation.
     boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
+    matching : with an electricity time series, a granularity (interval, hour, month, quarter,
+        year) that replaces every scheme's temporal rule (a what-if); None: each scheme's rule.
     """
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
+    series = project_series(project, project_file)
+    if series is None:
+        if matching is not None:
+            raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
+        return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
+    return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching)
+
+
+def project_series(project, project_file: str | Path) -> ElectricitySeries | None:
+    """The project's electricity time series (``[electricity] time_series``, relative to the project file), or None."""
+    name = project.electricity.time_series
+    if not name:
+        return None
+    return read_series(Path(project_file).parent / name, project)
+
+
+def score_with_series(project, factor_set: FactorSet, series: ElectricitySeries, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None, source: str = "project", project_sha256: str = "", matching: str | None = None) -> ScoreResult:
+    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``)."""
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256)
+    solutions = solve_with_bw2calc(prepared)
+    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)
 
 
 def score_workbook(
