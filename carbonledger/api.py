@@ -13,7 +13,8 @@ from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import matched_checks
+from .analyses.matching import electricity_model, matched_checks, source_kinds
+from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.periods import month_results, read_meters
 from .analyses.portfolio import Recalc, load_portfolio
 from .analyses.portfolio import recalc as recalc_portfolio
@@ -38,6 +39,7 @@ __all__ = [
     "audit_workbook",
     "recalc",
     "lifetime",
+    "plan",
     "load_project",
     "load_factor_set",
     "load_any_project",
@@ -209,3 +211,51 @@ def lifetime(
     """Score every operating year of a project's [lifetime] and the lifetime average."""
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
     return lifetime_score(project, _factor_set(factors), project_file=str(project_file), project_sha256=sha, gwp=gwp, schemes=schemes)
+
+
+def plan(
+    project_file: str | Path,
+    *,
+    scheme: str,
+    tier: str | None = None,
+    rated_kw: float | None = None,
+    min_load: float = 0.0,
+    part_load: list[tuple[float, float]] | None = None,
+    hydrogen_price: float | None = None,
+    matching: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+) -> tuple[PlanResult, ElectricitySeries]:
+    """The operating plan of a project with an electricity time series: the load in every interval
+    that maximises hydrogen (or margin, with ``hydrogen_price`` and a price column) while the
+    project qualifies for ``scheme`` at ``tier`` (default: the loosest threshold).
+
+    rated_kw : electrolyser rated power (kW); default the largest load in the series.
+    min_load : minimum stable load as a fraction of rated power (0: can run at any load).
+    part_load : (load fraction, kWh/kg) points of a concave part-load efficiency curve.
+    matching : a granularity replacing the scheme's temporal rule (what-if); None: the rule.
+    """
+    project, sha = load_project(project_file, overrides)
+    series = project_series(project, project_file)
+    if series is None:
+        raise InputError(project_file, "electricity.time_series", "a time series CSV to plan against")
+    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme], source=str(project_file), project_sha256=sha)
+    solutions = solve_with_bw2calc(prepared)
+    check = assemble(prepared, solutions).checks[0]
+    rulebook = prepared.chosen[0]
+    model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
+    threshold = choose_threshold(rulebook, tier)
+    if rated_kw is None:
+        rated_kw = float(series.load(model.kwh_per_kg_h2).max()) * 60.0 / series.interval_minutes
+    if not rated_kw > 0:
+        raise InputError("--rated-kw", str(rated_kw), "a rated power > 0 kW (the series has no load to take it from)")
+    if matching not in (None, "rule") and matching not in ("interval", "hour", "month", "quarter", "year"):
+        raise InputError("--matching", matching, "one of rule, interval, hour, month, quarter, year")
+    result = plan_load(
+        series, model, rulebook, source_kinds(prepared.params),
+        value_declared=check.value, limit=threshold.limit, inclusive=threshold.inclusive, rated_kw=rated_kw, min_load=min_load,
+        part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
+    )
+    result.tier = threshold.tier
+    return result, series
