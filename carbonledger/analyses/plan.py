@@ -76,11 +76,12 @@ class PlanResult:
         return len(self.load_kwh) * self.interval_minutes / 60.0
 
 
-def part_load_segments(points: list[tuple[float, float]], rated_kwh: float) -> tuple[np.ndarray, np.ndarray, float]:
+def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, through_origin: bool = False) -> tuple[np.ndarray, np.ndarray, float]:
     """Slopes a_j (kg/kWh) and intercepts b_j (kg) of the hydrogen output through (load fraction, kWh/kg) points.
 
     Returns (a, b, least fraction). The output must be concave (falling marginal output), as a
-    linear program needs; the points must reach full load (1.0).
+    linear program needs; the points must reach full load (1.0). ``through_origin`` adds the
+    segment from zero load to the first point (a plant that may run at any load).
     """
     points = sorted(points)
     fractions = np.array([f for f, _ in points])
@@ -89,13 +90,13 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float) -> t
     kwh = fractions * rated_kwh
     kg = kwh / np.array([e for _, e in points])
     slopes = np.diff(kg) / np.diff(kwh)
-    if (np.diff(slopes) > 1e-12).any():
-        raise InputError("--part-load", str(points), "a concave output curve (kWh/kg not falling faster at higher load); a linear program needs it")
     intercepts = kg[:-1] - slopes * kwh[:-1]
-    first = kg[0] / kwh[0]  # from zero to the first point: through the origin
-    if len(slopes) and first < slopes[0] - 1e-12:
-        raise InputError("--part-load", str(points), "a concave output curve (the first point's kWh/kg at most the next segment's marginal kWh/kg)")
-    return np.r_[first, slopes], np.r_[0.0, intercepts], float(fractions[0])
+    if through_origin:
+        slopes, intercepts = np.r_[kg[0] / kwh[0], slopes], np.r_[0.0, intercepts]
+    if (np.diff(slopes) > 1e-12).any():
+        hint = " (from zero load; give --min-load at the first point if the plant cannot run below it)" if through_origin else ""
+        raise InputError("--part-load", str(points), f"a concave output curve: marginal hydrogen per kWh falling as load rises{hint}")
+    return slopes, intercepts, float(fractions[0])
 
 
 def _period_data(series: ElectricitySeries, supply: np.ndarray, labels: np.ndarray, counted: np.ndarray):
@@ -147,8 +148,8 @@ def plan_load(
     if not inclusive:
         cap -= 1e-9 * max(abs(cap), 1e-6)
     if part_load:
-        slopes, intercepts, least = part_load_segments(part_load, rated)
-        if least > max(min_load, 0) + 1e-12 and min_load > 0:
+        slopes, intercepts, least = part_load_segments(part_load, rated, through_origin=min_load == 0)
+        if min_load > 0 and least > min_load + 1e-12:
             raise InputError("--part-load", str(part_load), f"a first point at or below the minimum stable load {min_load:g}")
     else:
         slopes, intercepts = np.array([1.0 / model.kwh_per_kg_h2]), np.array([0.0])
