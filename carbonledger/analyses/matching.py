@@ -126,13 +126,16 @@ def match_periods(load_kwh: np.ndarray, supply_kwh: np.ndarray, labels: np.ndarr
     from ``period_labels``. In each period M_P = min(L_P, G_P); interval t of period P is matched
     M_P / L_P of its load; source s gets M_P G_sP / G_P.
     """
-    starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
-    load_p = np.add.reduceat(load_kwh, starts)
-    supply_p = np.add.reduceat(supply_kwh, starts, axis=1) if supply_kwh.shape[0] else np.zeros((0, len(starts)))
+    if labels[-1] + 1 == len(labels):  # every interval its own period
+        load_p, supply_p = load_kwh, supply_kwh
+    else:
+        starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
+        load_p = np.add.reduceat(load_kwh, starts)
+        supply_p = np.add.reduceat(supply_kwh, starts, axis=1) if supply_kwh.shape[0] else np.zeros((0, len(starts)))
     generation_p = supply_p.sum(axis=0)
     matched_p = np.minimum(load_p, generation_p)
     fraction = np.divide(matched_p, load_p, out=np.zeros_like(load_p), where=load_p > 0)
-    per_interval = load_kwh * fraction[labels]
+    per_interval = load_kwh * (fraction if len(fraction) == len(labels) else fraction[labels])
     to_source = np.divide(matched_p, generation_p, out=np.zeros_like(generation_p), where=generation_p > 0)
     by_source = supply_p @ to_source if supply_kwh.shape[0] else np.zeros(0)
     return per_interval, by_source
@@ -233,6 +236,19 @@ def counted_intensity(result: MatchResult, load_kwh: np.ndarray, model: Electric
     return load, matched, load - matched, (kg / load if load > 0 else 0.0)
 
 
+def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, starts: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """``counted_intensity`` for consecutive blocks of intervals starting at ``starts`` (months), at once:
+    (load kWh, matched kWh, counted kg CO2e/kWh) per block."""
+    unmatched_t = load_kwh - result.matched_interval_kwh
+    load = np.add.reduceat(load_kwh, starts)
+    matched = np.add.reduceat(result.matched_interval_kwh, starts)
+    grid_kg = np.add.reduceat(unmatched_t * grid_g_per_kwh, starts) / 1000.0 if grid_g_per_kwh is not None else (load - matched) * model.grid_kg_per_kwh
+    total_matched = sum(result.matched_by_source_kwh.values())
+    source_kg_per_kwh = sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
+    kg = matched * source_kg_per_kwh + grid_kg
+    return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
+
+
 def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, kinds: dict[str, str], granularity: str | None = None) -> Check:
     """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if)."""
     load = series.load(model.kwh_per_kg_h2)
@@ -249,21 +265,19 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     value = value_at(intensity)
     months = local.astype("datetime64[M]")
     starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
-    ends = np.r_[starts[1:], len(months)]
-    monthly = []
-    for start, end in zip(starts, ends):
-        m_load, m_matched, m_unmatched, m_intensity = counted_intensity(result, load, model, series.grid_g_co2e_per_kwh, slice(start, end))
-        monthly.append(
-            MonthOfMatching(
-                month=str(months[start]),
-                load_kwh=m_load,
-                matched_kwh=m_matched,
-                unmatched_kwh=m_unmatched,
-                matched_share=m_matched / m_load if m_load > 0 else 0.0,
-                electricity_g_co2e_per_kwh=m_intensity * 1000.0,
-                value=value_at(m_intensity),
-            )
+    m_load, m_matched, m_intensity = monthly_intensities(result, load, model, series.grid_g_co2e_per_kwh, starts)
+    monthly = [
+        MonthOfMatching(
+            month=str(months[start]),
+            load_kwh=float(a),
+            matched_kwh=float(b),
+            unmatched_kwh=float(a - b),
+            matched_share=float(b / a) if a > 0 else 0.0,
+            electricity_g_co2e_per_kwh=float(c) * 1000.0,
+            value=value_at(float(c)),
         )
+        for start, a, b, c in zip(starts, m_load, m_matched, m_intensity)
+    ]
     matching = ElectricityMatching(
         granularity=result.granularity if result.granularity != "mixed" else describe(scheme.id),
         rule=rule,
