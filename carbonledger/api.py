@@ -14,8 +14,8 @@ from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, matched_checks, source_kinds
-from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.periods import month_results, read_meters
+from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio
 from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult

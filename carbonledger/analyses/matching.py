@@ -34,8 +34,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..errors import InputError
 from ..core.scoring import Prepared, intensities, zero_rated
+from ..errors import InputError
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
 from ..stages.electricity import kind_of_source
 from .electricity_series import ElectricitySeries

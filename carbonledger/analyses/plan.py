@@ -267,7 +267,8 @@ def plan_load(
         if binary and n > FULL_MIXED_INTEGER_UP_TO:
             solved, gap_note = _relax_and_fix(objective, constraints, integrality, bounds_lo, bounds_hi, (p0, on0, n), min_load * rated, time_limit_s, mip_gap)
         else:
-            solved = milp(objective, constraints=constraints, integrality=integrality, bounds=Bounds(bounds_lo, bounds_hi), options={"time_limit": time_limit_s, "mip_rel_gap": mip_gap})
+            limits = {"time_limit": time_limit_s, "mip_rel_gap": mip_gap} if binary else {}
+            solved = milp(objective, constraints=constraints, integrality=integrality, bounds=Bounds(bounds_lo, bounds_hi), options=limits)
             gap_note = ""
         if solved.x is None:
             raise InputError("plan", scheme.id, f"a feasible plan ({solved.message}); the limit may be out of reach even at minimum stable load")
@@ -323,14 +324,13 @@ def choose_threshold(scheme, tier: str | None):
     """The threshold to plan for: the loosest, or the tier named (text contained in its name) or given by its limit."""
     if not tier:
         return scheme.loosest()
-    for threshold in scheme.thresholds:
-        if tier.lower() in threshold.tier.lower():
-            return threshold
-        try:
-            if float(tier) == threshold.limit:
-                return threshold
-        except ValueError:
-            pass
+    try:
+        by_limit = [t for t in scheme.thresholds if t.limit == float(tier)]
+    except ValueError:
+        by_limit = []
+    named = by_limit or [t for t in scheme.thresholds if tier.lower() in t.tier.lower()]
+    if len(named) == 1:
+        return named[0]
     raise InputError("--tier", tier, "one of " + "; ".join(f"'{t.tier}' (limit {t.limit:g})" for t in scheme.thresholds))
 
 
