@@ -13,7 +13,7 @@ from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, matched_checks, source_kinds
+from .analyses.matching import eligible_sources, electricity_model, match, matched_checks, scheme_granularity, source_kinds
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio
@@ -259,3 +259,34 @@ def plan(
     )
     result.tier = threshold.tier
     return result, series
+
+
+def matching_chart(
+    project_file: str | Path,
+    path: str | Path,
+    *,
+    scheme: str | None = None,
+    matching: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+    force: bool = False,
+) -> Path:
+    """Chart one project's matching under a scheme (default the first that applies): monthly matched and
+    unmatched use, and the unmatched share by hour of day and month."""
+    from .io.matching_chart import write_matching_chart
+
+    project, sha = load_project(project_file, overrides)
+    series = project_series(project, project_file)
+    if series is None:
+        raise InputError(project_file, "electricity.time_series", "a time series CSV to chart the matching of")
+    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme] if scheme else None, source=str(project_file), project_sha256=sha)
+    solutions = solve_with_bw2calc(prepared)
+    rulebook = prepared.chosen[0]
+    model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
+    load = series.load(model.kwh_per_kg_h2)
+    granularity = scheme_granularity(rulebook.id, series.local) if matching in (None, "rule") else matching
+    result = match(load, series.generation_kwh, eligible_sources(rulebook, source_kinds(prepared.params), list(series.generation_kwh)), granularity, series.utc, series.local)
+    label = granularity if isinstance(granularity, str) else "dated rule"
+    title = f"{project.project.name}: {rulebook.id}, matching by {label}, {result.matched_share:.1%} matched"
+    return write_matching_chart(series.local, load, result.matched_interval_kwh, title, path, force=force)

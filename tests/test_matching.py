@@ -267,3 +267,52 @@ def test_a_source_the_project_does_not_declare(tmp_path):
 def test_a_generation_column_for_the_grid(tmp_path):
     message = bad(tmp_path, [[s, 100, 20, 55] for s in stamps("2026-03-01T00:00", 4)], "timestamp,electrolyser [kWh],generation.solar [kWh],generation.grid [kWh]")
     assert "not the grid source" in message
+
+
+def test_json_checks_carry_electricity_matching(tmp_path):
+    import json
+
+    (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
+    # 30-minute data in MWh: 0.05 MWh = 50 kWh each half hour; solar 0.04 MWh in the first half hour of each hour only
+    rows = [[s, 0.05, 0.04 if number % 2 == 0 else 0.0, 0.0] for number, s in enumerate(stamps("2026-03-01T00:00", 8, step_minutes=30))]
+    write_series(tmp_path, rows, "timestamp,electrolyser [MWh],generation.solar [MWh],generation.wind [MWh]")
+    result = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--format", "json")
+    assert result.exit_code == 0, result.output
+    checks = {c["scheme"]: c for c in json.loads(result.stdout)["checks"]}
+    uk, eu = checks["uk-lchs"]["electricity_matching"], checks["eu-rfnbo"]["electricity_matching"]
+    # by half hour (UK): 40 of 50 kWh in half of the half hours -> 4 x 40 / 400 = 0.4; by month (EU): min(400, 160) / 400 = 0.4 too,
+    # since generation never exceeds the load; by the hour the same, 40 kWh of solar against 100 kWh of use
+    assert uk["granularity"] == "interval" and uk["matched_share"] == pytest.approx(0.4)
+    assert eu["granularity"] == "month" and eu["matched_share"] == pytest.approx(0.4)
+    assert uk["interval_minutes"] == 30 and uk["load_kwh"] == pytest.approx(400.0)
+    assert eu["monthly"][0]["month"] == "2026-03"
+
+
+def test_a_series_without_any_use(tmp_path):
+    message = bad(tmp_path, [[s, 0, 20, 55] for s in stamps("2026-03-01T00:00", 4)])
+    assert "column 'electrolyser [kWh]'" in message and "some electricity use" in message
+
+
+def test_unmatched_share_by_hour_and_month_by_hand(tmp_path):
+    from carbonledger.io.matching_chart import unmatched_share_by_hour_and_month
+
+    # two days of hourly data: use 10 kWh every hour; matched 10 at 12:00 both days, 5 at 13:00 on day one only
+    local = hours("2026-06-01T00:00", 48)
+    load = np.full(48, 10.0)
+    matched = np.zeros(48)
+    matched[[12, 36]] = 10.0
+    matched[13] = 5.0
+    months, share = unmatched_share_by_hour_and_month(local, load, matched)
+    assert months == ["2026-06"]
+    # 12:00: (0 + 0) / 20 = 0; 13:00: (5 + 10) / 20 = 0.75; every other hour 20 / 20 = 1
+    assert share[12, 0] == 0.0 and share[13, 0] == pytest.approx(0.75) and share[3, 0] == 1.0
+
+
+def test_score_writes_a_matching_chart(tmp_path):
+    (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
+    write_series(tmp_path, day_rows(solar=50.0, wind=0.0))
+    result = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--chart", tmp_path / "m.svg", "--format", "json")
+    assert result.exit_code == 0, result.output
+    assert (tmp_path / "m.svg").read_text(encoding="utf-8").lstrip().startswith("<?xml")
+    again = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--chart", tmp_path / "m.svg")
+    assert_one_line_error(again)  # an existing chart is not overwritten

@@ -213,4 +213,7 @@ def read_series(path: str | Path, project) -> ElectricitySeries:
             series.grid_g_co2e_per_kwh = values
         else:
             series.price_per_mwh, series.price_unit = values, unit
+    used = series.load_kwh if series.load_kwh is not None else series.hydrogen_kg
+    if not used.sum() > 0:
+        raise InputError(where, f"column '{loads[0]}'", "some electricity use (or hydrogen) in at least one interval; the series has none")
     return series
