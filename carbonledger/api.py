@@ -78,12 +78,13 @@ def score(
     overrides : 'dotted.parameter=value' strings applied to the project before validation.
     boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
     matching : with an electricity time series, a granularity (interval, hour, month, quarter,
-        year) that replaces every scheme's temporal rule (a what-if); None: each scheme's rule.
+        year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
+        and score the declared annual shares (what the audit workbook holds); None: each scheme's rule.
     """
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
-    series = project_series(project, project_file)
+    series = None if matching == "declared" else project_series(project, project_file)
     if series is None:
-        if matching is not None:
+        if matching not in (None, "declared"):
             raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
         return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
     return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching)

@@ -315,7 +315,7 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     (interval, hour, month, quarter, year) replaces every scheme's rule, for a what-if.
     """
     if granularity is not None and granularity not in GRANULARITIES:
-        raise InputError("--matching", granularity, f"one of rule, {', '.join(GRANULARITIES)}")
+        raise InputError("--matching", granularity, f"one of rule, declared, {', '.join(GRANULARITIES)}")
     kinds = source_kinds(prepared.params)
     with_generation = list(series.generation_kwh)
     schemes = {scheme.id: scheme for scheme in prepared.chosen}

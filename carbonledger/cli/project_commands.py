@@ -49,7 +49,7 @@ def score(
     boundary: BoundaryOption = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
     chart: Annotated[Optional[Path], typer.Option("--chart", help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked (monthly matched/unmatched use, unmatched share by hour and month).")] = None,
-    matching: Annotated[Optional[str], typer.Option("--matching", help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, month, quarter, year for every scheme (a what-if).")] = None,
+    matching: Annotated[Optional[str], typer.Option("--matching", help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared annual shares, as in the audit workbook).")] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
     try:
