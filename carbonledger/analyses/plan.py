@@ -181,9 +181,8 @@ def plan_load(
     slope = model.value_per_total * model.basis_kwh
     if slope <= 0:
         raise InputError("--scheme", scheme.id, "a scheme whose value depends on the project's electricity")
-    cap = model.declared_kg_per_kwh + (limit - value_declared) / slope
-    if not inclusive:
-        cap -= 1e-9 * max(abs(cap), 1e-6)
+    cap_at_limit = model.declared_kg_per_kwh + (limit - value_declared) / slope
+    cap = cap_at_limit - 1e-6 * max(abs(cap_at_limit), 0.1)  # a hair inside the limit: HiGHS meets constraints to about 1e-7
     if part_load:
         slopes, intercepts, least = part_load_segments(part_load, rated, through_origin=min_load == 0)
         if min_load > 0 and least > min_load + 1e-12:
@@ -281,7 +280,7 @@ def plan_load(
             if result_load[mask].sum() <= 0:
                 continue
             intensity = counted_intensity(scored, result_load, model, series.grid_g_co2e_per_kwh, mask)[3]
-            if intensity > cap + 1e-12 * max(1.0, abs(cap)):
+            if intensity > cap_at_limit:
                 years_ok = False
                 worst = max(worst, intensity - cap)
         if years_ok:
