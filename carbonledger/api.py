@@ -13,7 +13,7 @@ from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import eligible_sources, electricity_model, match, matched_checks, scheme_granularity, source_kinds
+from .analyses.matching import electricity_model, eligible_sources, match, matched_checks, scheme_granularity, source_kinds
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio
@@ -21,6 +21,7 @@ from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
+from .io.matching_chart import write_matching_chart
 from .io.workbook.reader import (
     base_factor_set,
     factor_set_from_workbook,
@@ -275,8 +276,6 @@ def matching_chart(
 ) -> Path:
     """Chart one project's matching under a scheme (default the first that applies): monthly matched and
     unmatched use, and the unmatched share by hour of day and month."""
-    from .io.matching_chart import write_matching_chart
-
     project, sha = load_project(project_file, overrides)
     series = project_series(project, project_file)
     if series is None:
