@@ -96,7 +96,7 @@ def test_recalc_exit_codes_and_formats(tmp_path):
     failing = run_cli(*args, "--fail-on-new-failures", "--format", "json")
     assert failing.exit_code == 3
     data = json.loads(failing.stdout)
-    assert data["newly_failing"] == 3 and data["rows"][0]["status"] == "newly fails"
+    assert data["newly_failing"] == 4 and data["rows"][0]["status"] == "newly fails"  # as in test_newly_failing_rows_come_first
     # the other way round, projects only newly pass: exit 0 even with the flag
     back = run_cli("recalc", DEMO, PORTFOLIO, "--from", "demo-2027-grid-revision", "--to", "default-2026", "--fail-on-new-failures", "--format", "csv")
     assert back.exit_code == 0, back.output
