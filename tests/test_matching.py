@@ -316,3 +316,16 @@ def test_score_writes_a_matching_chart(tmp_path):
     assert (tmp_path / "m.svg").read_text(encoding="utf-8").lstrip().startswith("<?xml")
     again = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--chart", tmp_path / "m.svg")
     assert_one_line_error(again)  # an existing chart is not overwritten
+
+
+def test_a_series_across_2030_uses_both_eu_rules_through_score(tmp_path):
+    # Delegated Regulation (EU) 2023/1184 Art. 6: 20:00-23:00 on 31 Dec 2029 (local) form one monthly period,
+    # 00:00-03:00 on 1 Jan 2030 four hourly periods: 5 periods
+    (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
+    rows = [[s, 100, 150 if number < 4 else 0, 0] for number, s in enumerate(stamps("2029-12-31T19:00", 8))]
+    write_series(tmp_path, rows)
+    eu = next(c for c in api.score(tmp_path / "p.toml").checks if c.scheme == "eu-rfnbo").electricity_matching
+    assert eu.periods == 5 and eu.granularity == "month until 2029-12-31, hour from 2030-01-01"
+    # December: min(400, 600) = 400 matched; January hours: nothing; 400 of 800 kWh
+    assert eu.matched_share == pytest.approx(0.5)
+    assert [m.month for m in eu.monthly] == ["2029-12", "2030-01"]
