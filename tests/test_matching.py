@@ -286,6 +286,9 @@ def test_json_checks_carry_electricity_matching(tmp_path):
     assert eu["granularity"] == "month" and eu["matched_share"] == pytest.approx(0.4)
     assert uk["interval_minutes"] == 30 and uk["load_kwh"] == pytest.approx(400.0)
     assert eu["monthly"][0]["month"] == "2026-03"
+    import hashlib
+
+    assert eu["series_sha256"] == hashlib.sha256((tmp_path / "series.csv").read_bytes()).hexdigest()
 
 
 def test_a_series_without_any_use(tmp_path):

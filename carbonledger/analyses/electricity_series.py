@@ -26,6 +26,7 @@ the file, the row and the column.
 
 from __future__ import annotations
 
+import hashlib
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -57,6 +58,7 @@ class ElectricitySeries:
     grid_g_co2e_per_kwh: np.ndarray | None = None
     price_per_mwh: np.ndarray | None = None
     price_unit: str = ""
+    sha256: str = ""  # of the CSV file, for the record
 
     @property
     def intervals(self) -> int:
@@ -200,7 +202,7 @@ def read_series(path: str | Path, project) -> ElectricitySeries:
     stamps = frame.iloc[:, 0].astype(str)
     utc, offset = _times(stamps, where)
     interval = _check_steps(utc, offset, stamps, where)
-    series = ElectricitySeries(where, utc, offset, interval, None, None)
+    series = ElectricitySeries(where, utc, offset, interval, None, None, sha256=hashlib.sha256(path.read_bytes()).hexdigest())
     for header, (quantity, source, multiplier, unit) in columns.items():
         values = _numbers(frame[frame.columns[headers.index(header)]], where, header, energy=quantity != "price") * multiplier
         if quantity == "electrolyser":

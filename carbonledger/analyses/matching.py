@@ -294,6 +294,7 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         value_with_declared_shares=check.value,
         grid_intensity="series" if series.grid_g_co2e_per_kwh is not None else "grid source factor",
         series_file=series.path,
+        series_sha256=series.sha256,
         first_interval=f"{str(local[0])[:16]}{'+' if series.offset_minutes[0] >= 0 else '-'}{abs(int(series.offset_minutes[0])) // 60:02d}:{abs(int(series.offset_minutes[0])) % 60:02d}",
         intervals=series.intervals,
         interval_minutes=series.interval_minutes,

@@ -62,6 +62,7 @@ class ElectricityMatching(BaseModel):
     value_with_declared_shares: float
     grid_intensity: str  # "series" or "grid source factor"
     series_file: str
+    series_sha256: str = ""
     first_interval: str
     intervals: int
     interval_minutes: int
