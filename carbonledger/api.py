@@ -11,13 +11,17 @@ from pathlib import Path
 
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
+from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.lifetime import LifetimeResult, lifetime_score
+from .analyses.matching import electricity_model, eligible_sources, match, matched_checks, scheme_granularity, source_kinds
 from .analyses.periods import month_results, read_meters
+from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio
 from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
-from .core.scoring import DEFAULT_GWP, score_project
+from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
+from .io.matching_chart import write_matching_chart
 from .io.workbook.reader import (
     base_factor_set,
     factor_set_from_workbook,
@@ -36,6 +40,7 @@ __all__ = [
     "audit_workbook",
     "recalc",
     "lifetime",
+    "plan",
     "load_project",
     "load_factor_set",
     "load_any_project",
@@ -60,6 +65,7 @@ def score(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    matching: str | None = None,
 ) -> ScoreResult:
     """Score a project file: carbon intensity, by stage and gas, with scheme checks.
 
@@ -71,9 +77,32 @@ def score(
     schemes : scheme ids to check; default all that apply to the product.
     overrides : 'dotted.parameter=value' strings applied to the project before validation.
     boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
+    matching : with an electricity time series, a granularity (interval, hour, month, quarter,
+        year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
+        and score the declared annual shares (what the audit workbook holds); None: each scheme's rule.
     """
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
+    series = None if matching == "declared" else project_series(project, project_file)
+    if series is None:
+        if matching not in (None, "declared"):
+            raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
+        return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
+    return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching)
+
+
+def project_series(project, project_file: str | Path) -> ElectricitySeries | None:
+    """The project's electricity time series (``[electricity] time_series``, relative to the project file), or None."""
+    name = project.electricity.time_series
+    if not name:
+        return None
+    return read_series(Path(project_file).parent / name, project)
+
+
+def score_with_series(project, factor_set: FactorSet, series: ElectricitySeries, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None, source: str = "project", project_sha256: str = "", matching: str | None = None) -> ScoreResult:
+    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``)."""
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256)
+    solutions = solve_with_bw2calc(prepared)
+    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)
 
 
 def score_workbook(
@@ -185,3 +214,80 @@ def lifetime(
     """Score every operating year of a project's [lifetime] and the lifetime average."""
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
     return lifetime_score(project, _factor_set(factors), project_file=str(project_file), project_sha256=sha, gwp=gwp, schemes=schemes)
+
+
+def plan(
+    project_file: str | Path,
+    *,
+    scheme: str,
+    tier: str | None = None,
+    rated_kw: float | None = None,
+    min_load: float = 0.0,
+    part_load: list[tuple[float, float]] | None = None,
+    hydrogen_price: float | None = None,
+    matching: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+) -> tuple[PlanResult, ElectricitySeries]:
+    """The operating plan of a project with an electricity time series: the load in every interval
+    that maximises hydrogen (or margin, with ``hydrogen_price`` and a price column) while the
+    project qualifies for ``scheme`` at ``tier`` (default: the loosest threshold).
+
+    rated_kw : electrolyser rated power (kW); default the largest load in the series.
+    min_load : minimum stable load as a fraction of rated power (0: can run at any load).
+    part_load : (load fraction, kWh/kg) points of a concave part-load efficiency curve.
+    matching : a granularity replacing the scheme's temporal rule (what-if); None: the rule.
+    """
+    project, sha = load_project(project_file, overrides)
+    series = project_series(project, project_file)
+    if series is None:
+        raise InputError(project_file, "electricity.time_series", "a time series CSV to plan against")
+    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme], source=str(project_file), project_sha256=sha)
+    solutions = solve_with_bw2calc(prepared)
+    check = assemble(prepared, solutions).checks[0]
+    rulebook = prepared.chosen[0]
+    model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
+    threshold = choose_threshold(rulebook, tier)
+    if rated_kw is None:
+        rated_kw = float(series.load(model.kwh_per_kg_h2).max()) * 60.0 / series.interval_minutes
+    if not rated_kw > 0:
+        raise InputError("--rated-kw", str(rated_kw), "a rated power > 0 kW (the series has no load to take it from)")
+    if matching not in (None, "rule") and matching not in ("interval", "hour", "month", "quarter", "year"):
+        raise InputError("--matching", matching, "one of rule, interval, hour, month, quarter, year")
+    result = plan_load(
+        series, model, rulebook, source_kinds(prepared.params),
+        value_declared=check.value, limit=threshold.limit, inclusive=threshold.inclusive, rated_kw=rated_kw, min_load=min_load,
+        part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
+    )
+    result.tier = threshold.tier
+    return result, series
+
+
+def matching_chart(
+    project_file: str | Path,
+    path: str | Path,
+    *,
+    scheme: str | None = None,
+    matching: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+    force: bool = False,
+) -> Path:
+    """Chart one project's matching under a scheme (default the first that applies): monthly matched and
+    unmatched use, and the unmatched share by hour of day and month."""
+    project, sha = load_project(project_file, overrides)
+    series = project_series(project, project_file)
+    if series is None:
+        raise InputError(project_file, "electricity.time_series", "a time series CSV to chart the matching of")
+    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme] if scheme else None, source=str(project_file), project_sha256=sha)
+    solutions = solve_with_bw2calc(prepared)
+    rulebook = prepared.chosen[0]
+    model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
+    load = series.load(model.kwh_per_kg_h2)
+    granularity = scheme_granularity(rulebook.id, series.local) if matching in (None, "rule") else matching
+    result = match(load, series.generation_kwh, eligible_sources(rulebook, source_kinds(prepared.params), list(series.generation_kwh)), granularity, series.utc, series.local)
+    label = granularity if isinstance(granularity, str) else "dated rule"
+    title = f"{project.project.name}: {rulebook.id}, matching by {label}, {result.matched_share:.1%} matched"
+    return write_matching_chart(series.local, load, result.matched_interval_kwh, title, path, force=force)

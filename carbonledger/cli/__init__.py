@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, project_commands, recalc, workbook
+from . import compare, factors, plan, project_commands, recalc, workbook
 
 app = typer.Typer(
     add_completion=False,
@@ -43,6 +43,7 @@ app.command()(compare.compare)
 app.command()(workbook.workbook)
 app.command()(recalc.recalc)
 app.command()(recalc.history)
+app.command()(plan.plan)
 app.command()(project_commands.schemes)
 app.command()(project_commands.init)
 factors_app.command("list")(factors.factors_list)

@@ -50,6 +50,8 @@ def score(
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked (monthly matched/unmatched use, unmatched share by hour and month).")] = None,
+    matching: Annotated[Optional[str], typer.Option("--matching", help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared annual shares, as in the audit workbook).")] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
     try:
@@ -66,7 +68,9 @@ def score(
             if from_workbook is not None:
                 result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary)
             else:
-                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
+                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, matching=matching)
+                if chart is not None:
+                    api.matching_chart(project, chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
             command, kind = "score", "score"
         if where is not None:

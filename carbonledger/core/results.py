@@ -54,6 +54,42 @@ class FactorUsed(BaseModel):
     from_memory: bool = False
 
 
+class MonthOfMatching(BaseModel):
+    month: str  # YYYY-MM, local calendar as written in the series
+    load_kwh: float
+    matched_kwh: float
+    unmatched_kwh: float
+    matched_share: float
+    electricity_g_co2e_per_kwh: float  # counted intensity of the month's electricity under the scheme
+    value: float  # the scheme's quantity for the month's production
+
+
+class ElectricityMatching(BaseModel):
+    """How a scheme matched the project's electricity use with its contracted generation, interval by interval."""
+
+    granularity: str  # interval, hour, month, quarter, year (or the dated rule when it changes inside the series)
+    rule: str  # the scheme's dated rule, e.g. "month until 2029-12-31, hour from 2030-01-01"
+    rule_sources: list[str]
+    matched_share: float  # 0 to 1 of the electricity use
+    load_kwh: float
+    matched_kwh: float
+    unmatched_kwh: float
+    matched_by_source_kwh: dict[str, float]
+    eligible_sources: list[str]
+    grid_kwh_per_kg_h2: float
+    electricity_g_co2e_per_kwh: float  # counted intensity of the electricity with matching
+    declared_electricity_g_co2e_per_kwh: float  # with the declared annual shares
+    value_with_declared_shares: float
+    grid_intensity: str  # "series" or "grid source factor"
+    series_file: str
+    series_sha256: str = ""
+    first_interval: str
+    intervals: int
+    interval_minutes: int
+    periods: int
+    monthly: list[MonthOfMatching]
+
+
 class Check(BaseModel):
     scheme: str
     name: str
@@ -70,6 +106,7 @@ class Check(BaseModel):
     tier: str | None
     from_memory: bool
     note: str = ""
+    electricity_matching: ElectricityMatching | None = None  # with an electricity time series
 
 
 class ExchangeRow(BaseModel):

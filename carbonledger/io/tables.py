@@ -19,6 +19,8 @@ INTENSITY_UNITS = {
 def display_number(value: float | None) -> str:
     if value is None:
         return "-"
+    if abs(value) < 1e-9:  # rounding residue of a difference, e.g. a fully matched check
+        value = 0.0
     size = abs(value)
     if size >= 100:
         return f"{value:,.1f}"
@@ -58,6 +60,29 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str, object]]:
             (section, "passes", check.passes, "", check.from_memory),
             (section, "tier", check.tier or "", "", check.from_memory),
         ]
+        matching = check.electricity_matching
+        if matching is not None:
+            section = f"matching:{check.scheme}"
+            rows += [
+                (section, "granularity", matching.granularity, "", ""),
+                (section, "rule", matching.rule, "", ""),
+                (section, "matched_share", matching.matched_share, "fraction", ""),
+                (section, "load_kwh", matching.load_kwh, "kWh", ""),
+                (section, "matched_kwh", matching.matched_kwh, "kWh", ""),
+                (section, "unmatched_kwh", matching.unmatched_kwh, "kWh", ""),
+                (section, "grid_kwh_per_kg_h2", matching.grid_kwh_per_kg_h2, "kWh/kg H2", ""),
+                (section, "electricity_g_co2e_per_kwh", matching.electricity_g_co2e_per_kwh, "g CO2e/kWh", ""),
+                (section, "value_with_declared_shares", matching.value_with_declared_shares, check.unit, ""),
+            ]
+            rows += [(section, f"matched_kwh.{name}", kwh, "kWh", "") for name, kwh in matching.matched_by_source_kwh.items()]
+            for month in matching.monthly:
+                rows += [
+                    (f"{section}:{month.month}", "load_kwh", month.load_kwh, "kWh", ""),
+                    (f"{section}:{month.month}", "matched_kwh", month.matched_kwh, "kWh", ""),
+                    (f"{section}:{month.month}", "unmatched_kwh", month.unmatched_kwh, "kWh", ""),
+                    (f"{section}:{month.month}", "electricity_g_co2e_per_kwh", month.electricity_g_co2e_per_kwh, "g CO2e/kWh", ""),
+                    (f"{section}:{month.month}", "value", month.value, check.unit, ""),
+                ]
     rows += [("factor", factor.id, factor.value, factor.unit, factor.from_memory) for factor in result.factors_used]
     return rows
 
@@ -76,6 +101,31 @@ def plain_console(width: int):
     from rich.console import Console
 
     return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None, markup=False, emoji=False, highlight=False)
+
+
+def _matching_tables(console, checks, Table) -> None:
+    """Per scheme: the matching and its effect; per month: load and each scheme's matched share."""
+    first = checks[0].electricity_matching
+    console.print(
+        f"Electricity matched interval by interval: {first.series_file}, {first.intervals:,} intervals of {first.interval_minutes} minutes from {first.first_interval}; "
+        f"unmatched electricity at the {'grid intensity of each interval' if first.grid_intensity == 'series' else 'grid source factor'}. "
+        "The headline above uses the declared shares; the checks use the matching."
+    )
+    table = Table(title="Electricity matching by scheme", title_justify="left")
+    for column in ("scheme", "matching", "matched", "grid kWh/kg H2", "electricity g CO2e/kWh", "with declared shares", "with matching", "unit"):
+        table.add_column(column, justify="left" if column in ("scheme", "matching", "unit") else "right")
+    for check in checks:
+        m = check.electricity_matching
+        table.add_row(check.scheme, m.granularity, f"{m.matched_share:.1%}", display_number(m.grid_kwh_per_kg_h2), display_number(m.electricity_g_co2e_per_kwh), display_number(m.value_with_declared_shares), display_number(check.value), check.unit)
+    console.print(table)
+    months = Table(title="By month: electricity use and matched share under each scheme", title_justify="left")
+    months.add_column("month")
+    months.add_column("use MWh", justify="right")
+    for check in checks:
+        months.add_column(check.scheme, justify="right")
+    for number, month in enumerate(first.monthly):
+        months.add_row(month.month, f"{month.load_kwh / 1000:,.1f}", *(f"{check.electricity_matching.monthly[number].matched_share:.1%}" for check in checks))
+    console.print(months)
 
 
 def render(result: ScoreResult) -> str:
@@ -132,6 +182,9 @@ def render(result: ScoreResult) -> str:
                 check.electricity_rule.replace("_", " "),
             )
         console.print(table)
+        matched = [check for check in result.checks if check.electricity_matching is not None]
+        if matched:
+            _matching_tables(console, matched, Table)
         if result.boundary != "cradle-to-gate":
             console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
         if any(check.from_memory for check in result.checks):

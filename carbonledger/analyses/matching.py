@@ -1,0 +1,333 @@
+"""Temporal matching of electricity use with contracted generation, and its effect on scheme checks.
+
+The arithmetic is pure numpy on arrays of intervals:
+
+1. ``period_labels``: every interval gets the matching period it falls in (its own interval,
+   its UTC hour, or its local calendar month, quarter or year); a scheme whose rule changes on a
+   date (EU: monthly, then hourly) gets each interval's period under the rule of its date.
+2. ``match``: in each period P, matched energy M_P = min(L_P, G_P), where L_P is the load and
+   G_P the eligible generation summed over the period. Generation beyond the load in one period
+   does not carry to another. Within a period every interval's load is matched in the same
+   proportion M_P / L_P, and the matched energy is split among the sources in proportion to
+   their generation in the period.
+3. The unmatched energy of each interval, L_t (1 - M_P / L_P), is charged at the grid's
+   intensity of that interval where the series gives it, else at the grid source's factor.
+
+``matched_checks`` applies this to the scheme checks of a scored project: a scheme's value is
+affine in the counted intensity c of the project's electricity (kg CO2e/kWh), so the value with
+matching is the engine's value plus X (c_matched - c_declared), X being the project electricity
+per unit of the scheme's basis (from the solved inventory) and c_declared the intensity of the
+declared shares that the engine used.
+
+References
+----------
+.. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 6 (temporal correlation).
+.. [2] Final regulations under 26 U.S.C. 45V (January 2025), 26 CFR 1.45V-4 (energy attribute
+   certificates: annual, then hourly matching).
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
+from ..core.scoring import Prepared, intensities, zero_rated
+from ..errors import InputError
+from ..model.matching_rules import GRANULARITIES, describe, matching_rules
+from ..stages.electricity import kind_of_source
+from .electricity_series import ElectricitySeries
+
+_CODE = {name: number for number, name in enumerate(GRANULARITIES)}
+
+
+def period_values(utc: np.ndarray, local: np.ndarray, granularity: str) -> np.ndarray:
+    """An integer per interval that is equal for intervals of the same period (and increases with time).
+
+    ``utc`` and ``local`` are interval starts as datetime64[m]. Hours are UTC hours; months,
+    quarters and years are local calendar periods as written in the series.
+    """
+    if granularity == "interval":
+        return np.arange(len(utc), dtype=np.int64)
+    if granularity == "hour":
+        return utc.astype("datetime64[h]").astype(np.int64)
+    months = local.astype("datetime64[M]").astype(np.int64)
+    if granularity == "month":
+        return months
+    if granularity == "quarter":
+        return months // 3
+    if granularity == "year":
+        return months // 12
+    raise ValueError(f"granularity one of {', '.join(GRANULARITIES)}, got {granularity!r}")
+
+
+def period_labels(utc: np.ndarray, local: np.ndarray, granularity: str | np.ndarray) -> np.ndarray:
+    """Dense period numbers 0, 1, 2... of time-ordered intervals, under one granularity or one per interval."""
+    if isinstance(granularity, str):
+        values = period_values(utc, local, granularity)
+        change = values[1:] != values[:-1]
+    else:
+        codes = np.asarray(granularity, dtype=np.int64)
+        values = np.zeros(len(utc), dtype=np.int64)
+        for name, code in _CODE.items():
+            where = codes == code
+            if where.any():
+                values[where] = period_values(utc[where], local[where], name)
+        change = (values[1:] != values[:-1]) | (codes[1:] != codes[:-1])
+    labels = np.empty(len(utc), dtype=np.int64)
+    labels[0] = 0
+    np.cumsum(change, out=labels[1:])
+    return labels
+
+
+def scheme_granularity(scheme_id: str, local: np.ndarray) -> str | np.ndarray:
+    """The granularity of each interval under a scheme's dated rules (one text when it is the same for all)."""
+    days = local.astype("datetime64[D]")
+    codes = np.full(len(local), _CODE["year"], dtype=np.int64)
+    for rule in matching_rules(scheme_id):
+        inside = np.ones(len(local), dtype=bool)
+        if rule.starts is not None:
+            inside &= days >= np.datetime64(rule.starts)
+        if rule.ends is not None:
+            inside &= days <= np.datetime64(rule.ends)
+        codes[inside] = _CODE[rule.granularity]
+    if (codes == codes[0]).all():
+        return GRANULARITIES[codes[0]]
+    return codes
+
+
+@dataclass
+class MatchResult:
+    """Energy matched period by period (kWh). Per interval arrays have the series' length."""
+
+    granularity: str
+    load_kwh: float
+    matched_kwh: float
+    matched_by_source_kwh: dict[str, float]
+    matched_interval_kwh: np.ndarray
+    periods: int
+    extra: dict = field(default_factory=dict)
+
+    @property
+    def unmatched_kwh(self) -> float:
+        return self.load_kwh - self.matched_kwh
+
+    @property
+    def matched_share(self) -> float:
+        return self.matched_kwh / self.load_kwh if self.load_kwh > 0 else 0.0
+
+
+def match_periods(load_kwh: np.ndarray, supply_kwh: np.ndarray, labels: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Matched energy per interval, and per source in total, for dense time-ordered period labels.
+
+    ``load_kwh``: (n,); ``supply_kwh``: (k, n) eligible generation of k sources; ``labels``: (n,)
+    from ``period_labels``. In each period M_P = min(L_P, G_P); interval t of period P is matched
+    M_P / L_P of its load; source s gets M_P G_sP / G_P.
+    """
+    if labels[-1] + 1 == len(labels):  # every interval its own period
+        load_p, supply_p = load_kwh, supply_kwh
+    else:
+        starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
+        load_p = np.add.reduceat(load_kwh, starts)
+        supply_p = np.add.reduceat(supply_kwh, starts, axis=1) if supply_kwh.shape[0] else np.zeros((0, len(starts)))
+    generation_p = supply_p.sum(axis=0)
+    matched_p = np.minimum(load_p, generation_p)
+    fraction = np.divide(matched_p, load_p, out=np.zeros_like(load_p), where=load_p > 0)
+    per_interval = load_kwh * (fraction if len(fraction) == len(labels) else fraction[labels])
+    to_source = np.divide(matched_p, generation_p, out=np.zeros_like(generation_p), where=generation_p > 0)
+    by_source = supply_p @ to_source if supply_kwh.shape[0] else np.zeros(0)
+    return per_interval, by_source
+
+
+def match(
+    load_kwh: np.ndarray,
+    supply_kwh_by_source: dict[str, np.ndarray],
+    eligible_sources: list[str],
+    granularity: str | np.ndarray,
+    utc: np.ndarray,
+    local: np.ndarray | None = None,
+) -> MatchResult:
+    """Match electricity use against the eligible sources' generation over the periods of a granularity.
+
+    ``granularity`` is one of ``interval``, ``hour``, ``month``, ``quarter``, ``year``, or an array
+    of granularity codes per interval (dated rules). ``utc``/``local`` are interval starts
+    (datetime64[m]); ``local`` defaults to ``utc``.
+    """
+    local = utc if local is None else local
+    load_kwh = np.asarray(load_kwh, dtype=float)
+    names = [name for name in eligible_sources if name in supply_kwh_by_source]
+    supply = np.array([supply_kwh_by_source[name] for name in names], dtype=float).reshape(len(names), len(load_kwh))
+    labels = period_labels(utc, local, granularity)
+    per_interval, by_source = match_periods(load_kwh, supply, labels)
+    name = granularity if isinstance(granularity, str) else "mixed"
+    return MatchResult(name, float(load_kwh.sum()), float(per_interval.sum()), dict(zip(names, by_source.tolist())), per_interval, int(labels[-1]) + 1)
+
+
+def eligible_sources(scheme, kinds: dict[str, str], with_generation: list[str]) -> list[str]:
+    """The contracted sources whose generation a scheme matches against the load.
+
+    Under ``renewable_at_zero`` only renewable sources count; under ``lifecycle`` every contracted
+    source (each at its own factor). Procurement and additionality rules (issue 9) narrow this.
+    """
+    if scheme.electricity == "renewable_at_zero":
+        return [name for name in with_generation if kinds[name] == "renewable"]
+    return list(with_generation)
+
+
+# ---- the hook into scoring -------------------------------------------------------------------
+
+
+@dataclass
+class ElectricityModel:
+    """What the matching needs from a scored project, for one scheme (plain floats)."""
+
+    basis_kwh: float  # project electricity per unit of the scheme's basis (kWh)
+    kwh_per_kg_h2: float  # project electricity per kg H2 (turns a hydrogen series into kWh)
+    counted_kg_per_kwh: dict[str, float]  # each source's counted intensity under the scheme
+    declared_kg_per_kwh: float  # the declared shares' counted intensity (what the engine used)
+    grid_kg_per_kwh: float  # sources without a generation column, at their declared proportions
+    value_per_total: float  # scheme quantity per kg CO2e of scheme total per basis unit
+
+
+def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generation: list[str]) -> ElectricityModel:
+    """The scheme's view of the project's electricity: per-source counted intensities and kWh per basis unit."""
+    inventory, matrices = prepared.inventory, prepared.matrices
+    keys = matrices.activity_keys
+    flow_index = {flow: number for number, flow in enumerate(matrices.flow_keys)}
+    characterisation = prepared.per_gwp[scheme.gwp]
+    sources = prepared.params["electricity"]["sources"]
+    counted = {}
+    for name in sources:
+        key = f"electricity:{name}"
+        emitted = sum(characterisation[flow_index[e.input]] * float(e.amount) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
+        counted[name] = 0.0 if zero_rated(scheme, inventory, key) else float(emitted)
+    declared = sum(source["share"] * counted[name] for name, source in sources.items())
+    grid = [name for name in sources if name not in with_generation]
+    grid_share = sum(sources[name]["share"] for name in grid)
+    if grid and grid_share > 0:
+        grid_kg = sum(sources[name]["share"] * counted[name] for name in grid) / grid_share
+    else:
+        grid_kg = counted[grid[0]] if grid else float("nan")
+    mix = keys.index("electricity_mix")
+    basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
+    basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
+    basis_kwh = float(solutions[basis_demand].supply[mix])
+    gate = solutions[inventory.gate]
+    kwh_per_kg = float(gate.supply[mix]) / float(gate.supply[keys.index(inventory.hydrogen)])
+    per_total = intensities(1.0, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
+    return ElectricityModel(basis_kwh, kwh_per_kg, counted, float(declared), float(grid_kg), float(per_total))
+
+
+def counted_intensity(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, mask: np.ndarray | slice = slice(None)) -> tuple[float, float, float, float]:
+    """(load, matched, unmatched kWh, counted kg CO2e/kWh) over the intervals in ``mask``.
+
+    Matched energy from each source at the source's counted intensity (split in proportion to the
+    sources' matched totals), unmatched energy at the interval's grid intensity or the grid factor.
+    """
+    load = float(load_kwh[mask].sum())
+    matched = float(result.matched_interval_kwh[mask].sum())
+    unmatched_t = load_kwh[mask] - result.matched_interval_kwh[mask]
+    grid_kg = float(unmatched_t @ grid_g_per_kwh[mask]) / 1000.0 if grid_g_per_kwh is not None else float(unmatched_t.sum()) * model.grid_kg_per_kwh
+    total_matched = sum(result.matched_by_source_kwh.values())
+    source_kg_per_kwh = sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
+    kg = matched * source_kg_per_kwh + grid_kg
+    return load, matched, load - matched, (kg / load if load > 0 else 0.0)
+
+
+def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, starts: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """``counted_intensity`` for consecutive blocks of intervals starting at ``starts`` (months), at once:
+    (load kWh, matched kWh, counted kg CO2e/kWh) per block."""
+    unmatched_t = load_kwh - result.matched_interval_kwh
+    load = np.add.reduceat(load_kwh, starts)
+    matched = np.add.reduceat(result.matched_interval_kwh, starts)
+    grid_kg = np.add.reduceat(unmatched_t * grid_g_per_kwh, starts) / 1000.0 if grid_g_per_kwh is not None else (load - matched) * model.grid_kg_per_kwh
+    total_matched = sum(result.matched_by_source_kwh.values())
+    source_kg_per_kwh = sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
+    kg = matched * source_kg_per_kwh + grid_kg
+    return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
+
+
+def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, kinds: dict[str, str], granularity: str | None = None) -> Check:
+    """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if)."""
+    load = series.load(model.kwh_per_kg_h2)
+    local = series.local
+    rule = describe(scheme.id) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme.id)})"
+    granularity = scheme_granularity(scheme.id, local) if granularity is None else granularity
+    eligible = eligible_sources(scheme, kinds, list(series.generation_kwh))
+    result = match(load, series.generation_kwh, eligible, granularity, series.utc, local)
+    total_load, matched, unmatched, intensity = counted_intensity(result, load, model, series.grid_g_co2e_per_kwh)
+
+    def value_at(kg_per_kwh: float) -> float:
+        return check.value + model.value_per_total * model.basis_kwh * (kg_per_kwh - model.declared_kg_per_kwh)
+
+    value = value_at(intensity)
+    months = local.astype("datetime64[M]")
+    starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
+    m_load, m_matched, m_intensity = monthly_intensities(result, load, model, series.grid_g_co2e_per_kwh, starts)
+    monthly = [
+        MonthOfMatching(
+            month=str(months[start]),
+            load_kwh=float(a),
+            matched_kwh=float(b),
+            unmatched_kwh=float(a - b),
+            matched_share=float(b / a) if a > 0 else 0.0,
+            electricity_g_co2e_per_kwh=float(c) * 1000.0,
+            value=value_at(float(c)),
+        )
+        for start, a, b, c in zip(starts, m_load, m_matched, m_intensity)
+    ]
+    matching = ElectricityMatching(
+        granularity=result.granularity if result.granularity != "mixed" else describe(scheme.id),
+        rule=rule,
+        rule_sources=[rule.source for rule in matching_rules(scheme.id)],
+        matched_share=result.matched_share,
+        load_kwh=total_load,
+        matched_kwh=matched,
+        unmatched_kwh=unmatched,
+        matched_by_source_kwh=result.matched_by_source_kwh,
+        eligible_sources=eligible,
+        grid_kwh_per_kg_h2=(unmatched / total_load if total_load > 0 else 0.0) * model.kwh_per_kg_h2,
+        electricity_g_co2e_per_kwh=intensity * 1000.0,
+        declared_electricity_g_co2e_per_kwh=model.declared_kg_per_kwh * 1000.0,
+        value_with_declared_shares=check.value,
+        grid_intensity="series" if series.grid_g_co2e_per_kwh is not None else "grid source factor",
+        series_file=series.path,
+        series_sha256=series.sha256,
+        first_interval=f"{str(local[0])[:16]}{'+' if series.offset_minutes[0] >= 0 else '-'}{abs(int(series.offset_minutes[0])) // 60:02d}:{abs(int(series.offset_minutes[0])) % 60:02d}",
+        intervals=series.intervals,
+        interval_minutes=series.interval_minutes,
+        periods=result.periods,
+        monthly=monthly,
+    )
+    return check.model_copy(update={"value": value, **scheme.evaluate(value), "electricity_matching": matching})
+
+
+def source_kinds(params: dict) -> dict[str, str]:
+    return {name: kind_of_source(source["factor"]) for name, source in params["electricity"]["sources"].items()}
+
+
+def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None) -> ScoreResult:
+    """The scored result with every scheme check matched against the series under the scheme's rule.
+
+    The headline total keeps the declared shares; each check's value, verdict and margin follow
+    the matched electricity, and the check carries ``electricity_matching``. ``granularity``
+    (interval, hour, month, quarter, year) replaces every scheme's rule, for a what-if.
+    """
+    if granularity is not None and granularity not in GRANULARITIES:
+        raise InputError("--matching", granularity, f"one of rule, declared, {', '.join(GRANULARITIES)}")
+    kinds = source_kinds(prepared.params)
+    with_generation = list(series.generation_kwh)
+    schemes = {scheme.id: scheme for scheme in prepared.chosen}
+    checks = []
+    for check in result.checks:
+        scheme = schemes[check.scheme]
+        model = electricity_model(prepared, solutions, scheme, with_generation)
+        checks.append(matched_check(check, scheme, series, model, kinds, granularity))
+    return result.model_copy(update={"checks": checks})
+
+
+def rule_dates_for(scheme_id: str) -> list[tuple[str, _dt.date | None, _dt.date | None]]:
+    """(granularity, first date, last date) of each rule of a scheme, for listings and tests."""
+    return [(rule.granularity, rule.starts, rule.ends) for rule in matching_rules(scheme_id)]

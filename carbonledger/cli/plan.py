@@ -1,0 +1,91 @@
+"""The ``plan`` command: an operating plan that keeps a project qualifying, written as a time series CSV."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from .. import api
+from ..analyses.plan import PlanResult, parse_part_load, plan_csv
+from ..errors import InputError
+from ..io.files import atomic_write
+from ..io.tables import to_csv
+from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, fail, render
+
+
+def summary(plan: PlanResult) -> dict:
+    lost = plan.baseline_hydrogen_kg - float(plan.hydrogen_kg.sum())
+    figures = {
+        "scheme": plan.scheme,
+        "tier": plan.tier,
+        "limit": plan.limit,
+        "unit": plan.unit,
+        "matching": plan.granularity,
+        "rated_kw": plan.rated_kw,
+        "qualifies": plan.qualifies,
+        "value": plan.value,
+        "matched_share": plan.matched_share,
+        "hydrogen_kg": float(plan.hydrogen_kg.sum()),
+        "full_load_hours": plan.full_load_hours,
+        "baseline_hydrogen_kg": plan.baseline_hydrogen_kg,
+        "baseline_full_load_hours": plan.baseline_full_load_hours,
+        "baseline_value": plan.baseline_value,
+        "baseline_matched_share": plan.baseline_matched_share,
+        "hydrogen_lost_kg": lost,
+        "hydrogen_lost_share": lost / plan.baseline_hydrogen_kg if plan.baseline_hydrogen_kg else 0.0,
+        "notes": plan.notes,
+    }
+    if plan.margin is not None:
+        figures.update(margin=plan.margin, baseline_margin=plan.baseline_margin)
+    return figures
+
+
+def table(figures: dict, output: Path) -> str:
+    lines = [
+        f"Operating plan for {figures['scheme']} ({figures['tier']}, limit {figures['limit']:g} {figures['unit']}), matching {figures['matching']}, rated {figures['rated_kw']:,.0f} kW",
+        f"                        hydrogen (t)   full-load hours   matched share   value ({figures['unit']})",
+        f"  run at rated power    {figures['baseline_hydrogen_kg'] / 1000:12,.1f}   {figures['baseline_full_load_hours']:15,.0f}   {figures['baseline_matched_share']:13.1%}   {figures['baseline_value']:.3f}",
+        f"  plan                  {figures['hydrogen_kg'] / 1000:12,.1f}   {figures['full_load_hours']:15,.0f}   {figures['matched_share']:13.1%}   {figures['value']:.3f} ({'qualifies' if figures['qualifies'] else 'does NOT qualify'})",
+        f"What qualifying costs: {figures['hydrogen_lost_kg'] / 1000:,.1f} t hydrogen ({figures['hydrogen_lost_share']:.1%} of running at rated power).",
+    ]
+    if "margin" in figures:
+        lines.append(f"Margin: plan {figures['margin']:,.0f}, at rated power {figures['baseline_margin']:,.0f} (currency of the price column).")
+    lines += [f"note: {note}" for note in figures["notes"]]
+    lines.append(f"wrote {output}")
+    lines.append("Caution: a screening estimate, not a certification; the scheme's official methodology and verifier decide.")
+    return "\n".join(lines)
+
+
+def plan(
+    project: Annotated[Path, typer.Argument(help="Project TOML file with [electricity] time_series.")],
+    scheme: Annotated[str, typer.Option("--scheme", help="Scheme id to qualify for.")],
+    output: Annotated[Path, typer.Option("--output", "-o", help="Where to write the plan (a time series CSV that `score` reads).")],
+    tier: Annotated[Optional[str], typer.Option("--tier", help="Tier to reach (part of its name, or its limit); default the loosest.")] = None,
+    rated_kw: Annotated[Optional[float], typer.Option("--rated-kw", help="Electrolyser rated power, kW; default the largest load in the series.")] = None,
+    min_load: Annotated[float, typer.Option("--min-load", help="Minimum stable load, fraction of rated power (the plant may also stop).")] = 0.0,
+    part_load: Annotated[Optional[str], typer.Option("--part-load", help="Part-load curve: FRACTION:KWH_PER_KG points, e.g. 0.2:58,0.5:52,1:54.")] = None,
+    hydrogen_price: Annotated[Optional[float], typer.Option("--hydrogen-price", help="Hydrogen price per kg (currency of the price column): maximise margin instead of hydrogen.")] = None,
+    matching: Annotated[Optional[str], typer.Option("--matching", help="rule (the scheme's dated rule, default), or interval, hour, month, quarter, year.")] = None,
+    factors: FactorsOption = "default-2026",
+    gwp: GwpOption = "ar6",
+    set_: SetOption = None,
+    force: ForceOption = False,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Plan the electrolyser load interval by interval: most hydrogen (or margin) while the project qualifies."""
+    try:
+        if output.exists() and not force:
+            raise InputError(output, "--output", "a new file (it exists; pass --force to overwrite)")
+        result, series = api.plan(
+            project, scheme=scheme, tier=tier, rated_kw=rated_kw, min_load=min_load, part_load=parse_part_load(part_load),
+            hydrogen_price=hydrogen_price, matching=matching, factors=factors, gwp=gwp, overrides=set_,
+        )
+        text = plan_csv(series, result)
+        atomic_write(output, lambda tmp: tmp.write_text(text, encoding="utf-8"), force=force)
+    except InputError as error:
+        fail(error)
+    figures = summary(result)
+    typer.echo(render(output_format, table=lambda: table(figures, output), json=lambda: json.dumps(figures, indent=2), csv=lambda: to_csv([("plan", k, v, "") for k, v in figures.items() if k != "notes"])), nl=False)

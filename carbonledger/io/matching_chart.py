@@ -1,0 +1,74 @@
+"""Chart of one project's temporal matching: monthly matched and unmatched electricity, and a heat
+map of the unmatched share by hour of day and month (matplotlib, imported only when asked for)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import InputError
+from .files import atomic_write
+
+CHART_FORMATS = ("png", "svg")
+
+
+def unmatched_share_by_hour_and_month(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray) -> tuple[list[str], np.ndarray]:
+    """(months, 24 x months array): unmatched / use in each local hour of day and calendar month (NaN without use)."""
+    months = local.astype("datetime64[M]")
+    names, column = np.unique(months, return_inverse=True)
+    hour = (local - local.astype("datetime64[D]")).astype("timedelta64[h]").astype(np.int64)
+    use = np.zeros((24, len(names)))
+    unmatched = np.zeros((24, len(names)))
+    np.add.at(use, (hour, column), load_kwh)
+    np.add.at(unmatched, (hour, column), load_kwh - matched_kwh)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        share = np.where(use > 0, unmatched / use, np.nan)
+    return [str(m) for m in names], share
+
+
+def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray, title: str):
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    names, share = unmatched_share_by_hour_and_month(local, load_kwh, matched_kwh)
+    months = local.astype("datetime64[M]")
+    _, column = np.unique(months, return_inverse=True)
+    use = np.bincount(column, load_kwh) / 1000.0
+    matched = np.bincount(column, matched_kwh) / 1000.0
+    figure, (bars, heat) = plt.subplots(1, 2, figsize=(12, 4.8), layout="constrained")
+    positions = np.arange(len(names))
+    bars.bar(positions, matched, color="#3b7d4f", label="matched")
+    bars.bar(positions, use - matched, bottom=matched, color="#b9b9b9", label="unmatched (grid)")
+    bars.set_xticks(positions, names, rotation=60, ha="right", fontsize=7)
+    bars.set_ylabel("electricity use, MWh")
+    bars.legend(fontsize=8)
+    bars.set_title("Electricity use by month", fontsize=10)
+    image = heat.imshow(share, aspect="auto", origin="lower", cmap="magma_r", vmin=0, vmax=1, interpolation="nearest")
+    heat.set_xticks(positions, names, rotation=60, ha="right", fontsize=7)
+    heat.set_yticks(range(0, 24, 3))
+    heat.set_ylabel("local hour of day")
+    heat.set_title("Unmatched share of use, by hour and month", fontsize=10)
+    figure.colorbar(image, ax=heat, label="unmatched / use")
+    figure.suptitle(title, fontsize=10)
+    figure.supxlabel("Screening estimate, not a certification: the scheme's official methodology and an accredited verifier take precedence.", fontsize=6.5)
+    return figure
+
+
+def write_matching_chart(local, load_kwh, matched_kwh, title: str, path: str | Path, force: bool = False) -> Path:
+    """Write the chart as PNG or SVG (by suffix), atomically, refusing to overwrite without ``force``."""
+    path = Path(path)
+    kind = path.suffix.lower().lstrip(".")
+    if kind not in CHART_FORMATS:
+        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
+    if path.exists() and not force:
+        raise InputError(path, "--chart", "a new file (it exists; pass --force to overwrite)")
+    figure = matching_figure(local, load_kwh, matched_kwh, title)
+    import matplotlib.pyplot as plt
+
+    try:
+        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
+    finally:
+        plt.close(figure)
