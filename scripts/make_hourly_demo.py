@@ -104,7 +104,7 @@ def main(out: Path = OUT) -> None:
     load = np.full(len(times), ELECTROLYSER_MW * 1000.0)
     local = times + pd.to_timedelta(offsets, unit="h")
     load[(local >= pd.Timestamp("2026-09-07", tz="UTC")) & (local < pd.Timestamp("2026-09-21", tz="UTC"))] = 0.0
-    stamps = [f"{t:%Y-%m-%dT%H:%M}+{o:02d}:00" for t, o in zip(local.tz_localize(None), offsets)]
+    stamps = [f"{t:%Y-%m-%dT%H:%M}+{o:02d}:00" for t, o in zip(local.tz_localize(None), offsets, strict=False)]
     frame = pd.DataFrame(
         {
             "timestamp": stamps,
@@ -115,7 +115,7 @@ def main(out: Path = OUT) -> None:
             "price [EUR/MWh]": price.round(2),
         }
     )
-    header = "# INVENTED demo data (scripts/make_hourly_demo.py, seed %d): solar, wind, grid intensity, price and load are invented, not measured.\n" % SEED
+    header = f"# INVENTED demo data (scripts/make_hourly_demo.py, seed {SEED}): solar, wind, grid intensity, price and load are invented, not measured.\n"
     out.write_text(header + frame.to_csv(index=False, lineterminator="\n"), encoding="utf-8")
     print(f"wrote {out}: {len(frame)} hours; solar {solar.sum() / 1e6:.1f} GWh, wind {wind.sum() / 1e6:.1f} GWh, load {load.sum() / 1e6:.1f} GWh, grid mean {grid.mean():.0f} g/kWh")
 

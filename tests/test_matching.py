@@ -152,7 +152,7 @@ def test_a_finer_granularity_never_matches_more(count, seed, step):
     load = rng.uniform(0, 100, count) * (rng.uniform(size=count) > 0.2)
     supply = {"solar": rng.uniform(0, 150, count) * (rng.uniform(size=count) > 0.5), "wind": rng.uniform(0, 60, count)}
     matched = [match(load, supply, ["solar", "wind"], g, utc).matched_kwh for g in ORDER]
-    assert all(fine <= coarse + 1e-9 for fine, coarse in zip(matched, matched[1:]))
+    assert all(fine <= coarse + 1e-9 for fine, coarse in zip(matched, matched[1:], strict=False))
     assert matched[-1] <= load.sum() + 1e-9
 
 

@@ -62,7 +62,7 @@ def greedy_day(solar, grid_g, rated):
     """Fractional knapsack, an exact optimum for hourly matching without a minimum load: fill the
     cheapest kWh first (generation at zero, then grid kWh by intensity) while the average stays under the cap."""
     blocks = []
-    for g_t, s_t in zip(np.asarray(grid_g) / 1000.0, solar):
+    for g_t, s_t in zip(np.asarray(grid_g) / 1000.0, solar, strict=False):
         matched = min(rated, s_t)
         blocks += [(0.0, matched), (g_t, rated - matched)]
     blocks.sort()

@@ -162,7 +162,7 @@ def match(
     labels = period_labels(utc, local, granularity)
     per_interval, by_source = match_periods(load_kwh, supply, labels)
     name = granularity if isinstance(granularity, str) else "mixed"
-    return MatchResult(name, float(load_kwh.sum()), float(per_interval.sum()), dict(zip(names, by_source.tolist())), per_interval, int(labels[-1]) + 1)
+    return MatchResult(name, float(load_kwh.sum()), float(per_interval.sum()), dict(zip(names, by_source.tolist(), strict=False)), per_interval, int(labels[-1]) + 1)
 
 
 def eligible_sources(scheme, kinds: dict[str, str], with_generation: list[str]) -> list[str]:
@@ -276,7 +276,7 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
             electricity_g_co2e_per_kwh=float(c) * 1000.0,
             value=value_at(float(c)),
         )
-        for start, a, b, c in zip(starts, m_load, m_matched, m_intensity)
+        for start, a, b, c in zip(starts, m_load, m_matched, m_intensity, strict=False)
     ]
     matching = ElectricityMatching(
         granularity=result.granularity if result.granularity != "mixed" else describe(scheme.id),

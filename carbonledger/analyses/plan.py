@@ -202,7 +202,7 @@ def plan_load(
     index = np.arange(n)
     block_rows = []
     # hydrogen: h_t - a_j p_t - b_j on_t <= 0 (on_t = 1 without binaries: constant moves to the bound)
-    for a, b in zip(slopes, intercepts) if curve else ():
+    for a, b in zip(slopes, intercepts, strict=False) if curve else ():
         r = np.arange(n)
         c1, v1 = h0 + index, np.ones(n)
         c2, v2 = p0 + index, np.full(n, -a)
@@ -295,7 +295,7 @@ def plan_load(
         notes.append("the plan scored back still misses the cap after 8 passes")
     if gap_note:
         notes.append(gap_note)
-    hydrogen = np.minimum.reduce([a * result_load + b * (result_load > 0) for a, b in zip(slopes, intercepts)])
+    hydrogen = np.minimum.reduce([a * result_load + b * (result_load > 0) for a, b in zip(slopes, intercepts, strict=False)])
     hydrogen = np.clip(hydrogen, 0, None)
 
     def scheme_value(load):
@@ -306,7 +306,7 @@ def plan_load(
     value, share = scheme_value(result_load)
     full = np.full(n, rated)
     base_value, base_share = scheme_value(full)
-    base_h2 = float(np.minimum.reduce([a * full + b for a, b in zip(slopes, intercepts)]).sum())
+    base_h2 = float(np.minimum.reduce([a * full + b for a, b in zip(slopes, intercepts, strict=False)]).sum())
     margin = base_margin = None
     if hydrogen_price is not None:
         margin = float(hydrogen_price * hydrogen.sum() - series.price_per_mwh @ result_load / 1000.0)
@@ -354,7 +354,7 @@ def plan_csv(series: ElectricitySeries, plan: PlanResult) -> str:
     import pandas as pd
 
     local = series.local
-    stamps = [f"{str(t)[:16]}{'+' if o >= 0 else '-'}{abs(int(o)) // 60:02d}:{abs(int(o)) % 60:02d}" for t, o in zip(local, series.offset_minutes)]
+    stamps = [f"{str(t)[:16]}{'+' if o >= 0 else '-'}{abs(int(o)) // 60:02d}:{abs(int(o)) % 60:02d}" for t, o in zip(local, series.offset_minutes, strict=False)]
     columns = {"timestamp": stamps, "electrolyser [kWh]": plan.load_kwh.round(6)}
     for name, values in series.generation_kwh.items():
         columns[f"generation.{name} [kWh]"] = values

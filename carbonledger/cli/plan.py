@@ -9,10 +9,11 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
+from ..about import CAUTION
 from ..analyses.plan import PlanResult, parse_part_load, plan_csv
 from ..errors import InputError
+from ..io.csv_text import csv_text
 from ..io.files import atomic_write
-from ..io.tables import to_csv
 from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, fail, render
 
 
@@ -88,4 +89,4 @@ def plan(
     except InputError as error:
         fail(error)
     figures = summary(result)
-    typer.echo(render(output_format, table=lambda: table(figures, output), json=lambda: json.dumps(figures, indent=2), csv=lambda: to_csv([("plan", k, v, "") for k, v in figures.items() if k != "notes"])), nl=False)
+    typer.echo(render(output_format, table=lambda: table(figures, output), json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False), csv=lambda: csv_text(("section", "key", "value", "unit"), [("plan", k, v, "") for k, v in figures.items() if k != "notes"], caution=CAUTION)), nl=False)
