@@ -14,6 +14,7 @@ from .analyses.compare import compare as compare_results
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.periods import month_results, read_meters
 from .analyses.portfolio import Recalc, load_portfolio
+from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
 from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, score_project
@@ -24,8 +25,9 @@ from .io.workbook.reader import (
     load_project_from_workbook,
 )
 from .io.workbook.writer import build_workbook
+from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from .model.project import BOUNDARIES
+from .model.project import BOUNDARIES, read_project_file
 from .routes.project import load_project
 
 __all__ = [
@@ -39,6 +41,8 @@ __all__ = [
     "load_project",
     "load_factor_set",
     "load_any_project",
+    "uncertainty",
+    "load_uncertainty",
 ]
 
 
@@ -184,3 +188,43 @@ def lifetime(
     """Score every operating year of a project's [lifetime] and the lifetime average."""
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
     return lifetime_score(project, _factor_set(factors), project_file=str(project_file), project_sha256=sha, gwp=gwp, schemes=schemes)
+
+
+def load_uncertainty(project_file: str | Path, distributions: str | Path | None = None) -> Uncertainty:
+    """The distributions of a run: the project's ``[uncertainty]`` table with a distributions file laid over it."""
+    data, _ = read_project_file(project_file)
+    table = data.get("uncertainty")
+    found = parse_uncertainty(table, str(project_file)) if isinstance(table, dict) else Uncertainty()
+    if table is not None and not isinstance(table, dict):
+        raise InputError(project_file, "uncertainty", "a table of distributions")
+    if distributions is not None:
+        found = found.merged(read_distributions_file(distributions))
+    if not found.parameters and not found.factors:
+        raise InputError(project_file, "uncertainty", "at least one distribution (an [uncertainty] table in the project, or --distributions FILE)")
+    return found
+
+
+def uncertainty(
+    project_file: str | Path,
+    *,
+    distributions: str | Path | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    progress=None,
+) -> UncertaintyResult:
+    """Monte Carlo of a project: mean, spread and percentiles of every figure, probability of each verdict.
+
+    distributions : a distributions TOML laid over the project's own ``[uncertainty]`` table.
+    draws, seed : number of draws and the seed (the same seed gives the same numbers).
+    sampling : 'random' or 'latin_hypercube'; default the distributions' own (random).
+    progress : optional callable(number of draws done) for a progress bar.
+    """
+    found = load_uncertainty(project_file, distributions)
+    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
+    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress)

@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, project_commands, recalc, workbook
+from . import compare, factors, project_commands, recalc, uncertainty, workbook
 
 app = typer.Typer(
     add_completion=False,
@@ -44,6 +44,7 @@ app.command()(workbook.workbook)
 app.command()(recalc.recalc)
 app.command()(recalc.history)
 app.command()(project_commands.schemes)
+app.command()(uncertainty.uncertainty)
 app.command()(project_commands.init)
 factors_app.command("list")(factors.factors_list)
 factors_app.command("show")(factors.factors_show)

@@ -1,0 +1,137 @@
+"""Table, CSV and JSON of a Monte Carlo run, a headroom search and a sensitivity analysis; charts."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+
+from ..analyses.uncertainty import UncertaintyResult
+from .tables import INTENSITY_UNITS, display_number
+
+SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
+
+
+def uncertainty_rows(result: UncertaintyResult) -> list[tuple]:
+    """(section, key, statistic, value, unit) rows of a Monte Carlo run."""
+    rows: list[tuple] = [
+        ("run", "project", "", result.project, ""),
+        ("run", "boundary", "", result.boundary, ""),
+        ("run", "functional_unit", "", result.functional_unit, ""),
+        ("run", "gwp_basis", "", result.gwp_basis, ""),
+        ("run", "factor_set", "", result.factor_set["name"], ""),
+        ("run", "draws", "", result.draws, ""),
+        ("run", "seed", "", result.seed, ""),
+        ("run", "sampling", "", result.sampling, ""),
+        ("run", "draws_used", "", result.draws_used, ""),
+        ("run", "draws_breaking_limits", "", result.draws_breaking_limits, ""),
+    ]
+    rows += [("limit_break", item.field, item.expected, item.draws, "draws") for item in result.limit_breaks]
+
+    def add(section: str, key: str, summary, unit: str) -> None:
+        if summary is not None:
+            rows.extend((section, key, stat, getattr(summary, stat), unit) for stat in SUMMARY_KEYS)
+
+    add("total", "total", result.total, result.unit)
+    for key, summary in result.intensity.items():
+        add("intensity", key, summary, INTENSITY_UNITS.get(key, key.replace("_", " ")))
+    for key, summary in result.by_stage.items():
+        add("by_stage", key, summary, result.unit)
+    for key, summary in result.by_gas.items():
+        add("by_gas", key, summary, result.unit)
+    for check in result.checks:
+        section = f"check:{check.scheme}"
+        add(section, "value", check.value, check.unit)
+        rows.append((section, "limit", "", check.limit, check.unit))
+        for status, item in check.statuses.items():
+            rows.append((section, f"status:{status}", "probability", item.probability, ""))
+            rows.append((section, f"status:{status}", "standard_error", item.standard_error, ""))
+        for tier, item in check.tiers.items():
+            rows.append((section, f"tier:{tier}", "probability", item.probability, ""))
+            rows.append((section, f"tier:{tier}", "standard_error", item.standard_error, ""))
+    return rows
+
+
+def rows_to_csv(header: tuple, rows: list[tuple]) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(header)
+    writer.writerows(rows)
+    return buffer.getvalue()
+
+
+def uncertainty_csv(result: UncertaintyResult) -> str:
+    return rows_to_csv(("section", "key", "statistic", "value", "unit"), uncertainty_rows(result))
+
+
+def _console():
+    from rich.console import Console
+
+    return Console(file=io.StringIO(), record=True, width=120, force_terminal=False, color_system=None)
+
+
+def uncertainty_table(result: UncertaintyResult) -> str:
+    from rich.table import Table
+
+    console = _console()
+    console.print(f"[bold]{result.project}[/bold]  ({result.boundary}; {result.functional_unit})")
+    console.print(
+        f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
+        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {result.gwp_basis.upper()}; factors {result.factor_set['name']}"
+    )
+    if result.draws_breaking_limits:
+        console.print(f"{result.draws_breaking_limits:,} draws break a physical limit and are left out (not clipped); statistics over {result.draws_used:,} draws:")
+        for item in result.limit_breaks:
+            console.print(f"  {item.field}: expected {item.expected}: {item.draws:,} draws")
+    inputs = Table(title="Uncertain inputs", title_justify="left")
+    inputs.add_column("input")
+    inputs.add_column("distribution")
+    for item in result.inputs:
+        spec = dict(item.distribution)
+        kind = spec.pop("distribution")
+        inputs.add_row(item.input, f"{kind} " + ", ".join(f"{k} {v}" for k, v in spec.items() if v is not None))
+    console.print(inputs)
+    for pair in result.correlations:
+        console.print(f"rank correlation {pair['rank']:g}: {' and '.join(pair['inputs'])}")
+    figures = Table(title="Result over the draws", title_justify="left")
+    for column in ("figure", "mean", "std", "p5", "p50", "p95", "unit"):
+        figures.add_column(column, justify="left" if column in ("figure", "unit") else "right")
+
+    def add(label: str, summary, unit: str) -> None:
+        if summary is not None:
+            figures.add_row(label, *(display_number(getattr(summary, k)) for k in ("mean", "std", "p5", "p50", "p95")), unit)
+
+    add("total", result.total, result.unit)
+    for key, summary in result.intensity.items():
+        if key != "kg_co2e_per_t_nh3":
+            add("per " + key.split("_per_")[1].replace("_", " "), summary, INTENSITY_UNITS.get(key, "kg CO2e/kg NH3"))
+    for key, summary in result.by_stage.items():
+        add(f"stage {key.replace('_', ' ')}", summary, result.unit)
+    for key, summary in result.by_gas.items():
+        add(f"gas {key.replace('_', ' ')}", summary, result.unit)
+    console.print(figures)
+    if result.checks:
+        checks = Table(title="Probability of each verdict (Monte Carlo standard error)", title_justify="left")
+        for column in ("scheme", "limit", "mean value", "p5", "p95", "unit", "qualifies", "best tier met"):
+            checks.add_column(column, justify="right" if column in ("limit", "mean value", "p5", "p95", "qualifies") else "left")
+        for check in result.checks:
+            tiers = "; ".join(f"{name}: {item.probability:.1%}" for name, item in check.tiers.items() if item.probability > 0 and len(check.tiers) > 2)
+            checks.add_row(
+                check.scheme + (" *" if check.from_memory else ""),
+                display_number(check.limit),
+                display_number(check.value.mean),
+                display_number(check.value.p5),
+                display_number(check.value.p95),
+                check.unit,
+                f"{check.probability_qualifies:.1%} ± {check.standard_error:.1%}",
+                tiers or "-",
+            )
+        console.print(checks)
+        if any(check.from_memory for check in result.checks):
+            console.print("* rulebook or threshold recorded from memory, not yet checked against the legal text")
+    console.print(f"Caution: {result.caution} Probabilities hold only for the distributions given; they are not a verifier's finding.")
+    return console.export_text()
+
+
+def plain_json(data) -> str:
+    return json.dumps(data, indent=2, allow_nan=False, default=str) + "\n"
