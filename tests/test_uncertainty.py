@@ -187,3 +187,43 @@ def test_a_project_with_an_uncertainty_table_still_scores(tmp_path):
 
 def test_no_distribution_is_one_line():
     assert_one_line_error(run_cli("uncertainty", DEMO / "blue_atr_ammonia.toml"))
+
+
+def test_stacked_draws_agree_with_bw2calcs_own_monte_carlo():
+    """The same factor distributions written into the bw_processing datapackage (stats_arrays
+    types) and sampled by bw2calc (``use_distributions=True``, ``next(lca)``) give the same
+    distribution of the total: means within three standard errors, and a two-sample
+    Kolmogorov-Smirnov test (scipy.stats.ks_2samp) that does not reject at 1 %."""
+    from scipy.stats import ks_2samp
+
+    from carbonledger.analyses.uncertainty import evaluate, monte_carlo_with_bw2calc
+
+    project, _ = load_project(DEMO / "blue_atr_ammonia.toml")
+    uncertainty = parse_uncertainty(
+        {
+            "factors": {
+                "electricity.grid.eu27_2018": {"distribution": "normal", "mean": 281, "sd": 40},
+                "natural_gas.upstream_co2": {"distribution": "triangular", "low": 3, "mode": 5, "high": 8},
+                "electricity.renewable.wind_offshore": {"distribution": "uniform", "low": 5, "high": 20},
+                "gwp.ar6.ch4_fossil": {"distribution": "lognormal", "median": 29.8, "gsd": 1.2},
+            }
+        },
+        "test",
+    )
+    plan = make_plan(project, load_factor_set("default-2026"), uncertainty)
+    count = 1500
+    theirs = monte_carlo_with_bw2calc(plan, count, seed=1)
+    ours = evaluate(plan, draw(plan, count, seed=2), count).total
+    standard_error = np.sqrt(theirs.var(ddof=1) / count + ours.var(ddof=1) / count)
+    assert abs(theirs.mean() - ours.mean()) < 3 * standard_error
+    assert ks_2samp(theirs, ours).pvalue > 0.01
+    assert theirs.std() > 10  # the draws do vary in bw2calc too (the test can fail)
+
+
+def test_a_factor_in_several_entries_is_refused_for_the_bw2calc_cross_check():
+    from carbonledger.analyses.uncertainty import bw2calc_entries
+
+    project, _ = load_project(DEMO / "blue_atr_ammonia.toml")
+    uncertainty = parse_uncertainty({"factors": {"combustion.natural_gas.co2": {"distribution": "uniform", "low": 55000, "high": 57500}}}, "test")
+    with pytest.raises(Exception, match="drives one matrix entry"):
+        bw2calc_entries(make_plan(project, load_factor_set("default-2026"), uncertainty))

@@ -607,3 +607,96 @@ def monte_carlo(
     drawn = draw(plan, draws, seed, chosen_sampling)
     outcome = evaluate_in_blocks(plan, drawn, progress)
     return summarise(plan, drawn, outcome, seed, chosen_sampling)
+
+
+# --- the same Monte Carlo in bw2calc -------------------------------------------------------
+
+STATS_ARRAYS_TYPES = {"lognormal": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
+
+
+def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
+    """One stats_arrays row (type, loc, scale, shape, minimum, maximum, negative) for an entry
+    that is ``scale`` x the factor (scale > 0)."""
+    nan = float("nan")
+    kind = distribution.distribution
+    if kind == "normal":
+        return (3, scale * distribution.mean, scale * distribution.sd, nan, nan, nan, False)
+    if kind == "lognormal":
+        return (2, np.log(scale * distribution.median), np.log(distribution.gsd), nan, nan, nan, False)
+    if kind == "uniform":
+        return (4, value, nan, nan, scale * distribution.low, scale * distribution.high, False)
+    return (5, scale * distribution.mode, nan, nan, scale * distribution.low, scale * distribution.high, False)
+
+
+def bw2calc_entries(plan: Plan):
+    """The nominal matrices of a plan and, per matrix, the stats_arrays distributions of the
+    entries that uncertain factors drive (each entry in proportion to one factor).
+
+    Found by building the inventory with each uncertain factor at its value and at twice it:
+    an entry that doubles is proportional to that factor. A factor that enters an entry in any
+    other way, or two factors in one entry, cannot be written as an entry distribution.
+    """
+    from ..core.engine import build_matrices, import_bw2calc
+
+    if plan.uncertainty.parameters or plan.uncertainty.correlations:
+        raise InputError(plan.source, "uncertainty", "distributions on factors only, without correlations, for the bw2calc cross-check")
+    params = _params_of(plan, {})
+    inputs = NumericInputs(plan.factor_set, plan.source)
+    check_physical_limits(params, inputs, plan.source)
+    inventory = build_inventory(params, inputs)
+    matrices = build_matrices(inventory)
+    headline = characterisation(inputs, plan.gwp)
+    _, bwp = import_bw2calc()
+    rows = {
+        "technosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.technosphere_values for nan in [float("nan")]],
+        "biosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.biosphere_values for nan in [float("nan")]],
+        "characterization": [(0, v, nan, nan, nan, nan, False) for v in headline for nan in [float("nan")]],
+    }
+    taken: set = set()
+    for factor_id, distribution in plan.uncertainty.factors.items():
+        if distribution.distribution not in STATS_ARRAYS_TYPES:
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, uniform or triangular for the bw2calc cross-check")
+        value = plan.factor_set.get(factor_id).value
+        doubled = DrawInputs(plan.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
+        stacked = build_stacked_matrices(build_inventory(_params_of(plan, {}), doubled), 2)
+        gwp_values = characterisation(doubled, plan.gwp)
+        changed = {
+            "technosphere": stacked.technosphere_values,
+            "biosphere": stacked.biosphere_values,
+            "characterization": gwp_values.T if gwp_values.ndim == 2 else np.vstack([gwp_values, gwp_values]),
+        }
+        entries = [(matrix, entry) for matrix, values in changed.items() for entry in np.flatnonzero(~np.isclose(values[0], values[1], rtol=1e-12, atol=0))]
+        if len(entries) != 1:
+            # bw2calc samples every entry on its own: a factor in several entries would not be the same model
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", f"a factor that drives one matrix entry for the bw2calc cross-check, it drives {len(entries)}")
+        matrix, entry = entries[0]
+        values = changed[matrix]
+        if (matrix, entry) in taken or not np.isclose(values[1][entry], 2 * values[0][entry], rtol=1e-9) or not values[0][entry] > 0:
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "a factor that enters its matrix entry in proportion, alone, for the bw2calc cross-check")
+        taken.add((matrix, entry))
+        rows[matrix][entry] = _uncertainty_row(distribution, values[0][entry] / value, values[0][entry])
+    distributions = {matrix: np.array(items, dtype=bwp.UNCERTAINTY_DTYPE) for matrix, items in rows.items()}
+    return inventory, matrices, headline, distributions
+
+
+def monte_carlo_with_bw2calc(plan: Plan, draws: int, seed: int = DEFAULT_SEED) -> np.ndarray:
+    """The total of ``draws`` draws from bw2calc's own Monte Carlo (stats_arrays sampling of the
+    datapackage's distributions, ``next(lca)`` per draw): the reference for the stacked draws."""
+    import warnings
+
+    from ..core.engine import datapackage, import_bw2calc
+
+    inventory, matrices, headline, distributions = bw2calc_entries(plan)
+    bw2calc, _ = import_bw2calc()
+    column = {key: number for number, key in enumerate(matrices.activity_keys)}
+    totals = np.empty(draws)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        lca = bw2calc.LCA({column[inventory.reference]: 1.0}, data_objs=[datapackage(matrices, headline, distributions)], use_distributions=True, seed_override=seed)
+        lca.lci()
+        lca.lcia()
+        totals[0] = lca.score
+        for number in range(1, draws):
+            next(lca)
+            totals[number] = lca.score
+    return totals

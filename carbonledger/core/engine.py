@@ -100,22 +100,30 @@ def import_bw2calc():
     return bw2calc, bw_processing
 
 
-def datapackage(matrices: Matrices, characterisation: np.ndarray):
-    """An in-memory bw_processing datapackage of A, B and a diagonal characterisation matrix."""
+def datapackage(matrices: Matrices, characterisation: np.ndarray, distributions: dict | None = None):
+    """An in-memory bw_processing datapackage of A, B and a diagonal characterisation matrix.
+
+    ``distributions`` (optional) gives, for "technosphere", "biosphere" and "characterization",
+    a bw_processing ``UNCERTAINTY_DTYPE`` array (stats_arrays uncertainty types) per entry, which
+    bw2calc samples with ``use_distributions=True``.
+    """
     _, bwp = import_bw2calc()
     package = bwp.create_datapackage()
+    distributions = distributions or {}
     package.add_persistent_vector(
         matrix="technosphere_matrix",
         name="technosphere",
         indices_array=matrices.technosphere_indices,
         data_array=matrices.technosphere_values,
         flip_array=matrices.technosphere_flip,
+        distributions_array=distributions.get("technosphere"),
     )
     package.add_persistent_vector(
         matrix="biosphere_matrix",
         name="biosphere",
         indices_array=matrices.biosphere_indices,
         data_array=matrices.biosphere_values,
+        distributions_array=distributions.get("biosphere"),
     )
     flow_ids = [FLOW_ID_OFFSET + number for number in range(len(matrices.flow_keys))]
     package.add_persistent_vector(
@@ -123,6 +131,7 @@ def datapackage(matrices: Matrices, characterisation: np.ndarray):
         name="characterization",
         indices_array=np.array([(i, i) for i in flow_ids], dtype=INDICES_DTYPE),
         data_array=np.asarray(characterisation, dtype=float),
+        distributions_array=distributions.get("characterization"),
     )
     return package
 
