@@ -11,6 +11,8 @@ from pathlib import Path
 
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
+from .analyses.headroom import Headroom
+from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.periods import month_results, read_meters
 from .analyses.portfolio import Recalc, load_portfolio
@@ -43,6 +45,7 @@ __all__ = [
     "load_any_project",
     "uncertainty",
     "load_uncertainty",
+    "headroom",
 ]
 
 
@@ -228,3 +231,23 @@ def uncertainty(
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress)
+
+
+def headroom(
+    project_file: str | Path,
+    parameters: list[str],
+    scheme: str,
+    *,
+    tier: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> list[Headroom]:
+    """For each parameter path, the value at which the scheme's limit (or ``tier``) is met exactly,
+    or None with the reason (root finding within the parameter's physical range, verified by scoring)."""
+    if not parameters:
+        raise InputError("headroom", "--parameter", "at least one parameter path")
+    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
+    factor_set = _factor_set(factors)
+    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp) for path in parameters]

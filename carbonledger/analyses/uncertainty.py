@@ -217,7 +217,7 @@ def _set(params: dict, path: str, value) -> None:
     node[parts[-1]] = value
 
 
-def _params_of(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
+def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
     """The project's parameters with draws in place; another source's share takes up the rest of a drawn share."""
     params = copy.deepcopy(plan.project.model_dump())
     if plan.boundary is not None:
@@ -293,7 +293,7 @@ def _route_checks(plan: Plan, draws: Draws, count: int, candidates: np.ndarray) 
     Their text checks (fuel names, sections) do not change between draws and run once, on the
     project's own values, before the draws are built.
     """
-    params = _params_of(plan, draws.parameters)
+    params = params_with_draws(plan, draws.parameters)
     inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
     found: dict[tuple, np.ndarray] = {}
     for route in REGISTRY:
@@ -325,9 +325,9 @@ class Outcome:
 
 def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     """Build the inventory once with arrays of draws and solve every draw stacked."""
-    params = _params_of(plan, draws.parameters)
+    params = params_with_draws(plan, draws.parameters)
     inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
-    check_physical_limits(_params_of(plan, {}), NumericInputs(plan.factor_set, plan.source), plan.source)
+    check_physical_limits(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source), plan.source)
     inventory = build_inventory(params, inputs)
     product = inventory.product
     chosen = select_schemes(rulebooks(), plan.schemes, product)
@@ -640,7 +640,7 @@ def bw2calc_entries(plan: Plan):
 
     if plan.uncertainty.parameters or plan.uncertainty.correlations:
         raise InputError(plan.source, "uncertainty", "distributions on factors only, without correlations, for the bw2calc cross-check")
-    params = _params_of(plan, {})
+    params = params_with_draws(plan, {})
     inputs = NumericInputs(plan.factor_set, plan.source)
     check_physical_limits(params, inputs, plan.source)
     inventory = build_inventory(params, inputs)
@@ -658,7 +658,7 @@ def bw2calc_entries(plan: Plan):
             raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, uniform or triangular for the bw2calc cross-check")
         value = plan.factor_set.get(factor_id).value
         doubled = DrawInputs(plan.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
-        stacked = build_stacked_matrices(build_inventory(_params_of(plan, {}), doubled), 2)
+        stacked = build_stacked_matrices(build_inventory(params_with_draws(plan, {}), doubled), 2)
         gwp_values = characterisation(doubled, plan.gwp)
         changed = {
             "technosphere": stacked.technosphere_values,

@@ -13,7 +13,13 @@ import typer
 from .. import api
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
-from ..io.uncertainty_output import uncertainty_csv, uncertainty_table
+from ..io.uncertainty_output import (
+    headroom_csv,
+    headroom_json,
+    headroom_table,
+    uncertainty_csv,
+    uncertainty_table,
+)
 from .options import (
     BoundaryOption,
     FactorsOption,
@@ -81,6 +87,26 @@ def uncertainty(
                 progress=advance,
             )
         text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+
+
+def headroom(
+    project: Annotated[Path, typer.Argument(help="Project TOML file.")],
+    parameter: Annotated[list[str], typer.Option("--parameter", help="Parameter path as `carbonledger params` lists it (repeatable).")],
+    scheme: Annotated[str, typer.Option("--scheme", help="Scheme id (see `carbonledger schemes`).")],
+    tier: Annotated[Optional[str], typer.Option("--tier", help="Tier name of the scheme; default its loosest threshold.")] = None,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    set_: SetOption = None,
+    boundary: BoundaryOption = None,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """The value of each parameter at which a scheme's limit is met exactly (null with a reason when none)."""
+    try:
+        results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
+        text = render(output_format, table=lambda: headroom_table(results), json=lambda: headroom_json(results), csv=lambda: headroom_csv(results))
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)

@@ -6,6 +6,7 @@ import csv
 import io
 import json
 
+from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
 from .tables import INTENSITY_UNITS, display_number
 
@@ -135,3 +136,39 @@ def uncertainty_table(result: UncertaintyResult) -> str:
 
 def plain_json(data) -> str:
     return json.dumps(data, indent=2, allow_nan=False, default=str) + "\n"
+
+
+def headroom_json(results: list[Headroom]) -> str:
+    """One parameter: its object (key ``value``); several: {"headroom": [objects]}."""
+    if len(results) == 1:
+        return results[0].model_dump_json(indent=2)
+    return plain_json({"headroom": [item.model_dump() for item in results]})
+
+
+def headroom_csv(results: list[Headroom]) -> str:
+    keys = ("parameter", "unit", "project_value", "value", "qualifies_when", "scheme", "tier", "limit", "scheme_unit", "project_scheme_value", "verified_scheme_value", "reason")
+    return rows_to_csv(keys, [tuple("" if getattr(item, k) is None else getattr(item, k) for k in keys) for item in results])
+
+
+def headroom_table(results: list[Headroom]) -> str:
+    from rich.table import Table
+
+    console = _console()
+    first = results[0]
+    console.print(f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; the project scores {display_number(first.project_scheme_value)}")
+    table = Table(title="Value of each parameter at which the limit is met exactly", title_justify="left")
+    for column in ("parameter", "project value", "headroom value", "unit", "qualifies", "note"):
+        table.add_column(column, justify="right" if "value" in column else "left", no_wrap=column == "parameter")
+    for item in results:
+        table.add_row(
+            item.parameter,
+            display_number(item.project_value),
+            "none" if item.value is None else f"{item.value:.6g}",
+            item.unit,
+            f"{item.qualifies_when} it" if item.qualifies_when else "-",
+            item.reason,
+        )
+    console.print(table)
+    console.print("Each value is found by root finding (scipy brentq) within the parameter's physical range and checked by scoring the project at it; other parameters stay as the project states them.")
+    console.print(f"Caution: {first.caution}")
+    return console.export_text()
