@@ -217,6 +217,15 @@ def build_stacked_matrices(inventory, count: int) -> Matrices:
     )
 
 
+def _scatter(values: np.ndarray, rows: np.ndarray, cols: np.ndarray, height: int, width: int) -> np.ndarray:
+    """(n, height, width) dense matrices from (n, entries) values at (row, col); repeated coordinates add up."""
+    count = values.shape[0]
+    if values.shape[1] == 0:
+        return np.zeros((count, height, width))
+    flat = (np.arange(count)[:, None] * (height * width) + (np.asarray(rows, dtype=np.int64) * width + np.asarray(cols, dtype=np.int64))[None, :]).ravel()
+    return np.bincount(flat, weights=values.ravel(), minlength=count * height * width).reshape(count, height, width)
+
+
 def solve_stacked_values(stacked: Matrices, demands: list[str]) -> tuple[np.ndarray, np.ndarray]:
     """Solve stacked systems (values (n, exchanges), as ``build_stacked_matrices`` gives).
 
@@ -232,13 +241,9 @@ def solve_stacked_values(stacked: Matrices, demands: list[str]) -> tuple[np.ndar
     count, size = values.shape[0], len(stacked.activity_keys)
     column = {key: number for number, key in enumerate(stacked.activity_keys)}
     signs = np.where(stacked.technosphere_flip, -1.0, 1.0)
-    technosphere = np.zeros((count, size, size))
-    batch = np.arange(count)[:, None]
-    np.add.at(technosphere, (batch, stacked.technosphere_indices["row"][None, :], stacked.technosphere_indices["col"][None, :]), values * signs)
-    biosphere = np.zeros((count, len(stacked.flow_keys), size))
-    if len(stacked.biosphere_indices):
-        rows = stacked.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
-        np.add.at(biosphere, (batch, rows[None, :], stacked.biosphere_indices["col"][None, :]), stacked.biosphere_values)
+    technosphere = _scatter(values * signs, stacked.technosphere_indices["row"], stacked.technosphere_indices["col"], size, size)
+    rows = stacked.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
+    biosphere = _scatter(stacked.biosphere_values, rows, stacked.biosphere_indices["col"], len(stacked.flow_keys), size)
     demand_vectors = np.zeros((count, size, len(demands)))
     for number, demand in enumerate(demands):
         demand_vectors[:, column[demand], number] = 1.0
