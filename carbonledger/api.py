@@ -16,6 +16,8 @@ from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.periods import month_results, read_meters
 from .analyses.portfolio import Recalc, load_portfolio
+from .analyses.sensitivity import Sensitivity
+from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
 from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
@@ -46,6 +48,7 @@ __all__ = [
     "uncertainty",
     "load_uncertainty",
     "headroom",
+    "sensitivity",
 ]
 
 
@@ -251,3 +254,22 @@ def headroom(
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     factor_set = _factor_set(factors)
     return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp) for path in parameters]
+
+
+def sensitivity(
+    project_file: str | Path,
+    *,
+    distributions: str | Path | None = None,
+    scheme: str | None = None,
+    base_sample: int = 1024,
+    seed: int = DEFAULT_SEED,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> Sensitivity:
+    """Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total,
+    or of ``scheme``'s value, over the project's uncertain inputs."""
+    found = load_uncertainty(project_file, distributions)
+    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
+    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp)

@@ -13,6 +13,7 @@ import typer
 from .. import api
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
+from ..io.sensitivity_output import CHART_FORMATS, sensitivity_csv, sensitivity_table, write_sensitivity_chart
 from ..io.uncertainty_output import (
     headroom_csv,
     headroom_json,
@@ -27,6 +28,7 @@ from .options import (
     GwpOption,
     OutputFormat,
     SchemeOption,
+    ForceOption,
     SetOption,
     fail,
     render,
@@ -110,3 +112,34 @@ def headroom(
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
+
+
+def sensitivity(
+    project: Annotated[Path, typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions).")],
+    scheme: Annotated[Optional[str], typer.Option("--scheme", help="Scheme id: analyse its value (limit marked on the chart); default the total.")] = None,
+    base_sample: Annotated[int, typer.Option("--base-sample", help="N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).")] = 1024,
+    seed: SeedOption = DEFAULT_SEED,
+    distributions: DistributionsOption = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write the tornado and Sobol chart: FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    set_: SetOption = None,
+    boundary: BoundaryOption = None,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Which inputs decide the result: Sobol indices (SALib) and a 10th/90th percentile tornado."""
+    try:
+        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+        if chart is not None and chart.exists() and not force:
+            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
+        text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
+        if chart is not None:
+            write_sensitivity_chart(result, chart, force=force)
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)

@@ -65,7 +65,7 @@ def uncertainty_csv(result: UncertaintyResult) -> str:
     return rows_to_csv(("section", "key", "statistic", "value", "unit"), uncertainty_rows(result))
 
 
-def _console():
+def console_for_text():
     from rich.console import Console
 
     return Console(file=io.StringIO(), record=True, width=120, force_terminal=False, color_system=None)
@@ -74,7 +74,7 @@ def _console():
 def uncertainty_table(result: UncertaintyResult) -> str:
     from rich.table import Table
 
-    console = _console()
+    console = console_for_text()
     console.print(f"[bold]{result.project}[/bold]  ({result.boundary}; {result.functional_unit})")
     console.print(
         f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
@@ -153,7 +153,7 @@ def headroom_csv(results: list[Headroom]) -> str:
 def headroom_table(results: list[Headroom]) -> str:
     from rich.table import Table
 
-    console = _console()
+    console = console_for_text()
     first = results[0]
     console.print(f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; the project scores {display_number(first.project_scheme_value)}")
     table = Table(title="Value of each parameter at which the limit is met exactly", title_justify="left")
