@@ -227,3 +227,50 @@ def test_a_factor_in_several_entries_is_refused_for_the_bw2calc_cross_check():
     uncertainty = parse_uncertainty({"factors": {"combustion.natural_gas.co2": {"distribution": "uniform", "low": 55000, "high": 57500}}}, "test")
     with pytest.raises(Exception, match="drives one matrix entry"):
         bw2calc_entries(make_plan(project, load_factor_set("default-2026"), uncertainty))
+
+
+def test_route_limits_on_draws_agree_with_the_checks_a_score_runs():
+    """Each draw flagged by Route.draw_limits is one the route's own check_limits refuses, and no other."""
+    from carbonledger.analyses.uncertainty import limit_breaks, params_with_draws
+    from carbonledger.core.inputs import NumericInputs
+    from carbonledger.core.inventory import check_physical_limits
+    from carbonledger.errors import InputError
+
+    project, _ = load_project(DEMO / "green_ammonia_cracked_hydrogen.toml", ['cracking.heat_source="hydrogen"'])
+    uncertainty = parse_uncertainty(
+        {
+            "parameters": {
+                "cracking.hydrogen_recovery_fraction": {"distribution": "uniform", "low": 0.01, "high": 0.6},
+                "cracking.heat_to_reactor_efficiency": {"distribution": "uniform", "low": 0.05, "high": 1.0},
+                "shipping.tank_heat_ingress_kw": {"distribution": "uniform", "low": 100, "high": 40_000},
+            }
+        },
+        "test",
+    )
+    factor_set = load_factor_set("default-2026")
+    plan = make_plan(project, factor_set, uncertainty)
+    drawn = draw(plan, 300, seed=4)
+    broken, reasons = limit_breaks(plan, drawn, 300)
+    assert 0 < broken.sum() < 300 and {r["field"] for r in reasons} == {"cracking.hydrogen_recovery_fraction", "shipping.tank_heat_ingress_kw"}
+    for number in range(300):
+        params = params_with_draws(plan, {path: values[number] for path, values in drawn.parameters.items()})
+        try:
+            check_physical_limits(params, NumericInputs(factor_set), "test")
+            refused = False
+        except InputError:
+            refused = True
+        assert refused == broken[number], number
+
+
+def test_delivered_boundary_draws_include_the_voyage(tmp_path):
+    nominal = api.score(DEMO / "blue_atr_ammonia_shipped.toml")
+    distance = nominal.parameters["shipping"]["distance_nautical_miles"]
+    spec = write(tmp_path / "d.toml", f'[parameters."shipping.distance_nautical_miles"]\ndistribution = "uniform"\nlow = {distance * 0.9}\nhigh = {distance * 1.1}\n')
+    result = api.uncertainty(DEMO / "blue_atr_ammonia_shipped.toml", distributions=spec, draws=4000, seed=2)
+    assert result.boundary == nominal.boundary != "cradle-to-gate"
+    assert result.by_stage["shipping"].std > 0
+    # every other stage per tonne delivered moves only through the cargo lost on the way (tiny)
+    assert result.by_stage["hydrogen_production"].std < 1e-3 * result.by_stage["hydrogen_production"].mean
+    # the voyage's fuel is in proportion to the distance: a symmetric +-10 % range leaves the
+    # mean of the shipping stage at the project's value (to the draws' standard error)
+    assert result.by_stage["shipping"].mean == pytest.approx(nominal.by_stage["shipping"], abs=4 * result.by_stage["shipping"].standard_error + 1e-3 * nominal.by_stage["shipping"])
