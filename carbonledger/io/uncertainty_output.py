@@ -65,16 +65,16 @@ def uncertainty_csv(result: UncertaintyResult) -> str:
     return rows_to_csv(("section", "key", "statistic", "value", "unit"), uncertainty_rows(result))
 
 
-def console_for_text():
+def console_for_text(width: int = 120):
     from rich.console import Console
 
-    return Console(file=io.StringIO(), record=True, width=120, force_terminal=False, color_system=None)
+    return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
 
 
 def uncertainty_table(result: UncertaintyResult) -> str:
     from rich.table import Table
 
-    console = console_for_text()
+    console = console_for_text(140)
     console.print(f"[bold]{result.project}[/bold]  ({result.boundary}; {result.functional_unit})")
     console.print(
         f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
@@ -124,7 +124,7 @@ def uncertainty_table(result: UncertaintyResult) -> str:
                 display_number(check.value.p5),
                 display_number(check.value.p95),
                 check.unit,
-                f"{check.probability_qualifies:.1%} ± {check.standard_error:.1%}",
+                f"{check.probability_qualifies:.2%} ± {check.standard_error:.2%}",
                 tiers or "-",
             )
         console.print(checks)
@@ -153,7 +153,7 @@ def headroom_csv(results: list[Headroom]) -> str:
 def headroom_table(results: list[Headroom]) -> str:
     from rich.table import Table
 
-    console = console_for_text()
+    console = console_for_text(140)
     first = results[0]
     console.print(f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; the project scores {display_number(first.project_scheme_value)}")
     table = Table(title="Value of each parameter at which the limit is met exactly", title_justify="left")
