@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from .analyses.cluster import dask_mapper
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.headroom import Headroom
@@ -177,9 +178,26 @@ def audit_workbook(
     return workbook, engine
 
 
-def recalc(paths: list[str | Path], old_factors: str | Path | FactorSet, new_factors: str | Path | FactorSet, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None) -> Recalc:
-    """Rescore a portfolio (files or folders of project files) under a new factor set."""
-    return recalc_portfolio(load_portfolio(paths), _factor_set(old_factors), _factor_set(new_factors), gwp=gwp, schemes=schemes)
+def recalc(
+    paths: list[str | Path],
+    old_factors: str | Path | FactorSet,
+    new_factors: str | Path | FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    workers: int | None = None,
+    scheduler: str | None = None,
+) -> Recalc:
+    """Rescore a portfolio (files or folders of project files) under a new factor set.
+
+    workers : score on a local Dask cluster of this many worker processes.
+    scheduler : score on an existing Dask scheduler at this address instead.
+    The results are the same as in one process.
+    """
+    projects = load_portfolio(paths)
+    old_set, new_set = _factor_set(old_factors), _factor_set(new_factors)
+    with dask_mapper(workers, scheduler) as (mapper, chunks):
+        return recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, mapper=mapper, chunks=chunks)
 
 
 def lifetime(
