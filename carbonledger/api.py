@@ -16,7 +16,7 @@ from .analyses.headroom import Headroom
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.periods import month_results, read_meters
-from .analyses.portfolio import Recalc, load_portfolio
+from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
@@ -50,6 +50,7 @@ __all__ = [
     "load_uncertainty",
     "headroom",
     "sensitivity",
+    "uncertainty_many",
 ]
 
 
@@ -291,3 +292,35 @@ def sensitivity(
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp)
+
+
+def uncertainty_one(task: tuple) -> UncertaintyResult:
+    """One project's Monte Carlo from plain arguments (what a Dask worker runs)."""
+    path, options = task
+    return uncertainty(path, **options)
+
+
+def uncertainty_many(
+    paths: list[str | Path],
+    *,
+    distributions: str | Path | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    boundary: str | None = None,
+    workers: int | None = None,
+    scheduler: str | None = None,
+) -> list[UncertaintyResult]:
+    """Monte Carlo of every project of a portfolio (files or folders), each with its own
+    ``[uncertainty]`` table (and ``distributions`` laid over it) and the same seed; on a Dask
+    cluster with ``workers`` or ``scheduler``, with the same numbers as in one process."""
+    files = project_files(paths)
+    options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling, "factors": factors, "gwp": gwp, "schemes": schemes, "boundary": boundary}
+    for path in files:  # every bad input is found before any work starts
+        load_uncertainty(path, distributions)
+    tasks = [(str(path), options) for path in files]
+    with dask_mapper(workers, scheduler) as (mapper, _):
+        return list((mapper or map)(uncertainty_one, tasks))

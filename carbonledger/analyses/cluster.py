@@ -34,7 +34,10 @@ def dask_mapper(workers: int | None = None, scheduler: str | None = None) -> Ite
         raise InputError("--workers", str(workers), "at least 1 worker")
     import logging
 
-    from distributed import Client, LocalCluster
+    try:
+        from distributed import Client, LocalCluster
+    except ImportError:
+        raise InputError("--workers" if workers is not None else "--scheduler", str(workers or scheduler), "Dask installed (pip install 'carbonledger[cluster]')") from None
 
     logging.getLogger("distributed").setLevel(logging.ERROR)
     with contextlib.ExitStack() as stack:

@@ -18,6 +18,9 @@ from ..io.uncertainty_output import (
     headroom_csv,
     headroom_json,
     headroom_table,
+    portfolio_uncertainty_csv,
+    portfolio_uncertainty_json,
+    portfolio_uncertainty_table,
     uncertainty_csv,
     uncertainty_table,
 )
@@ -29,7 +32,9 @@ from .options import (
     OutputFormat,
     SchemeOption,
     ForceOption,
+    SchedulerOption,
     SetOption,
+    WorkersOption,
     fail,
     render,
 )
@@ -60,7 +65,7 @@ def progress_bar(total: int, label: str, output_format: OutputFormat):
 
 
 def uncertainty(
-    project: Annotated[Path, typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions).")],
+    project: Annotated[list[Path], typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions), or several files or folders.")],
     draws: DrawsOption = DEFAULT_DRAWS,
     seed: SeedOption = DEFAULT_SEED,
     sampling: SamplingOption = None,
@@ -70,25 +75,23 @@ def uncertainty(
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     boundary: BoundaryOption = None,
+    workers: WorkersOption = None,
+    scheduler: SchedulerOption = None,
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
     try:
-        with progress_bar(draws, "Monte Carlo draws", output_format) as advance:
-            result = api.uncertainty(
-                project,
-                distributions=distributions,
-                draws=draws,
-                seed=seed,
-                sampling=sampling.value if sampling else None,
-                factors=factors,
-                gwp=gwp,
-                schemes=scheme,
-                overrides=set_,
-                boundary=boundary,
-                progress=advance,
-            )
-        text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
+        options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling.value if sampling else None, "factors": factors, "gwp": gwp, "schemes": scheme, "boundary": boundary}
+        single = len(project) == 1 and project[0].is_file() and workers is None and scheduler is None
+        if single:
+            with progress_bar(draws, "Monte Carlo draws", output_format) as advance:
+                result = api.uncertainty(project[0], overrides=set_, progress=advance, **options)
+            text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
+        else:
+            if set_:
+                raise InputError("--set", set_[0], "no --set with several projects (set values in each project file)")
+            results = api.uncertainty_many(project, workers=workers, scheduler=scheduler, **options)
+            text = render(output_format, table=lambda: portfolio_uncertainty_table(results), json=lambda: portfolio_uncertainty_json(results), csv=lambda: portfolio_uncertainty_csv(results))
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)

@@ -172,3 +172,34 @@ def headroom_table(results: list[Headroom]) -> str:
     console.print("Each value is found by root finding (scipy brentq) within the parameter's physical range and checked by scoring the project at it; other parameters stay as the project states them.")
     console.print(f"Caution: {first.caution}")
     return console.export_text()
+
+
+def portfolio_uncertainty_json(results: list[UncertaintyResult]) -> str:
+    return plain_json({"projects": [result.model_dump(mode="json") for result in results]})
+
+
+def portfolio_uncertainty_csv(results: list[UncertaintyResult]) -> str:
+    rows = [(result.project_file, *row) for result in results for row in uncertainty_rows(result)]
+    return rows_to_csv(("project_file", "section", "key", "statistic", "value", "unit"), rows)
+
+
+def portfolio_uncertainty_table(results: list[UncertaintyResult]) -> str:
+    from rich.table import Table
+
+    console = console_for_text(140)
+    first = results[0]
+    console.print(f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, sampling {first.sampling.replace('_', ' ')}; GWP100 {first.gwp_basis.upper()}")
+    table = Table(title="Total and probability of qualifying per project and scheme", title_justify="left")
+    for column in ("project", "total mean", "p5", "p95", "unit", "scheme", "qualifies", "draws left out"):
+        table.add_column(column, justify="right" if column in ("total mean", "p5", "p95", "qualifies", "draws left out") else "left")
+    for result in results:
+        head = [result.project, display_number(result.total.mean), display_number(result.total.p5), display_number(result.total.p95), result.unit]
+        checks = result.checks or [None]
+        for number, check in enumerate(checks):
+            cells = head if number == 0 else [""] * len(head)
+            scheme = "-" if check is None else check.scheme
+            chance = "-" if check is None else f"{check.probability_qualifies:.2%} ± {check.standard_error:.2%}"
+            table.add_row(*cells, scheme, chance, str(result.draws_breaking_limits) if number == 0 else "")
+    console.print(table)
+    console.print(f"Caution: {first.caution} Probabilities hold only for the distributions given.")
+    return console.export_text()
