@@ -17,10 +17,10 @@ from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.periods import month_results, read_meters
 from .analyses.portfolio import Recalc, load_portfolio, project_files
+from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
-from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, score_project
 from .errors import InputError

@@ -16,7 +16,7 @@ import pytest
 from scipy.stats import spearmanr
 
 from carbonledger import api
-from carbonledger.analyses.uncertainty import make_plan, draw
+from carbonledger.analyses.uncertainty import draw, make_plan
 from carbonledger.model.distributions import parse_uncertainty
 from carbonledger.model.factors import load_factor_set
 from carbonledger.routes.project import load_project

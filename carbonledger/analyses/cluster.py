@@ -15,7 +15,7 @@ References
 from __future__ import annotations
 
 import contextlib
-from typing import Callable, Iterator
+from collections.abc import Callable, Iterator
 
 from ..errors import InputError
 

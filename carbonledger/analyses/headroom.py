@@ -29,7 +29,7 @@ from ..model.factors import FactorSet
 from ..model.project import field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..routes.project import validate_project
-from .uncertainty import Draws, params_with_draws, evaluate, limit_breaks, make_plan
+from .uncertainty import Draws, evaluate, limit_breaks, make_plan, params_with_draws
 
 SCAN_POINTS = 401
 VERIFY_RTOL = 1e-6

@@ -122,7 +122,13 @@ def sensitivity(
     broken, _ = limit_breaks(plan, drawn, len(u))
     indices = sobol_analysis.analyze(problem, values, calc_second_order=False, seed=seed)
     sobol = [
-        SobolIndex(input=name, first_order=float(indices["S1"][n]), first_order_confidence=float(indices["S1_conf"][n]), total_order=float(indices["ST"][n]), total_order_confidence=float(indices["ST_conf"][n]))
+        SobolIndex(
+            input=name,
+            first_order=float(indices["S1"][n]),
+            first_order_confidence=float(indices["S1_conf"][n]),
+            total_order=float(indices["ST"][n]),
+            total_order_confidence=float(indices["ST_conf"][n]),
+        )
         for n, name in enumerate(names)
     ]
     # tornado: row 0 is the base; then each input at its 10th and 90th percentile

@@ -27,12 +27,12 @@ from ..io.uncertainty_output import (
 from .options import (
     BoundaryOption,
     FactorsOption,
+    ForceOption,
     FormatOption,
     GwpOption,
     OutputFormat,
-    SchemeOption,
-    ForceOption,
     SchedulerOption,
+    SchemeOption,
     SetOption,
     WorkersOption,
     fail,
@@ -81,7 +81,16 @@ def uncertainty(
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
     try:
-        options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling.value if sampling else None, "factors": factors, "gwp": gwp, "schemes": scheme, "boundary": boundary}
+        options = {
+            "distributions": distributions,
+            "draws": draws,
+            "seed": seed,
+            "sampling": sampling.value if sampling else None,
+            "factors": factors,
+            "gwp": gwp,
+            "schemes": scheme,
+            "boundary": boundary,
+        }
         single = len(project) == 1 and project[0].is_file() and workers is None and scheduler is None
         if single:
             with progress_bar(draws, "Monte Carlo draws", output_format) as advance:

@@ -16,7 +16,14 @@ CHART_FORMATS = ("png", "svg")
 def sensitivity_csv(result: Sensitivity) -> str:
     rows = [("sobol", item.input, key, getattr(item, key)) for item in result.sobol for key in ("first_order", "first_order_confidence", "total_order", "total_order_confidence")]
     rows += [("tornado", bar.input, key, getattr(bar, key)) for bar in result.tornado for key in ("low_input", "high_input", "at_low", "at_high", "swing")]
-    rows += [("run", "figure", "", result.figure), ("run", "unit", "", result.unit), ("run", "base", "", result.base), ("run", "limit", "", "" if result.limit is None else result.limit), ("run", "seed", "", result.seed), ("run", "evaluations", "", result.evaluations)]
+    rows += [
+        ("run", "figure", "", result.figure),
+        ("run", "unit", "", result.unit),
+        ("run", "base", "", result.base),
+        ("run", "limit", "", "" if result.limit is None else result.limit),
+        ("run", "seed", "", result.seed),
+        ("run", "evaluations", "", result.evaluations),
+    ]
     return rows_to_csv(("section", "input", "statistic", "value"), rows)
 
 

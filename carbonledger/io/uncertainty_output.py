@@ -169,7 +169,9 @@ def headroom_table(results: list[Headroom]) -> str:
             item.reason,
         )
     console.print(table)
-    console.print("Each value is found by root finding (scipy brentq) within the parameter's physical range and checked by scoring the project at it; other parameters stay as the project states them.")
+    console.print(
+        "Each value is found by root finding (scipy brentq) within the parameter's physical range and checked by scoring the project at it; other parameters stay as the project states them."
+    )
     console.print(f"Caution: {first.caution}")
     return console.export_text()
 

@@ -203,7 +203,7 @@ class Uncertainty(BaseModel):
         """Inputs in a fixed order: parameters first, then factors (as written)."""
         return [f"parameter {p}" for p in self.parameters] + [f"factor {f}" for f in self.factors]
 
-    def merged(self, other: "Uncertainty", sampling: str | None = None) -> "Uncertainty":
+    def merged(self, other: Uncertainty, sampling: str | None = None) -> Uncertainty:
         """This table with ``other`` laid over it (its entries win)."""
         return Uncertainty(
             sampling=sampling or (other.sampling if "sampling" in other.model_fields_set else self.sampling),
@@ -231,7 +231,9 @@ def parse_uncertainty(data: dict, source: str, prefix: str = "uncertainty") -> U
         elif kind == "extra_forbidden":
             expected = "no such key (distribution, mean, sd, median, gsd, low, mode, high, values, weights)"
         elif kind == "union_tag_invalid":
-            expected = f"distribution one of normal, lognormal, triangular, uniform, discrete, got {first.get('input', {}).get('distribution')!r}" if isinstance(first.get("input"), dict) else first["msg"]
+            expected = (
+                f"distribution one of normal, lognormal, triangular, uniform, discrete, got {first.get('input', {}).get('distribution')!r}" if isinstance(first.get("input"), dict) else first["msg"]
+            )
         elif kind == "missing":
             expected = "a value is required"
         else:
