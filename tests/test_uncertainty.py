@@ -274,3 +274,25 @@ def test_delivered_boundary_draws_include_the_voyage(tmp_path):
     # the voyage's fuel is in proportion to the distance: a symmetric +-10 % range leaves the
     # mean of the shipping stage at the project's value (to the draws' standard error)
     assert result.by_stage["shipping"].mean == pytest.approx(nominal.by_stage["shipping"], abs=4 * result.by_stage["shipping"].standard_error + 1e-3 * nominal.by_stage["shipping"])
+
+
+def test_a_discrete_choice_of_grid_factor_ids(tmp_path):
+    override = write(tmp_path / "override.csv", "id,value,unit,source,table,year,region,note,from_memory\nelectricity.grid.test_high,600,g CO2e/kWh,Invented test value,,2026,,test only,true\n")
+    path = linear_project(
+        tmp_path,
+        """
+[uncertainty.parameters."electricity.sources.grid.factor"]
+distribution = "discrete"
+values = ["electricity.grid.eu27_2018", "electricity.grid.test_high"]
+weights = [0.7, 0.3]
+""",
+    )
+    result = api.uncertainty(path, draws=20_000, seed=1, factors=override)
+    low = 50 * load_factor_set("default-2026").get("electricity.grid.eu27_2018").value / 1000
+    # two outcomes: 50 kWh x 281 or x 600 g/kWh; mean = 0.7 low + 0.3 x 30.0 kg CO2e/kg H2
+    standard_error = np.sqrt(0.21 / 20_000) * (30.0 - low)
+    assert result.total.mean == pytest.approx(0.7 * low + 0.3 * 30.0, abs=4 * standard_error)
+    assert result.total.p5 == pytest.approx(low) and result.total.p95 == pytest.approx(30.0)
+    # a factor id in a unit that cannot stand in for the project's own is one line
+    bad = write(tmp_path / "bad.toml", '[parameters."electricity.sources.grid.factor"]\ndistribution = "discrete"\nvalues = ["electricity.grid.eu27_2018", "electricity.grid.ireland_2015"]\n')
+    assert_one_line_error(run_cli("uncertainty", path, "--distributions", bad, "--draws", "100"))
