@@ -23,6 +23,7 @@ References
 from __future__ import annotations
 
 import copy
+import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any
@@ -31,7 +32,7 @@ import numpy as np
 from pydantic import BaseModel
 
 from ..about import CAUTION, __version__
-from ..core.engine import build_stacked_matrices, solve_stacked_values
+from ..core.engine import build_matrices, build_stacked_matrices, datapackage, import_bw2calc, solve_stacked_values
 from ..core.inputs import DrawInputs, NumericInputs
 from ..core.inventory import build_inventory, check_physical_limits
 from ..core.scoring import (
@@ -47,6 +48,7 @@ from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
 from ..model.project import BOUNDARIES, field_limits, parameter_field
 from ..model.rulebooks import select_schemes
+from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
 from ..routes.base import NON_GHG_FLOWS
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
@@ -240,8 +242,6 @@ def _factor_draws(plan: Plan, draws: Draws) -> dict[str, np.ndarray]:
     factors = dict(draws.factors)
     for path, (nominal_id, chosen) in draws.factor_choices.items():
         nominal = plan.factor_set.get(nominal_id)
-        from ..model.units import UnitMismatch, conversion_factor
-
         values = np.empty(len(chosen))
         for choice in set(chosen):
             row = plan.factor_set.get(choice)
@@ -637,8 +637,6 @@ def bw2calc_entries(plan: Plan):
     an entry that doubles is proportional to that factor. A factor that enters an entry in any
     other way, or two factors in one entry, cannot be written as an entry distribution.
     """
-    from ..core.engine import build_matrices, import_bw2calc
-
     if plan.uncertainty.parameters or plan.uncertainty.correlations:
         raise InputError(plan.source, "uncertainty", "distributions on factors only, without correlations, for the bw2calc cross-check")
     params = params_with_draws(plan, {})
@@ -683,10 +681,6 @@ def bw2calc_entries(plan: Plan):
 def monte_carlo_with_bw2calc(plan: Plan, draws: int, seed: int = DEFAULT_SEED) -> np.ndarray:
     """The total of ``draws`` draws from bw2calc's own Monte Carlo (stats_arrays sampling of the
     datapackage's distributions, ``next(lca)`` per draw): the reference for the stacked draws."""
-    import warnings
-
-    from ..core.engine import datapackage, import_bw2calc
-
     inventory, matrices, headline, distributions = bw2calc_entries(plan)
     bw2calc, _ = import_bw2calc()
     column = {key: number for number, key in enumerate(matrices.activity_keys)}

@@ -8,7 +8,7 @@ from ..analyses.sensitivity import Sensitivity
 from ..errors import InputError
 from .files import atomic_write
 from .tables import display_number
-from .uncertainty_output import rows_to_csv
+from .uncertainty_output import console_for_text, rows_to_csv
 
 CHART_FORMATS = ("png", "svg")
 
@@ -29,8 +29,6 @@ def sensitivity_csv(result: Sensitivity) -> str:
 
 def sensitivity_table(result: Sensitivity) -> str:
     from rich.table import Table
-
-    from .uncertainty_output import console_for_text
 
     console = console_for_text()
     limit = f"; limit {display_number(result.limit)} {result.unit}" if result.limit is not None else ""
