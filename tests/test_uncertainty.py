@@ -296,3 +296,14 @@ weights = [0.7, 0.3]
     # a factor id in a unit that cannot stand in for the project's own is one line
     bad = write(tmp_path / "bad.toml", '[parameters."electricity.sources.grid.factor"]\ndistribution = "discrete"\nvalues = ["electricity.grid.eu27_2018", "electricity.grid.ireland_2015"]\n')
     assert_one_line_error(run_cli("uncertainty", path, "--distributions", bad, "--draws", "100"))
+
+
+def test_chart_of_the_draws_marks_every_threshold(tmp_path):
+    chart = tmp_path / "draws.svg"
+    arguments = ("uncertainty", DEMO / "blue_atr_ammonia.toml", "--distributions", DEMO / "uncertainty" / "blue_atr_ammonia.toml", "--draws", "500", "--format", "json")
+    result = run_cli(*arguments, "--chart", chart)
+    assert result.exit_code == 0, result.output
+    text = chart.read_text()
+    assert "28.200" in text and "0.45" in text  # the EU limit and the tightest 45V tier (factors/schemes)
+    assert_one_line_error(run_cli(*arguments, "--chart", chart))  # exists: not overwritten without --force
+    assert_one_line_error(run_cli(*arguments, "--chart", tmp_path / "draws.pdf"))

@@ -29,7 +29,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
-from pydantic import BaseModel
+from pydantic import BaseModel, PrivateAttr
 
 from ..about import CAUTION, __version__
 from ..core.engine import build_matrices, build_stacked_matrices, datapackage, import_bw2calc, solve_stacked_values
@@ -495,9 +495,14 @@ class UncertaintyResult(BaseModel):
     by_stage: dict[str, Summary]
     by_gas: dict[str, Summary]
     checks: list[CheckProbability]
+    _scheme_draws: dict = PrivateAttr(default_factory=dict)  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
 
     def to_json(self) -> str:
         return self.model_dump_json(indent=2)
+
+    def scheme_draws(self) -> dict:
+        """Each scheme's value in every draw used, and its thresholds: scheme id -> (array, [(tier, limit)])."""
+        return self._scheme_draws
 
 
 def summary(values: np.ndarray) -> Summary:
@@ -560,7 +565,7 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
     inputs = [InputDistribution(input=f"parameter {p}", distribution=d.model_dump()) for p, d in uncertainty.parameters.items()]
     inputs += [InputDistribution(input=f"factor {f}", distribution=d.model_dump()) for f, d in uncertainty.factors.items()]
     params = plan.project.model_dump()
-    return UncertaintyResult(
+    result = UncertaintyResult(
         carbonledger_version=__version__,
         caution=CAUTION,
         project=params["project"]["name"],
@@ -584,6 +589,8 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
         by_gas={key: summary(value[used]) for key, value in outcome.by_gas.items()},
         checks=checks,
     )
+    result._scheme_draws = {scheme.id: (np.asarray(outcome.scheme_values[scheme.id][used], dtype=float), [(t.tier, t.limit) for t in scheme.thresholds]) for scheme in outcome.schemes}
+    return result
 
 
 def monte_carlo(

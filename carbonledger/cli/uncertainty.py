@@ -23,6 +23,7 @@ from ..io.uncertainty_output import (
     portfolio_uncertainty_table,
     uncertainty_csv,
     uncertainty_table,
+    write_uncertainty_chart,
 )
 from .options import (
     BoundaryOption,
@@ -77,10 +78,16 @@ def uncertainty(
     boundary: BoundaryOption = None,
     workers: WorkersOption = None,
     scheduler: SchedulerOption = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="One project: write a histogram of each scheme's value with its thresholds, FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
     try:
+        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+        if chart is not None and chart.exists() and not force:
+            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
         options = {
             "distributions": distributions,
             "draws": draws,
@@ -96,7 +103,11 @@ def uncertainty(
             with progress_bar(draws, "Monte Carlo draws", output_format) as advance:
                 result = api.uncertainty(project[0], overrides=set_, progress=advance, **options)
             text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
+            if chart is not None:
+                write_uncertainty_chart(result, chart, force=force)
         else:
+            if chart is not None:
+                raise InputError(chart, "--chart", "one project (a chart is drawn for one project's draws)")
             if set_:
                 raise InputError("--set", set_[0], "no --set with several projects (set values in each project file)")
             results = api.uncertainty_many(project, workers=workers, scheduler=scheduler, **options)
@@ -104,6 +115,8 @@ def uncertainty(
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)
 
 
 def headroom(

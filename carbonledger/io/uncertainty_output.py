@@ -8,7 +8,11 @@ import json
 
 from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
+from ..errors import InputError
+from .files import atomic_write
 from .tables import INTENSITY_UNITS, display_number
+
+CHART_FORMATS = ("png", "svg")
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
 
@@ -205,3 +209,47 @@ def portfolio_uncertainty_table(results: list[UncertaintyResult]) -> str:
     console.print(table)
     console.print(f"Caution: {first.caution} Probabilities hold only for the distributions given.")
     return console.export_text()
+
+
+def uncertainty_figure(result: UncertaintyResult):
+    """One histogram per scheme of its value over the draws used, each threshold a dashed line."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    draws = result.scheme_draws()
+    checks = [check for check in result.checks if check.scheme in draws]
+    count = max(1, len(checks))
+    figure, axes = plt.subplots(count, 1, figsize=(9, 2.6 * count + 1.0), layout="constrained", squeeze=False)
+    for axis, check in zip(axes[:, 0], checks, strict=False):
+        values, thresholds = draws[check.scheme]
+        axis.hist(values, bins=60, color="#4c72b0", alpha=0.85)
+        for tier, limit in thresholds:
+            axis.axvline(limit, color="black", linestyle="--", linewidth=0.9)
+            axis.annotate(f"{tier}: {display_number(limit)}", (limit, 0.97), xycoords=("data", "axes fraction"), rotation=90, ha="right", va="top", fontsize=6.5)
+        axis.set_title(f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})", fontsize=9)
+        axis.set_xlabel(check.unit, fontsize=8)
+        axis.set_ylabel("draws", fontsize=8)
+    figure.suptitle(f"{result.project}\n{result.draws_used:,} draws (seed {result.seed}), each scheme on its own rulebook", fontsize=9)
+    figure.supxlabel(
+        "Dashed lines: scheme thresholds. Screening estimate, not a certification: the scheme's official methodology, an accredited verifier and local regulation take precedence.", fontsize=6
+    )
+    return figure
+
+
+def write_uncertainty_chart(result: UncertaintyResult, path, force: bool = False):
+    """Write the histograms as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
+    from pathlib import Path
+
+    path = Path(path)
+    kind = path.suffix.lower().lstrip(".")
+    if kind not in CHART_FORMATS:
+        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
+    figure = uncertainty_figure(result)
+    import matplotlib.pyplot as plt
+
+    try:
+        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
+    finally:
+        plt.close(figure)
