@@ -9,15 +9,21 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from .analyses.cluster import dask_mapper
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
+from .analyses.headroom import Headroom
+from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, eligible_sources, match, matched_checks, scheme_granularity, source_kinds
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
-from .analyses.portfolio import Recalc, load_portfolio
+from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
+from .analyses.sensitivity import Sensitivity
+from .analyses.sensitivity import sensitivity as sensitivity_of
+from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
@@ -28,8 +34,9 @@ from .io.workbook.reader import (
     load_project_from_workbook,
 )
 from .io.workbook.writer import build_workbook
+from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from .model.project import boundary_id
+from .model.project import boundary_id, read_project_file
 from .routes.project import load_project
 
 __all__ = [
@@ -44,6 +51,11 @@ __all__ = [
     "load_project",
     "load_factor_set",
     "load_any_project",
+    "uncertainty",
+    "load_uncertainty",
+    "headroom",
+    "sensitivity",
+    "uncertainty_many",
 ]
 
 
@@ -197,9 +209,26 @@ def audit_workbook(
     return workbook, engine
 
 
-def recalc(paths: list[str | Path], old_factors: str | Path | FactorSet, new_factors: str | Path | FactorSet, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None) -> Recalc:
-    """Rescore a portfolio (files or folders of project files) under a new factor set."""
-    return recalc_portfolio(load_portfolio(paths), _factor_set(old_factors), _factor_set(new_factors), gwp=gwp, schemes=schemes)
+def recalc(
+    paths: list[str | Path],
+    old_factors: str | Path | FactorSet,
+    new_factors: str | Path | FactorSet,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    workers: int | None = None,
+    scheduler: str | None = None,
+) -> Recalc:
+    """Rescore a portfolio (files or folders of project files) under a new factor set.
+
+    workers : score on a local Dask cluster of this many worker processes.
+    scheduler : score on an existing Dask scheduler at this address instead.
+    The results are the same as in one process.
+    """
+    projects = load_portfolio(paths)
+    old_set, new_set = _factor_set(old_factors), _factor_set(new_factors)
+    with dask_mapper(workers, scheduler) as (mapper, chunks):
+        return recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, mapper=mapper, chunks=chunks)
 
 
 def lifetime(
@@ -291,3 +320,114 @@ def matching_chart(
     label = granularity if isinstance(granularity, str) else "dated rule"
     title = f"{project.project.name}: {rulebook.id}, matching by {label}, {result.matched_share:.1%} matched"
     return write_matching_chart(series.local, load, result.matched_interval_kwh, title, path, force=force)
+
+
+def load_uncertainty(project_file: str | Path, distributions: str | Path | None = None) -> Uncertainty:
+    """The distributions of a run: the project's ``[uncertainty]`` table with a distributions file laid over it."""
+    data, _ = read_project_file(project_file)
+    table = data.get("uncertainty")
+    found = parse_uncertainty(table, str(project_file)) if isinstance(table, dict) else Uncertainty()
+    if table is not None and not isinstance(table, dict):
+        raise InputError(project_file, "uncertainty", "a table of distributions")
+    if distributions is not None:
+        found = found.merged(read_distributions_file(distributions))
+    if not found.parameters and not found.factors:
+        raise InputError(project_file, "uncertainty", "at least one distribution (an [uncertainty] table in the project, or --distributions FILE)")
+    return found
+
+
+def uncertainty(
+    project_file: str | Path,
+    *,
+    distributions: str | Path | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    progress=None,
+) -> UncertaintyResult:
+    """Monte Carlo of a project: mean, spread and percentiles of every figure, probability of each verdict.
+
+    distributions : a distributions TOML laid over the project's own ``[uncertainty]`` table.
+    draws, seed : number of draws and the seed (the same seed gives the same numbers).
+    sampling : 'random' or 'latin_hypercube'; default the distributions' own (random).
+    progress : optional callable(number of draws done) for a progress bar.
+    """
+    found = load_uncertainty(project_file, distributions)
+    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
+    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress)
+
+
+def headroom(
+    project_file: str | Path,
+    parameters: list[str],
+    scheme: str,
+    *,
+    tier: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> list[Headroom]:
+    """For each parameter path, the value at which the scheme's limit (or ``tier``) is met exactly,
+    or None with the reason (root finding within the parameter's physical range, verified by scoring)."""
+    if not parameters:
+        raise InputError("headroom", "--parameter", "at least one parameter path")
+    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
+    factor_set = _factor_set(factors)
+    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp) for path in parameters]
+
+
+def sensitivity(
+    project_file: str | Path,
+    *,
+    distributions: str | Path | None = None,
+    scheme: str | None = None,
+    base_sample: int = 1024,
+    seed: int = DEFAULT_SEED,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> Sensitivity:
+    """Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total,
+    or of ``scheme``'s value, over the project's uncertain inputs."""
+    found = load_uncertainty(project_file, distributions)
+    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
+    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp)
+
+
+def uncertainty_one(task: tuple) -> UncertaintyResult:
+    """One project's Monte Carlo from plain arguments (what a Dask worker runs)."""
+    path, options = task
+    return uncertainty(path, **options)
+
+
+def uncertainty_many(
+    paths: list[str | Path],
+    *,
+    distributions: str | Path | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    boundary: str | None = None,
+    workers: int | None = None,
+    scheduler: str | None = None,
+) -> list[UncertaintyResult]:
+    """Monte Carlo of every project of a portfolio (files or folders), each with its own
+    ``[uncertainty]`` table (and ``distributions`` laid over it) and the same seed; on a Dask
+    cluster with ``workers`` or ``scheduler``, with the same numbers as in one process."""
+    files = project_files(paths)
+    options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling, "factors": factors, "gwp": gwp, "schemes": schemes, "boundary": boundary}
+    for path in files:  # every bad input is found before any work starts
+        load_uncertainty(path, distributions)
+    tasks = [(str(path), options) for path in files]
+    with dask_mapper(workers, scheduler) as (mapper, _):
+        return list((mapper or map)(uncertainty_one, tasks))

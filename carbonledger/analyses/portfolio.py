@@ -77,8 +77,14 @@ def score_portfolio(
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
     check_with_bw2calc: bool = True,
+    mapper=None,
+    chunks: int = 1,
 ) -> list[ScoreResult]:
     """Score many validated projects under one factor set, solving shared structures together.
+
+    ``mapper`` (a ``map``-like callable, e.g. ``analyses.cluster.dask_mapper``'s) spreads the
+    portfolio over workers in ``chunks`` pieces, each scored as here; the results come back in
+    project order and are the same numbers (each system is solved on its own in the stacked solve).
 
     ``factor_set`` may also be a list with one set per project (e.g. one per operating year).
     ``schemes`` limits the checks to those ids (each project keeps the ones that apply to its
@@ -87,6 +93,10 @@ def score_portfolio(
     known = rulebooks()
     schemes = scheme_ids(schemes, known) or None
     sets = factor_set if isinstance(factor_set, list) else [factor_set] * len(projects)
+    if mapper is not None and len(projects) > 1:
+        size = -(-len(projects) // chunks)
+        pieces = [(projects[n : n + size], sets[n : n + size], gwp, schemes, check_with_bw2calc) for n in range(0, len(projects), size)]
+        return [result for part in mapper(score_chunk, pieces) for result in part]
     prepared = []
     for item, one_set in zip(projects, sets, strict=True):
         ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256)
@@ -94,6 +104,12 @@ def score_portfolio(
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
         prepared.append(ready)
     return score_many(prepared, check_with_bw2calc)
+
+
+def score_chunk(piece: tuple) -> list[ScoreResult]:
+    """One worker's share of ``score_portfolio``: (projects, factor sets, gwp, schemes, check)."""
+    projects, sets, gwp, schemes, check = piece
+    return score_portfolio(projects, list(sets), gwp=gwp, schemes=schemes, check_with_bw2calc=check)
 
 
 @dataclass
@@ -156,16 +172,20 @@ def recalc(
     *,
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
+    mapper=None,
+    chunks: int = 1,
 ) -> Recalc:
     """Rescore a portfolio under a new factor set; one row per project and scheme.
 
     Rows come newly failing first, then newly passing, then the rest in project order.
+    ``mapper`` and ``chunks`` spread the scoring over workers (see ``score_portfolio``).
     """
-    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes)
+    spread = {"mapper": mapper, "chunks": chunks}
+    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes, **spread)
     changed = sorted({change.id for change in diff_sets(old_set, new_set)})
     changed_ids = set(changed)
     to_rescore = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
-    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes) if to_rescore else []
+    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes, **spread) if to_rescore else []
     new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
     new_scores = [score.model_copy(update={"factor_set": new_ref}) for score in old_scores]
     for number, score in zip(to_rescore, rescored, strict=True):

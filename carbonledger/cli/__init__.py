@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, plan, project_commands, recalc, workbook
+from . import compare, factors, plan, project_commands, recalc, uncertainty, workbook
 
 app = typer.Typer(
     add_completion=False,
@@ -45,6 +45,9 @@ app.command()(recalc.recalc)
 app.command()(recalc.history)
 app.command()(plan.plan)
 app.command()(project_commands.schemes)
+app.command()(uncertainty.uncertainty)
+app.command()(uncertainty.headroom)
+app.command()(uncertainty.sensitivity)
 app.command()(project_commands.init)
 factors_app.command("list")(factors.factors_list)
 factors_app.command("show")(factors.factors_show)

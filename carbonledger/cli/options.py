@@ -26,6 +26,8 @@ FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, jso
 LedgerOption = Annotated[Optional[Path], typer.Option("--ledger", help="Run ledger (SQLite) to record in; default $CARBONLEDGER_LEDGER or the user's data folder.")]
 NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
 BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
+WorkersOption = Annotated[Optional[int], typer.Option("--workers", help="Run on a local Dask cluster of N worker processes.")]
+SchedulerOption = Annotated[Optional[str], typer.Option("--scheduler", help="Run on an existing Dask scheduler at this address (tcp://HOST:PORT).")]
 ForceOption = Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")]
 
 

@@ -100,22 +100,30 @@ def import_bw2calc():
     return bw2calc, bw_processing
 
 
-def datapackage(matrices: Matrices, characterisation: np.ndarray):
-    """An in-memory bw_processing datapackage of A, B and a diagonal characterisation matrix."""
+def datapackage(matrices: Matrices, characterisation: np.ndarray, distributions: dict | None = None):
+    """An in-memory bw_processing datapackage of A, B and a diagonal characterisation matrix.
+
+    ``distributions`` (optional) gives, for "technosphere", "biosphere" and "characterization",
+    a bw_processing ``UNCERTAINTY_DTYPE`` array (stats_arrays uncertainty types) per entry, which
+    bw2calc samples with ``use_distributions=True``.
+    """
     _, bwp = import_bw2calc()
     package = bwp.create_datapackage()
+    distributions = distributions or {}
     package.add_persistent_vector(
         matrix="technosphere_matrix",
         name="technosphere",
         indices_array=matrices.technosphere_indices,
         data_array=matrices.technosphere_values,
         flip_array=matrices.technosphere_flip,
+        distributions_array=distributions.get("technosphere"),
     )
     package.add_persistent_vector(
         matrix="biosphere_matrix",
         name="biosphere",
         indices_array=matrices.biosphere_indices,
         data_array=matrices.biosphere_values,
+        distributions_array=distributions.get("biosphere"),
     )
     flow_ids = [FLOW_ID_OFFSET + number for number in range(len(matrices.flow_keys))]
     package.add_persistent_vector(
@@ -123,6 +131,7 @@ def datapackage(matrices: Matrices, characterisation: np.ndarray):
         name="characterization",
         indices_array=np.array([(i, i) for i in flow_ids], dtype=INDICES_DTYPE),
         data_array=np.asarray(characterisation, dtype=float),
+        distributions_array=distributions.get("characterization"),
     )
     return package
 
@@ -170,38 +179,98 @@ def structure_key(matrices: Matrices, demands: list[str]) -> tuple:
     )
 
 
-def solve_many(systems: list[Matrices], demands: list[str]) -> list[dict[str, Solution]]:
-    """Solve many systems of one structure (same ``structure_key``) at once.
+def build_stacked_matrices(inventory, count: int) -> Matrices:
+    """Matrices of ``count`` systems of one structure whose exchange amounts are arrays of draws.
 
-    The coordinates are taken from the first system and the values of all systems are stacked,
-    so A is assembled once as an (n, k, k) array and ``numpy.linalg.solve`` factorises every
-    system in one call; the supply s = A^-1 f and inventory g = B diag(s) are as in ``solve``.
-    bw2calc stays the reference: ``solve`` on any one system gives the same numbers, which the
-    callers check on one member of every group and the tests check on all of them.
+    Every exchange amount (a float, or a numpy array of ``count`` draws built by the same stage
+    code) is broadcast to ``count`` values; ``technosphere_values`` and ``biosphere_values`` are
+    then (count, exchanges) arrays with the coordinates of ``build_matrices``.
+    """
+    activity_keys = list(inventory.activities)
+    column = {key: number for number, key in enumerate(activity_keys)}
+    flow_keys = list(FLOWS)
+    flow_row = {key: FLOW_ID_OFFSET + number for number, key in enumerate(flow_keys)}
+    tech_rows, tech_values, tech_flip, bio_rows, bio_values = [], [], [], [], []
+    ones = np.ones(count)
+    for key, activity in inventory.activities.items():
+        col = column[key]
+        tech_rows.append((col, col))
+        tech_values.append(ones)
+        tech_flip.append(False)
+        for exchange in activity.exchanges:
+            amount = np.broadcast_to(np.asarray(exchange.amount, dtype=float), (count,))
+            if exchange.kind == "technosphere":
+                tech_rows.append((column[exchange.input], col))
+                tech_values.append(amount)
+                tech_flip.append(True)
+            else:
+                bio_rows.append((flow_row[exchange.input], col))
+                bio_values.append(amount)
+    return Matrices(
+        activity_keys=activity_keys,
+        flow_keys=flow_keys,
+        technosphere_indices=np.array(tech_rows, dtype=INDICES_DTYPE),
+        technosphere_values=np.stack(tech_values, axis=1),
+        technosphere_flip=np.array(tech_flip, dtype=bool),
+        biosphere_indices=np.array(bio_rows, dtype=INDICES_DTYPE),
+        biosphere_values=np.stack(bio_values, axis=1) if bio_values else np.zeros((count, 0)),
+    )
+
+
+def _scatter(values: np.ndarray, rows: np.ndarray, cols: np.ndarray, height: int, width: int) -> np.ndarray:
+    """(n, height, width) dense matrices from (n, entries) values at (row, col); repeated coordinates add up."""
+    count = values.shape[0]
+    if values.shape[1] == 0:
+        return np.zeros((count, height, width))
+    flat = (np.arange(count)[:, None] * (height * width) + (np.asarray(rows, dtype=np.int64) * width + np.asarray(cols, dtype=np.int64))[None, :]).ravel()
+    return np.bincount(flat, weights=values.ravel(), minlength=count * height * width).reshape(count, height, width)
+
+
+def solve_stacked_values(stacked: Matrices, demands: list[str]) -> tuple[np.ndarray, np.ndarray]:
+    """Solve stacked systems (values (n, exchanges), as ``build_stacked_matrices`` gives).
+
+    A is assembled as an (n, k, k) array and ``numpy.linalg.solve`` factorises every system in
+    one call. Returns the supply s = A^-1 f, (n, k, demands), and B, (n, flows, k); the
+    inventory of demand d is B * s[:, None, :, d].
 
     References
     ----------
     .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
     """
-    first = systems[0]
-    count, size = len(systems), len(first.activity_keys)
-    column = {key: number for number, key in enumerate(first.activity_keys)}
-    signs = np.where(first.technosphere_flip, -1.0, 1.0)
-    technosphere = np.zeros((count, size, size))
-    batch = np.arange(count)[:, None]
-    values = np.stack([system.technosphere_values for system in systems]) * signs
-    np.add.at(technosphere, (batch, first.technosphere_indices["row"][None, :], first.technosphere_indices["col"][None, :]), values)
-    biosphere = np.zeros((count, len(first.flow_keys), size))
-    if len(first.biosphere_indices):
-        bio_values = np.stack([system.biosphere_values for system in systems])
-        rows = first.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
-        np.add.at(biosphere, (batch, rows[None, :], first.biosphere_indices["col"][None, :]), bio_values)
+    values = stacked.technosphere_values
+    count, size = values.shape[0], len(stacked.activity_keys)
+    column = {key: number for number, key in enumerate(stacked.activity_keys)}
+    signs = np.where(stacked.technosphere_flip, -1.0, 1.0)
+    technosphere = _scatter(values * signs, stacked.technosphere_indices["row"], stacked.technosphere_indices["col"], size, size)
+    rows = stacked.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
+    biosphere = _scatter(stacked.biosphere_values, rows, stacked.biosphere_indices["col"], len(stacked.flow_keys), size)
     demand_vectors = np.zeros((count, size, len(demands)))
     for number, demand in enumerate(demands):
         demand_vectors[:, column[demand], number] = 1.0
-    supply = np.linalg.solve(technosphere, demand_vectors)  # (n, k, demands)
+    return np.linalg.solve(technosphere, demand_vectors), biosphere
+
+
+def solve_many(systems: list[Matrices], demands: list[str]) -> list[dict[str, Solution]]:
+    """Solve many systems of one structure (same ``structure_key``) at once.
+
+    The coordinates are taken from the first system and the values of all systems are stacked
+    (``solve_stacked_values``); the supply s = A^-1 f and inventory g = B diag(s) are as in
+    ``solve``. bw2calc stays the reference: ``solve`` on any one system gives the same numbers,
+    which the callers check on one member of every group and the tests check on all of them.
+    """
+    first = systems[0]
+    stacked = Matrices(
+        first.activity_keys,
+        first.flow_keys,
+        first.technosphere_indices,
+        np.stack([system.technosphere_values for system in systems]),
+        first.technosphere_flip,
+        first.biosphere_indices,
+        np.stack([system.biosphere_values for system in systems]) if len(first.biosphere_indices) else np.zeros((len(systems), 0)),
+    )
+    supply, biosphere = solve_stacked_values(stacked, demands)
     results = []
-    for index in range(count):
+    for index in range(len(systems)):
         results.append(
             {
                 demand: Solution(

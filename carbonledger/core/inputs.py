@@ -83,3 +83,23 @@ class NumericInputs:
     def formation_enthalpy_ammonia(self):
         """kJ/mol, NH3(g) at 298.15 K, from the chemicals library."""
         return self._reference(ammonia_formation_enthalpy())
+
+
+class DrawInputs(NumericInputs):
+    """Factor values as numbers, except the uncertain ones: arrays of Monte Carlo draws.
+
+    ``draws`` maps a factor id to its draws in the factor's own unit (as its row states it); the
+    route modules receive them converted to the unit they ask for, like any other factor, so the
+    same stage code builds every draw at once.
+    """
+
+    def __init__(self, factor_set: FactorSet, draws: dict, source: str = "project"):
+        super().__init__(factor_set, source)
+        self.draws = draws
+
+    def factor(self, factor_id: str, unit: str, where: str = "factor"):
+        value = super().factor(factor_id, unit, where)
+        if factor_id not in self.draws:
+            return value
+        row = self.factor_set.get(factor_id, where)
+        return self.draws[factor_id] * (value / row.value if row.value else conversion_factor(row.unit, unit))

@@ -76,7 +76,9 @@ def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
             gas = flow.split("_")[0]
             factor_id = f"gwp.{gwp}.{gas}" if gas == "co2" else f"gwp.{gwp}.{flow}"
             values.append(inputs.factor(factor_id, f"kg CO2e/kg {gas.upper()}"))
-    return np.array(values)
+    if any(isinstance(v, np.ndarray) and v.ndim for v in values):  # Monte Carlo draws of a GWP factor: (flows, draws)
+        return np.stack(np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in values)))
+    return np.array(values)  # numbers, or the workbook's symbolic cells
 
 
 def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:

@@ -283,3 +283,41 @@ def parameter_table(project: BaseModel) -> list[tuple[str, Any, str, str]]:
 
     walk(project, "")
     return rows
+
+
+def parameter_field(project: BaseModel, path: str, source: str, where: str = "") -> tuple[Any, Any]:
+    """The value of one parameter path of a validated project and its pydantic field (limits, unit).
+
+    A path is as ``carbonledger params`` lists it (``electricity.sources.grid.share``); one that
+    does not exist, or names a section, is refused with one InputError line.
+    """
+    node: Any = project
+    info = None
+    for part in path.split("."):
+        if isinstance(node, BaseModel) and part in type(node).model_fields:
+            info = type(node).model_fields[part]
+            node = getattr(node, part)
+        elif isinstance(node, dict) and part in node:
+            node = node[part]
+        else:
+            node = None
+            break
+    if node is None or info is None or isinstance(node, (BaseModel, dict)):
+        raise InputError(source, where or path, f"a parameter path that `carbonledger params` lists, got '{path}'")
+    return node, info
+
+
+def field_limits(info) -> tuple[float | None, bool, float | None, bool]:
+    """(lower, lower included, upper, upper included) of a pydantic number field (None: unbounded)."""
+    lower = upper = None
+    lower_in = upper_in = True
+    for item in getattr(info, "metadata", []):
+        if getattr(item, "ge", None) is not None:
+            lower, lower_in = float(item.ge), True
+        if getattr(item, "gt", None) is not None:
+            lower, lower_in = float(item.gt), False
+        if getattr(item, "le", None) is not None:
+            upper, upper_in = float(item.le), True
+        if getattr(item, "lt", None) is not None:
+            upper, upper_in = float(item.lt), False
+    return lower, lower_in, upper, upper_in

@@ -98,7 +98,10 @@ class Route:
     the route is part of this project. ``build``: (params, inputs, chain) -> list of activities;
     a delivery leg also moves ``chain.reference`` to its own activity.
     ``check_limits``: (params, inputs, source) -> None, raises ``InputError``. ``validate``:
-    (project) -> None, raises ``SectionError`` for rules across sections. ``metered``: parameter
+    (project) -> None, raises ``SectionError`` for rules across sections. ``draw_limits``:
+    (params, inputs) -> [(field, expected, ok)], the numeric limits of ``check_limits`` as
+    arithmetic, where ``ok`` is a bool or a bool array over Monte Carlo draws (a route whose
+    limits compare numbers declares it, so that draws are checked without a loop). ``metered``: parameter
     paths scaled by metered electricity and natural gas in operating periods (a callable of the
     params, since some depend on text options). ``ageing``: the parameter path that stack ageing
     raises over a lifetime. ``starter``: (product) -> the sections of a starter project file
@@ -115,6 +118,7 @@ class Route:
     optional_sections: dict[str, type] = field(default_factory=dict)
     validate: Callable[[Any], None] = _nothing
     check_limits: Callable[..., None] = _nothing
+    draw_limits: Callable[..., list] | None = None
     uses_natural_gas: Callable[[Any], bool] = _never
     metered: Callable[[dict], dict[str, list[str]]] = lambda params: {}
     ageing: str = ""

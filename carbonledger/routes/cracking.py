@@ -76,6 +76,15 @@ def check_limits(params: dict, inputs, source: str) -> None:
         )
 
 
+def draw_limits(params: dict, inputs) -> list:
+    """The heat balance of ``check_limits`` on numbers or arrays of draws."""
+    c = params["cracking"]
+    if params["project"]["boundary"] == "cradle-to-gate":
+        return []
+    burnt = cracking_figures(c, inputs)["hydrogen_burnt_per_kg_h2_cracked"]
+    return [("cracking.hydrogen_recovery_fraction", "a recovery above the hydrogen burnt for heat", c["hydrogen_recovery_fraction"] > burnt)]
+
+
 def validate(project) -> None:
     crack = project.cracking
     if crack is None:
@@ -99,6 +108,7 @@ ROUTE = Route(
     optional_sections={"cracking": Cracking},
     validate=validate,
     check_limits=check_limits,
+    draw_limits=draw_limits,
     uses_natural_gas=uses_natural_gas,
     description="Ammonia cracked back to hydrogen at the destination",
 )

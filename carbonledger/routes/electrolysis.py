@@ -52,6 +52,18 @@ def check_limits(params: dict, inputs, source: str) -> None:
         raise InputError(source, "electrolysis.water_litres_per_kg_h2", f"0 (not counted) or at least {least_water:.2f} L/kg H2 (stoichiometric water), got {water:g}")
 
 
+def draw_limits(params: dict, inputs) -> list:
+    """The energy and water floors of ``check_limits`` on numbers or arrays of draws."""
+    e = params["electrolysis"]
+    floor = electrolysis.energy_floor_kwh_per_kg_h2(e["technology"], inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"))
+    least_water = electrolysis.stoichiometric_water_kg_per_kg_h2(inputs.molar_mass("H2O"), inputs.molar_mass("H2"))
+    water = e["water_litres_per_kg_h2"]
+    return [
+        ("electrolysis.electricity_kwh_per_kg_h2", "electricity plus heat of at least the heating value of hydrogen", e["electricity_kwh_per_kg_h2"] + e["heat_kwh_per_kg_h2"] >= floor),
+        ("electrolysis.water_litres_per_kg_h2", "0 (not counted) or at least stoichiometric water", (water == 0) | (water >= least_water)),
+    ]
+
+
 def metered(params: dict) -> dict[str, list[str]]:
     e = params["electrolysis"]
     paths = {"natural_gas": [], "electricity": ["electrolysis.electricity_kwh_per_kg_h2", "electrolysis.water_treatment_kwh_per_m3"]}
@@ -91,6 +103,7 @@ ROUTE = Route(
     sections={"electrolysis": Electrolysis},
     validate=validate,
     check_limits=check_limits,
+    draw_limits=draw_limits,
     uses_natural_gas=uses_natural_gas,
     metered=metered,
     ageing="electrolysis.electricity_kwh_per_kg_h2",

@@ -98,6 +98,7 @@ def validate_project(data: dict, source: str):
 def load_project(path: str | Path, overrides: list[str] | None = None):
     """Read, override and validate a project file; return the model and the file's sha256."""
     data, raw = read_project_file(path)
+    data.pop("uncertainty", None)  # distributions of inputs: read by the uncertainty analysis, not part of the model
     parsed = [parse_override(text) for text in overrides or []]
     data = apply_overrides(data, parsed, str(path))
     return validate_project(data, str(path)), hashlib.sha256(raw).hexdigest()

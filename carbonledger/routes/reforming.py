@@ -77,6 +77,12 @@ def check_limits(params: dict, inputs, source: str) -> None:
         raise InputError(source, "reforming.natural_gas_gj_per_kg_h2", f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas:g}")
 
 
+def draw_limits(params: dict, inputs) -> list:
+    """The stoichiometric floor of ``check_limits`` on numbers or arrays of draws."""
+    floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
+    return [("reforming.natural_gas_gj_per_kg_h2", "at least the stoichiometric floor (1 mol CH4 per 4 mol H2)", params["reforming"]["natural_gas_gj_per_kg_h2"] >= floor)]
+
+
 def metered(params: dict) -> dict[str, list[str]]:
     paths = {"natural_gas": ["reforming.natural_gas_gj_per_kg_h2"], "electricity": ["reforming.electricity_kwh_per_kg_h2"]}
     if params.get("capture") is not None:
@@ -127,6 +133,7 @@ STEAM_METHANE_REFORMING = Route(
     sections={"reforming": Reforming},
     optional_sections={"capture": Capture},
     check_limits=check_limits,
+    draw_limits=draw_limits,
     uses_natural_gas=uses_natural_gas,
     metered=metered,
     starter=_starter(False, None),
@@ -143,6 +150,7 @@ AUTOTHERMAL_REFORMING = Route(
     sections={"reforming": Reforming, "capture": Capture},
     validate=_needs_capture,
     check_limits=check_limits,
+    draw_limits=draw_limits,
     uses_natural_gas=uses_natural_gas,
     metered=metered,
     starter=_starter(True, "process"),

@@ -119,6 +119,14 @@ def check_limits(params: dict, inputs, source: str) -> None:
         raise InputError(source, "shipping.tank_heat_ingress_kw", f"a heat ingress that leaves cargo to deliver (boil-off {figures['boil_off_t_per_voyage']:.0f} t of {ship['cargo_t_per_voyage']:g} t loaded)")
 
 
+def draw_limits(params: dict, inputs) -> list:
+    """The cargo balance of ``check_limits`` on numbers or arrays of draws (fuel names are text, checked once)."""
+    if params["project"]["boundary"] == "cradle-to-gate":
+        return []
+    figures = voyage_figures(params["shipping"], inputs)
+    return [("shipping.tank_heat_ingress_kw", "a heat ingress that leaves cargo to deliver", figures["cargo_delivered_t_per_voyage"] > 0)]
+
+
 def validate(project) -> None:
     ship = project.shipping
     if ship is None:
@@ -144,5 +152,6 @@ ROUTE = Route(
     optional_sections={"shipping": Shipping},
     validate=validate,
     check_limits=check_limits,
+    draw_limits=draw_limits,
     description="Ammonia shipped to the destination port (well-to-tank and well-to-wake)",
 )

@@ -1,0 +1,704 @@
+"""How sure is the verdict: Monte Carlo over the uncertain inputs of one project.
+
+The draws go through the same route and stage code as a score: the validated parameters hold
+numpy arrays of draws where a distribution is given, ``DrawInputs`` gives arrays for uncertain
+factors, ``build_inventory`` builds every draw at once, and the systems are solved stacked
+(``engine.solve_stacked_values``, one ``numpy.linalg.solve`` call per block of draws). Totals,
+stages, gases, intensities and scheme values are summed as ``core.scoring`` sums them.
+
+Physical limits are applied to every draw: a parameter outside its field's range, a factor draw
+of the opposite sign to its value, or a draw the route modules' own checks refuse is counted and
+reported, and left out of every statistic; no draw is clipped.
+
+References
+----------
+.. [1] Iman, R. L. and Conover, W. J. (1982). A distribution-free approach to inducing rank
+   correlation among input variables. Communications in Statistics B 11(3), 311-334.
+.. [2] McKay, M. D., Beckman, R. J. and Conover, W. J. (1979). A comparison of three methods
+   for selecting values of input variables in the analysis of output from a computer code.
+   Technometrics 21(2), 239-245 (Latin hypercube sampling).
+.. [3] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+"""
+
+from __future__ import annotations
+
+import copy
+import warnings
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+from pydantic import BaseModel, PrivateAttr
+
+from ..about import CAUTION, __version__
+from ..core.engine import build_matrices, build_stacked_matrices, datapackage, import_bw2calc, solve_stacked_values
+from ..core.inputs import DrawInputs, NumericInputs
+from ..core.inventory import build_inventory, check_physical_limits
+from ..core.scoring import (
+    DEFAULT_GWP,
+    FUNCTIONAL_UNITS,
+    characterisation,
+    intensities,
+    rulebooks,
+    zero_rated,
+)
+from ..errors import InputError
+from ..model.distributions import Uncertainty
+from ..model.factors import FactorSet
+from ..model.project import BOUNDARIES, field_limits, parameter_field
+from ..model.rulebooks import select_schemes
+from ..model.units import UnitMismatch, conversion_factor
+from ..routes import REGISTRY, STAGES
+from ..routes.base import NON_GHG_FLOWS
+from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
+
+DEFAULT_SEED = 20261202
+DEFAULT_DRAWS = 10_000
+BLOCK = 20_000  # draws solved per stacked call (bounds memory; progress advances per block)
+STATUSES = ("qualifies", "fails")  # the statuses a draw can have today; more can be added here
+
+
+# --- sampling -----------------------------------------------------------------------------
+
+
+def uniform_draws(count: int, dimensions: int, seed: int, sampling: str) -> np.ndarray:
+    """(count, dimensions) uniform draws in (0, 1): independent, or a Latin hypercube (scipy.stats.qmc)."""
+    rng = np.random.default_rng(seed)
+    if dimensions == 0:
+        return np.zeros((count, 0))
+    if sampling == "latin_hypercube":
+        from scipy.stats import qmc
+
+        u = qmc.LatinHypercube(d=dimensions, seed=rng).random(count)
+    else:
+        u = rng.random((count, dimensions))
+    return np.clip(u, 1e-12, 1 - 1e-12)  # the quantile functions of unbounded distributions need u strictly inside (0, 1)
+
+
+def rank_correlated(u: np.ndarray, target: np.ndarray, seed: int) -> np.ndarray:
+    """Rearrange each column of ``u`` so that the columns have the target rank correlation.
+
+    Iman and Conover (1982): van der Waerden scores with the target correlation (Cholesky
+    factors of the target and of the scores' own correlation) give the ranks each column takes.
+    The marginal values are kept as drawn (a Latin hypercube stays one).
+    """
+    from scipy.special import ndtri
+    from scipy.stats import rankdata
+
+    count, dimensions = u.shape
+    rng = np.random.default_rng([seed, 1])
+    base = ndtri(np.arange(1, count + 1) / (count + 1))
+    scores = np.column_stack([rng.permutation(base) for _ in range(dimensions)])
+    wanted = np.linalg.cholesky(target)
+    actual = np.linalg.cholesky(np.corrcoef(scores, rowvar=False))
+    correlated = scores @ np.linalg.inv(actual).T @ wanted.T
+    result = np.empty_like(u)
+    for column in range(dimensions):
+        ranks = rankdata(correlated[:, column], method="ordinal").astype(int) - 1
+        result[:, column] = np.sort(u[:, column])[ranks]
+    return result
+
+
+def correlation_matrix(uncertainty: Uncertainty, names: list[str], source: str) -> np.ndarray | None:
+    if not uncertainty.correlations:
+        return None
+    index = {name.split(" ", 1)[1]: number for number, name in enumerate(names)}
+    matrix = np.eye(len(names))
+    for number, pair in enumerate(uncertainty.correlations):
+        for name in pair.inputs:
+            if name not in index:
+                raise InputError(source, f"uncertainty.correlations.{number}.inputs", f"inputs that have a distribution, got '{name}'")
+        a, b = (index[name] for name in pair.inputs)
+        if a == b:
+            raise InputError(source, f"uncertainty.correlations.{number}.inputs", "two different inputs")
+        matrix[a, b] = matrix[b, a] = pair.rank
+    if np.linalg.eigvalsh(matrix).min() <= 0:
+        raise InputError(source, "uncertainty.correlations", "rank correlations that can hold together (a positive definite matrix)")
+    return matrix
+
+
+# --- the drawn inputs ----------------------------------------------------------------------
+
+
+@dataclass
+class Draws:
+    """The uncertain inputs of a run, drawn: numbers per input, and where each goes."""
+
+    names: list[str]  # "parameter PATH" / "factor ID"
+    uniform: np.ndarray  # (draws, inputs) in (0, 1)
+    parameters: dict[str, np.ndarray]  # path -> draws (numbers)
+    factor_choices: dict[str, tuple[str, np.ndarray]]  # parameter path of a factor id -> (nominal id, chosen id per draw)
+    factors: dict[str, np.ndarray]  # factor id -> draws in the factor's own unit
+
+
+@dataclass
+class Plan:
+    """A project ready for draws: validated model, factor set, distributions and options."""
+
+    project: Any
+    factor_set: FactorSet
+    uncertainty: Uncertainty
+    source: str = "project"
+    gwp: str = DEFAULT_GWP
+    schemes: list[str] | None = None
+    boundary: str | None = None
+    fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
+
+
+def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None) -> Plan:
+    """Check every distribution against the project and the factor set (one InputError line)."""
+    if boundary is not None and boundary not in BOUNDARIES:
+        raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+    fields = {}
+    for path, distribution in uncertainty.parameters.items():
+        where = f"uncertainty.parameters.{path}"
+        nominal, info = parameter_field(project, path, source, where)
+        if isinstance(nominal, str):
+            factor_ids = path.endswith("factor") or nominal in factor_set.factors
+            if distribution.distribution != "discrete" or distribution.numeric_values() or not factor_ids:
+                raise InputError(source, where, f"a numeric parameter, or a discrete choice of factor ids for a factor parameter; '{path}' is the text '{nominal}'")
+            for choice in distribution.values:
+                factor_set.get(choice, where)
+        elif isinstance(nominal, bool) or not isinstance(nominal, (int, float)):
+            raise InputError(source, where, f"a numeric parameter, got '{path}' = {nominal!r}")
+        elif not distribution.numeric_values():
+            raise InputError(source, where, "numbers as the values of a discrete distribution of a numeric parameter")
+        if path.startswith("electricity.sources.") and path.endswith(".share"):
+            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{name}.share" != path)
+            if not others > 0:
+                raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
+        fields[path] = (nominal, info)
+    for factor_id, distribution in uncertainty.factors.items():
+        where = f"uncertainty.factors.{factor_id}"
+        if factor_id not in factor_set.factors:
+            raise InputError(source, where, f"a factor id known to set '{factor_set.name}', got '{factor_id}'")
+        if not distribution.numeric_values():
+            raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
+    plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields)
+    correlation_matrix(uncertainty, uncertainty.names(), source)
+    return plan
+
+
+def draw(plan: Plan, count: int, seed: int = DEFAULT_SEED, sampling: str | None = None) -> Draws:
+    """Draw every uncertain input ``count`` times (reproducible with ``seed``)."""
+    uncertainty = plan.uncertainty
+    names = uncertainty.names()
+    u = uniform_draws(count, len(names), seed, sampling or uncertainty.sampling)
+    target = correlation_matrix(uncertainty, names, plan.source)
+    if target is not None:
+        u = rank_correlated(u, target, seed)
+    return draws_from_uniform(plan, u)
+
+
+def draws_from_uniform(plan: Plan, u: np.ndarray) -> Draws:
+    """The input values of given uniform draws (one column per input, in ``Uncertainty.names`` order)."""
+    uncertainty = plan.uncertainty
+    parameters, choices, factors = {}, {}, {}
+    distributions = list(uncertainty.parameters.items()) + list(uncertainty.factors.items())
+    for column, (name, distribution) in enumerate(distributions):
+        values = u[:, column]
+        if column < len(uncertainty.parameters):
+            nominal = plan.fields[name][0]
+            if isinstance(nominal, str):
+                choices[name] = (nominal, np.asarray(distribution.values, dtype=object)[distribution.index(values)])
+            else:
+                parameters[name] = distribution.quantile(values)
+        else:
+            factors[name] = distribution.quantile(values)
+    return Draws(uncertainty.names(), u, parameters, choices, factors)
+
+
+# --- evaluating draws ----------------------------------------------------------------------
+
+
+def _set(params: dict, path: str, value) -> None:
+    node = params
+    parts = path.split(".")
+    for part in parts[:-1]:
+        node = node[part]
+    node[parts[-1]] = value
+
+
+def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
+    """The project's parameters with draws in place; another source's share takes up the rest of a drawn share."""
+    params = copy.deepcopy(plan.project.model_dump())
+    if plan.boundary is not None:
+        params["project"]["boundary"] = plan.boundary
+    for path, values in parameters.items():
+        _set(params, path, values)
+        if path.startswith("electricity.sources.") and path.endswith(".share"):
+            name = path.split(".")[2]
+            sources = params["electricity"]["sources"]
+            nominal_share = plan.fields[path][0]
+            for other, item in sources.items():
+                if other != name:
+                    item["share"] = item["share"] * (1 - values) / (1 - nominal_share)
+    return params
+
+
+def _factor_draws(plan: Plan, draws: Draws) -> dict[str, np.ndarray]:
+    """Factor draws in each factor's own unit, with the chosen factor ids of factor parameters resolved."""
+    factors = dict(draws.factors)
+    for path, (nominal_id, chosen) in draws.factor_choices.items():
+        nominal = plan.factor_set.get(nominal_id)
+        values = np.empty(len(chosen))
+        for choice in set(chosen):
+            row = plan.factor_set.get(choice)
+            try:
+                scale = conversion_factor(row.unit, nominal.unit)
+            except UnitMismatch:
+                raise InputError(plan.source, f"uncertainty.parameters.{path}", f"factor ids in units convertible to {nominal.unit}, got '{choice}' in {row.unit}") from None
+            own = factors.get(choice)
+            values[chosen == choice] = (own[chosen == choice] if own is not None else row.value) * scale
+        factors[nominal_id] = values
+    return factors
+
+
+def limit_breaks(plan: Plan, draws: Draws, count: int) -> tuple[np.ndarray, list[dict]]:
+    """Which draws break a physical limit (bool mask) and, per reason, how many.
+
+    Field limits (a fraction above 1, a negative amount) and the sign of factors are checked on
+    arrays; the route modules' own checks (stoichiometric floors, energy balances) run per draw
+    on plain numbers, as they run for a score.
+    """
+    broken = np.zeros(count, dtype=bool)
+    reasons: list[dict] = []
+
+    def record(mask: np.ndarray, where: str, expected: str) -> None:
+        nonlocal broken
+        if mask.any():
+            reasons.append({"field": where, "expected": expected, "draws": int(mask.sum())})
+            broken = broken | mask
+
+    for path, values in draws.parameters.items():
+        lower, lower_in, upper, upper_in = field_limits(plan.fields[path][1])
+        if lower is not None:
+            record(values < lower if lower_in else values <= lower, path, f"{'>=' if lower_in else '>'} {lower:g}")
+        if upper is not None:
+            record(values > upper if upper_in else values >= upper, path, f"{'<=' if upper_in else '<'} {upper:g}")
+    for factor_id, values in draws.factors.items():
+        nominal = plan.factor_set.get(factor_id).value
+        record(np.sign(values) * np.sign(nominal) < 0, factor_id, f"the sign of the factor's value ({nominal:g})")
+    if draws.parameters or draws.factors or draws.factor_choices:
+        route_broken = _route_checks(plan, draws, count, ~broken)
+        for expected, mask in route_broken.items():
+            field_name, text = expected
+            record(mask, field_name, text)
+    return broken, reasons
+
+
+def _route_checks(plan: Plan, draws: Draws, count: int, candidates: np.ndarray) -> dict:
+    """The route modules' numeric limits (``Route.draw_limits``) on the arrays of draws.
+
+    Their text checks (fuel names, sections) do not change between draws and run once, on the
+    project's own values, before the draws are built.
+    """
+    params = params_with_draws(plan, draws.parameters)
+    inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
+    found: dict[tuple, np.ndarray] = {}
+    for route in REGISTRY:
+        owns = [name for name in {**route.sections, **route.optional_sections} if params.get(name) is not None]
+        if route.draw_limits is None or not (route.applies(params) or owns):
+            continue
+        for where, expected, ok in route.draw_limits(params, inputs):
+            broken = ~np.broadcast_to(np.asarray(ok, dtype=bool), (count,)) & candidates
+            if broken.any():
+                found[(where, expected)] = found.get((where, expected), np.zeros(count, dtype=bool)) | broken
+    return found
+
+
+@dataclass
+class Outcome:
+    """Every figure of every draw (arrays over the draws)."""
+
+    total: np.ndarray
+    intensity: dict[str, np.ndarray | None]
+    by_stage: dict[str, np.ndarray]
+    by_gas: dict[str, np.ndarray]
+    scheme_values: dict[str, np.ndarray]
+    schemes: list
+    unit: str
+    functional_unit: str
+    boundary: str
+    product: str
+
+
+def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
+    """Build the inventory once with arrays of draws and solve every draw stacked."""
+    params = params_with_draws(plan, draws.parameters)
+    inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
+    check_physical_limits(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source), plan.source)
+    inventory = build_inventory(params, inputs)
+    product = inventory.product
+    chosen = select_schemes(rulebooks(), plan.schemes, product)
+
+    def per_draw(vector: np.ndarray) -> np.ndarray:
+        return np.broadcast_to(vector.T if vector.ndim == 2 else vector, (count, len(vector)))
+
+    headline = per_draw(characterisation(inputs, plan.gwp))
+    per_gwp = {plan.gwp: headline}
+    for scheme in chosen:
+        if scheme.gwp not in per_gwp:
+            per_gwp[scheme.gwp] = per_draw(characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp"))
+    stacked = build_stacked_matrices(inventory, count)
+    demands = list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
+    supply, biosphere = solve_stacked_values(stacked, demands)
+    column = {demand: number for number, demand in enumerate(demands)}
+
+    def contributions(demand: str, gwp_vector: np.ndarray) -> np.ndarray:
+        """kg CO2e by draw, flow and activity."""
+        return gwp_vector[:, :, None] * biosphere * supply[:, None, :, column[demand]]
+
+    hydrogen_lhv = np.asarray(inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), dtype=float)
+    ammonia_lhv = np.asarray(inputs.factor("heating_value.ammonia.lhv", "MJ/kg"), dtype=float) if product == "ammonia" else float("nan")
+    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
+    main = contributions(inventory.reference, headline)
+    total = main.sum(axis=(1, 2))
+    keys = stacked.activity_keys
+    by_activity = main.sum(axis=1)
+    by_stage: dict[str, np.ndarray] = {}
+    for stage in STAGES:
+        members = [n for n, key in enumerate(keys) if inventory.activities[key].stage == stage]
+        if members:
+            by_stage[stage] = by_activity[:, members].sum(axis=1)
+    gases = main.sum(axis=2)
+    by_gas = {flow: gases[:, n] for n, flow in enumerate(stacked.flow_keys) if flow not in NON_GHG_FLOWS}
+    every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
+    scheme_values = {}
+    for scheme in chosen:
+        mask = np.array([bool(zero_rated(scheme, inventory, key)) for key in keys])
+        basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
+        basis_product = product if scheme.basis == "product" else "hydrogen"
+        scheme_total = (contributions(basis_demand, per_gwp[scheme.gwp]) * ~mask[None, None, :]).sum(axis=(1, 2))
+        scheme_values[scheme.id] = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,))
+    return Outcome(
+        total=total,
+        intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
+        by_stage=by_stage,
+        by_gas=by_gas,
+        scheme_values=scheme_values,
+        schemes=chosen,
+        unit=FUNCTIONAL_UNITS[inventory.reference_product][1],
+        functional_unit=inventory.functional_unit,
+        boundary=params["project"]["boundary"],
+        product=product,
+    )
+
+
+def _take(draws: Draws, rows: slice) -> Draws:
+    return Draws(
+        draws.names,
+        draws.uniform[rows],
+        {k: v[rows] for k, v in draws.parameters.items()},
+        {k: (nominal, chosen[rows]) for k, (nominal, chosen) in draws.factor_choices.items()},
+        {k: v[rows] for k, v in draws.factors.items()},
+    )
+
+
+def _join(outcomes: list[Outcome]) -> Outcome:
+    first = outcomes[0]
+    if len(outcomes) == 1:
+        return first
+
+    def cat(key):
+        return {k: (None if v is None else np.concatenate([getattr(o, key)[k] for o in outcomes])) for k, v in getattr(first, key).items()}
+
+    return Outcome(
+        np.concatenate([o.total for o in outcomes]),
+        cat("intensity"),
+        cat("by_stage"),
+        cat("by_gas"),
+        cat("scheme_values"),
+        first.schemes,
+        first.unit,
+        first.functional_unit,
+        first.boundary,
+        first.product,
+    )
+
+
+def evaluate_in_blocks(plan: Plan, draws: Draws, progress: Callable[[int], None] | None = None) -> Outcome:
+    """``evaluate`` over blocks of at most ``BLOCK`` draws (the same numbers, bounded memory)."""
+    count = len(draws.uniform)
+    outcomes = []
+    for start in range(0, count, BLOCK):
+        rows = slice(start, min(start + BLOCK, count))
+        outcomes.append(evaluate(plan, _take(draws, rows), rows.stop - rows.start))
+        if progress is not None:
+            progress(rows.stop - rows.start)
+    return _join(outcomes)
+
+
+# --- summary -------------------------------------------------------------------------------
+
+
+class Summary(BaseModel):
+    mean: float
+    std: float
+    p5: float
+    p50: float
+    p95: float
+    standard_error: float  # Monte Carlo standard error of the mean, std / sqrt(draws)
+
+
+class Probability(BaseModel):
+    probability: float
+    standard_error: float  # sqrt(p (1 - p) / draws)
+
+
+class CheckProbability(BaseModel):
+    scheme: str
+    name: str
+    quantity: str
+    unit: str
+    limit: float
+    value: Summary
+    probability_qualifies: float
+    standard_error: float
+    statuses: dict[str, Probability]
+    tiers: dict[str, Probability]  # best tier met; "none" when no tier is met
+    from_memory: bool
+
+
+class InputDistribution(BaseModel):
+    input: str
+    distribution: dict[str, Any]
+
+
+class LimitBreak(BaseModel):
+    field: str
+    expected: str
+    draws: int
+
+
+class UncertaintyResult(BaseModel):
+    carbonledger_version: str
+    caution: str
+    project: str
+    project_file: str
+    boundary: str
+    functional_unit: str
+    unit: str
+    gwp_basis: str
+    factor_set: dict[str, str]
+    draws: int
+    seed: int
+    sampling: str
+    draws_used: int  # draws within every physical limit: the statistics are over these
+    draws_breaking_limits: int
+    limit_breaks: list[LimitBreak]
+    inputs: list[InputDistribution]
+    correlations: list[dict[str, Any]]
+    total: Summary
+    intensity: dict[str, Summary | None]
+    by_stage: dict[str, Summary]
+    by_gas: dict[str, Summary]
+    checks: list[CheckProbability]
+    _scheme_draws: dict = PrivateAttr(default_factory=dict)  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
+
+    def to_json(self) -> str:
+        return self.model_dump_json(indent=2)
+
+    def scheme_draws(self) -> dict:
+        """Each scheme's value in every draw used, and its thresholds: scheme id -> (array, [(tier, limit)])."""
+        return self._scheme_draws
+
+
+def summary(values: np.ndarray) -> Summary:
+    values = np.asarray(values, dtype=float)
+    count = len(values)
+    if count == 0:
+        nan = float("nan")
+        return Summary(mean=nan, std=nan, p5=nan, p50=nan, p95=nan, standard_error=nan)
+    p5, p50, p95 = np.percentile(values, [5, 50, 95])
+    std = float(values.std(ddof=1)) if count > 1 else 0.0
+    return Summary(mean=float(values.mean()), std=std, p5=float(p5), p50=float(p50), p95=float(p95), standard_error=std / np.sqrt(count))
+
+
+def probability(hits: np.ndarray) -> Probability:
+    count = len(hits)
+    p = float(hits.mean()) if count else float("nan")
+    return Probability(probability=p, standard_error=float(np.sqrt(p * (1 - p) / count)) if count else float("nan"))
+
+
+def statuses(scheme, values: np.ndarray) -> dict[str, np.ndarray]:
+    """Each draw's status under a scheme (today: qualifies or fails against the loosest threshold)."""
+    qualifies = scheme.loosest().met_by(values)
+    return {"qualifies": qualifies, "fails": ~qualifies}
+
+
+def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
+    """The tightest threshold each draw meets ('none' when it meets none)."""
+    tiers = np.full(len(values), "none", dtype=object)
+    for threshold in sorted(scheme.thresholds, key=lambda t: -t.limit):
+        tiers[threshold.met_by(values)] = threshold.tier
+    return tiers
+
+
+def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str) -> UncertaintyResult:
+    count = len(draws.uniform)
+    broken, reasons = limit_breaks(plan, draws, count)
+    used = ~broken
+    checks = []
+    for scheme in outcome.schemes:
+        values = outcome.scheme_values[scheme.id][used]
+        status = {name: probability(hits) for name, hits in statuses(scheme, values).items()}
+        tiers = best_tiers(scheme, values)
+        tier_names = [t.tier for t in sorted(scheme.thresholds, key=lambda t: t.limit)] + ["none"]
+        checks.append(
+            CheckProbability(
+                scheme=scheme.id,
+                name=scheme.name,
+                quantity=scheme.quantity,
+                unit=scheme.unit,
+                limit=scheme.loosest().limit,
+                value=summary(values),
+                probability_qualifies=status["qualifies"].probability,
+                standard_error=status["qualifies"].standard_error,
+                statuses=status,
+                tiers={name: probability(tiers == name) for name in tier_names},
+                from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
+            )
+        )
+    uncertainty = plan.uncertainty
+    inputs = [InputDistribution(input=f"parameter {p}", distribution=d.model_dump()) for p, d in uncertainty.parameters.items()]
+    inputs += [InputDistribution(input=f"factor {f}", distribution=d.model_dump()) for f, d in uncertainty.factors.items()]
+    params = plan.project.model_dump()
+    result = UncertaintyResult(
+        carbonledger_version=__version__,
+        caution=CAUTION,
+        project=params["project"]["name"],
+        project_file=plan.source,
+        boundary=outcome.boundary,
+        functional_unit=outcome.functional_unit,
+        unit=outcome.unit,
+        gwp_basis=plan.gwp,
+        factor_set={"name": plan.factor_set.name, "sha256": plan.factor_set.sha256},
+        draws=count,
+        seed=seed,
+        sampling=sampling,
+        draws_used=int(used.sum()),
+        draws_breaking_limits=int(broken.sum()),
+        limit_breaks=[LimitBreak(**reason) for reason in reasons],
+        inputs=inputs,
+        correlations=[c.model_dump() for c in uncertainty.correlations],
+        total=summary(outcome.total[used]),
+        intensity={key: (None if value is None else summary(value[used])) for key, value in outcome.intensity.items()},
+        by_stage={key: summary(value[used]) for key, value in outcome.by_stage.items()},
+        by_gas={key: summary(value[used]) for key, value in outcome.by_gas.items()},
+        checks=checks,
+    )
+    result._scheme_draws = {scheme.id: (np.asarray(outcome.scheme_values[scheme.id][used], dtype=float), [(t.tier, t.limit) for t in scheme.thresholds]) for scheme in outcome.schemes}
+    return result
+
+
+def monte_carlo(
+    project,
+    factor_set: FactorSet,
+    uncertainty: Uncertainty,
+    *,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    source: str = "project",
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    boundary: str | None = None,
+    progress: Callable[[int], None] | None = None,
+) -> UncertaintyResult:
+    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain."""
+    if draws < 2:
+        raise InputError("--draws", str(draws), "at least 2 draws")
+    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary)
+    chosen_sampling = sampling or uncertainty.sampling
+    drawn = draw(plan, draws, seed, chosen_sampling)
+    outcome = evaluate_in_blocks(plan, drawn, progress)
+    return summarise(plan, drawn, outcome, seed, chosen_sampling)
+
+
+# --- the same Monte Carlo in bw2calc -------------------------------------------------------
+
+STATS_ARRAYS_TYPES = {"lognormal": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
+
+
+def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
+    """One stats_arrays row (type, loc, scale, shape, minimum, maximum, negative) for an entry
+    that is ``scale`` x the factor (scale > 0)."""
+    nan = float("nan")
+    kind = distribution.distribution
+    if kind == "normal":
+        return (3, scale * distribution.mean, scale * distribution.sd, nan, nan, nan, False)
+    if kind == "lognormal":
+        return (2, np.log(scale * distribution.median), np.log(distribution.gsd), nan, nan, nan, False)
+    if kind == "uniform":
+        return (4, value, nan, nan, scale * distribution.low, scale * distribution.high, False)
+    return (5, scale * distribution.mode, nan, nan, scale * distribution.low, scale * distribution.high, False)
+
+
+def bw2calc_entries(plan: Plan):
+    """The nominal matrices of a plan and, per matrix, the stats_arrays distributions of the
+    entries that uncertain factors drive (each entry in proportion to one factor).
+
+    Found by building the inventory with each uncertain factor at its value and at twice it:
+    an entry that doubles is proportional to that factor. A factor that enters an entry in any
+    other way, or two factors in one entry, cannot be written as an entry distribution.
+    """
+    if plan.uncertainty.parameters or plan.uncertainty.correlations:
+        raise InputError(plan.source, "uncertainty", "distributions on factors only, without correlations, for the bw2calc cross-check")
+    params = params_with_draws(plan, {})
+    inputs = NumericInputs(plan.factor_set, plan.source)
+    check_physical_limits(params, inputs, plan.source)
+    inventory = build_inventory(params, inputs)
+    matrices = build_matrices(inventory)
+    headline = characterisation(inputs, plan.gwp)
+    _, bwp = import_bw2calc()
+    rows = {
+        "technosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.technosphere_values for nan in [float("nan")]],
+        "biosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.biosphere_values for nan in [float("nan")]],
+        "characterization": [(0, v, nan, nan, nan, nan, False) for v in headline for nan in [float("nan")]],
+    }
+    taken: set = set()
+    for factor_id, distribution in plan.uncertainty.factors.items():
+        if distribution.distribution not in STATS_ARRAYS_TYPES:
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, uniform or triangular for the bw2calc cross-check")
+        value = plan.factor_set.get(factor_id).value
+        doubled = DrawInputs(plan.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
+        stacked = build_stacked_matrices(build_inventory(params_with_draws(plan, {}), doubled), 2)
+        gwp_values = characterisation(doubled, plan.gwp)
+        changed = {
+            "technosphere": stacked.technosphere_values,
+            "biosphere": stacked.biosphere_values,
+            "characterization": gwp_values.T if gwp_values.ndim == 2 else np.vstack([gwp_values, gwp_values]),
+        }
+        entries = [(matrix, entry) for matrix, values in changed.items() for entry in np.flatnonzero(~np.isclose(values[0], values[1], rtol=1e-12, atol=0))]
+        if len(entries) != 1:
+            # bw2calc samples every entry on its own: a factor in several entries would not be the same model
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", f"a factor that drives one matrix entry for the bw2calc cross-check, it drives {len(entries)}")
+        matrix, entry = entries[0]
+        values = changed[matrix]
+        if (matrix, entry) in taken or not np.isclose(values[1][entry], 2 * values[0][entry], rtol=1e-9) or not values[0][entry] > 0:
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "a factor that enters its matrix entry in proportion, alone, for the bw2calc cross-check")
+        taken.add((matrix, entry))
+        rows[matrix][entry] = _uncertainty_row(distribution, values[0][entry] / value, values[0][entry])
+    distributions = {matrix: np.array(items, dtype=bwp.UNCERTAINTY_DTYPE) for matrix, items in rows.items()}
+    return inventory, matrices, headline, distributions
+
+
+def monte_carlo_with_bw2calc(plan: Plan, draws: int, seed: int = DEFAULT_SEED) -> np.ndarray:
+    """The total of ``draws`` draws from bw2calc's own Monte Carlo (stats_arrays sampling of the
+    datapackage's distributions, ``next(lca)`` per draw): the reference for the stacked draws."""
+    inventory, matrices, headline, distributions = bw2calc_entries(plan)
+    bw2calc, _ = import_bw2calc()
+    column = {key: number for number, key in enumerate(matrices.activity_keys)}
+    totals = np.empty(draws)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        lca = bw2calc.LCA({column[inventory.reference]: 1.0}, data_objs=[datapackage(matrices, headline, distributions)], use_distributions=True, seed_override=seed)
+        lca.lci()
+        lca.lcia()
+        totals[0] = lca.score
+        for number in range(1, draws):
+            next(lca)
+            totals[number] = lca.score
+    return totals

@@ -1,0 +1,170 @@
+"""The ``uncertainty``, ``headroom`` and ``sensitivity`` commands: how sure the verdict is."""
+
+from __future__ import annotations
+
+import contextlib
+import sys
+from enum import Enum
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from .. import api
+from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
+from ..errors import InputError
+from ..io.sensitivity_output import CHART_FORMATS, sensitivity_csv, sensitivity_table, write_sensitivity_chart
+from ..io.uncertainty_output import (
+    headroom_csv,
+    headroom_json,
+    headroom_table,
+    portfolio_uncertainty_csv,
+    portfolio_uncertainty_json,
+    portfolio_uncertainty_table,
+    uncertainty_csv,
+    uncertainty_table,
+    write_uncertainty_chart,
+)
+from .options import (
+    BoundaryOption,
+    FactorsOption,
+    ForceOption,
+    FormatOption,
+    GwpOption,
+    OutputFormat,
+    SchedulerOption,
+    SchemeOption,
+    SetOption,
+    WorkersOption,
+    fail,
+    render,
+)
+
+
+class Sampling(str, Enum):
+    random = "random"
+    latin_hypercube = "latin_hypercube"
+
+
+DistributionsOption = Annotated[Optional[Path], typer.Option("--distributions", help="Distributions TOML laid over the project's [uncertainty] table (parameter paths and factor ids).")]
+DrawsOption = Annotated[int, typer.Option("--draws", help="Number of Monte Carlo draws.")]
+SeedOption = Annotated[int, typer.Option("--seed", help=f"Seed of the random draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")]
+SamplingOption = Annotated[Optional[Sampling], typer.Option("--sampling", help="random or latin_hypercube; default: the distributions' own (random).")]
+
+
+@contextlib.contextmanager
+def progress_bar(total: int, label: str, output_format: OutputFormat):
+    """A rich progress bar on a terminal for the table format; nothing for JSON, CSV or a pipe."""
+    if output_format != OutputFormat.table or not sys.stdout.isatty():
+        yield None
+        return
+    from rich.progress import Progress
+
+    with Progress(transient=True) as bar:
+        task = bar.add_task(label, total=total)
+        yield lambda done: bar.advance(task, done)
+
+
+def uncertainty(
+    project: Annotated[list[Path], typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions), or several files or folders.")],
+    draws: DrawsOption = DEFAULT_DRAWS,
+    seed: SeedOption = DEFAULT_SEED,
+    sampling: SamplingOption = None,
+    distributions: DistributionsOption = None,
+    scheme: SchemeOption = None,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    set_: SetOption = None,
+    boundary: BoundaryOption = None,
+    workers: WorkersOption = None,
+    scheduler: SchedulerOption = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="One project: write a histogram of each scheme's value with its thresholds, FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
+    try:
+        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+        if chart is not None and chart.exists() and not force:
+            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        options = {
+            "distributions": distributions,
+            "draws": draws,
+            "seed": seed,
+            "sampling": sampling.value if sampling else None,
+            "factors": factors,
+            "gwp": gwp,
+            "schemes": scheme,
+            "boundary": boundary,
+        }
+        single = len(project) == 1 and project[0].is_file() and workers is None and scheduler is None
+        if single:
+            with progress_bar(draws, "Monte Carlo draws", output_format) as advance:
+                result = api.uncertainty(project[0], overrides=set_, progress=advance, **options)
+            text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
+            if chart is not None:
+                write_uncertainty_chart(result, chart, force=force)
+        else:
+            if chart is not None:
+                raise InputError(chart, "--chart", "one project (a chart is drawn for one project's draws)")
+            if set_:
+                raise InputError("--set", set_[0], "no --set with several projects (set values in each project file)")
+            results = api.uncertainty_many(project, workers=workers, scheduler=scheduler, **options)
+            text = render(output_format, table=lambda: portfolio_uncertainty_table(results), json=lambda: portfolio_uncertainty_json(results), csv=lambda: portfolio_uncertainty_csv(results))
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)
+
+
+def headroom(
+    project: Annotated[Path, typer.Argument(help="Project TOML file.")],
+    parameter: Annotated[list[str], typer.Option("--parameter", help="Parameter path as `carbonledger params` lists it (repeatable).")],
+    scheme: Annotated[str, typer.Option("--scheme", help="Scheme id (see `carbonledger schemes`).")],
+    tier: Annotated[Optional[str], typer.Option("--tier", help="Tier name of the scheme; default its loosest threshold.")] = None,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    set_: SetOption = None,
+    boundary: BoundaryOption = None,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """The value of each parameter at which a scheme's limit is met exactly (null with a reason when none)."""
+    try:
+        results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
+        text = render(output_format, table=lambda: headroom_table(results), json=lambda: headroom_json(results), csv=lambda: headroom_csv(results))
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+
+
+def sensitivity(
+    project: Annotated[Path, typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions).")],
+    scheme: Annotated[Optional[str], typer.Option("--scheme", help="Scheme id: analyse its value (limit marked on the chart); default the total.")] = None,
+    base_sample: Annotated[int, typer.Option("--base-sample", help="N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).")] = 1024,
+    seed: SeedOption = DEFAULT_SEED,
+    distributions: DistributionsOption = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write the tornado and Sobol chart: FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    set_: SetOption = None,
+    boundary: BoundaryOption = None,
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Which inputs decide the result: Sobol indices (SALib) and a 10th/90th percentile tornado."""
+    try:
+        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+        if chart is not None and chart.exists() and not force:
+            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
+        text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
+        if chart is not None:
+            write_sensitivity_chart(result, chart, force=force)
+    except InputError as error:
+        fail(error)
+    typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)

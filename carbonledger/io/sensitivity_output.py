@@ -1,0 +1,102 @@
+"""Table, CSV, JSON and chart (tornado and Sobol indices, scheme limit marked) of a sensitivity run."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from ..analyses.sensitivity import Sensitivity
+from ..errors import InputError
+from .files import atomic_write
+from .tables import display_number
+from .uncertainty_output import console_for_text, rows_to_csv
+
+CHART_FORMATS = ("png", "svg")
+
+
+def sensitivity_csv(result: Sensitivity) -> str:
+    rows = [("sobol", item.input, key, getattr(item, key)) for item in result.sobol for key in ("first_order", "first_order_confidence", "total_order", "total_order_confidence")]
+    rows += [("tornado", bar.input, key, getattr(bar, key)) for bar in result.tornado for key in ("low_input", "high_input", "at_low", "at_high", "swing")]
+    rows += [
+        ("run", "figure", "", result.figure),
+        ("run", "unit", "", result.unit),
+        ("run", "base", "", result.base),
+        ("run", "limit", "", "" if result.limit is None else result.limit),
+        ("run", "seed", "", result.seed),
+        ("run", "evaluations", "", result.evaluations),
+    ]
+    return rows_to_csv(("section", "input", "statistic", "value"), rows)
+
+
+def sensitivity_table(result: Sensitivity) -> str:
+    from rich.table import Table
+
+    console = console_for_text()
+    limit = f"; limit {display_number(result.limit)} {result.unit}" if result.limit is not None else ""
+    console.print(f"[bold]{result.project}[/bold]: sensitivity of {result.figure} ({result.unit}); project value {display_number(result.base)}{limit}")
+    console.print(f"Sobol indices: SALib, N = {result.base_sample} ({result.evaluations:,} evaluations), seed {result.seed}; inputs drawn independently (rank correlations not imposed)")
+    if result.evaluations_breaking_limits:
+        console.print(f"{result.evaluations_breaking_limits:,} evaluations break a physical limit; the Sobol estimator keeps them (it needs every point)")
+    sobol = Table(title="Sobol indices (share of the variance; ± 95 % bootstrap half-width)", title_justify="left")
+    for column in ("input", "first order", "total order"):
+        sobol.add_column(column, justify="left" if column == "input" else "right")
+    for item in sorted(result.sobol, key=lambda i: -i.total_order):
+        sobol.add_row(item.input, f"{item.first_order:.3f} ± {item.first_order_confidence:.3f}", f"{item.total_order:.3f} ± {item.total_order_confidence:.3f}")
+    console.print(sobol)
+    tornado = Table(title="Tornado: one input at its 10th and 90th percentile, the others as the project states", title_justify="left")
+    for column in ("input", "10th percentile", "90th percentile", "figure at 10th", "figure at 90th", "swing"):
+        tornado.add_column(column, justify="left" if column == "input" else "right", no_wrap=column == "input")
+    for bar in result.tornado:
+        shown = [bar.low_input if isinstance(bar.low_input, str) else display_number(bar.low_input), bar.high_input if isinstance(bar.high_input, str) else display_number(bar.high_input)]
+        tornado.add_row(bar.input, *shown, display_number(bar.at_low), display_number(bar.at_high), display_number(bar.swing))
+    console.print(tornado)
+    console.print(f"Caution: {result.caution}")
+    return console.export_text()
+
+
+def sensitivity_figure(result: Sensitivity):
+    """Tornado (bars from the project's value, the scheme limit as a dashed line) beside the Sobol indices."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    names = [bar.input for bar in result.tornado][::-1]
+    height = max(3.5, 0.45 * len(names) + 1.8)
+    figure, (left, right) = plt.subplots(1, 2, figsize=(12, height), layout="constrained", width_ratios=[3, 2])
+    for row, bar in enumerate(result.tornado[::-1]):
+        left.barh(row, bar.at_low - result.base, left=result.base, color="#4c72b0", height=0.6, label="input at its 10th percentile" if row == 0 else None)
+        left.barh(row, bar.at_high - result.base, left=result.base, color="#dd8452", height=0.6, label="input at its 90th percentile" if row == 0 else None)
+    left.axvline(result.base, color="grey", linewidth=0.8)
+    if result.limit is not None:
+        left.axvline(result.limit, color="black", linestyle="--", linewidth=0.9, label=f"{result.figure} limit {display_number(result.limit)}")
+    left.set_yticks(range(len(names)), names, fontsize=7.5)
+    left.set_xlabel(f"{result.figure} ({result.unit})")
+    left.set_title("Tornado (others at the project's values)", fontsize=10)
+    left.legend(fontsize=7, loc="upper center", bbox_to_anchor=(0.5, -0.14), ncol=3)
+    order = sorted(result.sobol, key=lambda i: i.total_order)
+    rows = range(len(order))
+    right.barh([r + 0.2 for r in rows], [i.first_order for i in order], height=0.4, xerr=[i.first_order_confidence for i in order], label="first order", color="#55a868")
+    right.barh([r - 0.2 for r in rows], [i.total_order for i in order], height=0.4, xerr=[i.total_order_confidence for i in order], label="total order", color="#8172b3")
+    right.set_yticks(list(rows), [i.input for i in order], fontsize=7.5)
+    right.set_xlim(0, 1.05)
+    right.set_xlabel("share of the variance")
+    right.set_title("Sobol indices", fontsize=10)
+    right.legend(fontsize=7, loc="lower right")
+    figure.suptitle(f"{result.project}: what decides {result.figure}", fontsize=10)
+    figure.supxlabel("Screening estimate, not a certification: the scheme's official methodology, an accredited verifier and local regulation take precedence.", fontsize=6.5)
+    return figure
+
+
+def write_sensitivity_chart(result: Sensitivity, path: str | Path, force: bool = False) -> Path:
+    """Write the chart as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
+    path = Path(path)
+    kind = path.suffix.lower().lstrip(".")
+    if kind not in CHART_FORMATS:
+        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
+    figure = sensitivity_figure(result)
+    import matplotlib.pyplot as plt
+
+    try:
+        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
+    finally:
+        plt.close(figure)
