@@ -7,17 +7,21 @@ a ``ComparisonResult``; ``audit_workbook`` an openpyxl workbook and the engine's
 
 from __future__ import annotations
 
+import os
+from datetime import datetime, timezone
 from pathlib import Path
 
+from .about import CAUTION
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.periods import month_results, read_meters
-from .analyses.portfolio import Recalc, load_portfolio
+from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, score_project
 from .errors import InputError
+from .io.report import ProjectReport, render_report
 from .io.workbook.reader import (
     base_factor_set,
     factor_set_from_workbook,
@@ -25,7 +29,7 @@ from .io.workbook.reader import (
 )
 from .io.workbook.writer import build_workbook
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from .model.project import BOUNDARIES
+from .model.project import BOUNDARIES, parameter_table
 from .routes.project import load_project
 
 __all__ = [
@@ -36,6 +40,8 @@ __all__ = [
     "audit_workbook",
     "recalc",
     "lifetime",
+    "report",
+    "report_items",
     "load_project",
     "load_factor_set",
     "load_any_project",
@@ -184,3 +190,55 @@ def lifetime(
     """Score every operating year of a project's [lifetime] and the lifetime average."""
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
     return lifetime_score(project, _factor_set(factors), project_file=str(project_file), project_sha256=sha, gwp=gwp, schemes=schemes)
+
+
+def report_items(
+    paths: list[str | Path],
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> list[ProjectReport]:
+    """What a report shows of each project (files, or folders of project files): its score, its
+    parameters with units and, where the project has a [lifetime], its operating years."""
+    factor_set = _factor_set(factors)
+    items = []
+    for path in project_files(list(paths)):
+        project, sha = load_project(path, _boundary_overrides(boundary, overrides))
+        result = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha)
+        life = None
+        if project.lifetime is not None:
+            life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
+        items.append(ProjectReport(result, parameter_table(project), life))
+    return items
+
+
+def report(
+    paths: list[str | Path],
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    generated: str | None = None,
+    paper: str | None = None,
+) -> str:
+    """The project report of one or several projects as one self-contained HTML text.
+
+    generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
+    paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
+    """
+    if not paths:
+        raise InputError("report", "PROJECT", "at least one project file or folder")
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary)
+    return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
+
+
+def report_date() -> str:
+    """Today's date (UTC), or the date of $SOURCE_DATE_EPOCH for reproducible reports."""
+    epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
+    moment = datetime.fromtimestamp(int(epoch), timezone.utc) if epoch.isdigit() else datetime.now(timezone.utc)
+    return moment.date().isoformat()
