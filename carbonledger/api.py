@@ -8,7 +8,7 @@ a ``ComparisonResult``; ``audit_workbook`` an openpyxl workbook and the engine's
 from __future__ import annotations
 
 import os
-from datetime import datetime, timezone
+from datetime import UTC, datetime
 from pathlib import Path
 
 from .about import CAUTION
@@ -240,5 +240,5 @@ def report(
 def report_date() -> str:
     """Today's date (UTC), or the date of $SOURCE_DATE_EPOCH for reproducible reports."""
     epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
-    moment = datetime.fromtimestamp(int(epoch), timezone.utc) if epoch.isdigit() else datetime.now(timezone.utc)
+    moment = datetime.fromtimestamp(int(epoch), UTC) if epoch.isdigit() else datetime.now(UTC)
     return moment.date().isoformat()

@@ -13,7 +13,7 @@ import shutil
 from pathlib import Path
 
 import pytest
-from browser_support import WINDOW, chromium_or_skip, page_requests, pdf_info, render, url_attributes, visible_text
+from browser_support import WINDOW, chromium_or_skip, pdf_info, render, url_attributes, visible_text
 
 from carbonledger import api
 from carbonledger.about import CAUTION

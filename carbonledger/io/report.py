@@ -226,15 +226,15 @@ def lifetime_svg(life: LifetimeResult, key: str) -> str:
     step = max(1, len(years) // 8)
     for year in years[::step]:
         body.append(f'<text x="{x(year):.1f}" y="{height - bottom + 16}" class="tick" text-anchor="middle">{year}</text>')
-    points = " ".join(f"{x(a):.1f},{y(b):.1f}" for a, b in zip(years, values))
+    points = " ".join(f"{x(a):.1f},{y(b):.1f}" for a, b in zip(years, values, strict=True))
     body.append(f'<polyline points="{points}" class="trace"/>')
-    for a, b in zip(years, values):
+    for a, b in zip(years, values, strict=True):
         body.append(f'<circle cx="{x(a):.1f}" cy="{y(b):.1f}" r="3" class="dot"><title>{a}: {html.escape(number(b))} {html.escape(life.unit)}</title></circle>')
     average = life.average_without_construction
     body.append(f'<line x1="{left}" y1="{y(average):.1f}" x2="{width - right}" y2="{y(average):.1f}" class="limit"/>')
     body.append(f'<text x="{width - right}" y="{y(average) - 5:.1f}" class="note" text-anchor="end">lifetime average {html.escape(number(average))}</text>')
     body.append(f'<text x="{left}" y="{height - 8}" class="note">{html.escape(life.unit)} by operating year (construction not included)</text>')
-    description = "; ".join(f"{a}: {number(b)}" for a, b in zip(years, values)) + f" {life.unit}; lifetime average {number(average)}."
+    description = "; ".join(f"{a}: {number(b)}" for a, b in zip(years, values, strict=True)) + f" {life.unit}; lifetime average {number(average)}."
     return _svg(width, height, f"Intensity by operating year ({life.unit})", description, body, key)
 
 
