@@ -135,3 +135,22 @@ def test_pdf_without_chromium_is_one_line(tmp_path):
     out, pdf = tmp_path / "r.html", tmp_path / "r.pdf"
     assert_one_line_error(run("report", BLUE, "-o", out, "--pdf", pdf, env=env), "--pdf", "Chromium")
     assert not pdf.exists() and not out.exists()
+
+
+def test_score_chart_png_and_svg(tmp_path):
+    png, svg = tmp_path / "grey.png", tmp_path / "grey.svg"
+    shipped = DEMO / "grey_smr_ammonia_shipped.toml"
+    assert run("score", shipped, "--no-ledger", "--chart", png).returncode == 0
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # the PNG signature (ISO/IEC 15948, 5.2)
+    assert run("score", shipped, "--no-ledger", "--chart", svg).returncode == 0
+    drawing = svg.read_text(encoding="utf-8")
+    result = api.score(shipped)
+    for stage in result.by_stage:
+        assert stage_name(stage) in drawing  # labels in words, not identifiers
+    for check in result.checks:
+        assert check.name in drawing
+    assert "Shipping" in drawing and "_" not in re.sub(r"<[^>]*>", "", drawing).replace("__", "")
+    png.write_bytes(b"kept")
+    assert_one_line_error(run("score", shipped, "--no-ledger", "--chart", png), "--force")
+    assert png.read_bytes() == b"kept"
+    assert_one_line_error(run("score", shipped, "--no-ledger", "--chart", tmp_path / "c.pdf"), "--chart", ".png or .svg")

@@ -13,6 +13,7 @@ from ..errors import InputError
 from ..io.files import atomic_write
 from ..io.ledger import ledger_for_run, record_run
 from ..io.portfolio_output import lifetime_csv, lifetime_json, lifetime_table
+from ..io.score_chart import CHART_FORMATS, write_score_chart
 from ..io.tables import csv_rows, to_csv
 from ..io.tables import render as render_score
 from ..model.project import parameter_table
@@ -22,6 +23,7 @@ from ..routes.starter import normalise_choice, starter_choices, starter_project
 from .options import (
     BoundaryOption,
     FactorsOption,
+    ForceOption,
     FormatOption,
     GwpOption,
     LedgerOption,
@@ -48,12 +50,21 @@ def score(
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="Also write a chart of stages, gases and scheme limits: FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
         if (project is None) == (from_workbook is None):
             raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
+        if chart is not None:
+            if lifetime:
+                raise InputError("--chart", str(chart), "a single score (not with --lifetime)")
+            if chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+                raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+            if chart.exists() and not force:
+                raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
         if lifetime:
             if from_workbook is not None:
                 raise InputError("--lifetime", "--from-workbook", "a project TOML file (lifetime scoring reads the project's [lifetime] section)")
@@ -67,11 +78,15 @@ def score(
                 result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: to_csv(csv_rows(result)))
             command, kind = "score", "score"
+            if chart is not None:
+                write_score_chart(result, chart, force=force)
         if where is not None:
             record_run(command, [result], ledger=where, kind=kind)
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)
 
 
 def params(
