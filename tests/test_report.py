@@ -15,7 +15,8 @@ from conftest import DEMO, ROOT
 
 from carbonledger import api
 from carbonledger.about import CAUTION
-from carbonledger.io.report import ProjectReport, render_report, stage_name, status_of, words
+from carbonledger.io.labels import stage_name, words
+from carbonledger.io.report import ProjectReport, render_report, status_of
 
 BLUE = DEMO / "blue_atr_ammonia.toml"
 

@@ -28,6 +28,7 @@ from ..core.results import Check, ScoreResult
 from ..core.scoring import rulebooks
 from ..errors import InputError
 from .files import atomic_write
+from .labels import gas_name, stage_name, words
 from .tables import INTENSITY_UNITS, display_number
 
 PAPERS = ("a4", "letter")
@@ -37,16 +38,6 @@ CHROMIUM_NAMES = ("chromium", "chromium-browser", "google-chrome", "google-chrom
 STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
 GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
 STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undetermined": "open"}
-
-GAS_NAMES = {
-    "co2_fossil": "CO2, fossil",
-    "ch4_fossil": "Methane (CH4), fossil",
-    "ch4_non_fossil": "Methane (CH4), non-fossil",
-    "n2o": "Nitrous oxide (N2O)",
-    "co2e_precharacterised": "Life-cycle CO2e of electricity (already characterised)",
-}
-WORDS = {"co2": "CO2", "h2": "H2", "nh3": "NH3", "n2": "N2", "ch4": "CH4", "n2o": "N2O", "lhv": "LHV", "gj": "GJ", "kwh": "kWh", "mw": "MW", "t": "t", "kg": "kg", "pem": "PEM", "atr": "ATR", "smr": "SMR"}
-
 
 @dataclass
 class ProjectReport:
@@ -58,21 +49,6 @@ class ProjectReport:
 
 
 # --- words and numbers -------------------------------------------------------------------
-
-def words(identifier: str) -> str:
-    """A snake_case identifier in words: ``co2_capture_and_storage`` -> ``CO2 capture and storage``."""
-    parts = [WORDS.get(part, part) for part in identifier.replace(":", " ").replace("-", " ").split("_")]
-    text = " ".join(parts)
-    return text[:1].upper() + text[1:]
-
-
-def stage_name(stage: str) -> str:
-    return words(stage)
-
-
-def gas_name(gas: str) -> str:
-    return GAS_NAMES.get(gas, words(gas))
-
 
 _FORMULA = re.compile(r"\b(CO2e?|CH4|N2O|NH3|H2|N2|O2)\b")
 

@@ -9,7 +9,8 @@ from ..core.results import ScoreResult
 from ..core.scoring import rulebooks
 from ..errors import InputError
 from .files import atomic_write
-from .report import GAS_COLOURS, STAGE_COLOURS, gas_name, stage_name, status_of
+from .labels import gas_name, stage_name
+from .report import GAS_COLOURS, STAGE_COLOURS, status_of
 from .tables import display_number
 
 CHART_FORMATS = ("png", "svg")
