@@ -47,13 +47,14 @@ class Term:
     formula carries a ``*0*`` or ``*1*`` a reader has to puzzle over.
     """
 
-    __slots__ = ("text", "precedence", "literal")
+    __slots__ = ("text", "precedence", "literal", "reciprocal_of")
     __array_priority__ = 1000  # numpy defers to Term's reflected operators
 
-    def __init__(self, text: str, precedence: int = ATOM, literal: float | None = None):
+    def __init__(self, text: str, precedence: int = ATOM, literal: float | None = None, reciprocal_of: Term | None = None):
         self.text = text
         self.precedence = precedence
         self.literal = literal
+        self.reciprocal_of = reciprocal_of  # 1/x: multiplying by it divides by x
 
     # helpers -----------------------------------------------------------------------------
     @staticmethod
@@ -106,6 +107,10 @@ class Term:
             return self
         if self.literal == 1:
             return other
+        if other.reciprocal_of is not None:
+            return self / other.reciprocal_of
+        if self.reciprocal_of is not None:
+            return other / self.reciprocal_of
         return Term(f"{self._wrapped(PRODUCT)}*{other._wrapped(PRODUCT)}", PRODUCT)
 
     def __rmul__(self, other):
@@ -119,7 +124,7 @@ class Term:
             return self
         if self.literal == 0 and other.literal is None:
             return Term.of(0.0)
-        return Term(f"{self._wrapped(PRODUCT)}/{other._wrapped(ATOM)}", PRODUCT)
+        return Term(f"{self._wrapped(PRODUCT)}/{other._wrapped(ATOM)}", PRODUCT, reciprocal_of=other if self.literal == 1 else None)
 
     def __rtruediv__(self, other):
         return Term.of(other) / self
