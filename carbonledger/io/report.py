@@ -451,6 +451,14 @@ tbody th{font-weight:500}
 table.compact{width:auto;min-width:60%}
 table.small,table.factors,table.inputs{font-size:12.5px}
 table.factors td:nth-child(8){color:#4d5860}
+table.factors,table.inputs{table-layout:fixed}
+table.factors code,table.inputs code{word-break:break-all}
+table.factors th:nth-child(1){width:18%}table.factors th:nth-child(2){width:8%}table.factors th:nth-child(3){width:10%}
+table.factors th:nth-child(4){width:23%}table.factors th:nth-child(5){width:6%}table.factors th:nth-child(6){width:8%}
+table.factors th:nth-child(7){width:11%}table.factors th:nth-child(8){width:16%}
+table.factors td:nth-child(5){white-space:nowrap}
+table.inputs th:nth-child(1){width:32%}table.inputs th:nth-child(2){width:20%}table.inputs th:nth-child(3){width:14%}table.inputs th:nth-child(4){width:34%}
+td .src{font-size:.92em}
 tr{break-inside:avoid}
 thead{display:table-header-group}
 .scheme-id{display:block;font-size:12px;color:#66717a;font-family:ui-monospace,"DejaVu Sans Mono",monospace}
