@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import json
 import os
+import shutil
 import subprocess
 from dataclasses import dataclass
 from html.parser import HTMLParser
@@ -20,10 +21,10 @@ WINDOW = (1100, 1400)  # CSS pixels of the screenshot
 def chromium_or_skip() -> str:
     """Chromium's path; under CI=true its absence fails the test (.ci/run installs it)."""
     found = find_chromium()
-    if found is None:
+    if found is None or shutil.which("pdfinfo") is None:
         if os.environ.get("CI", "").lower() == "true":
-            pytest.fail("Chromium is required under CI=true; .ci/run installs the Debian package chromium")
-        pytest.skip("Chromium not installed here")
+            pytest.fail("Chromium and pdfinfo are required under CI=true; .ci/run installs the Debian packages chromium and poppler-utils")
+        pytest.skip("Chromium or pdfinfo (poppler-utils) not installed here")
     return found
 
 
