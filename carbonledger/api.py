@@ -7,8 +7,11 @@ a ``ComparisonResult``; ``audit_workbook`` an openpyxl workbook and the engine's
 
 from __future__ import annotations
 
+import os
+from datetime import UTC, datetime
 from pathlib import Path
 
+from .about import CAUTION
 from .analyses.cluster import dask_mapper
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
@@ -28,6 +31,7 @@ from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
 from .io.matching_chart import write_matching_chart
+from .io.report import ProjectReport, render_report
 from .io.workbook.reader import (
     base_factor_set,
     factor_set_from_workbook,
@@ -36,7 +40,7 @@ from .io.workbook.reader import (
 from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from .model.project import boundary_id, read_project_file
+from .model.project import boundary_id, parameter_table, read_project_file
 from .routes.project import load_project
 
 __all__ = [
@@ -48,6 +52,8 @@ __all__ = [
     "recalc",
     "lifetime",
     "plan",
+    "report",
+    "report_items",
     "load_project",
     "load_factor_set",
     "load_any_project",
@@ -431,3 +437,55 @@ def uncertainty_many(
     tasks = [(str(path), options) for path in files]
     with dask_mapper(workers, scheduler) as (mapper, _):
         return list((mapper or map)(uncertainty_one, tasks))
+
+
+def report_items(
+    paths: list[str | Path],
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> list[ProjectReport]:
+    """What a report shows of each project (files, or folders of project files): its score, its
+    parameters with units and, where the project has a [lifetime], its operating years."""
+    factor_set = _factor_set(factors)
+    items = []
+    for path in project_files(list(paths)):
+        project, sha = load_project(path, _boundary_overrides(boundary, overrides))
+        result = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha)
+        life = None
+        if project.lifetime is not None:
+            life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
+        items.append(ProjectReport(result, parameter_table(project), life))
+    return items
+
+
+def report(
+    paths: list[str | Path],
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    generated: str | None = None,
+    paper: str | None = None,
+) -> str:
+    """The project report of one or several projects as one self-contained HTML text.
+
+    generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
+    paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
+    """
+    if not paths:
+        raise InputError("report", "PROJECT", "at least one project file or folder")
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary)
+    return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
+
+
+def report_date() -> str:
+    """Today's date (UTC), or the date of $SOURCE_DATE_EPOCH for reproducible reports."""
+    epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
+    moment = datetime.fromtimestamp(int(epoch), UTC) if epoch.isdigit() else datetime.now(UTC)
+    return moment.date().isoformat()

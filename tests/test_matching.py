@@ -314,10 +314,10 @@ def test_unmatched_share_by_hour_and_month_by_hand(tmp_path):
 def test_score_writes_a_matching_chart(tmp_path):
     (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
     write_series(tmp_path, day_rows(solar=50.0, wind=0.0))
-    result = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--chart", tmp_path / "m.svg", "--format", "json")
+    result = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--matching-chart", tmp_path / "m.svg", "--format", "json")
     assert result.exit_code == 0, result.output
     assert (tmp_path / "m.svg").read_text(encoding="utf-8").lstrip().startswith("<?xml")
-    again = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--chart", tmp_path / "m.svg")
+    again = run_cli("score", tmp_path / "p.toml", "--no-ledger", "--matching-chart", tmp_path / "m.svg")
     assert_one_line_error(again)  # an existing chart is not overwritten
 
 

@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, plan, project_commands, recalc, uncertainty, workbook
+from . import compare, factors, plan, project_commands, recalc, report, uncertainty, workbook
 
 app = typer.Typer(
     add_completion=False,
@@ -41,6 +41,7 @@ app.command()(project_commands.score)
 app.command()(project_commands.params)
 app.command()(compare.compare)
 app.command()(workbook.workbook)
+app.command()(report.report)
 app.command()(recalc.recalc)
 app.command()(recalc.history)
 app.command()(plan.plan)

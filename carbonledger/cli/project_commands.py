@@ -15,6 +15,7 @@ from ..io.csv_text import csv_text
 from ..io.files import atomic_write
 from ..io.ledger import ledger_for_run, record_run
 from ..io.portfolio_output import lifetime_csv, lifetime_json, lifetime_table
+from ..io.score_chart import CHART_FORMATS, write_score_chart
 from ..io.tables import render as render_score
 from ..io.tables import score_csv
 from ..model.project import parameter_table
@@ -24,6 +25,7 @@ from ..routes.starter import normalise_choice, starter_choices, starter_project
 from .options import (
     BoundaryOption,
     FactorsOption,
+    ForceOption,
     FormatOption,
     GwpOption,
     LedgerOption,
@@ -50,7 +52,9 @@ def score(
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
-    chart: Annotated[Optional[Path], typer.Option("--chart", help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked (monthly matched/unmatched use, unmatched share by hour and month).")] = None,
+    chart: Annotated[Optional[Path], typer.Option("--chart", help="Also write a chart of stages, gases and scheme limits: FILE.png or FILE.svg.")] = None,
+    force: ForceOption = False,
+    matching_chart: Annotated[Optional[Path], typer.Option("--matching-chart", help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked (monthly matched/unmatched use, unmatched share by hour and month).")] = None,
     matching: Annotated[Optional[str], typer.Option("--matching", help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared annual shares, as in the audit workbook).")] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
@@ -58,6 +62,13 @@ def score(
         where = ledger_for_run(ledger, not no_ledger)
         if (project is None) == (from_workbook is None):
             raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
+        if chart is not None:
+            if lifetime:
+                raise InputError("--chart", str(chart), "a single score (not with --lifetime)")
+            if chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+                raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+            if chart.exists() and not force:
+                raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
         if lifetime:
             if from_workbook is not None:
                 raise InputError("--lifetime", "--from-workbook", "a project TOML file (lifetime scoring reads the project's [lifetime] section)")
@@ -69,15 +80,19 @@ def score(
                 result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary)
             else:
                 result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, matching=matching)
-                if chart is not None:
-                    api.matching_chart(project, chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_)
+                if matching_chart is not None:
+                    api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_, force=force)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
             command, kind = "score", "score"
+            if chart is not None:
+                write_score_chart(result, chart, force=force)
         if where is not None:
             record_run(command, [result], ledger=where, kind=kind)
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
+    if chart is not None:
+        typer.echo(f"wrote {chart}", err=True)
 
 
 def params(

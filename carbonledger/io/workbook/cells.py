@@ -39,14 +39,22 @@ def number_text(value: float) -> str:
 
 
 class Term:
-    """Formula text and the precedence of its outermost operation."""
+    """Formula text and the precedence of its outermost operation.
 
-    __slots__ = ("text", "precedence")
+    A number written into a formula is a literal (``literal`` holds its value). Arithmetic with
+    a literal 0 or 1 leaves the term out (x*1 is x, x*0 is 0, x+0 is x) and two literals are
+    combined into one, with the same floating-point operation the engine performs, so no
+    formula carries a ``*0*`` or ``*1*`` a reader has to puzzle over.
+    """
+
+    __slots__ = ("text", "precedence", "literal", "reciprocal_of")
     __array_priority__ = 1000  # numpy defers to Term's reflected operators
 
-    def __init__(self, text: str, precedence: int = ATOM):
+    def __init__(self, text: str, precedence: int = ATOM, literal: float | None = None, reciprocal_of: Term | None = None):
         self.text = text
         self.precedence = precedence
+        self.literal = literal
+        self.reciprocal_of = reciprocal_of  # 1/x: multiplying by it divides by x
 
     # helpers -----------------------------------------------------------------------------
     @staticmethod
@@ -57,7 +65,7 @@ class Term:
             raise TypeError("a truth value is not a formula operand")
         number = float(value)
         text = number_text(number)
-        return Term(f"({text})" if number < 0 else text, ATOM)
+        return Term(f"({text})" if number < 0 else text, ATOM, number)
 
     def _wrapped(self, below: int) -> str:
         return f"({self.text})" if self.precedence < below else self.text
@@ -65,6 +73,12 @@ class Term:
     # arithmetic --------------------------------------------------------------------------
     def __add__(self, other):
         other = Term.of(other)
+        if self.literal is not None and other.literal is not None:
+            return Term.of(self.literal + other.literal)
+        if other.literal == 0:
+            return self
+        if self.literal == 0:
+            return other
         return Term(f"{self.text}+{other.text}", SUM)
 
     def __radd__(self, other):
@@ -72,6 +86,12 @@ class Term:
 
     def __sub__(self, other):
         other = Term.of(other)
+        if self.literal is not None and other.literal is not None:
+            return Term.of(self.literal - other.literal)
+        if other.literal == 0:
+            return self
+        if self.literal == 0:
+            return -other
         return Term(f"{self.text}-{other._wrapped(PRODUCT)}", SUM)
 
     def __rsub__(self, other):
@@ -79,6 +99,18 @@ class Term:
 
     def __mul__(self, other):
         other = Term.of(other)
+        if self.literal is not None and other.literal is not None:
+            return Term.of(self.literal * other.literal)
+        if self.literal == 0 or other.literal == 0:
+            return Term.of(0.0)
+        if other.literal == 1:
+            return self
+        if self.literal == 1:
+            return other
+        if other.reciprocal_of is not None:
+            return self / other.reciprocal_of
+        if self.reciprocal_of is not None:
+            return other / self.reciprocal_of
         return Term(f"{self._wrapped(PRODUCT)}*{other._wrapped(PRODUCT)}", PRODUCT)
 
     def __rmul__(self, other):
@@ -86,12 +118,20 @@ class Term:
 
     def __truediv__(self, other):
         other = Term.of(other)
-        return Term(f"{self._wrapped(PRODUCT)}/{other._wrapped(ATOM)}", PRODUCT)
+        if self.literal is not None and other.literal is not None and other.literal != 0:
+            return Term.of(self.literal / other.literal)
+        if other.literal == 1:
+            return self
+        if self.literal == 0 and other.literal is None:
+            return Term.of(0.0)
+        return Term(f"{self._wrapped(PRODUCT)}/{other._wrapped(ATOM)}", PRODUCT, reciprocal_of=other if self.literal == 1 else None)
 
     def __rtruediv__(self, other):
         return Term.of(other) / self
 
     def __neg__(self):
+        if self.literal is not None:
+            return Term.of(-self.literal)
         return Term(f"(-{self._wrapped(ATOM)})", ATOM)
 
     def __pos__(self):
@@ -119,9 +159,9 @@ def local(column: str, row: int) -> Term:
 
 def sum_of(terms) -> Term:
     """Sum written out term by term (each addend visible to the reader); 0 when empty."""
-    terms = [Term.of(t) for t in terms]
+    terms = [term for term in (Term.of(t) for t in terms) if term.literal != 0]
     if not terms:
-        return Term("0")
+        return Term.of(0.0)
     text = "+".join(t.text for t in terms)
     return Term(text, SUM if len(terms) > 1 else terms[0].precedence)
 

@@ -100,10 +100,10 @@ def font_bold():
 def put_formula(ws, row: int, column: int, term, address: dict[str, str]):
     """Write a Term as a formula (factor placeholders resolved); a plain number as a number."""
     cell = ws.cell(row=row, column=column)
-    if isinstance(term, Term):
+    if isinstance(term, Term) and term.literal is None:
         cell.value = "=" + resolve(term.text, address)
     else:
-        cell.value = float(term)
+        cell.value = float(term.literal if isinstance(term, Term) else term)
     return cell
 
 

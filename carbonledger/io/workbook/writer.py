@@ -40,6 +40,7 @@ from ...model.project import parameter_table
 from ...model.reference import ReferenceValue
 from ...routes.base import FLOWS
 from ..files import atomic_write
+from ..labels import INTENSITY_LABELS, stage_name
 from .calculation import (
     CalculationBlock,
     SymbolicModel,
@@ -65,7 +66,6 @@ from .layout import (
     INTENSITY_UNITS,
     PERIODS,
     RESULTS,
-    bold_row,
     copy_tree,
     font_bold,
     is_number,
@@ -76,6 +76,18 @@ from .layout import (
     set_widths,
 )
 from .periods_sheet import plan_periods, write_periods_sheet
+from .style import (
+    LEGEND,
+    SHARE,
+    YEAR,
+    fill_missing_formats,
+    header_row,
+    input_format,
+    number_format,
+    page_setup,
+    style_cell,
+    wrap_columns,
+)
 
 
 def _name_cell(workbook, prefix: str, key: str, sheet: str, row: int) -> Term:
@@ -157,18 +169,46 @@ def build_workbook(
         source=source,
         meters_source=meters_source if meters is not None else "",
     )
+    _style_calculation(calculation_ws, block, result)
     for sheet in workbook.worksheets:
-        _print_layout(sheet)
+        fill_missing_formats(sheet)
+    page_setup(cover)
+    page_setup(inputs_ws, title_rows=f"{INPUT_HEADER_ROW}:{INPUT_HEADER_ROW}")
+    page_setup(factors_ws, title_rows=f"{FACTOR_HEADER_ROW}:{FACTOR_HEADER_ROW}")
+    page_setup(calculation_ws, title_columns="A:A", pages_wide=2)
+    page_setup(results_ws, title_columns="A:A", pages_wide=2)
+    if period_plan is not None:
+        page_setup(workbook[PERIODS], title_columns="A:A", pages_wide=2)
     return workbook
 
 
-def _print_layout(ws) -> None:
-    """Landscape, one page wide, header rows repeated: a verifier can print every sheet."""
-    ws.page_setup.orientation = "landscape"
-    ws.page_setup.paperSize = ws.PAPERSIZE_A4
-    ws.sheet_properties.pageSetUpPr.fitToPage = True
-    ws.page_setup.fitToWidth = 1
-    ws.page_setup.fitToHeight = 0
+def _style_calculation(ws, block: CalculationBlock, result: ScoreResult) -> None:
+    """Headers in the header style; amounts, supplies and kg CO2e with formats for their size."""
+    first_activity = min(block.activity_row.values())
+    first_exchange = min(row for row, _, _ in block.exchange_rows)
+    header_row(ws, first_activity - 1, 7)
+    header_row(ws, first_exchange - 1, ws.max_column)
+    ws.row_dimensions[first_exchange - 1].height = 45
+    style_cell(ws.cell(row=1, column=1), "title")
+    amounts = {(row.activity, row.kind, row.input, row.label): row for row in result.exchanges}
+    supply = {row.activity: row.activity_supply for row in result.exchanges}
+    carbon = "#,##0.000" if abs(result.total) >= 1 else "0.00000"
+    for key, row in block.activity_row.items():
+        for column in (5, 6, 7):
+            style_cell(ws.cell(row=row, column=column), "formula", number_format(supply.get(key)))
+    for row, key, exchange in block.exchange_rows:
+        engine = amounts.get((key, exchange.kind, exchange.input, exchange.label))
+        amount = engine.amount if engine else None
+        style_cell(ws.cell(row=row, column=7), "formula", number_format(amount))
+        style_cell(ws.cell(row=row, column=8), "formula", number_format(supply.get(key)))
+        style_cell(ws.cell(row=row, column=9), "formula", number_format(amount * supply.get(key, 1.0) if amount is not None else None))
+        if exchange.kind == "biosphere":
+            style_cell(ws.cell(row=row, column=10), "formula", "#,##0.0")
+            for column in range(11, ws.max_column + 1):
+                style_cell(ws.cell(row=row, column=column), "formula", carbon)
+    ws.column_dimensions["E"].width = 40
+    wrap_columns(ws, "E", first_exchange)
+    ws.freeze_panes = ws.cell(row=first_activity, column=2)
 
 
 
@@ -181,7 +221,7 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], e
              "`carbonledger workbook --from-workbook`.")
     for column, title in enumerate(INPUT_COLUMNS, start=1):
         put_text(ws, INPUT_HEADER_ROW, column, title)
-    bold_row(ws, INPUT_HEADER_ROW, len(INPUT_COLUMNS))
+    header_row(ws, INPUT_HEADER_ROW, len(INPUT_COLUMNS))
     row = INPUT_HEADER_ROW
     for path, value, unit, description in rows:
         row += 1
@@ -194,7 +234,9 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], e
             cell = _name_cell(ws.parent, "p_", path, INPUTS, row)
             input_cell[path] = cell
             set_path(symbolic, path, cell)
-    set_widths(ws, {"A": 46, "B": 36, "C": 18, "D": 70, "E": 40})
+        style_cell(ws.cell(row=row, column=2), "input", input_format(value, unit))
+    set_widths(ws, {"A": 46, "B": 30, "C": 16, "D": 60, "E": 34})
+    wrap_columns(ws, "BCDE", INPUT_HEADER_ROW + 1)
     ws.freeze_panes = ws.cell(row=INPUT_HEADER_ROW + 1, column=1)
 
 
@@ -203,7 +245,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
     put_text(ws, 2, 1, "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; molar masses (reference.*) come from the chemicals library and are not.")
     for column, title in enumerate(FACTOR_COLUMNS, start=1):
         put_text(ws, FACTOR_HEADER_ROW, column, title)
-    bold_row(ws, FACTOR_HEADER_ROW, len(FACTOR_COLUMNS))
+    header_row(ws, FACTOR_HEADER_ROW, len(FACTOR_COLUMNS))
     address: dict[str, str] = {}
     row = FACTOR_HEADER_ROW
     for key in sorted(used):
@@ -212,6 +254,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
         address[key] = _name_cell(ws.parent, "f_", key, FACTORS, row).text
         put_text(ws, row, 1, key)
         put_value(ws, row, 2, float(item.value))
+        style_cell(ws.cell(row=row, column=2), "factor", number_format(float(item.value)))
         put_text(ws, row, 3, item.unit)
         put_text(ws, row, 4, item.source, f"factor {key}: source")
         if isinstance(item, ReferenceValue):
@@ -220,10 +263,12 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
             continue
         put_text(ws, row, 5, item.table)
         put_value(ws, row, 6, item.year)
+        ws.cell(row=row, column=6).number_format = YEAR
         put_text(ws, row, 7, item.region)
         put_text(ws, row, 8, item.note, f"factor {key}: note")
         put_text(ws, row, 9, "yes" if item.from_memory else "no")
-    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 60, "E": 24, "F": 8, "G": 10, "H": 60, "I": 12})
+    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 46, "E": 22, "F": 7, "G": 10, "H": 46, "I": 9})
+    wrap_columns(ws, "ADEH", FACTOR_HEADER_ROW + 1)
     ws.freeze_panes = ws.cell(row=FACTOR_HEADER_ROW + 1, column=1)
     return address
 
@@ -243,22 +288,21 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     row = 5
     for column, text in enumerate(("stage", unit, "share of total", "engine at writing"), start=1):
         put_text(ws, row, column, text)
-    bold_row(ws, row, 4)
+    header_row(ws, row, 4)
     stages = stage_sums(block, inventory, block.headline_column)
     first_stage = row + 1
     total_row = first_stage + len(stages)
     for stage, term in stages.items():
         row += 1
-        put_text(ws, row, 1, stage)
-        put_formula(ws, row, 2, term, address)
+        put_text(ws, row, 1, stage_name(stage))
+        _figure(ws, row, term, address, engine.by_stage.get(stage))
         put_formula(ws, row, 3, Term(f"IF($B${total_row}=0,0,B{row}/$B${total_row})"), address)
-        put_value(ws, row, 4, engine.by_stage.get(stage))
+        ws.cell(row=row, column=3).number_format = SHARE
         cells[f"stage:{stage}"] = f"B{row}"
     last_stage = row
     row += 1
-    put_text(ws, row, 1, "total")
-    put_formula(ws, row, 2, sum_of(local("B", r) for r in range(first_stage, last_stage + 1)), address)
-    put_value(ws, row, 4, engine.total)
+    put_text(ws, row, 1, "Total")
+    _figure(ws, row, sum_of(local("B", r) for r in range(first_stage, last_stage + 1)), address, engine.total)
     ws.cell(row=row, column=1).font = font_bold()
     cells["total"] = f"B{row}"
     total = local("B", row)
@@ -266,34 +310,31 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     row += 2
     for column, text in enumerate(("gas", unit, "", "engine at writing"), start=1):
         put_text(ws, row, column, text)
-    bold_row(ws, row, 4)
+    header_row(ws, row, 4)
     for flow, term in gas_sums(block, block.headline_column).items():
         row += 1
         put_text(ws, row, 1, FLOWS[flow])
-        put_formula(ws, row, 2, term, address)
-        put_value(ws, row, 4, engine.by_gas.get(flow))
+        _figure(ws, row, term, address, engine.by_gas.get(flow))
         cells[f"gas:{flow}"] = f"B{row}"
 
     row += 2
     for column, text in enumerate(("intensity", "value", "unit", "engine at writing"), start=1):
         put_text(ws, row, column, text)
-    bold_row(ws, row, 4)
+    header_row(ws, row, 4)
     figures = intensities(total, model.inventory.reference_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)
     engine_figures = engine.intensity.model_dump()
     for key, term in figures.items():
         if term is None:
             continue
         row += 1
-        put_text(ws, row, 1, key)
-        put_formula(ws, row, 2, term, address)
+        put_text(ws, row, 1, INTENSITY_LABELS[key])
+        _figure(ws, row, term, address, engine_figures.get(key))
         put_text(ws, row, 3, INTENSITY_UNITS[key])
-        put_value(ws, row, 4, engine_figures.get(key))
         cells[f"intensity:{key}"] = f"B{row}"
     row += 1
-    put_text(ws, row, 1, "hydrogen_production_kg_co2e_per_kg_h2")
-    put_formula(ws, row, 2, sum_of(cell_of(block, block.gate_column, r) for r, _, e in block.exchange_rows if e.kind == "biosphere"), address)
+    put_text(ws, row, 1, "Hydrogen at the hydrogen plant gate")
+    _figure(ws, row, sum_of(cell_of(block, block.gate_column, r) for r, _, e in block.exchange_rows if e.kind == "biosphere"), address, engine.hydrogen_production_kg_co2e_per_kg_h2)
     put_text(ws, row, 3, "kg CO2e/kg H2 at the hydrogen plant gate")
-    put_value(ws, row, 4, engine.hydrogen_production_kg_co2e_per_kg_h2)
     cells["hydrogen_gate"] = f"B{row}"
 
     # thresholds table first in address order (checks reference it)
@@ -304,13 +345,14 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     for column, text in enumerate(("scheme", "tier", "limit", "comparison", "unit", "legal source", "from memory"), start=1):
         put_text(ws, trow, column, text)
     put_text(ws, trow - 1, 1, "Thresholds (edit a limit and the checks above follow)")
-    bold_row(ws, trow, 7)
+    header_row(ws, trow, 7)
     for scheme in chosen:
         for threshold in sorted(scheme.thresholds, key=lambda t: t.limit):
             trow += 1
             put_text(ws, trow, 1, scheme.id)
             put_text(ws, trow, 2, threshold.tier)
             put_value(ws, trow, 3, threshold.limit)
+            style_cell(ws.cell(row=trow, column=3), "input", number_format(threshold.limit))
             put_text(ws, trow, 4, "value <= limit" if threshold.inclusive else "value < limit")
             put_text(ws, trow, 5, scheme.unit)
             put_text(ws, trow, 6, threshold.source)
@@ -325,7 +367,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     )
     for column, text in enumerate(check_columns, start=1):
         put_text(ws, row, column, text)
-    bold_row(ws, row, len(check_columns))
+    header_row(ws, row, len(check_columns))
     engine_checks = {check.scheme: check for check in engine.checks}
     for scheme in chosen:
         row += 1
@@ -355,21 +397,38 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
         engine_check = engine_checks.get(scheme.id)
         put_value(ws, row, 16, engine_check.value if engine_check else None)
+        shown = number_format(engine_check.value if engine_check else None)
+        for column in (9, 10, 11, 13):
+            style_cell(ws.cell(row=row, column=column), "formula", shown)
+        style_cell(ws.cell(row=row, column=16), "engine", shown)
         cells[f"check:{scheme.id}"] = row
-    set_widths(ws, {"A": 40, "B": 22, "C": 16, "D": 18, "E": 18, "F": 22, "G": 18, "H": 18, "I": 18, "J": 16, "K": 16, "L": 12, "M": 16, "N": 30, "O": 12, "P": 18})
+    longest_name = max((len(scheme.name) for scheme in chosen), default=20)
+    set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14, "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14})
+    ws.row_dimensions[checks_header].height = 45
+    ws.freeze_panes = ws.cell(row=5, column=2)
+    style_cell(ws.cell(row=1, column=1), "title")
 
     chart = BarChart()
     chart.type = "bar"
     chart.title = "Contributions by stage (estimate, not a certification)"
     chart.y_axis.title = unit
-    chart.x_axis.title = "stage"
+    chart.x_axis.title = "Stage"
     chart.legend = None
     chart.add_data(Reference(ws, min_col=2, min_row=first_stage - 1, max_row=last_stage), titles_from_data=True)
     chart.set_categories(Reference(ws, min_col=1, min_row=first_stage, max_row=last_stage))
     chart.width, chart.height = 20, 9
-    ws.add_chart(chart, f"R{5}")
+    ws.add_chart(chart, f"A{trow + 3}")
     cells["stage_rows"] = (first_stage, last_stage)
     return cells
+
+
+def _figure(ws, row: int, term, address, engine_value) -> None:
+    """A result formula in column B and the engine's figure in D, both shown for their size."""
+    put_formula(ws, row, 2, term, address)
+    put_value(ws, row, 4, engine_value)
+    shown = number_format(engine_value)
+    style_cell(ws.cell(row=row, column=2), "formula", shown)
+    style_cell(ws.cell(row=row, column=4), "engine", shown)
 
 
 def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source) -> None:
@@ -412,7 +471,20 @@ def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source,
     for text in guide:
         put_text(ws, row, 1, text)
         row += 1
+    row += 1
+    put_text(ws, row, 1, "Cell styles")
+    ws.cell(row=row, column=1).font = font_bold()
+    samples = {"input": 0.95, "factor": 56100.0, "formula": 543.3, "engine": 543.3}
+    for kind, meaning in LEGEND:
+        row += 1
+        style_cell(put_value(ws, row, 1, samples[kind]), kind, number_format(samples[kind]))
+        put_text(ws, row, 2, meaning)
+    style_cell(ws.cell(row=1, column=1), "title")
     set_widths(ws, {"A": 40, "B": 90})
+    from openpyxl.styles import Alignment
+
+    for cell in ws["B"]:
+        cell.alignment = Alignment(wrap_text=True, vertical="top")
 
 
 def write_workbook_file(path: str | Path, workbook, force: bool = False) -> Path:

@@ -1,0 +1,47 @@
+"""``carbonledger report``: the project report, one self-contained HTML file (and a PDF)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from .. import api
+from ..about import CAUTION
+from ..errors import InputError
+from ..io.report import PAPERS, print_pdf, render_report, write_report
+from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, fail
+
+
+def report(
+    projects: Annotated[list[Path], typer.Argument(help="Project TOML files, or folders of them.")],
+    output: Annotated[Path, typer.Option("--output", "-o", help="The HTML file to write (REPORT.html).")],
+    pdf: Annotated[Optional[Path], typer.Option("--pdf", help="Also print the report to this PDF file (headless Chromium).")] = None,
+    paper: Annotated[str, typer.Option("--paper", help="Page size of the PDF: a4 or letter.")] = "a4",
+    scheme: SchemeOption = None,
+    gwp: GwpOption = "ar6",
+    factors: FactorsOption = "default-2026",
+    set_: SetOption = None,
+    boundary: BoundaryOption = None,
+    force: ForceOption = False,
+) -> None:
+    """Write the project report: summary and verdicts, stages and gases, scheme limits, lifetime, inputs, factors and their sources."""
+    try:
+        if output.suffix.lower() not in (".html", ".htm"):
+            raise InputError(output, "--output", f"a file ending in .html, got '{output.suffix or 'no suffix'}'")
+        if paper.lower() not in PAPERS:
+            raise InputError("--paper", paper, "a4 or letter")
+        for target in [output] + ([pdf] if pdf is not None else []):
+            if target.exists() and not force:
+                raise InputError(target, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        if pdf is not None and pdf.suffix.lower() != ".pdf":
+            raise InputError(pdf, "--pdf", f"a file ending in .pdf, got '{pdf.suffix or 'no suffix'}'")
+        items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
+        generated = api.report_date()
+        if pdf is not None:
+            print_pdf(render_report(items, generated=generated, caution=CAUTION, paper=paper.lower()), pdf, force=force)
+        write_report(render_report(items, generated=generated, caution=CAUTION), output, force=force)
+    except InputError as error:
+        fail(error)
+    typer.echo(f"wrote {output}" + (f" and {pdf}" if pdf is not None else ""), err=True)

@@ -1,0 +1,575 @@
+"""The project report: one self-contained HTML file a practitioner can hand over.
+
+``render_report`` is a function of results (``ScoreResult``, the project's parameter rows and,
+where the project has a ``[lifetime]``, its ``LifetimeResult``) to HTML text; it never scores.
+Everything is inline: the stylesheet, the charts (hand-built SVG with a <title> and <desc> for
+screen readers), fonts from the system. Nothing is requested from any other address when the
+file opens. The print stylesheet starts every section on a new page and fits A4 and US Letter.
+``print_pdf`` prints the HTML to PDF through headless Chromium.
+
+The look is this project's own: ink-blue and harbour-teal on warm paper, a serif for headings and
+the system sans-serif for text and figures, sections named for the questions a reader asks.
+"""
+
+from __future__ import annotations
+
+import html
+import os
+import re
+import shutil
+import subprocess
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from ..analyses.lifetime import LifetimeResult
+from ..core.results import Check, ScoreResult
+from ..core.scoring import rulebooks
+from ..errors import InputError
+from .files import atomic_write
+from .labels import gas_name, stage_name, words
+from .tables import INTENSITY_UNITS, display_number
+
+PAPERS = ("a4", "letter")
+CHROMIUM_NAMES = ("chromium", "chromium-browser", "google-chrome", "google-chrome-stable")
+
+# Our palette: ink, harbour teal, sandstone, kelp, brick, slate; stages take the sequence below.
+STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
+GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
+STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undetermined": "open"}
+
+@dataclass
+class ProjectReport:
+    """What the report shows of one project: its score, its inputs and, if given, its lifetime."""
+
+    result: ScoreResult
+    inputs: list[tuple[str, Any, str, str]] = field(default_factory=list)  # parameter_table rows
+    lifetime: LifetimeResult | None = None
+
+
+# --- words and numbers -------------------------------------------------------------------
+
+_FORMULA = re.compile(r"\b(CO2e?|CH4|N2O|NH3|H2|N2|O2)\b")
+
+
+def text(value: Any) -> str:
+    """Escaped text with chemical formulas subscripted (CO<sub>2</sub>e)."""
+    escaped = html.escape(str(value), quote=True)
+    return _FORMULA.sub(lambda m: re.sub(r"(\d)", r"<sub>\1</sub>", m.group(0)), escaped)
+
+
+def number(value: float | None) -> str:
+    return display_number(value).replace("-", "\u2212", 1) if value is not None and value < 0 else display_number(value)
+
+
+def status_of(check: Check) -> str:
+    """The verdict's status: ``check.status`` when the verdict rules provide it, else pass/fail."""
+    status = getattr(check, "status", None)
+    if status is None:
+        return "qualifies" if check.passes else "fails"
+    return str(getattr(status, "value", status)).replace("_", " ").replace("-", " ")
+
+
+def reasons_of(check: Check) -> list[str]:
+    reasons = getattr(check, "reasons", None) or []
+    return [str(getattr(r, "text", r)) for r in reasons]
+
+
+def badge(status: str) -> str:
+    return f'<span class="badge {STATUS_CLASS.get(status, "open")}">{text(status)}</span>'
+
+
+# --- charts (hand-built SVG) ---------------------------------------------------------------
+
+def _svg(width: int, height: int, title: str, desc: str, body: list[str], key: str) -> str:
+    return (
+        f'<svg class="chart" viewBox="0 0 {width} {height}" role="img" aria-labelledby="{key}-t {key}-d" '
+        f'xmlns="http://www.w3.org/2000/svg" preserveAspectRatio="xMinYMin meet">'
+        f'<title id="{key}-t">{html.escape(title)}</title><desc id="{key}-d">{html.escape(desc)}</desc>'
+        + "".join(body) + "</svg>"
+    )
+
+
+def _scale(low: float, high: float, left: float, right: float):
+    span = (high - low) or 1.0
+    return lambda value: left + (value - low) / span * (right - left)
+
+
+def waterfall_svg(result: ScoreResult, key: str) -> str:
+    """Horizontal waterfall: each stage a bar from the running sum before it to the sum after it,
+    then the total from zero."""
+    stages = list(result.by_stage.items())
+    running, spans = 0.0, []
+    for stage, value in stages:
+        spans.append((stage, running, running + value, value))
+        running += value
+    ends = [0.0] + [s for _, a, b, _ in spans for s in (a, b)] + [result.total]
+    low, high = min(ends), max(ends)
+    label_width, right_pad, row, top = 250, 110, 30, 14
+    width = 760
+    height = top + row * (len(spans) + 1) + 36
+    x = _scale(low, high if high > low else low + 1, label_width, width - right_pad)
+    body = [f'<line x1="{x(0):.1f}" y1="{top - 6}" x2="{x(0):.1f}" y2="{height - 30}" class="axis"/>']
+    for index, (stage, start, end, value) in enumerate(spans):
+        y = top + index * row
+        left, right = sorted((x(start), x(end)))
+        colour = STAGE_COLOURS[index % len(STAGE_COLOURS)]
+        body.append(f'<text x="{label_width - 10}" y="{y + 19}" class="label" text-anchor="end">{html.escape(stage_name(stage))}</text>')
+        body.append(f'<rect x="{left:.1f}" y="{y + 5}" width="{max(right - left, 1.2):.1f}" height="{row - 10}" fill="{colour}"><title>{html.escape(stage_name(stage))}: {html.escape(number(value))} {html.escape(result.unit)}</title></rect>')
+        if index + 1 < len(spans):
+            body.append(f'<line x1="{x(end):.1f}" y1="{y + row - 5}" x2="{x(end):.1f}" y2="{y + row + 5}" class="step"/>')
+        body.append(f'<text x="{max(left, right) + 6:.1f}" y="{y + 19}" class="value">{html.escape(number(value))}</text>')
+    y = top + len(spans) * row
+    left, right = sorted((x(0), x(result.total)))
+    body.append(f'<text x="{label_width - 10}" y="{y + 19}" class="label strong" text-anchor="end">Total</text>')
+    body.append(f'<rect x="{left:.1f}" y="{y + 4}" width="{max(right - left, 1.2):.1f}" height="{row - 8}" class="total-bar"/>')
+    body.append(f'<text x="{right + 6:.1f}" y="{y + 19}" class="value strong">{html.escape(number(result.total))}</text>')
+    body.append(f'<text x="{label_width}" y="{height - 10}" class="note">{html.escape(result.unit)}, {html.escape(result.boundary)}, GWP100 {html.escape(result.gwp_basis.upper())}</text>')
+    description = "; ".join(f"{stage_name(s)} {number(v)}" for s, v in stages) + f"; total {number(result.total)} {result.unit}."
+    return _svg(width, height, f"How the stages add up to the total ({result.unit})", "Waterfall by stage: " + description, body, key)
+
+
+def gas_svg(result: ScoreResult, key: str) -> str:
+    """One stacked bar of the total by gas (CO2e), with a key below."""
+    gases = [(gas, value) for gas, value in result.by_gas.items() if value != 0]
+    width, left, right, height = 760, 20, 20, 52 + 22 * len(gases)
+    positive = sum(v for _, v in gases if v > 0) or 1.0
+    x = _scale(0, positive, left, width - right)
+    body, start = [], 0.0
+    for gas, value in gases:
+        if value <= 0:
+            continue
+        colour = GAS_COLOURS.get(gas, "#7d8088")
+        body.append(f'<rect x="{x(start):.1f}" y="8" width="{x(start + value) - x(start):.1f}" height="26" fill="{colour}"><title>{html.escape(gas_name(gas))}: {html.escape(number(value))}</title></rect>')
+        start += value
+    for index, (gas, value) in enumerate(gases):
+        gx, gy = left, 56 + index * 22
+        colour = GAS_COLOURS.get(gas, "#7d8088")
+        share = value / result.total * 100 if result.total else 0.0
+        body.append(f'<rect x="{gx}" y="{gy - 10}" width="12" height="12" fill="{colour}"/>')
+        body.append(f'<text x="{gx + 18}" y="{gy}" class="label">{html.escape(gas_name(gas))}: {html.escape(number(value))} ({share:.1f} %)</text>')
+    description = "; ".join(f"{gas_name(g)} {number(v)}" for g, v in gases) + f" {result.unit}."
+    return _svg(width, height, f"The total by greenhouse gas ({result.unit}, CO2e)", "Stacked bar by gas: " + description, body, key)
+
+
+def limits_svg(result: ScoreResult, key: str) -> str:
+    """One row per scheme, each on its own scale and basis: the value against every tier limit."""
+    checks = result.checks
+    books = rulebooks()
+    label_width, width, row = 250, 760, 46
+    height = 10 + row * len(checks) + 40
+    body = []
+    for index, check in enumerate(checks):
+        book = books.get(check.scheme)
+        limits = sorted({t.limit for t in book.thresholds} if book else {check.limit})
+        high = max([check.value, *limits]) * 1.15 or 1.0
+        low = min(0.0, check.value)
+        x = _scale(low, high, label_width, width - 20)
+        y = 10 + index * row
+        status = status_of(check)
+        body.append(f'<text x="{label_width - 10}" y="{y + 16}" class="label" text-anchor="end">{html.escape(check.scheme)}</text>')
+        body.append(f'<text x="{label_width - 10}" y="{y + 31}" class="note" text-anchor="end">{html.escape(check.unit)}</text>')
+        body.append(f'<rect x="{label_width}" y="{y + 6}" width="{width - 20 - label_width}" height="22" class="track"/>')
+        left, right = sorted((x(0), x(check.value)))
+        body.append(f'<rect x="{left:.1f}" y="{y + 10}" width="{max(right - left, 1.2):.1f}" height="14" class="bar-{STATUS_CLASS.get(status, "open")}"><title>{html.escape(check.scheme)}: {html.escape(number(check.value))} {html.escape(check.unit)} ({html.escape(status)})</title></rect>')
+        for limit in limits:
+            mark = "limit-main" if limit == check.limit else "limit"
+            body.append(f'<line x1="{x(limit):.1f}" y1="{y + 2}" x2="{x(limit):.1f}" y2="{y + 32}" class="{mark}"/>')
+            body.append(f'<text x="{x(limit):.1f}" y="{y + 42}" class="tick" text-anchor="middle">{html.escape(number(limit))}</text>')
+        inside = right > width - 90
+        body.append(f'<text x="{(left - 6) if inside else (right + 6):.1f}" y="{y + 22}" class="value{" on-bar" if inside else ""}" text-anchor="{"end" if inside else "start"}">{html.escape(number(check.value))}</text>')
+    body.append(f'<text x="{label_width}" y="{height - 22}" class="note">Bar: this project under the scheme\'s own rules and basis.</text>')
+    body.append(f'<text x="{label_width}" y="{height - 6}" class="note">Strokes: the scheme\'s limits (bold: the one this verdict is read against).</text>')
+    description = "; ".join(f"{c.scheme}: {number(c.value)} against a limit of {number(c.limit)} {c.unit}, {status_of(c)}" for c in checks) + "."
+    return _svg(width, height, "This project against each scheme's limits", description, body, key)
+
+
+def lifetime_svg(life: LifetimeResult, key: str) -> str:
+    """Intensity of every operating year, with the lifetime average."""
+    years = [y.year for y in life.years]
+    values = [y.total for y in life.years]
+    width, height, left, right, top, bottom = 760, 260, 70, 20, 16, 44
+    high = max(values + [life.average_with_construction]) * 1.12 or 1.0
+    low = min(0.0, *values)
+    x = _scale(years[0], years[-1] if len(years) > 1 else years[0] + 1, left, width - right)
+    y = _scale(low, high, height - bottom, top)
+    body = [f'<line x1="{left}" y1="{y(low):.1f}" x2="{width - right}" y2="{y(low):.1f}" class="axis"/>',
+            f'<line x1="{left}" y1="{top}" x2="{left}" y2="{height - bottom}" class="axis"/>']
+    for fraction in (0.0, 0.5, 1.0):
+        tick = low + (high / 1.12 - low) * fraction
+        body.append(f'<text x="{left - 6}" y="{y(tick) + 4:.1f}" class="tick" text-anchor="end">{html.escape(number(tick))}</text>')
+    step = max(1, len(years) // 8)
+    for year in years[::step]:
+        body.append(f'<text x="{x(year):.1f}" y="{height - bottom + 16}" class="tick" text-anchor="middle">{year}</text>')
+    points = " ".join(f"{x(a):.1f},{y(b):.1f}" for a, b in zip(years, values, strict=True))
+    body.append(f'<polyline points="{points}" class="trace"/>')
+    for a, b in zip(years, values, strict=True):
+        body.append(f'<circle cx="{x(a):.1f}" cy="{y(b):.1f}" r="3" class="dot"><title>{a}: {html.escape(number(b))} {html.escape(life.unit)}</title></circle>')
+    average = life.average_without_construction
+    body.append(f'<line x1="{left}" y1="{y(average):.1f}" x2="{width - right}" y2="{y(average):.1f}" class="limit"/>')
+    body.append(f'<text x="{width - right}" y="{y(average) - 5:.1f}" class="note" text-anchor="end">lifetime average {html.escape(number(average))}</text>')
+    body.append(f'<text x="{left}" y="{height - 8}" class="note">{html.escape(life.unit)} by operating year (construction not included)</text>')
+    description = "; ".join(f"{a}: {number(b)}" for a, b in zip(years, values, strict=True)) + f" {life.unit}; lifetime average {number(average)}."
+    return _svg(width, height, f"Intensity by operating year ({life.unit})", description, body, key)
+
+
+# --- sections -------------------------------------------------------------------------------
+
+def _table(headers: list[str], rows: list[list[str]], cls: str = "", numeric: set[int] = frozenset(), caption: str = "") -> str:
+    head = "".join(f'<th scope="col"{" class=num" if i in numeric else ""}>{h}</th>' for i, h in enumerate(headers))
+    lines = []
+    for row in rows:
+        cells = []
+        for i, cell in enumerate(row):
+            if i == 0:
+                cells.append(f'<th scope="row">{cell}</th>')
+            else:
+                cells.append(f'<td{" class=num" if i in numeric else ""}>{cell}</td>')
+        lines.append("<tr>" + "".join(cells) + "</tr>")
+    caption_html = f"<caption>{caption}</caption>" if caption else ""
+    return f'<table class="{cls}">{caption_html}<thead><tr>{head}</tr></thead><tbody>{"".join(lines)}</tbody></table>'
+
+
+def glance_section(item: ProjectReport, key: str, caution: str) -> str:
+    result = item.result
+    intensity = result.intensity.model_dump()
+    cards = "".join(
+        f'<div class="figure"><span class="big">{number(value)}</span><span class="unit">{text(INTENSITY_UNITS[name])}</span></div>'
+        for name, value in intensity.items()
+        if value is not None
+    )
+    rows = []
+    for check in result.checks:
+        status = status_of(check)
+        reasons = reasons_of(check)
+        reason_html = "<ul class=reasons>" + "".join(f"<li>{text(r)}</li>" for r in reasons) + "</ul>" if reasons else ""
+        rows.append([
+            f'{text(check.name)}<span class="scheme-id">{text(check.scheme)}</span>',
+            f"{badge(status)}{reason_html}",
+            number(check.value),
+            number(check.limit),
+            text(check.unit),
+            text(check.tier or "none reached"),
+            "yes" if check.from_memory else "no",
+        ])
+    table = _table(["Scheme", "Verdict", "Result", "Limit", "Unit", "Tier", "Recorded from memory"], rows, "verdicts", {2, 3}) if rows else "<p>No scheme applies to this product.</p>"
+    return (
+        f'<section class="sheet" id="{key}-glance" aria-labelledby="{key}-glance-h"><h2 id="{key}-glance-h">At a glance</h2>'
+        f'<p class="lead">Carbon intensity, {text(result.boundary)}, per {text(result.functional_unit)}, GWP100 {text(result.gwp_basis.upper())}:</p>'
+        f'<div class="figures">{cards}</div>'
+        f'<p>Hydrogen at the hydrogen plant\'s gate: <strong>{number(result.hydrogen_production_kg_co2e_per_kg_h2)}</strong> {text("kg CO2e/kg H2")}.</p>'
+        f"<h3>Verdict of every scheme</h3>{table}"
+        f'<p class="caution" role="note"><strong>Caution.</strong> {text(caution)}</p></section>'
+    )
+
+
+def sources_section(item: ProjectReport, key: str) -> str:
+    result = item.result
+    stage_rows = [[text(stage_name(s)), number(v), f"{v / result.total * 100:.1f} %" if result.total else "-"] for s, v in result.by_stage.items()]
+    stage_rows.append(["<strong>Total</strong>", f"<strong>{number(result.total)}</strong>", "100.0 %" if result.total else "-"])
+    gas_rows = [[text(gas_name(g)), number(v), f"{v / result.total * 100:.1f} %" if result.total else "-"] for g, v in result.by_gas.items()]
+    non_ghg = "".join(f"<p class=note>{text(words(flow))} (not a greenhouse gas): {number(v)} kg per functional unit.</p>" for flow, v in result.non_ghg_kg.items() if v)
+    return (
+        f'<section class="sheet" id="{key}-sources" aria-labelledby="{key}-sources-h"><h2 id="{key}-sources-h">Where the emissions arise</h2>'
+        f"<h3>By stage</h3>{waterfall_svg(result, key + '-wf')}"
+        + _table(["Stage", f"{text(result.unit)}", "Share of total"], stage_rows, "compact", {1, 2})
+        + f"<h3>By gas</h3>{gas_svg(result, key + '-gas')}"
+        + _table(["Gas", f"{text(result.unit)} (CO<sub>2</sub>e)", "Share of total"], gas_rows, "compact", {1, 2})
+        + non_ghg
+        + "</section>"
+    )
+
+
+def schemes_section(item: ProjectReport, key: str) -> str:
+    result = item.result
+    if not result.checks:
+        return ""
+    books = rulebooks()
+    details = []
+    for check in result.checks:
+        book = books.get(check.scheme)
+        tiers = ""
+        if book:
+            tiers = "<ul class=tiers>" + "".join(
+                f"<li>{'&le;' if t.inclusive else '&lt;'} {number(t.limit)} {text(check.unit)}: {text(t.tier)} <span class=src>({text(t.source)}{', from memory' if t.from_memory else ''})</span></li>"
+                for t in sorted(book.thresholds, key=lambda t: -t.limit)
+            ) + "</ul>"
+        details.append(
+            f'<div class="scheme"><h4>{text(check.name)} {badge(status_of(check))}</h4>'
+            f"<dl><dt>Basis</dt><dd>{text(words(check.basis))}, {text(check.quantity.replace('_', ' '))}</dd>"
+            f"<dt>Boundary</dt><dd>{text(check.boundary)}</dd><dt>GWP set</dt><dd>{text(check.gwp_basis.upper())}</dd>"
+            f"<dt>Electricity</dt><dd>{text(words(check.electricity_rule))}</dd>"
+            f"<dt>Result against limit</dt><dd>{number(check.value)} against {number(check.limit)} {text(check.unit)} (margin {number(check.margin)})</dd>"
+            f"<dt>Source</dt><dd>{text(book.document if book else '')}{' (recorded from memory, not checked against the legal text)' if check.from_memory else ''}</dd></dl>"
+            f"{tiers}<p class=note>{text(check.note)}</p></div>"
+        )
+    return (
+        f'<section class="sheet" id="{key}-schemes" aria-labelledby="{key}-schemes-h"><h2 id="{key}-schemes-h">Against each scheme</h2>'
+        f"<p>Each scheme is checked under its own rulebook: its basis, boundary, GWP set and electricity rule. The values are therefore not the headline total.</p>"
+        f"{limits_svg(result, key + '-lim')}{''.join(details)}</section>"
+    )
+
+
+def lifetime_section(item: ProjectReport, key: str) -> str:
+    life = item.lifetime
+    if life is None:
+        return ""
+    schemes = [s.scheme for s in life.schemes]
+    rows = [
+        [str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction * 100:.1f} %", number(y.output_t), number(y.total)]
+        + [f"{number(y.scheme_values.get(s))} {'✓' if y.passes.get(s) else '✗'}" for s in schemes]
+        for y in life.years
+    ]
+    summary = [
+        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge("qualifies" if s.passes else "fails"), ", ".join(map(str, s.years_missed)) or "none"]
+        for s in life.schemes
+    ]
+    return (
+        f'<section class="sheet" id="{key}-life" aria-labelledby="{key}-life-h"><h2 id="{key}-life-h">Over the operating life</h2>'
+        f"<p>{life.operating_years} operating years from {life.years[0].year}; lifetime output {number(life.lifetime_output_t)} t; construction {number(life.construction_t_co2e)} t CO<sub>2</sub>e "
+        f"({number(life.construction_kg_co2e_per_unit)} {text(life.unit)}). Grid trajectory: {text(life.trajectory_source or 'none (constant factor)')}.</p>"
+        f"{lifetime_svg(life, key + '-life')}"
+        + _table(["Scheme", "Average without construction", "Average with construction", "Counts construction", "Lifetime value / limit", "Unit", "Verdict", "Years missed"], summary, "compact", {1, 2})
+        + _table(["Year", "Stack age (years)", "Efficiency of new", "Output (t)", f"Total ({text(life.unit)})"] + [text(s) for s in schemes], rows, "compact small", set(range(1, 5 + len(schemes))))
+        + "</section>"
+    )
+
+
+def inputs_section(item: ProjectReport, key: str) -> str:
+    result = item.result
+    info = result.parameters.get("project", {})
+    evidence = info.get("note", "")
+    rows = [[f"<code>{text(path)}</code>", text(value if not isinstance(value, float) else display_number(value)), text(unit), text(description)] for path, value, unit, description in item.inputs if not path.startswith("project.")]
+    return (
+        f'<section class="sheet" id="{key}-inputs" aria-labelledby="{key}-inputs-h"><h2 id="{key}-inputs-h">What went in</h2>'
+        f"<p><strong>Evidence note in the project file:</strong> {text(evidence) if evidence else 'none given.'}</p>"
+        + _table(["Parameter", "Value", "Unit", "Meaning"], rows, "inputs")
+        + "</section>"
+    )
+
+
+def factors_section(item: ProjectReport, key: str) -> str:
+    result = item.result
+    rows = [
+        [f"<code>{text(f.id)}</code>", number(f.value), text(f.unit), text(f.source) + (f" <span class=src>{text(f.table)}</span>" if f.table else ""), text(f.year or ""), text(f.region), '<span class="flag">from memory</span>' if f.from_memory else "checked", text(f.note)]
+        for f in result.factors_used
+    ]
+    remembered = sum(1 for f in result.factors_used if f.from_memory)
+    return (
+        f'<section class="sheet" id="{key}-factors" aria-labelledby="{key}-factors-h"><h2 id="{key}-factors-h">Factors and their sources</h2>'
+        f"<p>Factor set <strong>{text(result.factor_set.name)}</strong>, sha256 <code class=hash>{text(result.factor_set.sha256)}</code>. "
+        f"{len(result.factors_used)} factors used, {remembered} of them recorded from memory (not yet checked against the document).</p>"
+        + _table(["Factor", "Value", "Unit", "Source", "Year", "Region", "Checked", "Note"], rows, "factors", {1})
+        + "</section>"
+    )
+
+
+def provenance_section(item: ProjectReport, key: str, generated: str, caution: str) -> str:
+    result = item.result
+    pairs = [
+        ("Project file", f"<code>{text(result.project_file)}</code>"),
+        ("Project file sha256", f"<code class=hash>{text(result.project_sha256)}</code>"),
+        ("Factor set", f"{text(result.factor_set.name)}"),
+        ("Factor set sha256", f"<code class=hash>{text(result.factor_set.sha256)}</code>"),
+        ("GWP100 set (headline)", text(result.gwp_basis.upper())),
+        ("Heating values (LHV)", ", ".join(f"{text(words(k.replace('_lhv', '')))} {number(v)} MJ/kg" for k, v in result.heating_values_mj_per_kg.items())),
+        ("carbonledger version", text(result.carbonledger_version)),
+        ("Report date", text(generated)),
+    ]
+    dl = "".join(f"<dt>{k}</dt><dd>{v}</dd>" for k, v in pairs)
+    return (
+        f'<section class="sheet" id="{key}-provenance" aria-labelledby="{key}-provenance-h"><h2 id="{key}-provenance-h">How this was made</h2>'
+        f"<dl class=provenance>{dl}</dl>"
+        f'<p class="caution" role="note"><strong>Caution.</strong> {text(caution)}</p></section>'
+    )
+
+
+def project_html(item: ProjectReport, index: int, generated: str, caution: str) -> str:
+    result = item.result
+    key = f"p{index}"
+    info = result.parameters.get("project", {})
+    meta = [("Site", info.get("site", "")), ("Product", result.product), ("Boundary", result.boundary), ("Functional unit", result.functional_unit)]
+    dl = "".join(f"<dt>{k}</dt><dd>{text(v)}</dd>" for k, v in meta if v)
+    return (
+        f'<article class="project" id="{key}" aria-labelledby="{key}-h"><header class="project-head">'
+        f'<p class="kicker">Project {index}</p><h1 id="{key}-h">{text(result.project)}</h1><dl class="meta">{dl}</dl></header>'
+        + glance_section(item, key, caution)
+        + sources_section(item, key)
+        + schemes_section(item, key)
+        + lifetime_section(item, key)
+        + inputs_section(item, key)
+        + factors_section(item, key)
+        + provenance_section(item, key, generated, caution)
+        + "</article>"
+    )
+
+
+def contents_html(items: list[ProjectReport]) -> str:
+    rows = []
+    for index, item in enumerate(items, 1):
+        result = item.result
+        verdicts = " ".join(f'<span class="pair">{text(c.scheme)} {badge(status_of(c))}</span>' for c in result.checks) or "none apply"
+        rows.append([f'<a href="#p{index}">{text(result.project)}</a>', f"{number(result.total)}", text(result.unit), text(result.boundary), verdicts])
+    return (
+        '<section class="contents" aria-labelledby="contents-h"><h2 id="contents-h">Projects in this report</h2>'
+        + _table(["Project", "Result", "Unit", "Boundary", "Verdicts"], rows, "compact", {1})
+        + "</section>"
+    )
+
+
+STYLE = """
+:root{--ink:#1d2a33;--paper:#fbf9f3;--rule:#d8d1c1;--teal:#24566b;--teal-soft:#e4eef0;--sand:#c9892b;--sand-soft:#f6ecd9;
+--ok:#2f6b45;--ok-soft:#e2efe5;--no:#a4452f;--no-soft:#f6e2dc;--off:#5b616c;--off-soft:#e7e8ea;--open:#8a6a10;--open-soft:#f5edd2;}
+*{box-sizing:border-box}
+html{background:var(--paper);color:var(--ink)}
+body{margin:0 auto;max-width:980px;padding:0 28px 48px;font:15px/1.5 system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans","DejaVu Sans",sans-serif;font-variant-numeric:tabular-nums}
+h1,h2,h3,h4{font-family:Charter,"Bitstream Charter","Sitka Text",Cambria,"DejaVu Serif",Georgia,serif;font-weight:600;line-height:1.2;color:var(--teal)}
+h1{font-size:30px;margin:4px 0 10px}
+h2{font-size:22px;margin:0 0 12px;padding-bottom:6px;border-bottom:2px solid var(--sand)}
+h3{font-size:17px;margin:22px 0 8px}
+h4{font-size:15px;margin:0 0 6px;display:flex;gap:10px;align-items:center;flex-wrap:wrap}
+.masthead{display:flex;justify-content:space-between;align-items:baseline;border-bottom:1px solid var(--rule);padding:18px 0 10px;margin-bottom:18px;font-size:13px;color:#55616b}
+.masthead .brand{font-family:Charter,"Bitstream Charter",Cambria,Georgia,serif;font-size:18px;color:var(--teal);letter-spacing:.02em}
+.kicker{margin:0;text-transform:uppercase;letter-spacing:.12em;font-size:12px;color:var(--sand)}
+.meta{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px;margin:0 0 10px;font-size:14px}
+.meta dt,.provenance dt{color:#55616b}.meta dd,.provenance dd{margin:0}
+.project-head{padding:12px 0 6px}
+section.sheet{background:#fff;border:1px solid var(--rule);border-radius:6px;padding:18px 22px 20px;margin:18px 0}
+.contents{margin:8px 0 26px}
+.lead{font-size:16px;margin-top:0}
+.figures{display:flex;gap:14px;flex-wrap:wrap;margin:8px 0 14px}
+.figure{flex:1 1 200px;border-left:5px solid var(--teal);background:var(--teal-soft);padding:10px 14px;border-radius:0 6px 6px 0}
+.figure .big{display:block;font-size:28px;font-weight:650;color:var(--teal)}
+.figure .unit{font-size:13px;color:#3e4a52}
+table{border-collapse:collapse;width:100%;margin:10px 0 14px;font-size:13.5px}
+caption{text-align:left;font-weight:600;padding-bottom:4px}
+th,td{padding:5px 8px;border-bottom:1px solid var(--rule);vertical-align:top;text-align:left}
+thead th{background:var(--sand-soft);border-bottom:2px solid var(--sand);font-weight:600}
+tbody th{font-weight:500}
+.num{text-align:right;white-space:nowrap}
+table.compact{width:auto;min-width:60%}
+table.small,table.factors,table.inputs{font-size:12.5px}
+table.factors td:nth-child(8){color:#4d5860}
+table.factors,table.inputs{table-layout:fixed}
+table.factors code,table.inputs code{word-break:break-all}
+table.factors th:nth-child(1){width:18%}table.factors th:nth-child(2){width:8%}table.factors th:nth-child(3){width:10%}
+table.factors th:nth-child(4){width:23%}table.factors th:nth-child(5){width:6%}table.factors th:nth-child(6){width:8%}
+table.factors th:nth-child(7){width:11%}table.factors th:nth-child(8){width:16%}
+table.factors td:nth-child(5){white-space:nowrap}
+table.inputs th:nth-child(1){width:32%}table.inputs th:nth-child(2){width:20%}table.inputs th:nth-child(3){width:14%}table.inputs th:nth-child(4){width:34%}
+td .src{font-size:.92em}
+tr{break-inside:avoid}
+thead{display:table-header-group}
+.scheme-id{display:block;font-size:12px;color:#66717a;font-family:ui-monospace,"DejaVu Sans Mono",monospace}
+.badge{display:inline-block;padding:1px 9px;border-radius:11px;font-size:12.5px;font-weight:650;letter-spacing:.02em;border:1px solid}
+.badge.ok{color:var(--ok);background:var(--ok-soft);border-color:var(--ok)}
+.badge.no{color:var(--no);background:var(--no-soft);border-color:var(--no)}
+.badge.off{color:var(--off);background:var(--off-soft);border-color:var(--off)}
+.badge.open{color:var(--open);background:var(--open-soft);border-color:var(--open)}
+.pair{white-space:nowrap;margin-right:10px}
+.reasons{margin:4px 0 0 16px;padding:0;font-size:12.5px}
+.caution{background:var(--sand-soft);border-left:5px solid var(--sand);padding:10px 14px;border-radius:0 6px 6px 0;margin:16px 0 0}
+.note,.src{color:#5d6870;font-size:12.5px}
+.scheme{border-top:1px solid var(--rule);padding:12px 0 4px;break-inside:avoid}
+.scheme dl{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px;margin:4px 0;font-size:13.5px}
+.scheme dt{color:#55616b}.scheme dd{margin:0}
+.tiers{margin:6px 0;padding-left:20px;font-size:13px}
+.provenance{display:grid;grid-template-columns:max-content 1fr;gap:4px 16px;font-size:14px}
+code{font-family:ui-monospace,"DejaVu Sans Mono",Menlo,Consolas,monospace;font-size:.92em}
+.hash{word-break:break-all}
+.flag{color:var(--open);font-weight:600}
+svg.chart{display:block;width:100%;height:auto;max-width:760px;margin:6px 0 8px;font-family:inherit}
+svg .label{font-size:13px;fill:var(--ink)}svg .value{font-size:12.5px;fill:var(--ink)}svg .strong{font-weight:700}
+svg .note{font-size:11.5px;fill:#5d6870}svg .tick{font-size:11px;fill:#5d6870}
+svg .axis{stroke:#8b949b;stroke-width:1}svg .step{stroke:#8b949b;stroke-width:1;stroke-dasharray:2 2}
+svg .total-bar{fill:var(--ink)}svg .on-bar{fill:#fff;font-weight:600}svg .track{fill:#f1eee6}
+svg .bar-ok{fill:var(--ok)}svg .bar-no{fill:var(--no)}svg .bar-off{fill:var(--off)}svg .bar-open{fill:var(--open)}
+svg .limit{stroke:var(--ink);stroke-width:1.2;stroke-dasharray:4 3}svg .limit-main{stroke:var(--ink);stroke-width:2.6}
+svg .trace{fill:none;stroke:var(--teal);stroke-width:2.2}svg .dot{fill:var(--teal)}
+footer.colophon{margin-top:30px;font-size:12.5px;color:#5d6870;border-top:1px solid var(--rule);padding-top:10px}
+@media print{
+ @page{margin:14mm 13mm 16mm}
+ html,body{background:#fff}
+ body{max-width:none;padding:0;font-size:10pt}
+ section.sheet{border:none;padding:0;margin:0;break-before:page;border-radius:0}
+ article.project{break-before:page}
+ article.project:first-of-type{break-before:auto}
+ .contents + article.project{break-before:page}
+ .project-head + section.sheet{break-before:avoid}
+ h2,h3,h4{break-after:avoid}
+ svg.chart{max-width:100%;break-inside:avoid}
+ table{font-size:8.8pt}table.factors,table.inputs,table.small{font-size:8pt}
+ .figure .big{font-size:20pt}
+ a{color:inherit;text-decoration:none}
+ .badge,.figure,.caution,thead th{-webkit-print-color-adjust:exact;print-color-adjust:exact}
+}
+"""
+
+
+def render_report(items: list[ProjectReport], *, generated: str, caution: str, paper: str | None = None) -> str:
+    """The whole report as one HTML text (no outside request). ``paper`` ('a4' or 'letter') fixes
+    the printed page size, for the PDF; without it the reader's printer decides."""
+    if not items:
+        raise InputError("report", "PROJECT", "at least one project")
+    title = items[0].result.project if len(items) == 1 else f"{len(items)} projects"
+    page = {"a4": "@page{size:A4}", "letter": "@page{size:letter}"}.get(paper or "", "")
+    body = [
+        '<header class="masthead"><span class="brand">carbonledger &middot; project report</span>'
+        f"<span>{text(generated)} &middot; version {text(items[0].result.carbonledger_version)}</span></header>"
+    ]
+    if len(items) > 1:
+        body.append(contents_html(items))
+    body += [project_html(item, index, generated, caution) for index, item in enumerate(items, 1)]
+    body.append(f'<footer class="colophon">Made with carbonledger {text(items[0].result.carbonledger_version)} on {text(generated)}. {text(caution)}</footer>')
+    return (
+        "<!DOCTYPE html>\n"
+        f'<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">'
+        f'<meta name="generator" content="carbonledger {text(items[0].result.carbonledger_version)}">'
+        f"<title>{text(title)}: carbon intensity report</title><style>{STYLE}{page}</style></head>"
+        f"<body><main>{''.join(body)}</main></body></html>\n"
+    )
+
+
+# --- files ------------------------------------------------------------------------------------
+
+def write_report(html_text: str, path: str | Path, force: bool = False) -> Path:
+    return atomic_write(path, lambda tmp: tmp.write_text(html_text, encoding="utf-8"), force=force)
+
+
+def find_chromium() -> str | None:
+    """Headless Chromium: $CARBONLEDGER_CHROMIUM, else the usual names on PATH."""
+    named = os.environ.get("CARBONLEDGER_CHROMIUM")
+    if named:
+        return shutil.which(named) or (named if Path(named).is_file() else None)
+    return next((found for name in CHROMIUM_NAMES if (found := shutil.which(name))), None)
+
+
+def chromium_command(chromium: str) -> list[str]:
+    """Chromium headless with the flags it needs in a container (no sandbox as root)."""
+    flags = [chromium, "--headless", "--disable-gpu", "--no-first-run", "--no-default-browser-check", "--disable-extensions", "--hide-scrollbars"]
+    if hasattr(os, "geteuid") and os.geteuid() == 0:
+        flags.append("--no-sandbox")
+    return flags
+
+
+def print_pdf(html_text: str, path: str | Path, force: bool = False, timeout_s: float = 120.0) -> Path:
+    """Print the report to PDF with headless Chromium (``--print-to-pdf``), atomically."""
+    chromium = find_chromium()
+    if chromium is None:
+        raise InputError(path, "--pdf", "Chromium on PATH to print the PDF (e.g. `apt-get install chromium`), or $CARBONLEDGER_CHROMIUM naming it")
+
+    def write(tmp: Path) -> None:
+        with tempfile.TemporaryDirectory(prefix="carbonledger-pdf-") as folder:
+            page = Path(folder) / "report.html"
+            page.write_text(html_text, encoding="utf-8")
+            command = chromium_command(chromium) + [f"--user-data-dir={folder}/profile", "--no-pdf-header-footer", f"--print-to-pdf={tmp}", page.as_uri()]
+            try:
+                done = subprocess.run(command, capture_output=True, timeout=timeout_s)
+            except subprocess.TimeoutExpired:
+                raise InputError(path, "--pdf", f"Chromium to print within {timeout_s:.0f} s (it did not)") from None
+            if done.returncode != 0 or not tmp.exists() or tmp.stat().st_size == 0:
+                last = (done.stderr.decode("utf-8", "replace").strip().splitlines() or ["no message"])[-1]
+                raise InputError(path, "--pdf", f"Chromium to print the PDF (it failed: {last[:200]})")
+
+    return atomic_write(path, write, force=force)

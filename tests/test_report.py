@@ -1,0 +1,157 @@
+"""The project report's HTML without a browser: self-contained, complete, accessible, safe to write.
+
+The browser checks (screenshot, rendered text, network, PDF) live in test_report_browser.py.
+"""
+
+from __future__ import annotations
+
+import re
+import subprocess
+import sys
+from types import SimpleNamespace
+
+import pytest
+from conftest import DEMO, ROOT
+
+from carbonledger import api
+from carbonledger.about import CAUTION
+from carbonledger.io.labels import stage_name, words
+from carbonledger.io.report import ProjectReport, render_report, status_of
+
+BLUE = DEMO / "blue_atr_ammonia.toml"
+
+
+def run(*args, env=None):
+    return subprocess.run([sys.executable, "-m", "carbonledger", *map(str, args)], capture_output=True, text=True, cwd=ROOT, env=env)
+
+
+def assert_one_line_error(process, *words_in_line):
+    assert process.returncode == 2, process.stderr
+    assert "Traceback" not in process.stderr
+    lines = [line for line in process.stderr.splitlines() if line.strip()]
+    assert len(lines) == 1 and lines[0].startswith("error: "), process.stderr
+    for word in words_in_line:
+        assert word in lines[0], (word, lines[0])
+
+
+@pytest.fixture(scope="module")
+def blue():
+    items = api.report_items([BLUE])
+    return items, render_report(items, generated="2026-12-01", caution=CAUTION)
+
+
+def test_self_contained_nothing_to_fetch(blue):
+    _, page = blue
+    assert "<script" not in page and "<link" not in page and "@import" not in page and "url(" not in page
+    assert not re.search(r"""\b(src|href|srcset|poster|data)\s*=\s*["']?\s*(https?:)?//""", page, re.I)
+
+
+def test_contents_every_figure_a_reader_needs(blue):
+    items, page = blue
+    result = items[0].result
+    plain = re.sub(r"<[^>]+>", "", page)
+    assert result.project in plain
+    assert result.factor_set.name in plain and result.factor_set.sha256 in plain
+    assert f"version {result.carbonledger_version}" in plain and "2026-12-01" in plain
+    assert plain.count(CAUTION) >= 2  # at a glance and at the end
+    for check in result.checks:
+        assert check.name in plain
+    for factor in result.factors_used:
+        assert factor.id in plain
+    # every parameter outside [project] is listed with its unit
+    for path, _, _unit, _ in items[0].inputs:
+        if not path.startswith("project."):
+            assert path in plain
+    # the ATR demo uses grid and wind electricity: both show in the stage table by name
+    assert "Electricity supply" in plain and "CO2 capture and storage" in plain
+
+
+def test_waterfall_steps_add_up_to_the_total(blue):
+    """A waterfall's steps end where the next begins, and the last ends at the total bar
+    (conservation of the stage contributions: by_stage sums to the total)."""
+    items, page = blue
+    waterfall = re.search(r'<svg[^>]*aria-labelledby="p1-wf-t.*?</svg>', page, re.S).group(0)
+    bars = [(float(x), float(w)) for x, w in re.findall(r'<rect x="([\d.]+)" y="[\d.]+" width="([\d.]+)" height="20" fill', waterfall)]
+    total_x, total_w = (float(v) for v in re.search(r'<rect x="([\d.]+)" y="[\d.]+" width="([\d.]+)" height="\d+" class="total-bar"', waterfall).groups())
+    nonzero = [(x, w) for x, w in bars if w > 1.3]
+    assert len(nonzero) >= 4
+    assert nonzero[0][0] == pytest.approx(total_x, abs=0.11)
+    for (x1, w1), (x2, _) in zip(nonzero, nonzero[1:], strict=False):
+        assert x1 + w1 == pytest.approx(x2, abs=0.2)  # all blue-ammonia stages are emissions (>= 0)
+    assert nonzero[-1][0] + nonzero[-1][1] == pytest.approx(total_x + total_w, abs=0.3)
+
+
+def test_status_and_reasons_when_the_verdict_rules_give_them(blue):
+    items, _ = blue
+    check = items[0].result.checks[0]
+    assert status_of(check) == ("qualifies" if check.passes else "fails")  # before the verdict rules land
+    richer = SimpleNamespace(**check.model_dump(), status="not_eligible", reasons=["natural gas with capture is not a renewable fuel of non-biological origin"])
+    result = items[0].result.model_copy(update={"checks": [richer]})  # no validation: a Check with status and reasons
+    page = render_report([ProjectReport(result, items[0].inputs)], generated="2026-12-01", caution=CAUTION)
+    assert 'class="badge off">not eligible<' in page
+    assert "natural gas with capture is not a renewable fuel of non-biological origin" in page
+
+
+def test_names_in_words():
+    assert stage_name("co2_capture_and_storage") == "CO2 capture and storage"
+    assert words("hydrogen_production") == "Hydrogen production"
+
+
+def test_folder_gives_one_section_per_project_and_a_contents_table():
+    items = api.report_items([DEMO / "portfolio"])
+    page = render_report(items, generated="2026-12-01", caution=CAUTION)
+    assert len(items) == 2 and all(item.lifetime is not None for item in items)
+    assert page.count('<article class="project"') == 2
+    assert "Projects in this report" in page and 'href="#p2"' in page
+    assert page.count("Over the operating life") == 2
+
+
+def test_command_writes_atomically_and_refuses_to_overwrite(tmp_path):
+    out = tmp_path / "report.html"
+    first = run("report", BLUE, "-o", out)
+    assert first.returncode == 0, first.stderr
+    assert out.read_text(encoding="utf-8").startswith("<!DOCTYPE html>")
+    out.write_text("kept", encoding="utf-8")
+    assert_one_line_error(run("report", BLUE, "-o", out), "--force")
+    assert out.read_text(encoding="utf-8") == "kept"
+    assert run("report", BLUE, "-o", out, "--force").returncode == 0
+    assert out.read_text(encoding="utf-8") != "kept"
+    assert not list(tmp_path.glob(".*.part"))
+
+
+def test_command_bad_inputs_one_line(tmp_path, write_project):
+    out = tmp_path / "r.html"
+    assert_one_line_error(run("report", tmp_path / "missing.toml", "-o", out), "missing.toml")
+    bad = write_project('[project]\nname = "x"\nproduct = "steel"\n')
+    assert_one_line_error(run("report", bad, "-o", out), "product")
+    assert_one_line_error(run("report", BLUE, "-o", tmp_path / "r.txt"), "--output", ".html")
+    assert_one_line_error(run("report", BLUE, "-o", out, "--paper", "a3"), "--paper")
+    assert not out.exists()
+
+
+def test_pdf_without_chromium_is_one_line(tmp_path):
+    import os
+
+    env = {**os.environ, "CARBONLEDGER_CHROMIUM": str(tmp_path / "no-such-browser")}
+    out, pdf = tmp_path / "r.html", tmp_path / "r.pdf"
+    assert_one_line_error(run("report", BLUE, "-o", out, "--pdf", pdf, env=env), "--pdf", "Chromium")
+    assert not pdf.exists() and not out.exists()
+
+
+def test_score_chart_png_and_svg(tmp_path):
+    png, svg = tmp_path / "grey.png", tmp_path / "grey.svg"
+    shipped = DEMO / "grey_smr_ammonia_shipped.toml"
+    assert run("score", shipped, "--no-ledger", "--chart", png).returncode == 0
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # the PNG signature (ISO/IEC 15948, 5.2)
+    assert run("score", shipped, "--no-ledger", "--chart", svg).returncode == 0
+    drawing = svg.read_text(encoding="utf-8")
+    result = api.score(shipped)
+    for stage in result.by_stage:
+        assert stage_name(stage) in drawing  # labels in words, not identifiers
+    for check in result.checks:
+        assert check.name in drawing
+    assert "Shipping" in drawing and "_" not in re.sub(r"<[^>]*>", "", drawing).replace("__", "")
+    png.write_bytes(b"kept")
+    assert_one_line_error(run("score", shipped, "--no-ledger", "--chart", png), "--force")
+    assert png.read_bytes() == b"kept"
+    assert_one_line_error(run("score", shipped, "--no-ledger", "--chart", tmp_path / "c.pdf"), "--chart", ".png or .svg")

@@ -1,0 +1,135 @@
+"""The project report opened in a real browser (headless Chromium from the system packages).
+
+One Chromium start per file: it takes a screenshot, prints to PDF, dumps the DOM after rendering
+and logs the network. Under CI=true a missing Chromium fails (``.ci/run`` installs it); locally
+these tests skip. Set CARBONLEDGER_DOCS_SCREENSHOT=1 to refresh docs/report_demo.png.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import shutil
+from pathlib import Path
+
+import pytest
+from browser_support import WINDOW, chromium_or_skip, pdf_info, render, url_attributes, visible_text
+
+from carbonledger import api
+from carbonledger.about import CAUTION
+from carbonledger.io.report import render_report, status_of
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "demo_projects"
+
+# Paper sizes in PostScript points (1/72 inch): ISO 216 A4 is 210 x 297 mm = 595.28 x 841.89 pt;
+# US Letter (ANSI A) is 8.5 x 11 in = 612 x 792 pt.
+PAPER_PT = {"a4": (595.28, 841.89), "letter": (612.0, 792.0)}
+
+CASES = {
+    "blue": ([DEMO / "blue_atr_ammonia.toml"], "a4"),
+    "grey-shipped": ([DEMO / "grey_smr_ammonia_shipped.toml"], "letter"),
+    "portfolio": ([DEMO / "portfolio"], "a4"),
+}
+
+
+@pytest.fixture(scope="module")
+def rendered(tmp_path_factory):
+    chromium_or_skip()
+    out = {}
+    for name, (paths, paper) in CASES.items():
+        folder = tmp_path_factory.mktemp(name)
+        items = api.report_items(paths)
+        page = folder / "report.html"
+        page.write_text(render_report(items, generated="2026-12-01", caution=CAUTION, paper=paper), encoding="utf-8")
+        out[name] = (items, paper, page, render(page, folder / "chromium"))
+    if os.environ.get("CARBONLEDGER_DOCS_SCREENSHOT"):
+        shutil.copyfile(out["blue"][3].screenshot, ROOT / "docs" / "report_demo.png")
+    return out
+
+
+@pytest.mark.parametrize("name", list(CASES))
+def test_screenshot_is_the_window_size_and_not_blank(rendered, name):
+    from PIL import Image
+
+    with Image.open(rendered[name][3].screenshot) as image:
+        assert image.size == WINDOW
+        pixels = image.convert("RGB")
+        colours = pixels.getcolors(maxcolors=1 << 20)
+        assert len(colours) > 50  # text, charts and badges, not one flat colour
+        teal = sum(count for count, rgb in colours if rgb == (0x24, 0x56, 0x6B))
+        assert teal > 200  # the palette's teal (intensity cards, first stage bar) is on screen
+
+
+@pytest.mark.parametrize("name", list(CASES))
+def test_rendered_text_carries_names_verdicts_sources_and_caution(rendered, name):
+    items, _, _, page = rendered[name]
+    text = visible_text(page.dom)
+    assert " ".join(CAUTION.split()) in text
+    for item in items:
+        result = item.result
+        assert result.project in text
+        assert result.factor_set.sha256 in text
+        assert " ".join(result.factors_used[0].source.split()) in text
+        for check in result.checks:
+            assert check.name in text
+            assert re.search(rf"{re.escape(check.name)}.{{0,80}}?\b{status_of(check)}\b", text), check.scheme
+    if name == "portfolio":
+        assert "Over the operating life" in text  # both portfolio projects have a [lifetime]
+
+
+@pytest.mark.parametrize("name", list(CASES))
+def test_nothing_is_requested_from_another_address(rendered, name):
+    page = rendered[name][3]
+    for tag, attribute, value in url_attributes(page.dom):
+        assert not re.match(r"\s*(https?:)?//", value, re.I), (tag, attribute, value)
+    assert page.page_requests == []
+
+
+def test_the_request_check_sees_an_outside_image(tmp_path):
+    """Control: the net-log check does report a page that loads an image from elsewhere."""
+    page = tmp_path / "outside.html"
+    page.write_text('<!DOCTYPE html><html><body><img src="http://example.invalid/pixel.png" alt="x"></body></html>', encoding="utf-8")
+    assert any(url.startswith("http://example.invalid/") for url in render(page, tmp_path / "chromium").page_requests)
+
+
+@pytest.mark.parametrize("name", list(CASES))
+def test_pdf_has_a_page_per_section_on_the_right_paper(rendered, name):
+    items, paper, _, page = rendered[name]
+    info = pdf_info(page.pdf)
+    width, height = (float(v) for v in re.match(r"([\d.]+) x ([\d.]+)", info["Page size"]).groups())
+    assert width == pytest.approx(PAPER_PT[paper][0], abs=1.5)
+    assert height == pytest.approx(PAPER_PT[paper][1], abs=1.5)
+    sections = page.dom.count('<section class="sheet"')
+    assert sections == sum(6 + (item.lifetime is not None) for item in items)  # every section is a page break
+    assert sections <= int(info["Pages"]) <= 3 * sections + 1
+
+
+@pytest.mark.parametrize("name", list(CASES))
+def test_charts_have_alt_text_and_tables_header_cells(rendered, name):
+    """WCAG 2.1 technique H51 (table headers in th) and SVG accessibility (a <title> and <desc>)."""
+    dom = rendered[name][3].dom
+    charts = re.findall(r"<svg\b.*?</svg>", dom, re.S)
+    assert charts
+    for chart in charts:
+        assert 'role="img"' in chart and "aria-labelledby" in chart
+        assert re.search(r"<title[^>]*>[^<]{10,}</title>", chart) and re.search(r"<desc[^>]*>[^<]{10,}</desc>", chart)
+    tables = re.findall(r"<table\b.*?</table>", dom, re.S)
+    assert tables
+    for table in tables:
+        assert re.search(r"<thead>\s*<tr>\s*<th\b", table)
+
+
+def test_command_writes_html_and_a_letter_pdf(tmp_path):
+    chromium_or_skip()
+    from typer.testing import CliRunner
+
+    from carbonledger.cli import app
+
+    html, pdf = tmp_path / "green.html", tmp_path / "green.pdf"
+    done = CliRunner().invoke(app, ["report", str(DEMO / "green_electrolysis_ammonia.toml"), "-o", str(html), "--pdf", str(pdf), "--paper", "letter"])
+    assert done.exit_code == 0, done.output
+    assert html.read_text(encoding="utf-8").startswith("<!DOCTYPE html>")
+    assert pdf.read_bytes().startswith(b"%PDF-")
+    width, height = (float(v) for v in re.match(r"([\d.]+) x ([\d.]+)", pdf_info(pdf)["Page size"]).groups())
+    assert (width, height) == (pytest.approx(612.0, abs=1.5), pytest.approx(792.0, abs=1.5))  # US Letter, 8.5 x 11 in
