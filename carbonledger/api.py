@@ -61,6 +61,8 @@ def score(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    year: int | None = None,
+    matching: dict | None = None,
 ) -> ScoreResult:
     """Score a project file: carbon intensity, by stage and gas, with scheme checks.
 
@@ -72,9 +74,12 @@ def score(
     schemes : scheme ids to check; default all that apply to the product.
     overrides : 'dotted.parameter=value' strings applied to the project before validation.
     boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
+    year : calendar year whose dates the scheme rules are read on; default this year.
+    matching : electricity source name -> finest period a time series shows it matched
+        ('hourly', 'half_hourly'); without it hourly rules are undetermined.
     """
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
+    return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matching)
 
 
 def score_workbook(
@@ -85,11 +90,12 @@ def score_workbook(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    year: int | None = None,
 ) -> ScoreResult:
     """Score the inputs and factors of an audit workbook; options left None default to its cover."""
     project, sha, settings = load_project_from_workbook(path, _boundary_overrides(boundary, overrides))
     factor_set = factor_set_from_workbook(path, base_factor_set(settings, factors))
-    return score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha)
+    return score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha, year=year)
 
 
 def load_any_project(path: str | Path, factor_set: FactorSet, overrides: list[str] | None = None):

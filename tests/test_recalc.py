@@ -56,8 +56,14 @@ def test_grid_change_moves_only_grid_projects_by_the_hand_computed_amount(grid_u
     for stem in ("green_electrolysis_ammonia", "skelmar_green_hydrogen"):
         for row in _rows(result, stem).values():
             assert row.change == 0.0 and not row.rescored and row.status in ("still passes", "still fails")
+    # The cracked green ammonia draws 2.0 kWh/kg H2 of grid electricity at the destination's
+    # cracker (demo file). The EU rulebooks count that delivery (e_td, Delegated Regulation (EU)
+    # 2023/1185 Annex Part A): 2.0 x 37 g / 119.96 MJ/kg = 0.61687 g CO2e/MJ; gate-based ones do not move.
+    cracked = _rows(result, "green_ammonia_cracked_hydrogen")
+    assert cracked["eu-rfnbo"].change == pytest.approx(2.0 * delta_g / 119.96, rel=1e-9)
+    assert cracked["us-45v"].change == 0.0 and cracked["japan-ammonia"].change == 0.0
     moved = {row.project_file for row in result.rows if row.change != 0.0}
-    assert all("green" not in name for name in moved)
+    assert all("green" not in name or "cracked" in name for name in moved)
     assert result.changed_factors == ["electricity.grid.eu27_2018"]
 
 
@@ -65,7 +71,7 @@ def test_newly_failing_rows_come_first(grid_update):
     result = recalc(load_portfolio([DEMO, PORTFOLIO]), load_factor_set("default-2026"), load_factor_set(str(grid_update)))
     statuses = [row.status for row in result.rows]
     count = statuses.count("newly fails")
-    assert count == 3  # blue ATR ammonia (at the gate and shipped) under the EU RFNBO rule, hybrid hydrogen under 45V
+    assert count == 1  # hybrid hydrogen under 45V (blue ammonia is not eligible under eu-rfnbo, Directive (EU) 2018/2001 Art. 2)
     assert statuses[:count] == ["newly fails"] * count
 
 
@@ -93,7 +99,7 @@ def test_recalc_exit_codes_and_formats(tmp_path):
     failing = run_cli(*args, "--fail-on-new-failures", "--format", "json")
     assert failing.exit_code == 3
     data = json.loads(failing.stdout)
-    assert data["newly_failing"] == 3 and data["rows"][0]["status"] == "newly fails"
+    assert data["newly_failing"] == 1 and data["rows"][0]["status"] == "newly fails"
     # the other way round, projects only newly pass: exit 0 even with the flag
     back = run_cli("recalc", DEMO, PORTFOLIO, "--from", "demo-2027-grid-revision", "--to", "default-2026", "--fail-on-new-failures", "--format", "csv")
     assert back.exit_code == 0, back.output

@@ -12,7 +12,7 @@ import pytest
 
 from carbonledger.api import score
 from carbonledger.io.workbook.cells import Term
-from workbook_support import DEMO, labelled, recalculate_with_formulas, recalculate_with_libreoffice, run_cli, sheet, soffice
+from workbook_support import VERDICT_WORDS, DEMO, labelled, recalculate_with_formulas, recalculate_with_libreoffice, run_cli, sheet, soffice
 
 DEMOS = sorted(DEMO.glob("*.toml"))
 FLOW_LABELS = {
@@ -54,7 +54,8 @@ def assert_agrees(values_workbook, result) -> None:
         row = rows[check.scheme]
         assert close(row[9].value, check.value), check.scheme
         assert close(row[10].value, check.limit)
-        assert row[11].value == ("pass" if check.passes else "fail")
+        assert row[11].value == VERDICT_WORDS[check.status]  # live formula within the rules read at writing
+        assert row[16].value == check.status and row[17].value.startswith(check.reasons[0])
         assert close(row[12].value, check.margin)
         assert row[13].value == (check.tier or "none")
 

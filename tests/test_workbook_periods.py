@@ -10,7 +10,7 @@ from carbonledger.api import score
 from carbonledger.model.factors import load_factor_set
 from carbonledger.analyses.periods import month_results, read_meters
 from carbonledger.routes.project import load_project
-from workbook_support import DEMO, recalculate_with_formulas, run_cli, sheet
+from workbook_support import VERDICT_WORDS, DEMO, recalculate_with_formulas, run_cli, sheet
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
 GREEN_METERS = """month,electricity.solar [MWh],electricity.wind [MWh],hydrogen [t],ammonia [t]
@@ -103,7 +103,7 @@ def test_month_blocks_agree_with_the_engine_and_the_meters(project, text, tmp_pa
         for position, check in enumerate(result.checks):
             column = 5 + stages + 3 * position
             assert close(rows[month][column], check.value), (month, check.scheme)
-            assert rows[month][column + 1] == ("pass" if check.passes else "fail")
+            assert rows[month][column + 1] == VERDICT_WORDS[check.status]
     for position, check in enumerate(engine[0].checks):
         column = 5 + stages + 3 * position
         weighted = sum(r.checks[position].value * rows[m][1] for m, r in zip(parsed.months, engine)) / sum(rows[m][1] for m in parsed.months)

@@ -217,8 +217,12 @@ def lifetime_score(
     for number, check in enumerate(first.checks):
         rulebook = books[check.scheme]
         values = np.array([score.checks[number].value for score in scores])
-        basis_product = first.product if rulebook.basis == "product" else "hydrogen"
-        per_basis_unit = construction_per_gate_unit if rulebook.basis == "product" else construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
+        if rulebook.basis == "product":
+            basis_product, per_basis_unit = first.product, construction_per_gate_unit
+        elif rulebook.basis == "delivered":
+            basis_product, per_basis_unit = first.reference_product, construction_per_unit
+        else:
+            basis_product, per_basis_unit = "hydrogen", construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
         added = intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[rulebook.quantity]
         without = float(stage.output_weighted_mean(values, units))
         with_construction = without + float(added)
@@ -226,7 +230,7 @@ def lifetime_score(
         lifetime_value = with_construction if rulebook.counts_construction else without
         missed = []
         for index, value in enumerate(counted):
-            verdict = rulebook.evaluate(float(value))["passes"]
+            verdict = rulebook.evaluate(float(value))["passes"] and scores[index].checks[number].status != "not_eligible"
             yearly_pass[index][check.scheme] = verdict
             if not verdict:
                 missed.append(life.first_year + index)

@@ -25,6 +25,7 @@ FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, jso
 LedgerOption = Annotated[Optional[Path], typer.Option("--ledger", help="Run ledger (SQLite) to record in; default $CARBONLEDGER_LEDGER or the user's data folder.")]
 NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
 BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
+YearOption = Annotated[Optional[int], typer.Option("--year", help="Calendar year whose dates the scheme rules are read on (dated rule versions); default: this year.")]
 ForceOption = Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")]
 
 

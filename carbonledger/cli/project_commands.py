@@ -29,6 +29,7 @@ from .options import (
     OutputFormat,
     SchemeOption,
     SetOption,
+    YearOption,
     explicit,
     fail,
     render,
@@ -47,6 +48,7 @@ def score(
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
+    year: YearOption = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
@@ -62,9 +64,9 @@ def score(
             command, kind = "score --lifetime", "lifetime"
         else:
             if from_workbook is not None:
-                result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary)
+                result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary, year=year)
             else:
-                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
+                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, year=year)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: to_csv(csv_rows(result)))
             command, kind = "score", "score"
         if where is not None:
@@ -127,7 +129,7 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
                 rows.append((s.id, s.name, t.tier, t.limit, t.inclusive, s.unit, s.quantity, s.basis, s.gwp, s.electricity, s.from_memory or t.from_memory, t.source))
         return to_csv(rows)
 
-    typer.echo(render(output_format, table=table, json=lambda: json.dumps([s.model_dump() for s in books.values()], indent=2), csv=csv), nl=False)
+    typer.echo(render(output_format, table=table, json=lambda: json.dumps([s.model_dump(mode="json") for s in books.values()], indent=2), csv=csv), nl=False)
 
 
 def init(

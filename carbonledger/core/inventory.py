@@ -27,6 +27,7 @@ class Inventory:
     reference_product: str = ""  # product of the reference activity: ammonia or hydrogen
     functional_unit: str = ""
     delivery: dict = field(default_factory=dict)  # voyage and cracking figures
+    electricity_sources: dict = field(default_factory=dict)  # electricity activity key -> source name
 
 
 def build_inventory(params: dict, inputs) -> Inventory:
@@ -57,6 +58,7 @@ def build_inventory(params: dict, inputs) -> Inventory:
         reference_product=chain.product,
         functional_unit=functional_unit,
         delivery=chain.figures,
+        electricity_sources=chain.electricity_sources,
     )
 
 

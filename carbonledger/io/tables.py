@@ -49,7 +49,11 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str]]:
             (f"check:{check.scheme}", "margin", check.margin, check.unit),
             (f"check:{check.scheme}", "passes", check.passes, ""),
             (f"check:{check.scheme}", "tier", check.tier or "", ""),
+            (f"check:{check.scheme}", "status", check.status, ""),
+            (f"check:{check.scheme}", "assessment_period", check.assessment_period, ""),
         ]
+        rows += [(f"check:{check.scheme}", "rule_version", version, "") for version in check.rule_versions]
+        rows += [(f"check:{check.scheme}", "reason", reason, "") for reason in check.reasons]
     return rows
 
 
@@ -96,7 +100,7 @@ def render(result: ScoreResult) -> str:
             console.print(f"{flow.upper()} emitted (not a greenhouse gas, not in CO2e): {display_number(kilograms)} kg per functional unit")
     if result.checks:
         table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
-        for column in ("scheme", "value", "limit", "unit", "verdict", "margin", "tier", "GWP", "electricity"):
+        for column in ("scheme", "value", "limit", "unit", "status", "margin", "tier", "GWP"):
             table.add_column(column, justify="right" if column in ("value", "limit", "margin") else "left")
         for check in result.checks:
             table.add_row(
@@ -104,15 +108,17 @@ def render(result: ScoreResult) -> str:
                 display_number(check.value),
                 display_number(check.limit),
                 check.unit,
-                "pass" if check.passes else "FAIL",
+                check.status.replace("_", " ").upper() if check.status != "qualifies" else check.status,
                 display_number(check.margin),
                 check.tier or "-",
                 check.gwp_basis.upper(),
-                check.electricity_rule.replace("_", " "),
             )
         console.print(table)
-        if result.boundary != "cradle-to-gate":
-            console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
+        for check in result.checks:
+            if check.reasons:
+                console.print(f"{check.scheme}: {check.status.replace('_', ' ')}, first reason: {check.reasons[0]}", highlight=False, markup=False)
+        period = result.checks[0].assessment_period
+        console.print(f"Scheme rules read on the dates of {period} (--year). Each check is on its rulebook's own basis and boundary; every reason is in the JSON and CSV output.")
         if any(check.from_memory for check in result.checks):
             console.print("* rulebook or threshold recorded from memory, not yet checked against the legal text")
     flagged = [f.id for f in result.factors_used if f.from_memory]
