@@ -99,8 +99,8 @@ def test_formulas_library_recalculates_the_engine_figures(project, tmp_path):
 
 def test_agreement_holds_for_other_gwp_sets_and_a_chosen_scheme(tmp_path):
     project = DEMO / "blue_smr_hydrogen.toml"
-    out = write(project, tmp_path / "b.xlsx", "--gwp", "ar4", "--scheme", "us-45v", "--set", "natural_gas.methane_loss_rate=0.02")
-    result = score(project, gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_loss_rate=0.02"])
+    out = write(project, tmp_path / "b.xlsx", "--gwp", "ar4", "--scheme", "us-45v", "--set", "natural_gas.methane_emission_share=0.02")
+    result = score(project, gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_emission_share=0.02"])
     assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), result)
 
 
