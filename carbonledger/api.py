@@ -173,9 +173,9 @@ def audit_workbook(
     return workbook, engine
 
 
-def recalc(paths: list[str | Path], old_factors: str | Path | FactorSet, new_factors: str | Path | FactorSet, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None) -> Recalc:
-    """Rescore a portfolio (files or folders of project files) under a new factor set."""
-    return recalc_portfolio(load_portfolio(paths), _factor_set(old_factors), _factor_set(new_factors), gwp=gwp, schemes=schemes)
+def recalc(paths: list[str | Path], old_factors: str | Path | FactorSet, new_factors: str | Path | FactorSet, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None, year: int | None = None) -> Recalc:
+    """Rescore a portfolio (files or folders of project files) under a new factor set; scheme rules read on ``year``'s dates."""
+    return recalc_portfolio(load_portfolio(paths), _factor_set(old_factors), _factor_set(new_factors), gwp=gwp, schemes=schemes, year=year)
 
 
 def lifetime(

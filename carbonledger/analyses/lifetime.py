@@ -176,9 +176,10 @@ def lifetime_score(
     efficiency = stage.efficiency_fraction_of_new(loss, ages)
     outputs = stage.annual_output_t(life.nameplate_output_t_per_year, life.capacity_factor, efficiency)
 
-    year_projects, year_sets = [], []
+    year_projects, year_sets, calendar_years = [], [], []
     for index in indices:
         year = life.first_year + int(index)
+        calendar_years.append(year)
         year_data = data
         if ageing:
             section, name = ageing.split(".")
@@ -190,7 +191,7 @@ def lifetime_score(
             year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
         else:
             year_sets.append(factor_set)
-    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes)
+    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)

@@ -28,7 +28,7 @@ from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..routes.project import load_project
 
-STATUSES = ("newly fails", "newly passes", "still fails", "still passes")
+STATUSES = ("newly fails", "newly passes", "still fails", "still passes", "still not eligible", "still undetermined")
 
 
 @dataclass(frozen=True)
@@ -76,6 +76,7 @@ def score_portfolio(
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
     check_with_bw2calc: bool = True,
+    year: int | list[int] | None = None,
 ) -> list[ScoreResult]:
     """Score many validated projects under one factor set, solving shared structures together.
 
@@ -88,9 +89,10 @@ def score_portfolio(
         if scheme_id not in known:
             raise InputError("--scheme", scheme_id, f"one of {', '.join(known)}")
     sets = factor_set if isinstance(factor_set, list) else [factor_set] * len(projects)
+    years = year if isinstance(year, list) else [year] * len(projects)  # scheme rules read on each year's dates
     prepared = []
-    for item, one_set in zip(projects, sets):
-        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256)
+    for item, one_set, one_year in zip(projects, sets, years):
+        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year)
         if schemes:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
         prepared.append(ready)
@@ -113,6 +115,8 @@ class RecalcRow:
     new_passes: bool
     status: str  # one of STATUSES
     rescored: bool  # False when none of the project's factors changed and the old result was reused
+    old_status: str = ""  # the check's verdict status before and after (qualifies, fails, not_eligible, undetermined)
+    new_status: str = ""
 
 
 @dataclass
@@ -132,12 +136,15 @@ class Recalc:
         return [row for row in self.rows if row.status == "newly fails"]
 
 
-def status_of(old_passes: bool, new_passes: bool) -> str:
+def status_of(old_passes: bool, new_passes: bool, new_status: str = "fails") -> str:
+    """The change of a verdict; a check that neither qualifies before nor after says why now."""
     if old_passes and not new_passes:
         return "newly fails"
     if new_passes and not old_passes:
         return "newly passes"
-    return "still passes" if new_passes else "still fails"
+    if new_passes:
+        return "still passes"
+    return {"not_eligible": "still not eligible", "undetermined": "still undetermined"}.get(new_status, "still fails")
 
 
 def recalc(
@@ -147,16 +154,17 @@ def recalc(
     *,
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
+    year: int | None = None,
 ) -> Recalc:
     """Rescore a portfolio under a new factor set; one row per project and scheme.
 
     Rows come newly failing first, then newly passing, then the rest in project order.
     """
-    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes)
+    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes, year=year)
     changed = sorted({change.id for change in diff_sets(old_set, new_set)})
     changed_ids = set(changed)
     to_rescore = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
-    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes) if to_rescore else []
+    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes, year=year) if to_rescore else []
     new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
     new_scores = [score.model_copy(update={"factor_set": new_ref}) for score in old_scores]
     for number, score in zip(to_rescore, rescored):
@@ -179,8 +187,10 @@ def recalc(
                     change=after.value - check.value,
                     old_passes=check.passes,
                     new_passes=after.passes,
-                    status=status_of(check.passes, after.passes),
+                    status=status_of(check.passes, after.passes, after.status),
                     rescored=number in rescored_numbers,
+                    old_status=check.status,
+                    new_status=after.status,
                 )
             )
     order = {"newly fails": 0, "newly passes": 1}

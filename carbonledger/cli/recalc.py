@@ -27,6 +27,7 @@ from .options import (
     OutputFormat,
     SchemeOption,
     fail,
+    YearOption,
     render,
 )
 
@@ -43,11 +44,12 @@ def recalc(
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
+    year: YearOption = None,
 ) -> None:
     """Rescore projects under a new factor set: old and new value per scheme, newly failing first."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme)
+        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme, year=year)
         text = render(output_format, table=lambda: recalc_table(result), json=lambda: recalc_json(result), csv=lambda: recalc_csv(result))
         if where is not None:
             record_run(f"recalc --from {from_set} --to {to_set}", [*result.old_scores, *result.new_scores], ledger=where, kind="recalc")

@@ -33,7 +33,7 @@ def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozense
 
 # --- recalc ------------------------------------------------------------------------------------
 
-RECALC_COLUMNS = ("status", "project_file", "project", "scheme", "old_value", "new_value", "change", "unit", "limit", "old_passes", "new_passes", "rescored")
+RECALC_COLUMNS = ("status", "project_file", "project", "scheme", "old_value", "new_value", "change", "unit", "limit", "old_passes", "new_passes", "rescored", "old_status", "new_status")
 
 
 def recalc_json(recalc) -> str:
