@@ -184,3 +184,25 @@ def test_bad_declarations_are_one_line_errors(override, field, expected):
     with pytest.raises(InputError) as error:
         score(OFFSHORE, overrides=[override])
     assert field in str(error.value) and expected in str(error.value)
+
+
+def test_cli_shows_status_and_reasons_in_every_format():
+    # The status of each check and its first reason in the table; every reason in JSON and CSV.
+    import csv
+    import io
+    import json
+
+    from helpers import run_cli
+
+    table = run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2026", "--no-ledger")
+    assert table.exit_code == 0, table.output
+    assert "NOT ELIGIBLE" in table.stdout and "eu-rfnbo: not eligible, first reason: not met: route steam_methane_reforming" in table.stdout
+    data = json.loads(run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2026", "--no-ledger", "--format", "json").stdout)
+    only = data["checks"][0]
+    assert only["status"] == "not_eligible" and only["passes"] is False and len(only["reasons"]) > 3
+    assert only["assessment_period"] == "2026"
+    rows = list(csv.DictReader(io.StringIO(run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2026", "--no-ledger", "--format", "csv").stdout)))
+    assert [r["value"] for r in rows if r["section"] == "check:eu-rfnbo" and r["key"] == "status"] == ["not_eligible"]
+    assert len([r for r in rows if r["section"] == "check:eu-rfnbo" and r["key"] == "reason"]) == len(only["reasons"])
+    listing = run_cli("schemes")
+    assert "eu-low-carbon" in listing.stdout and "hourly from 2030-01-01" in listing.stdout

@@ -120,6 +120,16 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
                 f"    GWP100 {s.gwp.upper()}; electricity {s.electricity.replace('_', ' ')}; thresholds {tiers}",
                 f"    source: {s.document}",
             ]
+            if s.version:
+                lines.append(f"    version read: {s.version}")
+            if s.eligibility is not None:
+                lines.append(f"    eligible routes: {', '.join(s.eligibility.routes)}" + (f"; construction before {s.eligibility.construction_start_before.isoformat()}" if s.eligibility.construction_start_before else ""))
+            if s.electricity_rules is not None and s.electricity == "renewable_at_zero":
+                rules = s.electricity_rules
+                matching = "; ".join(f"{t.period.replace('_', '-')} {('from ' + t.applies_from.isoformat()) if t.applies_from else ''}{(' until ' + t.applies_until.isoformat()) if t.applies_until else ''}".strip() for t in rules.temporal)
+                lines.append(f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: {matching or 'none stated'}")
+            if s.boundary_terms:
+                lines.append(f"    formula terms: {', '.join(t.term for t in s.boundary_terms)}")
         return "\n".join(lines + ["* recorded from memory, not yet checked against the legal text"])
 
     def csv() -> str:
