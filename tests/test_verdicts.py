@@ -120,6 +120,10 @@ def test_low_carbon_covers_nuclear_and_gas_routes():
     assert blue.status == "undetermined"  # below 28.2 at the gate, delivery not modelled
     grey = check(score(DEMO / "grey_smr_ammonia_shipped.toml", schemes=["eu-low-carbon"], year=2026), "eu-low-carbon")
     assert grey.status == "fails"
+    # Directive (EU) 2024/1788: low-carbon hydrogen takes its energy from non-renewable sources;
+    # the fully renewable cracked ammonia is an RFNBO, not a low-carbon fuel.
+    renewable = check(score(CRACKED, schemes=["eu-low-carbon"], year=2026), "eu-low-carbon")
+    assert renewable.status == "not_eligible" and "fully renewable" in renewable.reasons[0]
 
 
 # --- US 45V -------------------------------------------------------------------------------------

@@ -211,6 +211,9 @@ def scheme_reading(prepared: Prepared, scheme: Scheme) -> tuple[set[str], list[F
             findings.append(Finding("eligibility", NOT_MET, f"no electricity source counts as fully renewable, so the product is not of the kind covered: {rules.energy} [{where}]"))
         elif len(counted) < len(inventory.electricity_sources):
             findings.append(Finding("electricity", "met", f"only the share of output made with the electricity counted fully renewable is of the kind covered; the rest is charged as stated [{where}]"))
+    if rules is not None and rules.excludes_counted_electricity and params["hydrogen"]["route"] == "electrolysis" and counted and len(counted) == len(inventory.electricity_sources):
+        where = f"{rules.source}{' (from memory)' if rules.from_memory else ''}"
+        findings.append(Finding("eligibility", NOT_MET, f"every electricity source counts as fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} [{where}]"))
     findings += electricity
     commissioning = as_date(params["project"].get("commissioning", ""))
     if commissioning is not None and prepared.period.end < commissioning:

@@ -54,6 +54,7 @@ class Eligibility(BaseModel):
     routes: list[str] = Field(min_length=1)
     energy: str = Field(min_length=1)  # the scheme's words on the energy it covers
     requires_counted_electricity: bool = False  # the energy must be electricity that counts under electricity_rules
+    excludes_counted_electricity: bool = False  # electrolysis whose every source counts fully renewable is not covered
     source: str = Field(min_length=1)
     from_memory: bool = True
     construction_start_before: dt.date | None = None
