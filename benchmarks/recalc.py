@@ -59,7 +59,7 @@ def project(number: int, rng: random.Random) -> str:
         f'[hydrogen]\nroute = "{"autothermal_reforming" if atr else "steam_methane_reforming"}"\n'
         f"[reforming]\nnatural_gas_gj_per_kg_h2 = {rng.uniform(0.155, 0.175):.4f}\nelectricity_kwh_per_kg_h2 = {rng.uniform(0.2, 2):.3f}\n"
         f"process_co2_share = {0.96 if atr else rng.uniform(0.55, 0.65):.3f}\n"
-        f"[natural_gas]\nmethane_loss_rate = {rng.uniform(0.002, 0.03):.4f}\n"
+        f"[natural_gas]\nmethane_emission_share = {rng.uniform(0.002, 0.03):.4f}\nmethane_emission_basis = \"methane_delivered\"\n"
     )
     if kind != "grey":
         body += (

@@ -83,7 +83,9 @@ def score(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    year: int | None = None,
     matching: str | None = None,
+    matched_periods: dict | None = None,
 ) -> ScoreResult:
     """Score a project file: carbon intensity, by stage and gas, with scheme checks.
 
@@ -98,14 +100,18 @@ def score(
     matching : with an electricity time series, a granularity (interval, hour, month, quarter,
         year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
         and score the declared annual shares (what the audit workbook holds); None: each scheme's rule.
+    year : calendar year whose dates the scheme rules are read on; default this year.
+    matched_periods : electricity source name -> finest period a time series shows it matched
+        ('hourly', 'half_hourly'), for projects without a series in the file; without it (and
+        without a series) hourly rules are undetermined.
     """
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
     series = None if matching == "declared" else project_series(project, project_file)
     if series is None:
         if matching not in (None, "declared"):
             raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
-        return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha)
-    return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching)
+        return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matched_periods)
+    return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching, year=year)
 
 
 def project_series(project, project_file: str | Path) -> ElectricitySeries | None:
@@ -116,9 +122,26 @@ def project_series(project, project_file: str | Path) -> ElectricitySeries | Non
     return read_series(Path(project_file).parent / name, project)
 
 
-def score_with_series(project, factor_set: FactorSet, series: ElectricitySeries, *, gwp: str = DEFAULT_GWP, schemes: list[str] | None = None, source: str = "project", project_sha256: str = "", matching: str | None = None) -> ScoreResult:
-    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``)."""
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256)
+def score_with_series(
+    project,
+    factor_set: FactorSet,
+    series: ElectricitySeries,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    project_sha256: str = "",
+    matching: str | None = None,
+    year: int | None = None,
+) -> ScoreResult:
+    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``).
+
+    The verdict rules learn from the series that every source with a generation column is matched
+    interval by interval (hourly, or half-hourly and finer), so an hourly rule can be judged.
+    """
+    period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
+    matched = {name: period for name in series.generation_kwh} if period else None
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256, year=year, matching=matched)
     solutions = solve_with_bw2calc(prepared)
     return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)
 
@@ -131,11 +154,12 @@ def score_workbook(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    year: int | None = None,
 ) -> ScoreResult:
     """Score the inputs and factors of an audit workbook; options left None default to its cover."""
     project, sha, settings = load_project_from_workbook(path, _boundary_overrides(boundary, overrides))
     factor_set = factor_set_from_workbook(path, base_factor_set(settings, factors))
-    return score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha)
+    return score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha, year=year)
 
 
 def load_any_project(path: str | Path, factor_set: FactorSet, overrides: list[str] | None = None):
@@ -222,6 +246,7 @@ def recalc(
     *,
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
+    year: int | None = None,
     workers: int | None = None,
     scheduler: str | None = None,
 ) -> Recalc:
@@ -229,12 +254,12 @@ def recalc(
 
     workers : score on a local Dask cluster of this many worker processes.
     scheduler : score on an existing Dask scheduler at this address instead.
-    The results are the same as in one process.
+    The results are the same as in one process. Scheme rules are read on ``year``'s dates.
     """
     projects = load_portfolio(paths)
     old_set, new_set = _factor_set(old_factors), _factor_set(new_factors)
     with dask_mapper(workers, scheduler) as (mapper, chunks):
-        return recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, mapper=mapper, chunks=chunks)
+        return recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, year=year, mapper=mapper, chunks=chunks)
 
 
 def lifetime(

@@ -216,10 +216,10 @@ def test_compare_reads_audit_workbooks(tmp_path):
     book = openpyxl.load_workbook(book_path)
     inputs = book["Inputs"]
     for row in inputs.iter_rows():
-        if row[0].value == "natural_gas.methane_loss_rate":
+        if row[0].value == "natural_gas.methane_emission_share":
             row[1].value = 0.02
     book.save(book_path)
     result = compare([DEMO / "blue_atr_ammonia.toml", book_path])
-    expected = score(DEMO / "grey_smr_ammonia.toml", overrides=["natural_gas.methane_loss_rate=0.02"])
+    expected = score(DEMO / "grey_smr_ammonia.toml", overrides=["natural_gas.methane_emission_share=0.02"])
     assert result.projects[1].total == pytest.approx(expected.total, rel=1e-12)
     assert run("compare", DEMO / "blue_atr_ammonia.toml", "--from-workbook", book_path).exit_code == 0

@@ -122,9 +122,9 @@ def hand_voyage_fuel_t():
 def hand_hfo_voyage_kg_co2e_per_t(fuel_t, cargo_t):
     fuel_kg_per_t = fuel_t * 1000 / cargo_t
     co2 = fuel_kg_per_t * 3.114  # IMO Cf, heavy fuel oil (MEPC.364(79); from memory)
-    ch4 = fuel_kg_per_t * 0.00005 * GWP_AR6_CH4_FOSSIL  # MEPC.376(80) App. 2 (from memory)
-    n2o = fuel_kg_per_t * 0.00018 * GWP_AR6_N2O  # MEPC.376(80) App. 2 (from memory)
-    upstream = fuel_kg_per_t * 40.4 * 13.5 / 1000  # IPCC 2006 NCV 40.4 MJ/kg x MEPC.376(80) WtT 13.5 g/MJ (from memory)
+    ch4 = fuel_kg_per_t * 0.00005 * GWP_AR6_CH4_FOSSIL  # Regulation (EU) 2023/1805 Annex II, HFO row (read in the Annex)
+    n2o = fuel_kg_per_t * 0.00018 * GWP_AR6_N2O  # Regulation (EU) 2023/1805 Annex II, HFO row (read in the Annex)
+    upstream = fuel_kg_per_t * 40.5 * 13.5 / 1000  # Regulation (EU) 2023/1805 Annex II: LCV 0.0405 MJ/g x WtT 13.5 g/MJ, same table
     return co2 + ch4 + n2o + upstream
 
 
@@ -148,12 +148,12 @@ def test_lng_methane_slip_by_engine_type(tmp_path):
     body = VOYAGE.replace('fuel = "heavy_fuel_oil"', 'fuel = "lng"\nengine = "otto_dual_fuel_slow_speed"')
     result = score(write_project(tmp_path, body))
     fuel_kg_per_t = 912.0 * 1000 / 20000
-    slip = 0.017  # MEPC.376(80) Cslip, LNG Otto dual fuel slow speed, 1.7 % (from memory)
+    slip = 0.017  # Regulation (EU) 2023/1805 Annex II Cslip, LNG Otto dual fuel slow speed, 1.7 % (secondary copy)
     expected = (
         fuel_kg_per_t * (1 - slip) * 2.750  # IMO Cf of LNG on the burnt share
         + fuel_kg_per_t * slip * GWP_AR6_CH4_FOSSIL  # unburnt methane
-        + fuel_kg_per_t * (1 - slip) * 0.00011 * GWP_AR6_N2O  # MEPC.376(80) N2O of LNG (from memory)
-        + fuel_kg_per_t * 48.0 * 18.5 / 1000  # NCV 48.0 MJ/kg x WtT 18.5 g CO2e/MJ (from memory)
+        + fuel_kg_per_t * (1 - slip) * 0.00011 * GWP_AR6_N2O  # Regulation (EU) 2023/1805 Annex II, N2O of LNG (secondary copy)
+        + fuel_kg_per_t * 49.1 * 18.5 / 1000  # Regulation (EU) 2023/1805 Annex II: LNG LCV 0.0491 MJ/g x WtT 18.5 g CO2e/MJ, same table (secondary copy)
     )
     assert result.by_stage["shipping"] == pytest.approx(expected, rel=1e-9)
 
@@ -246,13 +246,13 @@ pilot_fuel_energy_share = 0.05
     path = write_project(tmp_path, body, boundary="well-to-wake")
     wake = score(path)
     tank = score(path, boundary="well-to-tank")
-    pilot_kg = 1000 * 18.6 * 0.05 / (0.95 * 43.0)  # per t NH3: 5 % of the fuel energy from gas oil (NCV 43.0, IPCC 2006)
+    pilot_kg = 1000 * 18.6 * 0.05 / (0.95 * 42.7)  # per t NH3: 5 % of the fuel energy from gas oil (LCV 0.0427 MJ/g, Regulation (EU) 2023/1805 Annex II)
     expected = (
         1.0 * GWP_AR6_N2O  # 1 g N2O/kg x 1000 kg = 1 kg N2O
         + pilot_kg * 3.206  # IMO Cf, gas oil (from memory)
         + pilot_kg * 0.00005 * GWP_AR6_CH4_FOSSIL
         + pilot_kg * 0.00018 * GWP_AR6_N2O
-        + pilot_kg * 43.0 * 14.4 / 1000  # WtT of gas oil, MEPC.376(80) (from memory)
+        + pilot_kg * 42.7 * 14.4 / 1000  # Regulation (EU) 2023/1805 Annex II: MGO LCV 0.0427 MJ/g x WtT 14.4 g/MJ (secondary copy)
     )
     assert wake.by_stage["end_use"] == pytest.approx(expected, rel=1e-9)
     assert wake.total == pytest.approx(tank.total + expected, rel=1e-9)
@@ -263,11 +263,19 @@ pilot_fuel_energy_share = 0.05
 
 
 def test_scheme_checks_keep_their_own_basis_whatever_the_boundary(tmp_path):
+    # Gate-based rulebooks (45V well-to-gate, Japan gate-to-gate) keep their value whatever the
+    # project's boundary; the EU rulebooks count transport and distribution (e_td, Delegated
+    # Regulation (EU) 2023/1185 Annex Part A), so their value grows with the modelled voyage.
     path = write_project(tmp_path, VOYAGE)
     gate = score(path, boundary="cradle-to-gate")
     delivered = score(path, boundary="well-to-tank")
     assert delivered.total > gate.total
-    assert [(c.scheme, c.value) for c in gate.checks] == [(c.scheme, c.value) for c in delivered.checks]
+    def gate_based(result):
+        return [(c.scheme, c.value) for c in result.checks if c.basis != "delivered"]
+    assert gate_based(gate) == gate_based(delivered)
+    for before, after in zip(gate.checks, delivered.checks, strict=False):
+        if before.basis == "delivered":
+            assert after.value > before.value, before.scheme
 
 
 # --- demo projects ---------------------------------------------------------------------------------

@@ -71,12 +71,12 @@ def test_no_ledger_and_explicit_ledger(tmp_path, _ledger_in_tmp):
 def test_history_shows_what_changed_and_why(tmp_path, _ledger_in_tmp):
     project = DEMO / "blue_atr_ammonia.toml"
     assert run_cli("score", project).exit_code == 0
-    assert run_cli("score", project, "--set", "natural_gas.methane_loss_rate=0.003").exit_code == 0
-    assert run_cli("score", project, "--set", "natural_gas.methane_loss_rate=0.003", "--factors", "demo-2027-grid-revision").exit_code == 0
+    assert run_cli("score", project, "--set", "natural_gas.methane_emission_share=0.003").exit_code == 0
+    assert run_cli("score", project, "--set", "natural_gas.methane_emission_share=0.003", "--factors", "demo-2027-grid-revision").exit_code == 0
     history = project_history(project, _ledger_in_tmp)
     assert len(history) == 3 and history[0]["changes"] is None
     second, third = history[1]["changes"], history[2]["changes"]
-    assert second["parameters"] == [{"parameter": "natural_gas.methane_loss_rate", "old": 0.005, "new": 0.003}]
+    assert second["parameters"] == [{"parameter": "natural_gas.methane_emission_share", "old": 0.005, "new": 0.003}]
     assert second["factors"] == [] and second["factor_set"] is None
     assert third["parameters"] == []
     assert [f["id"] for f in third["factors"]] == ["electricity.grid.eu27_2018"]
@@ -84,7 +84,7 @@ def test_history_shows_what_changed_and_why(tmp_path, _ledger_in_tmp):
     assert third["factor_set"] == {"old": "default-2026", "new": "demo-2027-grid-revision"}
     text = run_cli("history", project)
     assert text.exit_code == 0
-    assert "input natural_gas.methane_loss_rate: 0.005 -> 0.003" in text.stdout
+    assert "input natural_gas.methane_emission_share: 0.005 -> 0.003" in text.stdout
     assert "factor electricity.grid.eu27_2018: 281 -> 318" in text.stdout
     assert run_cli("history", project, "--format", "json").exit_code == 0
 

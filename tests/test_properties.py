@@ -27,7 +27,7 @@ fractions = st.floats(min_value=0.0, max_value=1.0, allow_nan=False)
 @given(low=st.floats(0.0, 0.1), high=st.floats(0.0, 0.1))
 def test_more_methane_loss_never_lowers_the_score(low, high):
     low, high = sorted((low, high))
-    assert total(BLUE, [f"natural_gas.methane_loss_rate={low!r}"]) <= total(BLUE, [f"natural_gas.methane_loss_rate={high!r}"]) + 1e-12
+    assert total(BLUE, [f"natural_gas.methane_emission_share={low!r}"]) <= total(BLUE, [f"natural_gas.methane_emission_share={high!r}"]) + 1e-12
 
 
 @settings(max_examples=40, deadline=None)

@@ -31,7 +31,7 @@ def test_us_45v_tiers(schemes):
 
 def test_eu_rfnbo_threshold_is_70_percent_below_the_comparator(schemes):
     # Delegated Regulation (EU) 2023/1185: fossil fuel comparator 94 g CO2e/MJ; Directive (EU)
-    # 2018/2001 Art. 25(2): at least 70 % saving. 94 * (1 - 0.70) = 28.2 g CO2e/MJ (from memory;
+    # 2018/2001 Art. 29a(1) as amended by 2023/2413: at least 70 % saving. 94 * (1 - 0.70) = 28.2 g CO2e/MJ (SOURCES.md;
     # a published legal summary states the same 28.2 g/MJ and 3.38 t CO2e/t H2).
     scheme = schemes["eu-rfnbo"]
     assert limits(scheme) == [pytest.approx(94 * (1 - 0.70))]
@@ -85,3 +85,33 @@ def test_loader_refuses_a_threshold_or_rulebook_without_a_source(tmp_path):
     (tmp_path / "uk-lchs.toml").write_text(text.replace(document, 'document = ""'), encoding="utf-8")
     with pytest.raises(InputError, match="document"):
         load_schemes(tmp_path)
+
+
+def test_every_threshold_cites_a_source(schemes):
+    assert len(schemes) >= 6
+    assert {"eu-rfnbo", "eu-low-carbon", "us-45v", "uk-lchs", "japan-hydrogen", "japan-ammonia"} <= set(schemes)
+    for scheme in schemes.values():
+        assert scheme.document
+        for threshold in scheme.thresholds:
+            assert threshold.source
+
+
+def test_every_rule_names_its_source_and_flag(schemes):
+    # Each rulebook states eligibility, a boundary in its own terms and a version; every rule
+    # with a source carries a from_memory flag (the model refuses an empty source).
+    for scheme in schemes.values():
+        assert scheme.eligibility is not None and scheme.eligibility.source, scheme.id
+        assert scheme.boundary_terms and scheme.version, scheme.id
+        if scheme.electricity == "renewable_at_zero":
+            rules = scheme.electricity_rules
+            assert rules is not None and rules.source and rules.non_qualifying, scheme.id
+            assert all(t.source and t.version for t in rules.temporal), scheme.id
+
+
+def test_eu_low_carbon_rulebook():
+    # Directive (EU) 2024/1788 and Delegated Regulation (EU) 2025/2359 (from memory): 70 % saving
+    # against the same 94 g CO2e/MJ comparator, so at most 28.2 g CO2e/MJ; natural gas and
+    # nuclear routes are covered.
+    scheme = load_schemes()["eu-low-carbon"]
+    assert limits(scheme) == [pytest.approx(94 * (1 - 0.70))]
+    assert "steam_methane_reforming" in scheme.eligibility.routes and scheme.basis == "delivered"

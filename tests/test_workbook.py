@@ -8,7 +8,7 @@ from pathlib import Path
 
 import openpyxl
 import pytest
-from workbook_support import DEMO, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
+from workbook_support import DEMO, VERDICT_WORDS, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 from carbonledger.api import score
 from carbonledger.io.labels import INTENSITY_LABELS, stage_name
@@ -54,7 +54,8 @@ def assert_agrees(values_workbook, result) -> None:
         row = rows[check.scheme]
         assert close(row[9].value, check.value), check.scheme
         assert close(row[10].value, check.limit)
-        assert row[11].value == ("pass" if check.passes else "fail")
+        assert row[11].value == VERDICT_WORDS[check.status]  # live formula within the rules read at writing
+        assert row[16].value == check.status and row[17].value.startswith(check.reasons[0])
         assert close(row[12].value, check.margin)
         assert row[13].value == (check.tier or "none")
 
@@ -99,8 +100,8 @@ def test_formulas_library_recalculates_the_engine_figures(project, tmp_path):
 
 def test_agreement_holds_for_other_gwp_sets_and_a_chosen_scheme(tmp_path):
     project = DEMO / "blue_smr_hydrogen.toml"
-    out = write(project, tmp_path / "b.xlsx", "--gwp", "ar4", "--scheme", "us-45v", "--set", "natural_gas.methane_loss_rate=0.02")
-    result = score(project, gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_loss_rate=0.02"])
+    out = write(project, tmp_path / "b.xlsx", "--gwp", "ar4", "--scheme", "us-45v", "--set", "natural_gas.methane_emission_share=0.02")
+    result = score(project, gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_emission_share=0.02"])
     assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), result)
 
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 import pytest
-from workbook_support import DEMO, libreoffice_job, recalculate_with_formulas, run_cli, sheet
+from workbook_support import DEMO, VERDICT_WORDS, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 from carbonledger.analyses.periods import month_results, read_meters
 from carbonledger.api import score
@@ -123,7 +123,7 @@ def assert_months_agree(values_workbook, project, meters) -> int:
         for position, check in enumerate(result.checks):
             column = 5 + stages + 3 * position
             assert close(rows[month][column], check.value), (month, check.scheme)
-            assert rows[month][column + 1] == ("pass" if check.passes else "fail")
+            assert rows[month][column + 1] == VERDICT_WORDS[check.status]
     for position, check in enumerate(engine[0].checks):
         column = 5 + stages + 3 * position
         weighted = sum(r.checks[position].value * rows[m][1] for m, r in zip(parsed.months, engine, strict=True)) / sum(rows[m][1] for m in parsed.months)

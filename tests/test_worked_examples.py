@@ -42,7 +42,8 @@ def test_steam_methane_reforming_without_capture(write_project):
         electricity_kwh_per_kg_h2 = 0.3
         process_co2_share = 0.6
         [natural_gas]
-        methane_loss_rate = 0.01
+        methane_emission_share = 0.01
+        methane_emission_basis = "methane_delivered"
         [electricity.sources.grid]
         share = 1.0
         factor = "electricity.grid.eu27_2018"
@@ -82,7 +83,8 @@ def test_steam_methane_reforming_with_capture(write_project, applies_to):
         extra_natural_gas_gj_per_t_co2 = 1.0
         transport_storage_loss_fraction = 0.01
         [natural_gas]
-        methane_loss_rate = 0.008
+        methane_emission_share = 0.008
+        methane_emission_basis = "methane_delivered"
         [electricity.sources.grid]
         share = 1.0
         factor = "electricity.grid.eu27_2018"
@@ -126,7 +128,8 @@ def test_autothermal_reforming_with_capture_and_scheme_rules(write_project):
         compression_kwh_per_t_co2 = 110
         transport_storage_loss_fraction = 0.02
         [natural_gas]
-        methane_loss_rate = 0.005
+        methane_emission_share = 0.005
+        methane_emission_basis = "methane_delivered"
         [electricity.sources.wind]
         share = 1.0
         factor = "electricity.renewable.wind_offshore"
@@ -228,3 +231,18 @@ def test_ammonia_from_grid_electrolysis(write_project):
     japan = {c.scheme: c for c in result.checks}["japan-ammonia"]
     assert japan.value == pytest.approx(total / 1000, rel=1e-6)
     assert not japan.passes
+
+
+def test_methane_emission_share_is_converted_by_its_basis(tmp_path):
+    # Natural gas 48.0 MJ/kg (IPCC 2006 Vol. 2 Ch. 1 Table 1.2) holds 20.83 kg of gas per GJ, of
+    # which 0.9 is methane by mass (factor set). A share of 1 % emitted:
+    #   of methane delivered:      0.01 x 20.83 x 0.9          = 0.1875 kg CH4/GJ
+    #   of methane produced:       0.01 / 0.99 x 20.83 x 0.9   = 0.1894 kg CH4/GJ (s / (1 - s))
+    #   of gas delivered by mass:  0.01 x 20.83                = 0.2083 kg CH4/GJ (10 % more)
+    from carbonledger.stages.natural_gas import methane_emitted_kg_ch4_per_gj
+
+    assert methane_emitted_kg_ch4_per_gj(0.01, "methane_delivered", 48.0, 0.9) == pytest.approx(1000 / 48.0 * 0.9 * 0.01, rel=1e-12)
+    assert methane_emitted_kg_ch4_per_gj(0.01, "methane_produced", 48.0, 0.9) == pytest.approx(1000 / 48.0 * 0.9 * 0.01 / 0.99, rel=1e-12)
+    by_mass = methane_emitted_kg_ch4_per_gj(0.01, "gas_delivered_by_mass", 48.0, 0.9)
+    assert by_mass == pytest.approx(0.2083, abs=1e-4)
+    assert by_mass / methane_emitted_kg_ch4_per_gj(0.01, "methane_delivered", 48.0, 0.9) == pytest.approx(1 / 0.9)

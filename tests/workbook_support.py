@@ -101,3 +101,6 @@ def labelled(ws, column: int = 2) -> dict[str, object]:
         if isinstance(label, str) and label not in found and len(row) >= column:
             found[label] = row[column - 1].value
     return found
+
+# the live verdict formula's words for each engine status (io/workbook/writer.verdict_formula)
+VERDICT_WORDS = {"qualifies": "pass", "fails": "fail", "not_eligible": "not eligible", "undetermined": "undetermined"}

@@ -185,9 +185,10 @@ def lifetime_score(
     efficiency = stage.efficiency_fraction_of_new(loss, ages)
     outputs = stage.annual_output_t(life.nameplate_output_t_per_year, life.capacity_factor, efficiency)
 
-    year_projects, year_sets = [], []
+    year_projects, year_sets, calendar_years = [], [], []
     for index in indices:
         year = life.first_year + int(index)
+        calendar_years.append(year)
         year_data = data
         if ageing:
             section, name = ageing.split(".")
@@ -199,7 +200,7 @@ def lifetime_score(
             year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
         else:
             year_sets.append(factor_set)
-    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes)
+    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
@@ -226,8 +227,12 @@ def lifetime_score(
     for number, check in enumerate(first.checks):
         rulebook = books[check.scheme]
         values = np.array([score.checks[number].value for score in scores])
-        basis_product = first.product if rulebook.basis == "product" else "hydrogen"
-        per_basis_unit = construction_per_gate_unit if rulebook.basis == "product" else construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
+        if rulebook.basis == "product":
+            basis_product, per_basis_unit = first.product, construction_per_gate_unit
+        elif rulebook.basis == "delivered":
+            basis_product, per_basis_unit = first.reference_product, construction_per_unit
+        else:
+            basis_product, per_basis_unit = "hydrogen", construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
         added = intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[rulebook.quantity]
         without = float(stage.output_weighted_mean(values, units))
         with_construction = without + float(added)
@@ -235,7 +240,7 @@ def lifetime_score(
         lifetime_value = with_construction if rulebook.counts_construction else without
         missed = []
         for index, value in enumerate(counted):
-            verdict = rulebook.evaluate(float(value))["passes"]
+            verdict = rulebook.evaluate(float(value))["passes"] and scores[index].checks[number].status != "not_eligible"
             yearly_pass[index][check.scheme] = verdict
             if not verdict:
                 missed.append(life.first_year + index)

@@ -29,7 +29,7 @@ from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
 from ..routes.project import load_project
 
-STATUSES = ("newly fails", "newly passes", "still fails", "still passes")
+STATUSES = ("newly fails", "newly passes", "still fails", "still passes", "still not eligible", "still undetermined")
 
 
 @dataclass(frozen=True)
@@ -77,6 +77,7 @@ def score_portfolio(
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
     check_with_bw2calc: bool = True,
+    year: int | list[int] | None = None,
     mapper=None,
     chunks: int = 1,
 ) -> list[ScoreResult]:
@@ -93,13 +94,14 @@ def score_portfolio(
     known = rulebooks()
     schemes = scheme_ids(schemes, known) or None
     sets = factor_set if isinstance(factor_set, list) else [factor_set] * len(projects)
+    years = year if isinstance(year, list) else [year] * len(projects)  # scheme rules read on each year's dates
     if mapper is not None and len(projects) > 1:
         size = -(-len(projects) // chunks)
-        pieces = [(projects[n : n + size], sets[n : n + size], gwp, schemes, check_with_bw2calc) for n in range(0, len(projects), size)]
+        pieces = [(projects[n : n + size], sets[n : n + size], gwp, schemes, check_with_bw2calc, years[n : n + size]) for n in range(0, len(projects), size)]
         return [result for part in mapper(score_chunk, pieces) for result in part]
     prepared = []
-    for item, one_set in zip(projects, sets, strict=True):
-        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256)
+    for item, one_set, one_year in zip(projects, sets, years, strict=True):
+        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year)
         if schemes:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
         prepared.append(ready)
@@ -107,9 +109,9 @@ def score_portfolio(
 
 
 def score_chunk(piece: tuple) -> list[ScoreResult]:
-    """One worker's share of ``score_portfolio``: (projects, factor sets, gwp, schemes, check)."""
-    projects, sets, gwp, schemes, check = piece
-    return score_portfolio(projects, list(sets), gwp=gwp, schemes=schemes, check_with_bw2calc=check)
+    """One worker's share of ``score_portfolio``: (projects, factor sets, gwp, schemes, check, years)."""
+    projects, sets, gwp, schemes, check, years = piece
+    return score_portfolio(projects, list(sets), gwp=gwp, schemes=schemes, check_with_bw2calc=check, year=list(years))
 
 
 @dataclass
@@ -130,6 +132,8 @@ class RecalcRow:
     rescored: bool  # False when none of the project's factors changed and the old result was reused
     rulebook_from_memory: bool = False  # the scheme's rulebook or a threshold was recorded from memory
     factors_from_memory: list[str] = field(default_factory=list)  # ids of the new result's factors recorded from memory
+    old_status: str = ""  # the check's verdict status before and after (qualifies, fails, not_eligible, undetermined)
+    new_status: str = ""
 
 
 @dataclass
@@ -157,12 +161,15 @@ class Recalc:
         return [row for row in self.rows if row.status == "newly fails"]
 
 
-def status_of(old_passes: bool, new_passes: bool) -> str:
+def status_of(old_passes: bool, new_passes: bool, new_status: str = "fails") -> str:
+    """The change of a verdict; a check that neither qualifies before nor after says why now."""
     if old_passes and not new_passes:
         return "newly fails"
     if new_passes and not old_passes:
         return "newly passes"
-    return "still passes" if new_passes else "still fails"
+    if new_passes:
+        return "still passes"
+    return {"not_eligible": "still not eligible", "undetermined": "still undetermined"}.get(new_status, "still fails")
 
 
 def recalc(
@@ -172,6 +179,7 @@ def recalc(
     *,
     gwp: str = DEFAULT_GWP,
     schemes: list[str] | None = None,
+    year: int | None = None,
     mapper=None,
     chunks: int = 1,
 ) -> Recalc:
@@ -180,7 +188,7 @@ def recalc(
     Rows come newly failing first, then newly passing, then the rest in project order.
     ``mapper`` and ``chunks`` spread the scoring over workers (see ``score_portfolio``).
     """
-    spread = {"mapper": mapper, "chunks": chunks}
+    spread = {"mapper": mapper, "chunks": chunks, "year": year}
     old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes, **spread)
     changed = sorted({change.id for change in diff_sets(old_set, new_set)})
     changed_ids = set(changed)
@@ -208,10 +216,12 @@ def recalc(
                     change=after.value - check.value,
                     old_passes=check.passes,
                     new_passes=after.passes,
-                    status=status_of(check.passes, after.passes),
+                    status=status_of(check.passes, after.passes, after.status),
                     rescored=number in rescored_numbers,
                     rulebook_from_memory=after.from_memory,
                     factors_from_memory=new.from_memory["factors"],
+                    old_status=check.status,
+                    new_status=after.status,
                 )
             )
     order = {"newly fails": 0, "newly passes": 1}

@@ -33,6 +33,7 @@ from .options import (
     OutputFormat,
     SchemeOption,
     SetOption,
+    YearOption,
     explicit,
     fail,
     render,
@@ -51,6 +52,7 @@ def score(
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
+    year: YearOption = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
     chart: Annotated[Optional[Path], typer.Option("--chart", help="Also write a chart of stages, gases and scheme limits: FILE.png or FILE.svg.")] = None,
     force: ForceOption = False,
@@ -77,9 +79,9 @@ def score(
             command, kind = "score --lifetime", "lifetime"
         else:
             if from_workbook is not None:
-                result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary)
+                result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary, year=year)
             else:
-                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, matching=matching)
+                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, matching=matching, year=year)
                 if matching_chart is not None:
                     api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_, force=force)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
@@ -139,6 +141,16 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
                 f"    GWP100 {s.gwp.upper()}; electricity {s.electricity.replace('_', ' ')}; thresholds {tiers}",
                 f"    source: {s.document}",
             ]
+            if s.version:
+                lines.append(f"    version read: {s.version}")
+            if s.eligibility is not None:
+                lines.append(f"    eligible routes: {', '.join(s.eligibility.routes)}" + (f"; construction before {s.eligibility.construction_start_before.isoformat()}" if s.eligibility.construction_start_before else ""))
+            if s.electricity_rules is not None and s.electricity == "renewable_at_zero":
+                rules = s.electricity_rules
+                matching = "; ".join(f"{t.period.replace('_', '-')} {('from ' + t.applies_from.isoformat()) if t.applies_from else ''}{(' until ' + t.applies_until.isoformat()) if t.applies_until else ''}".strip() for t in rules.temporal)
+                lines.append(f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: {matching or 'none stated'}")
+            if s.boundary_terms:
+                lines.append(f"    formula terms: {', '.join(t.term for t in s.boundary_terms)}")
         return "\n".join(lines + ["* recorded from memory, not yet checked against the legal text", f"Caution: {CAUTION}"])
 
     def csv() -> str:
@@ -151,7 +163,7 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
 
     def json_text() -> str:
         flagged = [s.id for s in books.values() if s.from_memory or any(t.from_memory for t in s.thresholds)]
-        return strict_json({"caution": CAUTION, "from_memory": {"rulebooks": flagged}, "schemes": [s.model_dump() for s in books.values()]}, "schemes")
+        return strict_json({"caution": CAUTION, "from_memory": {"rulebooks": flagged}, "schemes": [s.model_dump(mode="json") for s in books.values()]}, "schemes")
 
     typer.echo(render(output_format, table=table, json=json_text, csv=csv), nl=False)
 

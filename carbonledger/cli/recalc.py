@@ -30,6 +30,7 @@ from .options import (
     SchedulerOption,
     SchemeOption,
     WorkersOption,
+    YearOption,
     fail,
     render,
 )
@@ -49,11 +50,12 @@ def recalc(
     output_format: FormatOption = OutputFormat.table,
     workers: WorkersOption = None,
     scheduler: SchedulerOption = None,
+    year: YearOption = None,
 ) -> None:
     """Rescore projects under a new factor set: old and new value per scheme, newly failing first."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme, workers=workers, scheduler=scheduler)
+        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme, year=year, workers=workers, scheduler=scheduler)
         text = render(output_format, table=lambda: recalc_table(result), json=lambda: recalc_json(result), csv=lambda: recalc_csv(result))
         if where is not None:
             record_run(f"recalc --from {from_set} --to {to_set}", [*result.old_scores, *result.new_scores], ledger=where, kind="recalc")

@@ -28,6 +28,7 @@ class Inventory:
     functional_unit: str = ""
     delivery: dict = field(default_factory=dict)  # voyage and cracking figures
     co_products: dict = field(default_factory=dict)  # co-product, amount and how the burden was shared
+    electricity_sources: dict = field(default_factory=dict)  # electricity activity key -> source name
 
 
 def build_inventory(params: dict, inputs) -> Inventory:
@@ -59,6 +60,7 @@ def build_inventory(params: dict, inputs) -> Inventory:
         functional_unit=functional_unit,
         delivery={key: value for key, value in chain.figures.items() if key != "co_products"},
         co_products=chain.figures.get("co_products", {}),
+        electricity_sources=chain.electricity_sources,
     )
 
 

@@ -107,6 +107,11 @@ class Check(BaseModel):
     from_memory: bool
     note: str = ""
     electricity_matching: ElectricityMatching | None = None  # with an electricity time series
+    status: str = ""  # qualifies | fails | not_eligible | undetermined; passes is true only for qualifies
+    reasons: list[str] = []  # short sentences naming each rule and its source, the deciding one first
+    assessment_period: str = ""  # the dates the rules were read on (a calendar year)
+    rule_versions: list[str] = []  # the version of each dated rule used
+    electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
 
 
 class ExchangeRow(BaseModel):
@@ -172,7 +177,7 @@ class ScoreResult(BaseModel):
             "unit": self.unit,
             "intensity": self.intensity.model_dump(),
             "by_stage": dict(self.by_stage),
-            "checks": [{"scheme": c.scheme, "value": c.value, "unit": c.unit, "limit": c.limit, "passes": c.passes, "tier": c.tier} for c in self.checks],
+            "checks": [{"scheme": c.scheme, "value": c.value, "unit": c.unit, "limit": c.limit, "passes": c.passes, "status": c.status, "tier": c.tier} for c in self.checks],
         }
 
     def ledger_entry(self, kind: str = "score") -> dict:

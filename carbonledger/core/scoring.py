@@ -13,15 +13,16 @@ mapped over workers.
 
 from __future__ import annotations
 
+import datetime as dt
 import functools
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
 from ..about import CAUTION, __version__
 from ..errors import InputError, did_you_mean, match_id
 from ..model.factors import FactorSet
-from ..model.project import boundary_id
+from ..model.project import as_date, boundary_id
 from ..model.reference import ReferenceValue
 from ..model.rulebooks import Scheme, load_schemes, select_schemes
 from ..routes import STAGES
@@ -37,6 +38,17 @@ from .results import (
     FactorUsed,
     Intensity,
     ScoreResult,
+)
+from .verdicts import (
+    NOT_MET,
+    NOTE,
+    Finding,
+    Period,
+    boundary_findings,
+    electricity_findings,
+    eligibility_findings,
+    ordered_reasons,
+    status_of,
 )
 
 DEFAULT_GWP = "ar6"
@@ -98,11 +110,15 @@ def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammoni
     }
 
 
-def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str) -> str:
-    """Why a scheme counts an activity's direct emissions as zero ('' when it counts them)."""
+def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str, counted_zero=frozenset()) -> str:
+    """Why a scheme counts an activity's direct emissions as zero ('' when it counts them).
+
+    ``counted_zero``: the electricity activities the scheme's electricity rules count at zero
+    (``Check.electricity_counted_zero``); the factor id's name alone never zero-rates a source.
+    """
     activity = inventory.activities[activity_key]
-    if scheme.electricity == "renewable_at_zero" and inventory.electricity_kinds.get(activity_key) == "renewable":
-        return "renewable electricity: zero under this scheme"
+    if activity_key in counted_zero:
+        return "electricity counted fully renewable under this scheme's rules: zero"
     if activity.stage in scheme.excluded_stages:
         return "stage outside this scheme's boundary"
     return ""
@@ -132,6 +148,8 @@ class Prepared:
     fraction: float
     source: str = "project"
     project_sha256: str = ""
+    period: Period = field(default_factory=lambda: Period.year(dt.date.today().year))
+    matching: dict | None = None
 
 
 def prepare(
@@ -143,11 +161,19 @@ def prepare(
     source: str = "project",
     boundary: str | None = None,
     project_sha256: str = "",
+    year: int | None = None,
+    matching: dict | None = None,
 ) -> Prepared:
     """Validated project + factor set -> inventory, matrices and characterisation vectors.
 
     ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
+    ``year``: the calendar year whose dates the scheme rules are read on (default this year).
+    ``matching``: electricity source name -> the finest period a time series shows it matched
+    (supplied by a matching analysis; without it hourly rules cannot be judged).
     """
+    if year is not None and not 1900 <= year <= 2200:
+        raise InputError("--year", str(year), "a calendar year between 1900 and 2200")
+    period = Period.year(year if year is not None else dt.date.today().year)
     params = project.model_dump()
     gwp = gwp_set(gwp, factor_set)
     if boundary is not None:
@@ -167,7 +193,52 @@ def prepare(
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
     ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if product == "ammonia" else float("nan")
     fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
-    return Prepared(project, factor_set, params, inputs, inventory, chosen, gwp, headline, per_gwp, matrices, demands, hydrogen_lhv, ammonia_lhv, fraction, source, project_sha256)
+    return Prepared(project, factor_set, params, inputs, inventory, chosen, gwp, headline, per_gwp, matrices, demands, hydrogen_lhv, ammonia_lhv, fraction, source, project_sha256, period, matching)
+
+
+def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
+    """(demand activity, product) of a scheme's basis: the delivered product where the rulebook
+    counts delivery (the project's own reference, as far as it models it), else the plant gate
+    or the hydrogen plant's gate."""
+    if scheme.basis == "delivered":
+        return inventory.reference, inventory.reference_product
+    if scheme.basis == "product":
+        return inventory.gate, inventory.product
+    return inventory.hydrogen, "hydrogen"
+
+
+def scheme_reading(prepared: Prepared, scheme: Scheme) -> tuple[set[str], list[Finding], list[str]]:
+    """The scheme's rules on this project before the threshold: counted electricity, findings, versions."""
+    inventory, params = prepared.inventory, prepared.params
+    findings = eligibility_findings(scheme, params)
+    counted, electricity, versions = electricity_findings(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, prepared.period, prepared.matching)
+    rules = scheme.eligibility
+    if rules is not None and rules.requires_counted_electricity and params["hydrogen"]["route"] in rules.routes:
+        where = f"{rules.source}{' (from memory)' if rules.from_memory else ''}"
+        if not counted:
+            findings.append(Finding("eligibility", NOT_MET, f"no electricity source counts as fully renewable, so the product is not of the kind covered: {rules.energy} [{where}]"))
+        elif len(counted) < len(inventory.electricity_sources):
+            findings.append(Finding("electricity", "met", f"only the share of output made with the electricity counted fully renewable is of the kind covered; the rest is charged as stated [{where}]"))
+    if rules is not None and rules.excludes_counted_electricity and params["hydrogen"]["route"] == "electrolysis" and counted and len(counted) == len(inventory.electricity_sources):
+        where = f"{rules.source}{' (from memory)' if rules.from_memory else ''}"
+        findings.append(Finding("eligibility", NOT_MET, f"every electricity source counts as fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} [{where}]"))
+    findings += electricity
+    commissioning = as_date(params["project"].get("commissioning", ""))
+    if commissioning is not None and prepared.period.end < commissioning:
+        findings.append(Finding("dates", NOTE, f"the plant is not in operation in {prepared.period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {prepared.period.label()}'s dates; use --year for an operating year"))
+    present = {inventory.activities[key].stage for key in inventory.activities}
+    findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"])
+    if scheme.version:
+        versions.insert(0, scheme.version)
+    return counted, findings, versions
+
+
+def threshold_sentence(scheme: Scheme, value: float) -> str:
+    loosest = scheme.loosest()
+    operator = "<=" if loosest.inclusive else "<"
+    met = loosest.met_by(value)
+    words = f"value {value:.4g} {scheme.unit} {operator if met else 'not ' + operator} {loosest.limit:g}"
+    return f"{words} ({loosest.tier}) [{loosest.source}{' (from memory)' if loosest.from_memory else ''}]"
 
 
 def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
@@ -176,12 +247,16 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     keys = prepared.matrices.activity_keys
     checks = []
     for scheme in prepared.chosen:
-        mask = np.array([bool(zero_rated(scheme, inventory, key)) for key in keys])
-        basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
-        basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
+        counted, findings, versions = scheme_reading(prepared, scheme)
+        mask = np.array([bool(zero_rated(scheme, inventory, key, counted)) for key in keys])
+        basis_demand, basis_product = basis_of(scheme, inventory)
         scheme_total = float(solutions[basis_demand].contributions(prepared.per_gwp[scheme.gwp], mask).sum())
         value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
         verdict = scheme.evaluate(value)
+        status = status_of(findings, verdict["passes"])
+        verdict["passes"] = status == "qualifies"
+        if status != "qualifies":
+            verdict["tier"] = None
         checks.append(
             Check(
                 scheme=scheme.id,
@@ -195,6 +270,11 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
                 value=value,
                 from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
                 note=scheme.note,
+                status=status,
+                reasons=ordered_reasons(status, findings, threshold_sentence(scheme, value)),
+                assessment_period=prepared.period.label(),
+                rule_versions=versions,
+                electricity_counted_zero=sorted(counted),
                 **verdict,
             )
         )
@@ -358,12 +438,15 @@ def score_project(
     source: str = "project",
     project_sha256: str = "",
     boundary: str | None = None,
+    year: int | None = None,
+    matching: dict | None = None,
 ) -> ScoreResult:
     """Score a validated project with a loaded factor set, solved by bw2calc.
 
-    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
+    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own;
+    ``year`` is the calendar year the scheme rules are read on (default this year).
     """
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary, project_sha256=project_sha256)
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary, project_sha256=project_sha256, year=year, matching=matching)
     return assemble(prepared, solve_with_bw2calc(prepared))
 
 

@@ -32,7 +32,7 @@ def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozense
 
 RECALC_COLUMNS = (
     "status", "project_file", "project", "scheme", "old_value", "new_value", "change", "unit", "limit",
-    "old_passes", "new_passes", "rescored", "rulebook_from_memory", "factors_from_memory",
+    "old_passes", "new_passes", "rescored", "old_status", "new_status", "rulebook_from_memory", "factors_from_memory",
 )  # fmt: skip
 
 

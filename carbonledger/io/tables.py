@@ -59,7 +59,11 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str, object]]:
             (section, "margin", check.margin, check.unit, check.from_memory),
             (section, "passes", check.passes, "", check.from_memory),
             (section, "tier", check.tier or "", "", check.from_memory),
+            (section, "status", check.status, "", check.from_memory),
+            (section, "assessment_period", check.assessment_period, "", check.from_memory),
         ]
+        rows += [(section, "rule_version", version, "", check.from_memory) for version in check.rule_versions]
+        rows += [(section, "reason", reason, "", check.from_memory) for reason in check.reasons]
         matching = check.electricity_matching
         if matching is not None:
             section = f"matching:{check.scheme}"
@@ -167,7 +171,7 @@ def render(result: ScoreResult) -> str:
         )
     if result.checks:
         table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
-        for column in ("scheme", "value", "limit", "unit", "verdict", "margin", "tier", "GWP", "electricity"):
+        for column in ("scheme", "value", "limit", "unit", "status", "margin", "tier", "GWP"):
             table.add_column(column, justify="right" if column in ("value", "limit", "margin") else "left")
         for check in result.checks:
             table.add_row(
@@ -175,13 +179,17 @@ def render(result: ScoreResult) -> str:
                 display_number(check.value),
                 display_number(check.limit),
                 check.unit,
-                "pass" if check.passes else "FAIL",
+                check.status.replace("_", " ").upper() if check.status != "qualifies" else check.status,
                 display_number(check.margin),
                 check.tier or "-",
                 check.gwp_basis.upper(),
-                check.electricity_rule.replace("_", " "),
             )
         console.print(table)
+        for check in result.checks:
+            if check.reasons:
+                console.print(f"{check.scheme}: {check.status.replace('_', ' ')}, first reason: {check.reasons[0]}", highlight=False, markup=False)
+        period = result.checks[0].assessment_period
+        console.print(f"Scheme rules read on the dates of {period} (--year). Each check is on its rulebook's own basis and boundary; every reason is in the JSON and CSV output.")
         matched = [check for check in result.checks if check.electricity_matching is not None]
         if matched:
             _matching_tables(console, matched, Table)

@@ -11,15 +11,16 @@ to one and impossible values are refused with one line naming the file and the f
 
 from __future__ import annotations
 
+import datetime as dt
 import json
 import re
 import tomllib
 import types
 import typing
 from pathlib import Path
-from typing import Any, Literal
+from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
+from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
 from ..errors import InputError, did_you_mean, match_id
 
@@ -49,6 +50,28 @@ def _type_arguments(annotation: Any) -> set:
     return {annotation}
 
 
+def _iso_date(value: Any) -> str:
+    """A calendar date as YYYY-MM-DD text (a TOML date or a string); '' when absent."""
+    if value in (None, ""):
+        return ""
+    if isinstance(value, dt.datetime):
+        value = value.date()
+    if isinstance(value, dt.date):
+        return value.isoformat()
+    try:
+        return dt.date.fromisoformat(str(value).strip()).isoformat()
+    except ValueError:
+        raise ValueError(f"a date YYYY-MM-DD, got {value!r}") from None
+
+
+IsoDate = Annotated[str, BeforeValidator(_iso_date)]
+
+
+def as_date(text: str) -> dt.date | None:
+    """The date of an ``IsoDate`` field, or None when it was not given."""
+    return dt.date.fromisoformat(text) if text else None
+
+
 class Section(BaseModel):
     """A project-file section: unknown keys, infinities, NaN, and truth values or text given
     for a number are refused (TOML allows ``inf`` and ``nan``; ``true`` is not 1)."""
@@ -71,6 +94,9 @@ class ProjectInfo(Section):
     site: str = P("", description="Site (free text)")
     note: str = P("", description="Free text, e.g. where the numbers come from")
     boundary: Literal[BOUNDARIES] = P("cradle-to-gate", description="System boundary of the headline result (--boundary overrides it)")
+    zone: str = P("", description="Bidding zone or region of the plant (geographic correlation of electricity)")
+    construction_start: IsoDate = P("", "date", "Date construction of the plant began (YYYY-MM-DD)")
+    commissioning: IsoDate = P("", "date", "Date the plant came into operation (YYYY-MM-DD)")
 
 
 class Lifetime(Section):

@@ -176,3 +176,48 @@ def co2_formation_enthalpy() -> ReferenceValue:
         unit="kJ/mol",
         source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, default method: Active Thermochemical Tables)",
     )
+
+
+_WATER, _HYDROGEN, _OXYGEN = "7732-18-5", "1333-74-0", "7782-44-7"
+STANDARD_TEMPERATURE_K = 298.15
+
+
+@functools.cache
+def water_splitting_gibbs_j_per_mol(temperature_k: float, steam: bool) -> float:
+    """Gibbs energy of H2O -> H2 + 1/2 O2 at 1 bar, J/mol: the least work (electricity) per mol H2.
+
+    Liquid water at 298.15 K, or steam at ``temperature_k``: dG = dH - T dS, with standard
+    enthalpies of formation and entropies at 298.15 K (``chemicals.reaction.Hfg``/``Hfl``,
+    ``S0g``/``S0l``) carried to T by the ideal-gas heat capacities of ``chemicals.heat_capacity``
+    (TRC correlations, valid 50 to 5000 K). The balance, T dS, may come as heat.
+    """
+    from chemicals.heat_capacity import TRC_gas_data, TRCCp_integral, TRCCp_integral_over_T
+    from chemicals.reaction import Hfg, Hfl, S0g, S0l
+
+    entropy_products = S0g(_HYDROGEN) + 0.5 * S0g(_OXYGEN)
+    if not steam:
+        t = STANDARD_TEMPERATURE_K
+        return float(-Hfl(_WATER) - t * (entropy_products - S0l(_WATER)))
+    t0, t = STANDARD_TEMPERATURE_K, float(temperature_k)
+
+    def rise(cas: str) -> tuple[float, float]:
+        row = TRC_gas_data.loc[cas]
+        coefficients = [row[f"a{i}"] for i in range(8)]
+        enthalpy = TRCCp_integral(t, *coefficients) - TRCCp_integral(t0, *coefficients)
+        entropy = TRCCp_integral_over_T(t, *coefficients) - TRCCp_integral_over_T(t0, *coefficients)
+        return enthalpy, entropy
+
+    (h_h2, s_h2), (h_o2, s_o2), (h_w, s_w) = rise(_HYDROGEN), rise(_OXYGEN), rise(_WATER)
+    enthalpy = -Hfg(_WATER) + h_h2 + 0.5 * h_o2 - h_w
+    entropy = entropy_products - S0g(_WATER) + s_h2 + 0.5 * s_o2 - s_w
+    return float(enthalpy - t * entropy)
+
+
+def water_splitting_gibbs(temperature_k: float, steam: bool) -> ReferenceValue:
+    where = f"steam at {temperature_k:g} K" if steam else "liquid water at 298.15 K"
+    return ReferenceValue(
+        id=f"reference.water_splitting_gibbs.{'steam_' + format(temperature_k, 'g') + 'k' if steam else 'liquid_298k'}",
+        value=water_splitting_gibbs_j_per_mol(temperature_k, steam) / 1000.0,
+        unit="kJ/mol H2",
+        source=f"chemicals {_chemicals_version()} (reaction.Hfg/Hfl/S0g/S0l at 298.15 K; heat_capacity TRC ideal-gas correlations), {where}",
+    )

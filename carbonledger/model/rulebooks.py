@@ -6,10 +6,19 @@ the boundary and stages it leaves out, the GWP100 set, how electricity counts
 (``lifecycle``: every source at its factor; ``renewable_at_zero``: renewable sources count
 zero), whether construction (capital) emissions count (``counts_construction``, used by
 lifetime scoring), and one or more thresholds (tiers) with their legal source.
+
+A scheme decides in steps, and the rulebook states each as data with its source and a
+``from_memory`` flag: ``eligibility`` (the routes and energy it covers, dates such as a
+construction deadline), ``electricity_rules`` (which generator kinds and ways of procurement
+count, additionality, geographic and temporal correlation with the dates each version applies,
+what a kWh that does not count is charged), ``boundary_terms`` (the scheme's own formula terms
+mapped to carbonledger's stages), the GWP set and the threshold tiers. ``core.verdicts`` reads
+them; the official methodology and an accredited verifier decide.
 """
 
 from __future__ import annotations
 
+import datetime as dt
 import tomllib
 from pathlib import Path
 from typing import Literal
@@ -34,6 +43,71 @@ class Threshold(BaseModel):
         return value <= self.limit if self.inclusive else value < self.limit
 
 
+PROCUREMENT = ("direct_line", "ppa", "certificates", "grid")
+PERIODS = ("annual", "monthly", "hourly", "half_hourly")  # coarse to fine
+
+
+class Eligibility(BaseModel):
+    """What the scheme covers: hydrogen routes, energy, and dated conditions on the plant."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    routes: list[str] = Field(min_length=1)
+    energy: str = Field(min_length=1)  # the scheme's words on the energy it covers
+    requires_counted_electricity: bool = False  # the energy must be electricity that counts under electricity_rules
+    excludes_counted_electricity: bool = False  # electrolysis whose every source counts fully renewable is not covered
+    source: str = Field(min_length=1)
+    from_memory: bool = True
+    construction_start_before: dt.date | None = None
+    construction_source: str = ""
+
+
+class TemporalRule(BaseModel):
+    """One version of the temporal-correlation rule and the dates it applies (inclusive)."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    period: Literal[PERIODS]
+    applies_from: dt.date | None = None
+    applies_until: dt.date | None = None
+    version: str = Field(min_length=1)
+    source: str = Field(min_length=1)
+    from_memory: bool = True
+
+    def in_force(self, day: dt.date) -> bool:
+        return (self.applies_from is None or day >= self.applies_from) and (self.applies_until is None or day <= self.applies_until)
+
+
+class ElectricityRules(BaseModel):
+    """When a kWh counts as fully renewable (or low-carbon) under the scheme, and what the others are charged."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    counts_at_zero: list[str]  # generator kinds (factor namespace: renewable, low_carbon) that can count zero
+    procurement: list[Literal[PROCUREMENT]]  # ways of procurement accepted for counting zero
+    source: str = Field(min_length=1)
+    from_memory: bool = True
+    non_qualifying: str = Field(min_length=1)  # what a kWh that does not count is charged
+    additionality_months: int | None = None  # generator in operation no earlier than N months before the plant
+    additionality_applies_from: dt.date | None = None
+    additionality_transition_until: dt.date | None = None  # plants in operation before applies_from are exempt until then
+    generator_without_support: bool = False  # generator received no operating or investment aid
+    additionality_source: str = ""
+    geographic: str = ""  # '' when the scheme sets no geographic rule
+    geographic_source: str = ""
+    temporal: list[TemporalRule] = []
+    exempt_direct_line: list[Literal["temporal", "geographic"]] = []
+
+
+class BoundaryTerm(BaseModel):
+    """A term of the scheme's formula and the carbonledger stages it counts."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    term: str
+    meaning: str
+    stages: list[str] = []
+    zero_for: list[Literal["hydrogen", "ammonia"]] = []  # products for which the term is zero by nature
+    absent_means: Literal["zero", "not_modelled"] = "zero"  # a project without these stages: the term is zero, or not modelled
+    source: str = ""
+
+
 class Scheme(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True)
     id: str
@@ -41,7 +115,7 @@ class Scheme(BaseModel):
     document: str = Field(min_length=1)
     year: int
     products: list[Literal["hydrogen", "ammonia"]]
-    basis: Literal["product", "hydrogen_production"]
+    basis: Literal["product", "hydrogen_production", "delivered"]
     quantity: Literal[QUANTITIES]
     unit: str
     boundary: str
@@ -53,6 +127,12 @@ class Scheme(BaseModel):
     from_memory: bool = False
     note: str = ""
     thresholds: list[Threshold] = Field(min_length=1)
+    version: str = ""  # the version of the scheme's text this rulebook reads
+    applies_from: dt.date | None = None
+    applies_until: dt.date | None = None
+    eligibility: Eligibility | None = None
+    electricity_rules: ElectricityRules | None = None
+    boundary_terms: list[BoundaryTerm] = []
 
     def loosest(self) -> Threshold:
         return max(self.thresholds, key=lambda t: t.limit)

@@ -87,6 +87,7 @@ class Chain:
     extra: list = field(default_factory=list)
     figures: dict = field(default_factory=dict)
     electricity_kinds: dict = field(default_factory=dict)
+    electricity_sources: dict = field(default_factory=dict)  # electricity activity key -> source name
 
 
 @dataclass(frozen=True)

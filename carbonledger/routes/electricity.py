@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
+from typing import Literal, Optional
+
 from pydantic import Field, model_validator
 
-from ..model.project import P, Section
+from ..model.project import IsoDate, P, Section
 from ..stages import electricity
 from .base import Activity, Route, electricity_flow
 
@@ -12,6 +14,15 @@ from .base import Activity, Route, electricity_flow
 class ElectricitySource(Section):
     share: float = P(unit="fraction", description="Share of the electricity bought", ge=0, le=1)
     factor: str = P(description="Factor id of the source's emission factor")
+    procurement: Optional[Literal["direct_line", "ppa", "certificates", "grid"]] = P(
+        None, description="How the electricity is procured: direct_line | ppa | certificates | grid (schemes decide what counts)"
+    )
+    commissioned: IsoDate = P("", "date", "Date the generator came into operation (YYYY-MM-DD; additionality)")
+    zone: str = P("", description="Bidding zone or region of the generator (geographic correlation)")
+    supported: Optional[bool] = P(None, description="Whether the generator received operating or investment aid")
+    matched: Optional[Literal["annual", "monthly", "hourly", "half_hourly"]] = P(
+        None, description="Period over which the contracted generation is declared matched with consumption"
+    )
 
 
 class Electricity(Section):
@@ -37,6 +48,7 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         mix.consume(key, source["share"], f"share of {name}", "kWh")
         activities.append(supply)
         chain.electricity_kinds[key] = electricity.kind_of_source(source["factor"])
+        chain.electricity_sources[key] = name
     return activities
 
 
@@ -48,16 +60,34 @@ def starter(product: str, grid: bool = False) -> str:
 [electricity.sources.grid]
 share = 1.0
 factor = "electricity.grid.eu27_2018"
+procurement = "grid"             # direct_line | ppa | certificates | grid: schemes decide what counts
+# zone = ""                      # bidding zone or region of the supply
 """
     return """
 # One block per source; shares sum to 1. Factor ids: `carbonledger factors list`.
+# How each source is procured decides whether a scheme counts it as renewable (the factor id's
+# name does not): procurement = direct_line | ppa | certificates | grid; commissioned = the
+# generator's first day of operation (additionality); zone = its bidding zone or region
+# (geographic correlation); supported = whether it received operating or investment aid;
+# matched = annual | monthly | hourly | half_hourly, the period over which generation is
+# declared matched with consumption (hourly rules need a time series to be judged).
 [electricity.sources.solar]
 share = 0.5
 factor = "electricity.renewable.solar_pv_utility"
+# procurement = "ppa"
+# commissioned = 2027-01-01
+# zone = ""
+# supported = false
+# matched = "monthly"
 
 [electricity.sources.wind]
 share = 0.5
 factor = "electricity.renewable.wind_onshore"
+# procurement = "ppa"
+# commissioned = 2027-01-01
+# zone = ""
+# supported = false
+# matched = "monthly"
 """
 
 

@@ -6,6 +6,7 @@ from typing import Literal
 
 from ..errors import InputError
 from ..model.project import P, Section
+from ..model.reference import water_splitting_gibbs
 from ..stages import electrolysis
 from .ammonia import starter as ammonia_starter
 from .base import Activity, Route, SectionError, burn_natural_gas
@@ -16,6 +17,7 @@ class Electrolysis(Section):
     technology: Literal["alkaline", "pem", "solid_oxide"] = P(description="Electrolyser technology")
     electricity_kwh_per_kg_h2: float = P(unit="kWh/kg H2", description="System electricity, stack and balance of plant", gt=0)
     heat_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Heat (solid oxide: steam raising and stack heat)", ge=0)
+    operating_temperature_c: float = P(800.0, "°C", "Solid oxide: stack temperature, sets the Gibbs-energy floor on electricity", ge=500, le=1000)
     heat_source: Literal["recovered", "natural_gas", "electricity"] = P("recovered", description="Where the heat comes from; recovered heat carries no burden")
     heat_boiler_efficiency: float = P(0.9, "fraction", "Boiler efficiency when heat comes from natural gas", gt=0, le=1)
     water_litres_per_kg_h2: float = P(0.0, "L/kg H2", "Raw water drawn (0: water treatment not counted)", ge=0)
@@ -46,6 +48,12 @@ def check_limits(params: dict, inputs, source: str) -> None:
     if energy < floor:
         basis = "lower" if e["technology"] == "solid_oxide" else "higher"
         raise InputError(source, "electrolysis.electricity_kwh_per_kg_h2", f"electricity plus heat of at least {floor:.2f} kWh/kg H2 (the {basis} heating value of hydrogen), got {energy:g}")
+    steam = e["technology"] == "solid_oxide"
+    gibbs = water_splitting_gibbs(e["operating_temperature_c"] + 273.15 if steam else 298.15, steam)
+    least_electricity = electrolysis.gibbs_floor_kwh_per_kg_h2(gibbs.value * 1000.0, inputs.molar_mass("H2"))
+    if e["electricity_kwh_per_kg_h2"] < least_electricity:
+        where = f"steam at {e['operating_temperature_c']:g} °C" if steam else "liquid water at 25 °C"
+        raise InputError(source, "electrolysis.electricity_kwh_per_kg_h2", f"at least {least_electricity:.2f} kWh/kg H2 of electricity (Gibbs energy of water splitting, {where}; heat can supply only the T dS share), got {e['electricity_kwh_per_kg_h2']:g}")
     water = e["water_litres_per_kg_h2"]
     least_water = electrolysis.stoichiometric_water_kg_per_kg_h2(inputs.molar_mass("H2O"), inputs.molar_mass("H2"))
     if 0 < water < least_water:
@@ -88,6 +96,7 @@ def starter(product: str) -> str:
 technology = "pem"                   # alkaline | pem | solid_oxide
 electricity_kwh_per_kg_h2 = 54.0     # system electricity; at least the physical floor
 heat_kwh_per_kg_h2 = 0.0
+# operating_temperature_c = 800.0    # solid oxide only: sets the Gibbs-energy floor on electricity
 heat_source = "recovered"            # recovered | natural_gas | electricity
 water_litres_per_kg_h2 = 0.0         # 0: water treatment not counted
 water_treatment_kwh_per_m3 = 0.0

@@ -6,21 +6,27 @@ module builds; the project then needs a ``[natural_gas]`` section.
 
 from __future__ import annotations
 
+from typing import Literal
+
 from ..model.project import P, Section
 from ..stages import natural_gas
 from .base import Activity, Route
 
 
 class NaturalGas(Section):
-    methane_loss_rate: float = P(unit="fraction of gas delivered", description="Methane lost upstream (production, processing, transmission)", ge=0, lt=1)
+    methane_emission_share: float = P(unit="fraction", description="Methane emitted upstream (production, processing, transmission), as a share on the basis of methane_emission_basis", ge=0, lt=1)
+    methane_emission_basis: Literal[natural_gas.METHANE_EMISSION_BASES] = P(
+        description="What the share is of: methane_delivered | methane_produced (a published methane intensity of production) | gas_delivered_by_mass"
+    )
     upstream_co2_factor: str = P("natural_gas.upstream_co2", description="Factor id of upstream CO2 (non-methane)")
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
     gas = params["natural_gas"]
     activity = Activity("natural_gas_supply", "natural_gas_supply", "natural gas, delivered", "GJ")
-    leak = natural_gas.methane_leak_kg_ch4_per_gj(
-        gas["methane_loss_rate"],
+    leak = natural_gas.methane_emitted_kg_ch4_per_gj(
+        gas["methane_emission_share"],
+        gas["methane_emission_basis"],
         inputs.factor("natural_gas.net_calorific_value", "TJ/Gg"),
         inputs.factor("natural_gas.methane_mass_fraction", "kg CH4/kg"),
     )
@@ -32,7 +38,8 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 def starter(product: str) -> str:
     return """
 [natural_gas]
-methane_loss_rate = 0.01             # fraction of the gas delivered that is lost upstream
+methane_emission_share = 0.01        # methane emitted upstream, as a share of ...
+methane_emission_basis = "methane_delivered"   # methane_delivered | methane_produced | gas_delivered_by_mass
 upstream_co2_factor = "natural_gas.upstream_co2"
 """
 

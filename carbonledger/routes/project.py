@@ -55,7 +55,7 @@ class _ProjectRules(Section):
                 module.validate(self)
         self._lifetime_fits()
         if self.natural_gas is None and any(module.uses_natural_gas(self) for module in REGISTRY if module.kind != "hydrogen_route" or module is route):
-            raise SectionError("natural_gas", "a [natural_gas] section with methane_loss_rate, since the project burns natural gas")
+            raise SectionError("natural_gas", "a [natural_gas] section with methane_emission_share and methane_emission_basis, since the project burns natural gas")
         return self
 
     def _lifetime_fits(self) -> None:

@@ -75,6 +75,11 @@ def check_limits(params: dict, inputs, source: str) -> None:
     gas = params["reforming"]["natural_gas_gj_per_kg_h2"]
     if gas < floor:
         raise InputError(source, "reforming.natural_gas_gj_per_kg_h2", f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas:g}")
+    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
+    energy_in = reforming.energy_in_mj_per_kg_h2(gas, params["reforming"]["electricity_kwh_per_kg_h2"])
+    if energy_in < hydrogen_lhv:
+        least = (hydrogen_lhv - energy_in) / 1000.0 + gas
+        raise InputError(source, "reforming.natural_gas_gj_per_kg_h2", f"gas plus electricity of at least the hydrogen's lower heating value, {hydrogen_lhv:g} MJ/kg (energy balance, no imported heat): at least {least:.4f} GJ/kg H2 with this electricity, got {gas:g}")
 
 
 def draw_limits(params: dict, inputs) -> list:

@@ -15,6 +15,11 @@ name = {name}
 product = "{product}"            # ammonia | hydrogen
 site = ""
 note = "Where the numbers come from (design documents, meters, invoices)"
+# Dates and place that scheme rules depend on (leave out what is not known; the verdict says
+# which rules it could not judge):
+# zone = ""                      # bidding zone or region of the plant
+# construction_start = 2026-06-01
+# commissioning = 2027-06-01
 
 [hydrogen]
 route = "{route}"

@@ -3,12 +3,17 @@
 The floor: splitting liquid water needs at least the higher heating value of hydrogen as
 energy (electricity plus heat), 141.88 MJ/kg = 39.41 kWh/kg; a solid oxide electrolyser fed
 with steam raised outside the stack needs at least the lower heating value, 119.96 MJ/kg =
-33.32 kWh/kg. Water is at least 1 mol H2O per mol H2.
+33.32 kWh/kg. Heat can supply at most the T dS share: the electricity alone is at least the
+Gibbs energy of water splitting, about 237.1 kJ/mol (32.7 kWh/kg H2) for liquid water at 25 °C
+and less for steam at a solid oxide stack's temperature (about 192.6 kJ/mol at 1000 K).
+Water is at least 1 mol H2O per mol H2.
 
 References
 ----------
 .. [1] US DOE Hydrogen Program, Hydrogen Analysis Resource Center, Lower and Higher Heating
    Values of Fuels (hydrogen LHV 119.96 MJ/kg, HHV 141.88 MJ/kg).
+.. [2] Chase, M. W. (1998). NIST-JANAF Thermochemical Tables, 4th ed.: water, Gibbs energy of
+   formation -237.14 kJ/mol (liquid, 298.15 K), -192.59 kJ/mol (gas, 1000 K).
 """
 
 MJ_PER_KWH = 3.6
@@ -18,6 +23,11 @@ def energy_floor_kwh_per_kg_h2(technology: str, hydrogen_lhv_mj_per_kg, hydrogen
     """Least electricity plus heat per kg H2: HHV for liquid water, LHV for steam [1]_."""
     heating_value = hydrogen_lhv_mj_per_kg if technology == "solid_oxide" else hydrogen_hhv_mj_per_kg
     return heating_value / MJ_PER_KWH
+
+
+def gibbs_floor_kwh_per_kg_h2(gibbs_j_per_mol_h2, molar_mass_h2_g_per_mol):
+    """Least electricity per kg H2: the Gibbs energy of water splitting [2]_ (J/mol / g/mol = kJ/kg)."""
+    return gibbs_j_per_mol_h2 / molar_mass_h2_g_per_mol / 3600.0
 
 
 def stoichiometric_water_kg_per_kg_h2(molar_mass_h2o_g_per_mol, molar_mass_h2_g_per_mol):

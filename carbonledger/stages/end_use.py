@@ -6,8 +6,8 @@ the pilot fuel that ignites it burns with its own CO2 conversion factor.
 
 References
 ----------
-.. [1] IMO resolution MEPC.376(80) (2023), Guidelines on life cycle GHG intensity of marine
-   fuels: tank-to-wake emissions of ammonia and pilot fuel.
+.. [1] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: default tank-to-wake factors of
+   the pilot fuel (formerly cited to IMO MEPC.376(80), revoked and replaced by MEPC.391(81)).
 """
 
 

@@ -4,6 +4,8 @@ References
 ----------
 .. [1] IPCC (2006). 2006 IPCC Guidelines for National Greenhouse Gas Inventories, Vol. 2
    Energy, Ch. 1, Table 1.2 (net calorific values) and Ch. 2, Table 2.2 (stationary combustion).
+.. [2] Alvarez, R. A. et al. (2018). Assessment of methane emissions from the U.S. oil and gas
+   supply chain. Science 361, 186-188 (2.3 % of gross US gas production).
 """
 
 
@@ -12,18 +14,30 @@ def gas_mass_kg_per_gj(net_calorific_value_tj_per_gg):
     return 1000.0 / net_calorific_value_tj_per_gg
 
 
-def methane_leak_kg_ch4_per_gj(methane_loss_rate, net_calorific_value_tj_per_gg, methane_mass_fraction):
-    """Methane lost upstream per GJ of gas delivered.
+METHANE_EMISSION_BASES = ("methane_delivered", "methane_produced", "gas_delivered_by_mass")
+
+
+def methane_emitted_kg_ch4_per_gj(methane_emission_share, methane_emission_basis, net_calorific_value_tj_per_gg, methane_mass_fraction):
+    """Methane emitted upstream per GJ (LHV) of gas delivered, from a share on a named basis.
 
     Parameters
     ----------
-    methane_loss_rate : fraction of the gas delivered (by mass) that is lost upstream.
-        Some studies quote the loss as a fraction of gas produced; convert with
-        rate_delivered = rate_produced / (1 - rate_produced).
+    methane_emission_share : the share emitted, on the basis below.
+    methane_emission_basis : what the share is of:
+        ``methane_delivered``: kg CH4 emitted per kg CH4 delivered (by mass or by volume of
+        methane, the same); times the methane in the gas, m_gas x w_CH4.
+        ``methane_produced``: per kg CH4 produced (the published "methane intensity" of
+        production, e.g. 2.3 % of gross production, Alvarez et al. 2018); converted to the
+        delivered basis with s / (1 - s).
+        ``gas_delivered_by_mass``: kg CH4 emitted per kg of gas delivered; no composition needed.
     net_calorific_value_tj_per_gg : net calorific value of the gas, TJ/Gg (= MJ/kg) [1]_.
-    methane_mass_fraction : kg CH4 per kg of gas.
+    methane_mass_fraction : kg CH4 per kg of gas (the gas composition).
     """
-    return methane_loss_rate * gas_mass_kg_per_gj(net_calorific_value_tj_per_gg) * methane_mass_fraction
+    gas_kg = gas_mass_kg_per_gj(net_calorific_value_tj_per_gg)
+    if methane_emission_basis == "gas_delivered_by_mass":
+        return methane_emission_share * gas_kg
+    per_methane_delivered = methane_emission_share / (1.0 - methane_emission_share) if methane_emission_basis == "methane_produced" else methane_emission_share
+    return per_methane_delivered * gas_kg * methane_mass_fraction
 
 
 def combustion_kg_per_gj(emission_factor_kg_per_tj):

@@ -33,3 +33,9 @@ def fuel_gas_gj_per_kg_h2(natural_gas_gj_per_kg_h2, process_co2_share):
 def stoichiometric_gas_floor_gj_per_kg_h2(molar_mass_ch4_g_per_mol, molar_mass_h2_g_per_mol, methane_lhv_mj_per_kg):
     """Least natural gas (as methane, LHV) that can yield 1 kg H2: 1 mol CH4 per 4 mol H2 [2]_."""
     return molar_mass_ch4_g_per_mol / (4.0 * molar_mass_h2_g_per_mol) * methane_lhv_mj_per_kg / 1000.0
+
+
+def energy_in_mj_per_kg_h2(natural_gas_gj_per_kg_h2, electricity_kwh_per_kg_h2):
+    """Energy bought per kg H2 (gas LHV plus electricity), MJ: with no imported heat it must at least
+    equal the hydrogen's own lower heating value (first law)."""
+    return natural_gas_gj_per_kg_h2 * 1000.0 + electricity_kwh_per_kg_h2 * 3.6

@@ -11,8 +11,9 @@ References
 ----------
 .. [1] IMO resolution MEPC.364(79) (2022), Guidelines on the method of calculation of the
    attained EEDI, §2.2.1: CO2 conversion factors Cf of marine fuels (t CO2/t fuel).
-.. [2] IMO resolution MEPC.376(80) (2023), Guidelines on life cycle GHG intensity of marine
-   fuels: well-to-tank factors, tank-to-wake CH4 and N2O factors and methane slip (Cslip).
+.. [2] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: well-to-tank factors, lower
+   calorific values (used with them, from the same table), tank-to-wake CH4 and N2O factors and
+   methane slip (Cslip). Formerly cited to IMO MEPC.376(80), revoked and replaced by MEPC.391(81).
 .. [3] Latent heat of vaporisation of ammonia at its normal boiling point (1 atm): CRC Handbook
    of Chemistry and Physics (95th ed., 2014) through the ``chemicals`` library; checked in the
    tests against CoolProp's equation of state for ammonia (Bell et al., Ind. Eng. Chem. Res. 53

@@ -38,6 +38,14 @@ class SymbolicModel:
     hydrogen_lhv: Any
     ammonia_lhv: Any
     hydrogen_fraction: Any
+    counted_zero: dict = field(default_factory=dict)  # scheme id -> electricity activities its rules count at zero (from the engine's checks)
+
+
+def basis_product_of(scheme, inventory: Inventory) -> str:
+    """The product a scheme's value is expressed per: delivered, at the plant gate, or hydrogen."""
+    if scheme.basis == "delivered":
+        return inventory.reference_product
+    return inventory.product if scheme.basis == "product" else "hydrogen"
 
 
 def symbolic_model(params_symbolic: dict, factor_set, gwp: str, scheme_gwps: list[str]) -> SymbolicModel:
@@ -190,11 +198,11 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
             put_formula(ws, row, 12, local("G", row) * hydrogen_gate_supply * local("J", row), address)
             for scheme in chosen:
                 column = len(EXCHANGE_COLUMNS) + 1 + list(block.scheme_column).index(scheme.id)
-                reason = zero_rated(scheme, inventory, key)
+                reason = zero_rated(scheme, inventory, key, model.counted_zero.get(scheme.id, ()))
                 if reason:
                     put_text(ws, row, column, reason)
                     continue
-                basis_supply = product_gate_supply if scheme.basis == "product" else hydrogen_gate_supply
+                basis_supply = {"product": product_gate_supply, "delivered": supply}.get(scheme.basis, hydrogen_gate_supply)
                 put_formula(ws, row, column, local("G", row) * basis_supply * model.per_gwp[scheme.gwp][number], address)
     # activities with supply formulas
     consumers = consumers_of(inventory)

@@ -16,7 +16,7 @@ from typing import Any
 from ...analyses.periods import CANONICAL, NM3_FACTOR, Meters, scaled_parameters
 from ...core.inventory import build_inventory
 from ...core.scoring import intensities
-from .calculation import stage_sums, write_calculation_block
+from .calculation import basis_product_of, stage_sums, write_calculation_block
 from .cells import Term, local, ref, sum_of
 from .layout import (
     CALCULATION,
@@ -180,7 +180,7 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
             column = check_column + 3 * position
             letter = block.scheme_column[scheme.id]
             scheme_total = Term(f"SUM({letter}{biosphere[0]}:{letter}{biosphere[-1]})") if biosphere else Term("0")  # SUM skips zero-rated rows (text)
-            basis_product = product if scheme.basis == "product" else "hydrogen"
+            basis_product = basis_product_of(scheme, month_model.inventory)
             value = intensities(scheme_total, basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
             put_formula(ws, srow, column, value, address)
             _verdict(ws, srow, column, scheme, results_cells, address)
@@ -214,12 +214,14 @@ def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None
 
     loosest = scheme.loosest()
     operator = "<=" if loosest.inclusive else "<"
+    value = f"{get_column_letter(value_column)}{row}"
     if results_cells and f"check:{scheme.id}" in results_cells:
         limit = f"{RESULTS}!$K${results_cells[f'check:{scheme.id}']}"
+        status = f"{RESULTS}!$Q${results_cells[f'check:{scheme.id}']}"
+        formula = f'IF({status}="not_eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","pass"),"fail"))'
     else:
-        limit = repr(loosest.limit)
-    value = f"{get_column_letter(value_column)}{row}"
-    put_formula(ws, row, value_column + 1, Term(f'IF({value}{operator}{limit},"pass","fail")'), address)
+        formula = f'IF({value}{operator}{loosest.limit!r},"pass","fail")'
+    put_formula(ws, row, value_column + 1, Term(formula), address)
 
 
 def exchange_index(block, row: int) -> int:

@@ -44,6 +44,7 @@ from ..labels import INTENSITY_LABELS, stage_name
 from .calculation import (
     CalculationBlock,
     SymbolicModel,
+    basis_product_of,
     cell_of,
     check_acyclic,
     gas_sums,
@@ -149,6 +150,7 @@ def build_workbook(
     symbolic["project"]["boundary"] = result.boundary
 
     model = symbolic_model(symbolic, factor_set, gwp, [s.gwp for s in chosen])
+    model.counted_zero = {check.scheme: set(check.electricity_counted_zero) for check in result.checks}
     check_acyclic(model.inventory, source)
     period_plan = None
     if meters is not None:
@@ -363,7 +365,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     check_columns = (
         "scheme", "name", "basis", "GWP100 set", "electricity rule", "stages left out", "quantity", "unit",
         "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "pass or fail", "margin (threshold - value)",
-        "best tier met", "from memory", "engine value at writing",
+        "best tier met", "from memory", "engine value at writing", "status (rules read at writing)", "reasons (rule and source)",
     )
     for column, text in enumerate(check_columns, start=1):
         put_text(ws, row, column, text)
@@ -374,7 +376,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         column = block.scheme_column[scheme.id]
         rows = [r for r, _, e in block.exchange_rows if e.kind == "biosphere"]
         scheme_total = Term(f"SUM({block.sheet}!${column}${rows[0]}:${column}${rows[-1]})") if rows else Term("0")
-        basis_product = product if scheme.basis == "product" else "hydrogen"
+        basis_product = basis_product_of(scheme, inventory)
         value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
         loosest_row = max(threshold_rows[scheme.id], key=lambda item: item[1].limit)[0]
         for number, text in enumerate(
@@ -387,13 +389,13 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         put_formula(ws, row, 11, local("C", loosest_row), address)
         loosest = scheme.loosest()
         operator = "<=" if loosest.inclusive else "<"
-        put_formula(ws, row, 12, Term(f'IF($J${row}{operator}$K${row},"pass","fail")'), address)
+        put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
         put_formula(ws, row, 13, local("K", row) - local("J", row), address)
         tier = '"none"'
         for trow_, threshold in reversed(threshold_rows[scheme.id]):  # loosest outermost, strictest innermost
             comparison = "<=" if threshold.inclusive else "<"
             tier = f"IF($J${row}{comparison}$C${trow_},$B${trow_},{tier})"
-        put_formula(ws, row, 14, Term(tier), address)
+        put_formula(ws, row, 14, Term(f'IF(OR($Q${row}="not_eligible",$Q${row}="undetermined"),"none",{tier})'), address)
         put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
         engine_check = engine_checks.get(scheme.id)
         put_value(ws, row, 16, engine_check.value if engine_check else None)
@@ -401,9 +403,11 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         for column in (9, 10, 11, 13):
             style_cell(ws.cell(row=row, column=column), "formula", shown)
         style_cell(ws.cell(row=row, column=16), "engine", shown)
+        put_text(ws, row, 17, engine_check.status if engine_check else "")
+        put_text(ws, row, 18, " | ".join(engine_check.reasons) if engine_check else "")
         cells[f"check:{scheme.id}"] = row
     longest_name = max((len(scheme.name) for scheme in chosen), default=20)
-    set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14, "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14})
+    set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14, "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14, "Q": 16, "R": 90})
     ws.row_dimensions[checks_header].height = 45
     ws.freeze_panes = ws.cell(row=5, column=2)
     style_cell(ws.cell(row=1, column=1), "title")
@@ -429,6 +433,12 @@ def _figure(ws, row: int, term, address, engine_value) -> None:
     shown = number_format(engine_value)
     style_cell(ws.cell(row=row, column=2), "formula", shown)
     style_cell(ws.cell(row=row, column=4), "engine", shown)
+
+
+def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
+    """The live verdict: the threshold on the live value, within the rules read at writing
+    (``status``: not eligible stays so whatever the value; undetermined stays undetermined)."""
+    return f'IF({status}="not_eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","pass"),"fail"))'
 
 
 def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source) -> None:
