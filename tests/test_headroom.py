@@ -68,15 +68,15 @@ def test_lifecycle_scheme_counts_the_other_source_as_the_share_moves(tmp_path):
 
 
 def test_no_value_in_range_gives_null_and_a_reason():
-    result = run_cli("headroom", DEMO / "grey_smr_ammonia.toml", "--parameter", "natural_gas.methane_loss_rate", "--scheme", "japan-ammonia", "--format", "json")
+    result = run_cli("headroom", DEMO / "grey_smr_ammonia.toml", "--parameter", "natural_gas.methane_emission_share", "--scheme", "japan-ammonia", "--format", "json")
     data = json.loads(result.stdout)
     assert data["value"] is None and "no value in the physical range" in data["reason"]
 
 
 def test_several_parameters_make_a_table_and_bad_ones_one_line():
-    arguments = ("headroom", DEMO / "blue_atr_ammonia.toml", "--scheme", "eu-rfnbo", "--parameter", "capture.capture_rate", "--parameter", "natural_gas.methane_loss_rate")
+    arguments = ("headroom", DEMO / "blue_atr_ammonia.toml", "--scheme", "eu-rfnbo", "--parameter", "capture.capture_rate", "--parameter", "natural_gas.methane_emission_share")
     table = run_cli(*arguments)
-    assert table.exit_code == 0 and "capture.capture_rate" in table.stdout and "natural_gas.methane_loss_rate" in table.stdout
+    assert table.exit_code == 0 and "capture.capture_rate" in table.stdout and "natural_gas.methane_emission_share" in table.stdout
     assert_one_line_error(run_cli("headroom", DEMO / "blue_atr_ammonia.toml", "--scheme", "eu-rfnbo", "--parameter", "capture.nothing"))
     assert_one_line_error(run_cli("headroom", DEMO / "blue_atr_ammonia.toml", "--scheme", "eu-rfnbo", "--parameter", "capture.applies_to"))
     assert_one_line_error(run_cli("headroom", DEMO / "blue_atr_ammonia.toml", "--scheme", "us-45v", "--tier", "no such tier", "--parameter", "capture.capture_rate"))

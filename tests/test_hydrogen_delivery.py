@@ -8,7 +8,7 @@ from __future__ import annotations
 import json
 
 import pytest
-from helpers import DEMO, assert_one_line_error, run_cli
+from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
 
 from carbonledger.api import score
 from carbonledger.model.factors import load_factor_set
@@ -48,14 +48,19 @@ def test_pipeline_and_truck_worked_example():
     assert list(delivered.by_stage)[-2:] == ["hydrogen_pipeline", "hydrogen_trucking"]
 
 
-def test_hydrogen_leakage_is_reported_apart_and_in_no_scheme_value():
+def test_hydrogen_leakage_is_reported_apart_and_in_no_scheme_value(tmp_path):
     delivered = score(PIPED)
     gate = score(PIPED, boundary="cradle-to-gate")
     # Sand et al. (2023), GWP100 of hydrogen 11.6 (from memory, flagged in the factor row)
     assert delivered.hydrogen_leakage_kg_co2e == pytest.approx(delivered.hydrogen_leakage_kg * 11.6, rel=1e-9)
     assert "h2" not in delivered.by_gas and sum(delivered.by_gas.values()) == pytest.approx(delivered.total, rel=1e-12)
-    assert [c.value for c in delivered.checks] == pytest.approx([c.value for c in gate.checks], rel=1e-12)
     assert gate.hydrogen_leakage_kg == 0.0 and gate.hydrogen_leakage_kg_co2e == 0.0
+    # a tenfold GWP of hydrogen moves the leakage line only: not the total, not a scheme value
+    override = write(tmp_path / "h2.csv", FACTOR_HEADER + "gwp_indirect.h2,116,kg CO2e/kg H2,Ten times Sand et al. (2023) for this test,,,,test value,false\n")
+    tenfold = score(PIPED, factors=override)
+    assert tenfold.hydrogen_leakage_kg_co2e == pytest.approx(10 * delivered.hydrogen_leakage_kg_co2e, rel=1e-9)
+    assert tenfold.total == delivered.total
+    assert [c.value for c in tenfold.checks] == [c.value for c in delivered.checks]
     data = json.loads(run_cli("score", PIPED, "--format", "json", "--no-ledger").stdout)
     assert data["hydrogen_leakage_kg"] == pytest.approx(delivered.hydrogen_leakage_kg)
 

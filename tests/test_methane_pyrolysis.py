@@ -23,7 +23,8 @@ carbon_kg_per_kg_h2 = {carbon}
 carbon_allocation = "{allocation}"
 {extra}
 [natural_gas]
-methane_loss_rate = 0.01
+methane_emission_share = 0.01
+methane_emission_basis = "methane_delivered"
 [electricity.sources.grid]
 share = 1.0
 factor = "electricity.grid.eu27_2018"

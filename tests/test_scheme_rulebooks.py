@@ -76,8 +76,9 @@ def test_loader_refuses_a_threshold_or_rulebook_without_a_source(tmp_path):
     from carbonledger.errors import InputError
 
     text = (schemes_folder() / "uk-lchs.toml").read_text(encoding="utf-8")
-    assert text.count('source = "') == 1
-    (tmp_path / "uk-lchs.toml").write_text(text.replace(text[text.index('source = "'):].split("\n")[0], 'source = ""'), encoding="utf-8")
+    threshold = text.index("[[thresholds]]")
+    first_source = text[text.index('source = "', threshold):].split("\n")[0]
+    (tmp_path / "uk-lchs.toml").write_text(text[:threshold] + text[threshold:].replace(first_source, 'source = ""', 1), encoding="utf-8")
     with pytest.raises(InputError) as error:
         load_schemes(tmp_path)
     assert "thresholds.0.source" in str(error.value) and "uk-lchs.toml" in str(error.value)

@@ -28,6 +28,7 @@ LINEAR = """
 [project]
 name = "Linear chain test (invented)"
 product = "hydrogen"
+construction_start = 2026-03-01   # invented; before 2028-01-01, so 45V's construction rule is met
 
 [hydrogen]
 route = "electrolysis"
@@ -168,7 +169,7 @@ def test_rank_correlation_is_imposed_and_latin_hypercube_keeps_the_marginals():
         ('[uncertainty.parameters."capture.no_such_rate"]\ndistribution = "uniform"\nlow = 0.8\nhigh = 0.9\n', "capture.no_such_rate", "a parameter path that `carbonledger params` lists"),
         ('[uncertainty.factors."electricity.grid.nowhere"]\ndistribution = "uniform"\nlow = 1\nhigh = 2\n', "electricity.grid.nowhere", "a factor id known"),
         ('[uncertainty.parameters."capture.capture_rate"]\ndistribution = "gamma"\nmean = 1\n', "capture.capture_rate", "normal, lognormal, triangular, uniform, discrete"),
-        ('[uncertainty.parameters."natural_gas.methane_loss_rate"]\ndistribution = "lognormal"\nmedian = 0.005\ngsd = 0.5\n', "gsd", ">= 1"),
+        ('[uncertainty.parameters."natural_gas.methane_emission_share"]\ndistribution = "lognormal"\nmedian = 0.005\ngsd = 0.5\n', "gsd", ">= 1"),
     ],
 )
 def test_bad_distributions_give_one_line(tmp_path, table, field, words):

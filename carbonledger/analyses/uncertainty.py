@@ -23,6 +23,7 @@ References
 from __future__ import annotations
 
 import copy
+import datetime as dt
 import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -38,11 +39,14 @@ from ..core.inventory import build_inventory, check_physical_limits
 from ..core.scoring import (
     DEFAULT_GWP,
     FUNCTIONAL_UNITS,
+    basis_of,
     characterisation,
     intensities,
+    read_rules,
     rulebooks,
     zero_rated,
 )
+from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
@@ -144,6 +148,7 @@ class Plan:
     schemes: list[str] | None = None
     boundary: str | None = None
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
+    year: int | None = None  # calendar year whose dates the scheme rules are read on (default this year)
 
 
 def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None) -> Plan:
@@ -317,6 +322,7 @@ class Outcome:
     by_stage: dict[str, np.ndarray]
     by_gas: dict[str, np.ndarray]
     scheme_values: dict[str, np.ndarray]
+    scheme_findings: dict[str, list]  # the rules read before the threshold (eligibility, electricity, boundary): the same for every draw
     schemes: list
     unit: str
     functional_unit: str
@@ -365,11 +371,14 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     gases = main.sum(axis=2)
     by_gas = {flow: gases[:, n] for n, flow in enumerate(stacked.flow_keys) if flow not in NON_GHG_FLOWS}
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
-    scheme_values = {}
+    scheme_values, scheme_findings = {}, {}
+    nominal = params_with_draws(plan, {})
+    period = Period.year(plan.year if plan.year is not None else dt.date.today().year)
     for scheme in chosen:
-        mask = np.array([bool(zero_rated(scheme, inventory, key)) for key in keys])
-        basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
-        basis_product = product if scheme.basis == "product" else "hydrogen"
+        counted, findings, _ = read_rules(scheme, inventory, nominal, period)
+        scheme_findings[scheme.id] = findings
+        mask = np.array([bool(zero_rated(scheme, inventory, key, counted)) for key in keys])
+        basis_demand, basis_product = basis_of(scheme, inventory)
         scheme_total = (contributions(basis_demand, per_gwp[scheme.gwp]) * ~mask[None, None, :]).sum(axis=(1, 2))
         scheme_values[scheme.id] = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,))
     return Outcome(
@@ -378,6 +387,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         by_stage=by_stage,
         by_gas=by_gas,
         scheme_values=scheme_values,
+        scheme_findings=scheme_findings,
         schemes=chosen,
         unit=FUNCTIONAL_UNITS[inventory.reference_product][1],
         functional_unit=inventory.functional_unit,
@@ -410,6 +420,7 @@ def _join(outcomes: list[Outcome]) -> Outcome:
         cat("by_stage"),
         cat("by_gas"),
         cat("scheme_values"),
+        first.scheme_findings,
         first.schemes,
         first.unit,
         first.functional_unit,
@@ -522,10 +533,17 @@ def probability(hits: np.ndarray) -> Probability:
     return Probability(probability=p, standard_error=float(np.sqrt(p * (1 - p) / count)) if count else float("nan"))
 
 
-def statuses(scheme, values: np.ndarray) -> dict[str, np.ndarray]:
-    """Each draw's status under a scheme (today: qualifies or fails against the loosest threshold)."""
-    qualifies = scheme.loosest().met_by(values)
-    return {"qualifies": qualifies, "fails": ~qualifies}
+def statuses(scheme, values: np.ndarray, findings: list | None = None) -> dict[str, np.ndarray]:
+    """Each draw's status under a scheme: the rules read before the threshold are the same for
+    every draw (``findings``: a scheme the project is not eligible for is so whatever the value;
+    an open rule leaves a draw that meets the threshold undetermined), then the loosest threshold."""
+    met = np.asarray(scheme.loosest().met_by(values), dtype=bool)
+    findings = findings or []
+    none = np.zeros_like(met)
+    if status_of(findings, True) == "not_eligible":
+        return {"qualifies": none, "fails": none, "not_eligible": ~none, "undetermined": none}
+    open_rule = status_of(findings, True) == "undetermined"
+    return {"qualifies": met & ~open_rule, "fails": ~met, "not_eligible": none, "undetermined": met & open_rule}
 
 
 def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
@@ -543,8 +561,9 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
     checks = []
     for scheme in outcome.schemes:
         values = outcome.scheme_values[scheme.id][used]
-        status = {name: probability(hits) for name, hits in statuses(scheme, values).items()}
-        tiers = best_tiers(scheme, values)
+        by_status = statuses(scheme, values, outcome.scheme_findings.get(scheme.id))
+        status = {name: probability(hits) for name, hits in by_status.items()}
+        tiers = np.where(by_status["qualifies"], best_tiers(scheme, values), "none")
         tier_names = [t.tier for t in sorted(scheme.thresholds, key=lambda t: t.limit)] + ["none"]
         checks.append(
             CheckProbability(

@@ -209,9 +209,15 @@ def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
 
 def scheme_reading(prepared: Prepared, scheme: Scheme) -> tuple[set[str], list[Finding], list[str]]:
     """The scheme's rules on this project before the threshold: counted electricity, findings, versions."""
-    inventory, params = prepared.inventory, prepared.params
+    return read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
+
+
+def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> tuple[set[str], list[Finding], list[str]]:
+    """The scheme's rules read on ``period``'s dates: the electricity counted at zero, the findings
+    (eligibility, electricity, dates, boundary) and the rule versions used. Used by every solver
+    (bw2calc, stacked, Monte Carlo draws) so that they read the rules alike."""
     findings = eligibility_findings(scheme, params)
-    counted, electricity, versions = electricity_findings(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, prepared.period, prepared.matching)
+    counted, electricity, versions = electricity_findings(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, period, matching)
     rules = scheme.eligibility
     if rules is not None and rules.requires_counted_electricity and params["hydrogen"]["route"] in rules.routes:
         where = f"{rules.source}{' (from memory)' if rules.from_memory else ''}"
@@ -224,8 +230,8 @@ def scheme_reading(prepared: Prepared, scheme: Scheme) -> tuple[set[str], list[F
         findings.append(Finding("eligibility", NOT_MET, f"every electricity source counts as fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} [{where}]"))
     findings += electricity
     commissioning = as_date(params["project"].get("commissioning", ""))
-    if commissioning is not None and prepared.period.end < commissioning:
-        findings.append(Finding("dates", NOTE, f"the plant is not in operation in {prepared.period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {prepared.period.label()}'s dates; use --year for an operating year"))
+    if commissioning is not None and period.end < commissioning:
+        findings.append(Finding("dates", NOTE, f"the plant is not in operation in {period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {period.label()}'s dates; use --year for an operating year"))
     present = {inventory.activities[key].stage for key in inventory.activities}
     findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"])
     if scheme.version:

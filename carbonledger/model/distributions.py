@@ -7,7 +7,7 @@ ids (in the factor's own unit, as its row states it), each with one distribution
 [uncertainty]                       # in the project file, or the top level of a --distributions file
 sampling = "latin_hypercube"        # or "random" (default)
 
-[uncertainty.parameters."natural_gas.methane_loss_rate"]
+[uncertainty.parameters."natural_gas.methane_emission_share"]
 distribution = "lognormal"          # median and geometric standard deviation (gsd > 1)
 median = 0.005
 gsd = 1.6
