@@ -183,24 +183,24 @@ run("score", paths[0], "--format", "json")
 print("plant gate", loaded("CoolProp", "matplotlib", "openpyxl", "formulas"), file=sys.stderr)
 for path in paths[1:]:
     run("score", path, "--format", "json")
-print("shipped and cracked", loaded("CoolProp", "matplotlib", "openpyxl", "formulas"), file=sys.stderr)
+print("delivered", loaded("CoolProp", "matplotlib", "openpyxl", "formulas"), file=sys.stderr)
 """
 
 
 def test_help_and_score_load_only_what_they_need_and_create_no_brightway_folder(tmp_path, _ledger_in_tmp):
-    # `--help` needs neither the solver nor the chart library; no score needs CoolProp (the latent
-    # heat of ammonia comes from chemicals' CRC table), nor matplotlib without a chart, nor the
-    # workbook libraries (openpyxl; formulas is a test-only dependency).
+    # `--help` needs neither the solver nor the chart library; no demo score needs CoolProp (the
+    # latent heat of ammonia comes from chemicals' CRC table; only liquid-hydrogen legs need it),
+    # nor matplotlib without a chart, nor the workbook libraries (openpyxl; formulas is test-only).
     # One real process (sys.modules of a fresh interpreter), recording in the temporary ledger,
     # with a temporary home: bw2calc solves in memory, so nothing Brightway-related may appear there.
-    paths = [DEMO / "green_electrolysis_ammonia.toml", *SHIPPED, CRACKED]
+    paths = [DEMO / "green_electrolysis_ammonia.toml", *SHIPPED, CRACKED, DEMO / "green_hydrogen_piped_and_trucked.toml"]
     home = tmp_path / "home"
     env = dict(os.environ, HOME=str(home), XDG_DATA_HOME=str(home / "data"), XDG_CACHE_HOME=str(home / "cache"))
     env.pop("BRIGHTWAY2_DIR", None)
     out = subprocess.run([sys.executable, "-c", _IMPORT_PROBE, *map(str, paths)], capture_output=True, text=True, cwd=tmp_path, env=env)
     assert out.returncode == 0, out.stderr
     lines = out.stderr.strip().splitlines()[-3:]
-    assert lines == ["help []", "plant gate []", "shipped and cracked []"], out.stderr
+    assert lines == ["help []", "plant gate []", "delivered []"], out.stderr
     assert _ledger_in_tmp.exists()  # the runs went to the temporary ledger, not the user's
     assert [p for p in tmp_path.rglob("*") if "brightway" in p.name.lower()] == []
 
