@@ -138,7 +138,7 @@ def test_factors_list_json_shows_grid_rows_with_sources():
     assert result.exit_code == 0, result.output
     import json
 
-    rows = json.loads(result.stdout)
+    rows = json.loads(result.stdout)["factors"]
     by_id = {row["id"]: row for row in rows}
     assert len(rows) >= 100
     assert by_id["electricity.grid.us_erct_2022"]["unit"] == "lb CO2/MWh"
@@ -152,9 +152,12 @@ def test_residual_mix_is_not_zero_rated_as_renewable(tmp_path):
     override = write(tmp_path / "residual.csv", FACTOR_HEADER
                      + "electricity.residual_mix.testland_2023,400,g CO2/kWh,INVENTED for a test,,2023,Testland (invented),invented,false\n")
     project = DEMO / "grid_electrolysis_hydrogen.toml"
+    # the same declaration for both: a direct line to a generator commissioned in 2025 (the EU rule's
+    # Art. 3 and 5, Delegated Regulation (EU) 2023/1184); only a renewable generator is then counted at zero
+    declared = ['electricity.sources.grid.procurement="direct_line"', "electricity.sources.grid.commissioned=2025-06-01"]
     residual = score(project, factors=override, schemes=["eu-rfnbo"],
-                     overrides=["electricity.sources.grid.factor=electricity.residual_mix.testland_2023"])
+                     overrides=["electricity.sources.grid.factor=electricity.residual_mix.testland_2023", *declared])
     wind = score(project, factors=override, schemes=["eu-rfnbo"],
-                 overrides=["electricity.sources.grid.factor=electricity.renewable.wind_onshore"])
+                 overrides=["electricity.sources.grid.factor=electricity.renewable.wind_onshore", *declared])
     assert residual.checks[0].value > 0
     assert wind.checks[0].value == pytest.approx(0.0, abs=1e-12)
