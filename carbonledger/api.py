@@ -19,7 +19,7 @@ from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.headroom import Headroom
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, eligible_sources, match, matched_checks, scheme_granularity, source_kinds
+from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity, source_kinds
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
@@ -347,7 +347,7 @@ def matching_chart(
     model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
     load = series.load(model.kwh_per_kg_h2)
     granularity = scheme_granularity(rulebook.id, series.local) if matching in (None, "rule") else matching
-    result = match(load, series.generation_kwh, eligible_sources(rulebook, source_kinds(prepared.params), list(series.generation_kwh)), granularity, series.utc, series.local)
+    result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, series.local)
     label = granularity if isinstance(granularity, str) else "dated rule"
     title = f"{project.project.name}: {rulebook.id}, matching by {label}, {result.matched_share:.1%} matched"
     return write_matching_chart(series.local, load, result.matched_interval_kwh, title, path, force=force)

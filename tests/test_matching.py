@@ -69,7 +69,7 @@ LOAD = np.full(24, 10.0)  # 10 kWh every hour: 240 kWh
 SOLAR = np.where((np.arange(24) >= 8) & (np.arange(24) <= 15), 20.0, 0.0)  # hours 8-15: 20 kWh -> 160 kWh
 WIND = np.where(np.arange(24) <= 3, 5.0, 0.0)  # hours 0-3: 5 kWh -> 20 kWh
 GRID = np.where(np.arange(24) < 12, 300.0, 100.0)  # g CO2e/kWh: 300 before noon, 100 after
-ZERO_RATED = ElectricityModel(1.0, 50.0, {"solar": 0.0, "wind": 0.0, "grid": 0.281}, 0.0, 0.281, 1.0)
+ZERO_RATED = ElectricityModel(1.0, 50.0, {"solar": 0.0, "wind": 0.0, "grid": 0.281}, 0.0, 0.281, 1.0, ["solar", "wind"])
 
 
 def test_24_hours_matched_by_hand():

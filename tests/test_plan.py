@@ -18,7 +18,7 @@ from tests.test_matching import PROJECT, stamps, write_series
 
 KWH_PER_KG = 50.0
 # value = 5.0 + 50 (c - 0.1): a limit of 4.0 caps the counted electricity at c <= 0.08 kg CO2e/kWh
-MODEL = ElectricityModel(basis_kwh=KWH_PER_KG, kwh_per_kg_h2=KWH_PER_KG, counted_kg_per_kwh={"solar": 0.0, "wind": 0.0}, declared_kg_per_kwh=0.1, grid_kg_per_kwh=0.3, value_per_total=1.0)
+MODEL = ElectricityModel(basis_kwh=KWH_PER_KG, kwh_per_kg_h2=KWH_PER_KG, counted_kg_per_kwh={"solar": 0.0, "wind": 0.0}, declared_kg_per_kwh=0.1, grid_kg_per_kwh=0.3, value_per_total=1.0, eligible=["solar", "wind"])
 CAP = 0.08
 
 

@@ -84,8 +84,8 @@ def test_waterfall_steps_add_up_to_the_total(blue):
 def test_status_and_reasons_when_the_verdict_rules_give_them(blue):
     items, _ = blue
     check = items[0].result.checks[0]
-    assert status_of(check) == ("qualifies" if check.passes else "fails")  # before the verdict rules land
-    richer = SimpleNamespace(**check.model_dump(), status="not_eligible", reasons=["natural gas with capture is not a renewable fuel of non-biological origin"])
+    assert status_of(check) == check.status and check.passes == (check.status == "qualifies")  # the verdict rules give the status
+    richer = SimpleNamespace(**{**check.model_dump(), "status": "not_eligible", "reasons": ["natural gas with capture is not a renewable fuel of non-biological origin"]})
     result = items[0].result.model_copy(update={"checks": [richer]})  # no validation: a Check with status and reasons
     page = render_report([ProjectReport(result, items[0].inputs)], generated="2026-12-01", caution=CAUTION)
     assert 'class="badge off">not eligible<' in page

@@ -102,7 +102,9 @@ def test_pdf_has_a_page_per_section_on_the_right_paper(rendered, name):
     assert height == pytest.approx(PAPER_PT[paper][1], abs=1.5)
     sections = page.dom.count('<section class="sheet"')
     assert sections == sum(6 + (item.lifetime is not None) for item in items)  # every section is a page break
-    assert sections <= int(info["Pages"]) <= 3 * sections + 1
+    # every section starts a page; the summary of a project whose checks carry long verdict reasons
+    # (every rule and its source) may run to four pages
+    assert sections <= int(info["Pages"]) <= 4 * sections + 1
 
 
 @pytest.mark.parametrize("name", list(CASES))

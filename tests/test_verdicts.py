@@ -97,7 +97,7 @@ def test_temporal_rule_switches_on_1_january_2030():
     assert HOURLY_NEEDS_SERIES in after.reasons[0] and "2023/1184 Art. 6" in after.reasons[0]
     assert after.value == pytest.approx(before.value, rel=1e-12)
     # a matching analysis that shows hourly matching settles it (the function boundary for the time-series issue)
-    shown = check(score(CRACKED, schemes=["eu-rfnbo"], year=2030, matching={"solar": "hourly", "wind": "hourly"}), "eu-rfnbo")
+    shown = check(score(CRACKED, schemes=["eu-rfnbo"], year=2030, matched_periods={"solar": "hourly", "wind": "hourly"}), "eu-rfnbo")
     assert shown.status == "qualifies"
 
 

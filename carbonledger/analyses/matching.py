@@ -34,7 +34,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import Prepared, intensities, zero_rated
+from ..core.scoring import Prepared, intensities, read_rules, zero_rated
 from ..errors import InputError
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
 from ..stages.electricity import kind_of_source
@@ -165,14 +165,15 @@ def match(
     return MatchResult(name, float(load_kwh.sum()), float(per_interval.sum()), dict(zip(names, by_source.tolist(), strict=False)), per_interval, int(labels[-1]) + 1)
 
 
-def eligible_sources(scheme, kinds: dict[str, str], with_generation: list[str]) -> list[str]:
+def eligible_sources(scheme, counted_zero: set[str], with_generation: list[str]) -> list[str]:
     """The contracted sources whose generation a scheme matches against the load.
 
-    Under ``renewable_at_zero`` only renewable sources count; under ``lifecycle`` every contracted
-    source (each at its own factor). Procurement and additionality rules (issue 9) narrow this.
+    Under ``renewable_at_zero`` only the sources the scheme's electricity rules count at zero
+    (procurement, additionality, zone: ``core.scoring.read_rules``; activity keys
+    ``electricity:NAME``); under ``lifecycle`` every contracted source (each at its own factor).
     """
     if scheme.electricity == "renewable_at_zero":
-        return [name for name in with_generation if kinds[name] == "renewable"]
+        return [name for name in with_generation if f"electricity:{name}" in counted_zero]
     return list(with_generation)
 
 
@@ -189,6 +190,7 @@ class ElectricityModel:
     declared_kg_per_kwh: float  # the declared shares' counted intensity (what the engine used)
     grid_kg_per_kwh: float  # sources without a generation column, at their declared proportions
     value_per_total: float  # scheme quantity per kg CO2e of scheme total per basis unit
+    eligible: list[str]  # sources with generation whose generation the scheme matches (its electricity rules)
 
 
 def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generation: list[str]) -> ElectricityModel:
@@ -198,11 +200,12 @@ def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generati
     flow_index = {flow: number for number, flow in enumerate(matrices.flow_keys)}
     characterisation = prepared.per_gwp[scheme.gwp]
     sources = prepared.params["electricity"]["sources"]
+    counted_zero, _, _ = read_rules(scheme, inventory, prepared.params, prepared.period, prepared.matching)
     counted = {}
     for name in sources:
         key = f"electricity:{name}"
         emitted = sum(characterisation[flow_index[e.input]] * float(e.amount) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
-        counted[name] = 0.0 if zero_rated(scheme, inventory, key) else float(emitted)
+        counted[name] = 0.0 if zero_rated(scheme, inventory, key, counted_zero) else float(emitted)
     declared = sum(source["share"] * counted[name] for name, source in sources.items())
     grid = [name for name in sources if name not in with_generation]
     grid_share = sum(sources[name]["share"] for name in grid)
@@ -217,7 +220,7 @@ def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generati
     gate = solutions[inventory.gate]
     kwh_per_kg = float(gate.supply[mix]) / float(gate.supply[keys.index(inventory.hydrogen)])
     per_total = intensities(1.0, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
-    return ElectricityModel(basis_kwh, kwh_per_kg, counted, float(declared), float(grid_kg), float(per_total))
+    return ElectricityModel(basis_kwh, kwh_per_kg, counted, float(declared), float(grid_kg), float(per_total), eligible_sources(scheme, counted_zero, with_generation))
 
 
 def counted_intensity(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, mask: np.ndarray | slice = slice(None)) -> tuple[float, float, float, float]:
@@ -255,8 +258,7 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     local = series.local
     rule = describe(scheme.id) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme.id)})"
     granularity = scheme_granularity(scheme.id, local) if granularity is None else granularity
-    eligible = eligible_sources(scheme, kinds, list(series.generation_kwh))
-    result = match(load, series.generation_kwh, eligible, granularity, series.utc, local)
+    result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, local)
     total_load, matched, unmatched, intensity = counted_intensity(result, load, model, series.grid_g_co2e_per_kwh)
 
     def value_at(kg_per_kwh: float) -> float:
@@ -287,7 +289,7 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         matched_kwh=matched,
         unmatched_kwh=unmatched,
         matched_by_source_kwh=result.matched_by_source_kwh,
-        eligible_sources=eligible,
+        eligible_sources=model.eligible,
         grid_kwh_per_kg_h2=(unmatched / total_load if total_load > 0 else 0.0) * model.kwh_per_kg_h2,
         electricity_g_co2e_per_kwh=intensity * 1000.0,
         declared_electricity_g_co2e_per_kwh=model.declared_kg_per_kwh * 1000.0,

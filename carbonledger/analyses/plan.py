@@ -36,7 +36,7 @@ import numpy as np
 
 from ..errors import InputError
 from .electricity_series import ElectricitySeries
-from .matching import ElectricityModel, counted_intensity, eligible_sources, match, period_labels, scheme_granularity
+from .matching import ElectricityModel, counted_intensity, match, period_labels, scheme_granularity
 
 
 @dataclass
@@ -172,7 +172,7 @@ def plan_load(
     local = series.local
     rule = scheme_granularity(scheme.id, local) if granularity is None else granularity
     labels = period_labels(series.utc, local, rule)
-    eligible = eligible_sources(scheme, kinds, list(series.generation_kwh))
+    eligible = [name for name in model.eligible if name in series.generation_kwh]
     supply = np.array([series.generation_kwh[s] for s in eligible]).reshape(len(eligible), n)
     counted = np.array([model.counted_kg_per_kwh[s] for s in eligible])
     starts, generation, cbar = _period_data(series, supply, labels, counted)
