@@ -22,7 +22,7 @@ import pytest
 from carbonledger.api import score
 
 ROOT = Path(__file__).resolve().parent.parent
-REFERENCE_COMMIT = "111583be28e4775053df5352da34b36f7b0b2639"
+REFERENCE_COMMIT = "c1b7bc771c769bd26086e64849838d0b083fdeb1"
 BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
 
 FIGURES = """
