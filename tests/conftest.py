@@ -11,6 +11,18 @@ DEMO = ROOT / "demo_projects"
 os.environ.setdefault("MPLBACKEND", "Agg")
 
 
+def pytest_configure(config):
+    config.addinivalue_line("markers", "xdist_group(name): run these tests in one pytest-xdist worker")
+
+
+def pytest_collection_modifyitems(items):
+    """Under pytest-xdist (`-n 2 --dist loadgroup`), every test that uses LibreOffice's results
+    runs in one worker, so LibreOffice still starts once per session."""
+    for item in items:
+        if "libreoffice_recalculated" in getattr(item, "fixturenames", ()):
+            item.add_marker(pytest.mark.xdist_group("libreoffice"))
+
+
 @pytest.fixture(scope="session", autouse=True)
 def _session_ledger_in_tmp(tmp_path_factory):
     """Session-scoped fixtures (which run before the per-test ledger is set) record here too."""
