@@ -6,15 +6,15 @@ The browser checks (screenshot, rendered text, network, PDF) live in test_report
 from __future__ import annotations
 
 import re
-import subprocess
-import sys
 from types import SimpleNamespace
 
 import pytest
-from conftest import DEMO, ROOT
+from conftest import DEMO
+from typer.testing import CliRunner
 
 from carbonledger import api
 from carbonledger.about import CAUTION
+from carbonledger.cli import app
 from carbonledger.io.labels import stage_name, words
 from carbonledger.io.report import ProjectReport, render_report, status_of
 
@@ -22,7 +22,9 @@ BLUE = DEMO / "blue_atr_ammonia.toml"
 
 
 def run(*args, env=None):
-    return subprocess.run([sys.executable, "-m", "carbonledger", *map(str, args)], capture_output=True, text=True, cwd=ROOT, env=env)
+    """The command line in-process (typer's CliRunner), as a process-like result: returncode, stdout, stderr."""
+    result = CliRunner().invoke(app, [str(a) for a in args], env=env)
+    return SimpleNamespace(returncode=result.exit_code, stdout=result.stdout, stderr=result.stderr)
 
 
 def assert_one_line_error(process, *words_in_line):
