@@ -15,6 +15,7 @@ def pytest_configure(config):
     config.addinivalue_line("markers", "xdist_group(name): run these tests in one pytest-xdist worker")
 
 
+@pytest.hookimpl(tryfirst=True)  # before pytest-xdist reads the groups from the markers
 def pytest_collection_modifyitems(items):
     """Under pytest-xdist (`-n 2 --dist loadgroup`), every test that uses LibreOffice's results
     runs in one worker, so LibreOffice still starts once per session."""
