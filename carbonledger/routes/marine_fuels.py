@@ -37,8 +37,8 @@ def fuel_factors(inputs, fuel: str, engine: str, where: str) -> dict[str, Any]:
     }
 
 
-def burn_marine_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:
-    """Fuel bought (its well-to-tank supply activity, shared in ``extra``) and burnt (CO2, CH4 with slip, N2O)."""
+def buy_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:
+    """Fuel bought: its well-to-tank supply activity (one per stage and fuel, shared in ``extra``) and the input."""
     supplier = f"fuel_supply:{stage}:{fuel}"
     name = fuel.replace("_", " ")
     if not any(a.key == supplier for a in extra):
@@ -46,6 +46,12 @@ def burn_marine_fuel(activity: Activity, stage: str, fuel: str, factors: dict, f
         supply.emit("co2e_precharacterised", shipping.well_to_tank_kg_co2e_per_kg_fuel(factors["lhv"], factors["well_to_tank"]), f"well-to-tank of {name}")
         extra.append(supply)
     activity.consume(supplier, fuel_kg, f"{name}, {label}", "kg fuel")
+
+
+def burn_marine_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:
+    """Fuel bought (``buy_fuel``) and burnt (CO2, CH4 with slip, N2O)."""
+    name = fuel.replace("_", " ")
+    buy_fuel(activity, stage, fuel, factors, fuel_kg, label, extra)
     activity.emit("co2_fossil", fuel_kg * factors["co2"], f"CO2 from burning {name}, {label}")
     activity.emit("ch4_fossil", fuel_kg * (factors["ch4"] + factors["slip"]), f"CH4 from {name} (combustion and slip), {label}")
     activity.emit("n2o", fuel_kg * factors["n2o"], f"N2O from burning {name}, {label}")

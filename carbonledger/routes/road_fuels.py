@@ -7,8 +7,8 @@ from __future__ import annotations
 
 from typing import Any
 
-from ..stages import shipping
 from .base import Activity
+from .marine_fuels import buy_fuel
 
 
 def road_fuels(factor_set, namespace: str = "road_fuel") -> list[str]:
@@ -26,13 +26,8 @@ def road_fuel_factors(inputs, fuel: str, where: str, namespace: str = "road_fuel
 
 def burn_road_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:
     """Fuel bought (its well-to-tank supply activity, shared in ``extra``) and burnt in an engine."""
-    supplier = f"fuel_supply:{stage}:{fuel}"
     name = fuel.replace("_", " ")
-    if not any(a.key == supplier for a in extra):
-        supply = Activity(supplier, stage, f"{name}, supplied (well-to-tank)", "kg fuel")
-        supply.emit("co2e_precharacterised", shipping.well_to_tank_kg_co2e_per_kg_fuel(factors["lhv"], factors["well_to_tank"]), f"well-to-tank of {name}")
-        extra.append(supply)
-    activity.consume(supplier, fuel_kg, f"{name}, {label}", "kg fuel")
+    buy_fuel(activity, stage, fuel, factors, fuel_kg, label, extra)
     activity.emit("co2_fossil", fuel_kg * factors["co2"], f"CO2 from burning {name}, {label}")
     activity.emit("ch4_fossil", fuel_kg * factors["ch4"], f"CH4 from burning {name}, {label}")
     activity.emit("n2o", fuel_kg * factors["n2o"], f"N2O from burning {name}, {label}")
