@@ -9,8 +9,8 @@ import typer
 
 from .. import api
 from ..errors import InputError
+from ..io.chart_files import CHART_FORMATS
 from ..io.compare_output import (
-    CHART_FORMATS,
     comparison_csv,
     render_comparison,
     write_chart,

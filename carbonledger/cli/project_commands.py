@@ -11,11 +11,12 @@ from .. import api
 from ..about import CAUTION
 from ..core.results import strict_json
 from ..errors import InputError
+from ..io.chart_files import CHART_FORMATS
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
 from ..io.ledger import ledger_for_run, record_run
 from ..io.portfolio_output import lifetime_csv, lifetime_json, lifetime_table
-from ..io.score_chart import CHART_FORMATS, write_score_chart
+from ..io.score_chart import write_score_chart
 from ..io.tables import render as render_score
 from ..io.tables import score_csv
 from ..model.project import parameter_table

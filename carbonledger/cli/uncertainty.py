@@ -13,7 +13,8 @@ import typer
 from .. import api
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
-from ..io.sensitivity_output import CHART_FORMATS, sensitivity_csv, sensitivity_table, write_sensitivity_chart
+from ..io.chart_files import CHART_FORMATS
+from ..io.sensitivity_output import sensitivity_csv, sensitivity_table, write_sensitivity_chart
 from ..io.uncertainty_output import (
     headroom_csv,
     headroom_json,

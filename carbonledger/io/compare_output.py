@@ -5,12 +5,9 @@ from __future__ import annotations
 from pathlib import Path
 
 from ..analyses.compare import ComparisonResult
-from ..errors import InputError
+from .chart_files import write_figure
 from .csv_text import csv_text
-from .files import atomic_write
 from .tables import INTENSITY_UNITS, display_number, plain_console
-
-CHART_FORMATS = ("png", "svg")
 
 
 def _label(project) -> str:
@@ -143,14 +140,4 @@ def comparison_figure(result: ComparisonResult):
 
 def write_chart(result: ComparisonResult, path: str | Path, force: bool = False) -> Path:
     """Write the chart as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
-    path = Path(path)
-    kind = path.suffix.lower().lstrip(".")
-    if kind not in CHART_FORMATS:
-        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
-    figure = comparison_figure(result)
-    import matplotlib.pyplot as plt
-
-    try:
-        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
-    finally:
-        plt.close(figure)
+    return write_figure(path, lambda: comparison_figure(result), force)

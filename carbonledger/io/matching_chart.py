@@ -8,9 +8,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
-from .files import atomic_write
-
-CHART_FORMATS = ("png", "svg")
+from .chart_files import write_figure
 
 
 def unmatched_share_by_hour_and_month(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray) -> tuple[list[str], np.ndarray]:
@@ -60,15 +58,6 @@ def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.nda
 def write_matching_chart(local, load_kwh, matched_kwh, title: str, path: str | Path, force: bool = False) -> Path:
     """Write the chart as PNG or SVG (by suffix), atomically, refusing to overwrite without ``force``."""
     path = Path(path)
-    kind = path.suffix.lower().lstrip(".")
-    if kind not in CHART_FORMATS:
-        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
     if path.exists() and not force:
         raise InputError(path, "--chart", "a new file (it exists; pass --force to overwrite)")
-    figure = matching_figure(local, load_kwh, matched_kwh, title)
-    import matplotlib.pyplot as plt
-
-    try:
-        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
-    finally:
-        plt.close(figure)
+    return write_figure(path, lambda: matching_figure(local, load_kwh, matched_kwh, title), force)

@@ -7,13 +7,11 @@ from pathlib import Path
 
 from ..core.results import ScoreResult
 from ..core.scoring import rulebooks
-from ..errors import InputError
-from .files import atomic_write
+from .chart_files import write_figure
 from .labels import gas_name, stage_name
 from .report import GAS_COLOURS, STAGE_COLOURS, status_of
 from .tables import display_number
 
-CHART_FORMATS = ("png", "svg")
 STATUS_COLOURS = {"qualifies": "#2f6b45", "fails": "#a4452f", "not eligible": "#5b616c", "undetermined": "#8a6a10"}
 
 
@@ -79,19 +77,4 @@ def score_figure(result: ScoreResult):
 
 def write_score_chart(result: ScoreResult, path: str | Path, force: bool = False) -> Path:
     """Write the chart as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
-    path = Path(path)
-    kind = path.suffix.lower().lstrip(".")
-    if kind not in CHART_FORMATS:
-        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
-    figure = score_figure(result)
-    import matplotlib
-    import matplotlib.pyplot as plt
-
-    def save(tmp: Path) -> None:
-        with matplotlib.rc_context({"svg.fonttype": "none"}):  # SVG text stays text: searchable, read aloud
-            figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None)
-
-    try:
-        return atomic_write(path, save, force=force)
-    finally:
-        plt.close(figure)
+    return write_figure(path, lambda: score_figure(result), force, svg_text=True)

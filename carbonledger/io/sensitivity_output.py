@@ -5,12 +5,9 @@ from __future__ import annotations
 from pathlib import Path
 
 from ..analyses.sensitivity import Sensitivity
-from ..errors import InputError
-from .files import atomic_write
+from .chart_files import write_figure
 from .tables import display_number
 from .uncertainty_output import console_for_text, rows_to_csv
-
-CHART_FORMATS = ("png", "svg")
 
 
 def sensitivity_csv(result: Sensitivity) -> str:
@@ -89,14 +86,4 @@ def sensitivity_figure(result: Sensitivity):
 
 def write_sensitivity_chart(result: Sensitivity, path: str | Path, force: bool = False) -> Path:
     """Write the chart as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
-    path = Path(path)
-    kind = path.suffix.lower().lstrip(".")
-    if kind not in CHART_FORMATS:
-        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
-    figure = sensitivity_figure(result)
-    import matplotlib.pyplot as plt
-
-    try:
-        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
-    finally:
-        plt.close(figure)
+    return write_figure(path, lambda: sensitivity_figure(result), force)

@@ -8,11 +8,8 @@ import json
 
 from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
-from ..errors import InputError
-from .files import atomic_write
+from .chart_files import write_figure
 from .tables import INTENSITY_UNITS, display_number
-
-CHART_FORMATS = ("png", "svg")
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
 
@@ -240,16 +237,4 @@ def uncertainty_figure(result: UncertaintyResult):
 
 def write_uncertainty_chart(result: UncertaintyResult, path, force: bool = False):
     """Write the histograms as PNG or SVG (by the file's suffix), atomically, refusing to overwrite."""
-    from pathlib import Path
-
-    path = Path(path)
-    kind = path.suffix.lower().lstrip(".")
-    if kind not in CHART_FORMATS:
-        raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
-    figure = uncertainty_figure(result)
-    import matplotlib.pyplot as plt
-
-    try:
-        return atomic_write(path, lambda tmp: figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None), force=force)
-    finally:
-        plt.close(figure)
+    return write_figure(path, lambda: uncertainty_figure(result), force)
