@@ -9,7 +9,6 @@ import typer
 
 from .. import api
 from ..errors import InputError
-from ..io.chart_files import CHART_FORMATS
 from ..io.compare_output import (
     comparison_csv,
     render_comparison,
@@ -26,6 +25,7 @@ from .options import (
     NoLedgerOption,
     OutputFormat,
     SchemeOption,
+    check_chart_path,
     fail,
     render,
 )
@@ -48,10 +48,7 @@ def compare(
     """Compare projects side by side: total, intensity, by stage, by gas, scheme verdicts."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
-            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
-        if chart is not None and chart.exists() and not force:
-            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        check_chart_path(chart, force)
         result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis)
         text = render(output_format, table=lambda: render_comparison(result), json=result.to_json, csv=lambda: comparison_csv(result))
         if chart is not None:

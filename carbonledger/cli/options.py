@@ -10,6 +10,7 @@ from typing import Annotated, Optional
 import typer
 
 from ..errors import InputError
+from ..io.chart_files import CHART_FORMATS
 
 
 class OutputFormat(StrEnum):
@@ -48,3 +49,13 @@ def explicit(ctx: typer.Context, name: str, value):
     """The option's value if given on the command line, else None (a workbook's own setting)."""
     source = ctx.get_parameter_source(name)  # typer may vendor its own click: compare by name
     return value if source is not None and source.name == "COMMANDLINE" else None
+
+
+def check_chart_path(chart: Path | None, force: bool) -> None:
+    """Refuse a chart path before any work: a suffix other than .png or .svg, or an existing file without --force."""
+    if chart is None:
+        return
+    if chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
+        raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
+    if chart.exists() and not force:
+        raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")

@@ -11,7 +11,6 @@ from .. import api
 from ..about import CAUTION
 from ..core.results import strict_json
 from ..errors import InputError
-from ..io.chart_files import CHART_FORMATS
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
 from ..io.ledger import ledger_for_run, record_run
@@ -35,6 +34,7 @@ from .options import (
     SchemeOption,
     SetOption,
     YearOption,
+    check_chart_path,
     explicit,
     fail,
     render,
@@ -68,10 +68,7 @@ def score(
         if chart is not None:
             if lifetime:
                 raise InputError("--chart", str(chart), "a single score (not with --lifetime)")
-            if chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
-                raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
-            if chart.exists() and not force:
-                raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+            check_chart_path(chart, force)
         if lifetime:
             if from_workbook is not None:
                 raise InputError("--lifetime", "--from-workbook", "a project TOML file (lifetime scoring reads the project's [lifetime] section)")

@@ -13,7 +13,6 @@ import typer
 from .. import api
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
-from ..io.chart_files import CHART_FORMATS
 from ..io.sensitivity_output import sensitivity_csv, sensitivity_table, write_sensitivity_chart
 from ..io.uncertainty_output import (
     headroom_csv,
@@ -37,6 +36,7 @@ from .options import (
     SchemeOption,
     SetOption,
     WorkersOption,
+    check_chart_path,
     fail,
     render,
 )
@@ -85,10 +85,7 @@ def uncertainty(
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
     try:
-        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
-            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
-        if chart is not None and chart.exists() and not force:
-            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        check_chart_path(chart, force)
         options = {
             "distributions": distributions,
             "draws": draws,
@@ -156,10 +153,7 @@ def sensitivity(
 ) -> None:
     """Which inputs decide the result: Sobol indices (SALib) and a 10th/90th percentile tornado."""
     try:
-        if chart is not None and chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
-            raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
-        if chart is not None and chart.exists() and not force:
-            raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        check_chart_path(chart, force)
         result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
         text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
         if chart is not None:
