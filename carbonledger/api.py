@@ -19,7 +19,7 @@ from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.headroom import Headroom
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity, source_kinds
+from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
@@ -316,7 +316,7 @@ def plan(
     if matching not in (None, "rule") and matching not in ("interval", "hour", "month", "quarter", "year"):
         raise InputError("--matching", matching, "one of rule, interval, hour, month, quarter, year")
     result = plan_load(
-        series, model, rulebook, source_kinds(prepared.params),
+        series, model, rulebook,
         value_declared=check.value, limit=threshold.limit, inclusive=threshold.inclusive, rated_kw=rated_kw, min_load=min_load,
         part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
     )

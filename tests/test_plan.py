@@ -30,7 +30,7 @@ def series_of(solar, grid_g, start="2026-06-01T00:00"):
 
 def solve(series, **options):
     scheme = rulebooks()["us-45v"]  # renewable at zero
-    return plan_load(series, MODEL, scheme, {"solar": "renewable"}, value_declared=5.0, limit=4.0, granularity="hour", **options)
+    return plan_load(series, MODEL, scheme, value_declared=5.0, limit=4.0, granularity="hour", **options)
 
 
 def hourly_emissions(load, solar, grid_g):

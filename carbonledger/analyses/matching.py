@@ -37,7 +37,6 @@ from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreRes
 from ..core.scoring import Prepared, intensities, read_rules, zero_rated
 from ..errors import InputError
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
-from ..stages.electricity import kind_of_source
 from .electricity_series import ElectricitySeries
 
 _CODE = {name: number for number, name in enumerate(GRANULARITIES)}
@@ -252,7 +251,7 @@ def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: Electr
     return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
 
 
-def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, kinds: dict[str, str], granularity: str | None = None) -> Check:
+def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, granularity: str | None = None) -> Check:
     """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if)."""
     load = series.load(model.kwh_per_kg_h2)
     local = series.local
@@ -306,10 +305,6 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     return check.model_copy(update={"value": value, **scheme.evaluate(value), "electricity_matching": matching})
 
 
-def source_kinds(params: dict) -> dict[str, str]:
-    return {name: kind_of_source(source["factor"]) for name, source in params["electricity"]["sources"].items()}
-
-
 def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None) -> ScoreResult:
     """The scored result with every scheme check matched against the series under the scheme's rule.
 
@@ -319,14 +314,13 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     """
     if granularity is not None and granularity not in GRANULARITIES:
         raise InputError("--matching", granularity, f"one of rule, declared, {', '.join(GRANULARITIES)}")
-    kinds = source_kinds(prepared.params)
     with_generation = list(series.generation_kwh)
     schemes = {scheme.id: scheme for scheme in prepared.chosen}
     checks = []
     for check in result.checks:
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
-        checks.append(matched_check(check, scheme, series, model, kinds, granularity))
+        checks.append(matched_check(check, scheme, series, model, granularity))
     return result.model_copy(update={"checks": checks})
 
 

@@ -147,7 +147,6 @@ def plan_load(
     series: ElectricitySeries,
     model: ElectricityModel,
     scheme,
-    kinds: dict[str, str],
     *,
     value_declared: float,
     limit: float,
