@@ -5,6 +5,7 @@ libraries only). See DEVELOPERS.md, "Architecture"."""
 from __future__ import annotations
 
 import ast
+import functools
 from pathlib import Path
 
 import carbonledger
@@ -42,8 +43,13 @@ def layer_of(module: str) -> int | None:
     return None
 
 
-def imports(name: str, path: Path):
+@functools.cache
+def imports(name: str, path: Path) -> list:
     """(imported module, imported names, inside a function) for every package-internal import."""
+    return list(_imports(name, path))
+
+
+def _imports(name: str, path: Path):
     tree = ast.parse(path.read_text(encoding="utf-8"))
     is_package = path.name == "__init__.py"
     base = name.split(".") if is_package else name.split(".")[:-1]

@@ -84,6 +84,7 @@ def outputs():
     return found
 
 
+@pytest.mark.xdist_group("outputs")  # one worker runs the module fixture once for every case
 @pytest.mark.parametrize("name", COMMANDS)
 def test_caution_and_from_memory_flags_in_every_format(outputs, name):
     # the default factor set and every rulebook hold values recorded from memory (from_memory=true

@@ -212,7 +212,7 @@ def test_stacked_draws_agree_with_bw2calcs_own_monte_carlo():
         "test",
     )
     plan = make_plan(project, load_factor_set("default-2026"), uncertainty)
-    count = 1500
+    count = 800
     theirs = monte_carlo_with_bw2calc(plan, count, seed=1)
     ours = evaluate(plan, draw(plan, count, seed=2), count).total
     standard_error = np.sqrt(theirs.var(ddof=1) / count + ours.var(ddof=1) / count)
