@@ -52,16 +52,15 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     flue = reforming.flue_co2_kg_per_kg_h2(direct, b["process_co2_share"])
     captured = capture.captured_co2_kg_per_kg_h2(process, flue, b["capture_rate"], b["capture_applies_to"])
     plant.emit("co2_biogenic", direct - captured, "biogenic CO2 from feed and fuel, released (counted apart)")
-    activities = [supply, plant]
-    if b["capture_rate"] > 0:
-        plant.consume("biogenic_co2_capture", captured, "biogenic CO2 captured", "kg CO2")
-        unit = Activity("biogenic_co2_capture", "co2_capture_and_storage", "biogenic CO2 capture, compression, transport and storage", "kg CO2")
-        unit.consume("electricity_mix", capture.compression_electricity_kwh_per_kg_co2(b["compression_kwh_per_t_co2"]), "electricity, capture and compression", "kWh")
-        loss = b["transport_storage_loss_fraction"]
-        unit.emit("co2_biogenic", biomethane.lost_kg(1.0, loss), "biogenic CO2 lost in transport and storage (counted apart)")
-        unit.emit("co2_biogenic_stored", biomethane.stored_kg(1.0, loss), "biogenic CO2 stored (stated apart; not netted)")
-        activities.append(unit)
-    return activities
+    # the capture activity is always built (with nothing captured at a capture rate of 0), so that the
+    # structure never depends on a number (the workbook runs this on formula cells)
+    plant.consume("biogenic_co2_capture", captured, "biogenic CO2 captured", "kg CO2")
+    unit = Activity("biogenic_co2_capture", "co2_capture_and_storage", "biogenic CO2 capture, compression, transport and storage", "kg CO2")
+    unit.consume("electricity_mix", capture.compression_electricity_kwh_per_kg_co2(b["compression_kwh_per_t_co2"]), "electricity, capture and compression", "kWh")
+    loss = b["transport_storage_loss_fraction"]
+    unit.emit("co2_biogenic", biomethane.lost_kg(1.0, loss), "biogenic CO2 lost in transport and storage (counted apart)")
+    unit.emit("co2_biogenic_stored", biomethane.stored_kg(1.0, loss), "biogenic CO2 stored (stated apart; not netted)")
+    return [supply, plant, unit]
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
