@@ -55,8 +55,8 @@ SAMPLE = [
     ("electricity.grid.morocco_2022", 662.64, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Morocco 2022"),
     ("electricity.grid.oman_2024", 542.77, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Oman 2024"),
     ("electricity.grid.namibia_2023", 47.62, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Namibia 2023"),
+    ("electricity.grid.united_arab_emirates_2023", 483.79, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, UAE 2023"),
     # OWID chart CSV (Ember 2025) read only in a third-party copy (pluginsGLPI/carbon): from memory
-    ("electricity.grid.united_arab_emirates_2023", 492.698, "g CO2e/kWh", True, "OWID chart (copy), United Arab Emirates 2023"),
     ("electricity.grid.germany_2023", 371.311, "g CO2e/kWh", True, "OWID chart (copy), Germany 2023"),
     ("electricity.grid.poland_2024", 614.982, "g CO2e/kWh", True, "OWID chart (copy), Poland 2024"),
 ]
