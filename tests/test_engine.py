@@ -30,7 +30,8 @@ def test_brightway_solution_equals_closed_form():
     # 9,500 / (1 - 0.05) = 10,000 kWh.
     # Inventory: CO2e 10,000 * 0.5 = 5,000 kg; CO2 180 * 2 = 360 kg; N2O 0.01 kg; CH4 0.1 kg.
     # With GWP100 CO2 1, CH4 29.8, N2O 273: 5,000 + 360 + 2.98 + 2.73 = 5,365.71 kg CO2e.
-    gwp = {"co2_fossil": 1.0, "ch4_fossil": 29.8, "ch4_non_fossil": 27.0, "n2o": 273.0, "co2e_precharacterised": 1.0, "nh3": 0.0, "h2": 0.0}
+    gwp = {"co2_fossil": 1.0, "ch4_fossil": 29.8, "ch4_non_fossil": 27.0, "n2o": 273.0, "co2e_precharacterised": 1.0, "nh3": 0.0, "h2": 0.0,
+           "co2_biogenic": 0.0, "co2_biogenic_stored": 0.0}  # biogenic CO2: counted apart (zero in the headline)
     characterisation = np.array([gwp[f] for f in FLOWS])
     matrices = build_matrices(small_chain())
     solutions, bw_score = solve(matrices, ["ammonia", "hydrogen"], characterisation)

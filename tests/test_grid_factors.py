@@ -47,6 +47,18 @@ SAMPLE = [
     ("electricity.grid.brazil_2023", 0.0385, "t CO2/MWh", True, "MCTI SIRENE annual average factor 2023 (news report)"),
     ("electricity.grid.south_africa_eskom_fy2013_14", 1.07, "kg CO2/kWh", False,
      "Eskom Integrated Report 2014, environmental implications table, factor 1"),
+    # Export-project countries: Our World in Data energy data set (CC BY 4.0, data from Ember), column
+    # carbon_intensity_elec, read in owid-energy-data.csv of owid/energy-data at commit e7897aed
+    ("electricity.grid.chile_2024", 259.87, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Chile 2024"),
+    ("electricity.grid.chile_2019", 456.54, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Chile 2019"),
+    ("electricity.grid.egypt_2023", 571.29, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Egypt 2023"),
+    ("electricity.grid.morocco_2022", 662.64, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Morocco 2022"),
+    ("electricity.grid.oman_2024", 542.77, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Oman 2024"),
+    ("electricity.grid.namibia_2023", 47.62, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Namibia 2023"),
+    ("electricity.grid.united_arab_emirates_2023", 483.79, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, UAE 2023"),
+    # OWID chart CSV (Ember 2025) read only in a third-party copy (pluginsGLPI/carbon): from memory
+    ("electricity.grid.germany_2023", 371.311, "g CO2e/kWh", True, "OWID chart (copy), Germany 2023"),
+    ("electricity.grid.poland_2024", 614.982, "g CO2e/kWh", True, "OWID chart (copy), Poland 2024"),
 ]
 
 
@@ -109,6 +121,27 @@ def test_every_grid_row_states_its_basis_and_gas_matches_unit():
             assert "secondary" in note.lower() or "seen only" in note.lower() or "copy" in note.lower(), row["id"]
 
 
+def test_export_project_countries_have_several_years(default_set):
+    """Chile, Morocco, Egypt, Namibia, Oman and the UAE (the export hydrogen countries of the issue) each have
+    at least five published years, and every EU member state has rows for 2020 to 2024."""
+    for region in ("chile", "morocco", "egypt", "namibia", "oman", "united_arab_emirates"):
+        years = [key for key in default_set.factors if key.startswith(f"electricity.grid.{region}_")]
+        assert len(years) >= 5, region
+    for region in ("austria", "germany", "italy", "denmark", "spain", "sweden", "poland", "norway"):
+        for year in range(2020, 2025):
+            assert f"electricity.grid.{region}_{year}" in default_set.factors
+
+
+def test_german_ember_figure_is_near_the_federal_environment_agency(default_set):
+    """A plausibility check against another official publication (different basis, so only within 10 %):
+    Umweltbundesamt, Climate Change 13/2025, p. 21: 386 g CO2/kWh for 2023 (preliminary, CO2 per kWh
+    consumed); read only in a secondary quotation of that page (from memory). The OWID/Ember 2023 row is
+    CO2e per kWh generated."""
+    uba_2023_g_co2_per_kwh = 386
+    ember = default_set.factors["electricity.grid.germany_2023"].value
+    assert abs(ember - uba_2023_g_co2_per_kwh) / uba_2023_g_co2_per_kwh < 0.10
+
+
 def test_existing_grid_rows_are_unchanged(default_set):
     """Published values already in the set (EEA IND-353 text; SEAI portal) keep their values."""
     assert default_set.factors["electricity.grid.eu27_2018"].value == 281
@@ -118,9 +151,9 @@ def test_existing_grid_rows_are_unchanged(default_set):
 def test_unknown_region_or_year_suggests_close_ids(default_set):
     inputs = NumericInputs(default_set, source="project.toml")
     with pytest.raises(InputError) as caught:
-        inputs.factor("electricity.grid.germany_2022", "g CO2e/kWh", "electricity.sources.grid.factor")
+        inputs.factor("electricity.grid.germany_2025", "g CO2e/kWh", "electricity.sources.grid.factor")
     message = str(caught.value)
-    assert "did you mean" in message and "'electricity.grid.germany_2019'" in message
+    assert "did you mean" in message and "'electricity.grid.germany_2024'" in message
     with pytest.raises(InputError) as caught:
         inputs.factor("electricity.grid.ontario_2018", "g CO2e/kWh", "electricity.sources.grid.factor")
     assert "'electricity.grid.canada_ontario_2018'" in str(caught.value)
@@ -161,3 +194,29 @@ def test_residual_mix_is_not_zero_rated_as_renewable(tmp_path):
                  overrides=["electricity.sources.grid.factor=electricity.renewable.wind_onshore", *declared])
     assert residual.checks[0].value > 0
     assert wind.checks[0].value == pytest.approx(0.0, abs=1e-12)
+
+
+def test_factors_list_states_the_accounting_basis():
+    """Location-based grid averages and market-based residual mixes are two methods that are reported apart
+    (GHG Protocol Scope 2 Guidance, 2015: dual reporting; from memory): the listing says which is which."""
+    import json
+
+    result = run_cli("factors", "list", "--prefix", "electricity.grid.chile", "--format", "json")
+    assert result.exit_code == 0, result.output
+    listing = json.loads(result.stdout)
+    assert all(row["accounting_basis"].startswith("location-based") for row in listing["factors"])
+    assert listing["accounting_bases"]["electricity.residual_mix."].startswith("market-based")
+    table = run_cli("factors", "list", "--prefix", "electricity.")
+    assert "electricity.residual_mix.* rows are market-based" in table.stdout
+
+
+def test_a_project_cannot_mix_location_and_market_based_grid_factors(tmp_path):
+    """The residual-mix value below is INVENTED for this test; mixing it with a grid average is refused in one line."""
+    override = write(tmp_path / "residual.csv", FACTOR_HEADER
+                     + "electricity.residual_mix.testland_2023,400,g CO2/kWh,INVENTED for a test,,2023,Testland (invented),invented,false\n")
+    result = run_cli("score", DEMO / "grid_electrolysis_hydrogen.toml", "--no-ledger", "--factors", str(override),
+                     "--set", "electricity.sources.grid.share=0.5",
+                     "--set", "electricity.sources.rest.share=0.5",
+                     "--set", "electricity.sources.rest.factor=electricity.residual_mix.testland_2023")
+    assert_one_line_error(result)
+    assert "one accounting basis" in result.stderr

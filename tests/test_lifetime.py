@@ -158,3 +158,49 @@ def test_score_lifetime_command_formats(tmp_path):
     assert len(data["years"]) == 3
     csv_text = run_cli("score", path, "--lifetime", "--format", "csv").stdout
     assert csv_text.splitlines()[0].startswith("year,") and "lifetime_with_construction" in csv_text
+
+
+CHILE = """\
+operating_years = 5
+first_year = 2022
+nameplate_output_t_per_year = 1000
+grid_trajectory_factors = "region"
+"""
+
+
+def test_lifetime_follows_the_published_years_of_its_region(tmp_path):
+    """A project on the Chilean grid (factor electricity.grid.chile_2024) follows Chile's published years,
+    Our World in Data energy data set (Ember), carbon_intensity_elec: 2022 372.80, 2023 303.82,
+    2024 259.87 g CO2e/kWh; 2025 and 2026 are held at 2024, the last published year. With 50 kWh/kg H2
+    and nothing else emitting, each year's total is 50 kWh x factor / 1000 (kg CO2e/kg H2)."""
+    text = PROJECT.format(lifetime=CHILE).replace("electricity.grid.eu27_2018", "electricity.grid.chile_2024")
+    path = write(tmp_path / "project.toml", text)
+    project, sha = load_project(path)
+    result = lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+    published = {2022: 372.80, 2023: 303.82, 2024: 259.87, 2025: 259.87, 2026: 259.87}
+    for year in result.years:
+        assert year.grid_factor == pytest.approx(published[year.year], rel=1e-12)
+        assert year.total == pytest.approx(50 * published[year.year] / 1000, rel=1e-9)
+    assert [y.grid_factor_year for y in result.years] == [2022, 2023, 2024, 2024, 2024]
+    assert "2025-2026 held at the last published year 2024" in result.trajectory_source
+
+
+def test_later_years_from_the_project_trajectory(tmp_path):
+    """With a CSV beside the factor-set region, the CSV gives the years after the last published one
+    (values INVENTED for the test)."""
+    _trajectory(tmp_path, {2025: 200, 2026: 150})
+    text = PROJECT.format(lifetime=CHILE + 'grid_trajectory_csv = "grid.csv"\n').replace("electricity.grid.eu27_2018", "electricity.grid.chile_2024")
+    path = write(tmp_path / "project.toml", text)
+    project, sha = load_project(path)
+    result = lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+    assert [y.grid_factor for y in result.years] == pytest.approx([372.80, 303.82, 259.87, 200, 150])
+    _trajectory(tmp_path, {2025: 200})
+    with pytest.raises(InputError, match="missing 2026"):
+        lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+
+
+def test_region_needs_a_yearly_grid_id(tmp_path):
+    path = write(tmp_path / "project.toml", PROJECT.format(lifetime=CHILE).replace("electricity.grid.eu27_2018", "electricity.renewable.wind_onshore"))
+    project, sha = load_project(path)
+    with pytest.raises(InputError, match="ending in _YEAR"):
+        lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)

@@ -22,7 +22,7 @@ import pytest
 from carbonledger.api import score
 
 ROOT = Path(__file__).resolve().parent.parent
-REFERENCE_COMMIT = "c1b7bc771c769bd26086e64849838d0b083fdeb1"
+REFERENCE_COMMIT = "2edaf22e6faab5317cc4b93088f41bf6e3e83131"
 BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
 
 FIGURES = """

@@ -14,6 +14,7 @@ References
 
 from __future__ import annotations
 
+import re
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 
@@ -40,6 +41,8 @@ class LifetimeYear:
     scheme_values: dict[str, float]
     passes: dict[str, bool]  # under each scheme's rule (construction added where the rulebook counts it)
     factors_from_memory: list[str] = field(default_factory=list)  # ids of that year's factors recorded from memory
+    grid_factor_id: str = ""  # the trajectory row used this year
+    grid_factor_year: int | None = None  # its year: earlier than the operating year when held at the last published year
 
 
 @dataclass
@@ -121,20 +124,27 @@ class LifetimeResult:
         }
 
 
-def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet) -> tuple[dict[int, Factor], str]:
-    """Yearly grid factors by calendar year, and where they come from ({} when none is given)."""
-    if lifetime.grid_trajectory_csv:
-        path = Path(project_file).parent / lifetime.grid_trajectory_csv
-        rows = read_factor_rows(path)
-        origin = str(path)
-    elif lifetime.grid_trajectory_factors:
-        prefix = lifetime.grid_trajectory_factors.rstrip(".") + "."
-        rows = [factor_set.factors[key] for key in factor_set.ids_with_prefix(prefix)]
-        origin = f"factor set {factor_set.name}, rows {prefix}YEAR"
-        if not rows:
-            raise InputError(project_file, "lifetime.grid_trajectory_factors", f"rows '{prefix}YEAR' in factor set '{factor_set.name}' (none found)")
-    else:
-        return {}, ""
+YEAR_SUFFIX = re.compile(r"^(?P<region>.+?)[._](?P<year>\d{4})$")
+
+
+def published_rows(factor_set: FactorSet, prefix: str) -> list[Factor]:
+    """The yearly rows of one region in a factor set: ``PREFIX.YEAR`` or ``PREFIX_YEAR`` (four-digit year)."""
+    prefix = prefix.rstrip("._")
+    rows = []
+    for key in factor_set.ids_with_prefix(prefix):
+        match = YEAR_SUFFIX.match(key)
+        if match and match["region"] == prefix:
+            rows.append(factor_set.factors[key])
+    return rows
+
+
+def region_of(factor_id: str) -> str:
+    """``electricity.grid.chile_2024`` -> ``electricity.grid.chile`` (the id without its year), or ''."""
+    match = YEAR_SUFFIX.match(factor_id)
+    return match["region"] if match else ""
+
+
+def _by_year(rows: list[Factor], origin: str) -> dict[int, Factor]:
     by_year: dict[int, Factor] = {}
     for row in rows:
         if row.year is None:
@@ -142,12 +152,60 @@ def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet) -
         if row.year in by_year:
             raise InputError(origin, row.id, f"one row per year, {row.year} appears twice")
         by_year[row.year] = row
+    return by_year
+
+
+def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet, grid_factor_id: str = "") -> tuple[dict[int, Factor], str]:
+    """Grid factor rows by calendar year of operation, and where they come from ({} when none is given).
+
+    ``grid_trajectory_factors`` names a region of the factor set (``electricity.grid.chile``, or ``region``
+    for the region of the grid source's own factor id): its published yearly rows (``REGION_YEAR`` or
+    ``REGION.YEAR``) give their years. Years after the last published one come from ``grid_trajectory_csv``
+    when it is given, else they are held at the last published year (the row's own year says so).
+    A CSV alone must give every operating year.
+    """
     wanted = range(lifetime.first_year, lifetime.first_year + lifetime.operating_years)
+    csv_rows: dict[int, Factor] = {}
+    origins = []
+    if lifetime.grid_trajectory_csv:
+        path = Path(project_file).parent / lifetime.grid_trajectory_csv
+        csv_rows = _by_year(read_factor_rows(path), str(path))
+        origins.append(str(path))
+    published: dict[int, Factor] = {}
+    if lifetime.grid_trajectory_factors:
+        prefix = lifetime.grid_trajectory_factors
+        if prefix == "region":
+            prefix = region_of(grid_factor_id)
+            if not prefix:
+                raise InputError(project_file, "lifetime.grid_trajectory_factors", f"'region' with a grid factor id ending in _YEAR, got '{grid_factor_id}'")
+        origin = f"factor set {factor_set.name}, rows {prefix.rstrip('._')}_YEAR or .YEAR"
+        published = _by_year(published_rows(factor_set, prefix), origin)
+        if not published:
+            raise InputError(project_file, "lifetime.grid_trajectory_factors", f"rows '{prefix.rstrip('._')}_YEAR' or '.YEAR' in factor set '{factor_set.name}' (none found)")
+        origins.insert(0, origin)
+    if not origins:
+        return {}, ""
+    by_year: dict[int, Factor] = {}
+    last = max(published) if published else None
+    for year in wanted:
+        if year in published:
+            by_year[year] = published[year]
+        elif year in csv_rows and (last is None or year > last):
+            by_year[year] = csv_rows[year]
+        elif last is not None and year > last and not csv_rows:
+            by_year[year] = published[last]  # held at the last published year
     missing = [year for year in wanted if year not in by_year]
     if missing:
         shown = ", ".join(str(y) for y in missing[:8]) + (" ..." if len(missing) > 8 else "")
-        raise InputError(origin, "year", f"a grid factor for every operating year {wanted[0]}-{wanted[-1]}; missing {shown}")
-    return by_year, origin
+        raise InputError(" and ".join(origins), "year", f"a grid factor for every operating year {wanted[0]}-{wanted[-1]}; missing {shown}")
+    documents = sorted({row.source for row in by_year.values()})
+    held = sorted(year for year, row in by_year.items() if row.year != year)
+    text = "; ".join(origins)
+    if held:
+        text += f"; {held[0]}-{held[-1]} held at the last published year {last}"
+    if len(documents) > 1:
+        text += f"; rows from {len(documents)} documents (bases may differ: see each row's note)"
+    return by_year, text
 
 
 def _ageing_parameter(project) -> str:
@@ -174,10 +232,10 @@ def lifetime_score(
     life = project.lifetime
     if life is None:
         raise InputError(project_file, "lifetime", "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime")
-    trajectory, trajectory_origin = read_trajectory(project_file, life, factor_set)
+    grid_factor_id = project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
+    trajectory, trajectory_origin = read_trajectory(project_file, life, factor_set, grid_factor_id)
     data = project.model_dump(exclude_none=True)
     ageing = _ageing_parameter(project)
-    grid_factor_id = project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
 
     indices = np.arange(life.operating_years)
     ages = stage.stack_age_years(indices, life.stack_replacement_years or life.operating_years)
@@ -273,6 +331,8 @@ def lifetime_score(
                 scheme_values={check.scheme: check.value for check in score.checks},
                 passes=yearly_pass[index],
                 factors_from_memory=score.from_memory["factors"],
+                grid_factor_id=grid.id if grid else "",
+                grid_factor_year=grid.year if grid else None,
             )
         )
     return LifetimeResult(
@@ -296,5 +356,6 @@ def lifetime_score(
         boundary=project.project.boundary,
         parameters=project.model_dump(),
         factors_used=[factor.model_dump() for factor in first.factors_used]
-        + ([{"id": f"trajectory.{row.year}", "value": row.value, "unit": row.unit, "source": row.source, "year": row.year, "from_memory": row.from_memory} for _, row in sorted(trajectory.items())] if trajectory else []),
+        + [{"id": f"trajectory.{row.year}", "value": row.value, "unit": row.unit, "source": row.source, "year": row.year, "from_memory": row.from_memory}
+           for row in sorted({row.year: row for row in trajectory.values()}.values(), key=lambda row: row.year)],
     )

@@ -54,7 +54,7 @@ from ..model.project import BOUNDARIES, field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
-from ..routes.base import NON_GHG_FLOWS
+from ..routes.base import APART_FLOWS
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 
 DEFAULT_SEED = 20261202
@@ -369,7 +369,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         if members:
             by_stage[stage] = by_activity[:, members].sum(axis=1)
     gases = main.sum(axis=2)
-    by_gas = {flow: gases[:, n] for n, flow in enumerate(stacked.flow_keys) if flow not in NON_GHG_FLOWS}
+    by_gas = {flow: gases[:, n] for n, flow in enumerate(stacked.flow_keys) if flow not in APART_FLOWS}
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
     scheme_values, scheme_findings = {}, {}
     nominal = params_with_draws(plan, {})

@@ -13,6 +13,7 @@ from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.portfolio_output import diff_rows, diff_table, sets_table
 from ..model.factors import FACTOR_COLUMNS, diff_sets, load_factor_set, set_listing
+from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
 from .options import FactorsOption, FormatOption, OutputFormat, fail, render
 
 
@@ -27,12 +28,19 @@ def factors_list(
     except InputError as error:
         fail(error)
     rows = [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)]
+    bases = sorted({accounting_basis(f.id) for f in rows} - {""})
+    basis_note = (
+        "Electricity accounting: electricity.grid.* rows are location-based, electricity.residual_mix.* rows are "
+        "market-based residual mixes; they are not interchangeable and a project may not mix them."
+        if bases
+        else ""
+    )
 
     def table() -> str:
         width = max((len(f.id) for f in rows), default=10)
         lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}); * = from memory, not checked against the document"]
         lines += [f"{'*' if f.from_memory else ' '} {f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.source[:60]}" for f in rows]
-        return "\n".join(lines + [f"Caution: {CAUTION}"])
+        return "\n".join(lines + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
 
     def json_text() -> str:
         return strict_json(
@@ -40,7 +48,8 @@ def factors_list(
                 "caution": CAUTION,
                 "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256},
                 "from_memory": {"factors": [f.id for f in rows if f.from_memory]},
-                "factors": [asdict(f) for f in rows],
+                "factors": [{**asdict(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})} for f in rows],
+                **({"accounting_bases": {f"electricity.{kind}.": text for kind, text in ACCOUNTING_BASIS.items()}, "note": basis_note} if basis_note else {}),
             },
             factor_set.name,
         )

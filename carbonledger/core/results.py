@@ -112,6 +112,8 @@ class Check(BaseModel):
     assessment_period: str = ""  # the dates the rules were read on (a calendar year)
     rule_versions: list[str] = []  # the version of each dated rule used
     electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
+    # the co-product rule the rulebook requires, the project's own method and what the value used
+    co_products: dict[str, Any] = {}
 
 
 class ExchangeRow(BaseModel):
@@ -149,6 +151,9 @@ class ScoreResult(BaseModel):
     hydrogen_leakage_kg: float = 0.0  # kg H2 leaked or vented per functional unit (in non_ghg_kg too)
     hydrogen_leakage_kg_co2e: float = 0.0  # its indirect effect with the GWP100 of hydrogen (factor gwp_indirect.h2): not in total, by_gas or any scheme value
     non_ghg_kg: dict[str, float] = {}  # kg per functional unit of flows that are not greenhouse gases (ammonia slip)
+    # kg CO2 of biomass carbon per functional unit: released, and captured and stored; counted apart (characterised
+    # at zero, not in by_gas or total) and never netted against the total or a scheme value unless its rulebook says so
+    biogenic_co2_kg: dict[str, float] = {"released": 0.0, "captured_and_stored": 0.0}
     by_activity: dict[str, float]
     heating_values_mj_per_kg: dict[str, float]
     factors_used: list[FactorUsed]

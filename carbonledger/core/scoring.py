@@ -25,8 +25,9 @@ from ..model.factors import FactorSet
 from ..model.project import as_date, boundary_id
 from ..model.reference import ReferenceValue
 from ..model.rulebooks import Scheme, load_schemes, select_schemes
-from ..routes import STAGES
-from ..routes.base import FLOWS, NON_GHG_FLOWS
+from ..routes import HYDROGEN_ROUTES, STAGES
+from ..routes.base import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
+from ..routes.project import validate_project
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 from .engine import Matrices, build_matrices, solve, solve_many, structure_key
 from .inputs import NumericInputs
@@ -82,7 +83,7 @@ def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
     for flow in FLOWS:
         if flow == "co2e_precharacterised":
             values.append(1.0)
-        elif flow in NON_GHG_FLOWS:
+        elif flow in APART_FLOWS:
             values.append(0.0)
         else:
             gas = flow.split("_")[0]
@@ -247,6 +248,80 @@ def threshold_sentence(scheme: Scheme, value: float) -> str:
     return f"{words} ({loosest.tier}) [{loosest.source}{' (from memory)' if loosest.from_memory else ''}]"
 
 
+def scheme_characterisation(prepared: Prepared, scheme: Scheme):
+    """The GWP vector of a scheme; stored biogenic CO2 counts -1 only where its rulebook nets it."""
+    vector = prepared.per_gwp[scheme.gwp]
+    if not scheme.nets_stored_biogenic_co2:
+        return vector
+    netted = np.array(vector, dtype=float, copy=True)
+    netted[list(FLOWS).index("co2_biogenic_stored")] = -1.0
+    return netted
+
+
+def _rescored_check(prepared: Prepared, scheme: Scheme, parameter: str, method: str) -> Check:
+    """The scheme's check of the project with its co-product method set to ``method`` (a full rescore)."""
+    data = prepared.project.model_dump()
+    section, name = parameter.split(".")
+    data[section][name] = method
+    variant = validate_project(data, prepared.source)
+    ready = prepare(
+        variant, prepared.factor_set, gwp=prepared.gwp, schemes=[scheme.id], source=prepared.source,
+        boundary=prepared.params["project"]["boundary"], project_sha256=prepared.project_sha256,
+        year=prepared.period.start.year, matching=prepared.matching,
+    )
+    return scheme_checks(ready, solve_with_bw2calc(ready))[0]
+
+
+def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
+    """Each check under its rulebook's co-product rule (the headline keeps the project's choice).
+
+    Where the rulebook states a rule that differs from the project's method and the route can apply
+    it, the scheme value is rescored with that rule; where the route cannot (or the project lacks the
+    data), the value keeps the project's method and the status is undetermined, saying why; a scheme
+    that does not cover the route keeps the project's method. Every check states what was done
+    under ``co_products``.
+
+    References
+    ----------
+    .. [1] ISO/TS 19870:2023, co-product handling (subdivision, system expansion, allocation) is a
+       choice the methodology or scheme fixes; results state it (from memory).
+    """
+    route = HYDROGEN_ROUTES.get(prepared.params["hydrogen"]["route"])
+    co = route.co_product if route else None
+    by_id = {scheme.id: scheme for scheme in prepared.chosen}
+    out = []
+    for check in checks:
+        book = by_id[check.scheme].co_products
+        info: dict = {
+            "scheme_rule": book.rule if book else "not_stated",
+            "source": book.source if book else "",
+            "from_memory": book.from_memory if book else False,
+        }
+        if co is None:
+            out.append(check.model_copy(update={"co_products": {**info, "co_product": "", "applied": "no co-product"}}))
+            continue
+        method = prepared.params[co.parameter.split(".")[0]][co.parameter.split(".")[1]]
+        required = book.for_co_product(co.carries_energy, co.rigid) if book else "not_stated"
+        info.update({"co_product": co.name, "scheme_rule": required, "project_method": method})
+        if required in ("not_stated", method):
+            why = "the rulebook states no co-product rule: the project's method is used" if required == "not_stated" else "the project's method is the scheme's rule"
+            out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
+        elif check.status == "not_eligible":
+            out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}}))
+        elif required in co.methods and not co.missing(prepared.params, required):
+            rescored = _rescored_check(prepared, by_id[check.scheme], co.parameter, required)
+            out.append(rescored.model_copy(update={"co_products": {**info, "applied": required, "note": f"scheme value rescored with {required}; the headline keeps the project's {method}"}}))
+        else:
+            lacking = co.missing(prepared.params, required) if required in co.methods else f"the route cannot apply {required}"
+            sentence = (f"cannot be judged: co-products: the rulebook requires {required} for the {co.name} ({info['source']}); "
+                        f"{'the project lacks ' + lacking if required in co.methods else lacking}; the value uses the project's {method}")
+            out.append(check.model_copy(update={
+                "status": "undetermined", "passes": False, "tier": None, "reasons": [sentence, *check.reasons],
+                "co_products": {**info, "applied": method, "note": sentence},
+            }))
+    return out
+
+
 def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     """Each chosen scheme's value and verdict under its own rulebook, from solved inventories."""
     inventory = prepared.inventory
@@ -256,7 +331,7 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         counted, findings, versions = scheme_reading(prepared, scheme)
         mask = np.array([bool(zero_rated(scheme, inventory, key, counted)) for key in keys])
         basis_demand, basis_product = basis_of(scheme, inventory)
-        scheme_total = float(solutions[basis_demand].contributions(prepared.per_gwp[scheme.gwp], mask).sum())
+        scheme_total = float(solutions[basis_demand].contributions(scheme_characterisation(prepared, scheme), mask).sum())
         value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
         verdict = scheme.evaluate(value)
         status = status_of(findings, verdict["passes"])
@@ -318,8 +393,9 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     by_stage = {stage: 0.0 for stage in STAGES if stage in present}
     for key, value in by_activity.items():
         by_stage[inventory.activities[key].stage] += value
-    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1), strict=True) if flow not in NON_GHG_FLOWS}
+    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1), strict=True) if flow not in APART_FLOWS}
     non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in NON_GHG_FLOWS}
+    biogenic = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in BIOGENIC_FLOWS}
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
     leakage = non_ghg.get("h2", 0.0)
     leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
@@ -368,10 +444,11 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         hydrogen_leakage_kg=leakage,
         hydrogen_leakage_kg_co2e=float(leakage_co2e),
         non_ghg_kg=non_ghg,
+        biogenic_co2_kg={"released": biogenic.get("co2_biogenic", 0.0), "captured_and_stored": biogenic.get("co2_biogenic_stored", 0.0)},
         by_activity=by_activity,
         heating_values_mj_per_kg=heating,
         factors_used=_factor_rows(prepared.inputs.used),
-        checks=scheme_checks(prepared, solutions),
+        checks=co_product_checks(prepared, scheme_checks(prepared, solutions)),
         exchanges=exchanges,
         parameters=params,
         delivery=_plain(inventory.delivery),

@@ -270,6 +270,9 @@ def sources_section(item: ProjectReport, key: str) -> str:
     stage_rows.append(["<strong>Total</strong>", f"<strong>{number(result.total)}</strong>", "100.0 %" if result.total else "-"])
     gas_rows = [[text(gas_name(g)), number(v), f"{v / result.total * 100:.1f} %" if result.total else "-"] for g, v in result.by_gas.items()]
     non_ghg = "".join(f"<p class=note>{text(words(flow))} (not a greenhouse gas): {number(v)} kg per functional unit.</p>" for flow, v in result.non_ghg_kg.items() if v)
+    if any(result.biogenic_co2_kg.values()):
+        non_ghg += (f"<p class=note>Biogenic CO2 (counted apart, not in the total): released {number(result.biogenic_co2_kg['released'])} kg, "
+                    f"captured and stored {number(result.biogenic_co2_kg['captured_and_stored'])} kg per functional unit; not netted unless a rulebook says so.</p>")
     return (
         f'<section class="sheet" id="{key}-sources" aria-labelledby="{key}-sources-h"><h2 id="{key}-sources-h">Where the emissions arise</h2>'
         f"<h3>By stage</h3>{waterfall_svg(result, key + '-wf')}"

@@ -51,8 +51,10 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str, object]]:
     rows += [("by_gas", key, value, result.unit, "") for key, value in result.by_gas.items()]
     rows += [("non_ghg", key, value, "kg per functional unit", "") for key, value in result.non_ghg_kg.items()]
     rows.append(("hydrogen_leakage", "kg_co2e_indirect_gwp100", result.hydrogen_leakage_kg_co2e, "kg CO2e per functional unit (not in the total)", ""))
+    rows += [("biogenic_co2", key, value, "kg CO2 per functional unit (counted apart, not in the total)", "") for key, value in result.biogenic_co2_kg.items()]
     for check in result.checks:
         section = f"check:{check.scheme}"
+        rows += [(section, f"co_products.{key}", value, "", check.from_memory) for key, value in check.co_products.items()]
         rows += [
             (section, "value", check.value, check.unit, check.from_memory),
             (section, "limit", check.limit, check.unit, check.from_memory),
@@ -168,6 +170,18 @@ def render(result: ScoreResult) -> str:
         console.print(
             f"H2 leaked: {display_number(result.hydrogen_leakage_kg)} kg per functional unit; its indirect effect, "
             f"{display_number(result.hydrogen_leakage_kg_co2e)} kg CO2e (GWP100 of hydrogen), is not in the total or any scheme value"
+        )
+    biogenic = result.biogenic_co2_kg
+    if biogenic.get("released") or biogenic.get("captured_and_stored"):
+        console.print(
+            f"Biogenic CO2 (carbon from biomass, counted apart, not in the total): released {display_number(biogenic['released'])} kg, "
+            f"captured and stored {display_number(biogenic['captured_and_stored'])} kg per functional unit; the stored CO2 is not "
+            "netted against the total or a scheme value unless its rulebook says so"
+        )
+    if result.co_products:
+        console.print(
+            f"Co-product: {result.co_products.get('co_product', '')}, the project's method {result.co_products.get('method', '')} in the total; "
+            "each scheme's value uses its rulebook's rule where it states one (JSON key co_products on each check)"
         )
     if result.checks:
         table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")

@@ -114,8 +114,8 @@ class Lifetime(Section):
     renewables_mw: float = P(0.0, "MW", "Dedicated renewable capacity, with renewables_construction_factor", ge=0)
     renewables_construction_factor: str = P("", description="Factor id (t CO2e/MW) for the construction of the dedicated renewables")
     grid_source: str = P("grid", description="Name of the electricity source whose factor follows the trajectory")
-    grid_trajectory_csv: str = P("", description="Factor CSV of yearly grid factors (year column = calendar year), relative to the project file")
-    grid_trajectory_factors: str = P("", description="Factor id prefix in the factor set: rows PREFIX.YEAR give the yearly grid factor")
+    grid_trajectory_csv: str = P("", description="Factor CSV of yearly grid factors (year column = calendar year), relative to the project file; with grid_trajectory_factors it gives the years after the last published one")
+    grid_trajectory_factors: str = P("", description="Region in the factor set whose rows REGION_YEAR (or REGION.YEAR) give the yearly grid factor, or 'region' for the grid source's own region; later years held at the last published year unless grid_trajectory_csv gives them")
 
 
 def _submodel(annotation: Any):

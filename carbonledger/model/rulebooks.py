@@ -108,6 +108,36 @@ class BoundaryTerm(BaseModel):
     source: str = ""
 
 
+CO_PRODUCT_RULES = ("energy", "mass", "economic", "system_expansion", "none", "not_stated")
+
+
+class CoProductRule(BaseModel):
+    """How the scheme shares a production process's burden with its co-products.
+
+    ``rule`` applies to co-products that carry energy (steam, electricity, fuels, carbon with a heating
+    value); ``non_energy_rule`` to those without (oxygen, chlorine, sodium hydroxide), '' = as ``rule``;
+    ``rigid_rule`` where the ratio of the outputs is fixed by the process (stoichiometry), '' = as the
+    others. ``not_stated``: the scheme's text sets no rule found here; the project's own choice is used
+    and the result says so.
+    """
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    rule: Literal[CO_PRODUCT_RULES]
+    non_energy_rule: Literal[CO_PRODUCT_RULES + ("",)] = ""
+    rigid_rule: Literal[CO_PRODUCT_RULES + ("",)] = ""
+    source: str = Field(min_length=1)
+    from_memory: bool = True
+    note: str = ""
+
+    def for_co_product(self, carries_energy: bool, rigid: bool) -> str:
+        """The rule for one co-product: the rigid rule first, then by whether it carries energy."""
+        if rigid and self.rigid_rule:
+            return self.rigid_rule
+        if not carries_energy and self.non_energy_rule:
+            return self.non_energy_rule
+        return self.rule
+
+
 class Scheme(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True)
     id: str
@@ -133,6 +163,9 @@ class Scheme(BaseModel):
     eligibility: Eligibility | None = None
     electricity_rules: ElectricityRules | None = None
     boundary_terms: list[BoundaryTerm] = []
+    co_products: CoProductRule | None = None  # None: no rule recorded (treated as not_stated)
+    nets_stored_biogenic_co2: bool = False  # captured and stored biogenic CO2 subtracted from the scheme value
+    biogenic_co2_source: str = ""  # where the rulebook's treatment of stored biogenic CO2 is read
 
     def loosest(self) -> Threshold:
         return max(self.thresholds, key=lambda t: t.limit)

@@ -11,6 +11,7 @@ from __future__ import annotations
 from . import (
     ammonia,
     ammonia_overland,
+    biomethane_reforming,
     chlor_alkali,
     cracking,
     electricity,
@@ -33,6 +34,7 @@ REGISTRY: tuple[Route, ...] = (
     reforming.AUTOTHERMAL_REFORMING,
     electrolysis.ROUTE,
     methane_pyrolysis.ROUTE,
+    biomethane_reforming.ROUTE,
     chlor_alkali.ROUTE,
     ammonia.ROUTE,
     ammonia_overland.AMMONIA_PIPELINE,

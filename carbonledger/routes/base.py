@@ -25,8 +25,12 @@ FLOWS = {
     "co2e_precharacterised": "CO2e given by a life-cycle factor (not split by gas)",
     "nh3": "NH3 (ammonia slip; not a greenhouse gas, reported separately)",
     "h2": "H2 (hydrogen leakage; an indirect greenhouse effect, reported separately, in no scheme value)",
+    "co2_biogenic": "CO2, biogenic (released; counted apart at zero, reported separately)",
+    "co2_biogenic_stored": "CO2, biogenic, captured and stored (reported separately; never netted unless a rulebook says so)",
 }
 NON_GHG_FLOWS = ("nh3", "h2")  # in the inventory, characterised at zero, left out of by_gas
+BIOGENIC_FLOWS = ("co2_biogenic", "co2_biogenic_stored")  # carbon from biomass: counted apart, reported in biogenic_co2_kg
+APART_FLOWS = NON_GHG_FLOWS + BIOGENIC_FLOWS  # characterised at zero in the headline, left out of by_gas
 
 
 @dataclass
@@ -91,6 +95,24 @@ class Chain:
 
 
 @dataclass(frozen=True)
+class CoProduct:
+    """A route's co-product and how its burden-sharing method is chosen in the project file.
+
+    ``parameter``: the project path of the method (``section.field``); ``methods``: the co-product
+    rules (energy, mass, economic, system_expansion, none) the route can apply; ``carries_energy``:
+    the co-product has a heating value; ``rigid``: the ratio of outputs is fixed by the process;
+    ``missing``: (params, method) -> what the project must add to apply the method ('' if nothing).
+    """
+
+    name: str
+    parameter: str
+    methods: tuple[str, ...]
+    carries_energy: bool
+    rigid: bool
+    missing: Callable[[dict, str], str] = lambda params, method: ""
+
+
+@dataclass(frozen=True)
 class Route:
     """One production route, supply, conversion or delivery leg, as the registry sees it.
 
@@ -107,7 +129,8 @@ class Route:
     params, since some depend on text options). ``ageing``: the parameter path that stack ageing
     raises over a lifetime. ``starter``: (product) -> the sections of a starter project file
     after ``[project]`` and ``[hydrogen]`` (for ``carbonledger init``); ``starter_variants``: more
-    ``init --route`` choices of the same route (name -> starter).
+    ``init --route`` choices of the same route (name -> starter). ``co_product``: the route's
+    co-product and the parameter that chooses how its burden is shared (``CoProduct``).
     """
 
     name: str
@@ -126,6 +149,7 @@ class Route:
     starter: Callable[..., str] = lambda *args: ""
     starter_variants: dict[str, Callable[..., str]] = field(default_factory=dict)
     description: str = ""
+    co_product: CoProduct | None = None  # a co-product whose burden share a scheme's rulebook may decide
 
 
 def combustion_kg_per_gj(inputs, gas: str) -> Any:

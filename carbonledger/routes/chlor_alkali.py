@@ -10,7 +10,7 @@ from typing import Literal
 
 from ..model.project import P, Section
 from ..stages import chlor_alkali
-from .base import Activity, Route, SectionError
+from .base import Activity, CoProduct, Route, SectionError
 from .electricity import starter as electricity_starter
 
 
@@ -74,4 +74,13 @@ ROUTE = Route(
     metered=metered,
     starter=starter,
     description="By-product hydrogen of chlor-alkali electrolysis, shared with chlorine and sodium hydroxide",
+    co_product=CoProduct(
+        name="chlorine and sodium hydroxide",
+        parameter="chlor_alkali.allocation",
+        methods=("none", "mass", "economic"),
+        carries_energy=False,  # neither has a heating value
+        rigid=True,  # 2 NaCl + 2 H2O -> Cl2 + H2 + 2 NaOH: fixed ratio
+        missing=lambda params, method: "chlor_alkali prices of hydrogen, chlorine and sodium hydroxide"
+        if method == "economic" and not all(params["chlor_alkali"][k] > 0 for k in ("hydrogen_price_per_kg", "chlorine_price_per_kg", "sodium_hydroxide_price_per_kg")) else "",
+    ),
 )

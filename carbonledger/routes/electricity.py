@@ -34,6 +34,13 @@ class Electricity(Section):
         total = sum(source.share for source in self.sources.values())
         if abs(total - 1.0) > 1e-6:
             raise ValueError(f"source shares summing to 1, got {total:g}")
+        kinds = {name: electricity.kind_of_source(source.factor) for name, source in self.sources.items()}
+        if {"grid", "residual_mix"} <= set(kinds.values()):
+            mixed = ", ".join(f"{name} ({kind})" for name, kind in kinds.items() if kind in ("grid", "residual_mix"))
+            raise ValueError(
+                f"one accounting basis: location-based grid rows (electricity.grid.*) and market-based residual mixes "
+                f"(electricity.residual_mix.*) are not mixed in one project, got {mixed}"
+            )
         return self
 
 

@@ -16,7 +16,7 @@ from typing import Literal
 from ..errors import InputError
 from ..model.project import P, Section
 from ..stages import pyrolysis
-from .base import Activity, Route, SectionError, combustion_kg_per_gj
+from .base import Activity, CoProduct, Route, SectionError, combustion_kg_per_gj
 from .electricity import starter as electricity_starter
 from .natural_gas import starter as natural_gas_starter
 
@@ -26,7 +26,7 @@ class Pyrolysis(Section):
     electricity_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity of the reactor (plasma or resistive heating) and the plant", ge=0)
     carbon_kg_per_kg_h2: float = P(unit="kg C/kg H2", description="Solid carbon leaving the plant per kg of hydrogen", ge=0)
     carbon_allocation: Literal["none", "mass", "energy", "system_expansion"] = P("none", description="How the burden is shared with the carbon co-product")
-    displaced_product_factor: str = P("", description="system_expansion: factor id (kg CO2e/kg) of the product the carbon displaces")
+    displaced_product_factor: str = P("", description="Factor id (kg CO2e/kg) of the product the carbon displaces: used by system_expansion, and by a scheme whose rulebook requires it")
 
 
 def hydrogen_share(params: dict, inputs):
@@ -82,8 +82,6 @@ def validate(project) -> None:
     p = project.pyrolysis
     if p.carbon_allocation == "system_expansion" and not p.displaced_product_factor:
         raise SectionError("pyrolysis.displaced_product_factor", "a factor id (kg CO2e/kg) of the product the carbon displaces, for carbon_allocation 'system_expansion'")
-    if p.carbon_allocation != "system_expansion" and p.displaced_product_factor:
-        raise SectionError("pyrolysis.displaced_product_factor", "no displaced product unless carbon_allocation is 'system_expansion'")
 
 
 def metered(params: dict) -> dict[str, list[str]]:
@@ -114,4 +112,13 @@ ROUTE = Route(
     metered=metered,
     starter=starter,
     description="Methane pyrolysis: hydrogen with solid carbon as a co-product",
+    co_product=CoProduct(
+        name="solid carbon",
+        parameter="pyrolysis.carbon_allocation",
+        methods=("none", "mass", "energy", "system_expansion"),
+        carries_energy=True,  # carbon has a heating value (graphite burnt to CO2)
+        rigid=True,  # CH4 -> C + 2 H2: the carbon per kg H2 follows the methane split
+        missing=lambda params, method: "pyrolysis.displaced_product_factor (the product the carbon displaces)"
+        if method == "system_expansion" and not params["pyrolysis"]["displaced_product_factor"] else "",
+    ),
 )

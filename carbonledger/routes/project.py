@@ -62,8 +62,6 @@ class _ProjectRules(Section):
         life = self.lifetime
         if life is None:
             return
-        if life.grid_trajectory_csv and life.grid_trajectory_factors:
-            raise SectionError("lifetime.grid_trajectory_csv", "either grid_trajectory_csv or grid_trajectory_factors, not both")
         if (life.grid_trajectory_csv or life.grid_trajectory_factors) and life.grid_source not in self.electricity.sources:
             raise SectionError("lifetime.grid_source", f"the name of an electricity source ({', '.join(self.electricity.sources)}), got '{life.grid_source}'")
         if bool(life.renewables_mw) != bool(life.renewables_construction_factor):

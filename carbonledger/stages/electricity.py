@@ -16,3 +16,21 @@ def kind_of_source(factor_id: str) -> str:
     if len(parts) >= 3 and parts[0] == "electricity":
         return parts[1]
     return "other"
+
+
+ACCOUNTING_BASIS = {
+    "grid": "location-based (average of the region's generation or consumption)",
+    "residual_mix": "market-based (residual mix: what is left after cancelled certificates)",
+}
+
+
+def accounting_basis(factor_id: str) -> str:
+    """How a grid-like electricity factor accounts for electricity: location-based grid averages
+    (``electricity.grid.*``) or market-based residual mixes (``electricity.residual_mix.*``); '' for others.
+
+    References
+    ----------
+    .. [1] GHG Protocol Scope 2 Guidance (2015), ch. 4 and 6: location-based and market-based methods
+       are reported apart, never blended (from memory).
+    """
+    return ACCOUNTING_BASIS.get(kind_of_source(factor_id), "")
