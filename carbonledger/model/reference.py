@@ -191,13 +191,15 @@ def water_splitting_gibbs_j_per_mol(temperature_k: float, steam: bool) -> float:
     ``S0g``/``S0l``) carried to T by the ideal-gas heat capacities of ``chemicals.heat_capacity``
     (TRC correlations, valid 50 to 5000 K). The balance, T dS, may come as heat.
     """
-    from chemicals.heat_capacity import TRC_gas_data, TRCCp_integral, TRCCp_integral_over_T
     from chemicals.reaction import Hfg, Hfl, S0g, S0l
 
     entropy_products = S0g(_HYDROGEN) + 0.5 * S0g(_OXYGEN)
     if not steam:
         t = STANDARD_TEMPERATURE_K
         return float(-Hfl(_WATER) - t * (entropy_products - S0l(_WATER)))
+    # the heat-capacity tables take about a second to load: only steam electrolysis needs them
+    from chemicals.heat_capacity import TRC_gas_data, TRCCp_integral, TRCCp_integral_over_T
+
     t0, t = STANDARD_TEMPERATURE_K, float(temperature_k)
 
     def rise(cas: str) -> tuple[float, float]:
