@@ -237,8 +237,8 @@ def ramp_colour(share: float) -> str:
 
 def _month_label(month: str) -> str:
     names = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
-    year, _, number_ = month.partition("-")
-    return f"{names[int(number_) - 1]} {year[2:]}" if number_.isdigit() else month
+    year, _, month_number = month.partition("-")
+    return f"{names[int(month_number) - 1]} {year[2:]}" if month_number.isdigit() else month
 
 
 def monthly_matching_svg(view: MatchingView, key: str) -> str:
@@ -473,7 +473,7 @@ def matching_section(item: ProjectReport, key: str) -> str:
         return ""
     checks = {check.scheme: check for check in item.result.checks}
     parts = []
-    for number_, view in enumerate(item.matching, 1):
+    for index, view in enumerate(item.matching, 1):
         first = checks.get(view.schemes[0])
         figures = first.electricity_matching if first is not None else None
         names = "; ".join(f"{text(checks[s].name)} (<code>{text(s)}</code>)" if s in checks else f"<code>{text(s)}</code>" for s in view.schemes)
@@ -486,8 +486,8 @@ def matching_section(item: ProjectReport, key: str) -> str:
             f"<h3>{names}</h3>"
             f"<p>Matching period: {text(view.granularity)}. Generation counted: {text(', '.join(view.eligible) or 'none')}. "
             f"<strong>{view.matched_share:.1%}</strong> of the electricity used is matched over the series.{source}</p>"
-            + monthly_matching_svg(view, f"{key}-mm{number_}")
-            + heat_map_svg(view, f"{key}-hm{number_}")
+            + monthly_matching_svg(view, f"{key}-mm{index}")
+            + heat_map_svg(view, f"{key}-hm{index}")
             + _table(["Month", "Use (MWh)", "Matched (MWh)", "Unmatched (MWh)", "Matched share"], rows, "compact small", {1, 2, 3, 4})
         )
     return (
@@ -509,7 +509,7 @@ def uncertainty_section(item: ProjectReport, key: str) -> str:
     inputs = [[f"<code>{text(d.input)}</code>", text(", ".join(f"{k} {v}" for k, v in d.distribution.items()))] for d in spread.inputs]
     rows = []
     charts = []
-    for number_, check in enumerate(spread.checks, 1):
+    for index, check in enumerate(spread.checks, 1):
         statuses = ", ".join(f"{text(name)} {p.probability:.1%}" for name, p in check.statuses.items() if p.probability > 0)
         rows.append([
             f"{text(check.name)}<span class=scheme-id>{text(check.scheme)}</span>",
@@ -518,12 +518,12 @@ def uncertainty_section(item: ProjectReport, key: str) -> str:
         ])
         if check.scheme in draws:
             values, tiers = draws[check.scheme]
-            charts.append(distribution_svg(values, list(tiers), check.limit, check.unit, check.scheme, check.probability_qualifies, f"{key}-mc{number_}"))
+            charts.append(distribution_svg(values, list(tiers), check.limit, check.unit, check.scheme, check.probability_qualifies, f"{key}-mc{index}"))
     breaks = f" {spread.draws_breaking_limits} draws broke a physical limit and are counted apart, not clipped." if spread.draws_breaking_limits else ""
     return (
         f'<section class="sheet" id="{key}-spread" aria-labelledby="{key}-spread-h"><h2 id="{key}-spread-h">How sure: the spread of the result</h2>'
         f"<p>Monte Carlo of the inputs given in the project's <code>[uncertainty]</code> table: <strong>{spread.draws:,} draws</strong>, "
-        f"{text(words(spread.sampling))} sampling, <strong>seed {spread.seed}</strong> (the same seed gives the same numbers); {spread.draws_used:,} draws used.{breaks} "
+        f"{text(spread.sampling.replace('_', ' '))} sampling, <strong>seed {spread.seed}</strong> (the same seed gives the same numbers); {spread.draws_used:,} draws used.{breaks} "
         "The draws score the declared annual electricity shares (a time series is not redrawn).</p>"
         f"<p>Total: mean {number(total.mean)}, 5th percentile {number(total.p5)}, median {number(total.p50)}, 95th percentile {number(total.p95)} {text(spread.unit)} "
         f"(standard error of the mean {number(total.standard_error)}).</p>"
