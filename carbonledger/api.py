@@ -19,7 +19,7 @@ from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.headroom import Headroom
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity
+from .analyses.matching import electricity_model, match, matched_checks, matching_views, scheme_granularity
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
@@ -28,7 +28,7 @@ from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
 from .core.results import ScoreResult
-from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
+from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_stacked, solve_with_bw2calc
 from .errors import InputError
 from .io.matching_chart import write_matching_chart
 from .io.report import ProjectReport, render_report
@@ -472,18 +472,40 @@ def report_items(
     schemes: list[str] | None = None,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
 ) -> list[ProjectReport]:
     """What a report shows of each project (files, or folders of project files): its score, its
-    parameters with units and, where the project has a [lifetime], its operating years."""
+    parameters with units and, where the project gives them, its operating years ([lifetime]), the
+    matching of its electricity time series ([electricity] time_series) and a Monte Carlo of
+    ``draws`` draws with ``seed`` ([uncertainty]).
+
+    The one project is solved by the stacked numpy solver (``solve_stacked``, the solver of
+    ``recalc``, equal to bw2calc to 1e-9 on every demo: tests/test_recalc.py and
+    tests/test_report.py), so that a report does not pay bw2calc's import (about 1.9 s of CPU)."""
     factor_set = _factor_set(factors)
     items = []
     for path in project_files(list(paths)):
         project, sha = load_project(path, _boundary_overrides(boundary, overrides))
-        result = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha)
+        series = project_series(project, path)
+        matched = None
+        if series is not None:
+            period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
+            matched = {name: period for name in series.generation_kwh} if period else None
+        prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha, matching=matched)
+        solutions = solve_stacked([prepared], check_with_bw2calc=False)[0]
+        result = assemble(prepared, solutions)
+        views = []
+        if series is not None:
+            result = matched_checks(prepared, solutions, result, series)
+            views = matching_views(prepared, solutions, result, series)
         life = None
         if project.lifetime is not None:
             life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
-        items.append(ProjectReport(result, parameter_table(project), life))
+        spread = None
+        if "uncertainty" in read_project_file(path)[0]:
+            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes)
+        items.append(ProjectReport(result, parameter_table(project), life, views, spread))
     return items
 
 
@@ -497,15 +519,18 @@ def report(
     boundary: str | None = None,
     generated: str | None = None,
     paper: str | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
 ) -> str:
     """The project report of one or several projects as one self-contained HTML text.
 
     generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
     paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
+    draws, seed : the Monte Carlo of a project with an [uncertainty] table (the seed is printed).
     """
     if not paths:
         raise InputError("report", "PROJECT", "at least one project file or folder")
-    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary)
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed)
     return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
 
 

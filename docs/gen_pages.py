@@ -1,8 +1,15 @@
 """Write the documentation pages that come from code and data, so they cannot drift from them.
 
-Run before ``mkdocs build --strict`` (``.ci/run`` does): writes docs/generated/*.md from the
-scheme rulebooks (factors/schemes), the factor sets (factors/sets), the stage modules'
-docstrings (carbonledger/stages) and the README's deliverables section.
+Run before ``mkdocs build --strict`` (``.ci/run`` does; ``docs/hooks.py`` also runs it and sets the
+navigation when mkdocs starts): writes docs/generated/ from the scheme rulebooks
+(factors/schemes), the factor sets (factors/sets), the README's deliverables section, and
+
+- one methodology page per stage module (carbonledger/stages) and per delivery leg of the route
+  registry: the equations the code computes (``equations.py`` runs the stage functions on
+  symbols), the parameters with units, the factors the code reads (found in the source and
+  recorded while the demo projects are built) and the references (the docstrings, through
+  mkdocstrings);
+- the API reference: one page per public module, rendered from the docstrings by mkdocstrings.
 """
 
 from __future__ import annotations
@@ -11,15 +18,42 @@ import importlib
 import inspect
 import pkgutil
 import re
+import sys
 from pathlib import Path
 
-from carbonledger import stages
+from carbonledger import routes, stages
 from carbonledger.model.factors import available_sets, load_factor_set
 from carbonledger.model.rulebooks import load_schemes
 
 DOCS = Path(__file__).resolve().parent
 ROOT = DOCS.parent
 OUT = DOCS / "generated"
+sys.path.insert(0, str(DOCS))
+from equations import equations  # noqa: E402  (beside this script)
+
+# The API reference: the facade and the modules a user or a contributor calls.
+PUBLIC_MODULES = (
+    "carbonledger.api",
+    "carbonledger.core.results",
+    "carbonledger.core.scoring",
+    "carbonledger.core.engine",
+    "carbonledger.core.verdicts",
+    "carbonledger.model.project",
+    "carbonledger.model.factors",
+    "carbonledger.model.rulebooks",
+    "carbonledger.model.distributions",
+    "carbonledger.routes",
+    "carbonledger.routes.base",
+    "carbonledger.analyses.compare",
+    "carbonledger.analyses.portfolio",
+    "carbonledger.analyses.lifetime",
+    "carbonledger.analyses.matching",
+    "carbonledger.analyses.uncertainty",
+    "carbonledger.analyses.headroom",
+    "carbonledger.analyses.sensitivity",
+    "carbonledger.analyses.plan",
+    "carbonledger.io.report",
+)
 
 
 def cell(value) -> str:
@@ -60,18 +94,170 @@ def factors_page() -> str:
     return "\n".join(parts)
 
 
-def stages_page() -> str:
-    parts = ["# Methodology by stage\n", "Generated from the docstrings of `carbonledger/stages`: each stage's functions, with units in their names and the published sources in their References.\n"]
-    for info in pkgutil.iter_modules(stages.__path__):
-        module = importlib.import_module(f"carbonledger.stages.{info.name}")
-        parts.append(f"\n## {info.name.replace('_', ' ').capitalize()}\n")
-        parts.append("```text\n" + inspect.cleandoc(module.__doc__ or "(no module docstring)") + "\n```\n")
-        for name, function in inspect.getmembers(module, inspect.isfunction):
-            if function.__module__ != module.__name__ or name.startswith("_"):
-                continue
-            parts.append(f"\n### `{name}{inspect.signature(function)}`\n")
-            parts.append("```text\n" + inspect.cleandoc(function.__doc__ or "(no docstring)") + "\n```\n")
+def stage_modules() -> list[str]:
+    return [info.name for info in pkgutil.iter_modules(stages.__path__)]
+
+
+def stage_functions(module) -> list:
+    return [f for name, f in inspect.getmembers(module, inspect.isfunction) if f.__module__ == module.__name__ and not name.startswith("_")]
+
+
+def route_modules(route) -> list:
+    """The module that declares a route and the route-package helpers it imports (marine fuels, ...)."""
+    module = sys.modules[route.build.__module__]
+    helpers = [value for value in vars(module).values() if inspect.ismodule(value) and value.__name__.startswith("carbonledger.routes.")]
+    helpers += [sys.modules[value.__module__] for value in vars(module).values() if inspect.isfunction(value) and value.__module__.startswith("carbonledger.routes.") and value.__module__ != module.__name__]
+    return [module] + [m for m in dict.fromkeys(helpers) if m is not module]
+
+
+def stage_calls(route) -> dict[str, list[str]]:
+    """Stage module -> the stage functions a route's modules call (read from their source)."""
+    calls: dict[str, list[str]] = {}
+    for module in route_modules(route):
+        source = inspect.getsource(module)
+        for alias, value in vars(module).items():
+            if inspect.ismodule(value) and value.__name__.startswith("carbonledger.stages."):
+                for function in re.findall(rf"\b{alias}\.(\w+)\(", source):
+                    if inspect.isfunction(getattr(value, function, None)):
+                        calls.setdefault(value.__name__.rsplit(".", 1)[1], []).append(function)
+    return {name: sorted(set(functions)) for name, functions in calls.items()}
+
+
+def factor_patterns(route) -> list[str]:
+    """Factor ids a route's modules ask for, as written in the source (``{fuel}`` marks a choice)."""
+    found = []
+    for module in route_modules(route):
+        found += re.findall(r"""inputs\.factor\(\s*f?["']([^"']+)["']""", inspect.getsource(module))
+        found += [f"reference: {name}" for name in re.findall(r"inputs\.(molar_mass|latent_heat_\w+|formation_enthalpy_\w+)\(", inspect.getsource(module))]
+    return sorted(set(found))
+
+
+def factors_read_in_demos() -> dict[str, dict[str, object]]:
+    """Route name -> {factor id: row} of every factor and reference value each route module read
+    while the demo projects were built (at well-to-wake, so every leg they carry takes part)."""
+    from carbonledger.core.inputs import NumericInputs
+    from carbonledger.model.factors import load_factor_set as load
+    from carbonledger.routes import routes_of
+    from carbonledger.routes.base import Chain
+    from carbonledger.routes.project import load_project
+
+    factor_set = load("default-2026")
+    read: dict[str, dict[str, object]] = {}
+
+    class Recording(NumericInputs):
+        route = ""
+
+        def factor(self, factor_id, unit, where="factor"):
+            value = super().factor(factor_id, unit, where)
+            read.setdefault(self.route, {})[factor_id] = self.used[factor_id]
+            return value
+
+        def _reference(self, value):
+            read.setdefault(self.route, {})[value.id] = value
+            return super()._reference(value)
+
+    demos = sorted((ROOT / "demo_projects").glob("*.toml")) + sorted((ROOT / "demo_projects" / "portfolio").glob("*.toml"))
+    for path in demos:
+        project, _ = load_project(path)
+        params = project.model_dump()
+        params["project"]["boundary"] = "well-to-wake"
+        inputs = Recording(factor_set, str(path))
+        chain = Chain(boundary="well-to-wake", product="hydrogen", reference="hydrogen_production")
+        for route in routes_of(params):
+            inputs.route = route.name
+            route.build(params, inputs, chain)
+    return read
+
+
+def equation_block(function) -> str:
+    found = equations(function)
+    if not found:
+        return "Not a closed-form expression of its arguments (text, or a sum over years): see the docstring below.\n"
+    parts = []
+    for condition, latex in found:
+        if condition:
+            parts.append(f"When {condition.replace('_', ' ')}:\n")
+        parts.append(f"$$\n{latex}\n$$\n")
     return "\n".join(parts)
+
+
+def used_by(stage: str) -> list:
+    return [route for route in routes.REGISTRY if stage in stage_calls(route)]
+
+
+def factor_table(rows: dict[str, object]) -> str:
+    if not rows:
+        return "None read in the demo projects.\n"
+    lines = []
+    for factor_id, row in sorted(rows.items()):
+        lines.append([f"`{factor_id}`", getattr(row, "value", ""), getattr(row, "unit", ""), getattr(row, "source", ""), getattr(row, "from_memory", "no (reference library)")])
+    return table(["id", "value", "unit", "source", "from memory"], lines)
+
+
+def stage_page(name: str, read: dict) -> str:
+    module = importlib.import_module(f"carbonledger.stages.{name}")
+    title = name.replace("_", " ").capitalize()
+    users = used_by(name)
+    parts = [f"# Stage: {title}\n", f"Module `carbonledger.stages.{name}`. Generated from the code: the equations are the stage functions run on symbols.\n"]
+    parts.append("## Equations\n")
+    for function in stage_functions(module):
+        parts.append(f"### `{function.__name__}`\n")
+        parts.append(equation_block(function))
+    parts.append("\n## Where it is used\n")
+    parts.append(", ".join(f"`{route.name}` ({route.kind.replace('_', ' ')})" for route in users) + "\n" if users else "Not called by a route module (used by analyses).\n")
+    parts.append("\n## Factors read by the routes that use it\n")
+    merged: dict[str, object] = {}
+    for route in users:
+        merged.update(read.get(route.name, {}))
+    parts.append(factor_table(merged))
+    parts.append("\n## Functions, units and references\n")
+    parts.append(f"::: carbonledger.stages.{name}\n    options:\n      show_root_heading: false\n      heading_level: 3\n")
+    return "\n".join(parts)
+
+
+def leg_page(route, read: dict) -> str:
+    module = sys.modules[route.build.__module__]
+    parts = [f"# Delivery leg: {route.name.replace('_', ' ')}\n", f"{route.description}.\n", f"Module `{module.__name__}`; stages {', '.join(f'`{s}`' for s in route.stages)}.\n"]
+    parts.append("```text\n" + inspect.cleandoc(module.__doc__ or "") + "\n```\n")
+    parts.append("## Parameters\n")
+    rows = []
+    for section, model in {**route.sections, **route.optional_sections}.items():
+        for field_name, info in model.model_fields.items():
+            extra = info.json_schema_extra or {}
+            unit = extra.get("unit", "") if isinstance(extra, dict) else ""
+            default = "" if info.is_required() else info.default
+            rows.append([f"`{section}.{field_name}`", unit, default, info.description or ""])
+    parts.append(table(["parameter", "unit", "default", "meaning"], rows))
+    parts.append("\n## Equations\n")
+    for stage, functions in stage_calls(route).items():
+        stage_module = importlib.import_module(f"carbonledger.stages.{stage}")
+        parts.append(f"From [stage {stage.replace('_', ' ')}](../stages/{stage}.md):\n")
+        for function_name in functions:
+            parts.append(f"### `{stage}.{function_name}`\n")
+            parts.append(equation_block(getattr(stage_module, function_name)))
+    parts.append("\n## Factors it reads\n")
+    patterns = factor_patterns(route)
+    parts.append("As asked for in the code (`{...}` is the project's choice):\n\n" + ("".join(f"- `{pattern}`\n" for pattern in patterns) if patterns else "None: the leg reads no factor of its own (its electricity comes from the project's mix).\n"))
+    parts.append("\nAs read while the demo projects were built:\n\n" + factor_table(read.get(route.name, {})))
+    parts.append("\n## References\n")
+    for stage in stage_calls(route):
+        doc = inspect.getdoc(importlib.import_module(f"carbonledger.stages.{stage}")) or ""
+        match = re.search(r"References\n-+\n(.*)", doc, re.S)
+        if match:
+            parts.append(f"From `carbonledger.stages.{stage}`:\n\n```text\n{match.group(1).strip()}\n```\n")
+    return "\n".join(parts)
+
+
+def reference_page(module: str) -> str:
+    return f"# `{module}`\n\n::: {module}\n    options:\n      show_root_heading: false\n      heading_level: 2\n"
+
+
+def methodology_index() -> str:
+    lines = ["# Methodology\n", "One page per stage module and per delivery leg of the route registry, generated from the code.\n", "## Stages\n"]
+    lines += [f"- [{name.replace('_', ' ').capitalize()}](stages/{name}.md)" for name in stage_modules()]
+    lines += ["", "## Delivery legs\n"]
+    lines += [f"- [{route.name.replace('_', ' ').capitalize()}](legs/{route.name}.md): {route.description}" for route in routes.DELIVERY_LEGS]
+    return "\n".join(lines) + "\n"
 
 
 def deliverables_page() -> str:
@@ -81,12 +267,46 @@ def deliverables_page() -> str:
     return "# " + body[3:].replace("](docs/", "](../")
 
 
+def pages() -> dict[str, str]:
+    """Every generated page: path under docs/ -> Markdown."""
+    read = factors_read_in_demos()
+    out = {
+        "generated/deliverables.md": deliverables_page(),
+        "generated/rulebooks.md": rulebooks_page(),
+        "generated/factors.md": factors_page(),
+        "generated/methodology/index.md": methodology_index(),
+    }
+    out.update({f"generated/methodology/stages/{name}.md": stage_page(name, read) for name in stage_modules()})
+    out.update({f"generated/methodology/legs/{route.name}.md": leg_page(route, read) for route in routes.DELIVERY_LEGS})
+    out.update({f"generated/reference/{module}.md": reference_page(module) for module in PUBLIC_MODULES})
+    return out
+
+
+def nav() -> list:
+    """The site's navigation, with every generated page."""
+    return [
+        {"Home": "index.md"},
+        {"Deliverables": "generated/deliverables.md"},
+        {"Methodology": [
+            {"Overview": "generated/methodology/index.md"},
+            {"Stages": [{name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"} for name in stage_modules()]},
+            {"Delivery legs": [{route.name.replace("_", " ").capitalize(): f"generated/methodology/legs/{route.name}.md"} for route in routes.DELIVERY_LEGS]},
+        ]},
+        {"Scheme rulebooks": "generated/rulebooks.md"},
+        {"Factor library": "generated/factors.md"},
+        {"API reference": [{module.removeprefix("carbonledger.") if module != "carbonledger.routes" else "routes (registry)": f"generated/reference/{module}.md"} for module in PUBLIC_MODULES]},
+    ]
+
+
 def main() -> None:
-    OUT.mkdir(exist_ok=True)
-    pages = {"rulebooks.md": rulebooks_page(), "factors.md": factors_page(), "stages.md": stages_page(), "deliverables.md": deliverables_page()}
-    for name, text in pages.items():
-        (OUT / name).write_text(text, encoding="utf-8")
-    print(f"wrote {len(pages)} pages to {OUT}")
+    written = 0
+    for name, text in pages().items():
+        path = DOCS / name
+        path.parent.mkdir(parents=True, exist_ok=True)
+        if not path.exists() or path.read_text(encoding="utf-8") != text:  # unchanged pages are left alone (mkdocs serve)
+            path.write_text(text, encoding="utf-8")
+            written += 1
+    print(f"{written} pages written to {OUT}", file=sys.stderr)
 
 
 if __name__ == "__main__":

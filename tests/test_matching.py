@@ -297,7 +297,7 @@ def test_a_series_without_any_use(tmp_path):
 
 
 def test_unmatched_share_by_hour_and_month_by_hand(tmp_path):
-    from carbonledger.io.matching_chart import unmatched_share_by_hour_and_month
+    from carbonledger.analyses.matching import unmatched_share_by_hour_and_month
 
     # two days of hourly data: use 10 kWh every hour; matched 10 at 12:00 both days, 5 at 13:00 on day one only
     local = hours("2026-06-01T00:00", 48)

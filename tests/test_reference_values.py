@@ -1,10 +1,14 @@
 """Physical constants and stoichiometry against reference libraries and handbook values."""
 
+from pathlib import Path
+
 import pytest
 from CoolProp.CoolProp import PropsSI
 
 from carbonledger.model.reference import ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
 from carbonledger.stages import ammonia, electrolysis, reforming
+
+ROOT = Path(__file__).resolve().parent.parent
 
 
 @pytest.mark.parametrize(
@@ -77,3 +81,24 @@ def test_reforming_stoichiometric_floor_and_co2():
     # being natural gas (heavier hydrocarbons, some CO2) against pure methane.
     co2 = reforming.direct_co2_kg_per_kg_h2(floor, 56.1)
     assert co2 == pytest.approx(5.46, rel=0.03)
+
+
+def test_stored_reference_values_equal_what_chemicals_computes_now():
+    """carbonledger/model/reference_table.py stores values read from chemicals (so that a run does not
+    load chemicals' data tables); each must still equal chemicals' own value exactly. If this fails
+    after a chemicals upgrade, run scripts/make_reference_table.py."""
+    import importlib.util
+
+    from carbonledger.model import reference_table
+
+    spec = importlib.util.spec_from_file_location("make_reference_table", ROOT / "scripts" / "make_reference_table.py")
+    script = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(script)
+    live = script.live_values()
+    for name, value in live.items():
+        if name != "CHEMICALS_VERSION":
+            assert getattr(reference_table, name) == value, name
+    # and against the handbook: liquid water at 25 degC, dG = 237.1 kJ/mol (CRC Handbook, standard
+    # Gibbs energy of formation of H2O(l), -237.1 kJ/mol); CO2(g) dHf = -393.5 kJ/mol (same table)
+    assert reference_table.WATER_SPLITTING_GIBBS_LIQUID_298K_J_PER_MOL == pytest.approx(237100, abs=150)
+    assert reference_table.GAS_FORMATION_ENTHALPY_J_PER_MOL["co2"] == pytest.approx(-393500, abs=100)

@@ -157,3 +157,34 @@ def test_score_chart_png_and_svg(tmp_path):
     assert_one_line_error(run("score", shipped, "--no-ledger", "--chart", png), "--force")
     assert png.read_bytes() == b"kept"
     assert_one_line_error(run("score", shipped, "--no-ledger", "--chart", tmp_path / "c.pdf"), "--chart", ".png or .svg")
+
+
+@pytest.mark.parametrize("name", ["grey_smr_ammonia_shipped.toml", "green_hydrogen_piped_and_trucked.toml", "hybrid_hourly_hydrogen.toml"])
+def test_report_figures_are_the_score_figures(name):
+    """The report solves with the stacked numpy solver; bw2calc (through `score`, with the time
+    series matched as `score` matches it) must give the same figures to 1e-9."""
+    item = api.report_items([DEMO / name], draws=50)[0]
+    scored = api.score(DEMO / name)
+    assert item.result.total == pytest.approx(scored.total, rel=1e-9)
+    for stage, value in scored.by_stage.items():
+        assert item.result.by_stage[stage] == pytest.approx(value, rel=1e-9, abs=1e-12)
+    assert [(c.scheme, c.status) for c in item.result.checks] == [(c.scheme, c.status) for c in scored.checks]
+    for mine, theirs in zip(item.result.checks, scored.checks, strict=True):
+        assert mine.value == pytest.approx(theirs.value, rel=1e-9)
+
+
+def test_spread_section_only_with_uncertainty_and_the_seed_is_stated(tmp_path):
+    """The Monte Carlo section follows the project's [uncertainty] table, with the draws and seed
+    asked for on the command line (the same seed gives the same draws: a rerun gives the same page)."""
+    plain = run("report", BLUE, "-o", tmp_path / "blue.html")
+    assert plain.returncode == 0, plain.stderr
+    assert "How sure" not in (tmp_path / "blue.html").read_text(encoding="utf-8")
+    hourly = DEMO / "hybrid_hourly_hydrogen.toml"
+    pages = []
+    for number in (1, 2):
+        done = run("report", hourly, "-o", tmp_path / f"hourly{number}.html", "--draws", 300, "--seed", 11, env={"SOURCE_DATE_EPOCH": "1764633600"})
+        assert done.returncode == 0, done.stderr
+        pages.append((tmp_path / f"hourly{number}.html").read_text(encoding="utf-8"))
+    assert pages[0] == pages[1]
+    assert "<strong>300 draws</strong>" in pages[0] and "<strong>seed 11</strong>" in pages[0]
+    assert "Hour by hour: matching the electricity" in pages[0]

@@ -1,8 +1,10 @@
 """The project report opened in a real browser (headless Chromium from the system packages).
 
-One Chromium start per file: it takes a screenshot, prints to PDF, dumps the DOM after rendering
-and logs the network. Under CI=true a missing Chromium fails (``.ci/run`` installs it); locally
-these tests skip. Set CARBONLEDGER_DOCS_SCREENSHOT=1 to refresh docs/report_demo.png.
+ONE Chromium start for every case (``browser_support.Browser``, the DevTools Protocol over a
+pipe): per page a screenshot, a PDF, the DOM after rendering and the network requests. The tests
+of this file run in one pytest-xdist worker, so the browser starts once per run. Under CI=true a
+missing Chromium fails (``.ci/run`` installs it); locally these tests skip. Set
+CARBONLEDGER_DOCS_SCREENSHOT=1 to refresh docs/report_demo.png.
 """
 
 from __future__ import annotations
@@ -13,7 +15,7 @@ import shutil
 from pathlib import Path
 
 import pytest
-from browser_support import WINDOW, chromium_or_skip, pdf_info, render, url_attributes, visible_text
+from browser_support import WINDOW, Browser, chromium_or_skip, pdf_info, url_attributes, visible_text
 
 from carbonledger import api
 from carbonledger.about import CAUTION
@@ -30,19 +32,30 @@ CASES = {
     "blue": ([DEMO / "blue_atr_ammonia.toml"], "a4"),
     "grey-shipped": ([DEMO / "grey_smr_ammonia_shipped.toml"], "letter"),
     "portfolio": ([DEMO / "portfolio"], "a4"),
+    "hourly": ([DEMO / "hybrid_hourly_hydrogen.toml"], "a4"),  # time series and [uncertainty]
 }
+HOURLY_DRAWS, HOURLY_SEED = 2000, 7
+
+pytestmark = pytest.mark.xdist_group("browser")
 
 
 @pytest.fixture(scope="module")
-def rendered(tmp_path_factory):
+def browser(tmp_path_factory):
     chromium_or_skip()
+    started = Browser(tmp_path_factory.mktemp("chromium"))
+    yield started
+    started.close()
+
+
+@pytest.fixture(scope="module")
+def rendered(browser, tmp_path_factory):
     out = {}
     for name, (paths, paper) in CASES.items():
         folder = tmp_path_factory.mktemp(name)
-        items = api.report_items(paths)
+        items = api.report_items(paths, draws=HOURLY_DRAWS, seed=HOURLY_SEED)
         page = folder / "report.html"
         page.write_text(render_report(items, generated="2026-12-01", caution=CAUTION, paper=paper), encoding="utf-8")
-        out[name] = (items, paper, page, render(page, folder / "chromium"))
+        out[name] = (items, paper, page, browser.render(page, folder / "page"))
     if os.environ.get("CARBONLEDGER_DOCS_SCREENSHOT"):
         shutil.copyfile(out["blue"][3].screenshot, ROOT / "docs" / "report_demo.png")
     return out
@@ -86,11 +99,11 @@ def test_nothing_is_requested_from_another_address(rendered, name):
     assert page.page_requests == []
 
 
-def test_the_request_check_sees_an_outside_image(tmp_path):
-    """Control: the net-log check does report a page that loads an image from elsewhere."""
+def test_the_request_check_sees_an_outside_image(browser, tmp_path):
+    """Control: the request log does report a page that loads an image from elsewhere."""
     page = tmp_path / "outside.html"
     page.write_text('<!DOCTYPE html><html><body><img src="http://example.invalid/pixel.png" alt="x"></body></html>', encoding="utf-8")
-    assert any(url.startswith("http://example.invalid/") for url in render(page, tmp_path / "chromium").page_requests)
+    assert any(url.startswith("http://example.invalid/") for url in browser.render(page, tmp_path / "page").page_requests)
 
 
 @pytest.mark.parametrize("name", list(CASES))
@@ -101,7 +114,7 @@ def test_pdf_has_a_page_per_section_on_the_right_paper(rendered, name):
     assert width == pytest.approx(PAPER_PT[paper][0], abs=1.5)
     assert height == pytest.approx(PAPER_PT[paper][1], abs=1.5)
     sections = page.dom.count('<section class="sheet"')
-    assert sections == sum(6 + (item.lifetime is not None) for item in items)  # every section is a page break
+    assert sections == sum(6 + (item.lifetime is not None) + bool(item.matching) + (item.uncertainty is not None) for item in items)  # every section is a page break
     # every section starts a page; the summary of a project whose checks carry long verdict reasons
     # (every rule and its source) may run to four pages
     assert sections <= int(info["Pages"]) <= 4 * sections + 1
@@ -135,3 +148,57 @@ def test_command_writes_html_and_a_letter_pdf(tmp_path):
     assert pdf.read_bytes().startswith(b"%PDF-")
     width, height = (float(v) for v in re.match(r"([\d.]+) x ([\d.]+)", pdf_info(pdf)["Page size"]).groups())
     assert (width, height) == (pytest.approx(612.0, abs=1.5), pytest.approx(792.0, abs=1.5))  # US Letter, 8.5 x 11 in
+
+
+def _hourly_csv() -> tuple[dict[str, float], dict[str, float], float]:
+    """Electricity use and solar + wind generation by local month (kWh), and the energy matched hour
+    by hour, read from the demo series with the csv module (the input file, not the package's reader)."""
+    import csv
+
+    use, generation, hourly_matched = {}, {}, 0.0
+    with open(DEMO / "hybrid_hourly_hydrogen_2026.csv", encoding="utf-8") as handle:
+        rows = csv.DictReader(line for line in handle if not line.startswith("#"))
+        for row in rows:
+            month = row["timestamp"][:7]
+            load, made = float(row["electrolyser [kWh]"]), float(row["generation.solar [kWh]"]) + float(row["generation.wind [kWh]"])
+            use[month] = use.get(month, 0.0) + load
+            generation[month] = generation.get(month, 0.0) + made
+            hourly_matched += min(load, made)
+    return use, generation, hourly_matched
+
+
+def test_hourly_report_shows_monthly_matching_and_heat_map(rendered):
+    """The matching section of the hourly demo, against the series worked by hand: matched energy
+    in a period is min(use, generation) of the period (temporal correlation: Delegated Regulation
+    (EU) 2023/1184 Art. 6, monthly until 31 Dec 2029; UK Low Carbon Hydrogen Standard: half-hourly,
+    here the series' hours; 45V until 2029 and the other schemes here: annual)."""
+    items, _, _, page = rendered["hourly"]
+    text = visible_text(re.search(r'<section class="sheet" id="p1-matching".*?</section>', page.dom, re.S).group(0))
+    assert "Hour by hour: matching the electricity" in text
+    use, generation, hourly_matched = _hourly_csv()
+    january = float(re.search(r"Jan 26 ([\d,.]+) ([\d,.]+)", text).group(1).replace(",", ""))
+    assert january == pytest.approx(use["2026-01"] / 1000.0, rel=1e-3)  # MWh used in January
+    annual = min(1.0, sum(generation.values()) / sum(use.values()))
+    monthly = sum(min(use[m], generation[m]) for m in use) / sum(use.values())
+    hourly = hourly_matched / sum(use.values())
+    shares = [float(s) / 100 for s in re.findall(r"([\d.]+)% of the electricity used is matched", text)]
+    assert shares == pytest.approx([annual, monthly, hourly], abs=6e-4)  # one chart pair per rule
+    assert len(shares) == len(items[0].matching) == 3
+    heat_maps = [c for c in page.charts if c["title"].startswith("Unmatched share of use by hour of day and month")]
+    assert len(heat_maps) == 3
+    for chart in heat_maps:  # laid out at a readable size, not collapsed
+        assert chart["width"] > 500 and chart["height"] > 200
+    assert page.dom.count("unmatched</title>") >= 3 * 24 * 12  # one titled cell per hour and month
+
+
+def test_hourly_report_shows_the_spread_with_its_draws_and_seed(rendered):
+    items, _, _, page = rendered["hourly"]
+    text = visible_text(page.dom)
+    assert "How sure: the spread of the result" in text
+    assert f"{HOURLY_DRAWS:,} draws" in text and f"seed {HOURLY_SEED}" in text
+    spread = items[0].uncertainty
+    for check in spread.checks:  # the probability of qualifying of every scheme, as a percentage
+        assert re.search(rf"{re.escape(check.name)} {re.escape(check.scheme)} {check.probability_qualifies:.1%}", text), check.scheme
+    histograms = [c for c in page.charts if c["title"].startswith("Distribution of the")]
+    assert len(histograms) == len(spread.checks)
+    assert all(c["width"] > 500 and c["height"] > 150 for c in histograms)

@@ -327,3 +327,64 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
 def rule_dates_for(scheme_id: str) -> list[tuple[str, _dt.date | None, _dt.date | None]]:
     """(granularity, first date, last date) of each rule of a scheme, for listings and tests."""
     return [(rule.granularity, rule.starts, rule.ends) for rule in matching_rules(scheme_id)]
+
+
+def unmatched_share_by_hour_and_month(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray) -> tuple[list[str], np.ndarray]:
+    """(months, 24 x months array): unmatched / use in each local hour of day and calendar month (NaN without use)."""
+    months = local.astype("datetime64[M]")
+    names, column = np.unique(months, return_inverse=True)
+    hour = (local - local.astype("datetime64[D]")).astype("timedelta64[h]").astype(np.int64)
+    use = np.zeros((24, len(names)))
+    unmatched = np.zeros((24, len(names)))
+    np.add.at(use, (hour, column), load_kwh)
+    np.add.at(unmatched, (hour, column), load_kwh - matched_kwh)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        share = np.where(use > 0, unmatched / use, np.nan)
+    return [str(m) for m in names], share
+
+
+@dataclass
+class MatchingView:
+    """What a report shows of one matching: the schemes that share it (same rule and sources, so the
+    same matched energy in every interval), use and matched use by month, and the unmatched share
+    by local hour of day and month."""
+
+    schemes: list[str]
+    granularity: str  # the rule in words (e.g. 'month until 2029-12-31, hour from 2030-01-01')
+    matched_share: float
+    months: list[str]
+    monthly_load_kwh: np.ndarray
+    monthly_matched_kwh: np.ndarray
+    unmatched_share: np.ndarray  # 24 x months, NaN where there is no use
+    eligible: list[str]
+
+
+def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries) -> list[MatchingView]:
+    """The matching of every scheme check of a scored project under its own temporal rule, schemes
+    with identical matched energy in every interval grouped into one view (for the report)."""
+    with_generation = list(series.generation_kwh)
+    schemes = {scheme.id: scheme for scheme in prepared.chosen}
+    found: list[tuple[MatchingView, np.ndarray, np.ndarray]] = []
+    for check in result.checks:
+        scheme = schemes[check.scheme]
+        model = electricity_model(prepared, solutions, scheme, with_generation)
+        load = series.load(model.kwh_per_kg_h2)
+        outcome = match(load, series.generation_kwh, model.eligible, scheme_granularity(scheme.id, series.local), series.utc, series.local)
+        same = next((view for view, a, b in found if np.array_equal(a, load) and np.array_equal(b, outcome.matched_interval_kwh)), None)
+        if same is not None:
+            same.schemes.append(scheme.id)
+            continue
+        months, share = unmatched_share_by_hour_and_month(series.local, load, outcome.matched_interval_kwh)
+        _, column = np.unique(series.local.astype("datetime64[M]"), return_inverse=True)
+        view = MatchingView(
+            schemes=[scheme.id],
+            granularity=describe(scheme.id),
+            matched_share=outcome.matched_share,
+            months=months,
+            monthly_load_kwh=np.bincount(column, load, minlength=len(months)),
+            monthly_matched_kwh=np.bincount(column, outcome.matched_interval_kwh, minlength=len(months)),
+            unmatched_share=share,
+            eligible=list(model.eligible),
+        )
+        found.append((view, load, outcome.matched_interval_kwh))
+    return [view for view, _, _ in found]

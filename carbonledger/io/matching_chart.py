@@ -7,22 +7,9 @@ from pathlib import Path
 
 import numpy as np
 
+from ..analyses.matching import unmatched_share_by_hour_and_month
 from ..errors import InputError
 from .chart_files import write_figure
-
-
-def unmatched_share_by_hour_and_month(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray) -> tuple[list[str], np.ndarray]:
-    """(months, 24 x months array): unmatched / use in each local hour of day and calendar month (NaN without use)."""
-    months = local.astype("datetime64[M]")
-    names, column = np.unique(months, return_inverse=True)
-    hour = (local - local.astype("datetime64[D]")).astype("timedelta64[h]").astype(np.int64)
-    use = np.zeros((24, len(names)))
-    unmatched = np.zeros((24, len(names)))
-    np.add.at(use, (hour, column), load_kwh)
-    np.add.at(unmatched, (hour, column), load_kwh - matched_kwh)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        share = np.where(use > 0, unmatched / use, np.nan)
-    return [str(m) for m in names], share
 
 
 def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray, title: str):

@@ -23,7 +23,11 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+import numpy as np
+
 from ..analyses.lifetime import LifetimeResult
+from ..analyses.matching import MatchingView
+from ..analyses.uncertainty import UncertaintyResult
 from ..core.results import Check, ScoreResult
 from ..core.scoring import rulebooks
 from ..errors import InputError
@@ -41,11 +45,14 @@ STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undete
 
 @dataclass
 class ProjectReport:
-    """What the report shows of one project: its score, its inputs and, if given, its lifetime."""
+    """What the report shows of one project: its score, its inputs and, where the project gives
+    them, its lifetime, the matching of its electricity time series and its Monte Carlo."""
 
     result: ScoreResult
     inputs: list[tuple[str, Any, str, str]] = field(default_factory=list)  # parameter_table rows
     lifetime: LifetimeResult | None = None
+    matching: list[MatchingView] = field(default_factory=list)
+    uncertainty: UncertaintyResult | None = None
 
 
 # --- words and numbers -------------------------------------------------------------------
@@ -214,6 +221,131 @@ def lifetime_svg(life: LifetimeResult, key: str) -> str:
     return _svg(width, height, f"Intensity by operating year ({life.unit})", description, body, key)
 
 
+# Heat map ramp: harbour-teal mist (all matched) through sandstone to deep brick (nothing matched).
+RAMP = ((0.0, (0xE4, 0xEE, 0xF0)), (0.5, (0xC9, 0x89, 0x2B)), (1.0, (0x6E, 0x24, 0x18)))
+
+
+def ramp_colour(share: float) -> str:
+    """The heat-map colour of an unmatched share between 0 and 1 (linear between the ramp's stops)."""
+    share = min(max(float(share), 0.0), 1.0)
+    for (a, low), (b, high) in zip(RAMP, RAMP[1:], strict=False):
+        if share <= b:
+            f = (share - a) / (b - a)
+            return "#" + "".join(f"{round(lo + (hi - lo) * f):02x}" for lo, hi in zip(low, high, strict=True))
+    return "#" + "".join(f"{v:02x}" for v in RAMP[-1][1])
+
+
+def _month_label(month: str) -> str:
+    names = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+    year, _, month_number = month.partition("-")
+    return f"{names[int(month_number) - 1]} {year[2:]}" if month_number.isdigit() else month
+
+
+def monthly_matching_svg(view: MatchingView, key: str) -> str:
+    """Stacked bars by month: electricity use matched with eligible generation, and unmatched (MWh)."""
+    load = view.monthly_load_kwh / 1000.0
+    matched = view.monthly_matched_kwh / 1000.0
+    count = len(view.months)
+    width, height, left, right, top, bottom = 760, 250, 64, 20, 14, 52
+    slot = (width - left - right) / max(count, 1)
+    high = float(load.max()) * 1.08 if count and load.max() > 0 else 1.0
+    y = _scale(0.0, high, height - bottom, top)
+    body = [f'<line x1="{left}" y1="{y(0):.1f}" x2="{width - right}" y2="{y(0):.1f}" class="axis"/>']
+    for fraction in (0.0, 0.5, 1.0):
+        tick = high / 1.08 * fraction
+        body.append(f'<text x="{left - 6}" y="{y(tick) + 4:.1f}" class="tick" text-anchor="end">{html.escape(number(tick))}</text>')
+    for index, (month, use, ok) in enumerate(zip(view.months, load, matched, strict=True)):
+        x0 = left + index * slot + slot * 0.15
+        bar = slot * 0.7
+        label = _month_label(month)
+        body.append(f'<rect x="{x0:.1f}" y="{y(ok):.1f}" width="{bar:.1f}" height="{y(0) - y(ok):.1f}" class="matched"><title>{html.escape(label)}: {html.escape(number(ok))} MWh matched</title></rect>')
+        body.append(f'<rect x="{x0:.1f}" y="{y(use):.1f}" width="{bar:.1f}" height="{y(ok) - y(use):.1f}" class="unmatched"><title>{html.escape(label)}: {html.escape(number(use - ok))} MWh unmatched</title></rect>')
+        body.append(f'<text x="{x0 + bar / 2:.1f}" y="{height - bottom + 15}" class="tick" text-anchor="middle">{html.escape(label)}</text>')
+    body.append(f'<rect x="{left}" y="{height - 22}" width="12" height="12" class="matched"/><text x="{left + 18}" y="{height - 12}" class="label">matched with eligible generation</text>')
+    body.append(f'<rect x="{left + 280}" y="{height - 22}" width="12" height="12" class="unmatched"/><text x="{left + 298}" y="{height - 12}" class="label">unmatched (charged as grid)</text>')
+    description = "; ".join(f"{_month_label(m)}: {number(a)} MWh used, {number(b)} matched" for m, a, b in zip(view.months, load, matched, strict=True)) + "."
+    return _svg(width, height, f"Electricity use by month, matched and unmatched (MWh), {', '.join(view.schemes)}", description, body, key)
+
+
+def heat_map_svg(view: MatchingView, key: str) -> str:
+    """Unmatched share of electricity use by local hour of day (rows) and month (columns)."""
+    share = view.unmatched_share
+    count = len(view.months)
+    width, left, top, legend = 760, 64, 10, 90
+    cell_w = (width - left - legend) / max(count, 1)
+    cell_h = 11
+    grid_bottom = top + 24 * cell_h
+    height = grid_bottom + 40
+    body = []
+    for hour in range(24):
+        y = grid_bottom - (hour + 1) * cell_h
+        if hour % 3 == 0:
+            body.append(f'<text x="{left - 6}" y="{y + cell_h - 2:.1f}" class="tick" text-anchor="end">{hour:02d}:00</text>')
+        for column in range(count):
+            value = share[hour, column]
+            x = left + column * cell_w
+            label = _month_label(view.months[column])
+            if np.isnan(value):
+                body.append(f'<rect x="{x:.1f}" y="{y:.1f}" width="{cell_w:.1f}" height="{cell_h}" class="no-use"><title>{html.escape(label)}, {hour:02d}:00: no use</title></rect>')
+            else:
+                body.append(f'<rect x="{x:.1f}" y="{y:.1f}" width="{cell_w + 0.3:.1f}" height="{cell_h + 0.3}" fill="{ramp_colour(value)}"><title>{html.escape(label)}, {hour:02d}:00: {value:.0%} unmatched</title></rect>')
+    for column in range(count):
+        body.append(f'<text x="{left + (column + 0.5) * cell_w:.1f}" y="{grid_bottom + 14}" class="tick" text-anchor="middle">{html.escape(_month_label(view.months[column]))}</text>')
+    lx = width - legend + 24
+    steps = 10
+    for step in range(steps):
+        fraction = step / (steps - 1)
+        body.append(f'<rect x="{lx}" y="{grid_bottom - (step + 1) * 24 * cell_h / steps:.1f}" width="16" height="{24 * cell_h / steps + 0.3:.1f}" fill="{ramp_colour(fraction)}"/>')
+    for fraction in (0.0, 0.5, 1.0):
+        body.append(f'<text x="{lx + 22}" y="{grid_bottom - fraction * 24 * cell_h + (4 if fraction < 1 else 9):.1f}" class="tick">{fraction:.0%}</text>')
+    body.append(f'<text x="{left}" y="{height - 8}" class="note">Local hour of day (rows) by month (columns); colour: share of use not matched. Grey: no use.</text>')
+    with np.errstate(invalid="ignore"):
+        by_hour = np.nanmean(share, axis=1) if count else np.zeros(24)
+    worst = int(np.nanargmax(by_hour)) if count and not np.all(np.isnan(by_hour)) else 0
+    best = int(np.nanargmin(by_hour)) if count and not np.all(np.isnan(by_hour)) else 0
+    description = (
+        f"Heat map of the unmatched share of electricity use over {count} months and 24 hours. "
+        f"Least matched hour of day on average: {worst:02d}:00 ({by_hour[worst]:.0%} unmatched); "
+        f"best matched: {best:02d}:00 ({by_hour[best]:.0%} unmatched). Over the year {1 - view.matched_share:.1%} of use is unmatched."
+    )
+    return _svg(width, height, f"Unmatched share of use by hour of day and month, {', '.join(view.schemes)}", description, body, key)
+
+
+def distribution_svg(values: np.ndarray, limits: list[tuple[str, float]], limit: float, unit: str, scheme: str, probability: float, key: str) -> str:
+    """Histogram of a scheme's value over the Monte Carlo draws, bins at or under the limit in the
+    qualifying colour, with the tier limits as strokes."""
+    values = np.asarray(values, dtype=float)
+    width, height, left, right, top, bottom = 760, 230, 64, 20, 14, 56
+    marks = [value for _, value in limits]
+    low = min(float(values.min()), *marks) if len(values) else min(marks or [0.0])
+    high = max(float(values.max()), *marks) if len(values) else max(marks or [1.0])
+    pad = (high - low) * 0.04 or 1.0
+    low, high = low - pad, high + pad
+    counts, edges = np.histogram(values, bins=40, range=(low, high))
+    x = _scale(low, high, left, width - right)
+    y = _scale(0.0, float(counts.max()) * 1.1 or 1.0, height - bottom, top)
+    body = [f'<line x1="{left}" y1="{y(0):.1f}" x2="{width - right}" y2="{y(0):.1f}" class="axis"/>']
+    for count, a, b in zip(counts, edges[:-1], edges[1:], strict=True):
+        if count:
+            cls = "bar-ok" if b <= limit else "bar-no" if a >= limit else "bar-open"
+            body.append(f'<rect x="{x(a):.1f}" y="{y(count):.1f}" width="{max(x(b) - x(a) - 0.6, 0.6):.1f}" height="{y(0) - y(count):.1f}" class="{cls}"><title>{html.escape(number(a))} to {html.escape(number(b))}: {count} draws</title></rect>')
+    for tier, value in limits:
+        mark = "limit-main" if value == limit else "limit"
+        body.append(f'<line x1="{x(value):.1f}" y1="{top}" x2="{x(value):.1f}" y2="{y(0):.1f}" class="{mark}"><title>{html.escape(tier)}: {html.escape(number(value))}</title></line>')
+        body.append(f'<text x="{x(value):.1f}" y="{top + 10}" class="tick" text-anchor="middle">{html.escape(number(value))}</text>')
+    for fraction in (0.0, 0.25, 0.5, 0.75, 1.0):
+        tick = low + (high - low) * fraction
+        body.append(f'<text x="{x(tick):.1f}" y="{height - bottom + 15}" class="tick" text-anchor="middle">{html.escape(number(tick))}</text>')
+    body.append(f'<text x="{left}" y="{height - bottom + 32}" class="note">{html.escape(scheme)} value, {html.escape(unit)}. Bars: draws, green under the limit, red over it; strokes: the limits.</text>')
+    body.append(f'<text x="{left}" y="{height - bottom + 46}" class="note">A draw under the limit may still fail another rule of the scheme (see the verdicts over the draws).</text>')
+    p5, p50, p95 = np.percentile(values, [5, 50, 95]) if len(values) else (float("nan"),) * 3
+    description = (
+        f"Histogram of {len(values)} draws of the {scheme} value: median {number(float(p50))}, 5th percentile {number(float(p5))}, "
+        f"95th percentile {number(float(p95))} {unit}; limit {number(limit)}; probability of qualifying {probability:.1%}."
+    )
+    return _svg(width, height, f"Distribution of the {scheme} value over the draws ({unit})", description, body, key)
+
+
 # --- sections -------------------------------------------------------------------------------
 
 def _table(headers: list[str], rows: list[list[str]], cls: str = "", numeric: set[int] = frozenset(), caption: str = "") -> str:
@@ -339,6 +471,73 @@ def lifetime_section(item: ProjectReport, key: str) -> str:
     )
 
 
+def matching_section(item: ProjectReport, key: str) -> str:
+    if not item.matching:
+        return ""
+    checks = {check.scheme: check for check in item.result.checks}
+    parts = []
+    for index, view in enumerate(item.matching, 1):
+        first = checks.get(view.schemes[0])
+        figures = first.electricity_matching if first is not None else None
+        names = "; ".join(f"{text(checks[s].name)} (<code>{text(s)}</code>)" if s in checks else f"<code>{text(s)}</code>" for s in view.schemes)
+        rows = [
+            [text(_month_label(m)), number(a / 1000.0), number(b / 1000.0), number((a - b) / 1000.0), f"{(b / a if a > 0 else 0.0):.1%}"]
+            for m, a, b in zip(view.months, view.monthly_load_kwh, view.monthly_matched_kwh, strict=True)
+        ]
+        source = f" Series <code>{text(figures.series_file)}</code>, {figures.intervals} intervals of {figures.interval_minutes} minutes from {text(figures.first_interval)}." if figures else ""
+        parts.append(
+            f"<h3>{names}</h3>"
+            f"<p>Matching period: {text(view.granularity)}. Generation counted: {text(', '.join(view.eligible) or 'none')}. "
+            f"<strong>{view.matched_share:.1%}</strong> of the electricity used is matched over the series.{source}</p>"
+            + monthly_matching_svg(view, f"{key}-mm{index}")
+            + heat_map_svg(view, f"{key}-hm{index}")
+            + _table(["Month", "Use (MWh)", "Matched (MWh)", "Unmatched (MWh)", "Matched share"], rows, "compact small", {1, 2, 3, 4})
+        )
+    return (
+        f'<section class="sheet" id="{key}-matching" aria-labelledby="{key}-matching-h"><h2 id="{key}-matching-h">Hour by hour: matching the electricity</h2>'
+        "<p>The project's electricity time series is matched with the contracted generation each scheme counts, in the scheme's own matching period; "
+        "electricity not matched is charged as grid electricity. Schemes with the same rule and the same counted generation share one chart. "
+        "The scheme verdicts of this report use these matched values; the headline total keeps the declared annual shares.</p>"
+        + "".join(parts)
+        + "</section>"
+    )
+
+
+def uncertainty_section(item: ProjectReport, key: str) -> str:
+    spread = item.uncertainty
+    if spread is None:
+        return ""
+    draws = spread.scheme_draws()
+    total = spread.total
+    inputs = [[f"<code>{text(d.input)}</code>", text(", ".join(f"{k} {v}" for k, v in d.distribution.items()))] for d in spread.inputs]
+    rows = []
+    charts = []
+    for index, check in enumerate(spread.checks, 1):
+        statuses = ", ".join(f"{text(name)} {p.probability:.1%}" for name, p in check.statuses.items() if p.probability > 0)
+        rows.append([
+            f"{text(check.name)}<span class=scheme-id>{text(check.scheme)}</span>",
+            f"{check.probability_qualifies:.1%} &plusmn; {check.standard_error:.1%}",
+            number(check.value.p5), number(check.value.p50), number(check.value.p95), number(check.limit), text(check.unit), statuses,
+        ])
+        if check.scheme in draws:
+            values, tiers = draws[check.scheme]
+            charts.append(distribution_svg(values, list(tiers), check.limit, check.unit, check.scheme, check.probability_qualifies, f"{key}-mc{index}"))
+    breaks = f" {spread.draws_breaking_limits} draws broke a physical limit and are counted apart, not clipped." if spread.draws_breaking_limits else ""
+    return (
+        f'<section class="sheet" id="{key}-spread" aria-labelledby="{key}-spread-h"><h2 id="{key}-spread-h">How sure: the spread of the result</h2>'
+        f"<p>Monte Carlo of the inputs given in the project's <code>[uncertainty]</code> table: <strong>{spread.draws:,} draws</strong>, "
+        f"{text(spread.sampling.replace('_', ' '))} sampling, <strong>seed {spread.seed}</strong> (the same seed gives the same numbers); {spread.draws_used:,} draws used.{breaks} "
+        "The draws score the declared annual electricity shares (a time series is not redrawn).</p>"
+        f"<p>Total: mean {number(total.mean)}, 5th percentile {number(total.p5)}, median {number(total.p50)}, 95th percentile {number(total.p95)} {text(spread.unit)} "
+        f"(standard error of the mean {number(total.standard_error)}).</p>"
+        + _table(["Scheme", "Probability of qualifying", "5th percentile", "Median", "95th percentile", "Limit", "Unit", "Verdicts over the draws"], rows, "compact small", {1, 2, 3, 4, 5})
+        + "".join(charts)
+        + "<h3>Uncertain inputs</h3>"
+        + _table(["Input", "Distribution"], inputs, "small")
+        + "</section>"
+    )
+
+
 def inputs_section(item: ProjectReport, key: str) -> str:
     result = item.result
     info = result.parameters.get("project", {})
@@ -400,6 +599,8 @@ def project_html(item: ProjectReport, index: int, generated: str, caution: str) 
         + glance_section(item, key, caution)
         + sources_section(item, key)
         + schemes_section(item, key)
+        + matching_section(item, key)
+        + uncertainty_section(item, key)
         + lifetime_section(item, key)
         + inputs_section(item, key)
         + factors_section(item, key)
@@ -489,6 +690,7 @@ svg .axis{stroke:#8b949b;stroke-width:1}svg .step{stroke:#8b949b;stroke-width:1;
 svg .total-bar{fill:var(--ink)}svg .on-bar{fill:#fff;font-weight:600}svg .track{fill:#f1eee6}
 svg .bar-ok{fill:var(--ok)}svg .bar-no{fill:var(--no)}svg .bar-off{fill:var(--off)}svg .bar-open{fill:var(--open)}
 svg .limit{stroke:var(--ink);stroke-width:1.2;stroke-dasharray:4 3}svg .limit-main{stroke:var(--ink);stroke-width:2.6}
+svg .matched{fill:#6f9a73}svg .unmatched{fill:#cbc3b1}svg .no-use{fill:#ece8de}
 svg .trace{fill:none;stroke:var(--teal);stroke-width:2.2}svg .dot{fill:var(--teal)}
 footer.colophon{margin-top:30px;font-size:12.5px;color:#5d6870;border-top:1px solid var(--rule);padding-top:10px}
 @media print{

@@ -15,6 +15,8 @@ from __future__ import annotations
 import functools
 from dataclasses import dataclass
 
+from . import reference_table as stored
+
 
 @dataclass(frozen=True)
 class ReferenceValue:
@@ -26,17 +28,19 @@ class ReferenceValue:
 
 @functools.cache
 def molar_mass_g_per_mol(formula: str) -> float:
-    """Molar mass of a chemical formula in g/mol, from ``chemicals.elements``."""
+    """Molar mass of a chemical formula in g/mol, from ``chemicals.elements`` (stored in
+    ``reference_table`` for the formulas the routes use, else computed)."""
+    if formula in stored.MOLAR_MASS_G_PER_MOL:
+        return stored.MOLAR_MASS_G_PER_MOL[formula]
     from chemicals.elements import molecular_weight, simple_formula_parser
 
     return float(molecular_weight(simple_formula_parser(formula)))
 
 
-@functools.cache
 def _chemicals_version() -> str:
-    from importlib.metadata import version
-
-    return version("chemicals")
+    """The chemicals version the stored reference values were read with (tests check they still equal
+    the installed chemicals' values)."""
+    return stored.CHEMICALS_VERSION
 
 
 def molar_mass(formula: str) -> ReferenceValue:
@@ -52,11 +56,15 @@ _AMMONIA_CAS = "7664-41-7"
 _CRC_VAPORISATION_TABLE = "CRC Handbook Heat of Vaporization.tsv"
 
 
-@functools.cache
 def ammonia_vaporisation_at_normal_boiling_point() -> tuple[float, float]:
-    """Normal boiling point (K) and molar enthalpy of vaporisation there (J/mol) of ammonia.
+    """Normal boiling point (K) and molar enthalpy of vaporisation there (J/mol) of ammonia, as
+    stored in ``reference_table`` from ``live_ammonia_vaporisation``."""
+    boiling_point_k, molar_j_per_mol = stored.AMMONIA_NORMAL_BOILING_POINT_K_AND_VAPORISATION_J_PER_MOL
+    return boiling_point_k, molar_j_per_mol
 
-    Read from the CRC Handbook table that ``chemicals`` ships (``chemicals.phase_change``
+
+def live_ammonia_vaporisation() -> tuple[float, float]:
+    """Read from the CRC Handbook table that ``chemicals`` ships (``chemicals.phase_change``
     registers it; ``Hvap_data_CRC`` is the same table). Only this table is read: the module
     attribute ``Hvap_data_CRC`` would load every phase-change table at once (about a second).
     """
@@ -92,11 +100,8 @@ def ammonia_latent_heat() -> ReferenceValue:
     )
 
 
-@functools.cache
 def _ammonia_formation_enthalpy_j_per_mol() -> float:
-    from chemicals.reaction import Hfg
-
-    return float(Hfg(_AMMONIA_CAS))
+    return stored.GAS_FORMATION_ENTHALPY_J_PER_MOL["ammonia"]  # chemicals.reaction.Hfg(_AMMONIA_CAS)
 
 
 def ammonia_formation_enthalpy() -> ReferenceValue:
@@ -161,11 +166,8 @@ def hydrogen_liquefaction_states() -> dict[str, float]:
 _CO2_CAS = "124-38-9"
 
 
-@functools.cache
 def _co2_formation_enthalpy_j_per_mol() -> float:
-    from chemicals.reaction import Hfg
-
-    return float(Hfg(_CO2_CAS))
+    return stored.GAS_FORMATION_ENTHALPY_J_PER_MOL["co2"]  # chemicals.reaction.Hfg(_CO2_CAS)
 
 
 def co2_formation_enthalpy() -> ReferenceValue:
@@ -186,18 +188,18 @@ STANDARD_TEMPERATURE_K = 298.15
 def water_splitting_gibbs_j_per_mol(temperature_k: float, steam: bool) -> float:
     """Gibbs energy of H2O -> H2 + 1/2 O2 at 1 bar, J/mol: the least work (electricity) per mol H2.
 
-    Liquid water at 298.15 K, or steam at ``temperature_k``: dG = dH - T dS, with standard
-    enthalpies of formation and entropies at 298.15 K (``chemicals.reaction.Hfg``/``Hfl``,
+    Liquid water at 298.15 K (stored in ``reference_table`` from
+    ``live_liquid_water_splitting_gibbs_j_per_mol``), or steam at ``temperature_k``: dG = dH - T dS,
+    with standard enthalpies of formation and entropies at 298.15 K (``chemicals.reaction.Hfg``/``Hfl``,
     ``S0g``/``S0l``) carried to T by the ideal-gas heat capacities of ``chemicals.heat_capacity``
     (TRC correlations, valid 50 to 5000 K). The balance, T dS, may come as heat.
     """
+    if not steam:
+        return stored.WATER_SPLITTING_GIBBS_LIQUID_298K_J_PER_MOL
     from chemicals.heat_capacity import TRC_gas_data, TRCCp_integral, TRCCp_integral_over_T
-    from chemicals.reaction import Hfg, Hfl, S0g, S0l
+    from chemicals.reaction import Hfg, S0g
 
     entropy_products = S0g(_HYDROGEN) + 0.5 * S0g(_OXYGEN)
-    if not steam:
-        t = STANDARD_TEMPERATURE_K
-        return float(-Hfl(_WATER) - t * (entropy_products - S0l(_WATER)))
     t0, t = STANDARD_TEMPERATURE_K, float(temperature_k)
 
     def rise(cas: str) -> tuple[float, float]:
@@ -211,6 +213,14 @@ def water_splitting_gibbs_j_per_mol(temperature_k: float, steam: bool) -> float:
     enthalpy = -Hfg(_WATER) + h_h2 + 0.5 * h_o2 - h_w
     entropy = entropy_products - S0g(_WATER) + s_h2 + 0.5 * s_o2 - s_w
     return float(enthalpy - t * entropy)
+
+
+def live_liquid_water_splitting_gibbs_j_per_mol() -> float:
+    """dG = -Hf(liquid water) - T (S(H2) + S(O2)/2 - S(liquid water)) at 298.15 K, from chemicals."""
+    from chemicals.reaction import Hfl, S0g, S0l
+
+    t = STANDARD_TEMPERATURE_K
+    return float(-Hfl(_WATER) - t * (S0g(_HYDROGEN) + 0.5 * S0g(_OXYGEN) - S0l(_WATER)))
 
 
 def water_splitting_gibbs(temperature_k: float, steam: bool) -> ReferenceValue:
