@@ -362,9 +362,7 @@ def load_uncertainty(project_file: str | Path, distributions: str | Path | None 
         raise InputError(project_file, "uncertainty", "a table of distributions")
     if distributions is not None:
         found = found.merged(read_distributions_file(distributions))
-    if not found.parameters and not found.factors:
-        raise InputError(project_file, "uncertainty", "at least one distribution (an [uncertainty] table in the project, or --distributions FILE)")
-    return found
+    return found  # none at all is refused by the analysis (factor rows with pedigree scores may add some)
 
 
 def uncertainty(

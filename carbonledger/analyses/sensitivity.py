@@ -109,7 +109,7 @@ def sensitivity(
     from SALib.sample import sobol as sobol_sample
 
     plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary)
-    names = uncertainty.names()
+    names = plan.uncertainty.names()
     if not names:
         raise InputError(source, "uncertainty", "at least one distribution")
     if base_sample < 2 or base_sample & (base_sample - 1):

@@ -48,7 +48,7 @@ from ..core.scoring import (
 )
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
-from ..model.distributions import Uncertainty
+from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet
 from ..model.project import BOUNDARIES, field_limits, parameter_field
 from ..model.rulebooks import select_schemes
@@ -152,9 +152,15 @@ class Plan:
 
 
 def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None) -> Plan:
-    """Check every distribution against the project and the factor set (one InputError line)."""
+    """Check every distribution against the project and the factor set (one InputError line).
+
+    Pedigree distributions take the value they describe as their median, and every factor the
+    project uses whose row carries pedigree scores, and that has no distribution of its own,
+    gets its pedigree-matrix default (a lognormal around the row's value).
+    """
     if boundary is not None and boundary not in BOUNDARIES:
         raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+    uncertainty = with_pedigree_defaults(project, factor_set, uncertainty, source, gwp, boundary)
     fields = {}
     for path, distribution in uncertainty.parameters.items():
         where = f"uncertainty.parameters.{path}"
@@ -174,15 +180,62 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
             if not others > 0:
                 raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
         fields[path] = (nominal, info)
+    parameters = {path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}") for path, distribution in uncertainty.parameters.items()}
+    factors = {}
+    for factor_id, distribution in uncertainty.factors.items():
+        if factor_id in factor_set.factors:
+            distribution = _median_of(distribution, factor_set.factors[factor_id].value, source, f"uncertainty.factors.{factor_id}")
+        factors[factor_id] = distribution
+    uncertainty = uncertainty.model_copy(update={"parameters": parameters, "factors": factors})
     for factor_id, distribution in uncertainty.factors.items():
         where = f"uncertainty.factors.{factor_id}"
         if factor_id not in factor_set.factors:
             raise InputError(source, where, f"a factor id known to set '{factor_set.name}', got '{factor_id}'")
         if not distribution.numeric_values():
             raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
+    if not uncertainty.parameters and not uncertainty.factors:
+        raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
     plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields)
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
+
+
+def _median_of(distribution, value, source: str, where: str):
+    """A pedigree distribution with the value it describes as its median (a lognormal needs a value > 0)."""
+    if not isinstance(distribution, Pedigree) or distribution.median is not None:
+        return distribution
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not value > 0:
+        raise InputError(source, where, f"a value > 0 for a pedigree (lognormal) distribution around it, got {value!r}")
+    return distribution.with_median(float(value))
+
+
+def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> dict:
+    """The factor rows a score of the project reads (id -> row), found by building its inventory once."""
+    params = copy.deepcopy(project.model_dump())
+    if boundary is not None:
+        params["project"]["boundary"] = boundary
+    inputs = NumericInputs(factor_set, source)
+    check_physical_limits(params, inputs, source)
+    build_inventory(params, inputs)
+    characterisation(inputs, gwp)
+    return {key: row for key, row in inputs.used.items() if key in factor_set.factors}
+
+
+def with_pedigree_defaults(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
+    """``uncertainty`` plus a pedigree distribution for every factor the project uses whose row
+    carries pedigree scores and which has no distribution of its own (added after the stated ones)."""
+    if not any(row.pedigree for row in factor_set.factors.values()):
+        return uncertainty
+    added = {}
+    for factor_id, row in sorted(factors_used(project, factor_set, source, gwp, boundary).items()):
+        if row.pedigree and factor_id not in uncertainty.factors:
+            where = f"{row.origin or factor_set.name}: {factor_id}"
+            if not row.value > 0:
+                raise InputError(where, "pedigree", f"a factor value > 0 for a pedigree (lognormal) distribution around it, got {row.value:g}")
+            added[factor_id] = Pedigree(distribution="pedigree", scores=row.pedigree, basic_gsd=row.basic_gsd or 1.0, median=row.value, stated_in=row.origin or factor_set.name)
+    if not added:
+        return uncertainty
+    return uncertainty.model_copy(update={"factors": {**uncertainty.factors, **added}})
 
 
 def draw(plan: Plan, count: int, seed: int = DEFAULT_SEED, sampling: str | None = None) -> Draws:
@@ -475,6 +528,8 @@ class CheckProbability(BaseModel):
 class InputDistribution(BaseModel):
     input: str
     distribution: dict[str, Any]
+    stated_in: str = ""  # where a default distribution came from (a factor row's file); empty: the run's distributions
+    from_memory: bool = False  # the distribution rests on values recorded from memory (the pedigree variance table)
 
 
 class LimitBreak(BaseModel):
@@ -514,6 +569,11 @@ class UncertaintyResult(BaseModel):
     def scheme_draws(self) -> dict:
         """Each scheme's value in every draw used, and its thresholds: scheme id -> (array, [(tier, limit)])."""
         return self._scheme_draws
+
+
+def input_distribution(name: str, distribution) -> InputDistribution:
+    spec = distribution.model_dump()
+    return InputDistribution(input=name, distribution=spec, stated_in=getattr(distribution, "stated_in", ""), from_memory=bool(spec.get("from_memory", False)))
 
 
 def summary(values: np.ndarray) -> Summary:
@@ -581,8 +641,8 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
             )
         )
     uncertainty = plan.uncertainty
-    inputs = [InputDistribution(input=f"parameter {p}", distribution=d.model_dump()) for p, d in uncertainty.parameters.items()]
-    inputs += [InputDistribution(input=f"factor {f}", distribution=d.model_dump()) for f, d in uncertainty.factors.items()]
+    inputs = [input_distribution(f"parameter {p}", d) for p, d in uncertainty.parameters.items()]
+    inputs += [input_distribution(f"factor {f}", d) for f, d in uncertainty.factors.items()]
     params = plan.project.model_dump()
     result = UncertaintyResult(
         carbonledger_version=__version__,
@@ -638,7 +698,7 @@ def monte_carlo(
 
 # --- the same Monte Carlo in bw2calc -------------------------------------------------------
 
-STATS_ARRAYS_TYPES = {"lognormal": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
+STATS_ARRAYS_TYPES = {"lognormal": 2, "pedigree": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
 
 
 def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
@@ -648,7 +708,7 @@ def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
     kind = distribution.distribution
     if kind == "normal":
         return (3, scale * distribution.mean, scale * distribution.sd, nan, nan, nan, False)
-    if kind == "lognormal":
+    if kind in ("lognormal", "pedigree"):
         return (2, np.log(scale * distribution.median), np.log(distribution.gsd), nan, nan, nan, False)
     if kind == "uniform":
         return (4, value, nan, nan, scale * distribution.low, scale * distribution.high, False)
@@ -680,7 +740,7 @@ def bw2calc_entries(plan: Plan):
     taken: set = set()
     for factor_id, distribution in plan.uncertainty.factors.items():
         if distribution.distribution not in STATS_ARRAYS_TYPES:
-            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, uniform or triangular for the bw2calc cross-check")
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, pedigree, uniform or triangular for the bw2calc cross-check")
         value = plan.factor_set.get(factor_id).value
         doubled = DrawInputs(plan.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
         stacked = build_stacked_matrices(build_inventory(params_with_draws(plan, {}), doubled), 2)
