@@ -205,12 +205,20 @@ def audit_workbook(
     overrides: list[str] | None = None,
     boundary: str | None = None,
     periods: str | Path | None = None,
+    draws: int | None = None,
+    seed: int = DEFAULT_SEED,
+    distributions: str | Path | None = None,
+    keep_draws: bool = False,
+    draws_csv: str = "",
 ):
     """The audit workbook of a project file, or of the inputs read back from an earlier workbook.
 
     Options left as None take the defaults (GWP100 AR6, the default factor set, every scheme that
     applies), or, with ``from_workbook``, the settings recorded on that workbook's cover.
-    Returns (openpyxl Workbook, engine ScoreResult).
+    draws : with a number, a Monte Carlo of the project (its ``[uncertainty]`` table, ``distributions``
+        laid over it, factor rows with pedigree scores) under the same settings, ``seed``, shown on an
+        Uncertainty sheet; ``keep_draws`` keeps every draw on it (for a draws CSV named ``draws_csv``).
+    Returns (openpyxl Workbook, engine ScoreResult, UncertaintyResult or None).
     """
     overrides = _boundary_overrides(boundary, overrides)
     evidence: dict[str, str] = {}
@@ -235,8 +243,14 @@ def audit_workbook(
             raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
         meters = read_meters(periods, project)
         months = month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
-    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence)
-    return workbook, engine
+    spread = None
+    if draws is not None:
+        found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
+        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha)
+    workbook = build_workbook(
+        engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence, uncertainty=spread, draws_csv=draws_csv
+    )
+    return workbook, engine, spread
 
 
 def recalc(
@@ -387,8 +401,8 @@ def uncertainty(
     progress : optional callable(number of draws done) for a progress bar.
     """
     found = load_uncertainty(project_file, distributions)
-    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress)
+    project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
+    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress, project_sha256=sha)
 
 
 def headroom(

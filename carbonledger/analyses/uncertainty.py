@@ -149,6 +149,7 @@ class Plan:
     boundary: str | None = None
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
     year: int | None = None  # calendar year whose dates the scheme rules are read on (default this year)
+    used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
 
 
 def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None) -> Plan:
@@ -160,7 +161,8 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
     """
     if boundary is not None and boundary not in BOUNDARIES:
         raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
-    uncertainty = with_pedigree_defaults(project, factor_set, uncertainty, source, gwp, boundary)
+    used = factors_used(project, factor_set, source, gwp, boundary)
+    uncertainty = with_pedigree_defaults(used, factor_set, uncertainty)
     fields = {}
     for path, distribution in uncertainty.parameters.items():
         where = f"uncertainty.parameters.{path}"
@@ -196,6 +198,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
     if not uncertainty.parameters and not uncertainty.factors:
         raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
     plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields)
+    plan.used_rows = [_plain_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
 
@@ -221,13 +224,15 @@ def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT
     return {key: row for key, row in inputs.used.items() if key in factor_set.factors}
 
 
-def with_pedigree_defaults(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
-    """``uncertainty`` plus a pedigree distribution for every factor the project uses whose row
-    carries pedigree scores and which has no distribution of its own (added after the stated ones)."""
-    if not any(row.pedigree for row in factor_set.factors.values()):
-        return uncertainty
+def _plain_row(row) -> dict:
+    return {key: getattr(row, key, None) for key in ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")}
+
+
+def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
+    """``uncertainty`` plus a pedigree distribution for every factor used (``factors_used``) whose
+    row carries pedigree scores and which has no distribution of its own (after the stated ones)."""
     added = {}
-    for factor_id, row in sorted(factors_used(project, factor_set, source, gwp, boundary).items()):
+    for factor_id, row in sorted(used.items()):
         if row.pedigree and factor_id not in uncertainty.factors:
             where = f"{row.origin or factor_set.name}: {factor_id}"
             if not row.value > 0:
@@ -561,7 +566,11 @@ class UncertaintyResult(BaseModel):
     by_stage: dict[str, Summary]
     by_gas: dict[str, Summary]
     checks: list[CheckProbability]
+    project_sha256: str = ""
     _scheme_draws: dict = PrivateAttr(default_factory=dict)  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
+    _draws: dict | None = PrivateAttr(default=None)  # every draw (inputs, total, scheme values), kept on request (keep_draws)
+    _parameters: dict = PrivateAttr(default_factory=dict)  # the project's validated parameters (for the ledger)
+    _factors_used: list = PrivateAttr(default_factory=list)  # factor rows the project reads (for the ledger)
 
     def to_json(self) -> str:
         return self.model_dump_json(indent=2)
@@ -569,6 +578,46 @@ class UncertaintyResult(BaseModel):
     def scheme_draws(self) -> dict:
         """Each scheme's value in every draw used, and its thresholds: scheme id -> (array, [(tier, limit)])."""
         return self._scheme_draws
+
+    def draw_columns(self) -> dict | None:
+        """Every draw, column by column (draw, used, each input, total, each scheme's value), when
+        the run kept them (``keep_draws``); None otherwise."""
+        return self._draws
+
+    def summary_for_ledger(self) -> dict:
+        """The compact figures the run ledger keeps of a Monte Carlo run."""
+        return {
+            "analysis": "uncertainty",
+            "draws": self.draws,
+            "seed": self.seed,
+            "sampling": self.sampling,
+            "draws_used": self.draws_used,
+            "unit": self.unit,
+            "total": self.total.mean,
+            "total_spread": self.total.model_dump(),
+            "inputs": [item.input for item in self.inputs],
+            "checks": [
+                {"scheme": c.scheme, "unit": c.unit, "limit": c.limit, "value": c.value.mean, "p5": c.value.p5, "p95": c.value.p95, "probability_qualifies": c.probability_qualifies, "standard_error": c.standard_error}
+                for c in self.checks
+            ],
+        }
+
+    def ledger_entry(self, kind: str = "uncertainty") -> dict:
+        """What the run ledger stores of this run (plain values; the ledger imports no result type)."""
+        return {
+            "project_path": self.project_file,
+            "project_name": self.project,
+            "project_sha256": self.project_sha256,
+            "factor_set": self.factor_set["name"],
+            "factor_set_sha256": self.factor_set["sha256"],
+            "schemes": [check.scheme for check in self.checks],
+            "boundary": self.boundary,
+            "gwp": self.gwp_basis,
+            "results": self.summary_for_ledger(),
+            "parameters": self._parameters,
+            "factors_used": self._factors_used,
+            "kind": kind,
+        }
 
 
 def input_distribution(name: str, distribution) -> InputDistribution:
@@ -614,7 +663,23 @@ def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
     return tiers
 
 
-def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str) -> UncertaintyResult:
+def draw_columns(plan: Plan, draws: Draws, outcome: Outcome, used: np.ndarray) -> dict:
+    """Every draw as columns: number, used (within every physical limit), each input's value
+    (a chosen factor id for a choice of factors), the total and each scheme's value."""
+    columns: dict = {"draw": np.arange(1, len(used) + 1), "used": used}
+    for path, values in draws.parameters.items():
+        columns[f"parameter {path}"] = values
+    for path, (_, chosen) in draws.factor_choices.items():
+        columns[f"parameter {path}"] = chosen
+    for factor_id, values in draws.factors.items():
+        columns[f"factor {factor_id}"] = values
+    columns[f"total ({outcome.unit})"] = outcome.total
+    for scheme in outcome.schemes:
+        columns[f"{scheme.id} ({scheme.unit})"] = outcome.scheme_values[scheme.id]
+    return columns
+
+
+def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str, keep_draws: bool = False) -> UncertaintyResult:
     count = len(draws.uniform)
     broken, reasons = limit_breaks(plan, draws, count)
     used = ~broken
@@ -669,6 +734,10 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
         checks=checks,
     )
     result._scheme_draws = {scheme.id: (np.asarray(outcome.scheme_values[scheme.id][used], dtype=float), [(t.tier, t.limit) for t in scheme.thresholds]) for scheme in outcome.schemes}
+    result._parameters = params
+    result._factors_used = plan.used_rows
+    if keep_draws:
+        result._draws = draw_columns(plan, draws, outcome, used)
     return result
 
 
@@ -685,15 +754,22 @@ def monte_carlo(
     schemes: list[str] | None = None,
     boundary: str | None = None,
     progress: Callable[[int], None] | None = None,
+    keep_draws: bool = False,
+    project_sha256: str = "",
 ) -> UncertaintyResult:
-    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain."""
+    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain.
+
+    keep_draws : keep every draw on the result (``draw_columns()``, for a draws CSV).
+    """
     if draws < 2:
         raise InputError("--draws", str(draws), "at least 2 draws")
     plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)
     outcome = evaluate_in_blocks(plan, drawn, progress)
-    return summarise(plan, drawn, outcome, seed, chosen_sampling)
+    result = summarise(plan, drawn, outcome, seed, chosen_sampling, keep_draws)
+    result.project_sha256 = project_sha256
+    return result
 
 
 # --- the same Monte Carlo in bw2calc -------------------------------------------------------
