@@ -18,6 +18,7 @@ from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.headroom import Headroom
 from .analyses.headroom import headroom as headroom_of
+from .analyses.headroom import headroom_summary
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity
 from .analyses.periods import month_results, read_meters
@@ -26,10 +27,11 @@ from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
-from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
+from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
+from .io.ledger import LedgerRecord, factor_row
 from .io.matching_chart import write_matching_chart
 from .io.report import ProjectReport, render_report
 from .io.workbook.reader import (
@@ -442,6 +444,44 @@ def sensitivity(
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp)
+
+
+def analysis_record(
+    kind: str,
+    project_file: str | Path,
+    summary: dict,
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> LedgerRecord:
+    """The run-ledger record of an analysis of one project (``kind`` 'sensitivity', 'headroom'):
+    the project as read (its sha256 and parameters), the factor set and the rows the project
+    reads, and the analysis's own ``summary`` (``Sensitivity.summary_for_ledger()``, ``headroom_summary``)."""
+    project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
+    factor_set = _factor_set(factors)
+    used = factors_used(project, factor_set, str(project_file), gwp)
+    return LedgerRecord(
+        project_path=str(Path(project_file).resolve()),
+        project_name=project.project.name,
+        project_sha256=sha,
+        factor_set=factor_set.name,
+        factor_set_sha256=factor_set.sha256,
+        schemes=list(schemes or []),
+        boundary=project.project.boundary,
+        gwp=gwp,
+        results=summary,
+        parameters=project.model_dump(),
+        factors_used=[factor_row(row) for _, row in sorted(used.items())],
+        kind=kind,
+    )
+
+
+def headroom_record(results: list[Headroom], project_file: str | Path, **options) -> LedgerRecord:
+    """The run-ledger record of a headroom search (``options`` as given to ``headroom``)."""
+    return analysis_record("headroom", project_file, headroom_summary(results), schemes=[results[0].scheme], **options)
 
 
 def uncertainty_one(task: tuple) -> UncertaintyResult:

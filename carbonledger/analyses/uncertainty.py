@@ -213,7 +213,8 @@ def _median_of(distribution, value, source: str, where: str):
 
 
 def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> dict:
-    """The factor rows a score of the project reads (id -> row), found by building its inventory once."""
+    """The factor rows and reference values a score of the project reads (id -> row), found by
+    building its inventory once (the rows of the schemes' own GWP sets are not among them)."""
     params = copy.deepcopy(project.model_dump())
     if boundary is not None:
         params["project"]["boundary"] = boundary
@@ -221,7 +222,7 @@ def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT
     check_physical_limits(params, inputs, source)
     build_inventory(params, inputs)
     characterisation(inputs, gwp)
-    return {key: row for key, row in inputs.used.items() if key in factor_set.factors}
+    return dict(inputs.used)
 
 
 def _plain_row(row) -> dict:
@@ -233,7 +234,7 @@ def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncer
     row carries pedigree scores and which has no distribution of its own (after the stated ones)."""
     added = {}
     for factor_id, row in sorted(used.items()):
-        if row.pedigree and factor_id not in uncertainty.factors:
+        if getattr(row, "pedigree", None) and factor_id not in uncertainty.factors:
             where = f"{row.origin or factor_set.name}: {factor_id}"
             if not row.value > 0:
                 raise InputError(where, "pedigree", f"a factor value > 0 for a pedigree (lognormal) distribution around it, got {row.value:g}")
@@ -586,8 +587,11 @@ class UncertaintyResult(BaseModel):
 
     def summary_for_ledger(self) -> dict:
         """The compact figures the run ledger keeps of a Monte Carlo run."""
+        probabilities = "; ".join(f"{c.scheme} qualifies {c.probability_qualifies:.1%} (± {c.standard_error:.1%})" for c in self.checks)
         return {
             "analysis": "uncertainty",
+            "headline": f"Monte Carlo, {self.draws:,} draws, seed {self.seed}: total mean {self.total.mean:.6g} (p5 {self.total.p5:.6g}, p95 {self.total.p95:.6g}) {self.unit}"
+            + (f"; {probabilities}" if probabilities else ""),
             "draws": self.draws,
             "seed": self.seed,
             "sampling": self.sampling,
