@@ -27,7 +27,7 @@ from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
-from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo
+from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_with_bw2calc
 from .errors import InputError
@@ -182,19 +182,36 @@ def compare(
     factors: str | Path | FactorSet = DEFAULT_SET,
     schemes: list[str] | None = None,
     basis: str = "auto",
+    draws: int | None = None,
+    seed: int = DEFAULT_SEED,
+    distributions: str | Path | None = None,
 ) -> ComparisonResult:
     """Score several project files (or audit workbooks) with the same options and put them on one basis.
 
     basis : 'auto', 't-nh3', 'kg-h2' or 'mj' (LHV of the delivered product).
+    draws : with a number, a Monte Carlo of each project (its ``[uncertainty]`` table and factor rows
+        with pedigree scores; the same ``seed`` for all) gives its 5th-95th percentile band; a project
+        without any distribution shows none, and says so. ``distributions`` (a distributions file)
+        is laid over every project's own table (a pedigree distribution of a parameter takes each
+        project's own value as its median).
     """
     if not project_files:
         raise InputError("compare", "PROJECTS", "at least one project file")
     factor_set = _factor_set(factors)
-    results = []
+    results, spreads = [], []
     for path in project_files:
         project, sha, project_set = load_any_project(path, factor_set, _boundary_overrides(boundary, None))
         results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
-    return compare_results(results, basis=basis, schemes=schemes)
+        if draws is not None:
+            if str(path).lower().endswith(".xlsx"):
+                found = read_distributions_file(distributions) if distributions is not None else Uncertainty()
+            else:
+                found = load_uncertainty(path, distributions)
+            if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
+                spreads.append("no distributions (no [uncertainty] table and no factor rows with pedigree scores)")
+                continue
+            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha))
+    return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
 
 
 def audit_workbook(

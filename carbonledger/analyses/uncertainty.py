@@ -225,6 +225,11 @@ def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT
     return dict(inputs.used)
 
 
+def uncertain_inputs(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
+    """The distributions a run of the project would draw: ``uncertainty`` and the pedigree defaults of the factor rows it reads."""
+    return with_pedigree_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
+
+
 def _plain_row(row) -> dict:
     return {key: getattr(row, key, None) for key in ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")}
 
