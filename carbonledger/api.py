@@ -16,9 +16,8 @@ from .analyses.cluster import dask_mapper
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
-from .analyses.headroom import Headroom
+from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
-from .analyses.headroom import headroom_summary
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity
 from .analyses.periods import month_results, read_meters

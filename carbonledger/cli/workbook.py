@@ -8,9 +8,9 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
+from ..analyses.uncertainty import DEFAULT_SEED
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
-from ..analyses.uncertainty import DEFAULT_SEED
 from ..io.workbook.uncertainty_sheet import draws_csv_path, write_draws_csv
 from ..io.workbook.writer import write_workbook_file
 from .options import (

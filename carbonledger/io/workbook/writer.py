@@ -78,7 +78,6 @@ from .layout import (
     set_widths,
 )
 from .periods_sheet import plan_periods, write_periods_sheet
-from .uncertainty_sheet import UNCERTAINTY, write_uncertainty_sheet
 from .style import (
     LEGEND,
     SHARE,
@@ -91,6 +90,7 @@ from .style import (
     style_cell,
     wrap_columns,
 )
+from .uncertainty_sheet import UNCERTAINTY, write_uncertainty_sheet
 
 
 def _name_cell(workbook, prefix: str, key: str, sheet: str, row: int) -> Term:
