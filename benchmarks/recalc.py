@@ -1,4 +1,4 @@
-"""Benchmark: recalculate a portfolio of 1,000 varied projects under a new factor set.
+"""Benchmark: recalculate a portfolio of 1,000 (or N, e.g. 10,000) varied projects under a new factor set.
 
 Generates the projects (invented, varied routes and parameters) in a temporary folder, then
 times ``carbonledger.analyses.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading
@@ -13,6 +13,7 @@ LCA per project and set) on a sample. Prints figures only; nothing is asserted.
 from __future__ import annotations
 
 import random
+import resource
 import sys
 import tempfile
 import time
@@ -98,6 +99,7 @@ def main(count: int = 1000) -> None:
         print(f"recalc (score under old set, diff, rescore {result.rescored} projects that use a changed factor): {done - parsed:.3f} s")
         print(f"total: {total:.2f} s for {count} projects = {total / count * 1000:.2f} ms per project (target: under 10 s)")
         print(f"newly failing project-scheme pairs: {len(result.newly_failing)}")
+        print(f"peak memory of this process so far: {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024:.0f} MB")
         from carbonledger.io.ledger import record_run
 
         ledger_start = time.perf_counter()

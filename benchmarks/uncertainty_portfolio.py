@@ -2,9 +2,11 @@
 
 Generates N invented projects (the generator of benchmarks/recalc.py) with one distributions file
 for all of them (the grid factor and the upstream CO2 of natural gas; invented ranges), then runs
-``api.uncertainty_many`` with D draws each, serially and on a local cluster of W worker
-processes, and prints the time, the peak memory (this process; the workers, once they have
-ended) and whether the two runs agree. Prints figures only; nothing is asserted.
+the Monte Carlo of every project with D draws each, serially (``api.uncertainty_many``) and on a
+local Dask cluster of W worker processes (the same per-project function, ``api.uncertainty_one``,
+mapped by ``analyses.cluster.dask_mapper``), and prints the time (cluster start-up apart), the
+peak memory of this process and of each worker (asked of the workers before the cluster closes)
+and whether the two runs agree. Prints figures only; nothing is asserted.
 
     python benchmarks/uncertainty_portfolio.py [N=1000] [DRAWS=1000] [WORKERS=2]
 """
@@ -25,6 +27,8 @@ sys.path.insert(0, str(ROOT / "benchmarks"))
 from recalc import project  # noqa: E402
 
 from carbonledger import api  # noqa: E402
+from carbonledger.analyses.cluster import dask_mapper  # noqa: E402
+from carbonledger.analyses.portfolio import project_files  # noqa: E402
 
 DISTRIBUTIONS = """# INVENTED ranges for the benchmark
 [factors."electricity.grid.eu27_2018"]
@@ -40,7 +44,7 @@ high = 8
 """
 
 
-def peak_mb(who) -> float:
+def peak_mb(who=resource.RUSAGE_SELF) -> float:
     return resource.getrusage(who).ru_maxrss / 1024  # kilobytes on Linux
 
 
@@ -56,13 +60,21 @@ def main(count: int, draws: int, workers: int) -> None:
         serial = api.uncertainty_many([folder], distributions=spec, draws=draws)
         serial_seconds = time.perf_counter() - start
         print(f"{count} projects x {draws} draws, one process: {serial_seconds:.1f} s ({serial_seconds / count * 1000:.1f} ms per project); peak memory {peak_mb(resource.RUSAGE_SELF):.0f} MB")
+        options = {"distributions": spec, "draws": draws, "seed": api.DEFAULT_SEED, "sampling": None, "factors": "default-2026", "gwp": "ar6", "schemes": None, "boundary": None}
+        tasks = [(str(path), options) for path in project_files([folder])]
         start = time.perf_counter()
-        spread = api.uncertainty_many([folder], distributions=spec, draws=draws, workers=workers)
-        spread_seconds = time.perf_counter() - start
-        same = [r.model_dump() for r in spread] == [r.model_dump() for r in serial]
+        with dask_mapper(workers, None) as (mapper, _):
+            from distributed import default_client
+
+            started = time.perf_counter()
+            spread = list(mapper(api.uncertainty_one, tasks))
+            done = time.perf_counter()
+            worker_peaks = sorted(default_client().run(peak_mb).values())
+        same = [r.model_dump_json() for r in spread] == [r.model_dump_json() for r in serial]
         print(
-            f"same on a local Dask cluster of {workers} worker processes (start-up included): {spread_seconds:.1f} s; "
-            f"peak memory of a worker {peak_mb(resource.RUSAGE_CHILDREN):.0f} MB; results identical to the serial run: {same}"
+            f"same on a local Dask cluster of {workers} worker processes: {done - started:.1f} s ({(done - started) / count * 1000:.1f} ms per project; "
+            f"cluster start-up {started - start:.1f} s more); peak memory per worker {', '.join(f'{mb:.0f}' for mb in worker_peaks)} MB; "
+            f"this process {peak_mb():.0f} MB; results identical to the serial run: {same}"
         )
 
 

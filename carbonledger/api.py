@@ -16,7 +16,7 @@ from .analyses.cluster import dask_mapper
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
 from .analyses.electricity_series import ElectricitySeries, read_series
-from .analyses.headroom import Headroom
+from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, matching_views, scheme_granularity
@@ -26,10 +26,11 @@ from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
-from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, monte_carlo
+from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_stacked, solve_with_bw2calc
 from .errors import InputError
+from .io.ledger import LedgerRecord, factor_row
 from .io.matching_chart import write_matching_chart
 from .io.report import ProjectReport, render_report
 from .io.workbook.reader import (
@@ -180,19 +181,36 @@ def compare(
     factors: str | Path | FactorSet = DEFAULT_SET,
     schemes: list[str] | None = None,
     basis: str = "auto",
+    draws: int | None = None,
+    seed: int = DEFAULT_SEED,
+    distributions: str | Path | None = None,
 ) -> ComparisonResult:
     """Score several project files (or audit workbooks) with the same options and put them on one basis.
 
     basis : 'auto', 't-nh3', 'kg-h2' or 'mj' (LHV of the delivered product).
+    draws : with a number, a Monte Carlo of each project (its ``[uncertainty]`` table and factor rows
+        with pedigree scores; the same ``seed`` for all) gives its 5th-95th percentile band; a project
+        without any distribution shows none, and says so. ``distributions`` (a distributions file)
+        is laid over every project's own table (a pedigree distribution of a parameter takes each
+        project's own value as its median).
     """
     if not project_files:
         raise InputError("compare", "PROJECTS", "at least one project file")
     factor_set = _factor_set(factors)
-    results = []
+    results, spreads = [], []
     for path in project_files:
         project, sha, project_set = load_any_project(path, factor_set, _boundary_overrides(boundary, None))
         results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
-    return compare_results(results, basis=basis, schemes=schemes)
+        if draws is not None:
+            if str(path).lower().endswith(".xlsx"):
+                found = read_distributions_file(distributions) if distributions is not None else Uncertainty()
+            else:
+                found = load_uncertainty(path, distributions)
+            if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
+                spreads.append("no distributions (no [uncertainty] table and no factor rows with pedigree scores)")
+                continue
+            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha))
+    return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
 
 
 def audit_workbook(
@@ -205,12 +223,20 @@ def audit_workbook(
     overrides: list[str] | None = None,
     boundary: str | None = None,
     periods: str | Path | None = None,
+    draws: int | None = None,
+    seed: int = DEFAULT_SEED,
+    distributions: str | Path | None = None,
+    keep_draws: bool = False,
+    draws_csv: str = "",
 ):
     """The audit workbook of a project file, or of the inputs read back from an earlier workbook.
 
     Options left as None take the defaults (GWP100 AR6, the default factor set, every scheme that
     applies), or, with ``from_workbook``, the settings recorded on that workbook's cover.
-    Returns (openpyxl Workbook, engine ScoreResult).
+    draws : with a number, a Monte Carlo of the project (its ``[uncertainty]`` table, ``distributions``
+        laid over it, factor rows with pedigree scores) under the same settings, ``seed``, shown on an
+        Uncertainty sheet; ``keep_draws`` keeps every draw on it (for a draws CSV named ``draws_csv``).
+    Returns (openpyxl Workbook, engine ScoreResult, UncertaintyResult or None).
     """
     overrides = _boundary_overrides(boundary, overrides)
     evidence: dict[str, str] = {}
@@ -235,8 +261,14 @@ def audit_workbook(
             raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
         meters = read_meters(periods, project)
         months = month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
-    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence)
-    return workbook, engine
+    spread = None
+    if draws is not None:
+        found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
+        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha)
+    workbook = build_workbook(
+        engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence, uncertainty=spread, draws_csv=draws_csv
+    )
+    return workbook, engine, spread
 
 
 def recalc(
@@ -362,9 +394,7 @@ def load_uncertainty(project_file: str | Path, distributions: str | Path | None 
         raise InputError(project_file, "uncertainty", "a table of distributions")
     if distributions is not None:
         found = found.merged(read_distributions_file(distributions))
-    if not found.parameters and not found.factors:
-        raise InputError(project_file, "uncertainty", "at least one distribution (an [uncertainty] table in the project, or --distributions FILE)")
-    return found
+    return found  # none at all is refused by the analysis (factor rows with pedigree scores may add some)
 
 
 def uncertainty(
@@ -389,8 +419,8 @@ def uncertainty(
     progress : optional callable(number of draws done) for a progress bar.
     """
     found = load_uncertainty(project_file, distributions)
-    project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress)
+    project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
+    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress, project_sha256=sha)
 
 
 def headroom(
@@ -430,6 +460,44 @@ def sensitivity(
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp)
+
+
+def analysis_record(
+    kind: str,
+    project_file: str | Path,
+    summary: dict,
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+) -> LedgerRecord:
+    """The run-ledger record of an analysis of one project (``kind`` 'sensitivity', 'headroom'):
+    the project as read (its sha256 and parameters), the factor set and the rows the project
+    reads, and the analysis's own ``summary`` (``Sensitivity.summary_for_ledger()``, ``headroom_summary``)."""
+    project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
+    factor_set = _factor_set(factors)
+    used = factors_used(project, factor_set, str(project_file), gwp)
+    return LedgerRecord(
+        project_path=str(Path(project_file).resolve()),
+        project_name=project.project.name,
+        project_sha256=sha,
+        factor_set=factor_set.name,
+        factor_set_sha256=factor_set.sha256,
+        schemes=list(schemes or []),
+        boundary=project.project.boundary,
+        gwp=gwp,
+        results=summary,
+        parameters=project.model_dump(),
+        factors_used=[factor_row(row) for _, row in sorted(used.items())],
+        kind=kind,
+    )
+
+
+def headroom_record(results: list[Headroom], project_file: str | Path, **options) -> LedgerRecord:
+    """The run-ledger record of a headroom search (``options`` as given to ``headroom``)."""
+    return analysis_record("headroom", project_file, headroom_summary(results), schemes=[results[0].scheme], **options)
 
 
 def uncertainty_one(task: tuple) -> UncertaintyResult:

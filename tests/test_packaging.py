@@ -26,7 +26,7 @@ def test_pyproject_lists_every_package_and_maps_the_factor_library():
     assert on_disk <= listed
     assert PYPROJECT["tool"]["setuptools"]["package-dir"]["carbonledger.factor_library"] == "factors"
     data = PYPROJECT["tool"]["setuptools"]["package-data"]["carbonledger.factor_library"]
-    assert "schemes/*.toml" in data and "sets/*/*.csv" in data and "sets/*/*.toml" in data
+    assert "schemes/*.toml" in data and "sets/*/*.csv" in data and "sets/*/*.toml" in data and "uncertainty/*.toml" in data
 
 
 def test_the_version_is_stated_once():

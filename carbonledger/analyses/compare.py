@@ -35,6 +35,23 @@ class ThresholdLine(BaseModel):
     label: str
 
 
+class UncertaintyBand(BaseModel):
+    """A project's Monte Carlo on the comparison's basis: the spread of its value and the
+    probability of qualifying under each scheme checked (``compare --draws``)."""
+
+    draws: int
+    seed: int
+    draws_used: int  # draws within every physical limit
+    mean: float
+    std: float
+    p5: float
+    p50: float
+    p95: float
+    inputs: list[str]  # the uncertain inputs drawn
+    probability_qualifies: dict[str, float]  # scheme id -> probability
+    standard_error: dict[str, float]  # scheme id -> Monte Carlo standard error of that probability
+
+
 class ComparedProject(BaseModel):
     project: str
     project_file: str
@@ -50,6 +67,8 @@ class ComparedProject(BaseModel):
     intensity: dict[str, float | None]
     checks: list[Check]
     factors_from_memory: list[str] = []  # ids of the factors used that were not checked against their document
+    uncertainty: UncertaintyBand | None = None  # with --draws: the Monte Carlo band (None: no distributions, see uncertainty_note)
+    uncertainty_note: str = ""
 
 
 class ComparisonResult(BaseModel):
@@ -111,7 +130,26 @@ def threshold_lines(results: list[ScoreResult], quantity: str) -> list[Threshold
     return sorted(lines.values(), key=lambda line: (line.limit, line.label))
 
 
-def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[str] | None = None) -> ComparisonResult:
+def band_of(spread, quantity: str, schemes: list[str] | None) -> UncertaintyBand:
+    """The band of a Monte Carlo result (``analyses.uncertainty.UncertaintyResult``) on the basis ``quantity``."""
+    summary = spread.intensity.get(quantity)
+    checks = [c for c in spread.checks if not schemes or c.scheme in schemes]
+    return UncertaintyBand(
+        draws=spread.draws,
+        seed=spread.seed,
+        draws_used=spread.draws_used,
+        mean=summary.mean,
+        std=summary.std,
+        p5=summary.p5,
+        p50=summary.p50,
+        p95=summary.p95,
+        inputs=[item.input for item in spread.inputs],
+        probability_qualifies={c.scheme: c.probability_qualifies for c in checks},
+        standard_error={c.scheme: c.standard_error for c in checks},
+    )
+
+
+def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[str] | None = None, spreads: list | None = None) -> ComparisonResult:
     """Put scored projects (same boundary, GWP set and factor set) on one basis.
 
     Parameters
@@ -120,6 +158,8 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
     basis : 'auto', 't-nh3', 'kg-h2' or 'mj' (LHV of the delivered product).
     schemes : keep only these scheme ids' checks (each must exist; a scheme that does not fit a
         project's product reads 'n/a' for that project).
+    spreads : with a Monte Carlo of each project (``UncertaintyResult``, or a text saying why there
+        is none), each project gets its band on the common basis.
     """
     if not results:
         raise InputError("compare", "PROJECTS", "at least one project file")
@@ -134,7 +174,8 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
     chosen = common_basis([r.reference_product for r in results], basis)
     quantity, unit = BASES[chosen]
     compared = []
-    for r in results:
+    for number, r in enumerate(results):
+        spread = spreads[number] if spreads is not None else None
         scale = _scale(r, quantity)
         if scale is None:
             raise InputError(r.project_file, "--basis", f"a basis its functional unit ({r.functional_unit}) can be put on; {chosen} does not apply to {r.reference_product} (use mj or kg-h2)")
@@ -154,6 +195,8 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
                 intensity=r.intensity.model_dump(),
                 checks=r.checks,
                 factors_from_memory=sorted(f.id for f in r.factors_used if f.from_memory),
+                uncertainty=None if spread is None or isinstance(spread, str) else band_of(spread, quantity, schemes),
+                uncertainty_note=spread if isinstance(spread, str) else "",
             )
         )
     met = {stage for r in results for stage in r.by_stage}

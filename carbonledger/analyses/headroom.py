@@ -53,6 +53,21 @@ class Headroom(BaseModel):
     caution: str = CAUTION
 
 
+def headroom_summary(results: list[Headroom]) -> dict:
+    """The compact figures the run ledger keeps of a headroom search (one or several parameters)."""
+    first = results[0]
+    found = "; ".join(f"{r.parameter} = {r.value:.6g} {r.unit}" if r.value is not None else f"{r.parameter}: none ({r.reason})" for r in results)
+    return {
+        "analysis": "headroom",
+        "headline": f"headroom under {first.scheme} ({first.tier}, limit {first.limit:g} {first.scheme_unit}): {found}",
+        "scheme": first.scheme,
+        "tier": first.tier,
+        "limit": first.limit,
+        "unit": first.scheme_unit,
+        "parameters": [{"parameter": r.parameter, "unit": r.unit, "project_value": r.project_value, "value": r.value, "qualifies_when": r.qualifies_when, "reason": r.reason} for r in results],
+    }
+
+
 class _Probe:
     """The scheme value at many values of one parameter (one stacked solve per call)."""
 

@@ -66,6 +66,25 @@ class Sensitivity(BaseModel):
     tornado: list[TornadoBar]  # largest swing first
     caution: str = CAUTION
 
+    def summary_for_ledger(self) -> dict:
+        """The compact figures the run ledger keeps of a sensitivity run."""
+        top = max(self.sobol, key=lambda index: index.total_order) if self.sobol else None
+        headline = f"Sobol indices of {self.figure} ({self.unit}) over {len(self.sobol)} inputs, N = {self.base_sample}, seed {self.seed}"
+        if top is not None:
+            headline += f": largest total-order index {top.total_order:.3f} ({top.input})"
+        return {
+            "analysis": "sensitivity",
+            "headline": headline,
+            "figure": self.figure,
+            "unit": self.unit,
+            "limit": self.limit,
+            "base": self.base,
+            "base_sample": self.base_sample,
+            "seed": self.seed,
+            "sobol": [index.model_dump() for index in self.sobol],
+            "tornado": [{"input": bar.input, "swing": bar.swing} for bar in self.tornado],
+        }
+
 
 def _figure(outcome, scheme: str | None) -> np.ndarray:
     return np.asarray(outcome.total if scheme is None else outcome.scheme_values[scheme], dtype=float)
@@ -109,7 +128,7 @@ def sensitivity(
     from SALib.sample import sobol as sobol_sample
 
     plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary)
-    names = uncertainty.names()
+    names = plan.uncertainty.names()
     if not names:
         raise InputError(source, "uncertainty", "at least one distribution")
     if base_sample < 2 or base_sample & (base_sample - 1):

@@ -48,7 +48,7 @@ from ..core.scoring import (
 )
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
-from ..model.distributions import Uncertainty
+from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet
 from ..model.project import BOUNDARIES, field_limits, parameter_field
 from ..model.rulebooks import select_schemes
@@ -149,12 +149,20 @@ class Plan:
     boundary: str | None = None
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
     year: int | None = None  # calendar year whose dates the scheme rules are read on (default this year)
+    used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
 
 
 def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None) -> Plan:
-    """Check every distribution against the project and the factor set (one InputError line)."""
+    """Check every distribution against the project and the factor set (one InputError line).
+
+    Pedigree distributions take the value they describe as their median, and every factor the
+    project uses whose row carries pedigree scores, and that has no distribution of its own,
+    gets its pedigree-matrix default (a lognormal around the row's value).
+    """
     if boundary is not None and boundary not in BOUNDARIES:
         raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
+    used = factors_used(project, factor_set, source, gwp, boundary)
+    uncertainty = with_pedigree_defaults(used, factor_set, uncertainty)
     fields = {}
     for path, distribution in uncertainty.parameters.items():
         where = f"uncertainty.parameters.{path}"
@@ -174,15 +182,71 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
             if not others > 0:
                 raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
         fields[path] = (nominal, info)
+    parameters = {path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}") for path, distribution in uncertainty.parameters.items()}
+    factors = {}
+    for factor_id, distribution in uncertainty.factors.items():
+        if factor_id in factor_set.factors:
+            distribution = _median_of(distribution, factor_set.factors[factor_id].value, source, f"uncertainty.factors.{factor_id}")
+        factors[factor_id] = distribution
+    uncertainty = uncertainty.model_copy(update={"parameters": parameters, "factors": factors})
     for factor_id, distribution in uncertainty.factors.items():
         where = f"uncertainty.factors.{factor_id}"
         if factor_id not in factor_set.factors:
             raise InputError(source, where, f"a factor id known to set '{factor_set.name}', got '{factor_id}'")
         if not distribution.numeric_values():
             raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
+    if not uncertainty.parameters and not uncertainty.factors:
+        raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
     plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields)
+    plan.used_rows = [_plain_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
+
+
+def _median_of(distribution, value, source: str, where: str):
+    """A pedigree distribution with the value it describes as its median (a lognormal needs a value > 0)."""
+    if not isinstance(distribution, Pedigree) or distribution.median is not None:
+        return distribution
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not value > 0:
+        raise InputError(source, where, f"a value > 0 for a pedigree (lognormal) distribution around it, got {value!r}")
+    return distribution.with_median(float(value))
+
+
+def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> dict:
+    """The factor rows and reference values a score of the project reads (id -> row), found by
+    building its inventory once (the rows of the schemes' own GWP sets are not among them)."""
+    params = copy.deepcopy(project.model_dump())
+    if boundary is not None:
+        params["project"]["boundary"] = boundary
+    inputs = NumericInputs(factor_set, source)
+    check_physical_limits(params, inputs, source)
+    build_inventory(params, inputs)
+    characterisation(inputs, gwp)
+    return dict(inputs.used)
+
+
+def uncertain_inputs(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
+    """The distributions a run of the project would draw: ``uncertainty`` and the pedigree defaults of the factor rows it reads."""
+    return with_pedigree_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
+
+
+def _plain_row(row) -> dict:
+    return {key: getattr(row, key, None) for key in ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")}
+
+
+def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
+    """``uncertainty`` plus a pedigree distribution for every factor used (``factors_used``) whose
+    row carries pedigree scores and which has no distribution of its own (after the stated ones)."""
+    added = {}
+    for factor_id, row in sorted(used.items()):
+        if getattr(row, "pedigree", None) and factor_id not in uncertainty.factors:
+            where = f"{row.origin or factor_set.name}: {factor_id}"
+            if not row.value > 0:
+                raise InputError(where, "pedigree", f"a factor value > 0 for a pedigree (lognormal) distribution around it, got {row.value:g}")
+            added[factor_id] = Pedigree(distribution="pedigree", scores=row.pedigree, basic_gsd=row.basic_gsd or 1.0, median=row.value, stated_in=row.origin or factor_set.name)
+    if not added:
+        return uncertainty
+    return uncertainty.model_copy(update={"factors": {**uncertainty.factors, **added}})
 
 
 def draw(plan: Plan, count: int, seed: int = DEFAULT_SEED, sampling: str | None = None) -> Draws:
@@ -475,6 +539,8 @@ class CheckProbability(BaseModel):
 class InputDistribution(BaseModel):
     input: str
     distribution: dict[str, Any]
+    stated_in: str = ""  # where a default distribution came from (a factor row's file); empty: the run's distributions
+    from_memory: bool = False  # the distribution rests on values recorded from memory (the pedigree variance table)
 
 
 class LimitBreak(BaseModel):
@@ -506,7 +572,11 @@ class UncertaintyResult(BaseModel):
     by_stage: dict[str, Summary]
     by_gas: dict[str, Summary]
     checks: list[CheckProbability]
+    project_sha256: str = ""
     _scheme_draws: dict = PrivateAttr(default_factory=dict)  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
+    _draws: dict | None = PrivateAttr(default=None)  # every draw (inputs, total, scheme values), kept on request (keep_draws)
+    _parameters: dict = PrivateAttr(default_factory=dict)  # the project's validated parameters (for the ledger)
+    _factors_used: list = PrivateAttr(default_factory=list)  # factor rows the project reads (for the ledger)
 
     def to_json(self) -> str:
         return self.model_dump_json(indent=2)
@@ -514,6 +584,54 @@ class UncertaintyResult(BaseModel):
     def scheme_draws(self) -> dict:
         """Each scheme's value in every draw used, and its thresholds: scheme id -> (array, [(tier, limit)])."""
         return self._scheme_draws
+
+    def draw_columns(self) -> dict | None:
+        """Every draw, column by column (draw, used, each input, total, each scheme's value), when
+        the run kept them (``keep_draws``); None otherwise."""
+        return self._draws
+
+    def summary_for_ledger(self) -> dict:
+        """The compact figures the run ledger keeps of a Monte Carlo run."""
+        probabilities = "; ".join(f"{c.scheme} qualifies {c.probability_qualifies:.1%} (± {c.standard_error:.1%})" for c in self.checks)
+        return {
+            "analysis": "uncertainty",
+            "headline": f"Monte Carlo, {self.draws:,} draws, seed {self.seed}: total mean {self.total.mean:.6g} (p5 {self.total.p5:.6g}, p95 {self.total.p95:.6g}) {self.unit}"
+            + (f"; {probabilities}" if probabilities else ""),
+            "draws": self.draws,
+            "seed": self.seed,
+            "sampling": self.sampling,
+            "draws_used": self.draws_used,
+            "unit": self.unit,
+            "total": self.total.mean,
+            "total_spread": self.total.model_dump(),
+            "inputs": [item.input for item in self.inputs],
+            "checks": [
+                {"scheme": c.scheme, "unit": c.unit, "limit": c.limit, "value": c.value.mean, "p5": c.value.p5, "p95": c.value.p95, "probability_qualifies": c.probability_qualifies, "standard_error": c.standard_error}
+                for c in self.checks
+            ],
+        }
+
+    def ledger_entry(self, kind: str = "uncertainty") -> dict:
+        """What the run ledger stores of this run (plain values; the ledger imports no result type)."""
+        return {
+            "project_path": self.project_file,
+            "project_name": self.project,
+            "project_sha256": self.project_sha256,
+            "factor_set": self.factor_set["name"],
+            "factor_set_sha256": self.factor_set["sha256"],
+            "schemes": [check.scheme for check in self.checks],
+            "boundary": self.boundary,
+            "gwp": self.gwp_basis,
+            "results": self.summary_for_ledger(),
+            "parameters": self._parameters,
+            "factors_used": self._factors_used,
+            "kind": kind,
+        }
+
+
+def input_distribution(name: str, distribution) -> InputDistribution:
+    spec = distribution.model_dump()
+    return InputDistribution(input=name, distribution=spec, stated_in=getattr(distribution, "stated_in", ""), from_memory=bool(spec.get("from_memory", False)))
 
 
 def summary(values: np.ndarray) -> Summary:
@@ -554,7 +672,23 @@ def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
     return tiers
 
 
-def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str) -> UncertaintyResult:
+def draw_columns(plan: Plan, draws: Draws, outcome: Outcome, used: np.ndarray) -> dict:
+    """Every draw as columns: number, used (within every physical limit), each input's value
+    (a chosen factor id for a choice of factors), the total and each scheme's value."""
+    columns: dict = {"draw": np.arange(1, len(used) + 1), "used": used}
+    for path, values in draws.parameters.items():
+        columns[f"parameter {path}"] = values
+    for path, (_, chosen) in draws.factor_choices.items():
+        columns[f"parameter {path}"] = chosen
+    for factor_id, values in draws.factors.items():
+        columns[f"factor {factor_id}"] = values
+    columns[f"total ({outcome.unit})"] = outcome.total
+    for scheme in outcome.schemes:
+        columns[f"{scheme.id} ({scheme.unit})"] = outcome.scheme_values[scheme.id]
+    return columns
+
+
+def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str, keep_draws: bool = False) -> UncertaintyResult:
     count = len(draws.uniform)
     broken, reasons = limit_breaks(plan, draws, count)
     used = ~broken
@@ -581,8 +715,8 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
             )
         )
     uncertainty = plan.uncertainty
-    inputs = [InputDistribution(input=f"parameter {p}", distribution=d.model_dump()) for p, d in uncertainty.parameters.items()]
-    inputs += [InputDistribution(input=f"factor {f}", distribution=d.model_dump()) for f, d in uncertainty.factors.items()]
+    inputs = [input_distribution(f"parameter {p}", d) for p, d in uncertainty.parameters.items()]
+    inputs += [input_distribution(f"factor {f}", d) for f, d in uncertainty.factors.items()]
     params = plan.project.model_dump()
     result = UncertaintyResult(
         carbonledger_version=__version__,
@@ -609,6 +743,10 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
         checks=checks,
     )
     result._scheme_draws = {scheme.id: (np.asarray(outcome.scheme_values[scheme.id][used], dtype=float), [(t.tier, t.limit) for t in scheme.thresholds]) for scheme in outcome.schemes}
+    result._parameters = params
+    result._factors_used = plan.used_rows
+    if keep_draws:
+        result._draws = draw_columns(plan, draws, outcome, used)
     return result
 
 
@@ -625,20 +763,27 @@ def monte_carlo(
     schemes: list[str] | None = None,
     boundary: str | None = None,
     progress: Callable[[int], None] | None = None,
+    keep_draws: bool = False,
+    project_sha256: str = "",
 ) -> UncertaintyResult:
-    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain."""
+    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain.
+
+    keep_draws : keep every draw on the result (``draw_columns()``, for a draws CSV).
+    """
     if draws < 2:
         raise InputError("--draws", str(draws), "at least 2 draws")
     plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)
     outcome = evaluate_in_blocks(plan, drawn, progress)
-    return summarise(plan, drawn, outcome, seed, chosen_sampling)
+    result = summarise(plan, drawn, outcome, seed, chosen_sampling, keep_draws)
+    result.project_sha256 = project_sha256
+    return result
 
 
 # --- the same Monte Carlo in bw2calc -------------------------------------------------------
 
-STATS_ARRAYS_TYPES = {"lognormal": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
+STATS_ARRAYS_TYPES = {"lognormal": 2, "pedigree": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
 
 
 def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
@@ -648,7 +793,7 @@ def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
     kind = distribution.distribution
     if kind == "normal":
         return (3, scale * distribution.mean, scale * distribution.sd, nan, nan, nan, False)
-    if kind == "lognormal":
+    if kind in ("lognormal", "pedigree"):
         return (2, np.log(scale * distribution.median), np.log(distribution.gsd), nan, nan, nan, False)
     if kind == "uniform":
         return (4, value, nan, nan, scale * distribution.low, scale * distribution.high, False)
@@ -680,7 +825,7 @@ def bw2calc_entries(plan: Plan):
     taken: set = set()
     for factor_id, distribution in plan.uncertainty.factors.items():
         if distribution.distribution not in STATS_ARRAYS_TYPES:
-            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, uniform or triangular for the bw2calc cross-check")
+            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, pedigree, uniform or triangular for the bw2calc cross-check")
         value = plan.factor_set.get(factor_id).value
         doubled = DrawInputs(plan.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
         stacked = build_stacked_matrices(build_inventory(params_with_draws(plan, {}), doubled), 2)

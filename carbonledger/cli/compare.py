@@ -8,6 +8,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
+from ..analyses.uncertainty import DEFAULT_SEED
 from ..errors import InputError
 from ..io.compare_output import (
     comparison_csv,
@@ -42,6 +43,9 @@ def compare(
     chart: Annotated[Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")] = None,
     force: ForceOption = False,
     from_workbook: Annotated[Optional[list[Path]], typer.Option("--from-workbook", help="An audit workbook to compare, its inputs and edited factors read back (repeatable).")] = None,
+    draws: Annotated[Optional[int], typer.Option("--draws", help="Monte Carlo of each project with N draws (its [uncertainty] table): 5th-95th percentile band, probability of qualifying; error bars on --chart.")] = None,
+    seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")] = DEFAULT_SEED,
+    distributions: Annotated[Optional[Path], typer.Option("--distributions", help="With --draws: distributions TOML laid over every project's [uncertainty] table.")] = None,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
 ) -> None:
@@ -49,7 +53,9 @@ def compare(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
-        result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis)
+        if draws is None and distributions is not None:
+            raise InputError("compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)")
+        result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis, draws=draws, seed=seed, distributions=distributions)
         text = render(output_format, table=lambda: render_comparison(result), json=result.to_json, csv=lambda: comparison_csv(result))
         if chart is not None:
             write_chart(result, chart, force=force)

@@ -85,6 +85,11 @@ def factors_show(
         ("note", factor.note or "-"),
         ("recorded from memory", "yes (not checked against the document)" if factor.from_memory else "no (checked against the document)"),
         ("file", factor.origin),
+        *(
+            [("pedigree scores", f"({','.join(str(v) for v in factor.pedigree)}) reliability, completeness, temporal, geographical, further technological; basic GSD {factor.basic_gsd or 1:g}")]
+            if factor.pedigree
+            else []
+        ),
         ("caution", CAUTION),
     )
     typer.echo(

@@ -13,6 +13,7 @@ import typer
 from .. import api
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
+from ..io.ledger import ledger_for_run, record_run
 from ..io.sensitivity_output import sensitivity_csv, sensitivity_table, write_sensitivity_chart
 from ..io.uncertainty_output import (
     headroom_csv,
@@ -31,6 +32,8 @@ from .options import (
     ForceOption,
     FormatOption,
     GwpOption,
+    LedgerOption,
+    NoLedgerOption,
     OutputFormat,
     SchedulerOption,
     SchemeOption,
@@ -82,9 +85,12 @@ def uncertainty(
     chart: Annotated[Optional[Path], typer.Option("--chart", help="One project: write a histogram of each scheme's value with its thresholds, FILE.png or FILE.svg.")] = None,
     force: ForceOption = False,
     output_format: FormatOption = OutputFormat.table,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
     try:
+        where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
         options = {
             "distributions": distributions,
@@ -103,6 +109,7 @@ def uncertainty(
             text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
             if chart is not None:
                 write_uncertainty_chart(result, chart, force=force)
+            results = [result]
         else:
             if chart is not None:
                 raise InputError(chart, "--chart", "one project (a chart is drawn for one project's draws)")
@@ -110,6 +117,8 @@ def uncertainty(
                 raise InputError("--set", set_[0], "no --set with several projects (set values in each project file)")
             results = api.uncertainty_many(project, workers=workers, scheduler=scheduler, **options)
             text = render(output_format, table=lambda: portfolio_uncertainty_table(results), json=lambda: portfolio_uncertainty_json(results), csv=lambda: portfolio_uncertainty_csv(results))
+        if where is not None:
+            record_run("uncertainty", results, ledger=where, kind="uncertainty")
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
@@ -127,11 +136,16 @@ def headroom(
     set_: SetOption = None,
     boundary: BoundaryOption = None,
     output_format: FormatOption = OutputFormat.table,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
 ) -> None:
     """The value of each parameter at which a scheme's limit is met exactly (null with a reason when none)."""
     try:
+        where = ledger_for_run(ledger, not no_ledger)
         results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
         text = render(output_format, table=lambda: headroom_table(results), json=lambda: headroom_json(results), csv=lambda: headroom_csv(results))
+        if where is not None:
+            record_run("headroom", [api.headroom_record(results, project, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)], ledger=where)
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
@@ -150,14 +164,20 @@ def sensitivity(
     set_: SetOption = None,
     boundary: BoundaryOption = None,
     output_format: FormatOption = OutputFormat.table,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
 ) -> None:
     """Which inputs decide the result: Sobol indices (SALib) and a 10th/90th percentile tornado."""
     try:
+        where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
         result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
         text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
         if chart is not None:
             write_sensitivity_chart(result, chart, force=force)
+        if where is not None:
+            record = api.analysis_record("sensitivity", project, result.summary_for_ledger(), factors=factors, gwp=gwp, schemes=[scheme] if scheme else None, overrides=set_, boundary=boundary)
+            record_run("sensitivity", [record], ledger=where)
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)

@@ -8,8 +8,10 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
+from ..analyses.uncertainty import DEFAULT_SEED
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
+from ..io.workbook.uncertainty_sheet import draws_csv_path, write_draws_csv
 from ..io.workbook.writer import write_workbook_file
 from .options import (
     BoundaryOption,
@@ -36,6 +38,10 @@ def workbook(
     boundary: BoundaryOption = None,
     periods: Annotated[Optional[Path], typer.Option("--periods", help="CSV of metered monthly data: one calculation block per month and a yearly summary.")] = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Read inputs and edited factors from an earlier audit workbook.")] = None,
+    draws: Annotated[Optional[int], typer.Option("--draws", help="Add an Uncertainty sheet: a Monte Carlo of N draws over the project's [uncertainty] table (and --distributions).")] = None,
+    seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")] = DEFAULT_SEED,
+    distributions: Annotated[Optional[Path], typer.Option("--distributions", help="Distributions TOML laid over the project's [uncertainty] table (with --draws).")] = None,
+    draws_csv: Annotated[bool, typer.Option("--draws-csv", help="With --draws: also write every draw to OUTPUT.draws.csv beside the workbook.")] = False,
     force: ForceOption = False,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -43,6 +49,11 @@ def workbook(
     """Write an audit workbook: inputs, cited factors, every exchange as a live formula, results, checks, chart."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
+        if draws is None and (draws_csv or distributions is not None):
+            raise InputError("workbook", "--draws", "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)")
+        csv_path = draws_csv_path(output) if draws_csv else None
+        if csv_path is not None and csv_path.exists() and not force:
+            raise InputError(csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)")
         if (project is None) == (from_workbook is None):
             raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
         if output.suffix.lower() != ".xlsx":
@@ -51,7 +62,7 @@ def workbook(
             raise InputError(output, "--output", "a file path, not a folder")
         if output.exists() and not force:
             raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
-        book, result = api.audit_workbook(
+        book, result, spread = api.audit_workbook(
             project,
             from_workbook=from_workbook,
             factors=explicit(ctx, "factors", factors),
@@ -60,10 +71,23 @@ def workbook(
             overrides=set_,
             boundary=boundary,
             periods=periods,
+            draws=draws,
+            seed=seed,
+            distributions=distributions,
+            keep_draws=csv_path is not None,
+            draws_csv=csv_path.name if csv_path is not None else "",
         )
         write_workbook_file(output, book, force=force)
+        if csv_path is not None:
+            write_draws_csv(csv_path, spread, force=force)
         if where is not None:
             record_run("workbook", [result], ledger=where)
+            if spread is not None:
+                record_run("workbook", [spread], ledger=where, kind="uncertainty")
     except InputError as error:
         fail(error)
     typer.echo(f"wrote {output}: {result.total:,.4g} {result.unit} ({result.gwp_basis.upper()}, factor set {result.factor_set.name}); {result.caution}")
+    if spread is not None:
+        typer.echo(f"Uncertainty sheet: {spread.draws:,} draws, seed {spread.seed}: mean {spread.total.mean:,.4g}, p5 {spread.total.p5:,.4g}, p95 {spread.total.p95:,.4g} {spread.unit}")
+    if csv_path is not None:
+        typer.echo(f"wrote {csv_path}")

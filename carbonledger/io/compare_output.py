@@ -25,6 +25,12 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
         ("total", "unit", "", [p.unit for p in projects]),
         ("basis", result.basis, result.unit, [p.value for p in projects]),
     ]
+    if any(p.uncertainty is not None or p.uncertainty_note for p in projects):
+        bands = [p.uncertainty for p in projects]
+        for key in ("p5", "p50", "mean", "p95"):
+            rows.append(("uncertainty", key, result.unit, [getattr(b, key) if b else None for b in bands]))
+        rows.append(("uncertainty", "draws", "", [b.draws if b else (p.uncertainty_note or None) for b, p in zip(bands, projects, strict=True)]))
+        rows.append(("uncertainty", "seed", "", [b.seed if b else None for b in bands]))
     for key, unit in INTENSITY_UNITS.items():
         rows.append(("intensity", key, unit, [p.intensity.get(key) for p in projects]))
     for stage in result.stages:
@@ -44,6 +50,14 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
             (f"check:{scheme}", "verdict", "", [("pass" if c.passes else "FAIL") if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
             (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
+        ]
+        if any(p.uncertainty is not None for p in projects):
+            bands = [p.uncertainty for p in projects]
+            rows += [
+                (f"check:{scheme}", "probability_qualifies", "", [b.probability_qualifies.get(scheme) if b else None for b in bands]),
+                (f"check:{scheme}", "probability_standard_error", "", [b.standard_error.get(scheme) if b else None for b in bands]),
+            ]
+        rows += [
             (f"check:{scheme}", "from_memory", "", [c.from_memory if c else "n/a" for c in checks]),
         ]
     rows.append(("from_memory", "factors", "", ["; ".join(p.factors_from_memory) or "none" for p in projects]))
@@ -77,12 +91,21 @@ def render_comparison(result: ComparisonResult) -> str:
         name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
         if section == "intensity":
             name = "per " + key.split("_per_")[1].replace("_", " ")
+        if section == "uncertainty":
+            name = {"p5": "5th percentile", "p50": "median of draws", "mean": "mean of draws", "p95": "95th percentile"}.get(key, key)
         cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
+        if key.startswith("probability_"):
+            name = f"{section.split(':', 1)[1]} {'qualifies (probability)' if key == 'probability_qualifies' else '± standard error'}"
+            cells = ["" if v is None else f"{v:.2%}" for v in values]
+        if section == "uncertainty" and key in ("draws", "seed"):
+            cells = [v if isinstance(v, str) else "-" if v is None else f"{v:,}" if key == "draws" else str(v) for v in values]
         if section == "from_memory":  # the ids are listed below the table
             name, unit, cells = "factors from memory", "count", [str(len(p.factors_from_memory)) for p in result.projects]
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
+    if any(p.uncertainty is not None for p in result.projects):
+        console.print("Uncertainty rows: percentiles of a Monte Carlo of each project's own distributions (same seed); probabilities hold only for those distributions.")
     flagged = result.from_memory
     if flagged["rulebooks"]:
         console.print(f"Rulebooks or thresholds recorded from memory, not yet checked against the legal text: {', '.join(flagged['rulebooks'])}")
@@ -119,8 +142,22 @@ def comparison_figure(result: ComparisonResult):
             patch.set_gid(f"bar-{index}-{stage}")
         above = [a + max(v, 0.0) for v, a in zip(values, above, strict=True)]
         below = [b + min(v, 0.0) for v, b in zip(values, below, strict=True)]
+    tops = list(above)
+    bands = [(position, project.uncertainty) for position, project in zip(positions, result.projects, strict=True) if project.uncertainty is not None]
+    if bands:
+        draws = sorted({band.draws for _, band in bands})
+        container = axes.errorbar(
+            [position for position, _ in bands],
+            [band.p50 for _, band in bands],
+            yerr=[[band.p50 - band.p5 for _, band in bands], [band.p95 - band.p50 for _, band in bands]],
+            fmt="o", color="black", markersize=3.5, capsize=5, linewidth=1.2, zorder=5,
+            label=f"5th to 95th percentile, dot the median ({', '.join(f'{d:,}' for d in draws)} draws)",
+        )
+        container.lines[2][0].set_gid("uncertainty-bands")
+        for position, band in bands:
+            tops[position] = max(tops[position], band.p95)
     for position, project in zip(positions, result.projects, strict=True):
-        axes.annotate(display_number(project.value), (position, max(above[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
+        axes.annotate(display_number(project.value), (position, max(tops[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
     for limit, text in ((line.limit, _chart_text(line.label)) for line in result.thresholds):
         axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
         axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
@@ -129,7 +166,8 @@ def comparison_figure(result: ComparisonResult):
     axes.set_title(f"Carbon intensity by stage, {result.boundary} (GWP100 {result.gwp_basis.upper()})", fontsize=10)
     axes.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
     limits = [line.limit for line in result.thresholds]
-    axes.set_ylim(min(below + [0.0]) * 1.1, max(above + limits + [0.0]) * 1.1 or 1.0)
+    lows = [band.p5 for _, band in bands]
+    axes.set_ylim(min(below + lows + [0.0]) * 1.1, max(tops + limits + [0.0]) * 1.1 or 1.0)
     figure.supxlabel(
         "Dashed lines: scheme limits, each applying on its scheme's own boundary and basis. Screening estimate, not a certification:\n"
         "the scheme's official methodology, an accredited verifier and local regulation take precedence.",

@@ -241,6 +241,10 @@ def history_table(project_file: str, history: list[dict]) -> str:
             f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}"
         )
         results = entry["results"]
+        if "headline" in results:  # an analysis run (uncertainty, sensitivity, headroom): its own one-line summary
+            lines.append(f"    {results['headline']}")
+            lines.append("")
+            continue
         lines.append(f"    total {display_number(results['total'])} {results['unit']}")
         for check in results["checks"]:
             old = previous_checks.get(check["scheme"])

@@ -72,6 +72,14 @@ def console_for_text(width: int = 120):
     return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
 
 
+def display_spec(value) -> str:
+    if isinstance(value, float):
+        return f"{value:.6g}"
+    if isinstance(value, (list, tuple)):
+        return "(" + ",".join(str(v) for v in value) + ")"
+    return str(value)
+
+
 def uncertainty_table(result: UncertaintyResult) -> str:
     from rich.table import Table
 
@@ -91,8 +99,12 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     for item in result.inputs:
         spec = dict(item.distribution)
         kind = spec.pop("distribution")
-        inputs.add_row(item.input, f"{kind} " + ", ".join(f"{k} {v}" for k, v in spec.items() if v is not None))
+        spec.pop("from_memory", None)
+        where = f" (scores in {item.stated_in})" if item.stated_in else ""
+        inputs.add_row(item.input, f"{kind} " + ", ".join(f"{k} {display_spec(v)}" for k, v in spec.items() if v is not None) + where + (" *" if item.from_memory else ""))
     console.print(inputs)
+    if any(item.from_memory for item in result.inputs):
+        console.print("* pedigree variances recorded from memory of Weidema et al. (2013), ecoinvent Report 1 (v3); not yet checked against the report")
     for pair in result.correlations:
         console.print(f"rank correlation {pair['rank']:g}: {' and '.join(pair['inputs'])}")
     figures = Table(title="Result over the draws", title_justify="left")

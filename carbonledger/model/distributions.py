@@ -23,6 +23,11 @@ distribution = "normal"
 mean = 300
 sd = 30
 
+[uncertainty.factors."natural_gas.upstream_co2"]   # no stated range: pedigree-matrix default
+distribution = "pedigree"           # lognormal, median = the factor's value (or `median`)
+scores = [2, 3, 1, 2, 4]            # reliability, completeness, temporal, geographical, further technological
+basic_gsd = 1.05                    # optional basic uncertainty (default 1: none)
+
 [uncertainty.parameters."electricity.sources.grid.factor"]   # a choice between factor ids
 distribution = "discrete"
 values = ["electricity.grid.eu27_2018", "electricity.grid.de_2022"]
@@ -42,6 +47,8 @@ References
    sciences: keys and clues. BioScience 51(5), 341-352 (median and geometric standard deviation).
 .. [2] Iman, R. L. and Conover, W. J. (1982). A distribution-free approach to inducing rank
    correlation among input variables. Communications in Statistics B 11(3), 311-334.
+.. [3] Weidema, B. P. et al. (2013). Overview and methodology. Data quality guideline for the
+   ecoinvent database version 3. Ecoinvent Report 1 (v3) (pedigree matrix; see model/pedigree.py).
 """
 
 from __future__ import annotations
@@ -51,11 +58,14 @@ from pathlib import Path
 from typing import Annotated, Literal, Union
 
 import numpy as np
-from pydantic import BaseModel, ConfigDict, Field, ValidationError, model_validator
+from pydantic import BaseModel, ConfigDict, Field, ValidationError, computed_field, field_validator, model_validator
 
 from ..errors import InputError
+from .factors import factors_root
+from .pedigree import parse_scores, pedigree_gsd, pedigree_table
 
 SAMPLINGS = ("random", "latin_hypercube")
+KINDS = ("normal", "lognormal", "triangular", "uniform", "discrete", "pedigree")
 
 
 class _Distribution(BaseModel):
@@ -91,6 +101,49 @@ class Lognormal(_Distribution):
     def quantile(self, u: np.ndarray) -> np.ndarray:
         from scipy.special import ndtri
 
+        return self.median * np.exp(np.log(self.gsd) * ndtri(u))
+
+    def central(self) -> float:
+        return self.median
+
+
+class Pedigree(_Distribution):
+    """Lognormal from pedigree-matrix scores (ecoinvent v3): median the value itself (or ``median``),
+    geometric standard deviation from the five scores and the basic uncertainty (model/pedigree.py)."""
+
+    distribution: Literal["pedigree"]
+    scores: tuple[int, int, int, int, int]
+    basic_gsd: float = Field(default=1.0, ge=1, description="basic uncertainty, a geometric standard deviation")
+    median: float | None = Field(default=None, gt=0, description="default: the parameter's or factor's own value")
+    stated_in: str = Field(default="", exclude=True)  # where the scores were written (a factor row's file)
+
+    @field_validator("scores", mode="before")
+    @classmethod
+    def _scores(cls, value):
+        try:
+            return parse_scores(value, "", "scores")
+        except InputError as error:
+            raise ValueError(error.expected) from None
+
+    @computed_field
+    @property
+    def gsd(self) -> float:
+        return pedigree_gsd(self.scores, pedigree_table(factors_root()), self.basic_gsd)
+
+    @computed_field
+    @property
+    def from_memory(self) -> bool:
+        """True while the variance table is recorded from memory (outputs show the flag)."""
+        return pedigree_table(factors_root()).from_memory
+
+    def with_median(self, value: float) -> Pedigree:
+        return self if self.median is not None else self.model_copy(update={"median": value})
+
+    def quantile(self, u: np.ndarray) -> np.ndarray:
+        from scipy.special import ndtri
+
+        if self.median is None:
+            raise ValueError("a pedigree distribution needs its median (the value it describes) before drawing")
         return self.median * np.exp(np.log(self.gsd) * ndtri(u))
 
     def central(self) -> float:
@@ -181,7 +234,7 @@ class Discrete(_Distribution):
         return self.values[int(np.argmax(self.probabilities()))]
 
 
-Distribution = Annotated[Union[Normal, Lognormal, Triangular, Uniform, Discrete], Field(discriminator="distribution")]
+Distribution = Annotated[Union[Normal, Lognormal, Pedigree, Triangular, Uniform, Discrete], Field(discriminator="distribution")]
 
 
 class Correlation(BaseModel):
@@ -219,7 +272,7 @@ def parse_uncertainty(data: dict, source: str, prefix: str = "uncertainty") -> U
         return Uncertainty.model_validate(data)
     except ValidationError as error:
         first = error.errors()[0]
-        loc = [str(part) for part in first["loc"] if part not in ("normal", "lognormal", "triangular", "uniform", "discrete")]
+        loc = [str(part) for part in first["loc"] if part not in KINDS]
         field = ".".join([part for part in [prefix, *loc] if part])
         kind = first["type"]
         context = first.get("ctx") or {}
@@ -229,10 +282,10 @@ def parse_uncertainty(data: dict, source: str, prefix: str = "uncertainty") -> U
         elif kind == "value_error":
             expected = str(context.get("error", first["msg"]))
         elif kind == "extra_forbidden":
-            expected = "no such key (distribution, mean, sd, median, gsd, low, mode, high, values, weights)"
+            expected = "no such key (distribution, mean, sd, median, gsd, low, mode, high, values, weights, scores, basic_gsd)"
         elif kind == "union_tag_invalid":
             expected = (
-                f"distribution one of normal, lognormal, triangular, uniform, discrete, got {first.get('input', {}).get('distribution')!r}" if isinstance(first.get("input"), dict) else first["msg"]
+                f"distribution one of {', '.join(KINDS)}, got {first.get('input', {}).get('distribution')!r}" if isinstance(first.get("input"), dict) else first["msg"]
             )
         elif kind == "missing":
             expected = "a value is required"
@@ -255,4 +308,4 @@ def read_distributions_file(path: str | Path) -> Uncertainty:
     return parse_uncertainty(data["uncertainty"] if nested else data, str(path), prefix="uncertainty" if nested else "")
 
 
-__all__ = ["Uncertainty", "Distribution", "Correlation", "parse_uncertainty", "read_distributions_file", "SAMPLINGS"]
+__all__ = ["Uncertainty", "Distribution", "Pedigree", "KINDS", "Correlation", "parse_uncertainty", "read_distributions_file", "SAMPLINGS"]

@@ -27,8 +27,10 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..errors import InputError, did_you_mean, match_id
+from .pedigree import parse_scores
 
 FACTOR_COLUMNS = ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")
+UNCERTAINTY_COLUMNS = ("pedigree", "basic_gsd")  # optional: pedigree-matrix default uncertainty (model/pedigree.py)
 REQUIRED_COLUMNS = ("id", "value", "unit", "source")
 DEFAULT_SET = "default-2026"
 _TRUE = {"true", "yes", "1", "y"}
@@ -47,6 +49,8 @@ class Factor:
     note: str = ""
     from_memory: bool = False
     origin: str = ""  # the file the row was read from
+    pedigree: tuple[int, ...] | None = None  # five data-quality scores 1..5, for a default lognormal (model/pedigree.py)
+    basic_gsd: float | None = None  # basic uncertainty (geometric standard deviation) with the pedigree scores
 
     def citation(self) -> str:
         parts = [self.source]
@@ -192,9 +196,9 @@ def read_factor_rows(path: Path) -> list[Factor]:
     missing = [column for column in REQUIRED_COLUMNS if column not in header]
     if missing:
         raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
-    unknown = [column for column in header if column not in FACTOR_COLUMNS]
+    unknown = [column for column in header if column not in FACTOR_COLUMNS + UNCERTAINTY_COLUMNS]
     if unknown:
-        raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS)}; unknown {', '.join(unknown)}")
+        raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS + UNCERTAINTY_COLUMNS)}; unknown {', '.join(unknown)}")
     rows: list[Factor] = []
     seen: set[str] = set()
     for number, row in enumerate(records, start=2):
@@ -233,9 +237,30 @@ def read_factor_rows(path: Path) -> list[Factor]:
                 note=(row.get("note") or "").strip(),
                 from_memory=_parse_bool(row.get("from_memory") or "", where),
                 origin=str(path),
+                **_uncertainty_columns(row, factor_id, where),
             )
         )
     return rows
+
+
+def _uncertainty_columns(row: dict, factor_id: str, where: str) -> dict:
+    """The optional pedigree scores and basic uncertainty of a row (model/pedigree.py)."""
+    scores_text = (row.get("pedigree") or "").strip()
+    gsd_text = (row.get("basic_gsd") or "").strip()
+    if not scores_text:
+        if gsd_text:
+            raise InputError(where, "basic_gsd", f"pedigree scores beside a basic uncertainty for '{factor_id}' (or an empty basic_gsd)")
+        return {}
+    scores = parse_scores(scores_text, where)
+    basic_gsd = None
+    if gsd_text:
+        try:
+            basic_gsd = float(gsd_text)
+        except ValueError:
+            basic_gsd = float("nan")
+        if not (math.isfinite(basic_gsd) and basic_gsd >= 1):
+            raise InputError(where, "basic_gsd", f"a geometric standard deviation >= 1 for '{factor_id}', got '{gsd_text}'")
+    return {"pedigree": scores, "basic_gsd": basic_gsd}
 
 
 def read_set_rows(folder: Path) -> list[Factor]:
@@ -346,8 +371,9 @@ class FactorChange:
 
 
 def factor_row(factor: Factor) -> dict:
-    """The fields of a factor row that identify it (not the file it was read from)."""
-    return {key: getattr(factor, key) for key in HASHED_FIELDS}
+    """A row's content (not the file it came from); the uncertainty columns only when given, so a
+    set without them keeps the hash it had before they existed."""
+    return {key: value for key in HASHED_FIELDS if not ((value := getattr(factor, key)) is None and key in UNCERTAINTY_COLUMNS)}
 
 
 def diff_sets(old: FactorSet, new: FactorSet) -> list[FactorChange]:

@@ -14,6 +14,7 @@ Factors      every factor used: id, value, unit, source, table or article, year,
 Calculation  activities with their supply per functional unit (formulas), then one row per exchange
 Results      by stage, by gas, intensities, scheme checks and their thresholds, a bar chart
 Periods      (with metered data) one block per month and a summary for the year
+Uncertainty  (with a Monte Carlo result) the distributions and the summary of the draws (uncertainty_sheet.py)
 
 Supply of activity j per functional unit: s_j = f_j + sum over consumers k of a_jk * s_k, where
 a_jk is the amount of j one unit of k consumes. The chain is acyclic, so each s_j is a finite
@@ -89,6 +90,7 @@ from .style import (
     style_cell,
     wrap_columns,
 )
+from .uncertainty_sheet import UNCERTAINTY, write_uncertainty_sheet
 
 
 def _name_cell(workbook, prefix: str, key: str, sheet: str, row: int) -> Term:
@@ -118,6 +120,8 @@ def build_workbook(
     month_results=None,
     meters_source: str = "",
     evidence: dict[str, str] | None = None,
+    uncertainty=None,
+    draws_csv: str = "",
 ):
     """The audit workbook of a scored project, as an openpyxl Workbook (not yet saved).
 
@@ -126,7 +130,9 @@ def build_workbook(
     written beside them for comparison. With ``meters`` (``analyses.periods.read_meters``) the
     Periods sheet is added, with ``month_results`` (``analyses.periods.month_results``) beside it.
     ``evidence`` (parameter path -> text, as read back from an earlier workbook) fills the
-    Inputs sheet's evidence column, so a workbook written again keeps it.
+    Inputs sheet's evidence column, so a workbook written again keeps it. With ``uncertainty``
+    (an ``analyses.uncertainty.UncertaintyResult`` of the same project) the Uncertainty sheet is
+    added; ``draws_csv`` names the CSV of its draws written beside the workbook, if any.
     """
     from openpyxl import Workbook
 
@@ -181,6 +187,8 @@ def build_workbook(
     page_setup(results_ws, title_columns="A:A", pages_wide=2)
     if period_plan is not None:
         page_setup(workbook[PERIODS], title_columns="A:A", pages_wide=2)
+    if uncertainty is not None:
+        write_uncertainty_sheet(workbook.create_sheet(UNCERTAINTY), uncertainty, draws_csv)
     return workbook
 
 
