@@ -332,3 +332,19 @@ def test_a_series_across_2030_uses_both_eu_rules_through_score(tmp_path):
     # December: min(400, 600) = 400 matched; January hours: nothing; 400 of 800 kWh
     assert eu.matched_share == pytest.approx(0.5)
     assert [m.month for m in eu.monthly] == ["2029-12", "2030-01"]
+
+
+def test_a_matched_check_is_judged_at_its_matched_value():
+    # The verdict follows the value the matching gives, not the declared-share value: a matched
+    # value under the limit with no open rule qualifies; the threshold sentence quotes the matched
+    # value; a check that does not qualify has no pass and no tier (as every other check).
+    result = api.score(DEMO / "hybrid_hourly_hydrogen.toml")
+    declared = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml", matching="declared").checks}
+    moved = 0
+    for check in result.checks:
+        assert check.passes == (check.status == "qualifies"), check.scheme
+        assert check.tier is None or check.status == "qualifies", check.scheme
+        assert any(f"value {check.value:.4g} " in reason for reason in check.reasons), (check.scheme, check.reasons)
+        if (check.value <= check.limit) != (declared[check.scheme].value <= check.limit):
+            moved += 1
+    assert moved >= 1  # the demo has a scheme whose side of the limit the matching changes (the test can fail)

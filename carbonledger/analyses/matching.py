@@ -34,7 +34,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import Prepared, intensities, read_rules, zero_rated
+from ..core.scoring import Prepared, intensities, judged, read_rules, scheme_reading, zero_rated
 from ..errors import InputError
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
 from .electricity_series import ElectricitySeries
@@ -251,8 +251,11 @@ def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: Electr
     return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
 
 
-def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, granularity: str | None = None) -> Check:
-    """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if)."""
+def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, findings: list, granularity: str | None = None) -> Check:
+    """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if).
+
+    The verdict is judged again at the matched value under the scheme's findings (``scheme_reading``);
+    a co-product rule the project cannot follow keeps the check undetermined."""
     load = series.load(model.kwh_per_kg_h2)
     local = series.local
     rule = describe(scheme.id) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme.id)})"
@@ -302,7 +305,11 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         periods=result.periods,
         monthly=monthly,
     )
-    return check.model_copy(update={"value": value, **scheme.evaluate(value), "electricity_matching": matching})
+    verdict = judged(scheme, value, findings)
+    note = (check.co_products or {}).get("note", "")
+    if note.startswith("cannot be judged"):
+        verdict.update(status="undetermined", passes=False, tier=None, reasons=[note, *verdict["reasons"]])
+    return check.model_copy(update={"value": value, **verdict, "electricity_matching": matching})
 
 
 def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None) -> ScoreResult:
@@ -320,7 +327,8 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     for check in result.checks:
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
-        checks.append(matched_check(check, scheme, series, model, granularity))
+        _, findings, _ = scheme_reading(prepared, scheme)
+        checks.append(matched_check(check, scheme, series, model, findings, granularity))
     return result.model_copy(update={"checks": checks})
 
 

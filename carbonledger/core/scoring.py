@@ -248,6 +248,17 @@ def threshold_sentence(scheme: Scheme, value: float) -> str:
     return f"{words} ({loosest.tier}) [{loosest.source}{' (from memory)' if loosest.from_memory else ''}]"
 
 
+def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
+    """The verdict of a scheme value under the scheme's findings: status, reasons, passes, tier,
+    limit and margin (a value under the limit qualifies only when no rule is broken or open)."""
+    verdict = scheme.evaluate(value)
+    status = status_of(findings, verdict["passes"])
+    verdict["passes"] = status == "qualifies"
+    if status != "qualifies":
+        verdict["tier"] = None
+    return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_sentence(scheme, value))}
+
+
 def scheme_characterisation(prepared: Prepared, scheme: Scheme):
     """The GWP vector of a scheme; stored biogenic CO2 counts -1 only where its rulebook nets it."""
     vector = prepared.per_gwp[scheme.gwp]
@@ -333,11 +344,6 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         basis_demand, basis_product = basis_of(scheme, inventory)
         scheme_total = float(solutions[basis_demand].contributions(scheme_characterisation(prepared, scheme), mask).sum())
         value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
-        verdict = scheme.evaluate(value)
-        status = status_of(findings, verdict["passes"])
-        verdict["passes"] = status == "qualifies"
-        if status != "qualifies":
-            verdict["tier"] = None
         checks.append(
             Check(
                 scheme=scheme.id,
@@ -351,12 +357,10 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
                 value=value,
                 from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
                 note=scheme.note,
-                status=status,
-                reasons=ordered_reasons(status, findings, threshold_sentence(scheme, value)),
                 assessment_period=prepared.period.label(),
                 rule_versions=versions,
                 electricity_counted_zero=sorted(counted),
-                **verdict,
+                **judged(scheme, value, findings),
             )
         )
     return checks
