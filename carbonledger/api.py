@@ -19,7 +19,7 @@ from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, match, matched_checks, matching_views, scheme_granularity
+from .analyses.matching import electricity_model, match, matched_checks, matching_views, scheme_granularity, score_with_series, series_matched_periods
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
@@ -123,30 +123,6 @@ def project_series(project, project_file: str | Path) -> ElectricitySeries | Non
     return read_series(Path(project_file).parent / name, project)
 
 
-def score_with_series(
-    project,
-    factor_set: FactorSet,
-    series: ElectricitySeries,
-    *,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    source: str = "project",
-    project_sha256: str = "",
-    matching: str | None = None,
-    year: int | None = None,
-) -> ScoreResult:
-    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``).
-
-    The verdict rules learn from the series that every source with a generation column is matched
-    interval by interval (hourly, or half-hourly and finer), so an hourly rule can be judged.
-    """
-    period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
-    matched = {name: period for name in series.generation_kwh} if period else None
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256, year=year, matching=matched)
-    solutions = solve_with_bw2calc(prepared)
-    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)
-
-
 def score_workbook(
     path: str | Path,
     *,
@@ -200,7 +176,11 @@ def compare(
     results, spreads = [], []
     for path in project_files:
         project, sha, project_set = load_any_project(path, factor_set, _boundary_overrides(boundary, None))
-        results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
+        series = None if str(path).lower().endswith(".xlsx") else project_series(project, path)
+        if series is None:
+            results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
+        else:  # checks matched under each scheme's rule, as score gives them
+            results.append(score_with_series(project, project_set, series, gwp=gwp, source=str(path), project_sha256=sha))
         if draws is not None:
             if str(path).lower().endswith(".xlsx"):
                 found = read_distributions_file(distributions) if distributions is not None else Uncertainty()
@@ -209,7 +189,7 @@ def compare(
             if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
                 spreads.append("no distributions (no [uncertainty] table and no factor rows with pedigree scores)")
                 continue
-            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha))
+            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha, series=series))
     return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
 
 
@@ -264,7 +244,8 @@ def audit_workbook(
     spread = None
     if draws is not None:
         found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
-        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha)
+        series = project_series(project, project_file) if from_workbook is None else None
+        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series)
     workbook = build_workbook(
         engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence, uncertainty=spread, draws_csv=draws_csv
     )
@@ -420,7 +401,10 @@ def uncertainty(
     """
     found = load_uncertainty(project_file, distributions)
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return monte_carlo(project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes, progress=progress, project_sha256=sha)
+    return monte_carlo(
+        project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes,
+        progress=progress, project_sha256=sha, series=project_series(project, project_file),
+    )
 
 
 def headroom(
@@ -440,7 +424,8 @@ def headroom(
         raise InputError("headroom", "--parameter", "at least one parameter path")
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     factor_set = _factor_set(factors)
-    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp) for path in parameters]
+    series = project_series(project, project_file)
+    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp, series=series) for path in parameters]
 
 
 def sensitivity(
@@ -459,7 +444,7 @@ def sensitivity(
     or of ``scheme``'s value, over the project's uncertain inputs."""
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp)
+    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file))
 
 
 def analysis_record(
@@ -556,10 +541,7 @@ def report_items(
     for path in project_files(list(paths)):
         project, sha = load_project(path, _boundary_overrides(boundary, overrides))
         series = project_series(project, path)
-        matched = None
-        if series is not None:
-            period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
-            matched = {name: period for name in series.generation_kwh} if period else None
+        matched = series_matched_periods(series) if series is not None else None
         prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha, matching=matched)
         solutions = solve_stacked([prepared], check_with_bw2calc=False)[0]
         result = assemble(prepared, solutions)
@@ -572,7 +554,7 @@ def report_items(
             life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
-            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes)
+            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series)
         items.append(ProjectReport(result, parameter_table(project), life, views, spread))
     return items
 

@@ -124,11 +124,14 @@ def test_the_plan_scored_back_qualifies(tmp_path):
     result = run_cli("plan", tmp_path / "p.toml", "--scheme", "eu-rfnbo", "--matching", "hour", "--min-load", "0.2", "-o", tmp_path / "plan.csv")
     assert result.exit_code == 0, result.output
     after = api.score(tmp_path / "p.toml", overrides=[f"electricity.time_series={tmp_path / 'plan.csv'}"], matching="hour", schemes=["eu-rfnbo"]).checks[0]
-    assert after.passes and after.electricity_matching.load_kwh > 0
+    # under the limit hour by hour (this bare project declares no procurement, so the verdict waits on those rules)
+    assert after.value <= after.limit and after.status != "fails" and after.electricity_matching.load_kwh > 0
     again = run_cli("plan", tmp_path / "p.toml", "--scheme", "eu-rfnbo", "-o", tmp_path / "plan.csv")
     assert_one_line_error(again)  # an existing plan is not overwritten without --force
     # monthly matching with the grid's hourly intensity: the bilinear case, solved by repeated passes
     monthly = run_cli("plan", tmp_path / "p.toml", "--scheme", "us-45v", "--tier", "0.45", "--matching", "month", "-o", tmp_path / "month.csv")
     assert monthly.exit_code == 0, monthly.output
     check = api.score(tmp_path / "p.toml", overrides=[f"electricity.time_series={tmp_path / 'month.csv'}"], matching="month", schemes=["us-45v"]).checks[0]
-    assert check.value < 0.45 and check.tier.startswith("100 %")
+    # under the 100 % tier's limit, less than 0.45 kg CO2e/kg H2 (26 U.S.C. 45V(b)(2)(D)); the tier is
+    # named only when the verdict qualifies, and this bare project declares no construction date
+    assert check.value < 0.45 and check.status != "fails"

@@ -308,3 +308,40 @@ def test_chart_of_the_draws_marks_every_threshold(tmp_path):
     assert "28.200" in text and "0.45" in text  # the EU limit and the tightest 45V tier (factors/schemes)
     assert_one_line_error(run_cli(*arguments, "--chart", chart))  # exists: not overwritten without --force
     assert_one_line_error(run_cli(*arguments, "--chart", tmp_path / "draws.pdf"))
+
+
+def test_draws_of_a_project_with_a_time_series_follow_the_matching_as_score_does():
+    """Each draw's scheme values equal `score` (bw2calc, then the series matched under each
+    scheme's rule) of the project with that draw's inputs put in by hand, to 1e-9; without the
+    series the draws would carry the declared annual shares (a different value under hourly or
+    monthly matching, so the test can fail)."""
+    import dataclasses
+
+    from carbonledger.analyses.uncertainty import evaluate
+    from carbonledger.model.factors import FactorSet
+
+    path = DEMO / "hybrid_hourly_hydrogen.toml"
+    project, _ = load_project(path)
+    factor_set = load_factor_set("default-2026")
+    uncertainty = parse_uncertainty(
+        {
+            "parameters": {"electrolysis.electricity_kwh_per_kg_h2": {"distribution": "triangular", "low": 52, "mode": 54, "high": 58}},
+            "factors": {"electricity.grid.eu27_2018": {"distribution": "normal", "mean": 281, "sd": 40}},
+        },
+        "test",
+    )
+    plan = make_plan(project, factor_set, uncertainty, source=str(path), series=api.project_series(project, path))
+    drawn = draw(plan, 3, seed=4)
+    outcome = evaluate(plan, drawn, 3)
+    declared = evaluate(make_plan(project, factor_set, uncertainty, source=str(path)), drawn, 3)
+    differs = 0
+    for number in range(3):
+        kwh = float(drawn.parameters["electrolysis.electricity_kwh_per_kg_h2"][number])
+        grid = float(drawn.factors["electricity.grid.eu27_2018"][number])
+        factors = dict(factor_set.factors)
+        factors["electricity.grid.eu27_2018"] = dataclasses.replace(factors["electricity.grid.eu27_2018"], value=grid)
+        by_hand = api.score(path, factors=FactorSet(name="drawn", factors=factors), overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh!r}"])
+        for check in by_hand.checks:
+            assert outcome.scheme_values[check.scheme][number] == pytest.approx(check.value, rel=1e-9, abs=1e-9), check.scheme
+            differs += abs(declared.scheme_values[check.scheme][number] - check.value) > 1e-6
+    assert differs > 0

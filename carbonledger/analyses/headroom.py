@@ -29,6 +29,7 @@ from ..model.factors import FactorSet
 from ..model.project import field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..routes.project import validate_project
+from .matching import score_with_series
 from .uncertainty import Draws, evaluate, limit_breaks, make_plan, params_with_draws
 
 SCAN_POINTS = 401
@@ -111,8 +112,11 @@ def headroom(
     source: str = "project",
     gwp: str = DEFAULT_GWP,
     boundary: str | None = None,
+    series=None,
 ) -> Headroom:
-    """The value of ``path`` at which ``scheme_id`` (its loosest tier, or ``tier``) is met exactly."""
+    """The value of ``path`` at which ``scheme_id`` (its loosest tier, or ``tier``) is met exactly.
+
+    ``series``: the project's electricity time series; the scheme value then follows its matching."""
     from scipy.optimize import brentq
 
     nominal, info = parameter_field(project, path, source, "--parameter")
@@ -126,7 +130,7 @@ def headroom(
         if not found:
             raise InputError("--tier", tier, f"a tier of {scheme.id}: {'; '.join(t.tier for t in scheme.thresholds)}")
         threshold = found[0]
-    plan = make_plan(project, factor_set, Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, gwp=gwp, schemes=[scheme.id], boundary=boundary)
+    plan = make_plan(project, factor_set, Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, gwp=gwp, schemes=[scheme.id], boundary=boundary, series=series)
     probe = _Probe(plan, path, scheme.id)
     low, high = search_range(float(nominal), info)
     grid = np.unique(np.concatenate([np.linspace(low, high, SCAN_POINTS), [float(nominal)]]))
@@ -173,11 +177,14 @@ def headroom(
 
 
 def verify(plan, path: str, value: float, scheme_id: str, source: str, gwp: str, boundary: str | None) -> float:
-    """The scheme value from a full score (validated project, bw2calc solve) at the value found."""
+    """The scheme value from a full score (validated project, bw2calc solve, matched series) at the value found."""
     params = params_with_draws(plan, {path: np.float64(value)})
     data: dict[str, Any] = _plain(params)
     project = validate_project(data, source)
-    result = score_project(project, plan.factor_set, gwp=gwp, schemes=[scheme_id], source=source, boundary=boundary)
+    if plan.series is not None:
+        result = score_with_series(project, plan.factor_set, plan.series, gwp=gwp, schemes=[scheme_id], source=source)
+    else:
+        result = score_project(project, plan.factor_set, gwp=gwp, schemes=[scheme_id], source=source, boundary=boundary)
     return next(check.value for check in result.checks if check.scheme == scheme_id)
 
 

@@ -34,8 +34,9 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import Prepared, intensities, judged, read_rules, scheme_reading, zero_rated
+from ..core.scoring import DEFAULT_GWP, Prepared, assemble, intensities, judged, prepare, read_rules, scheme_reading, solve_with_bw2calc, zero_rated
 from ..errors import InputError
+from ..model.factors import FactorSet
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
 from .electricity_series import ElectricitySeries
 
@@ -396,3 +397,86 @@ def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, ser
         )
         found.append((view, load, outcome.matched_interval_kwh))
     return [view for view, _, _ in found]
+
+
+def series_matched_periods(series: ElectricitySeries) -> dict | None:
+    """What the verdict rules learn from a series: every source with a generation column is matched
+    interval by interval (half-hourly or finer, or hourly); None for coarser series."""
+    period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
+    return {name: period for name in series.generation_kwh} if period else None
+
+
+def matched_values_of_draws(
+    scheme,
+    series: ElectricitySeries,
+    eligible: list[str],
+    declared_values: np.ndarray,
+    value_per_total: np.ndarray,
+    basis_kwh: np.ndarray,
+    kwh_per_kg_h2: np.ndarray,
+    counted_kg_per_kwh: dict[str, np.ndarray],
+    shares: dict[str, np.ndarray],
+) -> np.ndarray:
+    """Each draw's scheme value with the series matched under the scheme's rule: ``matched_check``'s
+    arithmetic on arrays over the draws.
+
+    value = declared value + (value per kg CO2e) x (basis kWh) x (matched - declared kg CO2e/kWh),
+    where the matched intensity puts each source's matched kWh at its counted intensity of the draw
+    and the unmatched kWh at the series' grid intensity (or the draw's grid-source intensity). A
+    series of electricity use is matched once; a series of hydrogen output once per distinct
+    electricity use per kg among the draws (its load is kg x kWh/kg).
+    """
+    count = len(declared_values)
+
+    def per_draw(value) -> np.ndarray:
+        return np.broadcast_to(np.asarray(value, dtype=float), (count,))
+
+    counted = {name: per_draw(value) for name, value in counted_kg_per_kwh.items()}
+    share = {name: per_draw(value) for name, value in shares.items()}
+    declared = sum(share[name] * counted[name] for name in counted)
+    grid = [name for name in counted if name not in series.generation_kwh]
+    if grid:
+        grid_share = sum(share[name] for name in grid)
+        weighted = sum(share[name] * counted[name] for name in grid)
+        grid_kg = np.where(grid_share > 0, weighted / np.where(grid_share > 0, grid_share, 1.0), counted[grid[0]])
+    else:
+        grid_kg = np.full(count, np.nan)
+    granularity = scheme_granularity(scheme.id, series.local)
+    if series.load_kwh is not None:
+        loads, which = [series.load_kwh], np.zeros(count, dtype=int)
+    else:
+        distinct, which = np.unique(per_draw(kwh_per_kg_h2), return_inverse=True)
+        loads = [series.hydrogen_kg * value for value in distinct]
+    intensity = np.empty(count)
+    for number, load in enumerate(loads):
+        rows = which == number
+        result = match(load, series.generation_kwh, eligible, granularity, series.utc, series.local)
+        unmatched = load - result.matched_interval_kwh
+        grid_part = float(unmatched @ series.grid_g_co2e_per_kwh) / 1000.0 if series.grid_g_co2e_per_kwh is not None else float(unmatched.sum()) * grid_kg[rows]
+        total_matched = sum(result.matched_by_source_kwh.values())
+        source_kg_per_kwh = sum(kwh * counted[name][rows] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
+        total_load = float(load.sum())
+        intensity[rows] = (result.matched_kwh * source_kg_per_kwh + grid_part) / total_load if total_load > 0 else 0.0
+    return declared_values + value_per_total * basis_kwh * (intensity - declared)
+
+
+def score_with_series(
+    project,
+    factor_set: FactorSet,
+    series: ElectricitySeries,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    project_sha256: str = "",
+    matching: str | None = None,
+    year: int | None = None,
+) -> ScoreResult:
+    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``).
+
+    The verdict rules learn from the series that every source with a generation column is matched
+    interval by interval (hourly, or half-hourly and finer), so an hourly rule can be judged.
+    """
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256, year=year, matching=series_matched_periods(series))
+    solutions = solve_with_bw2calc(prepared)
+    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)

@@ -122,12 +122,15 @@ def sensitivity(
     source: str = "project",
     gwp: str = DEFAULT_GWP,
     boundary: str | None = None,
+    series=None,
 ) -> Sensitivity:
-    """Sobol indices and tornado of the total (or of ``scheme``'s value) over the uncertain inputs."""
+    """Sobol indices and tornado of the total (or of ``scheme``'s value) over the uncertain inputs.
+
+    ``series``: the project's electricity time series; scheme values then follow its matching."""
     from SALib.analyze import sobol as sobol_analysis
     from SALib.sample import sobol as sobol_sample
 
-    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary)
+    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary, series=series)
     names = plan.uncertainty.names()
     if not names:
         raise InputError(source, "uncertainty", "at least one distribution")

@@ -56,6 +56,7 @@ from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
 from ..routes.base import APART_FLOWS
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
+from .matching import eligible_sources, matched_values_of_draws, series_matched_periods
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
@@ -150,10 +151,14 @@ class Plan:
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
     year: int | None = None  # calendar year whose dates the scheme rules are read on (default this year)
     used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
+    series: Any = None  # the project's electricity time series: scheme values follow its matching
 
 
-def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None) -> Plan:
+def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None) -> Plan:
     """Check every distribution against the project and the factor set (one InputError line).
+
+    ``series``: the project's electricity time series (``analyses.electricity_series``); with it,
+    every scheme value of every draw follows the matching under the scheme's rule, as in ``score``.
 
     Pedigree distributions take the value they describe as their median, and every factor the
     project uses whose row carries pedigree scores, and that has no distribution of its own,
@@ -197,7 +202,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
             raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
     if not uncertainty.parameters and not uncertainty.factors:
         raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
-    plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields)
+    plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields, series=series)
     plan.used_rows = [_plain_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
@@ -438,13 +443,36 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     scheme_values, scheme_findings = {}, {}
     nominal = params_with_draws(plan, {})
     period = Period.year(plan.year if plan.year is not None else dt.date.today().year)
+    matched_periods = series_matched_periods(plan.series) if plan.series is not None else None
     for scheme in chosen:
-        counted, findings, _ = read_rules(scheme, inventory, nominal, period)
+        counted, findings, _ = read_rules(scheme, inventory, nominal, period, matched_periods)
         scheme_findings[scheme.id] = findings
         mask = np.array([bool(zero_rated(scheme, inventory, key, counted)) for key in keys])
         basis_demand, basis_product = basis_of(scheme, inventory)
         scheme_total = (contributions(basis_demand, per_gwp[scheme.gwp]) * ~mask[None, None, :]).sum(axis=(1, 2))
-        scheme_values[scheme.id] = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,))
+        values = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,))
+        if plan.series is not None:
+            mix, gate = keys.index("electricity_mix"), column[inventory.gate]
+            sources = params["electricity"]["sources"]
+            flow_index = {flow: number for number, flow in enumerate(stacked.flow_keys)}
+            gwp_of_draws = per_gwp[scheme.gwp]
+            counted_kg = {}
+            for name in sources:
+                key = f"electricity:{name}"
+                emitted = sum(gwp_of_draws[:, flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
+                counted_kg[name] = np.zeros(count) if zero_rated(scheme, inventory, key, counted) else emitted
+            values = matched_values_of_draws(
+                scheme,
+                plan.series,
+                eligible_sources(scheme, counted, list(plan.series.generation_kwh)),
+                values,
+                np.broadcast_to(intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,)),
+                supply[:, mix, column[basis_demand]],
+                supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
+                counted_kg,
+                {name: source["share"] for name, source in sources.items()},
+            )
+        scheme_values[scheme.id] = values
     return Outcome(
         total=total,
         intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
@@ -765,14 +793,17 @@ def monte_carlo(
     progress: Callable[[int], None] | None = None,
     keep_draws: bool = False,
     project_sha256: str = "",
+    series=None,
 ) -> UncertaintyResult:
     """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain.
 
     keep_draws : keep every draw on the result (``draw_columns()``, for a draws CSV).
+    series : the project's electricity time series; every scheme value of every draw is then
+        matched under the scheme's rule, as ``score`` does.
     """
     if draws < 2:
         raise InputError("--draws", str(draws), "at least 2 draws")
-    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary)
+    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)
     outcome = evaluate_in_blocks(plan, drawn, progress)
