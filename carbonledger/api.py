@@ -19,7 +19,7 @@ from .analyses.electricity_series import ElectricitySeries, read_series
 from .analyses.headroom import Headroom
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, match, matched_checks, scheme_granularity
+from .analyses.matching import electricity_model, match, scheme_granularity, score_with_series
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
@@ -121,30 +121,6 @@ def project_series(project, project_file: str | Path) -> ElectricitySeries | Non
     if not name:
         return None
     return read_series(Path(project_file).parent / name, project)
-
-
-def score_with_series(
-    project,
-    factor_set: FactorSet,
-    series: ElectricitySeries,
-    *,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    source: str = "project",
-    project_sha256: str = "",
-    matching: str | None = None,
-    year: int | None = None,
-) -> ScoreResult:
-    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``).
-
-    The verdict rules learn from the series that every source with a generation column is matched
-    interval by interval (hourly, or half-hourly and finer), so an hourly rule can be judged.
-    """
-    period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
-    matched = {name: period for name in series.generation_kwh} if period else None
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256, year=year, matching=matched)
-    solutions = solve_with_bw2calc(prepared)
-    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)
 
 
 def score_workbook(

@@ -34,7 +34,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import Prepared, intensities, read_rules, zero_rated
+from ..core.scoring import DEFAULT_GWP, Prepared, assemble, intensities, prepare, read_rules, solve_with_bw2calc, zero_rated
 from ..errors import InputError
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
 from .electricity_series import ElectricitySeries
@@ -322,6 +322,30 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
         model = electricity_model(prepared, solutions, scheme, with_generation)
         checks.append(matched_check(check, scheme, series, model, granularity))
     return result.model_copy(update={"checks": checks})
+
+
+def score_with_series(
+    project,
+    factor_set,
+    series: ElectricitySeries,
+    *,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    source: str = "project",
+    project_sha256: str = "",
+    matching: str | None = None,
+    year: int | None = None,
+) -> ScoreResult:
+    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``).
+
+    The verdict rules learn from the series that every source with a generation column is matched
+    interval by interval (hourly, or half-hourly and finer), so an hourly rule can be judged.
+    """
+    period = "half_hourly" if series.interval_minutes <= 30 else "hourly" if series.interval_minutes <= 60 else None
+    matched = {name: period for name in series.generation_kwh} if period else None
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256, year=year, matching=matched)
+    solutions = solve_with_bw2calc(prepared)
+    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)
 
 
 def rule_dates_for(scheme_id: str) -> list[tuple[str, _dt.date | None, _dt.date | None]]:
