@@ -168,7 +168,12 @@ def compare(
     results = []
     for path in project_files:
         project, sha, project_set = load_any_project(path, factor_set, _boundary_overrides(boundary, None))
-        results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
+        workbook = str(path).lower().endswith(".xlsx")  # a workbook holds the declared shares, as `score` reads it
+        series = None if workbook else project_series(project, path)
+        if series is None:
+            results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
+        else:  # as `score` does: each scheme check matched against the series under the scheme's rule
+            results.append(score_with_series(project, project_set, series, gwp=gwp, source=str(path), project_sha256=sha))
     return compare_results(results, basis=basis, schemes=schemes)
 
 
