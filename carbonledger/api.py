@@ -217,7 +217,15 @@ def audit_workbook(
             raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
         meters = read_meters(periods, project)
         months = month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
-    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence)
+    series = matched = None
+    if from_workbook is None:  # the series file sits beside the project file
+        series = project_series(project, project_file)
+        if series is not None:
+            matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha).checks
+    workbook = build_workbook(
+        engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence,
+        series=series, matched_checks=matched,
+    )
     return workbook, engine
 
 
