@@ -195,10 +195,14 @@ def test_hydrogen_kg_is_turned_into_electricity_with_the_projects_kwh_per_kg(tmp
 def test_demo_hourly_project_fails_hourly_and_passes_monthly():
     monthly = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml").checks}
     assert monthly["eu-rfnbo"].electricity_matching.granularity == "month"  # 2026: monthly rule
-    assert monthly["eu-rfnbo"].passes
+    # monthly: under the 28.2 g CO2e/MJ limit; the verdict follows the matched value: undetermined, not
+    # qualifies, as the demo declares no procurement for its contracts (Delegated Regulation (EU) 2023/1184 Art. 3-4)
+    assert monthly["eu-rfnbo"].margin > 0 and monthly["eu-rfnbo"].status == "undetermined"
+    assert "procurement" in " ".join(monthly["eu-rfnbo"].reasons[:3])
     hourly = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml", matching="hour").checks}
     assert hourly["eu-rfnbo"].electricity_matching.matched_share < monthly["eu-rfnbo"].electricity_matching.matched_share
-    assert not hourly["eu-rfnbo"].passes
+    assert not hourly["eu-rfnbo"].passes and hourly["eu-rfnbo"].status == "fails"
+    assert hourly["eu-rfnbo"].reasons[0].startswith(f"not met: value {hourly['eu-rfnbo'].value:.2f}")  # the matched value decides
 
 
 # ---- bad series: one line naming file, row and column ---------------------------------------

@@ -34,7 +34,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import DEFAULT_GWP, Prepared, assemble, intensities, prepare, read_rules, solve_with_bw2calc, zero_rated
+from ..core.scoring import DEFAULT_GWP, Prepared, assemble, intensities, prepare, read_rules, scheme_reading, solve_with_bw2calc, threshold_sentence, zero_rated
+from ..core.verdicts import ordered_reasons, status_of
 from ..errors import InputError
 from ..model.matching_rules import GRANULARITIES, describe, matching_rules
 from .electricity_series import ElectricitySeries
@@ -251,8 +252,12 @@ def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: Electr
     return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
 
 
-def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, granularity: str | None = None) -> Check:
-    """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if)."""
+def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, granularity: str | None = None, findings: list | None = None) -> Check:
+    """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if).
+
+    With ``findings`` (the scheme's rules read on the project, ``core.scoring.scheme_reading``) the
+    status, reasons and tier follow the matched value as the engine's checks do; without them only
+    the threshold is read."""
     load = series.load(model.kwh_per_kg_h2)
     local = series.local
     rule = describe(scheme.id) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme.id)})"
@@ -302,7 +307,13 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         periods=result.periods,
         monthly=monthly,
     )
-    return check.model_copy(update={"value": value, **scheme.evaluate(value), "electricity_matching": matching})
+    verdict = scheme.evaluate(value)
+    if findings is not None:  # as core.scoring.scheme_checks: the verdict of the matched value
+        status = status_of(findings, verdict["passes"])
+        verdict.update(passes=status == "qualifies", status=status, reasons=ordered_reasons(status, findings, threshold_sentence(scheme, value)))
+        if status != "qualifies":
+            verdict["tier"] = None
+    return check.model_copy(update={"value": value, **verdict, "electricity_matching": matching})
 
 
 def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None) -> ScoreResult:
@@ -320,7 +331,7 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     for check in result.checks:
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
-        checks.append(matched_check(check, scheme, series, model, granularity))
+        checks.append(matched_check(check, scheme, series, model, granularity, scheme_reading(prepared, scheme)[1]))
     return result.model_copy(update={"checks": checks})
 
 
