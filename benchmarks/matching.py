@@ -32,7 +32,7 @@ def time_matching(years: int, repeats: int) -> list[float]:
     from carbonledger.analyses.matching import ElectricityModel, counted_intensity, match, monthly_intensities, scheme_granularity
 
     utc, local, load, supply, grid = synthetic(years)
-    model = ElectricityModel(1.0, 55.0, {"solar": 0.0, "wind": 0.0, "hydro": 0.0}, 0.0, 0.3, 1.0)
+    model = ElectricityModel(1.0, 55.0, {"solar": 0.0, "wind": 0.0, "hydro": 0.0}, 0.0, 0.3, 1.0, ["solar", "wind", "hydro"])
     rules = [scheme_granularity(s, local) for s in SCHEMES] + ["month", "quarter"]  # six schemes' rules
     months = local.astype("datetime64[M]")
     starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
@@ -59,13 +59,13 @@ def time_score_demo(repeats: int) -> list[float]:
     return times
 
 
-def time_plan(repeats: int, min_load: float) -> list[float]:
+def time_plan(repeats: int, min_load: float, part_load=None) -> list[float]:
     from carbonledger.api import plan
 
     times = []
     for _ in range(repeats):
         start = time.perf_counter()
-        result, _ = plan(DEMO, scheme="eu-rfnbo", matching="hour", min_load=min_load)
+        result, _ = plan(DEMO, scheme="eu-rfnbo", matching="hour", min_load=min_load, part_load=part_load)
         times.append(time.perf_counter() - start)
     assert result.qualifies
     return times
@@ -83,3 +83,5 @@ if __name__ == "__main__":
     print(f"plan, 1 year hourly, eu-rfnbo hourly, any load (linear program): median {statistics.median(linear):.2f} s (target < 10 s)")
     mixed = time_plan(1, 0.2)
     print(f"plan, 1 year hourly, eu-rfnbo hourly, minimum stable load 20 % (mixed-integer): {statistics.median(mixed):.2f} s")
+    curve = time_plan(1, 0.2, [(0.2, 60.0), (0.5, 52.0), (1.0, 54.0)])
+    print(f"plan, 1 year hourly, eu-rfnbo hourly, minimum stable load 20 %, part-load curve (valued at the curve's kWh/kg): {statistics.median(curve):.2f} s")

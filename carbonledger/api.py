@@ -42,6 +42,7 @@ from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from .model.project import boundary_id, parameter_table, read_project_file
+from .routes import routes_of
 from .routes.project import load_project
 
 __all__ = [
@@ -244,10 +245,16 @@ def audit_workbook(
     spread = None
     if draws is not None:
         found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
-        series = project_series(project, project_file) if from_workbook is None else None
+    series = matched = None
+    if from_workbook is None:  # the series file sits beside the project file
+        series = project_series(project, project_file)
+        if series is not None:
+            matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha).checks
+    if draws is not None:
         spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series)
     workbook = build_workbook(
-        engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence, uncertainty=spread, draws_csv=draws_csv
+        engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence,
+        uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched,
     )
     return workbook, engine, spread
 
@@ -334,7 +341,20 @@ def plan(
         part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
     )
     result.tier = threshold.tier
+    if part_load:
+        result.score_back = _score_back_overrides(project, model.kwh_per_kg_h2, result.kwh_per_kg_h2)
     return result, series
+
+
+def _score_back_overrides(project, design_kwh_per_kg: float, planned_kwh_per_kg: float) -> list[str]:
+    """The --set that scores a part-load plan back at the kWh/kg its curve implies: the hydrogen route's
+    electricity parameter moved by the difference from the design (the rest of the electricity per kg stays)."""
+    path = next((route.ageing for route in routes_of(project.model_dump()) if route.ageing), "")
+    if not path:
+        return []
+    section, name = path.split(".")
+    current = float(getattr(getattr(project, section), name))
+    return [f"{path}={current + planned_kwh_per_kg - design_kwh_per_kg:.12g}"]
 
 
 def matching_chart(

@@ -223,3 +223,31 @@ def test_compare_reads_audit_workbooks(tmp_path):
     expected = score(DEMO / "grey_smr_ammonia.toml", overrides=["natural_gas.methane_emission_share=0.02"])
     assert result.projects[1].total == pytest.approx(expected.total, rel=1e-12)
     assert run("compare", DEMO / "blue_atr_ammonia.toml", "--from-workbook", book_path).exit_code == 0
+
+
+def test_compare_chart_shows_monthly_matched_and_unmatched_energy_of_projects_with_a_series(tmp_path):
+    """Hand calculation. Four hours across a month end (local time +01:00), load 100 kWh each,
+    solar 150, 0 (31 January), 60, 0 kWh (1 February), no wind. Matched hour by hour (the UK
+    standard's 30-minute units; an hourly series is matched per interval): January 100 of 200 kWh,
+    February 60 of 200 kWh, 160 of 400 in all. Matched by month (EU RFNBO until 2029,
+    Delegated Regulation (EU) 2023/1184 Art. 6): January min(200, 150) = 150, February 60, 210 of 400.
+    The chart shows the strictest matching in the comparison: the hourly one."""
+    from carbonledger.io.compare_output import monthly_matching
+    from tests.test_matching import PROJECT
+
+    (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
+    stamps = ["2026-01-31T22:00+01:00", "2026-01-31T23:00+01:00", "2026-02-01T00:00+01:00", "2026-02-01T01:00+01:00"]
+    rows = "".join(f"{stamp},100,{solar},0\n" for stamp, solar in zip(stamps, (150, 0, 60, 0), strict=True))
+    (tmp_path / "series.csv").write_text("timestamp,electrolyser [kWh],generation.solar [kWh],generation.wind [kWh]\n" + rows, encoding="utf-8")
+    result = compare([tmp_path / "p.toml", DEMO / "grid_electrolysis_hydrogen.toml"])
+    scheme, months, by_project = monthly_matching(result)
+    assert scheme == "uk-lchs" and months == ["2026-01", "2026-02"]
+    assert by_project == {"p": ([100.0, 60.0], [100.0, 140.0])}  # the grid project has no series: not in the panel
+    rfnbo = next(c for c in result.projects[0].checks if c.scheme == "eu-rfnbo").electricity_matching
+    assert [m.matched_kwh for m in rfnbo.monthly] == [150.0, 60.0]
+    chart = tmp_path / "c.svg"
+    out = run("compare", tmp_path / "p.toml", DEMO / "grid_electrolysis_hydrogen.toml", "--chart", chart, "--format", "csv")
+    assert out.exit_code == 0, out.output
+    ids = {element.get("id") for element in ET.parse(chart).getroot().iter()}
+    assert {"matched-0-2026-01", "unmatched-0-2026-02"} <= ids
+    assert "check:uk-lchs,matched_share,fraction,0.4," in out.output  # 160 / 400

@@ -204,3 +204,99 @@ def test_region_needs_a_yearly_grid_id(tmp_path):
     project, sha = load_project(path)
     with pytest.raises(InputError, match="ending in _YEAR"):
         lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+
+
+SERIES_PROJECT = """\
+# test project (invented numbers)
+[project]
+name = "Lifetime with a time series (invented)"
+product = "hydrogen"
+
+[hydrogen]
+route = "electrolysis"
+
+[electrolysis]
+technology = "alkaline"
+electricity_kwh_per_kg_h2 = 50.0
+
+[electricity]
+time_series = "series.csv"
+
+[electricity.sources.grid]
+share = 0.5
+factor = "electricity.grid.eu27_2018"
+
+[electricity.sources.solar]
+share = 0.5
+factor = "electricity.renewable.solar_pv_utility"
+
+[lifetime]
+operating_years = 2
+first_year = 2029
+nameplate_output_t_per_year = 100
+grid_trajectory_csv = "grid.csv"
+"""
+SERIES_HEADER = "timestamp,electrolyser [kWh],generation.solar [kWh],grid_intensity [g CO2e/kWh]\n"
+
+
+def _series_rows(year, solar=(150, 0, 150, 0), grid=(200, 400, 200, 400)):
+    return "".join(f"{year}-01-01T0{hour}:00+00:00,100,{s},{g}\n" for hour, s, g in zip(range(4), solar, grid, strict=True))
+
+
+def _series_score(tmp_path, rows, trajectory=(300, 150)):
+    write(tmp_path / "series.csv", SERIES_HEADER + rows)
+    _trajectory(tmp_path, dict(zip((2029, 2030), trajectory, strict=True)))
+    path = write(tmp_path / "project.toml", SERIES_PROJECT)
+    project, sha = load_project(path)
+    return lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+
+
+def test_lifetime_repeats_a_one_year_series_under_each_years_rule_and_scales_the_grid_profile(tmp_path):
+    """Hand calculation. Four hours of 2029: load 100 kWh each, solar 150, 0, 150, 0 kWh, grid
+    200, 400, 200, 400 g CO2e/kWh; 50 kWh/kg H2 and nothing else emits. Trajectory 300 g (2029),
+    150 g (2030): the 2030 profile is the 2029 one x 150/300 = 100, 200, 100, 200 g.
+    45V (final regulations, 26 CFR 1.45V-4): annual matching through 2029, hourly from 2030.
+      2029, annual: matched min(400, 300) = 300 kWh, every hour 25 kWh unmatched:
+            25 x (200 + 400 + 200 + 400) g = 30 kg over 400 kWh = 0.075 kg/kWh x 50 = 3.75 kg/kg H2.
+      2030, hourly: hours 1 and 3 matched (100 of 150), hours 2 and 4 at 200 g: 40 kg / 400 kWh
+            = 0.1 kg/kWh x 50 = 5.0 kg/kg H2 (matched share 0.5).
+    Japan (no temporal rule, annual; life-cycle factors, solar 48 g/kWh from IPCC AR5 WGIII Annex III):
+      2029: (300 x 0.048 + 30) / 400 x 50 = 5.55; 2030: (14.4 + 15) / 400 x 50 = 3.675 kg/kg H2."""
+    result = _series_score(tmp_path, _series_rows(2029))
+    first, second = result.years
+    assert (first.series_year, second.series_year) == (2029, 2029)  # the one-year series repeated
+    assert (first.grid_profile_scale, second.grid_profile_scale) == pytest.approx((1.0, 0.5))
+    assert first.scheme_values["us-45v"] == pytest.approx(3.75, rel=1e-12)
+    assert second.scheme_values["us-45v"] == pytest.approx(5.0, rel=1e-12)
+    assert (first.matched_share["us-45v"], second.matched_share["us-45v"]) == pytest.approx((0.75, 0.5))
+    assert first.scheme_values["japan-hydrogen"] == pytest.approx(5.55, rel=1e-12)
+    assert second.scheme_values["japan-hydrogen"] == pytest.approx(3.675, rel=1e-12)
+    # 45V tiers: 4 kg/kg the loosest; 2029 meets it, 2030 under the hourly rule does not
+    assert first.passes["us-45v"] and not second.passes["us-45v"]
+    assert "repeated" in result.time_series
+    # the headline total keeps the declared shares at the year's trajectory factor: 50 x (0.5 x 300 + 0.5 x 48) g
+    assert first.total == pytest.approx(50 * (0.5 * 0.300 + 0.5 * 0.048), rel=1e-12)
+
+
+def test_lifetime_reads_a_series_of_several_years_year_by_year(tmp_path):
+    """Four hours across the new year. 2029 (two hours): load 100 kWh each, solar 150 and 0 kWh, grid
+    200 and 400 g: annual, matched 150 of 200 kWh, 25 kWh of each hour unmatched, 25 x 600 g = 15 kg
+    over 200 kWh = 0.075 kg/kWh x 50 = 3.75 kg/kg H2. 2030 has its own hours (solar 100 each, grid 500 g),
+    used as written (no scaling): hourly, each hour matched in full, so 45V counts 0 kg/kg H2."""
+    rows = "".join(
+        f"{stamp}+00:00,100,{solar},{grid}\n"
+        for stamp, solar, grid in zip(("2029-12-31T22:00", "2029-12-31T23:00", "2030-01-01T00:00", "2030-01-01T01:00"), (150, 0, 100, 100), (200, 400, 500, 500), strict=True)
+    )
+    result = _series_score(tmp_path, rows)
+    first, second = result.years
+    assert (first.series_year, second.series_year) == (2029, 2030)
+    assert second.grid_profile_scale is None
+    assert first.scheme_values["us-45v"] == pytest.approx(3.75, rel=1e-12)
+    assert second.scheme_values["us-45v"] == pytest.approx(0.0, abs=1e-12)
+    assert second.matched_share["us-45v"] == pytest.approx(1.0)
+
+
+def test_lifetime_refuses_a_series_of_several_years_that_misses_an_operating_year(tmp_path):
+    rows = "2028-12-31T23:00+00:00,100,0,300\n" + "".join(f"2029-01-01T0{h}:00+00:00,100,0,300\n" for h in range(4))
+    with pytest.raises(InputError, match="missing 2030"):
+        _series_score(tmp_path, rows)

@@ -135,3 +135,46 @@ def test_the_plan_scored_back_qualifies(tmp_path):
     # under the 100 % tier's limit, less than 0.45 kg CO2e/kg H2 (26 U.S.C. 45V(b)(2)(D)); the tier is
     # named only when the verdict qualifies, and this bare project declares no construction date
     assert check.value < 0.45 and check.status != "fails"
+
+
+
+def test_part_load_plan_values_the_curves_own_kwh_per_kg():
+    """A two-hour case worked by hand. Hour 1: 100 kWh of solar; hour 2: grid only at 300 g/kWh.
+    Curve (0.5, 50 kWh/kg), (1.0, 55 kWh/kg) of a 100 kW plant with a 0.5 minimum load: 1 kg at
+    50 kWh, 20/11 kg at 100 kWh, so h = 9/550 p + 2/11 between. MODEL counts nothing but
+    electricity (value_declared 5 = 50 kWh/kg x 0.1 kg/kWh), so the scheme value of a plan is its
+    emissions over its hydrogen, E / H, at the kWh/kg the curve gives (not the design 50).
+    With a limit of 6: 0.3 p2 <= 6 (20/11 + 9/550 p2 + 2/11), so p2 = 12 / (0.3 - 54/550) = 59.459 kWh."""
+    series = series_of([100.0, 0.0], [300.0, 300.0])
+    plan = plan_load(series, MODEL, rulebooks()["us-45v"], value_declared=5.0, limit=6.0, granularity="hour", rated_kw=100.0, min_load=0.5, part_load=[(0.5, 50.0), (1.0, 55.0)])
+    p2 = 12.0 / (0.3 - 54.0 / 550.0)
+    assert plan.load_kwh == pytest.approx([100.0, p2], rel=1e-5)
+    hydrogen = 20.0 / 11.0 + 9.0 / 550.0 * p2 + 2.0 / 11.0
+    assert plan.hydrogen_kg.sum() == pytest.approx(hydrogen, rel=1e-5)
+    assert plan.value == pytest.approx(0.3 * p2 / hydrogen, rel=1e-5) and plan.value == pytest.approx(6.0, rel=1e-5)
+    assert plan.qualifies and plan.kwh_per_kg_h2 == pytest.approx((100.0 + p2) / hydrogen, rel=1e-5)
+    # at the design 50 kWh/kg the same loads would be valued 5 + 50 (0.3 p2 / (100 + p2) - 0.1) = 5.59: not what the plant does
+    assert abs(plan.value - (5.0 + 50.0 * (0.3 * p2 / (100.0 + p2) - 0.1))) > 0.3
+
+
+def test_part_load_plan_scored_back_at_its_own_kwh_per_kg_qualifies(tmp_path):
+    import json
+
+    rng = np.random.default_rng(5)
+    rows = []
+    for number, stamp in enumerate(stamps("2026-05-01T00:00", 48)):
+        hour = number % 24
+        solar = max(0.0, np.sin(np.pi * (hour - 6) / 12)) * 160 * rng.uniform(0.3, 1)
+        rows.append([stamp, 100, round(solar, 3), round(rng.uniform(0, 40), 3), round(200 + 80 * np.cos(np.pi * hour / 12), 3)])
+    (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
+    write_series(tmp_path, rows, "timestamp,electrolyser [kWh],generation.solar [kWh],generation.wind [kWh],grid_intensity [g CO2e/kWh]")
+    result = run_cli("plan", tmp_path / "p.toml", "--scheme", "eu-rfnbo", "--matching", "hour", "--min-load", "0.3", "--part-load", "0.3:47,0.6:48,1:52", "-o", tmp_path / "plan.csv", "--format", "json")
+    assert result.exit_code == 0, result.output
+    figures = json.loads(result.output)
+    assert figures["qualifies"] and figures["kwh_per_kg_h2"] != pytest.approx(figures["design_kwh_per_kg_h2"])
+    # the project has no conditioning electricity, so the electrolysis parameter is the plan's own kWh/kg
+    assert figures["score_back_set"] == [f"electrolysis.electricity_kwh_per_kg_h2={figures['kwh_per_kg_h2']:.12g}"]
+    overrides = [f"electricity.time_series={tmp_path / 'plan.csv'}", *figures["score_back_set"]]
+    after = api.score(tmp_path / "p.toml", overrides=overrides, matching="hour", schemes=["eu-rfnbo"]).checks[0]
+    assert after.margin >= 0 and after.status != "fails"  # threshold met; the bare project declares no procurement
+    assert after.value == pytest.approx(figures["value"], rel=1e-6)  # score reads the plan back to the plan's own value

@@ -7,6 +7,20 @@ matrix structure, so they are solved together (``portfolio.score_portfolio``). T
 is weighted by each year's output; construction emissions are spread over the lifetime output
 and added for the schemes whose rulebook counts them (``counts_construction``).
 
+With an electricity time series (``[electricity] time_series``) every year's scheme checks are
+matched against the series under the rule in force in that year (``matching.score_with_series``):
+
+- a series of one calendar year is repeated: each operating year gets the same intervals at the
+  same minute from the start of the year (local time; offsets as written), so the dated rules
+  (EU monthly, then hourly from 2030) apply to the right years;
+- a series of several calendar years is read year by year and must cover every operating year.
+
+With a grid trajectory, a repeated series' grid intensity profile g_t is scaled to each year:
+g_t(Y) = g_t F(Y) / F_0, with F(Y) the trajectory's factor of year Y and F_0 the trajectory's
+factor of the series' own year (or, when the trajectory has no row for it, the grid source's
+factor in the factor set). A series of one profile per year is used as written. Without a grid
+intensity column the unmatched energy is charged at the year's grid factor (the trajectory).
+
 References
 ----------
 .. [1] ISO 14067:2018, 6.3 (capital goods).
@@ -15,7 +29,7 @@ References
 from __future__ import annotations
 
 import re
-from dataclasses import asdict, dataclass, field
+from dataclasses import asdict, dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
@@ -23,9 +37,12 @@ import numpy as np
 from ..core.scoring import gwp_set, intensities, rulebooks
 from ..errors import InputError
 from ..model.factors import Factor, FactorSet, read_factor_rows
+from ..model.units import UnitMismatch, conversion_factor
 from ..routes import routes_of
 from ..routes.project import validate_project
 from ..stages import lifetime as stage
+from .electricity_series import ElectricitySeries, read_series
+from .matching import score_with_series
 from .portfolio import PortfolioProject, score_portfolio
 
 
@@ -43,6 +60,9 @@ class LifetimeYear:
     factors_from_memory: list[str] = field(default_factory=list)  # ids of that year's factors recorded from memory
     grid_factor_id: str = ""  # the trajectory row used this year
     grid_factor_year: int | None = None  # its year: earlier than the operating year when held at the last published year
+    series_year: int | None = None  # calendar year of the time series intervals used (None: no series)
+    grid_profile_scale: float | None = None  # F(Y) / F_0 applied to the series' grid intensity profile
+    matched_share: dict[str, float] = field(default_factory=dict)  # per scheme, with a time series
 
 
 @dataclass
@@ -78,6 +98,7 @@ class LifetimeResult:
     schemes: list[LifetimeScheme]
     trajectory_source: str
     project_sha256: str = ""
+    time_series: str = ""  # how the electricity time series was used ('' without one)
     boundary: str = ""
     parameters: dict = field(default_factory=dict)
     factors_used: list[dict] = field(default_factory=list)  # first operating year's rows
@@ -208,6 +229,70 @@ def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet, g
     return by_year, text
 
 
+def series_years(series: ElectricitySeries) -> np.ndarray:
+    """Local calendar year of each interval."""
+    return series.local.astype("datetime64[Y]").astype(np.int64) + 1970
+
+
+def series_of_year(series: ElectricitySeries, year: int, repeated: bool, scale: float = 1.0) -> ElectricitySeries:
+    """The series' intervals for one operating year: its own intervals of that year, or (``repeated``) the
+    one-year series moved to that year, same minute from the local start of the year; grid profile x ``scale``."""
+    if repeated:
+        start = series.local.astype("datetime64[Y]")
+        local = (start + (year - int(series_years(series)[0]))).astype("datetime64[m]") + (series.local - start.astype("datetime64[m]"))
+        mask = slice(None)
+        utc = local - series.offset_minutes.astype("timedelta64[m]")
+    else:
+        mask = series_years(series) == year
+        utc = series.utc[mask]
+
+    def cut(values):
+        return None if values is None else values[mask]
+
+    grid = cut(series.grid_g_co2e_per_kwh)
+    return replace(
+        series,
+        utc=utc,
+        offset_minutes=series.offset_minutes[mask],
+        load_kwh=cut(series.load_kwh),
+        hydrogen_kg=cut(series.hydrogen_kg),
+        generation_kwh={name: values[mask] for name, values in series.generation_kwh.items()},
+        grid_g_co2e_per_kwh=None if grid is None else grid * scale,
+        price_per_mwh=cut(series.price_per_mwh),
+    )
+
+
+def _g_per_kwh(row: Factor, origin: str) -> float:
+    try:
+        return row.value * conversion_factor(row.unit, "g CO2e/kWh")
+    except UnitMismatch:
+        raise InputError(origin, row.id, f"a grid factor convertible to g CO2e/kWh to scale the series' grid profile, got {row.unit}") from None
+
+
+def yearly_series(series: ElectricitySeries, years: list[int], trajectory: dict[int, Factor], base: Factor | None, origin: str) -> tuple[list[ElectricitySeries], list[float | None], list[int], str]:
+    """The series of every operating year, the grid profile scale of each, the calendar year whose intervals
+    each uses, and a line saying how the series was used."""
+    present = sorted(set(series_years(series).tolist()))
+    if len(present) == 1:
+        own = present[0]
+        reference = trajectory.get(own, base)
+        scales: list[float | None] = [None] * len(years)
+        if trajectory and series.grid_g_co2e_per_kwh is not None and reference is not None:
+            f0 = _g_per_kwh(reference, origin)
+            if not f0 > 0:
+                raise InputError(origin, reference.id, "a grid factor > 0 to scale the series' grid profile by")
+            scales = [_g_per_kwh(trajectory[year], origin) / f0 for year in years]
+        how = f"{series.path}: calendar year {own} repeated in every operating year" + (f", grid profile scaled by the trajectory (F(year) / F({own}) from {'the trajectory' if own in trajectory else 'the grid source factor ' + reference.id})" if scales[0] is not None else "")
+        return [series_of_year(series, year, True, 1.0 if scale is None else scale) for year, scale in zip(years, scales, strict=True)], scales, [own] * len(years), how
+    missing = [year for year in years if year not in present]
+    if missing:
+        raise InputError(
+            series.path, "timestamp",
+            f"intervals in every operating year {years[0]}-{years[-1]} (a series of one calendar year is repeated; one of several years is read year by year), missing {', '.join(str(y) for y in missing[:8])}",
+        )
+    return [series_of_year(series, year, False) for year in years], [None] * len(years), list(years), f"{series.path}: read year by year ({present[0]}-{present[-1]})"
+
+
 def _ageing_parameter(project) -> str:
     """The parameter path that stack ageing raises (declared by the hydrogen route), or ''."""
     return next((route.ageing for route in routes_of(project.model_dump()) if route.ageing), "")
@@ -258,7 +343,19 @@ def lifetime_score(
             year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
         else:
             year_sets.append(factor_set)
-    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
+    series = read_series(Path(project_file).parent / project.electricity.time_series, project) if project.electricity.time_series else None
+    scales: list[float | None] = [None] * len(calendar_years)
+    source_years: list[int | None] = [None] * len(calendar_years)
+    series_use = ""
+    if series is None:
+        scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
+    else:
+        base = factor_set.factors.get(grid_factor_id)
+        per_year, scales, source_years, series_use = yearly_series(series, calendar_years, trajectory, base, trajectory_origin or factor_set.name)
+        scores = [
+            score_with_series(item.project, one_set, one_series, gwp=gwp, schemes=schemes, source=project_file, project_sha256=project_sha256, year=year)
+            for item, one_set, one_series, year in zip(year_projects, year_sets, per_year, calendar_years, strict=True)
+        ]
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
@@ -333,6 +430,9 @@ def lifetime_score(
                 factors_from_memory=score.from_memory["factors"],
                 grid_factor_id=grid.id if grid else "",
                 grid_factor_year=grid.year if grid else None,
+                series_year=source_years[index],
+                grid_profile_scale=scales[index],
+                matched_share={check.scheme: check.electricity_matching.matched_share for check in score.checks if check.electricity_matching is not None},
             )
         )
     return LifetimeResult(
@@ -353,6 +453,7 @@ def lifetime_score(
         schemes=lifetime_schemes,
         trajectory_source=trajectory_origin,
         project_sha256=project_sha256,
+        time_series=series_use,
         boundary=project.project.boundary,
         parameters=project.model_dump(),
         factors_used=[factor.model_dump() for factor in first.factors_used]

@@ -252,11 +252,12 @@ def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: Electr
     return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
 
 
-def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, findings: list, granularity: str | None = None) -> Check:
+def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, granularity: str | None = None, findings: list | None = None) -> Check:
     """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if).
 
-    The verdict is judged again at the matched value under the scheme's findings (``scheme_reading``);
-    a co-product rule the project cannot follow keeps the check undetermined."""
+    With ``findings`` (the scheme's rules read on the project, ``core.scoring.scheme_reading``) the
+    status, reasons and tier follow the matched value as the engine's checks do (a co-product rule
+    the project cannot follow keeps the check undetermined); without them only the threshold is read."""
     load = series.load(model.kwh_per_kg_h2)
     local = series.local
     rule = describe(scheme.id) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme.id)})"
@@ -306,10 +307,13 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         periods=result.periods,
         monthly=monthly,
     )
-    verdict = judged(scheme, value, findings)
-    note = (check.co_products or {}).get("note", "")
-    if note.startswith("cannot be judged"):
-        verdict.update(status="undetermined", passes=False, tier=None, reasons=[note, *verdict["reasons"]])
+    if findings is None:
+        verdict = scheme.evaluate(value)
+    else:  # as core.scoring.scheme_checks: the verdict of the matched value
+        verdict = judged(scheme, value, findings)
+        note = (check.co_products or {}).get("note", "")
+        if note.startswith("cannot be judged"):
+            verdict.update(status="undetermined", passes=False, tier=None, reasons=[note, *verdict["reasons"]])
     return check.model_copy(update={"value": value, **verdict, "electricity_matching": matching})
 
 
@@ -328,8 +332,7 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     for check in result.checks:
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
-        _, findings, _ = scheme_reading(prepared, scheme)
-        checks.append(matched_check(check, scheme, series, model, findings, granularity))
+        checks.append(matched_check(check, scheme, series, model, granularity, scheme_reading(prepared, scheme)[1]))
     return result.model_copy(update={"checks": checks})
 
 

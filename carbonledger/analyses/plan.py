@@ -22,6 +22,13 @@ interval when the minimum stable load is above zero: a mixed-integer program, Hi
 segment j. The objective is hydrogen, or margin (hydrogen price x hydrogen - electricity price x
 load) when prices are given.
 
+With a part-load curve the plant's electricity per kg H2 is what the curve implies at the planned
+loads, e = sum_t p_t / sum_t h_t, not the design value e_d (the project's kWh/kg): the
+electricity per basis unit scales by e / e_d, so the scheme value is
+value = value_declared + k (c e / e_d - c_declared). Qualifying is then
+emissions <= c_max e_d sum_t h_t, still linear (hydrogen h_t replaces p_t / e_d on the right).
+The curve's kWh/kg are of the load column (all the project's electricity per kg H2).
+
 References
 ----------
 .. [1] Huangfu, Q. and Hall, J. A. J. (2018). Parallelizing the dual revised simplex method.
@@ -61,6 +68,14 @@ class PlanResult:
     notes: list[str] = field(default_factory=list)
 
     interval_minutes: int = 60
+    design_kwh_per_kg_h2: float = 0.0  # the project's electricity per kg H2 (design)
+    score_back: list[str] = field(default_factory=list)  # --set overrides that score the plan back at its own kWh/kg
+
+    @property
+    def kwh_per_kg_h2(self) -> float:
+        """Electricity per kg H2 the plan implies (the part-load curve at the planned loads; else the design value)."""
+        hydrogen = float(self.hydrogen_kg.sum())
+        return float(self.load_kwh.sum()) / hydrogen if hydrogen > 0 else self.design_kwh_per_kg_h2
 
     @property
     def rated_kw(self) -> float:
@@ -102,7 +117,23 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
 FULL_MIXED_INTEGER_UP_TO = 2000  # intervals; above, on/off is fixed from the linear relaxation first
 
 
-def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, least_kwh, time_limit_s, mip_gap):
+def interior_point_lp(objective, constraints, lower, upper):
+    """A linear program through HiGHS's interior-point method with crossover (a vertex optimum, as the
+    simplex gives). With a part-load curve the hydrogen variables enter the yearly emissions cap and the
+    dual simplex takes about five times longer on a year of hours."""
+    from scipy import sparse
+    from scipy.optimize import linprog
+
+    matrix = sparse.csr_array(constraints.A)
+    low, high = np.broadcast_to(constraints.lb, matrix.shape[:1]), np.broadcast_to(constraints.ub, matrix.shape[:1])
+    equal = low == high
+    above, below = np.isfinite(high) & ~equal, np.isfinite(low) & ~equal
+    inequalities = sparse.vstack([matrix[above], -matrix[below]]).tocsr()
+    equalities = {"A_eq": matrix[equal], "b_eq": low[equal]} if equal.any() else {}
+    return linprog(objective, A_ub=inequalities, b_ub=np.r_[high[above], -low[below]], bounds=np.c_[lower, upper], method="highs-ipm", **equalities)
+
+
+def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, least_kwh, time_limit_s, mip_gap, linear=None):
     """Solve the linear relaxation, keep on/off where it runs at or above the minimum load (on) or not at
     all (off), and round the intervals it runs below the minimum load: all off, or all on at least at the
     minimum load, each repaired by a linear program; the better feasible one wins. The relaxation bounds
@@ -111,7 +142,12 @@ def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, le
 
     p0, on0, n = layout
     continuous = np.zeros_like(integrality)
-    relaxed = milp(objective, constraints=constraints, integrality=continuous, bounds=Bounds(lower, upper))
+    def solve_linear(low, high):
+        if linear is not None:
+            return linear(objective, constraints, low, high)
+        return milp(objective, constraints=constraints, integrality=continuous, bounds=Bounds(low, high))
+
+    relaxed = solve_linear(lower, upper)
     if relaxed.x is None:
         return relaxed, ""
     load = relaxed.x[p0 : p0 + n]
@@ -124,7 +160,7 @@ def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, le
         status = on | (between & run_between)
         low[on0 : on0 + n] = status.astype(float)
         high[on0 : on0 + n] = status.astype(float)
-        trial = milp(objective, constraints=constraints, integrality=continuous, bounds=Bounds(low, high))
+        trial = solve_linear(low, high)
         if trial.x is not None and (best is None or trial.fun < best.fun):
             best = trial
     if best is None:
@@ -248,6 +284,17 @@ def plan_load(
     else:
         objective[p0 : p0 + n] = -slopes[0]
 
+    design = model.kwh_per_kg_h2
+
+    def output(load: np.ndarray) -> np.ndarray:
+        """Hydrogen (kg) per interval at these loads: the curve (on from any load above zero), or load / design kWh/kg."""
+        return np.clip(np.minimum.reduce([a * load + b * (load > 0) for a, b in zip(slopes, intercepts, strict=False)]), 0, None)
+
+    def scale(load: np.ndarray, hydrogen: np.ndarray) -> float:
+        """e / e_d: the kWh/kg the loads imply over the design kWh/kg (1 without a curve)."""
+        made = float(hydrogen.sum())
+        return float(load.sum()) / made / design if curve and made > 0 else 1.0
+
     period_grid = np.add.reduceat(grid, starts) / np.diff(np.r_[starts, n])  # first guess: plain mean per period
     single = np.diff(np.r_[starts, n]) == 1
     tightening = 0.0
@@ -257,13 +304,18 @@ def plan_load(
     for passes in range(1, 9):
         # emissions of each year: sum_P (cbar_P - g_P) m_P + sum_t g_P(t) p_t - cap p_t <= 0
         charge = np.where(single, grid[starts], period_grid)
-        year_rows = sparse.csr_array(
-            (np.r_[charge[labels] - (cap - tightening), cbar - charge], (np.r_[year_of, year_of[starts]], np.r_[p0 + index, m0 + np.arange(periods)])),
-            shape=(len(year_values), size),
-        )
+        if curve:  # emissions <= cap e_d sum h (the curve's own kWh/kg, see the module text)
+            entries = np.r_[charge[labels], -(cap - tightening) * design * np.ones(n), cbar - charge]
+            rows_at, columns_at = np.r_[year_of, year_of, year_of[starts]], np.r_[p0 + index, h0 + index, m0 + np.arange(periods)]
+        else:
+            entries = np.r_[charge[labels] - (cap - tightening), cbar - charge]
+            rows_at, columns_at = np.r_[year_of, year_of[starts]], np.r_[p0 + index, m0 + np.arange(periods)]
+        year_rows = sparse.csr_array((entries, (rows_at, columns_at)), shape=(len(year_values), size))
         constraints = LinearConstraint(sparse.vstack([fixed, year_rows]).tocsr(), np.r_[fixed_lower, np.full(len(year_values), -np.inf)], np.r_[fixed_upper, np.zeros(len(year_values))])
         if binary and n > FULL_MIXED_INTEGER_UP_TO:
-            solved, gap_note = _relax_and_fix(objective, constraints, integrality, bounds_lo, bounds_hi, (p0, on0, n), min_load * rated, time_limit_s, mip_gap)
+            solved, gap_note = _relax_and_fix(objective, constraints, integrality, bounds_lo, bounds_hi, (p0, on0, n), min_load * rated, time_limit_s, mip_gap, interior_point_lp if curve else None)
+        elif curve and not binary:
+            solved, gap_note = interior_point_lp(objective, constraints, bounds_lo, bounds_hi), ""
         else:
             limits = {"time_limit": time_limit_s, "mip_rel_gap": mip_gap} if binary else {}
             solved = milp(objective, constraints=constraints, integrality=integrality, bounds=Bounds(bounds_lo, bounds_hi), options=limits)
@@ -278,7 +330,7 @@ def plan_load(
             mask = year_of == year
             if result_load[mask].sum() <= 0:
                 continue
-            intensity = counted_intensity(scored, result_load, model, series.grid_g_co2e_per_kwh, mask)[3]
+            intensity = counted_intensity(scored, result_load, model, series.grid_g_co2e_per_kwh, mask)[3] * scale(result_load[mask], output(result_load)[mask])
             if intensity > cap_at_limit:
                 years_ok = False
                 worst = max(worst, intensity - cap)
@@ -294,18 +346,17 @@ def plan_load(
         notes.append("the plan scored back still misses the cap after 8 passes")
     if gap_note:
         notes.append(gap_note)
-    hydrogen = np.minimum.reduce([a * result_load + b * (result_load > 0) for a, b in zip(slopes, intercepts, strict=False)])
-    hydrogen = np.clip(hydrogen, 0, None)
+    hydrogen = output(result_load)
 
     def scheme_value(load):
         scored = match(load, series.generation_kwh, eligible, rule, series.utc, local)
         c = counted_intensity(scored, load, model, series.grid_g_co2e_per_kwh)[3]
-        return value_declared + slope * (c - model.declared_kg_per_kwh), scored.matched_share
+        return value_declared + slope * (c * scale(load, output(load)) - model.declared_kg_per_kwh), scored.matched_share
 
     value, share = scheme_value(result_load)
     full = np.full(n, rated)
     base_value, base_share = scheme_value(full)
-    base_h2 = float(np.minimum.reduce([a * full + b for a, b in zip(slopes, intercepts, strict=False)]).sum())
+    base_h2 = float(output(full).sum())
     margin = base_margin = None
     if hydrogen_price is not None:
         margin = float(hydrogen_price * hydrogen.sum() - series.price_per_mwh @ result_load / 1000.0)
@@ -314,7 +365,7 @@ def plan_load(
     name = granularity or (rule if isinstance(rule, str) else "dated rule")
     return PlanResult(
         scheme.id, "", limit, scheme.unit, name, rated, result_load, hydrogen, float(value), float(share), base_h2, float(base_value), float(base_share),
-        bool(qualifies), margin, base_margin, passes, notes, series.interval_minutes,
+        bool(qualifies), margin, base_margin, passes, notes, series.interval_minutes, design,
     )
 
 
@@ -362,6 +413,8 @@ def plan_csv(series: ElectricitySeries, plan: PlanResult) -> str:
     if series.price_per_mwh is not None:
         columns[f"price [{series.price_unit.split('/')[0].strip()}/MWh]"] = series.price_per_mwh
     buffer = io.StringIO()
-    buffer.write(f"# operating plan for {plan.scheme} (limit {plan.limit:g} {plan.unit}, matching {plan.granularity}); hydrogen {plan.hydrogen_kg.sum():.1f} kg\n")
+    buffer.write(f"# operating plan for {plan.scheme} (limit {plan.limit:g} {plan.unit}, matching {plan.granularity}); hydrogen {plan.hydrogen_kg.sum():.1f} kg at {plan.kwh_per_kg_h2:.6g} kWh/kg\n")
+    if plan.score_back:
+        buffer.write(f"# score it back at the part-load curve's kWh/kg: --set {' --set '.join(plan.score_back)}\n")
     pd.DataFrame(columns).to_csv(buffer, index=False, lineterminator="\n")
     return buffer.getvalue()

@@ -37,6 +37,9 @@ def summary(plan: PlanResult) -> dict:
         "baseline_matched_share": plan.baseline_matched_share,
         "hydrogen_lost_kg": lost,
         "hydrogen_lost_share": lost / plan.baseline_hydrogen_kg if plan.baseline_hydrogen_kg else 0.0,
+        "kwh_per_kg_h2": plan.kwh_per_kg_h2,
+        "design_kwh_per_kg_h2": plan.design_kwh_per_kg_h2,
+        "score_back_set": plan.score_back,
         "notes": plan.notes,
     }
     if plan.margin is not None:
@@ -54,6 +57,9 @@ def table(figures: dict, output: Path) -> str:
     ]
     if "margin" in figures:
         lines.append(f"Margin: plan {figures['margin']:,.0f}, at rated power {figures['baseline_margin']:,.0f} (currency of the price column).")
+    if figures["score_back_set"]:
+        lines.append(f"Electricity per kg H2 at the planned loads (part-load curve): {figures['kwh_per_kg_h2']:.3f} kWh/kg (design {figures['design_kwh_per_kg_h2']:.3f}); the value above uses it.")
+        lines.append("Score the plan back at that efficiency with: " + " ".join(f"--set {item}" for item in figures["score_back_set"]))
     lines += [f"note: {note}" for note in figures["notes"]]
     lines.append(f"wrote {output}")
     lines.append("Caution: a screening estimate, not a certification; the scheme's official methodology and verifier decide.")
@@ -67,7 +73,7 @@ def plan(
     tier: Annotated[Optional[str], typer.Option("--tier", help="Tier to reach (part of its name, or its limit); default the loosest.")] = None,
     rated_kw: Annotated[Optional[float], typer.Option("--rated-kw", help="Electrolyser rated power, kW; default the largest load in the series.")] = None,
     min_load: Annotated[float, typer.Option("--min-load", help="Minimum stable load, fraction of rated power (the plant may also stop).")] = 0.0,
-    part_load: Annotated[Optional[str], typer.Option("--part-load", help="Part-load curve: FRACTION:KWH_PER_KG points, e.g. 0.2:58,0.5:52,1:54.")] = None,
+    part_load: Annotated[Optional[str], typer.Option("--part-load", help="Part-load curve: FRACTION:KWH_PER_KG points (the project's electricity per kg H2 at that load), e.g. 0.2:58,0.5:52,1:54; the scheme value uses the kWh/kg the curve implies at the planned loads.")] = None,
     hydrogen_price: Annotated[Optional[float], typer.Option("--hydrogen-price", help="Hydrogen price per kg (currency of the price column): maximise margin instead of hydrogen.")] = None,
     matching: Annotated[Optional[str], typer.Option("--matching", help="rule (the scheme's dated rule, default), or interval, hour, month, quarter, year.")] = None,
     factors: FactorsOption = "default-2026",
@@ -89,4 +95,4 @@ def plan(
     except InputError as error:
         fail(error)
     figures = summary(result)
-    typer.echo(render(output_format, table=lambda: table(figures, output), json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False), csv=lambda: csv_text(("section", "key", "value", "unit"), [("plan", k, v, "") for k, v in figures.items() if k != "notes"], caution=CAUTION)), nl=False)
+    typer.echo(render(output_format, table=lambda: table(figures, output), json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False), csv=lambda: csv_text(("section", "key", "value", "unit"), [("plan", k, v, "") for k, v in figures.items() if k not in ("notes", "score_back_set")], caution=CAUTION)), nl=False)

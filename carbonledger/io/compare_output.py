@@ -60,6 +60,11 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
         rows += [
             (f"check:{scheme}", "from_memory", "", [c.from_memory if c else "n/a" for c in checks]),
         ]
+        if any(c is not None and c.electricity_matching is not None for c in checks):
+            rows += [
+                (f"check:{scheme}", "matching", "", [c.electricity_matching.granularity if c and c.electricity_matching else "declared shares" for c in checks]),
+                (f"check:{scheme}", "matched_share", "fraction", [c.electricity_matching.matched_share if c and c.electricity_matching else None for c in checks]),
+            ]
     rows.append(("from_memory", "factors", "", ["; ".join(p.factors_from_memory) or "none" for p in projects]))
     return rows
 
@@ -121,15 +126,69 @@ def _chart_text(text: str) -> str:
     return text.replace("$", r"\$")
 
 
+def monthly_matching(result: ComparisonResult) -> tuple[str, list[str], dict[str, tuple[list[float], list[float]]]]:
+    """What the chart's monthly panel shows, read from the checks (never recomputed): the scheme whose
+    matching leaves the most electricity unmatched over the projects with a series (the strictest rule
+    in the comparison; ``--scheme`` narrows the choice; first in order on a tie), the months, and per
+    project with a series its matched and unmatched electricity (kWh) in each month (0 where it has no data)."""
+    matched: dict[str, list[float]] = {}
+    for project in result.projects:
+        for check in project.checks:
+            if check.electricity_matching is not None:
+                totals = matched.setdefault(check.scheme, [0.0, 0.0])
+                totals[0] += check.electricity_matching.matched_kwh
+                totals[1] += check.electricity_matching.load_kwh
+    if not matched:
+        return "", [], {}
+    scheme = min(matched, key=lambda name: matched[name][0] / matched[name][1] if matched[name][1] > 0 else 1.0)
+    matchings = {_label(p): c.electricity_matching for p in result.projects for c in p.checks if c.scheme == scheme and c.electricity_matching is not None}
+    months = sorted({m.month for matching in matchings.values() for m in matching.monthly})
+    by_project = {}
+    for label, matching in matchings.items():
+        found = {m.month: m for m in matching.monthly}
+        by_project[label] = ([found[m].matched_kwh if m in found else 0.0 for m in months], [found[m].unmatched_kwh if m in found else 0.0 for m in months])
+    return scheme, months, by_project
+
+
+def _monthly_panel(axes, result: ComparisonResult) -> None:
+    """Grouped monthly bars: each project's matched electricity (solid), its unmatched (grid) part stacked above (hatched)."""
+    import matplotlib.pyplot as plt
+
+    scheme, months, by_project = monthly_matching(result)
+    colours = plt.get_cmap("tab10").colors
+    width = 0.8 / len(by_project)
+    for number, (label, (matched, unmatched)) in enumerate(by_project.items()):
+        positions = [index - 0.4 + width * (number + 0.5) for index in range(len(months))]
+        matched_mwh = [v / 1000.0 for v in matched]
+        colour = colours[number % len(colours)]
+        bars = axes.bar(positions, matched_mwh, width=width, color=colour, label=f"{_chart_text(label)}: matched")
+        for index, patch in enumerate(bars.patches):
+            patch.set_gid(f"matched-{number}-{months[index]}")
+        bars = axes.bar(positions, [v / 1000.0 for v in unmatched], bottom=matched_mwh, width=width, color="white", edgecolor=colour, hatch="///", label=f"{_chart_text(label)}: unmatched (grid)")
+        for index, patch in enumerate(bars.patches):
+            patch.set_gid(f"unmatched-{number}-{months[index]}")
+    axes.set_xticks(range(len(months)), months, rotation=60, ha="right", fontsize=7)
+    axes.set_ylabel("electricity use, MWh")
+    axes.set_title(f"Electricity use by month, matched with contracted generation under {scheme}'s rule (projects with a time series)", fontsize=9)
+    axes.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+
+
 def comparison_figure(result: ComparisonResult):
-    """A matplotlib figure: one stacked bar per project by stage, scheme limits as lines."""
+    """A matplotlib figure: one stacked bar per project by stage, scheme limits as lines; below, where
+    projects have an electricity time series, their monthly matched and unmatched electricity."""
     import matplotlib
 
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
     labels = [_chart_text(_label(p)) for p in result.projects]
-    figure, axes = plt.subplots(figsize=(max(7.0, 1.5 * len(labels) + 3.5), 5.5), layout="constrained")
+    with_series = bool(monthly_matching(result)[2])
+    width = max(7.0, 1.5 * len(labels) + 3.5)
+    if with_series:
+        figure, (axes, monthly) = plt.subplots(2, 1, figsize=(max(width, 10.0), 10.0), layout="constrained", height_ratios=(1.2, 1.0))
+        _monthly_panel(monthly, result)
+    else:
+        figure, axes = plt.subplots(figsize=(width, 5.5), layout="constrained")
     colours = plt.get_cmap("tab20").colors
     positions = list(range(len(labels)))
     above = [0.0] * len(labels)

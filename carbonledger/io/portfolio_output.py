@@ -141,16 +141,26 @@ def lifetime_csv(result) -> str:
     """One row per operating year, then the two lifetime averages; the ``from_memory`` column lists
     the factors of each year, and on the average rows the rulebooks, recorded from memory."""
     schemes = [s.scheme for s in result.schemes]
-    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + ("from_memory",)
+    series = bool(result.time_series)
+    extra = ("series_year", "grid_profile_scale") + tuple(f"{s}_matched_share" for s in schemes) if series else ()
+    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + extra + ("from_memory",)
+
+    def series_cells(y) -> tuple:
+        if not series:
+            return ()
+        return (y.series_year, "" if y.grid_profile_scale is None else y.grid_profile_scale) + tuple(y.matched_share.get(s, "") for s in schemes)
+
     rows = [
         (y.year, y.stack_age_years, y.efficiency_fraction, y.output_t, "" if y.grid_factor is None else y.grid_factor, y.grid_factor_unit, y.total, result.unit)
         + tuple(y.scheme_values[s] for s in schemes)
+        + series_cells(y)
         + ("; ".join(y.factors_from_memory),)
         for y in result.years
     ]
     rulebooks = "; ".join(result.from_memory["rulebooks"])
-    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes) + (rulebooks,))
-    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes) + (rulebooks,))
+    blank = ("",) * len(extra)
+    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes) + blank + (rulebooks,))
+    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes) + blank + (rulebooks,))
     return csv_text(header, rows, caution=CAUTION)
 
 
@@ -161,8 +171,10 @@ def lifetime_table(result) -> str:
         f"project file: {result.project_file}",
         f"factors: {result.factor_set} (sha256 {result.factor_set_sha256[:12]})   GWP100 of the total: {result.gwp.upper()}"
         + (f"   grid trajectory: {result.trajectory_source}" if result.trajectory_source else ""),
-        "",
     ]
+    if result.time_series:
+        lines.append(f"electricity time series: {result.time_series}; scheme values matched under each year's rule")
+    lines.append("")
     headers = ["year", "stack age", "efficiency", "output t", "grid", f"total {result.unit}"] + [f"{s.scheme} [{s.unit}]" for s in schemes]
     rows = []
     for y in result.years:

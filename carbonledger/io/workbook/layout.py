@@ -15,6 +15,7 @@ from ...model.project import split_path
 from .cells import Term, resolve
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
+MATCHING, INTERVALS = "Matching", "Intervals"  # with an electricity time series
 INPUT_HEADER_ROW = 4
 FACTOR_HEADER_ROW = 4
 INPUT_COLUMNS = ("parameter", "value", "unit", "description", "evidence (meter, invoice, design document)")

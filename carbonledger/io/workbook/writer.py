@@ -15,6 +15,10 @@ Calculation  activities with their supply per functional unit (formulas), then o
 Results      by stage, by gas, intensities, scheme checks and their thresholds, a bar chart
 Periods      (with metered data) one block per month and a summary for the year
 Uncertainty  (with a Monte Carlo result) the distributions and the summary of the draws (uncertainty_sheet.py)
+Matching     (with an electricity time series) per scheme and per month: use, matched energy, matched
+             share and grid electricity per kg H2, summed over the Intervals sheet
+Intervals    (with an electricity time series) one row per interval: use, generation per source, grid
+             intensity, and per distinct matching the eligible generation and the matched energy (MIN)
 
 Supply of activity j per functional unit: s_j = f_j + sum over consumers k of a_jk * s_k, where
 a_jk is the amount of j one unit of k consumes. The chain is acyclic, so each s_j is a finite
@@ -54,6 +58,7 @@ from .calculation import (
     write_calculation_block,
 )
 from .cells import Term, local, ref, sum_of
+from .intervals_sheet import write_intervals_sheets
 from .layout import (
     CALCULATION,
     COVER,
@@ -66,6 +71,8 @@ from .layout import (
     INPUT_HEADER_ROW,
     INPUTS,
     INTENSITY_UNITS,
+    INTERVALS,
+    MATCHING,
     PERIODS,
     RESULTS,
     copy_tree,
@@ -122,6 +129,8 @@ def build_workbook(
     evidence: dict[str, str] | None = None,
     uncertainty=None,
     draws_csv: str = "",
+    series=None,
+    matched_checks=None,
 ):
     """The audit workbook of a scored project, as an openpyxl Workbook (not yet saved).
 
@@ -132,7 +141,10 @@ def build_workbook(
     ``evidence`` (parameter path -> text, as read back from an earlier workbook) fills the
     Inputs sheet's evidence column, so a workbook written again keeps it. With ``uncertainty``
     (an ``analyses.uncertainty.UncertaintyResult`` of the same project) the Uncertainty sheet is
-    added; ``draws_csv`` names the CSV of its draws written beside the workbook, if any.
+    added; ``draws_csv`` names the CSV of its draws written beside the workbook, if any. With ``series``
+    (``analyses.electricity_series.ElectricitySeries``) and ``matched_checks`` (the engine's checks
+    with ``electricity_matching``, scored against that series), the Matching and Intervals sheets
+    are added; the other sheets keep the declared annual shares.
     """
     from openpyxl import Workbook
 
@@ -167,6 +179,11 @@ def build_workbook(
     results_cells = _write_results_sheet(results_ws, model, chosen, block, address, result)
     if period_plan is not None:
         write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, result.unit, chosen, results_cells)
+    matched = [check for check in matched_checks or [] if check.electricity_matching is not None]
+    series_source = ""
+    if series is not None and matched:
+        write_intervals_sheets(workbook.create_sheet(MATCHING), workbook.create_sheet(INTERVALS), series, matched, block, model.inventory.hydrogen)
+        series_source = f"{series.path} (sha256 {series.sha256})"
     _write_cover(
         cover,
         result,
@@ -176,10 +193,12 @@ def build_workbook(
         factors_option=factors_option,
         source=source,
         meters_source=meters_source if meters is not None else "",
+        series_source=series_source,
     )
     _style_calculation(calculation_ws, block, result)
     for sheet in workbook.worksheets:
-        fill_missing_formats(sheet)
+        if sheet.title != INTERVALS:  # every interval cell is given its format as it is written
+            fill_missing_formats(sheet)
     page_setup(cover)
     page_setup(inputs_ws, title_rows=f"{INPUT_HEADER_ROW}:{INPUT_HEADER_ROW}")
     page_setup(factors_ws, title_rows=f"{FACTOR_HEADER_ROW}:{FACTOR_HEADER_ROW}")
@@ -449,7 +468,7 @@ def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
     return f'IF({status}="not_eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","pass"),"fail"))'
 
 
-def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source) -> None:
+def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source, series_source: str = "") -> None:
     put_text(ws, 1, 1, "carbonledger audit workbook")
     ws.cell(row=1, column=1).font = font_bold()
     put_text(ws, 2, 1, f"Caution: {CAUTION}")
@@ -471,6 +490,8 @@ def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source,
     ]
     if meters_source:
         rows.append(("Metered periods file", meters_source))
+    if series_source:
+        rows.append(("Electricity time series", series_source))
     rows.append(("Layout", FORMAT_MARK))
     row = 3
     for label, value in rows:
@@ -484,6 +505,7 @@ def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source,
         "Calculation: the supply of each activity per functional unit and one row per exchange, all live formulas.",
         "Results: totals by stage and gas, intensities, each scheme's check under its own GWP set and electricity rule, and a chart.",
         "Change an input or a factor and every figure follows. The engine's own figures are shown beside the formulas for comparison.",
+        *(("Matching and Intervals: the electricity time series, one row per interval, matched with contracted generation under each scheme's temporal rule (live formulas); Calculation and Results keep the declared annual shares.",) if series_source else ()),
         "Scheme checks use each scheme's rulebook as carbonledger reads it; the scheme's official methodology and an accredited verifier decide.",
     )
     for text in guide:

@@ -1,0 +1,251 @@
+"""The Intervals and Matching sheets: the electricity time series, one row per interval, and its
+matching with contracted generation as live formulas, per scheme (Intervals), summed by month and
+in all (Matching).
+
+Schemes that match the same eligible sources over the same periods share one set of columns
+(they match the same energy). For each set, interval t of matching period P:
+
+- eligible generation G_t = sum of the eligible sources' generation in the interval;
+- a period of one interval: matched m_t = MIN(L_t, G_t);
+- a longer period (month, quarter, year; an hour of 15- or 30-minute data): on the period's first
+  row L_P = SUM(L over P) and M_P = MIN(L_P, SUM(G over P)); every interval of P is matched in the
+  same proportion, m_t = L_t M_P / L_P (0 when L_P = 0).
+
+The monthly table sums load and matched energy over each local calendar month; the summary gives
+per scheme the matched share (matched / load) and the grid electricity per kg H2,
+(1 - matched share) x electricity per kg H2 (the Calculation sheet's figure). With a series of
+hydrogen (kg) instead of electricity, the load is hydrogen x that figure, so it follows the
+Calculation sheet too. The engine's figures stand beside the formulas for comparison.
+
+The writer lays out what the engine matched (``core.results.ElectricityMatching`` of each
+check) and never scores; the periods are the same as the engine's (``matching.period_labels``).
+
+References
+----------
+.. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 6 (temporal correlation).
+"""
+
+from __future__ import annotations
+
+from copy import copy
+
+import numpy as np
+
+from ...analyses.matching import period_labels, scheme_granularity
+from ...model.matching_rules import GRANULARITIES
+from .layout import CALCULATION, INTERVALS, MATCHING, put_text
+from .style import SHARE, header_row, page_setup, style_cell
+
+SUMMARY_TOP = 4
+INTERVAL_HEADER_ROW = 3
+
+
+def _stamp(local, offset: int) -> str:
+    sign = "+" if offset >= 0 else "-"
+    return f"{str(local)[:16]}{sign}{abs(int(offset)) // 60:02d}:{abs(int(offset)) % 60:02d}"
+
+
+def matching_groups(series, checks) -> list[tuple[tuple[str, ...], np.ndarray, list]]:
+    """(eligible sources, period labels, checks) of each distinct matching among the checks."""
+    groups: dict[tuple, tuple] = {}
+    for check in checks:
+        matching = check.electricity_matching
+        granularity = matching.granularity if matching.granularity in GRANULARITIES else scheme_granularity(check.scheme, series.local)
+        labels = period_labels(series.utc, series.local, granularity)
+        eligible = tuple(name for name in matching.eligible_sources if name in series.generation_kwh)
+        key = (eligible, labels.tobytes())
+        if key not in groups:
+            groups[key] = (eligible, labels, [])
+        groups[key][2].append(check)
+    return list(groups.values())
+
+
+def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key: str) -> dict:
+    """Write the Matching sheet (``ws``) and the Intervals sheet; returns where the tables are."""
+    from openpyxl.cell.cell import Cell
+    from openpyxl.utils import get_column_letter
+
+    n = series.intervals
+    names = list(series.generation_kwh)
+    groups = matching_groups(series, checks)
+    months = series.local.astype("datetime64[M]")
+    month_starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
+    month_ends = np.r_[month_starts[1:], n] - 1
+
+    # Matching: constants, scheme summary, monthly table; Intervals: one row per interval
+    kwh_row = 3
+    summary_header = SUMMARY_TOP + 1
+    month_header = summary_header + len(checks) + 3
+    interval_header = INTERVAL_HEADER_ROW
+    first = interval_header + 1
+    last = first + n - 1
+    main, ws = ws, intervals_ws  # the interval rows are written on the Intervals sheet
+    at = f"{INTERVALS}!"
+
+    # the looks of style.style_cell, registered once and copied to every interval cell (setting a
+    # font per cell costs a style look-up each: seconds for a year of hours)
+    templates = {}
+    for kind, looks, number_format in (("input", "input", "#,##0.000"), ("grid", "input", "#,##0.0"), ("formula", "formula", "#,##0.000")):
+        template = ws.cell(row=1, column=1000)
+        style_cell(template, looks, number_format)
+        templates[kind] = copy(template._style)
+        del ws._cells[(1, 1000)]
+
+    cells = ws._cells
+
+    def put(row: int, column: int, value, kind: str) -> None:
+        """A styled cell, made directly (``ws.cell`` and a style look-up per cell cost seconds a year)."""
+        cells[(row, column)] = Cell(ws, row=row, column=column, value=value, style_array=copy(templates[kind]))
+
+    put_text(ws, 1, 1, f"Electricity time series {series.path}: one row per interval ({series.interval_minutes} minutes, local time as written) and its matching with contracted generation, as live formulas.")
+    put_text(ws, 2, 1, "In each matching period: matched = MIN(use, eligible generation); an interval of a longer period is matched in the period's proportion. Generation beyond the use of one period does not carry to another. Sums on the Matching sheet.")
+    style_cell(ws.cell(row=1, column=1), "title")
+    put_text(main, 1, 1, f"Matching of the electricity time series {series.path} with contracted generation, per scheme: sums over the Intervals sheet.")
+    style_cell(main.cell(row=1, column=1), "title")
+    put_text(main, kwh_row, 1, "electricity per kg H2 at the plant gate (kWh/kg), from the Calculation sheet")
+    mix, hydrogen = block.activity_row["electricity_mix"], block.activity_row[hydrogen_key]
+    cell = main.cell(row=kwh_row, column=2, value=f"={CALCULATION}!$G${mix}/{CALCULATION}!$G${hydrogen}")
+    style_cell(cell, "formula", "#,##0.000")
+    kwh_per_kg = f"$B${kwh_row}"
+
+    # the interval columns
+    column = {"timestamp": 1, "load": 2}
+    headers = ["interval start (local, with UTC offset)", "electricity use (kWh)"]
+    if series.load_kwh is None:
+        column["hydrogen"] = 3
+        headers.append("hydrogen (kg), from the series")
+    for name in names:
+        column[f"generation:{name}"] = len(headers) + 1
+        headers.append(f"generation, {name} (kWh)")
+    if series.grid_g_co2e_per_kwh is not None:
+        column["grid"] = len(headers) + 1
+        headers.append("grid intensity (g CO2e/kWh)")
+    generation_column: dict[tuple[str, ...], int] = {}  # one column per distinct set of eligible sources
+    for eligible, _, _ in groups:
+        if len(eligible) == 1:
+            generation_column[eligible] = column[f"generation:{eligible[0]}"]
+        elif eligible not in generation_column:
+            generation_column[eligible] = len(headers) + 1
+            headers.append(f"eligible generation, {' + '.join(eligible) if eligible else 'no eligible source'} (kWh)")
+    group_columns = []
+    for number, (eligible, labels, group_checks) in enumerate(groups, start=1):
+        schemes = ", ".join(check.scheme for check in group_checks)
+        sizes = np.bincount(labels)
+        longer = bool((sizes > 1).any())
+        place = {"generation": generation_column[eligible]}
+        if longer:
+            place["period_load"] = len(headers) + 1
+            headers.append(f"matching {number} ({schemes}): use in the period (kWh, first row of each period)")
+            place["period_matched"] = len(headers) + 1
+            headers.append(f"matching {number}: matched in the period (kWh, first row of each period)")
+        place["matched"] = len(headers) + 1
+        headers.append(f"matching {number}{'' if longer else f' ({schemes})'}: matched (kWh)")
+        group_columns.append((eligible, labels, sizes, place))
+    letter = {key: get_column_letter(value) for key, value in column.items()}
+
+    for position, text in enumerate(headers, start=1):
+        put_text(ws, interval_header, position, text)
+    header_row(ws, interval_header, len(headers))
+
+    local = series.local
+    offsets = series.offset_minutes
+    stamps = [_stamp(t, o) for t, o in zip(local, offsets, strict=True)]
+    month_text = [str(m) for m in months]
+    load_values = series.load_kwh
+    for index in range(n):
+        row = first + index
+        cells[(row, 1)] = Cell(ws, row=row, column=1, value=stamps[index])
+        if load_values is not None:
+            put(row, column["load"], float(load_values[index]), "input")
+        else:
+            put(row, column["hydrogen"], float(series.hydrogen_kg[index]), "input")
+            put(row, column["load"], f"={letter['hydrogen']}{row}*{MATCHING}!{kwh_per_kg}", "formula")
+        for name in names:
+            put(row, column[f"generation:{name}"], float(series.generation_kwh[name][index]), "input")
+        if "grid" in column:
+            put(row, column["grid"], float(series.grid_g_co2e_per_kwh[index]), "grid")
+
+    load = letter["load"]
+    for eligible, place in generation_column.items():
+        if len(eligible) == 1:
+            continue  # the source's own column
+        sources = "+".join(f"{letter[f'generation:{name}']}{{r}}" for name in eligible)
+        for index in range(n):
+            row = first + index
+            put(row, place, "=" + sources.format(r=row) if eligible else 0.0, "formula")
+    for _eligible, labels, sizes, place in group_columns:
+        g = get_column_letter(place["generation"])
+        m = get_column_letter(place["matched"])
+        starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
+        period_first = first + starts[labels]  # row of each interval's period start
+        period_last = first + np.r_[starts[1:], n][labels] - 1
+        for index in range(n):
+            row = first + index
+            if sizes[labels[index]] == 1:
+                formula = f"=MIN({load}{row},{g}{row})"
+            else:
+                top, bottom = int(period_first[index]), int(period_last[index])
+                pl, pm = get_column_letter(place["period_load"]), get_column_letter(place["period_matched"])
+                if row == top:
+                    put(row, place["period_load"], f"=SUM({load}{top}:{load}{bottom})", "formula")
+                    put(row, place["period_matched"], f"=MIN({pl}{top},SUM({g}{top}:{g}{bottom}))", "formula")
+                formula = f"=IF(${pl}${top}=0,0,{load}{row}*${pm}${top}/${pl}${top})"
+            put(row, place["matched"], formula, "formula")
+        place["letter"] = m
+
+    # monthly table: use and, per scheme, matched energy and share
+    group_of = {check.scheme: number for number, (_, _, group_checks) in enumerate(groups) for check in group_checks}
+    month_headers = ["month", "electricity use (kWh)"]
+    for check in checks:
+        month_headers += [f"{check.scheme}: matched (kWh)", f"{check.scheme}: unmatched (kWh)", f"{check.scheme}: matched share"]
+    put_text(main, month_header - 1, 1, "By month (local calendar): sums over the intervals below.")
+    for position, text in enumerate(month_headers, start=1):
+        put_text(main, month_header, position, text)
+    header_row(main, month_header, len(month_headers))
+    for number, (start, end) in enumerate(zip(month_starts, month_ends, strict=True)):
+        row = month_header + 1 + number
+        put_text(main, row, 1, month_text[start])
+        cell = main.cell(row=row, column=2, value=f"=SUM({at}{load}{first + start}:{load}{first + end})")
+        style_cell(cell, "formula", "#,##0.000")
+        for position, check in enumerate(checks):
+            matched_letter = group_columns[group_of[check.scheme]][3]["letter"]
+            base = 3 + 3 * position
+            matched_cell = get_column_letter(base)
+            style_cell(main.cell(row=row, column=base, value=f"=SUM({at}{matched_letter}{first + start}:{matched_letter}{first + end})"), "formula", "#,##0.000")
+            style_cell(main.cell(row=row, column=base + 1, value=f"=B{row}-{matched_cell}{row}"), "formula", "#,##0.000")
+            style_cell(main.cell(row=row, column=base + 2, value=f"=IF(B{row}=0,0,{matched_cell}{row}/B{row})"), "formula", SHARE)
+
+    # summary per scheme
+    summary_headers = [
+        "scheme", "matching (the scheme's rule)", "eligible sources", "matching columns", "electricity use (kWh)", "matched (kWh)",
+        "matched share", "grid electricity (kWh/kg H2)", "matched share, engine at writing", "grid kWh/kg H2, engine at writing",
+    ]
+    put_text(main, SUMMARY_TOP, 1, "Per scheme: matched share = matched / use; grid electricity per kg H2 = (1 - matched share) x electricity per kg H2.")
+    for position, text in enumerate(summary_headers, start=1):
+        put_text(main, summary_header, position, text)
+    header_row(main, summary_header, len(summary_headers))
+    rows: dict[str, int] = {}
+    for number, check in enumerate(checks):
+        row = summary_header + 1 + number
+        rows[check.scheme] = row
+        matching = check.electricity_matching
+        matched_letter = group_columns[group_of[check.scheme]][3]["letter"]
+        put_text(main, row, 1, check.scheme)
+        put_text(main, row, 2, matching.rule)
+        put_text(main, row, 3, ", ".join(matching.eligible_sources) or "none")
+        put_text(main, row, 4, f"matching {group_of[check.scheme] + 1}")
+        style_cell(main.cell(row=row, column=5, value=f"=SUM({at}{load}{first}:{load}{last})"), "formula", "#,##0.0")
+        style_cell(main.cell(row=row, column=6, value=f"=SUM({at}{matched_letter}{first}:{matched_letter}{last})"), "formula", "#,##0.0")
+        style_cell(main.cell(row=row, column=7, value=f"=IF(E{row}=0,0,F{row}/E{row})"), "formula", SHARE)
+        style_cell(main.cell(row=row, column=8, value=f"=(1-G{row})*{kwh_per_kg}"), "formula", "#,##0.000")
+        style_cell(main.cell(row=row, column=9, value=matching.matched_share), "engine", SHARE)
+        style_cell(main.cell(row=row, column=10, value=matching.grid_kwh_per_kg_h2), "engine", "#,##0.000")
+
+    for sheet, count in ((ws, len(headers)), (main, max(len(month_headers), len(summary_headers)))):
+        sheet.column_dimensions["A"].width = 30
+        for position in range(2, count + 1):
+            sheet.column_dimensions[get_column_letter(position)].width = 20
+    ws.freeze_panes = f"B{first}"
+    page_setup(main, title_columns="A:A", pages_wide=2)
+    page_setup(ws, title_rows=f"{interval_header}:{interval_header}", pages_wide=2)
+    return {"summary": rows, "month_header": month_header, "interval_header": interval_header}
