@@ -11,6 +11,10 @@ IPCC Guidelines Vol. 2 Ch. 2, Table 2.2); a methane mass fraction of natural gas
 
 from __future__ import annotations
 
+import functools
+import tempfile
+from pathlib import Path
+
 import pytest
 from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
@@ -359,13 +363,21 @@ def test_a_new_ledger_is_created_whole_and_reused(tmp_path):
 # --- workbook read-back: what a spreadsheet user can do to the Inputs sheet ----------------------
 
 
+@functools.cache
+def blue_workbook() -> bytes:
+    """The blue SMR demo's audit workbook, written once per test process (each test edits its own copy)."""
+    with tempfile.TemporaryDirectory() as folder:
+        assert run_cli("workbook", BLUE, "-o", Path(folder) / "blue.xlsx", "--no-ledger").exit_code == 0
+        return (Path(folder) / "blue.xlsx").read_bytes()
+
+
 def _book_with(tmp_path, edit, name="edited.xlsx"):
     """A workbook of the blue SMR demo, with ``edit(inputs_sheet, row_of)`` applied and saved."""
     import openpyxl
 
     original = tmp_path / "original.xlsx"
     if not original.exists():
-        assert run_cli("workbook", BLUE, "-o", original, "--no-ledger").exit_code == 0
+        original.write_bytes(blue_workbook())
     book = openpyxl.load_workbook(original)
     ws = book["Inputs"]
     row_of = {ws.cell(row=r, column=1).value: r for r in range(5, ws.max_row + 1)}
@@ -433,7 +445,7 @@ def test_a_workbook_too_large_to_open_safely_is_refused(tmp_path):
     import zipfile
 
     original = tmp_path / "original.xlsx"
-    assert run_cli("workbook", BLUE, "-o", original, "--no-ledger").exit_code == 0
+    original.write_bytes(blue_workbook())
     big = tmp_path / "big.xlsx"  # over 20 MB on disk
     big.write_bytes(original.read_bytes())
     with big.open("r+b") as handle:
@@ -456,7 +468,7 @@ def test_an_impossible_factor_edited_in_a_workbook_is_refused(tmp_path, factor_i
     import openpyxl
 
     original = tmp_path / "original.xlsx"
-    assert run_cli("workbook", BLUE, "-o", original, "--no-ledger").exit_code == 0
+    original.write_bytes(blue_workbook())
     book = openpyxl.load_workbook(original)
     ws = book["Factors"]
     row = next(r for r in range(5, ws.max_row + 1) if ws.cell(row=r, column=1).value == factor_id)

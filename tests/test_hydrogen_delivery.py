@@ -15,6 +15,8 @@ from carbonledger.model.factors import load_factor_set
 from carbonledger.model.reference import hydrogen_latent_heat, molar_mass_g_per_mol
 from carbonledger.routes.liquid_hydrogen import ideal_liquefaction_work_kwh_per_kg
 
+pytestmark = pytest.mark.xdist_group("coolprop")  # CoolProp takes about 4 s to import: one worker imports it
+
 PIPED = DEMO / "green_hydrogen_piped_and_trucked.toml"
 FACTORS = load_factor_set("default-2026").factors
 

@@ -3,10 +3,11 @@
 from pathlib import Path
 
 import pytest
-from CoolProp.CoolProp import PropsSI
 
 from carbonledger.model.reference import ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
 from carbonledger.stages import ammonia, electrolysis, reforming
+
+pytestmark = pytest.mark.xdist_group("coolprop")  # CoolProp takes about 4 s to import: one worker imports it
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -102,3 +103,9 @@ def test_stored_reference_values_equal_what_chemicals_computes_now():
     # Gibbs energy of formation of H2O(l), -237.1 kJ/mol); CO2(g) dHf = -393.5 kJ/mol (same table)
     assert reference_table.WATER_SPLITTING_GIBBS_LIQUID_298K_J_PER_MOL == pytest.approx(237100, abs=150)
     assert reference_table.GAS_FORMATION_ENTHALPY_J_PER_MOL["co2"] == pytest.approx(-393500, abs=100)
+
+
+def PropsSI(*args):  # noqa: N802 (CoolProp's own name); imported on first use: CoolProp takes seconds to load
+    from CoolProp.CoolProp import PropsSI as props
+
+    return props(*args)
