@@ -251,3 +251,14 @@ def test_compare_chart_shows_monthly_matched_and_unmatched_energy_of_projects_wi
     ids = {element.get("id") for element in ET.parse(chart).getroot().iter()}
     assert {"matched-0-2026-01", "unmatched-0-2026-02"} <= ids
     assert "check:uk-lchs,matched_share,fraction,0.4," in out.output  # 160 / 400
+
+
+def test_the_verdict_row_gives_each_checks_status_not_a_bare_pass_or_fail():
+    # Natural gas reforming is not a renewable fuel of non-biological origin (Directive (EU) 2018/2001
+    # Art. 2 as amended by 2023/2413): the blue demo's eu-rfnbo verdict is "not eligible", never "FAIL".
+    out = run("compare", DEMO / "blue_atr_ammonia.toml", DEMO / "green_electrolysis_ammonia.toml", "--format", "csv", "--scheme", "eu-rfnbo")
+    assert out.exit_code == 0, out.output
+    row = next(line for line in out.stdout.splitlines() if line.startswith("check:eu-rfnbo,verdict"))
+    blue, green = row.split(",")[3:5]
+    assert blue == "not eligible"
+    assert green in ("qualifies", "fails", "undetermined")

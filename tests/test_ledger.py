@@ -87,6 +87,12 @@ def test_history_shows_what_changed_and_why(tmp_path, _ledger_in_tmp):
     assert "input natural_gas.methane_emission_share: 0.005 -> 0.003" in text.stdout
     assert "factor electricity.grid.eu27_2018: 281 -> 318" in text.stdout
     assert run_cli("history", project, "--format", "json").exit_code == 0
+    # each recorded check keeps its status: natural gas reforming is not an RFNBO (Directive (EU)
+    # 2018/2001 Art. 2), so eu-rfnbo reads "not eligible", not a bare FAIL
+    assert "eu-rfnbo" in text.stdout and "not eligible" in text.stdout and "FAIL" not in text.stdout
+    rows = [line.split(",") for line in run_cli("history", project, "--format", "csv").stdout.splitlines()]
+    status = rows[0].index("status")
+    assert {row[status] for row in rows[1:] if len(row) > status and row[rows[0].index("scheme")] == "eu-rfnbo"} == {"not_eligible"}
 
 
 @pytest.mark.parametrize("content", [b"project,value\nnot a ledger,1\n", "sqlite"])

@@ -47,7 +47,7 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
         rows += [
             (f"check:{scheme}", "value", unit, [c.value if c else None for c in checks]),
             (f"check:{scheme}", "limit", unit, [c.limit if c else None for c in checks]),
-            (f"check:{scheme}", "verdict", "", [("pass" if c.passes else "FAIL") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "verdict", "", [c.status.replace("_", " ") if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
             (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
         ]

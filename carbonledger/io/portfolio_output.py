@@ -262,7 +262,7 @@ def history_table(project_file: str, history: list[dict]) -> str:
             old = previous_checks.get(check["scheme"])
             change = 0.0 if old is None or abs(check["value"] - old) <= 1e-9 * max(1.0, abs(old)) else check["value"] - old
             delta = "" if old is None else f"  ({change:+.4g})"
-            lines.append(f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} {'pass' if check['passes'] else 'FAIL'}{delta}")
+            lines.append(f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} {check.get('status', 'qualifies' if check.get('passes') else 'fails').replace('_', ' ')}{delta}")
             previous_checks[check["scheme"]] = check["value"]
         for reason in _why(entry["changes"]):
             lines.append(f"    why: {reason}")
