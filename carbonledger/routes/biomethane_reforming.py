@@ -15,11 +15,11 @@ from __future__ import annotations
 
 from typing import Literal
 
-from ..errors import InputError
 from ..model.project import P, Section
 from ..stages import biomethane, capture, reforming
 from .base import Activity, Route, combustion_kg_per_gj
 from .electricity import starter as electricity_starter
+from .reforming import refuse_below_the_methane_floor
 
 
 class BiomethaneReforming(Section):
@@ -65,10 +65,7 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 def check_limits(params: dict, inputs, source: str) -> None:
     """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2)."""
-    floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
-    gas = params["biomethane_reforming"]["biomethane_gj_per_kg_h2"]
-    if gas < floor:
-        raise InputError(source, "biomethane_reforming.biomethane_gj_per_kg_h2", f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas:g}")
+    refuse_below_the_methane_floor(params["biomethane_reforming"]["biomethane_gj_per_kg_h2"], inputs, source, "biomethane_reforming.biomethane_gj_per_kg_h2")
 
 
 def metered(params: dict) -> dict[str, list[str]]:

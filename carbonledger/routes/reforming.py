@@ -69,12 +69,17 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     return [plant, unit, storage]
 
 
-def check_limits(params: dict, inputs, source: str) -> None:
-    """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2)."""
+def refuse_below_the_methane_floor(gas_gj_per_kg_h2: float, inputs, source: str, field: str) -> None:
+    """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2), for any methane feed."""
     floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
+    if gas_gj_per_kg_h2 < floor:
+        raise InputError(source, field, f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas_gj_per_kg_h2:g}")
+
+
+def check_limits(params: dict, inputs, source: str) -> None:
+    """The methane floor, and gas plus electricity at least the hydrogen's lower heating value."""
     gas = params["reforming"]["natural_gas_gj_per_kg_h2"]
-    if gas < floor:
-        raise InputError(source, "reforming.natural_gas_gj_per_kg_h2", f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas:g}")
+    refuse_below_the_methane_floor(gas, inputs, source, "reforming.natural_gas_gj_per_kg_h2")
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
     energy_in = reforming.energy_in_mj_per_kg_h2(gas, params["reforming"]["electricity_kwh_per_kg_h2"])
     if energy_in < hydrogen_lhv:
