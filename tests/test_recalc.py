@@ -7,6 +7,7 @@ import json
 import pytest
 from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
 
+from carbonledger.analyses.matching import score_with_series
 from carbonledger.analyses.portfolio import load_portfolio, recalc
 from carbonledger.analyses.portfolio import score_portfolio as score_many
 from carbonledger.core.scoring import score_project
@@ -85,7 +86,8 @@ def test_fast_path_equals_bw2calc_score_project():
     for name in ("default-2026", "demo-2027-grid-revision"):
         factor_set = load_factor_set(name)
         for item, quick in zip(projects, score_many(projects, factor_set, check_with_bw2calc=False), strict=True):
-            reference = score_project(item.project, factor_set)
+            # a project with a time series: bw2calc, then its checks matched against the series, as `score` does
+            reference = score_project(item.project, factor_set) if item.series is None else score_with_series(item.project, factor_set, item.series)
             assert quick.total == pytest.approx(reference.total, rel=1e-9, abs=1e-12)
             for stage, value in reference.by_stage.items():
                 assert quick.by_stage[stage] == pytest.approx(value, rel=1e-9, abs=1e-9)
@@ -119,3 +121,23 @@ def test_recalc_scheme_filter_keeps_schemes_that_apply():
     ammonia_projects = {path.name for path in DEMO.glob("*.toml") if 'product = "ammonia"' in path.read_text()}
     assert len(ammonia_projects) >= 3
     assert {row.project_file.split("/")[-1] for row in result.rows} == ammonia_projects
+
+
+def test_a_project_with_a_time_series_is_rescored_with_its_matching_as_score_does():
+    """recalc gives the values and verdicts `score` gives: each check matched against the series
+    under the scheme's rule (EU monthly in 2026, Delegated Regulation (EU) 2023/1184 Art. 6), not the
+    declared annual shares (which read 32.5 g CO2e/MJ for eu-rfnbo, over its 28.2 limit)."""
+    from carbonledger import api
+
+    path = DEMO / "hybrid_hourly_hydrogen.toml"
+    projects = load_portfolio([path])
+    old, new = load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision")
+    rows = {row.scheme: row for row in recalc(projects, old, new).rows}
+    before = {c.scheme: c for c in api.score(path).checks}
+    after = {c.scheme: c for c in api.score(path, factors="demo-2027-grid-revision").checks}
+    declared = {c.scheme: c for c in api.score(path, matching="declared").checks}
+    for scheme, row in rows.items():
+        assert row.old_value == pytest.approx(before[scheme].value, rel=1e-9, abs=1e-12)
+        assert row.new_value == pytest.approx(after[scheme].value, rel=1e-9, abs=1e-12)
+        assert (row.old_status, row.new_status) == (before[scheme].status, after[scheme].status)
+    assert abs(rows["eu-rfnbo"].old_value - declared["eu-rfnbo"].value) > 1.0

@@ -23,11 +23,13 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..core.results import FactorSetRef, ScoreResult
-from ..core.scoring import DEFAULT_GWP, prepare, rulebooks, score_many
+from ..core.scoring import DEFAULT_GWP, assemble, prepare, rulebooks, solve_stacked
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
 from ..routes.project import load_project
+from .electricity_series import read_series
+from .matching import matched_checks, series_matched_periods
 
 STATUSES = ("newly fails", "newly passes", "still fails", "still passes", "still not eligible", "still undetermined")
 
@@ -39,6 +41,7 @@ class PortfolioProject:
     path: str
     project: object  # the validated project model
     sha256: str
+    series: object = None  # its electricity time series, if it gives one: checks are matched as `score` matches them
 
 
 def project_files(paths: list[str | Path]) -> list[Path]:
@@ -66,7 +69,8 @@ def load_portfolio(paths: list[str | Path]) -> list[PortfolioProject]:
     projects = []
     for path in project_files(paths):
         project, sha = load_project(path)
-        projects.append(PortfolioProject(str(path), project, sha))
+        series = read_series(Path(path).parent / project.electricity.time_series, project) if project.electricity.time_series else None
+        projects.append(PortfolioProject(str(path), project, sha, series))
     return projects
 
 
@@ -101,11 +105,16 @@ def score_portfolio(
         return [result for part in mapper(score_chunk, pieces) for result in part]
     prepared = []
     for item, one_set, one_year in zip(projects, sets, years, strict=True):
-        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year)
+        matching = series_matched_periods(item.series) if item.series is not None else None
+        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year, matching=matching)
         if schemes:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
         prepared.append(ready)
-    return score_many(prepared, check_with_bw2calc)
+    results = []
+    for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, check_with_bw2calc), strict=True):
+        result = assemble(ready, solutions)
+        results.append(result if item.series is None else matched_checks(ready, solutions, result, item.series))
+    return results
 
 
 def score_chunk(piece: tuple) -> list[ScoreResult]:
