@@ -272,7 +272,10 @@ def test_lifetime_repeats_a_one_year_series_under_each_years_rule_and_scales_the
     assert first.scheme_values["japan-hydrogen"] == pytest.approx(5.55, rel=1e-12)
     assert second.scheme_values["japan-hydrogen"] == pytest.approx(3.675, rel=1e-12)
     # 45V tiers: 4 kg/kg the loosest; 2029 meets it, 2030 under the hourly rule does not
-    assert first.passes["us-45v"] and not second.passes["us-45v"]
+    # (this bare project declares no procurement or construction start: under the threshold the year
+    # is undetermined, never a pass; over it, it fails)
+    assert first.statuses["us-45v"] == "undetermined" and not first.passes["us-45v"]
+    assert second.statuses["us-45v"] == "fails" and not second.passes["us-45v"]
     assert "repeated" in result.time_series
     # the headline total keeps the declared shares at the year's trajectory factor: 50 x (0.5 x 300 + 0.5 x 48) g
     assert first.total == pytest.approx(50 * (0.5 * 0.300 + 0.5 * 0.048), rel=1e-12)
@@ -300,3 +303,21 @@ def test_lifetime_refuses_a_series_of_several_years_that_misses_an_operating_yea
     rows = "2028-12-31T23:00+00:00,100,0,300\n" + "".join(f"2029-01-01T0{h}:00+00:00,100,0,300\n" for h in range(4))
     with pytest.raises(InputError, match="missing 2030"):
         _series_score(tmp_path, rows)
+
+
+def test_a_year_and_the_lifetime_are_judged_with_every_rule_not_the_threshold_alone():
+    from carbonledger.analyses.lifetime import lifetime_status, year_status
+
+    # a year: not eligible stays so; a missed threshold fails; a rule broken fails even under the threshold;
+    # an open rule under the threshold is undetermined, never a pass
+    assert year_status("not_eligible", True) == "not_eligible"
+    assert year_status("qualifies", False) == "fails"
+    assert year_status("fails", True) == "fails"
+    assert year_status("undetermined", True) == "undetermined"
+    assert year_status("qualifies", True) == "qualifies"
+    # the lifetime: the rulebook's value is the lifetime average, so one year over the threshold is listed, not failed
+    assert lifetime_status(["qualifies", "fails", "qualifies"], True, years_missed=1) == "qualifies"
+    assert lifetime_status(["qualifies", "fails"], True, years_missed=0) == "fails"  # a rule broken that year
+    assert lifetime_status(["qualifies", "undetermined"], True, years_missed=0) == "undetermined"
+    assert lifetime_status(["qualifies", "qualifies"], False, years_missed=0) == "fails"
+    assert lifetime_status(["not_eligible", "not_eligible"], True, years_missed=0) == "not_eligible"

@@ -56,13 +56,14 @@ class LifetimeYear:
     grid_factor_unit: str
     total: float
     scheme_values: dict[str, float]
-    passes: dict[str, bool]  # under each scheme's rule (construction added where the rulebook counts it)
+    passes: dict[str, bool]  # the year qualifies under each scheme's rule (construction added where the rulebook counts it)
     factors_from_memory: list[str] = field(default_factory=list)  # ids of that year's factors recorded from memory
     grid_factor_id: str = ""  # the trajectory row used this year
     grid_factor_year: int | None = None  # its year: earlier than the operating year when held at the last published year
     series_year: int | None = None  # calendar year of the time series intervals used (None: no series)
     grid_profile_scale: float | None = None  # F(Y) / F_0 applied to the series' grid intensity profile
     matched_share: dict[str, float] = field(default_factory=dict)  # per scheme, with a time series
+    statuses: dict[str, str] = field(default_factory=dict)  # per scheme: qualifies, fails, not_eligible or undetermined
 
 
 @dataclass
@@ -74,9 +75,35 @@ class LifetimeScheme:
     average_without_construction: float
     average_with_construction: float
     lifetime_value: float  # the average the rulebook asks for
-    passes: bool
-    years_missed: list[int] = field(default_factory=list)
+    passes: bool  # status == "qualifies"
+    years_missed: list[int] = field(default_factory=list)  # years whose value misses the threshold
     from_memory: bool = False  # the rulebook or a threshold was recorded from memory
+    status: str = ""  # qualifies, fails, not_eligible or undetermined (see year_status and lifetime_status)
+
+
+def year_status(check_status: str, threshold_met: bool) -> str:
+    """A year's verdict: the year's check (eligibility and every rule but the threshold) with the
+    threshold read on the value the rulebook counts (construction added where it counts it).
+
+    A check that fails while its value meets the threshold broke another rule; it stays failed."""
+    if check_status == "not_eligible":
+        return "not_eligible"
+    if not threshold_met or check_status == "fails":
+        return "fails"
+    return check_status
+
+
+def lifetime_status(year_statuses: list[str], lifetime_threshold_met: bool, years_missed: int) -> str:
+    """The verdict over the lifetime: not eligible if any year is; fails if the lifetime value misses
+    the threshold or a year broke a rule other than the threshold; undetermined if a year's rule
+    cannot be judged; else qualifies (single years over the threshold are listed, not failed: the
+    rulebook's value is the lifetime's)."""
+    if "not_eligible" in year_statuses:
+        return "not_eligible"
+    rule_failures = year_statuses.count("fails") - years_missed
+    if not lifetime_threshold_met or rule_failures > 0:
+        return "fails"
+    return "undetermined" if "undetermined" in year_statuses else "qualifies"
 
 
 @dataclass
@@ -119,7 +146,7 @@ class LifetimeResult:
             "total_with_construction": self.average_with_construction,
             "unit": self.unit,
             "checks": [
-                {"scheme": s.scheme, "value": s.lifetime_value, "unit": s.unit, "limit": s.limit, "passes": s.passes, "years_missed": s.years_missed}
+                {"scheme": s.scheme, "value": s.lifetime_value, "unit": s.unit, "limit": s.limit, "passes": s.passes, "status": s.status, "years_missed": s.years_missed}
                 for s in self.schemes
             ],
         }
@@ -379,6 +406,7 @@ def lifetime_score(
     books = rulebooks()
     lifetime_schemes = []
     yearly_pass: list[dict[str, bool]] = [{} for _ in scores]
+    yearly_status: list[dict[str, str]] = [{} for _ in scores]
     for number, check in enumerate(first.checks):
         rulebook = books[check.scheme]
         values = np.array([score.checks[number].value for score in scores])
@@ -393,12 +421,16 @@ def lifetime_score(
         with_construction = without + float(added)
         counted = values + float(added) if rulebook.counts_construction else values
         lifetime_value = with_construction if rulebook.counts_construction else without
-        missed = []
+        missed, statuses = [], []
         for index, value in enumerate(counted):
-            verdict = rulebook.evaluate(float(value))["passes"] and scores[index].checks[number].status != "not_eligible"
-            yearly_pass[index][check.scheme] = verdict
-            if not verdict:
+            met = rulebook.evaluate(float(value))["passes"]
+            status = year_status(scores[index].checks[number].status, met)
+            yearly_status[index][check.scheme] = status
+            yearly_pass[index][check.scheme] = status == "qualifies"
+            statuses.append(status)
+            if not met and status != "not_eligible":
                 missed.append(life.first_year + index)
+        overall = lifetime_status(statuses, rulebook.evaluate(lifetime_value)["passes"], len(missed))
         lifetime_schemes.append(
             LifetimeScheme(
                 scheme=check.scheme,
@@ -408,7 +440,8 @@ def lifetime_score(
                 average_without_construction=without,
                 average_with_construction=with_construction,
                 lifetime_value=lifetime_value,
-                passes=rulebook.evaluate(lifetime_value)["passes"],
+                passes=overall == "qualifies",
+                status=overall,
                 years_missed=missed,
                 from_memory=check.from_memory,
             )
@@ -427,6 +460,7 @@ def lifetime_score(
                 total=score.total,
                 scheme_values={check.scheme: check.value for check in score.checks},
                 passes=yearly_pass[index],
+                statuses=yearly_status[index],
                 factors_from_memory=score.from_memory["factors"],
                 grid_factor_id=grid.id if grid else "",
                 grid_factor_year=grid.year if grid else None,

@@ -137,13 +137,16 @@ def lifetime_json(result) -> str:
     return strict_json(data, result.project_file)
 
 
+YEAR_MARKS = {"fails": " x", "undetermined": " ?", "not_eligible": " n/e"}
+
+
 def lifetime_csv(result) -> str:
     """One row per operating year, then the two lifetime averages; the ``from_memory`` column lists
     the factors of each year, and on the average rows the rulebooks, recorded from memory."""
     schemes = [s.scheme for s in result.schemes]
     series = bool(result.time_series)
     extra = ("series_year", "grid_profile_scale") + tuple(f"{s}_matched_share" for s in schemes) if series else ()
-    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + extra + ("from_memory",)
+    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + tuple(f"{s}_status" for s in schemes) + extra + ("from_memory",)
 
     def series_cells(y) -> tuple:
         if not series:
@@ -153,14 +156,15 @@ def lifetime_csv(result) -> str:
     rows = [
         (y.year, y.stack_age_years, y.efficiency_fraction, y.output_t, "" if y.grid_factor is None else y.grid_factor, y.grid_factor_unit, y.total, result.unit)
         + tuple(y.scheme_values[s] for s in schemes)
+        + tuple(y.statuses.get(s, "") for s in schemes)
         + series_cells(y)
         + ("; ".join(y.factors_from_memory),)
         for y in result.years
     ]
     rulebooks = "; ".join(result.from_memory["rulebooks"])
     blank = ("",) * len(extra)
-    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes) + blank + (rulebooks,))
-    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes) + blank + (rulebooks,))
+    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes) + tuple(s.status for s in result.schemes) + blank + (rulebooks,))
+    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes) + tuple(s.status for s in result.schemes) + blank + (rulebooks,))
     return csv_text(header, rows, caution=CAUTION)
 
 
@@ -180,10 +184,10 @@ def lifetime_table(result) -> str:
     for y in result.years:
         rows.append(
             [str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction:.3f}", f"{y.output_t:,.0f}", "-" if y.grid_factor is None else f"{y.grid_factor:g}", display_number(y.total)]
-            + [display_number(y.scheme_values[s.scheme]) + ("" if y.passes[s.scheme] else " x") for s in schemes]
+            + [display_number(y.scheme_values[s.scheme]) + YEAR_MARKS.get(y.statuses.get(s.scheme, ""), "") for s in schemes]
         )
     lines.append(_table(headers, rows, set(headers) - {"year"}))
-    lines.append("x = misses the scheme's threshold that year (construction added where the rulebook counts it)")
+    lines.append("x = fails that year (threshold missed, construction added where the rulebook counts it, or a rule broken); ? = a rule cannot be judged; n/e = not eligible")
     lines.append(
         f"lifetime output {result.lifetime_output_t:,.0f} t; construction {result.construction_t_co2e:,.0f} t CO2e = "
         f"{display_number(result.construction_kg_co2e_per_unit)} {result.unit}"
@@ -199,7 +203,7 @@ def lifetime_table(result) -> str:
             display_number(s.lifetime_value),
             display_number(s.limit),
             s.unit,
-            "pass" if s.passes else "FAIL",
+            (s.status or ("qualifies" if s.passes else "fails")).replace("_", " "),
             ", ".join(str(y) for y in s.years_missed) or "none",
         ]
         for s in schemes

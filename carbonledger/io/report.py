@@ -41,6 +41,7 @@ CHROMIUM_NAMES = ("chromium", "chromium-browser", "google-chrome", "google-chrom
 # Our palette: ink, harbour teal, sandstone, kelp, brick, slate; stages take the sequence below.
 STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
 GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
+YEAR_SIGNS = {"qualifies": "✓", "fails": "✗", "undetermined": "?", "not_eligible": "n/e"}
 STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undetermined": "open"}
 
 @dataclass
@@ -453,11 +454,11 @@ def lifetime_section(item: ProjectReport, key: str) -> str:
     schemes = [s.scheme for s in life.schemes]
     rows = [
         [str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction * 100:.1f} %", number(y.output_t), number(y.total)]
-        + [f"{number(y.scheme_values.get(s))} {'✓' if y.passes.get(s) else '✗'}" for s in schemes]
+        + [f"{number(y.scheme_values.get(s))} {YEAR_SIGNS.get(y.statuses.get(s, ''), '✗')}" for s in schemes]
         for y in life.years
     ]
     summary = [
-        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge("qualifies" if s.passes else "fails"), ", ".join(map(str, s.years_missed)) or "none"]
+        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge((s.status or ("qualifies" if s.passes else "fails")).replace("_", " ")), ", ".join(map(str, s.years_missed)) or "none"]
         for s in life.schemes
     ]
     return (
