@@ -15,7 +15,7 @@ from .about import CAUTION
 from .analyses.cluster import dask_mapper
 from .analyses.compare import ComparisonResult
 from .analyses.compare import compare as compare_results
-from .analyses.electricity_series import ElectricitySeries, read_series
+from .analyses.electricity_series import ElectricitySeries, project_series
 from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
@@ -114,14 +114,6 @@ def score(
             raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
         return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matched_periods)
     return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching, year=year)
-
-
-def project_series(project, project_file: str | Path) -> ElectricitySeries | None:
-    """The project's electricity time series (``[electricity] time_series``, relative to the project file), or None."""
-    name = project.electricity.time_series
-    if not name:
-        return None
-    return read_series(Path(project_file).parent / name, project)
 
 
 def score_workbook(

@@ -219,3 +219,11 @@ def read_series(path: str | Path, project) -> ElectricitySeries:
     if not used.sum() > 0:
         raise InputError(where, f"column '{loads[0]}'", "some electricity use (or hydrogen) in at least one interval; the series has none")
     return series
+
+
+def project_series(project, project_file: str | Path) -> ElectricitySeries | None:
+    """The project's electricity time series (``[electricity] time_series``, relative to the project file), or None."""
+    name = project.electricity.time_series
+    if not name:
+        return None
+    return read_series(Path(project_file).parent / name, project)

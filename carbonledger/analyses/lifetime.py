@@ -41,7 +41,7 @@ from ..model.units import UnitMismatch, conversion_factor
 from ..routes import routes_of
 from ..routes.project import validate_project
 from ..stages import lifetime as stage
-from .electricity_series import ElectricitySeries, read_series
+from .electricity_series import ElectricitySeries, project_series
 from .matching import score_with_series
 from .portfolio import PortfolioProject, score_portfolio
 
@@ -370,7 +370,7 @@ def lifetime_score(
             year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
         else:
             year_sets.append(factor_set)
-    series = read_series(Path(project_file).parent / project.electricity.time_series, project) if project.electricity.time_series else None
+    series = project_series(project, project_file)
     scales: list[float | None] = [None] * len(calendar_years)
     source_years: list[int | None] = [None] * len(calendar_years)
     series_use = ""

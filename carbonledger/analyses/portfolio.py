@@ -28,7 +28,7 @@ from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
 from ..routes.project import load_project
-from .electricity_series import read_series
+from .electricity_series import project_series
 from .matching import matched_checks, series_matched_periods
 
 STATUSES = ("newly fails", "newly passes", "still fails", "still passes", "still not eligible", "still undetermined")
@@ -69,7 +69,7 @@ def load_portfolio(paths: list[str | Path]) -> list[PortfolioProject]:
     projects = []
     for path in project_files(paths):
         project, sha = load_project(path)
-        series = read_series(Path(path).parent / project.electricity.time_series, project) if project.electricity.time_series else None
+        series = project_series(project, path)
         projects.append(PortfolioProject(str(path), project, sha, series))
     return projects
 
