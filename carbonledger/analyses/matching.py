@@ -29,7 +29,7 @@ References
 from __future__ import annotations
 
 import datetime as _dt
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -182,7 +182,8 @@ def eligible_sources(scheme, counted_zero: set[str], with_generation: list[str])
 
 @dataclass
 class ElectricityModel:
-    """What the matching needs from a scored project, for one scheme (plain floats)."""
+    """What the matching needs from a scored project, for one scheme: numbers for one score, arrays
+    over the draws in a Monte Carlo (``matched_values_of_draws``)."""
 
     basis_kwh: float  # project electricity per unit of the scheme's basis (kWh)
     kwh_per_kg_h2: float  # project electricity per kg H2 (turns a hydrogen series into kWh)
@@ -193,26 +194,40 @@ class ElectricityModel:
     eligible: list[str]  # sources with generation whose generation the scheme matches (its electricity rules)
 
 
+def counted_source_intensities(scheme, inventory, sources, flow_keys: list[str], characterisation: np.ndarray, counted_zero: set[str]) -> dict:
+    """Each electricity source's intensity as the scheme counts it (kg CO2e/kWh): its emissions
+    characterised with the scheme's GWP set, or zero where the scheme's rules rate it zero.
+    ``characterisation`` is one vector, or one per draw (draws x flows): the result follows."""
+    flow_index = {flow: number for number, flow in enumerate(flow_keys)}
+    counted = {}
+    for name in sources:
+        key = f"electricity:{name}"
+        emitted = sum(characterisation[..., flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
+        counted[name] = 0.0 if zero_rated(scheme, inventory, key, counted_zero) else emitted
+    return counted
+
+
+def declared_and_grid_intensity(counted: dict, shares: dict, with_generation) -> tuple:
+    """(declared, grid) kg CO2e/kWh: the declared shares' intensity, and that of the sources without
+    a generation column at their declared proportions (the first of them where their shares are 0;
+    NaN without any). Numbers or arrays over draws."""
+    declared = sum(shares[name] * counted[name] for name in counted)
+    grid = [name for name in counted if name not in with_generation]
+    if not grid:
+        return declared, float("nan")
+    grid_share = sum(shares[name] for name in grid)
+    weighted = sum(shares[name] * counted[name] for name in grid)
+    return declared, np.where(grid_share > 0, weighted / np.where(grid_share > 0, grid_share, 1.0), counted[grid[0]])
+
+
 def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generation: list[str]) -> ElectricityModel:
     """The scheme's view of the project's electricity: per-source counted intensities and kWh per basis unit."""
     inventory, matrices = prepared.inventory, prepared.matrices
     keys = matrices.activity_keys
-    flow_index = {flow: number for number, flow in enumerate(matrices.flow_keys)}
-    characterisation = prepared.per_gwp[scheme.gwp]
     sources = prepared.params["electricity"]["sources"]
     counted_zero, _, _ = read_rules(scheme, inventory, prepared.params, prepared.period, prepared.matching)
-    counted = {}
-    for name in sources:
-        key = f"electricity:{name}"
-        emitted = sum(characterisation[flow_index[e.input]] * float(e.amount) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
-        counted[name] = 0.0 if zero_rated(scheme, inventory, key, counted_zero) else float(emitted)
-    declared = sum(source["share"] * counted[name] for name, source in sources.items())
-    grid = [name for name in sources if name not in with_generation]
-    grid_share = sum(sources[name]["share"] for name in grid)
-    if grid and grid_share > 0:
-        grid_kg = sum(sources[name]["share"] * counted[name] for name in grid) / grid_share
-    else:
-        grid_kg = counted[grid[0]] if grid else float("nan")
+    counted = {name: float(value) for name, value in counted_source_intensities(scheme, inventory, sources, matrices.flow_keys, prepared.per_gwp[scheme.gwp], counted_zero).items()}
+    declared, grid_kg = declared_and_grid_intensity(counted, {name: source["share"] for name, source in sources.items()}, with_generation)
     mix = keys.index("electricity_mix")
     basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
     basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
@@ -409,19 +424,9 @@ def series_matched_periods(series: ElectricitySeries) -> dict | None:
     return {name: period for name in series.generation_kwh} if period else None
 
 
-def matched_values_of_draws(
-    scheme,
-    series: ElectricitySeries,
-    eligible: list[str],
-    declared_values: np.ndarray,
-    value_per_total: np.ndarray,
-    basis_kwh: np.ndarray,
-    kwh_per_kg_h2: np.ndarray,
-    counted_kg_per_kwh: dict[str, np.ndarray],
-    shares: dict[str, np.ndarray],
-) -> np.ndarray:
+def matched_values_of_draws(scheme, series: ElectricitySeries, model: ElectricityModel, declared_values: np.ndarray) -> np.ndarray:
     """Each draw's scheme value with the series matched under the scheme's rule: ``matched_check``'s
-    arithmetic on arrays over the draws.
+    arithmetic (``counted_intensity``) with a ``model`` whose figures are arrays over the draws.
 
     value = declared value + (value per kg CO2e) x (basis kWh) x (matched - declared kg CO2e/kWh),
     where the matched intensity puts each source's matched kWh at its counted intensity of the draw
@@ -434,33 +439,21 @@ def matched_values_of_draws(
     def per_draw(value) -> np.ndarray:
         return np.broadcast_to(np.asarray(value, dtype=float), (count,))
 
-    counted = {name: per_draw(value) for name, value in counted_kg_per_kwh.items()}
-    share = {name: per_draw(value) for name, value in shares.items()}
-    declared = sum(share[name] * counted[name] for name in counted)
-    grid = [name for name in counted if name not in series.generation_kwh]
-    if grid:
-        grid_share = sum(share[name] for name in grid)
-        weighted = sum(share[name] * counted[name] for name in grid)
-        grid_kg = np.where(grid_share > 0, weighted / np.where(grid_share > 0, grid_share, 1.0), counted[grid[0]])
-    else:
-        grid_kg = np.full(count, np.nan)
+    counted = {name: per_draw(value) for name, value in model.counted_kg_per_kwh.items()}
+    grid_kg = per_draw(model.grid_kg_per_kwh)
     granularity = scheme_granularity(scheme.id, series.local)
     if series.load_kwh is not None:
         loads, which = [series.load_kwh], np.zeros(count, dtype=int)
     else:
-        distinct, which = np.unique(per_draw(kwh_per_kg_h2), return_inverse=True)
+        distinct, which = np.unique(per_draw(model.kwh_per_kg_h2), return_inverse=True)
         loads = [series.hydrogen_kg * value for value in distinct]
     intensity = np.empty(count)
     for number, load in enumerate(loads):
         rows = which == number
-        result = match(load, series.generation_kwh, eligible, granularity, series.utc, series.local)
-        unmatched = load - result.matched_interval_kwh
-        grid_part = float(unmatched @ series.grid_g_co2e_per_kwh) / 1000.0 if series.grid_g_co2e_per_kwh is not None else float(unmatched.sum()) * grid_kg[rows]
-        total_matched = sum(result.matched_by_source_kwh.values())
-        source_kg_per_kwh = sum(kwh * counted[name][rows] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
-        total_load = float(load.sum())
-        intensity[rows] = (result.matched_kwh * source_kg_per_kwh + grid_part) / total_load if total_load > 0 else 0.0
-    return declared_values + value_per_total * basis_kwh * (intensity - declared)
+        result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, series.local)
+        these = replace(model, counted_kg_per_kwh={name: value[rows] for name, value in counted.items()}, grid_kg_per_kwh=grid_kg[rows])
+        intensity[rows] = counted_intensity(result, load, these, series.grid_g_co2e_per_kwh)[3]
+    return declared_values + model.value_per_total * model.basis_kwh * (intensity - model.declared_kg_per_kwh)
 
 
 def score_with_series(

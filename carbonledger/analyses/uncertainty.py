@@ -56,7 +56,7 @@ from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
 from ..routes.base import APART_FLOWS
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
-from .matching import eligible_sources, matched_values_of_draws, series_matched_periods
+from .matching import ElectricityModel, counted_source_intensities, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, series_matched_periods
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
@@ -454,24 +454,18 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         if plan.series is not None:
             mix, gate = keys.index("electricity_mix"), column[inventory.gate]
             sources = params["electricity"]["sources"]
-            flow_index = {flow: number for number, flow in enumerate(stacked.flow_keys)}
-            gwp_of_draws = per_gwp[scheme.gwp]
-            counted_kg = {}
-            for name in sources:
-                key = f"electricity:{name}"
-                emitted = sum(gwp_of_draws[:, flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
-                counted_kg[name] = np.zeros(count) if zero_rated(scheme, inventory, key, counted) else emitted
-            values = matched_values_of_draws(
-                scheme,
-                plan.series,
-                eligible_sources(scheme, counted, list(plan.series.generation_kwh)),
-                values,
-                np.broadcast_to(intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,)),
-                supply[:, mix, column[basis_demand]],
-                supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
-                counted_kg,
-                {name: source["share"] for name, source in sources.items()},
+            counted_kg = counted_source_intensities(scheme, inventory, sources, stacked.flow_keys, per_gwp[scheme.gwp], counted)
+            declared, grid_kg = declared_and_grid_intensity(counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh)
+            model = ElectricityModel(
+                basis_kwh=supply[:, mix, column[basis_demand]],
+                kwh_per_kg_h2=supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
+                counted_kg_per_kwh=counted_kg,
+                declared_kg_per_kwh=declared,
+                grid_kg_per_kwh=grid_kg,
+                value_per_total=intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity],
+                eligible=eligible_sources(scheme, counted, list(plan.series.generation_kwh)),
             )
+            values = matched_values_of_draws(scheme, plan.series, model, values)
         scheme_values[scheme.id] = values
     return Outcome(
         total=total,
