@@ -6,7 +6,7 @@ from helpers import DEMO
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from carbonledger.core.scoring import prepare, score_many
+from carbonledger.analyses.portfolio import PortfolioProject, score_portfolio
 from carbonledger.model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from carbonledger.routes.project import load_project
 
@@ -18,7 +18,7 @@ DEFAULT = load_factor_set(DEFAULT_SET)
 def total(path, overrides, factor_set=DEFAULT):
     # the stacked solve (equal to bw2calc's, tests/test_recalc.py::test_fast_path_equals_bw2calc_score_project) keeps hundreds of examples quick
     project, _ = load_project(path, overrides)
-    return score_many([prepare(project, factor_set)], check_with_bw2calc=False)[0].total
+    return score_portfolio([PortfolioProject(str(path), project, "")], factor_set, check_with_bw2calc=False)[0].total
 
 
 fractions = st.floats(min_value=0.0, max_value=1.0, allow_nan=False)

@@ -535,8 +535,3 @@ def score_project(
     """
     prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary, project_sha256=project_sha256, year=year, matching=matching)
     return assemble(prepared, solve_with_bw2calc(prepared))
-
-
-def score_many(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[ScoreResult]:
-    """Score many prepared projects with stacked solves; the same results as ``score_project``."""
-    return [assemble(ready, solution) for ready, solution in zip(prepared, solve_stacked(prepared, check_with_bw2calc), strict=True)]
