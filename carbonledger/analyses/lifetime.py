@@ -8,7 +8,7 @@ is weighted by each year's output; construction emissions are spread over the li
 and added for the schemes whose rulebook counts them (``counts_construction``).
 
 With an electricity time series (``[electricity] time_series``) every year's scheme checks are
-matched against the series under the rule in force in that year (``matching.score_with_series``):
+matched against the series under the rule in force in that year (``portfolio.score_portfolio`` with each year's series, as ``score`` matches them):
 
 - a series of one calendar year is repeated: each operating year gets the same intervals at the
   same minute from the start of the year (local time; offsets as written), so the dated rules
@@ -42,7 +42,6 @@ from ..routes import routes_of
 from ..routes.project import validate_project
 from ..stages import lifetime as stage
 from .electricity_series import ElectricitySeries, project_series
-from .matching import score_with_series
 from .portfolio import PortfolioProject, score_portfolio
 
 
@@ -374,15 +373,11 @@ def lifetime_score(
     scales: list[float | None] = [None] * len(calendar_years)
     source_years: list[int | None] = [None] * len(calendar_years)
     series_use = ""
-    if series is None:
-        scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
-    else:
+    if series is not None:  # each year matched against its own year of the series
         base = factor_set.factors.get(grid_factor_id)
         per_year, scales, source_years, series_use = yearly_series(series, calendar_years, trajectory, base, trajectory_origin or factor_set.name)
-        scores = [
-            score_with_series(item.project, one_set, one_series, gwp=gwp, schemes=schemes, source=project_file, project_sha256=project_sha256, year=year)
-            for item, one_set, one_series, year in zip(year_projects, year_sets, per_year, calendar_years, strict=True)
-        ]
+        year_projects = [replace(item, series=one_series) for item, one_series in zip(year_projects, per_year, strict=True)]
+    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
