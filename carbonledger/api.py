@@ -19,7 +19,7 @@ from .analyses.electricity_series import ElectricitySeries, project_series
 from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
-from .analyses.matching import electricity_model, match, matched_checks, matching_views, scheme_granularity, score_with_series, series_matched_periods
+from .analyses.matching import electricity_model, match, matched_checks, matching_views, score_with_series, series_matched_periods
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
@@ -371,7 +371,7 @@ def matching_chart(
     rulebook = prepared.chosen[0]
     model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
     load = series.load(model.kwh_per_kg_h2)
-    granularity = scheme_granularity(rulebook.id, series.local) if matching in (None, "rule") else matching
+    granularity = model.granularity if matching in (None, "rule") else matching
     result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, series.local)
     label = granularity if isinstance(granularity, str) else "dated rule"
     title = f"{project.project.name}: {rulebook.id}, matching by {label}, {result.matched_share:.1%} matched"

@@ -28,19 +28,54 @@ References
 
 from __future__ import annotations
 
-import datetime as _dt
 from dataclasses import dataclass, field, replace
 
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import DEFAULT_GWP, Prepared, assemble, intensities, judged, prepare, read_rules, scheme_reading, solve_with_bw2calc, zero_rated
+from ..core.scoring import DEFAULT_GWP, Prepared, assemble, charged_source_intensities, intensities, judged, prepare, scheme_reading, solve_with_bw2calc
+from ..core.verdicts import MET, NOT_MET, Finding, Period, fully_renewable_finding
 from ..errors import InputError
 from ..model.factors import FactorSet
-from ..model.matching_rules import GRANULARITIES, describe, matching_rules
+from ..model.rulebooks import PERIODS, grade_note
 from .electricity_series import ElectricitySeries
 
+GRANULARITIES = ("interval", "hour", "month", "quarter", "year")  # fine to coarse
 _CODE = {name: number for number, name in enumerate(GRANULARITIES)}
+# a rulebook's temporal-correlation period -> the matching granularity (half-hourly: the series' own 30-minute intervals)
+RULE_GRANULARITY = {"annual": "year", "monthly": "month", "hourly": "hour", "half_hourly": "interval"}
+
+
+def temporal_rules_in_force(scheme, period: Period) -> list:
+    """The rulebook's temporal-correlation rules in force on the assessment period's first and last day."""
+    return [rule for rule in dict.fromkeys(scheme.temporal_rule_on(day) for day in (period.start, period.end)) if rule is not None]
+
+
+def scheme_granularity(scheme, period: Period) -> str:
+    """The matching granularity a scheme's rulebook sets for the assessment period (the finer where a
+    rule changes inside it; ``year`` for a scheme without a temporal rule). The series is a profile:
+    its own dates never choose the rule."""
+    rules = temporal_rules_in_force(scheme, period)
+    if not rules:
+        return "year"
+    return RULE_GRANULARITY[max((rule.period for rule in rules), key=PERIODS.index)]
+
+
+def describe(scheme) -> str:
+    """One line: the rulebook's temporal rules and their dates, e.g. 'month until 2029-12-31, hour from 2030-01-01'."""
+    rules = scheme.electricity_rules.temporal if scheme.electricity_rules is not None else []
+    if not rules:
+        return "year (no temporal rule in the rulebook)"
+    parts = []
+    for rule in rules:
+        name = RULE_GRANULARITY[rule.period]
+        if rule.applies_from is None and rule.applies_until is None:
+            parts.append(name)
+        elif rule.applies_from is None:
+            parts.append(f"{name} until {rule.applies_until.isoformat()}")
+        else:
+            parts.append(f"{name} from {rule.applies_from.isoformat()}")
+    return ", ".join(parts)
 
 
 def period_values(utc: np.ndarray, local: np.ndarray, granularity: str) -> np.ndarray:
@@ -80,22 +115,6 @@ def period_labels(utc: np.ndarray, local: np.ndarray, granularity: str | np.ndar
     labels[0] = 0
     np.cumsum(change, out=labels[1:])
     return labels
-
-
-def scheme_granularity(scheme_id: str, local: np.ndarray) -> str | np.ndarray:
-    """The granularity of each interval under a scheme's dated rules (one text when it is the same for all)."""
-    days = local.astype("datetime64[D]")
-    codes = np.full(len(local), _CODE["year"], dtype=np.int64)
-    for rule in matching_rules(scheme_id):
-        inside = np.ones(len(local), dtype=bool)
-        if rule.starts is not None:
-            inside &= days >= np.datetime64(rule.starts)
-        if rule.ends is not None:
-            inside &= days <= np.datetime64(rule.ends)
-        codes[inside] = _CODE[rule.granularity]
-    if (codes == codes[0]).all():
-        return GRANULARITIES[codes[0]]
-    return codes
 
 
 @dataclass
@@ -192,19 +211,7 @@ class ElectricityModel:
     grid_kg_per_kwh: float  # sources without a generation column, at their declared proportions
     value_per_total: float  # scheme quantity per kg CO2e of scheme total per basis unit
     eligible: list[str]  # sources with generation whose generation the scheme matches (its electricity rules)
-
-
-def counted_source_intensities(scheme, inventory, sources, flow_keys: list[str], characterisation: np.ndarray, counted_zero: set[str]) -> dict:
-    """Each electricity source's intensity as the scheme counts it (kg CO2e/kWh): its emissions
-    characterised with the scheme's GWP set, or zero where the scheme's rules rate it zero.
-    ``characterisation`` is one vector, or one per draw (draws x flows): the result follows."""
-    flow_index = {flow: number for number, flow in enumerate(flow_keys)}
-    counted = {}
-    for name in sources:
-        key = f"electricity:{name}"
-        emitted = sum(characterisation[..., flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[key].exchanges if e.kind == "biosphere")
-        counted[name] = 0.0 if zero_rated(scheme, inventory, key, counted_zero) else emitted
-    return counted
+    granularity: str = "year"  # the rulebook's matching granularity in the assessment year
 
 
 def declared_and_grid_intensity(counted: dict, shares: dict, with_generation) -> tuple:
@@ -225,8 +232,8 @@ def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generati
     inventory, matrices = prepared.inventory, prepared.matrices
     keys = matrices.activity_keys
     sources = prepared.params["electricity"]["sources"]
-    counted_zero, _, _ = read_rules(scheme, inventory, prepared.params, prepared.period, prepared.matching)
-    counted = {name: float(value) for name, value in counted_source_intensities(scheme, inventory, sources, matrices.flow_keys, prepared.per_gwp[scheme.gwp], counted_zero).items()}
+    reading = scheme_reading(prepared, scheme)
+    counted = {name: float(value) for name, value in charged_source_intensities(scheme, inventory, matrices.flow_keys, prepared.per_gwp[scheme.gwp], reading).items()}
     declared, grid_kg = declared_and_grid_intensity(counted, {name: source["share"] for name, source in sources.items()}, with_generation)
     mix = keys.index("electricity_mix")
     basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
@@ -235,7 +242,7 @@ def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generati
     gate = solutions[inventory.gate]
     kwh_per_kg = float(gate.supply[mix]) / float(gate.supply[keys.index(inventory.hydrogen)])
     per_total = intensities(1.0, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
-    return ElectricityModel(basis_kwh, kwh_per_kg, counted, float(declared), float(grid_kg), float(per_total), eligible_sources(scheme, counted_zero, with_generation))
+    return ElectricityModel(basis_kwh, kwh_per_kg, counted, float(declared), float(grid_kg), float(per_total), eligible_sources(scheme, reading.counted_zero, with_generation), scheme_granularity(scheme, prepared.period))
 
 
 def counted_intensity(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, mask: np.ndarray | slice = slice(None)) -> tuple[float, float, float, float]:
@@ -275,8 +282,8 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     the project cannot follow keeps the check undetermined); without them only the threshold is read."""
     load = series.load(model.kwh_per_kg_h2)
     local = series.local
-    rule = describe(scheme.id) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme.id)})"
-    granularity = scheme_granularity(scheme.id, local) if granularity is None else granularity
+    rule = describe(scheme) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme)})"
+    granularity = model.granularity if granularity is None else granularity
     result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, local)
     total_load, matched, unmatched, intensity = counted_intensity(result, load, model, series.grid_g_co2e_per_kwh)
 
@@ -300,9 +307,9 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         for start, a, b, c in zip(starts, m_load, m_matched, m_intensity, strict=False)
     ]
     matching = ElectricityMatching(
-        granularity=result.granularity if result.granularity != "mixed" else describe(scheme.id),
+        granularity=result.granularity if result.granularity != "mixed" else describe(scheme),
         rule=rule,
-        rule_sources=[rule.source for rule in matching_rules(scheme.id)],
+        rule_sources=[rule.source for rule in (scheme.electricity_rules.temporal if scheme.electricity_rules is not None else [])],
         matched_share=result.matched_share,
         load_kwh=total_load,
         matched_kwh=matched,
@@ -325,11 +332,30 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     if findings is None:
         verdict = scheme.evaluate(value)
     else:  # as core.scoring.scheme_checks: the verdict of the matched value
-        verdict = judged(scheme, value, findings)
+        verdict = judged(scheme, value, findings + matching_findings(scheme, model, result, rule))
         note = (check.co_products or {}).get("note", "")
         if note.startswith("cannot be judged"):
             verdict.update(status="undetermined", passes=False, tier=None, reasons=[note, *verdict["reasons"]])
     return check.model_copy(update={"value": value, **verdict, "electricity_matching": matching})
+
+
+def matching_findings(scheme, model: ElectricityModel, result: MatchResult, rule: str) -> list[Finding]:
+    """What the matching decides under a scheme that counts renewable electricity at zero: the share
+    of the electricity matched in time with eligible generation (the rest is charged as grid
+    electricity), and, for a scheme that does not cover fully renewable production, whether every
+    kWh was matched."""
+    rules = scheme.electricity_rules
+    if rules is None or scheme.electricity != "renewable_at_zero":
+        return []
+    cited = "; ".join(dict.fromkeys(grade_note(r.source, r.grade) for r in rules.temporal)) or grade_note(rules.source, rules.grade)
+    share = result.matched_share
+    matched = share >= 1.0 - 1e-9
+    text = (f"temporal correlation, {model.granularity} matching ({rule}): {share:.1%} of the electricity matched with eligible generation "
+            f"({', '.join(model.eligible) or 'none eligible'}) in the same period; {'' if matched else f'the unmatched {1 - share:.1%} is {rules.non_qualifying}'} [{cited}]")
+    findings = [Finding("electricity", MET if matched else NOT_MET, text.replace("; [", " [") if matched else text, charged=not matched)]
+    if matched and scheme.eligibility is not None and scheme.eligibility.excludes_counted_electricity and model.eligible:
+        findings.insert(0, fully_renewable_finding(scheme))
+    return findings
 
 
 def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None) -> ScoreResult:
@@ -347,13 +373,8 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     for check in result.checks:
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
-        checks.append(matched_check(check, scheme, series, model, granularity, scheme_reading(prepared, scheme)[1]))
+        checks.append(matched_check(check, scheme, series, model, granularity, scheme_reading(prepared, scheme).findings))
     return result.model_copy(update={"checks": checks})
-
-
-def rule_dates_for(scheme_id: str) -> list[tuple[str, _dt.date | None, _dt.date | None]]:
-    """(granularity, first date, last date) of each rule of a scheme, for listings and tests."""
-    return [(rule.granularity, rule.starts, rule.ends) for rule in matching_rules(scheme_id)]
 
 
 def unmatched_share_by_hour_and_month(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray) -> tuple[list[str], np.ndarray]:
@@ -396,7 +417,7 @@ def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, ser
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
         load = series.load(model.kwh_per_kg_h2)
-        outcome = match(load, series.generation_kwh, model.eligible, scheme_granularity(scheme.id, series.local), series.utc, series.local)
+        outcome = match(load, series.generation_kwh, model.eligible, model.granularity, series.utc, series.local)
         same = next((view for view, a, b in found if np.array_equal(a, load) and np.array_equal(b, outcome.matched_interval_kwh)), None)
         if same is not None:
             same.schemes.append(scheme.id)
@@ -405,7 +426,7 @@ def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, ser
         _, column = np.unique(series.local.astype("datetime64[M]"), return_inverse=True)
         view = MatchingView(
             schemes=[scheme.id],
-            granularity=describe(scheme.id),
+            granularity=describe(scheme),
             matched_share=outcome.matched_share,
             months=months,
             monthly_load_kwh=np.bincount(column, load, minlength=len(months)),
@@ -441,7 +462,7 @@ def matched_values_of_draws(scheme, series: ElectricitySeries, model: Electricit
 
     counted = {name: per_draw(value) for name, value in model.counted_kg_per_kwh.items()}
     grid_kg = per_draw(model.grid_kg_per_kwh)
-    granularity = scheme_granularity(scheme.id, series.local)
+    granularity = model.granularity
     if series.load_kwh is not None:
         loads, which = [series.load_kwh], np.zeros(count, dtype=int)
     else:

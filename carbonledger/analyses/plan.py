@@ -43,7 +43,7 @@ import numpy as np
 
 from ..errors import InputError
 from .electricity_series import ElectricitySeries
-from .matching import ElectricityModel, counted_intensity, match, period_labels, scheme_granularity
+from .matching import ElectricityModel, counted_intensity, match, period_labels
 
 
 @dataclass
@@ -205,7 +205,7 @@ def plan_load(
     if not 0 <= min_load <= 1:
         raise InputError("--min-load", str(min_load), "a fraction of rated power from 0 to 1")
     local = series.local
-    rule = scheme_granularity(scheme.id, local) if granularity is None else granularity
+    rule = model.granularity if granularity is None else granularity
     labels = period_labels(series.utc, local, rule)
     eligible = [name for name in model.eligible if name in series.generation_kwh]
     supply = np.array([series.generation_kwh[s] for s in eligible]).reshape(len(eligible), n)

@@ -23,7 +23,6 @@ References
 from __future__ import annotations
 
 import copy
-import datetime as dt
 import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -41,10 +40,14 @@ from ..core.scoring import (
     FUNCTIONAL_UNITS,
     basis_of,
     characterisation,
+    charged_source_intensities,
+    checked_year,
+    grid_charge,
     intensities,
     read_rules,
     rulebooks,
-    zero_rated,
+    scheme_mask,
+    unit_intensity,
 )
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
@@ -56,7 +59,7 @@ from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
 from ..routes.base import APART_FLOWS
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
-from .matching import ElectricityModel, counted_source_intensities, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, series_matched_periods
+from .matching import ElectricityModel, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, scheme_granularity, series_matched_periods
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
@@ -442,28 +445,31 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
     scheme_values, scheme_findings = {}, {}
     nominal = params_with_draws(plan, {})
-    period = Period.year(plan.year if plan.year is not None else dt.date.today().year)
+    period = Period.year(checked_year(nominal, plan.year, plan.source))
     matched_periods = series_matched_periods(plan.series) if plan.series is not None else None
     for scheme in chosen:
-        counted, findings, _ = read_rules(scheme, inventory, nominal, period, matched_periods)
-        scheme_findings[scheme.id] = findings
-        mask = np.array([bool(zero_rated(scheme, inventory, key, counted)) for key in keys])
+        reading = read_rules(scheme, inventory, nominal, period, matched_periods)
+        scheme_findings[scheme.id] = reading.findings
         basis_demand, basis_product = basis_of(scheme, inventory)
-        scheme_total = (contributions(basis_demand, per_gwp[scheme.gwp]) * ~mask[None, None, :]).sum(axis=(1, 2))
+        gwp_vector = per_gwp[scheme.gwp]
+        grid_kg = {grid: unit_intensity(inventory, grid, stacked.flow_keys, gwp_vector) for grid in set(reading.charged_as_grid.values())}
+        basis_supply = supply[:, :, column[basis_demand]]
+        scheme_total = (contributions(basis_demand, gwp_vector) * ~scheme_mask(scheme, inventory, keys, reading)[None, None, :]).sum(axis=(1, 2)) + grid_charge(reading, keys, basis_supply, grid_kg)
         values = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,))
         if plan.series is not None:
             mix, gate = keys.index("electricity_mix"), column[inventory.gate]
             sources = params["electricity"]["sources"]
-            counted_kg = counted_source_intensities(scheme, inventory, sources, stacked.flow_keys, per_gwp[scheme.gwp], counted)
-            declared, grid_kg = declared_and_grid_intensity(counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh)
+            counted_kg = charged_source_intensities(scheme, inventory, stacked.flow_keys, gwp_vector, reading)
+            declared, grid_mix_kg = declared_and_grid_intensity(counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh)
             model = ElectricityModel(
                 basis_kwh=supply[:, mix, column[basis_demand]],
                 kwh_per_kg_h2=supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
                 counted_kg_per_kwh=counted_kg,
                 declared_kg_per_kwh=declared,
-                grid_kg_per_kwh=grid_kg,
+                grid_kg_per_kwh=grid_mix_kg,
                 value_per_total=intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity],
-                eligible=eligible_sources(scheme, counted, list(plan.series.generation_kwh)),
+                eligible=eligible_sources(scheme, reading.counted_zero, list(plan.series.generation_kwh)),
+                granularity=scheme_granularity(scheme, period),
             )
             values = matched_values_of_draws(scheme, plan.series, model, values)
         scheme_values[scheme.id] = values

@@ -102,7 +102,7 @@ class Check(BaseModel):
     unit: str
     value: float
     passes: bool
-    margin: float
+    margin: float | None  # limit - value; None for a check that is not eligible
     tier: str | None
     from_memory: bool
     note: str = ""
@@ -112,6 +112,8 @@ class Check(BaseModel):
     assessment_period: str = ""  # the dates the rules were read on (a calendar year)
     rule_versions: list[str] = []  # the version of each dated rule used
     electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
+    electricity_charged_as_grid: dict[str, str] = {}  # failing electricity activity -> grid activity whose intensity it is charged
+    grade: str = ""  # the rulebook's grade: primary text, verbatim secondary, secondary, not yet verified
     # the co-product rule the rulebook requires, the project's own method and what the value used
     co_products: dict[str, Any] = {}
 
@@ -133,6 +135,7 @@ class ScoreResult(BaseModel):
     project: str
     project_file: str
     project_sha256: str
+    assessment_year: int | None = None  # the calendar year whose dates the scheme rules were read on
     product: str
     boundary: str
     functional_unit: str
@@ -178,6 +181,7 @@ class ScoreResult(BaseModel):
     def summary(self) -> dict:
         """The compact figures stored in the run ledger."""
         return {
+            "assessment_year": self.assessment_year,
             "total": self.total,
             "unit": self.unit,
             "intensity": self.intensity.model_dump(),

@@ -24,7 +24,7 @@ from ..errors import InputError, did_you_mean, match_id
 from ..model.factors import FactorSet
 from ..model.project import as_date, boundary_id
 from ..model.reference import ReferenceValue
-from ..model.rulebooks import Scheme, load_schemes, select_schemes
+from ..model.rulebooks import Scheme, grade_note, load_schemes, select_schemes
 from ..routes import HYDROGEN_ROUTES, STAGES
 from ..routes.base import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
 from ..routes.project import validate_project
@@ -41,14 +41,22 @@ from .results import (
     ScoreResult,
 )
 from .verdicts import (
+    FIRST_YEAR,
+    LAST_YEAR,
+    MET,
     NOT_MET,
     NOTE,
+    UNKNOWN,
     Finding,
     Period,
+    Reading,
+    assessment_year,
     boundary_findings,
-    electricity_findings,
+    electricity_reading,
     eligibility_findings,
+    figure,
     ordered_reasons,
+    renewable_energy_findings,
     status_of,
 )
 
@@ -111,18 +119,57 @@ def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammoni
     }
 
 
-def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str, counted_zero=frozenset()) -> str:
-    """Why a scheme counts an activity's direct emissions as zero ('' when it counts them).
+def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str, counted_zero=frozenset(), charged_as_grid=None) -> str:
+    """Why a scheme does not count an activity's own direct emissions ('' when it counts them).
 
     ``counted_zero``: the electricity activities the scheme's electricity rules count at zero
-    (``Check.electricity_counted_zero``); the factor id's name alone never zero-rates a source.
+    (``Check.electricity_counted_zero``); ``charged_as_grid``: the failing ones charged instead at
+    the grid source's intensity (``Check.electricity_charged_as_grid``). The factor id's name alone
+    never zero-rates a source.
     """
     activity = inventory.activities[activity_key]
     if activity_key in counted_zero:
         return "electricity counted fully renewable under this scheme's rules: zero"
+    if charged_as_grid and activity_key in charged_as_grid:
+        return f"electricity failing this scheme's rules: charged at the intensity of {charged_as_grid[activity_key]}"
     if activity.stage in scheme.excluded_stages:
         return "stage outside this scheme's boundary"
     return ""
+
+
+def unit_intensity(inventory: Inventory, activity_key: str, flow_keys, characterisation):
+    """kg CO2e of an activity's own emissions per unit of its product (numbers, or arrays over draws
+    when ``characterisation`` is (draws, flows) or the amounts are arrays)."""
+    flow_index = {flow: number for number, flow in enumerate(flow_keys)}
+    return sum(
+        (characterisation[..., flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[activity_key].exchanges if e.kind == "biosphere"),
+        0.0,
+    )
+
+
+def charged_source_intensities(scheme: Scheme, inventory: Inventory, flow_keys, characterisation, reading: Reading) -> dict[str, object]:
+    """Each electricity source's intensity as the scheme charges it (kg CO2e/kWh, by source name):
+    zero where its rules count it fully renewable, the grid source's where it fails them and the
+    rulebook charges grid electricity, else its own factor. Numbers, or arrays over draws."""
+    charged = {}
+    for key, name in inventory.electricity_sources.items():
+        if key in reading.counted_zero:
+            charged[name] = 0.0
+        else:
+            charged[name] = unit_intensity(inventory, reading.charged_as_grid.get(key, key), flow_keys, characterisation)
+    return charged
+
+
+def scheme_mask(scheme: Scheme, inventory: Inventory, keys: list[str], reading: Reading) -> np.ndarray:
+    """Activities whose own emissions the scheme's value leaves out (counted zero, charged as grid, outside its boundary)."""
+    return np.array([bool(zero_rated(scheme, inventory, key, reading.counted_zero, reading.charged_as_grid)) for key in keys])
+
+
+def grid_charge(reading: Reading, keys: list[str], supply, unit_intensities: dict):
+    """kg CO2e per basis unit that failing electricity adds at the grid's intensity: the failing
+    source's kWh (``supply`` indexed like ``keys``, last axis) times the grid source's intensity."""
+    index = {key: number for number, key in enumerate(keys)}
+    return sum((supply[..., index[key]] * unit_intensities[grid] for key, grid in reading.charged_as_grid.items()), 0.0)
 
 
 @dataclass
@@ -172,10 +219,8 @@ def prepare(
     ``matching``: electricity source name -> the finest period a time series shows it matched
     (supplied by a matching analysis; without it hourly rules cannot be judged).
     """
-    if year is not None and not 1900 <= year <= 2200:
-        raise InputError("--year", str(year), "a calendar year between 1900 and 2200")
-    period = Period.year(year if year is not None else dt.date.today().year)
     params = project.model_dump()
+    period = Period.year(checked_year(params, year, source))
     gwp = gwp_set(gwp, factor_set)
     if boundary is not None:
         params["project"]["boundary"] = boundary_id(boundary)
@@ -197,6 +242,18 @@ def prepare(
     return Prepared(project, factor_set, params, inputs, inventory, chosen, gwp, headline, per_gwp, matrices, demands, hydrogen_lhv, ammonia_lhv, fraction, source, project_sha256, period, matching)
 
 
+def checked_year(params: dict, year: int | None, source: str = "project") -> int:
+    """The assessment year (``verdicts.assessment_year``), refused outside 2000 to 2100 or before the
+    plant is in service."""
+    if year is not None and not FIRST_YEAR <= year <= LAST_YEAR:
+        raise InputError("--year", str(year), f"an assessment year from {FIRST_YEAR} to {LAST_YEAR}")
+    commissioning = as_date(params["project"].get("commissioning", ""))
+    chosen = assessment_year(commissioning, year)
+    if commissioning is not None and commissioning > dt.date(chosen, 12, 31):
+        raise InputError(source, "project.commissioning", f"a date in or before the assessment year {chosen} (the plant is placed in service {commissioning.isoformat()}; choose --year {assessment_year(commissioning, None)} or later)")
+    return chosen
+
+
 def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
     """(demand activity, product) of a scheme's basis: the delivered product where the rulebook
     counts delivery (the project's own reference, as far as it models it), else the plant gate
@@ -208,55 +265,57 @@ def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
     return inventory.hydrogen, "hydrogen"
 
 
-def scheme_reading(prepared: Prepared, scheme: Scheme) -> tuple[set[str], list[Finding], list[str]]:
+def scheme_reading(prepared: Prepared, scheme: Scheme) -> Reading:
     """The scheme's rules on this project before the threshold: counted electricity, findings, versions."""
     return read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
 
 
-def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> tuple[set[str], list[Finding], list[str]]:
-    """The scheme's rules read on ``period``'s dates: the electricity counted at zero, the findings
-    (eligibility, electricity, dates, boundary) and the rule versions used. Used by every solver
-    (bw2calc, stacked, Monte Carlo draws) so that they read the rules alike."""
-    findings = eligibility_findings(scheme, params)
-    counted, electricity, versions = electricity_findings(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, period, matching)
-    rules = scheme.eligibility
-    if rules is not None and rules.requires_counted_electricity and params["hydrogen"]["route"] in rules.routes:
-        where = f"{rules.source}{' (from memory)' if rules.from_memory else ''}"
-        if not counted:
-            findings.append(Finding("eligibility", NOT_MET, f"no electricity source counts as fully renewable, so the product is not of the kind covered: {rules.energy} [{where}]"))
-        elif len(counted) < len(inventory.electricity_sources):
-            findings.append(Finding("electricity", "met", f"only the share of output made with the electricity counted fully renewable is of the kind covered; the rest is charged as stated [{where}]"))
-    if rules is not None and rules.excludes_counted_electricity and params["hydrogen"]["route"] == "electrolysis" and counted and len(counted) == len(inventory.electricity_sources):
-        where = f"{rules.source}{' (from memory)' if rules.from_memory else ''}"
-        findings.append(Finding("eligibility", NOT_MET, f"every electricity source counts as fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} [{where}]"))
-    findings += electricity
+def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> Reading:
+    """The scheme's rules read on ``period``'s dates: the electricity counted at zero and charged as
+    grid electricity, the findings (eligibility, electricity, dates, boundary) and the rule versions
+    used. Used by every solver (bw2calc, stacked, Monte Carlo draws) so that they read the rules alike.
+    ``matching``: source name -> the interval of a time series that shows its generation."""
+    reading = electricity_reading(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, period, matching)
+    renewable = renewable_energy_findings(scheme, params, reading, inventory.electricity_sources, matching)
+    reading.findings = eligibility_findings(scheme, params, period) + renewable + reading.findings
     commissioning = as_date(params["project"].get("commissioning", ""))
     if commissioning is not None and period.end < commissioning:
-        findings.append(Finding("dates", NOTE, f"the plant is not in operation in {period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {period.label()}'s dates; use --year for an operating year"))
+        reading.findings.append(Finding("dates", NOTE, f"the plant is not in operation in {period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {period.label()}'s dates; use --year for an operating year"))
     present = {inventory.activities[key].stage for key in inventory.activities}
-    findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"])
+    reading.findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"])
     if scheme.version:
-        versions.insert(0, scheme.version)
-    return counted, findings, versions
+        reading.versions.insert(0, scheme.version)
+    return reading
 
 
-def threshold_sentence(scheme: Scheme, value: float) -> str:
+def threshold_finding(scheme: Scheme, value: float) -> Finding:
+    """The value against the tiers: the tier met (its limit and source), or the loosest limit missed."""
+    tier = scheme.tier_met(value)
+    unit = scheme.unit
+    if tier is not None:
+        operator = "<=" if tier.inclusive else "<"
+        return Finding("threshold", MET, f"value {figure(value)} {unit} {operator} {tier.limit:g}: {tier.tier} [{grade_note(tier.source, tier.grade)}]")
     loosest = scheme.loosest()
     operator = "<=" if loosest.inclusive else "<"
-    met = loosest.met_by(value)
-    words = f"value {value:.4g} {scheme.unit} {operator if met else 'not ' + operator} {loosest.limit:g}"
-    return f"{words} ({loosest.tier}) [{loosest.source}{' (from memory)' if loosest.from_memory else ''}]"
+    return Finding("threshold", NOT_MET, f"value {figure(value)} {unit} not {operator} {loosest.limit:g} ({loosest.tier}) [{grade_note(loosest.source, loosest.grade)}]")
 
 
 def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
     """The verdict of a scheme value under the scheme's findings: status, reasons, passes, tier,
-    limit and margin (a value under the limit qualifies only when no rule is broken or open)."""
+    limit and margin. A value under the limit qualifies only when no rule is broken or open; a
+    not-eligible check has no margin, tier or threshold sentence; an undetermined one says how much
+    room the terms it cannot judge have."""
     verdict = scheme.evaluate(value)
     status = status_of(findings, verdict["passes"])
     verdict["passes"] = status == "qualifies"
     if status != "qualifies":
         verdict["tier"] = None
-    return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_sentence(scheme, value))}
+    if status == "not_eligible":
+        verdict["margin"] = None
+    if status == "undetermined":
+        room = f"qualifies if what cannot be judged adds at most {figure(verdict['margin'])} {scheme.unit} and meets its rule"
+        findings = [Finding(f.step, f.outcome, f"{f.text}; {room}", f.charged) if f.outcome == UNKNOWN and f.step == "boundary" else f for f in findings]
+    return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_finding(scheme, value))}
 
 
 def scheme_characterisation(prepared: Prepared, scheme: Scheme):
@@ -319,6 +378,10 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
         elif check.status == "not_eligible":
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}}))
+        elif method == "none" and check.status == "qualifies":
+            why = (f"the project gives the {co.name} no share of the burden, so the value is an upper bound of the scheme's {required} "
+                   "(an allocation or a credit for the displaced product can only lower it): it qualifies under the scheme's rule too, at this tier or a better one")
+            out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
         elif required in co.methods and not co.missing(prepared.params, required):
             rescored = _rescored_check(prepared, by_id[check.scheme], co.parameter, required)
             out.append(rescored.model_copy(update={"co_products": {**info, "applied": required, "note": f"scheme value rescored with {required}; the headline keeps the project's {method}"}}))
@@ -339,10 +402,12 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     keys = prepared.matrices.activity_keys
     checks = []
     for scheme in prepared.chosen:
-        counted, findings, versions = scheme_reading(prepared, scheme)
-        mask = np.array([bool(zero_rated(scheme, inventory, key, counted)) for key in keys])
+        reading = scheme_reading(prepared, scheme)
         basis_demand, basis_product = basis_of(scheme, inventory)
-        scheme_total = float(solutions[basis_demand].contributions(scheme_characterisation(prepared, scheme), mask).sum())
+        vector = scheme_characterisation(prepared, scheme)
+        solution = solutions[basis_demand]
+        grid_kg = {grid: unit_intensity(inventory, grid, prepared.matrices.flow_keys, vector) for grid in set(reading.charged_as_grid.values())}
+        scheme_total = float(solution.contributions(vector, scheme_mask(scheme, inventory, keys, reading)).sum() + grid_charge(reading, keys, solution.supply, grid_kg))
         value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
         checks.append(
             Check(
@@ -358,9 +423,11 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
                 from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
                 note=scheme.note,
                 assessment_period=prepared.period.label(),
-                rule_versions=versions,
-                electricity_counted_zero=sorted(counted),
-                **judged(scheme, value, findings),
+                rule_versions=reading.versions,
+                electricity_counted_zero=sorted(reading.counted_zero),
+                electricity_charged_as_grid=dict(sorted(reading.charged_as_grid.items())),
+                grade=scheme.grade,
+                **judged(scheme, value, reading.findings),
             )
         )
     return checks
@@ -430,6 +497,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
         project=params["project"]["name"],
         project_file=prepared.source,
         project_sha256=prepared.project_sha256,
+        assessment_year=prepared.period.start.year,
         product=product,
         boundary=params["project"]["boundary"],
         functional_unit=inventory.functional_unit,

@@ -2,30 +2,30 @@
 
 A scheme decides in this order and the verdict says which step decided:
 
-1. eligibility: the hydrogen route and its energy are of the kind the scheme covers, and dated
-   conditions on the plant hold (e.g. a construction deadline);
+1. eligibility: the hydrogen route and its energy are of the kind the scheme covers, and the
+   plant's place and dates meet the scheme (construction deadline, credit period, country of
+   production, no other credit for the capture equipment);
 2. electricity: which sources count as fully renewable (or low-carbon) given how they are
-   procured, the generator's age against the plant's (additionality), support received, the
-   zone (geographic correlation) and the matching period in force on the assessment dates
-   (temporal correlation); the others are charged at their factor;
+   procured, the generator's age against the plant's (additionality, with its transition), support
+   received, the zone (geographic correlation) and the matching period in force in the assessment
+   year (temporal correlation). A kWh that fails a rule is charged as the rulebook says: as grid
+   electricity of the plant's zone (the project's grid source in that zone gives the intensity),
+   never at its generator's own factor where the rulebook charges the grid;
 3. boundary: the scheme's formula terms against what the project models;
 4. the threshold tiers on the value computed under the scheme's GWP set.
 
-Each rule gives a ``Finding``: met, not met, or unknown (cannot be judged from what the project
-declares). Status: ``not_eligible`` when an eligibility rule is not met; ``fails`` when the
-value misses the loosest threshold even with every unknown rule read in the project's favour;
-``undetermined`` when a rule cannot be judged; ``qualifies`` otherwise. Reasons are short
+Each rule gives a ``Finding``: met, not met, cannot be judged (the project does not give the fact
+that decides it), or a note (never decides). Status: ``not_eligible`` when an eligibility rule is
+not met (no threshold judgement, no margin); ``fails`` when the value misses the loosest
+threshold; ``undetermined`` when a rule cannot be judged; ``qualifies`` otherwise. Reasons are
 sentences naming the rule and its source, the deciding one first.
-
-Temporal matching finer than a declaration can show (hourly, half-hourly) needs interval data:
-``matching`` (source name -> the finest period a time series has shown the source matched) is
-the input a matching module supplies; without it such rules are unknown.
 
 References
 ----------
-.. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 3-7 (fully renewable electricity).
+.. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 3-7 and 11 (fully renewable electricity).
 .. [2] Commission Delegated Regulation (EU) 2023/1185, Annex Part A (E = e_i + e_p + e_td + e_u - e_ccs).
-.. [3] 26 U.S.C. 45V and the final regulations of January 2025 (three requirements).
+.. [3] Directive (EU) 2018/2001 Art. 27(6) as amended by Directive (EU) 2023/2413.
+.. [4] 26 U.S.C. 45V(a)(1), (b)(2), (c)(2), (c)(3), (d)(2); 26 CFR 1.45V-4 (January 2025).
 """
 
 from __future__ import annotations
@@ -34,11 +34,11 @@ import datetime as dt
 from dataclasses import dataclass, field
 
 from ..model.project import as_date
-from ..model.rulebooks import PERIODS, Scheme
+from ..model.rulebooks import PERIODS, Scheme, grade_note
 
 MET, NOT_MET, UNKNOWN, NOTE = "met", "not met", "cannot be judged", "note"  # a note never decides
-STATUSES = ("qualifies", "fails", "not_eligible", "undetermined")
-HOURLY_NEEDS_SERIES = "hourly matching needs a time series"
+GRID_KINDS = ("grid", "residual_mix")
+ZERO = 1e-9  # a figure this close to zero is shown as 0
 
 
 @dataclass(frozen=True)
@@ -61,8 +61,9 @@ class Period:
 @dataclass(frozen=True)
 class Finding:
     step: str  # eligibility, electricity, boundary, threshold, dates
-    outcome: str  # MET, NOT_MET, UNKNOWN
+    outcome: str  # MET, NOT_MET, UNKNOWN, NOTE
     text: str  # a short sentence naming the rule and its source
+    charged: bool = False  # an electricity rule whose failure changed what a kWh with a share is charged
 
     def sentence(self) -> str:
         return f"{self.outcome}: {self.text}"
@@ -70,181 +71,331 @@ class Finding:
 
 @dataclass
 class Reading:
-    """Everything the rules say about one project under one scheme, before the threshold."""
+    """Everything a scheme's rules say about one project before the threshold.
+
+    ``counted_zero``: electricity activity keys counted fully renewable (zero); ``charged_as_grid``:
+    failing electricity activity key -> the grid source's activity key whose intensity it is charged.
+    """
 
     findings: list[Finding] = field(default_factory=list)
-    counted_zero: set[str] = field(default_factory=set)  # electricity activity keys that count zero
-    basis: str = "product"  # product, hydrogen_production or delivered
+    counted_zero: set[str] = field(default_factory=set)
+    charged_as_grid: dict[str, str] = field(default_factory=dict)
     versions: list[str] = field(default_factory=list)
 
 
-def _source_note(text: str, from_memory: bool) -> str:
-    return f"{text}{' (from memory)' if from_memory else ''}"
+FIRST_YEAR, LAST_YEAR = 2000, 2100  # assessment years the rulebooks are written for
 
 
-def eligibility_findings(scheme: Scheme, params: dict) -> list[Finding]:
-    """The route the scheme covers and its dated conditions on the plant."""
+def assessment_year(commissioning: dt.date | None, year: int | None, today: dt.date | None = None) -> int:
+    """The calendar year whose dates the rules are read on: ``year`` when given, else the first
+    full calendar year of operation after commissioning, else the current year."""
+    if year is not None:
+        return year
+    if commissioning is None:
+        return (today or dt.date.today()).year
+    return commissioning.year if (commissioning.month, commissioning.day) == (1, 1) else commissioning.year + 1
+
+
+def figure(value: float) -> str:
+    """A figure for a sentence: 4 significant digits, 0 within 1e-9 of zero."""
+    return "0" if abs(value) < ZERO else f"{value:.4g}"
+
+
+def _where(source: str, grade: str) -> str:
+    return f"[{grade_note(source, grade)}]"
+
+
+def add_years(day: dt.date, years: int) -> dt.date:
+    """The same calendar day ``years`` later (29 February -> 28 February)."""
+    try:
+        return day.replace(year=day.year + years)
+    except ValueError:
+        return day.replace(year=day.year + years, day=28)
+
+
+def months_before(day: dt.date, months: int) -> dt.date:
+    """The same calendar day ``months`` earlier (the last day of a shorter month)."""
+    month = day.month - 1 - months
+    year = day.year + month // 12
+    month = month % 12 + 1
+    for last in (day.day, 30, 29, 28):
+        try:
+            return dt.date(year, month, min(day.day, last))
+        except ValueError:
+            continue
+    raise ValueError(day)
+
+
+# ---- eligibility -----------------------------------------------------------------------------
+
+
+def eligibility_findings(scheme: Scheme, params: dict, period: Period) -> list[Finding]:
+    """The route the scheme covers, and the plant's place and dates against the scheme."""
     rules = scheme.eligibility
     if rules is None:
         return []
     route = params["hydrogen"]["route"]
-    source = _source_note(rules.source, rules.from_memory)
-    findings = []
-    if route in rules.routes:
-        findings.append(Finding("eligibility", MET, f"route {route} is covered: {rules.energy} [{source}]"))
-    else:
-        findings.append(Finding("eligibility", NOT_MET, f"route {route} is not covered: {rules.energy} [{source}]"))
+    where = _where(rules.source, rules.grade)
+    project = params["project"]
+    findings = [Finding("eligibility", MET if route in rules.routes else NOT_MET, f"route {route} is {'' if route in rules.routes else 'not '}covered: {rules.energy} {where}")]
     if rules.construction_start_before is not None:
         deadline = rules.construction_start_before.isoformat()
-        where = _source_note(rules.construction_source or rules.source, rules.from_memory)
-        started = as_date(params["project"].get("construction_start", ""))
+        cited = _where(rules.construction_source or rules.source, rules.grade if not rules.construction_source else "secondary")
+        started = as_date(project.get("construction_start", ""))
         if started is None:
-            findings.append(Finding("eligibility", UNKNOWN, f"construction must begin before {deadline}; project.construction_start is not given [{where}]"))
-        elif started < rules.construction_start_before:
-            findings.append(Finding("eligibility", MET, f"construction began {started.isoformat()}, before {deadline} [{where}]"))
+            findings.append(Finding("eligibility", UNKNOWN, f"construction must begin before {deadline}; project.construction_start is not given {cited}"))
         else:
-            findings.append(Finding("eligibility", NOT_MET, f"construction began {started.isoformat()}, not before {deadline} [{where}]"))
+            before = started < rules.construction_start_before
+            findings.append(Finding("eligibility", MET if before else NOT_MET, f"construction began {started.isoformat()}, {'' if before else 'not '}before {deadline} {cited}"))
+    if rules.countries_rule is not None:
+        findings.append(_country_finding(rules, project.get("country", "")))
+    if rules.credit_period_rule is not None and rules.credit_period_years:
+        findings.append(_credit_period_finding(rules, as_date(project.get("commissioning", "")), period))
+    if rules.excludes_capture_credit is not None and params.get("capture") is not None:
+        claims = params["capture"].get("claims_45q")
+        cited = _where(rules.excludes_capture_credit.source, rules.excludes_capture_credit.grade)
+        if claims is None:
+            findings.append(Finding("eligibility", UNKNOWN, f"no credit where the capture equipment earns a 45Q credit; capture.claims_45q is not given {cited}"))
+        else:
+            findings.append(Finding("eligibility", NOT_MET if claims else MET, f"the capture equipment {'earns' if claims else 'earns no'} 45Q credit {cited}"))
     return findings
 
 
-def temporal_rule_in_force(scheme: Scheme, day: dt.date):
-    """The version of the temporal-correlation rule in force on a day (None when the scheme sets none)."""
-    rules = scheme.electricity_rules
-    if rules is None:
-        return None
-    return next((rule for rule in rules.temporal if rule.in_force(day)), None)
+def _country_finding(rules, country: str) -> Finding:
+    cited = _where(rules.countries_rule.source, rules.countries_rule.grade)
+    if not country:
+        return Finding("eligibility", UNKNOWN, f"production must take place in {rules.countries_in_words}; project.country is not given {cited}")
+    inside = country in rules.countries
+    return Finding("eligibility", MET if inside else NOT_MET, f"production in country {country}, {'' if inside else 'not '}in {rules.countries_in_words} {cited}")
 
 
-def _finer_or_equal(shown: str | None, required: str) -> bool:
-    return shown is not None and PERIODS.index(shown) >= PERIODS.index(required)
+def _credit_period_finding(rules, placed_in_service: dt.date | None, period: Period) -> Finding:
+    years = rules.credit_period_years
+    cited = _where(rules.credit_period_rule.source, rules.credit_period_rule.grade)
+    if placed_in_service is None:
+        return Finding("eligibility", UNKNOWN, f"{years}-year credit period from the date placed in service; project.commissioning is not given {cited}")
+    last = add_years(placed_in_service, years) - dt.timedelta(days=1)
+    span = f"the {years}-year credit period from the date placed in service ({placed_in_service.isoformat()}) runs to {last.isoformat()}"
+    if period.start > last:
+        return Finding("eligibility", NOT_MET, f"{span}, before {period.label()} {cited}")
+    if period.end > last:
+        return Finding("eligibility", MET, f"{span}: hydrogen produced after it in {period.label()} earns no credit {cited}")
+    return Finding("eligibility", MET, f"{span}: {period.label()} is inside it {cited}")
+
+
+# ---- electricity -----------------------------------------------------------------------------
+
+
+def grid_reference(sources: dict[str, str], kinds: dict[str, str], declared: dict, plant_zone: str) -> str | None:
+    """The electricity activity whose factor is the grid intensity of the plant's zone: a grid
+    source in the plant's zone, else the only grid source, else None."""
+    grid = [key for key, name in sources.items() if kinds.get(key) in GRID_KINDS or declared[name].get("procurement") == "grid"]
+    in_zone = [key for key in grid if plant_zone and declared[sources[key]].get("zone", "") == plant_zone]
+    if in_zone:
+        return in_zone[0]
+    return grid[0] if len(grid) == 1 else None
+
+
+def _direct_connection(rules, source: dict, name: str, plant_commissioning: dt.date | None) -> list[Finding]:
+    """2023/1184 Art. 3: the generator's age only (no aid test, no transition)."""
+    months = rules.direct_connection_months
+    cited = _where(rules.direct_connection_source, rules.grade)
+    generator = as_date(source.get("commissioned", ""))
+    if generator is None or plant_commissioning is None:
+        missing = "commissioned" if generator is None else "project.commissioning"
+        return [Finding("electricity", UNKNOWN, f"{name}: direct connection to a generator in operation no earlier than {months} months before the plant; {missing} is not given {cited}")]
+    ok = generator >= months_before(plant_commissioning, months)
+    return [Finding("electricity", MET if ok else NOT_MET, f"{name}: direct connection, generator in operation {generator.isoformat()}, plant {plant_commissioning.isoformat()} ({'within' if ok else 'more than'} {months} months earlier) {cited}")]
 
 
 def _additionality(rules, source: dict, name: str, plant_commissioning: dt.date | None, period: Period) -> list[Finding]:
     """Generator age against the plant's, and support, with the scheme's transition dates."""
     if rules.additionality_months is None:
         return []
-    where = _source_note(rules.additionality_source or rules.source, rules.from_memory)
+    cited = _where(rules.additionality_source or rules.source, rules.grade)
     months = rules.additionality_months
     start, transition = rules.additionality_applies_from, rules.additionality_transition_until
-    if start is not None and source.get("procurement") != "direct_line":
+    if start is not None:
         if period.end < start:
-            return [Finding("electricity", MET, f"{name}: additionality applies from {start.isoformat()}, after the assessment period [{where}]")]
-        if transition is not None and period.end <= transition:
+            return [Finding("electricity", MET, f"{name}: additionality applies from {start.isoformat()}, after the assessment period {cited}")]
+        if transition is not None:
+            exempt = _where(rules.additionality_transition_source or rules.additionality_source, rules.grade)
             if plant_commissioning is None:
-                return [Finding("electricity", UNKNOWN, f"{name}: additionality applies unless the plant was in operation before {start.isoformat()}; project.commissioning is not given [{where}]")]
+                return [Finding("electricity", UNKNOWN, f"{name}: additionality (36 months, no aid) unless the plant was in operation before {start.isoformat()} and the period ends by {transition.isoformat()}; project.commissioning is not given {exempt}")]
+            if plant_commissioning < start and period.end <= transition:
+                return [Finding("electricity", MET, f"{name}: plant in operation before {start.isoformat()}, exempt from additionality until {(transition + dt.timedelta(days=1)).isoformat()} {exempt}")]
             if plant_commissioning < start:
-                return [Finding("electricity", MET, f"{name}: plant in operation before {start.isoformat()}, exempt from additionality until {transition.isoformat()} [{where}]")]
+                cited = f"{cited[:-1]}; the exemption for plants in operation before {start.isoformat()} ended {(transition + dt.timedelta(days=1)).isoformat()}]"
     findings = []
     generator = as_date(source.get("commissioned", ""))
     if generator is None or plant_commissioning is None:
         missing = "commissioned" if generator is None else "project.commissioning"
-        findings.append(Finding("electricity", UNKNOWN, f"{name}: generator in operation no earlier than {months} months before the plant; {missing} is not given [{where}]"))
+        findings.append(Finding("electricity", UNKNOWN, f"{name}: additionality, generator in operation no earlier than {months} months before the plant; {missing} is not given {cited}"))
     else:
-        earliest = _months_before(plant_commissioning, months)
-        outcome = MET if generator >= earliest else NOT_MET
-        findings.append(Finding("electricity", outcome, f"{name}: generator in operation {generator.isoformat()}, plant {plant_commissioning.isoformat()} (at most {months} months earlier allowed) [{where}]"))
+        ok = generator >= months_before(plant_commissioning, months)
+        findings.append(Finding("electricity", MET if ok else NOT_MET, f"{name}: additionality, generator in operation {generator.isoformat()}, plant {plant_commissioning.isoformat()} ({'within' if ok else 'more than'} {months} months earlier) {cited}"))
     if rules.generator_without_support:
         supported = source.get("supported")
         if supported is None:
-            findings.append(Finding("electricity", UNKNOWN, f"{name}: generator without operating or investment aid; supported is not given [{where}]"))
+            findings.append(Finding("electricity", UNKNOWN, f"{name}: additionality, generator without operating or investment aid; supported is not given {cited}"))
         else:
-            findings.append(Finding("electricity", NOT_MET if supported else MET, f"{name}: generator {'received' if supported else 'received no'} operating or investment aid [{where}]"))
+            findings.append(Finding("electricity", NOT_MET if supported else MET, f"{name}: additionality, generator {'received' if supported else 'received no'} operating or investment aid {cited}"))
     return findings
 
 
-def _months_before(day: dt.date, months: int) -> dt.date:
-    month = day.month - 1 - months
-    year = day.year + month // 12
-    month = month % 12 + 1
-    return dt.date(year, month, min(day.day, 28))
+def _geographic(rules, source: dict, name: str, plant_zone: str) -> Finding:
+    cited = _where(rules.geographic_source or rules.source, rules.grade)
+    zone = source.get("zone", "")
+    if not zone or not plant_zone:
+        return Finding("electricity", UNKNOWN, f"{name}: geographic correlation, {rules.geographic}; zone of the {'generator' if not zone else 'plant'} is not given {cited}")
+    if zone == plant_zone:
+        return Finding("electricity", MET, f"{name}: geographic correlation, {rules.geographic} (generator and plant in {zone}) {cited}")
+    if rules.other_zone == "cannot_be_judged":
+        return Finding("electricity", UNKNOWN, f"{name}: geographic correlation, generator in bidding zone {zone}, plant in {plant_zone}: allowed only under {rules.other_zone_alternatives} {cited}")
+    return Finding("electricity", NOT_MET, f"{name}: geographic correlation, {rules.geographic}: generator in {zone}, plant in {plant_zone} {cited}")
 
 
-def electricity_findings(scheme: Scheme, params: dict, sources: dict[str, str], kinds: dict[str, str], period: Period, matching: dict[str, str] | None) -> tuple[set[str], list[Finding], list[str]]:
-    """Which electricity activities count zero, the findings per source, and the rule versions read.
-
-    ``sources``: electricity activity key -> source name; ``kinds``: key -> generator kind (from
-    the factor's namespace: renewable, low_carbon, grid, fossil). A source counts zero when its
-    kind and procurement are accepted and no rule is broken; unknown rules are read in its
-    favour for the value and make the verdict undetermined.
-    """
-    rules = scheme.electricity_rules
-    if rules is None or scheme.electricity != "renewable_at_zero":
-        return set(), [], []
-    where = _source_note(rules.source, rules.from_memory)
-    declared = params["electricity"]["sources"]
-    plant_commissioning = as_date(params["project"].get("commissioning", ""))
-    plant_zone = params["project"].get("zone", "")
-    counted, findings, versions = set(), [], []
-    in_force = {day: temporal_rule_in_force(scheme, day) for day in (period.start, period.end)}
-    for rule in dict.fromkeys(r for r in in_force.values() if r is not None):
-        versions.append(f"temporal correlation {rule.period.replace('_', '-')} ({rule.version})")
-    for key, name in sources.items():
-        source = declared[name]
-        kind, procurement = kinds.get(key, "other"), source.get("procurement")
-        if kind not in rules.counts_at_zero:
-            findings.append(Finding("electricity", NOT_MET, f"{name}: a {kind} source does not count zero; {rules.non_qualifying} [{where}]"))
-            continue
-        if procurement is None:
-            findings.append(Finding("electricity", UNKNOWN, f"{name}: how it is procured is not declared (electricity.sources.{name}.procurement); counted zero only if {', '.join(rules.procurement)} [{where}]"))
-            counted.add(key)
-            continue
-        if procurement not in rules.procurement:
-            findings.append(Finding("electricity", NOT_MET, f"{name}: {procurement} is not accepted (only {', '.join(rules.procurement)}); {rules.non_qualifying} [{where}]"))
-            continue
-        own = [Finding("electricity", MET, f"{name}: {kind} generation by {procurement.replace('_', ' ')} [{where}]")]
-        own += _additionality(rules, source, name, plant_commissioning, period)
-        direct = procurement == "direct_line"
-        if rules.geographic and not (direct and "geographic" in rules.exempt_direct_line):
-            geo = _source_note(rules.geographic_source or rules.source, rules.from_memory)
-            zone = source.get("zone", "")
-            if not zone or not plant_zone:
-                own.append(Finding("electricity", UNKNOWN, f"{name}: {rules.geographic}; zone of the {'generator' if not zone else 'plant'} is not given [{geo}]"))
-            else:
-                own.append(Finding("electricity", MET if zone == plant_zone else NOT_MET, f"{name}: {rules.geographic} (generator {zone}, plant {plant_zone}) [{geo}]"))
-        if not (direct and "temporal" in rules.exempt_direct_line):
-            for rule in dict.fromkeys(r for r in in_force.values()):
-                own.append(_temporal(rule, name, source, matching, period))
-        broken = any(f.outcome == NOT_MET for f in own)
-        if broken:
-            own.append(Finding("electricity", NOT_MET, f"{name}: does not count as fully renewable; {rules.non_qualifying} [{where}]"))
-        else:
-            counted.add(key)
-        findings += own
-    return counted, findings, versions
-
-
-def _temporal(rule, name: str, source: dict, matching: dict[str, str] | None, period: Period) -> Finding:
+def _temporal(rule, name: str, source: dict, series_period: str | None, period: Period) -> Finding:
     if rule is None:
         return Finding("electricity", UNKNOWN, f"{name}: no temporal-correlation rule of this rulebook is in force in {period.label()}")
-    where = _source_note(f"{rule.source}, {rule.version}", rule.from_memory)
+    cited = _where(f"{rule.source}, {rule.version}", rule.grade)
     required = rule.period.replace("_", "-")
-    shown = (matching or {}).get(name)
-    if PERIODS.index(rule.period) >= PERIODS.index("hourly"):
-        if _finer_or_equal(shown, rule.period):
-            return Finding("electricity", MET, f"{name}: {required} matching shown by a time series [{where}]")
-        return Finding("electricity", UNKNOWN, f"{name}: {HOURLY_NEEDS_SERIES} ({required} rule in force in {period.label()}) [{where}]")
+    if series_period is not None:
+        return Finding("electricity", NOTE, f"{name}: temporal correlation, {required} in {period.label()}: judged interval by interval against the time series (see the matched share) {cited}")
     declared = source.get("matched")
-    if _finer_or_equal(shown, rule.period) or _finer_or_equal(declared, rule.period):
-        return Finding("electricity", MET, f"{name}: {required} matching {'shown' if shown else 'declared'} [{where}]")
     if declared is None:
-        return Finding("electricity", UNKNOWN, f"{name}: {required} matching required; electricity.sources.{name}.matched is not declared [{where}]")
-    return Finding("electricity", NOT_MET, f"{name}: {required} matching required, {declared} declared [{where}]")
+        return Finding("electricity", UNKNOWN, f"{name}: temporal correlation, {required} matching required in {period.label()}; electricity.sources.{name}.matched is not declared (or give a time series) {cited}")
+    ok = PERIODS.index(declared) >= PERIODS.index(rule.period)
+    return Finding("electricity", MET if ok else NOT_MET, f"{name}: temporal correlation, {required} matching required in {period.label()}, {declared.replace('_', '-')} declared {cited}")
+
+
+def _source_rules(rules, scheme: Scheme, name: str, source: dict, kind: str, project: dict, period: Period, series_period: str | None) -> list[Finding]:
+    """Every electricity rule of the scheme read on one contracted source."""
+    where = _where(rules.source, rules.grade)
+    procurement = source.get("procurement")
+    if kind not in rules.counts_at_zero:
+        return [Finding("electricity", NOT_MET, f"{name}: a {kind.replace('_', '-')} source does not count fully renewable under this scheme {where}")]
+    if procurement is None:
+        return [Finding("electricity", UNKNOWN, f"{name}: how it is procured is not declared (electricity.sources.{name}.procurement); it counts only by {', '.join(rules.procurement)} {where}")]
+    if procurement not in rules.procurement:
+        return [Finding("electricity", NOT_MET, f"{name}: {procurement.replace('_', ' ')} is not accepted (only {', '.join(p.replace('_', ' ') for p in rules.procurement)}) {where}")]
+    plant_commissioning = as_date(project.get("commissioning", ""))
+    direct = procurement == "direct_line"
+    own = [Finding("electricity", MET, f"{name}: {kind} generation by {procurement.replace('_', ' ')} {where}")]
+    if direct and rules.direct_connection_months is not None:
+        own += _direct_connection(rules, source, name, plant_commissioning)
+    else:
+        own += _additionality(rules, source, name, plant_commissioning, period)
+    if rules.geographic and not (direct and "geographic" in rules.exempt_direct_line):
+        own.append(_geographic(rules, source, name, project.get("zone", "")))
+    if not (direct and "temporal" in rules.exempt_direct_line):
+        rules_in_force = dict.fromkeys(scheme.temporal_rule_on(day) for day in (period.start, period.end))
+        own += [_temporal(rule, name, source, series_period, period) for rule in rules_in_force]
+    return own
+
+
+def electricity_reading(scheme: Scheme, params: dict, sources: dict[str, str], kinds: dict[str, str], period: Period, series_periods: dict[str, str] | None) -> Reading:
+    """Which electricity activities count zero, which are charged as grid electricity, the findings
+    per source and the rule versions read.
+
+    ``sources``: electricity activity key -> source name; ``kinds``: key -> generator kind (from the
+    factor's namespace: renewable, low_carbon, grid, residual_mix, fossil); ``series_periods``:
+    source name -> the interval of a time series that shows its generation (None without one).
+    A source with no share and no generation in a series supplies nothing and is not judged. A
+    source a rule cannot judge is counted in its favour for the value (the verdict is undetermined).
+    """
+    reading = Reading()
+    rules = scheme.electricity_rules
+    if rules is None or scheme.electricity != "renewable_at_zero":
+        return reading
+    declared = params["electricity"]["sources"]
+    project = params["project"]
+    series_periods = series_periods or {}
+    for day in (period.start, period.end):
+        rule = scheme.temporal_rule_on(day)
+        if rule is not None and f"temporal correlation {rule.period.replace('_', '-')} ({rule.version})" not in reading.versions:
+            reading.versions.append(f"temporal correlation {rule.period.replace('_', '-')} ({rule.version})")
+    grid = grid_reference(sources, kinds, declared, project.get("zone", ""))
+    for key, name in sources.items():
+        source, kind = declared[name], kinds.get(key, "other")
+        supplies = source["share"] > 0 or name in series_periods
+        if kind in GRID_KINDS or source.get("procurement") == "grid":
+            if supplies:
+                reading.findings.append(Finding("electricity", NOTE, f"{name}: grid electricity ({source['share']:.0%} of the supply), charged at its factor, the grid intensity of its zone"))
+            continue
+        if not supplies:
+            continue
+        own = _source_rules(rules, scheme, name, source, kind, project, period, series_periods.get(name))
+        if not any(f.outcome == NOT_MET for f in own):
+            reading.counted_zero.add(key)
+            reading.findings += own
+            continue
+        charge = _where(rules.source, rules.grade)
+        if rules.charge_failing == "grid" and grid is not None and grid != key:
+            reading.charged_as_grid[key] = grid
+            summary = Finding("electricity", NOT_MET, f"{name}: does not count fully renewable; {rules.non_qualifying}: charged at the factor of {sources[grid]} {charge}")
+        elif rules.charge_failing == "grid":
+            summary = Finding("electricity", UNKNOWN, f"{name}: does not count fully renewable and is {rules.non_qualifying}, but no grid source of the plant's zone is declared (add one with share 0): the value charges it at its own factor {charge}")
+        else:
+            summary = Finding("electricity", NOT_MET, f"{name}: does not count fully renewable; {rules.non_qualifying} {charge}")
+        reading.findings += [Finding(f.step, f.outcome, f.text, charged=f.outcome == NOT_MET) for f in own] + [summary]
+    if rules.not_judged and reading.findings:
+        reading.findings.append(Finding("electricity", NOTE, f"not judged here: {rules.not_judged} {_where(rules.source, rules.grade)}"))
+    return reading
+
+
+def renewable_energy_findings(scheme: Scheme, params: dict, reading: Reading, sources: dict[str, str], series_periods: dict | None) -> list[Finding]:
+    """Eligibility that turns on whether the electricity counts fully renewable (electrolysis only).
+
+    A scheme for renewable fuels covers electrolysis whose electricity counts fully renewable and,
+    where its rulebook says so, the share of grid electricity's average renewable share (a failing
+    PPA or grid supply is grid electricity; a failing direct line is not). A low-carbon scheme does
+    not cover electrolysis whose every kWh counts fully renewable. With a time series the matched
+    share decides instead (``analyses.matching``).
+    """
+    rules = scheme.eligibility
+    if rules is None or params["hydrogen"]["route"] != "electrolysis" or "electrolysis" not in rules.routes:
+        return []
+    declared = params["electricity"]["sources"]
+    supplying = [key for key, name in sources.items() if declared[name]["share"] > 0 or name in (series_periods or {})]
+    counted = [key for key in supplying if key in reading.counted_zero]
+    where = _where(rules.source, rules.grade)
+    if rules.requires_counted_electricity and not counted:
+        grid_electricity = [key for key in supplying if declared[sources[key]].get("procurement") != "direct_line"]
+        if rules.grid_renewable_share and grid_electricity:
+            return [Finding("eligibility", NOTE, f"no electricity counts fully renewable: only the share of output set by the country's average renewable share of grid electricity is of the kind covered, at the intensity of the whole output {_where(rules.grid_renewable_share, rules.grade)}")]
+        failed = [f.text for f in reading.findings if f.charged]
+        because = f"{'; '.join(failed)}; so " if failed else ""
+        return [Finding("eligibility", NOT_MET, f"{because}no electricity counts fully renewable and none is grid electricity: not of the kind covered: {rules.energy} {where}")]
+    if rules.requires_counted_electricity and len(counted) < len(supplying):
+        return [Finding("eligibility", NOTE, f"only the share of output made with the electricity counted fully renewable is of the kind covered; the rest is charged as stated {where}")]
+    if rules.excludes_counted_electricity and supplying and len(counted) == len(supplying) and not series_periods:
+        return [fully_renewable_finding(scheme)]
+    return []
+
+
+def fully_renewable_finding(scheme: Scheme) -> Finding:
+    rules = scheme.eligibility
+    return Finding("eligibility", NOT_MET, f"every kWh counts fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} {_where(rules.source, rules.grade)}")
+
+
+# ---- boundary and status ---------------------------------------------------------------------
 
 
 def boundary_findings(scheme: Scheme, present_stages: set[str], reference_product: str, gate_product: str, project_boundary: str) -> list[Finding]:
     """The scheme's formula terms against the stages the project models at its boundary."""
     findings = []
     for term in scheme.boundary_terms:
-        where = term.source or scheme.document
+        cited = _where(term.source or scheme.document, term.grade)
         product = reference_product if scheme.basis == "delivered" else gate_product
         if product in term.zero_for:
-            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero for {product} [{where}]"))
-        elif not term.stages or present_stages & set(term.stages):
-            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) counted [{where}]"))
-        elif term.absent_means == "zero":
-            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero: the project has none [{where}]"))
+            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero for {product} {cited}"))
+        elif present_stages & set(term.stages):
+            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) counted {cited}"))
+        elif term.absent_means == "zero" or not term.stages:
+            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero: the project has none {cited}"))
         else:
-            findings.append(Finding("boundary", UNKNOWN, f"{term.term} ({term.meaning}) is not modelled at the project's {project_boundary} boundary; the value leaves it out [{where}]"))
+            findings.append(Finding("boundary", UNKNOWN, f"{term.term} ({term.meaning}) is not modelled at the project's {project_boundary} boundary; the value leaves it out {cited}"))
     return findings
 
 
@@ -258,16 +409,22 @@ def status_of(findings: list[Finding], threshold_met: bool) -> str:
     return "qualifies"
 
 
-def ordered_reasons(status: str, findings: list[Finding], threshold_text: str) -> list[str]:
-    """Reasons as sentences, the deciding ones first."""
-    threshold = Finding("threshold", MET if status in ("qualifies", "undetermined") else NOT_MET, threshold_text)
+def ordered_reasons(status: str, findings: list[Finding], threshold: Finding | None) -> list[str]:
+    """Reasons as sentences, the deciding ones first. A not-eligible check has no threshold sentence.
+
+    fails: the electricity rules whose failure changed what a kWh is charged, then the threshold;
+    undetermined: what cannot be judged; qualifies: the threshold; not eligible: the eligibility
+    rules not met.
+    """
     if status == "not_eligible":
         first = [f for f in findings if f.step == "eligibility" and f.outcome == NOT_MET]
+        threshold = None
     elif status == "fails":
-        first = [threshold]
+        first = [f for f in findings if f.charged] + [threshold]
     elif status == "undetermined":
         first = [f for f in findings if f.outcome == UNKNOWN]
     else:
         first = [threshold]
-    rest = [f for f in findings + [threshold] if f not in first]
+    everything = findings + ([threshold] if threshold is not None else [])
+    rest = [f for f in everything if f not in first]
     return [f.sentence() for f in first + rest]

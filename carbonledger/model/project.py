@@ -20,6 +20,7 @@ import typing
 from pathlib import Path
 from typing import Annotated, Any, Literal
 
+import pycountry
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
 from ..errors import InputError, did_you_mean, match_id
@@ -95,8 +96,19 @@ class ProjectInfo(Section):
     note: str = P("", description="Free text, e.g. where the numbers come from")
     boundary: Literal[BOUNDARIES] = P("cradle-to-gate", description="System boundary of the headline result (--boundary overrides it)")
     zone: str = P("", description="Bidding zone or region of the plant (geographic correlation of electricity)")
+    country: str = P("", description="ISO 3166-1 alpha-2 code of the country or territory where the plant produces (US, GB, PR, ...; 45V asks for production in the United States)")
     construction_start: IsoDate = P("", "date", "Date construction of the plant began (YYYY-MM-DD)")
-    commissioning: IsoDate = P("", "date", "Date the plant came into operation (YYYY-MM-DD)")
+    commissioning: IsoDate = P("", "date", "Date the plant came into operation, or was originally placed in service (YYYY-MM-DD)")
+
+    @field_validator("country")
+    @classmethod
+    def _iso_country(cls, value: str) -> str:
+        if value == "":
+            return value
+        code = value.strip().upper()
+        if len(code) != 2 or pycountry.countries.get(alpha_2=code) is None:
+            raise ValueError(f"an ISO 3166-1 alpha-2 country code such as US, GB or PR, got {value!r}")
+        return code
 
 
 class Lifetime(Section):

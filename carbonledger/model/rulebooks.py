@@ -14,6 +14,12 @@ count, additionality, geographic and temporal correlation with the dates each ve
 what a kWh that does not count is charged), ``boundary_terms`` (the scheme's own formula terms
 mapped to carbonledger's stages), the GWP set and the threshold tiers. ``core.verdicts`` reads
 them; the official methodology and an accredited verifier decide.
+
+Every rule names its document, article and paragraph (``source``) and a ``grade``: how surely it
+was read: ``primary text`` (the legal text or an exact official copy), ``verbatim secondary`` (a
+third party quoting it word for word), ``secondary`` (a summary), or ``not yet verified`` (not
+checked against the source document). ``from_memory`` is derived: true for ``not yet verified``.
+The temporal-correlation rules live here only; matching reads them from the rulebook.
 """
 
 from __future__ import annotations
@@ -29,77 +35,126 @@ from ..errors import InputError, did_you_mean, match_id
 from .factors import factors_root
 
 QUANTITIES = ("kg_co2e_per_kg_h2", "g_co2e_per_mj", "kg_co2e_per_t_nh3", "kg_co2e_per_kg_nh3")
+GRADES = ("primary text", "verbatim secondary", "secondary", "not yet verified")
+UNVERIFIED = "not yet verified"
+LIMIT_RTOL = 1e-9  # a value this close to a limit (relative) is at the limit: a published limit is not a float
 
 
-class Threshold(BaseModel):
+class Graded(BaseModel):
+    """A rule with its source and the grade of that source."""
+
     model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
+    grade: Literal[GRADES] = UNVERIFIED
+
+    @property
+    def from_memory(self) -> bool:
+        return self.grade == UNVERIFIED
+
+
+def grade_note(source: str, grade: str) -> str:
+    """A source as reasons cite it: the grade is named unless it is the primary text."""
+    return source if grade == "primary text" else f"{source}; {grade}"
+
+
+def at_or_under(value: float, limit: float, inclusive: bool) -> bool:
+    """value <= limit (inclusive) or value < limit, a value within LIMIT_RTOL of the limit counting as equal to it."""
+    equal = abs(value - limit) <= LIMIT_RTOL * max(1.0, abs(limit))
+    return (inclusive and equal) or (not equal and value < limit)
+
+
+class Threshold(Graded):
     tier: str
     limit: float
     inclusive: bool = True
     source: str = Field(min_length=1)
-    from_memory: bool = False
 
     def met_by(self, value: float) -> bool:
-        return value <= self.limit if self.inclusive else value < self.limit
+        return at_or_under(value, self.limit, self.inclusive)
 
 
 PROCUREMENT = ("direct_line", "ppa", "certificates", "grid")
 PERIODS = ("annual", "monthly", "hourly", "half_hourly")  # coarse to fine
 
 
-class Eligibility(BaseModel):
-    """What the scheme covers: hydrogen routes, energy, and dated conditions on the plant."""
+class DatedCondition(Graded):
+    """A condition on the plant's dates or declarations that decides eligibility, with its article."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    source: str = Field(min_length=1)
+
+
+class Eligibility(Graded):
+    """What the scheme covers: hydrogen routes, energy, where and when the plant produces.
+
+    ``grid_renewable_share``: electrolysis none of whose electricity counts fully renewable is still
+    covered for the share of its output that the country's average renewable share of grid
+    electricity sets (Directive (EU) 2018/2001 Art. 27(6)); the source of that rule, '' when the
+    scheme has none. ``excludes_counted_electricity``: electrolysis whose every kWh counts fully
+    renewable is not covered (it is a renewable fuel instead).
+    """
+
     routes: list[str] = Field(min_length=1)
     energy: str = Field(min_length=1)  # the scheme's words on the energy it covers
     requires_counted_electricity: bool = False  # the energy must be electricity that counts under electricity_rules
-    excludes_counted_electricity: bool = False  # electrolysis whose every source counts fully renewable is not covered
+    grid_renewable_share: str = ""
+    excludes_counted_electricity: bool = False
     source: str = Field(min_length=1)
-    from_memory: bool = True
     construction_start_before: dt.date | None = None
     construction_source: str = ""
+    countries: list[str] = []  # ISO 3166-1 alpha-2 codes where production must take place ([] = anywhere)
+    countries_in_words: str = ""
+    countries_rule: DatedCondition | None = None
+    credit_period_years: int | None = None  # years from the date the plant was placed in service
+    credit_period_rule: DatedCondition | None = None
+    excludes_capture_credit: DatedCondition | None = None  # no credit where the capture equipment earns another credit (45Q)
 
 
-class TemporalRule(BaseModel):
+class TemporalRule(Graded):
     """One version of the temporal-correlation rule and the dates it applies (inclusive)."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True)
     period: Literal[PERIODS]
     applies_from: dt.date | None = None
     applies_until: dt.date | None = None
     version: str = Field(min_length=1)
     source: str = Field(min_length=1)
-    from_memory: bool = True
 
     def in_force(self, day: dt.date) -> bool:
         return (self.applies_from is None or day >= self.applies_from) and (self.applies_until is None or day <= self.applies_until)
 
 
-class ElectricityRules(BaseModel):
-    """When a kWh counts as fully renewable (or low-carbon) under the scheme, and what the others are charged."""
+class ElectricityRules(Graded):
+    """When a kWh counts as fully renewable (or low-carbon) under the scheme, and what the others are charged.
 
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    A kWh that fails a rule is charged as grid electricity of the plant's zone (``charge_failing``
+    ``grid``: the project's grid source in that zone gives the intensity) or at the source's own
+    factor (``own``). A direct line is judged by ``direct_connection_months`` (generator age only)
+    when it is set, else like any other procurement.
+    """
+
     counts_at_zero: list[str]  # generator kinds (factor namespace: renewable, low_carbon) that can count zero
     procurement: list[Literal[PROCUREMENT]]  # ways of procurement accepted for counting zero
     source: str = Field(min_length=1)
-    from_memory: bool = True
-    non_qualifying: str = Field(min_length=1)  # what a kWh that does not count is charged
+    non_qualifying: str = Field(min_length=1)  # what a kWh that does not count is charged, in words with the article
+    charge_failing: Literal["grid", "own"] = "grid"
     additionality_months: int | None = None  # generator in operation no earlier than N months before the plant
     additionality_applies_from: dt.date | None = None
-    additionality_transition_until: dt.date | None = None  # plants in operation before applies_from are exempt until then
+    additionality_transition_until: dt.date | None = None  # plants in operation before applies_from are exempt until then (inclusive)
+    additionality_transition_source: str = ""
     generator_without_support: bool = False  # generator received no operating or investment aid
     additionality_source: str = ""
+    direct_connection_months: int | None = None
+    direct_connection_source: str = ""
     geographic: str = ""  # '' when the scheme sets no geographic rule
     geographic_source: str = ""
+    other_zone: Literal["not_met", "cannot_be_judged"] = "not_met"  # a generator in another zone
+    other_zone_alternatives: str = ""  # the alternatives the text allows for another zone, in words
     temporal: list[TemporalRule] = []
     exempt_direct_line: list[Literal["temporal", "geographic"]] = []
+    not_judged: str = ""  # other ways the text lets electricity count, not judged here (named in the reasons)
 
 
-class BoundaryTerm(BaseModel):
+class BoundaryTerm(Graded):
     """A term of the scheme's formula and the carbonledger stages it counts."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True)
     term: str
     meaning: str
     stages: list[str] = []
@@ -111,7 +166,7 @@ class BoundaryTerm(BaseModel):
 CO_PRODUCT_RULES = ("energy", "mass", "economic", "system_expansion", "none", "not_stated")
 
 
-class CoProductRule(BaseModel):
+class CoProductRule(Graded):
     """How the scheme shares a production process's burden with its co-products.
 
     ``rule`` applies to co-products that carry energy (steam, electricity, fuels, carbon with a heating
@@ -121,12 +176,10 @@ class CoProductRule(BaseModel):
     and the result says so.
     """
 
-    model_config = ConfigDict(extra="forbid", frozen=True)
     rule: Literal[CO_PRODUCT_RULES]
     non_energy_rule: Literal[CO_PRODUCT_RULES + ("",)] = ""
     rigid_rule: Literal[CO_PRODUCT_RULES + ("",)] = ""
     source: str = Field(min_length=1)
-    from_memory: bool = True
     note: str = ""
 
     def for_co_product(self, carries_energy: bool, rigid: bool) -> str:
@@ -138,8 +191,7 @@ class CoProductRule(BaseModel):
         return self.rule
 
 
-class Scheme(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+class Scheme(Graded):
     id: str
     name: str
     document: str = Field(min_length=1)
@@ -154,7 +206,6 @@ class Scheme(BaseModel):
     excluded_stages: list[str] = []
     counts_construction: bool = False  # construction (capital) emissions added over the life
     construction_note: str = ""
-    from_memory: bool = False
     note: str = ""
     thresholds: list[Threshold] = Field(min_length=1)
     version: str = ""  # the version of the scheme's text this rulebook reads
@@ -170,17 +221,33 @@ class Scheme(BaseModel):
     def loosest(self) -> Threshold:
         return max(self.thresholds, key=lambda t: t.limit)
 
+    def tier_met(self, value: float) -> Threshold | None:
+        """The strictest tier the value meets (None when it meets none)."""
+        met = [t for t in self.thresholds if t.met_by(value)]
+        return min(met, key=lambda t: t.limit) if met else None
+
     def evaluate(self, value: float) -> dict:
         """Pass/fail against the loosest threshold, margin (limit - value) and best tier met."""
         loosest = self.loosest()
-        met = [t for t in self.thresholds if t.met_by(value)]
-        best = min(met, key=lambda t: t.limit) if met else None
+        best = self.tier_met(value)
         return {
             "limit": loosest.limit,
             "passes": loosest.met_by(value),
             "margin": loosest.limit - value,
             "tier": best.tier if best else None,
         }
+
+    def temporal_rule_on(self, day: dt.date) -> TemporalRule | None:
+        """The version of the temporal-correlation rule in force on a day (None when the scheme sets none)."""
+        rules = self.electricity_rules
+        if rules is None:
+            return None
+        return next((rule for rule in rules.temporal if rule.in_force(day)), None)
+
+    @property
+    def rules_unverified(self) -> bool:
+        """The rulebook or one of its thresholds is not yet verified against its source document."""
+        return self.from_memory or any(t.from_memory for t in self.thresholds)
 
 
 def schemes_folder() -> Path:

@@ -7,7 +7,7 @@ reforming is modelled with capture only.
 
 from __future__ import annotations
 
-from typing import Literal
+from typing import Literal, Optional
 
 from ..errors import InputError
 from ..model.project import P, Section
@@ -30,6 +30,7 @@ class Capture(Section):
     compression_kwh_per_t_co2: float = P(unit="kWh/t CO2", description="Electricity to capture, dry and compress the CO2", ge=0)
     extra_natural_gas_gj_per_t_co2: float = P(0.0, "GJ (LHV)/t CO2", "Natural gas burnt for capture (solvent regeneration)", ge=0)
     transport_storage_loss_fraction: float = P(unit="fraction", description="Share of the captured CO2 lost in transport and storage", ge=0, le=1)
+    claims_45q: Optional[bool] = P(None, description="Whether a 26 U.S.C. 45Q credit is allowed for this capture equipment for the year or an earlier year (45V(d)(2) then denies 45V)")
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:

@@ -31,8 +31,7 @@ from copy import copy
 
 import numpy as np
 
-from ...analyses.matching import period_labels, scheme_granularity
-from ...model.matching_rules import GRANULARITIES
+from ...analyses.matching import period_labels
 from .layout import CALCULATION, INTERVALS, MATCHING, put_text
 from .style import SHARE, header_row, page_setup, style_cell
 
@@ -50,7 +49,7 @@ def matching_groups(series, checks) -> list[tuple[tuple[str, ...], np.ndarray, l
     groups: dict[tuple, tuple] = {}
     for check in checks:
         matching = check.electricity_matching
-        granularity = matching.granularity if matching.granularity in GRANULARITIES else scheme_granularity(check.scheme, series.local)
+        granularity = matching.granularity
         labels = period_labels(series.utc, series.local, granularity)
         eligible = tuple(name for name in matching.eligible_sources if name in series.generation_kwh)
         key = (eligible, labels.tobytes())
