@@ -28,7 +28,7 @@ from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
-from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_stacked, solve_with_bw2calc
+from .core.scoring import DEFAULT_GWP, assemble, judged, prepare, scheme_reading, score_project, solve_stacked, solve_with_bw2calc
 from .errors import InputError
 from .io.ledger import LedgerRecord, factor_row
 from .io.matching_chart import write_matching_chart
@@ -102,7 +102,8 @@ def score(
     matching : with an electricity time series, a granularity (interval, hour, month, quarter,
         year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
         and score the declared annual shares (what the audit workbook holds); None: each scheme's rule.
-    year : calendar year whose dates the scheme rules are read on; default this year.
+    year : the assessment year, whose dates the scheme rules are read on; default the first full
+        calendar year of operation after the project's commissioning date, else this year.
     matched_periods : electricity source name -> finest period a time series shows it matched
         ('hourly', 'half_hourly'), for projects without a series in the file; without it (and
         without a series) hourly rules are undetermined.
@@ -153,6 +154,7 @@ def compare(
     draws: int | None = None,
     seed: int = DEFAULT_SEED,
     distributions: str | Path | None = None,
+    year: int | None = None,
 ) -> ComparisonResult:
     """Score several project files (or audit workbooks) with the same options and put them on one basis.
 
@@ -171,9 +173,9 @@ def compare(
         project, sha, project_set = load_any_project(path, factor_set, _boundary_overrides(boundary, None))
         series = None if str(path).lower().endswith(".xlsx") else project_series(project, path)
         if series is None:
-            results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha))
+            results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha, year=year))
         else:  # checks matched under each scheme's rule, as score gives them
-            results.append(score_with_series(project, project_set, series, gwp=gwp, source=str(path), project_sha256=sha))
+            results.append(score_with_series(project, project_set, series, gwp=gwp, source=str(path), project_sha256=sha, year=year))
         if draws is not None:
             if str(path).lower().endswith(".xlsx"):
                 found = read_distributions_file(distributions) if distributions is not None else Uncertainty()
@@ -182,7 +184,7 @@ def compare(
             if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
                 spreads.append("no distributions (no [uncertainty] table and no factor rows with pedigree scores)")
                 continue
-            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha, series=series))
+            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha, series=series, year=year))
     return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
 
 
@@ -201,6 +203,7 @@ def audit_workbook(
     distributions: str | Path | None = None,
     keep_draws: bool = False,
     draws_csv: str = "",
+    year: int | None = None,
 ):
     """The audit workbook of a project file, or of the inputs read back from an earlier workbook.
 
@@ -227,7 +230,7 @@ def audit_workbook(
         factor_set = load_factor_set(factors_option)
         gwp = gwp or DEFAULT_GWP
         source = str(project_file)
-    engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha)
+    engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year)
     meters = months = None
     if periods is not None:
         if project.project.boundary != "cradle-to-gate":
@@ -241,9 +244,9 @@ def audit_workbook(
     if from_workbook is None:  # the series file sits beside the project file
         series = project_series(project, project_file)
         if series is not None:
-            matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha).checks
+            matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year).checks
     if draws is not None:
-        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series)
+        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
     workbook = build_workbook(
         engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence,
         uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched,
@@ -301,6 +304,7 @@ def plan(
     factors: str | Path | FactorSet = DEFAULT_SET,
     gwp: str = DEFAULT_GWP,
     overrides: list[str] | None = None,
+    year: int | None = None,
 ) -> tuple[PlanResult, ElectricitySeries]:
     """The operating plan of a project with an electricity time series: the load in every interval
     that maximises hydrogen (or margin, with ``hydrogen_price`` and a price column) while the
@@ -315,7 +319,7 @@ def plan(
     series = project_series(project, project_file)
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to plan against")
-    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme], source=str(project_file), project_sha256=sha)
+    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme], source=str(project_file), project_sha256=sha, year=year, matching=series_matched_periods(series))
     solutions = solve_with_bw2calc(prepared)
     check = assemble(prepared, solutions).checks[0]
     rulebook = prepared.chosen[0]
@@ -333,6 +337,9 @@ def plan(
         part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
     )
     result.tier = threshold.tier
+    verdict = judged(rulebook, result.value, scheme_reading(prepared, rulebook).findings)
+    result.status, result.deciding_reason = verdict["status"], verdict["reasons"][0]
+    result.qualifies = result.qualifies and result.status == "qualifies"
     if part_load:
         result.score_back = _score_back_overrides(project, model.kwh_per_kg_h2, result.kwh_per_kg_h2)
     return result, series
@@ -359,6 +366,7 @@ def matching_chart(
     gwp: str = DEFAULT_GWP,
     overrides: list[str] | None = None,
     force: bool = False,
+    year: int | None = None,
 ) -> Path:
     """Chart one project's matching under a scheme (default the first that applies): monthly matched and
     unmatched use, and the unmatched share by hour of day and month."""
@@ -366,7 +374,7 @@ def matching_chart(
     series = project_series(project, project_file)
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to chart the matching of")
-    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme] if scheme else None, source=str(project_file), project_sha256=sha)
+    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme] if scheme else None, source=str(project_file), project_sha256=sha, year=year, matching=series_matched_periods(series))
     solutions = solve_with_bw2calc(prepared)
     rulebook = prepared.chosen[0]
     model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
@@ -403,6 +411,7 @@ def uncertainty(
     overrides: list[str] | None = None,
     boundary: str | None = None,
     progress=None,
+    year: int | None = None,
 ) -> UncertaintyResult:
     """Monte Carlo of a project: mean, spread and percentiles of every figure, probability of each verdict.
 
@@ -415,7 +424,7 @@ def uncertainty(
     project, sha = load_project(project_file, _boundary_overrides(boundary, overrides))
     return monte_carlo(
         project, _factor_set(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes,
-        progress=progress, project_sha256=sha, series=project_series(project, project_file),
+        progress=progress, project_sha256=sha, series=project_series(project, project_file), year=year,
     )
 
 
@@ -429,6 +438,7 @@ def headroom(
     gwp: str = DEFAULT_GWP,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    year: int | None = None,
 ) -> list[Headroom]:
     """For each parameter path, the value at which the scheme's limit (or ``tier``) is met exactly,
     or None with the reason (root finding within the parameter's physical range, verified by scoring)."""
@@ -437,7 +447,7 @@ def headroom(
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
     factor_set = _factor_set(factors)
     series = project_series(project, project_file)
-    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp, series=series) for path in parameters]
+    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp, series=series, year=year) for path in parameters]
 
 
 def sensitivity(
@@ -451,12 +461,13 @@ def sensitivity(
     gwp: str = DEFAULT_GWP,
     overrides: list[str] | None = None,
     boundary: str | None = None,
+    year: int | None = None,
 ) -> Sensitivity:
     """Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total,
     or of ``scheme``'s value, over the project's uncertain inputs."""
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file))
+    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file), year=year)
 
 
 def analysis_record(
@@ -539,6 +550,7 @@ def report_items(
     boundary: str | None = None,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
+    year: int | None = None,
 ) -> list[ProjectReport]:
     """What a report shows of each project (files, or folders of project files): its score, its
     parameters with units and, where the project gives them, its operating years ([lifetime]), the
@@ -554,7 +566,7 @@ def report_items(
         project, sha = load_project(path, _boundary_overrides(boundary, overrides))
         series = project_series(project, path)
         matched = series_matched_periods(series) if series is not None else None
-        prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha, matching=matched)
+        prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha, matching=matched, year=year)
         solutions = solve_stacked([prepared], check_with_bw2calc=False)[0]
         result = assemble(prepared, solutions)
         views = []
@@ -566,7 +578,7 @@ def report_items(
             life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
-            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series)
+            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series, year=year)
         items.append(ProjectReport(result, parameter_table(project), life, views, spread))
     return items
 
@@ -583,6 +595,7 @@ def report(
     paper: str | None = None,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
+    year: int | None = None,
 ) -> str:
     """The project report of one or several projects as one self-contained HTML text.
 
@@ -592,7 +605,7 @@ def report(
     """
     if not paths:
         raise InputError("report", "PROJECT", "at least one project file or folder")
-    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed)
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed, year=year)
     return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
 
 

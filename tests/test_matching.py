@@ -10,8 +10,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from carbonledger import api
-from carbonledger.analyses.matching import ElectricityModel, counted_intensity, match, period_labels, scheme_granularity
-from carbonledger.model.matching_rules import granularity_on
+from carbonledger.analyses.matching import ElectricityModel, counted_intensity, match, scheme_granularity
+from carbonledger.core.scoring import rulebooks
+from carbonledger.core.verdicts import Period
 from carbonledger.routes.project import load_project
 from tests.helpers import DEMO, assert_one_line_error, run_cli
 
@@ -107,22 +108,30 @@ def test_quarter_hours_aggregate_exactly_to_the_hour():
 # ---- rule dates --------------------------------------------------------------------------
 
 
-def test_rule_dates():
+def test_rule_dates_come_from_the_rulebooks_in_the_assessment_year():
+    books = rulebooks()
     # Delegated Regulation (EU) 2023/1184 Art. 6: same calendar month until 31 December 2029, same hour from 1 January 2030
-    assert granularity_on("eu-rfnbo", dt.date(2029, 12, 31)) == "month"
-    assert granularity_on("eu-rfnbo", dt.date(2030, 1, 1)) == "hour"
+    assert scheme_granularity(books["eu-rfnbo"], Period.year(2029)) == "month"
+    assert scheme_granularity(books["eu-rfnbo"], Period.year(2030)) == "hour"
+    # the low-carbon methodology applies the same correlation rules (Delegated Regulation (EU) 2025/2359)
+    assert scheme_granularity(books["eu-low-carbon"], Period.year(2030)) == "hour"
     # 45V final regulations (January 2025): annual matching through 2029, hourly from 2030
-    assert granularity_on("us-45v", dt.date(2029, 12, 31)) == "year"
-    assert granularity_on("us-45v", dt.date(2030, 1, 1)) == "hour"
+    assert scheme_granularity(books["us-45v"], Period.year(2029)) == "year"
+    assert scheme_granularity(books["us-45v"], Period.year(2030)) == "hour"
+    # a period that spans a change of rule is matched under the finer rule
+    assert scheme_granularity(books["eu-rfnbo"], Period(dt.date(2029, 7, 1), dt.date(2030, 6, 30))) == "hour"
+    # Japan's criteria set no temporal rule: one annual period
+    assert scheme_granularity(books["japan-hydrogen"], Period.year(2030)) == "year"
 
 
-def test_a_series_across_new_year_2030_switches_rule_at_local_midnight():
-    # 22:00 and 23:00 on 31 Dec 2029 (local +01:00) are one monthly period; 00:00, 01:00, 02:00 on 1 Jan 2030 three hours
-    utc = hours("2029-12-31T21:00", 5)
-    local = utc + np.timedelta64(60, "m")
-    granularity = scheme_granularity("eu-rfnbo", local)
-    assert period_labels(utc, local, granularity).tolist() == [0, 0, 1, 2, 3]
-    assert scheme_granularity("eu-rfnbo", local[:2]) == "month"
+def test_a_series_is_a_profile_matched_under_the_rule_of_the_assessment_year():
+    # a 2026 series assessed in 2031 is matched hour by hour (2023/1184 Art. 6, second subparagraph): its own dates
+    # do not choose the rule. Two hours of one month: all of the use in hour 1, all generation in hour 2.
+    utc = hours("2026-03-01T00:00", 2)
+    load, solar = np.array([10.0, 0.0]), np.array([0.0, 10.0])
+    hourly = match(load, {"solar": solar}, ["solar"], scheme_granularity(rulebooks()["eu-rfnbo"], Period.year(2031)), utc)
+    monthly = match(load, {"solar": solar}, ["solar"], scheme_granularity(rulebooks()["eu-rfnbo"], Period.year(2029)), utc)
+    assert hourly.matched_kwh == 0.0 and monthly.matched_kwh == 10.0
 
 
 # ---- properties ----------------------------------------------------------------------------
@@ -323,17 +332,22 @@ def test_score_writes_a_matching_chart(tmp_path):
     assert_one_line_error(again)  # an existing chart is not overwritten
 
 
-def test_a_series_across_2030_uses_both_eu_rules_through_score(tmp_path):
-    # Delegated Regulation (EU) 2023/1184 Art. 6: 20:00-23:00 on 31 Dec 2029 (local) form one monthly period,
-    # 00:00-03:00 on 1 Jan 2030 four hourly periods: 5 periods
+def test_the_assessment_year_not_the_series_dates_chooses_the_eu_rule_through_score(tmp_path):
+    # Delegated Regulation (EU) 2023/1184 Art. 6: same calendar month until 31 December 2029, same one-hour period
+    # from 1 January 2030. Eight hours, 20:00 to 23:00 on 31 Dec 2029 and 00:00 to 03:00 on 1 Jan 2030 (local),
+    # 100 kWh of use each; solar 150, 150, 150, 0 in December and 0, 0, 0, 200 in January. Worked by hand:
+    # assessed in 2029 (monthly): December min(400, 450) = 400, January min(400, 200) = 200: 600 / 800 = 0.75 in 2 periods;
+    # assessed in 2030 (hourly): 3 x min(100, 150) + min(100, 200) = 400 of 800 = 0.5 in 8 periods.
     (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
-    rows = [[s, 100, 150 if number < 4 else 0, 0] for number, s in enumerate(stamps("2029-12-31T19:00", 8))]
+    solar = [150, 150, 150, 0, 0, 0, 0, 200]
+    rows = [[s, 100, solar[number], 0] for number, s in enumerate(stamps("2029-12-31T19:00", 8))]
     write_series(tmp_path, rows)
-    eu = next(c for c in api.score(tmp_path / "p.toml").checks if c.scheme == "eu-rfnbo").electricity_matching
-    assert eu.periods == 5 and eu.granularity == "month until 2029-12-31, hour from 2030-01-01"
-    # December: min(400, 600) = 400 matched; January hours: nothing; 400 of 800 kWh
-    assert eu.matched_share == pytest.approx(0.5)
-    assert [m.month for m in eu.monthly] == ["2029-12", "2030-01"]
+    monthly = next(c for c in api.score(tmp_path / "p.toml", year=2029).checks if c.scheme == "eu-rfnbo").electricity_matching
+    hourly = next(c for c in api.score(tmp_path / "p.toml", year=2030).checks if c.scheme == "eu-rfnbo").electricity_matching
+    assert monthly.granularity == "month" and monthly.periods == 2 and monthly.matched_share == pytest.approx(0.75)
+    assert hourly.granularity == "hour" and hourly.periods == 8 and hourly.matched_share == pytest.approx(0.5)
+    assert monthly.rule == hourly.rule == "month until 2029-12-31, hour from 2030-01-01"
+    assert [m.month for m in hourly.monthly] == ["2029-12", "2030-01"]
 
 
 def test_a_matched_check_is_judged_at_its_matched_value():

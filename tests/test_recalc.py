@@ -110,7 +110,11 @@ def test_recalc_exit_codes_and_formats(tmp_path):
     back = run_cli("recalc", DEMO, PORTFOLIO, "--from", "demo-2027-grid-revision", "--to", "default-2026", "--year", "2028", "--fail-on-new-failures", "--format", "csv")
     assert back.exit_code == 0, back.output
     rows = list(csv.DictReader(io.StringIO(back.stdout)))
-    assert rows[0]["status"] == "newly passes" and not [r for r in rows if r["status"] == "newly fails"]
+    assert not [r for r in rows if r["status"] == "newly fails"]
+    # the hybrid's 45V value is back under 4 kg (3.87218, test_grid_change_moves_only_grid_projects_by_the_hand_computed_amount),
+    # but the portfolio file gives no country of production (45V(c)(2)(B)(i)(I)): it cannot qualify yet, so "now undetermined"
+    hybrid = [r for r in rows if r["scheme"] == "us-45v" and "vennor_hybrid" in r["project_file"]]
+    assert [r["status"] for r in hybrid] == ["now undetermined"]
     assert_one_line_error(run_cli("recalc", tmp_path / "missing", "--to", "demo-2027-grid-revision"))
     assert_one_line_error(run_cli("recalc", DEMO, "--to", "no-such-set"))
 

@@ -29,6 +29,8 @@ LINEAR = """
 name = "Linear chain test (invented)"
 product = "hydrogen"
 construction_start = 2026-03-01   # invented; before 2028-01-01, so 45V's construction rule is met
+commissioning = 2028-01-01        # invented; placed in service 1 January 2028: 2028 is in 45V's 10-year credit period (45V(a)(1))
+country = "US"                    # produced in the United States (45V(c)(2)(B)(i)(I))
 
 [hydrogen]
 route = "electrolysis"

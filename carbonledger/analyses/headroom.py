@@ -23,6 +23,7 @@ from pydantic import BaseModel
 
 from ..about import CAUTION
 from ..core.scoring import DEFAULT_GWP, rulebooks, score_project
+from ..core.verdicts import NOT_MET, UNKNOWN, status_of
 from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
@@ -83,6 +84,11 @@ class _Probe:
         drawn = self.draws(values)
         return np.asarray(evaluate(self.plan, drawn, len(drawn.uniform)).scheme_values[self.scheme_id], dtype=float)
 
+    def findings(self) -> list:
+        """The scheme's rules read on the project before the threshold (the same at every value of the parameter)."""
+        drawn = self.draws(np.array([0.0]))
+        return evaluate(self.plan, drawn, 1).scheme_findings[self.scheme_id]
+
     def allowed(self, values) -> np.ndarray:
         drawn = self.draws(values)
         broken, _ = limit_breaks(self.plan, drawn, len(drawn.uniform))
@@ -113,6 +119,7 @@ def headroom(
     gwp: str = DEFAULT_GWP,
     boundary: str | None = None,
     series=None,
+    year: int | None = None,
 ) -> Headroom:
     """The value of ``path`` at which ``scheme_id`` (its loosest tier, or ``tier``) is met exactly.
 
@@ -130,8 +137,10 @@ def headroom(
         if not found:
             raise InputError("--tier", tier, f"a tier of {scheme.id}: {'; '.join(t.tier for t in scheme.thresholds)}")
         threshold = found[0]
-    plan = make_plan(project, factor_set, Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, gwp=gwp, schemes=[scheme.id], boundary=boundary, series=series)
+    plan = make_plan(project, factor_set, Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, gwp=gwp, schemes=[scheme.id], boundary=boundary, series=series, year=year)
     probe = _Probe(plan, path, scheme.id)
+    findings = probe.findings()
+    rules_say = status_of(findings, True)  # the verdict of a value that meets the limit, by the one judgement
     low, high = search_range(float(nominal), info)
     grid = np.unique(np.concatenate([np.linspace(low, high, SCAN_POINTS), [float(nominal)]]))
     allowed = probe.allowed(grid)
@@ -149,6 +158,9 @@ def headroom(
         "project_scheme_value": at_project,
         "range": [low, high],
     }
+    if rules_say == "not_eligible":
+        first = next(f.text for f in findings if f.step == "eligibility" and f.outcome == NOT_MET)
+        return Headroom(**base, value=None, reason=f"not eligible whatever the value: {first}", qualifies_when="", verified_scheme_value=None, relative_difference=None)
     crossings = [n for n in range(len(grid) - 1) if allowed[n] and allowed[n + 1] and np.sign(values[n]) != np.sign(values[n + 1])]
     exact = [n for n in range(len(grid)) if allowed[n] and values[n] == 0]
     if not crossings and not exact:
@@ -167,24 +179,26 @@ def headroom(
     step = 1e-6 * max(abs(high - low), 1e-12)
     below, above = probe(np.array([max(value - step, low), min(value + step, high)])) - threshold.limit
     qualifies_when = "below" if below < above else "above"
-    verified = verify(plan, path, value, scheme.id, source, gwp, boundary)
+    verified = verify(plan, path, value, scheme.id, source, gwp, boundary, plan.year)
     difference = abs(verified - threshold.limit) / abs(threshold.limit)
     if difference > VERIFY_RTOL:
         raise RuntimeError(f"headroom of {path} under {scheme.id} failed its check: scored {verified} at {value}, limit {threshold.limit}")
     extent = "largest" if qualifies_when == "below" else "smallest"
     reason = f"the {extent} value that meets the limit" + (f" ({len(roots)} crossings in range; the one nearest the project's value)" if len(roots) > 1 else "")
+    if rules_say == "undetermined":
+        reason += f"; the check stays undetermined there: {next(f.text for f in findings if f.outcome == UNKNOWN)}"
     return Headroom(**base, value=value, reason=reason, qualifies_when=qualifies_when, verified_scheme_value=verified, relative_difference=difference)
 
 
-def verify(plan, path: str, value: float, scheme_id: str, source: str, gwp: str, boundary: str | None) -> float:
+def verify(plan, path: str, value: float, scheme_id: str, source: str, gwp: str, boundary: str | None, year: int | None = None) -> float:
     """The scheme value from a full score (validated project, bw2calc solve, matched series) at the value found."""
     params = params_with_draws(plan, {path: np.float64(value)})
     data: dict[str, Any] = _plain(params)
     project = validate_project(data, source)
     if plan.series is not None:
-        result = score_with_series(project, plan.factor_set, plan.series, gwp=gwp, schemes=[scheme_id], source=source)
+        result = score_with_series(project, plan.factor_set, plan.series, gwp=gwp, schemes=[scheme_id], source=source, year=year)
     else:
-        result = score_project(project, plan.factor_set, gwp=gwp, schemes=[scheme_id], source=source, boundary=boundary)
+        result = score_project(project, plan.factor_set, gwp=gwp, schemes=[scheme_id], source=source, boundary=boundary, year=year)
     return next(check.value for check in result.checks if check.scheme == scheme_id)
 
 

@@ -70,6 +70,8 @@ class PlanResult:
     interval_minutes: int = 60
     design_kwh_per_kg_h2: float = 0.0  # the project's electricity per kg H2 (design)
     score_back: list[str] = field(default_factory=list)  # --set overrides that score the plan back at its own kWh/kg
+    status: str = ""  # the verdict of the plan's value by the one judgement (core.scoring.judged), as score gives it
+    deciding_reason: str = ""
 
     @property
     def kwh_per_kg_h2(self) -> float:

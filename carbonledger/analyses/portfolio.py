@@ -31,7 +31,7 @@ from ..routes.project import load_project
 from .electricity_series import project_series
 from .matching import matched_checks, series_matched_periods
 
-STATUSES = ("newly fails", "newly passes", "still fails", "still passes", "still not eligible", "still undetermined")
+STATUSES = ("newly fails", "newly passes", "now undetermined", "now not eligible", "still fails", "still passes", "still not eligible", "still undetermined")
 
 
 @dataclass(frozen=True)
@@ -170,15 +170,20 @@ class Recalc:
         return [row for row in self.rows if row.status == "newly fails"]
 
 
-def status_of(old_passes: bool, new_passes: bool, new_status: str = "fails") -> str:
-    """The change of a verdict; a check that neither qualifies before nor after says why now."""
-    if old_passes and not new_passes:
+def status_of(old_status: str, new_status: str) -> str:
+    """The change of a verdict: a check whose value met the limit before (qualifies or undetermined)
+    and now fails 'newly fails'; one that now qualifies 'newly passes'; another change 'now ...';
+    no change 'still ...'."""
+    words = {"qualifies": "passes", "fails": "fails", "not_eligible": "not eligible", "undetermined": "undetermined"}
+    if old_status == new_status:
+        return f"still {words.get(new_status, new_status)}"
+    if new_status == "fails" and old_status in ("qualifies", "undetermined"):
         return "newly fails"
-    if new_passes and not old_passes:
+    if new_status == "qualifies":
         return "newly passes"
-    if new_passes:
-        return "still passes"
-    return {"not_eligible": "still not eligible", "undetermined": "still undetermined"}.get(new_status, "still fails")
+    if new_status == "fails":
+        return "still fails"
+    return f"now {words.get(new_status, new_status)}"
 
 
 def recalc(
@@ -225,7 +230,7 @@ def recalc(
                     change=after.value - check.value,
                     old_passes=check.passes,
                     new_passes=after.passes,
-                    status=status_of(check.passes, after.passes, after.status),
+                    status=status_of(check.status, after.status),
                     rescored=number in rescored_numbers,
                     rulebook_from_memory=after.from_memory,
                     factors_from_memory=new.from_memory["factors"],

@@ -123,6 +123,7 @@ def sensitivity(
     gwp: str = DEFAULT_GWP,
     boundary: str | None = None,
     series=None,
+    year: int | None = None,
 ) -> Sensitivity:
     """Sobol indices and tornado of the total (or of ``scheme``'s value) over the uncertain inputs.
 
@@ -130,7 +131,7 @@ def sensitivity(
     from SALib.analyze import sobol as sobol_analysis
     from SALib.sample import sobol as sobol_sample
 
-    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary, series=series)
+    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary, series=series, year=year)
     names = plan.uncertainty.names()
     if not names:
         raise InputError(source, "uncertainty", "at least one distribution")

@@ -152,12 +152,12 @@ class Plan:
     schemes: list[str] | None = None
     boundary: str | None = None
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
-    year: int | None = None  # calendar year whose dates the scheme rules are read on (default this year)
+    year: int | None = None  # the assessment year (default: the first full year after commissioning, else this year)
     used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
     series: Any = None  # the project's electricity time series: scheme values follow its matching
 
 
-def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None) -> Plan:
+def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None, year: int | None = None) -> Plan:
     """Check every distribution against the project and the factor set (one InputError line).
 
     ``series``: the project's electricity time series (``analyses.electricity_series``); with it,
@@ -205,7 +205,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
             raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
     if not uncertainty.parameters and not uncertainty.factors:
         raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
-    plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields, series=series)
+    plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields, year=year, series=series)
     plan.used_rows = [_plain_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
@@ -794,6 +794,7 @@ def monte_carlo(
     keep_draws: bool = False,
     project_sha256: str = "",
     series=None,
+    year: int | None = None,
 ) -> UncertaintyResult:
     """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain.
 
@@ -803,7 +804,7 @@ def monte_carlo(
     """
     if draws < 2:
         raise InputError("--draws", str(draws), "at least 2 draws")
-    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series)
+    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series, year=year)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)
     outcome = evaluate_in_blocks(plan, drawn, progress)

@@ -26,6 +26,7 @@ from .options import (
     NoLedgerOption,
     OutputFormat,
     SchemeOption,
+    YearOption,
     check_chart_path,
     fail,
     render,
@@ -46,6 +47,7 @@ def compare(
     draws: Annotated[Optional[int], typer.Option("--draws", help="Monte Carlo of each project with N draws (its [uncertainty] table): 5th-95th percentile band, probability of qualifying; error bars on --chart.")] = None,
     seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")] = DEFAULT_SEED,
     distributions: Annotated[Optional[Path], typer.Option("--distributions", help="With --draws: distributions TOML laid over every project's [uncertainty] table.")] = None,
+    year: YearOption = None,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
 ) -> None:
@@ -55,7 +57,7 @@ def compare(
         check_chart_path(chart, force)
         if draws is None and distributions is not None:
             raise InputError("compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)")
-        result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis, draws=draws, seed=seed, distributions=distributions)
+        result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis, draws=draws, seed=seed, distributions=distributions, year=year)
         text = render(output_format, table=lambda: render_comparison(result), json=result.to_json, csv=lambda: comparison_csv(result))
         if chart is not None:
             write_chart(result, chart, force=force)

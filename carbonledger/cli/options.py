@@ -29,7 +29,7 @@ NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record
 BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
 WorkersOption = Annotated[Optional[int], typer.Option("--workers", help="Run on a local Dask cluster of N worker processes.")]
 SchedulerOption = Annotated[Optional[str], typer.Option("--scheduler", help="Run on an existing Dask scheduler at this address (tcp://HOST:PORT).")]
-YearOption = Annotated[Optional[int], typer.Option("--year", help="Calendar year whose dates the scheme rules are read on (dated rule versions); default: this year.")]
+YearOption = Annotated[Optional[int], typer.Option("--year", help="Assessment year: the scheme rules in force that year decide (temporal matching, additionality, credit period); default the first full calendar year after the project's commissioning date, else this year.")]
 ForceOption = Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")]
 
 

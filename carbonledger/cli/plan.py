@@ -14,7 +14,7 @@ from ..analyses.plan import PlanResult, parse_part_load, plan_csv
 from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
-from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, fail, render
+from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, YearOption, fail, render
 
 
 def summary(plan: PlanResult) -> dict:
@@ -27,6 +27,8 @@ def summary(plan: PlanResult) -> dict:
         "matching": plan.granularity,
         "rated_kw": plan.rated_kw,
         "qualifies": plan.qualifies,
+        "status": plan.status,
+        "deciding_reason": plan.deciding_reason,
         "value": plan.value,
         "matched_share": plan.matched_share,
         "hydrogen_kg": float(plan.hydrogen_kg.sum()),
@@ -52,7 +54,7 @@ def table(figures: dict, output: Path) -> str:
         f"Operating plan for {figures['scheme']} ({figures['tier']}, limit {figures['limit']:g} {figures['unit']}), matching {figures['matching']}, rated {figures['rated_kw']:,.0f} kW",
         f"                        hydrogen (t)   full-load hours   matched share   value ({figures['unit']})",
         f"  run at rated power    {figures['baseline_hydrogen_kg'] / 1000:12,.1f}   {figures['baseline_full_load_hours']:15,.0f}   {figures['baseline_matched_share']:13.1%}   {figures['baseline_value']:.3f}",
-        f"  plan                  {figures['hydrogen_kg'] / 1000:12,.1f}   {figures['full_load_hours']:15,.0f}   {figures['matched_share']:13.1%}   {figures['value']:.3f} ({'qualifies' if figures['qualifies'] else 'does NOT qualify'})",
+        f"  plan                  {figures['hydrogen_kg'] / 1000:12,.1f}   {figures['full_load_hours']:15,.0f}   {figures['matched_share']:13.1%}   {figures['value']:.3f} ({figures['status'].replace('_', ' ')}{'' if figures['qualifies'] or figures['status'] != 'qualifies' else ', not at the tier asked'})",
         f"What qualifying costs: {figures['hydrogen_lost_kg'] / 1000:,.1f} t hydrogen ({figures['hydrogen_lost_share']:.1%} of running at rated power).",
     ]
     if "margin" in figures:
@@ -79,6 +81,7 @@ def plan(
     factors: FactorsOption = "default-2026",
     gwp: GwpOption = "ar6",
     set_: SetOption = None,
+    year: YearOption = None,
     force: ForceOption = False,
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
@@ -88,7 +91,7 @@ def plan(
             raise InputError(output, "--output", "a new file (it exists; pass --force to overwrite)")
         result, series = api.plan(
             project, scheme=scheme, tier=tier, rated_kw=rated_kw, min_load=min_load, part_load=parse_part_load(part_load),
-            hydrogen_price=hydrogen_price, matching=matching, factors=factors, gwp=gwp, overrides=set_,
+            hydrogen_price=hydrogen_price, matching=matching, factors=factors, gwp=gwp, overrides=set_, year=year,
         )
         text = plan_csv(series, result)
         atomic_write(output, lambda tmp: tmp.write_text(text, encoding="utf-8"), force=force)

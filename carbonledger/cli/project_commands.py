@@ -81,7 +81,7 @@ def score(
             else:
                 result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, matching=matching, year=year)
                 if matching_chart is not None:
-                    api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_, force=force)
+                    api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_, force=force, year=year)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
             command, kind = "score", "score"
             if chart is not None:

@@ -12,7 +12,7 @@ from ..about import CAUTION
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
 from ..io.report import PAPERS, print_pdf, render_report, write_report
-from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, fail
+from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, YearOption, fail
 
 
 def report(
@@ -26,6 +26,7 @@ def report(
     set_: SetOption = None,
     boundary: BoundaryOption = None,
     force: ForceOption = False,
+    year: YearOption = None,
     draws: Annotated[int, typer.Option("--draws", help="Monte Carlo draws for a project with an [uncertainty] table.")] = DEFAULT_DRAWS,
     seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}; printed in the report).")] = DEFAULT_SEED,
 ) -> None:
@@ -40,7 +41,7 @@ def report(
                 raise InputError(target, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
         if pdf is not None and pdf.suffix.lower() != ".pdf":
             raise InputError(pdf, "--pdf", f"a file ending in .pdf, got '{pdf.suffix or 'no suffix'}'")
-        items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed)
+        items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed, year=year)
         generated = api.report_date()
         if pdf is not None:
             print_pdf(render_report(items, generated=generated, caution=CAUTION, paper=paper.lower()), pdf, force=force)

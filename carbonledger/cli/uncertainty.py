@@ -39,6 +39,7 @@ from .options import (
     SchemeOption,
     SetOption,
     WorkersOption,
+    YearOption,
     check_chart_path,
     fail,
     render,
@@ -80,6 +81,7 @@ def uncertainty(
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     boundary: BoundaryOption = None,
+    year: YearOption = None,
     workers: WorkersOption = None,
     scheduler: SchedulerOption = None,
     chart: Annotated[Optional[Path], typer.Option("--chart", help="One project: write a histogram of each scheme's value with its thresholds, FILE.png or FILE.svg.")] = None,
@@ -101,6 +103,7 @@ def uncertainty(
             "gwp": gwp,
             "schemes": scheme,
             "boundary": boundary,
+            "year": year,
         }
         single = len(project) == 1 and project[0].is_file() and workers is None and scheduler is None
         if single:
@@ -135,6 +138,7 @@ def headroom(
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     boundary: BoundaryOption = None,
+    year: YearOption = None,
     output_format: FormatOption = OutputFormat.table,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -142,7 +146,7 @@ def headroom(
     """The value of each parameter at which a scheme's limit is met exactly (null with a reason when none)."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
+        results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year)
         text = render(output_format, table=lambda: headroom_table(results), json=lambda: headroom_json(results), csv=lambda: headroom_csv(results))
         if where is not None:
             record_run("headroom", [api.headroom_record(results, project, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)], ledger=where)
@@ -163,6 +167,7 @@ def sensitivity(
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     boundary: BoundaryOption = None,
+    year: YearOption = None,
     output_format: FormatOption = OutputFormat.table,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -171,7 +176,7 @@ def sensitivity(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
-        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)
+        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year)
         text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
         if chart is not None:
             write_sensitivity_chart(result, chart, force=force)

@@ -22,6 +22,7 @@ from .options import (
     NoLedgerOption,
     SchemeOption,
     SetOption,
+    YearOption,
     explicit,
     fail,
 )
@@ -41,6 +42,7 @@ def workbook(
     draws: Annotated[Optional[int], typer.Option("--draws", help="Add an Uncertainty sheet: a Monte Carlo of N draws over the project's [uncertainty] table (and --distributions).")] = None,
     seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")] = DEFAULT_SEED,
     distributions: Annotated[Optional[Path], typer.Option("--distributions", help="Distributions TOML laid over the project's [uncertainty] table (with --draws).")] = None,
+    year: YearOption = None,
     draws_csv: Annotated[bool, typer.Option("--draws-csv", help="With --draws: also write every draw to OUTPUT.draws.csv beside the workbook.")] = False,
     force: ForceOption = False,
     ledger: LedgerOption = None,
@@ -71,6 +73,7 @@ def workbook(
             overrides=set_,
             boundary=boundary,
             periods=periods,
+            year=year,
             draws=draws,
             seed=seed,
             distributions=distributions,

@@ -216,8 +216,6 @@ def _additionality(rules, source: dict, name: str, plant_commissioning: dt.date 
     months = rules.additionality_months
     start, transition = rules.additionality_applies_from, rules.additionality_transition_until
     if start is not None:
-        if period.end < start:
-            return [Finding("electricity", MET, f"{name}: additionality applies from {start.isoformat()}, after the assessment period {cited}")]
         if transition is not None:
             exempt = _where(rules.additionality_transition_source or rules.additionality_source, rules.grade)
             if plant_commissioning is None:

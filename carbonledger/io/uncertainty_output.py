@@ -126,7 +126,7 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     console.print(figures)
     if result.checks:
         checks = Table(title="Probability of each verdict (Monte Carlo standard error)", title_justify="left")
-        for column in ("scheme", "limit", "mean value", "p5", "p95", "unit", "qualifies", "best tier met"):
+        for column in ("scheme", "limit", "mean value", "p5", "p95", "unit", "qualifies", "other verdicts", "best tier met"):
             checks.add_column(column, justify="right" if column in ("limit", "mean value", "p5", "p95", "qualifies") else "left")
         for check in result.checks:
             tiers = "; ".join(f"{name}: {item.probability:.1%}" for name, item in check.tiers.items() if item.probability > 0 and len(check.tiers) > 2)
@@ -138,6 +138,7 @@ def uncertainty_table(result: UncertaintyResult) -> str:
                 display_number(check.value.p95),
                 check.unit,
                 f"{check.probability_qualifies:.2%} ± {check.standard_error:.2%}",
+                "; ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0) or "-",
                 tiers or "-",
             )
         console.print(checks)
@@ -237,7 +238,8 @@ def uncertainty_figure(result: UncertaintyResult):
         for tier, limit in thresholds:
             axis.axvline(limit, color="black", linestyle="--", linewidth=0.9)
             axis.annotate(f"{tier}: {display_number(limit)}", (limit, 0.97), xycoords=("data", "axes fraction"), rotation=90, ha="right", va="top", fontsize=6.5)
-        axis.set_title(f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})", fontsize=9)
+        others = ", ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0)
+        axis.set_title(f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})" + (f"; {others}" if others else ""), fontsize=9)
         axis.set_xlabel(check.unit, fontsize=8)
         axis.set_ylabel("draws", fontsize=8)
     figure.suptitle(f"{result.project}\n{result.draws_used:,} draws (seed {result.seed}), each scheme on its own rulebook", fontsize=9)

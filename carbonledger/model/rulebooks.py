@@ -29,6 +29,7 @@ import tomllib
 from pathlib import Path
 from typing import Literal
 
+import numpy as np
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from ..errors import InputError, did_you_mean, match_id
@@ -56,10 +57,13 @@ def grade_note(source: str, grade: str) -> str:
     return source if grade == "primary text" else f"{source}; {grade}"
 
 
-def at_or_under(value: float, limit: float, inclusive: bool) -> bool:
-    """value <= limit (inclusive) or value < limit, a value within LIMIT_RTOL of the limit counting as equal to it."""
-    equal = abs(value - limit) <= LIMIT_RTOL * max(1.0, abs(limit))
-    return (inclusive and equal) or (not equal and value < limit)
+def at_or_under(value, limit: float, inclusive: bool):
+    """value <= limit (inclusive) or value < limit, a value within LIMIT_RTOL of the limit counting as
+    equal to it (numbers, or numpy arrays of draws element by element)."""
+    value = np.asarray(value, dtype=float)
+    equal = np.abs(value - limit) <= LIMIT_RTOL * max(1.0, abs(limit))
+    met = (equal | (value < limit)) if inclusive else (~equal & (value < limit))
+    return bool(met) if met.ndim == 0 else met
 
 
 class Threshold(Graded):

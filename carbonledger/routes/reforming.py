@@ -121,6 +121,7 @@ applies_to = "{applies_to}"     # process | process_and_flue
 compression_kwh_per_t_co2 = 110
 extra_natural_gas_gj_per_t_co2 = {0.0 if atr else 1.0}   # gas burnt for solvent regeneration, if any
 transport_storage_loss_fraction = 0.02
+# claims_45q = false             # true if a 26 U.S.C. 45Q credit is allowed for this capture equipment (45V then denies its credit)
 """
         out += natural_gas_starter(product) + electricity_starter(product, grid=True)
         if product == "ammonia":

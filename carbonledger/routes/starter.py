@@ -18,8 +18,10 @@ note = "Where the numbers come from (design documents, meters, invoices)"
 # Dates and place that scheme rules depend on (leave out what is not known; the verdict says
 # which rules it could not judge):
 # zone = ""                      # bidding zone or region of the plant
+# country = ""                   # ISO 3166-1 alpha-2 code where the plant produces (US, GB, PR, ...; 45V asks)
 # construction_start = 2026-06-01
-# commissioning = 2027-06-01
+# commissioning = 2027-06-01     # first day of operation, or placed in service; the default assessment
+#                                # year (--year) is the first full calendar year after it
 
 [hydrogen]
 route = "{route}"

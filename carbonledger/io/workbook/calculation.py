@@ -39,6 +39,7 @@ class SymbolicModel:
     ammonia_lhv: Any
     hydrogen_fraction: Any
     counted_zero: dict = field(default_factory=dict)  # scheme id -> electricity activities its rules count at zero (from the engine's checks)
+    charged_as_grid: dict = field(default_factory=dict)  # scheme id -> {failing electricity activity: grid activity whose intensity it is charged}
 
 
 def basis_product_of(scheme, inventory: Inventory) -> str:
@@ -169,14 +170,22 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
     for position, scheme in enumerate(chosen):
         block.scheme_column[scheme.id] = get_column_letter(len(EXCHANGE_COLUMNS) + 1 + position)
     exchange_row: dict[tuple[str, int], int] = {}
+    for number, (key, index) in enumerate((key, index) for key, activity in inventory.activities.items() for index in range(len(activity.exchanges))):
+        exchange_row[(key, index)] = row + 1 + number
     flow_index = {flow: number for number, flow in enumerate(FLOWS)}
+
+    def grid_intensity(grid_key: str, gwp: str):
+        """kg CO2e per kWh of the grid source under a GWP set: its emission amounts (column G) x GWP."""
+        emissions = [(index, e) for index, e in enumerate(inventory.activities[grid_key].exchanges) if e.kind == "biosphere"]
+        return sum_of(local("G", exchange_row[(grid_key, index)]) * model.per_gwp[gwp][flow_index[e.input]] for index, e in emissions)
+
     for key, activity in inventory.activities.items():
         supply = local("E", block.activity_row[key])
         hydrogen_gate_supply = local("F", block.activity_row[key])
         product_gate_supply = local("G", block.activity_row[key])
+        first_emission = next((index for index, e in enumerate(activity.exchanges) if e.kind == "biosphere"), None)
         for index, exchange in enumerate(activity.exchanges):
             row += 1
-            exchange_row[(key, index)] = row
             block.exchange_rows.append((row, key, exchange))
             put_text(ws, row, 1, key)
             put_text(ws, row, 2, activity.stage)
@@ -198,11 +207,15 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
             put_formula(ws, row, 12, local("G", row) * hydrogen_gate_supply * local("J", row), address)
             for scheme in chosen:
                 column = len(EXCHANGE_COLUMNS) + 1 + list(block.scheme_column).index(scheme.id)
-                reason = zero_rated(scheme, inventory, key, model.counted_zero.get(scheme.id, ()))
+                charged = model.charged_as_grid.get(scheme.id, {})
+                basis_supply = {"product": product_gate_supply, "delivered": supply}.get(scheme.basis, hydrogen_gate_supply)
+                if key in charged and index == first_emission:  # a failing source: its kWh at the grid source's intensity
+                    put_formula(ws, row, column, basis_supply * grid_intensity(charged[key], scheme.gwp), address)
+                    continue
+                reason = zero_rated(scheme, inventory, key, model.counted_zero.get(scheme.id, ()), charged)
                 if reason:
                     put_text(ws, row, column, reason)
                     continue
-                basis_supply = {"product": product_gate_supply, "delivered": supply}.get(scheme.basis, hydrogen_gate_supply)
                 put_formula(ws, row, column, local("G", row) * basis_supply * model.per_gwp[scheme.gwp][number], address)
     # activities with supply formulas
     consumers = consumers_of(inventory)

@@ -169,6 +169,7 @@ def build_workbook(
 
     model = symbolic_model(symbolic, factor_set, gwp, [s.gwp for s in chosen])
     model.counted_zero = {check.scheme: set(check.electricity_counted_zero) for check in result.checks}
+    model.charged_as_grid = {check.scheme: dict(check.electricity_charged_as_grid) for check in result.checks}
     check_acyclic(model.inventory, source)
     period_plan = None
     if meters is not None:
@@ -416,22 +417,30 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         put_formula(ws, row, 11, local("C", loosest_row), address)
         loosest = scheme.loosest()
         operator = "<=" if loosest.inclusive else "<"
-        put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
-        put_formula(ws, row, 13, local("K", row) - local("J", row), address)
+        engine_check = engine_checks.get(scheme.id)
+        co_product_note = str((engine_check.co_products or {}).get("note", "")) if engine_check is not None else ""
+        if co_product_note.startswith("cannot be judged"):
+            put_text(ws, row, 12, "undetermined")  # the scheme's co-product rule cannot be applied: undetermined whatever the value
+        elif co_product_note.startswith("scheme value rescored"):
+            # the scheme's co-product rule differs from the project's: the live value keeps the project's method, the
+            # engine value (column P) and status (Q) are the scheme's; the reasons say so
+            put_text(ws, row, 12, f"{VERDICT_WORDS.get(engine_check.status, engine_check.status)} (scheme's co-product rule, column P)")
+        else:
+            put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
+        put_formula(ws, row, 13, Term(f'IF($Q${row}="not_eligible","",$K${row}-$J${row})'), address)
         tier = '"none"'
         for trow_, threshold in reversed(threshold_rows[scheme.id]):  # loosest outermost, strictest innermost
             comparison = "<=" if threshold.inclusive else "<"
             tier = f"IF($J${row}{comparison}$C${trow_},$B${trow_},{tier})"
         put_formula(ws, row, 14, Term(f'IF(OR($Q${row}="not_eligible",$Q${row}="undetermined"),"none",{tier})'), address)
         put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
-        engine_check = engine_checks.get(scheme.id)
         put_value(ws, row, 16, engine_check.value if engine_check else None)
         shown = number_format(engine_check.value if engine_check else None)
         for column in (9, 10, 11, 13):
             style_cell(ws.cell(row=row, column=column), "formula", shown)
         style_cell(ws.cell(row=row, column=16), "engine", shown)
         put_text(ws, row, 17, engine_check.status if engine_check else "")
-        put_text(ws, row, 18, " | ".join(engine_check.reasons) if engine_check else "")
+        put_text(ws, row, 18, " | ".join(engine_check.reasons + ([co_product_note] if co_product_note.startswith("scheme value rescored") else [])) if engine_check else "")
         cells[f"check:{scheme.id}"] = row
     longest_name = max((len(scheme.name) for scheme in chosen), default=20)
     set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14, "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14, "Q": 16, "R": 90})
@@ -460,6 +469,9 @@ def _figure(ws, row: int, term, address, engine_value) -> None:
     shown = number_format(engine_value)
     style_cell(ws.cell(row=row, column=2), "formula", shown)
     style_cell(ws.cell(row=row, column=4), "engine", shown)
+
+
+VERDICT_WORDS = {"qualifies": "pass", "fails": "fail", "not_eligible": "not eligible", "undetermined": "undetermined"}
 
 
 def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
