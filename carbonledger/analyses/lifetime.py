@@ -365,7 +365,7 @@ def lifetime_score(
         year_projects.append(PortfolioProject(project_file, validate_project(year_data, project_file), project_sha256))
         if trajectory:
             row = trajectory[year]
-            replaced = Factor(**{**row.__dict__, "id": grid_factor_id})
+            replaced = row.model_copy(update={"id": grid_factor_id})
             year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
         else:
             year_sets.append(factor_set)

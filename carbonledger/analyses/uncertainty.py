@@ -49,7 +49,7 @@ from ..core.scoring import (
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
-from ..model.factors import FactorSet
+from ..model.factors import FactorSet, factor_row
 from ..model.project import BOUNDARIES, field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..model.units import UnitMismatch, conversion_factor
@@ -203,7 +203,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
     if not uncertainty.parameters and not uncertainty.factors:
         raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
     plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields, series=series)
-    plan.used_rows = [_plain_row(row) for _, row in sorted(used.items())]
+    plan.used_rows = [factor_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
 
@@ -233,10 +233,6 @@ def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT
 def uncertain_inputs(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
     """The distributions a run of the project would draw: ``uncertainty`` and the pedigree defaults of the factor rows it reads."""
     return with_pedigree_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
-
-
-def _plain_row(row) -> dict:
-    return {key: getattr(row, key, None) for key in ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")}
 
 
 def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-from dataclasses import asdict
 from typing import Annotated
 
 import typer
@@ -12,9 +11,14 @@ from ..core.results import strict_json
 from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.portfolio_output import diff_rows, diff_table, sets_table
-from ..model.factors import FACTOR_COLUMNS, diff_sets, load_factor_set, set_listing
+from ..model.factors import FACTOR_COLUMNS, diff_sets, factor_row, load_factor_set, set_listing
 from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
 from .options import FactorsOption, FormatOption, OutputFormat, fail, render
+
+
+def _listed(factor) -> dict:
+    """A factor row as `factors list` and `show` give it in JSON: its fields and the file it was read from."""
+    return {**factor_row(factor), "origin": factor.origin}
 
 
 def factors_list(
@@ -48,7 +52,7 @@ def factors_list(
                 "caution": CAUTION,
                 "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256},
                 "from_memory": {"factors": [f.id for f in rows if f.from_memory]},
-                "factors": [{**asdict(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})} for f in rows],
+                "factors": [{**_listed(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})} for f in rows],
                 **({"accounting_bases": {f"electricity.{kind}.": text for kind, text in ACCOUNTING_BASIS.items()}, "note": basis_note} if basis_note else {}),
             },
             factor_set.name,
@@ -96,7 +100,7 @@ def factors_show(
         render(
             output_format,
             table=lambda: "\n".join(f"{label:>26}: {value}" for label, value in shown),
-            json=lambda: strict_json({"caution": CAUTION, **asdict(factor)}, factor.id),
+            json=lambda: strict_json({"caution": CAUTION, **_listed(factor)}, factor.id),
             csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)], caution=CAUTION),
         ),
         nl=False,

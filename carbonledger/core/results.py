@@ -12,6 +12,7 @@ from typing import Any
 from pydantic import BaseModel, computed_field
 
 from ..errors import InputError
+from ..model.factors import Factor
 
 
 def _plain_number(value: Any) -> Any:
@@ -40,18 +41,6 @@ class Intensity(BaseModel):
     kg_co2e_per_t_nh3: float | None
     kg_co2e_per_kg_h2: float
     g_co2e_per_mj: float
-
-
-class FactorUsed(BaseModel):
-    id: str
-    value: float
-    unit: str
-    source: str
-    table: str = ""
-    year: int | None = None
-    region: str = ""
-    note: str = ""
-    from_memory: bool = False
 
 
 class MonthOfMatching(BaseModel):
@@ -156,7 +145,7 @@ class ScoreResult(BaseModel):
     biogenic_co2_kg: dict[str, float] = {"released": 0.0, "captured_and_stored": 0.0}
     by_activity: dict[str, float]
     heating_values_mj_per_kg: dict[str, float]
-    factors_used: list[FactorUsed]
+    factors_used: list[Factor]  # the rows as the factor set holds them (model.factors.Factor)
     checks: list[Check]
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]

@@ -21,9 +21,8 @@ import numpy as np
 
 from ..about import CAUTION, __version__
 from ..errors import InputError, did_you_mean, match_id
-from ..model.factors import FactorSet
+from ..model.factors import Factor, FactorSet
 from ..model.project import as_date, boundary_id
-from ..model.reference import ReferenceValue
 from ..model.rulebooks import Scheme, load_schemes, select_schemes
 from ..routes import HYDROGEN_ROUTES, STAGES
 from ..routes.base import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
@@ -36,7 +35,6 @@ from .results import (
     Check,
     ExchangeRow,
     FactorSetRef,
-    FactorUsed,
     Intensity,
     ScoreResult,
 )
@@ -366,16 +364,9 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     return checks
 
 
-@functools.lru_cache(maxsize=4096)
-def _factor_row(item) -> FactorUsed:
-    """A factor row or reference value as cited in results (rows are frozen, so one copy serves every result)."""
-    if isinstance(item, ReferenceValue):
-        return FactorUsed(id=item.id, value=item.value, unit=item.unit, source=item.source)
-    return FactorUsed(**{k: getattr(item, k) for k in FactorUsed.model_fields})
-
-
-def _factor_rows(used: dict) -> list[FactorUsed]:
-    return [_factor_row(used[key]) for key in sorted(used)]
+def _factor_rows(used: dict) -> list[Factor]:
+    """The factor rows and reference values used, by id: rows are frozen, so results cite them as they are."""
+    return [used[key] for key in sorted(used)]
 
 
 def _plain(value):

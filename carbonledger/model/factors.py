@@ -26,10 +26,11 @@ import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from pydantic import BaseModel, ConfigDict, Field, model_serializer
+
 from ..errors import InputError, did_you_mean, match_id
 from .pedigree import parse_scores
 
-FACTOR_COLUMNS = ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")
 UNCERTAINTY_COLUMNS = ("pedigree", "basic_gsd")  # optional: pedigree-matrix default uncertainty (model/pedigree.py)
 REQUIRED_COLUMNS = ("id", "value", "unit", "source")
 DEFAULT_SET = "default-2026"
@@ -37,8 +38,15 @@ _TRUE = {"true", "yes", "1", "y"}
 _FALSE = {"false", "no", "0", "n", ""}
 
 
-@dataclass(frozen=True)
-class Factor:
+class Factor(BaseModel):
+    """One factor row: the one schema of a factor, read from a set's CSV files or a workbook,
+    cited in results (``ScoreResult.factors_used``), stored in the run ledger and listed in the
+    audit workbook. ``origin`` (the file the row was read from) is not part of its content: it is
+    left out of the JSON, the ledger and the set's sha256. The uncertainty columns appear only
+    when given."""
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
     id: str
     value: float
     unit: str
@@ -48,9 +56,17 @@ class Factor:
     region: str = ""
     note: str = ""
     from_memory: bool = False
-    origin: str = ""  # the file the row was read from
+    origin: str = Field("", exclude=True)  # the file the row was read from
     pedigree: tuple[int, ...] | None = None  # five data-quality scores 1..5, for a default lognormal (model/pedigree.py)
     basic_gsd: float | None = None  # basic uncertainty (geometric standard deviation) with the pedigree scores
+
+    @model_serializer(mode="wrap")
+    def _without_empty_uncertainty(self, handler):
+        data = handler(self)
+        for key in UNCERTAINTY_COLUMNS:
+            if data.get(key, 0) is None:
+                del data[key]
+        return data
 
     def citation(self) -> str:
         parts = [self.source]
@@ -62,7 +78,8 @@ class Factor:
         return text + (" [from memory, not checked against the document]" if self.from_memory else "")
 
 
-HASHED_FIELDS = tuple(name for name in Factor.__dataclass_fields__ if name != "origin")
+CITED_FIELDS = tuple(name for name in Factor.model_fields if name not in ("origin",) + UNCERTAINTY_COLUMNS)
+FACTOR_COLUMNS = CITED_FIELDS  # the columns of a factor CSV (and UNCERTAINTY_COLUMNS, optional)
 
 
 @dataclass
@@ -371,9 +388,9 @@ class FactorChange:
 
 
 def factor_row(factor: Factor) -> dict:
-    """A row's content (not the file it came from); the uncertainty columns only when given, so a
-    set without them keeps the hash it had before they existed."""
-    return {key: value for key in HASHED_FIELDS if not ((value := getattr(factor, key)) is None and key in UNCERTAINTY_COLUMNS)}
+    """A row's content as plain values (not the file it came from); the uncertainty columns only
+    when given, so a set without them keeps the hash it had before they existed."""
+    return factor.model_dump(mode="json")
 
 
 def diff_sets(old: FactorSet, new: FactorSet) -> list[FactorChange]:

@@ -22,7 +22,7 @@ from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ...model.factors import DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
+from ...model.factors import CITED_FIELDS, DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
 from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
@@ -212,7 +212,7 @@ def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
         value = _cell_value(ws, f"B{row}", cached, path, factor_id)
         if not is_number(value):
             raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
-        record = {name: text_from_cell(ws.cell(row=row, column=column).value) for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}
+        record = {name: text_from_cell(ws.cell(row=row, column=column).value) for column, name in enumerate(CITED_FIELDS, start=1)}
         record["id"], record["value"] = factor_id, float(value)
         rows.append((record, f"B{row}"))
     return rows
