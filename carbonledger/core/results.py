@@ -13,6 +13,7 @@ from pydantic import BaseModel, computed_field
 
 from ..errors import InputError
 from ..model.factors import Factor
+from ..model.grades import grades_of
 
 
 def _plain_number(value: Any) -> Any:
@@ -154,8 +155,16 @@ class ScoreResult(BaseModel):
 
     @computed_field
     @property
+    def factor_grades(self) -> dict[str, list[str]]:
+        """Ids of the factors used by source grade (primary text, verbatim secondary, secondary, not yet verified, invented)."""
+        return grades_of(self.factors_used)
+
+    @computed_field
+    @property
     def from_memory(self) -> dict[str, list[str]]:
-        """Ids of the factors used and of the rulebooks checked that were recorded from memory."""
+        """Ids of the factors used that are not yet verified against their source document (grade
+        "not yet verified"; kept for compatibility, ``factor_grades`` has every grade) and of the
+        rulebooks checked that were recorded from memory."""
         return {
             "factors": [factor.id for factor in self.factors_used if factor.from_memory],
             "rulebooks": [check.scheme for check in self.checks if check.from_memory],

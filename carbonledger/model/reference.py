@@ -16,10 +16,18 @@ import functools
 
 from . import reference_table as stored
 from .factors import Factor
+from .grades import Grade
 
 
 class ReferenceValue(Factor):
-    """A physical reference value taken from a library (chemicals, CoolProp), cited like a factor row."""
+    """A physical reference value taken from a library (chemicals, CoolProp), cited like a factor row.
+
+    Graded "verbatim secondary" when the library ships the published table it is read from (IUPAC
+    atomic weights, the CRC Handbook, the Active Thermochemical Tables), "secondary" when the library
+    computes it (CoolProp's equation of state, heat-capacity correlations carried to a temperature).
+    """
+
+    grade: Grade = Grade.VERBATIM_SECONDARY
 
 
 @functools.cache
@@ -148,6 +156,7 @@ def hydrogen_latent_heat() -> ReferenceValue:
         value=(states["h_vapour"] - states["h_liquid"]) / 1000.0,
         unit="kJ/kg",
         source=f"CoolProp {_coolprop_version()} (PropsSI, saturated normal hydrogen at 101325 Pa: h_vapour - h_liquid)",
+        grade=Grade.SECONDARY,
     )
 
 
@@ -232,4 +241,5 @@ def water_splitting_gibbs(temperature_k: float, steam: bool) -> ReferenceValue:
         value=water_splitting_gibbs_j_per_mol(temperature_k, steam) / 1000.0,
         unit="kJ/mol H2",
         source=f"chemicals {_chemicals_version()} (reaction.Hfg/Hfl/S0g/S0l at 298.15 K; heat_capacity TRC ideal-gas correlations), {where}",
+        grade=Grade.SECONDARY,
     )

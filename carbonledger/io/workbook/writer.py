@@ -278,14 +278,14 @@ def _put_factor_field(ws, row: int, column: int, name: str, item) -> None:
     elif name == "year":
         put_value(ws, row, column, value)
         ws.cell(row=row, column=column).number_format = YEAR
-    elif name == "from_memory":
-        put_text(ws, row, column, "yes" if value else "no")
+    elif name == "grade":
+        put_text(ws, row, column, value.words)
     else:
         put_text(ws, row, column, value, f"factor {item.id}: {name}")
 
 
 def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
-    put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source. 'from memory' = not yet checked against the document.")
+    put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source and source grade (primary text, verbatim secondary, secondary, not yet verified against the source document, invented).")
     put_text(ws, 2, 1, "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; molar masses (reference.*) come from the chemicals library and are not.")
     for column, title in enumerate(FACTOR_COLUMNS, start=1):
         put_text(ws, FACTOR_HEADER_ROW, column, title)
@@ -298,8 +298,8 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
         address[key] = _name_cell(ws.parent, "f_", key, FACTORS, row).text
         for column, name in enumerate(CITED_FIELDS, start=1):
             _put_factor_field(ws, row, column, name, item)
-    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 46, "E": 22, "F": 7, "G": 10, "H": 46, "I": 9})
-    wrap_columns(ws, "ADEH", FACTOR_HEADER_ROW + 1)
+    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 46, "E": 22, "F": 7, "G": 10, "H": 46, "I": 22})
+    wrap_columns(ws, "ADEHI", FACTOR_HEADER_ROW + 1)
     ws.freeze_panes = ws.cell(row=FACTOR_HEADER_ROW + 1, column=1)
     return address
 
