@@ -196,6 +196,6 @@ class ScoreResult(BaseModel):
             "gwp": self.gwp_basis,
             "results": self.summary(),
             "parameters": self.parameters,
-            "factors_used": [factor.model_dump() for factor in self.factors_used],
+            "factors_used": list(self.factors_used),  # model.factors.Factor rows: the ledger stores their plain values
             "kind": kind,
         }

@@ -22,6 +22,7 @@ References
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import json
 import os
@@ -238,7 +239,16 @@ def _canonical(value: Any) -> tuple[str, str]:
 def factor_row(item) -> dict:
     """A factor row (a ``model.factors.Factor``, or its plain dict) as the ledger stores it: the
     fields of the one factor-row model, as plain values."""
-    return plain_factor_row(item if isinstance(item, Factor) else Factor.model_validate(item))
+    if isinstance(item, Factor):
+        return dict(_stored_row(item))
+    return plain_factor_row(Factor.model_validate(item))
+
+
+@functools.lru_cache(maxsize=65536)
+def _stored_row(row: Factor) -> dict:
+    """Rows are frozen and shared by every result scored with one factor set: a portfolio of
+    thousands of results turns each distinct row into plain values once."""
+    return plain_factor_row(row)
 
 
 def to_record(result, kind: str = "score") -> LedgerRecord:
