@@ -85,12 +85,12 @@ def rulebooks_page() -> str:
 
 
 def factors_page() -> str:
-    parts = ["# Factor library\n", "Generated from `factors/sets/*/factors.csv`. Every value cites its source; `from memory` marks a value not yet checked against the document.\n"]
+    parts = ["# Factor library\n", "Generated from `factors/sets/*/factors.csv`. Every value cites its source and carries a source grade: primary text (read in the document itself or its official data file), verbatim secondary (a faithful copy of it), secondary (a summary or derived data set), not yet verified against the source document, or invented (demo values). `carbonledger factors grades` counts them by kind.\n"]
     for name in available_sets():
         factor_set = load_factor_set(name)
         parts.append(f"\n## {factor_set.name}\n\n{factor_set.description}\n\nsha256 `{factor_set.sha256}`\n")
-        rows = [[f"`{f.id}`", f.value, f.unit, f.source, f.table, f.year, f.region, f.from_memory, f.note] for f in sorted(factor_set.factors.values(), key=lambda f: f.id)]
-        parts.append(table(["id", "value", "unit", "source", "table", "year", "region", "from memory", "note"], rows))
+        rows = [[f"`{f.id}`", f.value, f.unit, f.source, f.table, f.year, f.region, f.grade.words, f.note] for f in sorted(factor_set.factors.values(), key=lambda f: f.id)]
+        parts.append(table(["id", "value", "unit", "source", "table", "year", "region", "source grade", "note"], rows))
     return "\n".join(parts)
 
 
@@ -190,8 +190,8 @@ def factor_table(rows: dict[str, object]) -> str:
         return "None read in the demo projects.\n"
     lines = []
     for factor_id, row in sorted(rows.items()):
-        lines.append([f"`{factor_id}`", getattr(row, "value", ""), getattr(row, "unit", ""), getattr(row, "source", ""), getattr(row, "from_memory", "no (reference library)")])
-    return table(["id", "value", "unit", "source", "from memory"], lines)
+        lines.append([f"`{factor_id}`", getattr(row, "value", ""), getattr(row, "unit", ""), getattr(row, "source", ""), row.grade.words])
+    return table(["id", "value", "unit", "source", "source grade"], lines)
 
 
 def stage_page(name: str, read: dict) -> str:

@@ -58,7 +58,7 @@ def test_score_table_and_csv():
     assert table.exit_code == 0
     assert "kg CO2e/t NH3" in table.stdout and "Caution" in table.stdout
     csv_out = run("score", GREEN, "--format", "csv")
-    assert csv_out.stdout.splitlines()[0] == "section,key,value,unit,from_memory"
+    assert csv_out.stdout.splitlines()[0] == "section,key,value,unit,from_memory,grade"
     assert any(line.startswith("total,total,") for line in csv_out.stdout.splitlines())
 
 
@@ -73,7 +73,9 @@ def test_factor_and_scheme_listings():
     listing = run("factors", "list", "--prefix", "gwp.ar6")
     assert listing.exit_code == 0 and "gwp.ar6.n2o" in listing.stdout
     shown = run("factors", "show", "combustion.natural_gas.co2")
-    assert "56100" in shown.stdout and "Table 2.2" in shown.stdout and "from memory" in shown.stdout
+    assert "56100" in shown.stdout and "Table 2.2" in shown.stdout and "source grade: verbatim secondary" in shown.stdout
+    unverified = run("factors", "show", "combustion.natural_gas.ch4")
+    assert "not yet verified against the source document" in unverified.stdout
     schemes = run("schemes")
     for scheme in ("eu-rfnbo", "us-45v", "uk-lchs", "japan-hydrogen", "japan-ammonia"):
         assert scheme in schemes.stdout

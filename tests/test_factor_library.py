@@ -4,6 +4,7 @@ import pytest
 
 from carbonledger.errors import InputError
 from carbonledger.model.factors import DEFAULT_SET, load_factor_set, read_factor_rows
+from carbonledger.model.grades import Grade
 from carbonledger.model.units import conversion_factor
 
 
@@ -19,7 +20,8 @@ def value(factor_set, factor_id):
 # Published values as read in a document other than the CSV's own note (factors/CHECKS.md and
 # /work/shared/SOURCES.md record where), or checked by physics against reference data. A value
 # that was never read anywhere is not "checked" by typing it again: the test only requires that
-# the row says so (from_memory).
+# the row says so (grade "not yet verified"; model/grades.py). Grades follow the source grades of
+# /work/shared/SOURCES.md and the casebook README: primary text, verbatim secondary, secondary.
 
 # Molar masses from IUPAC conventional atomic weights (C 12.011, O 15.999, H 1.008, N 14.007).
 M_CO2, M_CH4, M_H2, M_NH3 = 12.011 + 2 * 15.999, 12.011 + 4 * 1.008, 2 * 1.008, 14.007 + 3 * 1.008
@@ -40,8 +42,11 @@ def test_natural_gas_combustion_co2(default):
 
 def test_combustion_ch4_and_n2o_are_flagged_unverified(default):
     # IPCC 2006 Table 2.2 CH4 1 and N2O 0.1 kg/TJ were not found in any text (factors/CHECKS.md §1).
-    assert default.get("combustion.natural_gas.ch4").from_memory
-    assert default.get("combustion.natural_gas.n2o").from_memory
+    assert default.get("combustion.natural_gas.ch4").grade is Grade.NOT_YET_VERIFIED
+    assert default.get("combustion.natural_gas.n2o").grade is Grade.NOT_YET_VERIFIED
+    assert default.get("combustion.natural_gas.ch4").from_memory  # the flag kept for compatibility follows the grade
+    # the CO2 default is repeated by a law (Regulation (EU) 2018/2066 Annex VI): a faithful copy
+    assert default.get("combustion.natural_gas.co2").grade is Grade.VERBATIM_SECONDARY
 
 
 def test_ar4_gwp_as_listed_in_us_and_eu_law(default):
@@ -50,13 +55,16 @@ def test_ar4_gwp_as_listed_in_us_and_eu_law(default):
     assert value(default, "gwp.ar4.co2") == 1
     assert value(default, "gwp.ar4.ch4_fossil") == value(default, "gwp.ar4.ch4_non_fossil") == 25
     assert value(default, "gwp.ar4.n2o") == 298
+    # read in those laws, which repeat AR4 Table 2.14: a faithful copy, not the report itself
+    assert {default.get(f"gwp.ar4.{gas}").grade for gas in ("co2", "ch4_fossil", "ch4_non_fossil", "n2o")} == {Grade.VERBATIM_SECONDARY}
 
 
 def test_ar5_gwp(default):
     # IPCC AR5 WG1 Table 8.7 without climate-carbon feedback: CH4 28 (read in a review citing the
     # table); N2O 265 was seen only in software constants, so the row must be flagged.
     assert value(default, "gwp.ar5.ch4_fossil") == value(default, "gwp.ar5.ch4_non_fossil") == 28
-    assert value(default, "gwp.ar5.n2o") == 265 and default.get("gwp.ar5.n2o").from_memory
+    assert value(default, "gwp.ar5.n2o") == 265 and default.get("gwp.ar5.n2o").grade is Grade.NOT_YET_VERIFIED
+    assert default.get("gwp.ar5.ch4_fossil").grade is Grade.SECONDARY  # a review quoting the number, not a copy of the table
 
 
 def test_ar6_gwp(default):
@@ -82,18 +90,19 @@ def test_heating_values_from_enthalpies_of_formation(default):
 
 def test_life_cycle_electricity_medians(default):
     # IPCC AR5 WG3 Annex III Table A.III.2 medians, g CO2e/kWh, as read in secondary copies that
-    # agree (the report itself not checked): every row must be flagged from memory.
+    # agree (the report itself not checked, factors/CHECKS.md §9): every row is graded secondary.
     expected = {"renewable.solar_pv_utility": 48, "renewable.solar_pv_rooftop": 41, "renewable.concentrated_solar": 27, "renewable.wind_onshore": 11,
                 "renewable.wind_offshore": 12, "renewable.hydropower": 24, "renewable.geothermal": 38, "low_carbon.nuclear": 12,
                 "fossil.gas_combined_cycle": 490, "fossil.coal": 820}
     for technology, grams in expected.items():
         assert value(default, f"electricity.{technology}") == grams, technology
-        assert default.get(f"electricity.{technology}").from_memory, technology
+        assert default.get(f"electricity.{technology}").grade is Grade.SECONDARY, technology
 
 
 def test_example_grid_factor(default):
     # EEA indicator IND-353 assessment (8 Dec 2020): EU-27 2018, 281 g CO2e/kWh (read in the text).
     assert value(default, "electricity.grid.eu27_2018") == 281
+    assert default.get("electricity.grid.eu27_2018").grade is Grade.PRIMARY_TEXT
     assert not default.get("electricity.grid.eu27_2018").from_memory
 
 

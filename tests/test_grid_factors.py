@@ -1,8 +1,9 @@
 """Regional grid electricity factors (factors/sets/default-2026/grid-electricity.csv).
 
 Each sampled row is checked against the value stated here with the document it comes from.
-Rows marked from_memory were read only in a secondary copy (named in the row's note and in
-factors/CHECKS.md section 14); the test says so beside the assertion.
+Each row carries the grade of the text it was read in (factors/CHECKS.md sections 14 and 16):
+primary text (the publisher's document or data file), verbatim secondary (a faithful copy of the
+data file, named in the row's note) or secondary (a report or summary); the sample states it.
 """
 
 from __future__ import annotations
@@ -16,49 +17,51 @@ from carbonledger.api import score
 from carbonledger.core.inputs import NumericInputs
 from carbonledger.errors import InputError
 from carbonledger.model.factors import factors_root, load_factor_set
+from carbonledger.model.grades import Grade
 from carbonledger.model.units import conversion_factor
 from carbonledger.routes.base import electricity_flow
 from carbonledger.stages.electricity import kind_of_source
 
 GRID_CSV = factors_root() / "sets" / "default-2026" / "grid-electricity.csv"
 
-# (factor id, value, unit, from_memory, where the value is published)
+# (factor id, value, unit, source grade, where the value is published)
+P, V, S = Grade.PRIMARY_TEXT, Grade.VERBATIM_SECONDARY, Grade.SECONDARY
 SAMPLE = [
     # North America
-    ("electricity.grid.us_erct_2022", 771.083, "lb CO2/MWh", False,
+    ("electricity.grid.us_erct_2022", 771.083, "lb CO2/MWh", P,
      "US EPA eGRID2022, ERCT SRCO2RTA, EPA data file in USEPA/ggcapdthemes"),
-    ("electricity.grid.us_akgd_2022", 1052.114, "lb CO2/MWh", False,
+    ("electricity.grid.us_akgd_2022", 1052.114, "lb CO2/MWh", P,
      "US EPA eGRID2022, AKGD SRCO2RTA, same EPA data file"),
-    ("electricity.grid.canada_ontario_2018", 30, "g CO2e/kWh", False,
+    ("electricity.grid.canada_ontario_2018", 30, "g CO2e/kWh", P,
      "Canada NIR 1990-2018 Part 3, Table A13-7, consumption intensity 2018"),
-    ("electricity.grid.canada_alberta_2017", 790, "g CO2e/kWh", False,
+    ("electricity.grid.canada_alberta_2017", 790, "g CO2e/kWh", P,
      "Canada NIR 1990-2018 Part 3, Table A13-10, consumption intensity 2017"),
-    # Europe (EEA data file copy: secondary, from memory)
-    ("electricity.grid.germany_2019", 338, "g CO2e/kWh", True, "EEA co2-emission-intensity-6, Germany 2019"),
-    ("electricity.grid.france_2016", 58.5, "g CO2/kWh", True, "EEA co2-emission-intensity-5, France 2016"),
+    # Europe (a faithful copy of the EEA data files: verbatim secondary)
+    ("electricity.grid.germany_2019", 338, "g CO2e/kWh", V, "EEA co2-emission-intensity-6, Germany 2019"),
+    ("electricity.grid.france_2016", 58.5, "g CO2/kWh", V, "EEA co2-emission-intensity-5, France 2016"),
     # Oceania (secondary copy of NGA Factors 2024)
-    ("electricity.grid.australia_vic_2024", 0.77, "kg CO2e/kWh", True, "NGA Factors 2024, Victoria scope 2"),
+    ("electricity.grid.australia_vic_2024", 0.77, "kg CO2e/kWh", S, "NGA Factors 2024, Victoria scope 2"),
     # Asia (secondary reports of the official releases)
-    ("electricity.grid.china_2022", 0.5366, "kg CO2/kWh", True, "MEE/NBS 2022 national average factor"),
-    ("electricity.grid.india_fy2023_24", 0.727, "t CO2/MWh", True, "CEA CO2 Baseline Database v20, weighted average 2023-24"),
-    ("electricity.grid.japan_default_2006", 0.000555, "t CO2/kWh", False,
+    ("electricity.grid.china_2022", 0.5366, "kg CO2/kWh", S, "MEE/NBS 2022 national average factor"),
+    ("electricity.grid.india_fy2023_24", 0.727, "t CO2/MWh", S, "CEA CO2 Baseline Database v20, weighted average 2023-24"),
+    ("electricity.grid.japan_default_2006", 0.000555, "t CO2/kWh", P,
      "METI/MoE calculation ordinance default, read in the MoE press release of 19 Dec 2008"),
     # South America and Africa
-    ("electricity.grid.brazil_2023", 0.0385, "t CO2/MWh", True, "MCTI SIRENE annual average factor 2023 (news report)"),
-    ("electricity.grid.south_africa_eskom_fy2013_14", 1.07, "kg CO2/kWh", False,
+    ("electricity.grid.brazil_2023", 0.0385, "t CO2/MWh", S, "MCTI SIRENE annual average factor 2023 (news report)"),
+    ("electricity.grid.south_africa_eskom_fy2013_14", 1.07, "kg CO2/kWh", P,
      "Eskom Integrated Report 2014, environmental implications table, factor 1"),
     # Export-project countries: Our World in Data energy data set (CC BY 4.0, data from Ember), column
     # carbon_intensity_elec, read in owid-energy-data.csv of owid/energy-data at commit e7897aed
-    ("electricity.grid.chile_2024", 259.87, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Chile 2024"),
-    ("electricity.grid.chile_2019", 456.54, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Chile 2019"),
-    ("electricity.grid.egypt_2023", 571.29, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Egypt 2023"),
-    ("electricity.grid.morocco_2022", 662.64, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Morocco 2022"),
-    ("electricity.grid.oman_2024", 542.77, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Oman 2024"),
-    ("electricity.grid.namibia_2023", 47.62, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, Namibia 2023"),
-    ("electricity.grid.united_arab_emirates_2023", 483.79, "g CO2e/kWh", False, "OWID energy data, carbon_intensity_elec, UAE 2023"),
-    # OWID chart CSV (Ember 2025) read only in a third-party copy (pluginsGLPI/carbon): from memory
-    ("electricity.grid.germany_2023", 371.311, "g CO2e/kWh", True, "OWID chart (copy), Germany 2023"),
-    ("electricity.grid.poland_2024", 614.982, "g CO2e/kWh", True, "OWID chart (copy), Poland 2024"),
+    ("electricity.grid.chile_2024", 259.87, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, Chile 2024"),
+    ("electricity.grid.chile_2019", 456.54, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, Chile 2019"),
+    ("electricity.grid.egypt_2023", 571.29, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, Egypt 2023"),
+    ("electricity.grid.morocco_2022", 662.64, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, Morocco 2022"),
+    ("electricity.grid.oman_2024", 542.77, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, Oman 2024"),
+    ("electricity.grid.namibia_2023", 47.62, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, Namibia 2023"),
+    ("electricity.grid.united_arab_emirates_2023", 483.79, "g CO2e/kWh", P, "OWID energy data, carbon_intensity_elec, UAE 2023"),
+    # OWID chart CSV (Ember 2025) read in a faithful third-party copy (pluginsGLPI/carbon): verbatim secondary
+    ("electricity.grid.germany_2023", 371.311, "g CO2e/kWh", V, "OWID chart (copy), Germany 2023"),
+    ("electricity.grid.poland_2024", 614.982, "g CO2e/kWh", V, "OWID chart (copy), Poland 2024"),
 ]
 
 
@@ -67,12 +70,13 @@ def default_set():
     return load_factor_set("default-2026")
 
 
-@pytest.mark.parametrize("factor_id, value, unit, from_memory, where", SAMPLE, ids=[row[0] for row in SAMPLE])
-def test_sampled_rows_match_their_publication(default_set, factor_id, value, unit, from_memory, where):
+@pytest.mark.parametrize("factor_id, value, unit, grade, where", SAMPLE, ids=[row[0] for row in SAMPLE])
+def test_sampled_rows_match_their_publication(default_set, factor_id, value, unit, grade, where):
     row = default_set.factors[factor_id]
     assert row.value == pytest.approx(value, rel=1e-12), where
     assert row.unit == unit, where
-    assert row.from_memory is from_memory, f"{factor_id}: from_memory should be {from_memory} ({where})"
+    assert row.grade is grade, f"{factor_id}: grade should be {grade} ({where})"
+    assert not row.from_memory  # every sampled row was read in a text
     assert row.source and row.table and row.year and row.region
 
 
@@ -117,7 +121,8 @@ def test_every_grid_row_states_its_basis_and_gas_matches_unit():
         assert ("generation" in note) or ("consumption" in note), row["id"]
         is_co2e = "CO2e" in row["unit"]
         assert note.startswith("Basis: CO2e") == is_co2e, f"{row['id']}: note basis and unit {row['unit']} disagree"
-        if row["from_memory"] == "true":
+        assert row["grade"] in ("primary text", "verbatim secondary", "secondary"), row["id"]
+        if row["grade"] != "primary text":
             assert "secondary" in note.lower() or "seen only" in note.lower() or "copy" in note.lower(), row["id"]
 
 

@@ -26,6 +26,7 @@ from carbonledger import api
 from carbonledger.about import CAUTION
 from carbonledger.errors import InputError
 from carbonledger.io.files import atomic_write
+from carbonledger.model.grades import GRADE_WORDS
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
 GREY = DEMO / "grey_smr_ammonia.toml"
@@ -37,7 +38,7 @@ COMMANDS = {
     "compare": ["compare", GREEN, GREY, "--no-ledger"],
     "recalc": ["recalc", GREY, "--to", "demo-2027-grid-revision", "--no-ledger"],
     "factors list": ["factors", "list", "--prefix", "combustion"],
-    "factors show": ["factors", "show", "combustion.natural_gas.co2"],
+    "factors show": ["factors", "show", "combustion.natural_gas.ch4"],
     "factors diff": ["factors", "diff", "default-2026", "demo-2027-grid-revision"],
     "schemes": ["schemes"],
 }
@@ -87,18 +88,20 @@ def outputs():
 @pytest.mark.xdist_group("outputs")  # one worker runs the module fixture once for every case
 @pytest.mark.parametrize("name", COMMANDS)
 def test_caution_and_from_memory_flags_in_every_format(outputs, name):
-    # the default factor set and every rulebook hold values recorded from memory (from_memory=true
-    # in factors/sets/default-2026/factors.csv and factors/schemes/*.toml): each output must say so
+    # the default factor set holds rows not yet verified against their document (grade in
+    # factors/sets/default-2026/*.csv) and every rulebook values recorded from memory
+    # (factors/schemes/*.toml): each output must say so
     table = outputs[name, "table"]
     assert _words(f"Caution: {CAUTION}") in _words(table) or _words(CAUTION) in _words(table), table[-600:]
-    assert "from memory" in table
+    assert "from memory" in table or any(words in table for words in GRADE_WORDS.values())
     data = _strict_json(outputs[name, "json"])
     assert data["caution"] == CAUTION
-    assert "from_memory" in _keys(data)
+    assert {"from_memory", "grade"} & _keys(data)  # a flag, or the source grade of each factor row
     rows = _csv(outputs[name, "csv"])
     assert rows[-1][:2] == ["caution", CAUTION]
-    # a from_memory column, or from_memory rows (section or key) in the long and wide formats
-    assert any("from_memory" in cell for cell in rows[0]) or any("from_memory" in cell for row in rows for cell in row[:2])
+    # a from_memory or grade column, or such rows (section or key) in the long and wide formats
+    flags = ("from_memory", "grade", "not_yet_verified")
+    assert any(flag in cell for flag in flags for cell in rows[0]) or any(flag in cell for flag in flags for row in rows for cell in row[:2])
 
 
 @pytest.mark.parametrize("output_format", ["table", "json", "csv"])
@@ -116,7 +119,7 @@ def test_history_states_the_caution_and_the_flagged_factors(output_format):
     else:
         rows = _csv(result.stdout)
         assert rows[-1][:2] == ["caution", CAUTION]
-        assert rows[1][rows[0].index("factors_from_memory")] == "; ".join(flagged)
+        assert rows[1][rows[0].index("factors_not_yet_verified")] == "; ".join(flagged)
 
 
 def test_the_flagged_factors_of_a_score_are_named_in_every_format(outputs):
@@ -125,10 +128,11 @@ def test_the_flagged_factors_of_a_score_are_named_in_every_format(outputs):
     data = _strict_json(outputs["score", "json"])
     assert data["from_memory"]["factors"] == flagged
     assert all(f in outputs["score", "table"] for f in flagged)
-    factor_rows = {row[1]: row[4] for row in _csv(outputs["score", "csv"]) if row[0] == "factor"}
-    assert [key for key, value in factor_rows.items() if value == "True"] == flagged
+    factor_rows = {row[1]: row[4:6] for row in _csv(outputs["score", "csv"]) if row[0] == "factor"}
+    assert [key for key, (flag, _) in factor_rows.items() if flag == "True"] == flagged
+    assert [key for key, (_, grade) in factor_rows.items() if grade == "not yet verified against the source document"] == flagged
     compare_rows = {row[0] + " " + row[1]: row for row in _csv(outputs["compare", "csv"])}
-    assert all(f in compare_rows["from_memory factors"][3] for f in flagged)
+    assert all(f in compare_rows["factor_grade not yet verified against the source document"][3] for f in flagged)
 
 
 def test_score_tables_name_the_project_file(outputs):
@@ -242,7 +246,7 @@ def test_csv_cells_are_safe_in_a_spreadsheet():
 def test_score_csv_escapes_a_formula_in_the_project_name(tmp_path):
     project = _renamed(tmp_path, '=HYPERLINK("http://example.invalid","x")')
     rows = _csv(run_cli("score", project, "--format", "csv", "--no-ledger").stdout)
-    assert ["project", "name", '\'=HYPERLINK("http://example.invalid","x")', "", ""] in rows
+    assert ["project", "name", '\'=HYPERLINK("http://example.invalid","x")', "", "", ""] in rows
     negative = [row for row in rows if row[0] == "check:eu-rfnbo" and row[1] == "margin"]
     assert negative and not negative[0][2].startswith("'")  # numbers stay numbers
     compare_rows = _csv(run_cli("compare", project, GREY, "--format", "csv", "--no-ledger").stdout)
@@ -347,8 +351,8 @@ def test_workbook_states_the_caution_and_the_from_memory_flags(tmp_path):
     assert CAUTION in cover_text
     factors = workbook["Factors"]
     header = [c.value for c in factors[4]]
-    flag_column = header.index("from memory") + 1
-    flagged = {factors.cell(row=r, column=1).value for r in range(5, factors.max_row + 1) if factors.cell(row=r, column=flag_column).value == "yes"}
+    flag_column = header.index("source grade") + 1
+    flagged = {factors.cell(row=r, column=1).value for r in range(5, factors.max_row + 1) if factors.cell(row=r, column=flag_column).value == "not yet verified against the source document"}
     assert flagged == {f.id for f in api.score(GREEN).factors_used if f.from_memory}
     results_text = " ".join(str(c.value) for row in workbook["Results"].iter_rows() for c in row if c.value is not None)
     assert CAUTION in results_text and "from memory" in results_text

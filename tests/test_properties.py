@@ -1,6 +1,5 @@
 """Monotonic relations every practitioner expects (property tests with hypothesis)."""
 
-import dataclasses
 
 from helpers import DEMO
 from hypothesis import given, settings
@@ -41,7 +40,7 @@ def test_higher_capture_rate_never_raises_the_score(low, high, applies_to):
 
 def with_grid_factor(grams: float) -> FactorSet:
     factors = dict(DEFAULT.factors)
-    factors["electricity.grid.eu27_2018"] = dataclasses.replace(factors["electricity.grid.eu27_2018"], value=grams)
+    factors["electricity.grid.eu27_2018"] = factors["electricity.grid.eu27_2018"].model_copy(update={"value": grams})
     return FactorSet(name=f"grid-{grams}", factors=factors)
 
 

@@ -317,7 +317,6 @@ def test_draws_of_a_project_with_a_time_series_follow_the_matching_as_score_does
     scheme's rule) of the project with that draw's inputs put in by hand, to 1e-9; without the
     series the draws would carry the declared annual shares (a different value under hourly or
     monthly matching, so the test can fail)."""
-    import dataclasses
 
     from carbonledger.analyses.uncertainty import evaluate
     from carbonledger.model.factors import FactorSet
@@ -341,7 +340,7 @@ def test_draws_of_a_project_with_a_time_series_follow_the_matching_as_score_does
         kwh = float(drawn.parameters["electrolysis.electricity_kwh_per_kg_h2"][number])
         grid = float(drawn.factors["electricity.grid.eu27_2018"][number])
         factors = dict(factor_set.factors)
-        factors["electricity.grid.eu27_2018"] = dataclasses.replace(factors["electricity.grid.eu27_2018"], value=grid)
+        factors["electricity.grid.eu27_2018"] = factors["electricity.grid.eu27_2018"].model_copy(update={"value": grid})
         by_hand = api.score(path, factors=FactorSet(name="drawn", factors=factors), overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh!r}"])
         for check in by_hand.checks:
             assert outcome.scheme_values[check.scheme][number] == pytest.approx(check.value, rel=1e-9, abs=1e-9), check.scheme

@@ -274,3 +274,22 @@ def test_cli_shows_status_year_and_deciding_reason_in_every_format():
     assert len([r for r in rows if r["section"] == "check:eu-rfnbo" and r["key"] == "reason"]) == len(only["reasons"])
     listing = run_cli("schemes")
     assert "eu-low-carbon" in listing.stdout and "hourly from 2030-01-01" in listing.stdout
+
+
+def test_a_producer_selling_at_the_gate_can_declare_its_buyers_e_td(tmp_path):
+    # 2023/1185 Annex Part A point 1: E = e_i + e_p + e_td + e_u - e_ccs (verbatim secondary). At the gate e_td is not
+    # modelled: undetermined, saying how much room e_td has (28.2 - 50 x 0 / 119.96 = 28.2 g CO2e/MJ for a plant on
+    # counted wind). A declared e_td of 2.5 g CO2e/MJ is added to the value and gives a verdict.
+    gate = project(tmp_path).read_text(encoding="utf-8").replace('boundary = "well-to-tank"', 'boundary = "cradle-to-gate"')
+    (tmp_path / "gate.toml").write_text(gate, encoding="utf-8")
+    open_ = check(score(tmp_path / "gate.toml", year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    assert open_.status == "undetermined" and open_.reasons[0].startswith("cannot be judged: e_td")
+    assert "qualifies if what cannot be judged adds at most 28.2 g CO2e/MJ" in open_.reasons[0]
+    declared = gate.replace("[hydrogen]", 'declared_e_td_g_co2e_per_mj = 2.5\ndeclared_e_td_evidence = "buyers\' statement (invented)"\n\n[hydrogen]', 1)
+    (tmp_path / "declared.toml").write_text(declared, encoding="utf-8")
+    c = check(score(tmp_path / "declared.toml", year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    assert c.status == "qualifies" and c.value == pytest.approx(open_.value + 2.5, rel=1e-12)
+    assert any("declared by the producer: 2.5 g CO2e/MJ" in r and "buyers' statement (invented)" in r for r in c.reasons)
+    with pytest.raises(InputError) as error:
+        score(tmp_path / "declared.toml", overrides=["project.declared_e_td_g_co2e_per_mj=-1"])
+    assert "project.declared_e_td_g_co2e_per_mj" in str(error.value)

@@ -346,7 +346,10 @@ def test_cover_states_what_a_verifier_needs(tmp_path):
     assert any(CAUTION in str(cell.value) for cell in book["Cover"]["A"])
     assert book["Results"]._charts, "a chart of contributions by stage"
     factors = labelled(book["Factors"], column=9)
-    assert factors["combustion.natural_gas.co2"] == "yes"  # flagged from memory in the factor set
+    # source grades (factors/CHECKS.md section 16): the CO2 default repeated by Regulation (EU) 2018/2066, a faithful copy;
+    # CH4 not read in any text
+    assert factors["combustion.natural_gas.co2"] == "verbatim secondary"
+    assert factors["combustion.natural_gas.ch4"] == "not yet verified against the source document"
     assert "reference.molar_mass.nh3" in factors
 
 

@@ -66,7 +66,8 @@ class ComparedProject(BaseModel):
     non_ghg_kg: dict[str, float]  # kg per the project's own functional unit
     intensity: dict[str, float | None]
     checks: list[Check]
-    factors_from_memory: list[str] = []  # ids of the factors used that were not checked against their document
+    factors_from_memory: list[str] = []  # ids of the factors used graded "not yet verified" against their document
+    factor_grades: dict[str, list[str]] = {}  # ids of the factors used by source grade (model.grades.grades_of)
     uncertainty: UncertaintyBand | None = None  # with --draws: the Monte Carlo band (None: no distributions, see uncertainty_note)
     uncertainty_note: str = ""
 
@@ -92,7 +93,7 @@ class ComparisonResult(BaseModel):
     @computed_field
     @property
     def from_memory(self) -> dict[str, list[str]]:
-        """Ids of the factors used and rulebooks checked (by any project) recorded from memory."""
+        """Ids of the factors used (by any project) not yet verified against their document, and of the rulebooks checked recorded from memory."""
         return {
             "factors": sorted({key for project in self.projects for key in project.factors_from_memory}),
             "rulebooks": sorted({check.scheme for project in self.projects for check in project.checks if check.from_memory}),
@@ -195,6 +196,7 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
                 intensity=r.intensity.model_dump(),
                 checks=r.checks,
                 factors_from_memory=sorted(f.id for f in r.factors_used if f.from_memory),
+                factor_grades=r.factor_grades,
                 uncertainty=None if spread is None or isinstance(spread, str) else band_of(spread, quantity, schemes),
                 uncertainty_note=spread if isinstance(spread, str) else "",
             )

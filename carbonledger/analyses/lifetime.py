@@ -36,7 +36,7 @@ import numpy as np
 
 from ..core.scoring import gwp_set, intensities, rulebooks
 from ..errors import InputError
-from ..model.factors import Factor, FactorSet, read_factor_rows
+from ..model.factors import Factor, FactorSet, factor_row, read_factor_rows
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import routes_of
 from ..routes.project import validate_project
@@ -365,7 +365,7 @@ def lifetime_score(
         year_projects.append(PortfolioProject(project_file, validate_project(year_data, project_file), project_sha256))
         if trajectory:
             row = trajectory[year]
-            replaced = Factor(**{**row.__dict__, "id": grid_factor_id})
+            replaced = row.model_copy(update={"id": grid_factor_id})
             year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
         else:
             year_sets.append(factor_set)
@@ -485,7 +485,6 @@ def lifetime_score(
         time_series=series_use,
         boundary=project.project.boundary,
         parameters=project.model_dump(),
-        factors_used=[factor.model_dump() for factor in first.factors_used]
-        + [{"id": f"trajectory.{row.year}", "value": row.value, "unit": row.unit, "source": row.source, "year": row.year, "from_memory": row.from_memory}
-           for row in sorted({row.year: row for row in trajectory.values()}.values(), key=lambda row: row.year)],
+        factors_used=[factor_row(factor) for factor in first.factors_used]
+        + [factor_row(row.model_copy(update={"id": f"trajectory.{row.year}"})) for row in sorted({row.year: row for row in trajectory.values()}.values(), key=lambda row: row.year)],
     )

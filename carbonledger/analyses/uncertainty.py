@@ -42,6 +42,7 @@ from ..core.scoring import (
     characterisation,
     charged_source_intensities,
     checked_year,
+    declared_addition,
     grid_charge,
     intensities,
     read_rules,
@@ -52,7 +53,7 @@ from ..core.scoring import (
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
-from ..model.factors import FactorSet
+from ..model.factors import FactorSet, factor_row
 from ..model.project import BOUNDARIES, field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..model.units import UnitMismatch, conversion_factor
@@ -206,7 +207,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
     if not uncertainty.parameters and not uncertainty.factors:
         raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
     plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields, year=year, series=series)
-    plan.used_rows = [_plain_row(row) for _, row in sorted(used.items())]
+    plan.used_rows = [factor_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
 
@@ -236,10 +237,6 @@ def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT
 def uncertain_inputs(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
     """The distributions a run of the project would draw: ``uncertainty`` and the pedigree defaults of the factor rows it reads."""
     return with_pedigree_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
-
-
-def _plain_row(row) -> dict:
-    return {key: getattr(row, key, None) for key in ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")}
 
 
 def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
@@ -455,7 +452,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         grid_kg = {grid: unit_intensity(inventory, grid, stacked.flow_keys, gwp_vector) for grid in set(reading.charged_as_grid.values())}
         basis_supply = supply[:, :, column[basis_demand]]
         scheme_total = (contributions(basis_demand, gwp_vector) * ~scheme_mask(scheme, inventory, keys, reading)[None, None, :]).sum(axis=(1, 2)) + grid_charge(reading, keys, basis_supply, grid_kg)
-        values = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity], (count,))
+        values = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity] + declared_addition(scheme, inventory, nominal), (count,))
         if plan.series is not None:
             mix, gate = keys.index("electricity_mix"), column[inventory.gate]
             sources = params["electricity"]["sources"]

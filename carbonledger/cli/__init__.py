@@ -54,6 +54,7 @@ factors_app.command("list")(factors.factors_list)
 factors_app.command("show")(factors.factors_show)
 factors_app.command("sets")(factors.factors_sets)
 factors_app.command("diff")(factors.factors_diff)
+factors_app.command("grades")(factors.factors_grades)
 
 
 def main() -> None:

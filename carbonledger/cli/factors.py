@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-from dataclasses import asdict
 from typing import Annotated
 
 import typer
@@ -11,10 +10,17 @@ from ..about import CAUTION
 from ..core.results import strict_json
 from ..errors import InputError
 from ..io.csv_text import csv_text
+from ..io.labels import factor_grades_sentence
 from ..io.portfolio_output import diff_rows, diff_table, sets_table
-from ..model.factors import FACTOR_COLUMNS, diff_sets, load_factor_set, set_listing
+from ..model.factors import FACTOR_COLUMNS, diff_sets, factor_row, load_factor_set, set_listing
+from ..model.grades import GRADE_MEANING, Grade, grade_kind, grades_of
 from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
 from .options import FactorsOption, FormatOption, OutputFormat, fail, render
+
+
+def _listed(factor) -> dict:
+    """A factor row as `factors list` and `show` give it in JSON: its fields and the file it was read from."""
+    return {**factor_row(factor), "origin": factor.origin}
 
 
 def factors_list(
@@ -22,7 +28,7 @@ def factors_list(
     prefix: Annotated[str, typer.Option("--prefix", help="Only ids starting with this text.")] = "",
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
-    """List the factors of a set: id, value, unit, source; '*' marks values from memory."""
+    """List the factors of a set: id, value, unit, source grade and source."""
     try:
         factor_set = load_factor_set(factors)
     except InputError as error:
@@ -38,17 +44,21 @@ def factors_list(
 
     def table() -> str:
         width = max((len(f.id) for f in rows), default=10)
-        lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}); * = from memory, not checked against the document"]
-        lines += [f"{'*' if f.from_memory else ' '} {f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.source[:60]}" for f in rows]
-        return "\n".join(lines + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
+        grade_width = max((len(f.grade.value) for f in rows), default=5)
+        lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256})"]
+        lines += [f"{f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.grade.value:<{grade_width}}  {f.source[:60]}" for f in rows]
+        legend = f"Source grades: {'; '.join(f'{g.value}: {GRADE_MEANING[g]}' for g in Grade)}."
+        summary = factor_grades_sentence(grades_of(rows), len(rows)).replace("factors used", "factors listed")
+        return "\n".join(lines + [summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
 
     def json_text() -> str:
         return strict_json(
             {
                 "caution": CAUTION,
                 "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256},
+                "factor_grades": grades_of(rows),
                 "from_memory": {"factors": [f.id for f in rows if f.from_memory]},
-                "factors": [{**asdict(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})} for f in rows],
+                "factors": [{**_listed(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})} for f in rows],
                 **({"accounting_bases": {f"electricity.{kind}.": text for kind, text in ACCOUNTING_BASIS.items()}, "note": basis_note} if basis_note else {}),
             },
             factor_set.name,
@@ -83,7 +93,7 @@ def factors_show(
         ("year", factor.year or "-"),
         ("region", factor.region or "-"),
         ("note", factor.note or "-"),
-        ("recorded from memory", "yes (not checked against the document)" if factor.from_memory else "no (checked against the document)"),
+        ("source grade", f"{factor.grade.value}: {GRADE_MEANING[factor.grade]}"),
         ("file", factor.origin),
         *(
             [("pedigree scores", f"({','.join(str(v) for v in factor.pedigree)}) reliability, completeness, temporal, geographical, further technological; basic GSD {factor.basic_gsd or 1:g}")]
@@ -96,7 +106,7 @@ def factors_show(
         render(
             output_format,
             table=lambda: "\n".join(f"{label:>26}: {value}" for label, value in shown),
-            json=lambda: strict_json({"caution": CAUTION, **asdict(factor)}, factor.id),
+            json=lambda: strict_json({"caution": CAUTION, **_listed(factor)}, factor.id),
             csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)], caution=CAUTION),
         ),
         nl=False,
@@ -128,7 +138,7 @@ def factors_diff(
         fail(error)
     changes = diff_sets(old_set, new_set)
     rows = diff_rows(changes)
-    keys = ("kind", "id", "old_value", "new_value", "unit", "old_source", "new_source", "from_memory")
+    keys = ("kind", "id", "old_value", "new_value", "unit", "old_source", "new_source", "grade")
     typer.echo(
         render(
             output_format,
@@ -138,6 +148,43 @@ def factors_diff(
                 f"{old} -> {new}",
             ),
             csv=lambda: csv_text(keys, [tuple(r.get(k, "") for k in keys) for r in rows], caution=CAUTION),
+        ),
+        nl=False,
+    )
+
+
+def factors_grades(
+    factors: FactorsOption = "default-2026",
+    prefix: Annotated[str, typer.Option("--prefix", help="Only ids starting with this text.")] = "",
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Count the rows of a set by kind (electricity.grid, gwp, marine_fuel...) and source grade."""
+    try:
+        factor_set = load_factor_set(factors)
+    except InputError as error:
+        fail(error)
+    counts: dict[str, dict[str, int]] = {}
+    for key, row in sorted(factor_set.factors.items()):
+        if key.startswith(prefix):
+            kind = counts.setdefault(grade_kind(key), {grade.value: 0 for grade in Grade})
+            kind[row.grade.value] += 1
+    totals = {grade.value: sum(kind[grade.value] for kind in counts.values()) for grade in Grade}
+    header = ("kind", *(grade.value for grade in Grade), "rows")
+    rows = [(kind, *by_grade.values(), sum(by_grade.values())) for kind, by_grade in counts.items()] + [("all", *totals.values(), sum(totals.values()))]
+
+    def table() -> str:
+        widths = [max(len(str(row[i])) for row in (header, *rows)) for i in range(len(header))]
+        lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}): rows by kind and source grade"]
+        lines += ["  ".join(str(cell).rjust(w) if i else str(cell).ljust(w) for i, (cell, w) in enumerate(zip(row, widths, strict=True))) for row in (header, *rows)]
+        lines.append(f"Source grades: {'; '.join(f'{g.value}: {GRADE_MEANING[g]}' for g in Grade)}.")
+        return "\n".join(lines + [f"Caution: {CAUTION}"]) + "\n"
+
+    typer.echo(
+        render(
+            output_format,
+            table=table,
+            json=lambda: strict_json({"caution": CAUTION, "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256}, "grades": counts, "all": totals}, factor_set.name),
+            csv=lambda: csv_text(header, rows, caution=CAUTION),
         ),
         nl=False,
     )

@@ -84,7 +84,7 @@ def history(
         entries = project_history(project, ledger)
     except InputError as error:
         fail(error)
-    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes", "status", "factors_from_memory")
+    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes", "status", "factors_not_yet_verified")
     rows = [
         (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c.get("passes", ""), c.get("status", ""), "; ".join(flagged_factors(e)))
         for e in entries

@@ -12,6 +12,8 @@ from typing import Any
 from pydantic import BaseModel, computed_field
 
 from ..errors import InputError
+from ..model.factors import Factor
+from ..model.grades import grades_of
 
 
 def _plain_number(value: Any) -> Any:
@@ -40,18 +42,6 @@ class Intensity(BaseModel):
     kg_co2e_per_t_nh3: float | None
     kg_co2e_per_kg_h2: float
     g_co2e_per_mj: float
-
-
-class FactorUsed(BaseModel):
-    id: str
-    value: float
-    unit: str
-    source: str
-    table: str = ""
-    year: int | None = None
-    region: str = ""
-    note: str = ""
-    from_memory: bool = False
 
 
 class MonthOfMatching(BaseModel):
@@ -159,7 +149,7 @@ class ScoreResult(BaseModel):
     biogenic_co2_kg: dict[str, float] = {"released": 0.0, "captured_and_stored": 0.0}
     by_activity: dict[str, float]
     heating_values_mj_per_kg: dict[str, float]
-    factors_used: list[FactorUsed]
+    factors_used: list[Factor]  # the rows as the factor set holds them (model.factors.Factor)
     checks: list[Check]
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]
@@ -168,8 +158,16 @@ class ScoreResult(BaseModel):
 
     @computed_field
     @property
+    def factor_grades(self) -> dict[str, list[str]]:
+        """Ids of the factors used by source grade (primary text, verbatim secondary, secondary, not yet verified, invented)."""
+        return grades_of(self.factors_used)
+
+    @computed_field
+    @property
     def from_memory(self) -> dict[str, list[str]]:
-        """Ids of the factors used and of the rulebooks checked that were recorded from memory."""
+        """Ids of the factors used that are not yet verified against their source document (grade
+        "not yet verified"; kept for compatibility, ``factor_grades`` has every grade) and of the
+        rulebooks checked that were recorded from memory."""
         return {
             "factors": [factor.id for factor in self.factors_used if factor.from_memory],
             "rulebooks": [check.scheme for check in self.checks if check.from_memory],
@@ -202,6 +200,6 @@ class ScoreResult(BaseModel):
             "gwp": self.gwp_basis,
             "results": self.summary(),
             "parameters": self.parameters,
-            "factors_used": [factor.model_dump() for factor in self.factors_used],
+            "factors_used": list(self.factors_used),  # model.factors.Factor rows: the ledger stores their plain values
             "kind": kind,
         }

@@ -21,9 +21,8 @@ import numpy as np
 
 from ..about import CAUTION, __version__
 from ..errors import InputError, did_you_mean, match_id
-from ..model.factors import FactorSet
+from ..model.factors import Factor, FactorSet
 from ..model.project import as_date, boundary_id
-from ..model.reference import ReferenceValue
 from ..model.rulebooks import Scheme, grade_note, load_schemes, select_schemes
 from ..routes import HYDROGEN_ROUTES, STAGES
 from ..routes.base import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
@@ -36,7 +35,6 @@ from .results import (
     Check,
     ExchangeRow,
     FactorSetRef,
-    FactorUsed,
     Intensity,
     ScoreResult,
 )
@@ -52,6 +50,7 @@ from .verdicts import (
     Reading,
     assessment_year,
     boundary_findings,
+    declared_e_td,
     electricity_reading,
     eligibility_findings,
     figure,
@@ -158,6 +157,12 @@ def charged_source_intensities(scheme: Scheme, inventory: Inventory, flow_keys, 
         else:
             charged[name] = unit_intensity(inventory, reading.charged_as_grid.get(key, key), flow_keys, characterisation)
     return charged
+
+
+def declared_addition(scheme: Scheme, inventory: Inventory, params: dict) -> float:
+    """What a declared e_td adds to the scheme's value (g CO2e/MJ; 0 where it does not apply): ``verdicts.declared_e_td``."""
+    present = {activity.stage for activity in inventory.activities.values()}
+    return declared_e_td(scheme, present, params["project"]) or 0.0
 
 
 def scheme_mask(scheme: Scheme, inventory: Inventory, keys: list[str], reading: Reading) -> np.ndarray:
@@ -282,7 +287,7 @@ def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Perio
     if commissioning is not None and period.end < commissioning:
         reading.findings.append(Finding("dates", NOTE, f"the plant is not in operation in {period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {period.label()}'s dates; use --year for an operating year"))
     present = {inventory.activities[key].stage for key in inventory.activities}
-    reading.findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"])
+    reading.findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"], params["project"])
     if scheme.version:
         reading.versions.insert(0, scheme.version)
     return reading
@@ -409,6 +414,7 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         grid_kg = {grid: unit_intensity(inventory, grid, prepared.matrices.flow_keys, vector) for grid in set(reading.charged_as_grid.values())}
         scheme_total = float(solution.contributions(vector, scheme_mask(scheme, inventory, keys, reading)).sum() + grid_charge(reading, keys, solution.supply, grid_kg))
         value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
+        value += declared_addition(scheme, inventory, prepared.params)
         checks.append(
             Check(
                 scheme=scheme.id,
@@ -433,16 +439,9 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     return checks
 
 
-@functools.lru_cache(maxsize=4096)
-def _factor_row(item) -> FactorUsed:
-    """A factor row or reference value as cited in results (rows are frozen, so one copy serves every result)."""
-    if isinstance(item, ReferenceValue):
-        return FactorUsed(id=item.id, value=item.value, unit=item.unit, source=item.source)
-    return FactorUsed(**{k: getattr(item, k) for k in FactorUsed.model_fields})
-
-
-def _factor_rows(used: dict) -> list[FactorUsed]:
-    return [_factor_row(used[key]) for key in sorted(used)]
+def _factor_rows(used: dict) -> list[Factor]:
+    """The factor rows and reference values used, by id: rows are frozen, so results cite them as they are."""
+    return [used[key] for key in sorted(used)]
 
 
 def _plain(value):

@@ -380,13 +380,31 @@ def fully_renewable_finding(scheme: Scheme) -> Finding:
 # ---- boundary and status ---------------------------------------------------------------------
 
 
-def boundary_findings(scheme: Scheme, present_stages: set[str], reference_product: str, gate_product: str, project_boundary: str) -> list[Finding]:
-    """The scheme's formula terms against the stages the project models at its boundary."""
+DECLARABLE_TERM = "e_td"  # the EU formula's transport and distribution, which a producer selling at the gate may declare
+
+
+def declared_e_td(scheme: Scheme, present_stages: set[str], project: dict) -> float | None:
+    """The e_td a producer selling at the gate declares (g CO2e/MJ) where it counts: a scheme whose value is
+    per MJ of delivered fuel and whose e_td term the project does not model; None otherwise."""
+    declared = project.get("declared_e_td_g_co2e_per_mj")
+    if declared is None or scheme.basis != "delivered" or scheme.quantity != "g_co2e_per_mj":
+        return None
+    term = next((t for t in scheme.boundary_terms if t.term == DECLARABLE_TERM), None)
+    return declared if term is not None and not present_stages & set(term.stages) else None
+
+
+def boundary_findings(scheme: Scheme, present_stages: set[str], reference_product: str, gate_product: str, project_boundary: str, project: dict | None = None) -> list[Finding]:
+    """The scheme's formula terms against the stages the project models at its boundary (a declared e_td counts
+    as modelled, with its evidence named)."""
     findings = []
+    declared = declared_e_td(scheme, present_stages, project or {})
     for term in scheme.boundary_terms:
         cited = _where(term.source or scheme.document, term.grade)
         product = reference_product if scheme.basis == "delivered" else gate_product
-        if product in term.zero_for:
+        if term.term == DECLARABLE_TERM and declared is not None:
+            evidence = (project or {}).get("declared_e_td_evidence") or "no evidence named (project.declared_e_td_evidence)"
+            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) declared by the producer: {figure(declared)} g CO2e/MJ added to the value (evidence: {evidence}) {cited}"))
+        elif product in term.zero_for:
             findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero for {product} {cited}"))
         elif present_stages & set(term.stages):
             findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) counted {cited}"))

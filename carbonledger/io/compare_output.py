@@ -5,6 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from ..analyses.compare import ComparisonResult
+from ..model.grades import GRADE_BY_WORDS, Grade
 from .chart_files import write_figure
 from .csv_text import csv_text
 from .tables import INTENSITY_UNITS, display_number, plain_console
@@ -65,12 +66,13 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
                 (f"check:{scheme}", "matching", "", [c.electricity_matching.granularity if c and c.electricity_matching else "declared shares" for c in checks]),
                 (f"check:{scheme}", "matched_share", "fraction", [c.electricity_matching.matched_share if c and c.electricity_matching else None for c in checks]),
             ]
-    rows.append(("from_memory", "factors", "", ["; ".join(p.factors_from_memory) or "none" for p in projects]))
+    graded = [grade for grade in Grade if any(p.factor_grades.get(grade.value) for p in projects)]
+    rows += [("factor_grade", grade.words, "", ["; ".join(p.factor_grades.get(grade.value, [])) or "none" for p in projects]) for grade in graded]
     return rows
 
 
 def comparison_csv(result: ComparisonResult) -> str:
-    """Wide CSV: a column per project, the from-memory rows, and the caution row last."""
+    """Wide CSV: a column per project, the factor-grade rows, and the caution row last."""
     header = ["section", "key", "unit"] + [_label(p) for p in result.projects]
     rows = [[section, key, unit] + ["" if v is None else v for v in values] for section, key, unit, values in comparison_rows(result)]
     return csv_text(header, rows, caution=result.caution)
@@ -104,8 +106,9 @@ def render_comparison(result: ComparisonResult) -> str:
             cells = ["" if v is None else f"{v:.2%}" for v in values]
         if section == "uncertainty" and key in ("draws", "seed"):
             cells = [v if isinstance(v, str) else "-" if v is None else f"{v:,}" if key == "draws" else str(v) for v in values]
-        if section == "from_memory":  # the ids are listed below the table
-            name, unit, cells = "factors from memory", "count", [str(len(p.factors_from_memory)) for p in result.projects]
+        if section == "factor_grade":  # the ids of the rows not yet verified are listed below the table
+            grade = GRADE_BY_WORDS[key]
+            name, unit, cells = f"factors: {key}", "count", [str(len(p.factor_grades.get(grade.value, []))) for p in result.projects]
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
@@ -115,7 +118,7 @@ def render_comparison(result: ComparisonResult) -> str:
     if flagged["rulebooks"]:
         console.print(f"Rulebooks or thresholds recorded from memory, not yet checked against the legal text: {', '.join(flagged['rulebooks'])}")
     if flagged["factors"]:
-        console.print(f"Factors used that are flagged from memory (not checked against their document): {', '.join(flagged['factors'])}")
+        console.print(f"Factors used that are not yet verified against the source document: {', '.join(flagged['factors'])}")
     console.print(f"Caution: {result.caution}")
     return console.export_text()
 

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from ..model.grades import GRADE_WORDS, Grade
+
 GAS_NAMES = {
     "co2_fossil": "CO2, fossil",
     "ch4_fossil": "Methane (CH4), fossil",
@@ -31,3 +33,12 @@ def stage_name(stage: str) -> str:
 
 def gas_name(gas: str) -> str:
     return GAS_NAMES.get(gas, words(gas))
+
+
+def factor_grades_sentence(grades: dict[str, list[str]], total: int) -> str:
+    """``grades`` (grade -> ids, as ``model.grades.grades_of`` gives them) in one sentence, the
+    ids named for the rows not yet verified: what every readable output prints under its factors."""
+    counts = ", ".join(f"{len(ids)} {GRADE_WORDS[Grade(grade)]}" for grade, ids in grades.items() if ids)
+    unverified = grades.get(Grade.NOT_YET_VERIFIED.value, [])
+    named = f" Not yet verified against the source document: {', '.join(unverified)}." if unverified else ""
+    return f"Source grades of the {total} factors used: {counts or 'none'}.{named}"

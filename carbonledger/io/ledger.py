@@ -22,6 +22,7 @@ References
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import json
 import os
@@ -35,6 +36,8 @@ from typing import Any
 
 from ..about import __version__
 from ..errors import InputError
+from ..model.factors import Factor
+from ..model.factors import factor_row as plain_factor_row
 
 LEDGER_ENV = "CARBONLEDGER_LEDGER"
 LEDGER_FORMAT = "carbonledger run ledger"
@@ -233,14 +236,19 @@ def _canonical(value: Any) -> tuple[str, str]:
     return text, hashlib.sha256(text.encode("utf-8")).hexdigest()
 
 
-_ROW_DEFAULTS = {"id": "", "value": None, "unit": "", "source": "", "table": "", "year": None, "region": "", "note": "", "from_memory": False}
-
-
 def factor_row(item) -> dict:
-    """A factor (or reference value) as a plain row with the same keys whatever its type."""
-    if isinstance(item, dict):
-        return {key: item.get(key, default) for key, default in _ROW_DEFAULTS.items()}
-    return {key: getattr(item, key, default) for key, default in _ROW_DEFAULTS.items()}
+    """A factor row (a ``model.factors.Factor``, or its plain dict) as the ledger stores it: the
+    fields of the one factor-row model, as plain values."""
+    if isinstance(item, Factor):
+        return dict(_stored_row(item))
+    return plain_factor_row(Factor.model_validate(item))
+
+
+@functools.lru_cache(maxsize=65536)
+def _stored_row(row: Factor) -> dict:
+    """Rows are frozen and shared by every result scored with one factor set: a portfolio of
+    thousands of results turns each distinct row into plain values once."""
+    return plain_factor_row(row)
 
 
 def to_record(result, kind: str = "score") -> LedgerRecord:

@@ -16,7 +16,16 @@ FROM_MEMORY_RULEBOOK = "* rulebook or threshold recorded from memory, not yet ch
 
 
 def _flagged_factors(ids: list[str]) -> str:
-    return f"Factors used that are flagged from memory (not checked against their document): {', '.join(ids) or 'none'}"
+    return f"Factors used that are not yet verified against the source document: {', '.join(ids) or 'none'}"
+
+
+def _shortened(text: str, limit: int) -> str:
+    """``text`` cut to ``limit`` characters, keeping its bracketed end (the source grade) whole."""
+    if len(text) <= limit:
+        return text
+    body, bracket, grade = text.rpartition(" [")
+    tail = bracket + grade if bracket else ""
+    return (body if bracket else text)[: max(0, limit - len(tail) - 3)] + "..." + tail
 
 
 def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozenset()) -> str:
@@ -104,7 +113,7 @@ def diff_rows(changes) -> list[dict]:
             "unit": (c.new or c.old).unit,
             "old_source": c.old.citation() if c.old else None,
             "new_source": c.new.citation() if c.new else None,
-            "from_memory": (c.new or c.old).from_memory,
+            "grade": (c.new or c.old).grade.words,
         }
         for c in changes
     ]
@@ -114,17 +123,17 @@ def diff_table(old_name: str, new_name: str, changes) -> str:
     rows = [
         [
             r["kind"],
-            ("* " if r["from_memory"] else "  ") + r["id"],
+            r["id"],
             "-" if r["old_value"] is None else f"{r['old_value']:g}",
             "-" if r["new_value"] is None else f"{r['new_value']:g}",
             r["unit"],
-            (r["new_source"] or r["old_source"])[:70],
+            _shortened(r["new_source"] or r["old_source"], 100),
         ]
         for r in diff_rows(changes)
     ]
     head = f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, {sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} removed\n"
-    body = _table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}) if rows else ""
-    return head + body + "* = value recorded from memory, not checked against the document\n" + f"Caution: {CAUTION}\n"
+    body = _table(["kind", "id", "old", "new", "unit", "source [source grade]"], rows, {"old", "new"}) if rows else ""
+    return head + body + f"Caution: {CAUTION}\n"
 
 
 # --- lifetime ------------------------------------------------------------------------------------
@@ -141,12 +150,13 @@ YEAR_MARKS = {"fails": " x", "undetermined": " ?", "not_eligible": " n/e"}
 
 
 def lifetime_csv(result) -> str:
-    """One row per operating year, then the two lifetime averages; the ``from_memory`` column lists
-    the factors of each year, and on the average rows the rulebooks, recorded from memory."""
+    """One row per operating year, then the two lifetime averages; the ``not_yet_verified`` column
+    lists the factors of each year not yet verified against the source document, and on the
+    average rows the rulebooks recorded from memory."""
     schemes = [s.scheme for s in result.schemes]
     series = bool(result.time_series)
     extra = ("series_year", "grid_profile_scale") + tuple(f"{s}_matched_share" for s in schemes) if series else ()
-    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + tuple(f"{s}_status" for s in schemes) + extra + ("from_memory",)
+    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + tuple(f"{s}_status" for s in schemes) + extra + ("not_yet_verified",)
 
     def series_cells(y) -> tuple:
         if not series:
@@ -242,7 +252,8 @@ def _why(changes: dict | None) -> list[str]:
 
 
 def flagged_factors(entry: dict) -> list[str]:
-    """Ids of a ledger record's factors that were recorded from memory."""
+    """Ids of a ledger record's factors not yet verified against the source document (``from_memory``,
+    derived from the grade in records written since grades exist)."""
     return [factor["id"] for factor in entry.get("factors_used", []) if factor.get("from_memory")]
 
 
@@ -272,7 +283,7 @@ def history_table(project_file: str, history: list[dict]) -> str:
             lines.append(f"    why: {reason}")
         flagged = flagged_factors(entry)
         if flagged:
-            lines.append(f"    factors from memory (not checked against their document): {', '.join(flagged)}")
+            lines.append(f"    factors not yet verified against the source document: {', '.join(flagged)}")
         lines.append("")
     lines.append(f"Caution: {CAUTION}")
     return "\n".join(lines) + "\n"

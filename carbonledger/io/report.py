@@ -32,7 +32,7 @@ from ..core.results import Check, ScoreResult
 from ..core.scoring import rulebooks
 from ..errors import InputError
 from .files import atomic_write
-from .labels import gas_name, stage_name, words
+from .labels import factor_grades_sentence, gas_name, stage_name, words
 from .tables import INTENSITY_UNITS, display_number
 
 PAPERS = ("a4", "letter")
@@ -555,15 +555,14 @@ def inputs_section(item: ProjectReport, key: str) -> str:
 def factors_section(item: ProjectReport, key: str) -> str:
     result = item.result
     rows = [
-        [f"<code>{text(f.id)}</code>", number(f.value), text(f.unit), text(f.source) + (f" <span class=src>{text(f.table)}</span>" if f.table else ""), text(f.year or ""), text(f.region), '<span class="flag">from memory</span>' if f.from_memory else "checked", text(f.note)]
+        [f"<code>{text(f.id)}</code>", number(f.value), text(f.unit), text(f.source) + (f" <span class=src>{text(f.table)}</span>" if f.table else ""), text(f.year or ""), text(f.region), f'<span class="flag">{text(f.grade.words)}</span>' if f.from_memory else text(f.grade.words), text(f.note)]
         for f in result.factors_used
     ]
-    remembered = sum(1 for f in result.factors_used if f.from_memory)
     return (
         f'<section class="sheet" id="{key}-factors" aria-labelledby="{key}-factors-h"><h2 id="{key}-factors-h">Factors and their sources</h2>'
         f"<p>Factor set <strong>{text(result.factor_set.name)}</strong>, sha256 <code class=hash>{text(result.factor_set.sha256)}</code>. "
-        f"{len(result.factors_used)} factors used, {remembered} of them recorded from memory (not yet checked against the document).</p>"
-        + _table(["Factor", "Value", "Unit", "Source", "Year", "Region", "Checked", "Note"], rows, "factors", {1})
+        f"{text(factor_grades_sentence(result.factor_grades, len(result.factors_used)))}</p>"
+        + _table(["Factor", "Value", "Unit", "Source", "Year", "Region", "Source grade", "Note"], rows, "factors", {1})
         + "</section>"
     )
 

@@ -6,8 +6,9 @@ import io
 
 from ..core.results import ScoreResult
 from .csv_text import csv_text
+from .labels import factor_grades_sentence
 
-SCORE_CSV_HEADER = ("section", "key", "value", "unit", "from_memory")
+SCORE_CSV_HEADER = ("section", "key", "value", "unit", "from_memory", "grade")
 
 INTENSITY_UNITS = {
     "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
@@ -29,13 +30,13 @@ def display_number(value: float | None) -> str:
     return f"{value:.4g}"
 
 
-def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str, object]]:
-    """(section, key, value, unit, from_memory) rows: the result in a shape any spreadsheet reads.
+def csv_rows(result: ScoreResult) -> list[tuple]:
+    """(section, key, value, unit, from_memory[, grade]) rows: the result in a shape any spreadsheet reads.
 
-    Every factor used is a ``factor`` row and every scheme check says whether its rulebook was
-    recorded from memory.
+    Every factor used is a ``factor`` row with its source grade (``from_memory`` true exactly when
+    it is "not yet verified"), and every scheme check says whether its rulebook was recorded from memory.
     """
-    rows: list[tuple[str, str, object, str, object]] = [
+    rows: list[tuple] = [
         ("project", "name", result.project, "", ""),
         ("project", "product", result.product, "", ""),
         ("project", "boundary", result.boundary, "", ""),
@@ -89,13 +90,14 @@ def csv_rows(result: ScoreResult) -> list[tuple[str, str, object, str, object]]:
                     (f"{section}:{month.month}", "electricity_g_co2e_per_kwh", month.electricity_g_co2e_per_kwh, "g CO2e/kWh", ""),
                     (f"{section}:{month.month}", "value", month.value, check.unit, ""),
                 ]
-    rows += [("factor", factor.id, factor.value, factor.unit, factor.from_memory) for factor in result.factors_used]
+    rows += [("factor", factor.id, factor.value, factor.unit, factor.from_memory, factor.grade.words) for factor in result.factors_used]
     return rows
 
 
 def score_csv(result: ScoreResult) -> str:
     """The long-format CSV of a result, ending in the caution row."""
-    return csv_text(SCORE_CSV_HEADER, csv_rows(result), caution=result.caution)
+    width = len(SCORE_CSV_HEADER)
+    return csv_text(SCORE_CSV_HEADER, [row + ("",) * (width - len(row)) for row in csv_rows(result)], caution=result.caution)
 
 
 def plain_console(width: int):
@@ -211,8 +213,6 @@ def render(result: ScoreResult) -> str:
             console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
         if any(check.from_memory for check in result.checks):
             console.print("* rulebook or threshold recorded from memory, not yet checked against the legal text")
-    flagged = [f.id for f in result.factors_used if f.from_memory]
-    if flagged:
-        console.print(f"{len(flagged)} of {len(result.factors_used)} factors used are flagged from memory (not checked against their document): {', '.join(flagged)}")
+    console.print(factor_grades_sentence(result.factor_grades, len(result.factors_used)), highlight=False, markup=False)
     console.print(f"Caution: {result.caution}")
     return console.export_text()

@@ -3,8 +3,9 @@
 A factor set is a folder ``factors/sets/NAME/`` holding ``set.toml`` (name, date, description,
 optionally ``base`` = the set it updates) and one or more CSV files (``factors.csv``, and e.g.
 ``grid-electricity.csv``) with the columns of ``FACTOR_COLUMNS``. Every ``*.csv`` of the folder is
-read, in sorted order; an id may appear in only one of them. Every row must name its source; a value not checked against its document
-carries ``from_memory = true``, which every output shows. A set with a ``base`` holds only
+read, in sorted order; an id may appear in only one of them. Every row must name its source and
+carries a ``grade`` (``model.grades``: primary text, verbatim secondary, secondary, not yet verified,
+invented), which every output shows; a value not checked against its document is "not yet verified". A set with a ``base`` holds only
 the rows it changes or adds; a partial override CSV (a user's own rows, each with a source)
 can be layered on top of any set with the same rules.
 
@@ -26,19 +27,26 @@ import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from pydantic import BaseModel, ConfigDict, Field, computed_field, model_serializer, model_validator
+
 from ..errors import InputError, did_you_mean, match_id
+from .grades import Grade, parse_grade
 from .pedigree import parse_scores
 
-FACTOR_COLUMNS = ("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory")
 UNCERTAINTY_COLUMNS = ("pedigree", "basic_gsd")  # optional: pedigree-matrix default uncertainty (model/pedigree.py)
 REQUIRED_COLUMNS = ("id", "value", "unit", "source")
 DEFAULT_SET = "default-2026"
-_TRUE = {"true", "yes", "1", "y"}
-_FALSE = {"false", "no", "0", "n", ""}
 
 
-@dataclass(frozen=True)
-class Factor:
+class Factor(BaseModel):
+    """One factor row: the one schema of a factor, read from a set's CSV files or a workbook,
+    cited in results (``ScoreResult.factors_used``), stored in the run ledger and listed in the
+    audit workbook. ``origin`` (the file the row was read from) is not part of its content: it is
+    left out of the JSON, the ledger and the set's sha256. The uncertainty columns appear only
+    when given."""
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
     id: str
     value: float
     unit: str
@@ -47,10 +55,36 @@ class Factor:
     year: int | None = None
     region: str = ""
     note: str = ""
-    from_memory: bool = False
-    origin: str = ""  # the file the row was read from
+    grade: Grade = Grade.NOT_YET_VERIFIED  # how sure the value is: the text it was read in (model.grades)
+    origin: str = Field("", exclude=True)  # the file the row was read from
     pedigree: tuple[int, ...] | None = None  # five data-quality scores 1..5, for a default lognormal (model/pedigree.py)
     basic_gsd: float | None = None  # basic uncertainty (geometric standard deviation) with the pedigree scores
+
+    @model_validator(mode="before")
+    @classmethod
+    def _grade_from_a_legacy_flag(cls, data):
+        """A row written before grades existed (``from_memory`` true or false) gets its grade; a
+        ``from_memory`` beside a grade (as the JSON and the ledger give it) must agree with it."""
+        if isinstance(data, dict) and "from_memory" in data:
+            data = dict(data)
+            flag = data.pop("from_memory")
+            grade = data.get("grade")
+            data["grade"] = parse_grade(None if grade is None else str(grade), str(flag).lower() if flag is not None else "", str(data.get("id", "factor row")))
+        return data
+
+    @computed_field
+    @property
+    def from_memory(self) -> bool:
+        """Kept for files and programs written before grades: true exactly when the grade is "not yet verified"."""
+        return self.grade is Grade.NOT_YET_VERIFIED
+
+    @model_serializer(mode="wrap")
+    def _without_empty_uncertainty(self, handler):
+        data = handler(self)
+        for key in UNCERTAINTY_COLUMNS:
+            if data.get(key, 0) is None:
+                del data[key]
+        return data
 
     def citation(self) -> str:
         parts = [self.source]
@@ -58,11 +92,12 @@ class Factor:
             parts.append(self.table)
         if self.year:
             parts.append(str(self.year))
-        text = ", ".join(parts)
-        return text + (" [from memory, not checked against the document]" if self.from_memory else "")
+        return ", ".join(parts) + f" [{self.grade.words}]"
 
 
-HASHED_FIELDS = tuple(name for name in Factor.__dataclass_fields__ if name != "origin")
+CITED_FIELDS = tuple(name for name in Factor.model_fields if name not in ("origin",) + UNCERTAINTY_COLUMNS)
+LEGACY_COLUMNS = ("from_memory",)  # read from files written before grades existed (model.grades.parse_grade)
+FACTOR_COLUMNS = CITED_FIELDS  # the columns of a factor CSV (and UNCERTAINTY_COLUMNS, optional)
 
 
 @dataclass
@@ -75,9 +110,7 @@ class FactorSet:
 
     @functools.cached_property
     def sha256(self) -> str:
-        # the fields of a row are plain values: read them directly (dataclasses.asdict deep-copies
-        # each one and took most of the time of scoring with a set built in code)
-        rows = [factor_row(factor) for _, factor in sorted(self.factors.items())]
+        rows = [_content(factor) for _, factor in sorted(self.factors.items())]
         payload = json.dumps(rows, sort_keys=True, separators=(",", ":"), ensure_ascii=False)
         return hashlib.sha256(payload.encode("utf-8")).hexdigest()
 
@@ -161,15 +194,6 @@ def check_factor_value(factor_id: str, value: float, unit: str, where: str) -> N
         raise InputError(where, "value", f"a value {bounds} for '{factor_id}' ({what}, {unit}), got {value:g}")
 
 
-def _parse_bool(text: str, where: str) -> bool:
-    lowered = text.strip().lower()
-    if lowered in _TRUE:
-        return True
-    if lowered in _FALSE:
-        return False
-    raise InputError(where, "from_memory", f"true or false, got '{text}'")
-
-
 def read_csv_text(path: str | Path, what: str) -> str:
     """The text of a CSV file saved as UTF-8 (a byte-order mark, as spreadsheet programs write
     it, is dropped); a file in another encoding is one InputError naming the file."""
@@ -196,7 +220,7 @@ def read_factor_rows(path: Path) -> list[Factor]:
     missing = [column for column in REQUIRED_COLUMNS if column not in header]
     if missing:
         raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
-    unknown = [column for column in header if column not in FACTOR_COLUMNS + UNCERTAINTY_COLUMNS]
+    unknown = [column for column in header if column not in FACTOR_COLUMNS + UNCERTAINTY_COLUMNS + LEGACY_COLUMNS]
     if unknown:
         raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS + UNCERTAINTY_COLUMNS)}; unknown {', '.join(unknown)}")
     rows: list[Factor] = []
@@ -235,7 +259,7 @@ def read_factor_rows(path: Path) -> list[Factor]:
                 year=year,
                 region=(row.get("region") or "").strip(),
                 note=(row.get("note") or "").strip(),
-                from_memory=_parse_bool(row.get("from_memory") or "", where),
+                grade=parse_grade(row.get("grade"), row.get("from_memory"), where),
                 origin=str(path),
                 **_uncertainty_columns(row, factor_id, where),
             )
@@ -371,9 +395,16 @@ class FactorChange:
 
 
 def factor_row(factor: Factor) -> dict:
-    """A row's content (not the file it came from); the uncertainty columns only when given, so a
-    set without them keeps the hash it had before they existed."""
-    return {key: value for key in HASHED_FIELDS if not ((value := getattr(factor, key)) is None and key in UNCERTAINTY_COLUMNS)}
+    """A row as plain values, as results and the ledger cite it (not the file it came from); the
+    uncertainty columns only when given."""
+    return factor.model_dump(mode="json")
+
+
+def _content(factor: Factor) -> dict:
+    """What a row states (its fields without the derived ``from_memory``): what the set's sha256
+    covers and what ``diff_sets`` compares. The uncertainty columns only when given, so a set
+    without them keeps the hash it had before they existed."""
+    return factor.model_dump(mode="json", exclude={"from_memory"})
 
 
 def diff_sets(old: FactorSet, new: FactorSet) -> list[FactorChange]:
@@ -385,7 +416,7 @@ def diff_sets(old: FactorSet, new: FactorSet) -> list[FactorChange]:
             changes.append(FactorChange(factor_id, "added", None, after))
         elif after is None:
             changes.append(FactorChange(factor_id, "removed", before, None))
-        elif factor_row(before) != factor_row(after):
+        elif _content(before) != _content(after):
             changes.append(FactorChange(factor_id, "changed", before, after))
     return changes
 

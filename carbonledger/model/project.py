@@ -18,7 +18,7 @@ import tomllib
 import types
 import typing
 from pathlib import Path
-from typing import Annotated, Any, Literal
+from typing import Annotated, Any, Literal, Optional
 
 import pycountry
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
@@ -99,6 +99,8 @@ class ProjectInfo(Section):
     country: str = P("", description="ISO 3166-1 alpha-2 code of the country or territory where the plant produces (US, GB, PR, ...; 45V asks for production in the United States)")
     construction_start: IsoDate = P("", "date", "Date construction of the plant began (YYYY-MM-DD)")
     commissioning: IsoDate = P("", "date", "Date the plant came into operation, or was originally placed in service (YYYY-MM-DD)")
+    declared_e_td_g_co2e_per_mj: Optional[float] = P(None, "g CO2e/MJ", "For a producer who sells at the gate: the buyers' transport and distribution emissions (e_td of the EU formula) declared, when the project models no delivery", ge=0, le=1000)
+    declared_e_td_evidence: str = P("", description="Where the declared e_td comes from (buyers' statements, contracts, a delivery study)")
 
     @field_validator("country")
     @classmethod

@@ -13,17 +13,21 @@ Library (ChEDL), https://github.com/CalebBell/chemicals (atomic weights per IUPA
 from __future__ import annotations
 
 import functools
-from dataclasses import dataclass
 
 from . import reference_table as stored
+from .factors import Factor
+from .grades import Grade
 
 
-@dataclass(frozen=True)
-class ReferenceValue:
-    id: str
-    value: float
-    unit: str
-    source: str
+class ReferenceValue(Factor):
+    """A physical reference value taken from a library (chemicals, CoolProp), cited like a factor row.
+
+    Graded "verbatim secondary" when the library ships the published table it is read from (IUPAC
+    atomic weights, the CRC Handbook, the Active Thermochemical Tables), "secondary" when the library
+    computes it (CoolProp's equation of state, heat-capacity correlations carried to a temperature).
+    """
+
+    grade: Grade = Grade.VERBATIM_SECONDARY
 
 
 @functools.cache
@@ -43,6 +47,7 @@ def _chemicals_version() -> str:
     return stored.CHEMICALS_VERSION
 
 
+@functools.cache
 def molar_mass(formula: str) -> ReferenceValue:
     return ReferenceValue(
         id=f"reference.molar_mass.{formula.lower()}",
@@ -75,6 +80,7 @@ def live_ammonia_vaporisation() -> tuple[float, float]:
     return float(row["Tb"]), float(row["HvapTb"])
 
 
+@functools.cache
 def ammonia_latent_heat() -> ReferenceValue:
     """Latent heat of vaporisation of ammonia at its normal boiling point (1 atm, refrigerated cargo), kJ/kg.
 
@@ -104,6 +110,7 @@ def _ammonia_formation_enthalpy_j_per_mol() -> float:
     return stored.GAS_FORMATION_ENTHALPY_J_PER_MOL["ammonia"]  # chemicals.reaction.Hfg(_AMMONIA_CAS)
 
 
+@functools.cache
 def ammonia_formation_enthalpy() -> ReferenceValue:
     """Standard enthalpy of formation of gaseous ammonia at 298.15 K, kJ/mol (negative)."""
     return ReferenceValue(
@@ -140,6 +147,7 @@ def _hydrogen_states() -> dict[str, float]:
     }
 
 
+@functools.cache
 def hydrogen_latent_heat() -> ReferenceValue:
     """Latent heat of vaporisation of hydrogen at 1 atm (liquid hydrogen cargo), kJ/kg."""
     states = _hydrogen_states()
@@ -148,6 +156,7 @@ def hydrogen_latent_heat() -> ReferenceValue:
         value=(states["h_vapour"] - states["h_liquid"]) / 1000.0,
         unit="kJ/kg",
         source=f"CoolProp {_coolprop_version()} (PropsSI, saturated normal hydrogen at 101325 Pa: h_vapour - h_liquid)",
+        grade=Grade.SECONDARY,
     )
 
 
@@ -170,6 +179,7 @@ def _co2_formation_enthalpy_j_per_mol() -> float:
     return stored.GAS_FORMATION_ENTHALPY_J_PER_MOL["co2"]  # chemicals.reaction.Hfg(_CO2_CAS)
 
 
+@functools.cache
 def co2_formation_enthalpy() -> ReferenceValue:
     """Standard enthalpy of formation of CO2(g) at 298.15 K, kJ/mol (negative): the heat of combustion of graphite."""
     return ReferenceValue(
@@ -223,6 +233,7 @@ def live_liquid_water_splitting_gibbs_j_per_mol() -> float:
     return float(-Hfl(_WATER) - t * (S0g(_HYDROGEN) + 0.5 * S0g(_OXYGEN) - S0l(_WATER)))
 
 
+@functools.cache
 def water_splitting_gibbs(temperature_k: float, steam: bool) -> ReferenceValue:
     where = f"steam at {temperature_k:g} K" if steam else "liquid water at 298.15 K"
     return ReferenceValue(
@@ -230,4 +241,5 @@ def water_splitting_gibbs(temperature_k: float, steam: bool) -> ReferenceValue:
         value=water_splitting_gibbs_j_per_mol(temperature_k, steam) / 1000.0,
         unit="kJ/mol H2",
         source=f"chemicals {_chemicals_version()} (reaction.Hfg/Hfl/S0g/S0l at 298.15 K; heat_capacity TRC ideal-gas correlations), {where}",
+        grade=Grade.SECONDARY,
     )

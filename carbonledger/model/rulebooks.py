@@ -34,10 +34,10 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from ..errors import InputError, did_you_mean, match_id
 from .factors import factors_root
+from .grades import Grade
 
 QUANTITIES = ("kg_co2e_per_kg_h2", "g_co2e_per_mj", "kg_co2e_per_t_nh3", "kg_co2e_per_kg_nh3")
-GRADES = ("primary text", "verbatim secondary", "secondary", "not yet verified")
-UNVERIFIED = "not yet verified"
+UNVERIFIED = Grade.NOT_YET_VERIFIED
 LIMIT_RTOL = 1e-9  # a value this close to a limit (relative) is at the limit: a published limit is not a float
 
 
@@ -45,7 +45,7 @@ class Graded(BaseModel):
     """A rule with its source and the grade of that source."""
 
     model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
-    grade: Literal[GRADES] = UNVERIFIED
+    grade: Grade = UNVERIFIED  # the grades of model.grades, shared with factor rows
 
     @property
     def from_memory(self) -> bool:
@@ -53,8 +53,8 @@ class Graded(BaseModel):
 
 
 def grade_note(source: str, grade: str) -> str:
-    """A source as reasons cite it: the grade is named unless it is the primary text."""
-    return source if grade == "primary text" else f"{source}; {grade}"
+    """A source as reasons cite it: the grade is named (in users' words) unless it is the primary text."""
+    return source if grade == Grade.PRIMARY_TEXT else f"{source}; {Grade(grade).words}"
 
 
 def at_or_under(value, limit: float, inclusive: bool):

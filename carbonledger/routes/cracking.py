@@ -54,12 +54,17 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     burn_ammonia(plant, ammonia_burnt_kg, c["burner_n2o_g_per_kg_ammonia"], 0.0, "cracker burner")
     if c["heat_source"] == "natural_gas":
         burn_natural_gas(plant, inputs, gas_gj, "cracker heat")
-    if c["electricity_factor"]:
+    activities = [plant]
+    if c["electricity_factor"]:  # the destination's electricity, for the cracker and the hydrogen legs after it
         flow, kg_per_kwh = electricity_flow(inputs, c["electricity_factor"], "cracking.electricity_factor")
-        plant.emit(flow, c["electricity_kwh_per_kg_h2"] * kg_per_kwh, "electricity, cracker")
+        destination = Activity("electricity_at_destination", "cracking", f"electricity {chain.place}", "kWh")
+        destination.emit(flow, kg_per_kwh, "generation of the destination's electricity")
+        plant.consume(destination.key, c["electricity_kwh_per_kg_h2"], "electricity, cracker", "kWh")
+        chain.electricity = destination.key
+        activities.append(destination)
     chain.reference, chain.product = plant.key, "hydrogen"
     chain.figures["cracking"] = figures
-    return [plant]
+    return activities
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
@@ -93,6 +98,10 @@ def validate(project) -> None:
         raise SectionError("cracking", "no [cracking] section for product 'hydrogen' (delivery is modelled for ammonia)")
     if crack.electricity_kwh_per_kg_h2 > 0 and not crack.electricity_factor:
         raise SectionError("cracking.electricity_factor", "a factor id for the cracker's electricity")
+    after = [f"{name}.{field}" for name, field in (("hydrogen_pipeline", "compression_kwh_per_kg_h2"), ("hydrogen_truck", "compression_kwh_per_kg_h2"), ("liquid_hydrogen", "liquefaction_kwh_per_kg_h2"))
+             if getattr(project, name, None) is not None and getattr(getattr(project, name), field) > 0]
+    if after and not crack.electricity_factor:
+        raise SectionError("cracking.electricity_factor", f"a factor id for the electricity at the destination, which {', '.join(after)} after the cracker use")
 
 
 def uses_natural_gas(project) -> bool:

@@ -1,7 +1,7 @@
 """Delivery leg: hydrogen compressed into a pipeline and carried to the destination.
 
 Builds ``hydrogen_piped`` (stage ``hydrogen_pipeline``, per kg H2 delivered): hydrogen taken in
-(leaks included), compressor electricity from the project's mix, hydrogen leaked (reported as
+(leaks included), compressor electricity where the hydrogen is (the project's mix, or the destination's after cracking), hydrogen leaked (reported as
 hydrogen leakage, never in a scheme value).
 """
 
@@ -29,7 +29,7 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     lost = loss_share(leg)
     pipe = Activity("hydrogen_piped", "hydrogen_pipeline", f"hydrogen, piped to {leg['destination']}", "kg H2")
     pipe.consume(chain.reference, hydrogen_delivery.intake_per_unit_delivered(lost), "hydrogen fed into the pipeline (leaks included)", "kg H2")
-    pipe.consume("electricity_mix", leg["compression_kwh_per_kg_h2"], "electricity, compression", "kWh")
+    pipe.consume(chain.electricity, leg["compression_kwh_per_kg_h2"], "electricity, compression", "kWh")
     pipe.emit("h2", hydrogen_delivery.lost_per_unit_delivered(lost), "hydrogen leaked from the pipeline")
     chain.reference, chain.place = pipe.key, f"at {leg['destination']}"
     chain.figures["hydrogen_pipeline"] = {"loss_share": lost, "length_km": leg["length_km"]}

@@ -1,7 +1,7 @@
 """Delivery leg: compressed hydrogen carried by road in tube trailers.
 
 Builds ``hydrogen_trucked`` (stage ``hydrogen_trucking``, per kg H2 delivered): hydrogen loaded
-(losses included), compression electricity to the trailer's pressure from the project's mix,
+(losses included), compression electricity to the trailer's pressure where the hydrogen is (the project's mix, or the destination's after cracking),
 truck fuel for the laden trip and the return trip with its well-to-tank supply, hydrogen vented
 or leaked (reported as hydrogen leakage, in no scheme value).
 """
@@ -30,7 +30,7 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     leg = params["hydrogen_truck"]
     truck = Activity("hydrogen_trucked", "hydrogen_trucking", f"hydrogen, trucked to {leg['destination']}", "kg H2")
     truck.consume(chain.reference, hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"]), "hydrogen loaded (losses included)", "kg H2")
-    truck.consume("electricity_mix", leg["compression_kwh_per_kg_h2"], "electricity, compression into the trailer", "kWh")
+    truck.consume(chain.electricity, leg["compression_kwh_per_kg_h2"], "electricity, compression into the trailer", "kWh")
     fuel_kg = hydrogen_delivery.truck_fuel_kg_per_kg_h2(leg["distance_km"], leg["fuel_kg_per_km"], leg["return_fuel_ratio"], leg["payload_kg_h2"])
     burn_road_fuel(truck, "hydrogen_trucking", leg["fuel"], road_fuel_factors(inputs, leg["fuel"], "hydrogen_truck.fuel"), fuel_kg, "truck, laden and return trips", chain.extra)
     truck.emit("h2", hydrogen_delivery.lost_per_unit_delivered(leg["loss_share"]), "hydrogen vented or leaked from the trailer")

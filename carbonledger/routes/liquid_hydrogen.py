@@ -1,6 +1,6 @@
 """Delivery leg: hydrogen liquefied and carried as a liquid by ship or truck.
 
-Builds ``hydrogen_liquefied`` (stage ``liquefaction``: electricity from the project's mix) and
+Builds ``hydrogen_liquefied`` (stage ``liquefaction``: electricity where the hydrogen is, the project's mix or the destination's after cracking) and
 ``liquid_hydrogen_delivered`` (stage ``liquid_hydrogen_carriage``, per kg H2 delivered): cargo
 loaded (boil-off included), the carrier's fuel with its well-to-tank supply, boil-off vented
 (reported as hydrogen leakage, in no scheme value). Boil-off is the heat leaking into the tank
@@ -41,7 +41,7 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     leg = params["liquid_hydrogen"]
     liquefier = Activity("hydrogen_liquefied", "liquefaction", "hydrogen, liquefied", "kg H2")
     liquefier.consume(chain.reference, 1.0, "hydrogen gas liquefied", "kg H2")
-    liquefier.consume("electricity_mix", leg["liquefaction_kwh_per_kg_h2"], "electricity, liquefaction", "kWh")
+    liquefier.consume(chain.electricity, leg["liquefaction_kwh_per_kg_h2"], "electricity, liquefaction", "kWh")
     lost = boil_off(leg, inputs)
     carriage = Activity("liquid_hydrogen_delivered", "liquid_hydrogen_carriage", f"liquid hydrogen, carried by {leg['carrier']} to {leg['destination']}", "kg H2")
     carriage.consume(liquefier.key, hydrogen_delivery.intake_per_unit_delivered(lost), "liquid hydrogen loaded (boil-off included)", "kg H2")

@@ -47,7 +47,9 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     gas_gj = p["natural_gas_gj_per_kg_h2"]
     plant = Activity("hydrogen_production", "hydrogen_production", "hydrogen, methane pyrolysis", "kg H2")
     plant.consume("natural_gas_supply", gas_gj * share, "natural gas, feed and fuel", "GJ")
-    plant.consume("electricity_mix", (p["electricity_kwh_per_kg_h2"] + params["hydrogen"]["conditioning_kwh_per_kg_h2"]) * share, "electricity, reactor, plant and conditioning", "kWh")
+    # the reactor's electricity is shared with the carbon; conditioning (purifying and compressing the hydrogen
+    # after the split) is the hydrogen's own, as for chlor-alkali by-product hydrogen
+    plant.consume("electricity_mix", p["electricity_kwh_per_kg_h2"] * share + params["hydrogen"]["conditioning_kwh_per_kg_h2"], "electricity, reactor and plant (hydrogen's share) and conditioning", "kWh")
     direct = pyrolysis.direct_co2_kg_per_kg_h2(gas_gj * combustion_kg_per_gj(inputs, "co2"), p["carbon_kg_per_kg_h2"], inputs.molar_mass("CO2"), inputs.molar_mass("C"))
     plant.emit("co2_fossil", direct * share, "CO2 from the gas carbon not kept as solid carbon")
     plant.emit("ch4_fossil", gas_gj * combustion_kg_per_gj(inputs, "ch4") * share, "CH4 from burning gas and off-gas")

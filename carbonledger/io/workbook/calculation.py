@@ -39,6 +39,7 @@ class SymbolicModel:
     ammonia_lhv: Any
     hydrogen_fraction: Any
     counted_zero: dict = field(default_factory=dict)  # scheme id -> electricity activities its rules count at zero (from the engine's checks)
+    declared_e_td: Any = None  # the Inputs cell of project.declared_e_td_g_co2e_per_mj (None: not declared)
     charged_as_grid: dict = field(default_factory=dict)  # scheme id -> {failing electricity activity: grid activity whose intensity it is charged}
 
 

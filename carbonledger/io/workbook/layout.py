@@ -11,6 +11,7 @@ import re
 from typing import Any
 
 from ...errors import InputError
+from ...model.factors import CITED_FIELDS
 from ...model.project import split_path
 from .cells import Term, resolve
 
@@ -19,7 +20,9 @@ MATCHING, INTERVALS = "Matching", "Intervals"  # with an electricity time series
 INPUT_HEADER_ROW = 4
 FACTOR_HEADER_ROW = 4
 INPUT_COLUMNS = ("parameter", "value", "unit", "description", "evidence (meter, invoice, design document)")
-FACTOR_COLUMNS = ("id", "value", "unit", "source", "table or article", "year", "region", "note", "from memory")
+FACTOR_TITLES = {"table": "table or article", "grade": "source grade"}  # column titles of the Factors sheet, by field
+LEGACY_GRADE_TITLE = "from memory"  # the grade column's title (yes/no) in workbooks written before grades
+FACTOR_COLUMNS = tuple(FACTOR_TITLES.get(name, name) for name in CITED_FIELDS)  # the fields of model.factors.Factor
 FORMAT_MARK = "carbonledger audit workbook, layout 1"
 COVER_LABELS = {
     "gwp": "GWP100 set of the headline result",

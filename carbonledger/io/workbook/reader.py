@@ -22,7 +22,8 @@ from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ...model.factors import DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
+from ...model.factors import CITED_FIELDS, DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
+from ...model.grades import Grade, parse_grade
 from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
@@ -35,6 +36,7 @@ from .layout import (
     INPUT_COLUMNS,
     INPUT_HEADER_ROW,
     INPUTS,
+    LEGACY_GRADE_TITLE,
     is_number,
     text_from_cell,
 )
@@ -203,6 +205,24 @@ def load_project_from_workbook(path: str | Path, overrides: list[str] | None = N
     return project, hashlib.sha256(path.read_bytes()).hexdigest(), settings
 
 
+def _column_letter(column: int) -> str:
+    from openpyxl.utils import get_column_letter
+
+    return get_column_letter(column)
+
+
+def _edited_grade(record: dict, known, where: str, legacy: bool) -> Grade:
+    """The grade of a row whose value or unit was edited in the workbook: the grade typed in its
+    cell when it differs from the set's (the editor regraded it), else "not yet verified" (the
+    set's grade belongs to the set's value). ``legacy``: a workbook written before grades, whose
+    column holds yes/no ("from memory")."""
+    cell = str(record["grade"] or "")
+    grade = parse_grade(None, cell, where) if legacy else parse_grade(cell, None, where)
+    if known is not None and grade is known.grade:
+        return Grade.NOT_YET_VERIFIED
+    return grade
+
+
 def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
     ws = _sheet(workbook, FACTORS, path)
     _check_header(ws, FACTOR_HEADER_ROW, FACTOR_COLUMNS, path)
@@ -212,7 +232,7 @@ def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
         value = _cell_value(ws, f"B{row}", cached, path, factor_id)
         if not is_number(value):
             raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
-        record = {name: text_from_cell(ws.cell(row=row, column=column).value) for column, name in enumerate(("id", "value", "unit", "source", "table", "year", "region", "note", "from_memory"), start=1)}
+        record = {name: text_from_cell(ws.cell(row=row, column=column).value) for column, name in enumerate(CITED_FIELDS, start=1)}
         record["id"], record["value"] = factor_id, float(value)
         rows.append((record, f"B{row}"))
     return rows
@@ -226,6 +246,8 @@ def factor_set_from_workbook(path: str | Path, base):
     """
     path = Path(path)
     workbook = _open(path)
+    grade_column = CITED_FIELDS.index("grade") + 1
+    legacy = _sheet(workbook, FACTORS, path).cell(row=FACTOR_HEADER_ROW, column=grade_column).value == LEGACY_GRADE_TITLE
     changed: dict[str, Factor] = {}
     for record, cell in read_factor_rows(workbook, path):
         factor_id = record["id"]
@@ -250,7 +272,7 @@ def factor_set_from_workbook(path: str | Path, base):
             year=int(year) if is_number(year) else None,
             region=str(record["region"] or ""),
             note=(str(record["note"] or "") + f" [value edited in workbook {path.name}, sheet {FACTORS}, cell {cell}]").strip(),
-            from_memory=str(record["from_memory"] or "").strip().lower() in ("yes", "true"),
+            grade=_edited_grade(record, known, f"{path}: sheet {FACTORS}, cell {_column_letter(grade_column)}{cell[1:]}", legacy),
             origin=f"{path}: sheet {FACTORS}",
         )
     if not changed:

@@ -40,9 +40,9 @@ from typing import Any
 
 from ...about import CAUTION, __version__
 from ...core.results import ScoreResult
-from ...core.scoring import FUNCTIONAL_UNITS, intensities, rulebooks
+from ...core.scoring import FUNCTIONAL_UNITS, declared_addition, intensities, rulebooks
+from ...model.factors import CITED_FIELDS
 from ...model.project import parameter_table
-from ...model.reference import ReferenceValue
 from ...routes.base import FLOWS
 from ..files import atomic_write
 from ..labels import INTENSITY_LABELS, stage_name
@@ -170,6 +170,7 @@ def build_workbook(
     model = symbolic_model(symbolic, factor_set, gwp, [s.gwp for s in chosen])
     model.counted_zero = {check.scheme: set(check.electricity_counted_zero) for check in result.checks}
     model.charged_as_grid = {check.scheme: dict(check.electricity_charged_as_grid) for check in result.checks}
+    model.declared_e_td = symbolic["project"].get("declared_e_td_g_co2e_per_mj")
     check_acyclic(model.inventory, source)
     period_plan = None
     if meters is not None:
@@ -270,8 +271,23 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], e
     ws.freeze_panes = ws.cell(row=INPUT_HEADER_ROW + 1, column=1)
 
 
+def _put_factor_field(ws, row: int, column: int, name: str, item) -> None:
+    """One field of a factor row (``model.factors.Factor``) in its cell of the Factors sheet."""
+    value = getattr(item, name)
+    if name == "value":
+        put_value(ws, row, column, float(value))
+        style_cell(ws.cell(row=row, column=column), "factor", number_format(float(value)))
+    elif name == "year":
+        put_value(ws, row, column, value)
+        ws.cell(row=row, column=column).number_format = YEAR
+    elif name == "grade":
+        put_text(ws, row, column, value.words)
+    else:
+        put_text(ws, row, column, value, f"factor {item.id}: {name}")
+
+
 def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
-    put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source. 'from memory' = not yet checked against the document.")
+    put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source and source grade (primary text, verbatim secondary, secondary, not yet verified against the source document, invented).")
     put_text(ws, 2, 1, "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; molar masses (reference.*) come from the chemicals library and are not.")
     for column, title in enumerate(FACTOR_COLUMNS, start=1):
         put_text(ws, FACTOR_HEADER_ROW, column, title)
@@ -282,23 +298,10 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
         item = used[key]
         row += 1
         address[key] = _name_cell(ws.parent, "f_", key, FACTORS, row).text
-        put_text(ws, row, 1, key)
-        put_value(ws, row, 2, float(item.value))
-        style_cell(ws.cell(row=row, column=2), "factor", number_format(float(item.value)))
-        put_text(ws, row, 3, item.unit)
-        put_text(ws, row, 4, item.source, f"factor {key}: source")
-        if isinstance(item, ReferenceValue):
-            put_text(ws, row, 5, "chemicals.elements.molecular_weight")
-            put_text(ws, row, 9, "no")
-            continue
-        put_text(ws, row, 5, item.table)
-        put_value(ws, row, 6, item.year)
-        ws.cell(row=row, column=6).number_format = YEAR
-        put_text(ws, row, 7, item.region)
-        put_text(ws, row, 8, item.note, f"factor {key}: note")
-        put_text(ws, row, 9, "yes" if item.from_memory else "no")
-    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 46, "E": 22, "F": 7, "G": 10, "H": 46, "I": 9})
-    wrap_columns(ws, "ADEH", FACTOR_HEADER_ROW + 1)
+        for column, name in enumerate(CITED_FIELDS, start=1):
+            _put_factor_field(ws, row, column, name, item)
+    set_widths(ws, {"A": 40, "B": 12, "C": 16, "D": 46, "E": 22, "F": 7, "G": 10, "H": 46, "I": 22})
+    wrap_columns(ws, "ADEHI", FACTOR_HEADER_ROW + 1)
     ws.freeze_panes = ws.cell(row=FACTOR_HEADER_ROW + 1, column=1)
     return address
 
@@ -406,6 +409,8 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         scheme_total = Term(f"SUM({block.sheet}!${column}${rows[0]}:${column}${rows[-1]})") if rows else Term("0")
         basis_product = basis_product_of(scheme, inventory)
         value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
+        if declared_addition(scheme, inventory, engine.parameters):  # a producer's declared e_td (g CO2e/MJ), an input cell
+            value = value + Term.of(model.declared_e_td)
         loosest_row = max(threshold_rows[scheme.id], key=lambda item: item[1].limit)[0]
         for number, text in enumerate(
             (scheme.id, scheme.name, scheme.basis, scheme.gwp, scheme.electricity, ", ".join(scheme.excluded_stages) or "none", scheme.quantity, scheme.unit),
