@@ -149,7 +149,7 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
                 lines.append(f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: {matching or 'none stated'}")
             if s.boundary_terms:
                 lines.append(f"    formula terms: {', '.join(t.term for t in s.boundary_terms)}")
-        return "\n".join(lines + ["* recorded from memory, not yet checked against the legal text", f"Caution: {CAUTION}"])
+        return "\n".join(lines + ["* not yet verified against the source document", f"Caution: {CAUTION}"])
 
     def csv() -> str:
         header = ("scheme", "name", "tier", "limit", "inclusive", "unit", "quantity", "basis", "gwp", "electricity", "from_memory", "source")

@@ -116,7 +116,7 @@ def render_comparison(result: ComparisonResult) -> str:
         console.print("Uncertainty rows: percentiles of a Monte Carlo of each project's own distributions (same seed); probabilities hold only for those distributions.")
     flagged = result.from_memory
     if flagged["rulebooks"]:
-        console.print(f"Rulebooks or thresholds recorded from memory, not yet checked against the legal text: {', '.join(flagged['rulebooks'])}")
+        console.print(f"Rulebooks or thresholds not yet verified against the source document: {', '.join(flagged['rulebooks'])}")
     if flagged["factors"]:
         console.print(f"Factors used that are not yet verified against the source document: {', '.join(flagged['factors'])}")
     console.print(f"Caution: {result.caution}")

@@ -12,7 +12,7 @@ from ..core.results import strict_json
 from .csv_text import csv_text
 from .tables import display_number
 
-FROM_MEMORY_RULEBOOK = "* rulebook or threshold recorded from memory, not yet checked against the legal text"
+FROM_MEMORY_RULEBOOK = "* rulebook or threshold not yet verified against the source document"
 
 
 def _flagged_factors(ids: list[str]) -> str:

@@ -212,7 +212,7 @@ def render(result: ScoreResult) -> str:
         if result.boundary != "cradle-to-gate":
             console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
         if any(check.from_memory for check in result.checks):
-            console.print("* rulebook or threshold recorded from memory, not yet checked against the legal text")
+            console.print("* rulebook or threshold not yet verified against the source document")
     console.print(factor_grades_sentence(result.factor_grades, len(result.factors_used)), highlight=False, markup=False)
     console.print(f"Caution: {result.caution}")
     return console.export_text()

@@ -143,7 +143,7 @@ def uncertainty_table(result: UncertaintyResult) -> str:
             )
         console.print(checks)
         if any(check.from_memory for check in result.checks):
-            console.print("* rulebook or threshold recorded from memory, not yet checked against the legal text")
+            console.print("* rulebook or threshold not yet verified against the source document")
     console.print(f"Caution: {result.caution} Probabilities hold only for the distributions given; they are not a verifier's finding.")
     return console.export_text()
 
