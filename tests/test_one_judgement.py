@@ -104,3 +104,16 @@ def test_monte_carlo_draws_take_the_status_of_the_rules():
     if result is not None:
         check = result.checks[0]
         assert check.probability_qualifies == 0.0 and check.statuses["undetermined"].probability > 0
+
+
+def test_history_names_the_assessment_year_when_a_verdict_flips_with_it():
+    # 45V(a)(1): the credit runs 10 years from the date placed in service (2027-01-01 for the blue SMR demo, with
+    # the country declared): 2029 is inside the period, 2038 after it. Nothing else changes between the two runs.
+    from helpers import run_cli
+
+    path = ROOT / "demo_projects" / "blue_smr_hydrogen.toml"
+    for year in ("2029", "2038"):
+        assert run_cli("score", path, "--year", year, "--set", "project.country=US", "--scheme", "us-45v").exit_code == 0
+    text = run_cli("history", path).stdout
+    assert "assessment year 2029" in text and "assessment year 2038" in text
+    assert "why: assessment year 2029 -> 2038" in text and "not eligible" in text

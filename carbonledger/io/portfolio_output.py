@@ -230,10 +230,10 @@ def lifetime_table(result) -> str:
 # --- history -------------------------------------------------------------------------------------
 
 
-def _why(changes: dict | None) -> list[str]:
+def _why(changes: dict | None, year_change: str = "") -> list[str]:
     if changes is None:
         return ["first record"]
-    why = []
+    why = [year_change] if year_change else []
     if changes["project_file"]:
         why.append("project file edited")
     if changes["factor_set"]:
@@ -262,12 +262,14 @@ def history_table(project_file: str, history: list[dict]) -> str:
         return f"no runs of {project_file} in the ledger\nCaution: {CAUTION}\n"
     lines = [f"history of {history[-1]['project']} ({project_file}): {len(history)} records", ""]
     previous_checks: dict[str, float] = {}
+    previous_year = None
     for entry in history:
+        results = entry["results"]
+        year = results.get("assessment_year")  # recorded since the assessment year exists (absent in older records)
         lines.append(
             f"#{entry['record']}  {entry['time']}  {entry['command']}  [{entry['kind']}]  factors {entry['factor_set']} ({entry['factor_set_sha256'][:8]})"
-            f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}"
+            f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}" + (f"  assessment year {year}" if year is not None else "")
         )
-        results = entry["results"]
         if "headline" in results:  # an analysis run (uncertainty, sensitivity, headroom): its own one-line summary
             lines.append(f"    {results['headline']}")
             lines.append("")
@@ -279,8 +281,10 @@ def history_table(project_file: str, history: list[dict]) -> str:
             delta = "" if old is None else f"  ({change:+.4g})"
             lines.append(f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} {check.get('status', 'qualifies' if check.get('passes') else 'fails').replace('_', ' ')}{delta}")
             previous_checks[check["scheme"]] = check["value"]
-        for reason in _why(entry["changes"]):
+        year_change = f"assessment year {previous_year} -> {year} (the rules in force that year)" if previous_year is not None and year is not None and year != previous_year else ""
+        for reason in _why(entry["changes"], year_change):
             lines.append(f"    why: {reason}")
+        previous_year = year if year is not None else previous_year
         flagged = flagged_factors(entry)
         if flagged:
             lines.append(f"    factors not yet verified against the source document: {', '.join(flagged)}")
