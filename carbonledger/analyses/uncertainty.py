@@ -25,7 +25,7 @@ from __future__ import annotations
 import copy
 import warnings
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 import numpy as np
@@ -42,13 +42,12 @@ from ..core.scoring import (
     characterisation,
     charged_source_intensities,
     checked_year,
-    declared_addition,
-    grid_charge,
+    co_product_rule,
     intensities,
     read_rules,
     rulebooks,
-    scheme_mask,
-    unit_intensity,
+    scheme_characterisation,
+    scheme_value,
 )
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
@@ -59,6 +58,7 @@ from ..model.rulebooks import select_schemes
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
 from ..routes.base import APART_FLOWS
+from ..routes.project import validate_project
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 from .matching import ElectricityModel, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, scheme_granularity, series_matched_periods
 
@@ -397,6 +397,27 @@ class Outcome:
     functional_unit: str
     boundary: str
     product: str
+    co_product_open: dict = field(default_factory=dict)  # scheme id -> draws left undetermined by a co-product rule the route cannot apply
+
+
+def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.ndarray, findings: list, nominal: dict) -> tuple[np.ndarray, np.ndarray]:
+    """A scheme's draws under its co-product rule, decided as ``core.scoring.co_product_checks`` decides a
+    score (``co_product_rule``): (values, draws left undetermined). A draw that qualifies with the project
+    giving the co-product no burden keeps its value (an upper bound); otherwise the draws are rescored with
+    the scheme's method (the same draws through a variant of the project), or left undetermined where the
+    route cannot apply it."""
+    rule = co_product_rule(scheme, nominal)
+    open_draws = np.zeros(count, dtype=bool)
+    if rule is None or not rule.differs or status_of(findings, True) == "not_eligible":
+        return values, open_draws
+    keep = np.asarray(scheme.loosest().met_by(values), dtype=bool) & (status_of(findings, True) == "qualifies") if rule.upper_bound else open_draws
+    if rule.rescore:
+        data = plan.project.model_dump()
+        section, name = rule.parameter.split(".")
+        data[section][name] = rule.required
+        variant = replace(plan, project=validate_project(data, plan.source), schemes=[scheme.id])
+        return np.where(keep, values, evaluate(variant, draws, count).scheme_values[scheme.id]), open_draws
+    return values, ~keep
 
 
 def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
@@ -440,7 +461,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     gases = main.sum(axis=2)
     by_gas = {flow: gases[:, n] for n, flow in enumerate(stacked.flow_keys) if flow not in APART_FLOWS}
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
-    scheme_values, scheme_findings = {}, {}
+    scheme_values, scheme_findings, co_product_open = {}, {}, {}
     nominal = params_with_draws(plan, {})
     period = Period.year(checked_year(nominal, plan.year, plan.source))
     matched_periods = series_matched_periods(plan.series) if plan.series is not None else None
@@ -448,11 +469,10 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         reading = read_rules(scheme, inventory, nominal, period, matched_periods)
         scheme_findings[scheme.id] = reading.findings
         basis_demand, basis_product = basis_of(scheme, inventory)
-        gwp_vector = per_gwp[scheme.gwp]
-        grid_kg = {grid: unit_intensity(inventory, grid, stacked.flow_keys, gwp_vector) for grid in set(reading.charged_as_grid.values())}
-        basis_supply = supply[:, :, column[basis_demand]]
-        scheme_total = (contributions(basis_demand, gwp_vector) * ~scheme_mask(scheme, inventory, keys, reading)[None, None, :]).sum(axis=(1, 2)) + grid_charge(reading, keys, basis_supply, grid_kg)
-        values = np.broadcast_to(intensities(scheme_total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity] + declared_addition(scheme, inventory, nominal), (count,))
+        gwp_vector = scheme_characterisation(per_gwp[scheme.gwp], scheme)
+        figures = (basis_product, hydrogen_lhv, ammonia_lhv, fraction)
+        value = scheme_value(scheme, inventory, keys, stacked.flow_keys, reading, gwp_vector, contributions(basis_demand, gwp_vector), supply[:, :, column[basis_demand]], figures, nominal)
+        values = np.broadcast_to(value, (count,))
         if plan.series is not None:
             mix, gate = keys.index("electricity_mix"), column[inventory.gate]
             sources = params["electricity"]["sources"]
@@ -469,7 +489,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
                 granularity=scheme_granularity(scheme, period),
             )
             values = matched_values_of_draws(scheme, plan.series, model, values)
-        scheme_values[scheme.id] = values
+        scheme_values[scheme.id], co_product_open[scheme.id] = co_product_values(plan, draws, count, scheme, values, reading.findings, nominal)
     return Outcome(
         total=total,
         intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
@@ -482,6 +502,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         functional_unit=inventory.functional_unit,
         boundary=params["project"]["boundary"],
         product=product,
+        co_product_open=co_product_open,
     )
 
 
@@ -515,6 +536,7 @@ def _join(outcomes: list[Outcome]) -> Outcome:
         first.functional_unit,
         first.boundary,
         first.product,
+        cat("co_product_open"),
     )
 
 
@@ -676,17 +698,19 @@ def probability(hits: np.ndarray) -> Probability:
     return Probability(probability=p, standard_error=float(np.sqrt(p * (1 - p) / count)) if count else float("nan"))
 
 
-def statuses(scheme, values: np.ndarray, findings: list | None = None) -> dict[str, np.ndarray]:
+def statuses(scheme, values: np.ndarray, findings: list | None = None, co_product_open: np.ndarray | None = None) -> dict[str, np.ndarray]:
     """Each draw's status under a scheme: the rules read before the threshold are the same for
     every draw (``findings``: a scheme the project is not eligible for is so whatever the value;
-    an open rule leaves a draw that meets the threshold undetermined), then the loosest threshold."""
+    an open rule leaves a draw that meets the threshold undetermined), then the loosest threshold;
+    ``co_product_open`` marks draws a co-product rule the route cannot apply leaves undetermined."""
     met = np.asarray(scheme.loosest().met_by(values), dtype=bool)
     findings = findings or []
     none = np.zeros_like(met)
     if status_of(findings, True) == "not_eligible":
         return {"qualifies": none, "fails": none, "not_eligible": ~none, "undetermined": none}
     open_rule = status_of(findings, True) == "undetermined"
-    return {"qualifies": met & ~open_rule, "fails": ~met, "not_eligible": none, "undetermined": met & open_rule}
+    forced = none if co_product_open is None else np.asarray(co_product_open, dtype=bool)
+    return {"qualifies": met & ~open_rule & ~forced, "fails": ~met & ~forced, "not_eligible": none, "undetermined": (met & open_rule) | forced}
 
 
 def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
@@ -720,7 +744,7 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
     checks = []
     for scheme in outcome.schemes:
         values = outcome.scheme_values[scheme.id][used]
-        by_status = statuses(scheme, values, outcome.scheme_findings.get(scheme.id))
+        by_status = statuses(scheme, values, outcome.scheme_findings.get(scheme.id), outcome.co_product_open.get(scheme.id, np.zeros(len(used), dtype=bool))[used])
         status = {name: probability(hits) for name, hits in by_status.items()}
         tiers = np.where(by_status["qualifies"], best_tiers(scheme, values), "none")
         tier_names = [t.tier for t in sorted(scheme.thresholds, key=lambda t: t.limit)] + ["none"]

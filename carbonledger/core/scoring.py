@@ -323,14 +323,30 @@ def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
     return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_finding(scheme, value))}
 
 
-def scheme_characterisation(prepared: Prepared, scheme: Scheme):
-    """The GWP vector of a scheme; stored biogenic CO2 counts -1 only where its rulebook nets it."""
-    vector = prepared.per_gwp[scheme.gwp]
+def scheme_characterisation(vector, scheme: Scheme):
+    """A scheme's GWP vector (one, or one per draw: draws x flows) from its GWP set's ``vector``; stored
+    biogenic CO2 counts -1 only where its rulebook nets it."""
     if not scheme.nets_stored_biogenic_co2:
         return vector
     netted = np.array(vector, dtype=float, copy=True)
-    netted[list(FLOWS).index("co2_biogenic_stored")] = -1.0
+    netted[..., list(FLOWS).index("co2_biogenic_stored")] = -1.0
     return netted
+
+
+def scheme_value(scheme: Scheme, inventory: Inventory, keys: list[str], flow_keys, reading: Reading, vector, contributions, supply, figures: tuple, params: dict):
+    """The scheme's value per unit of its basis: the one sum for a score (numbers) and for Monte Carlo draws (arrays).
+
+    ``vector``: the scheme's characterisation (``scheme_characterisation``); ``contributions``: kg CO2e by
+    (..., flow, activity) per basis unit under ``vector``; ``supply``: (..., activity) per basis unit;
+    ``figures``: (basis product, hydrogen LHV, ammonia LHV, hydrogen mass fraction). Own emissions of the
+    activities the scheme counts, plus failing electricity at the grid's intensity, in the scheme's
+    quantity, plus a producer's declared e_td where it counts.
+    """
+    own = (contributions * ~scheme_mask(scheme, inventory, keys, reading)).sum(axis=(-2, -1))
+    grid_kg = {grid: unit_intensity(inventory, grid, flow_keys, vector) for grid in set(reading.charged_as_grid.values())}
+    total = own + grid_charge(reading, keys, supply, grid_kg)
+    basis_product, hydrogen_lhv, ammonia_lhv, fraction = figures
+    return intensities(total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity] + declared_addition(scheme, inventory, params)
 
 
 def _rescored_check(prepared: Prepared, scheme: Scheme, parameter: str, method: str) -> Check:
@@ -347,6 +363,41 @@ def _rescored_check(prepared: Prepared, scheme: Scheme, parameter: str, method: 
     return scheme_checks(ready, solve_with_bw2calc(ready))[0]
 
 
+@dataclass(frozen=True)
+class CoProductRule:
+    """What a scheme's co-product rule asks of a project: the method it requires, the project's own, and
+    whether the route can rescore with it (``rescore``), keeps an upper bound (``upper_bound``: the project
+    gives the co-product no burden) or cannot apply it (``missing``: what is lacking)."""
+
+    co_product: str
+    required: str
+    method: str
+    parameter: str
+    rescore: bool
+    upper_bound: bool
+    missing: str
+
+    @property
+    def differs(self) -> bool:
+        return self.required not in ("not_stated", self.method)
+
+
+def co_product_rule(scheme: Scheme, params: dict) -> CoProductRule | None:
+    """The co-product rule of ``scheme`` read on a project (None: the route has no co-product). The one
+    decision that score (``co_product_checks``) and the Monte Carlo (``analyses.uncertainty.evaluate``) take."""
+    route = HYDROGEN_ROUTES.get(params["hydrogen"]["route"])
+    co = route.co_product if route else None
+    if co is None:
+        return None
+    section, name = co.parameter.split(".")
+    method = params[section][name]
+    book = scheme.co_products
+    required = book.for_co_product(co.carries_energy, co.rigid) if book else "not_stated"
+    can = required in co.methods and not co.missing(params, required)
+    missing = "" if can else (f"the project lacks {co.missing(params, required)}" if required in co.methods else f"the route cannot apply {required}")
+    return CoProductRule(co.name, required, method, co.parameter, can, method == "none", missing)
+
+
 def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
     """Each check under its rulebook's co-product rule (the headline keeps the project's choice).
 
@@ -361,8 +412,6 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
     .. [1] ISO/TS 19870:2023, co-product handling (subdivision, system expansion, allocation) is a
        choice the methodology or scheme fixes; results state it (from memory).
     """
-    route = HYDROGEN_ROUTES.get(prepared.params["hydrogen"]["route"])
-    co = route.co_product if route else None
     by_id = {scheme.id: scheme for scheme in prepared.chosen}
     out = []
     for check in checks:
@@ -372,28 +421,26 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
             "source": book.source if book else "",
             "from_memory": book.from_memory if book else False,
         }
-        if co is None:
+        rule = co_product_rule(by_id[check.scheme], prepared.params)
+        if rule is None:
             out.append(check.model_copy(update={"co_products": {**info, "co_product": "", "applied": "no co-product"}}))
             continue
-        method = prepared.params[co.parameter.split(".")[0]][co.parameter.split(".")[1]]
-        required = book.for_co_product(co.carries_energy, co.rigid) if book else "not_stated"
-        info.update({"co_product": co.name, "scheme_rule": required, "project_method": method})
-        if required in ("not_stated", method):
+        method, required = rule.method, rule.required
+        info.update({"co_product": rule.co_product, "scheme_rule": required, "project_method": method})
+        if not rule.differs:
             why = "the rulebook states no co-product rule: the project's method is used" if required == "not_stated" else "the project's method is the scheme's rule"
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
         elif check.status == "not_eligible":
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}}))
-        elif method == "none" and check.status == "qualifies":
-            why = (f"the project gives the {co.name} no share of the burden, so the value is an upper bound of the scheme's {required} "
+        elif rule.upper_bound and check.status == "qualifies":
+            why = (f"the project gives the {rule.co_product} no share of the burden, so the value is an upper bound of the scheme's {required} "
                    "(an allocation or a credit for the displaced product can only lower it): it qualifies under the scheme's rule too, at this tier or a better one")
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
-        elif required in co.methods and not co.missing(prepared.params, required):
-            rescored = _rescored_check(prepared, by_id[check.scheme], co.parameter, required)
+        elif rule.rescore:
+            rescored = _rescored_check(prepared, by_id[check.scheme], rule.parameter, required)
             out.append(rescored.model_copy(update={"co_products": {**info, "applied": required, "note": f"scheme value rescored with {required}; the headline keeps the project's {method}"}}))
         else:
-            lacking = co.missing(prepared.params, required) if required in co.methods else f"the route cannot apply {required}"
-            sentence = (f"cannot be judged: co-products: the rulebook requires {required} for the {co.name} ({info['source']}); "
-                        f"{'the project lacks ' + lacking if required in co.methods else lacking}; the value uses the project's {method}")
+            sentence = f"cannot be judged: co-products: the rulebook requires {required} for the {rule.co_product} ({info['source']}); {rule.missing}; the value uses the project's {method}"
             out.append(check.model_copy(update={
                 "status": "undetermined", "passes": False, "tier": None, "reasons": [sentence, *check.reasons],
                 "co_products": {**info, "applied": method, "note": sentence},
@@ -409,12 +456,10 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     for scheme in prepared.chosen:
         reading = scheme_reading(prepared, scheme)
         basis_demand, basis_product = basis_of(scheme, inventory)
-        vector = scheme_characterisation(prepared, scheme)
+        vector = scheme_characterisation(prepared.per_gwp[scheme.gwp], scheme)
         solution = solutions[basis_demand]
-        grid_kg = {grid: unit_intensity(inventory, grid, prepared.matrices.flow_keys, vector) for grid in set(reading.charged_as_grid.values())}
-        scheme_total = float(solution.contributions(vector, scheme_mask(scheme, inventory, keys, reading)).sum() + grid_charge(reading, keys, solution.supply, grid_kg))
-        value = intensities(scheme_total, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
-        value += declared_addition(scheme, inventory, prepared.params)
+        figures = (basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
+        value = float(scheme_value(scheme, inventory, keys, prepared.matrices.flow_keys, reading, vector, solution.contributions(vector), solution.supply, figures, prepared.params))
         checks.append(
             Check(
                 scheme=scheme.id,
