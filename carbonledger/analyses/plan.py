@@ -98,6 +98,8 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
     linear program needs; the points must reach full load (1.0). ``through_origin`` adds the
     segment from zero load to the first point (a plant that may run at any load).
     """
+    if not all(np.isfinite(number) and number > 0 for point in points for number in point):
+        raise InputError("--part-load", str(points), "points FRACTION:KWH_PER_KG of positive finite numbers (no nan or inf)")
     points = sorted(points)
     fractions = np.array([f for f, _ in points])
     if len(points) < 2 or fractions[-1] != 1.0 or fractions[0] <= 0 or (np.diff(fractions) <= 0).any():
@@ -113,6 +115,8 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
         raise InputError("--part-load", str(points), f"a concave output curve: marginal hydrogen per kWh falling as load rises{hint}")
     return slopes, intercepts, float(fractions[0])
 
+
+MAX_RATED_KW = 1e8  # 100 GW: above the electrolyser capacity of any country; a larger figure is a typing error
 
 FULL_MIXED_INTEGER_UP_TO = 2000  # intervals; above, on/off is fixed from the linear relaxation first
 
@@ -171,6 +175,16 @@ def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, le
     return best, f"on/off taken from the linear relaxation ({int(between.sum())} of {n} intervals rounded); within {gap:.3%} of the relaxation's bound"
 
 
+def check_plan_options(rated_kw: float, min_load: float, hydrogen_price: float | None) -> None:
+    """Refuse options no plan can use (infinite or absurd rated power, nan), one InputError line each."""
+    if not (np.isfinite(rated_kw) and 0 < rated_kw <= MAX_RATED_KW):
+        raise InputError("--rated-kw", str(rated_kw), f"a rated power > 0 and <= {MAX_RATED_KW:g} kW")
+    if not 0 <= min_load <= 1:
+        raise InputError("--min-load", str(min_load), "a fraction of rated power from 0 to 1")
+    if hydrogen_price is not None and not (np.isfinite(hydrogen_price) and 0 <= hydrogen_price <= 1e6):
+        raise InputError("--hydrogen-price", str(hydrogen_price), "a price per kg from 0 to 1e+06 (currency of the price column)")
+
+
 def _period_data(series: ElectricitySeries, supply: np.ndarray, labels: np.ndarray, counted: np.ndarray):
     starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
     supply_p = np.add.reduceat(supply, starts, axis=1) if supply.shape[0] else np.zeros((0, len(starts)))
@@ -199,11 +213,10 @@ def plan_load(
     from scipy import sparse
     from scipy.optimize import Bounds, LinearConstraint, milp
 
+    check_plan_options(rated_kw, min_load, hydrogen_price)
     n = series.intervals
     hours = series.interval_minutes / 60.0
     rated = rated_kw * hours  # kWh per interval at rated power
-    if not 0 <= min_load <= 1:
-        raise InputError("--min-load", str(min_load), "a fraction of rated power from 0 to 1")
     local = series.local
     rule = scheme_granularity(scheme.id, local) if granularity is None else granularity
     labels = period_labels(series.utc, local, rule)
@@ -344,6 +357,9 @@ def plan_load(
             tightening += worst * 1.05
     else:
         notes.append("the plan scored back still misses the cap after 8 passes")
+    if not result_load.sum() > 0:
+        reason = "no interval runs at a positive margin under the limit" if hydrogen_price is not None else "the limit is out of reach at any load"
+        raise InputError("plan", scheme.id, f"a plan that makes hydrogen and qualifies; the best plan runs no interval ({reason})")
     if gap_note:
         notes.append(gap_note)
     hydrogen = output(result_load)

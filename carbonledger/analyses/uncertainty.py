@@ -50,7 +50,7 @@ from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet
-from ..model.project import BOUNDARIES, field_limits, parameter_field
+from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
@@ -60,11 +60,33 @@ from .matching import ElectricityModel, counted_source_intensities, declared_and
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
+MAX_DRAWS = 1_000_000  # a standard error of a probability below 0.05 %: beyond what a screening needs, within memory
+MAX_SEED = 2**32 - 1  # the seeds numpy and bw2calc both take
+MIN_CORRELATED_DRAWS = 10  # Iman-Conover needs the van der Waerden scores' correlation matrix to be positive definite
+MEMORY_PER_BLOCK_BYTES = 512 * 1024 * 1024  # the stacked matrices of one block of draws
 BLOCK = 20_000  # draws solved per stacked call (bounds memory; progress advances per block)
 STATUSES = ("qualifies", "fails")  # the statuses a draw can have today; more can be added here
 
 
 # --- sampling -----------------------------------------------------------------------------
+
+
+def check_draws(count: int, seed: int, option: str = "--draws") -> None:
+    """Refuse a draw count or seed no run can use, before any work (one InputError line)."""
+    if isinstance(count, bool) or not 2 <= count <= MAX_DRAWS:
+        raise InputError(option, str(count), f"a number of draws from 2 to {MAX_DRAWS:,}")
+    check_seed(seed)
+
+
+def check_seed(seed: int) -> None:
+    if isinstance(seed, bool) or not 0 <= seed <= MAX_SEED:
+        raise InputError("--seed", str(seed), f"a whole number from 0 to {MAX_SEED}")
+
+
+def no_usable_draw(source: str, count: int, reasons: list[dict]) -> InputError:
+    """The refusal of a run whose every draw breaks a physical limit (statistics over no draw mean nothing)."""
+    first = max(reasons, key=lambda reason: reason["draws"]) if reasons else {"field": "uncertainty", "expected": "a physical value"}
+    return InputError(source, "uncertainty", f"distributions that leave at least one draw within the physical limits; all {count:,} draws break one (most often {first['field']}: expected {first['expected']})")
 
 
 def uniform_draws(count: int, dimensions: int, seed: int, sampling: str) -> np.ndarray:
@@ -183,7 +205,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
         elif not distribution.numeric_values():
             raise InputError(source, where, "numbers as the values of a discrete distribution of a numeric parameter")
         if path.startswith("electricity.sources.") and path.endswith(".share"):
-            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{name}.share" != path)
+            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != path)
             if not others > 0:
                 raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
         fields[path] = (nominal, info)
@@ -260,6 +282,8 @@ def draw(plan: Plan, count: int, seed: int = DEFAULT_SEED, sampling: str | None 
     names = uncertainty.names()
     u = uniform_draws(count, len(names), seed, sampling or uncertainty.sampling)
     target = correlation_matrix(uncertainty, names, plan.source)
+    if target is not None and count < max(MIN_CORRELATED_DRAWS, 2 * len(names)):
+        raise InputError("--draws", str(count), f"at least {max(MIN_CORRELATED_DRAWS, 2 * len(names))} draws to impose rank correlations on {len(names)} inputs")
     if target is not None:
         u = rank_correlated(u, target, seed)
     return draws_from_uniform(plan, u)
@@ -288,7 +312,7 @@ def draws_from_uniform(plan: Plan, u: np.ndarray) -> Draws:
 
 def _set(params: dict, path: str, value) -> None:
     node = params
-    parts = path.split(".")
+    parts = split_path(path)
     for part in parts[:-1]:
         node = node[part]
     node[parts[-1]] = value
@@ -302,7 +326,7 @@ def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
     for path, values in parameters.items():
         _set(params, path, values)
         if path.startswith("electricity.sources.") and path.endswith(".share"):
-            name = path.split(".")[2]
+            name = split_path(path)[2]
             sources = params["electricity"]["sources"]
             nominal_share = plan.fields[path][0]
             for other, item in sources.items():
@@ -515,12 +539,21 @@ def _join(outcomes: list[Outcome]) -> Outcome:
     )
 
 
+def draws_per_block(plan: Plan) -> int:
+    """How many draws one stacked solve takes: ``BLOCK``, fewer when the system is large, so that the
+    stacked matrices (draws x activities x activities, 8 bytes each, a few copies) stay within
+    ``MEMORY_PER_BLOCK_BYTES`` whatever the number of electricity sources."""
+    activities = len(build_inventory(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source)).activities)
+    return int(max(1, min(BLOCK, MEMORY_PER_BLOCK_BYTES // (4 * 8 * activities**2))))
+
+
 def evaluate_in_blocks(plan: Plan, draws: Draws, progress: Callable[[int], None] | None = None) -> Outcome:
     """``evaluate`` over blocks of at most ``BLOCK`` draws (the same numbers, bounded memory)."""
     count = len(draws.uniform)
     outcomes = []
-    for start in range(0, count, BLOCK):
-        rows = slice(start, min(start + BLOCK, count))
+    block = draws_per_block(plan)
+    for start in range(0, count, block):
+        rows = slice(start, min(start + block, count))
         outcomes.append(evaluate(plan, _take(draws, rows), rows.stop - rows.start))
         if progress is not None:
             progress(rows.stop - rows.start)
@@ -713,6 +746,8 @@ def draw_columns(plan: Plan, draws: Draws, outcome: Outcome, used: np.ndarray) -
 def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str, keep_draws: bool = False) -> UncertaintyResult:
     count = len(draws.uniform)
     broken, reasons = limit_breaks(plan, draws, count)
+    if broken.all():
+        raise no_usable_draw(plan.source, count, reasons)
     used = ~broken
     checks = []
     for scheme in outcome.schemes:
@@ -795,8 +830,7 @@ def monte_carlo(
     series : the project's electricity time series; every scheme value of every draw is then
         matched under the scheme's rule, as ``score`` does.
     """
-    if draws < 2:
-        raise InputError("--draws", str(draws), "at least 2 draws")
+    check_draws(draws, seed)
     plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)

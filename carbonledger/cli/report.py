@@ -12,7 +12,7 @@ from ..about import CAUTION
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
 from ..errors import InputError
 from ..io.report import PAPERS, print_pdf, render_report, write_report
-from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, fail
+from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, check_output_path, fail
 
 
 def report(
@@ -38,6 +38,7 @@ def report(
         for target in [output] + ([pdf] if pdf is not None else []):
             if target.exists() and not force:
                 raise InputError(target, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+            check_output_path(target, force, "--output" if target == output else "--pdf")
         if pdf is not None and pdf.suffix.lower() != ".pdf":
             raise InputError(pdf, "--pdf", f"a file ending in .pdf, got '{pdf.suffix or 'no suffix'}'")
         items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed)
