@@ -17,6 +17,10 @@ from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
 from .options import FactorsOption, FormatOption, OutputFormat, fail, render
 
 
+def factors() -> None:
+    """Browse the factor library."""
+
+
 def factors_list(
     factors: FactorsOption = "default-2026",
     prefix: Annotated[str, typer.Option("--prefix", help="Only ids starting with this text.")] = "",
@@ -141,3 +145,11 @@ def factors_diff(
         ),
         nl=False,
     )
+
+
+app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, add_completion=False)
+app.callback()(factors)
+app.command("list")(factors_list)
+app.command("show")(factors_show)
+app.command("sets")(factors_sets)
+app.command("diff")(factors_diff)
