@@ -29,7 +29,7 @@ References
 from __future__ import annotations
 
 import re
-from dataclasses import asdict, dataclass, field, replace
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
@@ -149,9 +149,6 @@ class LifetimeResult:
                 for s in self.schemes
             ],
         }
-
-    def to_dict(self) -> dict:
-        return asdict(self)
 
     def ledger_entry(self, kind: str = "lifetime") -> dict:
         """What the run ledger stores of this result."""
