@@ -53,10 +53,10 @@ def workbook(
         if draws is None and (draws_csv or distributions is not None):
             raise InputError("workbook", "--draws", "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)")
         csv_path = draws_csv_path(output) if draws_csv else None
-        if csv_path is not None:
-            check_output_path(csv_path, force, "--draws-csv")
         if csv_path is not None and csv_path.exists() and not force:
             raise InputError(csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)")
+        if csv_path is not None:
+            check_output_path(csv_path, force, "--draws-csv")
         if (project is None) == (from_workbook is None):
             raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
         if output.suffix.lower() != ".xlsx":
