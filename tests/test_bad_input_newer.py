@@ -394,3 +394,21 @@ def test_analysis_outputs_are_identical_between_runs(output_format):
     args = ["uncertainty", GREY, "--distributions", GAS_DISTRIBUTIONS, "--draws", "50", "--format", output_format, "--no-ledger"]
     first, second = run_cli(*args), run_cli(*args)
     assert first.exit_code == 0 and first.stdout == second.stdout
+
+
+@pytest.mark.parametrize(
+    "args",
+    [
+        ["report", GREEN, "-o", "r.html", "--seed", "-3"],  # no [uncertainty] table: the seed was never read
+        ["compare", GREEN, GREY, "--draws", "5000000", "--no-ledger"],
+        ["workbook", GREY, "-o", "w.xlsx", "--draws", "1", "--no-ledger"],
+        ["uncertainty", DEMO / "uncertainty", "--seed", "-1", "--no-ledger"],  # a folder of projects (the cluster path)
+    ],
+    ids=["report", "compare", "workbook", "uncertainty-folder"],
+)
+def test_every_command_with_draws_checks_them_before_any_work(tmp_path, monkeypatch, args):
+    monkeypatch.chdir(tmp_path)
+    result = run_cli(*args)
+    assert_one_line_error(result)
+    assert "--seed" in result.stderr or "--draws" in result.stderr
+    assert list(tmp_path.iterdir()) == []

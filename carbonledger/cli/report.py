@@ -9,7 +9,7 @@ import typer
 
 from .. import api
 from ..about import CAUTION
-from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
+from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.report import PAPERS, print_pdf, render_report, write_report
 from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, check_output_path, fail
@@ -33,6 +33,7 @@ def report(
     try:
         if output.suffix.lower() not in (".html", ".htm"):
             raise InputError(output, "--output", f"a file ending in .html, got '{output.suffix or 'no suffix'}'")
+        check_draws(draws, seed)  # before any work, even when no project has an [uncertainty] table
         if paper.lower() not in PAPERS:
             raise InputError("--paper", paper, "a4 or letter")
         for target in [output] + ([pdf] if pdf is not None else []):
