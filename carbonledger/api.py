@@ -42,6 +42,7 @@ from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from .model.project import boundary_id, parameter_table, read_project_file
+from .model.statuses import Status
 from .routes import routes_of
 from .routes.project import load_project
 
@@ -339,7 +340,7 @@ def plan(
     result.tier = threshold.tier
     verdict = judged(rulebook, result.value, scheme_reading(prepared, rulebook).findings)
     result.status, result.deciding_reason = verdict["status"], verdict["reasons"][0]
-    result.qualifies = result.qualifies and result.status == "qualifies"
+    result.qualifies = result.qualifies and result.status == Status.QUALIFIES
     if part_load:
         result.score_back = _score_back_overrides(project, model.kwh_per_kg_h2, result.kwh_per_kg_h2)
     return result, series

@@ -1,8 +1,9 @@
 """Write carbonledger/model/reference_table.py: the reference values scoring asks for most, read
-from the ``chemicals`` library once and stored, so that a run loads neither chemicals' data tables
-(read with pandas: about a second of CPU) nor the chemicals package itself (about 0.2 s).
+from the ``chemicals`` library and CoolProp once and stored, so that a run loads neither chemicals'
+data tables (read with pandas: about a second of CPU) nor the chemicals package itself (about 0.2 s),
+nor CoolProp (seconds to import; a test dependency only).
 
-Run after upgrading chemicals when tests/test_reference_values.py reports a stored value that no
+Run after upgrading chemicals or CoolProp when tests/test_reference_values.py reports a stored value that no
 longer equals chemicals' own. Only values with fixed arguments are stored; anything else (steam
 electrolysis at the project's temperature, a formula not listed) is computed live.
 
@@ -32,15 +33,17 @@ def live_values() -> dict:
         "GAS_FORMATION_ENTHALPY_J_PER_MOL": {name: float(Hfg(cas)) for name, cas in GAS_FORMATION_CAS.items()},
         "WATER_SPLITTING_GIBBS_LIQUID_298K_J_PER_MOL": reference.live_liquid_water_splitting_gibbs_j_per_mol(),
         "AMMONIA_NORMAL_BOILING_POINT_K_AND_VAPORISATION_J_PER_MOL": reference.live_ammonia_vaporisation(),
+        "COOLPROP_VERSION": version("CoolProp"),
+        "HYDROGEN_STATES_SI": {name: float(value) for name, value in reference.live_hydrogen_states().items()},
     }
 
 
 def main() -> None:
     values = live_values()
     lines = [
-        '"""Reference values read from the ``chemicals`` library and stored (written by',
+        '"""Reference values read from the ``chemicals`` library and CoolProp and stored (written by',
         "scripts/make_reference_table.py; do not edit). tests/test_reference_values.py checks every",
-        'value against chemicals itself, so a change in chemicals cannot pass unnoticed."""',
+        'value against chemicals and CoolProp themselves, so a change in either cannot pass unnoticed."""',
         "",
     ]
     lines += [f"{name} = {value!r}" for name, value in values.items()]

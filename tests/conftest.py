@@ -15,19 +15,9 @@ os.environ.setdefault("MPLBACKEND", "Agg")
 sys.dont_write_bytecode = False
 
 
-def _build_the_command_once() -> None:
-    """typer's CliRunner turns the Typer app into a click command on every invoke (about 60 ms; the
-    suite invokes the command line in-process several hundred times). The command is the same each
-    time (options are parsed, and environment variables read, when it runs), so build it once."""
-    import functools
-
-    import typer.testing
-
-    if hasattr(typer.testing, "_get_command"):
-        typer.testing._get_command = functools.cache(typer.testing._get_command)
-
-
-_build_the_command_once()
+# The command line is built once per process without reaching into typer: carbonledger.cli loads each
+# command lazily and caches its click command (``load_command``), so typer's CliRunner, which turns the
+# app into a click group on every invoke, rebuilds only the small root group (tests/test_startup.py).
 
 
 def pytest_configure(config):

@@ -27,6 +27,7 @@ the file, the row and the column.
 from __future__ import annotations
 
 import hashlib
+import io
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -34,6 +35,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
+from ..model.input_files import read_input_bytes
 from ..model.units import UnitMismatch, conversion_factor
 from ..stages.electricity import kind_of_source
 
@@ -103,7 +105,14 @@ def _parse_header(header: str, project, path: str) -> tuple[str, str, float, str
         raise InputError(path, f"row 1, column '{header}'", f"a unit convertible to {CANONICAL[quantity]}, got '{unit}'") from None
 
 
-def _numbers(values, path: str, header: str, *, first_row: int = 2, energy: bool = True) -> np.ndarray:
+# The largest value of a column that is not a typing error, in the canonical units (CANONICAL): 10 TWh
+# or 1 Mt of hydrogen in one interval is beyond any plant; the most carbon-intensive generation emits
+# about 1.2 kg CO2e/kWh (IPCC AR5 WGIII Annex III, coal, lignite), 10 kg/kWh is far above; a price of
+# a million per MWh is far above any market's cap. Above these, sums over a year lose their meaning.
+UPPER = {"electrolyser": 1e10, "hydrogen": 1e9, "generation": 1e10, "grid_intensity": 1e4, "price": 1e6}
+
+
+def _numbers(values, path: str, header: str, *, first_row: int = 2, energy: bool = True, multiplier: float = 1.0, upper: float = float("inf")) -> np.ndarray:
     import pandas as pd
 
     numbers = pd.to_numeric(values, errors="coerce").to_numpy(dtype=float)
@@ -114,7 +123,11 @@ def _numbers(values, path: str, header: str, *, first_row: int = 2, energy: bool
     if energy and (numbers < 0).any():
         at = int(np.flatnonzero(numbers < 0)[0])
         raise InputError(path, f"row {at + first_row}, column '{header}'", f"an amount >= 0, got {numbers[at]:g}")
-    return numbers
+    too_large = np.abs(numbers) * multiplier > upper
+    if too_large.any():
+        at = int(np.flatnonzero(too_large)[0])
+        raise InputError(path, f"row {at + first_row}, column '{header}'", f"a value of at most {upper / multiplier:g} in magnitude (a physical range), got {numbers[at]:g}")
+    return numbers * multiplier
 
 
 def _times(stamps, path: str) -> tuple[np.ndarray, np.ndarray]:
@@ -176,10 +189,11 @@ def read_series(path: str | Path, project) -> ElectricitySeries:
 
     path = Path(path)
     where = str(path)
+    if not path.exists():
+        raise InputError(where, "", "an existing time series CSV (electricity.time_series, relative to the project file)")
+    raw = read_input_bytes(path, "time series CSV")
     try:
-        frame = pd.read_csv(path, dtype=str, keep_default_na=False, comment="#", skipinitialspace=True, encoding="utf-8-sig")
-    except FileNotFoundError:
-        raise InputError(where, "", "an existing time series CSV (electricity.time_series, relative to the project file)") from None
+        frame = pd.read_csv(io.BytesIO(raw), dtype=str, keep_default_na=False, comment="#", skipinitialspace=True, encoding="utf-8-sig")
     except (OSError, UnicodeDecodeError, pd.errors.ParserError, pd.errors.EmptyDataError) as error:
         raise InputError(where, "", f"a readable UTF-8 CSV of intervals ({str(error).splitlines()[0] if str(error) else type(error).__name__})") from None
     headers = [str(h).strip() for h in frame.columns]
@@ -202,9 +216,9 @@ def read_series(path: str | Path, project) -> ElectricitySeries:
     stamps = frame.iloc[:, 0].astype(str)
     utc, offset = _times(stamps, where)
     interval = _check_steps(utc, offset, stamps, where)
-    series = ElectricitySeries(where, utc, offset, interval, None, None, sha256=hashlib.sha256(path.read_bytes()).hexdigest())
+    series = ElectricitySeries(where, utc, offset, interval, None, None, sha256=hashlib.sha256(raw).hexdigest())
     for header, (quantity, source, multiplier, unit) in columns.items():
-        values = _numbers(frame[frame.columns[headers.index(header)]], where, header, energy=quantity != "price") * multiplier
+        values = _numbers(frame[frame.columns[headers.index(header)]], where, header, energy=quantity != "price", multiplier=multiplier, upper=UPPER[quantity])
         if quantity == "electrolyser":
             series.load_kwh = values
         elif quantity == "hydrogen":

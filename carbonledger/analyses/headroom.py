@@ -29,6 +29,7 @@ from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
 from ..model.project import field_limits, parameter_field
 from ..model.rulebooks import select_schemes
+from ..model.statuses import Status
 from ..routes.project import validate_project
 from .matching import score_with_series
 from .uncertainty import Draws, evaluate, limit_breaks, make_plan, params_with_draws
@@ -158,7 +159,7 @@ def headroom(
         "project_scheme_value": at_project,
         "range": [low, high],
     }
-    if rules_say == "not_eligible":
+    if rules_say == Status.NOT_ELIGIBLE:
         first = next(f.text for f in findings if f.step == "eligibility" and f.outcome == NOT_MET)
         return Headroom(**base, value=None, reason=f"not eligible whatever the value: {first}", qualifies_when="", verified_scheme_value=None, relative_difference=None)
     crossings = [n for n in range(len(grid) - 1) if allowed[n] and allowed[n + 1] and np.sign(values[n]) != np.sign(values[n + 1])]
@@ -185,7 +186,7 @@ def headroom(
         raise RuntimeError(f"headroom of {path} under {scheme.id} failed its check: scored {verified} at {value}, limit {threshold.limit}")
     extent = "largest" if qualifies_when == "below" else "smallest"
     reason = f"the {extent} value that meets the limit" + (f" ({len(roots)} crossings in range; the one nearest the project's value)" if len(roots) > 1 else "")
-    if rules_say == "undetermined":
+    if rules_say == Status.UNDETERMINED:
         reason += f"; the check stays undetermined there: {next(f.text for f in findings if f.outcome == UNKNOWN)}"
     return Headroom(**base, value=value, reason=reason, qualifies_when=qualifies_when, verified_scheme_value=verified, relative_difference=difference)
 

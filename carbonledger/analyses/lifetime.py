@@ -29,7 +29,7 @@ References
 from __future__ import annotations
 
 import re
-from dataclasses import asdict, dataclass, field, replace
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
@@ -37,6 +37,7 @@ import numpy as np
 from ..core.scoring import gwp_set, intensities, rulebooks
 from ..errors import InputError
 from ..model.factors import Factor, FactorSet, factor_row, read_factor_rows
+from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import routes_of
 from ..routes.project import validate_project
@@ -85,10 +86,10 @@ def year_status(check_status: str, threshold_met: bool) -> str:
     threshold read on the value the rulebook counts (construction added where it counts it).
 
     A check that fails while its value meets the threshold broke another rule; it stays failed."""
-    if check_status == "not_eligible":
-        return "not_eligible"
-    if not threshold_met or check_status == "fails":
-        return "fails"
+    if check_status == Status.NOT_ELIGIBLE:
+        return Status.NOT_ELIGIBLE
+    if not threshold_met or check_status == Status.FAILS:
+        return Status.FAILS
     return check_status
 
 
@@ -97,12 +98,12 @@ def lifetime_status(year_statuses: list[str], lifetime_threshold_met: bool, year
     the threshold or a year broke a rule other than the threshold; undetermined if a year's rule
     cannot be judged; else qualifies (single years over the threshold are listed, not failed: the
     rulebook's value is the lifetime's)."""
-    if "not_eligible" in year_statuses:
-        return "not_eligible"
-    rule_failures = year_statuses.count("fails") - years_missed
+    if Status.NOT_ELIGIBLE in year_statuses:
+        return Status.NOT_ELIGIBLE
+    rule_failures = year_statuses.count(Status.FAILS) - years_missed
     if not lifetime_threshold_met or rule_failures > 0:
-        return "fails"
-    return "undetermined" if "undetermined" in year_statuses else "qualifies"
+        return Status.FAILS
+    return Status.UNDETERMINED if Status.UNDETERMINED in year_statuses else Status.QUALIFIES
 
 
 @dataclass
@@ -149,9 +150,6 @@ class LifetimeResult:
                 for s in self.schemes
             ],
         }
-
-    def to_dict(self) -> dict:
-        return asdict(self)
 
     def ledger_entry(self, kind: str = "lifetime") -> dict:
         """What the run ledger stores of this result."""
@@ -329,6 +327,112 @@ def _with_value(data: dict, path: str, value) -> dict:
     return {**data, section: {**data[section], name: value}}
 
 
+def _year_variants(project, life, factor_set: FactorSet, trajectory: dict, grid_factor_id: str, efficiency: np.ndarray, project_file: str, project_sha256: str):
+    """One project per operating year (the ageing parameter aged) and one factor set per year (the grid
+    source's factor replaced by the year's trajectory row): (projects, factor sets, calendar years)."""
+    data = project.model_dump(exclude_none=True)
+    ageing = _ageing_parameter(project)
+    year_projects, year_sets, calendar_years = [], [], []
+    for index in range(life.operating_years):
+        year = life.first_year + index
+        calendar_years.append(year)
+        year_data = data
+        if ageing:
+            section, name = ageing.split(".")
+            year_data = _with_value(data, ageing, stage.electricity_kwh_per_kg_h2_aged(data[section][name], float(efficiency[index])))
+        year_projects.append(PortfolioProject(project_file, validate_project(year_data, project_file), project_sha256))
+        if trajectory:
+            replaced = trajectory[year].model_copy(update={"id": grid_factor_id})
+            year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
+        else:
+            year_sets.append(factor_set)
+    return year_projects, year_sets, calendar_years
+
+
+def _construction_t_co2e(life, factor_set: FactorSet) -> float:
+    """Construction emissions of the plant and its dedicated renewables, t CO2e."""
+    construction_t = life.plant_construction_t_co2e + life.renewables_construction_t_co2e
+    if life.renewables_mw:
+        per_mw = factor_set.get(life.renewables_construction_factor, "lifetime.renewables_construction_factor")
+        if per_mw.unit.replace(" ", "") != "tCO2e/MW":
+            raise InputError(per_mw.origin or factor_set.name, per_mw.id, f"a factor in t CO2e/MW, got {per_mw.unit}")
+        construction_t += stage.construction_t_co2e_from_capacity(life.renewables_mw, per_mw.value)
+    return construction_t
+
+
+def _construction_per_basis_unit(rulebook, first, construction_per_gate_unit: float) -> float:
+    """Construction emissions per unit of the scheme's quantity (its basis: product, delivered or hydrogen)."""
+    if rulebook.basis == "product":
+        basis_product, per_basis_unit = first.product, construction_per_gate_unit
+    elif rulebook.basis == "delivered":
+        basis_product, per_basis_unit = first.reference_product, construction_per_gate_unit * first.gate_product_per_unit
+    else:
+        basis_product, per_basis_unit = "hydrogen", construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
+    hydrogen_lhv = first.heating_values_mj_per_kg["hydrogen_lhv"]
+    ammonia_lhv = first.heating_values_mj_per_kg.get("ammonia_lhv", float("nan"))
+    return float(intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, first.hydrogen_mass_fraction)[rulebook.quantity])
+
+
+def _scheme_over_life(number: int, rulebook, scores: list, units: np.ndarray, construction_per_gate_unit: float, first_year: int, yearly_status: list[dict[str, str]]) -> LifetimeScheme:
+    """One scheme's lifetime value and status, and each year's status (filled into ``yearly_status``)."""
+    first = scores[0]
+    check = first.checks[number]
+    values = np.array([score.checks[number].value for score in scores])
+    added = _construction_per_basis_unit(rulebook, first, construction_per_gate_unit)
+    without = float(stage.output_weighted_mean(values, units))
+    counted = values + added if rulebook.counts_construction else values
+    lifetime_value = without + added if rulebook.counts_construction else without
+    missed, statuses = [], []
+    for index, value in enumerate(counted):
+        met = rulebook.evaluate(float(value))["passes"]
+        status = year_status(scores[index].checks[number].status, met)
+        yearly_status[index][check.scheme] = status
+        statuses.append(status)
+        if not met and status != Status.NOT_ELIGIBLE:
+            missed.append(first_year + index)
+    overall = lifetime_status(statuses, rulebook.evaluate(lifetime_value)["passes"], len(missed))
+    return LifetimeScheme(
+        scheme=check.scheme,
+        unit=check.unit,
+        limit=check.limit,
+        counts_construction=rulebook.counts_construction,
+        average_without_construction=without,
+        average_with_construction=without + added,
+        lifetime_value=lifetime_value,
+        passes=overall == Status.QUALIFIES,
+        status=overall,
+        years_missed=missed,
+        from_memory=check.from_memory,
+    )
+
+
+def _lifetime_year(score, year: int, grid, age: float, efficiency: float, output_t: float, statuses: dict[str, str], series_year, scale) -> LifetimeYear:
+    return LifetimeYear(
+        year=year,
+        stack_age_years=int(age),
+        efficiency_fraction=float(efficiency),
+        output_t=float(output_t),
+        grid_factor=grid.value if grid else None,
+        grid_factor_unit=grid.unit if grid else "",
+        total=score.total,
+        scheme_values={check.scheme: check.value for check in score.checks},
+        passes={scheme: status == Status.QUALIFIES for scheme, status in statuses.items()},
+        statuses=statuses,
+        factors_from_memory=score.from_memory["factors"],
+        grid_factor_id=grid.id if grid else "",
+        grid_factor_year=grid.year if grid else None,
+        series_year=series_year,
+        grid_profile_scale=scale,
+        matched_share={check.scheme: check.electricity_matching.matched_share for check in score.checks if check.electricity_matching is not None},
+    )
+
+
+def _factors_used(first, trajectory: dict) -> list[dict]:
+    """The factors the first year used, and every trajectory row, once per year (as plain rows with their grade)."""
+    rows = sorted({row.year: row for row in trajectory.values()}.values(), key=lambda row: row.year)
+    return [factor_row(factor) for factor in first.factors_used] + [factor_row(row.model_copy(update={"id": f"trajectory.{row.year}"})) for row in rows]
+
+
 def lifetime_score(
     project,
     factor_set: FactorSet,
@@ -345,30 +449,10 @@ def lifetime_score(
         raise InputError(project_file, "lifetime", "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime")
     grid_factor_id = project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
     trajectory, trajectory_origin = read_trajectory(project_file, life, factor_set, grid_factor_id)
-    data = project.model_dump(exclude_none=True)
-    ageing = _ageing_parameter(project)
-
-    indices = np.arange(life.operating_years)
-    ages = stage.stack_age_years(indices, life.stack_replacement_years or life.operating_years)
-    loss = life.efficiency_loss_per_year if ageing else 0.0
-    efficiency = stage.efficiency_fraction_of_new(loss, ages)
+    ages = stage.stack_age_years(np.arange(life.operating_years), life.stack_replacement_years or life.operating_years)
+    efficiency = stage.efficiency_fraction_of_new(life.efficiency_loss_per_year if _ageing_parameter(project) else 0.0, ages)
     outputs = stage.annual_output_t(life.nameplate_output_t_per_year, life.capacity_factor, efficiency)
-
-    year_projects, year_sets, calendar_years = [], [], []
-    for index in indices:
-        year = life.first_year + int(index)
-        calendar_years.append(year)
-        year_data = data
-        if ageing:
-            section, name = ageing.split(".")
-            year_data = _with_value(data, ageing, stage.electricity_kwh_per_kg_h2_aged(data[section][name], float(efficiency[index])))
-        year_projects.append(PortfolioProject(project_file, validate_project(year_data, project_file), project_sha256))
-        if trajectory:
-            row = trajectory[year]
-            replaced = row.model_copy(update={"id": grid_factor_id})
-            year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
-        else:
-            year_sets.append(factor_set)
+    year_projects, year_sets, calendar_years = _year_variants(project, life, factor_set, trajectory, grid_factor_id, efficiency, project_file, project_sha256)
     series = project_series(project, project_file)
     scales: list[float | None] = [None] * len(calendar_years)
     source_years: list[int | None] = [None] * len(calendar_years)
@@ -383,87 +467,17 @@ def lifetime_score(
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
     gate_units = outputs * (1000.0 if first.product == "hydrogen" else 1.0)
     units = gate_units / first.gate_product_per_unit
-
-    construction_t = life.plant_construction_t_co2e + life.renewables_construction_t_co2e
-    if life.renewables_mw:
-        per_mw = factor_set.get(life.renewables_construction_factor, "lifetime.renewables_construction_factor")
-        if per_mw.unit.replace(" ", "") != "tCO2e/MW":
-            raise InputError(per_mw.origin or factor_set.name, per_mw.id, f"a factor in t CO2e/MW, got {per_mw.unit}")
-        construction_t += stage.construction_t_co2e_from_capacity(life.renewables_mw, per_mw.value)
+    construction_t = _construction_t_co2e(life, factor_set)
     construction_per_gate_unit = float(stage.construction_kg_co2e_per_unit(construction_t, gate_units.sum()))
     construction_per_unit = construction_per_gate_unit * first.gate_product_per_unit
-
-    totals = np.array([score.total for score in scores])
-    average = float(stage.output_weighted_mean(totals, units))
-    hydrogen_lhv = first.heating_values_mj_per_kg["hydrogen_lhv"]
-    ammonia_lhv = first.heating_values_mj_per_kg.get("ammonia_lhv", float("nan"))
-    fraction = first.hydrogen_mass_fraction
+    average = float(stage.output_weighted_mean(np.array([score.total for score in scores]), units))
     books = rulebooks()
-    lifetime_schemes = []
-    yearly_pass: list[dict[str, bool]] = [{} for _ in scores]
     yearly_status: list[dict[str, str]] = [{} for _ in scores]
-    for number, check in enumerate(first.checks):
-        rulebook = books[check.scheme]
-        values = np.array([score.checks[number].value for score in scores])
-        if rulebook.basis == "product":
-            basis_product, per_basis_unit = first.product, construction_per_gate_unit
-        elif rulebook.basis == "delivered":
-            basis_product, per_basis_unit = first.reference_product, construction_per_unit
-        else:
-            basis_product, per_basis_unit = "hydrogen", construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
-        added = intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[rulebook.quantity]
-        without = float(stage.output_weighted_mean(values, units))
-        with_construction = without + float(added)
-        counted = values + float(added) if rulebook.counts_construction else values
-        lifetime_value = with_construction if rulebook.counts_construction else without
-        missed, statuses = [], []
-        for index, value in enumerate(counted):
-            met = rulebook.evaluate(float(value))["passes"]
-            status = year_status(scores[index].checks[number].status, met)
-            yearly_status[index][check.scheme] = status
-            yearly_pass[index][check.scheme] = status == "qualifies"
-            statuses.append(status)
-            if not met and status != "not_eligible":
-                missed.append(life.first_year + index)
-        overall = lifetime_status(statuses, rulebook.evaluate(lifetime_value)["passes"], len(missed))
-        lifetime_schemes.append(
-            LifetimeScheme(
-                scheme=check.scheme,
-                unit=check.unit,
-                limit=check.limit,
-                counts_construction=rulebook.counts_construction,
-                average_without_construction=without,
-                average_with_construction=with_construction,
-                lifetime_value=lifetime_value,
-                passes=overall == "qualifies",
-                status=overall,
-                years_missed=missed,
-                from_memory=check.from_memory,
-            )
-        )
-    years = []
-    for index, score in enumerate(scores):
-        grid = trajectory.get(life.first_year + index) if trajectory else None
-        years.append(
-            LifetimeYear(
-                year=life.first_year + index,
-                stack_age_years=int(ages[index]),
-                efficiency_fraction=float(efficiency[index]),
-                output_t=float(outputs[index]),
-                grid_factor=grid.value if grid else None,
-                grid_factor_unit=grid.unit if grid else "",
-                total=score.total,
-                scheme_values={check.scheme: check.value for check in score.checks},
-                passes=yearly_pass[index],
-                statuses=yearly_status[index],
-                factors_from_memory=score.from_memory["factors"],
-                grid_factor_id=grid.id if grid else "",
-                grid_factor_year=grid.year if grid else None,
-                series_year=source_years[index],
-                grid_profile_scale=scales[index],
-                matched_share={check.scheme: check.electricity_matching.matched_share for check in score.checks if check.electricity_matching is not None},
-            )
-        )
+    lifetime_schemes = [_scheme_over_life(number, books[check.scheme], scores, units, construction_per_gate_unit, life.first_year, yearly_status) for number, check in enumerate(first.checks)]
+    years = [
+        _lifetime_year(score, life.first_year + index, trajectory.get(life.first_year + index) if trajectory else None, ages[index], efficiency[index], outputs[index], yearly_status[index], source_years[index], scales[index])
+        for index, score in enumerate(scores)
+    ]
     return LifetimeResult(
         project=project.project.name,
         project_file=project_file,
@@ -485,6 +499,5 @@ def lifetime_score(
         time_series=series_use,
         boundary=project.project.boundary,
         parameters=project.model_dump(),
-        factors_used=[factor_row(factor) for factor in first.factors_used]
-        + [factor_row(row.model_copy(update={"id": f"trajectory.{row.year}"})) for row in sorted({row.year: row for row in trajectory.values()}.values(), key=lambda row: row.year)],
+        factors_used=_factors_used(first, trajectory),
     )

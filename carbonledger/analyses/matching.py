@@ -38,6 +38,7 @@ from ..core.verdicts import MET, NOT_MET, Finding, Period, fully_renewable_findi
 from ..errors import InputError
 from ..model.factors import FactorSet
 from ..model.rulebooks import PERIODS, grade_note
+from ..model.statuses import Status
 from .electricity_series import ElectricitySeries
 
 GRANULARITIES = ("interval", "hour", "month", "quarter", "year")  # fine to coarse
@@ -335,7 +336,7 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         verdict = judged(scheme, value, findings + matching_findings(scheme, model, result, rule))
         note = (check.co_products or {}).get("note", "")
         if note.startswith("cannot be judged"):
-            verdict.update(status="undetermined", passes=False, tier=None, reasons=[note, *verdict["reasons"]])
+            verdict.update(status=Status.UNDETERMINED, passes=False, tier=None, reasons=[note, *verdict["reasons"]])
     return check.model_copy(update={"value": value, **verdict, "electricity_matching": matching})
 
 

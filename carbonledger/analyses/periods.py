@@ -47,6 +47,11 @@ _MONTH = re.compile(r"^(\d{4})-(\d{2})$")
 NM3 = ("nm3", "nm^3", "nm**3")
 NM3_FACTOR = "natural_gas.net_calorific_value_volume"
 CANONICAL = {"electricity": "kWh", "natural_gas": "GJ", "hydrogen": "kg", "ammonia": "t"}
+# The most a plant's meter can read in one month, canonical units: above the world's monthly
+# production or use (about 2.5 PWh of electricity, 12 EJ of natural gas, 8 Mt of hydrogen, 15 Mt of
+# ammonia: IEA statistics, facts of the trade, from memory) divided by ten or more would be a typing error.
+MONTHLY_MAXIMUM = {"electricity": 1e11, "natural_gas": 1e9, "hydrogen": 1e10, "ammonia": 1e8}
+NM3_MOST_GJ = 0.05  # GJ per Nm3: above the heating value of any natural gas (about 0.036-0.040 GJ/Nm3)
 DIMENSION_WORDS = {"electricity": "an energy unit (MWh, kWh, GWh)", "natural_gas": "an energy unit (GJ, MJ, TJ) or Nm3", "hydrogen": "a mass unit (t, kg)", "ammonia": "a mass unit (t, kg)"}
 
 @dataclass
@@ -163,6 +168,9 @@ def read_meters(path: str | Path, project) -> Meters:
                 raise InputError(path, where, f"a finite number, got '{text.strip()}'")
             if value < 0:
                 raise InputError(path, where, f"a number >= 0, got {value:g}")
+            most = MONTHLY_MAXIMUM[column.quantity] / (NM3_MOST_GJ if column.by_volume else column.multiplier)
+            if value > most:
+                raise InputError(path, where, f"a month's amount of at most {most:g} {column.unit} (above any plant's, a physical range), got {value:g}")
             values[column.header] = value
         output = meters.column("ammonia") if project.project.product == "ammonia" else meters.column("hydrogen")
         if values[output.header] <= 0:

@@ -38,6 +38,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
@@ -100,6 +101,8 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
     linear program needs; the points must reach full load (1.0). ``through_origin`` adds the
     segment from zero load to the first point (a plant that may run at any load).
     """
+    if not all(np.isfinite(number) and number > 0 for point in points for number in point):
+        raise InputError("--part-load", str(points), "points FRACTION:KWH_PER_KG of positive finite numbers (no nan or inf)")
     points = sorted(points)
     fractions = np.array([f for f, _ in points])
     if len(points) < 2 or fractions[-1] != 1.0 or fractions[0] <= 0 or (np.diff(fractions) <= 0).any():
@@ -115,6 +118,8 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
         raise InputError("--part-load", str(points), f"a concave output curve: marginal hydrogen per kWh falling as load rises{hint}")
     return slopes, intercepts, float(fractions[0])
 
+
+MAX_RATED_KW = 1e8  # 100 GW: above the electrolyser capacity of any country; a larger figure is a typing error
 
 FULL_MIXED_INTEGER_UP_TO = 2000  # intervals; above, on/off is fixed from the linear relaxation first
 
@@ -173,12 +178,203 @@ def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, le
     return best, f"on/off taken from the linear relaxation ({int(between.sum())} of {n} intervals rounded); within {gap:.3%} of the relaxation's bound"
 
 
+def check_plan_options(rated_kw: float, min_load: float, hydrogen_price: float | None) -> None:
+    """Refuse options no plan can use (infinite or absurd rated power, nan), one InputError line each."""
+    if not (np.isfinite(rated_kw) and 0 < rated_kw <= MAX_RATED_KW):
+        raise InputError("--rated-kw", str(rated_kw), f"a rated power > 0 and <= {MAX_RATED_KW:g} kW")
+    if not 0 <= min_load <= 1:
+        raise InputError("--min-load", str(min_load), "a fraction of rated power from 0 to 1")
+    if hydrogen_price is not None and not (np.isfinite(hydrogen_price) and 0 <= hydrogen_price <= 1e6):
+        raise InputError("--hydrogen-price", str(hydrogen_price), "a price per kg from 0 to 1e+06 (currency of the price column)")
+
+
 def _period_data(series: ElectricitySeries, supply: np.ndarray, labels: np.ndarray, counted: np.ndarray):
     starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
     supply_p = np.add.reduceat(supply, starts, axis=1) if supply.shape[0] else np.zeros((0, len(starts)))
     generation = supply_p.sum(axis=0)
     cbar = np.divide(counted @ supply_p, generation, out=np.zeros_like(generation), where=generation > 0)
     return starts, generation, cbar
+
+
+@dataclass(frozen=True)
+class Blocks:
+    """Where each block of variables sits in the program's vector: the load p_t, the hydrogen h_t
+    (with a part-load curve), the on/off binaries (with a minimum stable load) and the matched energy
+    m_P of each period. An empty block has no columns."""
+
+    load: slice
+    hydrogen: slice
+    on: slice
+    matched: slice
+    size: int
+
+    @classmethod
+    def of(cls, intervals: int, periods: int, curve: bool, binary: bool) -> Blocks:
+        sizes = {"load": intervals, "hydrogen": intervals if curve else 0, "on": intervals if binary else 0, "matched": periods}
+        start, found = 0, {}
+        for name, count in sizes.items():
+            found[name] = slice(start, start + count)
+            start += count
+        return cls(**found, size=start)
+
+    @staticmethod
+    def columns(block: slice) -> np.ndarray:
+        return np.arange(block.start, block.stop)
+
+
+def _rows(terms: list[tuple[np.ndarray, np.ndarray]], rows: np.ndarray, size: int, count: int):
+    """A sparse block of ``count`` rows: each term is (values, columns) along ``rows``."""
+    from scipy import sparse
+
+    values = np.concatenate([np.broadcast_to(v, c.shape) for v, c in terms])
+    return sparse.csr_array((values, (np.tile(rows, len(terms)), np.concatenate([c for _, c in terms]))), shape=(count, size))
+
+
+def _output_segments(part_load, rated: float, min_load: float, kwh_per_kg_h2: float) -> tuple[np.ndarray, np.ndarray, bool]:
+    """Slopes and intercepts of hydrogen per interval, and whether a part-load curve gives them."""
+    if not part_load:
+        return np.array([1.0 / kwh_per_kg_h2]), np.array([0.0]), False
+    slopes, intercepts, least = part_load_segments(part_load, rated, through_origin=min_load == 0)
+    if min_load > 0 and least > min_load + 1e-12:
+        raise InputError("--part-load", str(part_load), f"a first point at or below the minimum stable load {min_load:g}")
+    return slopes, intercepts, True
+
+
+def _fixed_constraints(blocks: Blocks, labels: np.ndarray, periods: int, slopes, intercepts, curve: bool, rated: float, min_load: float):
+    """The rows that do not change between passes: hydrogen under each curve segment, the load within
+    its on/off bounds, and the matched energy within the period's load. Returns (matrix, lower, upper)."""
+    from scipy import sparse
+
+    n = blocks.load.stop - blocks.load.start
+    index = np.arange(n)
+    load, hydrogen, on = blocks.columns(blocks.load), blocks.columns(blocks.hydrogen), blocks.columns(blocks.on)
+    binary = len(on) > 0
+    matrices, lower, upper = [], [], []
+
+    def add(matrix, low, high):
+        matrices.append(matrix)
+        lower.append(np.broadcast_to(low, matrix.shape[:1]))
+        upper.append(np.broadcast_to(high, matrix.shape[:1]))
+
+    for a, b in zip(slopes, intercepts, strict=False) if curve else ():
+        # h_t - a_j p_t - b_j on_t <= 0 (on_t = 1 without binaries: the constant moves to the bound)
+        if binary:
+            add(_rows([(1.0, hydrogen), (-a, load), (-b, on)], index, blocks.size, n), -np.inf, 0.0)
+        else:
+            add(_rows([(1.0, hydrogen), (-a, load)], index, blocks.size, n), -np.inf, b)
+    if binary:  # min_load rated on_t <= p_t <= rated on_t
+        add(_rows([(1.0, load), (-rated, on)], index, blocks.size, n), -np.inf, 0.0)
+        add(_rows([(1.0, load), (-min_load * rated, on)], index, blocks.size, n), 0.0, np.inf)
+    # matched within the period's load: m_P - sum_{t in P} p_t <= 0
+    matched_rows = sparse.csr_array(
+        (np.r_[np.ones(periods), -np.ones(n)], (np.r_[np.arange(periods), labels], np.r_[blocks.columns(blocks.matched), load])), shape=(periods, blocks.size)
+    )
+    add(matched_rows, -np.inf, 0.0)
+    return sparse.vstack(matrices).tocsr(), np.concatenate(lower), np.concatenate(upper)
+
+
+def _objective(blocks: Blocks, series: ElectricitySeries, hydrogen_price: float | None, slopes, curve: bool) -> np.ndarray:
+    """Minimised: minus hydrogen, or minus margin (hydrogen price x hydrogen - electricity price x load)."""
+    objective = np.zeros(blocks.size)
+    if hydrogen_price is not None:
+        if series.price_per_mwh is None:
+            raise InputError("--hydrogen-price", str(hydrogen_price), "a series with a 'price [<currency>/MWh]' column to weigh margin")
+        objective[blocks.load] = series.price_per_mwh / 1000.0
+        if curve:
+            objective[blocks.hydrogen] = -hydrogen_price
+        else:
+            objective[blocks.load] -= hydrogen_price * slopes[0]
+    elif curve:
+        objective[blocks.hydrogen] = -1.0
+    else:
+        objective[blocks.load] = -slopes[0]
+    return objective
+
+
+@dataclass
+class _Program:
+    """The operating plan's program: everything but the yearly emission rows, which each pass redoes."""
+
+    blocks: Blocks
+    fixed: Any
+    fixed_lower: np.ndarray
+    fixed_upper: np.ndarray
+    objective: np.ndarray
+    lower: np.ndarray
+    upper: np.ndarray
+    integrality: np.ndarray
+    labels: np.ndarray
+    starts: np.ndarray
+    cbar: np.ndarray
+    year_of: np.ndarray
+    years: int
+    curve: bool
+    binary: bool
+    design: float
+    least_kwh: float
+
+    def year_rows(self, charge: np.ndarray, cap: float):
+        """Emissions of each year: sum_P (cbar_P - g_P) m_P + sum_t (g_P(t) - cap) p_t <= 0; with a curve the
+        cap applies to hydrogen: sum_t g_P(t) p_t - cap e_d sum_t h_t (see the module text)."""
+        from scipy import sparse
+
+        blocks, n = self.blocks, len(self.labels)
+        matched = blocks.columns(blocks.matched)
+        if self.curve:
+            entries = np.r_[charge[self.labels], -cap * self.design * np.ones(n), self.cbar - charge]
+            rows, columns = np.r_[self.year_of, self.year_of, self.year_of[self.starts]], np.r_[blocks.columns(blocks.load), blocks.columns(blocks.hydrogen), matched]
+        else:
+            entries = np.r_[charge[self.labels] - cap, self.cbar - charge]
+            rows, columns = np.r_[self.year_of, self.year_of[self.starts]], np.r_[blocks.columns(blocks.load), matched]
+        return sparse.csr_array((entries, (rows, columns)), shape=(self.years, blocks.size))
+
+    def solve(self, charge: np.ndarray, cap: float, time_limit_s: float, mip_gap: float):
+        """One pass: (solution, note on how on/off was decided)."""
+        from scipy import sparse
+        from scipy.optimize import Bounds, LinearConstraint, milp
+
+        matrix = sparse.vstack([self.fixed, self.year_rows(charge, cap)]).tocsr()
+        constraints = LinearConstraint(matrix, np.r_[self.fixed_lower, np.full(self.years, -np.inf)], np.r_[self.fixed_upper, np.zeros(self.years)])
+        n = len(self.labels)
+        if self.binary and n > FULL_MIXED_INTEGER_UP_TO:
+            layout = (self.blocks.load.start, self.blocks.on.start, n)
+            return _relax_and_fix(self.objective, constraints, self.integrality, self.lower, self.upper, layout, self.least_kwh, time_limit_s, mip_gap, interior_point_lp if self.curve else None)
+        if self.curve and not self.binary:
+            return interior_point_lp(self.objective, constraints, self.lower, self.upper), ""
+        limits = {"time_limit": time_limit_s, "mip_rel_gap": mip_gap} if self.binary else {}
+        return milp(self.objective, constraints=constraints, integrality=self.integrality, bounds=Bounds(self.lower, self.upper), options=limits), ""
+
+
+def _program(series: ElectricitySeries, model: ElectricityModel, rule, labels, eligible, rated: float, min_load: float, part_load, hydrogen_price) -> tuple[_Program, np.ndarray, np.ndarray]:
+    """The program of a plan, with the output segments (slopes, intercepts) it uses."""
+    n = series.intervals
+    supply = np.array([series.generation_kwh[s] for s in eligible]).reshape(len(eligible), n)
+    counted = np.array([model.counted_kg_per_kwh[s] for s in eligible])
+    starts, generation, cbar = _period_data(series, supply, labels, counted)
+    slopes, intercepts, curve = _output_segments(part_load, rated, min_load, model.kwh_per_kg_h2)
+    binary = min_load > 0
+    blocks = Blocks.of(n, len(starts), curve, binary)
+    fixed, fixed_lower, fixed_upper = _fixed_constraints(blocks, labels, len(starts), slopes, intercepts, curve, rated, min_load)
+    upper = np.zeros(blocks.size)
+    upper[blocks.load], upper[blocks.hydrogen], upper[blocks.on], upper[blocks.matched] = rated, np.inf, 1.0, generation
+    integrality = np.zeros(blocks.size)
+    integrality[blocks.on] = 1
+    years = series.local.astype("datetime64[Y]").astype(np.int64)
+    year_values, year_of = np.unique(years, return_inverse=True)
+    program = _Program(
+        blocks, fixed, fixed_lower, fixed_upper, _objective(blocks, series, hydrogen_price, slopes, curve), np.zeros(blocks.size), upper, integrality,
+        labels, starts, cbar, year_of, len(year_values), curve, binary, model.kwh_per_kg_h2, min_load * rated,
+    )
+    return program, slopes, intercepts
+
+
+def _hydrogen_output(slopes, intercepts):
+    """Hydrogen (kg) per interval at given loads: the curve (on from any load above zero), or load / design kWh/kg."""
+
+    def output(load: np.ndarray) -> np.ndarray:
+        return np.clip(np.minimum.reduce([a * load + b * (load > 0) for a, b in zip(slopes, intercepts, strict=False)]), 0, None)
+
+    return output
 
 
 def plan_load(
@@ -198,177 +394,97 @@ def plan_load(
     mip_gap: float = 1e-3,
 ) -> PlanResult:
     """Solve the operating plan (see the module text); returns loads, hydrogen and the scored-back value."""
-    from scipy import sparse
-    from scipy.optimize import Bounds, LinearConstraint, milp
-
-    n = series.intervals
-    hours = series.interval_minutes / 60.0
-    rated = rated_kw * hours  # kWh per interval at rated power
-    if not 0 <= min_load <= 1:
-        raise InputError("--min-load", str(min_load), "a fraction of rated power from 0 to 1")
-    local = series.local
+    check_plan_options(rated_kw, min_load, hydrogen_price)
+    rated = rated_kw * series.interval_minutes / 60.0  # kWh per interval at rated power
     rule = model.granularity if granularity is None else granularity
-    labels = period_labels(series.utc, local, rule)
+    labels = period_labels(series.utc, series.local, rule)
     eligible = [name for name in model.eligible if name in series.generation_kwh]
-    supply = np.array([series.generation_kwh[s] for s in eligible]).reshape(len(eligible), n)
-    counted = np.array([model.counted_kg_per_kwh[s] for s in eligible])
-    starts, generation, cbar = _period_data(series, supply, labels, counted)
-    periods = len(starts)
-    grid = series.grid_g_co2e_per_kwh / 1000.0 if series.grid_g_co2e_per_kwh is not None else np.full(n, model.grid_kg_per_kwh)
     slope = model.value_per_total * model.basis_kwh
     if slope <= 0:
         raise InputError("--scheme", scheme.id, "a scheme whose value depends on the project's electricity")
     cap_at_limit = model.declared_kg_per_kwh + (limit - value_declared) / slope
-    cap = cap_at_limit - 1e-6 * max(abs(cap_at_limit), 0.1)  # a hair inside the limit: HiGHS meets constraints to about 1e-7
-    if part_load:
-        slopes, intercepts, least = part_load_segments(part_load, rated, through_origin=min_load == 0)
-        if min_load > 0 and least > min_load + 1e-12:
-            raise InputError("--part-load", str(part_load), f"a first point at or below the minimum stable load {min_load:g}")
-    else:
-        slopes, intercepts = np.array([1.0 / model.kwh_per_kg_h2]), np.array([0.0])
-    binary = min_load > 0
-    years = local.astype("datetime64[Y]").astype(np.int64)
-    year_values, year_of = np.unique(years, return_inverse=True)
-    # variables: p (n), h (n, with a part-load curve; else h_t = p_t / kWh per kg), on (n if binary), m (periods)
-    curve = part_load is not None and len(part_load) > 0
-    p0, h0 = 0, n
-    on0 = h0 + (n if curve else 0)
-    m0 = on0 + (n if binary else 0)
-    size = m0 + periods
-    lower, upper = [], []
-    index = np.arange(n)
-    block_rows = []
-    # hydrogen: h_t - a_j p_t - b_j on_t <= 0 (on_t = 1 without binaries: constant moves to the bound)
-    for a, b in zip(slopes, intercepts, strict=False) if curve else ():
-        r = np.arange(n)
-        c1, v1 = h0 + index, np.ones(n)
-        c2, v2 = p0 + index, np.full(n, -a)
-        if binary:
-            c3, v3 = on0 + index, np.full(n, -b)
-            block_rows.append(sparse.csr_array((np.r_[v1, v2, v3], (np.r_[r, r, r], np.r_[c1, c2, c3])), shape=(n, size)))
-            lower.extend([-np.inf] * n)
-            upper.extend([0.0] * n)
-        else:
-            block_rows.append(sparse.csr_array((np.r_[v1, v2], (np.r_[r, r], np.r_[c1, c2])), shape=(n, size)))
-            lower.extend([-np.inf] * n)
-            upper.extend([b] * n)
-    if binary:  # min_load rated on_t <= p_t <= rated on_t
-        r = np.arange(n)
-        block_rows.append(sparse.csr_array((np.r_[np.ones(n), np.full(n, -rated)], (np.r_[r, r], np.r_[p0 + index, on0 + index])), shape=(n, size)))
-        lower.extend([-np.inf] * n)
-        upper.extend([0.0] * n)
-        block_rows.append(sparse.csr_array((np.r_[np.ones(n), np.full(n, -min_load * rated)], (np.r_[r, r], np.r_[p0 + index, on0 + index])), shape=(n, size)))
-        lower.extend([0.0] * n)
-        upper.extend([np.inf] * n)
-    # matched within the period's load: m_P - sum_{t in P} p_t <= 0
-    block_rows.append(sparse.csr_array((np.r_[np.ones(periods), -np.ones(n)], (np.r_[np.arange(periods), labels], np.r_[m0 + np.arange(periods), p0 + index])), shape=(periods, size)))
-    lower.extend([-np.inf] * periods)
-    upper.extend([0.0] * periods)
-    fixed = sparse.vstack(block_rows).tocsr()
-    fixed_lower, fixed_upper = np.array(lower), np.array(upper)
+    program, slopes, intercepts = _program(series, model, rule, labels, eligible, rated, min_load, part_load, hydrogen_price)
+    output = _hydrogen_output(slopes, intercepts)
+    scorer = _Scorer(series, model, eligible, rule, output, program.curve)
+    load, passes, notes = _plan_passes(program, scorer, series, scheme.id, cap_at_limit, time_limit_s, mip_gap)
+    if not load.sum() > 0:
+        reason = "no interval runs at a positive margin under the limit" if hydrogen_price is not None else "the limit is out of reach at any load"
+        raise InputError("plan", scheme.id, f"a plan that makes hydrogen and qualifies; the best plan runs no interval ({reason})")
+    hydrogen = output(load)
 
-    bounds_lo = np.zeros(size)
-    bounds_hi = np.r_[np.full(n, rated), np.full(n if curve else 0, np.inf), np.ones(n) if binary else np.zeros(0), generation]
-    integrality = np.zeros(size)
-    if binary:
-        integrality[on0 : on0 + n] = 1
-    objective = np.zeros(size)
-    if hydrogen_price is not None:
-        if series.price_per_mwh is None:
-            raise InputError("--hydrogen-price", str(hydrogen_price), "a series with a 'price [<currency>/MWh]' column to weigh margin")
-        objective[p0 : p0 + n] = series.price_per_mwh / 1000.0
-        if curve:
-            objective[h0 : h0 + n] = -hydrogen_price
-        else:
-            objective[p0 : p0 + n] -= hydrogen_price * slopes[0]
-    elif curve:
-        objective[h0 : h0 + n] = -1.0
-    else:
-        objective[p0 : p0 + n] = -slopes[0]
+    def scheme_value(loads):
+        intensity, share = scorer.intensity(loads)
+        return value_declared + slope * (intensity - model.declared_kg_per_kwh), share
 
-    design = model.kwh_per_kg_h2
-
-    def output(load: np.ndarray) -> np.ndarray:
-        """Hydrogen (kg) per interval at these loads: the curve (on from any load above zero), or load / design kWh/kg."""
-        return np.clip(np.minimum.reduce([a * load + b * (load > 0) for a, b in zip(slopes, intercepts, strict=False)]), 0, None)
-
-    def scale(load: np.ndarray, hydrogen: np.ndarray) -> float:
-        """e / e_d: the kWh/kg the loads imply over the design kWh/kg (1 without a curve)."""
-        made = float(hydrogen.sum())
-        return float(load.sum()) / made / design if curve and made > 0 else 1.0
-
-    period_grid = np.add.reduceat(grid, starts) / np.diff(np.r_[starts, n])  # first guess: plain mean per period
-    single = np.diff(np.r_[starts, n]) == 1
-    tightening = 0.0
-    result_load = None
-    notes: list[str] = []
-    passes = 0
-    for passes in range(1, 9):
-        # emissions of each year: sum_P (cbar_P - g_P) m_P + sum_t g_P(t) p_t - cap p_t <= 0
-        charge = np.where(single, grid[starts], period_grid)
-        if curve:  # emissions <= cap e_d sum h (the curve's own kWh/kg, see the module text)
-            entries = np.r_[charge[labels], -(cap - tightening) * design * np.ones(n), cbar - charge]
-            rows_at, columns_at = np.r_[year_of, year_of, year_of[starts]], np.r_[p0 + index, h0 + index, m0 + np.arange(periods)]
-        else:
-            entries = np.r_[charge[labels] - (cap - tightening), cbar - charge]
-            rows_at, columns_at = np.r_[year_of, year_of[starts]], np.r_[p0 + index, m0 + np.arange(periods)]
-        year_rows = sparse.csr_array((entries, (rows_at, columns_at)), shape=(len(year_values), size))
-        constraints = LinearConstraint(sparse.vstack([fixed, year_rows]).tocsr(), np.r_[fixed_lower, np.full(len(year_values), -np.inf)], np.r_[fixed_upper, np.zeros(len(year_values))])
-        if binary and n > FULL_MIXED_INTEGER_UP_TO:
-            solved, gap_note = _relax_and_fix(objective, constraints, integrality, bounds_lo, bounds_hi, (p0, on0, n), min_load * rated, time_limit_s, mip_gap, interior_point_lp if curve else None)
-        elif curve and not binary:
-            solved, gap_note = interior_point_lp(objective, constraints, bounds_lo, bounds_hi), ""
-        else:
-            limits = {"time_limit": time_limit_s, "mip_rel_gap": mip_gap} if binary else {}
-            solved = milp(objective, constraints=constraints, integrality=integrality, bounds=Bounds(bounds_lo, bounds_hi), options=limits)
-            gap_note = ""
-        if solved.x is None:
-            raise InputError("plan", scheme.id, f"a feasible plan ({solved.message}); the limit may be out of reach even at minimum stable load")
-        result_load = np.clip(solved.x[p0 : p0 + n], 0, rated)
-        scored = match(result_load, series.generation_kwh, eligible, rule, series.utc, local)
-        years_ok = True
-        worst = 0.0
-        for year in range(len(year_values)):
-            mask = year_of == year
-            if result_load[mask].sum() <= 0:
-                continue
-            intensity = counted_intensity(scored, result_load, model, series.grid_g_co2e_per_kwh, mask)[3] * scale(result_load[mask], output(result_load)[mask])
-            if intensity > cap_at_limit:
-                years_ok = False
-                worst = max(worst, intensity - cap)
-        if years_ok:
-            break
-        with np.errstate(invalid="ignore", divide="ignore"):
-            load_p = np.add.reduceat(result_load, starts)
-            weighted = np.add.reduceat(result_load * grid, starts)
-            period_grid = np.where(load_p > 0, weighted / np.where(load_p > 0, load_p, 1), period_grid)
-        if passes >= 3:
-            tightening += worst * 1.05
-    else:
-        notes.append("the plan scored back still misses the cap after 8 passes")
-    if gap_note:
-        notes.append(gap_note)
-    hydrogen = output(result_load)
-
-    def scheme_value(load):
-        scored = match(load, series.generation_kwh, eligible, rule, series.utc, local)
-        c = counted_intensity(scored, load, model, series.grid_g_co2e_per_kwh)[3]
-        return value_declared + slope * (c * scale(load, output(load)) - model.declared_kg_per_kwh), scored.matched_share
-
-    value, share = scheme_value(result_load)
-    full = np.full(n, rated)
+    value, share = scheme_value(load)
+    full = np.full(series.intervals, rated)
     base_value, base_share = scheme_value(full)
     base_h2 = float(output(full).sum())
     margin = base_margin = None
     if hydrogen_price is not None:
-        margin = float(hydrogen_price * hydrogen.sum() - series.price_per_mwh @ result_load / 1000.0)
+        margin = float(hydrogen_price * hydrogen.sum() - series.price_per_mwh @ load / 1000.0)
         base_margin = float(hydrogen_price * base_h2 - series.price_per_mwh @ full / 1000.0)
     qualifies = value <= limit + 1e-9 * max(1.0, abs(limit)) if inclusive else value < limit
     name = granularity or (rule if isinstance(rule, str) else "dated rule")
     return PlanResult(
-        scheme.id, "", limit, scheme.unit, name, rated, result_load, hydrogen, float(value), float(share), base_h2, float(base_value), float(base_share),
-        bool(qualifies), margin, base_margin, passes, notes, series.interval_minutes, design,
+        scheme.id, "", limit, scheme.unit, name, rated, load, hydrogen, float(value), float(share), base_h2, float(base_value), float(base_share),
+        bool(qualifies), margin, base_margin, passes, notes, series.interval_minutes, model.kwh_per_kg_h2,
     )
+
+
+@dataclass
+class _Scorer:
+    """A plan's loads scored back through the matching, as ``score`` would."""
+
+    series: ElectricitySeries
+    model: ElectricityModel
+    eligible: list[str]
+    rule: Any
+    output: Any
+    curve: bool
+
+    def scale(self, load: np.ndarray, hydrogen: np.ndarray) -> float:
+        """e / e_d: the kWh/kg the loads imply over the design kWh/kg (1 without a curve)."""
+        made = float(hydrogen.sum())
+        return float(load.sum()) / made / self.model.kwh_per_kg_h2 if self.curve and made > 0 else 1.0
+
+    def intensity(self, load: np.ndarray, mask: np.ndarray | slice = slice(None)) -> tuple[float, float]:
+        """Counted intensity of the plan's electricity over ``mask`` (kg CO2e/kWh, scaled by e / e_d) and the matched share."""
+        scored = match(load, self.series.generation_kwh, self.eligible, self.rule, self.series.utc, self.series.local)
+        counted = counted_intensity(scored, load, self.model, self.series.grid_g_co2e_per_kwh, mask)[3]
+        return counted * self.scale(load[mask], self.output(load)[mask]), scored.matched_share
+
+
+def _plan_passes(program: _Program, scorer: _Scorer, series: ElectricitySeries, scheme_id: str, cap_at_limit: float, time_limit_s: float, mip_gap: float):
+    """Solve, score back each year through the matching, and repeat with the plan's own period grid
+    intensities (and, from the third pass, a tighter cap) until every year meets the cap. Returns
+    (load, passes, notes)."""
+    n = series.intervals
+    grid = series.grid_g_co2e_per_kwh / 1000.0 if series.grid_g_co2e_per_kwh is not None else np.full(n, scorer.model.grid_kg_per_kwh)
+    starts = program.starts
+    cap = cap_at_limit - 1e-6 * max(abs(cap_at_limit), 0.1)  # a hair inside the limit: HiGHS meets constraints to about 1e-7
+    period_grid = np.add.reduceat(grid, starts) / np.diff(np.r_[starts, n])  # first guess: plain mean per period
+    single = np.diff(np.r_[starts, n]) == 1
+    tightening, notes, gap_note, load, passes = 0.0, [], "", None, 0
+    for passes in range(1, 9):
+        solved, gap_note = program.solve(np.where(single, grid[starts], period_grid), cap - tightening, time_limit_s, mip_gap)
+        if solved.x is None:
+            raise InputError("plan", scheme_id, f"a feasible plan ({solved.message}); the limit may be out of reach even at minimum stable load")
+        load = np.clip(solved.x[program.blocks.load], 0, program.upper[program.blocks.load])
+        worst = max((scorer.intensity(load, program.year_of == year)[0] - cap for year in range(program.years) if load[program.year_of == year].sum() > 0), default=-np.inf)
+        if worst + cap <= cap_at_limit:
+            break
+        with np.errstate(invalid="ignore", divide="ignore"):
+            load_p = np.add.reduceat(load, starts)
+            weighted = np.add.reduceat(load * grid, starts)
+            period_grid = np.where(load_p > 0, weighted / np.where(load_p > 0, load_p, 1), period_grid)
+        if passes >= 3:
+            tightening += max(worst, 0.0) * 1.05
+    else:
+        notes.append("the plan scored back still misses the cap after 8 passes")
+    if gap_note:
+        notes.append(gap_note)
+    return load, passes, notes
 
 
 def choose_threshold(scheme, tier: str | None):

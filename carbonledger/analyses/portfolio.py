@@ -27,6 +27,7 @@ from ..core.scoring import DEFAULT_GWP, assemble, prepare, rulebooks, solve_stac
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
+from ..model.statuses import Status
 from ..routes.project import load_project
 from .electricity_series import project_series
 from .matching import matched_checks, series_matched_periods
@@ -174,14 +175,14 @@ def status_of(old_status: str, new_status: str) -> str:
     """The change of a verdict: a check whose value met the limit before (qualifies or undetermined)
     and now fails 'newly fails'; one that now qualifies 'newly passes'; another change 'now ...';
     no change 'still ...'."""
-    words = {"qualifies": "passes", "fails": "fails", "not_eligible": "not eligible", "undetermined": "undetermined"}
+    words = {Status.QUALIFIES: "passes", Status.FAILS: Status.FAILS, Status.NOT_ELIGIBLE: "not eligible", Status.UNDETERMINED: Status.UNDETERMINED}
     if old_status == new_status:
         return f"still {words.get(new_status, new_status)}"
-    if new_status == "fails" and old_status in ("qualifies", "undetermined"):
+    if new_status == Status.FAILS and old_status in (Status.QUALIFIES, Status.UNDETERMINED):
         return "newly fails"
-    if new_status == "qualifies":
+    if new_status == Status.QUALIFIES:
         return "newly passes"
-    if new_status == "fails":
+    if new_status == Status.FAILS:
         return "still fails"
     return f"now {words.get(new_status, new_status)}"
 

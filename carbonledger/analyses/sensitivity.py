@@ -29,7 +29,7 @@ from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
-from .uncertainty import DEFAULT_SEED, Draws, draws_from_uniform, evaluate_in_blocks, limit_breaks, make_plan
+from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, draws_from_uniform, evaluate_in_blocks, limit_breaks, make_plan, no_usable_draw
 
 TORNADO_PERCENTILES = (0.10, 0.90)
 
@@ -137,12 +137,17 @@ def sensitivity(
         raise InputError(source, "uncertainty", "at least one distribution")
     if base_sample < 2 or base_sample & (base_sample - 1):
         raise InputError("--base-sample", str(base_sample), "a power of 2 (Sobol sequences keep their balance at powers of 2)")
+    check_seed(seed)
+    if base_sample * (len(names) + 2) > MAX_DRAWS:
+        raise InputError("--base-sample", str(base_sample), f"a sample of at most {MAX_DRAWS:,} evaluations, N x (inputs + 2) = {base_sample * (len(names) + 2):,} with {len(names)} inputs")
     problem = {"num_vars": len(names), "names": names, "bounds": [[0.0, 1.0]] * len(names)}
     u = np.clip(sobol_sample.sample(problem, base_sample, calc_second_order=False, seed=seed), 1e-12, 1 - 1e-12)
     drawn = draws_from_uniform(plan, u)
     outcome = evaluate_in_blocks(plan, drawn)
     values = _figure(outcome, scheme)
-    broken, _ = limit_breaks(plan, drawn, len(u))
+    broken, reasons = limit_breaks(plan, drawn, len(u))
+    if broken.all():
+        raise no_usable_draw(source, len(u), reasons)
     indices = sobol_analysis.analyze(problem, values, calc_second_order=False, seed=seed)
     sobol = [
         SobolIndex(

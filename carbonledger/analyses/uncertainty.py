@@ -53,8 +53,9 @@ from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row
-from ..model.project import BOUNDARIES, field_limits, parameter_field
+from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
+from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY, STAGES
 from ..routes.base import APART_FLOWS
@@ -64,11 +65,33 @@ from .matching import ElectricityModel, declared_and_grid_intensity, eligible_so
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
+MAX_DRAWS = 1_000_000  # a standard error of a probability below 0.05 %: beyond what a screening needs, within memory
+MAX_SEED = 2**32 - 1  # the seeds numpy and bw2calc both take
+MIN_CORRELATED_DRAWS = 10  # Iman-Conover needs the van der Waerden scores' correlation matrix to be positive definite
+MEMORY_PER_BLOCK_BYTES = 512 * 1024 * 1024  # the stacked matrices of one block of draws
 BLOCK = 20_000  # draws solved per stacked call (bounds memory; progress advances per block)
-STATUSES = ("qualifies", "fails")  # the statuses a draw can have today; more can be added here
+STATUSES = (Status.QUALIFIES, Status.FAILS)  # the statuses a draw can have today; more can be added here
 
 
 # --- sampling -----------------------------------------------------------------------------
+
+
+def check_draws(count: int, seed: int, option: str = "--draws") -> None:
+    """Refuse a draw count or seed no run can use, before any work (one InputError line)."""
+    if isinstance(count, bool) or not 2 <= count <= MAX_DRAWS:
+        raise InputError(option, str(count), f"a number of draws from 2 to {MAX_DRAWS:,}")
+    check_seed(seed)
+
+
+def check_seed(seed: int) -> None:
+    if isinstance(seed, bool) or not 0 <= seed <= MAX_SEED:
+        raise InputError("--seed", str(seed), f"a whole number from 0 to {MAX_SEED}")
+
+
+def no_usable_draw(source: str, count: int, reasons: list[dict]) -> InputError:
+    """The refusal of a run whose every draw breaks a physical limit (statistics over no draw mean nothing)."""
+    first = max(reasons, key=lambda reason: reason["draws"]) if reasons else {"field": "uncertainty", "expected": "a physical value"}
+    return InputError(source, "uncertainty", f"distributions that leave at least one draw within the physical limits; all {count:,} draws break one (most often {first['field']}: expected {first['expected']})")
 
 
 def uniform_draws(count: int, dimensions: int, seed: int, sampling: str) -> np.ndarray:
@@ -187,7 +210,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
         elif not distribution.numeric_values():
             raise InputError(source, where, "numbers as the values of a discrete distribution of a numeric parameter")
         if path.startswith("electricity.sources.") and path.endswith(".share"):
-            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{name}.share" != path)
+            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != path)
             if not others > 0:
                 raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
         fields[path] = (nominal, info)
@@ -260,6 +283,8 @@ def draw(plan: Plan, count: int, seed: int = DEFAULT_SEED, sampling: str | None 
     names = uncertainty.names()
     u = uniform_draws(count, len(names), seed, sampling or uncertainty.sampling)
     target = correlation_matrix(uncertainty, names, plan.source)
+    if target is not None and count < max(MIN_CORRELATED_DRAWS, 2 * len(names)):
+        raise InputError("--draws", str(count), f"at least {max(MIN_CORRELATED_DRAWS, 2 * len(names))} draws to impose rank correlations on {len(names)} inputs")
     if target is not None:
         u = rank_correlated(u, target, seed)
     return draws_from_uniform(plan, u)
@@ -288,7 +313,7 @@ def draws_from_uniform(plan: Plan, u: np.ndarray) -> Draws:
 
 def _set(params: dict, path: str, value) -> None:
     node = params
-    parts = path.split(".")
+    parts = split_path(path)
     for part in parts[:-1]:
         node = node[part]
     node[parts[-1]] = value
@@ -302,7 +327,7 @@ def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
     for path, values in parameters.items():
         _set(params, path, values)
         if path.startswith("electricity.sources.") and path.endswith(".share"):
-            name = path.split(".")[2]
+            name = split_path(path)[2]
             sources = params["electricity"]["sources"]
             nominal_share = plan.fields[path][0]
             for other, item in sources.items():
@@ -408,9 +433,9 @@ def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.n
     route cannot apply it."""
     rule = co_product_rule(scheme, nominal)
     open_draws = np.zeros(count, dtype=bool)
-    if rule is None or not rule.differs or status_of(findings, True) == "not_eligible":
+    if rule is None or not rule.differs or status_of(findings, True) == Status.NOT_ELIGIBLE:
         return values, open_draws
-    keep = np.asarray(scheme.loosest().met_by(values), dtype=bool) & (status_of(findings, True) == "qualifies") if rule.upper_bound else open_draws
+    keep = np.asarray(scheme.loosest().met_by(values), dtype=bool) & (status_of(findings, True) == Status.QUALIFIES) if rule.upper_bound else open_draws
     if rule.rescore:
         data = plan.project.model_dump()
         section, name = rule.parameter.split(".")
@@ -540,12 +565,21 @@ def _join(outcomes: list[Outcome]) -> Outcome:
     )
 
 
+def draws_per_block(plan: Plan) -> int:
+    """How many draws one stacked solve takes: ``BLOCK``, fewer when the system is large, so that the
+    stacked matrices (draws x activities x activities, 8 bytes each, a few copies) stay within
+    ``MEMORY_PER_BLOCK_BYTES`` whatever the number of electricity sources."""
+    activities = len(build_inventory(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source)).activities)
+    return int(max(1, min(BLOCK, MEMORY_PER_BLOCK_BYTES // (4 * 8 * activities**2))))
+
+
 def evaluate_in_blocks(plan: Plan, draws: Draws, progress: Callable[[int], None] | None = None) -> Outcome:
     """``evaluate`` over blocks of at most ``BLOCK`` draws (the same numbers, bounded memory)."""
     count = len(draws.uniform)
     outcomes = []
-    for start in range(0, count, BLOCK):
-        rows = slice(start, min(start + BLOCK, count))
+    block = draws_per_block(plan)
+    for start in range(0, count, block):
+        rows = slice(start, min(start + block, count))
         outcomes.append(evaluate(plan, _take(draws, rows), rows.stop - rows.start))
         if progress is not None:
             progress(rows.stop - rows.start)
@@ -706,11 +740,11 @@ def statuses(scheme, values: np.ndarray, findings: list | None = None, co_produc
     met = np.asarray(scheme.loosest().met_by(values), dtype=bool)
     findings = findings or []
     none = np.zeros_like(met)
-    if status_of(findings, True) == "not_eligible":
-        return {"qualifies": none, "fails": none, "not_eligible": ~none, "undetermined": none}
-    open_rule = status_of(findings, True) == "undetermined"
+    if status_of(findings, True) == Status.NOT_ELIGIBLE:
+        return {Status.QUALIFIES: none, Status.FAILS: none, Status.NOT_ELIGIBLE: ~none, Status.UNDETERMINED: none}
+    open_rule = status_of(findings, True) == Status.UNDETERMINED
     forced = none if co_product_open is None else np.asarray(co_product_open, dtype=bool)
-    return {"qualifies": met & ~open_rule & ~forced, "fails": ~met & ~forced, "not_eligible": none, "undetermined": (met & open_rule) | forced}
+    return {Status.QUALIFIES: met & ~open_rule & ~forced, Status.FAILS: ~met & ~forced, Status.NOT_ELIGIBLE: none, Status.UNDETERMINED: (met & open_rule) | forced}
 
 
 def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
@@ -740,13 +774,15 @@ def draw_columns(plan: Plan, draws: Draws, outcome: Outcome, used: np.ndarray) -
 def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str, keep_draws: bool = False) -> UncertaintyResult:
     count = len(draws.uniform)
     broken, reasons = limit_breaks(plan, draws, count)
+    if broken.all():
+        raise no_usable_draw(plan.source, count, reasons)
     used = ~broken
     checks = []
     for scheme in outcome.schemes:
         values = outcome.scheme_values[scheme.id][used]
         by_status = statuses(scheme, values, outcome.scheme_findings.get(scheme.id), outcome.co_product_open.get(scheme.id, np.zeros(len(used), dtype=bool))[used])
         status = {name: probability(hits) for name, hits in by_status.items()}
-        tiers = np.where(by_status["qualifies"], best_tiers(scheme, values), "none")
+        tiers = np.where(by_status[Status.QUALIFIES], best_tiers(scheme, values), "none")
         tier_names = [t.tier for t in sorted(scheme.thresholds, key=lambda t: t.limit)] + ["none"]
         checks.append(
             CheckProbability(
@@ -756,8 +792,8 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
                 unit=scheme.unit,
                 limit=scheme.loosest().limit,
                 value=summary(values),
-                probability_qualifies=status["qualifies"].probability,
-                standard_error=status["qualifies"].standard_error,
+                probability_qualifies=status[Status.QUALIFIES].probability,
+                standard_error=status[Status.QUALIFIES].standard_error,
                 statuses=status,
                 tiers={name: probability(tiers == name) for name in tier_names},
                 from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
@@ -823,8 +859,7 @@ def monte_carlo(
     series : the project's electricity time series; every scheme value of every draw is then
         matched under the scheme's rule, as ``score`` does.
     """
-    if draws < 2:
-        raise InputError("--draws", str(draws), "at least 2 draws")
+    check_draws(draws, seed)
     plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series, year=year)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)

@@ -1,27 +1,96 @@
 """Command line: a thin typer layer over the library API (``carbonledger.api``).
 
 Every bad input ends in one line on stderr (``error: FILE: FIELD: expected ...``) and exit code 2.
-Each command module holds plain functions; this module builds the app and registers them.
+Each command module holds plain functions; this module builds the app and registers them by name.
+A command's module (and with it the library it needs) is imported only when that command runs, so
+``carbonledger --help`` imports typer and this module alone: the command list is read from the
+command functions' docstrings in the source, without importing them (the lazy subcommands of the
+click documentation, "Advanced patterns: lazily loading subcommands").
 """
 
 from __future__ import annotations
 
+import ast
+import functools
+import importlib
 import sys
+from pathlib import Path
 from typing import Annotated
 
 import typer
+from typer.core import TyperCommand, TyperGroup
 
 from ..about import __version__
-from . import compare, factors, plan, project_commands, recalc, report, uncertainty, workbook
+
+# name -> (module of carbonledger.cli, function); "factors" is a group: the module's ``app``
+COMMANDS = {
+    "score": ("project_commands", "score"),
+    "params": ("project_commands", "params"),
+    "compare": ("compare", "compare"),
+    "workbook": ("workbook", "workbook"),
+    "report": ("report", "report"),
+    "recalc": ("recalc", "recalc"),
+    "history": ("recalc", "history"),
+    "plan": ("plan", "plan"),
+    "schemes": ("project_commands", "schemes"),
+    "uncertainty": ("uncertainty", "uncertainty"),
+    "headroom": ("uncertainty", "headroom"),
+    "sensitivity": ("uncertainty", "sensitivity"),
+    "init": ("project_commands", "init"),
+    "factors": ("factors", "factors"),
+}
+GROUPS = {"factors"}
+
+
+@functools.cache
+def load_command(name: str):
+    """The click command of ``name``, built once per process (its module imported now)."""
+    module_name, function_name = COMMANDS[name]
+    module = importlib.import_module(f"{__name__}.{module_name}")
+    if name in GROUPS:
+        command = typer.main.get_command(module.app)
+    else:
+        single = typer.Typer(rich_markup_mode=None, add_completion=False)
+        single.command(name)(getattr(module, function_name))
+        command = typer.main.get_command(single)
+    command.name = name
+    return command
+
+
+@functools.cache
+def docstring(name: str) -> str:
+    """The docstring of a command's function, read from its module's source (nothing imported)."""
+    module_name, function_name = COMMANDS[name]
+    tree = ast.parse((Path(__file__).parent / f"{module_name}.py").read_text(encoding="utf-8"))
+    return next(ast.get_docstring(node) or "" for node in tree.body if isinstance(node, ast.FunctionDef) and node.name == function_name)
+
+
+class LazyGroup(TyperGroup):
+    """The root group: commands listed from ``COMMANDS``, each loaded when it is invoked or asked for help."""
+
+    def list_commands(self, ctx) -> list[str]:
+        return [*super().list_commands(ctx), *(name for name in COMMANDS if name not in self.commands)]
+
+    def get_command(self, ctx, cmd_name: str):
+        if cmd_name in COMMANDS and cmd_name not in self.commands:
+            return load_command(cmd_name)
+        return super().get_command(ctx, cmd_name)
+
+    def format_commands(self, ctx, formatter) -> None:
+        names = self.list_commands(ctx)
+        limit = formatter.width - 6 - max(len(name) for name in names)
+        rows = [(name, TyperCommand(name, help=docstring(name)).get_short_help_str(limit)) for name in names]
+        with formatter.section("Commands"):
+            formatter.write_dl(rows)
+
 
 app = typer.Typer(
+    cls=LazyGroup,
     add_completion=False,
     no_args_is_help=True,
     rich_markup_mode=None,
     help="Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for screening and reporting support, not a certification.",
 )
-factors_app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, help="Browse the factor library.")
-app.add_typer(factors_app, name="factors")
 
 
 def _version(value: bool) -> None:
@@ -35,26 +104,6 @@ def _main(
     version: Annotated[bool, typer.Option("--version", callback=_version, is_eager=True, help="Print the version and exit.")] = False,
 ) -> None:
     """Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for screening and reporting support, not a certification."""
-
-
-app.command()(project_commands.score)
-app.command()(project_commands.params)
-app.command()(compare.compare)
-app.command()(workbook.workbook)
-app.command()(report.report)
-app.command()(recalc.recalc)
-app.command()(recalc.history)
-app.command()(plan.plan)
-app.command()(project_commands.schemes)
-app.command()(uncertainty.uncertainty)
-app.command()(uncertainty.headroom)
-app.command()(uncertainty.sensitivity)
-app.command()(project_commands.init)
-factors_app.command("list")(factors.factors_list)
-factors_app.command("show")(factors.factors_show)
-factors_app.command("sets")(factors.factors_sets)
-factors_app.command("diff")(factors.factors_diff)
-factors_app.command("grades")(factors.factors_grades)
 
 
 def main() -> None:

@@ -8,7 +8,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
-from ..analyses.uncertainty import DEFAULT_SEED
+from ..analyses.uncertainty import DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.compare_output import (
     comparison_csv,
@@ -55,6 +55,8 @@ def compare(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
+        if draws is not None:
+            check_draws(draws, seed)
         if draws is None and distributions is not None:
             raise InputError("compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)")
         result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis, draws=draws, seed=seed, distributions=distributions, year=year)

@@ -23,6 +23,10 @@ def _listed(factor) -> dict:
     return {**factor_row(factor), "origin": factor.origin}
 
 
+def factors() -> None:
+    """Browse the factor library."""
+
+
 def factors_list(
     factors: FactorsOption = "default-2026",
     prefix: Annotated[str, typer.Option("--prefix", help="Only ids starting with this text.")] = "",
@@ -188,3 +192,12 @@ def factors_grades(
         ),
         nl=False,
     )
+
+
+app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, add_completion=False)
+app.callback()(factors)
+app.command("list")(factors_list)
+app.command("show")(factors_show)
+app.command("sets")(factors_sets)
+app.command("diff")(factors_diff)
+app.command("grades")(factors_grades)

@@ -59,3 +59,16 @@ def check_chart_path(chart: Path | None, force: bool) -> None:
         raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
     if chart.exists() and not force:
         raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+    check_output_path(chart, force, "--chart")
+
+
+def check_output_path(path: Path, force: bool, option: str) -> None:
+    """Refuse, before any work, an output path that ``atomic_write`` would refuse after it: a folder, an
+    existing file without --force, a missing folder. A command checks every output first, then writes."""
+    if path.is_dir():
+        raise InputError(path, option, "a file path, not a folder (a folder is never overwritten, even with --force)")
+    if path.exists() and not force:
+        raise InputError(path, option, "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.is_dir():
+        raise InputError(path, option, f"a path in an existing folder ('{folder}' does not exist)")

@@ -14,7 +14,7 @@ from ..analyses.plan import PlanResult, parse_part_load, plan_csv
 from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
-from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, YearOption, fail, render
+from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, YearOption, check_output_path, fail, render
 
 
 def summary(plan: PlanResult) -> dict:
@@ -89,13 +89,20 @@ def plan(
     try:
         if output.exists() and not force:
             raise InputError(output, "--output", "a new file (it exists; pass --force to overwrite)")
+        check_output_path(output, force, "--output")
         result, series = api.plan(
             project, scheme=scheme, tier=tier, rated_kw=rated_kw, min_load=min_load, part_load=parse_part_load(part_load),
             hydrogen_price=hydrogen_price, matching=matching, factors=factors, gwp=gwp, overrides=set_, year=year,
         )
         text = plan_csv(series, result)
+        figures = summary(result)
+        shown = render(  # everything is rendered before the plan file is written: a refusal never follows a write
+            output_format,
+            table=lambda: table(figures, output),
+            json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False),
+            csv=lambda: csv_text(("section", "key", "value", "unit"), [("plan", k, v, "") for k, v in figures.items() if k not in ("notes", "score_back_set")], caution=CAUTION),
+        )
         atomic_write(output, lambda tmp: tmp.write_text(text, encoding="utf-8"), force=force)
     except InputError as error:
         fail(error)
-    figures = summary(result)
-    typer.echo(render(output_format, table=lambda: table(figures, output), json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False), csv=lambda: csv_text(("section", "key", "value", "unit"), [("plan", k, v, "") for k, v in figures.items() if k not in ("notes", "score_back_set")], caution=CAUTION)), nl=False)
+    typer.echo(shown, nl=False)

@@ -9,10 +9,10 @@ import typer
 
 from .. import api
 from ..about import CAUTION
-from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
+from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.report import PAPERS, print_pdf, render_report, write_report
-from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, YearOption, fail
+from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, YearOption, check_output_path, fail
 
 
 def report(
@@ -34,11 +34,13 @@ def report(
     try:
         if output.suffix.lower() not in (".html", ".htm"):
             raise InputError(output, "--output", f"a file ending in .html, got '{output.suffix or 'no suffix'}'")
+        check_draws(draws, seed)  # before any work, even when no project has an [uncertainty] table
         if paper.lower() not in PAPERS:
             raise InputError("--paper", paper, "a4 or letter")
         for target in [output] + ([pdf] if pdf is not None else []):
             if target.exists() and not force:
                 raise InputError(target, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+            check_output_path(target, force, "--output" if target == output else "--pdf")
         if pdf is not None and pdf.suffix.lower() != ".pdf":
             raise InputError(pdf, "--pdf", f"a file ending in .pdf, got '{pdf.suffix or 'no suffix'}'")
         items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed, year=year)

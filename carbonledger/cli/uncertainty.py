@@ -11,7 +11,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
-from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED
+from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.sensitivity_output import sensitivity_csv, sensitivity_table, write_sensitivity_chart
@@ -94,6 +94,7 @@ def uncertainty(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
+        check_draws(draws, seed)  # before any project is read, on one process or a cluster
         options = {
             "distributions": distributions,
             "draws": draws,

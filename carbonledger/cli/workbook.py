@@ -8,7 +8,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
-from ..analyses.uncertainty import DEFAULT_SEED
+from ..analyses.uncertainty import DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.workbook.uncertainty_sheet import draws_csv_path, write_draws_csv
@@ -23,6 +23,7 @@ from .options import (
     SchemeOption,
     SetOption,
     YearOption,
+    check_output_path,
     explicit,
     fail,
 )
@@ -53,9 +54,13 @@ def workbook(
         where = ledger_for_run(ledger, not no_ledger)
         if draws is None and (draws_csv or distributions is not None):
             raise InputError("workbook", "--draws", "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)")
+        if draws is not None:
+            check_draws(draws, seed)
         csv_path = draws_csv_path(output) if draws_csv else None
         if csv_path is not None and csv_path.exists() and not force:
             raise InputError(csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)")
+        if csv_path is not None:
+            check_output_path(csv_path, force, "--draws-csv")
         if (project is None) == (from_workbook is None):
             raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
         if output.suffix.lower() != ".xlsx":

@@ -24,6 +24,7 @@ from ..errors import InputError, did_you_mean, match_id
 from ..model.factors import Factor, FactorSet
 from ..model.project import as_date, boundary_id
 from ..model.rulebooks import Scheme, grade_note, load_schemes, select_schemes
+from ..model.statuses import Status
 from ..routes import HYDROGEN_ROUTES, STAGES
 from ..routes.base import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
 from ..routes.project import validate_project
@@ -312,12 +313,12 @@ def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
     room the terms it cannot judge have."""
     verdict = scheme.evaluate(value)
     status = status_of(findings, verdict["passes"])
-    verdict["passes"] = status == "qualifies"
-    if status != "qualifies":
+    verdict["passes"] = status == Status.QUALIFIES
+    if status != Status.QUALIFIES:
         verdict["tier"] = None
-    if status == "not_eligible":
+    if status == Status.NOT_ELIGIBLE:
         verdict["margin"] = None
-    if status == "undetermined":
+    if status == Status.UNDETERMINED:
         room = f"qualifies if what cannot be judged adds at most {figure(verdict['margin'])} {scheme.unit} and meets its rule"
         findings = [Finding(f.step, f.outcome, f"{f.text}; {room}", f.charged) if f.outcome == UNKNOWN and f.step == "boundary" else f for f in findings]
     return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_finding(scheme, value))}
@@ -430,9 +431,9 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
         if not rule.differs:
             why = "the rulebook states no co-product rule: the project's method is used" if required == "not_stated" else "the project's method is the scheme's rule"
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
-        elif check.status == "not_eligible":
+        elif check.status == Status.NOT_ELIGIBLE:
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}}))
-        elif rule.upper_bound and check.status == "qualifies":
+        elif rule.upper_bound and check.status == Status.QUALIFIES:
             why = (f"the project gives the {rule.co_product} no share of the burden, so the value is an upper bound of the scheme's {required} "
                    "(an allocation or a credit for the displaced product can only lower it): it qualifies under the scheme's rule too, at this tier or a better one")
             out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
@@ -442,7 +443,7 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
         else:
             sentence = f"cannot be judged: co-products: the rulebook requires {required} for the {rule.co_product} ({info['source']}); {rule.missing}; the value uses the project's {method}"
             out.append(check.model_copy(update={
-                "status": "undetermined", "passes": False, "tier": None, "reasons": [sentence, *check.reasons],
+                "status": Status.UNDETERMINED, "passes": False, "tier": None, "reasons": [sentence, *check.reasons],
                 "co_products": {**info, "applied": method, "note": sentence},
             }))
     return out

@@ -35,6 +35,7 @@ from dataclasses import dataclass, field
 
 from ..model.project import as_date
 from ..model.rulebooks import PERIODS, Scheme, grade_note
+from ..model.statuses import Status
 
 MET, NOT_MET, UNKNOWN, NOTE = "met", "not met", "cannot be judged", "note"  # a note never decides
 GRID_KINDS = ("grid", "residual_mix")
@@ -417,12 +418,12 @@ def boundary_findings(scheme: Scheme, present_stages: set[str], reference_produc
 
 def status_of(findings: list[Finding], threshold_met: bool) -> str:
     if any(f.step == "eligibility" and f.outcome == NOT_MET for f in findings):
-        return "not_eligible"
+        return Status.NOT_ELIGIBLE
     if not threshold_met:
-        return "fails"
+        return Status.FAILS
     if any(f.outcome == UNKNOWN for f in findings):
-        return "undetermined"
-    return "qualifies"
+        return Status.UNDETERMINED
+    return Status.QUALIFIES
 
 
 def ordered_reasons(status: str, findings: list[Finding], threshold: Finding | None) -> list[str]:
@@ -432,12 +433,12 @@ def ordered_reasons(status: str, findings: list[Finding], threshold: Finding | N
     undetermined: what cannot be judged; qualifies: the threshold; not eligible: the eligibility
     rules not met.
     """
-    if status == "not_eligible":
+    if status == Status.NOT_ELIGIBLE:
         first = [f for f in findings if f.step == "eligibility" and f.outcome == NOT_MET]
         threshold = None
-    elif status == "fails":
+    elif status == Status.FAILS:
         first = [f for f in findings if f.charged] + [threshold]
-    elif status == "undetermined":
+    elif status == Status.UNDETERMINED:
         first = [f for f in findings if f.outcome == UNKNOWN]
     else:
         first = [threshold]

@@ -12,6 +12,11 @@ from .files import atomic_write
 
 CHART_FORMATS = ("png", "svg")
 
+# Every chart is drawn under these settings. Names come from users: with mathematical notation
+# and TeX off, "$x$" or "a $ b" is drawn as typed (an unbalanced "$" no longer fails to draw).
+# A fixed salt makes the SVG's clip-path ids, and so the file, the same on every run.
+CHART_SETTINGS = {"text.usetex": False, "text.parse_math": False, "svg.hashsalt": "carbonledger"}
+
 
 def write_figure(path: str | Path, make_figure: Callable[[], object], force: bool = False, *, svg_text: bool = False) -> Path:
     """Draw ``make_figure()`` and save it to ``path``; ``svg_text`` keeps SVG text as text (searchable, read aloud)."""
@@ -19,15 +24,16 @@ def write_figure(path: str | Path, make_figure: Callable[[], object], force: boo
     kind = path.suffix.lower().lstrip(".")
     if kind not in CHART_FORMATS:
         raise InputError(path, "--chart", f"a file ending in .png or .svg, got '{path.suffix or 'no suffix'}'")
-    figure = make_figure()
     import matplotlib
-    import matplotlib.pyplot as plt
 
-    def save(tmp: Path) -> None:
-        with matplotlib.rc_context({"svg.fonttype": "none"} if svg_text else {}):
+    with matplotlib.rc_context(CHART_SETTINGS | ({"svg.fonttype": "none"} if svg_text else {})):
+        figure = make_figure()
+        import matplotlib.pyplot as plt
+
+        def save(tmp: Path) -> None:
             figure.savefig(tmp, format=kind, dpi=150, metadata={"Date": None} if kind == "svg" else None)
 
-    try:
-        return atomic_write(path, save, force=force)
-    finally:
-        plt.close(figure)
+        try:
+            return atomic_write(path, save, force=force)
+        finally:
+            plt.close(figure)

@@ -123,12 +123,6 @@ def render_comparison(result: ComparisonResult) -> str:
     return console.export_text()
 
 
-def _chart_text(text: str) -> str:
-    """Text as typed on a matplotlib chart: a ``$`` would start mathematical notation (and an
-    unbalanced one fails to draw), so it is escaped."""
-    return text.replace("$", r"\$")
-
-
 def monthly_matching(result: ComparisonResult) -> tuple[str, list[str], dict[str, tuple[list[float], list[float]]]]:
     """What the chart's monthly panel shows, read from the checks (never recomputed): the scheme whose
     matching leaves the most electricity unmatched over the projects with a series (the strictest rule
@@ -164,10 +158,10 @@ def _monthly_panel(axes, result: ComparisonResult) -> None:
         positions = [index - 0.4 + width * (number + 0.5) for index in range(len(months))]
         matched_mwh = [v / 1000.0 for v in matched]
         colour = colours[number % len(colours)]
-        bars = axes.bar(positions, matched_mwh, width=width, color=colour, label=f"{_chart_text(label)}: matched")
+        bars = axes.bar(positions, matched_mwh, width=width, color=colour, label=f"{label}: matched")
         for index, patch in enumerate(bars.patches):
             patch.set_gid(f"matched-{number}-{months[index]}")
-        bars = axes.bar(positions, [v / 1000.0 for v in unmatched], bottom=matched_mwh, width=width, color="white", edgecolor=colour, hatch="///", label=f"{_chart_text(label)}: unmatched (grid)")
+        bars = axes.bar(positions, [v / 1000.0 for v in unmatched], bottom=matched_mwh, width=width, color="white", edgecolor=colour, hatch="///", label=f"{label}: unmatched (grid)")
         for index, patch in enumerate(bars.patches):
             patch.set_gid(f"unmatched-{number}-{months[index]}")
     axes.set_xticks(range(len(months)), months, rotation=60, ha="right", fontsize=7)
@@ -184,7 +178,7 @@ def comparison_figure(result: ComparisonResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    labels = [_chart_text(_label(p)) for p in result.projects]
+    labels = [_label(p) for p in result.projects]
     with_series = bool(monthly_matching(result)[2])
     width = max(7.0, 1.5 * len(labels) + 3.5)
     if with_series:
@@ -220,7 +214,7 @@ def comparison_figure(result: ComparisonResult):
             tops[position] = max(tops[position], band.p95)
     for position, project in zip(positions, result.projects, strict=True):
         axes.annotate(display_number(project.value), (position, max(tops[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
-    for limit, text in ((line.limit, _chart_text(line.label)) for line in result.thresholds):
+    for limit, text in ((line.limit, line.label) for line in result.thresholds):
         axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
         axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
     axes.set_xticks(positions, labels, rotation=20, ha="right", fontsize=8)

@@ -72,16 +72,12 @@ def number(value: float | None) -> str:
 
 
 def status_of(check: Check) -> str:
-    """The verdict's status: ``check.status`` when the verdict rules provide it, else pass/fail."""
-    status = getattr(check, "status", None)
-    if status is None:
-        return "qualifies" if check.passes else "fails"
-    return str(getattr(status, "value", status)).replace("_", " ").replace("-", " ")
+    """The verdict's status as words (``not_eligible`` -> ``not eligible``)."""
+    return str(getattr(check.status, "value", check.status)).replace("_", " ").replace("-", " ")
 
 
 def reasons_of(check: Check) -> list[str]:
-    reasons = getattr(check, "reasons", None) or []
-    return [str(getattr(r, "text", r)) for r in reasons]
+    return [str(reason) for reason in check.reasons]
 
 
 def badge(status: str) -> str:

@@ -29,7 +29,7 @@ def sensitivity_table(result: Sensitivity) -> str:
 
     console = console_for_text()
     limit = f"; limit {display_number(result.limit)} {result.unit}" if result.limit is not None else ""
-    console.print(f"[bold]{result.project}[/bold]: sensitivity of {result.figure} ({result.unit}); project value {display_number(result.base)}{limit}")
+    console.print(f"{result.project}: sensitivity of {result.figure} ({result.unit}); project value {display_number(result.base)}{limit}")
     console.print(f"Sobol indices: SALib, N = {result.base_sample} ({result.evaluations:,} evaluations), seed {result.seed}; inputs drawn independently (rank correlations not imposed)")
     if result.evaluations_breaking_limits:
         console.print(f"{result.evaluations_breaking_limits:,} evaluations break a physical limit; the Sobol estimator keeps them (it needs every point)")

@@ -2,14 +2,14 @@
 
 from __future__ import annotations
 
-import csv
-import io
 import json
 
+from ..about import CAUTION
 from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
 from .chart_files import write_figure
-from .tables import INTENSITY_UNITS, display_number
+from .csv_text import csv_text
+from .tables import INTENSITY_UNITS, display_number, plain_console
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
 
@@ -55,11 +55,8 @@ def uncertainty_rows(result: UncertaintyResult) -> list[tuple]:
 
 
 def rows_to_csv(header: tuple, rows: list[tuple]) -> str:
-    buffer = io.StringIO()
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(header)
-    writer.writerows(rows)
-    return buffer.getvalue()
+    """CSV through the one writer of every command: formula-looking text escaped, a caution row last."""
+    return csv_text(header, rows, caution=CAUTION)
 
 
 def uncertainty_csv(result: UncertaintyResult) -> str:
@@ -67,9 +64,8 @@ def uncertainty_csv(result: UncertaintyResult) -> str:
 
 
 def console_for_text(width: int = 120):
-    from rich.console import Console
-
-    return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
+    """A console that prints names as typed: ``[...]``, ``:name:`` and ``[/]`` are text, never markup."""
+    return plain_console(width)
 
 
 def display_spec(value) -> str:
@@ -84,7 +80,7 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     from rich.table import Table
 
     console = console_for_text(140)
-    console.print(f"[bold]{result.project}[/bold]  ({result.boundary}; {result.functional_unit})")
+    console.print(f"{result.project}  ({result.boundary}; {result.functional_unit})")
     console.print(
         f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
         f"sampling {result.sampling.replace('_', ' ')}; GWP100 {result.gwp_basis.upper()}; factors {result.factor_set['name']}"

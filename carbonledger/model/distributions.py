@@ -53,7 +53,7 @@ References
 
 from __future__ import annotations
 
-import tomllib
+import math
 from pathlib import Path
 from typing import Annotated, Literal, Union
 
@@ -62,14 +62,38 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, computed_fie
 
 from ..errors import InputError
 from .factors import factors_root
+from .input_files import read_input_bytes
 from .pedigree import parse_scores, pedigree_gsd, pedigree_table
+from .project import MAX_PROJECT_BYTES, loads_toml
 
 SAMPLINGS = ("random", "latin_hypercube")
 KINDS = ("normal", "lognormal", "triangular", "uniform", "discrete", "pedigree")
 
 
+MAX_MAGNITUDE = 1e15  # larger than any parameter or factor in its own unit; beyond it draws overflow in products
+
+
+def numbers_only(value, field: str, text_allowed: bool = False):
+    """Refuse a truth value, or text, where a number is written (TOML's ``true`` is not 1, ``"0.5"`` is
+    text); ``nan`` and ``inf`` are refused by the models (``allow_inf_nan=False``), as in a project file."""
+    for item in value if isinstance(value, list) else [value]:
+        if isinstance(item, bool) or (isinstance(item, str) and not text_allowed):
+            kind = "a truth value" if isinstance(item, bool) else "text"
+            raise ValueError(f"a number, got {item!r} ({kind})")
+        if isinstance(item, float) and not math.isfinite(item):
+            raise ValueError(f"a finite number (no nan or inf), got {item!r}")
+        if isinstance(item, (int, float)) and abs(item) > MAX_MAGNITUDE:
+            raise ValueError(f"a number of magnitude at most {MAX_MAGNITUDE:g}, got {item:g}")
+    return value
+
+
 class _Distribution(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
+
+    @field_validator("mean", "sd", "median", "gsd", "low", "mode", "high", "basic_gsd", "values", "weights", mode="before", check_fields=False)
+    @classmethod
+    def _numbers_are_numbers(cls, value, info):
+        return numbers_only(value, info.field_name, text_allowed=info.field_name == "values")
 
     def numeric_values(self) -> bool:
         return True
@@ -238,9 +262,14 @@ Distribution = Annotated[Union[Normal, Lognormal, Pedigree, Triangular, Uniform,
 
 
 class Correlation(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
     inputs: list[str] = Field(min_length=2, max_length=2)
     rank: float = Field(ge=-1, le=1, description="Spearman rank correlation")
+
+    @field_validator("rank", mode="before")
+    @classmethod
+    def _rank_is_a_number(cls, value):
+        return numbers_only(value, "rank")
 
 
 class Uncertainty(BaseModel):
@@ -272,7 +301,7 @@ def parse_uncertainty(data: dict, source: str, prefix: str = "uncertainty") -> U
         return Uncertainty.model_validate(data)
     except ValidationError as error:
         first = error.errors()[0]
-        loc = [str(part) for part in first["loc"] if part not in KINDS]
+        loc = [str(part) for part in first["loc"] if part not in KINDS and not str(part).startswith(("list[", "tuple["))]
         field = ".".join([part for part in [prefix, *loc] if part])
         kind = first["type"]
         context = first.get("ctx") or {}
@@ -298,12 +327,12 @@ def read_distributions_file(path: str | Path) -> Uncertainty:
     """A distributions TOML file: the same keys as a project's ``[uncertainty]`` table, at the top level
     (an ``[uncertainty]`` table inside it is read too)."""
     path = Path(path)
+    raw = read_input_bytes(path, "distributions file", MAX_PROJECT_BYTES)
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except OSError as error:
-        raise InputError(path, "", f"a readable distributions file ({error.strerror})") from None
-    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as error:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError as error:
         raise InputError(path, "", f"valid UTF-8 TOML ({error})") from None
+    data = loads_toml(text, path)  # nested at most as deep as a project file
     nested = "uncertainty" in data
     return parse_uncertainty(data["uncertainty"] if nested else data, str(path), prefix="uncertainty" if nested else "")
 

@@ -31,6 +31,7 @@ from pydantic import BaseModel, ConfigDict, Field, computed_field, model_seriali
 
 from ..errors import InputError, did_you_mean, match_id
 from .grades import Grade, parse_grade
+from .input_files import read_input_bytes
 from .pedigree import parse_scores
 
 UNCERTAINTY_COLUMNS = ("pedigree", "basic_gsd")  # optional: pedigree-matrix default uncertainty (model/pedigree.py)
@@ -154,32 +155,53 @@ def available_sets() -> list[str]:
 
 _GASES = ("CO2e", "CO2", "CH4", "N2O")
 _ENERGY = ("J", "kJ", "MJ", "GJ", "TJ", "PJ", "Wh", "kWh", "MWh", "GWh")
+_MJ = {"J": 1e-6, "kJ": 1e-3, "MJ": 1.0, "GJ": 1e3, "TJ": 1e6, "PJ": 1e9, "Wh": 3.6e-3, "kWh": 3.6, "MWh": 3.6e3, "GWh": 3.6e6}
+_KG = {"mg": 1e-6, "g": 1e-3, "kg": 1.0, "t": 1e3, "Mg": 1e3, "Gg": 1e6}
+# Upper ends of the physical ranges, in canonical units. Facts of the trade: the largest GWP100 of
+# IPCC AR6 WG1 Table 7.SM.7 is about 25,000 (SF6); burning pure carbon releases 0.11 kg CO2/MJ
+# and no fuel chain emits 10 kg CO2e/MJ; hydrogen has the highest heating value per mass of any fuel,
+# 141.9 MJ/kg (HHV). Larger values are typing errors (a 1e308 overflows every sum it enters).
+MAX_GWP = 1e5  # kg CO2e/kg
+MAX_EMISSION_KG_PER_MJ = 10.0
+MAX_EMISSION_KG_PER_KG = 1e4
+MAX_HEATING_VALUE_MJ_PER_KG = 200.0
+MAX_OTHER = 1e9  # any other factor, in its own unit (per MW, per unit, per tonne-km...)
 
 
 def physical_range(factor_id: str, unit: str) -> tuple[float | None, bool, float | None, str]:
     """The physically possible range of a factor, decided by its id and unit (one rule for every
     factor, whatever file it comes from): (low, low inclusive, high, what the value is).
 
-    - a global warming potential (``gwp.*``, ``gwp_indirect.*``: kg CO2e per kg of a gas): > 0;
+    - a global warming potential (``gwp.*``, ``gwp_indirect.*``: kg CO2e per kg of a gas): > 0, <= ``MAX_GWP``;
     - a mass of methane per mass of gas or fuel (``kg CH4/kg``, ``kg CH4/kg fuel``): 0 to 1;
     - an emission factor (a greenhouse-gas mass per unit of activity: g CO2e/kWh, kg CO2/TJ,
-      t N2O/t fuel...): >= 0 (these factors describe emissions; removals are not modelled);
-    - a heating value (energy per mass or volume: MJ/kg, TJ/Gg, MJ/m3): > 0.
+      t N2O/t fuel...): >= 0 (these factors describe emissions; removals are not modelled), at most
+      ``MAX_EMISSION_KG_PER_MJ`` per MJ, ``MAX_EMISSION_KG_PER_KG`` per kg, ``MAX_OTHER`` per anything else;
+    - a heating value (energy per mass or volume: MJ/kg, TJ/Gg, MJ/m3): > 0, at most
+      ``MAX_HEATING_VALUE_MJ_PER_KG`` per kg (``MAX_OTHER`` MJ per other unit).
 
-    Other units: any finite number. ``low``/``high`` None means unbounded.
+    Other units: any finite number of magnitude at most ``MAX_OTHER`` (``low`` None: unbounded below).
     """
     numerator, _, denominator = (part.strip() for part in unit.partition("/"))
     top = numerator.split()
     bottom = denominator.split()
+    per = bottom[0] if bottom else ""
     if factor_id.split(".")[0] in ("gwp", "gwp_indirect"):
-        return 0.0, False, None, "a global warming potential"
+        return 0.0, False, MAX_GWP, "a global warming potential"
     if top[-1:] == ["CH4"] and len(bottom) >= 1 and bottom[-1] in ("kg", "t", "fuel") and top[0] == bottom[0]:
         return 0.0, True, 1.0, "a mass fraction of methane"
     if top[-1:] and top[-1] in _GASES:
-        return 0.0, True, None, "an emission factor"
+        mass = _KG.get(top[0], 1.0) if len(top) == 2 else 1.0
+        if per in _MJ:
+            return 0.0, True, MAX_EMISSION_KG_PER_MJ * _MJ[per] / mass, "an emission factor"
+        if per in _KG:
+            return 0.0, True, MAX_EMISSION_KG_PER_KG * _KG[per] / mass, "an emission factor"
+        return 0.0, True, MAX_OTHER, "an emission factor"
     if len(top) == 1 and top[0] in _ENERGY and bottom:
-        return 0.0, False, None, "a heating value"
-    return None, True, None, ""
+        if per in _KG:
+            return 0.0, False, MAX_HEATING_VALUE_MJ_PER_KG * _KG[per] / _MJ[top[0]], "a heating value"
+        return 0.0, False, MAX_OTHER / _MJ[top[0]], "a heating value"
+    return -MAX_OTHER, True, MAX_OTHER, "a number"
 
 
 def check_factor_value(factor_id: str, value: float, unit: str, where: str) -> None:
@@ -190,17 +212,14 @@ def check_factor_value(factor_id: str, value: float, unit: str, where: str) -> N
     below = low is not None and (value < low if inclusive else value <= low)
     above = high is not None and value > high
     if below or above:
-        bounds = f"{'>=' if inclusive else '>'} {low:g}" + (f" and <= {high:g}" if high is not None else "")
+        bounds = f"{'>=' if inclusive else '>'} {low:g}" + (f" and <= {high:.6g}" if high is not None else "")
         raise InputError(where, "value", f"a value {bounds} for '{factor_id}' ({what}, {unit}), got {value:g}")
 
 
 def read_csv_text(path: str | Path, what: str) -> str:
     """The text of a CSV file saved as UTF-8 (a byte-order mark, as spreadsheet programs write
     it, is dropped); a file in another encoding is one InputError naming the file."""
-    try:
-        raw = Path(path).read_bytes()
-    except OSError as error:
-        raise InputError(path, "", f"a readable {what} ({error.strerror})") from None
+    raw = read_input_bytes(path, what)
     try:
         return raw.decode("utf-8-sig")
     except UnicodeDecodeError as error:

@@ -24,6 +24,7 @@ import pycountry
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
 from ..errors import InputError, did_you_mean, match_id
+from .input_files import read_input_bytes
 
 BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
 
@@ -36,6 +37,7 @@ def boundary_id(boundary: str, where: str = "--boundary") -> str:
     return found
 
 
+MAX_PROJECT_BYTES = 16 * 1024 * 1024  # a project file is a few kB; its series and meters live in their own files
 MAX_DEPTH = 16  # tables and arrays inside one another: a project needs 4
 
 
@@ -291,10 +293,7 @@ def validate_with(model: type[BaseModel], data: dict, source: str):
 
 def read_project_file(path: str | Path) -> tuple[dict, bytes]:
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as error:
-        raise InputError(path, "", f"a readable project file ({error.strerror})") from None
+    raw = read_input_bytes(path, "project file", MAX_PROJECT_BYTES)
     if raw.startswith(b"PK\x03\x04") or path.suffix.lower() in (".xlsx", ".xlsm"):
         raise InputError(path, "", "a project TOML file; this is a workbook: read it with `--from-workbook` (e.g. carbonledger score --from-workbook FILE.xlsx)")
     try:
@@ -333,7 +332,7 @@ def parameter_field(project: BaseModel, path: str, source: str, where: str = "")
     """
     node: Any = project
     info = None
-    for part in path.split("."):
+    for part in split_path(path, where or source):
         if isinstance(node, BaseModel) and part in type(node).model_fields:
             info = type(node).model_fields[part]
             node = getattr(node, part)

@@ -1,8 +1,10 @@
 """Physical reference data taken from general-purpose reference libraries, never typed in.
 
 Molar masses, ammonia's enthalpy of formation and its enthalpy of vaporisation come from the
-``chemicals`` library (standard atomic weights; Active Thermochemical Tables; CRC Handbook). Each
-value is reported with its source so that it can be listed beside the factors of a result.
+``chemicals`` library (standard atomic weights; Active Thermochemical Tables; CRC Handbook), the
+states of liquid hydrogen from CoolProp. Each value is reported with its source so that it can be
+listed beside the factors of a result. Values at fixed states are stored in ``reference_table``
+(scripts/make_reference_table.py writes it; tests/test_reference_values.py recomputes them).
 
 References
 ----------
@@ -126,16 +128,10 @@ HYDROGEN_FLUID = "Hydrogen"  # CoolProp's normal hydrogen (Leachman et al. 2009)
 AMBIENT_TEMPERATURE_K = 298.15
 
 
-@functools.cache
-def _coolprop_version() -> str:
-    from importlib.metadata import version
-
-    return version("CoolProp")
-
-
-@functools.cache
-def _hydrogen_states() -> dict[str, float]:
-    """Saturated liquid and vapour at 1 atm, and the gas at 25 degC and 1 atm, from CoolProp (SI units)."""
+def live_hydrogen_states() -> dict[str, float]:
+    """Saturated liquid and vapour at 1 atm, and the gas at 25 degC and 1 atm, from CoolProp (SI units:
+    J/kg, J/kg/K). Stored in ``reference_table`` (``HYDROGEN_STATES_SI``) by scripts/make_reference_table.py:
+    CoolProp is a test dependency only (its import costs seconds), and the test suite recomputes these."""
     from CoolProp.CoolProp import PropsSI
 
     return {
@@ -147,7 +143,10 @@ def _hydrogen_states() -> dict[str, float]:
     }
 
 
-@functools.cache
+def _hydrogen_states() -> dict[str, float]:
+    return stored.HYDROGEN_STATES_SI
+
+
 def hydrogen_latent_heat() -> ReferenceValue:
     """Latent heat of vaporisation of hydrogen at 1 atm (liquid hydrogen cargo), kJ/kg."""
     states = _hydrogen_states()
@@ -155,7 +154,7 @@ def hydrogen_latent_heat() -> ReferenceValue:
         id="reference.latent_heat.hydrogen",
         value=(states["h_vapour"] - states["h_liquid"]) / 1000.0,
         unit="kJ/kg",
-        source=f"CoolProp {_coolprop_version()} (PropsSI, saturated normal hydrogen at 101325 Pa: h_vapour - h_liquid)",
+        source=f"CoolProp {stored.COOLPROP_VERSION} (PropsSI, saturated normal hydrogen at 101325 Pa: h_vapour - h_liquid; stored)",
         grade=Grade.SECONDARY,
     )
 

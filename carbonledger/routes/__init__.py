@@ -61,10 +61,6 @@ def owned_sections() -> dict[str, type]:
     return sections
 
 
-def section_owners(section: str) -> list[Route]:
-    return [route for route in REGISTRY if section in route.sections or section in route.optional_sections]
-
-
 def routes_of(params: dict) -> list[Route]:
     """The route modules that take part in a project (at its boundary), in chain order."""
     return [route for route in REGISTRY if route.applies(params)]

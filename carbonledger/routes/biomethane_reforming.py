@@ -19,7 +19,7 @@ from ..model.project import P, Section
 from ..stages import biomethane, capture, reforming
 from .base import Activity, Route, combustion_kg_per_gj
 from .electricity import starter as electricity_starter
-from .reforming import refuse_below_the_methane_floor
+from .reforming import methane_feed_draw_limits, refuse_below_the_energy_balance, refuse_below_the_methane_floor
 
 
 class BiomethaneReforming(Section):
@@ -64,8 +64,18 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2)."""
-    refuse_below_the_methane_floor(params["biomethane_reforming"]["biomethane_gj_per_kg_h2"], inputs, source, "biomethane_reforming.biomethane_gj_per_kg_h2")
+    """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2), and biomethane
+    plus electricity at least the hydrogen's lower heating value (energy balance, as for natural gas)."""
+    b = params["biomethane_reforming"]
+    field = "biomethane_reforming.biomethane_gj_per_kg_h2"
+    refuse_below_the_methane_floor(b["biomethane_gj_per_kg_h2"], inputs, source, field)
+    refuse_below_the_energy_balance(b["biomethane_gj_per_kg_h2"], b["electricity_kwh_per_kg_h2"], inputs, source, field)
+
+
+def draw_limits(params: dict, inputs) -> list:
+    """The limits of ``check_limits`` on numbers or arrays of draws."""
+    b = params["biomethane_reforming"]
+    return methane_feed_draw_limits("biomethane_reforming", b["biomethane_gj_per_kg_h2"], b["electricity_kwh_per_kg_h2"], inputs)
 
 
 def metered(params: dict) -> dict[str, list[str]]:
@@ -94,6 +104,7 @@ ROUTE = Route(
     build=build,
     sections={"biomethane_reforming": BiomethaneReforming},
     check_limits=check_limits,
+    draw_limits=draw_limits,
     metered=metered,
     starter=starter,
     description="Steam reforming of biomethane (biogenic CO2 counted apart; captured biogenic CO2 stated, not netted)",

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from typing import Literal
 
+from ..errors import InputError
 from ..model.project import P, Section
 from ..stages import chlor_alkali
 from .base import Activity, CoProduct, Route, SectionError
@@ -44,6 +45,23 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     return [plant]
 
 
+def check_limits(params: dict, inputs, source: str) -> None:
+    """At least the reversible cell voltage's electricity per kg H2 (2 NaCl + 2 H2O -> Cl2 + H2 + 2 NaOH)."""
+    least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2"))
+    got = params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"]
+    if got < least:
+        raise InputError(
+            source, "chlor_alkali.cell_electricity_kwh_per_kg_h2",
+            f"at least {least:.1f} kWh/kg H2 (two electrons per H2 at the reversible cell voltage {chlor_alkali.STANDARD_CELL_POTENTIAL_V:.3f} V; recorded from memory), got {got:g}",
+        )
+
+
+def draw_limits(params: dict, inputs) -> list:
+    """The floor of ``check_limits`` on numbers or arrays of draws."""
+    least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2"))
+    return [("chlor_alkali.cell_electricity_kwh_per_kg_h2", "at least the electricity of the reversible cell voltage", params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"] >= least)]
+
+
 def validate(project) -> None:
     c = project.chlor_alkali
     if c.allocation == "economic" and not (c.hydrogen_price_per_kg > 0 and c.chlorine_price_per_kg > 0 and c.sodium_hydroxide_price_per_kg > 0):
@@ -71,6 +89,8 @@ ROUTE = Route(
     build=build,
     sections={"chlor_alkali": ChlorAlkali},
     validate=validate,
+    check_limits=check_limits,
+    draw_limits=draw_limits,
     metered=metered,
     starter=starter,
     description="By-product hydrogen of chlor-alkali electrolysis, shared with chlorine and sodium hydroxide",

@@ -26,7 +26,7 @@ class ElectricitySource(Section):
 
 
 class Electricity(Section):
-    sources: dict[str, ElectricitySource] = Field(min_length=1, description="Named sources of electricity")
+    sources: dict[str, ElectricitySource] = Field(min_length=1, max_length=100, description="Named sources of electricity (at most 100)")
     time_series: str = P("", description="CSV of intervals (electricity use, contracted generation, grid intensity, price), relative to the project file; scheme checks then match hour by hour or as each rule says")
 
     @model_validator(mode="after")

@@ -15,7 +15,7 @@ from typing import Literal
 
 from ..errors import InputError
 from ..model.project import P, Section
-from ..stages import pyrolysis
+from ..stages import pyrolysis, reforming
 from .base import Activity, CoProduct, Route, SectionError, combustion_kg_per_gj
 from .electricity import starter as electricity_starter
 from .natural_gas import starter as natural_gas_starter
@@ -78,6 +78,34 @@ def check_limits(params: dict, inputs, source: str) -> None:
     limit = min(most_carbon, carbon_in_gas)
     if p["carbon_kg_per_kg_h2"] > limit:
         raise InputError(source, "pyrolysis.carbon_kg_per_kg_h2", f"at most {limit:.3f} kg C/kg H2 (the carbon the gas brings, and the stoichiometric {most_carbon:.3f}), got {p['carbon_kg_per_kg_h2']:g}")
+    energy_in, energy_out = _energy_balance(p, inputs)
+    if energy_in < energy_out:
+        raise InputError(
+            source, "pyrolysis.natural_gas_gj_per_kg_h2",
+            f"gas plus electricity of at least the heating value of the hydrogen and its carbon, {energy_out:.1f} MJ/kg H2 (energy balance, no imported heat), got {energy_in:.1f} MJ",
+        )
+
+
+def _energy_balance(p: dict, inputs):
+    """(energy bought, heating value of the products), MJ (LHV) per kg H2."""
+    energy_in = reforming.energy_in_mj_per_kg_h2(p["natural_gas_gj_per_kg_h2"], p["electricity_kwh_per_kg_h2"])
+    carbon_lhv = pyrolysis.carbon_lhv_mj_per_kg(inputs.formation_enthalpy_co2(), inputs.molar_mass("C"))
+    return energy_in, pyrolysis.energy_out_mj_per_kg_h2(inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), p["carbon_kg_per_kg_h2"], carbon_lhv)
+
+
+def draw_limits(params: dict, inputs) -> list:
+    """The limits of ``check_limits`` on numbers or arrays of draws (arithmetic only)."""
+    p = params["pyrolysis"]
+    m_ch4, m_h2, m_c, m_co2 = (inputs.molar_mass(f) for f in ("CH4", "H2", "C", "CO2"))
+    least_gas = pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2) * inputs.factor("heating_value.methane.lhv", "MJ/kg") / 1000.0
+    carbon_in_gas = p["natural_gas_gj_per_kg_h2"] * combustion_kg_per_gj(inputs, "co2") * m_c / m_co2
+    carbon = p["carbon_kg_per_kg_h2"]
+    energy_in, energy_out = _energy_balance(p, inputs)
+    return [
+        ("pyrolysis.natural_gas_gj_per_kg_h2", "at least the stoichiometric floor (1 mol CH4 per 2 mol H2)", p["natural_gas_gj_per_kg_h2"] >= least_gas),
+        ("pyrolysis.carbon_kg_per_kg_h2", "at most the carbon the gas brings and the stoichiometric carbon", (carbon <= pyrolysis.stoichiometric_carbon_kg_per_kg_h2(m_c, m_h2)) & (carbon <= carbon_in_gas)),
+        ("pyrolysis.natural_gas_gj_per_kg_h2", "gas plus electricity of at least the heating value of the hydrogen and its carbon (energy balance)", energy_in >= energy_out),
+    ]
 
 
 def validate(project) -> None:
@@ -110,6 +138,7 @@ ROUTE = Route(
     sections={"pyrolysis": Pyrolysis},
     validate=validate,
     check_limits=check_limits,
+    draw_limits=draw_limits,
     uses_natural_gas=lambda project: True,
     metered=metered,
     starter=starter,

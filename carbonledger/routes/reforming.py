@@ -81,17 +81,34 @@ def check_limits(params: dict, inputs, source: str) -> None:
     """The methane floor, and gas plus electricity at least the hydrogen's lower heating value."""
     gas = params["reforming"]["natural_gas_gj_per_kg_h2"]
     refuse_below_the_methane_floor(gas, inputs, source, "reforming.natural_gas_gj_per_kg_h2")
-    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
-    energy_in = reforming.energy_in_mj_per_kg_h2(gas, params["reforming"]["electricity_kwh_per_kg_h2"])
-    if energy_in < hydrogen_lhv:
-        least = (hydrogen_lhv - energy_in) / 1000.0 + gas
-        raise InputError(source, "reforming.natural_gas_gj_per_kg_h2", f"gas plus electricity of at least the hydrogen's lower heating value, {hydrogen_lhv:g} MJ/kg (energy balance, no imported heat): at least {least:.4f} GJ/kg H2 with this electricity, got {gas:g}")
+    refuse_below_the_energy_balance(gas, params["reforming"]["electricity_kwh_per_kg_h2"], inputs, source, "reforming.natural_gas_gj_per_kg_h2")
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The stoichiometric floor of ``check_limits`` on numbers or arrays of draws."""
+    """The stoichiometric floor and the energy balance of ``check_limits`` on numbers or arrays of draws."""
+    ref = params["reforming"]
+    return methane_feed_draw_limits("reforming", ref["natural_gas_gj_per_kg_h2"], ref["electricity_kwh_per_kg_h2"], inputs)
+
+
+def methane_feed_draw_limits(section: str, gas_gj_per_kg_h2, electricity_kwh_per_kg_h2, inputs) -> list:
+    """(field, expected, ok) of a methane reformer: 1 mol CH4 per 4 mol H2, and gas plus electricity at least
+    the hydrogen's lower heating value; arithmetic only, so ``ok`` is an array over draws."""
     floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
-    return [("reforming.natural_gas_gj_per_kg_h2", "at least the stoichiometric floor (1 mol CH4 per 4 mol H2)", params["reforming"]["natural_gas_gj_per_kg_h2"] >= floor)]
+    energy_in = reforming.energy_in_mj_per_kg_h2(gas_gj_per_kg_h2, electricity_kwh_per_kg_h2)
+    field = f"{section}.{'biomethane' if section == 'biomethane_reforming' else 'natural_gas'}_gj_per_kg_h2"
+    return [
+        (field, "at least the stoichiometric floor (1 mol CH4 per 4 mol H2)", gas_gj_per_kg_h2 >= floor),
+        (field, "gas plus electricity of at least the hydrogen's lower heating value (energy balance)", energy_in >= inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")),
+    ]
+
+
+def refuse_below_the_energy_balance(gas_gj_per_kg_h2: float, electricity_kwh_per_kg_h2: float, inputs, source: str, field: str) -> None:
+    """Gas plus electricity bought at least the hydrogen's lower heating value (first law, no imported heat)."""
+    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
+    energy_in = reforming.energy_in_mj_per_kg_h2(gas_gj_per_kg_h2, electricity_kwh_per_kg_h2)
+    if energy_in < hydrogen_lhv:
+        least = (hydrogen_lhv - energy_in) / 1000.0 + gas_gj_per_kg_h2
+        raise InputError(source, field, f"gas plus electricity of at least the hydrogen's lower heating value, {hydrogen_lhv:g} MJ/kg (energy balance, no imported heat): at least {least:.4f} GJ/kg H2 with this electricity, got {gas_gj_per_kg_h2:g}")
 
 
 def metered(params: dict) -> dict[str, list[str]]:

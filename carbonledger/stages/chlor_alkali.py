@@ -11,7 +11,21 @@ References
 .. [2] European Commission, Best Available Techniques Reference Document for the Production of
    Chlor-alkali (2014), ch. 2: the cell reaction and the co-production of chlorine, sodium
    hydroxide and hydrogen.
+.. [3] Haynes, W. M. (ed.), CRC Handbook of Chemistry and Physics, "Electrochemical Series":
+   standard potentials Cl2 + 2 e- -> 2 Cl- 1.358 V, 2 H2O + 2 e- -> H2 + 2 OH- -0.828 V (recorded
+   from memory, not yet checked against the handbook).
+.. [4] BIPM (2019), The International System of Units, 9th ed.: the Faraday constant is exact,
+   e x N_A = 96 485.332 12 C/mol.
 """
+
+FARADAY_C_PER_MOL = 96485.33212
+STANDARD_CELL_POTENTIAL_V = 1.358 - (-0.828)  # [3]_, recorded from memory: the reversible decomposition voltage
+
+
+def least_cell_electricity_kwh_per_kg_h2(cell_potential_v, molar_mass_h2_g_per_mol):
+    """Least cell electricity per kg H2: two electrons per H2 at the reversible cell voltage [3]_ [4]_,
+    n F E per mole (J/mol / g/mol = kJ/kg; / 3600 kJ/kWh)."""
+    return 2.0 * FARADAY_C_PER_MOL * cell_potential_v / molar_mass_h2_g_per_mol / 3600.0
 
 
 def chlorine_kg_per_kg_h2(molar_mass_cl2_g_per_mol, molar_mass_h2_g_per_mol):

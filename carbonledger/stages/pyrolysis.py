@@ -15,6 +15,14 @@ References
 """
 
 
+def energy_out_mj_per_kg_h2(hydrogen_lhv_mj_per_kg, carbon_kg_per_kg_h2, carbon_lhv_mj_per_kg):
+    """Heating value leaving the plant per kg H2 (LHV): the hydrogen and its solid carbon. With no
+    imported heat the gas and electricity bought must at least equal it (first law): CH4 -> C + 2 H2
+    takes in the reaction enthalpy, about 37 kJ per mol H2, so the products hold more heating value
+    than the methane that made them."""
+    return hydrogen_lhv_mj_per_kg + carbon_kg_per_kg_h2 * carbon_lhv_mj_per_kg
+
+
 def stoichiometric_methane_kg_per_kg_h2(molar_mass_ch4_g_per_mol, molar_mass_h2_g_per_mol):
     """kg CH4 per kg H2: one mole of methane gives two moles of hydrogen."""
     return molar_mass_ch4_g_per_mol / (2.0 * molar_mass_h2_g_per_mol)

@@ -59,61 +59,37 @@ def matching_groups(series, checks) -> list[tuple[tuple[str, ...], np.ndarray, l
     return list(groups.values())
 
 
-def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key: str) -> dict:
-    """Write the Matching sheet (``ws``) and the Intervals sheet; returns where the tables are."""
-    from openpyxl.cell.cell import Cell
-    from openpyxl.utils import get_column_letter
+class _FastCells:
+    """Styled interval cells made directly: ``ws.cell`` and a style look-up per cell cost seconds for a
+    year of hours, so the looks of ``style.style_cell`` are registered once and copied to every cell."""
 
-    n = series.intervals
-    names = list(series.generation_kwh)
-    groups = matching_groups(series, checks)
-    months = series.local.astype("datetime64[M]")
-    month_starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
-    month_ends = np.r_[month_starts[1:], n] - 1
+    KINDS = (("input", "input", "#,##0.000"), ("grid", "input", "#,##0.0"), ("formula", "formula", "#,##0.000"))
 
-    # Matching: constants, scheme summary, monthly table; Intervals: one row per interval
-    kwh_row = 3
-    summary_header = SUMMARY_TOP + 1
-    month_header = summary_header + len(checks) + 3
-    interval_header = INTERVAL_HEADER_ROW
-    first = interval_header + 1
-    last = first + n - 1
-    main, ws = ws, intervals_ws  # the interval rows are written on the Intervals sheet
-    at = f"{INTERVALS}!"
+    def __init__(self, ws):
+        from openpyxl.cell.cell import Cell
 
-    # the looks of style.style_cell, registered once and copied to every interval cell (setting a
-    # font per cell costs a style look-up each: seconds for a year of hours)
-    templates = {}
-    for kind, looks, number_format in (("input", "input", "#,##0.000"), ("grid", "input", "#,##0.0"), ("formula", "formula", "#,##0.000")):
-        template = ws.cell(row=1, column=1000)
-        style_cell(template, looks, number_format)
-        templates[kind] = copy(template._style)
-        del ws._cells[(1, 1000)]
+        self.ws, self.cells, self.cell_type = ws, ws._cells, Cell
+        self.templates = {}
+        for kind, looks, number_format in self.KINDS:
+            template = ws.cell(row=1, column=1000)
+            style_cell(template, looks, number_format)
+            self.templates[kind] = copy(template._style)
+            del ws._cells[(1, 1000)]
 
-    cells = ws._cells
+    def put(self, row: int, column: int, value, kind: str | None = None) -> None:
+        style = {} if kind is None else {"style_array": copy(self.templates[kind])}
+        self.cells[(row, column)] = self.cell_type(self.ws, row=row, column=column, value=value, **style)
 
-    def put(row: int, column: int, value, kind: str) -> None:
-        """A styled cell, made directly (``ws.cell`` and a style look-up per cell cost seconds a year)."""
-        cells[(row, column)] = Cell(ws, row=row, column=column, value=value, style_array=copy(templates[kind]))
 
-    put_text(ws, 1, 1, f"Electricity time series {series.path}: one row per interval ({series.interval_minutes} minutes, local time as written) and its matching with contracted generation, as live formulas.")
-    put_text(ws, 2, 1, "In each matching period: matched = MIN(use, eligible generation); an interval of a longer period is matched in the period's proportion. Generation beyond the use of one period does not carry to another. Sums on the Matching sheet.")
-    style_cell(ws.cell(row=1, column=1), "title")
-    put_text(main, 1, 1, f"Matching of the electricity time series {series.path} with contracted generation, per scheme: sums over the Intervals sheet.")
-    style_cell(main.cell(row=1, column=1), "title")
-    put_text(main, kwh_row, 1, "electricity per kg H2 at the plant gate (kWh/kg), from the Calculation sheet")
-    mix, hydrogen = block.activity_row["electricity_mix"], block.activity_row[hydrogen_key]
-    cell = main.cell(row=kwh_row, column=2, value=f"={CALCULATION}!$G${mix}/{CALCULATION}!$G${hydrogen}")
-    style_cell(cell, "formula", "#,##0.000")
-    kwh_per_kg = f"$B${kwh_row}"
-
-    # the interval columns
+def _interval_columns(series, groups) -> tuple[dict, list[str], dict, list]:
+    """The Intervals sheet's columns: (column of each quantity, headers, the eligible generation column of
+    each set of sources, and per matching group (eligible, labels, period sizes, its columns))."""
     column = {"timestamp": 1, "load": 2}
     headers = ["interval start (local, with UTC offset)", "electricity use (kWh)"]
     if series.load_kwh is None:
         column["hydrogen"] = 3
         headers.append("hydrogen (kg), from the series")
-    for name in names:
+    for name in series.generation_kwh:
         column[f"generation:{name}"] = len(headers) + 1
         headers.append(f"generation, {name} (kWh)")
     if series.grid_g_co2e_per_kwh is not None:
@@ -140,41 +116,42 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
         place["matched"] = len(headers) + 1
         headers.append(f"matching {number}{'' if longer else f' ({schemes})'}: matched (kWh)")
         group_columns.append((eligible, labels, sizes, place))
-    letter = {key: get_column_letter(value) for key, value in column.items()}
+    return column, headers, generation_column, group_columns
 
-    for position, text in enumerate(headers, start=1):
-        put_text(ws, interval_header, position, text)
-    header_row(ws, interval_header, len(headers))
 
-    local = series.local
-    offsets = series.offset_minutes
-    stamps = [_stamp(t, o) for t, o in zip(local, offsets, strict=True)]
-    month_text = [str(m) for m in months]
-    load_values = series.load_kwh
-    for index in range(n):
+def _write_interval_inputs(cells: _FastCells, series, column: dict, letter: dict, first: int, kwh_per_kg: str) -> None:
+    """One row per interval: its start, the use (or hydrogen and the use it implies), generation, grid intensity."""
+    stamps = [_stamp(t, o) for t, o in zip(series.local, series.offset_minutes, strict=True)]
+    for index in range(series.intervals):
         row = first + index
-        cells[(row, 1)] = Cell(ws, row=row, column=1, value=stamps[index])
-        if load_values is not None:
-            put(row, column["load"], float(load_values[index]), "input")
+        cells.put(row, 1, stamps[index])
+        if series.load_kwh is not None:
+            cells.put(row, column["load"], float(series.load_kwh[index]), "input")
         else:
-            put(row, column["hydrogen"], float(series.hydrogen_kg[index]), "input")
-            put(row, column["load"], f"={letter['hydrogen']}{row}*{MATCHING}!{kwh_per_kg}", "formula")
-        for name in names:
-            put(row, column[f"generation:{name}"], float(series.generation_kwh[name][index]), "input")
+            cells.put(row, column["hydrogen"], float(series.hydrogen_kg[index]), "input")
+            cells.put(row, column["load"], f"={letter['hydrogen']}{row}*{MATCHING}!{kwh_per_kg}", "formula")
+        for name in series.generation_kwh:
+            cells.put(row, column[f"generation:{name}"], float(series.generation_kwh[name][index]), "input")
         if "grid" in column:
-            put(row, column["grid"], float(series.grid_g_co2e_per_kwh[index]), "grid")
+            cells.put(row, column["grid"], float(series.grid_g_co2e_per_kwh[index]), "grid")
 
-    load = letter["load"]
+
+def _write_eligible_generation(cells: _FastCells, generation_column: dict, letter: dict, first: int, n: int) -> None:
     for eligible, place in generation_column.items():
         if len(eligible) == 1:
             continue  # the source's own column
         sources = "+".join(f"{letter[f'generation:{name}']}{{r}}" for name in eligible)
         for index in range(n):
             row = first + index
-            put(row, place, "=" + sources.format(r=row) if eligible else 0.0, "formula")
+            cells.put(row, place, "=" + sources.format(r=row) if eligible else 0.0, "formula")
+
+
+def _write_matched(cells: _FastCells, group_columns: list, load: str, first: int, n: int) -> None:
+    """Matched energy of each interval, per matching group (see the module text); sets each group's ``letter``."""
+    from openpyxl.utils import get_column_letter
+
     for _eligible, labels, sizes, place in group_columns:
         g = get_column_letter(place["generation"])
-        m = get_column_letter(place["matched"])
         starts = np.flatnonzero(np.r_[True, labels[1:] != labels[:-1]])
         period_first = first + starts[labels]  # row of each interval's period start
         period_last = first + np.r_[starts[1:], n][labels] - 1
@@ -186,14 +163,21 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
                 top, bottom = int(period_first[index]), int(period_last[index])
                 pl, pm = get_column_letter(place["period_load"]), get_column_letter(place["period_matched"])
                 if row == top:
-                    put(row, place["period_load"], f"=SUM({load}{top}:{load}{bottom})", "formula")
-                    put(row, place["period_matched"], f"=MIN({pl}{top},SUM({g}{top}:{g}{bottom}))", "formula")
+                    cells.put(row, place["period_load"], f"=SUM({load}{top}:{load}{bottom})", "formula")
+                    cells.put(row, place["period_matched"], f"=MIN({pl}{top},SUM({g}{top}:{g}{bottom}))", "formula")
                 formula = f"=IF(${pl}${top}=0,0,{load}{row}*${pm}${top}/${pl}${top})"
-            put(row, place["matched"], formula, "formula")
-        place["letter"] = m
+            cells.put(row, place["matched"], formula, "formula")
+        place["letter"] = get_column_letter(place["matched"])
 
-    # monthly table: use and, per scheme, matched energy and share
-    group_of = {check.scheme: number for number, (_, _, group_checks) in enumerate(groups) for check in group_checks}
+
+def _write_monthly_table(main, series, checks, matched_letters: dict, load: str, first: int, month_header: int) -> list[str]:
+    """Use and, per scheme, matched energy and share by local calendar month; returns the headers."""
+    from openpyxl.utils import get_column_letter
+
+    at = f"{INTERVALS}!"
+    months = series.local.astype("datetime64[M]")
+    month_starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
+    month_ends = np.r_[month_starts[1:], series.intervals] - 1
     month_headers = ["month", "electricity use (kWh)"]
     for check in checks:
         month_headers += [f"{check.scheme}: matched (kWh)", f"{check.scheme}: unmatched (kWh)", f"{check.scheme}: matched share"]
@@ -203,32 +187,38 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
     header_row(main, month_header, len(month_headers))
     for number, (start, end) in enumerate(zip(month_starts, month_ends, strict=True)):
         row = month_header + 1 + number
-        put_text(main, row, 1, month_text[start])
-        cell = main.cell(row=row, column=2, value=f"=SUM({at}{load}{first + start}:{load}{first + end})")
-        style_cell(cell, "formula", "#,##0.000")
+        put_text(main, row, 1, str(months[start]))
+        style_cell(main.cell(row=row, column=2, value=f"=SUM({at}{load}{first + start}:{load}{first + end})"), "formula", "#,##0.000")
         for position, check in enumerate(checks):
-            matched_letter = group_columns[group_of[check.scheme]][3]["letter"]
+            matched_letter = matched_letters[check.scheme]
             base = 3 + 3 * position
             matched_cell = get_column_letter(base)
             style_cell(main.cell(row=row, column=base, value=f"=SUM({at}{matched_letter}{first + start}:{matched_letter}{first + end})"), "formula", "#,##0.000")
             style_cell(main.cell(row=row, column=base + 1, value=f"=B{row}-{matched_cell}{row}"), "formula", "#,##0.000")
             style_cell(main.cell(row=row, column=base + 2, value=f"=IF(B{row}=0,0,{matched_cell}{row}/B{row})"), "formula", SHARE)
+    return month_headers
 
-    # summary per scheme
-    summary_headers = [
-        "scheme", "matching (the scheme's rule)", "eligible sources", "matching columns", "electricity use (kWh)", "matched (kWh)",
-        "matched share", "grid electricity (kWh/kg H2)", "matched share, engine at writing", "grid kWh/kg H2, engine at writing",
-    ]
+
+SUMMARY_HEADERS = (
+    "scheme", "matching (the scheme's rule)", "eligible sources", "matching columns", "electricity use (kWh)", "matched (kWh)",
+    "matched share", "grid electricity (kWh/kg H2)", "matched share, engine at writing", "grid kWh/kg H2, engine at writing",
+)
+
+
+def _write_summary(main, checks, group_of: dict, matched_letters: dict, load: str, first: int, last: int, kwh_per_kg: str) -> dict[str, int]:
+    """Per scheme: use, matched energy and share, grid electricity per kg H2, and the engine's figures."""
+    at = f"{INTERVALS}!"
+    summary_header = SUMMARY_TOP + 1
     put_text(main, SUMMARY_TOP, 1, "Per scheme: matched share = matched / use; grid electricity per kg H2 = (1 - matched share) x electricity per kg H2.")
-    for position, text in enumerate(summary_headers, start=1):
+    for position, text in enumerate(SUMMARY_HEADERS, start=1):
         put_text(main, summary_header, position, text)
-    header_row(main, summary_header, len(summary_headers))
+    header_row(main, summary_header, len(SUMMARY_HEADERS))
     rows: dict[str, int] = {}
     for number, check in enumerate(checks):
         row = summary_header + 1 + number
         rows[check.scheme] = row
         matching = check.electricity_matching
-        matched_letter = group_columns[group_of[check.scheme]][3]["letter"]
+        matched_letter = matched_letters[check.scheme]
         put_text(main, row, 1, check.scheme)
         put_text(main, row, 2, matching.rule)
         put_text(main, row, 3, ", ".join(matching.eligible_sources) or "none")
@@ -239,12 +229,50 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
         style_cell(main.cell(row=row, column=8, value=f"=(1-G{row})*{kwh_per_kg}"), "formula", "#,##0.000")
         style_cell(main.cell(row=row, column=9, value=matching.matched_share), "engine", SHARE)
         style_cell(main.cell(row=row, column=10, value=matching.grid_kwh_per_kg_h2), "engine", "#,##0.000")
+    return rows
 
-    for sheet, count in ((ws, len(headers)), (main, max(len(month_headers), len(summary_headers)))):
+
+def _write_titles(main, intervals_ws, series, block, hydrogen_key: str, kwh_row: int) -> str:
+    """The two sheets' titles and the electricity per kg H2 from the Calculation sheet; returns its cell."""
+    put_text(intervals_ws, 1, 1, f"Electricity time series {series.path}: one row per interval ({series.interval_minutes} minutes, local time as written) and its matching with contracted generation, as live formulas.")
+    put_text(intervals_ws, 2, 1, "In each matching period: matched = MIN(use, eligible generation); an interval of a longer period is matched in the period's proportion. Generation beyond the use of one period does not carry to another. Sums on the Matching sheet.")
+    style_cell(intervals_ws.cell(row=1, column=1), "title")
+    put_text(main, 1, 1, f"Matching of the electricity time series {series.path} with contracted generation, per scheme: sums over the Intervals sheet.")
+    style_cell(main.cell(row=1, column=1), "title")
+    put_text(main, kwh_row, 1, "electricity per kg H2 at the plant gate (kWh/kg), from the Calculation sheet")
+    mix, hydrogen = block.activity_row["electricity_mix"], block.activity_row[hydrogen_key]
+    style_cell(main.cell(row=kwh_row, column=2, value=f"={CALCULATION}!$G${mix}/{CALCULATION}!$G${hydrogen}"), "formula", "#,##0.000")
+    return f"$B${kwh_row}"
+
+
+def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key: str) -> dict:
+    """Write the Matching sheet (``ws``) and the Intervals sheet; returns where the tables are."""
+    from openpyxl.utils import get_column_letter
+
+    n = series.intervals
+    groups = matching_groups(series, checks)
+    month_header = SUMMARY_TOP + 1 + len(checks) + 3
+    first = INTERVAL_HEADER_ROW + 1
+    main = ws
+    cells = _FastCells(intervals_ws)
+    kwh_per_kg = _write_titles(main, intervals_ws, series, block, hydrogen_key, kwh_row=3)
+    column, headers, generation_column, group_columns = _interval_columns(series, groups)
+    letter = {key: get_column_letter(value) for key, value in column.items()}
+    for position, text in enumerate(headers, start=1):
+        put_text(intervals_ws, INTERVAL_HEADER_ROW, position, text)
+    header_row(intervals_ws, INTERVAL_HEADER_ROW, len(headers))
+    _write_interval_inputs(cells, series, column, letter, first, kwh_per_kg)
+    _write_eligible_generation(cells, generation_column, letter, first, n)
+    _write_matched(cells, group_columns, letter["load"], first, n)
+    group_of = {check.scheme: number for number, (_, _, group_checks) in enumerate(groups) for check in group_checks}
+    matched_letters = {scheme: group_columns[number][3]["letter"] for scheme, number in group_of.items()}
+    month_headers = _write_monthly_table(main, series, checks, matched_letters, letter["load"], first, month_header)
+    rows = _write_summary(main, checks, group_of, matched_letters, letter["load"], first, first + n - 1, kwh_per_kg)
+    for sheet, count in ((intervals_ws, len(headers)), (main, max(len(month_headers), len(SUMMARY_HEADERS)))):
         sheet.column_dimensions["A"].width = 30
         for position in range(2, count + 1):
             sheet.column_dimensions[get_column_letter(position)].width = 20
-    ws.freeze_panes = f"B{first}"
+    intervals_ws.freeze_panes = f"B{first}"
     page_setup(main, title_columns="A:A", pages_wide=2)
-    page_setup(ws, title_rows=f"{interval_header}:{interval_header}", pages_wide=2)
-    return {"summary": rows, "month_header": month_header, "interval_header": interval_header}
+    page_setup(intervals_ws, title_rows=f"{INTERVAL_HEADER_ROW}:{INTERVAL_HEADER_ROW}", pages_wide=2)
+    return {"summary": rows, "month_header": month_header, "interval_header": INTERVAL_HEADER_ROW}

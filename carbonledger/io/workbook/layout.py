@@ -36,7 +36,6 @@ INTENSITY_UNITS = {
     "kg_co2e_per_kg_h2": "kg CO2e/kg H2",
     "g_co2e_per_mj": "g CO2e/MJ (LHV)",
 }
-_FORMULA_START = ("=", "+", "-", "@")
 
 
 EXCEL_CELL_CHARACTERS = 32767  # Excel specifications and limits: total characters a cell can contain

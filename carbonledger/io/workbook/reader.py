@@ -24,6 +24,7 @@ from typing import Any
 from ...errors import InputError
 from ...model.factors import CITED_FIELDS, DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
 from ...model.grades import Grade, parse_grade
+from ...model.input_files import check_input_file
 from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
@@ -79,6 +80,8 @@ def check_size(path: Path) -> None:
 def _open(path: Path, data_only: bool = False):
     from openpyxl import load_workbook
 
+    if Path(path).exists():
+        check_input_file(path, "audit workbook")
     check_size(path)
     try:
         return load_workbook(path, data_only=data_only)

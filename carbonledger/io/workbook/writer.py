@@ -34,7 +34,10 @@ References
 from __future__ import annotations
 
 import datetime as _dt
+import os
 import re
+import shutil
+import zipfile
 from pathlib import Path
 from typing import Any
 
@@ -154,6 +157,7 @@ def build_workbook(
     params = copy_tree(result.parameters)
 
     workbook = Workbook()
+    workbook.properties.created = workbook.properties.modified = written_at()
     cover = workbook.active
     cover.title = COVER
     inputs_ws = workbook.create_sheet(INPUTS)
@@ -497,7 +501,7 @@ def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source,
         ("Product", engine.product),
         ("Functional unit", engine.functional_unit),
         ("Boundary", engine.boundary),
-        ("Written (UTC)", _dt.datetime.now(_dt.UTC).strftime("%Y-%m-%d %H:%M")),
+        ("Written (UTC)", written_at().strftime("%Y-%m-%d %H:%M")),
         ("carbonledger version", __version__),
         (COVER_LABELS["factor_set"], factor_set.name),
         ("Factor set sha256", factor_set.sha256),
@@ -544,6 +548,50 @@ def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source,
         cell.alignment = Alignment(wrap_text=True, vertical="top")
 
 
+def written_at() -> _dt.datetime:
+    """When the workbook is written (UTC, to the minute, no time zone as the file format stores it):
+    ``SOURCE_DATE_EPOCH`` when set, as reproducible builds read it [1]_, else now.
+
+    References
+    ----------
+    .. [1] Reproducible Builds, "SOURCE_DATE_EPOCH specification", https://reproducible-builds.org/specs/source-date-epoch/
+    """
+    epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
+    moment = _dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch.isdigit() else _dt.datetime.now(_dt.UTC)
+    return moment.replace(second=0, microsecond=0, tzinfo=None)
+
+
+ZIP_EPOCH = (1980, 1, 1, 0, 0, 0)  # the earliest time a zip entry can state (PKWARE APPNOTE 4.4.6)
+
+
+class _FixedTimeZip(zipfile.ZipFile):
+    """A zip file whose entries all carry ``ZIP_EPOCH``: the same workbook gives the same bytes on every run."""
+
+    def writestr(self, name, data, compress_type=None, compresslevel=None):
+        if not isinstance(name, zipfile.ZipInfo):
+            name = zipfile.ZipInfo(name, date_time=ZIP_EPOCH)
+            name.compress_type = self.compression
+            name.external_attr = 0o600 << 16
+        super().writestr(name, data, compress_type, compresslevel)
+
+    def write(self, filename, arcname=None, compress_type=None, compresslevel=None):
+        """A file from disk (openpyxl writes each worksheet to a temporary file first), without its mtime."""
+        entry = zipfile.ZipInfo(str(arcname or filename), date_time=ZIP_EPOCH)
+        entry.compress_type = self.compression if compress_type is None else compress_type
+        entry.external_attr = 0o600 << 16
+        entry.file_size = os.path.getsize(filename)  # zipfile chooses the zip64 format from it, as write() does
+        with open(filename, "rb") as source, self.open(entry, "w") as target:
+            shutil.copyfileobj(source, target, 1 << 20)
+
+
+def save_workbook_bytes(workbook, path: Path) -> None:
+    """Save as openpyxl does, but with fixed entry times and the document's own created/modified times
+    (openpyxl's ``save`` stamps the second of saving), so two runs write identical files."""
+    from openpyxl.writer.excel import ExcelWriter
+
+    ExcelWriter(workbook, _FixedTimeZip(path, "w", zipfile.ZIP_DEFLATED, allowZip64=True)).save()
+
+
 def write_workbook_file(path: str | Path, workbook, force: bool = False) -> Path:
     """Save atomically; an existing file is left untouched unless ``force``."""
-    return atomic_write(path, lambda tmp: workbook.save(tmp), force=force)
+    return atomic_write(path, lambda tmp: save_workbook_bytes(workbook, tmp), force=force)

@@ -1,0 +1,75 @@
+"""A lean start: each command imports only what it uses, listed here command by command.
+
+Each command runs in a fresh interpreter (``sys.modules`` of that process). ``--help`` loads the
+command layer alone; a command's module is imported only when it runs (lazy subcommands, as the
+click documentation describes them); heavy libraries are imported by the commands that use them.
+Timing is in benchmarks/startup.py and benchmarks/score.py (no timing assertions in tests).
+"""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pytest
+from helpers import DEMO, run_cli
+
+from carbonledger.cli import COMMANDS, docstring, load_command
+
+GREEN = DEMO / "green_electrolysis_ammonia.toml"
+GREY = DEMO / "grey_smr_ammonia.toml"
+HEAVY = ("bw2calc", "matplotlib", "openpyxl", "CoolProp", "SALib", "dask", "scipy.optimize", "pandas", "chemicals", "pint", "formulas")
+
+PROBE = """
+import contextlib, io, json, sys
+from carbonledger.cli import main
+sys.argv = ["carbonledger", *sys.argv[1:]]
+try:
+    with contextlib.redirect_stdout(io.StringIO()), contextlib.redirect_stderr(io.StringIO()):
+        main()
+except SystemExit as stop:
+    assert not stop.code, stop.code
+print(json.dumps(sorted(sys.modules)))
+"""
+
+# command -> the heavy libraries it loads (every other one of HEAVY must stay out)
+LOADS = {
+    ("--help",): set(),
+    ("factors", "--help"): set(),
+    ("score", "--help"): set(),
+    ("factors", "list"): set(),
+    ("schemes",): set(),
+    ("params", GREEN): set(),
+    ("score", GREEN, "--no-ledger"): {"bw2calc", "pandas"},  # the solver (bw2calc brings pandas)
+    ("score", GREEN, "--format", "json", "--no-ledger"): {"bw2calc", "pandas"},
+    ("compare", GREEN, GREY, "--no-ledger"): {"bw2calc", "pandas"},
+}
+
+
+def modules_of(*args) -> set[str]:
+    out = subprocess.run([sys.executable, "-c", PROBE, *map(str, args)], capture_output=True, text=True, check=True)
+    return set(json.loads(out.stdout.strip().splitlines()[-1]))
+
+
+@pytest.mark.parametrize("args", list(LOADS), ids=[" ".join(str(a).rsplit("/", 1)[-1] for a in args) for args in LOADS])
+def test_each_command_loads_only_the_libraries_it_uses(args, tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    loaded = modules_of(*args)
+    assert {name for name in HEAVY if name in loaded} == LOADS[args]
+    assert "CoolProp" not in loaded  # a test dependency only: the liquid-hydrogen states are stored
+
+
+def test_help_imports_the_command_layer_alone():
+    loaded = modules_of("--help")
+    assert sorted(name for name in loaded if name.startswith("carbonledger")) == ["carbonledger", "carbonledger.about", "carbonledger.cli"]
+
+
+def test_the_command_list_reads_each_command_docstring():
+    # the short help of --help is the first sentence of the function the command runs
+    help_text = run_cli("--help").stdout
+    for name in COMMANDS:
+        command = load_command(name)
+        assert command.name == name
+        assert command.help.split(".")[0][:30] == docstring(name).split(".")[0][:30]
+        assert name in help_text
