@@ -24,6 +24,8 @@ from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
+from .analyses.qualify import FRONT_BUDGETS, QualifyResult
+from .analyses.qualify import qualify as qualify_with
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
@@ -41,6 +43,7 @@ from .io.workbook.reader import (
 from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
+from .model.levers import read_levers
 from .model.project import boundary_id, parameter_table, read_project_file
 from .routes import routes_of
 from .routes.project import load_project
@@ -62,6 +65,7 @@ __all__ = [
     "uncertainty",
     "load_uncertainty",
     "headroom",
+    "qualify",
     "sensitivity",
     "uncertainty_many",
 ]
@@ -438,6 +442,36 @@ def headroom(
     factor_set = _factor_set(factors)
     series = project_series(project, project_file)
     return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp, series=series) for path in parameters]
+
+
+def qualify(
+    project_file: str | Path,
+    levers_file: str | Path,
+    *,
+    schemes: list[str] | None = None,
+    year: int | None = None,
+    confidence: float | None = None,
+    draws: int = 2000,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    distributions: str | Path | None = None,
+    budgets: int = FRONT_BUDGETS,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+) -> QualifyResult:
+    """The least-cost values of the levers in ``levers_file`` with which every scheme in ``schemes``
+    (default: the levers file's ``schemes``) qualifies on ``year``'s rules: at the central value, or,
+    with ``confidence``, in at least that share of ``draws`` Monte Carlo draws (``seed``; the
+    project's ``[uncertainty]`` table with ``distributions`` laid over it). Also the cost/margin
+    front over ``budgets`` budgets (0: none). See docs/qualify.md."""
+    levers = read_levers(levers_file)
+    project, _ = load_project(project_file, overrides)
+    found = load_uncertainty(project_file, distributions) if confidence is not None else None
+    return qualify_with(
+        project, _factor_set(factors), levers, list(schemes or levers.schemes), source=str(project_file), levers_source=str(levers_file), gwp=gwp, year=year,
+        confidence=confidence, draws=draws, seed=seed, sampling=sampling, uncertainty=found, series=project_series(project, project_file), budgets=budgets,
+    )
 
 
 def sensitivity(

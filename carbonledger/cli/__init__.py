@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, plan, project_commands, recalc, report, uncertainty, workbook
+from . import compare, factors, plan, project_commands, qualify, recalc, report, uncertainty, workbook
 
 app = typer.Typer(
     add_completion=False,
@@ -48,6 +48,7 @@ app.command()(plan.plan)
 app.command()(project_commands.schemes)
 app.command()(uncertainty.uncertainty)
 app.command()(uncertainty.headroom)
+app.command()(qualify.qualify)
 app.command()(uncertainty.sensitivity)
 app.command()(project_commands.init)
 factors_app.command("list")(factors.factors_list)
