@@ -58,7 +58,6 @@ import copy
 import itertools
 import math
 from dataclasses import dataclass, field
-from dataclasses import replace as replaced
 from typing import Any
 
 import numpy as np
@@ -83,6 +82,7 @@ STEP = 1e-6  # forward-difference step on levers scaled to [0, 1]
 BLOCK_SYSTEMS = 40_000  # systems scored per stacked call
 FRONT_BUDGETS = 6
 BLOCKED = -1.0  # relative margin given to a point a physical limit refuses
+SMOOTHING = 0.005  # share of the draws whose ranked margins are averaged in the chance constraint
 
 
 # --- levers resolved against a project -------------------------------------------------------
@@ -251,17 +251,27 @@ def _kinks(piece: Piece) -> list[float]:
     return [x for x in xs if piece.low <= x <= piece.high]
 
 
+def moved(drawn: np.ndarray, value, reference: float) -> np.ndarray:
+    """Draws of a parameter that a lever sets to ``value`` (its project value ``reference``):
+    each draw times value / reference, or shifted by the difference when the reference is 0."""
+    return drawn * (value / reference) if reference != 0 else drawn + (value - reference)
+
+
 class Evaluator:
     """Relative margins and statuses of many candidate lever values, scored stacked.
 
     ``plan``: the project (with a combination's discrete values) ready for draws; ``paths``: the
-    continuous levers; ``drawn``: the Monte Carlo draws (common to every candidate), or None for
-    the central value; ``confidence``: the share of draws that must qualify.
+    continuous levers, ``nominal`` their values in that project; ``drawn``: the Monte Carlo draws
+    of the project as written (common to every candidate and combination), or None for the central
+    value; ``confidence``: the share of draws that must qualify. A drawn parameter that a lever
+    moves is multiplied by (lever value / ``reference``, its value in the project as written);
+    ``fixed``: the numeric discrete lever values of the combination.
     """
 
-    def __init__(self, plan: Plan, schemes: list, paths: list[str], nominal: dict[str, float], drawn: Draws | None, confidence: float | None):
+    def __init__(self, plan: Plan, schemes: list, paths: list[str], nominal: dict[str, float], drawn: Draws | None, confidence: float | None, reference=None, fixed=None):
         self.plan, self.schemes, self.paths, self.nominal = plan, schemes, paths, nominal
         self.drawn, self.confidence = drawn, confidence
+        self.reference, self.fixed = reference or {}, fixed or {}
         self.size = 1 if drawn is None else len(drawn.uniform)
         self.calls = 0
         self.blocked = self._blocked()
@@ -276,36 +286,39 @@ class Evaluator:
                 found[scheme.id] = next(name for name, hits in at_any_value.items() if hits[0])
         return found
 
-    def _draws(self, points: np.ndarray, central: bool = False) -> Draws:
+    def _draws(self, points: np.ndarray, central: bool = False, rows: np.ndarray | None = None) -> Draws:
+        """The inputs of every candidate point: the lever values, and (with draws) every draw, or the draws in ``rows``."""
         count = len(points)
         if central or self.drawn is None:
             return Draws([], np.zeros((count, 0)), {path: points[:, n].astype(float) for n, path in enumerate(self.paths)}, {}, {})
-        size = self.size
+        pick = slice(None) if rows is None else rows
+        size = self.size if rows is None else len(rows)
         drawn = self.drawn
-        parameters = {path: np.tile(values, count) for path, values in drawn.parameters.items()}
+        parameters = {path: np.tile(values[pick], count) for path, values in drawn.parameters.items()}
+        for path, value in self.fixed.items():
+            if path in parameters:
+                parameters[path] = moved(parameters[path], value, self.reference[path])
         for n, path in enumerate(self.paths):
             chosen = np.repeat(points[:, n].astype(float), size)
-            if path in drawn.parameters:
-                nominal = self.nominal[path]
-                base = parameters[path]
-                chosen = base * (chosen / nominal) if nominal != 0 else base + chosen
-            parameters[path] = chosen
-        choices = {path: (nominal, np.tile(chosen, count)) for path, (nominal, chosen) in drawn.factor_choices.items()}
-        factors = {factor_id: np.tile(values, count) for factor_id, values in drawn.factors.items()}
+            parameters[path] = moved(parameters[path], chosen, self.reference[path]) if path in parameters else chosen
+        choices = {path: (nominal, np.tile(chosen[pick], count)) for path, (nominal, chosen) in drawn.factor_choices.items()}
+        factors = {factor_id: np.tile(values[pick], count) for factor_id, values in drawn.factors.items()}
         return Draws(drawn.names, np.zeros((count * size, 0)), parameters, choices, factors)
 
-    def score(self, points: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    def score(self, points: np.ndarray, rows: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """(relative margins (points, size, schemes), qualifies (points, size, schemes), used (points, size)).
 
         A draw qualifies under a scheme when its status (``statuses``) is qualifies and it is within
-        every physical limit (``limit_breaks``: draws outside them are left out, as in ``uncertainty``)."""
+        every physical limit (``limit_breaks``: draws outside them are left out, as in ``uncertainty``).
+        ``rows``: score only these draws."""
         points = np.atleast_2d(np.asarray(points, dtype=float))
-        per_block = max(1, BLOCK_SYSTEMS // self.size)
+        size = self.size if rows is None else len(rows)
+        per_block = max(1, BLOCK_SYSTEMS // size)
         margins, qualifies, used = [], [], []
         for start in range(0, len(points), per_block):
             block = points[start : start + per_block]
-            count = len(block) * self.size
-            drawn = self._draws(block)
+            count = len(block) * size
+            drawn = self._draws(block, rows=rows)
             outcome = evaluate(self.plan, drawn, count)
             broken, _ = limit_breaks(self.plan, drawn, count)
             self.calls += 1
@@ -315,7 +328,7 @@ class Evaluator:
                 limit = scheme.loosest().limit
                 rel.append((limit - values) / abs(limit))
                 ok.append(statuses(scheme, values, outcome.scheme_findings.get(scheme.id))["qualifies"] & ~broken)
-            shape = (len(block), self.size, len(self.schemes))
+            shape = (len(block), size, len(self.schemes))
             margins.append(np.stack(rel, axis=-1).reshape(shape))
             qualifies.append(np.stack(ok, axis=-1).reshape(shape))
             used.append((~broken).reshape(shape[:2]))
@@ -324,19 +337,55 @@ class Evaluator:
     def constraint(self, points: np.ndarray) -> np.ndarray:
         """The margins the optimiser keeps >= 0: per scheme at the central value (points, schemes);
         with a confidence, the k-th largest smallest margin over the draws used (points, 1)."""
+        return self._constraint(points)[0]
+
+    def _constraint(self, points: np.ndarray) -> tuple[np.ndarray, list[np.ndarray]]:
+        """The constraint values and, with draws, the draws that decide each point's value.
+
+        With draws, the value is the mean of the smallest margins of the draws ranked k to
+        k + w - 1 (largest first; k = ceil(confidence x draws used), w = ``SMOOTHING`` of the draws
+        used, at least 1): never above the k-th largest, so a point where it is >= 0 has at least k
+        qualifying draws, and smoother than the k-th alone (fewer kinks for SLSQP)."""
         margins, _, used = self.score(points)
         if self.drawn is None:
-            return np.where(used[:, 0, None], margins[:, 0, :], np.minimum(margins[:, 0, :], BLOCKED))
+            return np.where(used[:, 0, None], margins[:, 0, :], np.minimum(margins[:, 0, :], BLOCKED)), []
         worst = margins.min(axis=2)
-        out = np.empty((len(worst), 1))
+        out, deciding = np.empty((len(worst), 1)), []
         for n in range(len(worst)):
-            kept = np.sort(worst[n][used[n]])[::-1]
+            kept = np.flatnonzero(used[n])
             if len(kept) == 0:
                 out[n, 0] = BLOCKED
+                deciding.append(np.zeros(0, dtype=int))
                 continue
             k = max(1, math.ceil(self.confidence * len(kept) - 1e-9))
-            out[n, 0] = kept[k - 1]
-        return out
+            window = max(1, int(SMOOTHING * len(kept)))
+            order = kept[np.argsort(-worst[n][kept], kind="stable")]
+            rows = order[k - 1 : k - 1 + window]
+            deciding.append(rows)
+            out[n, 0] = worst[n][rows].mean()
+        return out, deciding
+
+    def constraint_gradient(self, point: np.ndarray, steps: np.ndarray, known: tuple | None = None) -> tuple[np.ndarray, np.ndarray]:
+        """The constraint at ``point`` and its forward differences along each lever (``steps`` in lever units).
+
+        With draws, the ranked margins move with the draws that hold them for a small enough step,
+        so the differences are taken on those draws only (n + 1 points times the window instead of
+        times every draw). ``known``: the constraint value and deciding draws at ``point``."""
+        n = len(point)
+        shifted = point + np.diag(steps)
+        if self.drawn is None:
+            values = self.constraint(np.vstack([point, shifted]))
+            return values[0], ((values[1:] - values[0]) / steps[:, None]).T
+        value, deciding = known if known is not None else self.constraint_and_deciding(point)
+        if len(deciding) == 0 or n == 0:
+            return value, np.zeros((1, n))
+        margins, _, _ = self.score(np.vstack([point, shifted]), rows=deciding)
+        worst = margins.min(axis=2).mean(axis=1)
+        return value, ((worst[1:] - worst[0]) / steps)[None, :]
+
+    def constraint_and_deciding(self, point: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        values, deciding = self._constraint(np.asarray(point, dtype=float).reshape(1, -1))
+        return values[0], deciding[0] if deciding else np.zeros(0, dtype=int)
 
     def qualifies(self, point: np.ndarray) -> tuple[bool, float | None, float | None]:
         """Whether the point qualifies under every scheme by the statuses (with a confidence: in at
@@ -386,19 +435,21 @@ class Continuous:
     def z_of(self, x: np.ndarray) -> np.ndarray:
         return np.clip((np.asarray(x, dtype=float) - self.low) / np.where(self.width > 0, self.width, 1.0), 0.0, 1.0)
 
-    def g(self, z: np.ndarray) -> np.ndarray:
+    def _known(self, z: np.ndarray) -> tuple[np.ndarray, int]:
         key = tuple(np.round(z, 15))
         if key not in self.cache:
-            self.cache[key] = self.evaluator.constraint(self.x(z).reshape(1, -1))[0]
+            self.cache[key] = self.evaluator.constraint_and_deciding(self.x(z))
         return self.cache[key]
+
+    def g(self, z: np.ndarray) -> np.ndarray:
+        return self._known(z)[0]
 
     def g_jacobian(self, z: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         z = np.clip(z, 0.0, 1.0)
         steps = np.where(z + STEP <= 1.0, STEP, -STEP)
-        points = np.vstack([z] + [z + steps[j] * np.eye(self.n)[j] for j in range(self.n)])
-        values = self.evaluator.constraint(self.x(points))
-        self.cache[tuple(np.round(z, 15))] = values[0]
-        return values[0], ((values[1:] - values[0]) / steps[:, None]).T
+        known = self._known(z) if self.evaluator.drawn is not None else None
+        value, jacobian = self.evaluator.constraint_gradient(self.x(z), steps * self.width, known)
+        return value, jacobian * self.width[None, :]
 
     def cost(self, z: np.ndarray) -> float:
         x = self.x(z)
@@ -474,7 +525,7 @@ class Continuous:
             return None
         if gap(0.0) >= 0:
             return z
-        step = brentq(gap, 0.0, 1.0, xtol=1e-12)
+        step = brentq(gap, 0.0, 1.0, xtol=1e-9)
         for extra in (0.0, 1e-9, 1e-6, 1e-3, 1.0):
             candidate = z + min(1.0, step + extra) * (feasible - z)
             if self.evaluator.qualifies(self.x(candidate))[0]:
@@ -505,7 +556,8 @@ class Search:
     pruned: int = 0
     iterations: int = 0
     blocked: dict = field(default_factory=dict)  # combination label -> {scheme: status}
-    evaluators: dict = field(default_factory=dict)  # combination label -> Evaluator (its draws are drawn once)
+    evaluators: dict = field(default_factory=dict)  # combination label -> Evaluator
+    drawn: tuple | None = None  # the draws of the project as written and its uncertain parameter paths
 
     @property
     def continuous(self) -> list[Resolved]:
@@ -559,13 +611,20 @@ class Search:
         plan = self.lever_plan(project)
         drawn = None
         if self.confidence is not None:
-            uncertainty = self.uncertainty or Uncertainty()
-            base_plan = make_plan(project, self.factor_set, uncertainty, source=self.source, gwp=self.gwp, schemes=plan.schemes, boundary=self.boundary, series=self.series)
-            base_plan.year = self.year
-            drawn = draw(base_plan, self.draws, self.seed, self.sampling)
-            plan = replaced(base_plan, fields={**base_plan.fields, **plan.fields})
+            drawn, uncertain = self.draws_of_project()
+            plan.fields.update({path: parameter_field(project, path, self.source) for path in uncertain})
         nominal = {lever.path: float(parameter_field(project, lever.path, self.source)[0]) for lever in self.continuous}
-        return Evaluator(plan, self.schemes, [lever.path for lever in self.continuous], nominal, drawn, self.confidence)
+        reference = {lever.path: float(lever.project_value) for lever in self.levers if isinstance(lever.project_value, (int, float)) and not isinstance(lever.project_value, bool)}
+        values = {**combination.discrete, **(_lever_values(self, base) if base is not None else {})}
+        fixed = {path: float(value) for path, value in values.items() if path in reference and path not in nominal}
+        return Evaluator(plan, self.schemes, [lever.path for lever in self.continuous], nominal, drawn, self.confidence, reference, fixed)
+
+    def draws_of_project(self) -> tuple[Draws, list[str]]:
+        """The Monte Carlo draws of the project as written (its distributions, the seed), drawn once."""
+        if self.drawn is None:
+            plan = make_plan(self.project, self.factor_set, self.uncertainty or Uncertainty(), source=self.source, gwp=self.gwp, schemes=[s.id for s in self.schemes], boundary=self.boundary, series=self.series)
+            self.drawn = (draw(plan, self.draws, self.seed, self.sampling), list(plan.uncertainty.parameters))
+        return self.drawn
 
     def start(self, combination: Combination, problem: Continuous) -> np.ndarray:
         return problem.z_of([float(lever.project_value) for lever in self.continuous])
@@ -584,8 +643,14 @@ class Search:
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se) if ok else None
         problem = Continuous(evaluator, self.continuous, combination.pieces)
         start = self.start(combination, problem)
+        iterations = 0
+        if evaluator.drawn is not None:  # start the draws' search from the answer at the central value
+            central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
+            guess, result = central.least_cost(start)
+            iterations += int(result.nit)
+            start = guess if np.min(central.g(guess)) >= 0 else start
         z, result = problem.least_cost(start)
-        iterations = int(result.nit)
+        iterations += int(result.nit)
         if not evaluator.qualifies(problem.x(z))[0]:
             best, margin, extra = problem.best_margin(start)
             iterations += int(extra.nit)
@@ -641,6 +706,11 @@ class Search:
             if (at_low or at_high) and outward > best:
                 best, lever_found = outward, lever.path
         return lever_found
+
+
+def _lever_values(search: Search, project) -> dict[str, Any]:
+    """The discrete levers' values in a project (a base the search restarts from)."""
+    return {lever.path: parameter_field(project, lever.path, search.source)[0] for lever in search.discrete}
 
 
 def _label(values: dict) -> str:
@@ -819,15 +889,16 @@ def qualify(
     reached = None
     if best is not None:
         final = search.with_values(best.values)
-        checks = _checks(search, final)
-        if not all(check.status == "qualifies" for check in checks):
-            notes.append("the answer found on the draws' path did not qualify when scored in full; searched again from it")
-            retry = search.least_cost(Combination({p: v for p, v in best.values.items() if p in {lever.path for lever in search.discrete}}, _pieces_at(search, best.values), 0.0), base=final)
+        checks, ok = _checks(search, final, best)
+        if not ok:
+            notes.append("the answer found on the draws' path did not qualify when scored back; searched again from it")
+            discrete = {lever.path for lever in search.discrete}
+            retry = search.least_cost(Combination({p: v for p, v in best.values.items() if p in discrete}, _pieces_at(search, best.values), 0.0), base=final)
             if retry is not None:
                 retry.cost += sum(lever.cost(best.values[lever.path]) for lever in search.discrete)
                 best, final = retry, search.with_values(retry.values)
-                checks = _checks(search, final)
-            if not all(check.status == "qualifies" for check in checks):
+                checks, ok = _checks(search, final, best)
+            if not ok:
                 best = None
     if best is None:
         for combination in combinations:
@@ -836,7 +907,7 @@ def qualify(
                 reached = found
         if reached is not None:
             final = search.with_values(reached.values)
-            checks = _checks(search, final)
+            checks, _ = _checks(search, final, reached)
     for label, blocked in search.blocked.items():
         notes.append(f"{label}: " + "; ".join(f"{scheme} is {status.replace('_', ' ')} whatever the value (its rules, read before the threshold, decide)" for scheme, status in blocked.items()))
     answer = best or reached
@@ -922,23 +993,25 @@ def _pieces_at(search: Search, values: dict) -> list[Piece]:
     return [next(piece for piece in lever.pieces if piece.low - 1e-12 <= values[lever.path] <= piece.high + 1e-12) for lever in search.continuous]
 
 
-def _checks(search: Search, final) -> list[CheckAtAnswer]:
-    """The named schemes' checks of the project at the answer, scored as ``score`` scores it."""
+def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], bool]:
+    """The named schemes' checks of the project at the answer, scored as ``score`` scores it, and
+    whether it qualifies: every status ``qualifies`` at the central value; with a confidence, every
+    scheme qualifying together in at least that share of the draws, the rules read on the project
+    at the answer (``found`` takes that probability)."""
     ids = [s.id for s in search.schemes]
     if search.series is not None:
         result = score_with_series(final, search.factor_set, search.series, gwp=search.gwp, schemes=ids, source=search.source, year=search.year)
     else:
         result = score_project(final, search.factor_set, gwp=search.gwp, schemes=ids, source=search.source, year=search.year)
-    found = []
-    for check in result.checks:
-        item = CheckAtAnswer(scheme=check.scheme, status=check.status, value=check.value, limit=check.limit, unit=check.unit, margin=check.margin)
-        found.append(item)
-    if search.confidence is not None:
-        evaluator = search.evaluator(Combination({}, [], 0.0), base=final)
-        point = np.array([evaluator.nominal[path] for path in evaluator.paths])
-        for item, hits in zip(found, evaluator.scheme_probabilities(point), strict=True):
-            item.probability, item.standard_error = hits.probability, hits.standard_error
-    return found
+    checks = [CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin) for c in result.checks]
+    if search.confidence is None:
+        return checks, all(check.status == "qualifies" for check in checks)
+    evaluator = search.evaluator(Combination({}, [], 0.0), base=final)
+    point = np.array([evaluator.nominal[path] for path in evaluator.paths])
+    for item, hits in zip(checks, evaluator.scheme_probabilities(point), strict=True):
+        item.probability, item.standard_error = hits.probability, hits.standard_error
+    ok, found.probability, found.standard_error = evaluator.qualifies(point)
+    return checks, ok
 
 
 def _front(search: Search, combinations: list[Combination], best: Found | None, budgets: int) -> list[FrontPoint]:
