@@ -573,11 +573,13 @@ def report_items(
     boundary: str | None = None,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
+    levers: str | Path | None = None,
 ) -> list[ProjectReport]:
     """What a report shows of each project (files, or folders of project files): its score, its
     parameters with units and, where the project gives them, its operating years ([lifetime]), the
     matching of its electricity time series ([electricity] time_series) and a Monte Carlo of
-    ``draws`` draws with ``seed`` ([uncertainty]).
+    ``draws`` draws with ``seed`` ([uncertainty]); with ``levers`` (a levers file), what it takes
+    to qualify for ``schemes`` (default the levers file's) at the central value.
 
     The one project is solved by the stacked numpy solver (``solve_stacked``, the solver of
     ``recalc``, equal to bw2calc to 1e-9 on every demo: tests/test_recalc.py and
@@ -601,7 +603,8 @@ def report_items(
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
             spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series)
-        items.append(ProjectReport(result, parameter_table(project), life, views, spread))
+        found = qualify(path, levers, schemes=schemes, factors=factor_set, gwp=gwp, overrides=_boundary_overrides(boundary, overrides), budgets=0) if levers is not None else None
+        items.append(ProjectReport(result, parameter_table(project), life, views, spread, found))
     return items
 
 
@@ -617,16 +620,18 @@ def report(
     paper: str | None = None,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
+    levers: str | Path | None = None,
 ) -> str:
     """The project report of one or several projects as one self-contained HTML text.
 
     generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
     paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
     draws, seed : the Monte Carlo of a project with an [uncertainty] table (the seed is printed).
+    levers : a levers file: each project gets a section on what it takes to qualify.
     """
     if not paths:
         raise InputError("report", "PROJECT", "at least one project file or folder")
-    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed)
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed, levers=levers)
     return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
 
 

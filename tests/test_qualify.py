@@ -182,3 +182,10 @@ def test_a_confidence_outside_zero_one_is_refused(tmp_path, confidence):
     result = run_cli("qualify", SMR, "--levers", levers, "--scheme", "uk-lchs", "--confidence", confidence)
     assert_one_line_error(result)
     assert "--confidence" in result.stderr
+
+
+def test_the_report_gets_a_section_with_a_levers_file():
+    page = api.report([SMR], levers=DEMO / "levers" / "blue_smr_hydrogen.toml", generated="2026-12-02")
+    assert '<section class="sheet" id="p1-qualify"' in page and "What it takes to qualify" in page
+    assert "invented prices" in page
+    assert 'id="p1-qualify"' not in api.report([SMR], generated="2026-12-02")  # no levers file, no section

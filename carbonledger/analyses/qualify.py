@@ -17,11 +17,13 @@ Method
   value, or a table); a convex cost is written as its epigraph (one linear constraint per piece),
   so the objective is linear; a cost that is not convex is split into convex pieces that are
   enumerated like discrete values. The constraint is the relative margin (limit - value) / |limit|
-  of every scheme at the central value, or, with a confidence p, the k-th largest over the draws of
-  the smallest relative margin of the schemes, k = ceil(p x draws used): it is >= 0 exactly when at
-  least k draws qualify under every scheme (a chance constraint on common random numbers: the same
-  draws, from the seed, for every candidate, so the answer is the same from run to run).
-  Gradients are forward differences, all of them scored in one stacked solve.
+  of every scheme at the central value, or, with a confidence p, the mean of the smallest relative
+  margins (over the schemes) of the draws ranked k to k + w - 1, k = ceil(p x draws used),
+  w = ``SMOOTHING`` of the draws: never above the k-th largest, so where it is >= 0 at least k
+  draws qualify under every scheme (a chance constraint on common random numbers: the same draws,
+  from the seed, for every candidate and combination, so the answer is the same from run to run);
+  that search starts from the central answer. Gradients are forward differences, scored together
+  in one stacked solve (with draws, on the ranked draws only).
 - Discrete levers (and the pieces of non-convex costs): every combination is enumerated, cheapest
   lower bound first; a combination whose lower bound reaches the best cost found is not solved
   (branch and bound).
