@@ -646,6 +646,7 @@ class Search:
         problem = Continuous(evaluator, self.continuous, combination.pieces)
         start = self.start(combination, problem)
         iterations = 0
+        central = None
         if evaluator.drawn is not None:  # start the draws' search from the answer at the central value
             central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
             guess, result = central.least_cost(start)
@@ -654,6 +655,9 @@ class Search:
         z, result = problem.least_cost(start)
         iterations += int(result.nit)
         if not evaluator.qualifies(problem.x(z))[0]:
+            if central is not None:  # the draws' largest margin is searched from the central one
+                start, _, result = central.best_margin(start)
+                iterations += int(result.nit)
             best, margin, extra = problem.best_margin(start)
             iterations += int(extra.nit)
             if margin < 0:
