@@ -628,7 +628,8 @@ class Search:
             self.drawn = (draw(plan, self.draws, self.seed, self.sampling), list(plan.uncertainty.parameters))
         return self.drawn
 
-    def start(self, combination: Combination, problem: Continuous) -> np.ndarray:
+    def start(self, problem: Continuous) -> np.ndarray:
+        """The project's own values of the continuous levers, scaled (clipped into each piece)."""
         return problem.z_of([float(lever.project_value) for lever in self.continuous])
 
     def least_cost(self, combination: Combination, base=None) -> Found | None:
@@ -644,7 +645,7 @@ class Search:
             margin = float(np.min(evaluator.constraint(np.zeros((1, 0)))[0]))
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se) if ok else None
         problem = Continuous(evaluator, self.continuous, combination.pieces)
-        start = self.start(combination, problem)
+        start = self.start(problem)
         iterations = 0
         central = None
         if evaluator.drawn is not None:  # start the draws' search from the answer at the central value
@@ -688,7 +689,7 @@ class Search:
             ok, p, se = evaluator.qualifies(np.zeros(0))
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se)
         problem = Continuous(evaluator, self.continuous, combination.pieces)
-        start = self.start(combination, problem)
+        start = self.start(problem)
         if budget is not None:  # start from the cheapest point of each piece, which any budget that admits the piece affords
             start = problem.z_of([min((piece.low, piece.high, *_kinks(piece)), key=piece.cost) for piece in combination.pieces])
             if combination.discrete_cost + problem.cost(start) > budget + 1e-9 * max(1.0, abs(budget)):
@@ -877,7 +878,7 @@ def qualify(
     if not schemes:
         raise InputError("--scheme", "", "at least one scheme id (or `schemes` in the levers file)")
     original = original or project
-    project = with_sources(project, levers, source, levers_source)
+    project = with_sources(project, levers, levers_source)
     chosen = select_schemes(rulebooks(), schemes, project.project.product)
     search = Search(project, factor_set, resolve_levers(project, levers, levers_source), chosen, source, levers_source, gwp, year, confidence, draws, seed, sampling, uncertainty, series)
     combinations = search.combinations()
@@ -980,7 +981,7 @@ def qualify(
     )
 
 
-def with_sources(project, levers: Levers, source: str, levers_source: str):
+def with_sources(project, levers: Levers, levers_source: str):
     """The project with the levers file's new electricity sources at share 0."""
     if not levers.sources:
         return project
