@@ -9,6 +9,7 @@ from __future__ import annotations
 import itertools
 import json
 
+import numpy as np
 import pytest
 from scipy.optimize import linprog
 
@@ -189,3 +190,22 @@ def test_the_report_gets_a_section_with_a_levers_file():
     assert '<section class="sheet" id="p1-qualify"' in page and "What it takes to qualify" in page
     assert "invented prices" in page
     assert 'id="p1-qualify"' not in api.report([SMR], generated="2026-12-02")  # no levers file, no section
+
+
+def test_costs_per_step_and_pieces_of_a_table():
+    # Check (arithmetic written out by hand): a range with a step of 0.03 from 0.90 gives 0.90, 0.93,
+    # 0.96, 0.99, priced 1,000,000 per step of change from the project's 0.90; a cost table whose
+    # slope falls (20 then 4 per unit) is split into two convex pieces at the kink.
+    from carbonledger.analyses.qualify import convex_pieces, resolve_levers
+    from carbonledger.model.levers import Levers
+    from carbonledger.routes.project import load_project
+
+    project, _ = load_project(SMR)
+    levers = Levers.model_validate({"currency": "EUR", "period": "year", "levers": [{"parameter": "capture.capture_rate", "range": [0.9, 0.99], "step": 0.03, "cost": {"per_step": 1_000_000}}]})
+    (lever,) = resolve_levers(project, levers, "levers.toml")
+    assert lever.choices == pytest.approx([0.90, 0.93, 0.96, 0.99])
+    assert lever.choice_costs == pytest.approx([0, 1_000_000, 2_000_000, 3_000_000])
+    pieces = convex_pieces(np.array([0.0, 0.5, 1.0]), np.array([0.0, 10.0, 12.0]))
+    assert [(p.low, p.high) for p in pieces] == [(0.0, 0.5), (0.5, 1.0)]
+    assert pieces[1].cost(0.75) == pytest.approx(11.0)
+    assert len(convex_pieces(np.array([0.0, 0.5, 1.0]), np.array([10.0, 0.0, 10.0]))) == 1  # |x - 0.5| is convex: one piece
