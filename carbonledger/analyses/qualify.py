@@ -560,6 +560,7 @@ class Search:
     blocked: dict = field(default_factory=dict)  # combination label -> {scheme: status}
     evaluators: dict = field(default_factory=dict)  # combination label -> Evaluator
     drawn: tuple | None = None  # the draws of the project as written and its uncertain parameter paths
+    largest: dict = field(default_factory=dict)  # combination -> its largest margin within the ranges
 
     @property
     def continuous(self) -> list[Resolved]:
@@ -701,6 +702,13 @@ class Search:
         found = Found(values, combination.discrete_cost + problem.cost(z), ok, margin, p, se)
         found.note = self.binding(problem, z)
         return found
+
+    def largest_margin(self, combination: Combination) -> Found | None:
+        """The largest smallest margin of a combination within the ranges, whatever the cost (kept)."""
+        key = (_label(combination.discrete), tuple((piece.low, piece.high) for piece in combination.pieces))
+        if key not in self.largest:
+            self.largest[key] = self.best_margin(combination)
+        return self.largest[key]
 
     def binding(self, problem: Continuous, z: np.ndarray) -> str:
         """The continuous lever at a bound of its range whose widening raises the margin most (per unit of its range)."""
@@ -909,7 +917,7 @@ def qualify(
                 best = None
     if best is None:
         for combination in combinations:
-            found = search.best_margin(combination)
+            found = search.largest_margin(combination)
             if found is not None and (reached is None or found.margin > reached.margin):
                 reached = found
         if reached is not None:
@@ -1031,11 +1039,17 @@ def _front(search: Search, combinations: list[Combination], best: Found | None, 
         top = sum(max(max(piece.cost(piece.low), piece.cost(piece.high)) for piece in lever.pieces) for lever in search.continuous)
         top = max(0.0, top + sum(max(lever.choice_costs) for lever in search.discrete))
     sweep = sorted(set(np.linspace(0.0, top, budgets).tolist() + ([best.cost] if best is not None else [])))
+    unbounded = [(combination, search.largest_margin(combination)) for combination in combinations]
+    unbounded = sorted([(c, found) for c, found in unbounded if found is not None], key=lambda item: -item[1].margin)
     points = []
     for budget in sweep:
         reached = None
-        for combination in combinations:
-            found = search.best_margin(combination, budget)
+        for combination, largest in unbounded:  # the largest margin without a budget bounds the margin within one
+            if reached is not None and largest.margin <= reached.margin:
+                break
+            if combination.discrete_cost > budget + 1e-9 * max(1.0, abs(budget)):
+                continue
+            found = largest if largest.cost <= budget else search.best_margin(combination, budget)
             if found is not None and (reached is None or found.margin > reached.margin):
                 reached = found
         if reached is not None:
