@@ -21,7 +21,6 @@ from .options import (
     LedgerOption,
     NoLedgerOption,
     OutputFormat,
-    SchemeOption,
     SetOption,
     YearOption,
     check_chart_path,
@@ -34,7 +33,7 @@ from .uncertainty import DistributionsOption, SamplingOption, SeedOption
 def qualify(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
     levers: Annotated[Path, typer.Option("--levers", help="Levers TOML file: what may change, within which values, at what cost (docs/qualify.md).")],
-    scheme: SchemeOption = None,
+    scheme: Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id that must qualify (repeatable); default: the levers file's `schemes`.")] = None,
     year: YearOption = None,
     confidence: Annotated[Optional[float], typer.Option("--confidence", help="Share of Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; default: the central value.")] = None,
     draws: Annotated[int, typer.Option("--draws", help="Monte Carlo draws with --confidence (common to every candidate).")] = 2000,
