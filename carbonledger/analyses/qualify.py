@@ -83,6 +83,7 @@ MARGIN_TOLERANCE = 1e-9  # the relative margin asked of a continuous answer (kee
 STEP = 1e-6  # forward-difference step on levers scaled to [0, 1]
 BLOCK_SYSTEMS = 40_000  # systems scored per stacked call
 FRONT_BUDGETS = 6
+FRONT_ITERATIONS = 40  # SLSQP iterations of a front point with draws (it starts from the central one)
 BLOCKED = -1.0  # relative margin given to a point a physical limit refuses
 SMOOTHING = 0.005  # share of the draws whose ranked margins are averaged in the chance constraint
 
@@ -488,7 +489,7 @@ class Continuous:
         )
         return np.clip(result.x[:n], 0.0, 1.0), result
 
-    def best_margin(self, start: np.ndarray, budget: float | None = None):
+    def best_margin(self, start: np.ndarray, budget: float | None = None, iterations: int = 200):
         """Maximise the smallest margin (within ``budget`` of continuous cost when given); returns (z, margin, result)."""
         from scipy.optimize import minimize
 
@@ -509,7 +510,7 @@ class Continuous:
         span = [(-1e6, 1e6)] * n
         result = minimize(
             lambda v: -v[-1], np.concatenate([start, t0, [m0]]), jac=lambda v: np.concatenate([np.zeros(2 * n), [-1.0]]),
-            method="SLSQP", bounds=[(0.0, 1.0)] * n + span + [(-10.0, 10.0)], constraints=constraints, options={"ftol": SOLVER_TOLERANCE, "maxiter": 200},
+            method="SLSQP", bounds=[(0.0, 1.0)] * n + span + [(-10.0, 10.0)], constraints=constraints, options={"ftol": SOLVER_TOLERANCE, "maxiter": iterations},
         )
         z = np.clip(result.x[:n], 0.0, 1.0)
         if budget is not None and self.cost(z) > budget + 1e-9 * self.scale:
@@ -695,7 +696,14 @@ class Search:
             start = problem.z_of([min((piece.low, piece.high, *_kinks(piece)), key=piece.cost) for piece in combination.pieces])
             if combination.discrete_cost + problem.cost(start) > budget + 1e-9 * max(1.0, abs(budget)):
                 return None
-        z, margin, result = problem.best_margin(start, None if budget is None else budget - combination.discrete_cost)
+        allowed = None if budget is None else budget - combination.discrete_cost
+        iterations = 200
+        if evaluator.drawn is not None:  # start from the central answer; a front point with draws gets FRONT_ITERATIONS
+            central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
+            start, _, result = central.best_margin(start, allowed)
+            self.iterations += int(result.nit)
+            iterations = FRONT_ITERATIONS if budget is not None else iterations
+        z, margin, result = problem.best_margin(start, allowed, iterations)
         self.iterations += int(result.nit)
         ok, p, se = evaluator.qualifies(problem.x(z))
         values = {**combination.discrete, **{lever.path: float(v) for lever, v in zip(self.continuous, problem.x(z), strict=True)}}
