@@ -329,7 +329,7 @@ class Evaluator:
             for scheme in self.schemes:
                 values = np.asarray(outcome.scheme_values[scheme.id], dtype=float)
                 limit = scheme.loosest().limit
-                rel.append((limit - values) / abs(limit))
+                rel.append(np.nan_to_num((limit - values) / abs(limit), nan=BLOCKED))  # a value that is not a number never qualifies
                 ok.append(statuses(scheme, values, outcome.scheme_findings.get(scheme.id))["qualifies"] & ~broken)
             shape = (len(block), size, len(self.schemes))
             margins.append(np.stack(rel, axis=-1).reshape(shape))
@@ -589,9 +589,9 @@ class Search:
         fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.continuous}
         return Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
 
-    def with_values(self, values: dict[str, Any], base=None):
+    def with_values(self, values: dict[str, Any]):
         """The validated project with lever values set (a share lever rebalances the other sources in proportion)."""
-        base = base or self.project
+        base = self.project
         plan = self.lever_plan(base)
         plan.fields = {path: parameter_field(base, path, self.source) for path in values}
         params = params_with_draws(plan, {path: (np.float64(value) if isinstance(value, float) else value) for path, value in values.items()})
@@ -601,17 +601,15 @@ class Search:
             where = ", ".join(f"{path}={value!r}" for path, value in values.items())
             raise InputError(self.levers_source, "levers", f"lever values the project accepts ({where}): {error.field}: {error.expected}") from None
 
-    def evaluator(self, combination: Combination, base=None) -> Evaluator:
+    def evaluator(self, combination: Combination) -> Evaluator:
+        """The evaluator of a combination's discrete values (kept: its checks of the rules run once)."""
         key = _label(combination.discrete)
-        if base is None and key in self.evaluators:
-            return self.evaluators[key]
-        found = self._evaluator(combination, base)
-        if base is None:
-            self.evaluators[key] = found
-        return found
+        if key not in self.evaluators:
+            self.evaluators[key] = self._evaluator(combination)
+        return self.evaluators[key]
 
-    def _evaluator(self, combination: Combination, base=None) -> Evaluator:
-        project = self.with_values(combination.discrete, base) if combination.discrete else (base or self.project)
+    def _evaluator(self, combination: Combination) -> Evaluator:
+        project = self.with_values(combination.discrete) if combination.discrete else self.project
         plan = self.lever_plan(project)
         drawn = None
         if self.confidence is not None:
@@ -619,8 +617,7 @@ class Search:
             plan.fields.update({path: parameter_field(project, path, self.source) for path in uncertain})
         nominal = {lever.path: float(parameter_field(project, lever.path, self.source)[0]) for lever in self.continuous}
         reference = {lever.path: float(lever.project_value) for lever in self.levers if isinstance(lever.project_value, (int, float)) and not isinstance(lever.project_value, bool)}
-        values = {**combination.discrete, **(_lever_values(self, base) if base is not None else {})}
-        fixed = {path: float(value) for path, value in values.items() if path in reference and path not in nominal}
+        fixed = {path: float(value) for path, value in combination.discrete.items() if path in reference}
         return Evaluator(plan, self.schemes, [lever.path for lever in self.continuous], nominal, drawn, self.confidence, reference, fixed)
 
     def draws_of_project(self) -> tuple[Draws, list[str]]:
@@ -634,9 +631,9 @@ class Search:
         """The project's own values of the continuous levers, scaled (clipped into each piece)."""
         return problem.z_of([float(lever.project_value) for lever in self.continuous])
 
-    def least_cost(self, combination: Combination, base=None) -> Found | None:
+    def least_cost(self, combination: Combination) -> Found | None:
         """The cheapest qualifying values of the continuous levers with this combination, or None."""
-        evaluator = self.evaluator(combination, base)
+        evaluator = self.evaluator(combination)
         label = _label(combination.discrete)
         if evaluator.blocked:
             self.blocked[label] = evaluator.blocked
@@ -729,11 +726,6 @@ class Search:
             if (at_low or at_high) and outward > best:
                 best, lever_found = outward, lever.path
         return lever_found
-
-
-def _lever_values(search: Search, project) -> dict[str, Any]:
-    """The discrete levers' values in a project (a base the search restarts from)."""
-    return {lever.path: parameter_field(project, lever.path, search.source)[0] for lever in search.discrete}
 
 
 def _label(values: dict) -> str:
@@ -914,15 +906,8 @@ def qualify(
         final = search.with_values(best.values)
         checks, ok = _checks(search, final, best)
         if not ok:
-            notes.append("the answer found on the draws' path did not qualify when scored back; searched again from it")
-            discrete = {lever.path for lever in search.discrete}
-            retry = search.least_cost(Combination({p: v for p, v in best.values.items() if p in discrete}, _pieces_at(search, best.values), 0.0), base=final)
-            if retry is not None:
-                retry.cost += sum(lever.cost(best.values[lever.path]) for lever in search.discrete)
-                best, final = retry, search.with_values(retry.values)
-                checks, ok = _checks(search, final, best)
-            if not ok:
-                best = None
+            notes.append("the least-cost answer on the draws' path did not qualify when scored back (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported")
+            best = None
     if best is None:
         for combination in combinations:
             found = search.largest_margin(combination)
@@ -1012,15 +997,11 @@ def with_sources(project, levers: Levers, levers_source: str):
         raise InputError(levers_source, error.field.replace("electricity.sources.", "sources.", 1), error.expected) from None
 
 
-def _pieces_at(search: Search, values: dict) -> list[Piece]:
-    return [next(piece for piece in lever.pieces if piece.low - 1e-12 <= values[lever.path] <= piece.high + 1e-12) for lever in search.continuous]
-
-
 def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], bool]:
     """The named schemes' checks of the project at the answer, scored as ``score`` scores it, and
     whether it qualifies: every status ``qualifies`` at the central value; with a confidence, every
-    scheme qualifying together in at least that share of the draws, the rules read on the project
-    at the answer (``found`` takes that probability)."""
+    scheme qualifying together in at least that share of the draws (``found`` takes that
+    probability), and no scheme kept from qualifying by its rules at the answer."""
     ids = [s.id for s in search.schemes]
     if search.series is not None:
         result = score_with_series(final, search.factor_set, search.series, gwp=search.gwp, schemes=ids, source=search.source, year=search.year)
@@ -1029,12 +1010,13 @@ def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], b
     checks = [CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin) for c in result.checks]
     if search.confidence is None:
         return checks, all(check.status == "qualifies" for check in checks)
-    evaluator = search.evaluator(Combination({}, [], 0.0), base=final)
-    point = np.array([evaluator.nominal[path] for path in evaluator.paths])
+    discrete = {lever.path for lever in search.discrete}
+    evaluator = search.evaluator(Combination({path: value for path, value in found.values.items() if path in discrete}, [], 0.0))
+    point = np.array([found.values[path] for path in evaluator.paths], dtype=float)
     for item, hits in zip(checks, evaluator.scheme_probabilities(point), strict=True):
         item.probability, item.standard_error = hits.probability, hits.standard_error
     ok, found.probability, found.standard_error = evaluator.qualifies(point)
-    return checks, ok
+    return checks, ok and not any(check.status in ("not_eligible", "undetermined") for check in checks)
 
 
 def _front(search: Search, combinations: list[Combination], best: Found | None, budgets: int) -> list[FrontPoint]:
