@@ -24,6 +24,8 @@ from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, load_portfolio, project_files
 from .analyses.portfolio import recalc as recalc_portfolio
+from .analyses.qualify import FRONT_BUDGETS, QualifyResult
+from .analyses.qualify import qualify as qualify_with
 from .analyses.sensitivity import Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
@@ -41,6 +43,7 @@ from .io.workbook.reader import (
 from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
+from .model.levers import read_levers
 from .model.project import boundary_id, parameter_table, read_project_file
 from .model.statuses import Status
 from .routes import routes_of
@@ -63,6 +66,7 @@ __all__ = [
     "uncertainty",
     "load_uncertainty",
     "headroom",
+    "qualify",
     "sensitivity",
     "uncertainty_many",
 ]
@@ -451,6 +455,36 @@ def headroom(
     return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp, series=series, year=year) for path in parameters]
 
 
+def qualify(
+    project_file: str | Path,
+    levers_file: str | Path,
+    *,
+    schemes: list[str] | None = None,
+    year: int | None = None,
+    confidence: float | None = None,
+    draws: int = 2000,
+    seed: int = DEFAULT_SEED,
+    sampling: str | None = None,
+    distributions: str | Path | None = None,
+    budgets: int = FRONT_BUDGETS,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    overrides: list[str] | None = None,
+) -> QualifyResult:
+    """The least-cost values of the levers in ``levers_file`` with which every scheme in ``schemes``
+    (default: the levers file's ``schemes``) qualifies on ``year``'s rules: at the central value, or,
+    with ``confidence``, in at least that share of ``draws`` Monte Carlo draws (``seed``; the
+    project's ``[uncertainty]`` table with ``distributions`` laid over it). Also the cost/margin
+    front over ``budgets`` budgets (0: none). See docs/qualify.md."""
+    levers = read_levers(levers_file)
+    project, _ = load_project(project_file, overrides)
+    found = load_uncertainty(project_file, distributions) if confidence is not None else None
+    return qualify_with(
+        project, _factor_set(factors), levers, list(schemes or levers.schemes), source=str(project_file), levers_source=str(levers_file), gwp=gwp, year=year,
+        confidence=confidence, draws=draws, seed=seed, sampling=sampling, uncertainty=found, series=project_series(project, project_file), budgets=budgets,
+    )
+
+
 def sensitivity(
     project_file: str | Path,
     *,
@@ -552,11 +586,13 @@ def report_items(
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
     year: int | None = None,
+    levers: str | Path | None = None,
 ) -> list[ProjectReport]:
     """What a report shows of each project (files, or folders of project files): its score, its
     parameters with units and, where the project gives them, its operating years ([lifetime]), the
     matching of its electricity time series ([electricity] time_series) and a Monte Carlo of
-    ``draws`` draws with ``seed`` ([uncertainty]).
+    ``draws`` draws with ``seed`` ([uncertainty]); with ``levers`` (a levers file), what it takes
+    to qualify for ``schemes`` (default the levers file's) at the central value.
 
     The one project is solved by the stacked numpy solver (``solve_stacked``, the solver of
     ``recalc``, equal to bw2calc to 1e-9 on every demo: tests/test_recalc.py and
@@ -580,7 +616,8 @@ def report_items(
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
             spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series, year=year)
-        items.append(ProjectReport(result, parameter_table(project), life, views, spread))
+        found = qualify(path, levers, schemes=schemes, factors=factor_set, gwp=gwp, overrides=_boundary_overrides(boundary, overrides), budgets=0, year=year) if levers is not None else None
+        items.append(ProjectReport(result, parameter_table(project), life, views, spread, found))
     return items
 
 
@@ -597,16 +634,18 @@ def report(
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
     year: int | None = None,
+    levers: str | Path | None = None,
 ) -> str:
     """The project report of one or several projects as one self-contained HTML text.
 
     generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
     paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
     draws, seed : the Monte Carlo of a project with an [uncertainty] table (the seed is printed).
+    levers : a levers file: each project gets a section on what it takes to qualify.
     """
     if not paths:
         raise InputError("report", "PROJECT", "at least one project file or folder")
-    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed, year=year)
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed, year=year, levers=levers)
     return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
 
 

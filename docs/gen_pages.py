@@ -42,9 +42,11 @@ PUBLIC_MODULES = (
     "carbonledger.model.factors",
     "carbonledger.model.rulebooks",
     "carbonledger.model.distributions",
+    "carbonledger.model.levers",
     "carbonledger.routes",
     "carbonledger.routes.base",
     "carbonledger.analyses.compare",
+    "carbonledger.analyses.qualify",
     "carbonledger.analyses.portfolio",
     "carbonledger.analyses.lifetime",
     "carbonledger.analyses.matching",
@@ -287,6 +289,7 @@ def nav() -> list:
     return [
         {"Home": "index.md"},
         {"Deliverables": "generated/deliverables.md"},
+        {"What it takes to qualify": "qualify.md"},
         {"Methodology": [
             {"Overview": "generated/methodology/index.md"},
             {"Stages": [{name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"} for name in stage_modules()]},

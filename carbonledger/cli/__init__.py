@@ -35,6 +35,7 @@ COMMANDS = {
     "schemes": ("project_commands", "schemes"),
     "uncertainty": ("uncertainty", "uncertainty"),
     "headroom": ("uncertainty", "headroom"),
+    "qualify": ("qualify", "qualify"),
     "sensitivity": ("uncertainty", "sensitivity"),
     "init": ("project_commands", "init"),
     "factors": ("factors", "factors"),

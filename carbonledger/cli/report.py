@@ -29,6 +29,7 @@ def report(
     year: YearOption = None,
     draws: Annotated[int, typer.Option("--draws", help="Monte Carlo draws for a project with an [uncertainty] table.")] = DEFAULT_DRAWS,
     seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}; printed in the report).")] = DEFAULT_SEED,
+    levers: Annotated[Optional[Path], typer.Option("--levers", help="Levers TOML file: add what it takes to qualify (docs/qualify.md).")] = None,
 ) -> None:
     """Write the project report: summary and verdicts, stages and gases, scheme limits, hourly matching, spread of the result, lifetime, inputs, factors and their sources."""
     try:
@@ -43,7 +44,7 @@ def report(
             check_output_path(target, force, "--output" if target == output else "--pdf")
         if pdf is not None and pdf.suffix.lower() != ".pdf":
             raise InputError(pdf, "--pdf", f"a file ending in .pdf, got '{pdf.suffix or 'no suffix'}'")
-        items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed, year=year)
+        items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed, year=year, levers=levers)
         generated = api.report_date()
         if pdf is not None:
             print_pdf(render_report(items, generated=generated, caution=CAUTION, paper=paper.lower()), pdf, force=force)

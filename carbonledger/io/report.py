@@ -27,6 +27,7 @@ import numpy as np
 
 from ..analyses.lifetime import LifetimeResult
 from ..analyses.matching import MatchingView
+from ..analyses.qualify import QualifyResult
 from ..analyses.uncertainty import UncertaintyResult
 from ..core.results import Check, ScoreResult
 from ..core.scoring import rulebooks
@@ -54,6 +55,7 @@ class ProjectReport:
     lifetime: LifetimeResult | None = None
     matching: list[MatchingView] = field(default_factory=list)
     uncertainty: UncertaintyResult | None = None
+    qualify: QualifyResult | None = None  # with a levers file: what it takes to qualify
 
 
 # --- words and numbers -------------------------------------------------------------------
@@ -535,6 +537,30 @@ def uncertainty_section(item: ProjectReport, key: str) -> str:
     )
 
 
+def qualify_section(item: ProjectReport, key: str) -> str:
+    """What it takes to qualify (a levers file was given): the least-cost lever values, or why none."""
+    found = item.qualify
+    if found is None:
+        return ""
+    target = f"in at least {found.confidence:.0%} of {found.draws:,} draws" if found.confidence is not None else "at the central value"
+    if found.status == "qualifies":
+        head = f"<p>The least-cost set of changes with which {text(', '.join(found.schemes))} qualif{'ies' if len(found.schemes) == 1 else 'y'} {target}: <strong>{found.total_cost:,.0f} {text(found.cost_unit)}</strong>{' (invented prices)' if found.prices_invented else ''}.</p>"
+    else:
+        head = f"<p><strong>No set of changes within the levers' ranges qualifies</strong> for {text(', '.join(found.schemes))} {target}: {text(found.reason)}.</p>"
+    rows = [[f"<code>{text(c.parameter)}</code>", text(c.project_value), text(f"{c.value:.6g}" if isinstance(c.value, float) else c.value), text(c.unit), f"{c.cost:,.0f}"] for c in found.changes]
+    checks = [[text(c.scheme), badge(c.status.replace("_", " ")), number(c.value), number(c.limit), text(c.unit)] for c in found.checks]
+    back = f"<p class=small>Score it back with <code>{text(' '.join('--set ' + item for item in found.score_back_set))}</code>.</p>" if found.score_back_set else ""
+    return (
+        f'<section class="sheet" id="{key}-qualify" aria-labelledby="{key}-qualify-h"><h2 id="{key}-qualify-h">What it takes to qualify</h2>'
+        + head
+        + _table(["Lever", "Project value", "Answer" if found.status == "qualifies" else "Best margin at", "Unit", f"Cost ({text(found.cost_unit)})"], rows, "compact small", {1, 2, 4})
+        + _table(["Scheme", "Status", "Value", "Limit", "Unit"], checks, "compact small", {2, 3})
+        + back
+        + f"<p class=small>Levers from <code>{text(found.levers_file)}</code>; solver {text(found.solver['continuous'])}, tolerance {found.solver['tolerance']:g}; {text(found.solver['discrete'])}.</p>"
+        + "</section>"
+    )
+
+
 def inputs_section(item: ProjectReport, key: str) -> str:
     result = item.result
     info = result.parameters.get("project", {})
@@ -597,6 +623,7 @@ def project_html(item: ProjectReport, index: int, generated: str, caution: str) 
         + schemes_section(item, key)
         + matching_section(item, key)
         + uncertainty_section(item, key)
+        + qualify_section(item, key)
         + lifetime_section(item, key)
         + inputs_section(item, key)
         + factors_section(item, key)
