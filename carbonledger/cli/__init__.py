@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, plan, project_commands, recalc, report, uncertainty, workbook
+from . import compare, factors, ledger, plan, project_commands, recalc, report, uncertainty, workbook
 
 app = typer.Typer(
     add_completion=False,
@@ -22,6 +22,8 @@ app = typer.Typer(
 )
 factors_app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, help="Browse the factor library.")
 app.add_typer(factors_app, name="factors")
+ledger_app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, help="The run ledger: create or upgrade it, export its records, copy it to another ledger.")
+app.add_typer(ledger_app, name="ledger")
 
 
 def _version(value: bool) -> None:
@@ -54,6 +56,9 @@ factors_app.command("list")(factors.factors_list)
 factors_app.command("show")(factors.factors_show)
 factors_app.command("sets")(factors.factors_sets)
 factors_app.command("diff")(factors.factors_diff)
+ledger_app.command("upgrade")(ledger.upgrade)
+ledger_app.command("export")(ledger.export)
+ledger_app.command("copy")(ledger.copy)
 
 
 def main() -> None:

@@ -25,6 +25,7 @@ import json
 import uuid
 from collections.abc import Callable
 
+from ..about import __version__
 from ..errors import InputError
 
 LEDGER_FORMAT = "carbonledger run ledger"
@@ -148,8 +149,6 @@ def schema_of(db) -> int:
     except ValueError:
         raise not_a_ledger(db, f"its schema_version '{meta.get('schema_version')}' is not a number") from None
     if version > SCHEMA_VERSION:
-        from ..about import __version__
-
         raise InputError(
             db.location.shown, "--ledger", f"a ledger of schema {SCHEMA_VERSION} or older (it has schema {version}, written by a newer carbonledger than {__version__}: upgrade carbonledger); nothing was written"
         )
