@@ -213,7 +213,9 @@ class ServerDatabase(Database):
             self.connection.execute(self.text(sql), rows)
 
     def tables(self) -> set[str]:
-        return {row[0] for row in self.rows("SELECT table_name FROM information_schema.tables WHERE table_schema = current_schema()")}
+        # pg_class lists every table, view and sequence of the schema, whoever may read it
+        # (information_schema shows only those the user has rights on)
+        return {row[0] for row in self.rows("SELECT c.relname FROM pg_catalog.pg_class c WHERE c.relnamespace = to_regnamespace(current_schema()) AND c.relkind IN ('r', 'p', 'v', 'm', 'f')")}
 
     def close(self) -> None:
         self.rollback()
