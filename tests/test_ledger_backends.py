@@ -78,6 +78,7 @@ def test_every_record_says_who_and_what_and_history_filters(ledger, monkeypatch)
     assert len(as_json["records"]) == 2 * len(portfolio) and as_json["caution"]
 
 
+@pytest.mark.parametrize("ledger", ["postgresql"], indirect=True)  # many workers, one server (a cluster start costs ~10 s)
 def test_recalc_on_dask_writes_from_the_workers_and_a_rerun_adds_nothing(ledger):
     pytest.importorskip("distributed")
     first = run_cli("recalc", DEMO, "--to", "demo-2027-grid-revision", "--workers", "2", "--format", "json")
