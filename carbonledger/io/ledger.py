@@ -317,7 +317,7 @@ def _write_records(db, run_id: int, run_key: str, items: list[tuple[str, LedgerR
     for item_key, record in items:
         parameters_json, parameters_sha = _canonical(record.parameters)
         parameters[parameters_sha] = parameters_json
-        cache_key = (record.factor_set_sha256, tuple(json.dumps(row, sort_keys=True, default=str) for row in record.factors_used))
+        cache_key = (record.factor_set_sha256, tuple(row.get("id") for row in record.factors_used))
         if cache_key not in factor_cache:
             factor_cache[cache_key] = _canonical(record.factors_used)
         factors_json, factors_sha = factor_cache[cache_key]
