@@ -287,6 +287,7 @@ def nav() -> list:
     return [
         {"Home": "index.md"},
         {"Deliverables": "generated/deliverables.md"},
+        {"A team's ledger": "ledger.md"},
         {"Methodology": [
             {"Overview": "generated/methodology/index.md"},
             {"Stages": [{name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"} for name in stage_modules()]},
