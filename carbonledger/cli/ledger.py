@@ -34,8 +34,8 @@ def upgrade(ledger: LedgerArgument = None) -> None:
         before, after = upgrade_ledger(where)
     except InputError as error:
         fail(error)
-    done = "already at" if before == after else f"upgraded from schema {before} to"
-    typer.echo(f"ledger {where}: {done} schema {after}")
+    done = "already at schema" if before == after else "created with schema" if before == 0 else f"upgraded from schema {before} to"
+    typer.echo(f"ledger {where}: {done} {after}")
 
 
 def export(

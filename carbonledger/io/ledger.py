@@ -33,6 +33,7 @@ References
 
 from __future__ import annotations
 
+import contextlib
 import getpass
 import hashlib
 import json
@@ -241,9 +242,16 @@ def upgrade_ledger(ledger: str | Path | None = None) -> tuple[int, int]:
     """Create or upgrade a ledger's schema (``carbonledger ledger upgrade``): (before, after)."""
     where = locate(ledger)
     if not where.on_server:
-        existed = where.path.exists()
+        before = 0
+        if where.path.is_file():  # read its schema without writing; connect() refuses what is not a ledger
+            with contextlib.suppress(sqlite3.Error, InputError):
+                db = SqliteDatabase(where)
+                try:
+                    before = schema_of(db)
+                finally:
+                    db.close()
         connect(where).close()  # creates, or upgrades, the file
-        return (SCHEMA_VERSION if existed else 0), SCHEMA_VERSION
+        return before, SCHEMA_VERSION
     db = open_server(where)
     try:
         return upgrade(db)
