@@ -294,6 +294,8 @@ def test_a_schema_1_ledger_file_is_upgraded_in_place_keeping_its_records(tmp_pat
         connection.executescript(_SCHEMA_1_FILE)
     # the content keys above are sha256 of '{}' and '[]' (hashlib, Python standard library)
     assert hashlib.sha256(b"{}").hexdigest().startswith("44136fa3") and hashlib.sha256(b"[]").hexdigest().startswith("4f53cda1")
+    upgraded = run_cli("ledger", "upgrade", path)
+    assert upgraded.exit_code == 0 and "upgraded from schema 1 to 2" in upgraded.stdout
     history = run_cli("history", "/tmp/old.toml", "--ledger", path, "--format", "json")
     assert history.exit_code == 0, history.output
     (entry,) = json.loads(history.stdout)["records"]
