@@ -7,6 +7,7 @@ a ``ComparisonResult``; ``audit_workbook`` an openpyxl workbook and the engine's
 
 from __future__ import annotations
 
+import functools
 import os
 from datetime import UTC, datetime
 from pathlib import Path
@@ -22,7 +23,7 @@ from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, matching_views, score_with_series, series_matched_periods
 from .analyses.periods import month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
-from .analyses.portfolio import Recalc, load_portfolio, project_files
+from .analyses.portfolio import Recalc, RecalcPiece, load_portfolio, project_files, recalc_piece
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.qualify import FRONT_BUDGETS, QualifyResult
 from .analyses.qualify import qualify as qualify_with
@@ -32,7 +33,8 @@ from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult
 from .core.results import ScoreResult
 from .core.scoring import DEFAULT_GWP, assemble, judged, prepare, scheme_reading, score_project, solve_stacked, solve_with_bw2calc
 from .errors import InputError
-from .io.ledger import LedgerRecord, factor_row
+from .io.ledger import LedgerRecord, RunTarget, factor_row, open_run, run_target, write_batch
+from .io.ledger_store import Location
 from .io.matching_chart import write_matching_chart
 from .io.report import ProjectReport, render_report
 from .io.workbook.reader import (
@@ -269,17 +271,48 @@ def recalc(
     year: int | None = None,
     workers: int | None = None,
     scheduler: str | None = None,
+    ledger: Location | None = None,
+    command: str = "recalc",
 ) -> Recalc:
     """Rescore a portfolio (files or folders of project files) under a new factor set.
 
     workers : score on a local Dask cluster of this many worker processes.
     scheduler : score on an existing Dask scheduler at this address instead.
+    ledger : record the run there: each worker writes its piece's records (old and new score of
+        each project) in one transaction as soon as it is scored. The run's key is derived from its
+        inputs (factor sets, projects and their sha256, options), so running the same recalc again
+        records nothing new. The run stays invisible until ``close_run(result.ledger_run)``, which
+        the command line calls once its output is written.
     The results are the same as in one process. Scheme rules are read on ``year``'s dates.
     """
     projects = load_portfolio(paths)
     old_set, new_set = _factor_set(old_factors), _factor_set(new_factors)
+    target = None
+    if ledger is not None:
+        inputs = {
+            "command": command,
+            "factor_sets": [old_set.sha256, new_set.sha256],
+            "gwp": gwp,
+            "schemes": sorted(schemes or []),
+            "year": year,
+            "projects": [[str(Path(p.path).resolve()), p.sha256, getattr(p.series, "sha256", "")] for p in projects],
+        }
+        target = run_target(ledger, inputs, command, "recalc")
+    writing = target if target is not None and not open_run(target) else None
     with dask_mapper(workers, scheduler) as (mapper, chunks):
-        return recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, year=year, mapper=mapper, chunks=chunks)
+        result = recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, year=year, mapper=mapper, chunks=chunks, run_piece=functools.partial(recalc_and_record, writing))
+    result.ledger_run = target
+    return result
+
+
+def recalc_and_record(target: RunTarget | None, piece: tuple) -> RecalcPiece:
+    """One piece of a recalc (what a worker runs), its records written in one batch when ``target``
+    is given: each project's old and new score, keyed by role and project path within the run."""
+    part = recalc_piece(piece)
+    if target is not None:
+        items = [(f"old {Path(s.project_file).resolve()}", s) for s in part.old_scores] + [(f"new {Path(s.project_file).resolve()}", s) for s in part.new_scores]
+        write_batch(target, items)
+    return part
 
 
 def lifetime(

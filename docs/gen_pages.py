@@ -290,6 +290,7 @@ def nav() -> list:
         {"Home": "index.md"},
         {"Deliverables": "generated/deliverables.md"},
         {"What it takes to qualify": "qualify.md"},
+        {"A team's ledger": "ledger.md"},
         {"Methodology": [
             {"Overview": "generated/methodology/index.md"},
             {"Stages": [{name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"} for name in stage_modules()]},

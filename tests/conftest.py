@@ -31,6 +31,8 @@ def pytest_collection_modifyitems(items):
     for item in items:
         if "libreoffice_recalculated" in getattr(item, "fixturenames", ()):
             item.add_marker(pytest.mark.xdist_group("libreoffice"))
+        if {"ledger", "postgresql_server"} & set(getattr(item, "fixturenames", ())):
+            item.add_marker(pytest.mark.xdist_group("postgresql"))  # one throwaway server per session
 
 
 @pytest.fixture(scope="session", autouse=True)
@@ -64,6 +66,43 @@ def _ledger_in_tmp(tmp_path, monkeypatch):
     path = tmp_path / "ledger.sqlite"
     monkeypatch.setenv("CARBONLEDGER_LEDGER", str(path))
     return path
+
+
+@pytest.fixture(scope="session")
+def postgresql_server():
+    """A throwaway PostgreSQL server for the session (tests/pg_support.py); under CI=true a missing
+    server fails the tests that need it instead of skipping them (.ci/run installs postgresql)."""
+    from pg_support import start_server
+
+    server = start_server()
+    if server is None:
+        if os.environ.get("CI") == "true":
+            pytest.fail("PostgreSQL (initdb, pg_ctl) is required under CI=true; .ci/run installs the postgresql package")
+        pytest.skip("PostgreSQL (initdb, pg_ctl) not installed here")
+    yield server
+    server.stop()
+
+
+@pytest.fixture(params=["sqlite", "postgresql"])
+def ledger(request, tmp_path, monkeypatch):
+    """A new, empty ledger on each backend, made the default for the command line
+    ($CARBONLEDGER_LEDGER): an SQLite file, or a PostgreSQL database created with
+    `carbonledger ledger upgrade` (its password only in PGPASSWORD)."""
+    from ledger_support import LedgerUnderTest
+
+    if request.param == "sqlite":
+        where = LedgerUnderTest(str(tmp_path / "team.sqlite"), None)
+    else:
+        from pg_support import LEDGER_PASSWORD
+
+        server = request.getfixturevalue("postgresql_server")
+        monkeypatch.setenv("PGPASSWORD", LEDGER_PASSWORD)
+        where = LedgerUnderTest(server.url(server.new_database()), server)
+        from carbonledger.io.ledger import upgrade_ledger
+
+        upgrade_ledger(where.url)
+    monkeypatch.setenv("CARBONLEDGER_LEDGER", where.url)
+    return where
 
 
 @pytest.fixture

@@ -157,7 +157,7 @@ _KILLED = textwrap.dedent(
     def slow_results():
         yield record(1)
         yield record(2)
-        print("inside the transaction", flush=True)
+        print("mid-run", flush=True)  # results are turned into records before the run's transaction (test_ledger_backends kills one inside it)
         time.sleep(60)
         yield record(3)
 
@@ -171,7 +171,7 @@ def test_a_process_killed_mid_run_leaves_no_partial_record(tmp_path):
     ledger = tmp_path / "ledger.sqlite"
     script = write(tmp_path / "killed.py", _KILLED.format())
     child = subprocess.Popen([sys.executable, str(script), str(ledger)], stdout=subprocess.PIPE, text=True)
-    assert child.stdout.readline().strip() == "inside the transaction"
+    assert child.stdout.readline().strip() == "mid-run"
     os.kill(child.pid, signal.SIGKILL)
     child.wait(timeout=30)
     runs, records = _counts(ledger)

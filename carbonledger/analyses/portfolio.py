@@ -157,6 +157,7 @@ class Recalc:
     old_scores: list[ScoreResult]
     new_scores: list[ScoreResult]
     rescored: int = 0  # projects that use a changed factor (the others kept their old result)
+    ledger_run: object = None  # where the run is being recorded (io.ledger.RunTarget), closed once the output is written
 
     @property
     def from_memory(self) -> dict[str, list[str]]:
@@ -187,6 +188,30 @@ def status_of(old_status: str, new_status: str) -> str:
     return f"now {words.get(new_status, new_status)}"
 
 
+@dataclass
+class RecalcPiece:
+    """The scores of one piece of a portfolio under the old and the new set (what a worker returns)."""
+
+    old_scores: list[ScoreResult]
+    new_scores: list[ScoreResult]
+    rescored: list[int]  # positions in the piece of the projects that use a changed factor
+
+
+def recalc_piece(piece: tuple) -> RecalcPiece:
+    """Score a piece (projects, old set, new set, changed factor ids, gwp, schemes, year) under the
+    old set, and rescore under the new set only the projects that use a changed factor; the others
+    keep their old result, under the new set's name."""
+    projects, old_set, new_set, changed_ids, gwp, schemes, year = piece
+    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes, year=year)
+    to_rescore = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
+    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes, year=year) if to_rescore else []
+    new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
+    new_scores = [score.model_copy(update={"factor_set": new_ref}) for score in old_scores]
+    for number, score in zip(to_rescore, rescored, strict=True):
+        new_scores[number] = score
+    return RecalcPiece(old_scores, new_scores, to_rescore)
+
+
 def recalc(
     projects: list[PortfolioProject],
     old_set: FactorSet,
@@ -197,22 +222,22 @@ def recalc(
     year: int | None = None,
     mapper=None,
     chunks: int = 1,
+    run_piece=recalc_piece,
 ) -> Recalc:
     """Rescore a portfolio under a new factor set; one row per project and scheme.
 
     Rows come newly failing first, then newly passing, then the rest in project order.
-    ``mapper`` and ``chunks`` spread the scoring over workers (see ``score_portfolio``).
+    ``mapper`` and ``chunks`` spread the pieces over workers (see ``score_portfolio``);
+    ``run_piece`` is what each worker runs on its piece (``recalc_piece``, or a function that
+    also records the piece's results, see ``api.recalc``).
     """
-    spread = {"mapper": mapper, "chunks": chunks, "year": year}
-    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes, **spread)
     changed = sorted({change.id for change in diff_sets(old_set, new_set)})
-    changed_ids = set(changed)
-    to_rescore = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
-    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes, **spread) if to_rescore else []
-    new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
-    new_scores = [score.model_copy(update={"factor_set": new_ref}) for score in old_scores]
-    for number, score in zip(to_rescore, rescored, strict=True):
-        new_scores[number] = score
+    size = max(1, -(-len(projects) // max(1, chunks)))
+    pieces = [(projects[n : n + size], old_set, new_set, frozenset(changed), gwp, schemes, year) for n in range(0, len(projects), size)]
+    parts = mapper(run_piece, pieces) if mapper is not None and len(pieces) > 1 else [run_piece(piece) for piece in pieces]
+    old_scores = [score for part in parts for score in part.old_scores]
+    new_scores = [score for part in parts for score in part.new_scores]
+    to_rescore = [start + n for start, part in zip(range(0, len(projects), size), parts, strict=True) for n in part.rescored]
     rescored_numbers = set(to_rescore)
     rows = []
     for number, (old, new) in enumerate(zip(old_scores, new_scores, strict=True)):

@@ -39,8 +39,9 @@ COMMANDS = {
     "sensitivity": ("uncertainty", "sensitivity"),
     "init": ("project_commands", "init"),
     "factors": ("factors", "factors"),
+    "ledger": ("ledger", "ledger"),
 }
-GROUPS = {"factors"}
+GROUPS = {"factors", "ledger"}
 
 
 @functools.cache

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Callable
+from datetime import datetime, timedelta
 from enum import StrEnum
 from pathlib import Path
 from typing import Annotated, Optional
@@ -24,13 +25,24 @@ GwpOption = Annotated[str, typer.Option("--gwp", help="GWP100 set of the headlin
 SchemeOption = Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id to check (repeatable); default: all that apply.")]
 SetOption = Annotated[Optional[list[str]], typer.Option("--set", help="Override a project parameter: dotted.path=value (repeatable).")]
 FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
-LedgerOption = Annotated[Optional[Path], typer.Option("--ledger", help="Run ledger (SQLite) to record in; default $CARBONLEDGER_LEDGER or the user's data folder.")]
+LedgerOption = Annotated[Optional[str], typer.Option("--ledger", help="Run ledger: an SQLite file or a postgresql:// URL (password from libpq: PGPASSWORD, ~/.pgpass or a service file); default $CARBONLEDGER_LEDGER or a file in the user's data folder.")]
 NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
 BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
 WorkersOption = Annotated[Optional[int], typer.Option("--workers", help="Run on a local Dask cluster of N worker processes.")]
 SchedulerOption = Annotated[Optional[str], typer.Option("--scheduler", help="Run on an existing Dask scheduler at this address (tcp://HOST:PORT).")]
 YearOption = Annotated[Optional[int], typer.Option("--year", help="Assessment year: the scheme rules in force that year decide (temporal matching, additionality, credit period); default the first full calendar year after the project's commissioning date, else this year.")]
+_TIMES = ["%Y-%m-%d", "%Y-%m-%dT%H:%M", "%Y-%m-%dT%H:%M:%S"]
+UserOption = Annotated[Optional[str], typer.Option("--user", help="Only the records made by this user (as recorded: $CARBONLEDGER_USER or the login name).")]
+SinceOption = Annotated[Optional[datetime], typer.Option("--since", formats=_TIMES, help="Only records made at or after this time (UTC): YYYY-MM-DD or YYYY-MM-DDTHH:MM.")]
+UntilOption = Annotated[Optional[datetime], typer.Option("--until", formats=_TIMES, help="Only records made before this time (UTC); a date alone includes that whole day.")]
 ForceOption = Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")]
+
+
+def end_of(until: datetime | None) -> datetime | None:
+    """The exclusive end of an --until time: a date alone (midnight) means the end of that day."""
+    if until is None or (until.hour, until.minute, until.second, until.microsecond) != (0, 0, 0, 0):
+        return until
+    return until + timedelta(days=1)
 
 
 def fail(error: InputError) -> None:

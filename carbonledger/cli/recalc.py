@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from pathlib import Path
-from typing import Annotated
+from typing import Annotated, Optional
 
 import typer
 
@@ -12,7 +12,7 @@ from ..about import CAUTION
 from ..core.results import strict_json
 from ..errors import InputError
 from ..io.csv_text import csv_text
-from ..io.ledger import ledger_for_run, project_history, record_run
+from ..io.ledger import close_run, ledger_for_run, read_records, record_filter
 from ..io.portfolio_output import (
     flagged_factors,
     history_table,
@@ -29,8 +29,12 @@ from .options import (
     OutputFormat,
     SchedulerOption,
     SchemeOption,
+    SinceOption,
+    UntilOption,
+    UserOption,
     WorkersOption,
     YearOption,
+    end_of,
     fail,
     render,
 )
@@ -55,10 +59,11 @@ def recalc(
     """Rescore projects under a new factor set: old and new value per scheme, newly failing first."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme, year=year, workers=workers, scheduler=scheduler)
+        command = f"recalc --from {from_set} --to {to_set}"
+        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme, year=year, workers=workers, scheduler=scheduler, ledger=where, command=command)
         text = render(output_format, table=lambda: recalc_table(result), json=lambda: recalc_json(result), csv=lambda: recalc_csv(result))
-        if where is not None:
-            record_run(f"recalc --from {from_set} --to {to_set}", [*result.old_scores, *result.new_scores], ledger=where, kind="recalc")
+        if result.ledger_run is not None:
+            close_run(result.ledger_run)  # the workers wrote the records; the run is visible from now on
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
@@ -75,26 +80,31 @@ def _named(option_value: str, option: str):
 
 
 def history(
-    project: Annotated[Path, typer.Argument(help="Project TOML file (matched by its full path).")],
+    project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (matched by its full path); default: every project in the ledger.")] = None,
+    user: UserOption = None,
+    since: SinceOption = None,
+    until: UntilOption = None,
     ledger: LedgerOption = None,
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
-    """How a project's results changed over the recorded runs, and why (inputs, factors)."""
+    """How a project's results changed over the recorded runs, and why (inputs, factors), and who ran them."""
     try:
-        entries = project_history(project, ledger)
+        entries = read_records(ledger, record_filter([project] if project else [], user, since, end_of(until)))
     except InputError as error:
         fail(error)
-    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes", "status", "factors_not_yet_verified")
+    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes", "status", "factors_not_yet_verified", "project", "user", "host", "carbonledger_version", "assessment_year")
     rows = [
-        (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c.get("passes", ""), c.get("status", ""), "; ".join(flagged_factors(e)))
+        (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c.get("passes", ""), c.get("status", ""), "; ".join(flagged_factors(e)),
+         e["project"], e["user"], e["host"], e["carbonledger_version"], e["assessment_year"])  # fmt: skip
         for e in entries
         for c in e["results"].get("checks", [])  # an uncertainty record gives each scheme's mean value; sensitivity and headroom records have no checks
     ]
+    shown = str(project) if project else ""
     typer.echo(
         render(
             output_format,
-            table=lambda: history_table(str(project), entries),
-            json=lambda: strict_json({"caution": CAUTION, "project_file": str(project), "records": entries}, str(project)),
+            table=lambda: history_table(shown, entries),
+            json=lambda: strict_json({"caution": CAUTION, "project_file": shown or None, "records": entries}, shown or "history"),
             csv=lambda: csv_text(header, rows, caution=CAUTION),
         ),
         nl=False,

@@ -258,36 +258,62 @@ def flagged_factors(entry: dict) -> list[str]:
 
 
 def history_table(project_file: str, history: list[dict]) -> str:
+    """The records of a project (or of every project, ``project_file`` ''), each with who made it
+    and what changed since the project's record before."""
     if not history:
-        return f"no runs of {project_file} in the ledger\nCaution: {CAUTION}\n"
-    lines = [f"history of {history[-1]['project']} ({project_file}): {len(history)} records", ""]
-    previous_checks: dict[str, float] = {}
-    previous_year = None
+        return f"no runs of {project_file or 'any project'} matching in the ledger\nCaution: {CAUTION}\n"
+    projects = {entry["project_path"] for entry in history}
+    title = f"{history[-1]['project']} ({project_file})" if project_file else f"{len(projects)} projects"
+    lines = [f"history of {title}: {len(history)} records", ""]
+    previous_checks: dict[tuple[str, str], float] = {}
+    previous_year: dict[str, object] = {}
     for entry in history:
-        results = entry["results"]
-        year = results.get("assessment_year")  # recorded since the assessment year exists (absent in older records)
+        year_value = entry.get("assessment_year") or entry["results"].get("assessment_year")
+        year = f"  assessment year {year_value}" if year_value else ""
         lines.append(
             f"#{entry['record']}  {entry['time']}  {entry['command']}  [{entry['kind']}]  factors {entry['factor_set']} ({entry['factor_set_sha256'][:8]})"
-            f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}" + (f"  assessment year {year}" if year is not None else "")
+            f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}{year}"
         )
+        lines.append(f"    by {entry.get('user') or 'unknown user'} on {entry.get('host') or 'unknown host'}, carbonledger {entry['carbonledger_version']}" + ("" if project_file else f"; project {entry['project']} ({entry['project_path']})"))
+        results = entry["results"]
         if "headline" in results:  # an analysis run (uncertainty, sensitivity, headroom): its own one-line summary
             lines.append(f"    {results['headline']}")
             lines.append("")
             continue
         lines.append(f"    total {display_number(results['total'])} {results['unit']}")
         for check in results["checks"]:
-            old = previous_checks.get(check["scheme"])
+            key = (entry["project_path"], check["scheme"])
+            old = previous_checks.get(key)
             change = 0.0 if old is None or abs(check["value"] - old) <= 1e-9 * max(1.0, abs(old)) else check["value"] - old
             delta = "" if old is None else f"  ({change:+.4g})"
             lines.append(f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} {check.get('status', 'qualifies' if check.get('passes') else 'fails').replace('_', ' ')}{delta}")
-            previous_checks[check["scheme"]] = check["value"]
-        year_change = f"assessment year {previous_year} -> {year} (the rules in force that year)" if previous_year is not None and year is not None and year != previous_year else ""
+            previous_checks[key] = check["value"]
+        last_year = previous_year.get(entry["project_path"])
+        year_change = f"assessment year {last_year} -> {year_value} (the rules in force that year)" if last_year and year_value and year_value != last_year else ""
+        previous_year[entry["project_path"]] = year_value or last_year
         for reason in _why(entry["changes"], year_change):
             lines.append(f"    why: {reason}")
-        previous_year = year if year is not None else previous_year
         flagged = flagged_factors(entry)
         if flagged:
             lines.append(f"    factors not yet verified against the source document: {', '.join(flagged)}")
         lines.append("")
     lines.append(f"Caution: {CAUTION}")
     return "\n".join(lines) + "\n"
+
+
+EXPORT_HEADER = (
+    "record_sha256", "run_key", "recorded_at", "user", "host", "carbonledger_version", "command", "kind", "project", "project_path",
+    "project_sha256", "factor_set", "factor_set_sha256", "assessment_year", "boundary", "gwp", "total", "unit", "scheme", "value",
+    "check_unit", "limit", "status", "passes", "tier",
+)  # fmt: skip
+
+
+def export_rows(entries: list[dict]) -> list[tuple]:
+    """One row per record and scheme check (a record without checks gives one row), for a BI tool."""
+    rows = []
+    for e in entries:
+        head = (e["sha256"], e["run_key"], e["recorded_at"], e["user"], e["host"], e["carbonledger_version"], e["command"], e["kind"], e["project"], e["project_path"],
+                e["project_sha256"], e["factor_set"], e["factor_set_sha256"], e["assessment_year"], e["boundary"], e["gwp"], e["results"].get("total"), e["results"].get("unit"))  # fmt: skip
+        checks = e["results"].get("checks") or [{}]
+        rows += [head + (c.get("scheme"), c.get("value"), c.get("unit"), c.get("limit"), c.get("status"), c.get("passes"), c.get("tier")) for c in checks]
+    return rows
