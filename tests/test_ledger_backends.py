@@ -45,17 +45,17 @@ def test_every_record_says_who_and_what_and_history_filters(ledger, monkeypatch)
     scored = run_cli("score", GRID, "--format", "json")
     assert scored.exit_code == 0, scored.output
     monkeypatch.setenv("CARBONLEDGER_USER", "ben")
-    assert run_cli("recalc", PORTFOLIO, "--to", "demo-2027-grid-revision", "--year", "2027").exit_code == 0
+    assert run_cli("recalc", PORTFOLIO, "--to", "demo-2027-grid-revision", "--year", "2029").exit_code == 0
     factor_set = json.loads(scored.stdout)["factor_set"]
     (record,) = ledger.sql("SELECT user_name, host, carbonledger_version, assessment_year, project_sha256, factor_set, factor_set_sha256 FROM records WHERE user_name = 'ana'")
     assert record[:3] == ("ana", socket.gethostname(), __version__)
-    assert record[3] == dt.date.today().year  # the rules are read on this year's dates unless --year says otherwise
+    assert record[3] == 2028  # the default assessment year: the first full year after commissioning 2027-06-01
     assert record[4] == _sha256(GRID) and record[5:] == (factor_set["name"], factor_set["sha256"])
     portfolio = sorted(PORTFOLIO.glob("*.toml"))
     recalc_rows = ledger.sql("SELECT project_path, project_sha256, assessment_year, kind FROM records WHERE user_name = 'ben'")
     assert len(recalc_rows) == 2 * len(portfolio)  # each project under the old and the new set
     assert {(row[0], row[1]) for row in recalc_rows} == {(str(p.resolve()), _sha256(p)) for p in portfolio}
-    assert {row[2] for row in recalc_rows} == {2027} and {row[3] for row in recalc_rows} == {"recalc"}
+    assert {row[2] for row in recalc_rows} == {2029} and {row[3] for row in recalc_rows} == {"recalc"}
     ledger.check_integrity()
 
     by_user = json.loads(run_cli("history", "--user", "ana", "--format", "json").stdout)["records"]
@@ -72,7 +72,7 @@ def test_every_record_says_who_and_what_and_history_filters(ledger, monkeypatch)
     exported = run_cli("ledger", "export", "--format", "csv", "--user", "ben")
     assert exported.exit_code == 0, exported.output
     rows = [row for row in csv.DictReader(io.StringIO(exported.stdout)) if row["record_sha256"] != "caution"]
-    assert {row["user"] for row in rows} == {"ben"} and {row["assessment_year"] for row in rows} == {"2027"}
+    assert {row["user"] for row in rows} == {"ben"} and {row["assessment_year"] for row in rows} == {"2029"}
     assert {row["record_sha256"] for row in rows} == {sha for (sha,) in ledger.sql("SELECT sha256 FROM records WHERE user_name = 'ben'")}
     as_json = json.loads(run_cli("ledger", "export", "--format", "json", "--project", PORTFOLIO).stdout)
     assert len(as_json["records"]) == 2 * len(portfolio) and as_json["caution"]
