@@ -445,6 +445,39 @@ def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.n
     return values, ~keep
 
 
+def _stage_and_gas_sums(main: np.ndarray, keys: list[str], flow_keys: list[str], inventory) -> tuple[dict, dict]:
+    """kg CO2e by stage and by gas of every draw, from (draws, flows, activities) contributions."""
+    by_activity = main.sum(axis=1)
+    by_stage: dict[str, np.ndarray] = {}
+    for stage in STAGES:
+        members = [n for n, key in enumerate(keys) if inventory.activities[key].stage == stage]
+        if members:
+            by_stage[stage] = by_activity[:, members].sum(axis=1)
+    gases = main.sum(axis=2)
+    return by_stage, {flow: gases[:, n] for n, flow in enumerate(flow_keys) if flow not in APART_FLOWS}
+
+
+def _matched_draws(plan: Plan, scheme, reading, inventory, keys, flow_keys, gwp_vector, supply, column, basis_demand, figures, params, period, values) -> np.ndarray:
+    """A scheme's draws with the project's time series matched under the rule of the assessment year, as score matches them."""
+    count = len(values)
+    basis_product, hydrogen_lhv, ammonia_lhv, fraction = figures
+    mix, gate = keys.index("electricity_mix"), column[inventory.gate]
+    sources = params["electricity"]["sources"]
+    counted_kg = charged_source_intensities(scheme, inventory, flow_keys, gwp_vector, reading)
+    declared, grid_mix_kg = declared_and_grid_intensity(counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh)
+    model = ElectricityModel(
+        basis_kwh=supply[:, mix, column[basis_demand]],
+        kwh_per_kg_h2=supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
+        counted_kg_per_kwh=counted_kg,
+        declared_kg_per_kwh=declared,
+        grid_kg_per_kwh=grid_mix_kg,
+        value_per_total=intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity],
+        eligible=eligible_sources(scheme, reading.counted_zero, list(plan.series.generation_kwh)),
+        granularity=scheme_granularity(scheme, period),
+    )
+    return matched_values_of_draws(scheme, plan.series, model, values)
+
+
 def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     """Build the inventory once with arrays of draws and solve every draw stacked."""
     params = params_with_draws(plan, draws.parameters)
@@ -477,14 +510,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     main = contributions(inventory.reference, headline)
     total = main.sum(axis=(1, 2))
     keys = stacked.activity_keys
-    by_activity = main.sum(axis=1)
-    by_stage: dict[str, np.ndarray] = {}
-    for stage in STAGES:
-        members = [n for n, key in enumerate(keys) if inventory.activities[key].stage == stage]
-        if members:
-            by_stage[stage] = by_activity[:, members].sum(axis=1)
-    gases = main.sum(axis=2)
-    by_gas = {flow: gases[:, n] for n, flow in enumerate(stacked.flow_keys) if flow not in APART_FLOWS}
+    by_stage, by_gas = _stage_and_gas_sums(main, keys, stacked.flow_keys, inventory)
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
     scheme_values, scheme_findings, co_product_open = {}, {}, {}
     nominal = params_with_draws(plan, {})
@@ -499,21 +525,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         value = scheme_value(scheme, inventory, keys, stacked.flow_keys, reading, gwp_vector, contributions(basis_demand, gwp_vector), supply[:, :, column[basis_demand]], figures, nominal)
         values = np.broadcast_to(value, (count,))
         if plan.series is not None:
-            mix, gate = keys.index("electricity_mix"), column[inventory.gate]
-            sources = params["electricity"]["sources"]
-            counted_kg = charged_source_intensities(scheme, inventory, stacked.flow_keys, gwp_vector, reading)
-            declared, grid_mix_kg = declared_and_grid_intensity(counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh)
-            model = ElectricityModel(
-                basis_kwh=supply[:, mix, column[basis_demand]],
-                kwh_per_kg_h2=supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
-                counted_kg_per_kwh=counted_kg,
-                declared_kg_per_kwh=declared,
-                grid_kg_per_kwh=grid_mix_kg,
-                value_per_total=intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity],
-                eligible=eligible_sources(scheme, reading.counted_zero, list(plan.series.generation_kwh)),
-                granularity=scheme_granularity(scheme, period),
-            )
-            values = matched_values_of_draws(scheme, plan.series, model, values)
+            values = _matched_draws(plan, scheme, reading, inventory, keys, stacked.flow_keys, gwp_vector, supply, column, basis_demand, figures, params, period, values)
         scheme_values[scheme.id], co_product_open[scheme.id] = co_product_values(plan, draws, count, scheme, values, reading.findings, nominal)
     return Outcome(
         total=total,
