@@ -181,6 +181,29 @@ class Plan:
     series: Any = None  # the project's electricity time series: scheme values follow its matching
 
 
+def _checked_parameter(project, factor_set: FactorSet, path: str, distribution, source: str) -> tuple:
+    """(nominal value, pydantic field) of a parameter with a distribution, refused in one line where the
+    distribution cannot apply: a text parameter takes a discrete choice of factor ids only, a number a
+    numeric distribution, and a share needs other sources to take up the rest."""
+    where = f"uncertainty.parameters.{path}"
+    nominal, info = parameter_field(project, path, source, where)
+    if isinstance(nominal, str):
+        factor_ids = path.endswith("factor") or nominal in factor_set.factors
+        if distribution.distribution != "discrete" or distribution.numeric_values() or not factor_ids:
+            raise InputError(source, where, f"a numeric parameter, or a discrete choice of factor ids for a factor parameter; '{path}' is the text '{nominal}'")
+        for choice in distribution.values:
+            factor_set.get(choice, where)
+    elif isinstance(nominal, bool) or not isinstance(nominal, (int, float)):
+        raise InputError(source, where, f"a numeric parameter, got '{path}' = {nominal!r}")
+    elif not distribution.numeric_values():
+        raise InputError(source, where, "numbers as the values of a discrete distribution of a numeric parameter")
+    if path.startswith("electricity.sources.") and path.endswith(".share"):
+        others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != path)
+        if not others > 0:
+            raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
+    return nominal, info
+
+
 def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None, year: int | None = None) -> Plan:
     """Check every distribution against the project and the factor set (one InputError line).
 
@@ -195,25 +218,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
         raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
     used = factors_used(project, factor_set, source, gwp, boundary)
     uncertainty = with_pedigree_defaults(used, factor_set, uncertainty)
-    fields = {}
-    for path, distribution in uncertainty.parameters.items():
-        where = f"uncertainty.parameters.{path}"
-        nominal, info = parameter_field(project, path, source, where)
-        if isinstance(nominal, str):
-            factor_ids = path.endswith("factor") or nominal in factor_set.factors
-            if distribution.distribution != "discrete" or distribution.numeric_values() or not factor_ids:
-                raise InputError(source, where, f"a numeric parameter, or a discrete choice of factor ids for a factor parameter; '{path}' is the text '{nominal}'")
-            for choice in distribution.values:
-                factor_set.get(choice, where)
-        elif isinstance(nominal, bool) or not isinstance(nominal, (int, float)):
-            raise InputError(source, where, f"a numeric parameter, got '{path}' = {nominal!r}")
-        elif not distribution.numeric_values():
-            raise InputError(source, where, "numbers as the values of a discrete distribution of a numeric parameter")
-        if path.startswith("electricity.sources.") and path.endswith(".share"):
-            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != path)
-            if not others > 0:
-                raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
-        fields[path] = (nominal, info)
+    fields = {path: _checked_parameter(project, factor_set, path, distribution, source) for path, distribution in uncertainty.parameters.items()}
     parameters = {path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}") for path, distribution in uncertainty.parameters.items()}
     factors = {}
     for factor_id, distribution in uncertainty.factors.items():
