@@ -120,19 +120,8 @@ def _month_number(text: str) -> int:
     return year * 12 + month - 1
 
 
-def read_meters(path: str | Path, project) -> Meters:
-    """Read and validate a meters CSV against a validated project; one line per problem."""
-    path = Path(path)
-    lines = io.StringIO(read_csv_text(path, "meters CSV"), newline="")
-    try:
-        rows = list(csv.reader(row for row in lines if row.strip() and not row.lstrip().startswith("#")))
-    except csv.Error as error:
-        raise InputError(path, "", f"a well-formed CSV ({error})") from None
-    reader = iter(rows)
-    try:
-        header = next(reader)
-    except StopIteration:
-        raise InputError(path, "header", "a header row: month, electricity.<source> [MWh], ...") from None
+def _meter_header(path: Path, header: list[str], project) -> list:
+    """The meters CSV's columns, each parsed; every meter the project needs present, each once."""
     header = [h.strip() for h in header]
     if not header or header[0] != "month":
         raise InputError(path, "header", f"'month' as the first column, got '{header[0] if header else ''}'")
@@ -150,46 +139,66 @@ def read_meters(path: str | Path, project) -> Meters:
         if (quantity, source) not in kinds:
             name = f"{quantity}.{source}" if source else quantity
             raise InputError(path, "header", f"a column '{name} [{CANONICAL[quantity] if quantity != 'electricity' else 'MWh'}]' (missing)")
+    return columns
+
+
+def _meter_value(path: Path, where: str, text: str, column) -> float:
+    """One metered amount: a finite number from 0 to the month's physical maximum of its meter."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise InputError(path, where, f"a number, got '{text.strip()}'") from None
+    if not value == value or value in (float("inf"), float("-inf")):
+        raise InputError(path, where, f"a finite number, got '{text.strip()}'")
+    if value < 0:
+        raise InputError(path, where, f"a number >= 0, got {value:g}")
+    most = MONTHLY_MAXIMUM[column.quantity] / (NM3_MOST_GJ if column.by_volume else column.multiplier)
+    if value > most:
+        raise InputError(path, where, f"a month's amount of at most {most:g} {column.unit} (above any plant's, a physical range), got {value:g}")
+    return value
+
+
+def _meter_month(path: Path, line: int, row: list[str], columns: list, meters, project) -> tuple[str, dict[str, float]]:
+    """(month, amounts by column header) of one row, with production, electricity and gas where the month needs them."""
+    if len(row) != len(columns) + 1:
+        raise InputError(path, f"line {line}", f"{len(columns) + 1} values, got {len(row)}")
+    month = row[0].strip()
+    if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
+        raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
+    values = {column.header: _meter_value(path, f"line {line}, {column.header}", text, column) for column, text in zip(columns, row[1:], strict=True)}
+    output = meters.column("ammonia") if project.project.product == "ammonia" else meters.column("hydrogen")
+    if values[output.header] <= 0:
+        raise InputError(path, f"line {line}, {output.header}", "a production > 0 in every month (the month's intensity divides by it)")
+    if sum(values[c.header] for c in columns if c.quantity == "electricity") <= 0:
+        raise InputError(path, f"line {line}", "some electricity in every month (the shares of the sources divide by the total)")
+    gas = meters.column("natural_gas")
+    if gas is not None and values[gas.header] <= 0:
+        raise InputError(path, f"line {line}, {gas.header}", "a gas use > 0 (the project burns natural gas)")
+    return month, values
+
+
+def read_meters(path: str | Path, project) -> Meters:
+    """Read and validate a meters CSV against a validated project; one line per problem."""
+    path = Path(path)
+    lines = io.StringIO(read_csv_text(path, "meters CSV"), newline="")
+    try:
+        rows = list(csv.reader(row for row in lines if row.strip() and not row.lstrip().startswith("#")))
+    except csv.Error as error:
+        raise InputError(path, "", f"a well-formed CSV ({error})") from None
+    if not rows:
+        raise InputError(path, "header", "a header row: month, electricity.<source> [MWh], ...")
+    columns = _meter_header(path, rows[0], project)
     meters = Meters(str(path), columns, [])
-    for line, row in enumerate(reader, start=2):
-        if len(row) != len(header):
-            raise InputError(path, f"line {line}", f"{len(header)} values, got {len(row)}")
-        month = row[0].strip()
-        if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
-            raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
-        values: dict[str, float] = {}
-        for column, text in zip(columns, row[1:], strict=True):
-            where = f"line {line}, {column.header}"
-            try:
-                value = float(text)
-            except ValueError:
-                raise InputError(path, where, f"a number, got '{text.strip()}'") from None
-            if not value == value or value in (float("inf"), float("-inf")):
-                raise InputError(path, where, f"a finite number, got '{text.strip()}'")
-            if value < 0:
-                raise InputError(path, where, f"a number >= 0, got {value:g}")
-            most = MONTHLY_MAXIMUM[column.quantity] / (NM3_MOST_GJ if column.by_volume else column.multiplier)
-            if value > most:
-                raise InputError(path, where, f"a month's amount of at most {most:g} {column.unit} (above any plant's, a physical range), got {value:g}")
-            values[column.header] = value
-        output = meters.column("ammonia") if project.project.product == "ammonia" else meters.column("hydrogen")
-        if values[output.header] <= 0:
-            raise InputError(path, f"line {line}, {output.header}", "a production > 0 in every month (the month's intensity divides by it)")
-        if sum(values[c.header] for c in columns if c.quantity == "electricity") <= 0:
-            raise InputError(path, f"line {line}", "some electricity in every month (the shares of the sources divide by the total)")
-        gas = meters.column("natural_gas")
-        if gas is not None and values[gas.header] <= 0:
-            raise InputError(path, f"line {line}, {gas.header}", "a gas use > 0 (the project burns natural gas)")
+    for line, row in enumerate(rows[1:], start=2):
+        month, values = _meter_month(path, line, row, columns, meters, project)
         meters.months.append(month)
         meters.values.append(values)
     if not meters.months:
         raise InputError(path, "", "at least one month of metered data")
     numbers = [_month_number(m) for m in meters.months]
-    first_seen: dict[str, int] = {}
-    for month in meters.months:
-        if month in first_seen:
-            raise InputError(path, "month", f"each month once, {month} appears twice")
-        first_seen[month] = 1
+    if len(set(meters.months)) != len(meters.months):
+        twice = next(month for number, month in enumerate(meters.months) if month in meters.months[:number])
+        raise InputError(path, "month", f"each month once, {twice} appears twice")
     pairs = list(zip(meters.months, numbers, strict=True))
     for (before, previous), (month, number) in zip(pairs, pairs[1:], strict=False):
         if number < previous:
