@@ -852,6 +852,76 @@ class QualifyResult(BaseModel):
         }
 
 
+def _search(search, combinations) -> tuple:
+    """(least-cost answer or None, largest-margin answer when none qualifies, its project, its checks, notes):
+    combinations cheapest lower bound first, pruned by the best cost found (branch and bound), every answer
+    scored back by the one judgement."""
+    best: Found | None = None
+    for combination in combinations:
+        if best is not None and combination.lower_bound() >= best.cost - 1e-12 * max(1.0, abs(best.cost)):
+            search.pruned += 1
+            continue
+        found = search.least_cost(combination)
+        if found is not None and (best is None or found.cost < best.cost):
+            best = found
+    notes: list[str] = []
+    checks: list[CheckAtAnswer] = []
+    final = reached = None
+    if best is not None:
+        final = search.with_values(best.values)
+        checks, ok = _checks(search, final, best)
+        if not ok:
+            notes.append("the least-cost answer on the draws' path did not qualify when scored back (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported")
+            best = None
+    if best is None:
+        for combination in combinations:
+            found = search.largest_margin(combination)
+            if found is not None and (reached is None or found.margin > reached.margin):
+                reached = found
+        if reached is not None:
+            final = search.with_values(reached.values)
+            checks, _ = _checks(search, final, reached)
+    for label, blocked in search.blocked.items():
+        notes.append(f"{label}: " + "; ".join(f"{scheme} is {status.replace('_', ' ')} whatever the value (its rules, read before the threshold, decide)" for scheme, status in blocked.items()))
+    return best, reached, final, checks, notes
+
+
+def _changes(search, values: dict) -> list:
+    """Each lever's value and cost at the answer (the project's value where the answer leaves it)."""
+    return [
+        LeverChange(
+            parameter=lever.path, unit=lever.unit, project_value=lever.project_value, value=values.get(lever.path, lever.project_value),
+            cost=lever.cost(values[lever.path]) if lever.path in values else 0.0, kind="continuous" if lever.continuous else "discrete",
+            range=list(lever.lever.range) if lever.continuous else list(lever.choices),
+        )
+        for lever in search.levers
+    ]
+
+
+def _no_solution_reason(best, reached) -> str:
+    if best is not None:
+        return ""
+    if reached is None:
+        return "no combination of lever values can qualify: every one is blocked by a rule read before the threshold"
+    return f"no lever values within the ranges qualify; the best smallest margin reached is {reached.margin:.4g}" + (f", with {reached.note} at a bound of its range" if reached.note else "")
+
+
+def _solver(search, combinations, confidence, seed) -> dict:
+    """How the answer was found: the solvers, their tolerances and the work done."""
+    return {
+        "continuous": SOLVER if search.continuous else "none",
+        "tolerance": SOLVER_TOLERANCE,
+        "margin_tolerance": MARGIN_TOLERANCE,
+        "discrete": "enumeration, cheapest lower bound first, with branch and bound" if search.discrete or len(combinations) > 1 else "none",
+        "combinations": len(combinations),
+        "solved": search.solved,
+        "pruned": search.pruned,
+        "iterations": search.iterations,
+        "stacked_solves": sum(evaluator.calls for evaluator in search.evaluators.values()),
+        "constraint": "every scheme's status is qualifies at the central value" if confidence is None else f"every scheme qualifies in at least {confidence:.6g} of the draws (common random numbers, seed {seed})",
+    }
+
+
 def qualify(
     project,
     factor_set: FactorSet,
@@ -890,55 +960,14 @@ def qualify(
     chosen = select_schemes(rulebooks(), schemes, project.project.product)
     search = Search(project, factor_set, resolve_levers(project, levers, levers_source), chosen, source, levers_source, gwp, year, confidence, draws, seed, sampling, uncertainty, series)
     combinations = search.combinations()
-    best: Found | None = None
-    for combination in combinations:
-        if best is not None and combination.lower_bound() >= best.cost - 1e-12 * max(1.0, abs(best.cost)):
-            search.pruned += 1
-            continue
-        found = search.least_cost(combination)
-        if found is not None and (best is None or found.cost < best.cost):
-            best = found
-    notes = []
-    checks: list[CheckAtAnswer] = []
-    final = None
-    reached = None
-    if best is not None:
-        final = search.with_values(best.values)
-        checks, ok = _checks(search, final, best)
-        if not ok:
-            notes.append("the least-cost answer on the draws' path did not qualify when scored back (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported")
-            best = None
-    if best is None:
-        for combination in combinations:
-            found = search.largest_margin(combination)
-            if found is not None and (reached is None or found.margin > reached.margin):
-                reached = found
-        if reached is not None:
-            final = search.with_values(reached.values)
-            checks, _ = _checks(search, final, reached)
-    for label, blocked in search.blocked.items():
-        notes.append(f"{label}: " + "; ".join(f"{scheme} is {status.replace('_', ' ')} whatever the value (its rules, read before the threshold, decide)" for scheme, status in blocked.items()))
-    answer = best or reached
-    front = _front(search, combinations, best, budgets)
-    values = answer.values if answer else {}
-    changes = [
-        LeverChange(
-            parameter=lever.path, unit=lever.unit, project_value=lever.project_value, value=values.get(lever.path, lever.project_value),
-            cost=lever.cost(values[lever.path]) if lever.path in values else 0.0, kind="continuous" if lever.continuous else "discrete",
-            range=list(lever.lever.range) if lever.continuous else list(lever.choices),
-        )
-        for lever in search.levers
-    ]
+    best, reached, final, checks, notes = _search(search, combinations)
     if levers.invented:
         notes.append(f"every price in {levers_source} is invented for the demonstration")
     if confidence is not None and any(lever.path in (uncertainty.parameters if uncertainty else {}) for lever in search.levers):
         notes.append("a lever on a parameter with a distribution moves its draws with it (each draw times lever value / project value)")
-    reason = ""
-    if best is None:
-        if reached is None:
-            reason = "no combination of lever values can qualify: every one is blocked by a rule read before the threshold"
-        else:
-            reason = f"no lever values within the ranges qualify; the best smallest margin reached is {reached.margin:.4g}" + (f", with {reached.note} at a bound of its range" if reached.note else "")
+    answer = best or reached
+    front = _front(search, combinations, best, budgets)
+    values = answer.values if answer else {}
     return QualifyResult(
         carbonledger_version=__version__,
         caution=CAUTION,
@@ -957,26 +986,15 @@ def qualify(
         cost_unit=levers.cost_unit,
         prices_invented=levers.invented,
         levers=values if best is not None else {},
-        changes=changes,
+        changes=_changes(search, values),
         checks=checks,
         probability=answer.probability if answer else None,
         standard_error=answer.standard_error if answer else None,
         score_back_set=score_back_set(original, final) if best is not None and final is not None else [],
         best_margin=answer.margin if answer else None,
         binding_lever=(reached.note or None) if best is None and reached is not None else None,
-        reason=reason,
-        solver={
-            "continuous": SOLVER if search.continuous else "none",
-            "tolerance": SOLVER_TOLERANCE,
-            "margin_tolerance": MARGIN_TOLERANCE,
-            "discrete": "enumeration, cheapest lower bound first, with branch and bound" if search.discrete or len(combinations) > 1 else "none",
-            "combinations": len(combinations),
-            "solved": search.solved,
-            "pruned": search.pruned,
-            "iterations": search.iterations,
-            "stacked_solves": sum(evaluator.calls for evaluator in search.evaluators.values()),
-            "constraint": "every scheme's status is qualifies at the central value" if confidence is None else f"every scheme qualifies in at least {confidence:.6g} of the draws (common random numbers, seed {seed})",
-        },
+        reason=_no_solution_reason(best, reached),
+        solver=_solver(search, combinations, confidence, seed),
         front=front,
         notes=notes,
     )
