@@ -111,6 +111,28 @@ def _draws_at(plan, u: np.ndarray) -> Draws:
     return drawn
 
 
+def _tornado(plan, names: list[str], scheme: str | None) -> tuple[float, list]:
+    """(the figure at every input's median, one bar per input from its 10th to its 90th percentile, widest first)."""
+    count = len(names)
+    grid = np.full((1 + 2 * count, count), np.nan)  # row 0 is the base; then each input at its 10th and 90th percentile
+    for n in range(count):
+        grid[1 + 2 * n, n], grid[2 + 2 * n, n] = TORNADO_PERCENTILES
+    tornado_draws = _draws_at(plan, grid)
+    tornado_values = _figure(evaluate_in_blocks(plan, tornado_draws), scheme)
+    bars = []
+    for n, name in enumerate(names):
+        key = name.split(" ", 1)[1]
+        if name.startswith("parameter") and key in tornado_draws.factor_choices:
+            low_input, high_input = (str(tornado_draws.factor_choices[key][1][row]) for row in (1 + 2 * n, 2 + 2 * n))
+        else:
+            column = tornado_draws.parameters.get(key) if name.startswith("parameter") else tornado_draws.factors.get(key)
+            low_input, high_input = float(column[1 + 2 * n]), float(column[2 + 2 * n])
+        at_low, at_high = float(tornado_values[1 + 2 * n]), float(tornado_values[2 + 2 * n])
+        bars.append(TornadoBar(input=name, low_input=low_input, high_input=high_input, at_low=at_low, at_high=at_high, swing=abs(at_high - at_low)))
+    bars.sort(key=lambda bar: -bar.swing)
+    return float(tornado_values[0]), bars
+
+
 def sensitivity(
     project,
     factor_set: FactorSet,
@@ -159,24 +181,7 @@ def sensitivity(
         )
         for n, name in enumerate(names)
     ]
-    # tornado: row 0 is the base; then each input at its 10th and 90th percentile
-    count = len(names)
-    grid = np.full((1 + 2 * count, count), np.nan)
-    for n in range(count):
-        grid[1 + 2 * n, n], grid[2 + 2 * n, n] = TORNADO_PERCENTILES
-    tornado_draws = _draws_at(plan, grid)
-    tornado_values = _figure(evaluate_in_blocks(plan, tornado_draws), scheme)
-    bars = []
-    for n, name in enumerate(names):
-        key = name.split(" ", 1)[1]
-        if name.startswith("parameter") and key in tornado_draws.factor_choices:
-            low_input, high_input = (str(tornado_draws.factor_choices[key][1][row]) for row in (1 + 2 * n, 2 + 2 * n))
-        else:
-            column = tornado_draws.parameters.get(key) if name.startswith("parameter") else tornado_draws.factors.get(key)
-            low_input, high_input = float(column[1 + 2 * n]), float(column[2 + 2 * n])
-        at_low, at_high = float(tornado_values[1 + 2 * n]), float(tornado_values[2 + 2 * n])
-        bars.append(TornadoBar(input=name, low_input=low_input, high_input=high_input, at_low=at_low, at_high=at_high, swing=abs(at_high - at_low)))
-    bars.sort(key=lambda bar: -bar.swing)
+    base, bars = _tornado(plan, names, scheme)
     chosen = outcome.schemes[0] if scheme else None
     return Sensitivity(
         project=project.project.name,
@@ -184,7 +189,7 @@ def sensitivity(
         figure=scheme or "total",
         unit=chosen.unit if chosen else outcome.unit,
         limit=chosen.loosest().limit if chosen else None,
-        base=float(tornado_values[0]),
+        base=base,
         base_sample=base_sample,
         seed=seed,
         evaluations=len(u),
