@@ -9,9 +9,7 @@ CARBONLEDGER_DOCS_SCREENSHOT=1 to refresh docs/report_demo.png.
 
 from __future__ import annotations
 
-import os
 import re
-import shutil
 from pathlib import Path
 
 import pytest
@@ -56,8 +54,6 @@ def rendered(browser, tmp_path_factory):
         page = folder / "report.html"
         page.write_text(render_report(items, generated="2026-12-01", caution=CAUTION, paper=paper), encoding="utf-8")
         out[name] = (items, paper, page, browser.render(page, folder / "page"))
-    if os.environ.get("CARBONLEDGER_DOCS_SCREENSHOT"):
-        shutil.copyfile(out["blue"][3].screenshot, ROOT / "docs" / "report_demo.png")
     return out
 
 
