@@ -209,3 +209,9 @@ def pdf_info(pdf: Path) -> dict[str, str]:
     """pdfinfo (poppler-utils) as a dict: 'Pages', 'Page size', ..."""
     done = subprocess.run(["pdfinfo", str(pdf)], capture_output=True, text=True, check=True)
     return {key.strip(): value.strip() for key, _, value in (line.partition(":") for line in done.stdout.splitlines())}
+
+
+def pdf_text(pdf: Path, page: int) -> str:
+    """The text of one page of a PDF (poppler's pdftotext)."""
+    done = subprocess.run(["pdftotext", "-f", str(page), "-l", str(page), "-layout", str(pdf), "-"], capture_output=True, text=True, check=True)
+    return " ".join(done.stdout.split())

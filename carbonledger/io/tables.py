@@ -6,14 +6,11 @@ import io
 
 from ..core.results import ScoreResult
 from .csv_text import csv_text
+from .labels import UNITS
 
 SCORE_CSV_HEADER = ("section", "key", "value", "unit", "from_memory")
 
-INTENSITY_UNITS = {
-    "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
-    "kg_co2e_per_kg_h2": "kg CO2e/kg H2",
-    "g_co2e_per_mj": "g CO2e/MJ (LHV)",
-}
+INTENSITY_UNITS = UNITS  # one vocabulary (io/labels.py)
 
 
 def display_number(value: float | None) -> str:

@@ -12,6 +12,7 @@ from typing import Any
 
 from ...errors import InputError
 from ...model.project import split_path
+from ..labels import UNITS
 from .cells import Term, resolve
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
@@ -27,12 +28,7 @@ COVER_LABELS = {
     "factors_option": "Factor set as requested (--factors)",
     "factor_set": "Factor set",
 }
-INTENSITY_UNITS = {
-    "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
-    "kg_co2e_per_kg_nh3": "kg CO2e/kg NH3",
-    "kg_co2e_per_kg_h2": "kg CO2e/kg H2",
-    "g_co2e_per_mj": "g CO2e/MJ (LHV)",
-}
+INTENSITY_UNITS = UNITS  # one vocabulary (io/labels.py)
 _FORMULA_START = ("=", "+", "-", "@")
 
 
