@@ -200,7 +200,7 @@ def test_cli_shows_status_and_reasons_in_every_format():
 
     table = run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2026", "--no-ledger")
     assert table.exit_code == 0, table.output
-    assert "NOT ELIGIBLE" in table.stdout and "eu-rfnbo: not eligible, first reason: not met: route steam_methane_reforming" in table.stdout
+    assert "eu-rfnbo: not eligible, because not met: route steam_methane_reforming" in table.stdout  # the deciding reason first
     data = json.loads(run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2026", "--no-ledger", "--format", "json").stdout)
     only = data["checks"][0]
     assert only["status"] == "not_eligible" and only["passes"] is False and len(only["reasons"]) > 3

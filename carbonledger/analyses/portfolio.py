@@ -31,7 +31,7 @@ from ..routes.project import load_project
 from .electricity_series import project_series
 from .matching import matched_checks, series_matched_periods
 
-STATUSES = ("newly fails", "newly passes", "still fails", "still passes", "still not eligible", "still undetermined")
+STATUSES = ("now fails", "now qualifies", "still fails", "still qualifies", "still not eligible", "still undetermined")  # how a check moved
 
 
 @dataclass(frozen=True)
@@ -167,17 +167,17 @@ class Recalc:
 
     @property
     def newly_failing(self) -> list[RecalcRow]:
-        return [row for row in self.rows if row.status == "newly fails"]
+        return [row for row in self.rows if row.status == "now fails"]
 
 
 def status_of(old_passes: bool, new_passes: bool, new_status: str = "fails") -> str:
     """The change of a verdict; a check that neither qualifies before nor after says why now."""
     if old_passes and not new_passes:
-        return "newly fails"
+        return "now fails"
     if new_passes and not old_passes:
-        return "newly passes"
+        return "now qualifies"
     if new_passes:
-        return "still passes"
+        return "still qualifies"
     return {"not_eligible": "still not eligible", "undetermined": "still undetermined"}.get(new_status, "still fails")
 
 
@@ -194,7 +194,7 @@ def recalc(
 ) -> Recalc:
     """Rescore a portfolio under a new factor set; one row per project and scheme.
 
-    Rows come newly failing first, then newly passing, then the rest in project order.
+    Rows come "now fails" first, then "now qualifies", then the rest in project order.
     ``mapper`` and ``chunks`` spread the scoring over workers (see ``score_portfolio``).
     """
     spread = {"mapper": mapper, "chunks": chunks, "year": year}
@@ -233,6 +233,6 @@ def recalc(
                     new_status=after.status,
                 )
             )
-    order = {"newly fails": 0, "newly passes": 1}
+    order = {"now fails": 0, "now qualifies": 1}
     rows.sort(key=lambda row: order.get(row.status, 2))  # stable: project order kept within each group
     return Recalc(old_set.name, old_set.sha256, new_set.name, new_set.sha256, changed, rows, old_scores, new_scores, len(to_rescore))

@@ -12,6 +12,7 @@ from ..core.results import strict_json
 from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.portfolio_output import diff_rows, diff_table, sets_table
+from ..io.tables import plain_table
 from ..model.factors import FACTOR_COLUMNS, diff_sets, load_factor_set, set_listing
 from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
 from .options import FactorsOption, FormatOption, OutputFormat, fail, render
@@ -37,10 +38,9 @@ def factors_list(
     )
 
     def table() -> str:
-        width = max((len(f.id) for f in rows), default=10)
-        lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}); * = from memory, not checked against the document"]
-        lines += [f"{'*' if f.from_memory else ' '} {f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.source[:60]}" for f in rows]
-        return "\n".join(lines + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
+        head = f"factor set {factor_set.name} (sha256 {factor_set.sha256}); * = from memory, not checked against the document"
+        body = plain_table(["", "id", "value", "unit", "source"], [["*" if f.from_memory else "", f.id, f"{f.value:g}", f.unit, f.source] for f in rows], {"value"}, wrap={"unit", "source"})
+        return "\n".join([head, body.rstrip("\n")] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
 
     def json_text() -> str:
         return strict_json(

@@ -7,6 +7,7 @@ from pathlib import Path
 from ..analyses.compare import ComparisonResult
 from .chart_files import write_figure
 from .csv_text import csv_text
+from .labels import gas_name, gwp_name, per_name, stage_name, status_name
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 
@@ -47,7 +48,7 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
         rows += [
             (f"check:{scheme}", "value", unit, [c.value if c else None for c in checks]),
             (f"check:{scheme}", "limit", unit, [c.limit if c else None for c in checks]),
-            (f"check:{scheme}", "verdict", "", [c.status.replace("_", " ") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "status", "", [status_name(c.status) if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
             (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
         ]
@@ -79,23 +80,32 @@ def comparison_csv(result: ComparisonResult) -> str:
 def render_comparison(result: ComparisonResult) -> str:
     from rich.table import Table
 
-    console = plain_console(max(110, 34 + 22 * len(result.projects)))
-    console.print(f"Comparison: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    console = plain_console()
+    console.print(f"Comparison: boundary {result.boundary}, basis {result.unit}, GWP100 {gwp_name(result.gwp_basis)}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    console.print("Projects: " + "; ".join(f"{p.project} ({Path(p.project_file).name})" for p in result.projects))
     table = Table(show_header=True, show_lines=False)
     table.add_column("")
-    table.add_column("unit")
-    for project in result.projects:
-        table.add_column(_label(project), justify="right", overflow="fold")
+    table.add_column("unit", overflow="fold")
+    for project in result.projects:  # headed by the project's name (its file is in the JSON and CSV)
+        table.add_column(project.project, justify="right", overflow="fold")
     section_titles = {"project": None, "total": None, "basis": None}
     last = None
     for section, key, unit, values in comparison_rows(result):
+        if (section, key) == ("project", "name"):  # the column heads
+            continue
         group = section.split(":")[0]
         if group != last and group not in section_titles:
             table.add_section()
         last = group
         name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
         if section == "intensity":
-            name = "per " + key.split("_per_")[1].replace("_", " ")
+            name = "per " + per_name(key)
+        if section == "by_stage":
+            name = stage_name(key)
+        if section == "by_gas":
+            name = gas_name(key)
+        if section == "basis":
+            name = f"on the common basis (per {per_name(key)})"
         if section == "uncertainty":
             name = {"p5": "5th percentile", "p50": "median of draws", "mean": "mean of draws", "p95": "95th percentile"}.get(key, key)
         cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
@@ -106,7 +116,7 @@ def render_comparison(result: ComparisonResult) -> str:
             cells = [v if isinstance(v, str) else "-" if v is None else f"{v:,}" if key == "draws" else str(v) for v in values]
         if section == "from_memory":  # the ids are listed below the table
             name, unit, cells = "factors from memory", "count", [str(len(p.factors_from_memory)) for p in result.projects]
-        table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
+        table.add_row(name.replace("_", " "), unit, *cells)  # row names are identifiers or words, never user text
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")
     if any(p.uncertainty is not None for p in result.projects):

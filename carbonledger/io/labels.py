@@ -1,7 +1,8 @@
 """Identifiers in words, for every output a person reads (tables, report, charts, workbook labels).
 
 One vocabulary: units ("t NH3", "kg H2", "MJ"), statuses (qualifies, fails, not eligible,
-undetermined), changes between two runs ("now fails", "now qualifies", "still ..."), GWP sets
+undetermined; how a check moved between two runs, "now fails", "now qualifies", "still ...", is
+analyses.portfolio.STATUSES), GWP sets
 ("AR6"), electricity rules and quantities, all written here once."""
 
 from __future__ import annotations
@@ -24,8 +25,6 @@ UNITS = {
 PER = {"t_nh3": "t NH3", "kg_nh3": "kg NH3", "kg_h2": "kg H2", "mj": "MJ (LHV)", "t-nh3": "t NH3", "kg-h2": "kg H2"}
 INTENSITY_LABELS = {key: f"Carbon intensity per {PER[key.split('_per_')[1]]}" for key in UNITS}
 STATUS_WORDS = {"qualifies": "qualifies", "fails": "fails", "not_eligible": "not eligible", "undetermined": "undetermined"}
-# A check's status before and after a change (recalc): "now ..." where it moved, "still ..." where it did not.
-CHANGE_WORDS = {"newly fails": "now fails", "newly passes": "now qualifies", "still passes": "still qualifies", "still fails": "still fails", "still not eligible": "still not eligible", "still undetermined": "still undetermined"}
 ELECTRICITY_RULES = {
     "renewable_at_zero": "renewable electricity counted at zero, the rest at its factor",
     "lifecycle": "every source at its life-cycle factor",
@@ -68,11 +67,6 @@ def status_name(status: object) -> str:
     """A verdict's status in words: qualifies, fails, not eligible, undetermined."""
     value = str(getattr(status, "value", status))
     return STATUS_WORDS.get(value, value.replace("_", " "))
-
-
-def change_name(change: str) -> str:
-    """How a check moved between two runs: now fails, now qualifies, still ..."""
-    return CHANGE_WORDS.get(change, change)
 
 
 def gwp_name(gwp: str) -> str:

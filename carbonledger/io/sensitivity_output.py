@@ -6,8 +6,8 @@ from pathlib import Path
 
 from ..analyses.sensitivity import Sensitivity
 from .chart_files import write_figure
-from .tables import display_number
-from .uncertainty_output import console_for_text, rows_to_csv
+from .tables import display_number, plain_console
+from .uncertainty_output import rows_to_csv
 
 
 def sensitivity_csv(result: Sensitivity) -> str:
@@ -27,7 +27,7 @@ def sensitivity_csv(result: Sensitivity) -> str:
 def sensitivity_table(result: Sensitivity) -> str:
     from rich.table import Table
 
-    console = console_for_text()
+    console = plain_console()
     limit = f"; limit {display_number(result.limit)} {result.unit}" if result.limit is not None else ""
     console.print(f"[bold]{result.project}[/bold]: sensitivity of {result.figure} ({result.unit}); project value {display_number(result.base)}{limit}")
     console.print(f"Sobol indices: SALib, N = {result.base_sample} ({result.evaluations:,} evaluations), seed {result.seed}; inputs drawn independently (rank correlations not imposed)")

@@ -9,7 +9,8 @@ import json
 from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
 from .chart_files import write_figure
-from .tables import INTENSITY_UNITS, display_number
+from .labels import gas_name, gwp_name, per_name, stage_name
+from .tables import INTENSITY_UNITS, display_number, plain_console
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
 
@@ -66,12 +67,6 @@ def uncertainty_csv(result: UncertaintyResult) -> str:
     return rows_to_csv(("section", "key", "statistic", "value", "unit"), uncertainty_rows(result))
 
 
-def console_for_text(width: int = 120):
-    from rich.console import Console
-
-    return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None)
-
-
 def display_spec(value) -> str:
     if isinstance(value, float):
         return f"{value:.6g}"
@@ -83,11 +78,11 @@ def display_spec(value) -> str:
 def uncertainty_table(result: UncertaintyResult) -> str:
     from rich.table import Table
 
-    console = console_for_text(140)
+    console = plain_console()
     console.print(f"[bold]{result.project}[/bold]  ({result.boundary}; {result.functional_unit})")
     console.print(
         f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
-        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {result.gwp_basis.upper()}; factors {result.factor_set['name']}"
+        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {gwp_name(result.gwp_basis)}; factors {result.factor_set['name']}"
     )
     if result.draws_breaking_limits:
         console.print(f"{result.draws_breaking_limits:,} draws break a physical limit and are left out (not clipped); statistics over {result.draws_used:,} draws:")
@@ -118,11 +113,11 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     add("total", result.total, result.unit)
     for key, summary in result.intensity.items():
         if key != "kg_co2e_per_t_nh3":
-            add("per " + key.split("_per_")[1].replace("_", " "), summary, INTENSITY_UNITS.get(key, "kg CO2e/kg NH3"))
+            add("per " + per_name(key), summary, INTENSITY_UNITS.get(key, key))
     for key, summary in result.by_stage.items():
-        add(f"stage {key.replace('_', ' ')}", summary, result.unit)
+        add(stage_name(key), summary, result.unit)
     for key, summary in result.by_gas.items():
-        add(f"gas {key.replace('_', ' ')}", summary, result.unit)
+        add(gas_name(key), summary, result.unit)
     console.print(figures)
     if result.checks:
         checks = Table(title="Probability of each verdict (Monte Carlo standard error)", title_justify="left")
@@ -166,7 +161,7 @@ def headroom_csv(results: list[Headroom]) -> str:
 def headroom_table(results: list[Headroom]) -> str:
     from rich.table import Table
 
-    console = console_for_text(140)
+    console = plain_console()
     first = results[0]
     console.print(f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; the project scores {display_number(first.project_scheme_value)}")
     table = Table(title="Value of each parameter at which the limit is met exactly", title_justify="left")
@@ -201,9 +196,9 @@ def portfolio_uncertainty_csv(results: list[UncertaintyResult]) -> str:
 def portfolio_uncertainty_table(results: list[UncertaintyResult]) -> str:
     from rich.table import Table
 
-    console = console_for_text(140)
+    console = plain_console()
     first = results[0]
-    console.print(f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, sampling {first.sampling.replace('_', ' ')}; GWP100 {first.gwp_basis.upper()}")
+    console.print(f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, sampling {first.sampling.replace('_', ' ')}; GWP100 {gwp_name(first.gwp_basis)}")
     table = Table(title="Total and probability of qualifying per project and scheme", title_justify="left")
     for column in ("project", "total mean", "p5", "p95", "unit", "scheme", "qualifies", "draws left out"):
         table.add_column(column, justify="right" if column in ("total mean", "p5", "p95", "qualifies", "draws left out") else "left")

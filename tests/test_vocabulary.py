@@ -1,0 +1,72 @@
+"""One vocabulary, tables that fit the terminal (issue 19): every human label goes through
+io/labels.py, statuses read qualifies, fails, not eligible, undetermined (changes: now fails,
+now qualifies, still ...), and every table fits 80 columns."""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+from helpers import DEMO, PORTFOLIO, run_cli
+
+from carbonledger.analyses.portfolio import STATUSES
+from carbonledger.io.labels import gas_name, per_name, status_name, unit_name
+
+BLUE = DEMO / "blue_atr_ammonia.toml"
+COMMANDS = {
+    "score": ("score", BLUE),
+    "score hourly": ("score", DEMO / "hybrid_hourly_hydrogen.toml"),
+    "lifetime": ("score", PORTFOLIO / "vennor_hybrid_hydrogen.toml", "--lifetime"),
+    "compare": ("compare", DEMO / "grey_smr_ammonia_shipped.toml", DEMO / "blue_atr_ammonia_shipped.toml", DEMO / "green_electrolysis_ammonia_shipped.toml", "--boundary", "well-to-tank", "--basis", "mj"),
+    "recalc": ("recalc", PORTFOLIO, "--to", "demo-2027-grid-revision", "--year", "2028"),
+    "uncertainty": ("uncertainty", BLUE, "--distributions", DEMO / "uncertainty" / "blue_atr_ammonia.toml", "--draws", "300"),
+    "headroom": ("headroom", BLUE, "--scheme", "us-45v", "--parameter", "capture.capture_rate"),
+    "params": ("params", BLUE),
+    "factors list": ("factors", "list", "--prefix", "electricity.grid.germany"),
+    "factors sets": ("factors", "sets"),
+    "factors diff": ("factors", "diff", "default-2026", "demo-2027-grid-revision"),
+}
+TABLE_LINE = re.compile(r"[│┃┏┡└─━]")  # a line drawn as part of a table
+
+
+@pytest.fixture(scope="module")
+def outputs_at_80():
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setenv("COLUMNS", "80")
+        return {name: run_cli(*args, *(["--no-ledger"] if args[0] in ("score", "compare", "recalc", "uncertainty", "headroom") else [])) for name, args in COMMANDS.items()}
+
+
+@pytest.mark.parametrize("name", list(COMMANDS))
+def test_tables_fit_80_columns(outputs_at_80, name):
+    result = outputs_at_80[name]
+    assert result.exit_code == 0, result.output[-2000:]
+    lines = result.stdout.splitlines()
+    table_lines = [line for line in lines if TABLE_LINE.search(line) or re.match(r"\S+( {3,}\S+){2,}", line)]
+    assert table_lines, name
+    assert max(len(line) for line in table_lines) <= 80, max(table_lines, key=len)
+
+
+def test_labels_are_words_not_identifiers(outputs_at_80):
+    text = "\n".join(outputs_at_80[name].stdout for name in ("score", "compare", "uncertainty", "lifetime"))
+    for identifier in ("t nh3", "kg h2", "co2e precharacterised", "co2 fossil", "functional_unit", "g_co2e_per_mj", "renewable_at_zero", "NOT ELIGIBLE", "UNDETERMINED", "FAILS", "None"):
+        assert identifier not in text, identifier
+    assert "t NH3" in text and "kg H2" in text and "CO2, fossil" in text
+
+
+def test_the_rulebook_listing_is_in_words():
+    text = run_cli("schemes").stdout
+    assert "g_co2e_per_mj" not in text and "renewable_at_zero" not in text and "GWP100 AR4" in text
+
+
+def test_one_status_vocabulary():
+    # the four statuses of a check, and how a check moved between two factor sets
+    assert [status_name(s) for s in ("qualifies", "fails", "not_eligible", "undetermined")] == ["qualifies", "fails", "not eligible", "undetermined"]
+    assert {"now fails", "now qualifies"} <= set(STATUSES) and not [s for s in STATUSES if "newly" in s or "pass" in s]
+    assert per_name("kg_co2e_per_t_nh3") == "t NH3" and per_name("g_co2e_per_mj") == "MJ (LHV)"
+    assert unit_name("kg_co2e_per_kg_h2") == "kg CO2e/kg H2" and gas_name("ch4_fossil") == "Methane (CH4), fossil"
+
+
+def test_the_deciding_reason_is_printed_with_the_status(outputs_at_80):
+    text = outputs_at_80["score"].stdout
+    assert re.search(r"eu-rfnbo: not eligible, because not met:", text)
+    assert "Assessment year" in text
