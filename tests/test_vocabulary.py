@@ -70,3 +70,13 @@ def test_the_deciding_reason_is_printed_with_the_status(outputs_at_80):
     text = outputs_at_80["score"].stdout
     assert re.search(r"eu-rfnbo: not eligible, because not met:", text)
     assert "Assessment year" in text
+
+
+def test_help_shows_words_not_python_types():
+    commands = [["score"], ["compare"], ["report"], ["recalc"], ["workbook"], ["uncertainty"], ["headroom"], ["sensitivity"], ["plan"], ["init"], ["history"], ["params"], ["factors", "list"], ["factors", "diff"]]
+    for command in commands:
+        text = run_cli(*command, "--help").stdout
+        assert "Usage:" in text, command
+        assert not re.search(r"<(list\[|str|int|float|path|Path|bool)", text), (command, re.findall(r"<[^>]*>", text))
+    text = run_cli("score", "--help").stdout
+    assert "--scheme ID" in text and "--gwp ar4|ar5|ar6" in text and "--set PATH=VALUE" in text and "project FILE" in text

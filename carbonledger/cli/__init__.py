@@ -13,14 +13,16 @@ import typer
 
 from ..about import __version__
 from . import compare, factors, plan, project_commands, recalc, report, uncertainty, workbook
+from .options import WordsGroup
 
 app = typer.Typer(
+    cls=WordsGroup,
     add_completion=False,
     no_args_is_help=True,
     rich_markup_mode=None,
     help="Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for screening and reporting support, not a certification.",
 )
-factors_app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, help="Browse the factor library.")
+factors_app = typer.Typer(cls=WordsGroup, no_args_is_help=True, rich_markup_mode=None, help="Browse the factor library.")
 app.add_typer(factors_app, name="factors")
 
 
