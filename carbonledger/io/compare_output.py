@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from pathlib import Path
 
 from ..analyses.compare import ComparisonResult
@@ -191,7 +192,7 @@ def comparison_figure(result: ComparisonResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    labels = [_chart_text(_label(p)) for p in result.projects]
+    labels = ["\n".join(textwrap.wrap(_chart_text(p.project), 24)) for p in result.projects]  # the project's name, in words
     with_series = bool(monthly_matching(result)[2])
     width = max(7.0, 1.5 * len(labels) + 3.5)
     if with_series:
@@ -206,7 +207,7 @@ def comparison_figure(result: ComparisonResult):
     for number, stage in enumerate(result.stages):
         values = [p.by_stage.get(stage, 0.0) for p in result.projects]
         bottoms = [a if v >= 0 else b for v, a, b in zip(values, above, below, strict=True)]
-        bars = axes.bar(positions, values, bottom=bottoms, width=0.6, label=stage.replace("_", " "), color=colours[number % len(colours)])
+        bars = axes.bar(positions, values, bottom=bottoms, width=0.6, label=stage_name(stage), color=colours[number % len(colours)])
         for index, patch in enumerate(bars.patches):
             patch.set_gid(f"bar-{index}-{stage}")
         above = [a + max(v, 0.0) for v, a in zip(values, above, strict=True)]

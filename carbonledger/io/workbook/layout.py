@@ -125,3 +125,8 @@ def set_path(tree: dict, path: str, value: Any) -> None:
     node[parts[-1]] = value
 
 
+def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
+    """The live verdict: the threshold on the live value, within the rules read at writing
+    (``status``: not eligible stays so whatever the value; undetermined stays undetermined), in
+    the words of every output: qualifies, fails, not eligible, undetermined."""
+    return f'IF({status}="not eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","qualifies"),"fails"))'

@@ -29,6 +29,7 @@ from .layout import (
     put_value,
     set_path,
     set_widths,
+    verdict_formula,
 )
 
 SUMMARY_TOP = 1
@@ -209,7 +210,7 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
 
 
 def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None, address: dict) -> None:
-    """pass/fail of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
+    """The status (qualifies, fails, not eligible, undetermined) of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
     from openpyxl.utils import get_column_letter
 
     loosest = scheme.loosest()
@@ -218,9 +219,9 @@ def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None
     if results_cells and f"check:{scheme.id}" in results_cells:
         limit = f"{RESULTS}!$K${results_cells[f'check:{scheme.id}']}"
         status = f"{RESULTS}!$Q${results_cells[f'check:{scheme.id}']}"
-        formula = f'IF({status}="not_eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","pass"),"fail"))'
+        formula = verdict_formula(value, operator, limit, status)
     else:
-        formula = f'IF({value}{operator}{loosest.limit!r},"pass","fail")'
+        formula = f'IF({value}{operator}{loosest.limit!r},"qualifies","fails")'
     put_formula(ws, row, value_column + 1, Term(formula), address)
 
 
