@@ -28,7 +28,34 @@ def factors_list(
         factor_set = load_factor_set(factors)
     except InputError as error:
         fail(error)
-    rows = [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)]
+    show_factors(factor_set, [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)], output_format)
+
+
+def matches(factor, words: list[str]) -> bool:
+    """Every word of the search appears (case ignored) in the factor's id, region, source, table or note."""
+    text = " ".join(str(part) for part in (factor.id.replace("_", " "), factor.id, factor.region, factor.source, factor.table, factor.note)).lower()
+    return all(word in text for word in words)
+
+
+def factors_search(
+    text: Annotated[str, typer.Argument(help="Words to find in a factor's id, region, source or note, e.g. 'germany 2024' or 'egrid erct'.")],
+    factors: FactorsOption = "default-2026",
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Find factors by words in their id, region, source or note (every word must appear, case ignored)."""
+    try:
+        factor_set = load_factor_set(factors)
+    except InputError as error:
+        fail(error)
+    words = text.lower().split()
+    rows = [f for _, f in sorted(factor_set.factors.items()) if matches(f, words)]
+    if not rows:
+        typer.echo(f"No factor of set {factor_set.name} mentions '{text}' in its id, region, source or note; `carbonledger factors list` lists them all.", err=True)
+    show_factors(factor_set, rows, output_format)
+
+
+def show_factors(factor_set, rows: list, output_format: OutputFormat) -> None:
+    """The factors of a list or a search, in the chosen format, with the caution and the from-memory flags."""
     bases = sorted({accounting_basis(f.id) for f in rows} - {""})
     basis_note = (
         "Electricity accounting: electricity.grid.* rows are location-based, electricity.residual_mix.* rows are "
