@@ -298,7 +298,7 @@ def nav() -> list:
         {"Getting started": [{"Quick start": "getting-started/index.md"}, {"Install and check": "getting-started/install.md"}]},
         {"Your own site": "own-site.md"},
         {"Reading a verdict": "verdicts.md"},
-        {"Deliverables": [{"The project report": "deliverables/report.md"}, {"The audit workbook": "deliverables/workbook.md"}, {"Charts": "deliverables/charts.md"}]},
+        {"Deliverables": [{"The project report": "deliverables/report.md"}, {"The audit workbook": "deliverables/workbook.md"}, {"Charts": "deliverables/charts.md"}, {"The evidence pack": "deliverables/pack.md"}]},
         {"What-ifs": [
             {"Comparing pathways": "what-ifs/compare.md"},
             {"Hour by hour and the operating plan": "what-ifs/matching-and-plan.md"},

@@ -12,7 +12,7 @@ from typing import Annotated
 import typer
 
 from ..about import __version__
-from . import compare, factors, plan, project_commands, recalc, report, uncertainty, workbook
+from . import compare, factors, pack, plan, project_commands, recalc, report, uncertainty, workbook
 from .options import WordsGroup
 
 app = typer.Typer(
@@ -52,6 +52,8 @@ app.command()(uncertainty.uncertainty)
 app.command()(uncertainty.headroom)
 app.command()(uncertainty.sensitivity)
 app.command()(project_commands.init)
+app.command()(pack.pack)
+app.command()(pack.verify)
 factors_app.command("list")(factors.factors_list)
 factors_app.command("search")(factors.factors_search)
 factors_app.command("show")(factors.factors_show)
