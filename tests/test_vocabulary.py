@@ -80,3 +80,12 @@ def test_help_shows_words_not_python_types():
         assert not re.search(r"<(list\[|str|int|float|path|Path|bool)", text), (command, re.findall(r"<[^>]*>", text))
     text = run_cli("score", "--help").stdout
     assert "--scheme ID" in text and "--gwp ar4|ar5|ar6" in text and "--set PATH=VALUE" in text and "project FILE" in text
+
+
+def test_a_unit_typed_without_its_space_names_the_accepted_spelling(tmp_path):
+    from helpers import FACTOR_HEADER, assert_one_line_error, write
+
+    rows = write(tmp_path / "rows.csv", FACTOR_HEADER + "electricity.grid.eu27_2018,300,gCO2/kWh,Invented row for a test,T,2018,EU-27,Basis: CO2,true\n")
+    result = run_cli("score", BLUE, "--factors", rows, "--no-ledger")
+    assert_one_line_error(result)
+    assert "write it 'g CO2/kWh'" in result.stderr
