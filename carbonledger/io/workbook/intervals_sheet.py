@@ -247,5 +247,5 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
             sheet.column_dimensions[get_column_letter(position)].width = 20
     ws.freeze_panes = f"B{first}"
     page_setup(main, title_columns="A:A", pages_wide=2)
-    page_setup(ws, title_rows=f"{interval_header}:{interval_header}", pages_wide=2)
+    page_setup(ws, title_rows=f"{interval_header}:{interval_header}", pages_wide=2, align=False)
     return {"summary": rows, "month_header": month_header, "interval_header": interval_header}

@@ -31,6 +31,7 @@ from .layout import (
     set_widths,
     verdict_formula,
 )
+from .style import number_format
 
 SUMMARY_TOP = 1
 
@@ -194,6 +195,8 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
     put_formula(ws, year_row, 2, Term(f"SUM(B{first_month_row}:B{last})"), address)
     put_formula(ws, year_row, 4, Term(f"SUM(D{first_month_row}:D{last})"), address)
     put_formula(ws, year_row, 3, Term(f"IF(B{year_row}=0,0,D{year_row}/B{year_row})"), address)
+    figures = [engine.total for engine in plan.engine if engine is not None]
+    ws.cell(row=year_row, column=3).number_format = number_format(sum(figures) / len(figures) if figures else None)  # the year's figure, never 17 digits
     from openpyxl.utils import get_column_letter
 
     for position in range(len(stages)):
