@@ -89,3 +89,12 @@ def test_a_unit_typed_without_its_space_names_the_accepted_spelling(tmp_path):
     result = run_cli("score", BLUE, "--factors", rows, "--no-ledger")
     assert_one_line_error(result)
     assert "write it 'g CO2/kWh'" in result.stderr
+
+
+def test_option_errors_are_one_line_in_the_tools_style():
+    from helpers import assert_one_line_error
+
+    for args, words in ((("score", "--gwpx", "ar5"), "--gwpx"), (("scor",), "'scor'"), (("score", BLUE, "--format", "xml"), "--format"), (("pack", BLUE), "--output")):
+        result = run_cli(*args)
+        assert_one_line_error(result)
+        assert words in result.stderr and "--help" in result.stderr

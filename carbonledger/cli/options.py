@@ -68,8 +68,28 @@ def words_for_types(command) -> None:
             param.display_type_rich = lambda ctx, shown=shown: shown  # typer shows an argument's type, not its metavar
 
 
+def one_line_usage_error(error) -> None:
+    """A mistyped option or argument (click's usage errors) reported like every other bad input:
+    one line on stderr, ``error: COMMAND: what was wrong``, exit code 2 (``--help`` still helps)."""
+    where = error.ctx.command_path if getattr(error, "ctx", None) is not None else "carbonledger"
+
+    def show(file=None) -> None:
+        typer.echo(f"error: {where}: {error.format_message()} (see `{where} --help`)", err=True)
+
+    error.show = show
+
+
 class WordsGroup(typer.core.TyperGroup):
-    """The app's command group: each command it hands out shows words, not types, in --help."""
+    """The app's command group: each command it hands out shows words, not types, in --help, and a
+    usage error is one line."""
+
+    def invoke(self, ctx):
+        try:
+            return super().invoke(ctx)
+        except Exception as error:
+            if any(kind.__name__ == "UsageError" for kind in type(error).__mro__):
+                one_line_usage_error(error)
+            raise
 
     def get_command(self, ctx, name):
         command = super().get_command(ctx, name)
