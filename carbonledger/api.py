@@ -639,12 +639,12 @@ def pack(
     year: int | None = None,
     ledger: str | Path | None = None,
     force: bool = False,
-) -> dict:
+) -> tuple[dict, ScoreResult]:
     """Write an evidence pack of a project: the project file and every file it reads, the factor
     overrides (a factor CSV or set folder given as ``factors``; a shipped set is named with its
     sha256), the result as JSON, the audit workbook, the report, the project's records in the run
     ledger, and a manifest with the sha256 of every file, the version and the assessment year.
-    Returns the manifest."""
+    Returns the manifest and the result packed."""
     project_file = Path(project_file)
     project, _ = load_project(project_file)
     factor_set = load_factor_set(factors)
@@ -679,7 +679,7 @@ def pack(
         caution=CAUTION,
     )
     write_pack(output, files, manifest, force=force)
-    return manifest
+    return manifest, result
 
 
 def packed_figures(result: dict) -> dict[str, object]:

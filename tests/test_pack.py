@@ -120,3 +120,16 @@ def test_bad_packs_and_projects_are_one_line(tmp_path, write_project):
     existing = write(tmp_path / "exists.zip", "x")
     assert_one_line_error(run_cli("pack", BLUE, "-o", existing))  # never over a file without --force
     assert existing.read_text() == "x"
+
+
+def test_report_and_pack_are_recorded_in_the_ledger(tmp_path):
+    """Which figures went into which report or pack: `history` lists the report and pack runs."""
+    ledger = tmp_path / "ledger.sqlite"
+    assert run_cli("report", BLUE, "-o", tmp_path / "r.html", "--ledger", ledger).exit_code == 0
+    assert run_cli("pack", BLUE, "-o", tmp_path / "p.zip", "--ledger", ledger).exit_code == 0
+    history = run_cli("history", BLUE, "--ledger", ledger, "--format", "json")
+    assert history.exit_code == 0, history.output
+    commands = [record["command"] for record in json.loads(history.stdout)["records"]]
+    assert any(c.startswith("report") for c in commands) and any(c.startswith("pack") for c in commands), commands
+    packed = json.loads(zipfile.ZipFile(tmp_path / "p.zip").read("ledger.json"))
+    assert any(record["command"].startswith("report") for record in packed["records"])  # the pack carries the records made before it

@@ -10,9 +10,10 @@ import typer
 from .. import api
 from ..about import CAUTION
 from ..errors import InputError
+from ..io.ledger import ledger_for_run, record_run
 from ..io.pack import PackMismatch
 from ..io.tables import display_number, plain_table
-from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, SchemeOption, YearOption, fail
+from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, SchemeOption, YearOption, fail
 
 PACK_MISMATCH_EXIT = 3
 NOT_REPRODUCED_EXIT = 1
@@ -26,11 +27,15 @@ def pack(
     scheme: SchemeOption = None,
     year: YearOption = None,
     ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
     force: ForceOption = False,
 ) -> None:
     """Write an evidence pack: the project and its files, factor overrides, result JSON, workbook, report, ledger records and a manifest of sha256."""
     try:
-        manifest = api.pack(project, output, factors=factors, gwp=gwp, schemes=scheme, year=year, ledger=ledger, force=force)
+        where = ledger_for_run(ledger, not no_ledger)
+        manifest, result = api.pack(project, output, factors=factors, gwp=gwp, schemes=scheme, year=year, ledger=ledger, force=force)
+        if where is not None:
+            record_run("pack", [result], ledger=where)
     except InputError as error:
         fail(error)
     typer.echo(f"wrote {output}: {len(manifest['files'])} files and their sha256, carbonledger {manifest['carbonledger_version']}, assessment year {manifest['assessment_year']}")
