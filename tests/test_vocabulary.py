@@ -98,3 +98,24 @@ def test_option_errors_are_one_line_in_the_tools_style():
         result = run_cli(*args)
         assert_one_line_error(result)
         assert words in result.stderr and "--help" in result.stderr
+
+
+def test_one_chart_style_across_the_charts(tmp_path):
+    """The report's SVG and every matplotlib chart read one palette (io/palette.py): no chart
+    falls back to matplotlib's default cycle, and the score chart labels its tier lines and shows a
+    legend of the status colours."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from carbonledger import api
+    from carbonledger.io.palette import STAGE_COLOURS, STATUS_COLOURS
+    from carbonledger.io.score_chart import score_figure
+
+    default_cycle = {"#1f77b4", "#ff7f0e", "#4c72b0", "#dd8452", "#3b7d4f"}
+    figure = score_figure(api.score(BLUE))
+    colours = {matplotlib.colors.to_hex(patch.get_facecolor()) for ax in figure.axes for patch in ax.patches}
+    assert colours & {c.lower() for c in STAGE_COLOURS} and colours & {c.lower() for c in STATUS_COLOURS.values()}
+    assert not colours & default_cycle
+    legend_texts = [t.get_text() for legend in figure.legends for t in legend.get_texts()]
+    assert "qualifies" in legend_texts and "not eligible" in legend_texts
+    assert any(t.get_text() == "4" for ax in figure.axes for t in ax.texts)  # the 45V tier line at 4 kg CO2e/kg H2 is labelled

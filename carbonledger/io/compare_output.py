@@ -9,6 +9,7 @@ from ..analyses.compare import ComparisonResult
 from .chart_files import write_figure
 from .csv_text import csv_text
 from .labels import gas_name, gwp_name, per_name, stage_name, status_name
+from .palette import CHART_STYLE, STAGE_COLOURS
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 
@@ -163,10 +164,9 @@ def monthly_matching(result: ComparisonResult) -> tuple[str, list[str], dict[str
 
 def _monthly_panel(axes, result: ComparisonResult) -> None:
     """Grouped monthly bars: each project's matched electricity (solid), its unmatched (grid) part stacked above (hatched)."""
-    import matplotlib.pyplot as plt
 
     scheme, months, by_project = monthly_matching(result)
-    colours = plt.get_cmap("tab10").colors
+    colours = STAGE_COLOURS
     width = 0.8 / len(by_project)
     for number, (label, (matched, unmatched)) in enumerate(by_project.items()):
         positions = [index - 0.4 + width * (number + 0.5) for index in range(len(months))]
@@ -200,7 +200,8 @@ def comparison_figure(result: ComparisonResult):
         _monthly_panel(monthly, result)
     else:
         figure, axes = plt.subplots(figsize=(width, 5.5), layout="constrained")
-    colours = plt.get_cmap("tab20").colors
+    plt.rcParams.update(CHART_STYLE)
+    colours = STAGE_COLOURS
     positions = list(range(len(labels)))
     above = [0.0] * len(labels)
     below = [0.0] * len(labels)

@@ -33,14 +33,12 @@ from ..core.scoring import rulebooks
 from ..errors import InputError
 from .files import atomic_write
 from .labels import electricity_rule_name, gas_name, gwp_name, stage_name, status_name, unit_name, words
+from .palette import GAS_COLOURS, RAMP, STAGE_COLOURS
 from .tables import display_number
 
 PAPERS = ("a4", "letter")
 CHROMIUM_NAMES = ("chromium", "chromium-browser", "google-chrome", "google-chrome-stable")
 
-# Our palette: ink, harbour teal, sandstone, kelp, brick, slate; stages take the sequence below.
-STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
-GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
 YEAR_SIGNS = {"qualifies": "✓", "fails": "✗", "undetermined": "?", "not_eligible": "n/e"}
 STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undetermined": "open"}
 
@@ -293,8 +291,6 @@ def lifetime_svg(life: LifetimeResult, key: str) -> str:
     return _svg(width, height, f"Intensity by operating year ({life.unit})", description, body, key)
 
 
-# Heat map ramp: harbour-teal mist (all matched) through sandstone to deep brick (nothing matched).
-RAMP = ((0.0, (0xE4, 0xEE, 0xF0)), (0.5, (0xC9, 0x89, 0x2B)), (1.0, (0x6E, 0x24, 0x18)))
 
 
 def ramp_colour(share: float) -> str:

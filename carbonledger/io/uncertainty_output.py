@@ -10,6 +10,7 @@ from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
 from .chart_files import write_figure
 from .labels import gas_name, gwp_name, per_name, stage_name
+from .palette import CHART_STYLE, INK, TEAL
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
@@ -222,15 +223,16 @@ def uncertainty_figure(result: UncertaintyResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
+    plt.rcParams.update(CHART_STYLE)
     draws = result.scheme_draws()
     checks = [check for check in result.checks if check.scheme in draws]
     count = max(1, len(checks))
     figure, axes = plt.subplots(count, 1, figsize=(9, 2.6 * count + 1.0), layout="constrained", squeeze=False)
     for axis, check in zip(axes[:, 0], checks, strict=False):
         values, thresholds = draws[check.scheme]
-        axis.hist(values, bins=60, color="#4c72b0", alpha=0.85)
+        axis.hist(values, bins=60, color=TEAL, alpha=0.85)
         for tier, limit in thresholds:
-            axis.axvline(limit, color="black", linestyle="--", linewidth=0.9)
+            axis.axvline(limit, color=INK, linestyle="--", linewidth=0.9)
             axis.annotate(f"{tier}: {display_number(limit)}", (limit, 0.97), xycoords=("data", "axes fraction"), rotation=90, ha="right", va="top", fontsize=6.5)
         axis.set_title(f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})", fontsize=9)
         axis.set_xlabel(check.unit, fontsize=8)
