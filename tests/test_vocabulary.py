@@ -119,3 +119,23 @@ def test_one_chart_style_across_the_charts(tmp_path):
     legend_texts = [t.get_text() for legend in figure.legends for t in legend.get_texts()]
     assert "qualifies" in legend_texts and "not eligible" in legend_texts
     assert any(t.get_text() == "4" for ax in figure.axes for t in ax.texts)  # the 45V tier line at 4 kg CO2e/kg H2 is labelled
+
+
+def test_compare_chart_names_each_limit_once_in_its_legend():
+    """Two schemes with the same limit (eu-rfnbo and eu-low-carbon, 28.2 g CO2e/MJ, Directive (EU)
+    2018/2001 Art. 29a(1) as amended and Directive (EU) 2024/1788) draw one line, named once in the
+    legend, and no limit label is written over the bars."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from carbonledger import api
+    from carbonledger.io.compare_output import comparison_figure
+
+    shipped = [DEMO / f"{name}.toml" for name in ("grey_smr_ammonia_shipped", "blue_atr_ammonia_shipped")]
+    figure = comparison_figure(api.compare(shipped, boundary="well-to-tank", basis="mj"))
+    axes = figure.axes[0]
+    limits = [line for line in axes.get_lines() if line.get_label().startswith("limit ")]
+    assert len(limits) == len({round(line.get_ydata()[0], 9) for line in limits}) >= 1
+    legend = " ".join(t.get_text() for t in axes.get_legend().get_texts())
+    assert "eu-rfnbo" in legend and "eu-low-carbon" in legend and legend.count("limit 28.2") == 1
+    assert not [t for t in axes.texts if "eu-" in t.get_text()]

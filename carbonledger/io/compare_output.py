@@ -9,7 +9,7 @@ from ..analyses.compare import ComparisonResult
 from .chart_files import write_figure
 from .csv_text import csv_text
 from .labels import gas_name, gwp_name, per_name, stage_name, status_name
-from .palette import CHART_STYLE, STAGE_COLOURS
+from .palette import CHART_STYLE, INK, STAGE_COLOURS
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 
@@ -192,6 +192,7 @@ def comparison_figure(result: ComparisonResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
+    plt.rcParams.update(CHART_STYLE)
     labels = ["\n".join(textwrap.wrap(_chart_text(p.project), 24)) for p in result.projects]  # the project's name, in words
     with_series = bool(monthly_matching(result)[2])
     width = max(7.0, 1.5 * len(labels) + 3.5)
@@ -200,7 +201,6 @@ def comparison_figure(result: ComparisonResult):
         _monthly_panel(monthly, result)
     else:
         figure, axes = plt.subplots(figsize=(width, 5.5), layout="constrained")
-    plt.rcParams.update(CHART_STYLE)
     colours = STAGE_COLOURS
     positions = list(range(len(labels)))
     above = [0.0] * len(labels)
@@ -229,9 +229,15 @@ def comparison_figure(result: ComparisonResult):
             tops[position] = max(tops[position], band.p95)
     for position, project in zip(positions, result.projects, strict=True):
         axes.annotate(display_number(project.value), (position, max(tops[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
-    for limit, text in ((line.limit, _chart_text(line.label)) for line in result.thresholds):
-        axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
-        axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
+    # one line per distinct limit, named in the legend with every scheme that draws it: a label on
+    # the plot would sit over a bar's figure or over another limit's label
+    by_limit: dict[float, list[str]] = {}
+    for line in result.thresholds:
+        by_limit.setdefault(line.limit, []).append(_chart_text(line.label))
+    styles = ("--", ":", "-.", (0, (5, 1, 1, 1)))
+    for number, (limit, texts) in enumerate(sorted(by_limit.items())):
+        named = "\n".join("\n  ".join(textwrap.wrap(text, 38)) for text in texts)
+        axes.axhline(limit, color=INK, linestyle=styles[number % len(styles)], linewidth=1.0, label=f"limit {limit:g}:\n{named}")
     axes.set_xticks(positions, labels, rotation=20, ha="right", fontsize=8)
     axes.set_ylabel(f"{result.unit}, {result.boundary}")
     axes.set_title(f"Carbon intensity by stage, {result.boundary} (GWP100 {result.gwp_basis.upper()})", fontsize=10)
