@@ -22,7 +22,7 @@ from ..io.tables import render as render_score
 from ..model.project import parameter_table
 from ..model.rulebooks import load_schemes
 from ..routes.project import load_project
-from ..routes.starter import normalise_choice, starter_choices, starter_project
+from ..routes.starter import normalise_choice, placeholders_left, starter_choices, starter_project
 from .options import (
     BoundaryOption,
     FactorsOption,
@@ -94,6 +94,17 @@ def score(
     typer.echo(text, nl=False)
     if chart is not None:
         typer.echo(f"wrote {chart}", err=True)
+    if project is not None:
+        warn_placeholders(project)
+
+
+def warn_placeholders(project: Path) -> None:
+    """A project file from `init` whose numbers still carry the "# placeholder" mark scores its
+    starter figures: say so, on stderr (the output itself stays clean for a program to read)."""
+    lines = placeholders_left(project.read_text(encoding="utf-8-sig"))
+    if lines:
+        shown = ", ".join(map(str, lines[:12])) + (", ..." if len(lines) > 12 else "")
+        typer.echo(f"warning: {project}: {len(lines)} numbers are still the starter's placeholders (lines {shown}): replace each with the plant's own figure and delete its '# placeholder' mark", err=True)
 
 
 def params(
