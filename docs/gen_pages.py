@@ -2,7 +2,7 @@
 
 Run before ``mkdocs build --strict`` (``.ci/run`` does; ``docs/hooks.py`` also runs it and sets the
 navigation when mkdocs starts): writes docs/generated/ from the scheme rulebooks
-(factors/schemes), the factor sets (factors/sets), the README's deliverables section, and
+(factors/schemes), the factor sets (factors/sets), and
 
 - one methodology page per stage module (carbonledger/stages) and per delivery leg of the route
   registry: the equations the code computes (``equations.py`` runs the stage functions on
@@ -262,18 +262,27 @@ def methodology_index() -> str:
     return "\n".join(lines) + "\n"
 
 
-def deliverables_page() -> str:
-    readme = (ROOT / "README.md").read_text(encoding="utf-8")
-    match = re.search(r"^## Deliverables.*?(?=^## )", readme, re.M | re.S)
-    body = match.group(0) if match else "## Deliverables\n\n(see the README)\n"
-    return "# " + body[3:].replace("](docs/", "](../")
+DEMO = ROOT / "demo_projects"
+SHIPPED = ("grey_smr_ammonia_shipped", "blue_atr_ammonia_shipped", "green_electrolysis_ammonia_shipped", "green_ammonia_cracked_hydrogen")
+
+
+def demo_pictures() -> None:
+    """The manual's pictures, drawn from the demo projects at every build, so they cannot go stale:
+    the comparison of the four delivered pathways and the chart of one project."""
+    from carbonledger import api
+    from carbonledger.io.compare_output import write_chart
+    from carbonledger.io.score_chart import write_score_chart
+
+    OUT.mkdir(parents=True, exist_ok=True)
+    comparison = api.compare([DEMO / f"{name}.toml" for name in SHIPPED], boundary="well-to-tank", basis="mj")
+    write_chart(comparison, OUT / "compare_demo.svg", force=True)
+    write_score_chart(api.score(DEMO / "blue_atr_ammonia.toml"), OUT / "score_demo.svg", force=True)
 
 
 def pages() -> dict[str, str]:
     """Every generated page: path under docs/ -> Markdown."""
     read = factors_read_in_demos()
     out = {
-        "generated/deliverables.md": deliverables_page(),
         "generated/rulebooks.md": rulebooks_page(),
         "generated/factors.md": factors_page(),
         "generated/methodology/index.md": methodology_index(),
@@ -288,11 +297,27 @@ def nav() -> list:
     """The site's navigation, with every generated page."""
     return [
         {"Home": "index.md"},
-        {"Deliverables": "generated/deliverables.md"},
+        {"Getting started": [{"Quick start": "getting-started/index.md"}, {"Install and check": "getting-started/install.md"}]},
+        {"Your own site": "own-site.md"},
+        {"Reading a verdict": "verdicts.md"},
+        {"Deliverables": [{"The project report": "deliverables/report.md"}, {"The audit workbook": "deliverables/workbook.md"}, {"Charts": "deliverables/charts.md"}, {"The evidence pack": "deliverables/pack.md"}]},
+        {"What-ifs": [
+            {"Comparing pathways": "what-ifs/compare.md"},
+            {"Hour by hour and the operating plan": "what-ifs/matching-and-plan.md"},
+            {"A revised factor set, recalc and history": "what-ifs/factor-revisions.md"},
+            {"Over the operating life": "what-ifs/lifetime.md"},
+            {"How sure: uncertainty": "what-ifs/uncertainty.md"},
+            {"Headroom": "what-ifs/headroom.md"},
+            {"Sensitivity": "what-ifs/sensitivity.md"},
+            {"Portfolios on a cluster": "what-ifs/portfolios.md"},
+        ]},
+        {"File formats": [{"The project file": "formats/project-file.md"}, {"Outputs: JSON and CSV": "formats/outputs.md"}, {"Bad input": "formats/bad-input.md"}]},
         {"What it takes to qualify": "qualify.md"},
         {"A team's ledger": "ledger.md"},
         {"Methodology": [
-            {"Overview": "generated/methodology/index.md"},
+            {"Routes and how results are computed": "methodology/routes.md"},
+            {"Delivery beyond the gate": "methodology/delivery.md"},
+            {"Stages and legs: overview": "generated/methodology/index.md"},
             {"Stages": [{name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"} for name in stage_modules()]},
             {"Delivery legs": [{route.name.replace("_", " ").capitalize(): f"generated/methodology/legs/{route.name}.md"} for route in routes.DELIVERY_LEGS]},
         ]},
@@ -303,6 +328,7 @@ def nav() -> list:
 
 
 def main() -> None:
+    demo_pictures()
     written = 0
     for name, text in pages().items():
         path = DOCS / name

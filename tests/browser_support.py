@@ -38,6 +38,7 @@ class Rendered:
     pdf: Path
     page_requests: list[str]  # URLs the page itself requested (other than the page)
     charts: list[dict]  # every inline SVG chart as laid out: its title and rendered size in CSS pixels
+    measured: dict = None  # the values of the expressions asked for (``render(..., measure=)``)
 
 
 CHART_BOXES = """[...document.querySelectorAll('svg.chart')].map(svg => {
@@ -121,8 +122,10 @@ class Browser:
             self._events.append(self._read_message(timeout_s))
 
     # --- one page -------------------------------------------------------------------------
-    def render(self, html_file: Path, folder: Path) -> Rendered:
-        """Open a file in a new tab: DOM, screenshot at WINDOW, PDF and the requests it made."""
+    def render(self, html_file: Path, folder: Path, *, offline: bool = False, measure: dict[str, str] | None = None) -> Rendered:
+        """Open a file in a new tab: DOM, screenshot at WINDOW, PDF and the requests it made.
+        ``offline``: the tab has no network (Network.emulateNetworkConditions); ``measure``: name ->
+        JavaScript expression evaluated after the load event, returned in ``Rendered.measured``."""
         folder.mkdir(parents=True, exist_ok=True)
         url = html_file.resolve().as_uri()
         target = self.send("Target.createTarget", {"url": "about:blank"})["targetId"]
@@ -130,11 +133,14 @@ class Browser:
         try:
             self.send("Page.enable", session=session)
             self.send("Network.enable", session=session)
+            if offline:
+                self.send("Network.emulateNetworkConditions", {"offline": True, "latency": 0, "downloadThroughput": -1, "uploadThroughput": -1}, session)
             self.send("Emulation.setDeviceMetricsOverride", {"width": WINDOW[0], "height": WINDOW[1], "deviceScaleFactor": 1, "mobile": False}, session)
             self.send("Page.navigate", {"url": url}, session)
             self.wait_for("Page.loadEventFired", session)
             dom = self.send("Runtime.evaluate", {"expression": "document.documentElement.outerHTML", "returnByValue": True}, session)["result"]["value"]
             charts = self.send("Runtime.evaluate", {"expression": CHART_BOXES, "returnByValue": True}, session)["result"]["value"]
+            measured = {name: self.send("Runtime.evaluate", {"expression": expression, "returnByValue": True}, session)["result"].get("value") for name, expression in (measure or {}).items()}
             shot, pdf = folder / "shot.png", folder / "page.pdf"
             shot.write_bytes(base64.b64decode(self.send("Page.captureScreenshot", {"format": "png"}, session)["data"]))
             pdf.write_bytes(base64.b64decode(self.send("Page.printToPDF", {"preferCSSPageSize": True}, session)["data"]))
@@ -146,7 +152,7 @@ class Browser:
         finally:
             self._events = [event for event in self._events if event.get("sessionId") != session]
             self.send("Target.closeTarget", {"targetId": target})
-        return Rendered(dom, shot, pdf, requests, charts)
+        return Rendered(dom, shot, pdf, requests, charts, measured)
 
     def close(self) -> None:
         try:
@@ -203,3 +209,9 @@ def pdf_info(pdf: Path) -> dict[str, str]:
     """pdfinfo (poppler-utils) as a dict: 'Pages', 'Page size', ..."""
     done = subprocess.run(["pdfinfo", str(pdf)], capture_output=True, text=True, check=True)
     return {key.strip(): value.strip() for key, _, value in (line.partition(":") for line in done.stdout.splitlines())}
+
+
+def pdf_text(pdf: Path, page: int) -> str:
+    """The text of one page of a PDF (poppler's pdftotext)."""
+    done = subprocess.run(["pdftotext", "-f", str(page), "-l", str(page), "-layout", str(pdf), "-"], capture_output=True, text=True, check=True)
+    return " ".join(done.stdout.split())

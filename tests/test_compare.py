@@ -56,7 +56,7 @@ def test_compare_json_and_csv_have_a_column_per_project():
     assert out.exit_code == 0, out.output
     lines = out.stdout.splitlines()
     assert lines[0].split(",")[3:] == [p.stem for p in SHIPPED]
-    assert any(line.startswith("check:us-45v,verdict") for line in lines)
+    assert any(line.startswith("check:us-45v,status") for line in lines)
     assert not any(line.startswith("check:eu-rfnbo") for line in lines)
 
 
@@ -82,7 +82,8 @@ def test_png_chart_is_valid_with_one_bar_per_project(tmp_path):
     figure = comparison_figure(compare(SHIPPED, boundary="well-to-tank"))
     axes = figure.axes[0]
     assert all(len(container.patches) == len(SHIPPED) for container in axes.containers)
-    assert [t.get_text() for t in axes.get_xticklabels()] == [p.stem for p in SHIPPED]
+    names = [score.project for score in compare(SHIPPED, boundary="well-to-tank").projects]
+    assert [t.get_text().replace("\n", " ") for t in axes.get_xticklabels()] == names  # each bar named by its project, in words
     assert "kg CO2e/t NH3" in axes.get_ylabel()
 
 
@@ -258,7 +259,7 @@ def test_the_verdict_row_gives_each_checks_status_not_a_bare_pass_or_fail():
     # Art. 2 as amended by 2023/2413): the blue demo's eu-rfnbo verdict is "not eligible", never "FAIL".
     out = run("compare", DEMO / "blue_atr_ammonia.toml", DEMO / "green_electrolysis_ammonia.toml", "--format", "csv", "--scheme", "eu-rfnbo")
     assert out.exit_code == 0, out.output
-    row = next(line for line in out.stdout.splitlines() if line.startswith("check:eu-rfnbo,verdict"))
+    row = next(line for line in out.stdout.splitlines() if line.startswith("check:eu-rfnbo,status"))
     blue, green = row.split(",")[3:5]
     assert blue == "not eligible"
     assert green in ("qualifies", "fails", "undetermined")

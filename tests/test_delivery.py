@@ -377,8 +377,8 @@ def test_unknown_fuel_is_refused_even_at_the_plant_gate(tmp_path):
     assert error.value.field == "shipping.fuel"
 
 
-def test_readme_shipping_example_is_a_valid_section(tmp_path):
-    text = (ROOT / "README.md").read_text(encoding="utf-8")
+def test_manual_shipping_example_is_a_valid_section(tmp_path):
+    text = (ROOT / "docs" / "methodology" / "delivery.md").read_text(encoding="utf-8")
     block = text.split("```toml\n[shipping]\n", 1)[1].split("```", 1)[0]
     result = score(write_project(tmp_path, "\n[shipping]\n" + block))
     assert result.functional_unit == "1 t NH3 delivered at Brannock Haven (invented port)"

@@ -51,7 +51,7 @@ def test_grid_change_moves_only_grid_projects_by_the_hand_computed_amount(grid_u
     hybrid = _rows(result, "vennor_hybrid_hydrogen")
     assert hybrid["us-45v"].old_value == pytest.approx(13.78 * 0.281, rel=1e-12)
     assert hybrid["us-45v"].change == pytest.approx(0.50986, rel=1e-12)
-    assert hybrid["us-45v"].status == "newly fails"
+    assert hybrid["us-45v"].status == "now fails"
 
     # Projects without grid electricity do not move and are not even rescored.
     for stem in ("green_electrolysis_ammonia", "skelmar_green_hydrogen"):
@@ -71,13 +71,13 @@ def test_grid_change_moves_only_grid_projects_by_the_hand_computed_amount(grid_u
 def test_newly_failing_rows_come_first(grid_update):
     result = recalc(load_portfolio([DEMO, PORTFOLIO]), load_factor_set("default-2026"), load_factor_set(str(grid_update)), year=2028)
     statuses = [row.status for row in result.rows]
-    count = statuses.count("newly fails")
+    count = statuses.count("now fails")
     # hybrid hydrogen under 45V. Blue ammonia is not eligible under eu-rfnbo (Directive (EU) 2018/2001
     # Art. 2); the hourly hybrid demo crosses the 45V line on its declared shares ((54 + 1.5) kWh/kg x 25 %
     # grid = 13.875 kWh/kg, x 0.281 = 3.899 kg CO2e/kg H2, x 0.318 = 4.412) but was undetermined before
     # (no construction start declared), never qualifying, so it does not newly fail.
     assert count == 1
-    assert statuses[:count] == ["newly fails"] * count
+    assert statuses[:count] == ["now fails"] * count
 
 
 def test_fast_path_equals_bw2calc_score_project():
@@ -101,16 +101,16 @@ def test_recalc_exit_codes_and_formats(tmp_path):
     args = ["recalc", DEMO, PORTFOLIO, "--from", "default-2026", "--to", "demo-2027-grid-revision", "--year", "2028"]
     plain = run_cli(*args)
     assert plain.exit_code == 0, plain.output
-    assert "NEWLY FAILS" in plain.stdout
+    assert "now fails" in plain.stdout
     failing = run_cli(*args, "--fail-on-new-failures", "--format", "json")
     assert failing.exit_code == 3
     data = json.loads(failing.stdout)
-    assert data["newly_failing"] == 1 and data["rows"][0]["status"] == "newly fails"  # as in test_newly_failing_rows_come_first
+    assert data["newly_failing"] == 1 and data["rows"][0]["status"] == "now fails"  # as in test_newly_failing_rows_come_first
     # the other way round, projects only newly pass: exit 0 even with the flag
     back = run_cli("recalc", DEMO, PORTFOLIO, "--from", "demo-2027-grid-revision", "--to", "default-2026", "--year", "2028", "--fail-on-new-failures", "--format", "csv")
     assert back.exit_code == 0, back.output
     rows = list(csv.DictReader(io.StringIO(back.stdout)))
-    assert not [r for r in rows if r["status"] == "newly fails"]
+    assert not [r for r in rows if r["status"] == "now fails"]
     # the hybrid's 45V value is back under 4 kg (3.87218, test_grid_change_moves_only_grid_projects_by_the_hand_computed_amount),
     # but the portfolio file gives no country of production (45V(c)(2)(B)(i)(I)): it cannot qualify yet, so "now undetermined"
     hybrid = [r for r in rows if r["scheme"] == "us-45v" and "vennor_hybrid" in r["project_file"]]

@@ -188,3 +188,91 @@ def test_spread_section_only_with_uncertainty_and_the_seed_is_stated(tmp_path):
     assert pages[0] == pages[1]
     assert "<strong>300 draws</strong>" in pages[0] and "<strong>seed 11</strong>" in pages[0]
     assert "Hour by hour: matching the electricity" in pages[0]
+
+
+# --- issue 19: a report read at a glance ---------------------------------------------------------
+
+FONT_PX = {"label": 13.0, "value": 12.5, "note": 11.5, "tick": 11.0}  # the report's stylesheet (svg .label, .value, .note, .tick)
+
+
+@pytest.fixture(scope="module")
+def hourly():
+    items = api.report_items([DEMO / "hybrid_hourly_hydrogen.toml"], draws=500, seed=7)
+    return items, render_report(items, generated="2026-12-01", caution=CAUTION)
+
+
+@pytest.fixture(scope="module")
+def portfolio():
+    items = api.report_items([DEMO / "portfolio"])
+    return items, render_report(items, generated="2026-12-01", caution=CAUTION)
+
+
+def text_boxes(svg: str) -> list[tuple[str, float, float, float, float]]:
+    """Every <text> of an SVG as (text, left, top, right, bottom), its width estimated as 0.6 em per
+    character (wider than the average glyph of a sans-serif face, so the estimate errs towards overlap)."""
+    boxes = []
+    for attributes, content in re.findall(r"<text ([^>]*)>(.*?)</text>", svg, re.S):
+        x, y = float(re.search(r'\bx="([-\d.]+)"', attributes).group(1)), float(re.search(r'\by="([-\d.]+)"', attributes).group(1))
+        kind = next((k for k in FONT_PX if re.search(rf'class="[^"]*\b{k}\b', attributes)), "label")
+        size = FONT_PX[kind]
+        label = re.sub(r"<[^>]+>", "", content)
+        width = 0.6 * size * len(label)
+        anchor = re.search(r'text-anchor="(\w+)"', attributes)
+        left = x - width if anchor and anchor.group(1) == "end" else x - width / 2 if anchor and anchor.group(1) == "middle" else x
+        boxes.append((label, left, y - 0.8 * size, left + width, y + 0.2 * size))
+    return boxes
+
+
+@pytest.mark.parametrize("case", ["blue", "hourly", "portfolio"])
+def test_no_label_is_drawn_over_another(case, request):
+    """Two text boxes of one chart never overlap (each chart's <text> elements, estimated boxes)."""
+    _, page = request.getfixturevalue(case)
+    charts = re.findall(r"<svg\b.*?</svg>", page, re.S)
+    assert charts
+    for chart in charts:
+        title = re.search(r"<title[^>]*>(.*?)</title>", chart).group(1)
+        boxes = text_boxes(chart)
+        for i, a in enumerate(boxes):
+            for b in boxes[i + 1:]:
+                overlap = min(a[3], b[3]) - max(a[1], b[1]) > 0.5 and min(a[4], b[4]) - max(a[2], b[2]) > 0.5
+                assert not overlap, (title, a, b)
+
+
+@pytest.mark.parametrize("case", ["blue", "hourly", "portfolio"])
+def test_no_none_and_ticks_in_plain_numbers(case, request):
+    _, page = request.getfixturevalue(case)
+    plain = re.sub(r"<[^>]+>", " ", page)
+    assert not re.search(r"\bNone\b", plain)
+    assert not re.search(r"\bnan\b|\binf\b", plain)
+    ticks = re.findall(r'<text [^>]*class="tick"[^>]*>(.*?)</text>', page)
+    assert ticks
+    for tick in ticks:  # a plain number: no trailing zeros after the point (14,900 not 14,900.0; 0 not 0.000), or a percentage, hour or month
+        assert re.fullmatch(r"\u2212?\d{1,3}(,\d{3})*(\.\d*[1-9])?|\d+%|\d\d:00|[A-Z][a-z]{2} \d\d|\d{4}", tick) or re.search(r"\.\d*[1-9]$", tick), tick
+
+
+def test_at_a_glance_one_row_per_scheme_with_its_deciding_reason(blue):
+    items, page = blue
+    glance = re.search(r'<section class="sheet" id="p1-glance".*?</section>', page, re.S).group(0)
+    checks = items[0].result.checks
+    assert glance.count('<tr class="verdict">') == len(checks) and glance.count('<tr class="why">') == len(checks)
+    for check in checks:
+        first = check.reasons[0]
+        result, rule = first.split(": ", 1)
+        assert result in ("met", "not met", "cannot be judged", "note")
+        # the deciding reason is the first one, in one line, without its source
+        shown = re.sub(r"<[^>]+>", "", re.search(rf'<td colspan="6" class="deciding" title="{re.escape(first[:30])}[^"]*">(.*?)</td>', glance.replace("&#x27;", "'"), re.S).group(1))
+        assert shown.startswith(result + ":") and "[" not in shown
+    assert "rules read on the dates of" in glance  # the assessment year
+
+
+def test_against_each_scheme_reasons_are_a_table_citing_each_source_once(blue):
+    items, page = blue
+    schemes = re.search(r'<section class="sheet flows" id="p1-schemes".*?</section>', page, re.S).group(0)
+    tables = re.findall(r'<table class="reasons">.*?</table>', schemes, re.S)
+    checks = items[0].result.checks
+    assert len(tables) == len(checks)
+    for check, table in zip(checks, tables, strict=True):
+        assert "<th scope=\"col\">Rule</th>" in table and "Result" in table and "Article" in table
+        sources = {reason.rsplit("[", 1)[1].rstrip("]") if reason.endswith("]") else "" for reason in check.reasons}
+        cells = re.findall(r'<td class="src" rowspan="\d+" title="([^"]*)"', table)
+        assert len(cells) == len(set(cells)) == len(sources)  # each source once, however many rules rest on it

@@ -264,7 +264,7 @@ def test_every_rule_names_its_source_and_grade_and_schemes_json_shows_them():
 def test_cli_shows_status_year_and_deciding_reason_in_every_format():
     table = run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2027", "--no-ledger")
     assert table.exit_code == 0, table.output
-    assert "NOT ELIGIBLE" in table.stdout and "eu-rfnbo: not eligible, first reason: not met: route steam_methane_reforming" in table.stdout
+    assert "eu-rfnbo: not eligible, because not met: route steam_methane_reforming" in table.stdout  # the deciding reason first
     data = json.loads(run_cli("score", BLUE, "--scheme", "eu-rfnbo", "--year", "2027", "--no-ledger", "--format", "json").stdout)
     only = data["checks"][0]
     assert data["assessment_year"] == 2027 and only["assessment_period"] == "2027"

@@ -61,7 +61,7 @@ def assert_agrees(values_workbook, result) -> None:
         assert close(row[9].value, check.value), check.scheme
         assert close(row[10].value, check.limit)
         assert row[11].value == VERDICT_WORDS[check.status]  # live formula within the rules read at writing
-        assert row[16].value == check.status and row[17].value.startswith(check.reasons[0])
+        assert row[16].value == VERDICT_WORDS[check.status] and row[17].value.startswith(check.reasons[0])
         if check.margin is None:  # not eligible: no margin (the verdict carries no threshold judgement)
             assert row[12].value in (None, "")
         else:

@@ -115,6 +115,10 @@ def test_libreoffice_prints_every_sheet_readable_on_a4_landscape(workbook_file, 
     text = subprocess.run(["pdftotext", str(pdf), "-"], capture_output=True, text=True, check=True).stdout
     results_pages = [page for page in text.split("\f") if re.search(r"Results, page \d+ of", page)]
     assert 1 <= len(results_pages) <= 3
+    # the footer whole on every page, and the Results chart inside the print area (its title is printed)
+    assert len(re.findall(r", page \d+ of \d+", text)) == pages
+    assert "Screening estimate, not a certification" in text
+    assert any("Contributions by stage" in page for page in results_pages)
     lines = {line.strip() for page in results_pages for line in page.splitlines()}
     result = score(BLUE)
     for check in result.checks:

@@ -103,4 +103,4 @@ def labelled(ws, column: int = 2) -> dict[str, object]:
     return found
 
 # the live verdict formula's words for each engine status (io/workbook/writer.verdict_formula)
-VERDICT_WORDS = {"qualifies": "pass", "fails": "fail", "not_eligible": "not eligible", "undetermined": "undetermined"}
+VERDICT_WORDS = {"qualifies": "qualifies", "fails": "fails", "not_eligible": "not eligible", "undetermined": "undetermined"}

@@ -32,7 +32,7 @@ from ..routes.project import load_project
 from .electricity_series import project_series
 from .matching import matched_checks, series_matched_periods
 
-STATUSES = ("newly fails", "newly passes", "now undetermined", "now not eligible", "still fails", "still passes", "still not eligible", "still undetermined")
+STATUSES = ("now fails", "now qualifies", "now undetermined", "now not eligible", "still fails", "still qualifies", "still not eligible", "still undetermined")  # how a check moved
 
 
 @dataclass(frozen=True)
@@ -169,20 +169,17 @@ class Recalc:
 
     @property
     def newly_failing(self) -> list[RecalcRow]:
-        return [row for row in self.rows if row.status == "newly fails"]
+        return [row for row in self.rows if row.status == "now fails"]
 
 
 def status_of(old_status: str, new_status: str) -> str:
-    """The change of a verdict: a check whose value met the limit before (qualifies or undetermined)
-    and now fails 'newly fails'; one that now qualifies 'newly passes'; another change 'now ...';
-    no change 'still ...'."""
-    words = {Status.QUALIFIES: "passes", Status.FAILS: Status.FAILS, Status.NOT_ELIGIBLE: "not eligible", Status.UNDETERMINED: Status.UNDETERMINED}
+    """How a check moved: a check whose value met the limit before (qualifies or undetermined) and now
+    fails 'now fails'; one that now qualifies 'now qualifies'; another change 'now ...'; no change 'still ...'."""
+    words = {Status.QUALIFIES: "qualifies", Status.FAILS: "fails", Status.NOT_ELIGIBLE: "not eligible", Status.UNDETERMINED: "undetermined"}
     if old_status == new_status:
         return f"still {words.get(new_status, new_status)}"
     if new_status == Status.FAILS and old_status in (Status.QUALIFIES, Status.UNDETERMINED):
-        return "newly fails"
-    if new_status == Status.QUALIFIES:
-        return "newly passes"
+        return "now fails"
     if new_status == Status.FAILS:
         return "still fails"
     return f"now {words.get(new_status, new_status)}"
@@ -226,7 +223,7 @@ def recalc(
 ) -> Recalc:
     """Rescore a portfolio under a new factor set; one row per project and scheme.
 
-    Rows come newly failing first, then newly passing, then the rest in project order.
+    Rows come "now fails" first, then "now qualifies", then the rest in project order.
     ``mapper`` and ``chunks`` spread the pieces over workers (see ``score_portfolio``);
     ``run_piece`` is what each worker runs on its piece (``recalc_piece``, or a function that
     also records the piece's results, see ``api.recalc``).
@@ -264,6 +261,6 @@ def recalc(
                     new_status=after.status,
                 )
             )
-    order = {"newly fails": 0, "newly passes": 1}
+    order = {"now fails": 0, "now qualifies": 1}
     rows.sort(key=lambda row: order.get(row.status, 2))  # stable: project order kept within each group
     return Recalc(old_set.name, old_set.sha256, new_set.name, new_set.sha256, changed, rows, old_scores, new_scores, len(to_rescore))

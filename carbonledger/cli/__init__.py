@@ -18,9 +18,10 @@ from pathlib import Path
 from typing import Annotated
 
 import typer
-from typer.core import TyperCommand, TyperGroup
+from typer.core import TyperCommand
 
 from ..about import __version__
+from .options import WordsGroup, words_for_types
 
 # name -> (module of carbonledger.cli, function); "factors" is a group: the module's ``app``
 COMMANDS = {
@@ -38,6 +39,8 @@ COMMANDS = {
     "qualify": ("qualify", "qualify"),
     "sensitivity": ("uncertainty", "sensitivity"),
     "init": ("project_commands", "init"),
+    "pack": ("pack", "pack"),
+    "verify": ("pack", "verify"),
     "factors": ("factors", "factors"),
     "ledger": ("ledger", "ledger"),
 }
@@ -52,7 +55,7 @@ def load_command(name: str):
     if name in GROUPS:
         command = typer.main.get_command(module.app)
     else:
-        single = typer.Typer(rich_markup_mode=None, add_completion=False)
+        single = typer.Typer(cls=WordsGroup, rich_markup_mode=None, add_completion=False)
         single.command(name)(getattr(module, function_name))
         command = typer.main.get_command(single)
     command.name = name
@@ -67,7 +70,7 @@ def docstring(name: str) -> str:
     return next(ast.get_docstring(node) or "" for node in tree.body if isinstance(node, ast.FunctionDef) and node.name == function_name)
 
 
-class LazyGroup(TyperGroup):
+class LazyGroup(WordsGroup):
     """The root group: commands listed from ``COMMANDS``, each loaded when it is invoked or asked for help."""
 
     def list_commands(self, ctx) -> list[str]:
@@ -75,7 +78,10 @@ class LazyGroup(TyperGroup):
 
     def get_command(self, ctx, cmd_name: str):
         if cmd_name in COMMANDS and cmd_name not in self.commands:
-            return load_command(cmd_name)
+            command = load_command(cmd_name)
+            if not hasattr(command, "commands"):
+                words_for_types(command)
+            return command
         return super().get_command(ctx, cmd_name)
 
     def format_commands(self, ctx, formatter) -> None:

@@ -12,10 +12,11 @@ from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.labels import factor_grades_sentence
 from ..io.portfolio_output import diff_rows, diff_table, sets_table
+from ..io.tables import plain_table
 from ..model.factors import FACTOR_COLUMNS, diff_sets, factor_row, load_factor_set, set_listing
 from ..model.grades import GRADE_MEANING, Grade, grade_kind, grades_of
 from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
-from .options import FactorsOption, FormatOption, OutputFormat, fail, render
+from .options import FactorsOption, FormatOption, OutputFormat, WordsGroup, fail, render
 
 
 def _listed(factor) -> dict:
@@ -37,7 +38,34 @@ def factors_list(
         factor_set = load_factor_set(factors)
     except InputError as error:
         fail(error)
-    rows = [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)]
+    show_factors(factor_set, [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)], output_format)
+
+
+def matches(factor, words: list[str]) -> bool:
+    """Every word of the search appears (case ignored) in the factor's id, region, source, table or note."""
+    text = " ".join(str(part) for part in (factor.id.replace("_", " "), factor.id, factor.region, factor.source, factor.table, factor.note)).lower()
+    return all(word in text for word in words)
+
+
+def factors_search(
+    text: Annotated[str, typer.Argument(help="Words to find in a factor's id, region, source or note, e.g. 'germany 2024' or 'egrid erct'.")],
+    factors: FactorsOption = "default-2026",
+    output_format: FormatOption = OutputFormat.table,
+) -> None:
+    """Find factors by words in their id, region, source or note (every word must appear, case ignored)."""
+    try:
+        factor_set = load_factor_set(factors)
+    except InputError as error:
+        fail(error)
+    words = text.lower().split()
+    rows = [f for _, f in sorted(factor_set.factors.items()) if matches(f, words)]
+    if not rows:
+        typer.echo(f"No factor of set {factor_set.name} mentions '{text}' in its id, region, source or note; `carbonledger factors list` lists them all.", err=True)
+    show_factors(factor_set, rows, output_format)
+
+
+def show_factors(factor_set, rows: list, output_format: OutputFormat) -> None:
+    """The factors of a list or a search, in the chosen format, with the caution and the from-memory flags."""
     bases = sorted({accounting_basis(f.id) for f in rows} - {""})
     basis_note = (
         "Electricity accounting: electricity.grid.* rows are location-based, electricity.residual_mix.* rows are "
@@ -47,13 +75,11 @@ def factors_list(
     )
 
     def table() -> str:
-        width = max((len(f.id) for f in rows), default=10)
-        grade_width = max((len(f.grade.value) for f in rows), default=5)
-        lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256})"]
-        lines += [f"{f.id:<{width}}  {f.value:>10g} {f.unit:<16} {f.grade.value:<{grade_width}}  {f.source[:60]}" for f in rows]
+        head = f"factor set {factor_set.name} (sha256 {factor_set.sha256})"
+        body = plain_table(["id", "value", "unit", "source grade", "source"], [[f.id, f"{f.value:g}", f.unit, f.grade.value, f.source] for f in rows], {"value"}, wrap={"unit", "source"})
         legend = f"Source grades: {'; '.join(f'{g.value}: {GRADE_MEANING[g]}' for g in Grade)}."
         summary = factor_grades_sentence(grades_of(rows), len(rows)).replace("factors used", "factors listed")
-        return "\n".join(lines + [summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
+        return "\n".join([head, body.rstrip("\n"), summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
 
     def json_text() -> str:
         return strict_json(
@@ -194,9 +220,10 @@ def factors_grades(
     )
 
 
-app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, add_completion=False)
+app = typer.Typer(cls=WordsGroup, no_args_is_help=True, rich_markup_mode=None, add_completion=False)
 app.callback()(factors)
 app.command("list")(factors_list)
+app.command("search")(factors_search)
 app.command("show")(factors_show)
 app.command("sets")(factors_sets)
 app.command("diff")(factors_diff)

@@ -17,7 +17,7 @@ from ..io.files import atomic_write
 from ..io.ledger import copy_ledger, read_records, record_filter, upgrade_ledger
 from ..io.ledger_store import locate
 from ..io.portfolio_output import EXPORT_HEADER, export_rows
-from .options import ForceOption, LedgerOption, SinceOption, UntilOption, UserOption, end_of, fail
+from .options import ForceOption, LedgerOption, SinceOption, UntilOption, UserOption, WordsGroup, end_of, fail
 
 LedgerArgument = Annotated[Optional[str], typer.Argument(help="An SQLite file or a postgresql:// URL; default $CARBONLEDGER_LEDGER or the file in the user's data folder.")]
 
@@ -84,7 +84,7 @@ def ledger() -> None:
     """The run ledger: create or upgrade it, export its records, copy it to another ledger."""
 
 
-app = typer.Typer(no_args_is_help=True, rich_markup_mode=None, add_completion=False)
+app = typer.Typer(cls=WordsGroup, no_args_is_help=True, rich_markup_mode=None, add_completion=False)
 app.callback()(ledger)
 app.command("upgrade")(upgrade)
 app.command("export")(export)

@@ -13,15 +13,16 @@ from ..core.results import strict_json
 from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
+from ..io.labels import electricity_rule_name, gwp_name
 from ..io.ledger import ledger_for_run, record_run
 from ..io.portfolio_output import lifetime_csv, lifetime_json, lifetime_table
 from ..io.score_chart import write_score_chart
+from ..io.tables import plain_table, score_csv
 from ..io.tables import render as render_score
-from ..io.tables import score_csv
 from ..model.project import parameter_table
 from ..model.rulebooks import load_schemes
 from ..routes.project import load_project
-from ..routes.starter import normalise_choice, starter_choices, starter_project
+from ..routes.starter import normalise_choice, placeholders_left, starter_choices, starter_project
 from .options import (
     BoundaryOption,
     FactorsOption,
@@ -93,6 +94,17 @@ def score(
     typer.echo(text, nl=False)
     if chart is not None:
         typer.echo(f"wrote {chart}", err=True)
+    if project is not None:
+        warn_placeholders(project)
+
+
+def warn_placeholders(project: Path) -> None:
+    """A project file from `init` whose numbers still carry the "# placeholder" mark scores its
+    starter figures: say so, on stderr (the output itself stays clean for a program to read)."""
+    lines = placeholders_left(project.read_text(encoding="utf-8-sig"))
+    if lines:
+        shown = ", ".join(map(str, lines[:12])) + (", ..." if len(lines) > 12 else "")
+        typer.echo(f"warning: {project}: {len(lines)} numbers are still the starter's placeholders (lines {shown}): replace each with the plant's own figure and delete its '# placeholder' mark", err=True)
 
 
 def params(
@@ -108,8 +120,8 @@ def params(
     rows = parameter_table(model)
 
     def table() -> str:
-        width = max(len(p) for p, *_ in rows)
-        return "\n".join(f"{path:<{width}}  {value!s:<40} {unit}".rstrip() for path, value, unit, _ in rows)
+        shown = [[path, "not given" if value is None or value == "" else str(value), unit, description] for path, value, unit, description in rows]
+        return plain_table(["parameter", "value", "unit", "meaning"], shown, wrap={"value", "unit", "meaning"})
 
     typer.echo(
         render(
@@ -135,8 +147,8 @@ def schemes(output_format: FormatOption = OutputFormat.table) -> None:
             tiers = "; ".join(f"{'<=' if t.inclusive else '<'} {t.limit:g}: {t.tier}" for t in sorted(s.thresholds, key=lambda t: -t.limit))
             lines += [
                 f"{s.id}{' *' if s.from_memory or any(t.from_memory for t in s.thresholds) else ''}: {s.name}",
-                f"    products {', '.join(s.products)}; limits {s.quantity} [{s.unit}] on {s.basis.replace('_', ' ')}; boundary {s.boundary}",
-                f"    GWP100 {s.gwp.upper()}; electricity {s.electricity.replace('_', ' ')}; thresholds {tiers}",
+                f"    products {', '.join(s.products)}; limits in {s.unit} of the {s.basis.replace('_', ' ')} product; boundary {s.boundary}",
+                f"    GWP100 {gwp_name(s.gwp)}; electricity: {electricity_rule_name(s.electricity)}; thresholds {tiers}",
                 f"    source: {s.document}",
             ]
             if s.version:

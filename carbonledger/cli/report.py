@@ -11,8 +11,9 @@ from .. import api
 from ..about import CAUTION
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, check_draws
 from ..errors import InputError
+from ..io.ledger import ledger_for_run, record_run
 from ..io.report import PAPERS, print_pdf, render_report, write_report
-from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, SchemeOption, SetOption, YearOption, check_output_path, fail
+from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, SchemeOption, SetOption, YearOption, check_output_path, fail
 
 
 def report(
@@ -30,9 +31,12 @@ def report(
     draws: Annotated[int, typer.Option("--draws", help="Monte Carlo draws for a project with an [uncertainty] table.")] = DEFAULT_DRAWS,
     seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}; printed in the report).")] = DEFAULT_SEED,
     levers: Annotated[Optional[Path], typer.Option("--levers", help="Levers TOML file: add what it takes to qualify (docs/qualify.md).")] = None,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
 ) -> None:
     """Write the project report: summary and verdicts, stages and gases, scheme limits, hourly matching, spread of the result, lifetime, inputs, factors and their sources."""
     try:
+        where = ledger_for_run(ledger, not no_ledger)
         if output.suffix.lower() not in (".html", ".htm"):
             raise InputError(output, "--output", f"a file ending in .html, got '{output.suffix or 'no suffix'}'")
         check_draws(draws, seed)  # before any work, even when no project has an [uncertainty] table
@@ -49,6 +53,8 @@ def report(
         if pdf is not None:
             print_pdf(render_report(items, generated=generated, caution=CAUTION, paper=paper.lower()), pdf, force=force)
         write_report(render_report(items, generated=generated, caution=CAUTION), output, force=force)
+        if where is not None:  # which figures went into which report: `history` lists the report run
+            record_run("report", [item.result for item in items], ledger=where)
     except InputError as error:
         fail(error)
     typer.echo(f"wrote {output}" + (f" and {pdf}" if pdf is not None else ""), err=True)

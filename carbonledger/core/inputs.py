@@ -19,7 +19,7 @@ from ..model.reference import (
     hydrogen_latent_heat,
     molar_mass,
 )
-from ..model.units import UnitMismatch, conversion_factor
+from ..model.units import UnitMismatch, conversion_factor, spelling_hint
 
 
 def close_factor_ids(factor_id: str, known_ids) -> list[str]:
@@ -55,8 +55,8 @@ class NumericInputs:
             return row.value * conversion_factor(row.unit, unit)
         except UnitMismatch as error:
             if where != "factor":  # the project named a factor of the wrong kind: blame the project
-                raise InputError(self.source, where, f"a factor id whose unit converts to {unit}; '{factor_id}' is in {row.unit}") from None
-            raise InputError(row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}") from None
+                raise InputError(self.source, where, f"a factor id whose unit converts to {unit}; '{factor_id}' is in {row.unit}{spelling_hint(row.unit)}") from None
+            raise InputError(row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}{spelling_hint(row.unit)}") from None
 
     def factor_unit(self, factor_id: str, where: str = "factor") -> str:
         return self._row(factor_id, where).unit

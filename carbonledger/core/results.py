@@ -1,7 +1,7 @@
 """The result of scoring a project: everything an output needs, so outputs never recompute.
 
 Pydantic models at the output edge; ``ScoreResult.model_dump(mode="json")`` is the stable
-JSON documented in the README.
+JSON documented in the manual (docs/formats/outputs.md).
 """
 
 from __future__ import annotations

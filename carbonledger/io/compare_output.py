@@ -2,12 +2,15 @@
 
 from __future__ import annotations
 
+import textwrap
 from pathlib import Path
 
 from ..analyses.compare import ComparisonResult
 from ..model.grades import GRADE_BY_WORDS, Grade
 from .chart_files import write_figure
 from .csv_text import csv_text
+from .labels import gas_name, gwp_name, per_name, stage_name, status_name
+from .palette import CHART_STYLE, INK, STAGE_COLOURS
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 
@@ -48,7 +51,7 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
         rows += [
             (f"check:{scheme}", "value", unit, [c.value if c else None for c in checks]),
             (f"check:{scheme}", "limit", unit, [c.limit if c else None for c in checks]),
-            (f"check:{scheme}", "verdict", "", [c.status.replace("_", " ") if c else "n/a" for c in checks]),
+            (f"check:{scheme}", "status", "", [status_name(c.status) if c else "n/a" for c in checks]),
             (f"check:{scheme}", "margin", unit, [c.margin if c else None for c in checks]),
             (f"check:{scheme}", "tier", "", [(c.tier or None) if c else "n/a" for c in checks]),
         ]
@@ -81,23 +84,32 @@ def comparison_csv(result: ComparisonResult) -> str:
 def render_comparison(result: ComparisonResult) -> str:
     from rich.table import Table
 
-    console = plain_console(max(110, 34 + 22 * len(result.projects)))
-    console.print(f"Comparison: boundary {result.boundary}, basis {result.unit}, GWP100 {result.gwp_basis.upper()}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    console = plain_console()
+    console.print(f"Comparison: boundary {result.boundary}, basis {result.unit}, GWP100 {gwp_name(result.gwp_basis)}, factors {result.factor_set} (sha256 {result.factor_set_sha256[:12]})")
+    console.print("Projects: " + "; ".join(f"{p.project} ({Path(p.project_file).name})" for p in result.projects))
     table = Table(show_header=True, show_lines=False)
     table.add_column("")
-    table.add_column("unit")
-    for project in result.projects:
-        table.add_column(_label(project), justify="right", overflow="fold")
+    table.add_column("unit", overflow="fold")
+    for project in result.projects:  # headed by the project's name (its file is in the JSON and CSV)
+        table.add_column(project.project, justify="right", overflow="fold")
     section_titles = {"project": None, "total": None, "basis": None}
     last = None
     for section, key, unit, values in comparison_rows(result):
+        if (section, key) == ("project", "name"):  # the column heads
+            continue
         group = section.split(":")[0]
         if group != last and group not in section_titles:
             table.add_section()
         last = group
         name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
         if section == "intensity":
-            name = "per " + key.split("_per_")[1].replace("_", " ")
+            name = "per " + per_name(key)
+        if section == "by_stage":
+            name = stage_name(key)
+        if section == "by_gas":
+            name = gas_name(key)
+        if section == "basis":
+            name = f"on the common basis (per {per_name(key)})"
         if section == "uncertainty":
             name = {"p5": "5th percentile", "p50": "median of draws", "mean": "mean of draws", "p95": "95th percentile"}.get(key, key)
         cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
@@ -149,10 +161,9 @@ def monthly_matching(result: ComparisonResult) -> tuple[str, list[str], dict[str
 
 def _monthly_panel(axes, result: ComparisonResult) -> None:
     """Grouped monthly bars: each project's matched electricity (solid), its unmatched (grid) part stacked above (hatched)."""
-    import matplotlib.pyplot as plt
 
     scheme, months, by_project = monthly_matching(result)
-    colours = plt.get_cmap("tab10").colors
+    colours = STAGE_COLOURS
     width = 0.8 / len(by_project)
     for number, (label, (matched, unmatched)) in enumerate(by_project.items()):
         positions = [index - 0.4 + width * (number + 0.5) for index in range(len(months))]
@@ -178,7 +189,8 @@ def comparison_figure(result: ComparisonResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    labels = [_label(p) for p in result.projects]
+    plt.rcParams.update(CHART_STYLE)
+    labels = ["\n".join(textwrap.wrap(p.project, 24)) for p in result.projects]  # the project's name, in words
     with_series = bool(monthly_matching(result)[2])
     width = max(7.0, 1.5 * len(labels) + 3.5)
     if with_series:
@@ -186,14 +198,14 @@ def comparison_figure(result: ComparisonResult):
         _monthly_panel(monthly, result)
     else:
         figure, axes = plt.subplots(figsize=(width, 5.5), layout="constrained")
-    colours = plt.get_cmap("tab20").colors
+    colours = STAGE_COLOURS
     positions = list(range(len(labels)))
     above = [0.0] * len(labels)
     below = [0.0] * len(labels)
     for number, stage in enumerate(result.stages):
         values = [p.by_stage.get(stage, 0.0) for p in result.projects]
         bottoms = [a if v >= 0 else b for v, a, b in zip(values, above, below, strict=True)]
-        bars = axes.bar(positions, values, bottom=bottoms, width=0.6, label=stage.replace("_", " "), color=colours[number % len(colours)])
+        bars = axes.bar(positions, values, bottom=bottoms, width=0.6, label=stage_name(stage), color=colours[number % len(colours)])
         for index, patch in enumerate(bars.patches):
             patch.set_gid(f"bar-{index}-{stage}")
         above = [a + max(v, 0.0) for v, a in zip(values, above, strict=True)]
@@ -214,9 +226,15 @@ def comparison_figure(result: ComparisonResult):
             tops[position] = max(tops[position], band.p95)
     for position, project in zip(positions, result.projects, strict=True):
         axes.annotate(display_number(project.value), (position, max(tops[position], project.value)), ha="center", va="bottom", fontsize=8, xytext=(0, 2), textcoords="offset points")
-    for limit, text in ((line.limit, line.label) for line in result.thresholds):
-        axes.axhline(limit, color="black", linestyle="--", linewidth=0.9)
-        axes.annotate(text, (0.005, limit), xycoords=("axes fraction", "data"), ha="left", va="bottom", fontsize=7.5, bbox={"facecolor": "white", "edgecolor": "none", "alpha": 0.8, "pad": 1})
+    # one line per distinct limit, named in the legend with every scheme that draws it: a label on
+    # the plot would sit over a bar's figure or over another limit's label
+    by_limit: dict[float, list[str]] = {}
+    for line in result.thresholds:
+        by_limit.setdefault(line.limit, []).append(line.label)
+    styles = ("--", ":", "-.", (0, (5, 1, 1, 1)))
+    for number, (limit, texts) in enumerate(sorted(by_limit.items())):
+        named = "\n".join("\n  ".join(textwrap.wrap(text, 38)) for text in texts)
+        axes.axhline(limit, color=INK, linestyle=styles[number % len(styles)], linewidth=1.0, label=f"limit {limit:g}:\n{named}")
     axes.set_xticks(positions, labels, rotation=20, ha="right", fontsize=8)
     axes.set_ylabel(f"{result.unit}, {result.boundary}")
     axes.set_title(f"Carbon intensity by stage, {result.boundary} (GWP100 {result.gwp_basis.upper()})", fontsize=10)

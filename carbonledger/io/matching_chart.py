@@ -10,6 +10,7 @@ import numpy as np
 from ..analyses.matching import unmatched_share_by_hour_and_month
 from ..errors import InputError
 from .chart_files import write_figure
+from .palette import CHART_STYLE, MATCHED, UNMATCHED, ramp_colormap
 
 
 def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray, title: str):
@@ -18,6 +19,7 @@ def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.nda
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
+    plt.rcParams.update(CHART_STYLE)
     names, share = unmatched_share_by_hour_and_month(local, load_kwh, matched_kwh)
     months = local.astype("datetime64[M]")
     _, column = np.unique(months, return_inverse=True)
@@ -25,13 +27,13 @@ def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.nda
     matched = np.bincount(column, matched_kwh) / 1000.0
     figure, (bars, heat) = plt.subplots(1, 2, figsize=(12, 4.8), layout="constrained")
     positions = np.arange(len(names))
-    bars.bar(positions, matched, color="#3b7d4f", label="matched")
-    bars.bar(positions, use - matched, bottom=matched, color="#b9b9b9", label="unmatched (grid)")
+    bars.bar(positions, matched, color=MATCHED, label="matched")
+    bars.bar(positions, use - matched, bottom=matched, color=UNMATCHED, label="unmatched (grid)")
     bars.set_xticks(positions, names, rotation=60, ha="right", fontsize=7)
     bars.set_ylabel("electricity use, MWh")
     bars.legend(fontsize=8)
     bars.set_title("Electricity use by month", fontsize=10)
-    image = heat.imshow(share, aspect="auto", origin="lower", cmap="magma_r", vmin=0, vmax=1, interpolation="nearest")
+    image = heat.imshow(share, aspect="auto", origin="lower", cmap=ramp_colormap(), vmin=0, vmax=1, interpolation="nearest")
     heat.set_xticks(positions, names, rotation=60, ha="right", fontsize=7)
     heat.set_yticks(range(0, 24, 3))
     heat.set_ylabel("local hour of day")

@@ -10,7 +10,8 @@ from dataclasses import asdict
 from ..about import CAUTION
 from ..core.results import strict_json
 from .csv_text import csv_text
-from .tables import display_number
+from .labels import status_name
+from .tables import display_number, plain_table
 
 FROM_MEMORY_RULEBOOK = "* rulebook or threshold not yet verified against the source document"
 
@@ -26,15 +27,6 @@ def _shortened(text: str, limit: int) -> str:
     body, bracket, grade = text.rpartition(" [")
     tail = bracket + grade if bracket else ""
     return (body if bracket else text)[: max(0, limit - len(tail) - 3)] + "..." + tail
-
-
-def _table(headers: list[str], rows: list[list[str]], right: set[str] = frozenset()) -> str:
-    widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
-
-    def line(cells):
-        return "  ".join(c.rjust(w) if h in right else c.ljust(w) for c, w, h in zip(cells, widths, headers, strict=True)).rstrip()
-
-    return "\n".join([line(headers), line(["-" * w for w in widths])] + [line(r) for r in rows]) + "\n"
 
 
 # --- recalc ------------------------------------------------------------------------------------
@@ -75,22 +67,25 @@ def recalc_table(recalc) -> str:
         f"{len(recalc.changed_factors)} factor rows differ; {rescored} projects use one of them and were rescored, "
         f"the others kept their result\n\n"
     )
-    rows = [
-        [
-            row.status.upper() if row.status.startswith("newly") else row.status,
-            row.project,
-            row.scheme + (" *" if row.rulebook_from_memory else ""),
-            display_number(row.old_value),
-            display_number(row.new_value),
-            f"{row.change:+.4g}",
-            row.unit,
-            display_number(row.limit),
+    # one table per change of status, "now fails" first: a status column would leave no room for the project's name
+    body = ""
+    for status in dict.fromkeys(row.status for row in recalc.rows):
+        rows = [
+            [
+                row.project,
+                row.scheme + (" *" if row.rulebook_from_memory else ""),
+                display_number(row.old_value),
+                display_number(row.new_value),
+                f"{row.change:+.4g}",
+                row.unit,
+                display_number(row.limit),
+            ]
+            for row in recalc.rows
+            if row.status == status
         ]
-        for row in recalc.rows
-    ]
-    body = _table(["status", "project", "scheme", "old", "new", "change", "unit", "limit"], rows, {"old", "new", "change", "limit"})
+        body += f"{status} ({len(rows)})\n" + plain_table(["project", "scheme", "old", "new", "change", "unit", "limit"], rows, {"old", "new", "change", "limit"}, wrap={"project", "unit"}) + "\n"
     newly = recalc.newly_failing
-    tail = f"\n{len(newly)} project-scheme pairs newly fail" + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "") + "\n"
+    tail = f"\n{len(newly)} project-scheme pairs now fail" + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "") + "\n"
     flags = (FROM_MEMORY_RULEBOOK + "\n" if any(row.rulebook_from_memory for row in recalc.rows) else "") + _flagged_factors(recalc.from_memory["factors"]) + "\n"
     return head + body + tail + flags + f"Caution: {CAUTION}\n"
 
@@ -99,8 +94,8 @@ def recalc_table(recalc) -> str:
 
 
 def sets_table(sets: list[dict]) -> str:
-    rows = [[s["name"], s["date"], s["sha256"][:16], s["base"] or "-", s["description"][:70] + ("..." if len(s["description"]) > 70 else "")] for s in sets]
-    return _table(["name", "date", "sha256", "base", "description"], rows)
+    rows = [[s["name"], s["date"], s["sha256"][:12], s["base"] or "-", s["description"][:70] + ("..." if len(s["description"]) > 70 else "")] for s in sets]
+    return plain_table(["name", "date", "sha256", "base", "description"], rows, wrap={"description"})  # the start of the sha256 (JSON and CSV: all 64 characters)
 
 
 def diff_rows(changes) -> list[dict]:
@@ -132,7 +127,7 @@ def diff_table(old_name: str, new_name: str, changes) -> str:
         for r in diff_rows(changes)
     ]
     head = f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, {sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} removed\n"
-    body = _table(["kind", "id", "old", "new", "unit", "source [source grade]"], rows, {"old", "new"}) if rows else ""
+    body = plain_table(["kind", "id", "old", "new", "unit", "source [source grade]"], rows, {"old", "new"}, wrap={"id", "unit", "source [source grade]"}) if rows else ""
     return head + body + f"Caution: {CAUTION}\n"
 
 
@@ -189,14 +184,14 @@ def lifetime_table(result) -> str:
     if result.time_series:
         lines.append(f"electricity time series: {result.time_series}; scheme values matched under each year's rule")
     lines.append("")
-    headers = ["year", "stack age", "efficiency", "output t", "grid", f"total {result.unit}"] + [f"{s.scheme} [{s.unit}]" for s in schemes]
-    rows = []
-    for y in result.years:
-        rows.append(
-            [str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction:.3f}", f"{y.output_t:,.0f}", "-" if y.grid_factor is None else f"{y.grid_factor:g}", display_number(y.total)]
-            + [display_number(y.scheme_values[s.scheme]) + YEAR_MARKS.get(y.statuses.get(s.scheme, ""), "") for s in schemes]
-        )
-    lines.append(_table(headers, rows, set(headers) - {"year"}))
+    headers = ["year", "stack age", "efficiency", "output t", "grid", f"total {result.unit}"]
+    rows = [[str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction:.3f}", f"{y.output_t:,.0f}", "-" if y.grid_factor is None else f"{y.grid_factor:g}", display_number(y.total)] for y in result.years]
+    lines.append(plain_table(headers, rows, set(headers) - {"year"}))
+    # each scheme's value by year, in its own unit (a second table, so that both fit the terminal)
+    headers = ["year"] + [s.scheme for s in schemes]
+    rows = [[str(y.year)] + [display_number(y.scheme_values[s.scheme]) + YEAR_MARKS.get(y.statuses.get(s.scheme, ""), "") for s in schemes] for y in result.years]
+    lines.append("Scheme values by year: " + "; ".join(f"{s.scheme} in {s.unit}" for s in schemes))
+    lines.append(plain_table(headers, rows, set(headers) - {"year"}))
     lines.append("x = fails that year (threshold missed, construction added where the rulebook counts it, or a rule broken); ? = a rule cannot be judged; n/e = not eligible")
     lines.append(
         f"lifetime output {result.lifetime_output_t:,.0f} t; construction {result.construction_t_co2e:,.0f} t CO2e = "
@@ -207,18 +202,17 @@ def lifetime_table(result) -> str:
     rows = [
         [
             s.scheme + (" *" if s.from_memory else ""),
-            display_number(s.average_without_construction),
-            display_number(s.average_with_construction),
-            "yes" if s.counts_construction else "no *",
             display_number(s.lifetime_value),
             display_number(s.limit),
             s.unit,
-            (s.status or ("qualifies" if s.passes else "fails")).replace("_", " "),
+            status_name(s.status or ("qualifies" if s.passes else "fails")),
             ", ".join(str(y) for y in s.years_missed) or "none",
         ]
         for s in schemes
     ]
-    lines.append(_table(["scheme", "avg without", "avg with", "counts construction", "lifetime value", "limit", "unit", "verdict", "years missed"], rows, {"avg without", "avg with", "lifetime value", "limit"}))
+    lines.append(plain_table(["scheme", "lifetime value", "limit", "unit", "status", "years missed"], rows, {"lifetime value", "limit"}, wrap={"unit", "status", "years missed"}))
+    counting = [s.scheme for s in schemes if s.counts_construction]
+    lines.append(f"Construction counted in the lifetime value by: {', '.join(counting) or 'none of these rulebooks'}; each scheme's averages without and with construction are in the JSON and CSV.")
     lines.append("* each rulebook's construction rule (counts_construction in factors/schemes/*.toml) is recorded from memory")
     if any(s.from_memory for s in schemes):
         lines.append(FROM_MEMORY_RULEBOOK)

@@ -33,15 +33,13 @@ from ..core.results import Check, ScoreResult
 from ..core.scoring import rulebooks
 from ..errors import InputError
 from .files import atomic_write
-from .labels import factor_grades_sentence, gas_name, stage_name, words
-from .tables import INTENSITY_UNITS, display_number
+from .labels import electricity_rule_name, factor_grades_sentence, gas_name, gwp_name, stage_name, status_name, unit_name, words
+from .palette import GAS_COLOURS, RAMP, STAGE_COLOURS
+from .tables import display_number
 
 PAPERS = ("a4", "letter")
 CHROMIUM_NAMES = ("chromium", "chromium-browser", "google-chrome", "google-chrome-stable")
 
-# Our palette: ink, harbour teal, sandstone, kelp, brick, slate; stages take the sequence below.
-STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
-GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
 YEAR_SIGNS = {"qualifies": "✓", "fails": "✗", "undetermined": "?", "not_eligible": "n/e"}
 STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undetermined": "open"}
 
@@ -74,12 +72,82 @@ def number(value: float | None) -> str:
 
 
 def status_of(check: Check) -> str:
-    """The verdict's status as words (``not_eligible`` -> ``not eligible``)."""
-    return str(getattr(check.status, "value", check.status)).replace("_", " ").replace("-", " ")
+    """The verdict's status in words: ``check.status`` when the verdict rules provide it, else pass/fail."""
+    status = getattr(check, "status", None)
+    if status is None:
+        return "qualifies" if check.passes else "fails"
+    return status_name(status)
 
 
 def reasons_of(check: Check) -> list[str]:
     return [str(reason) for reason in check.reasons]
+
+
+def assessment_year_of(result: ScoreResult) -> str:
+    """The year whose dates the scheme rules were read on: the result's ``assessment_year`` where
+    the verdict rules give it, else the first check's ``assessment_period``."""
+    year = getattr(result, "assessment_year", None)
+    if year is None:
+        year = next((getattr(c, "assessment_period", "") for c in result.checks if getattr(c, "assessment_period", "")), "")
+    return str(year or "")
+
+
+_REASON = re.compile(r"^(met|not met|cannot be judged|note):\s*(.*?)\s*(?:\[(.*)\])?\s*$", re.S)
+
+
+def split_reason(reason: str) -> tuple[str, str, str]:
+    """A reason as (result, rule, source): ``not met: value 41.6 not <= 20 [UK LCHS v4]`` ->
+    ('not met', 'value 41.6 not <= 20', 'UK LCHS v4'). A reason of another shape is all rule."""
+    match = _REASON.match(reason.strip())
+    if not match:
+        return "", reason.strip(), ""
+    return match.group(1), match.group(2), match.group(3) or ""
+
+
+def deciding_reason(check: Check, limit: int = 150) -> str:
+    """The deciding reason (the first one) in one line: its rule without the source, cut at a word."""
+    reasons = reasons_of(check)
+    if not reasons:
+        return ""
+    result, rule, _ = split_reason(reasons[0])
+    line = f"{result}: {rule}" if result else rule
+    return line if len(line) <= limit else line[:limit].rsplit(" ", 1)[0] + " …"
+
+
+# --- axis ticks ------------------------------------------------------------------------------
+
+def nice_ticks(low: float, high: float, count: int = 5) -> list[float]:
+    """Round tick values (1, 2 or 5 times a power of ten) covering [low, high]."""
+    import math
+
+    span = (high - low) or abs(high) or 1.0
+    raw = span / max(count, 1)
+    power = 10 ** math.floor(math.log10(raw))
+    step = next(m * power for m in (1, 2, 5, 10) if m * power >= raw)
+    first = math.ceil(low / step - 1e-9) * step
+    ticks, value = [], first
+    while value <= high + step * 1e-9:
+        ticks.append(0.0 if abs(value) < step * 1e-9 else value)
+        value += step
+    return ticks
+
+
+def plain_number(value: float) -> str:
+    """A stated figure (a limit) as written: 28.2, 4, 0.84, 14,900; never 28.200 or 4.000."""
+    text = f"{value:,.6g}"
+    return text.replace("-", "\u2212", 1) if value < 0 else text
+
+
+def tick_label(value: float, ticks: list[float]) -> str:
+    """A tick as a plain number: as many decimals as the step needs, thousands separated (14,900; 0.5; 25)."""
+    import math
+
+    step = abs(ticks[1] - ticks[0]) if len(ticks) > 1 else abs(value) or 1.0
+    decimals = max(0, -math.floor(math.log10(step) + 1e-9))
+    text = f"{value:,.{decimals}f}"
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")  # 0.5 and 1, not 0.50 and 1.00; zero is 0
+    return text.replace("-", "\u2212", 1) if value < 0 else text
 
 
 def badge(status: str) -> str:
@@ -176,15 +244,19 @@ def limits_svg(result: ScoreResult, key: str) -> str:
         status = status_of(check)
         body.append(f'<text x="{label_width - 10}" y="{y + 16}" class="label" text-anchor="end">{html.escape(check.scheme)}</text>')
         body.append(f'<text x="{label_width - 10}" y="{y + 31}" class="note" text-anchor="end">{html.escape(check.unit)}</text>')
+        placed: list[float] = []  # limit labels kept apart: a label closer than 34 px to one drawn is left out (the stroke stays)
         body.append(f'<rect x="{label_width}" y="{y + 6}" width="{width - 20 - label_width}" height="22" class="track"/>')
         left, right = sorted((x(0), x(check.value)))
         body.append(f'<rect x="{left:.1f}" y="{y + 10}" width="{max(right - left, 1.2):.1f}" height="14" class="bar-{STATUS_CLASS.get(status, "open")}"><title>{html.escape(check.scheme)}: {html.escape(number(check.value))} {html.escape(check.unit)} ({html.escape(status)})</title></rect>')
-        for limit in limits:
+        for limit in sorted(limits, key=lambda v: v != check.limit):  # the verdict's own limit labelled first
             mark = "limit-main" if limit == check.limit else "limit"
-            body.append(f'<line x1="{x(limit):.1f}" y1="{y + 2}" x2="{x(limit):.1f}" y2="{y + 32}" class="{mark}"/>')
-            body.append(f'<text x="{x(limit):.1f}" y="{y + 42}" class="tick" text-anchor="middle">{html.escape(number(limit))}</text>')
-        inside = right > width - 90
-        body.append(f'<text x="{(left - 6) if inside else (right + 6):.1f}" y="{y + 22}" class="value{" on-bar" if inside else ""}" text-anchor="{"end" if inside else "start"}">{html.escape(number(check.value))}</text>')
+            body.append(f'<line x1="{x(limit):.1f}" y1="{y + 2}" x2="{x(limit):.1f}" y2="{y + 32}" class="{mark}"><title>limit {html.escape(number(limit))}</title></line>')
+            if all(abs(x(limit) - other) >= 34 for other in placed):
+                placed.append(x(limit))
+                body.append(f'<text x="{x(limit):.1f}" y="{y + 42}" class="tick" text-anchor="middle">{plain_number(limit)}</text>')
+        label = number(check.value)
+        inside = right + 8 + 7 * len(label) > width - 20  # no room after the bar: the label goes inside its end
+        body.append(f'<text x="{(right - 6) if inside else (right + 6):.1f}" y="{y + 22}" class="value{" on-bar" if inside else ""}" text-anchor="{"end" if inside else "start"}">{html.escape(label)}</text>')
     body.append(f'<text x="{label_width}" y="{height - 22}" class="note">Bar: this project under the scheme\'s own rules and basis.</text>')
     body.append(f'<text x="{label_width}" y="{height - 6}" class="note">Strokes: the scheme\'s limits (bold: the one this verdict is read against).</text>')
     description = "; ".join(f"{c.scheme}: {number(c.value)} against a limit of {number(c.limit)} {c.unit}, {status_of(c)}" for c in checks) + "."
@@ -202,9 +274,9 @@ def lifetime_svg(life: LifetimeResult, key: str) -> str:
     y = _scale(low, high, height - bottom, top)
     body = [f'<line x1="{left}" y1="{y(low):.1f}" x2="{width - right}" y2="{y(low):.1f}" class="axis"/>',
             f'<line x1="{left}" y1="{top}" x2="{left}" y2="{height - bottom}" class="axis"/>']
-    for fraction in (0.0, 0.5, 1.0):
-        tick = low + (high / 1.12 - low) * fraction
-        body.append(f'<text x="{left - 6}" y="{y(tick) + 4:.1f}" class="tick" text-anchor="end">{html.escape(number(tick))}</text>')
+    ticks = [t for t in nice_ticks(low, high / 1.12, 4) if t <= high]
+    for tick in ticks:
+        body.append(f'<text x="{left - 6}" y="{y(tick) + 4:.1f}" class="tick" text-anchor="end">{tick_label(tick, ticks)}</text>')
     step = max(1, len(years) // 8)
     for year in years[::step]:
         body.append(f'<text x="{x(year):.1f}" y="{height - bottom + 16}" class="tick" text-anchor="middle">{year}</text>')
@@ -220,8 +292,6 @@ def lifetime_svg(life: LifetimeResult, key: str) -> str:
     return _svg(width, height, f"Intensity by operating year ({life.unit})", description, body, key)
 
 
-# Heat map ramp: harbour-teal mist (all matched) through sandstone to deep brick (nothing matched).
-RAMP = ((0.0, (0xE4, 0xEE, 0xF0)), (0.5, (0xC9, 0x89, 0x2B)), (1.0, (0x6E, 0x24, 0x18)))
 
 
 def ramp_colour(share: float) -> str:
@@ -250,9 +320,9 @@ def monthly_matching_svg(view: MatchingView, key: str) -> str:
     high = float(load.max()) * 1.08 if count and load.max() > 0 else 1.0
     y = _scale(0.0, high, height - bottom, top)
     body = [f'<line x1="{left}" y1="{y(0):.1f}" x2="{width - right}" y2="{y(0):.1f}" class="axis"/>']
-    for fraction in (0.0, 0.5, 1.0):
-        tick = high / 1.08 * fraction
-        body.append(f'<text x="{left - 6}" y="{y(tick) + 4:.1f}" class="tick" text-anchor="end">{html.escape(number(tick))}</text>')
+    ticks = [t for t in nice_ticks(0.0, high / 1.08, 4) if t <= high]
+    for tick in ticks:
+        body.append(f'<text x="{left - 6}" y="{y(tick) + 4:.1f}" class="tick" text-anchor="end">{tick_label(tick, ticks)}</text>')
     for index, (month, use, ok) in enumerate(zip(view.months, load, matched, strict=True)):
         x0 = left + index * slot + slot * 0.15
         bar = slot * 0.7
@@ -328,13 +398,16 @@ def distribution_svg(values: np.ndarray, limits: list[tuple[str, float]], limit:
         if count:
             cls = "bar-ok" if b <= limit else "bar-no" if a >= limit else "bar-open"
             body.append(f'<rect x="{x(a):.1f}" y="{y(count):.1f}" width="{max(x(b) - x(a) - 0.6, 0.6):.1f}" height="{y(0) - y(count):.1f}" class="{cls}"><title>{html.escape(number(a))} to {html.escape(number(b))}: {count} draws</title></rect>')
-    for tier, value in limits:
+    placed: list[float] = []
+    for tier, value in sorted(limits, key=lambda item: item[1] != limit):  # the verdict's own limit labelled first
         mark = "limit-main" if value == limit else "limit"
         body.append(f'<line x1="{x(value):.1f}" y1="{top}" x2="{x(value):.1f}" y2="{y(0):.1f}" class="{mark}"><title>{html.escape(tier)}: {html.escape(number(value))}</title></line>')
-        body.append(f'<text x="{x(value):.1f}" y="{top + 10}" class="tick" text-anchor="middle">{html.escape(number(value))}</text>')
-    for fraction in (0.0, 0.25, 0.5, 0.75, 1.0):
-        tick = low + (high - low) * fraction
-        body.append(f'<text x="{x(tick):.1f}" y="{height - bottom + 15}" class="tick" text-anchor="middle">{html.escape(number(tick))}</text>')
+        if all(abs(x(value) - other) >= 40 for other in placed):
+            placed.append(x(value))
+            body.append(f'<text x="{x(value):.1f}" y="{top + 10}" class="tick" text-anchor="middle">{plain_number(value)}</text>')
+    ticks = nice_ticks(low, high, 6)
+    for tick in ticks:
+        body.append(f'<text x="{x(tick):.1f}" y="{height - bottom + 15}" class="tick" text-anchor="middle">{tick_label(tick, ticks)}</text>')
     body.append(f'<text x="{left}" y="{height - bottom + 32}" class="note">{html.escape(scheme)} value, {html.escape(unit)}. Bars: draws, green under the limit, red over it; strokes: the limits.</text>')
     body.append(f'<text x="{left}" y="{height - bottom + 46}" class="note">A draw under the limit may still fail another rule of the scheme (see the verdicts over the draws).</text>')
     p5, p50, p95 = np.percentile(values, [5, 50, 95]) if len(values) else (float("nan"),) * 3
@@ -363,34 +436,38 @@ def _table(headers: list[str], rows: list[list[str]], cls: str = "", numeric: se
 
 
 def glance_section(item: ProjectReport, key: str, caution: str) -> str:
+    """The first page: the figures, then one row per scheme (status, value, limit, tier and the
+    deciding reason in one line); every reason is under "Against each scheme"."""
     result = item.result
     intensity = result.intensity.model_dump()
     cards = "".join(
-        f'<div class="figure"><span class="big">{number(value)}</span><span class="unit">{text(INTENSITY_UNITS[name])}</span></div>'
+        f'<div class="figure"><span class="big">{number(value)}</span><span class="unit">{text(unit_name(name))}</span></div>'
         for name, value in intensity.items()
         if value is not None
     )
-    rows = []
+    lines = []
     for check in result.checks:
-        status = status_of(check)
         reasons = reasons_of(check)
-        reason_html = "<ul class=reasons>" + "".join(f"<li>{text(r)}</li>" for r in reasons) + "</ul>" if reasons else ""
-        rows.append([
-            f'{text(check.name)}<span class="scheme-id">{text(check.scheme)}</span>',
-            f"{badge(status)}{reason_html}",
-            number(check.value),
-            number(check.limit),
-            text(check.unit),
-            text(check.tier or "none reached"),
-            "yes" if check.from_memory else "no",
-        ])
-    table = _table(["Scheme", "Verdict", "Result", "Limit", "Unit", "Tier", "Recorded from memory"], rows, "verdicts", {2, 3}) if rows else "<p>No scheme applies to this product.</p>"
+        remembered = '<span class="flag" title="rulebook or threshold recorded from memory">*</span>' if check.from_memory else ""
+        lines.append(
+            f'<tr class="verdict"><th scope="row">{text(check.name)}{remembered} <span class="scheme-id">{text(check.scheme)}</span></th>'
+            f"<td>{badge(status_of(check))}</td><td class=num>{number(check.value)}</td><td class=num>{number(check.limit)}</td>"
+            f"<td>{text(check.unit)}</td><td>{text(check.tier or 'none met')}</td></tr>"
+            f'<tr class="why"><td colspan="6" class="deciding" title="{html.escape(reasons[0]) if reasons else ""}">{text(deciding_reason(check)) or "&ndash;"}</td></tr>'
+        )
+    head = "".join(f'<th scope="col"{" class=num" if h in ("Value", "Limit") else ""}>{h}</th>' for h in ("Scheme", "Status", "Value", "Limit", "Unit", "Tier"))
+    table = (
+        f'<table class="verdicts"><thead><tr>{head}</tr></thead><tbody>{"".join(lines)}</tbody></table>'
+        if lines else "<p>No scheme applies to this product.</p>"
+    )
+    remembered = '<p class="note">Under each scheme, its deciding reason; every reason is under "Against each scheme".' + (" * rulebook or threshold recorded from memory, not yet checked against the legal text." if any(c.from_memory for c in result.checks) else "") + "</p>"
+    year = assessment_year_of(result)
     return (
         f'<section class="sheet" id="{key}-glance" aria-labelledby="{key}-glance-h"><h2 id="{key}-glance-h">At a glance</h2>'
-        f'<p class="lead">Carbon intensity, {text(result.boundary)}, per {text(result.functional_unit)}, GWP100 {text(result.gwp_basis.upper())}:</p>'
+        f'<p class="lead">Carbon intensity, {text(result.boundary)}, per {text(result.functional_unit)}, GWP100 {text(gwp_name(result.gwp_basis))}:</p>'
         f'<div class="figures">{cards}</div>'
         f'<p>Hydrogen at the hydrogen plant\'s gate: <strong>{number(result.hydrogen_production_kg_co2e_per_kg_h2)}</strong> {text("kg CO2e/kg H2")}.</p>'
-        f"<h3>Verdict of every scheme</h3>{table}"
+        f"<h3>Verdict of every scheme{f' (rules read on the dates of {text(year)})' if year else ''}</h3>{table}{remembered}"
         f'<p class="caution" role="note"><strong>Caution.</strong> {text(caution)}</p></section>'
     )
 
@@ -415,6 +492,54 @@ def sources_section(item: ProjectReport, key: str) -> str:
     )
 
 
+def article_of(source: str) -> str:
+    """A rule's source as the article it cites, without the explanation the full source adds:
+    ``26 U.S.C. 45V(b)(2)(A): not greater than 4 kilograms ... (from memory)`` ->
+    ``26 U.S.C. 45V(b)(2)(A) (from memory)``. The full source stays in the JSON, CSV and workbook."""
+    remembered = "(from memory)" in source
+    whole = source.replace("(from memory)", "")
+    while True:  # a parenthesis after a space that explains (longer than a date or "(EU)")
+        shorter = re.sub(r" \([^()]{12,}\)", "", whole)
+        if shorter == whole:
+            break
+        whole = shorter
+    parts = []
+    for part in whole.split("; "):
+        part = part.split(": ", 1)[0].strip(" ,.")
+        if part and part not in parts:
+            parts.append(part)
+    return "; ".join(parts) + (" (from memory)" if remembered else "")
+
+
+def reasons_table(check: Check) -> str:
+    """A scheme's reasons as a table: rule, result, and the article it rests on, once for the rules
+    that share it (rows grouped by source; the deciding reason's group first, in bold)."""
+    groups: dict[str, dict[tuple[str, str], list[str]]] = {}
+    for reason in reasons_of(check):
+        result, rule, source = split_reason(reason)
+        subject, _, rest = rule.partition(": ")
+        if not rest or len(subject) > 40 or subject.startswith("value"):
+            subject, rest = "", rule
+        # the same rule met the same way by several electricity sources: one row naming them all
+        groups.setdefault(source, {}).setdefault((result, rest), []).append(subject)
+    if not groups:
+        return ""
+    lines = []
+    first = True
+    for source, entries in groups.items():
+        for index, ((result, rest), subjects) in enumerate(entries.items()):
+            named = ", ".join(s for s in subjects if s)
+            rule = f"{named}: {rest}" if named else rest
+            cls = f"r-{RESULT_CLASS.get(result, 'note')}" + (" decides" if first else "") + (" group" if index == 0 else "")
+            article = f'<td class="src" rowspan="{len(entries)}" title="{html.escape(source)}">{text(article_of(source)) or "&ndash;"}</td>' if index == 0 else ""
+            lines.append(f'<tr class="{cls}"><td>{text(rule)}</td><td class=result>{text(result or "note")}</td>{article}</tr>')
+            first = False
+    return f'<table class="reasons"><thead><tr><th scope="col">Rule</th><th scope="col">Result</th><th scope="col">Article</th></tr></thead><tbody>{"".join(lines)}</tbody></table>'
+
+
+RESULT_CLASS = {"met": "ok", "not met": "no", "cannot be judged": "open", "note": "note"}
+
+
 def schemes_section(item: ProjectReport, key: str) -> str:
     result = item.result
     if not result.checks:
@@ -425,22 +550,26 @@ def schemes_section(item: ProjectReport, key: str) -> str:
         book = books.get(check.scheme)
         tiers = ""
         if book:
-            tiers = "<ul class=tiers>" + "".join(
-                f"<li>{'&le;' if t.inclusive else '&lt;'} {number(t.limit)} {text(check.unit)}: {text(t.tier)} <span class=src>({text(t.source)}{', from memory' if t.from_memory else ''})</span></li>"
-                for t in sorted(book.thresholds, key=lambda t: -t.limit)
-            ) + "</ul>"
+            tiers = "; ".join(
+                f"{'&le;' if t.inclusive else '&lt;'} {number(t.limit)}: {text(t.tier)}" for t in sorted(book.thresholds, key=lambda t: -t.limit)
+            )
+        source = text(book.document if book else "") + (" (recorded from memory, not checked against the legal text)" if check.from_memory else "")
         details.append(
             f'<div class="scheme"><h4>{text(check.name)} {badge(status_of(check))}</h4>'
-            f"<dl><dt>Basis</dt><dd>{text(words(check.basis))}, {text(check.quantity.replace('_', ' '))}</dd>"
-            f"<dt>Boundary</dt><dd>{text(check.boundary)}</dd><dt>GWP set</dt><dd>{text(check.gwp_basis.upper())}</dd>"
-            f"<dt>Electricity</dt><dd>{text(words(check.electricity_rule))}</dd>"
-            f"<dt>Result against limit</dt><dd>{number(check.value)} against {number(check.limit)} {text(check.unit)} (margin {number(check.margin)})</dd>"
-            f"<dt>Source</dt><dd>{text(book.document if book else '')}{' (recorded from memory, not checked against the legal text)' if check.from_memory else ''}</dd></dl>"
-            f"{tiers}<p class=note>{text(check.note)}</p></div>"
+            f"<dl><dt>Value against limit</dt><dd>{number(check.value)} against {number(check.limit)} {text(check.unit)}"
+            f"{f' (margin {number(check.margin)})' if getattr(check, 'margin', None) is not None else ''}</dd>"
+            f"<dt>Basis</dt><dd>{text(words(check.basis))}, {text(unit_name(check.quantity))}; {text(check.boundary)}; GWP100 {text(gwp_name(check.gwp_basis))}</dd>"
+            f"<dt>Electricity</dt><dd>{text(electricity_rule_name(check.electricity_rule))}</dd>"
+            + (f"<dt>Tiers</dt><dd>{tiers} {text(check.unit)}</dd>" if tiers else "")
+            + f"<dt class=rulebook>Rulebook</dt><dd class=rulebook>{source}</dd></dl>"
+            f"{reasons_table(check)}"
+            + (f"<p class=note>{text(check.note)}</p>" if check.note else "")
+            + "</div>"
         )
     return (
-        f'<section class="sheet" id="{key}-schemes" aria-labelledby="{key}-schemes-h"><h2 id="{key}-schemes-h">Against each scheme</h2>'
-        f"<p>Each scheme is checked under its own rulebook: its basis, boundary, GWP set and electricity rule. The values are therefore not the headline total.</p>"
+        f'<section class="sheet flows" id="{key}-schemes" aria-labelledby="{key}-schemes-h"><h2 id="{key}-schemes-h">Against each scheme</h2>'
+        f"<p>Each scheme is checked under its own rulebook: its basis, boundary, GWP set and electricity rule. The values are therefore not the headline total. "
+        f"Then each scheme's reasons: the rule, its result and the article it rests on, the deciding reason first.</p>"
         f"{limits_svg(result, key + '-lim')}{''.join(details)}</section>"
     )
 
@@ -456,11 +585,11 @@ def lifetime_section(item: ProjectReport, key: str) -> str:
         for y in life.years
     ]
     summary = [
-        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge((s.status or ("qualifies" if s.passes else "fails")).replace("_", " ")), ", ".join(map(str, s.years_missed)) or "none"]
+        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge(status_name(s.status or ("qualifies" if s.passes else "fails"))), ", ".join(map(str, s.years_missed)) or "none"]
         for s in life.schemes
     ]
     return (
-        f'<section class="sheet" id="{key}-life" aria-labelledby="{key}-life-h"><h2 id="{key}-life-h">Over the operating life</h2>'
+        f'<section class="sheet flows" id="{key}-life" aria-labelledby="{key}-life-h"><h2 id="{key}-life-h">Over the operating life</h2>'
         f"<p>{life.operating_years} operating years from {life.years[0].year}; lifetime output {number(life.lifetime_output_t)} t; construction {number(life.construction_t_co2e)} t CO<sub>2</sub>e "
         f"({number(life.construction_kg_co2e_per_unit)} {text(life.unit)}). Grid trajectory: {text(life.trajectory_source or 'none (constant factor)')}.</p>"
         f"{lifetime_svg(life, key + '-life')}"
@@ -468,6 +597,19 @@ def lifetime_section(item: ProjectReport, key: str) -> str:
         + _table(["Year", "Stack age (years)", "Efficiency of new", "Output (t)", f"Total ({text(life.unit)})"] + [text(s) for s in schemes], rows, "compact small", set(range(1, 5 + len(schemes))))
         + "</section>"
     )
+
+
+def hours_matter(view: MatchingView) -> bool:
+    """A heat map by hour of day says something only where some hour is left unmatched under a
+    rule finer than the year: under annual matching, or with everything matched, it is one colour."""
+    share = np.asarray(view.unmatched_share, dtype=float)
+    return view.granularity not in ("year", "annual") and bool(np.nanmax(share, initial=0.0) > 1e-9) if share.size else False
+
+
+def no_heat_map_reason(view: MatchingView) -> str:
+    if view.granularity in ("year", "annual"):
+        return "Matched over the year: the hour of day does not change the matched share, so no heat map by hour is drawn."
+    return "Every hour's use is matched: no heat map of the unmatched share is drawn."
 
 
 def matching_section(item: ProjectReport, key: str) -> str:
@@ -489,11 +631,11 @@ def matching_section(item: ProjectReport, key: str) -> str:
             f"<p>Matching period: {text(view.granularity)}. Generation counted: {text(', '.join(view.eligible) or 'none')}. "
             f"<strong>{view.matched_share:.1%}</strong> of the electricity used is matched over the series.{source}</p>"
             + monthly_matching_svg(view, f"{key}-mm{index}")
-            + heat_map_svg(view, f"{key}-hm{index}")
+            + (heat_map_svg(view, f"{key}-hm{index}") if hours_matter(view) else f"<p class=note>{text(no_heat_map_reason(view))}</p>")
             + _table(["Month", "Use (MWh)", "Matched (MWh)", "Unmatched (MWh)", "Matched share"], rows, "compact small", {1, 2, 3, 4})
         )
     return (
-        f'<section class="sheet" id="{key}-matching" aria-labelledby="{key}-matching-h"><h2 id="{key}-matching-h">Hour by hour: matching the electricity</h2>'
+        f'<section class="sheet flows" id="{key}-matching" aria-labelledby="{key}-matching-h"><h2 id="{key}-matching-h">Hour by hour: matching the electricity</h2>'
         "<p>The project's electricity time series is matched with the contracted generation each scheme counts, in the scheme's own matching period; "
         "electricity not matched is charged as grid electricity. Schemes with the same rule and the same counted generation share one chart. "
         "The scheme verdicts of this report use these matched values; the headline total keeps the declared annual shares.</p>"
@@ -523,7 +665,7 @@ def uncertainty_section(item: ProjectReport, key: str) -> str:
             charts.append(distribution_svg(values, list(tiers), check.limit, check.unit, check.scheme, check.probability_qualifies, f"{key}-mc{index}"))
     breaks = f" {spread.draws_breaking_limits} draws broke a physical limit and are counted apart, not clipped." if spread.draws_breaking_limits else ""
     return (
-        f'<section class="sheet" id="{key}-spread" aria-labelledby="{key}-spread-h"><h2 id="{key}-spread-h">How sure: the spread of the result</h2>'
+        f'<section class="sheet flows" id="{key}-spread" aria-labelledby="{key}-spread-h"><h2 id="{key}-spread-h">How sure: the spread of the result</h2>'
         f"<p>Monte Carlo of the inputs given in the project's <code>[uncertainty]</code> table: <strong>{spread.draws:,} draws</strong>, "
         f"{text(spread.sampling.replace('_', ' '))} sampling, <strong>seed {spread.seed}</strong> (the same seed gives the same numbers); {spread.draws_used:,} draws used.{breaks} "
         "The draws score the declared annual electricity shares (a time series is not redrawn).</p>"
@@ -561,17 +703,48 @@ def qualify_section(item: ProjectReport, key: str) -> str:
     )
 
 
+def input_value(value: Any) -> str:
+    """A parameter's value as a reader sees it: a number formatted, an unset one "not given" (never None)."""
+    if value is None or value == "":
+        return '<span class="note">not given</span>'
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, float):
+        return number(value)
+    return text(value)
+
+
 def inputs_section(item: ProjectReport, key: str) -> str:
     result = item.result
     info = result.parameters.get("project", {})
     evidence = info.get("note", "")
-    rows = [[f"<code>{text(path)}</code>", text(value if not isinstance(value, float) else display_number(value)), text(unit), text(description)] for path, value, unit, description in item.inputs if not path.startswith("project.")]
+    rows = [[f"<code>{text(path)}</code>", input_value(value), text(unit), text(description)] for path, value, unit, description in item.inputs if not path.startswith("project.")]
+    half = (len(rows) + 1) // 2
+    paired = [left[:3] + (right[:3] if right else ["", "", ""]) for left, right in zip(rows[:half], rows[half:] + [None], strict=False)]
     return (
-        f'<section class="sheet" id="{key}-inputs" aria-labelledby="{key}-inputs-h"><h2 id="{key}-inputs-h">What went in</h2>'
+        f'<section class="sheet annex" id="{key}-inputs" aria-labelledby="{key}-inputs-h"><h2 id="{key}-inputs-h">What went in</h2>'
         f"<p><strong>Evidence note in the project file:</strong> {text(evidence) if evidence else 'none given.'}</p>"
-        + _table(["Parameter", "Value", "Unit", "Meaning"], rows, "inputs")
+        + _table(["Parameter", "Value", "Unit", "Meaning"], rows, "inputs screen")
+        # on paper: two parameters a line, without their meaning (`carbonledger params` gives it)
+        + _table(["Parameter", "Value", "Unit", "Parameter", "Value", "Unit"], paired, "inputs paper")
         + "</section>"
     )
+
+
+def factors_on_paper(result: ScoreResult) -> str:
+    """The factors table for print: each factor on one line (id, value, unit, year, region, checked),
+    its source, table and note on a second line across the page."""
+    lines = []
+    for f in result.factors_used:
+        flag = '<span class="flag">from memory</span>' if f.from_memory else "checked"
+        source = text(f.source) + (f", {text(f.table)}" if f.table else "") + (f". {text(f.note)}" if f.note else "")
+        lines.append(
+            f'<tr class="factor"><th scope="row"><code>{text(f.id)}</code></th><td class=num>{number(f.value)}</td><td>{text(f.unit)}</td>'
+            f"<td>{text(f.year or '')}</td><td>{text(f.region)}</td><td>{flag}</td></tr>"
+            f'<tr class="about"><td colspan="6">{source}</td></tr>'
+        )
+    head = "".join(f'<th scope="col">{h}</th>' for h in ("Factor", "Value", "Unit", "Year", "Region", "Checked"))
+    return f'<table class="factors paper"><thead><tr>{head}</tr></thead><tbody>{"".join(lines)}</tbody></table>'
 
 
 def factors_section(item: ProjectReport, key: str) -> str:
@@ -581,10 +754,11 @@ def factors_section(item: ProjectReport, key: str) -> str:
         for f in result.factors_used
     ]
     return (
-        f'<section class="sheet" id="{key}-factors" aria-labelledby="{key}-factors-h"><h2 id="{key}-factors-h">Factors and their sources</h2>'
+        f'<section class="sheet annex" id="{key}-factors" aria-labelledby="{key}-factors-h"><h2 id="{key}-factors-h">Factors and their sources</h2>'
         f"<p>Factor set <strong>{text(result.factor_set.name)}</strong>, sha256 <code class=hash>{text(result.factor_set.sha256)}</code>. "
         f"{text(factor_grades_sentence(result.factor_grades, len(result.factors_used)))}</p>"
-        + _table(["Factor", "Value", "Unit", "Source", "Year", "Region", "Source grade", "Note"], rows, "factors", {1})
+        + _table(["Factor", "Value", "Unit", "Source", "Year", "Region", "Source grade", "Note"], rows, "factors screen", {1})
+        + factors_on_paper(result)
         + "</section>"
     )
 
@@ -603,7 +777,7 @@ def provenance_section(item: ProjectReport, key: str, generated: str, caution: s
     ]
     dl = "".join(f"<dt>{k}</dt><dd>{v}</dd>" for k, v in pairs)
     return (
-        f'<section class="sheet" id="{key}-provenance" aria-labelledby="{key}-provenance-h"><h2 id="{key}-provenance-h">How this was made</h2>'
+        f'<section class="sheet annex" id="{key}-provenance" aria-labelledby="{key}-provenance-h"><h2 id="{key}-provenance-h">How this was made</h2>'
         f"<dl class=provenance>{dl}</dl>"
         f'<p class="caution" role="note"><strong>Caution.</strong> {text(caution)}</p></section>'
     )
@@ -684,7 +858,13 @@ table.factors th:nth-child(1){width:18%}table.factors th:nth-child(2){width:8%}t
 table.factors th:nth-child(4){width:23%}table.factors th:nth-child(5){width:6%}table.factors th:nth-child(6){width:8%}
 table.factors th:nth-child(7){width:11%}table.factors th:nth-child(8){width:16%}
 table.factors td:nth-child(5){white-space:nowrap}
-table.inputs th:nth-child(1){width:32%}table.inputs th:nth-child(2){width:20%}table.inputs th:nth-child(3){width:14%}table.inputs th:nth-child(4){width:34%}
+table.inputs.screen th:nth-child(1){width:32%}table.inputs.screen th:nth-child(2){width:20%}table.inputs.screen th:nth-child(3){width:14%}table.inputs.screen th:nth-child(4){width:34%}
+table.inputs.paper,table.factors.paper{display:none}
+table.factors.paper tr.factor td,table.factors.paper tr.factor th{border-bottom:none;padding-bottom:0}
+table.factors.paper tr.about td{color:#4d5860;padding-top:0;padding-left:14px;font-size:.92em}
+table.inputs.paper th:nth-child(3n+1){width:29%}table.inputs.paper th:nth-child(3n+2){width:13%}table.inputs.paper th:nth-child(3n){width:8%}
+table.inputs.paper code{font-family:inherit;font-size:1em;word-break:normal;overflow-wrap:anywhere}
+table.inputs.paper td:nth-child(4),table.inputs.paper th:nth-child(4){border-left:1px solid var(--rule)}
 td .src{font-size:.92em}
 tr{break-inside:avoid}
 thead{display:table-header-group}
@@ -695,7 +875,21 @@ thead{display:table-header-group}
 .badge.off{color:var(--off);background:var(--off-soft);border-color:var(--off)}
 .badge.open{color:var(--open);background:var(--open-soft);border-color:var(--open)}
 .pair{white-space:nowrap;margin-right:10px}
-.reasons{margin:4px 0 0 16px;padding:0;font-size:12.5px}
+table.verdicts{table-layout:fixed}
+table.verdicts thead th:nth-child(1){width:30%}table.verdicts thead th:nth-child(2){width:15%}table.verdicts thead th:nth-child(3),table.verdicts thead th:nth-child(4){width:10%}
+table.verdicts thead th:nth-child(5){width:14%}table.verdicts thead th:nth-child(6){width:21%}
+table.verdicts tr.verdict td{border-bottom:none;padding-bottom:1px}
+table.verdicts td.deciding{font-size:12px;color:#3e4a52;padding-top:0;padding-left:18px;white-space:nowrap;overflow:hidden;text-overflow:ellipsis}
+table.verdicts td.deciding::before{content:"→ "}
+.badge{white-space:nowrap}
+.scheme-id{white-space:nowrap}
+table.reasons{font-size:12px;table-layout:fixed;margin:6px 0 4px}
+table.reasons thead th:nth-child(1){width:58%}table.reasons thead th:nth-child(2){width:13%}table.reasons thead th:nth-child(3){width:29%}
+table.reasons td{padding:2px 6px;border-bottom:none}table.reasons tr.group td{border-top:1px solid var(--rule)}
+table.reasons td.src{color:#4d5860;font-size:11.5px;border-left:1px solid var(--rule)}
+table.reasons tr.r-no td.result{color:var(--no);font-weight:600}table.reasons tr.r-open td.result{color:var(--open);font-weight:600}
+table.reasons tr.r-ok td.result{color:var(--ok)}
+table.reasons tr.decides td:first-child{font-weight:600}
 .caution{background:var(--sand-soft);border-left:5px solid var(--sand);padding:10px 14px;border-radius:0 6px 6px 0;margin:16px 0 0}
 .note,.src{color:#5d6870;font-size:12.5px}
 .scheme{border-top:1px solid var(--rule);padding:12px 0 4px;break-inside:avoid}
@@ -717,18 +911,38 @@ svg .matched{fill:#6f9a73}svg .unmatched{fill:#cbc3b1}svg .no-use{fill:#ece8de}
 svg .trace{fill:none;stroke:var(--teal);stroke-width:2.2}svg .dot{fill:var(--teal)}
 footer.colophon{margin-top:30px;font-size:12.5px;color:#5d6870;border-top:1px solid var(--rule);padding-top:10px}
 @media print{
- @page{margin:14mm 13mm 16mm}
+ @page{margin:11mm 12mm 12mm}
  html,body{background:#fff}
- body{max-width:none;padding:0;font-size:10pt}
+ body{max-width:none;padding:0;font-size:9.5pt;line-height:1.32}
  section.sheet{border:none;padding:0;margin:0;break-before:page;border-radius:0}
+ section.sheet.annex{break-before:auto;margin-top:10pt}
  article.project{break-before:page}
  article.project:first-of-type{break-before:auto}
  .contents + article.project{break-before:page}
  .project-head + section.sheet{break-before:avoid}
  h2,h3,h4{break-after:avoid}
  svg.chart{max-width:100%;break-inside:avoid}
- table{font-size:8.8pt}table.factors,table.inputs,table.small{font-size:8pt}
- .figure .big{font-size:20pt}
+ table{font-size:8.8pt}table.factors,table.inputs,table.small{font-size:7.6pt}table.reasons{font-size:7.8pt}
+ table.reasons td,table.factors td,table.inputs td{padding:1px 5px}
+ table.reasons{font-size:7.4pt}table.reasons td.src{font-size:7pt}
+ table.inputs.screen{display:none}table.inputs.paper{display:table;font-size:7pt}
+ table.factors.screen{display:none}table.factors.paper{display:table;font-size:7pt;table-layout:fixed}
+ table.factors.paper th:nth-child(1){width:30%}table.factors.paper th:nth-child(2){width:9%}table.factors.paper th:nth-child(3){width:13%}
+ table.factors.paper th:nth-child(4){width:6%}table.factors.paper th:nth-child(5){width:30%}table.factors.paper th:nth-child(6){width:12%}
+ section.sheet.flows{break-before:auto;margin-top:10pt}
+ svg.chart{max-width:76%}
+ footer.colophon{display:none}
+ table.compact{font-size:7.8pt;min-width:0}table.compact td,table.compact th{padding:1px 6px}
+ section.sheet h3{margin-top:6pt}
+ .scheme h4{margin:4pt 0 2pt}.scheme dl{gap:0 10px}
+ .scheme .rulebook{display:none}.scheme p.note{font-size:7.4pt;margin:2pt 0}
+ .scheme{padding:6px 0 2px;break-inside:auto}.scheme dl{font-size:8.6pt}
+ h3{margin:10pt 0 5pt}
+ .project-head{padding:0}.project-head h1{font-size:20pt;margin:2pt 0 4pt}.meta{font-size:9pt;margin-bottom:4pt}.masthead{padding:0 0 6pt;margin-bottom:8pt}
+ .figures{margin:4pt 0 6pt}.figure{padding:5pt 10pt}.caution{padding:6pt 10pt;font-size:9pt;margin-top:8pt}
+ table.verdicts{font-size:8.4pt}table.verdicts td.deciding{font-size:7.8pt}table.verdicts td,table.verdicts th{padding:2px 6px}
+ .figure .big{font-size:16pt}.lead{font-size:10pt;margin-bottom:2pt}h2{font-size:14pt;margin:0 0 4pt;padding-bottom:3pt}h4{margin:3pt 0 2pt}
+ .provenance{font-size:8.4pt;gap:1pt 12pt}table{margin:4pt 0 6pt}p{margin:4pt 0}
  a{color:inherit;text-decoration:none}
  .badge,.figure,.caution,thead th{-webkit-print-color-adjust:exact;print-color-adjust:exact}
 }

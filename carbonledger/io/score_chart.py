@@ -9,10 +9,9 @@ from ..core.results import ScoreResult
 from ..core.scoring import rulebooks
 from .chart_files import write_figure
 from .labels import gas_name, stage_name
-from .report import GAS_COLOURS, STAGE_COLOURS, status_of
+from .palette import AXIS, CHART_STYLE, GAS_COLOURS, INK, STAGE_COLOURS, STATUS_COLOURS, status_legend
+from .report import status_of
 from .tables import display_number
-
-STATUS_COLOURS = {"qualifies": "#2f6b45", "fails": "#a4452f", "not eligible": "#5b616c", "undetermined": "#8a6a10"}
 
 
 def score_figure(result: ScoreResult):
@@ -22,6 +21,7 @@ def score_figure(result: ScoreResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
+    plt.rcParams.update(CHART_STYLE)
     stages = list(result.by_stage.items())
     gases = [(g, v) for g, v in result.by_gas.items() if v != 0]
     checks = result.checks
@@ -35,11 +35,11 @@ def score_figure(result: ScoreResult):
         waterfall.annotate(display_number(value), (max(running, running + value), index), xytext=(4, 0), textcoords="offset points", va="center", fontsize=8)
         running += value
         labels.append(stage_name(stage))
-    waterfall.barh(len(stages), result.total, color="#1d2a33", height=0.7)
+    waterfall.barh(len(stages), result.total, color=INK, height=0.7)
     waterfall.annotate(display_number(result.total), (max(result.total, 0.0), len(stages)), xytext=(4, 0), textcoords="offset points", va="center", fontsize=8, fontweight="bold")
     waterfall.set_yticks(range(len(stages) + 1), labels + ["Total"], fontsize=8.5)
     waterfall.invert_yaxis()
-    waterfall.axvline(0, color="#8b949b", linewidth=0.8)
+    waterfall.axvline(0, color=AXIS, linewidth=0.8)
     waterfall.set_xlabel(result.unit, fontsize=8.5)
     figure.suptitle(result.project, fontsize=11, x=0.01, ha="left", fontweight="bold")
     waterfall.set_title(f"How the stages add up to the total ({result.boundary}, GWP100 {result.gwp_basis.upper()})", fontsize=9.5, loc="left")
@@ -62,11 +62,14 @@ def score_figure(result: ScoreResult):
         ax.barh(0, check.value, color=STATUS_COLOURS.get(status, "#8a6a10"), height=0.5)
         ax.set_ylim(-0.6, 0.6)
         for limit in limits:
-            ax.axvline(limit, color="#1d2a33", linewidth=2.2 if limit == check.limit else 0.9, linestyle="-" if limit == check.limit else "--")
+            ax.axvline(limit, color=INK, linewidth=2.2 if limit == check.limit else 0.9, linestyle="-" if limit == check.limit else "--")
+            ax.annotate(f"{limit:g}", (limit, 0.32), xytext=(2, 0), textcoords="offset points", ha="left", va="bottom", fontsize=6.5, color=INK)  # each tier line labelled, above the bar
         ax.set_xlim(min(0.0, check.value), max([check.value, *limits]) * 1.18 or 1.0)
         ax.set_yticks([])
         ax.set_title(f"{check.name}: {display_number(check.value)} against {display_number(check.limit)} {check.unit}, {status}", fontsize=8, loc="left")
         ax.tick_params(axis="x", labelsize=7.5)
+    if len(checks):
+        status_legend(figure, [status_of(c) for c in checks])
     figure.supxlabel(
         "Scheme rows: each on the scheme's own basis, boundary and GWP set; lines are its limits (bold: the one the verdict is read against).\n"
         "Screening estimate, not a certification: the scheme's official methodology, an accredited verifier and local regulation take precedence.",

@@ -6,8 +6,9 @@ from pathlib import Path
 
 from ..analyses.sensitivity import Sensitivity
 from .chart_files import write_figure
-from .tables import display_number
-from .uncertainty_output import console_for_text, rows_to_csv
+from .palette import AXIS, CHART_STYLE, HIGH, INK, LOW
+from .tables import display_number, plain_console
+from .uncertainty_output import rows_to_csv
 
 
 def sensitivity_csv(result: Sensitivity) -> str:
@@ -27,7 +28,7 @@ def sensitivity_csv(result: Sensitivity) -> str:
 def sensitivity_table(result: Sensitivity) -> str:
     from rich.table import Table
 
-    console = console_for_text()
+    console = plain_console()
     limit = f"; limit {display_number(result.limit)} {result.unit}" if result.limit is not None else ""
     console.print(f"{result.project}: sensitivity of {result.figure} ({result.unit}); project value {display_number(result.base)}{limit}")
     console.print(f"Sobol indices: SALib, N = {result.base_sample} ({result.evaluations:,} evaluations), seed {result.seed}; inputs drawn independently (rank correlations not imposed)")
@@ -59,13 +60,14 @@ def sensitivity_figure(result: Sensitivity):
 
     names = [bar.input for bar in result.tornado][::-1]
     height = max(3.5, 0.45 * len(names) + 1.8)
+    plt.rcParams.update(CHART_STYLE)
     figure, (left, right) = plt.subplots(1, 2, figsize=(12, height), layout="constrained", width_ratios=[3, 2])
     for row, bar in enumerate(result.tornado[::-1]):
-        left.barh(row, bar.at_low - result.base, left=result.base, color="#4c72b0", height=0.6, label="input at its 10th percentile" if row == 0 else None)
-        left.barh(row, bar.at_high - result.base, left=result.base, color="#dd8452", height=0.6, label="input at its 90th percentile" if row == 0 else None)
-    left.axvline(result.base, color="grey", linewidth=0.8)
+        left.barh(row, bar.at_low - result.base, left=result.base, color=LOW, height=0.6, label="input at its 10th percentile" if row == 0 else None)
+        left.barh(row, bar.at_high - result.base, left=result.base, color=HIGH, height=0.6, label="input at its 90th percentile" if row == 0 else None)
+    left.axvline(result.base, color=AXIS, linewidth=0.8)
     if result.limit is not None:
-        left.axvline(result.limit, color="black", linestyle="--", linewidth=0.9, label=f"{result.figure} limit {display_number(result.limit)}")
+        left.axvline(result.limit, color=INK, linestyle="--", linewidth=0.9, label=f"{result.figure} limit {display_number(result.limit)}")
     left.set_yticks(range(len(names)), names, fontsize=7.5)
     left.set_xlabel(f"{result.figure} ({result.unit})")
     left.set_title("Tornado (others at the project's values)", fontsize=10)

@@ -6,15 +6,11 @@ import io
 
 from ..core.results import ScoreResult
 from .csv_text import csv_text
-from .labels import factor_grades_sentence
+from .labels import UNITS, factor_grades_sentence, gas_name, gwp_name, per_name, stage_name, status_name
 
 SCORE_CSV_HEADER = ("section", "key", "value", "unit", "from_memory", "grade")
 
-INTENSITY_UNITS = {
-    "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
-    "kg_co2e_per_kg_h2": "kg CO2e/kg H2",
-    "g_co2e_per_mj": "g CO2e/MJ (LHV)",
-}
+INTENSITY_UNITS = UNITS  # one vocabulary (io/labels.py)
 
 
 def display_number(value: float | None) -> str:
@@ -100,15 +96,56 @@ def score_csv(result: ScoreResult) -> str:
     return csv_text(SCORE_CSV_HEADER, [row + ("",) * (width - len(row)) for row in csv_rows(result)], caution=result.caution)
 
 
-def plain_console(width: int):
+def terminal_width(default: int = 100) -> int:
+    """The width the tables are set to: the terminal's (or $COLUMNS), at least 60 columns; when
+    the output is not a terminal and $COLUMNS is unset, ``default``."""
+    import shutil
+
+    return max(60, shutil.get_terminal_size((default, 24)).columns)
+
+
+def assessment_year(result) -> str:
+    """The year whose dates the scheme rules were read on: ``assessment_year`` where the result
+    carries it, else the first check's ``assessment_period``."""
+    year = getattr(result, "assessment_year", None)
+    if year is None:
+        year = next((c.assessment_period for c in getattr(result, "checks", []) if getattr(c, "assessment_period", "")), "")
+    return str(year or "")
+
+
+def plain_console(width: int | None = None):
     """A rich console that renders text as written: no markup, no emoji codes, no highlighting.
 
     Project names, factor ids and set names come from users; with markup off, "Plant [phase1] test"
-    or "[bold]" print as typed and "[/]" cannot break the output.
+    or "[bold]" print as typed and "[/]" cannot break the output. Tables fit ``width`` (default: the
+    terminal's, ``terminal_width``); lines of text are not cut (soft wrap), so a file path or a
+    reason stays whole for copying.
     """
     from rich.console import Console
 
-    return Console(file=io.StringIO(), record=True, width=width, force_terminal=False, color_system=None, markup=False, emoji=False, highlight=False)
+    return Console(file=io.StringIO(), record=True, width=width or terminal_width(), soft_wrap=True, force_terminal=False, color_system=None, markup=False, emoji=False, highlight=False)
+
+
+def plain_table(headers: list[str], rows: list[list[str]], right: set[str] = frozenset(), wrap: set[str] = frozenset()) -> str:
+    """A table without borders that fits the terminal. Column heads and the ``wrap`` columns (text)
+    wrap between words; a figure, id or name is never cut; ``right`` columns are right-aligned; text
+    as typed. A table whose narrowest layout is wider than the terminal is printed at that width
+    rather than losing a column."""
+    from rich import box
+    from rich.table import Table
+
+    table = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
+    for header in headers:
+        table.add_column(header, justify="right" if header in right else "left", no_wrap=header not in wrap, overflow="fold", ratio=1 if header in wrap else None)
+    for row in rows:
+        table.add_row(*row)
+    narrowest = sum(
+        8 if header in wrap else max([len(header)] + [len(row[i]) for row in rows])
+        for i, header in enumerate(headers)
+    ) + 3 * (len(headers) - 1)
+    console = plain_console(max(terminal_width(), narrowest))
+    console.print(table)
+    return "\n".join(line.rstrip() for line in console.export_text().splitlines()) + "\n"
 
 
 def _matching_tables(console, checks, Table) -> None:
@@ -140,11 +177,11 @@ def render(result: ScoreResult) -> str:
     """A readable report of one result, as plain text."""
     from rich.table import Table
 
-    console = plain_console(110)
+    console = plain_console()
     console.print(f"{result.project}  ({result.product}, {result.boundary})")
     console.print(f"project file: {result.project_file}")
     console.print(
-        f"functional unit: {result.functional_unit}   GWP100: {result.gwp_basis.upper()}   "
+        f"functional unit: {result.functional_unit}   GWP100: {gwp_name(result.gwp_basis)}   "
         f"factors: {result.factor_set.name} (sha256 {result.factor_set.sha256[:12]})"
     )
     console.print(f"total: {display_number(result.total)} {result.unit}")
@@ -154,17 +191,17 @@ def render(result: ScoreResult) -> str:
     intensity.add_column("unit")
     for key, value in result.intensity.model_dump().items():
         if value is not None:
-            intensity.add_row(key.split("_per_")[1].replace("_", " "), display_number(value), INTENSITY_UNITS[key])
+            intensity.add_row(per_name(key), display_number(value), INTENSITY_UNITS[key])
     intensity.add_row("hydrogen plant gate", display_number(result.hydrogen_production_kg_co2e_per_kg_h2), "kg CO2e/kg H2")
     console.print(intensity)
-    for title, values in (("By stage", result.by_stage), ("By gas", result.by_gas)):
+    for title, values, name in (("By stage", result.by_stage, stage_name), ("By gas", result.by_gas, gas_name)):
         table = Table(title=title, title_justify="left")
         table.add_column(title.split()[1])
-        table.add_column("kg CO2e", justify="right")
+        table.add_column(result.unit, justify="right")
         table.add_column("share", justify="right")
         for key, value in values.items():
             share = value / result.total if result.total else 0.0
-            table.add_row(key.replace("_", " "), display_number(value), f"{share:.1%}")
+            table.add_row(name(key), display_number(value), f"{share:.1%}")
         console.print(table)
     if result.non_ghg_kg.get("nh3"):
         console.print(f"NH3 emitted (not a greenhouse gas, not in CO2e): {display_number(result.non_ghg_kg['nh3'])} kg per functional unit")
@@ -187,25 +224,23 @@ def render(result: ScoreResult) -> str:
         )
     if result.checks:
         table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
-        for column in ("scheme", "value", "limit", "unit", "status", "margin", "tier", "GWP"):
-            table.add_column(column, justify="right" if column in ("value", "limit", "margin") else "left")
+        for column in ("scheme", "status", "value", "limit", "unit", "tier", "GWP"):  # tier and unit wrap first
+            table.add_column(column, justify="right" if column in ("value", "limit") else "left", no_wrap=column in ("scheme", "status", "value", "limit", "GWP"), overflow="fold")
         for check in result.checks:
             table.add_row(
                 check.scheme + (" *" if check.from_memory else ""),
+                status_name(check.status),
                 display_number(check.value),
                 display_number(check.limit),
                 check.unit,
-                check.status.replace("_", " ").upper() if check.status != "qualifies" else check.status,
-                display_number(check.margin),
                 check.tier or "-",
-                check.gwp_basis.upper(),
+                gwp_name(check.gwp_basis),
             )
         console.print(table)
         for check in result.checks:
-            if check.reasons:
-                console.print(f"{check.scheme}: {check.status.replace('_', ' ')}, first reason: {check.reasons[0]}", highlight=False, markup=False)
-        period = result.checks[0].assessment_period
-        console.print(f"Scheme rules read on the dates of {period} (--year). Each check is on its rulebook's own basis and boundary; every reason is in the JSON and CSV output.")
+            if check.reasons:  # the deciding reason comes first
+                console.print(f"{check.scheme}: {status_name(check.status)}, because {check.reasons[0]}", highlight=False, markup=False)
+        console.print(f"Assessment year {assessment_year(result)}: the scheme rules are read on its dates (--year). Each check is on its rulebook's own basis and boundary; every reason is in the JSON and CSV output.")
         matched = [check for check in result.checks if check.electricity_matching is not None]
         if matched:
             _matching_tables(console, matched, Table)

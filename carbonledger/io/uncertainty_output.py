@@ -9,6 +9,8 @@ from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
 from .chart_files import write_figure
 from .csv_text import csv_text
+from .labels import gas_name, gwp_name, per_name, stage_name
+from .palette import CHART_STYLE, INK, TEAL
 from .tables import INTENSITY_UNITS, display_number, plain_console
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
@@ -79,11 +81,11 @@ def display_spec(value) -> str:
 def uncertainty_table(result: UncertaintyResult) -> str:
     from rich.table import Table
 
-    console = console_for_text(140)
+    console = console_for_text()
     console.print(f"{result.project}  ({result.boundary}; {result.functional_unit})")
     console.print(
         f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
-        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {result.gwp_basis.upper()}; factors {result.factor_set['name']}"
+        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {gwp_name(result.gwp_basis)}; factors {result.factor_set['name']}"
     )
     if result.draws_breaking_limits:
         console.print(f"{result.draws_breaking_limits:,} draws break a physical limit and are left out (not clipped); statistics over {result.draws_used:,} draws:")
@@ -114,11 +116,11 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     add("total", result.total, result.unit)
     for key, summary in result.intensity.items():
         if key != "kg_co2e_per_t_nh3":
-            add("per " + key.split("_per_")[1].replace("_", " "), summary, INTENSITY_UNITS.get(key, "kg CO2e/kg NH3"))
+            add("per " + per_name(key), summary, INTENSITY_UNITS.get(key, key))
     for key, summary in result.by_stage.items():
-        add(f"stage {key.replace('_', ' ')}", summary, result.unit)
+        add(stage_name(key), summary, result.unit)
     for key, summary in result.by_gas.items():
-        add(f"gas {key.replace('_', ' ')}", summary, result.unit)
+        add(gas_name(key), summary, result.unit)
     console.print(figures)
     if result.checks:
         checks = Table(title="Probability of each verdict (Monte Carlo standard error)", title_justify="left")
@@ -163,7 +165,7 @@ def headroom_csv(results: list[Headroom]) -> str:
 def headroom_table(results: list[Headroom]) -> str:
     from rich.table import Table
 
-    console = console_for_text(140)
+    console = plain_console()
     first = results[0]
     console.print(f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; the project scores {display_number(first.project_scheme_value)}")
     table = Table(title="Value of each parameter at which the limit is met exactly", title_justify="left")
@@ -198,9 +200,9 @@ def portfolio_uncertainty_csv(results: list[UncertaintyResult]) -> str:
 def portfolio_uncertainty_table(results: list[UncertaintyResult]) -> str:
     from rich.table import Table
 
-    console = console_for_text(140)
+    console = plain_console()
     first = results[0]
-    console.print(f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, sampling {first.sampling.replace('_', ' ')}; GWP100 {first.gwp_basis.upper()}")
+    console.print(f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, sampling {first.sampling.replace('_', ' ')}; GWP100 {gwp_name(first.gwp_basis)}")
     table = Table(title="Total and probability of qualifying per project and scheme", title_justify="left")
     for column in ("project", "total mean", "p5", "p95", "unit", "scheme", "qualifies", "draws left out"):
         table.add_column(column, justify="right" if column in ("total mean", "p5", "p95", "qualifies", "draws left out") else "left")
@@ -224,15 +226,16 @@ def uncertainty_figure(result: UncertaintyResult):
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
+    plt.rcParams.update(CHART_STYLE)
     draws = result.scheme_draws()
     checks = [check for check in result.checks if check.scheme in draws]
     count = max(1, len(checks))
     figure, axes = plt.subplots(count, 1, figsize=(9, 2.6 * count + 1.0), layout="constrained", squeeze=False)
     for axis, check in zip(axes[:, 0], checks, strict=False):
         values, thresholds = draws[check.scheme]
-        axis.hist(values, bins=60, color="#4c72b0", alpha=0.85)
+        axis.hist(values, bins=60, color=TEAL, alpha=0.85)
         for tier, limit in thresholds:
-            axis.axvline(limit, color="black", linestyle="--", linewidth=0.9)
+            axis.axvline(limit, color=INK, linestyle="--", linewidth=0.9)
             axis.annotate(f"{tier}: {display_number(limit)}", (limit, 0.97), xycoords=("data", "axes fraction"), rotation=90, ha="right", va="top", fontsize=6.5)
         others = ", ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0)
         axis.set_title(f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})" + (f"; {others}" if others else ""), fontsize=9)

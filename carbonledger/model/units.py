@@ -26,6 +26,17 @@ def split_substance(unit: str) -> tuple[str, tuple[str, ...]]:
     return bare, tags
 
 
+_GLUED = re.compile(r"(?<![A-Za-z])(mg|g|kg|t|Mg|Gg|lb)(" + "|".join(SUBSTANCES) + r")(?![A-Za-z0-9_])", re.I)
+
+
+def spelling_hint(unit: str) -> str:
+    """How to write a unit typed with the substance glued to its mass unit: ``gCO2/kWh`` ->
+    "; write it 'g CO2/kWh' (a space between the unit and the substance)", else ''."""
+    by_lower = {s.lower(): s for s in SUBSTANCES}
+    fixed = _GLUED.sub(lambda m: f"{m.group(1)} {by_lower.get(m.group(2).lower(), m.group(2))}", unit)
+    return f"; write it '{fixed}' (a space between the unit and the substance)" if fixed != unit else ""
+
+
 @functools.cache
 def _registry():
     import pint

@@ -3,13 +3,18 @@
 from __future__ import annotations
 
 import json
+import re
 
 from . import HYDROGEN_ROUTES
 from .ammonia import starter as ammonia_starter
 
+PLACEHOLDER = "# placeholder"
+_NUMBER_LINE = re.compile(r"^(?P<assign>\s*[A-Za-z_][\w.]*\s*=\s*-?[\d.]+(?:[eE][-+]?\d+)?)(?P<rest>\s*(?:#.*)?)$")
+
 _HEADER = """\
 # carbonledger project file. Every number below is a placeholder to replace with the
-# project's own data; units are in the parameter names. `carbonledger params FILE` lists them.
+# project's own data, marked "# placeholder": replace it, then delete the mark (`score` warns
+# while any mark remains). Units are in the parameter names. `carbonledger params FILE` lists them.
 [project]
 name = {name}
 product = "{product}"            # ammonia | hydrogen
@@ -50,4 +55,21 @@ def starter_project(choice: str, product: str, name: str = "New project") -> str
     body = text(product)
     if product == "ammonia" and "[ammonia]" not in body:  # routes that do not write their own ammonia block
         body += ammonia_starter(product)
-    return _HEADER.format(name=quoted, product=product, route=route) + body
+    return mark_placeholders(_HEADER.format(name=quoted, product=product, route=route) + body)
+
+
+def mark_placeholders(text: str) -> str:
+    """Every number the starter sets is marked "# placeholder" (before any comment of its own)."""
+    lines = []
+    for line in text.splitlines():
+        match = _NUMBER_LINE.match(line)
+        if match:
+            rest = match.group("rest").strip()
+            line = f"{match.group('assign')}   {PLACEHOLDER}" + (f"; {rest.lstrip('#').strip()}" if rest else "")
+        lines.append(line)
+    return "\n".join(lines) + "\n"
+
+
+def placeholders_left(text: str) -> list[int]:
+    """The line numbers (from 1) of a project file whose number still carries init's placeholder mark."""
+    return [number for number, line in enumerate(text.splitlines(), 1) if _NUMBER_LINE.match(line) and PLACEHOLDER in line.split("=", 1)[1]]

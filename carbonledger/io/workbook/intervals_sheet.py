@@ -274,5 +274,5 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
             sheet.column_dimensions[get_column_letter(position)].width = 20
     intervals_ws.freeze_panes = f"B{first}"
     page_setup(main, title_columns="A:A", pages_wide=2)
-    page_setup(intervals_ws, title_rows=f"{INTERVAL_HEADER_ROW}:{INTERVAL_HEADER_ROW}", pages_wide=2)
+    page_setup(intervals_ws, title_rows=f"{INTERVAL_HEADER_ROW}:{INTERVAL_HEADER_ROW}", pages_wide=2, align=False)
     return {"summary": rows, "month_header": month_header, "interval_header": INTERVAL_HEADER_ROW}

@@ -13,6 +13,7 @@ from typing import Any
 from ...errors import InputError
 from ...model.factors import CITED_FIELDS
 from ...model.project import split_path
+from ..labels import UNITS
 from .cells import Term, resolve
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
@@ -30,12 +31,7 @@ COVER_LABELS = {
     "factors_option": "Factor set as requested (--factors)",
     "factor_set": "Factor set",
 }
-INTENSITY_UNITS = {
-    "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
-    "kg_co2e_per_kg_nh3": "kg CO2e/kg NH3",
-    "kg_co2e_per_kg_h2": "kg CO2e/kg H2",
-    "g_co2e_per_mj": "g CO2e/MJ (LHV)",
-}
+INTENSITY_UNITS = UNITS  # one vocabulary (io/labels.py)
 
 
 EXCEL_CELL_CHARACTERS = 32767  # Excel specifications and limits: total characters a cell can contain
@@ -131,3 +127,8 @@ def set_path(tree: dict, path: str, value: Any) -> None:
     node[parts[-1]] = value
 
 
+def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
+    """The live verdict: the threshold on the live value, within the rules read at writing
+    (``status``: not eligible stays so whatever the value; undetermined stays undetermined), in
+    the words of every output: qualifies, fails, not eligible, undetermined."""
+    return f'IF({status}="not eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","qualifies"),"fails"))'

@@ -29,7 +29,9 @@ from .layout import (
     put_value,
     set_path,
     set_widths,
+    verdict_formula,
 )
+from .style import number_format
 
 SUMMARY_TOP = 1
 
@@ -186,7 +188,7 @@ def _write_month_summary_row(ws, srow: int, month: str, figures: _MonthFigures, 
         put_value(ws, srow, column + 2, engine_checks[scheme.id].value if scheme.id in engine_checks else None)
 
 
-def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, check_column: int, results_cells, address: dict) -> None:
+def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, check_column: int, results_cells, address: dict, year_format: str = "General") -> None:
     """All months, output-weighted: sums of output and emissions, and the weighted stages and scheme values."""
     from openpyxl.utils import get_column_letter
 
@@ -196,6 +198,7 @@ def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, che
     put_formula(ws, year_row, 2, Term(f"SUM(B{first_month_row}:B{last})"), address)
     put_formula(ws, year_row, 4, Term(f"SUM(D{first_month_row}:D{last})"), address)
     put_formula(ws, year_row, 3, Term(f"IF(B{year_row}=0,0,D{year_row}/B{year_row})"), address)
+    ws.cell(row=year_row, column=3).number_format = year_format  # the year's figure, never 17 digits
     for position in range(len(stages)):
         letter = get_column_letter(6 + position)
         weighted = sum_of(local(letter, r) * local("B", r) for r in range(first_month_row, last + 1))
@@ -244,12 +247,13 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         biosphere = _fill_from_block(ws, block, figures, design_amount, address)
         _write_month_summary_row(ws, first_month_row + number, month, figures, plan.engine[number], block, month_model, model, stages, chosen, check_column, results_cells, address, biosphere)
         top = block.end_row + 3
-    _write_year_row(ws, year_row, first_month_row, stages, chosen, check_column, results_cells, address)
+    figures = [engine.total for engine in plan.engine if engine is not None]
+    _write_year_row(ws, year_row, first_month_row, stages, chosen, check_column, results_cells, address, number_format(sum(figures) / len(figures) if figures else None))
     set_widths(ws, {"A": 60, "B": 16, "C": 18, "D": 20, "E": 18})
 
 
 def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None, address: dict) -> None:
-    """pass/fail of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
+    """The status (qualifies, fails, not eligible, undetermined) of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
     from openpyxl.utils import get_column_letter
 
     loosest = scheme.loosest()
@@ -258,9 +262,9 @@ def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None
     if results_cells and f"check:{scheme.id}" in results_cells:
         limit = f"{RESULTS}!$K${results_cells[f'check:{scheme.id}']}"
         status = f"{RESULTS}!$Q${results_cells[f'check:{scheme.id}']}"
-        formula = f'IF({status}="not_eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","pass"),"fail"))'
+        formula = verdict_formula(value, operator, limit, status)
     else:
-        formula = f'IF({value}{operator}{loosest.limit!r},"pass","fail")'
+        formula = f'IF({value}{operator}{loosest.limit!r},"qualifies","fails")'
     put_formula(ws, row, value_column + 1, Term(formula), address)
 
 

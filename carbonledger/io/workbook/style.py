@@ -125,9 +125,13 @@ def fill_missing_formats(ws) -> None:
                 cell.number_format = "#,##0.000"
 
 
-def page_setup(ws, *, title_rows: str | None = None, title_columns: str | None = None, pages_wide: int = 1) -> None:
-    """A4 landscape, margins for binding, header rows repeated on every page, the used range as
-    the print area, ``pages_wide`` pages across and as many down as needed."""
+def page_setup(ws, *, title_rows: str | None = None, title_columns: str | None = None, pages_wide: int = 1, align: bool = True) -> None:
+    """A4 landscape, margins for binding and a footer that prints whole, header rows repeated on
+    every page, the used range and every chart in the print area, ``pages_wide`` pages across and
+    as many down as needed. ``align``: every cell on the top of its row (a label and its value read
+    as one line) and a text right of a number indented (a unit does not run into its number);
+    left out on the interval sheets (a year of hours: styling each cell costs seconds)."""
+    from openpyxl.utils import get_column_letter
     from openpyxl.worksheet.properties import PageSetupProperties
 
     ws.page_setup.orientation = "landscape"
@@ -136,12 +140,35 @@ def page_setup(ws, *, title_rows: str | None = None, title_columns: str | None =
     ws.page_setup.fitToWidth = pages_wide
     ws.page_setup.fitToHeight = 0
     ws.page_margins.left = ws.page_margins.right = 0.5
-    ws.page_margins.top = ws.page_margins.bottom = 0.6
+    ws.page_margins.top = 0.6
+    ws.page_margins.bottom = 0.8  # inches: room for the footer, which sits 0.3 in from the edge
+    ws.page_margins.header = ws.page_margins.footer = 0.3
     ws.print_options.gridLines = False
     ws.oddFooter.center.text = "&A, page &P of &N"
+    ws.oddFooter.center.size = 8
     ws.oddFooter.left.text = "Screening estimate, not a certification"
+    ws.oddFooter.left.size = 8
     if title_rows:
         ws.print_title_rows = title_rows
     if title_columns:
         ws.print_title_cols = title_columns
-    ws.print_area = ws.dimensions
+    if align:
+        align_cells(ws)
+    last_row, last_column = ws.max_row, ws.max_column
+    for chart in getattr(ws, "_charts", []):  # a chart below the cells prints too
+        anchor = chart.anchor if isinstance(chart.anchor, str) else f"A{chart.anchor._from.row + 1}"
+        row = int("".join(ch for ch in anchor if ch.isdigit()))
+        last_row = max(last_row, row + math.ceil(chart.height / 0.5) + 1)  # cm of chart over cm per default row
+    ws.print_area = f"A1:{get_column_letter(last_column)}{last_row}"
+
+
+def align_cells(ws) -> None:
+    from openpyxl.styles import Alignment
+
+    for row in ws.iter_rows():
+        previous = None
+        for cell in row:
+            current = cell.alignment
+            after_number = isinstance(cell.value, str) and not cell.value.startswith("=") and (isinstance(previous, (int, float)) and not isinstance(previous, bool) or (isinstance(previous, str) and previous.startswith("=")))
+            cell.alignment = Alignment(horizontal=current.horizontal, vertical="top", wrap_text=current.wrap_text, indent=max(current.indent or 0, 1 if after_number else 0))
+            previous = cell.value

@@ -48,7 +48,7 @@ from ...model.factors import CITED_FIELDS
 from ...model.project import parameter_table
 from ...routes.base import FLOWS
 from ..files import atomic_write
-from ..labels import INTENSITY_LABELS, stage_name
+from ..labels import INTENSITY_LABELS, electricity_rule_name, gwp_name, lower_words, stage_name, status_name, unit_name
 from .calculation import (
     CalculationBlock,
     SymbolicModel,
@@ -86,6 +86,7 @@ from .layout import (
     put_value,
     set_path,
     set_widths,
+    verdict_formula,
 )
 from .periods_sheet import plan_periods, write_periods_sheet
 from .style import (
@@ -399,7 +400,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     row = checks_header
     check_columns = (
         "scheme", "name", "basis", "GWP100 set", "electricity rule", "stages left out", "quantity", "unit",
-        "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "pass or fail", "margin (threshold - value)",
+        "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "status (live)", "margin (threshold - value)",
         "best tier met", "from memory", "engine value at writing", "status (rules read at writing)", "reasons (rule and source)",
     )
     for column, text in enumerate(check_columns, start=1):
@@ -417,7 +418,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
             value = value + Term.of(model.declared_e_td)
         loosest_row = max(threshold_rows[scheme.id], key=lambda item: item[1].limit)[0]
         for number, text in enumerate(
-            (scheme.id, scheme.name, scheme.basis, scheme.gwp, scheme.electricity, ", ".join(scheme.excluded_stages) or "none", scheme.quantity, scheme.unit),
+            (scheme.id, scheme.name, lower_words(scheme.basis), gwp_name(scheme.gwp), electricity_rule_name(scheme.electricity), ", ".join(stage_name(s) for s in scheme.excluded_stages) or "none", unit_name(scheme.quantity), scheme.unit),
             start=1,
         ):
             put_text(ws, row, number, text)
@@ -433,7 +434,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         elif co_product_note.startswith("scheme value rescored"):
             # the scheme's co-product rule differs from the project's: the live value keeps the project's method, the
             # engine value (column P) and status (Q) are the scheme's; the reasons say so
-            put_text(ws, row, 12, f"{VERDICT_WORDS.get(engine_check.status, engine_check.status)} (scheme's co-product rule, column P)")
+            put_text(ws, row, 12, f"{status_name(engine_check.status)} (scheme's co-product rule, column P)")
         else:
             put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
         put_formula(ws, row, 13, Term(f'IF($Q${row}="not_eligible","",$K${row}-$J${row})'), address)
@@ -441,14 +442,14 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         for trow_, threshold in reversed(threshold_rows[scheme.id]):  # loosest outermost, strictest innermost
             comparison = "<=" if threshold.inclusive else "<"
             tier = f"IF($J${row}{comparison}$C${trow_},$B${trow_},{tier})"
-        put_formula(ws, row, 14, Term(f'IF(OR($Q${row}="not_eligible",$Q${row}="undetermined"),"none",{tier})'), address)
+        put_formula(ws, row, 14, Term(f'IF(OR($Q${row}="not eligible",$Q${row}="undetermined"),"none",{tier})'), address)
         put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
         put_value(ws, row, 16, engine_check.value if engine_check else None)
         shown = number_format(engine_check.value if engine_check else None)
         for column in (9, 10, 11, 13):
             style_cell(ws.cell(row=row, column=column), "formula", shown)
         style_cell(ws.cell(row=row, column=16), "engine", shown)
-        put_text(ws, row, 17, engine_check.status if engine_check else "")
+        put_text(ws, row, 17, status_name(engine_check.status) if engine_check else "")
         put_text(ws, row, 18, " | ".join(engine_check.reasons + ([co_product_note] if co_product_note.startswith("scheme value rescored") else [])) if engine_check else "")
         cells[f"check:{scheme.id}"] = row
     longest_name = max((len(scheme.name) for scheme in chosen), default=20)
@@ -478,15 +479,6 @@ def _figure(ws, row: int, term, address, engine_value) -> None:
     shown = number_format(engine_value)
     style_cell(ws.cell(row=row, column=2), "formula", shown)
     style_cell(ws.cell(row=row, column=4), "engine", shown)
-
-
-VERDICT_WORDS = {"qualifies": "pass", "fails": "fail", "not_eligible": "not eligible", "undetermined": "undetermined"}
-
-
-def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
-    """The live verdict: the threshold on the live value, within the rules read at writing
-    (``status``: not eligible stays so whatever the value; undetermined stays undetermined)."""
-    return f'IF({status}="not_eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","pass"),"fail"))'
 
 
 def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source, series_source: str = "") -> None:
