@@ -747,9 +747,9 @@ def pack(
         factors_in_pack = f"factors/{overrides.name}"
         files.update({f"{factors_in_pack}/{path.name}": path.read_bytes() for path in sorted(overrides.iterdir()) if path.is_file()})
     files["result.json"] = result.to_json().encode("utf-8")
-    book, _, _ = audit_workbook(project_file, factors=str(factors), gwp=gwp, schemes=schemes)
+    book, _, _ = audit_workbook(project_file, factors=str(factors), gwp=gwp, schemes=schemes, year=year)
     files["workbook.xlsx"] = workbook_bytes(book)
-    files["report.html"] = report([project_file], factors=factor_set, gwp=gwp, schemes=schemes).encode("utf-8")
+    files["report.html"] = report([project_file], factors=factor_set, gwp=gwp, schemes=schemes, year=year).encode("utf-8")
     try:
         records = project_history(project_file, ledger)
     except InputError:  # no ledger yet: the pack says so

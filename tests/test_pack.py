@@ -18,7 +18,7 @@ BLUE = DEMO / "blue_atr_ammonia.toml"
 @pytest.fixture(scope="module")
 def blue_pack(tmp_path_factory):
     out = tmp_path_factory.mktemp("pack") / "blue.zip"
-    result = run_cli("pack", BLUE, "-o", out, "--year", "2026")
+    result = run_cli("pack", BLUE, "-o", out, "--year", "2029")
     assert result.exit_code == 0, result.output
     return out
 
@@ -41,7 +41,7 @@ def test_the_pack_holds_every_deliverable_and_a_manifest_of_their_sha256(blue_pa
             assert hashlib.sha256(archive.read(name)).hexdigest() == digest, name
     assert {"project/blue_atr_ammonia.toml", "result.json", "workbook.xlsx", "report.html", "ledger.json", "manifest.json"} <= names
     assert set(manifest["files"]) == names - {"manifest.json"}
-    assert manifest["assessment_year"] == 2026 and manifest["carbonledger_version"] and manifest["factor_set"]["name"] == "default-2026"
+    assert manifest["assessment_year"] == 2029 and manifest["carbonledger_version"] and manifest["factor_set"]["name"] == "default-2026"
     assert (DEMO / "blue_atr_ammonia.toml").read_bytes() == zipfile.ZipFile(blue_pack).read("project/blue_atr_ammonia.toml")
 
 
@@ -97,7 +97,7 @@ def test_a_result_not_reproduced_is_listed(blue_pack, tmp_path):
 def test_factor_overrides_travel_in_the_pack(tmp_path):
     rows = write(tmp_path / "rows.csv", FACTOR_HEADER + "electricity.grid.eu27_2018,300,g CO2e/kWh,Invented override for a test,Table 0,2018,EU-27,Basis: CO2e; test,true\n")
     out = tmp_path / "over.zip"
-    assert run_cli("pack", BLUE, "-o", out, "--factors", rows, "--year", "2026").exit_code == 0
+    assert run_cli("pack", BLUE, "-o", out, "--factors", rows, "--year", "2029").exit_code == 0
     assert "factors/rows.csv" in zipfile.ZipFile(out).namelist()
     result = run_cli("verify", out)
     assert result.exit_code == 0, result.output

@@ -399,13 +399,14 @@ class MatchingView:
     by local hour of day and month."""
 
     schemes: list[str]
-    granularity: str  # the rule in words (e.g. 'month until 2029-12-31, hour from 2030-01-01')
+    granularity: str  # the period matched in the assessment year: interval, hour, month, quarter, year
     matched_share: float
     months: list[str]
     monthly_load_kwh: np.ndarray
     monthly_matched_kwh: np.ndarray
     unmatched_share: np.ndarray  # 24 x months, NaN where there is no use
     eligible: list[str]
+    rule: str = ""  # the rulebook's dated rule in words (e.g. 'month until 2029-12-31, hour from 2030-01-01')
 
 
 def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries) -> list[MatchingView]:
@@ -427,7 +428,8 @@ def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, ser
         _, column = np.unique(series.local.astype("datetime64[M]"), return_inverse=True)
         view = MatchingView(
             schemes=[scheme.id],
-            granularity=describe(scheme),
+            granularity=model.granularity,
+            rule=describe(scheme),
             matched_share=outcome.matched_share,
             months=months,
             monthly_load_kwh=np.bincount(column, load, minlength=len(months)),

@@ -21,7 +21,7 @@ import typer
 from typer.core import TyperCommand
 
 from ..about import __version__
-from .options import WordsGroup, words_for_types
+from .words import WordsGroup, words_for_types
 
 # name -> (module of carbonledger.cli, function); "factors" is a group: the module's ``app``
 COMMANDS = {

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from typing import Annotated
 
 import typer
@@ -12,7 +13,7 @@ from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.labels import factor_grades_sentence
 from ..io.portfolio_output import diff_rows, diff_table, sets_table
-from ..io.tables import plain_table
+from ..io.tables import plain_table, terminal_width
 from ..model.factors import FACTOR_COLUMNS, diff_sets, factor_row, load_factor_set, set_listing
 from ..model.grades import GRADE_MEANING, Grade, grade_kind, grades_of
 from ..stages.electricity import ACCOUNTING_BASIS, accounting_basis
@@ -75,11 +76,13 @@ def show_factors(factor_set, rows: list, output_format: OutputFormat) -> None:
     )
 
     def table() -> str:
-        head = f"factor set {factor_set.name} (sha256 {factor_set.sha256})"
-        body = plain_table(["id", "value", "unit", "source grade", "source"], [[f.id, f"{f.value:g}", f.unit, f.grade.value, f.source] for f in rows], {"value"}, wrap={"unit", "source"})
+        head = f"factor set {factor_set.name} (sha256 {factor_set.sha256[:12]})"
+        body = plain_table(["id", "value", "grade", "source"], [[f.id, f"{f.value:g} {f.unit}", f.grade.value, f.source] for f in rows], set(), wrap={"value", "source"})
         legend = f"Source grades: {'; '.join(f'{g.value}: {GRADE_MEANING[g]}' for g in Grade)}."
         summary = factor_grades_sentence(grades_of(rows), len(rows)).replace("factors used", "factors listed")
-        return "\n".join([head, body.rstrip("\n"), summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"])
+        width = terminal_width()
+        notes = [textwrap.fill(line, width) for line in [summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"]]
+        return "\n".join([head, body.rstrip("\n"), *notes])
 
     def json_text() -> str:
         return strict_json(

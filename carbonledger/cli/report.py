@@ -36,10 +36,10 @@ def report(
 ) -> None:
     """Write the project report: summary and verdicts, stages and gases, scheme limits, hourly matching, spread of the result, lifetime, inputs, factors and their sources."""
     try:
-        where = ledger_for_run(ledger, not no_ledger)
         if output.suffix.lower() not in (".html", ".htm"):
             raise InputError(output, "--output", f"a file ending in .html, got '{output.suffix or 'no suffix'}'")
         check_draws(draws, seed)  # before any work, even when no project has an [uncertainty] table
+        where = ledger_for_run(ledger, not no_ledger)
         if paper.lower() not in PAPERS:
             raise InputError("--paper", paper, "a4 or letter")
         for target in [output] + ([pdf] if pdf is not None else []):

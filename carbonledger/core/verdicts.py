@@ -427,14 +427,16 @@ def status_of(findings: list[Finding], threshold_met: bool) -> str:
 
 
 def ordered_reasons(status: str, findings: list[Finding], threshold: Finding | None) -> list[str]:
-    """Reasons as sentences, the deciding ones first. A not-eligible check has no threshold sentence.
+    """Reasons as sentences, the deciding ones first. A not-eligible check has no threshold sentence and
+    gives only its eligibility findings.
 
     fails: the electricity rules whose failure changed what a kWh is charged, then the threshold;
     undetermined: what cannot be judged; qualifies: the threshold; not eligible: the eligibility
     rules not met.
     """
-    if status == Status.NOT_ELIGIBLE:
+    if status == Status.NOT_ELIGIBLE:  # the other rules are moot: only the eligibility findings are given
         first = [f for f in findings if f.step == "eligibility" and f.outcome == NOT_MET]
+        findings = [f for f in findings if f.step == "eligibility"]
         threshold = None
     elif status == Status.FAILS:
         first = [f for f in findings if f.charged] + [threshold]

@@ -126,9 +126,13 @@ def diff_table(old_name: str, new_name: str, changes) -> str:
         ]
         for r in diff_rows(changes)
     ]
+    grades: dict[str, int] = {}
+    for r in diff_rows(changes):
+        grades[r["grade"]] = grades.get(r["grade"], 0) + 1
     head = f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, {sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} removed\n"
-    body = plain_table(["kind", "id", "old", "new", "unit", "source [source grade]"], rows, {"old", "new"}, wrap={"id", "unit", "source [source grade]"}) if rows else ""
-    return head + body + f"Caution: {CAUTION}\n"
+    body = plain_table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}, wrap={"id", "unit", "source"}) if rows else ""
+    graded = ("Source grades of the rows listed: " + "; ".join(f"{words}: {count}" for words, count in grades.items()) + "\n") if grades else ""
+    return head + body + graded + f"Caution: {CAUTION}\n"
 
 
 # --- lifetime ------------------------------------------------------------------------------------

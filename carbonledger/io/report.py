@@ -448,7 +448,7 @@ def glance_section(item: ProjectReport, key: str, caution: str) -> str:
     lines = []
     for check in result.checks:
         reasons = reasons_of(check)
-        remembered = '<span class="flag" title="rulebook or threshold recorded from memory">*</span>' if check.from_memory else ""
+        remembered = '<span class="flag" title="rulebook or threshold not yet verified against the source document">*</span>' if check.from_memory else ""
         lines.append(
             f'<tr class="verdict"><th scope="row">{text(check.name)}{remembered} <span class="scheme-id">{text(check.scheme)}</span></th>'
             f"<td>{badge(status_of(check))}</td><td class=num>{number(check.value)}</td><td class=num>{number(check.limit)}</td>"
@@ -460,7 +460,7 @@ def glance_section(item: ProjectReport, key: str, caution: str) -> str:
         f'<table class="verdicts"><thead><tr>{head}</tr></thead><tbody>{"".join(lines)}</tbody></table>'
         if lines else "<p>No scheme applies to this product.</p>"
     )
-    remembered = '<p class="note">Under each scheme, its deciding reason; every reason is under "Against each scheme".' + (" * rulebook or threshold recorded from memory, not yet checked against the legal text." if any(c.from_memory for c in result.checks) else "") + "</p>"
+    remembered = '<p class="note">Under each scheme, its deciding reason; every reason is under "Against each scheme".' + (" * rulebook or threshold not yet verified against the source document." if any(c.from_memory for c in result.checks) else "") + "</p>"
     year = assessment_year_of(result)
     return (
         f'<section class="sheet" id="{key}-glance" aria-labelledby="{key}-glance-h"><h2 id="{key}-glance-h">At a glance</h2>'
@@ -553,7 +553,7 @@ def schemes_section(item: ProjectReport, key: str) -> str:
             tiers = "; ".join(
                 f"{'&le;' if t.inclusive else '&lt;'} {number(t.limit)}: {text(t.tier)}" for t in sorted(book.thresholds, key=lambda t: -t.limit)
             )
-        source = text(book.document if book else "") + (" (recorded from memory, not checked against the legal text)" if check.from_memory else "")
+        source = text(book.document if book else "") + (" (not yet verified against the source document)" if check.from_memory else "")
         details.append(
             f'<div class="scheme"><h4>{text(check.name)} {badge(status_of(check))}</h4>'
             f"<dl><dt>Value against limit</dt><dd>{number(check.value)} against {number(check.limit)} {text(check.unit)}"
@@ -628,7 +628,7 @@ def matching_section(item: ProjectReport, key: str) -> str:
         source = f" Series <code>{text(figures.series_file)}</code>, {figures.intervals} intervals of {figures.interval_minutes} minutes from {text(figures.first_interval)}." if figures else ""
         parts.append(
             f"<h3>{names}</h3>"
-            f"<p>Matching period: {text(view.granularity)}. Generation counted: {text(', '.join(view.eligible) or 'none')}. "
+            f"<p>Matching period: {text(view.granularity)} ({text(view.rule)}). Generation counted: {text(', '.join(view.eligible) or 'none')}. "
             f"<strong>{view.matched_share:.1%}</strong> of the electricity used is matched over the series.{source}</p>"
             + monthly_matching_svg(view, f"{key}-mm{index}")
             + (heat_map_svg(view, f"{key}-hm{index}") if hours_matter(view) else f"<p class=note>{text(no_heat_map_reason(view))}</p>")
@@ -736,14 +736,14 @@ def factors_on_paper(result: ScoreResult) -> str:
     its source, table and note on a second line across the page."""
     lines = []
     for f in result.factors_used:
-        flag = '<span class="flag">from memory</span>' if f.from_memory else "checked"
+        flag = '<span class="flag">not yet verified</span>' if f.from_memory else text(f.grade.value)
         source = text(f.source) + (f", {text(f.table)}" if f.table else "") + (f". {text(f.note)}" if f.note else "")
         lines.append(
             f'<tr class="factor"><th scope="row"><code>{text(f.id)}</code></th><td class=num>{number(f.value)}</td><td>{text(f.unit)}</td>'
             f"<td>{text(f.year or '')}</td><td>{text(f.region)}</td><td>{flag}</td></tr>"
             f'<tr class="about"><td colspan="6">{source}</td></tr>'
         )
-    head = "".join(f'<th scope="col">{h}</th>' for h in ("Factor", "Value", "Unit", "Year", "Region", "Checked"))
+    head = "".join(f'<th scope="col">{h}</th>' for h in ("Factor", "Value", "Unit", "Year", "Region", "Source grade"))
     return f'<table class="factors paper"><thead><tr>{head}</tr></thead><tbody>{"".join(lines)}</tbody></table>'
 
 

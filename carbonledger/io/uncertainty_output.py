@@ -65,7 +65,7 @@ def uncertainty_csv(result: UncertaintyResult) -> str:
     return rows_to_csv(("section", "key", "statistic", "value", "unit"), uncertainty_rows(result))
 
 
-def console_for_text(width: int = 120):
+def console_for_text(width: int | None = None):
     """A console that prints names as typed: ``[...]``, ``:name:`` and ``[/]`` are text, never markup."""
     return plain_console(width)
 
@@ -124,7 +124,7 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     console.print(figures)
     if result.checks:
         checks = Table(title="Probability of each verdict (Monte Carlo standard error)", title_justify="left")
-        for column in ("scheme", "limit", "mean value", "p5", "p95", "unit", "qualifies", "other verdicts", "best tier met"):
+        for column in ("scheme", "limit", "mean value", "p5", "p95", "unit", "qualifies", "best tier met"):
             checks.add_column(column, justify="right" if column in ("limit", "mean value", "p5", "p95", "qualifies") else "left")
         for check in result.checks:
             tiers = "; ".join(f"{name}: {item.probability:.1%}" for name, item in check.tiers.items() if item.probability > 0 and len(check.tiers) > 2)
@@ -136,10 +136,13 @@ def uncertainty_table(result: UncertaintyResult) -> str:
                 display_number(check.value.p95),
                 check.unit,
                 f"{check.probability_qualifies:.2%} ± {check.standard_error:.2%}",
-                "; ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0) or "-",
                 tiers or "-",
             )
         console.print(checks)
+        for check in result.checks:  # the draws that do not qualify, by verdict (an undetermined draw met the limit)
+            others = "; ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0)
+            if others:
+                console.print(f"{check.scheme}: {others}")
         if any(check.from_memory for check in result.checks):
             console.print("* rulebook or threshold not yet verified against the source document")
     console.print(f"Caution: {result.caution} Probabilities hold only for the distributions given; they are not a verifier's finding.")

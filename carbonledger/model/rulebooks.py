@@ -53,8 +53,8 @@ class Graded(BaseModel):
 
 
 def grade_note(source: str, grade: str) -> str:
-    """A source as reasons cite it: the grade is named (in users' words) unless it is the primary text."""
-    return source if grade == Grade.PRIMARY_TEXT else f"{source}; {Grade(grade).words}"
+    """A source as reasons cite it: the grade is named unless it is the primary text."""
+    return source if grade == Grade.PRIMARY_TEXT else f"{source}; {Grade(grade).value}"
 
 
 def at_or_under(value, limit: float, inclusive: bool):

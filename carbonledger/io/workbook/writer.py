@@ -437,7 +437,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
             put_text(ws, row, 12, f"{status_name(engine_check.status)} (scheme's co-product rule, column P)")
         else:
             put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
-        put_formula(ws, row, 13, Term(f'IF($Q${row}="not_eligible","",$K${row}-$J${row})'), address)
+        put_formula(ws, row, 13, Term(f'IF($Q${row}="not eligible","",$K${row}-$J${row})'), address)
         tier = '"none"'
         for trow_, threshold in reversed(threshold_rows[scheme.id]):  # loosest outermost, strictest innermost
             comparison = "<=" if threshold.inclusive else "<"
