@@ -906,6 +906,12 @@ def _no_solution_reason(best, reached) -> str:
     return f"no lever values within the ranges qualify; the best smallest margin reached is {reached.margin:.4g}" + (f", with {reached.note} at a bound of its range" if reached.note else "")
 
 
+def check_confidence(confidence: float | None) -> None:
+    """A confidence is a probability strictly between 0 and 1 (None: the central value)."""
+    if confidence is not None and not 0 < confidence < 1:
+        raise InputError("--confidence", str(confidence), "a probability strictly between 0 and 1")
+
+
 def _solver(search, combinations, confidence, seed) -> dict:
     """How the answer was found: the solvers, their tolerances and the work done."""
     return {
@@ -949,8 +955,7 @@ def qualify(
         ``seed``, ``sampling``; ``uncertainty``: the distributions) in which every scheme must qualify.
     budgets : points of the cost/margin front (0: none).
     """
-    if confidence is not None and not 0 < confidence < 1:
-        raise InputError("--confidence", str(confidence), "a probability strictly between 0 and 1")
+    check_confidence(confidence)
     if confidence is not None and draws < 2:
         raise InputError("--draws", str(draws), "at least 2 draws")
     if not schemes:

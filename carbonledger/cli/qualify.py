@@ -8,7 +8,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
-from ..analyses.qualify import FRONT_BUDGETS
+from ..analyses.qualify import FRONT_BUDGETS, check_confidence
 from ..analyses.uncertainty import DEFAULT_SEED
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
@@ -54,8 +54,7 @@ def qualify(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
-        if confidence is not None and not 0 < confidence < 1:
-            raise InputError("--confidence", str(confidence), "a probability strictly between 0 and 1")
+        check_confidence(confidence)  # before any file is read
         if chart is not None and front < 2:
             raise InputError(chart, "--chart", "a front of at least 2 budgets (--front)")
         result = api.qualify(
