@@ -81,6 +81,41 @@ def comparison_csv(result: ComparisonResult) -> str:
     return csv_text(header, rows, caution=result.caution)
 
 
+UNCERTAINTY_ROW_NAMES = {"p5": "5th percentile", "p50": "median of draws", "mean": "mean of draws", "p95": "95th percentile"}
+
+
+def comparison_row_name(section: str, key: str) -> str:
+    """The words heading a row of the comparison table."""
+    if section == "intensity":
+        return "per " + per_name(key)
+    if section == "by_stage":
+        return stage_name(key)
+    if section == "by_gas":
+        return gas_name(key)
+    if section == "basis":
+        return f"on the common basis (per {per_name(key)})"
+    if section == "uncertainty":
+        return UNCERTAINTY_ROW_NAMES.get(key, key)
+    if section.startswith("check:"):
+        return f"{section.split(':', 1)[1]} {key}"
+    return key
+
+
+def comparison_row_words(section: str, key: str, unit: str, values: list, result: ComparisonResult) -> tuple[str, str, list[str]]:
+    """A comparison row as the table prints it: its name, its unit and its cells in words and plain numbers."""
+    name = comparison_row_name(section, key)
+    cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
+    if key.startswith("probability_"):
+        name = f"{section.split(':', 1)[1]} {'qualifies (probability)' if key == 'probability_qualifies' else '± standard error'}"
+        cells = ["" if v is None else f"{v:.2%}" for v in values]
+    if section == "uncertainty" and key in ("draws", "seed"):
+        cells = [v if isinstance(v, str) else "-" if v is None else f"{v:,}" if key == "draws" else str(v) for v in values]
+    if section == "factor_grade":  # the ids of the rows not yet verified are listed below the table
+        grade = GRADE_BY_WORDS[key]
+        name, unit, cells = f"factors: {key}", "count", [str(len(p.factor_grades.get(grade.value, []))) for p in result.projects]
+    return name, unit, cells
+
+
 def render_comparison(result: ComparisonResult) -> str:
     from rich.table import Table
 
@@ -101,26 +136,7 @@ def render_comparison(result: ComparisonResult) -> str:
         if group != last and group not in section_titles:
             table.add_section()
         last = group
-        name = key if section in ("project", "total", "basis") else (f"{section.split(':', 1)[1]} {key}" if section.startswith("check:") else key)
-        if section == "intensity":
-            name = "per " + per_name(key)
-        if section == "by_stage":
-            name = stage_name(key)
-        if section == "by_gas":
-            name = gas_name(key)
-        if section == "basis":
-            name = f"on the common basis (per {per_name(key)})"
-        if section == "uncertainty":
-            name = {"p5": "5th percentile", "p50": "median of draws", "mean": "mean of draws", "p95": "95th percentile"}.get(key, key)
-        cells = [v if isinstance(v, str) else ("yes" if v else "no") if isinstance(v, bool) else display_number(v) for v in values]
-        if key.startswith("probability_"):
-            name = f"{section.split(':', 1)[1]} {'qualifies (probability)' if key == 'probability_qualifies' else '± standard error'}"
-            cells = ["" if v is None else f"{v:.2%}" for v in values]
-        if section == "uncertainty" and key in ("draws", "seed"):
-            cells = [v if isinstance(v, str) else "-" if v is None else f"{v:,}" if key == "draws" else str(v) for v in values]
-        if section == "factor_grade":  # the ids of the rows not yet verified are listed below the table
-            grade = GRADE_BY_WORDS[key]
-            name, unit, cells = f"factors: {key}", "count", [str(len(p.factor_grades.get(grade.value, []))) for p in result.projects]
+        name, unit, cells = comparison_row_words(section, key, unit, values, result)
         table.add_row(name.replace("_", " ") if section != "project" else name, unit, *cells)
     console.print(table)
     console.print("Scheme checks follow each scheme's own rulebook (basis, boundary, GWP set, electricity rule), not the comparison's boundary.")

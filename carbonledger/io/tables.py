@@ -185,6 +185,18 @@ def render(result: ScoreResult) -> str:
         f"factors: {result.factor_set.name} (sha256 {result.factor_set.sha256[:12]})"
     )
     console.print(f"total: {display_number(result.total)} {result.unit}")
+    _print_breakdowns(console, result, Table)
+    for note in _result_notes(result):
+        console.print(note)
+    if result.checks:
+        _print_checks(console, result, Table)
+    console.print(factor_grades_sentence(result.factor_grades, len(result.factors_used)), highlight=False, markup=False)
+    console.print(f"Caution: {result.caution}")
+    return console.export_text()
+
+
+def _print_breakdowns(console, result: ScoreResult, Table) -> None:
+    """The intensities, then the total by stage and by gas with their shares."""
     intensity = Table(title="Carbon intensity", title_justify="left", show_header=True)
     intensity.add_column("per")
     intensity.add_column("value", justify="right")
@@ -203,51 +215,52 @@ def render(result: ScoreResult) -> str:
             share = value / result.total if result.total else 0.0
             table.add_row(name(key), display_number(value), f"{share:.1%}")
         console.print(table)
+
+
+def _result_notes(result: ScoreResult) -> list[str]:
+    """What the total leaves out and why: NH3, leaked hydrogen, biogenic CO2, the co-product's method."""
+    notes = []
     if result.non_ghg_kg.get("nh3"):
-        console.print(f"NH3 emitted (not a greenhouse gas, not in CO2e): {display_number(result.non_ghg_kg['nh3'])} kg per functional unit")
+        notes.append(f"NH3 emitted (not a greenhouse gas, not in CO2e): {display_number(result.non_ghg_kg['nh3'])} kg per functional unit")
     if result.hydrogen_leakage_kg:
-        console.print(
+        notes.append(
             f"H2 leaked: {display_number(result.hydrogen_leakage_kg)} kg per functional unit; its indirect effect, "
             f"{display_number(result.hydrogen_leakage_kg_co2e)} kg CO2e (GWP100 of hydrogen), is not in the total or any scheme value"
         )
     biogenic = result.biogenic_co2_kg
     if biogenic.get("released") or biogenic.get("captured_and_stored"):
-        console.print(
+        notes.append(
             f"Biogenic CO2 (carbon from biomass, counted apart, not in the total): released {display_number(biogenic['released'])} kg, "
             f"captured and stored {display_number(biogenic['captured_and_stored'])} kg per functional unit; the stored CO2 is not "
             "netted against the total or a scheme value unless its rulebook says so"
         )
     if result.co_products:
-        console.print(
+        notes.append(
             f"Co-product: {result.co_products.get('co_product', '')}, the project's method {result.co_products.get('method', '')} in the total; "
             "each scheme's value uses its rulebook's rule where it states one (JSON key co_products on each check)"
         )
-    if result.checks:
-        table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
-        for column in ("scheme", "status", "value", "limit", "unit", "tier", "GWP"):  # tier and unit wrap first
-            table.add_column(column, justify="right" if column in ("value", "limit") else "left", no_wrap=column in ("scheme", "status", "value", "limit", "GWP"), overflow="fold")
-        for check in result.checks:
-            table.add_row(
-                check.scheme + (" *" if check.from_memory else ""),
-                status_name(check.status),
-                display_number(check.value),
-                display_number(check.limit),
-                check.unit,
-                check.tier or "-",
-                gwp_name(check.gwp_basis),
-            )
-        console.print(table)
-        for check in result.checks:
-            if check.reasons:  # the deciding reason comes first
-                console.print(f"{check.scheme}: {status_name(check.status)}, because {check.reasons[0]}", highlight=False, markup=False)
-        console.print(f"Assessment year {assessment_year(result)}: the scheme rules are read on its dates (--year). Each check is on its rulebook's own basis and boundary; every reason is in the JSON and CSV output.")
-        matched = [check for check in result.checks if check.electricity_matching is not None]
-        if matched:
-            _matching_tables(console, matched, Table)
-        if result.boundary != "cradle-to-gate":
-            console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
-        if any(check.from_memory for check in result.checks):
-            console.print("* rulebook or threshold not yet verified against the source document")
-    console.print(factor_grades_sentence(result.factor_grades, len(result.factors_used)), highlight=False, markup=False)
-    console.print(f"Caution: {result.caution}")
-    return console.export_text()
+    return notes
+
+
+def _print_checks(console, result: ScoreResult, Table) -> None:
+    """The scheme checks, each one's deciding reason, the assessment year and the matching tables."""
+    table = Table(title="Scheme checks (each under its own rulebook)", title_justify="left")
+    for column in ("scheme", "status", "value", "limit", "unit", "tier", "GWP"):  # tier and unit wrap first
+        table.add_column(column, justify="right" if column in ("value", "limit") else "left",
+                         no_wrap=column in ("scheme", "status", "value", "limit", "GWP"), overflow="fold")
+    for check in result.checks:
+        table.add_row(check.scheme + (" *" if check.from_memory else ""), status_name(check.status), display_number(check.value),
+                      display_number(check.limit), check.unit, check.tier or "-", gwp_name(check.gwp_basis))
+    console.print(table)
+    for check in result.checks:
+        if check.reasons:  # the deciding reason comes first
+            console.print(f"{check.scheme}: {status_name(check.status)}, because {check.reasons[0]}", highlight=False, markup=False)
+    console.print(f"Assessment year {assessment_year(result)}: the scheme rules are read on its dates (--year). Each check is on its "
+                  "rulebook's own basis and boundary; every reason is in the JSON and CSV output.")
+    matched = [check for check in result.checks if check.electricity_matching is not None]
+    if matched:
+        _matching_tables(console, matched, Table)
+    if result.boundary != "cradle-to-gate":
+        console.print(f"Scheme checks stay on each rulebook's own basis (the plant gate), not on the {result.boundary} boundary above.")
+    if any(check.from_memory for check in result.checks):
+        console.print("* rulebook or threshold not yet verified against the source document")

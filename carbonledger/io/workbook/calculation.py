@@ -130,7 +130,19 @@ EXCHANGE_COLUMNS = (
 
 
 
-def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str, str], *, top: int, title: str, scale_column: dict | None = None) -> CalculationBlock:
+ACTIVITY_COLUMNS = (
+    "activity",
+    "stage",
+    "name",
+    "unit of product",
+    "supply per functional unit",
+    "supply per kg H2 at the hydrogen plant gate",
+    "supply per unit of product at the plant gate",
+)
+
+
+def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str, str], *, top: int, title: str,
+                            scale_column: dict | None = None) -> CalculationBlock:
     """Activities with supply formulas, then one row per exchange; returns where things are.
 
     ``scale_column`` optionally maps a supplier key to a cell (Term) that multiplies every
@@ -140,96 +152,27 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
 
     inventory = model.inventory
     block = CalculationBlock(sheet=ws.title)
-    row = top
-    put_text(ws, row, 1, title)
-    ws.cell(row=row, column=1).font = font_bold()
-    row += 1
-    put_text(ws, row, 1, "Supply: units of each activity's product per functional unit = demand + sum over consumers of (amount consumed per unit of the consumer x supply of the consumer).")
-    row += 2
-    activity_header = (
-        "activity",
-        "stage",
-        "name",
-        "unit of product",
-        "supply per functional unit",
-        "supply per kg H2 at the hydrogen plant gate",
-        "supply per unit of product at the plant gate",
-    )
-    for column, text in enumerate(activity_header, start=1):
-        put_text(ws, row, column, text)
-    bold_row(ws, row, len(activity_header))
+    row = _write_block_heading(ws, top, title)
     for key in inventory.activities:
         row += 1
         block.activity_row[key] = row
-    exchange_header_row = row + 2
-    # exchange rows first (their addresses are needed by the supply formulas)
-    row = exchange_header_row
+    row += 2  # the exchange header; exchange rows first (their addresses are needed by the supply formulas)
     headers = list(EXCHANGE_COLUMNS) + [f"kg CO2e per unit of basis, {scheme.id} ({scheme.gwp.upper()})" for scheme in chosen]
     for column, text in enumerate(headers, start=1):
         put_text(ws, row, column, text)
     bold_row(ws, row, len(headers))
     for position, scheme in enumerate(chosen):
         block.scheme_column[scheme.id] = get_column_letter(len(EXCHANGE_COLUMNS) + 1 + position)
-    exchange_row: dict[tuple[str, int], int] = {}
-    for number, (key, index) in enumerate((key, index) for key, activity in inventory.activities.items() for index in range(len(activity.exchanges))):
-        exchange_row[(key, index)] = row + 1 + number
-    flow_index = {flow: number for number, flow in enumerate(FLOWS)}
-
-    def grid_intensity(grid_key: str, gwp: str):
-        """kg CO2e per kWh of the grid source under a GWP set: its emission amounts (column G) x GWP."""
-        emissions = [(index, e) for index, e in enumerate(inventory.activities[grid_key].exchanges) if e.kind == "biosphere"]
-        return sum_of(local("G", exchange_row[(grid_key, index)]) * model.per_gwp[gwp][flow_index[e.input]] for index, e in emissions)
-
-    for key, activity in inventory.activities.items():
-        supply = local("E", block.activity_row[key])
-        hydrogen_gate_supply = local("F", block.activity_row[key])
-        product_gate_supply = local("G", block.activity_row[key])
-        first_emission = next((index for index, e in enumerate(activity.exchanges) if e.kind == "biosphere"), None)
-        for index, exchange in enumerate(activity.exchanges):
-            row += 1
-            block.exchange_rows.append((row, key, exchange))
-            put_text(ws, row, 1, key)
-            put_text(ws, row, 2, activity.stage)
-            put_text(ws, row, 3, "input" if exchange.kind == "technosphere" else "emission")
-            put_text(ws, row, 4, exchange.input)
-            put_text(ws, row, 5, exchange.label)
-            put_text(ws, row, 6, exchange.unit)
-            amount = exchange.amount
-            if scale_column and exchange.kind == "technosphere" and exchange.input in scale_column:
-                amount = Term.of(amount) * scale_column[exchange.input]
-            put_formula(ws, row, 7, amount, address)
-            put_formula(ws, row, 8, supply, address)
-            put_formula(ws, row, 9, local("G", row) * local("H", row), address)
-            if exchange.kind != "biosphere":
-                continue
-            number = flow_index[exchange.input]
-            put_formula(ws, row, 10, model.headline[number], address)
-            put_formula(ws, row, 11, local("I", row) * local("J", row), address)
-            put_formula(ws, row, 12, local("G", row) * hydrogen_gate_supply * local("J", row), address)
-            for scheme in chosen:
-                column = len(EXCHANGE_COLUMNS) + 1 + list(block.scheme_column).index(scheme.id)
-                charged = model.charged_as_grid.get(scheme.id, {})
-                basis_supply = {"product": product_gate_supply, "delivered": supply}.get(scheme.basis, hydrogen_gate_supply)
-                if key in charged and index == first_emission:  # a failing source: its kWh at the grid source's intensity
-                    put_formula(ws, row, column, basis_supply * grid_intensity(charged[key], scheme.gwp), address)
-                    continue
-                reason = zero_rated(scheme, inventory, key, model.counted_zero.get(scheme.id, ()), charged)
-                if reason:
-                    put_text(ws, row, column, reason)
-                    continue
-                put_formula(ws, row, column, local("G", row) * basis_supply * model.per_gwp[scheme.gwp][number], address)
-    # activities with supply formulas
-    consumers = consumers_of(inventory)
-    for key, activity in inventory.activities.items():
-        arow = block.activity_row[key]
-        put_text(ws, arow, 1, key)
-        put_text(ws, arow, 2, activity.stage)
-        put_text(ws, arow, 3, activity.name)
-        put_text(ws, arow, 4, activity.unit)
-        for column, letter, demand in ((5, "E", inventory.reference), (6, "F", inventory.hydrogen), (7, "G", inventory.gate)):
-            terms = [Term("1")] if key == demand else []
-            terms += [local("G", exchange_row[(consumer, index)]) * local(letter, block.activity_row[consumer]) for consumer, index in consumers[key]]
-            put_formula(ws, arow, column, sum_of(terms), address)
+    pairs = [(key, index) for key, activity in inventory.activities.items() for index in range(len(activity.exchanges))]
+    exchange_row = {pair: row + 1 + number for number, pair in enumerate(pairs)}
+    for key, index in pairs:
+        row += 1
+        exchange = inventory.activities[key].exchanges[index]
+        block.exchange_rows.append((row, key, exchange))
+        _write_exchange_row(ws, row, model, block, key, exchange, address, scale_column)
+        if exchange.kind == "biosphere":
+            _write_scheme_cells(ws, row, model, chosen, block, key, index, address, exchange_row)
+    _write_activity_rows(ws, inventory, block, address, exchange_row)
     set_widths(ws, {"A": 26, "B": 24, "C": 10, "D": 26, "E": 52, "F": 22, "G": 18, "H": 18, "I": 18, "J": 12, "K": 18, "L": 18})
     for position in range(len(chosen)):
         ws.column_dimensions[get_column_letter(len(EXCHANGE_COLUMNS) + 1 + position)].width = 20
@@ -237,6 +180,83 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
     return block
 
 
+def _write_block_heading(ws, top: int, title: str) -> int:
+    """The block's title, the supply equation in words and the activity header; returns the header's row."""
+    put_text(ws, top, 1, title)
+    ws.cell(row=top, column=1).font = font_bold()
+    put_text(ws, top + 1, 1, "Supply: units of each activity's product per functional unit = demand + sum over consumers of "
+                             "(amount consumed per unit of the consumer x supply of the consumer).")
+    row = top + 3
+    for column, text in enumerate(ACTIVITY_COLUMNS, start=1):
+        put_text(ws, row, column, text)
+    bold_row(ws, row, len(ACTIVITY_COLUMNS))
+    return row
+
+
+def _write_exchange_row(ws, row: int, model: SymbolicModel, block: CalculationBlock, key: str, exchange, address,
+                        scale_column: dict | None) -> None:
+    """One exchange: words, its amount (scaled by a metered cell where asked), and for an emission its kg CO2e."""
+    activity = model.inventory.activities[key]
+    for column, text in enumerate((key, activity.stage, "input" if exchange.kind == "technosphere" else "emission",
+                                   exchange.input, exchange.label, exchange.unit), start=1):
+        put_text(ws, row, column, text)
+    amount = exchange.amount
+    if scale_column and exchange.kind == "technosphere" and exchange.input in scale_column:
+        amount = Term.of(amount) * scale_column[exchange.input]
+    supply = local("E", block.activity_row[key])
+    put_formula(ws, row, 7, amount, address)
+    put_formula(ws, row, 8, supply, address)
+    put_formula(ws, row, 9, local("G", row) * local("H", row), address)
+    if exchange.kind != "biosphere":
+        return
+    put_formula(ws, row, 10, model.headline[FLOW_INDEX[exchange.input]], address)
+    put_formula(ws, row, 11, local("I", row) * local("J", row), address)
+    put_formula(ws, row, 12, local("G", row) * local("F", block.activity_row[key]) * local("J", row), address)
+
+
+def _grid_intensity(model: SymbolicModel, grid_key: str, gwp: str, exchange_row: dict):
+    """kg CO2e per kWh of the grid source under a GWP set: its emission amounts (column G) x GWP."""
+    emissions = [(index, e) for index, e in enumerate(model.inventory.activities[grid_key].exchanges) if e.kind == "biosphere"]
+    return sum_of(local("G", exchange_row[(grid_key, index)]) * model.per_gwp[gwp][FLOW_INDEX[e.input]] for index, e in emissions)
+
+
+def _write_scheme_cells(ws, row: int, model: SymbolicModel, chosen, block: CalculationBlock, key: str, index: int, address,
+                        exchange_row: dict) -> None:
+    """An emission's kg CO2e per unit of each scheme's basis: zero-rated (with the reason), charged at the grid, or counted."""
+    inventory = model.inventory
+    activity = inventory.activities[key]
+    exchange = activity.exchanges[index]
+    first_emission = next(i for i, e in enumerate(activity.exchanges) if e.kind == "biosphere")
+    arow = block.activity_row[key]
+    for position, scheme in enumerate(chosen):
+        column = len(EXCHANGE_COLUMNS) + 1 + position
+        charged = model.charged_as_grid.get(scheme.id, {})
+        basis_supply = {"product": local("G", arow), "delivered": local("E", arow)}.get(scheme.basis, local("F", arow))
+        if key in charged and index == first_emission:  # a failing source: its kWh at the grid source's intensity
+            put_formula(ws, row, column, basis_supply * _grid_intensity(model, charged[key], scheme.gwp, exchange_row), address)
+            continue
+        reason = zero_rated(scheme, inventory, key, model.counted_zero.get(scheme.id, ()), charged)
+        if reason:
+            put_text(ws, row, column, reason)
+            continue
+        put_formula(ws, row, column, local("G", row) * basis_supply * model.per_gwp[scheme.gwp][FLOW_INDEX[exchange.input]], address)
+
+
+def _write_activity_rows(ws, inventory: Inventory, block: CalculationBlock, address, exchange_row: dict) -> None:
+    """Each activity's supply per functional unit, per kg H2 at the plant gate and per unit of product at the gate."""
+    consumers = consumers_of(inventory)
+    for key, activity in inventory.activities.items():
+        arow = block.activity_row[key]
+        for column, text in enumerate((key, activity.stage, activity.name, activity.unit), start=1):
+            put_text(ws, arow, column, text)
+        for column, letter, demand in ((5, "E", inventory.reference), (6, "F", inventory.hydrogen), (7, "G", inventory.gate)):
+            terms = [Term("1")] if key == demand else []
+            terms += [local("G", exchange_row[(consumer, index)]) * local(letter, block.activity_row[consumer])
+                      for consumer, index in consumers[key]]
+            put_formula(ws, arow, column, sum_of(terms), address)
+
+
+FLOW_INDEX = {flow: number for number, flow in enumerate(FLOWS)}
 
 
 def cell_of(block: CalculationBlock, column: str, row: int) -> Term:

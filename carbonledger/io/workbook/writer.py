@@ -313,20 +313,47 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
 
 def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlock, address, engine) -> dict:
     """By stage, by gas, intensities, checks, thresholds and the chart; returns key cells."""
-    from openpyxl.chart import BarChart, Reference
-
-    inventory = model.inventory
-    product = inventory.product
-    functional_unit, unit = FUNCTIONAL_UNITS[product]
+    _, unit = FUNCTIONAL_UNITS[model.inventory.product]
+    _write_results_heading(ws, model, engine)
     cells: dict[str, Any] = {}
-    put_text(ws, 1, 1, f"Results per functional unit ({functional_unit}), GWP100 {engine.gwp_basis.upper()}: live formulas over the Calculation sheet.")
-    put_text(ws, 2, 1, CAUTION)
-    put_text(ws, 3, 1, "The last column holds the figure carbonledger's engine (bw2calc) computed when the workbook was written, for comparison only.")
+    total_row = _write_stage_table(ws, block, model.inventory, address, engine, unit, cells)
+    row = _write_gas_table(ws, total_row + 2, block, address, engine, unit, cells)
+    row = _write_intensity_table(ws, row + 2, model, block, address, engine, local("B", total_row), cells)
+    checks_header = row + 2
+    thresholds_header = checks_header + len(chosen) + 3
+    threshold_rows, last_threshold_row = _write_thresholds_table(ws, thresholds_header, chosen)
+    _write_checks_table(ws, checks_header, model, chosen, block, address, engine, threshold_rows, cells)
+    longest_name = max((len(scheme.name) for scheme in chosen), default=20)
+    set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14,
+                    "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14, "Q": 16, "R": 90})
+    ws.row_dimensions[checks_header].height = 45
+    ws.freeze_panes = ws.cell(row=5, column=2)
+    style_cell(ws.cell(row=1, column=1), "title")
+    _add_stage_chart(ws, cells["stage_rows"], unit, f"A{last_threshold_row + 3}")
+    return cells
 
-    row = 5
-    for column, text in enumerate(("stage", unit, "share of total", "engine at writing"), start=1):
+
+def _write_results_heading(ws, model: SymbolicModel, engine) -> None:
+    """The title, the caution and what the last column holds."""
+    functional_unit, _ = FUNCTIONAL_UNITS[model.inventory.product]
+    put_text(ws, 1, 1, f"Results per functional unit ({functional_unit}), GWP100 {engine.gwp_basis.upper()}: "
+                       "live formulas over the Calculation sheet.")
+    put_text(ws, 2, 1, CAUTION)
+    put_text(ws, 3, 1, "The last column holds the figure carbonledger's engine (bw2calc) computed when the workbook "
+                       "was written, for comparison only.")
+
+
+def _table_header(ws, row: int, texts) -> None:
+    """One header row of a results table."""
+    for column, text in enumerate(texts, start=1):
         put_text(ws, row, column, text)
-    header_row(ws, row, 4)
+    header_row(ws, row, len(texts))
+
+
+def _write_stage_table(ws, block: CalculationBlock, inventory, address, engine, unit: str, cells: dict) -> int:
+    """Stage sums, their shares and the total (from row 5); returns the total's row."""
+    row = 5
+    _table_header(ws, row, ("stage", unit, "share of total", "engine at writing"))
     stages = stage_sums(block, inventory, block.headline_column)
     first_stage = row + 1
     total_row = first_stage + len(stages)
@@ -337,28 +364,29 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         put_formula(ws, row, 3, Term(f"IF($B${total_row}=0,0,B{row}/$B${total_row})"), address)
         ws.cell(row=row, column=3).number_format = SHARE
         cells[f"stage:{stage}"] = f"B{row}"
-    last_stage = row
+    cells["stage_rows"] = (first_stage, row)
     row += 1
     put_text(ws, row, 1, "Total")
-    _figure(ws, row, sum_of(local("B", r) for r in range(first_stage, last_stage + 1)), address, engine.total)
+    _figure(ws, row, sum_of(local("B", r) for r in range(first_stage, row)), address, engine.total)
     ws.cell(row=row, column=1).font = font_bold()
     cells["total"] = f"B{row}"
-    total = local("B", row)
+    return row
 
-    row += 2
-    for column, text in enumerate(("gas", unit, "", "engine at writing"), start=1):
-        put_text(ws, row, column, text)
-    header_row(ws, row, 4)
+
+def _write_gas_table(ws, row: int, block: CalculationBlock, address, engine, unit: str, cells: dict) -> int:
+    """Sums by gas from ``row``; returns the last row written."""
+    _table_header(ws, row, ("gas", unit, "", "engine at writing"))
     for flow, term in gas_sums(block, block.headline_column).items():
         row += 1
         put_text(ws, row, 1, FLOWS[flow])
         _figure(ws, row, term, address, engine.by_gas.get(flow))
         cells[f"gas:{flow}"] = f"B{row}"
+    return row
 
-    row += 2
-    for column, text in enumerate(("intensity", "value", "unit", "engine at writing"), start=1):
-        put_text(ws, row, column, text)
-    header_row(ws, row, 4)
+
+def _write_intensity_table(ws, row: int, model: SymbolicModel, block: CalculationBlock, address, engine, total, cells: dict) -> int:
+    """The intensities of the ``total`` cell and the hydrogen plant gate figure from ``row``; returns the last row."""
+    _table_header(ws, row, ("intensity", "value", "unit", "engine at writing"))
     figures = intensities(total, model.inventory.reference_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)
     engine_figures = engine.intensity.model_dump()
     for key, term in figures.items():
@@ -371,93 +399,122 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
         cells[f"intensity:{key}"] = f"B{row}"
     row += 1
     put_text(ws, row, 1, "Hydrogen at the hydrogen plant gate")
-    _figure(ws, row, sum_of(cell_of(block, block.gate_column, r) for r, _, e in block.exchange_rows if e.kind == "biosphere"), address, engine.hydrogen_production_kg_co2e_per_kg_h2)
+    gate = sum_of(cell_of(block, block.gate_column, r) for r, _, e in block.exchange_rows if e.kind == "biosphere")
+    _figure(ws, row, gate, address, engine.hydrogen_production_kg_co2e_per_kg_h2)
     put_text(ws, row, 3, "kg CO2e/kg H2 at the hydrogen plant gate")
     cells["hydrogen_gate"] = f"B{row}"
+    return row
 
-    # thresholds table first in address order (checks reference it)
-    checks_header = row + 2
-    thresholds_header = checks_header + len(chosen) + 3
+
+def _write_thresholds_table(ws, header: int, chosen) -> tuple[dict[str, list[tuple[int, Any]]], int]:
+    """Every tier of every scheme from ``header`` (the checks above refer to these cells).
+
+    Returns each scheme's (row, threshold) pairs and the last row written."""
     threshold_rows: dict[str, list[tuple[int, Any]]] = {}
-    trow = thresholds_header
-    for column, text in enumerate(("scheme", "tier", "limit", "comparison", "unit", "legal source", "from memory"), start=1):
-        put_text(ws, trow, column, text)
-    put_text(ws, trow - 1, 1, "Thresholds (edit a limit and the checks above follow)")
-    header_row(ws, trow, 7)
+    row = header
+    put_text(ws, row - 1, 1, "Thresholds (edit a limit and the checks above follow)")
+    _table_header(ws, row, ("scheme", "tier", "limit", "comparison", "unit", "legal source", "from memory"))
     for scheme in chosen:
         for threshold in sorted(scheme.thresholds, key=lambda t: t.limit):
-            trow += 1
-            put_text(ws, trow, 1, scheme.id)
-            put_text(ws, trow, 2, threshold.tier)
-            put_value(ws, trow, 3, threshold.limit)
-            style_cell(ws.cell(row=trow, column=3), "input", number_format(threshold.limit))
-            put_text(ws, trow, 4, "value <= limit" if threshold.inclusive else "value < limit")
-            put_text(ws, trow, 5, scheme.unit)
-            put_text(ws, trow, 6, threshold.source)
-            put_text(ws, trow, 7, "yes" if threshold.from_memory else "no")
-            threshold_rows.setdefault(scheme.id, []).append((trow, threshold))
+            row += 1
+            put_text(ws, row, 1, scheme.id)
+            put_text(ws, row, 2, threshold.tier)
+            put_value(ws, row, 3, threshold.limit)
+            style_cell(ws.cell(row=row, column=3), "input", number_format(threshold.limit))
+            put_text(ws, row, 4, "value <= limit" if threshold.inclusive else "value < limit")
+            put_text(ws, row, 5, scheme.unit)
+            put_text(ws, row, 6, threshold.source)
+            put_text(ws, row, 7, "yes" if threshold.from_memory else "no")
+            threshold_rows.setdefault(scheme.id, []).append((row, threshold))
+    return threshold_rows, row
 
-    row = checks_header
-    check_columns = (
-        "scheme", "name", "basis", "GWP100 set", "electricity rule", "stages left out", "quantity", "unit",
-        "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "status (live)", "margin (threshold - value)",
-        "best tier met", "from memory", "engine value at writing", "status (rules read at writing)", "reasons (rule and source)",
-    )
-    for column, text in enumerate(check_columns, start=1):
-        put_text(ws, row, column, text)
-    header_row(ws, row, len(check_columns))
+
+CHECK_COLUMNS = (
+    "scheme", "name", "basis", "GWP100 set", "electricity rule", "stages left out", "quantity", "unit",
+    "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "status (live)", "margin (threshold - value)",
+    "best tier met", "from memory", "engine value at writing", "status (rules read at writing)", "reasons (rule and source)",
+)
+
+
+def _write_checks_table(ws, header: int, model: SymbolicModel, chosen, block, address, engine, threshold_rows, cells: dict) -> None:
+    """One row per scheme: its live value, status, margin and tier beside the engine's at writing."""
+    _table_header(ws, header, CHECK_COLUMNS)
     engine_checks = {check.scheme: check for check in engine.checks}
-    for scheme in chosen:
-        row += 1
-        column = block.scheme_column[scheme.id]
-        rows = [r for r, _, e in block.exchange_rows if e.kind == "biosphere"]
-        scheme_total = Term(f"SUM({block.sheet}!${column}${rows[0]}:${column}${rows[-1]})") if rows else Term("0")
-        basis_product = basis_product_of(scheme, inventory)
-        value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
-        if declared_addition(scheme, inventory, engine.parameters):  # a producer's declared e_td (g CO2e/MJ), an input cell
-            value = value + Term.of(model.declared_e_td)
-        loosest_row = max(threshold_rows[scheme.id], key=lambda item: item[1].limit)[0]
-        for number, text in enumerate(
-            (scheme.id, scheme.name, lower_words(scheme.basis), gwp_name(scheme.gwp), electricity_rule_name(scheme.electricity), ", ".join(stage_name(s) for s in scheme.excluded_stages) or "none", unit_name(scheme.quantity), scheme.unit),
-            start=1,
-        ):
-            put_text(ws, row, number, text)
-        put_formula(ws, row, 9, scheme_total, address)
-        put_formula(ws, row, 10, value, address)
-        put_formula(ws, row, 11, local("C", loosest_row), address)
-        loosest = scheme.loosest()
-        operator = "<=" if loosest.inclusive else "<"
-        engine_check = engine_checks.get(scheme.id)
-        co_product_note = str((engine_check.co_products or {}).get("note", "")) if engine_check is not None else ""
-        if co_product_note.startswith("cannot be judged"):
-            put_text(ws, row, 12, "undetermined")  # the scheme's co-product rule cannot be applied: undetermined whatever the value
-        elif co_product_note.startswith("scheme value rescored"):
-            # the scheme's co-product rule differs from the project's: the live value keeps the project's method, the
-            # engine value (column P) and status (Q) are the scheme's; the reasons say so
-            put_text(ws, row, 12, f"{status_name(engine_check.status)} (scheme's co-product rule, column P)")
-        else:
-            put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
-        put_formula(ws, row, 13, Term(f'IF($Q${row}="not eligible","",$K${row}-$J${row})'), address)
-        tier = '"none"'
-        for trow_, threshold in reversed(threshold_rows[scheme.id]):  # loosest outermost, strictest innermost
-            comparison = "<=" if threshold.inclusive else "<"
-            tier = f"IF($J${row}{comparison}$C${trow_},$B${trow_},{tier})"
-        put_formula(ws, row, 14, Term(f'IF(OR($Q${row}="not eligible",$Q${row}="undetermined"),"none",{tier})'), address)
-        put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
-        put_value(ws, row, 16, engine_check.value if engine_check else None)
-        shown = number_format(engine_check.value if engine_check else None)
-        for column in (9, 10, 11, 13):
-            style_cell(ws.cell(row=row, column=column), "formula", shown)
-        style_cell(ws.cell(row=row, column=16), "engine", shown)
-        put_text(ws, row, 17, status_name(engine_check.status) if engine_check else "")
-        put_text(ws, row, 18, " | ".join(engine_check.reasons + ([co_product_note] if co_product_note.startswith("scheme value rescored") else [])) if engine_check else "")
+    for row, scheme in enumerate(chosen, start=header + 1):
+        _write_check_row(ws, row, model, scheme, block, address, engine, engine_checks.get(scheme.id), threshold_rows[scheme.id])
         cells[f"check:{scheme.id}"] = row
-    longest_name = max((len(scheme.name) for scheme in chosen), default=20)
-    set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14, "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14, "Q": 16, "R": 90})
-    ws.row_dimensions[checks_header].height = 45
-    ws.freeze_panes = ws.cell(row=5, column=2)
-    style_cell(ws.cell(row=1, column=1), "title")
 
+
+def _scheme_value_term(row: int, model: SymbolicModel, scheme, block: CalculationBlock, engine) -> tuple[Term, Term]:
+    """The scheme's kg CO2e per unit of basis (a sum over its Calculation column) and its value in the scheme's quantity."""
+    rows = [r for r, _, e in block.exchange_rows if e.kind == "biosphere"]
+    column = block.scheme_column[scheme.id]
+    scheme_total = Term(f"SUM({block.sheet}!${column}${rows[0]}:${column}${rows[-1]})") if rows else Term("0")
+    basis_product = basis_product_of(scheme, model.inventory)
+    value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
+    if declared_addition(scheme, model.inventory, engine.parameters):  # a producer's declared e_td (g CO2e/MJ), an input cell
+        value = value + Term.of(model.declared_e_td)
+    return scheme_total, value
+
+
+def _live_status(ws, row: int, scheme, engine_check, co_product_note: str, address) -> None:
+    """Column L: the live verdict formula, or the fixed words when the scheme's co-product rule decides."""
+    if co_product_note.startswith("cannot be judged"):
+        put_text(ws, row, 12, "undetermined")  # the scheme's co-product rule cannot be applied: undetermined whatever the value
+    elif co_product_note.startswith("scheme value rescored"):
+        # the scheme's co-product rule differs from the project's: the live value keeps the project's method, the
+        # engine value (column P) and status (Q) are the scheme's; the reasons say so
+        put_text(ws, row, 12, f"{status_name(engine_check.status)} (scheme's co-product rule, column P)")
+    else:
+        operator = "<=" if scheme.loosest().inclusive else "<"
+        put_formula(ws, row, 12, Term(verdict_formula(f"$J${row}", operator, f"$K${row}", f"$Q${row}")), address)
+
+
+def _tier_formula(row: int, tiers: list[tuple[int, Any]]) -> Term:
+    """Column N: the strictest tier met, none when the check is not eligible or undetermined."""
+    tier = '"none"'
+    for threshold_row, threshold in reversed(tiers):  # loosest outermost, strictest innermost
+        comparison = "<=" if threshold.inclusive else "<"
+        tier = f"IF($J${row}{comparison}$C${threshold_row},$B${threshold_row},{tier})"
+    return Term(f'IF(OR($Q${row}="not eligible",$Q${row}="undetermined"),"none",{tier})')
+
+
+def _write_check_row(ws, row: int, model: SymbolicModel, scheme, block, address, engine, engine_check, tiers) -> None:
+    """One scheme's check: words, live formulas, and the engine's value, status and reasons at writing."""
+    words = (scheme.id, scheme.name, lower_words(scheme.basis), gwp_name(scheme.gwp), electricity_rule_name(scheme.electricity),
+             ", ".join(stage_name(s) for s in scheme.excluded_stages) or "none", unit_name(scheme.quantity), scheme.unit)
+    for number, text in enumerate(words, start=1):
+        put_text(ws, row, number, text)
+    scheme_total, value = _scheme_value_term(row, model, scheme, block, engine)
+    put_formula(ws, row, 9, scheme_total, address)
+    put_formula(ws, row, 10, value, address)
+    loosest_row = max(tiers, key=lambda item: item[1].limit)[0]
+    put_formula(ws, row, 11, local("C", loosest_row), address)
+    co_product_note = str((engine_check.co_products or {}).get("note", "")) if engine_check is not None else ""
+    _live_status(ws, row, scheme, engine_check, co_product_note, address)
+    put_formula(ws, row, 13, Term(f'IF($Q${row}="not eligible","",$K${row}-$J${row})'), address)
+    put_formula(ws, row, 14, _tier_formula(row, tiers), address)
+    put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
+    engine_value = engine_check.value if engine_check else None
+    put_value(ws, row, 16, engine_value)
+    shown = number_format(engine_value)
+    for column in (9, 10, 11, 13):
+        style_cell(ws.cell(row=row, column=column), "formula", shown)
+    style_cell(ws.cell(row=row, column=16), "engine", shown)
+    if engine_check is None:
+        put_text(ws, row, 17, "")
+        put_text(ws, row, 18, "")
+        return
+    put_text(ws, row, 17, status_name(engine_check.status))
+    rescored = [co_product_note] if co_product_note.startswith("scheme value rescored") else []
+    put_text(ws, row, 18, " | ".join(engine_check.reasons + rescored))
+
+
+def _add_stage_chart(ws, stage_rows: tuple[int, int], unit: str, anchor: str) -> None:
+    """The bar chart of contributions by stage, inside the print area."""
+    from openpyxl.chart import BarChart, Reference
+
+    first_stage, last_stage = stage_rows
     chart = BarChart()
     chart.type = "bar"
     chart.title = "Contributions by stage (estimate, not a certification)"
@@ -467,9 +524,7 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     chart.add_data(Reference(ws, min_col=2, min_row=first_stage - 1, max_row=last_stage), titles_from_data=True)
     chart.set_categories(Reference(ws, min_col=1, min_row=first_stage, max_row=last_stage))
     chart.width, chart.height = 20, 9
-    ws.add_chart(chart, f"A{trow + 3}")
-    cells["stage_rows"] = (first_stage, last_stage)
-    return cells
+    ws.add_chart(chart, anchor)
 
 
 def _figure(ws, row: int, term, address, engine_value) -> None:
