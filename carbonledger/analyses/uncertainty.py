@@ -43,24 +43,23 @@ from ..core.scoring import (
     charged_source_intensities,
     checked_year,
     co_product_rule,
+    demands_of,
     intensities,
     read_rules,
-    rulebooks,
+    run_stages,
     scheme_characterisation,
     scheme_value,
+    stage_and_gas_sums,
 )
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row
 from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
-from ..model.rulebooks import select_schemes
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
-from ..routes import REGISTRY, STAGES
-from ..routes.base import APART_FLOWS
+from ..routes import REGISTRY
 from ..routes.project import validate_project
-from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 from .matching import ElectricityModel, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, scheme_granularity, series_matched_periods
 
 DEFAULT_SEED = 20261202
@@ -450,18 +449,6 @@ def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.n
     return values, ~keep
 
 
-def _stage_and_gas_sums(main: np.ndarray, keys: list[str], flow_keys: list[str], inventory) -> tuple[dict, dict]:
-    """kg CO2e by stage and by gas of every draw, from (draws, flows, activities) contributions."""
-    by_activity = main.sum(axis=1)
-    by_stage: dict[str, np.ndarray] = {}
-    for stage in STAGES:
-        members = [n for n, key in enumerate(keys) if inventory.activities[key].stage == stage]
-        if members:
-            by_stage[stage] = by_activity[:, members].sum(axis=1)
-    gases = main.sum(axis=2)
-    return by_stage, {flow: gases[:, n] for n, flow in enumerate(flow_keys) if flow not in APART_FLOWS}
-
-
 def _matched_draws(plan: Plan, scheme, reading, inventory, keys, flow_keys, gwp_vector, supply, column, basis_demand, figures, params, period, values) -> np.ndarray:
     """A scheme's draws with the project's time series matched under the rule of the assessment year, as score matches them."""
     count = len(values)
@@ -488,20 +475,16 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     params = params_with_draws(plan, draws.parameters)
     inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
     check_physical_limits(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source), plan.source)
-    inventory = build_inventory(params, inputs)
-    product = inventory.product
-    chosen = select_schemes(rulebooks(), plan.schemes, product)
+    staged = run_stages(params, inputs, plan.gwp, plan.schemes)
+    inventory, chosen, product = staged.inventory, staged.chosen, staged.inventory.product
 
     def per_draw(vector: np.ndarray) -> np.ndarray:
         return np.broadcast_to(vector.T if vector.ndim == 2 else vector, (count, len(vector)))
 
-    headline = per_draw(characterisation(inputs, plan.gwp))
-    per_gwp = {plan.gwp: headline}
-    for scheme in chosen:
-        if scheme.gwp not in per_gwp:
-            per_gwp[scheme.gwp] = per_draw(characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp"))
+    per_gwp = {gwp: per_draw(vector) for gwp, vector in staged.per_gwp.items()}
+    headline = per_gwp[plan.gwp]
     stacked = build_stacked_matrices(inventory, count)
-    demands = list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
+    demands = demands_of(inventory)
     supply, biosphere = solve_stacked_values(stacked, demands)
     column = {demand: number for number, demand in enumerate(demands)}
 
@@ -509,13 +492,13 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         """kg CO2e by draw, flow and activity."""
         return gwp_vector[:, :, None] * biosphere * supply[:, None, :, column[demand]]
 
-    hydrogen_lhv = np.asarray(inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), dtype=float)
-    ammonia_lhv = np.asarray(inputs.factor("heating_value.ammonia.lhv", "MJ/kg"), dtype=float) if product == "ammonia" else float("nan")
-    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
+    hydrogen_lhv = np.asarray(staged.hydrogen_lhv, dtype=float)
+    ammonia_lhv = np.asarray(staged.ammonia_lhv, dtype=float)
+    fraction = staged.fraction
     main = contributions(inventory.reference, headline)
     total = main.sum(axis=(1, 2))
     keys = stacked.activity_keys
-    by_stage, by_gas = _stage_and_gas_sums(main, keys, stacked.flow_keys, inventory)
+    by_stage, by_gas = stage_and_gas_sums(main, keys, stacked.flow_keys, inventory)
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
     scheme_values, scheme_findings, co_product_open = {}, {}, {}
     nominal = params_with_draws(plan, {})

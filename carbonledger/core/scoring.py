@@ -232,6 +232,52 @@ def prepare(
         params["project"]["boundary"] = boundary_id(boundary)
     inputs = NumericInputs(factor_set, source)
     check_physical_limits(params, inputs, source)
+    staged = run_stages(params, inputs, gwp, schemes)
+    inventory = staged.inventory
+    matrices = build_matrices(inventory)
+    return Prepared(project, factor_set, params, inputs, inventory, staged.chosen, gwp, staged.headline, staged.per_gwp, matrices,
+                    demands_of(inventory), staged.hydrogen_lhv, staged.ammonia_lhv, staged.fraction, source, project_sha256, period,
+                    matching)
+
+
+@dataclass
+class Staged:
+    """The stage arithmetic of a project on one kind of inputs: numbers (``NumericInputs``), arrays of
+    Monte Carlo draws (``DrawInputs``) or the workbook's symbolic cells (``SymbolicInputs``).
+
+    The one evaluation core: ``prepare`` (a score), ``analyses.uncertainty.evaluate`` (the draws) and the
+    workbook's symbolic model all start here, so they build the same inventory and characterise it alike.
+    """
+
+    inventory: Inventory
+    chosen: list[Scheme]  # the schemes checked, in rulebook order
+    headline: object  # GWP100 per flow under the headline set (``characterisation``)
+    per_gwp: dict[str, object]  # GWP set -> its vector, for the headline set and every chosen scheme's
+    hydrogen_lhv: object  # MJ/kg
+    ammonia_lhv: object  # MJ/kg (NaN for a hydrogen product)
+    fraction: object  # kg H2 per kg NH3 (1 for a hydrogen product)
+
+
+def run_stages(params: dict, inputs, gwp: str, schemes: list[str] | None) -> Staged:
+    """Build the inventory from ``params`` with ``inputs``, choose the schemes for its product, and
+    characterise it under the headline GWP set and each scheme's own.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters (numbers, arrays of draws or symbolic cells), as ``Project.model_dump``.
+    inputs : NumericInputs, DrawInputs or SymbolicInputs
+        Where factor and reference values come from.
+    gwp : str
+        GWP100 set of the headline result (ar4, ar5, ar6).
+    schemes : list of str or None
+        Scheme ids to check; None for every scheme that applies to the product.
+
+    Returns
+    -------
+    Staged
+        Inventory, chosen schemes, characterisation vectors and heating values (MJ/kg LHV).
+    """
     inventory = build_inventory(params, inputs)
     product = inventory.product
     chosen = select_schemes(rulebooks(), schemes, product)
@@ -240,12 +286,29 @@ def prepare(
     for scheme in chosen:
         if scheme.gwp not in per_gwp:
             per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp")
-    matrices = build_matrices(inventory)
-    demands = list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
-    ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if product == "ammonia" else float("nan")
-    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if product == "ammonia" else 1.0
-    return Prepared(project, factor_set, params, inputs, inventory, chosen, gwp, headline, per_gwp, matrices, demands, hydrogen_lhv, ammonia_lhv, fraction, source, project_sha256, period, matching)
+    ammonia = product == "ammonia"
+    ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if ammonia else float("nan")
+    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if ammonia else 1.0
+    return Staged(inventory, chosen, headline, per_gwp, hydrogen_lhv, ammonia_lhv, fraction)
+
+
+def demands_of(inventory: Inventory) -> list[str]:
+    """The demands solved for: the reference product, the plant gate product and hydrogen (each once)."""
+    return list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
+
+
+def stage_and_gas_sums(contributions, keys: list[str], flow_keys: list[str], inventory: Inventory) -> tuple[dict, dict]:
+    """kg CO2e by stage (in ``STAGES`` order) and by gas (without the flows counted apart) from
+    contributions shaped (..., flows, activities): one project's numbers or (draws, flows, activities)."""
+    by_activity = contributions.sum(axis=-2)
+    by_stage: dict = {}
+    for stage in STAGES:
+        members = [n for n, key in enumerate(keys) if inventory.activities[key].stage == stage]
+        if members:
+            by_stage[stage] = by_activity[..., members].sum(axis=-1)
+    gases = contributions.sum(axis=-1)
+    return by_stage, {flow: gases[..., n] for n, flow in enumerate(flow_keys) if flow not in APART_FLOWS}
 
 
 def checked_year(params: dict, year: int | None, source: str = "project") -> int:
@@ -505,11 +568,9 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     total = float(contributions.sum())
     keys = matrices.activity_keys
     by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0), strict=True)}
-    present = {inventory.activities[key].stage for key in keys}
-    by_stage = {stage: 0.0 for stage in STAGES if stage in present}
-    for key, value in by_activity.items():
-        by_stage[inventory.activities[key].stage] += value
-    by_gas = {flow: float(v) for flow, v in zip(matrices.flow_keys, contributions.sum(axis=1), strict=True) if flow not in APART_FLOWS}
+    stage_sums, gas_sums = stage_and_gas_sums(contributions, keys, matrices.flow_keys, inventory)
+    by_stage = {stage: float(value) for stage, value in stage_sums.items()}
+    by_gas = {flow: float(value) for flow, value in gas_sums.items()}
     non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in NON_GHG_FLOWS}
     biogenic = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in BIOGENIC_FLOWS}
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())

@@ -16,12 +16,11 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
-from ...core.inventory import Inventory, build_inventory
-from ...core.scoring import characterisation, zero_rated
+from ...core.inventory import Inventory
+from ...core.scoring import run_stages, zero_rated
 from ...errors import InputError
 from ...routes import STAGES
 from ...routes.base import FLOWS
-from ...stages.ammonia import hydrogen_mass_fraction_of_ammonia
 from .cells import SymbolicInputs, Term, local, ref, sum_of
 from .layout import bold_row, font_bold, put_formula, put_text, set_widths
 
@@ -50,20 +49,13 @@ def basis_product_of(scheme, inventory: Inventory) -> str:
     return inventory.product if scheme.basis == "product" else "hydrogen"
 
 
-def symbolic_model(params_symbolic: dict, factor_set, gwp: str, scheme_gwps: list[str]) -> SymbolicModel:
-    """Run the engine's own arithmetic (inventory, characterisation, heating values) on cells."""
+def symbolic_model(params_symbolic: dict, factor_set, gwp: str, schemes: list[str]) -> SymbolicModel:
+    """Run the engine's own arithmetic (``core.scoring.run_stages``: inventory, characterisation, heating
+    values) on cells; ``schemes`` are the ids of the schemes checked."""
     inputs = SymbolicInputs(factor_set)
-    inventory = build_inventory(params_symbolic, inputs)
-    headline = list(characterisation(inputs, gwp))
-    per_gwp = {gwp: headline}
-    for other in scheme_gwps:
-        if other not in per_gwp:
-            per_gwp[other] = list(characterisation(inputs, other))
-    hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
-    ammonia = inventory.product == "ammonia"
-    ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if ammonia else 0.0
-    fraction = hydrogen_mass_fraction_of_ammonia(inputs.molar_mass("H2"), inputs.molar_mass("NH3")) if ammonia else 1.0
-    return SymbolicModel(inventory, inputs, headline, per_gwp, hydrogen_lhv, ammonia_lhv, fraction)
+    staged = run_stages(params_symbolic, inputs, gwp, schemes)
+    per_gwp = {name: list(vector) for name, vector in staged.per_gwp.items()}
+    return SymbolicModel(staged.inventory, inputs, per_gwp[gwp], per_gwp, staged.hydrogen_lhv, staged.ammonia_lhv, staged.fraction)
 
 
 def consumers_of(inventory: Inventory) -> dict[str, list[tuple[str, int]]]:

@@ -172,7 +172,7 @@ def build_workbook(
     _write_inputs_sheet(inputs_ws, parameter_table(project), symbolic, input_cell, evidence or {})
     symbolic["project"]["boundary"] = result.boundary
 
-    model = symbolic_model(symbolic, factor_set, gwp, [s.gwp for s in chosen])
+    model = symbolic_model(symbolic, factor_set, gwp, [s.id for s in chosen])
     model.counted_zero = {check.scheme: set(check.electricity_counted_zero) for check in result.checks}
     model.charged_as_grid = {check.scheme: dict(check.electricity_charged_as_grid) for check in result.checks}
     model.declared_e_td = symbolic["project"].get("declared_e_td_g_co2e_per_mj")
