@@ -5,7 +5,8 @@ import pytest
 
 from carbonledger.core.engine import build_matrices, solve
 from carbonledger.core.inventory import Inventory
-from carbonledger.routes.base import FLOWS, Activity
+from carbonledger.model.flows import FLOWS
+from carbonledger.routes.base import Activity
 
 
 def small_chain() -> Inventory:

@@ -23,7 +23,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..routes.base import FLOWS
+from ..model.flows import FLOWS
 
 INDICES_DTYPE = np.dtype([("row", np.int32), ("col", np.int32)])  # same layout as bw_processing
 FLOW_ID_OFFSET = 10_000

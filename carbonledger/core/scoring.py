@@ -22,11 +22,11 @@ import numpy as np
 from ..about import CAUTION, __version__
 from ..errors import InputError, did_you_mean, match_id
 from ..model.factors import Factor, FactorSet
+from ..model.flows import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
 from ..model.project import as_date, boundary_id
 from ..model.rulebooks import Scheme, grade_note, load_schemes, select_schemes
 from ..model.statuses import Status
 from ..routes import HYDROGEN_ROUTES, STAGES
-from ..routes.base import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
 from ..routes.project import validate_project
 from ..stages.ammonia import hydrogen_mass_fraction_of_ammonia
 from .engine import Matrices, build_matrices, solve, solve_many, structure_key

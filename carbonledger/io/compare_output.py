@@ -9,9 +9,9 @@ from ..analyses.compare import ComparisonResult
 from ..model.grades import GRADE_BY_WORDS, Grade
 from .chart_files import write_figure
 from .csv_text import csv_text
-from .labels import gas_name, gwp_name, per_name, stage_name, status_name
+from .labels import INTENSITY_UNITS, gas_name, gwp_name, per_name, stage_name, status_name
 from .palette import CHART_STYLE, INK, STAGE_COLOURS
-from .tables import INTENSITY_UNITS, display_number, plain_console
+from .tables import display_number, plain_console
 
 
 def _label(project) -> str:

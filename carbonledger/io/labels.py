@@ -7,25 +7,19 @@ analyses.portfolio.STATUSES), GWP sets
 
 from __future__ import annotations
 
+from ..model.flows import FLOW_NAMES
 from ..model.grades import GRADE_WORDS, Grade
 
-GAS_NAMES = {
-    "co2_fossil": "CO2, fossil",
-    "ch4_fossil": "Methane (CH4), fossil",
-    "ch4_non_fossil": "Methane (CH4), non-fossil",
-    "n2o": "Nitrous oxide (N2O)",
-    "co2e_precharacterised": "Life-cycle CO2e of electricity (already characterised)",
-}
 WORDS = {"co2": "CO2", "co2e": "CO2e", "h2": "H2", "nh3": "NH3", "n2": "N2", "ch4": "CH4", "n2o": "N2O", "lhv": "LHV", "gj": "GJ", "kwh": "kWh", "mwh": "MWh", "mw": "MW", "mj": "MJ", "pem": "PEM", "atr": "ATR", "smr": "SMR", "ar4": "AR4", "ar5": "AR5", "ar6": "AR6"}
 # The unit of each intensity (and scheme quantity), and what it is per.
-UNITS = {
+INTENSITY_UNITS = {
     "kg_co2e_per_t_nh3": "kg CO2e/t NH3",
     "kg_co2e_per_kg_nh3": "kg CO2e/kg NH3",
     "kg_co2e_per_kg_h2": "kg CO2e/kg H2",
     "g_co2e_per_mj": "g CO2e/MJ (LHV)",
 }
 PER = {"t_nh3": "t NH3", "kg_nh3": "kg NH3", "kg_h2": "kg H2", "mj": "MJ (LHV)", "t-nh3": "t NH3", "kg-h2": "kg H2"}
-INTENSITY_LABELS = {key: f"Carbon intensity per {PER[key.split('_per_')[1]]}" for key in UNITS}
+INTENSITY_LABELS = {key: f"Carbon intensity per {PER[key.split('_per_')[1]]}" for key in INTENSITY_UNITS}
 STATUS_WORDS = {"qualifies": "qualifies", "fails": "fails", "not_eligible": "not eligible", "undetermined": "undetermined"}
 ELECTRICITY_RULES = {
     "renewable_at_zero": "renewable electricity counted at zero, the rest at its factor",
@@ -51,7 +45,7 @@ def stage_name(stage: str) -> str:
 
 
 def gas_name(gas: str) -> str:
-    return GAS_NAMES.get(gas, words(gas))
+    return FLOW_NAMES.get(gas, words(gas))
 
 
 def factor_grades_sentence(grades: dict[str, list[str]], total: int) -> str:
@@ -65,7 +59,7 @@ def factor_grades_sentence(grades: dict[str, list[str]], total: int) -> str:
 
 def unit_name(quantity: str) -> str:
     """The unit of an intensity or scheme quantity: ``g_co2e_per_mj`` -> ``g CO2e/MJ (LHV)``."""
-    return UNITS.get(quantity, words(quantity))
+    return INTENSITY_UNITS.get(quantity, words(quantity))
 
 
 def per_name(key: str) -> str:

@@ -6,11 +6,10 @@ import io
 
 from ..core.results import ScoreResult
 from .csv_text import csv_text
-from .labels import UNITS, factor_grades_sentence, gas_name, gwp_name, per_name, stage_name, status_name
+from .labels import INTENSITY_UNITS, factor_grades_sentence, gas_name, gwp_name, per_name, stage_name, status_name
 
 SCORE_CSV_HEADER = ("section", "key", "value", "unit", "from_memory", "grade")
 
-INTENSITY_UNITS = UNITS  # one vocabulary (io/labels.py)
 
 
 def display_number(value: float | None) -> str:

@@ -9,9 +9,9 @@ from ..analyses.headroom import Headroom
 from ..analyses.uncertainty import UncertaintyResult
 from .chart_files import write_figure
 from .csv_text import csv_text
-from .labels import gas_name, gwp_name, per_name, stage_name
+from .labels import INTENSITY_UNITS, gas_name, gwp_name, per_name, stage_name
 from .palette import CHART_STYLE, INK, TEAL
-from .tables import INTENSITY_UNITS, display_number, plain_console
+from .tables import display_number, plain_console
 
 SUMMARY_KEYS = ("mean", "std", "p5", "p50", "p95", "standard_error")
 

@@ -19,8 +19,8 @@ from typing import Any
 from ...core.inventory import Inventory
 from ...core.scoring import run_stages, zero_rated
 from ...errors import InputError
+from ...model.flows import FLOWS
 from ...routes import STAGES
-from ...routes.base import FLOWS
 from .cells import SymbolicInputs, Term, local, ref, sum_of
 from .layout import bold_row, font_bold, put_formula, put_text, set_widths
 

@@ -10,10 +10,8 @@ the factor sheet. References are written as placeholders (``{F:factor.id}``) and
 cell addresses by the workbook writer once it knows which factors were used and where their
 rows are (``resolve``).
 
-References
-----------
-.. [1] ECMA-376 Office Open XML, Part 1, section 18.17 (formulas): operator precedence,
-   negation binds tighter than multiplication and division, which bind tighter than + and -.
+The tree, its simplifications and the formula printer are ``model.expressions``, shared with
+the documentation's LaTeX equations.
 """
 
 from __future__ import annotations
@@ -21,130 +19,35 @@ from __future__ import annotations
 import re
 
 from ...core.inputs import NumericInputs
+from ...model.expressions import Expr, excel_text
 from ...model.units import conversion_factor
 
-ATOM, PRODUCT, SUM = 3, 2, 1
 _PLACEHOLDER = re.compile(r"\{F:([^{}]+)\}")
 
 
-def number_text(value: float) -> str:
-    """A float as a formula literal that reads back to the same double (repr is round-trip)."""
-    value = float(value)
-    if value != value or value in (float("inf"), float("-inf")):
-        raise ValueError(f"{value} cannot be written in a formula")
-    text = repr(value)
-    if text.endswith(".0"):
-        text = text[:-2]
-    return text.upper()
+class Term(Expr):
+    """A node of the one expression tree (``model.expressions``) printed as a spreadsheet formula.
 
-
-class Term:
-    """Formula text and the precedence of its outermost operation.
-
-    A number written into a formula is a literal (``literal`` holds its value). Arithmetic with
-    a literal 0 or 1 leaves the term out (x*1 is x, x*0 is 0, x+0 is x) and two literals are
-    combined into one, with the same floating-point operation the engine performs, so no
-    formula carries a ``*0*`` or ``*1*`` a reader has to puzzle over.
+    ``Term(text)`` is formula text taken as it is (a cell reference, ``SUM(...)``, ``IF(...)``);
+    arithmetic on terms builds the tree, and ``text`` prints it with the parentheses the
+    spreadsheet needs.
     """
 
-    __slots__ = ("text", "precedence", "literal", "reciprocal_of")
-    __array_priority__ = 1000  # numpy defers to Term's reflected operators
+    __slots__ = ()
 
-    def __init__(self, text: str, precedence: int = ATOM, literal: float | None = None, reciprocal_of: Term | None = None):
-        self.text = text
-        self.precedence = precedence
-        self.literal = literal
-        self.reciprocal_of = reciprocal_of  # 1/x: multiplying by it divides by x
+    @property
+    def text(self) -> str:
+        return excel_text(self)[0]
 
-    # helpers -----------------------------------------------------------------------------
-    @staticmethod
-    def of(value) -> Term:
-        if isinstance(value, Term):
-            return value
-        if isinstance(value, bool):
-            raise TypeError("a truth value is not a formula operand")
-        number = float(value)
-        text = number_text(number)
-        return Term(f"({text})" if number < 0 else text, ATOM, number)
-
-    def _wrapped(self, below: int) -> str:
-        return f"({self.text})" if self.precedence < below else self.text
-
-    # arithmetic --------------------------------------------------------------------------
-    def __add__(self, other):
-        other = Term.of(other)
-        if self.literal is not None and other.literal is not None:
-            return Term.of(self.literal + other.literal)
-        if other.literal == 0:
-            return self
-        if self.literal == 0:
-            return other
-        return Term(f"{self.text}+{other.text}", SUM)
-
-    def __radd__(self, other):
-        return Term.of(other) + self
-
-    def __sub__(self, other):
-        other = Term.of(other)
-        if self.literal is not None and other.literal is not None:
-            return Term.of(self.literal - other.literal)
-        if other.literal == 0:
-            return self
-        if self.literal == 0:
-            return -other
-        return Term(f"{self.text}-{other._wrapped(PRODUCT)}", SUM)
-
-    def __rsub__(self, other):
-        return Term.of(other) - self
-
-    def __mul__(self, other):
-        other = Term.of(other)
-        if self.literal is not None and other.literal is not None:
-            return Term.of(self.literal * other.literal)
-        if self.literal == 0 or other.literal == 0:
-            return Term.of(0.0)
-        if other.literal == 1:
-            return self
-        if self.literal == 1:
-            return other
-        if other.reciprocal_of is not None:
-            return self / other.reciprocal_of
-        if self.reciprocal_of is not None:
-            return other / self.reciprocal_of
-        return Term(f"{self._wrapped(PRODUCT)}*{other._wrapped(PRODUCT)}", PRODUCT)
-
-    def __rmul__(self, other):
-        return Term.of(other) * self
-
-    def __truediv__(self, other):
-        other = Term.of(other)
-        if self.literal is not None and other.literal is not None and other.literal != 0:
-            return Term.of(self.literal / other.literal)
-        if other.literal == 1:
-            return self
-        if self.literal == 0 and other.literal is None:
-            return Term.of(0.0)
-        return Term(f"{self._wrapped(PRODUCT)}/{other._wrapped(ATOM)}", PRODUCT, reciprocal_of=other if self.literal == 1 else None)
-
-    def __rtruediv__(self, other):
-        return Term.of(other) / self
-
-    def __neg__(self):
-        if self.literal is not None:
-            return Term.of(-self.literal)
-        return Term(f"(-{self._wrapped(ATOM)})", ATOM)
-
-    def __pos__(self):
-        return self
+    @property
+    def precedence(self) -> int:
+        return excel_text(self)[1]
 
     def formula(self) -> str:
         return "=" + self.text
 
     def __repr__(self) -> str:
         return f"Term({self.text!r})"
-
-    def __bool__(self):  # an `if` on a symbolic value is a bug in a stage function
-        raise TypeError("a workbook formula has no truth value; stage code must not branch on numbers")
 
 
 def ref(sheet: str, column: str, row: int) -> Term:
@@ -159,11 +62,7 @@ def local(column: str, row: int) -> Term:
 
 def sum_of(terms) -> Term:
     """Sum written out term by term (each addend visible to the reader); 0 when empty."""
-    terms = [term for term in (Term.of(t) for t in terms) if term.literal != 0]
-    if not terms:
-        return Term.of(0.0)
-    text = "+".join(t.text for t in terms)
-    return Term(text, SUM if len(terms) > 1 else terms[0].precedence)
+    return Term.sum(terms)
 
 
 class SymbolicInputs:

@@ -13,7 +13,6 @@ from typing import Any
 from ...errors import InputError
 from ...model.factors import CITED_FIELDS
 from ...model.project import split_path
-from ..labels import UNITS
 from .cells import Term, resolve
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
@@ -31,7 +30,6 @@ COVER_LABELS = {
     "factors_option": "Factor set as requested (--factors)",
     "factor_set": "Factor set",
 }
-INTENSITY_UNITS = UNITS  # one vocabulary (io/labels.py)
 
 
 EXCEL_CELL_CHARACTERS = 32767  # Excel specifications and limits: total characters a cell can contain

@@ -18,8 +18,8 @@ import numpy as np
 from ...analyses.uncertainty import UncertaintyResult
 from ..csv_text import spreadsheet_safe
 from ..files import atomic_write
-from ..labels import INTENSITY_LABELS, stage_name
-from .layout import INTENSITY_UNITS, put_text, put_value, set_widths
+from ..labels import INTENSITY_LABELS, INTENSITY_UNITS, stage_name
+from .layout import put_text, put_value, set_widths
 from .style import header_row, number_format, page_setup, style_cell, wrap_columns
 
 UNCERTAINTY = "Uncertainty"

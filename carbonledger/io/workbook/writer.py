@@ -46,9 +46,8 @@ from ...core.results import ScoreResult
 from ...core.scoring import FUNCTIONAL_UNITS, declared_addition, intensities, rulebooks
 from ...model.factors import CITED_FIELDS
 from ...model.project import parameter_table
-from ...routes.base import FLOWS
 from ..files import atomic_write
-from ..labels import INTENSITY_LABELS, electricity_rule_name, gwp_name, lower_words, stage_name, status_name, unit_name
+from ..labels import INTENSITY_LABELS, INTENSITY_UNITS, electricity_rule_name, gas_name, gwp_name, lower_words, stage_name, status_name, unit_name
 from .calculation import (
     CalculationBlock,
     SymbolicModel,
@@ -73,7 +72,6 @@ from .layout import (
     INPUT_COLUMNS,
     INPUT_HEADER_ROW,
     INPUTS,
-    INTENSITY_UNITS,
     INTERVALS,
     MATCHING,
     PERIODS,
@@ -378,7 +376,7 @@ def _write_gas_table(ws, row: int, block: CalculationBlock, address, engine, uni
     _table_header(ws, row, ("gas", unit, "", "engine at writing"))
     for flow, term in gas_sums(block, block.headline_column).items():
         row += 1
-        put_text(ws, row, 1, FLOWS[flow])
+        put_text(ws, row, 1, gas_name(flow))
         _figure(ws, row, term, address, engine.by_gas.get(flow))
         cells[f"gas:{flow}"] = f"B{row}"
     return row
