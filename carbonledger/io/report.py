@@ -72,11 +72,8 @@ def number(value: float | None) -> str:
 
 
 def status_of(check: Check) -> str:
-    """The verdict's status in words: ``check.status`` when the verdict rules provide it, else pass/fail."""
-    status = getattr(check, "status", None)
-    if status is None:
-        return "qualifies" if check.passes else "fails"
-    return status_name(status)
+    """The verdict's status in words."""
+    return status_name(check.status)
 
 
 def reasons_of(check: Check) -> list[str]:
@@ -84,12 +81,8 @@ def reasons_of(check: Check) -> list[str]:
 
 
 def assessment_year_of(result: ScoreResult) -> str:
-    """The year whose dates the scheme rules were read on: the result's ``assessment_year`` where
-    the verdict rules give it, else the first check's ``assessment_period``."""
-    year = getattr(result, "assessment_year", None)
-    if year is None:
-        year = next((getattr(c, "assessment_period", "") for c in result.checks if getattr(c, "assessment_period", "")), "")
-    return str(year or "")
+    """The year whose dates the scheme rules were read on."""
+    return str(result.assessment_year or "")
 
 
 _REASON = re.compile(r"^(met|not met|cannot be judged|note):\s*(.*?)\s*(?:\[(.*)\])?\s*$", re.S)
@@ -557,7 +550,7 @@ def schemes_section(item: ProjectReport, key: str) -> str:
         details.append(
             f'<div class="scheme"><h4>{text(check.name)} {badge(status_of(check))}</h4>'
             f"<dl><dt>Value against limit</dt><dd>{number(check.value)} against {number(check.limit)} {text(check.unit)}"
-            f"{f' (margin {number(check.margin)})' if getattr(check, 'margin', None) is not None else ''}</dd>"
+            f"{f' (margin {number(check.margin)})' if check.margin is not None else ''}</dd>"
             f"<dt>Basis</dt><dd>{text(words(check.basis))}, {text(unit_name(check.quantity))}; {text(check.boundary)}; GWP100 {text(gwp_name(check.gwp_basis))}</dd>"
             f"<dt>Electricity</dt><dd>{text(electricity_rule_name(check.electricity_rule))}</dd>"
             + (f"<dt>Tiers</dt><dd>{tiers} {text(check.unit)}</dd>" if tiers else "")
