@@ -69,7 +69,6 @@ MAX_SEED = 2**32 - 1  # the seeds numpy and bw2calc both take
 MIN_CORRELATED_DRAWS = 10  # Iman-Conover needs the van der Waerden scores' correlation matrix to be positive definite
 MEMORY_PER_BLOCK_BYTES = 512 * 1024 * 1024  # the stacked matrices of one block of draws
 BLOCK = 20_000  # draws solved per stacked call (bounds memory; progress advances per block)
-STATUSES = (Status.QUALIFIES, Status.FAILS)  # the statuses a draw can have today; more can be added here
 
 
 # --- sampling -----------------------------------------------------------------------------
