@@ -175,14 +175,13 @@ class Recalc:
 def status_of(old_status: str, new_status: str) -> str:
     """How a check moved: a check whose value met the limit before (qualifies or undetermined) and now
     fails 'now fails'; one that now qualifies 'now qualifies'; another change 'now ...'; no change 'still ...'."""
-    words = {Status.QUALIFIES: "qualifies", Status.FAILS: "fails", Status.NOT_ELIGIBLE: "not eligible", Status.UNDETERMINED: "undetermined"}
     if old_status == new_status:
-        return f"still {words.get(new_status, new_status)}"
+        return f"still {Status(new_status).words}"
     if new_status == Status.FAILS and old_status in (Status.QUALIFIES, Status.UNDETERMINED):
         return "now fails"
     if new_status == Status.FAILS:
         return "still fails"
-    return f"now {words.get(new_status, new_status)}"
+    return f"now {Status(new_status).words}"
 
 
 @dataclass

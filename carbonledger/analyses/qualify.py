@@ -73,6 +73,7 @@ from ..model.factors import FactorSet
 from ..model.levers import MAX_COMBINATIONS, Lever, Levers, is_share
 from ..model.project import apply_overrides, field_limits, parameter_field, path_key
 from ..model.rulebooks import select_schemes
+from ..model.statuses import Status
 from ..routes.project import validate_project
 from .matching import score_with_series
 from .uncertainty import Draws, Plan, draw, evaluate, limit_breaks, make_plan, params_with_draws, probability, statuses
@@ -1032,14 +1033,14 @@ def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], b
         result = score_project(final, search.factor_set, gwp=search.gwp, schemes=ids, source=search.source, year=search.year)
     checks = [CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin) for c in result.checks]
     if search.confidence is None:
-        return checks, all(check.status == "qualifies" for check in checks)
+        return checks, all(check.status == Status.QUALIFIES for check in checks)
     discrete = {lever.path for lever in search.discrete}
     evaluator = search.evaluator(Combination({path: value for path, value in found.values.items() if path in discrete}, [], 0.0))
     point = np.array([found.values[path] for path in evaluator.paths], dtype=float)
     for item, hits in zip(checks, evaluator.scheme_probabilities(point), strict=True):
         item.probability, item.standard_error = hits.probability, hits.standard_error
     ok, found.probability, found.standard_error = evaluator.qualifies(point)
-    return checks, ok and not any(check.status in ("not_eligible", "undetermined") for check in checks)
+    return checks, ok and not any(check.status in (Status.NOT_ELIGIBLE, Status.UNDETERMINED) for check in checks)
 
 
 def _front(search: Search, combinations: list[Combination], best: Found | None, budgets: int) -> list[FrontPoint]:

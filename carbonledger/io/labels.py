@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from ..model.flows import FLOW_NAMES
 from ..model.grades import GRADE_WORDS, Grade
+from ..model.statuses import Status
 
 WORDS = {"co2": "CO2", "co2e": "CO2e", "h2": "H2", "nh3": "NH3", "n2": "N2", "ch4": "CH4", "n2o": "N2O", "lhv": "LHV", "gj": "GJ", "kwh": "kWh", "mwh": "MWh", "mw": "MW", "mj": "MJ", "pem": "PEM", "atr": "ATR", "smr": "SMR", "ar4": "AR4", "ar5": "AR5", "ar6": "AR6"}
 # The unit of each intensity (and scheme quantity), and what it is per.
@@ -20,7 +21,7 @@ INTENSITY_UNITS = {
 }
 PER = {"t_nh3": "t NH3", "kg_nh3": "kg NH3", "kg_h2": "kg H2", "mj": "MJ (LHV)", "t-nh3": "t NH3", "kg-h2": "kg H2"}
 INTENSITY_LABELS = {key: f"Carbon intensity per {PER[key.split('_per_')[1]]}" for key in INTENSITY_UNITS}
-STATUS_WORDS = {"qualifies": "qualifies", "fails": "fails", "not_eligible": "not eligible", "undetermined": "undetermined"}
+STATUS_WORDS = {status.value: status.words for status in Status}
 ELECTRICITY_RULES = {
     "renewable_at_zero": "renewable electricity counted at zero, the rest at its factor",
     "lifecycle": "every source at its life-cycle factor",

@@ -9,6 +9,8 @@ sensitivity, matching) read these, so a reader sees one style across every deliv
 
 from __future__ import annotations
 
+from ..model.statuses import Status
+
 INK = "#1d2a33"
 TEAL = "#24566b"
 SAND = "#c9892b"
@@ -16,7 +18,7 @@ AXIS = "#8b949b"
 MUTED = "#5d6870"
 STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
 GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
-STATUS_COLOURS = {"qualifies": "#2f6b45", "fails": "#a4452f", "not eligible": "#5b616c", "undetermined": "#8a6a10"}
+STATUS_COLOURS = {Status.QUALIFIES.words: "#2f6b45", Status.FAILS.words: "#a4452f", Status.NOT_ELIGIBLE.words: "#5b616c", Status.UNDETERMINED.words: "#8a6a10"}
 MATCHED, UNMATCHED = "#6f9a73", "#cbc3b1"
 LOW, HIGH = TEAL, SAND  # a tornado's low and high ends
 # Heat map ramp: harbour-teal mist (all matched) through sandstone to deep brick (nothing matched).

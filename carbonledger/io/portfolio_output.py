@@ -9,6 +9,7 @@ from dataclasses import asdict
 
 from ..about import CAUTION
 from ..core.results import strict_json
+from ..model.statuses import Status
 from .csv_text import csv_text
 from .labels import status_name
 from .tables import display_number, plain_table
@@ -145,7 +146,7 @@ def lifetime_json(result) -> str:
     return strict_json(data, result.project_file)
 
 
-YEAR_MARKS = {"fails": " x", "undetermined": " ?", "not_eligible": " n/e"}
+YEAR_MARKS = {Status.FAILS: " x", Status.UNDETERMINED: " ?", Status.NOT_ELIGIBLE: " n/e"}
 
 
 def lifetime_csv(result) -> str:
@@ -209,7 +210,7 @@ def lifetime_table(result) -> str:
             display_number(s.lifetime_value),
             display_number(s.limit),
             s.unit,
-            status_name(s.status or ("qualifies" if s.passes else "fails")),
+            status_name(s.status),
             ", ".join(str(y) for y in s.years_missed) or "none",
         ]
         for s in schemes

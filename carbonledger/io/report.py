@@ -32,6 +32,7 @@ from ..analyses.uncertainty import UncertaintyResult
 from ..core.results import Check, ScoreResult
 from ..core.scoring import rulebooks
 from ..errors import InputError
+from ..model.statuses import Status
 from .files import atomic_write
 from .labels import electricity_rule_name, factor_grades_sentence, gas_name, gwp_name, stage_name, status_name, unit_name, words
 from .palette import GAS_COLOURS, RAMP, STAGE_COLOURS
@@ -40,8 +41,8 @@ from .tables import display_number
 PAPERS = ("a4", "letter")
 CHROMIUM_NAMES = ("chromium", "chromium-browser", "google-chrome", "google-chrome-stable")
 
-YEAR_SIGNS = {"qualifies": "✓", "fails": "✗", "undetermined": "?", "not_eligible": "n/e"}
-STATUS_CLASS = {"qualifies": "ok", "fails": "no", "not eligible": "off", "undetermined": "open"}
+YEAR_SIGNS = {Status.QUALIFIES: "✓", Status.FAILS: "✗", Status.UNDETERMINED: "?", Status.NOT_ELIGIBLE: "n/e"}
+STATUS_CLASS = {Status.QUALIFIES.words: "ok", Status.FAILS.words: "no", Status.NOT_ELIGIBLE.words: "off", Status.UNDETERMINED.words: "open"}
 
 @dataclass
 class ProjectReport:
@@ -578,7 +579,7 @@ def lifetime_section(item: ProjectReport, key: str) -> str:
         for y in life.years
     ]
     summary = [
-        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge(status_name(s.status or ("qualifies" if s.passes else "fails"))), ", ".join(map(str, s.years_missed)) or "none"]
+        [text(s.scheme), number(s.average_without_construction), number(s.average_with_construction), "yes" if s.counts_construction else "no", f"{number(s.lifetime_value)} / {number(s.limit)}", text(s.unit), badge(status_name(s.status)), ", ".join(map(str, s.years_missed)) or "none"]
         for s in life.schemes
     ]
     return (

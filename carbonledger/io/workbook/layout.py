@@ -13,6 +13,7 @@ from typing import Any
 from ...errors import InputError
 from ...model.factors import CITED_FIELDS
 from ...model.project import split_path
+from ...model.statuses import Status
 from .cells import Term, resolve
 
 INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
@@ -129,4 +130,5 @@ def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
     """The live verdict: the threshold on the live value, within the rules read at writing
     (``status``: not eligible stays so whatever the value; undetermined stays undetermined), in
     the words of every output: qualifies, fails, not eligible, undetermined."""
-    return f'IF({status}="not eligible","not eligible",IF({value}{operator}{limit},IF({status}="undetermined","undetermined","qualifies"),"fails"))'
+    ok, no, off, open_ = (f'"{s.words}"' for s in (Status.QUALIFIES, Status.FAILS, Status.NOT_ELIGIBLE, Status.UNDETERMINED))
+    return f"IF({status}={off},{off},IF({value}{operator}{limit},IF({status}={open_},{open_},{ok}),{no}))"

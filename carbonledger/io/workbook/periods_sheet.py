@@ -16,6 +16,7 @@ from typing import Any
 from ...analyses.periods import CANONICAL, NM3_FACTOR, Meters, scaled_parameters
 from ...core.inventory import build_inventory
 from ...core.scoring import intensities
+from ...model.statuses import Status
 from .calculation import basis_product_of, stage_sums, write_calculation_block
 from .cells import Term, local, ref, sum_of
 from .layout import (
@@ -264,7 +265,7 @@ def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None
         status = f"{RESULTS}!$Q${results_cells[f'check:{scheme.id}']}"
         formula = verdict_formula(value, operator, limit, status)
     else:
-        formula = f'IF({value}{operator}{loosest.limit!r},"qualifies","fails")'
+        formula = f'IF({value}{operator}{loosest.limit!r},"{Status.QUALIFIES.words}","{Status.FAILS.words}")'
     put_formula(ws, row, value_column + 1, Term(formula), address)
 
 

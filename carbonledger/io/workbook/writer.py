@@ -46,6 +46,7 @@ from ...core.results import ScoreResult
 from ...core.scoring import FUNCTIONAL_UNITS, declared_addition, intensities, rulebooks
 from ...model.factors import CITED_FIELDS
 from ...model.project import parameter_table
+from ...model.statuses import Status
 from ..files import atomic_write
 from ..labels import INTENSITY_LABELS, INTENSITY_UNITS, electricity_rule_name, gas_name, gwp_name, lower_words, stage_name, status_name, unit_name
 from .calculation import (
@@ -458,7 +459,7 @@ def _scheme_value_term(row: int, model: SymbolicModel, scheme, block: Calculatio
 def _live_status(ws, row: int, scheme, engine_check, co_product_note: str, address) -> None:
     """Column L: the live verdict formula, or the fixed words when the scheme's co-product rule decides."""
     if co_product_note.startswith("cannot be judged"):
-        put_text(ws, row, 12, "undetermined")  # the scheme's co-product rule cannot be applied: undetermined whatever the value
+        put_text(ws, row, 12, Status.UNDETERMINED.words)  # the scheme's co-product rule cannot be applied: undetermined whatever the value
     elif co_product_note.startswith("scheme value rescored"):
         # the scheme's co-product rule differs from the project's: the live value keeps the project's method, the
         # engine value (column P) and status (Q) are the scheme's; the reasons say so
@@ -474,7 +475,7 @@ def _tier_formula(row: int, tiers: list[tuple[int, Any]]) -> Term:
     for threshold_row, threshold in reversed(tiers):  # loosest outermost, strictest innermost
         comparison = "<=" if threshold.inclusive else "<"
         tier = f"IF($J${row}{comparison}$C${threshold_row},$B${threshold_row},{tier})"
-    return Term(f'IF(OR($Q${row}="not eligible",$Q${row}="undetermined"),"none",{tier})')
+    return Term(f'IF(OR($Q${row}="{Status.NOT_ELIGIBLE.words}",$Q${row}="{Status.UNDETERMINED.words}"),"none",{tier})')
 
 
 def _write_check_row(ws, row: int, model: SymbolicModel, scheme, block, address, engine, engine_check, tiers) -> None:
@@ -490,7 +491,7 @@ def _write_check_row(ws, row: int, model: SymbolicModel, scheme, block, address,
     put_formula(ws, row, 11, local("C", loosest_row), address)
     co_product_note = str((engine_check.co_products or {}).get("note", "")) if engine_check is not None else ""
     _live_status(ws, row, scheme, engine_check, co_product_note, address)
-    put_formula(ws, row, 13, Term(f'IF($Q${row}="not eligible","",$K${row}-$J${row})'), address)
+    put_formula(ws, row, 13, Term(f'IF($Q${row}="{Status.NOT_ELIGIBLE.words}","",$K${row}-$J${row})'), address)
     put_formula(ws, row, 14, _tier_formula(row, tiers), address)
     put_text(ws, row, 15, "yes" if (scheme.from_memory or any(t.from_memory for t in scheme.thresholds)) else "no")
     engine_value = engine_check.value if engine_check else None
