@@ -61,6 +61,26 @@ class Solution:
 
 
 def build_matrices(inventory) -> Matrices:
+    """The technosphere and biosphere matrices of an inventory, as bw_processing coordinates and values.
+
+    Each activity makes one unit of its product (a 1 on the diagonal); an input is a flipped (negative)
+    technosphere entry, an emission a biosphere entry in kg of its flow.
+
+    Parameters
+    ----------
+    inventory : Inventory
+        The project's activities (``core.inventory.build_inventory``), exchange amounts per unit of each activity.
+
+    Returns
+    -------
+    Matrices
+        Activity and flow keys; technosphere coordinates, values (in the activities' units) and flip flags;
+        biosphere coordinates and values (kg of each flow per unit of activity).
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+    """
     activity_keys = list(inventory.activities)
     column = {key: number for number, key in enumerate(activity_keys)}
     flow_keys = list(FLOWS)
@@ -92,6 +112,13 @@ def build_matrices(inventory) -> Matrices:
 
 
 def import_bw2calc():
+    """bw2calc and bw_processing, imported on first use with their import-time warnings silenced.
+
+    Returns
+    -------
+    tuple of (module, module)
+        The ``bw2calc`` and ``bw_processing`` modules.
+    """
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         import bw2calc
@@ -106,6 +133,20 @@ def datapackage(matrices: Matrices, characterisation: np.ndarray, distributions:
     ``distributions`` (optional) gives, for "technosphere", "biosphere" and "characterization",
     a bw_processing ``UNCERTAINTY_DTYPE`` array (stats_arrays uncertainty types) per entry, which
     bw2calc samples with ``use_distributions=True``.
+
+    Parameters
+    ----------
+    matrices : Matrices
+        The system, as ``build_matrices`` gives it.
+    characterisation : ndarray
+        Characterisation factor of each flow, kg CO2e per kg of the flow (e.g. GWP100), in ``flow_keys`` order.
+    distributions : dict, optional
+        Uncertainty arrays by matrix name, as above.
+
+    Returns
+    -------
+    bw_processing.Datapackage
+        The datapackage bw2calc reads.
     """
     _, bwp = import_bw2calc()
     package = bwp.create_datapackage()
@@ -141,6 +182,25 @@ def solve(matrices: Matrices, demands: list[str], characterisation: np.ndarray) 
 
     Returns the solutions by demand and bw2calc's characterised score of the first demand, which
     callers use as the reference the numpy characterisation is checked against.
+
+    Parameters
+    ----------
+    matrices : Matrices
+        The system, as ``build_matrices`` gives it.
+    demands : list of str
+        Activity keys whose one unit of product is demanded, in turn (e.g. the functional unit and the gate).
+    characterisation : ndarray
+        Characterisation factor of each flow, kg CO2e per kg of the flow, in ``flow_keys`` order.
+
+    Returns
+    -------
+    tuple of (dict of str to Solution, float)
+        Per demand: the supply s (units of each activity per unit demanded) and the inventory
+        g = B diag(s) (kg of each flow by activity); and the first demand's score, kg CO2e per unit.
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
     """
     bw2calc, _ = import_bw2calc()
     column = {key: number for number, key in enumerate(matrices.activity_keys)}
@@ -169,7 +229,20 @@ def solve(matrices: Matrices, demands: list[str], characterisation: np.ndarray) 
 
 
 def structure_key(matrices: Matrices, demands: list[str]) -> tuple:
-    """What two systems must share to be solved together: activities, coordinates, demands."""
+    """What two systems must share to be solved together: activities, coordinates, demands.
+
+    Parameters
+    ----------
+    matrices : Matrices
+        The system, as ``build_matrices`` gives it.
+    demands : list of str
+        The activity keys demanded.
+
+    Returns
+    -------
+    tuple
+        A hashable key; systems with equal keys differ only in their values.
+    """
     return (
         tuple(matrices.activity_keys),
         matrices.technosphere_indices.tobytes(),
@@ -185,6 +258,19 @@ def build_stacked_matrices(inventory, count: int) -> Matrices:
     Every exchange amount (a float, or a numpy array of ``count`` draws built by the same stage
     code) is broadcast to ``count`` values; ``technosphere_values`` and ``biosphere_values`` are
     then (count, exchanges) arrays with the coordinates of ``build_matrices``.
+
+    Parameters
+    ----------
+    inventory : Inventory
+        The project's activities, exchange amounts as floats or arrays of ``count`` draws (units as in
+        ``build_matrices``).
+    count : int
+        Number of systems (draws).
+
+    Returns
+    -------
+    Matrices
+        The coordinates of ``build_matrices`` with (count, exchanges) value arrays.
     """
     activity_keys = list(inventory.activities)
     column = {key: number for number, key in enumerate(activity_keys)}
@@ -233,6 +319,19 @@ def solve_stacked_values(stacked: Matrices, demands: list[str]) -> tuple[np.ndar
     one call. Returns the supply s = A^-1 f, (n, k, demands), and B, (n, flows, k); the
     inventory of demand d is B * s[:, None, :, d].
 
+    Parameters
+    ----------
+    stacked : Matrices
+        The systems, values of shape (n, exchanges).
+    demands : list of str
+        Activity keys whose one unit of product is demanded.
+
+    Returns
+    -------
+    tuple of (ndarray, ndarray)
+        The supply, units of each activity per unit demanded, shape (n, k, demands); and B, kg of each
+        flow per unit of each activity, shape (n, flows, k).
+
     References
     ----------
     .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
@@ -257,6 +356,23 @@ def solve_many(systems: list[Matrices], demands: list[str]) -> list[dict[str, So
     (``solve_stacked_values``); the supply s = A^-1 f and inventory g = B diag(s) are as in
     ``solve``. bw2calc stays the reference: ``solve`` on any one system gives the same numbers,
     which the callers check on one member of every group and the tests check on all of them.
+
+    Parameters
+    ----------
+    systems : list of Matrices
+        Systems with one ``structure_key``, as ``build_matrices`` gives them.
+    demands : list of str
+        Activity keys whose one unit of product is demanded.
+
+    Returns
+    -------
+    list of dict of str to Solution
+        For each system, per demand: the supply (units per unit demanded) and the inventory (kg of each flow
+        by activity).
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
     """
     first = systems[0]
     stacked = Matrices(

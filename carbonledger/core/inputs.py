@@ -25,7 +25,20 @@ from ..model.units import UnitMismatch, conversion_factor, spelling_hint
 def close_factor_ids(factor_id: str, known_ids) -> list[str]:
     """Up to three known ids that look like ``factor_id``: the last segment is compared among ids of the
     same namespace (``electricity.grid.germany_2022`` finds ``electricity.grid.germany_2019``), else the
-    whole id among all ids."""
+    whole id among all ids.
+
+    Parameters
+    ----------
+    factor_id : str
+        The id asked for (not in the set).
+    known_ids : iterable of str
+        The ids of the factor set.
+
+    Returns
+    -------
+    list of str
+        At most three ids, the closest first (``difflib`` ratio at least 0.6 within the namespace, 0.75 across).
+    """
     namespace, _, leaf = factor_id.rpartition(".")
     leaves = {known.rpartition(".")[2]: known for known in known_ids if known.rpartition(".")[0] == namespace}
     if leaves:

@@ -32,7 +32,26 @@ class Inventory:
 
 
 def build_inventory(params: dict, inputs) -> Inventory:
-    """All activities of a project, from its validated parameters (a plain nested dict)."""
+    """All activities of a project, from its validated parameters (a plain nested dict).
+
+    Each route module of the registry that applies builds its activities in chain order; the last
+    one's reference activity is the functional unit.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its field states;
+        numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values and reference values, each recorded as it is used.
+
+    Returns
+    -------
+    Inventory
+        The activities by key (exchanges per unit of each activity), the reference (functional unit) and gate
+        activities, the functional unit in words, the electricity kinds and sources, the delivery figures and
+        the co-products.
+    """
     product = params["project"]["product"]
     chain = Chain(boundary=params["project"]["boundary"], product="hydrogen", reference="hydrogen_production")
     activities: list[Activity] = []
@@ -69,6 +88,25 @@ def check_physical_limits(params: dict, inputs, source: str) -> None:
 
     Every module whose section the project has is asked, whatever the boundary (fuel names are
     checked at the plant gate too); a module checks balances beyond the gate itself.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its field states.
+    inputs : NumericInputs
+        Factor values and reference values, each recorded as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when every limit holds.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
     """
     for route in REGISTRY:
         owns = [name for name in {**route.sections, **route.optional_sections} if params.get(name) is not None]

@@ -26,6 +26,27 @@ def strict_json(data: Any, where: str = "result") -> str:
 
     (Python's ``json`` writes ``NaN``/``Infinity`` by default, which is not JSON (RFC 8259, section 6);
     pydantic's own JSON turns them into ``null``, which would hide a broken result.)
+
+    Parameters
+    ----------
+    data : Any
+        Plain data (dicts, lists, numbers, text); numpy numbers are written as plain numbers.
+    where : str
+        What is being written, named in the error.
+
+    Returns
+    -------
+    str
+        The JSON text, indented by 2.
+
+    Raises
+    ------
+    InputError
+        When a figure is NaN or infinite (nothing is written).
+
+    References
+    ----------
+    .. [1] RFC 8259 (2017), The JavaScript Object Notation (JSON) Data Interchange Format, section 6.
     """
     try:
         return json.dumps(data, indent=2, allow_nan=False, default=_plain_number)

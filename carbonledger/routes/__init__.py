@@ -53,7 +53,13 @@ STAGES: tuple[str, ...] = tuple(dict.fromkeys(stage for route in REGISTRY for st
 
 
 def owned_sections() -> dict[str, type]:
-    """Every project-file section a route module owns (name -> model), in registry order."""
+    """Every project-file section a route module owns (name -> model), in registry order.
+
+    Returns
+    -------
+    dict of str to type
+        Section name -> its pydantic model (required and optional sections).
+    """
     sections: dict[str, type] = {}
     for route in REGISTRY:
         sections.update(route.sections)
@@ -62,12 +68,36 @@ def owned_sections() -> dict[str, type]:
 
 
 def routes_of(params: dict) -> list[Route]:
-    """The route modules that take part in a project (at its boundary), in chain order."""
+    """The route modules that take part in a project (at its boundary), in chain order.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); each route's ``applies`` reads
+        which sections are there, ``hydrogen.route``, ``project.product`` and ``project.boundary``.
+
+    Returns
+    -------
+    list of Route
+        The registered routes whose ``applies`` is true for the project.
+    """
     return [route for route in REGISTRY if route.applies(params)]
 
 
 def metered_parameters(params: dict) -> dict[str, list[str]]:
-    """Parameter paths scaled by metered natural gas and electricity, for a project's routes."""
+    """Parameter paths scaled by metered natural gas and electricity, for a project's routes.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> parameter paths (``section.field``).
+    """
     paths: dict[str, list[str]] = {"natural_gas": [], "electricity": ["hydrogen.conditioning_kwh_per_kg_h2"]}
     for route in routes_of(params):
         for quantity, names in route.metered(params).items():

@@ -20,6 +20,29 @@ class Ammonia(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activities of ammonia synthesis, nitrogen supply and refrigerated storage, per t NH3.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``ammonia.synthesis_electricity_kwh_per_t_nh3`` in kWh/t NH3).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (t NH3, kg N2).
+
+    References
+    ----------
+    .. [1] Stoichiometry of 3 H2 + N2 -> 2 NH3 (common practice); see ``carbonledger.stages.ammonia``.
+    """
     a = params["ammonia"]
     m_h2, m_n2, m_nh3 = inputs.molar_mass("H2"), inputs.molar_mass("N2"), inputs.molar_mass("NH3")
     synthesis = Activity("ammonia_synthesis", "ammonia_synthesis", "ammonia, synthesis loop", "t NH3")
@@ -44,6 +67,20 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def metered(params: dict) -> dict[str, list[str]]:
+    """Parameter paths of the ammonia plant scaled by metered natural gas and electricity.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
+        operation in a period scales.
+    """
     return {
         "natural_gas": ["ammonia.synthesis_natural_gas_gj_per_t_nh3"],
         "electricity": ["ammonia.air_separation_kwh_per_t_n2", "ammonia.synthesis_electricity_kwh_per_t_nh3", "ammonia.storage_electricity_kwh_per_t_nh3"],
@@ -51,6 +88,23 @@ def metered(params: dict) -> dict[str, list[str]]:
 
 
 def validate(project) -> None:
+    """An ``[ammonia]`` section exactly when the product is ammonia; process air only with a reformer.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     if project.project.product == "ammonia" and project.ammonia is None:
         raise SectionError("ammonia", "an [ammonia] section for product 'ammonia'")
     if project.project.product == "hydrogen" and project.ammonia is not None:
@@ -60,10 +114,36 @@ def validate(project) -> None:
 
 
 def uses_natural_gas(project) -> bool:
+    """Whether the synthesis loop burns natural gas.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    bool
+        True when the route burns or converts natural gas (a ``[natural_gas]`` section is then needed).
+    """
     return project.ammonia is not None and project.ammonia.synthesis_natural_gas_gj_per_t_nh3 > 0
 
 
 def starter(product: str, process_air: bool = False) -> str:
+    """The ``[ammonia]`` section of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+    process_air : bool
+        Nitrogen from process air in a secondary reformer (a reforming route) instead of air separation.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     return f"""
 [ammonia]
 nitrogen_source = "{'process_air' if process_air else 'air_separation'}"     # air_separation | process_air (secondary reformer)

@@ -41,6 +41,26 @@ def _needs_ammonia(section: str):
 
 
 def build_pipeline(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of ammonia carried by pipeline, per t NH3 delivered: ammonia fed in (losses
+    included), pumping electricity, ammonia lost.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``ammonia_pipeline.pumping_kwh_per_t_km`` in kWh/(t km)).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (t NH3).
+    """
     leg = params["ammonia_pipeline"]
     pipe = Activity("ammonia_piped", "ammonia_pipeline", f"ammonia, piped to {leg['destination']}", "t NH3")
     into = hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"])
@@ -52,6 +72,26 @@ def build_pipeline(params: dict, inputs, chain) -> list[Activity]:
 
 
 def build_rail(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of ammonia carried by rail, per t NH3 delivered: ammonia loaded (losses included),
+    locomotive fuel for the laden and return trips with its well-to-tank supply, ammonia lost.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``ammonia_rail.fuel_g_per_t_km`` in g/(t km)).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (t NH3).
+    """
     leg = params["ammonia_rail"]
     train = Activity("ammonia_railed", "ammonia_rail", f"ammonia, carried by rail to {leg['destination']}", "t NH3")
     into = hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"])
@@ -65,6 +105,29 @@ def build_rail(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_rail(params: dict, inputs, source: str) -> None:
+    """The rail fuel must have factors in the factor set.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``ammonia_rail.fuel``, a fuel name).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+    """
     fuels = road_fuels(inputs.factor_set, "rail_fuel")
     if params["ammonia_rail"]["fuel"] not in fuels:
         raise InputError(source, "ammonia_rail.fuel", f"a rail fuel with factors in set '{inputs.factor_set.name}' ({', '.join(fuels) or 'none'}), got '{params['ammonia_rail']['fuel']}'")

@@ -139,12 +139,52 @@ class Route:
 
 
 def combustion_kg_per_gj(inputs, gas: str) -> Any:
-    """kg of a gas per GJ of natural gas burnt, from the factor set's IPCC default (kg/TJ)."""
+    """kg of a gas per GJ of natural gas burnt, from the factor set's IPCC default (kg/TJ).
+
+    Parameters
+    ----------
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    gas : str
+        ``co2``, ``ch4`` or ``n2o`` (the factor ``combustion.natural_gas.<gas>``).
+
+    Returns
+    -------
+    float or ndarray
+        Emission, kg of the gas per GJ (LHV) of natural gas burnt.
+
+    References
+    ----------
+    .. [1] IPCC (2006). 2006 IPCC Guidelines, Vol. 2, Ch. 2, Table 2.2 (stationary combustion).
+    """
     return natural_gas.combustion_kg_per_gj(inputs.factor(f"combustion.natural_gas.{gas}", f"kg {gas.upper()}/TJ"))
 
 
 def burn_natural_gas(activity: Activity, inputs, gas_gj, label: str) -> None:
-    """Natural gas bought and burnt on site: supply input plus its combustion emissions."""
+    """Natural gas bought and burnt on site: supply input plus its combustion emissions.
+
+    Parameters
+    ----------
+    activity : Activity
+        The activity that burns the gas (exchanges added to it).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    gas_gj : float or ndarray
+        Natural gas burnt, GJ (LHV) per unit of the activity.
+    label : str
+        What the gas is burnt for, in the exchanges' labels.
+
+    Returns
+    -------
+    None
+        The exchanges are added to ``activity``.
+
+    References
+    ----------
+    .. [1] IPCC (2006). 2006 IPCC Guidelines, Vol. 2, Ch. 2, Table 2.2 (stationary combustion).
+    """
     activity.consume("natural_gas_supply", gas_gj, f"natural gas, {label}", "GJ")
     activity.emit("co2_fossil", gas_gj * combustion_kg_per_gj(inputs, "co2"), f"CO2 from burning natural gas, {label}")
     activity.emit("ch4_fossil", gas_gj * combustion_kg_per_gj(inputs, "ch4"), f"CH4 from burning natural gas, {label}")
@@ -157,6 +197,21 @@ def electricity_flow(inputs, factor_id: str, where: str) -> tuple[str, Any]:
     A factor whose unit names CO2 (``g CO2/kWh``, ``lb CO2/MWh``, ``t CO2/MWh``) counts as fossil
     CO2; one that names CO2e (``g CO2e/kWh``, ``kg CO2e/kWh``) as pre-characterised CO2e. Any
     energy and mass units pint knows are converted to g/kWh.
+
+    Parameters
+    ----------
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    factor_id : str
+        Id of the electricity factor (``electricity.*``).
+    where : str
+        The project field that named the factor, for an error message.
+
+    Returns
+    -------
+    tuple of (str, float or ndarray)
+        The flow (``co2_fossil`` or ``co2e_precharacterised``) and its amount, kg per kWh.
     """
     unit = inputs.factor_unit(factor_id, where)
     direct = split_substance(unit)[1] == ("CO2",)

@@ -34,6 +34,31 @@ class BiomethaneReforming(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activities of hydrogen from reformed biomethane, per kg H2: biomethane supply with its upstream
+    factor, biogenic CO2 released or captured, non-fossil CH4 and N2O of the fuel part, electricity.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``biomethane_reforming.biomethane_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2, GJ, kg CO2).
+
+    References
+    ----------
+    .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
+    .. [2] ISO/TS 19870:2023 (biogenic carbon reported separately; from memory).
+    """
     b = params["biomethane_reforming"]
     gas_gj = b["biomethane_gj_per_kg_h2"]
     upstream = inputs.factor(b["upstream_factor"], "g CO2e/MJ", "biomethane_reforming.upstream_factor")
@@ -65,7 +90,33 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 def check_limits(params: dict, inputs, source: str) -> None:
     """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2), and biomethane
-    plus electricity at least the hydrogen's lower heating value (energy balance, as for natural gas)."""
+    plus electricity at least the hydrogen's lower heating value (energy balance, as for natural gas).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``biomethane_reforming.biomethane_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
+    """
     b = params["biomethane_reforming"]
     field = "biomethane_reforming.biomethane_gj_per_kg_h2"
     refuse_below_the_methane_floor(b["biomethane_gj_per_kg_h2"], inputs, source, field)
@@ -73,16 +124,59 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The limits of ``check_limits`` on numbers or arrays of draws."""
+    """The limits of ``check_limits`` on numbers or arrays of draws.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``biomethane_reforming.biomethane_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     b = params["biomethane_reforming"]
     return methane_feed_draw_limits("biomethane_reforming", b["biomethane_gj_per_kg_h2"], b["electricity_kwh_per_kg_h2"], inputs)
 
 
 def metered(params: dict) -> dict[str, list[str]]:
+    """Parameter paths of the biomethane reformer scaled by metered gas and electricity.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
+        operation in a period scales.
+    """
     return {"electricity": ["biomethane_reforming.electricity_kwh_per_kg_h2"]}
 
 
 def starter(product: str) -> str:
+    """The ``[biomethane_reforming]`` section and the supply sections of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     return """
 [biomethane_reforming]
 biomethane_gj_per_kg_h2 = 0.165          # feed and fuel, lower heating value (at least 0.1 GJ: 1 mol CH4 per 4 mol H2)

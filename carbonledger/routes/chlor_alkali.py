@@ -24,6 +24,32 @@ class ChlorAlkali(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of by-product hydrogen from chlor-alkali cells, per kg H2: the hydrogen's share of the
+    cell electricity (by the project's allocation) and the conditioning electricity; the co-products
+    go in ``chain.figures['co_products']``.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``chlor_alkali.cell_electricity_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
+
+    References
+    ----------
+    .. [1] European Commission, Chlor-alkali BREF (2014), ch. 2: the cell reaction.
+    .. [2] ISO 14044:2006, 4.3.4 (allocation by physical relationships, then by economic value).
+    """
     c = params["chlor_alkali"]
     m_h2 = inputs.molar_mass("H2")
     chlorine = chlor_alkali.chlorine_kg_per_kg_h2(inputs.molar_mass("Cl2"), m_h2)
@@ -46,7 +72,34 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """At least the reversible cell voltage's electricity per kg H2 (2 NaCl + 2 H2O -> Cl2 + H2 + 2 NaOH)."""
+    """At least the reversible cell voltage's electricity per kg H2 (2 NaCl + 2 H2O -> Cl2 + H2 + 2 NaOH).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``chlor_alkali.cell_electricity_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] Two electrons per H2 at the reversible cell voltage (Faraday's law); see
+       ``carbonledger.stages.chlor_alkali`` (cell voltage recorded from memory).
+    """
     least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2"))
     got = params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"]
     if got < least:
@@ -57,22 +110,82 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The floor of ``check_limits`` on numbers or arrays of draws."""
+    """The floor of ``check_limits`` on numbers or arrays of draws.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``chlor_alkali.cell_electricity_kwh_per_kg_h2`` in kWh/kg H2).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2"))
     return [("chlor_alkali.cell_electricity_kwh_per_kg_h2", "at least the electricity of the reversible cell voltage", params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"] >= least)]
 
 
 def validate(project) -> None:
+    """Prices above zero for the three products when the burden is shared by economic value.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     c = project.chlor_alkali
     if c.allocation == "economic" and not (c.hydrogen_price_per_kg > 0 and c.chlorine_price_per_kg > 0 and c.sodium_hydroxide_price_per_kg > 0):
         raise SectionError("chlor_alkali.hydrogen_price_per_kg", "prices above 0 for hydrogen, chlorine and sodium hydroxide, for allocation 'economic'")
 
 
 def metered(params: dict) -> dict[str, list[str]]:
+    """Parameter paths of the chlor-alkali plant scaled by metered electricity.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
+        operation in a period scales.
+    """
     return {"electricity": ["chlor_alkali.cell_electricity_kwh_per_kg_h2"]}
 
 
 def starter(product: str) -> str:
+    """The ``[chlor_alkali]`` and ``[electricity]`` sections of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     text = """
 [chlor_alkali]
 cell_electricity_kwh_per_kg_h2 = 88.0   # cells and plant per kg H2 (about 2,500 kWh/t Cl2 x 35.2 kg Cl2/kg H2)

@@ -25,6 +25,28 @@ class Cracking(Section):
 
 
 def cracking_figures(c: dict, inputs) -> dict[str, Any]:
+    """The cracker's figures per kg H2 cracked: ammonia feed, reaction enthalpy, heat, hydrogen burnt.
+
+    Parameters
+    ----------
+    c : dict
+        The ``[cracking]`` section (fractions dimensionless, N2O in g/kg NH3, electricity in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    dict of str to float or str
+        ``ammonia_kg_per_kg_h2_cracked`` (kg NH3/kg H2), ``reaction_enthalpy_mj_per_kg_h2`` and
+        ``heat_mj_per_kg_h2_cracked`` (MJ/kg H2), ``hydrogen_burnt_per_kg_h2_cracked`` (kg/kg), the heat source and
+        the recovery fraction.
+
+    References
+    ----------
+    .. [1] Stoichiometry of 2 NH3 -> N2 + 3 H2 and the enthalpy of formation of NH3(g); see
+       ``carbonledger.stages.cracking``.
+    """
     m_nh3, m_h2 = inputs.molar_mass("NH3"), inputs.molar_mass("H2")
     feed = cracking.ammonia_kg_per_kg_h2_cracked(m_nh3, m_h2)
     enthalpy = cracking.reaction_enthalpy_mj_per_kg_h2(inputs.formation_enthalpy_ammonia(), m_h2)
@@ -41,6 +63,31 @@ def cracking_figures(c: dict, inputs) -> dict[str, Any]:
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of hydrogen cracked from the delivered ammonia, per kg H2 delivered: ammonia cracked and
+    burnt for heat (or hydrogen or natural gas burnt), the cracker's electricity at the destination.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``cracking.electricity_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2, t NH3, kWh).
+
+    References
+    ----------
+    .. [1] Stoichiometry of 2 NH3 -> N2 + 3 H2 and the enthalpy of formation of NH3(g); see
+       ``carbonledger.stages.cracking``.
+    """
     c = params["cracking"]
     figures = cracking_figures(c, inputs)
     cracked = cracking.hydrogen_cracked_kg_per_kg_delivered(c["hydrogen_recovery_fraction"], figures["hydrogen_burnt_per_kg_h2_cracked"])
@@ -68,7 +115,34 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """The hydrogen recovered must exceed the hydrogen burnt for the cracker's heat."""
+    """The hydrogen recovered must exceed the hydrogen burnt for the cracker's heat.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``cracking.hydrogen_recovery_fraction``, a fraction).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] Stoichiometry of 2 NH3 -> N2 + 3 H2 and the enthalpy of formation of NH3(g); see
+       ``carbonledger.stages.cracking``.
+    """
     c = params["cracking"]
     if params["project"]["boundary"] == "cradle-to-gate":
         return
@@ -82,7 +156,24 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The heat balance of ``check_limits`` on numbers or arrays of draws."""
+    """The heat balance of ``check_limits`` on numbers or arrays of draws.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``cracking.heat_to_reactor_efficiency``, a fraction).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     c = params["cracking"]
     if params["project"]["boundary"] == "cradle-to-gate":
         return []
@@ -91,6 +182,24 @@ def draw_limits(params: dict, inputs) -> list:
 
 
 def validate(project) -> None:
+    """A ``[cracking]`` section only for ammonia delivered, with an electricity factor when it or a
+    hydrogen leg after it uses electricity.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     crack = project.cracking
     if crack is None:
         return
@@ -105,6 +214,18 @@ def validate(project) -> None:
 
 
 def uses_natural_gas(project) -> bool:
+    """Whether the cracker's heat comes from natural gas.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    bool
+        True when the route burns or converts natural gas (a ``[natural_gas]`` section is then needed).
+    """
     return project.cracking is not None and project.cracking.heat_source == "natural_gas"
 
 

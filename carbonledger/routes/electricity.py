@@ -45,6 +45,30 @@ class Electricity(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activities of the electricity mix, per kWh: one activity per named source with its emission factor,
+    and the mix drawing each source by its share.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``electricity.sources.<name>.share``, a fraction).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kWh).
+
+    References
+    ----------
+    .. [1] GHG Protocol Scope 2 Guidance (2015), ch. 4 and 6 (location- and market-based factors; from memory).
+    """
     mix = Activity("electricity_mix", "electricity_supply", "electricity, project mix", "kWh")
     activities = [mix]
     for name, source in params["electricity"]["sources"].items():
@@ -60,6 +84,20 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def starter(product: str, grid: bool = False) -> str:
+    """The ``[electricity]`` section of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+    grid : bool
+        A grid mix (for the fossil routes) instead of a renewable supply.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     if grid:
         return """
 # One block per source; shares sum to 1. Factor ids: `carbonledger factors list`.

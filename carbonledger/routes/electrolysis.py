@@ -25,6 +25,26 @@ class Electrolysis(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of hydrogen from water electrolysis, per kg H2: electricity (stack, heat when electric,
+    water treatment, conditioning) and natural gas burnt for heat when the heat comes from a boiler.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``electrolysis.electricity_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
+    """
     e = params["electrolysis"]
     plant = Activity("hydrogen_production", "hydrogen_production", f"hydrogen, {e['technology'].replace('_', ' ')} electrolysis", "kg H2")
     water_kwh = electrolysis.water_treatment_kwh_per_kg_h2(e["water_litres_per_kg_h2"], e["water_treatment_kwh_per_m3"])
@@ -41,7 +61,34 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """Electricity plus heat at least the heating value of hydrogen; water at least stoichiometric."""
+    """Electricity plus heat at least the heating value of hydrogen; water at least stoichiometric.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``electrolysis.electricity_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] US DOE HyARC, Lower and Higher Heating Values of Fuels (hydrogen LHV and HHV).
+    .. [2] Chase (1998), NIST-JANAF Thermochemical Tables: Gibbs energy of formation of water.
+    """
     e = params["electrolysis"]
     floor = electrolysis.energy_floor_kwh_per_kg_h2(e["technology"], inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"))
     energy = e["electricity_kwh_per_kg_h2"] + e["heat_kwh_per_kg_h2"]
@@ -61,7 +108,24 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The energy and water floors of ``check_limits`` on numbers or arrays of draws."""
+    """The energy and water floors of ``check_limits`` on numbers or arrays of draws.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``electrolysis.electricity_kwh_per_kg_h2`` in kWh/kg H2).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     e = params["electrolysis"]
     floor = electrolysis.energy_floor_kwh_per_kg_h2(e["technology"], inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"))
     least_water = electrolysis.stoichiometric_water_kg_per_kg_h2(inputs.molar_mass("H2O"), inputs.molar_mass("H2"))
@@ -73,6 +137,20 @@ def draw_limits(params: dict, inputs) -> list:
 
 
 def metered(params: dict) -> dict[str, list[str]]:
+    """Parameter paths of the electrolyser scaled by metered electricity (and gas for boiler heat).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
+        operation in a period scales.
+    """
     e = params["electrolysis"]
     paths = {"natural_gas": [], "electricity": ["electrolysis.electricity_kwh_per_kg_h2", "electrolysis.water_treatment_kwh_per_m3"]}
     if e["heat_source"] in ("natural_gas", "electricity"):
@@ -81,16 +159,57 @@ def metered(params: dict) -> dict[str, list[str]]:
 
 
 def validate(project) -> None:
+    """No ``[capture]`` section: electrolysis has no process CO2 to capture.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     if project.capture is not None:
         raise SectionError("capture", "no [capture] section for route 'electrolysis' (no process CO2 to capture)")
 
 
 def uses_natural_gas(project) -> bool:
+    """Whether the electrolyser's heat comes from a natural gas boiler.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    bool
+        True when the route burns or converts natural gas (a ``[natural_gas]`` section is then needed).
+    """
     e = project.electrolysis
     return e.heat_source == "natural_gas" and e.heat_kwh_per_kg_h2 > 0
 
 
 def starter(product: str) -> str:
+    """The ``[electrolysis]`` and ``[electricity]`` sections (and ``[ammonia]``) of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     return """
 [electrolysis]
 technology = "pem"                   # alkaline | pem | solid_oxide

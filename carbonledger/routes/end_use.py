@@ -24,6 +24,30 @@ class EndUse(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of the delivered product used, per unit delivered: ammonia burnt (N2O, slip, pilot fuel)
+    or hydrogen used (no greenhouse gas).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``end_use.n2o_g_per_kg_ammonia`` in g N2O/kg NH3).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (t NH3 or kg H2).
+
+    References
+    ----------
+    .. [1] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: factors of the pilot fuel.
+    """
     where = f"delivered {chain.place}"
     if chain.product == "hydrogen":
         use = Activity("end_use", "end_use", f"hydrogen {where}, used", "kg H2")
@@ -42,6 +66,29 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
+    """An ``[end_use]`` section at the well-to-wake boundary, and a pilot fuel with factors in the set.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``end_use.pilot_fuel``, a fuel name).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+    """
     use = params.get("end_use")
     if params["project"]["boundary"] == "well-to-wake" and use is None and params["project"]["product"] == "ammonia" and not params.get("cracking"):
         raise InputError(source, "end_use", "an [end_use] section (converter, N2O and ammonia slip) for boundary 'well-to-wake'")
@@ -52,6 +99,23 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def validate(project) -> None:
+    """An ``[end_use]`` section only for ammonia, with a pilot fuel and its share together or neither.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     use = project.end_use
     if use is None:
         return

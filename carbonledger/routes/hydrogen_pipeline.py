@@ -21,10 +21,42 @@ class HydrogenPipeline(Section):
 
 
 def loss_share(leg: dict):
+    """Share of the hydrogen fed that leaks along the pipeline.
+
+    Parameters
+    ----------
+    leg : dict
+        The ``[hydrogen_pipeline]`` section (leakage as a share per 100 km, length in km).
+
+    Returns
+    -------
+    float or ndarray
+        Share of the intake leaked (dimensionless).
+    """
     return hydrogen_delivery.pipeline_loss_share(leg["leakage_share_per_100_km"], leg["length_km"])
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of hydrogen carried by pipeline, per kg H2 delivered: hydrogen fed in (leaks included),
+    compressor electricity where the hydrogen is, hydrogen leaked.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``hydrogen_pipeline.compression_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
+    """
     leg = params["hydrogen_pipeline"]
     lost = loss_share(leg)
     pipe = Activity("hydrogen_piped", "hydrogen_pipeline", f"hydrogen, piped to {leg['destination']}", "kg H2")
@@ -37,12 +69,52 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
+    """The leaks must leave hydrogen to deliver (a share below 1 over the whole pipeline).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``hydrogen_pipeline.length_km`` in km).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+    """
     lost = loss_share(params["hydrogen_pipeline"])
     if not lost < 1.0:
         raise InputError(source, "hydrogen_pipeline.leakage_share_per_100_km", f"leaks that leave hydrogen to deliver (the whole pipeline loses {lost:.0%})")
 
 
 def validate(project) -> None:
+    """Hydrogen to carry: product hydrogen, or ammonia cracked back to hydrogen.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     if project.hydrogen_pipeline is not None and project.project.product == "ammonia" and project.cracking is None:
         raise SectionError("hydrogen_pipeline", "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])")
 

@@ -27,6 +27,26 @@ class HydrogenTruck(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of compressed hydrogen carried by truck, per kg H2 delivered: hydrogen loaded (losses
+    included), compression electricity, truck fuel for both trips with its well-to-tank supply, hydrogen lost.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``hydrogen_truck.distance_km`` in km).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
+    """
     leg = params["hydrogen_truck"]
     truck = Activity("hydrogen_trucked", "hydrogen_trucking", f"hydrogen, trucked to {leg['destination']}", "kg H2")
     truck.consume(chain.reference, hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"]), "hydrogen loaded (losses included)", "kg H2")
@@ -40,12 +60,52 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
+    """The truck's fuel must have factors in the factor set.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``hydrogen_truck.fuel``, a fuel name).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+    """
     fuels = road_fuels(inputs.factor_set)
     if params["hydrogen_truck"]["fuel"] not in fuels:
         raise InputError(source, "hydrogen_truck.fuel", f"a road fuel with factors in set '{inputs.factor_set.name}' ({', '.join(fuels) or 'none'}), got '{params['hydrogen_truck']['fuel']}'")
 
 
 def validate(project) -> None:
+    """Hydrogen to carry: product hydrogen, or ammonia cracked back to hydrogen.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     if project.hydrogen_truck is not None and project.project.product == "ammonia" and project.cracking is None:
         raise SectionError("hydrogen_truck", "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])")
 

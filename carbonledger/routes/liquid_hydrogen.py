@@ -34,10 +34,49 @@ class LiquidHydrogen(Section):
 
 
 def boil_off(leg: dict, inputs):
+    """Share of the liquid hydrogen cargo that boils off in transit.
+
+    Parameters
+    ----------
+    leg : dict
+        The ``[liquid_hydrogen]`` section (heat ingress in kW, transit in h, cargo in kg).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    float or ndarray
+        Share of the cargo vaporised (dimensionless).
+
+    References
+    ----------
+    .. [1] Hydrogen states from CoolProp (Leachman et al., J. Phys. Chem. Ref. Data 38 (2009) 721-748).
+    """
     return hydrogen_delivery.boil_off_share(leg["tank_heat_ingress_kw"], leg["transit_hours"], inputs.latent_heat_hydrogen(), leg["cargo_kg_h2"])
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activities of hydrogen liquefied and carried as a liquid, per kg H2 delivered: liquefaction
+    electricity, cargo loaded (boil-off included), the carrier's fuel with its supply, boil-off vented.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``liquid_hydrogen.liquefaction_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
+    """
     leg = params["liquid_hydrogen"]
     liquefier = Activity("hydrogen_liquefied", "liquefaction", "hydrogen, liquefied", "kg H2")
     liquefier.consume(chain.reference, 1.0, "hydrogen gas liquefied", "kg H2")
@@ -57,11 +96,51 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def ideal_liquefaction_work_kwh_per_kg() -> float:
-    """The reversible work to liquefy normal hydrogen from 25 degC and 1 atm (CoolProp states)."""
+    """The reversible work to liquefy normal hydrogen from 25 degC and 1 atm (CoolProp states).
+
+    Returns
+    -------
+    float
+        Ideal work, kWh per kg H2 (about 3.3).
+
+    References
+    ----------
+    .. [1] w_min = (h_liquid - h_0) - T_0 (s_liquid - s_0): Barron, Cryogenic Systems, 2nd ed., 1985, ch. 3.
+    .. [2] Hydrogen states from CoolProp (Leachman et al., J. Phys. Chem. Ref. Data 38 (2009) 721-748).
+    """
     return hydrogen_delivery.ideal_liquefaction_work_kwh_per_kg(**hydrogen_liquefaction_states())
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
+    """A fuel with factors in the set, liquefaction above the ideal work, and a boil-off that leaves
+    cargo to deliver.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``liquid_hydrogen.liquefaction_kwh_per_kg_h2`` in kWh/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] w_min = (h_liquid - h_0) - T_0 (s_liquid - s_0): Barron, Cryogenic Systems, 2nd ed., 1985, ch. 3.
+    .. [2] Hydrogen states from CoolProp (Leachman et al., J. Phys. Chem. Ref. Data 38 (2009) 721-748).
+    """
     leg = params["liquid_hydrogen"]
     known = road_fuels(inputs.factor_set) if leg["carrier"] == "truck" else marine_fuels(inputs.factor_set)[:-1]
     if leg["fuel"] not in known:
@@ -77,6 +156,23 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def validate(project) -> None:
+    """Hydrogen to carry: product hydrogen, or ammonia cracked back to hydrogen.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     if project.liquid_hydrogen is not None and project.project.product == "ammonia" and project.cracking is None:
         raise SectionError("liquid_hydrogen", "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])")
 

@@ -30,7 +30,26 @@ class Pyrolysis(Section):
 
 
 def hydrogen_share(params: dict, inputs):
-    """Share of the hydrogen production activity's exchanges charged to hydrogen."""
+    """Share of the hydrogen production activity's exchanges charged to hydrogen.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``pyrolysis.carbon_kg_per_kg_h2`` in kg C/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    float or ndarray
+        Hydrogen's share (dimensionless, between 0 and 1; 1 for ``none`` and system expansion).
+
+    References
+    ----------
+    .. [1] ISO 14044:2006, 4.3.4 (allocation; system expansion).
+    """
     p = params["pyrolysis"]
     carbon = p["carbon_kg_per_kg_h2"]
     if p["carbon_allocation"] == "mass":
@@ -42,6 +61,31 @@ def hydrogen_share(params: dict, inputs):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activities of hydrogen from methane pyrolysis, per kg H2: natural gas and electricity (hydrogen's
+    share), the CO2 of the carbon not kept solid, and a credit for the displaced product under system expansion.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``pyrolysis.natural_gas_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
+
+    References
+    ----------
+    .. [1] Stoichiometry of CH4 -> C + 2 H2 (common practice).
+    .. [2] ISO 14044:2006, 4.3.4 (allocation; system expansion).
+    """
     p = params["pyrolysis"]
     share = hydrogen_share(params, inputs)
     gas_gj = p["natural_gas_gj_per_kg_h2"]
@@ -67,7 +111,33 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """Carbon balance and stoichiometry: no more carbon than the gas brings; at least the methane that 2 H2 need."""
+    """Carbon balance and stoichiometry: no more carbon than the gas brings; at least the methane that 2 H2 need.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``pyrolysis.carbon_kg_per_kg_h2`` in kg C/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] Stoichiometry of CH4 -> C + 2 H2 (common practice).
+    """
     p = params["pyrolysis"]
     m_ch4, m_h2, m_c, m_co2 = (inputs.molar_mass(f) for f in ("CH4", "H2", "C", "CO2"))
     least_gas = pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2) * inputs.factor("heating_value.methane.lhv", "MJ/kg") / 1000.0
@@ -94,7 +164,24 @@ def _energy_balance(p: dict, inputs):
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The limits of ``check_limits`` on numbers or arrays of draws (arithmetic only)."""
+    """The limits of ``check_limits`` on numbers or arrays of draws (arithmetic only).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``pyrolysis.carbon_kg_per_kg_h2`` in kg C/kg H2).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     p = params["pyrolysis"]
     m_ch4, m_h2, m_c, m_co2 = (inputs.molar_mass(f) for f in ("CH4", "H2", "C", "CO2"))
     least_gas = pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2) * inputs.factor("heating_value.methane.lhv", "MJ/kg") / 1000.0
@@ -109,16 +196,59 @@ def draw_limits(params: dict, inputs) -> list:
 
 
 def validate(project) -> None:
+    """A displaced product factor when the carbon is credited by system expansion.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     p = project.pyrolysis
     if p.carbon_allocation == "system_expansion" and not p.displaced_product_factor:
         raise SectionError("pyrolysis.displaced_product_factor", "a factor id (kg CO2e/kg) of the product the carbon displaces, for carbon_allocation 'system_expansion'")
 
 
 def metered(params: dict) -> dict[str, list[str]]:
+    """Parameter paths of the pyrolysis plant scaled by metered gas and electricity.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
+        operation in a period scales.
+    """
     return {"natural_gas": ["pyrolysis.natural_gas_gj_per_kg_h2"], "electricity": ["pyrolysis.electricity_kwh_per_kg_h2"]}
 
 
 def starter(product: str) -> str:
+    """The ``[pyrolysis]`` and supply sections of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     text = """
 [pyrolysis]
 natural_gas_gj_per_kg_h2 = 0.23      # feed and fuel, lower heating value (at least 0.199: 1 mol CH4 per 2 mol H2)

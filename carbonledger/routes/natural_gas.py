@@ -22,6 +22,31 @@ class NaturalGas(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of natural gas delivered, per GJ (LHV): upstream methane emitted (on the project's basis)
+    and upstream CO2.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``natural_gas.methane_emission_share``, a fraction).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (GJ).
+
+    References
+    ----------
+    .. [1] IPCC (2006). 2006 IPCC Guidelines, Vol. 2, Ch. 1, Table 1.2 (net calorific values).
+    .. [2] Alvarez, R. A. et al. (2018). Science 361, 186-188 (methane intensity of production).
+    """
     gas = params["natural_gas"]
     activity = Activity("natural_gas_supply", "natural_gas_supply", "natural gas, delivered", "GJ")
     leak = natural_gas.methane_emitted_kg_ch4_per_gj(
@@ -36,6 +61,18 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def starter(product: str) -> str:
+    """The ``[natural_gas]`` section of a starter project file.
+
+    Parameters
+    ----------
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+
+    Returns
+    -------
+    str
+        TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
+    """
     return """
 [natural_gas]
 methane_emission_share = 0.01        # methane emitted upstream, as a share of ...

@@ -89,12 +89,48 @@ SECTIONS: tuple[str, ...] = tuple(Project.model_fields)
 
 
 def validate_project(data: dict, source: str):
-    """A raw project dict (TOML, workbook) -> the validated model, or one InputError line."""
+    """A raw project dict (TOML, workbook) -> the validated model, or one InputError line.
+
+    Parameters
+    ----------
+    data : dict
+        The project as read (sections of fields, numbers in each field's unit).
+    source : str
+        The file's name, for the error message.
+
+    Returns
+    -------
+    Project
+        The validated project model.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected.
+    """
     return validate_with(Project, data, source)
 
 
 def load_project(path: str | Path, overrides: list[str] | None = None):
-    """Read, override and validate a project file; return the model and the file's sha256."""
+    """Read, override and validate a project file; return the model and the file's sha256.
+
+    Parameters
+    ----------
+    path : str or Path
+        The project file (TOML).
+    overrides : list of str, optional
+        ``section.field=value`` texts applied before validation (``--set``).
+
+    Returns
+    -------
+    tuple of (Project, str)
+        The validated project and the sha256 of the file's bytes (hex).
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected.
+    """
     data, raw = read_project_file(path)
     data.pop("uncertainty", None)  # distributions of inputs: read by the uncertainty analysis, not part of the model
     parsed = [parse_override(text) for text in overrides or []]

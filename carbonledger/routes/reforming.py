@@ -34,6 +34,30 @@ class Capture(Section):
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activities of hydrogen from steam methane or autothermal reforming, per kg H2: gas and electricity,
+    CO2 released, and with ``[capture]`` the capture unit and CO2 transport and storage.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``reforming.natural_gas_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (kg H2, kg CO2).
+
+    References
+    ----------
+    .. [1] IPCC (2006). 2006 IPCC Guidelines, Vol. 2, Ch. 2, Table 2.2 (combustion factors).
+    """
     route_name = params["hydrogen"]["route"].replace("_", " ")
     ref = params["reforming"]
     plant = Activity("hydrogen_production", "hydrogen_production", f"hydrogen, {route_name}", "kg H2")
@@ -71,28 +95,122 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def refuse_below_the_methane_floor(gas_gj_per_kg_h2: float, inputs, source: str, field: str) -> None:
-    """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2), for any methane feed."""
+    """At least one mole of methane per four moles of hydrogen (CH4 + 2 H2O -> CO2 + 4 H2), for any methane feed.
+
+    Parameters
+    ----------
+    gas_gj_per_kg_h2 : float or ndarray
+        Methane feed and fuel, GJ (LHV) per kg H2.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+    field : str
+        The parameter path named in the error.
+
+    Returns
+    -------
+    None
+        Nothing when the feed is at least the floor.
+
+    Raises
+    ------
+    InputError
+        When the feed is below the floor.
+
+    References
+    ----------
+    .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
+    """
     floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
     if gas_gj_per_kg_h2 < floor:
         raise InputError(source, field, f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas_gj_per_kg_h2:g}")
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """The methane floor, and gas plus electricity at least the hydrogen's lower heating value."""
+    """The methane floor, and gas plus electricity at least the hydrogen's lower heating value.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``reforming.natural_gas_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+
+    References
+    ----------
+    .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
+    .. [2] US DOE HyARC, Lower and Higher Heating Values of Fuels (hydrogen LHV).
+    """
     gas = params["reforming"]["natural_gas_gj_per_kg_h2"]
     refuse_below_the_methane_floor(gas, inputs, source, "reforming.natural_gas_gj_per_kg_h2")
     refuse_below_the_energy_balance(gas, params["reforming"]["electricity_kwh_per_kg_h2"], inputs, source, "reforming.natural_gas_gj_per_kg_h2")
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The stoichiometric floor and the energy balance of ``check_limits`` on numbers or arrays of draws."""
+    """The stoichiometric floor and the energy balance of ``check_limits`` on numbers or arrays of draws.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``reforming.natural_gas_gj_per_kg_h2`` in GJ (LHV)/kg H2).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     ref = params["reforming"]
     return methane_feed_draw_limits("reforming", ref["natural_gas_gj_per_kg_h2"], ref["electricity_kwh_per_kg_h2"], inputs)
 
 
 def methane_feed_draw_limits(section: str, gas_gj_per_kg_h2, electricity_kwh_per_kg_h2, inputs) -> list:
     """(field, expected, ok) of a methane reformer: 1 mol CH4 per 4 mol H2, and gas plus electricity at least
-    the hydrogen's lower heating value; arithmetic only, so ``ok`` is an array over draws."""
+    the hydrogen's lower heating value; arithmetic only, so ``ok`` is an array over draws.
+
+    Parameters
+    ----------
+    section : str
+        The section of the feed (``reforming`` or ``biomethane_reforming``).
+    gas_gj_per_kg_h2 : float or ndarray
+        Methane feed and fuel, GJ (LHV) per kg H2.
+    electricity_kwh_per_kg_h2 : float or ndarray
+        Electricity bought, kWh per kg H2.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)`` for the floor and the energy balance.
+
+    References
+    ----------
+    .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
+    .. [2] US DOE HyARC, Lower and Higher Heating Values of Fuels (hydrogen LHV).
+    """
     floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
     energy_in = reforming.energy_in_mj_per_kg_h2(gas_gj_per_kg_h2, electricity_kwh_per_kg_h2)
     field = f"{section}.{'biomethane' if section == 'biomethane_reforming' else 'natural_gas'}_gj_per_kg_h2"
@@ -103,7 +221,36 @@ def methane_feed_draw_limits(section: str, gas_gj_per_kg_h2, electricity_kwh_per
 
 
 def refuse_below_the_energy_balance(gas_gj_per_kg_h2: float, electricity_kwh_per_kg_h2: float, inputs, source: str, field: str) -> None:
-    """Gas plus electricity bought at least the hydrogen's lower heating value (first law, no imported heat)."""
+    """Gas plus electricity bought at least the hydrogen's lower heating value (first law, no imported heat).
+
+    Parameters
+    ----------
+    gas_gj_per_kg_h2 : float or ndarray
+        Methane feed and fuel, GJ (LHV) per kg H2.
+    electricity_kwh_per_kg_h2 : float or ndarray
+        Electricity bought, kWh per kg H2.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+    field : str
+        The parameter path named in the error.
+
+    Returns
+    -------
+    None
+        Nothing when the energy bought is at least the hydrogen's LHV.
+
+    Raises
+    ------
+    InputError
+        Stating the least gas with this electricity.
+
+    References
+    ----------
+    .. [1] US DOE HyARC, Lower and Higher Heating Values of Fuels (hydrogen LHV).
+    """
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
     energy_in = reforming.energy_in_mj_per_kg_h2(gas_gj_per_kg_h2, electricity_kwh_per_kg_h2)
     if energy_in < hydrogen_lhv:
@@ -112,6 +259,20 @@ def refuse_below_the_energy_balance(gas_gj_per_kg_h2: float, electricity_kwh_per
 
 
 def metered(params: dict) -> dict[str, list[str]]:
+    """Parameter paths of the reformer (and capture) scaled by metered gas and electricity.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``); the choice of paths depends
+        on text options and sections only, not on numbers.
+
+    Returns
+    -------
+    dict of str to list of str
+        ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
+        operation in a period scales.
+    """
     paths = {"natural_gas": ["reforming.natural_gas_gj_per_kg_h2"], "electricity": ["reforming.electricity_kwh_per_kg_h2"]}
     if params.get("capture") is not None:
         paths["electricity"].append("capture.compression_kwh_per_t_co2")
@@ -119,6 +280,18 @@ def metered(params: dict) -> dict[str, list[str]]:
 
 
 def uses_natural_gas(project) -> bool:
+    """Reforming always uses natural gas.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    bool
+        True when the route burns or converts natural gas (a ``[natural_gas]`` section is then needed).
+    """
     return True
 
 

@@ -46,7 +46,25 @@ class Shipping(Section):
 
 
 def voyage_figures(ship: dict, inputs) -> dict[str, Any]:
-    """The voyage in tonnes: main and pilot fuel, boil-off, cargo lost and delivered."""
+    """The voyage in tonnes: main and pilot fuel, boil-off, cargo lost and delivered.
+
+    Parameters
+    ----------
+    ship : dict
+        The ``[shipping]`` section (distances in nautical miles, fuel in t/day or g/(t nmi), heat in kW).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    dict of str to float or str
+        Days at sea, main and pilot fuel (t per voyage), boil-off, cargo lost and delivered (t per voyage).
+
+    References
+    ----------
+    .. [1] Latent heat of ammonia at 1 atm: CRC Handbook through the ``chemicals`` library.
+    """
     days = shipping.days_at_sea(ship["distance_nautical_miles"], ship["speed_knots"])
     laden = shipping.laden_leg_fuel_t(ship["fuel_t_per_day_at_sea"], days, ship["fuel_g_per_tonne_nautical_mile"], ship["cargo_t_per_voyage"], ship["distance_nautical_miles"])
     main = shipping.voyage_fuel_t(laden, ship["ballast_return_fuel_ratio"], ship["port_days"], ship["port_fuel_t_per_day"])
@@ -69,6 +87,31 @@ def voyage_figures(ship: dict, inputs) -> dict[str, Any]:
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
+    """Activity of ammonia shipped, per t NH3 delivered: cargo loaded (losses included), voyage and pilot
+    fuel burnt with their well-to-tank supply, boil-off burnt when the project says so.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``shipping.distance_nautical_miles`` in nautical miles).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    chain : Chain
+        What the route modules before this one left: the reference activity and its product, the place,
+        shared fuel supplies (``extra``) and figures.
+
+    Returns
+    -------
+    list of Activity
+        The activities it adds; their exchanges are amounts per unit of each activity (t NH3, kg fuel).
+
+    References
+    ----------
+    .. [1] IMO resolution MEPC.364(79) (2022), 2.2.1: CO2 conversion factors Cf.
+    .. [2] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: well-to-tank, CH4, N2O and methane slip.
+    """
     ship = params["shipping"]
     figures = voyage_figures(ship, inputs)
     delivered = figures["cargo_delivered_t_per_voyage"]
@@ -100,7 +143,29 @@ def build(params: dict, inputs, chain) -> list[Activity]:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """Fuels and engines with factors in the set; a boil-off that leaves cargo to deliver."""
+    """Fuels and engines with factors in the set; a boil-off that leaves cargo to deliver.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``shipping.tank_heat_ingress_kw`` in kW).
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+    source : str
+        The project file's name, for the error message.
+
+    Returns
+    -------
+    None
+        Nothing when the project is inside the limits.
+
+    Raises
+    ------
+    InputError
+        Naming the file, the field and what was expected, for the first limit broken.
+    """
     ship = params["shipping"]
     factor_set = inputs.factor_set
     fuels = marine_fuels(factor_set)
@@ -120,7 +185,24 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The cargo balance of ``check_limits`` on numbers or arrays of draws (fuel names are text, checked once)."""
+    """The cargo balance of ``check_limits`` on numbers or arrays of draws (fuel names are text, checked once).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``), each number in the unit its
+        field states (e.g. ``shipping.tank_heat_ingress_kw`` in kW).
+        Numbers may be arrays of Monte Carlo draws.
+    inputs : NumericInputs
+        Factor values (``inputs.factor``) and reference values (``inputs.molar_mass``), each recorded
+        as it is used.
+
+    Returns
+    -------
+    list of tuple
+        ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
+        bool array over the draws.
+    """
     if params["project"]["boundary"] == "cradle-to-gate":
         return []
     figures = voyage_figures(params["shipping"], inputs)
@@ -128,6 +210,24 @@ def draw_limits(params: dict, inputs) -> list:
 
 
 def validate(project) -> None:
+    """A ``[shipping]`` section only for ammonia, its fuel given either per day or per tonne-nautical-mile,
+    with the options each fuel and boil-off handling need.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project (its sections as pydantic models).
+
+    Returns
+    -------
+    None
+        Nothing when the sections agree.
+
+    Raises
+    ------
+    SectionError
+        Naming the field and what was expected.
+    """
     ship = project.shipping
     if ship is None:
         return

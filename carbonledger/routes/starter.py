@@ -35,7 +35,13 @@ conditioning_kwh_per_kg_h2 = 0.0   # compression and purification to the deliver
 
 
 def starter_choices() -> dict[str, tuple[str, object]]:
-    """``init --route`` choice -> (route name, starter text function), from the registry."""
+    """``init --route`` choice -> (route name, starter text function), from the registry.
+
+    Returns
+    -------
+    dict of str to tuple
+        Choice -> (route name, function of the product returning TOML text).
+    """
     choices: dict[str, tuple[str, object]] = {}
     for route in HYDROGEN_ROUTES.values():
         choices[route.name] = (route.name, route.starter)
@@ -45,11 +51,38 @@ def starter_choices() -> dict[str, tuple[str, object]]:
 
 
 def normalise_choice(text: str) -> str:
-    """Route names are accepted with hyphens or underscores, in any case."""
+    """Route names are accepted with hyphens or underscores, in any case.
+
+    Parameters
+    ----------
+    text : str
+        The choice as typed.
+
+    Returns
+    -------
+    str
+        Lower case, hyphens as underscores, no surrounding spaces.
+    """
     return text.strip().lower().replace("-", "_")
 
 
 def starter_project(choice: str, product: str, name: str = "New project") -> str:
+    """The text of a starter project file for ``carbonledger init``, its numbers marked as placeholders.
+
+    Parameters
+    ----------
+    choice : str
+        A route or variant from ``starter_choices`` (hyphens or underscores, any case).
+    product : str
+        The project's product, ``hydrogen`` or ``ammonia``.
+    name : str
+        The project's name.
+
+    Returns
+    -------
+    str
+        TOML text of the whole project file.
+    """
     route, text = starter_choices()[normalise_choice(choice)]
     quoted = json.dumps(name, ensure_ascii=False)  # a JSON string is a valid TOML basic string
     body = text(product)
@@ -59,7 +92,18 @@ def starter_project(choice: str, product: str, name: str = "New project") -> str
 
 
 def mark_placeholders(text: str) -> str:
-    """Every number the starter sets is marked "# placeholder" (before any comment of its own)."""
+    """Every number the starter sets is marked "# placeholder" (before any comment of its own).
+
+    Parameters
+    ----------
+    text : str
+        TOML text.
+
+    Returns
+    -------
+    str
+        The same text, number lines marked.
+    """
     lines = []
     for line in text.splitlines():
         match = _NUMBER_LINE.match(line)
@@ -71,5 +115,16 @@ def mark_placeholders(text: str) -> str:
 
 
 def placeholders_left(text: str) -> list[int]:
-    """The line numbers (from 1) of a project file whose number still carries init's placeholder mark."""
+    """The line numbers (from 1) of a project file whose number still carries init's placeholder mark.
+
+    Parameters
+    ----------
+    text : str
+        A project file's text.
+
+    Returns
+    -------
+    list of int
+        Line numbers, from 1.
+    """
     return [number for number, line in enumerate(text.splitlines(), 1) if _NUMBER_LINE.match(line) and PLACEHOLDER in line.split("=", 1)[1]]

@@ -12,10 +12,40 @@ References
 
 
 def per_kg(grams_per_kg):
-    """kg emitted per kg of ammonia burnt, from a figure in g/kg."""
+    """kg emitted per kg of ammonia burnt, from a figure in g/kg.
+
+    Parameters
+    ----------
+    grams_per_kg : float or ndarray
+        Emission (N2O, slipped ammonia, ...), g per kg NH3 burnt.
+
+    Returns
+    -------
+    float or ndarray
+        Emission, kg per kg NH3 burnt.
+    """
     return grams_per_kg / 1000.0
 
 
 def pilot_fuel_kg_per_kg_ammonia(ammonia_lhv_mj_per_kg, pilot_fuel_lhv_mj_per_kg, pilot_fuel_energy_share):
-    """Pilot fuel per kg of ammonia burnt, for a pilot share of the fuel energy."""
+    """Pilot fuel per kg of ammonia burnt, for a pilot share of the fuel energy.
+
+    Parameters
+    ----------
+    ammonia_lhv_mj_per_kg : float or ndarray
+        Lower heating value of ammonia, MJ/kg.
+    pilot_fuel_lhv_mj_per_kg : float or ndarray
+        Lower heating value of the pilot fuel, MJ/kg.
+    pilot_fuel_energy_share : float or ndarray
+        Share of the engine's fuel energy supplied by the pilot fuel (dimensionless, below 1).
+
+    Returns
+    -------
+    float or ndarray
+        Pilot fuel, kg per kg NH3 burnt.
+
+    References
+    ----------
+    .. [1] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: lower calorific values of the fuels.
+    """
     return ammonia_lhv_mj_per_kg * pilot_fuel_energy_share / ((1.0 - pilot_fuel_energy_share) * pilot_fuel_lhv_mj_per_kg)
