@@ -67,16 +67,59 @@ AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2c
 
 @functools.cache
 def rulebooks() -> dict[str, Scheme]:
-    """Every rulebook of the factors folder, loaded once per process (an empty folder is an error)."""
+    """Every rulebook of the factors folder, loaded once per process (an empty folder is an error).
+
+    Returns
+    -------
+    dict of str to Scheme
+        The validated scheme rulebooks of ``factors/schemes/*.toml``, by scheme id.
+
+    Raises
+    ------
+    InputError
+        When the folder holds no rulebook, or a rulebook is not valid TOML or breaks the rulebook model.
+    """
     return load_schemes()
 
 
 def gwp_sets(factor_set: FactorSet) -> list[str]:
+    """The GWP100 sets a factor set holds: those with a factor for CO2 (``gwp.<set>.co2``).
+
+    Parameters
+    ----------
+    factor_set : FactorSet
+        The loaded factor set.
+
+    Returns
+    -------
+    list of str
+        The set ids, sorted (ar4, ar5 and ar6 in the shipped set).
+    """
     return sorted({key.split(".")[1] for key in factor_set.ids_with_prefix("gwp.") if key.endswith(".co2")})
 
 
 def gwp_set(gwp: str, factor_set: FactorSet, where: str = "--gwp") -> str:
-    """The GWP100 set id as the factor set spells it (ids are case-insensitive: AR6 = ar6)."""
+    """The GWP100 set id as the factor set spells it (ids are case-insensitive: AR6 = ar6).
+
+    Parameters
+    ----------
+    gwp : str
+        The set asked for (ar4, ar5, ar6), in any case.
+    factor_set : FactorSet
+        The loaded factor set, whose ``gwp.`` rows name the sets it knows.
+    where : str
+        The field an error names: the option (``--gwp``) or a rulebook's ``gwp``.
+
+    Returns
+    -------
+    str
+        The set id as the factor set spells it.
+
+    Raises
+    ------
+    InputError
+        When the factor set holds no such set (the known ones and the closest spelling are named).
+    """
     known = gwp_sets(factor_set)
     found = match_id(gwp, known)
     if found is None:
@@ -85,7 +128,36 @@ def gwp_set(gwp: str, factor_set: FactorSet, where: str = "--gwp") -> str:
 
 
 def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
-    """GWP100 factor per flow, in the order of ``FLOWS``; pre-characterised CO2e counts 1."""
+    """GWP100 factor per flow, in the order of ``FLOWS``; pre-characterised CO2e counts 1.
+
+    The flows counted apart (``APART_FLOWS``: ammonia slip, leaked hydrogen, biogenic CO2) count 0.
+
+    Parameters
+    ----------
+    inputs : NumericInputs, DrawInputs or SymbolicInputs
+        Where the factor values come from: numbers, Monte Carlo draws or the workbook's symbolic cells.
+    gwp : str
+        GWP100 set (ar4, ar5, ar6), as ``gwp_set`` accepts it.
+    where : str
+        The field an error names: the option (``--gwp``) or a rulebook's ``gwp``.
+
+    Returns
+    -------
+    ndarray
+        kg CO2e per kg of each flow, shape (flows,); (flows, draws) when a GWP factor is drawn; the workbook's
+        symbolic cells for symbolic inputs.
+
+    Raises
+    ------
+    InputError
+        When the set is unknown, or a factor of the set is missing or in a unit that does not convert.
+
+    References
+    ----------
+    .. [1] IPCC AR4 WG1, Forster et al. (2007), Ch. 2, Table 2.14 (GWP100 of the factor ids ``gwp.ar4.*``).
+    .. [2] IPCC AR5 WG1, Myhre et al. (2013), Ch. 8, Table 8.7 (``gwp.ar5.*``).
+    .. [3] IPCC AR6 WG1, Forster et al. (2021), Ch. 7, Table 7.15 (``gwp.ar6.*``).
+    """
     gwp = gwp_set(gwp, inputs.factor_set, where)
     values = []
     for flow in FLOWS:
@@ -103,7 +175,34 @@ def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
 
 
 def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:
-    """The same result per t NH3, per kg NH3, per kg H2 (contained, for ammonia) and per MJ (LHV)."""
+    """The same result per t NH3, per kg NH3, per kg H2 (contained, for ammonia) and per MJ (LHV).
+
+    Parameters
+    ----------
+    total_per_unit : float or ndarray
+        kg CO2e per functional unit: per t NH3 for ammonia, per kg H2 for hydrogen (arrays of draws allowed).
+    product : str
+        The product the total is per unit of: ammonia or hydrogen.
+    hydrogen_lhv : float
+        Lower heating value of hydrogen, MJ/kg.
+    ammonia_lhv : float
+        Lower heating value of ammonia, MJ/kg (unused for hydrogen).
+    hydrogen_fraction : float
+        Hydrogen contained in ammonia, kg H2 per kg NH3 (about 0.1776; unused for hydrogen).
+
+    Returns
+    -------
+    dict of str to float or None
+        ``kg_co2e_per_t_nh3`` and ``kg_co2e_per_kg_nh3`` (None for hydrogen), ``kg_co2e_per_kg_h2`` and
+        ``g_co2e_per_mj`` (g CO2e per MJ of the product's LHV).
+
+    References
+    ----------
+    .. [1] US DOE Hydrogen Program, Hydrogen Analysis Resource Center, Lower and Higher Heating Values of Fuels
+       (2023): hydrogen LHV 119.96 MJ/kg (factor ``heating_value.hydrogen.lhv``).
+    .. [2] IEA Advanced Motor Fuels TCP, Fuel information: Ammonia, Table 1 (2023): LHV 18.6 MJ/kg
+       (factor ``heating_value.ammonia.lhv``).
+    """
     if product == "hydrogen":
         return {
             "kg_co2e_per_t_nh3": None,
@@ -122,10 +221,31 @@ def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammoni
 def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str, counted_zero=frozenset(), charged_as_grid=None) -> str:
     """Why a scheme does not count an activity's own direct emissions ('' when it counts them).
 
-    ``counted_zero``: the electricity activities the scheme's electricity rules count at zero
-    (``Check.electricity_counted_zero``); ``charged_as_grid``: the failing ones charged instead at
-    the grid source's intensity (``Check.electricity_charged_as_grid``). The factor id's name alone
-    never zero-rates a source.
+    The factor id's name alone never zero-rates a source.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``excluded_stages``).
+    inventory : Inventory
+        The project's inventory.
+    activity_key : str
+        The activity asked about.
+    counted_zero : set of str
+        The electricity activities the scheme's electricity rules count at zero (``Check.electricity_counted_zero``).
+    charged_as_grid : dict of str to str, optional
+        Failing electricity activity -> the grid source's activity whose intensity it is charged
+        (``Check.electricity_charged_as_grid``).
+
+    Returns
+    -------
+    str
+        The reason in words, or '' when the scheme counts the activity's own emissions.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A point 6: electricity counted fully
+       renewable counts zero; other electricity at the grid's intensity (rulebook ``eu-rfnbo``).
     """
     activity = inventory.activities[activity_key]
     if activity_key in counted_zero:
@@ -138,8 +258,25 @@ def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str, counted_
 
 
 def unit_intensity(inventory: Inventory, activity_key: str, flow_keys, characterisation):
-    """kg CO2e of an activity's own emissions per unit of its product (numbers, or arrays over draws
-    when ``characterisation`` is (draws, flows) or the amounts are arrays)."""
+    """kg CO2e of an activity's own emissions per unit of its product.
+
+    Parameters
+    ----------
+    inventory : Inventory
+        The project's inventory.
+    activity_key : str
+        The activity whose biosphere exchanges are summed.
+    flow_keys : sequence of str
+        Flow keys in the order of the characterisation's last axis.
+    characterisation : ndarray
+        kg CO2e per kg of each flow, shape (flows,) or (draws, flows).
+
+    Returns
+    -------
+    float or ndarray
+        kg CO2e per unit of the activity's product (per kWh for an electricity source); an array over draws
+        when ``characterisation`` is (draws, flows) or the amounts are arrays.
+    """
     flow_index = {flow: number for number, flow in enumerate(flow_keys)}
     return sum(
         (characterisation[..., flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[activity_key].exchanges if e.kind == "biosphere"),
@@ -148,9 +285,36 @@ def unit_intensity(inventory: Inventory, activity_key: str, flow_keys, character
 
 
 def charged_source_intensities(scheme: Scheme, inventory: Inventory, flow_keys, characterisation, reading: Reading) -> dict[str, object]:
-    """Each electricity source's intensity as the scheme charges it (kg CO2e/kWh, by source name):
-    zero where its rules count it fully renewable, the grid source's where it fails them and the
-    rulebook charges grid electricity, else its own factor. Numbers, or arrays over draws."""
+    """Each electricity source's intensity as the scheme charges it, by source name.
+
+    Zero where its rules count it fully renewable, the grid source's where it fails them and the rulebook
+    charges grid electricity, else its own factor.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook the reading comes from.
+    inventory : Inventory
+        The project's inventory (its ``electricity_sources``: activity key -> source name).
+    flow_keys : sequence of str
+        Flow keys in the order of the characterisation's last axis.
+    characterisation : ndarray
+        The scheme's characterisation, kg CO2e per kg of each flow, (flows,) or (draws, flows).
+    reading : Reading
+        The scheme's rules read on the project (``read_rules``).
+
+    Returns
+    -------
+    dict of str to float or ndarray
+        kg CO2e/kWh by source name: numbers, or arrays over draws.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A point 6 and Part C: electricity that
+       does not count fully renewable is charged as grid electricity of the bidding zone.
+    .. [2] 26 CFR 1.45V-4(a)(2): electricity without qualifying certificates at the regional average
+       (rulebook ``us-45v``, secondary).
+    """
     charged = {}
     for key, name in inventory.electricity_sources.items():
         if key in reading.counted_zero:
@@ -161,19 +325,79 @@ def charged_source_intensities(scheme: Scheme, inventory: Inventory, flow_keys, 
 
 
 def declared_addition(scheme: Scheme, inventory: Inventory, params: dict) -> float:
-    """What a declared e_td adds to the scheme's value (g CO2e/MJ; 0 where it does not apply): ``verdicts.declared_e_td``."""
+    """What a declared e_td adds to the scheme's value (0 where it does not apply): ``verdicts.declared_e_td``.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    inventory : Inventory
+        The project's inventory (the stages it models).
+    params : dict
+        The project's parameters (``Project.model_dump``); ``project.declared_e_td_g_co2e_per_mj`` is read.
+
+    Returns
+    -------
+    float
+        g CO2e/MJ added to the scheme's value.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A, term e_td (point 16: storage and
+       distribution of the finished fuel).
+    """
     present = {activity.stage for activity in inventory.activities.values()}
     return declared_e_td(scheme, present, params["project"]) or 0.0
 
 
 def scheme_mask(scheme: Scheme, inventory: Inventory, keys: list[str], reading: Reading) -> np.ndarray:
-    """Activities whose own emissions the scheme's value leaves out (counted zero, charged as grid, outside its boundary)."""
+    """Activities whose own emissions the scheme's value leaves out (counted zero, charged as grid, outside it).
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    inventory : Inventory
+        The project's inventory.
+    keys : list of str
+        Activity keys in matrix column order.
+    reading : Reading
+        The scheme's rules read on the project (``read_rules``).
+
+    Returns
+    -------
+    ndarray of bool
+        One entry per key: True where the activity's own emissions are left out (``zero_rated``).
+    """
     return np.array([bool(zero_rated(scheme, inventory, key, reading.counted_zero, reading.charged_as_grid)) for key in keys])
 
 
 def grid_charge(reading: Reading, keys: list[str], supply, unit_intensities: dict):
-    """kg CO2e per basis unit that failing electricity adds at the grid's intensity: the failing
-    source's kWh (``supply`` indexed like ``keys``, last axis) times the grid source's intensity."""
+    """kg CO2e per basis unit that failing electricity adds at the grid's intensity.
+
+    The failing source's kWh times the grid source's intensity, summed over the failing sources.
+
+    Parameters
+    ----------
+    reading : Reading
+        The scheme's rules read on the project; ``charged_as_grid`` names the failing sources and their grid.
+    keys : list of str
+        Activity keys in matrix column order.
+    supply : ndarray
+        Units of each activity per basis unit (kWh for electricity), indexed like ``keys`` on the last axis.
+    unit_intensities : dict of str to float or ndarray
+        Grid activity key -> kg CO2e/kWh (``unit_intensity``).
+
+    Returns
+    -------
+    float or ndarray
+        kg CO2e per basis unit (0.0 when nothing fails); arrays over draws for arrays.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A point 6 and Part C (grid electricity of
+       the bidding zone).
+    """
     index = {key: number for number, key in enumerate(keys)}
     return sum((supply[..., index[key]] * unit_intensities[grid] for key, grid in reading.charged_as_grid.items()), 0.0)
 
@@ -220,10 +444,39 @@ def prepare(
 ) -> Prepared:
     """Validated project + factor set -> inventory, matrices and characterisation vectors.
 
-    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own.
-    ``year``: the calendar year whose dates the scheme rules are read on (default this year).
-    ``matching``: electricity source name -> the finest period a time series shows it matched
-    (supplied by a matching analysis; without it hourly rules cannot be judged).
+    Parameters
+    ----------
+    project : Project
+        The validated project.
+    factor_set : FactorSet
+        The loaded factor set.
+    gwp : str
+        GWP100 set of the headline result (ar4, ar5, ar6).
+    schemes : list of str or None
+        Scheme ids to check; None for every scheme that applies to the product.
+    source : str
+        Where the project comes from (its file), named in errors and in the result.
+    boundary : str or None
+        Cradle-to-gate, well-to-tank or well-to-wake; overrides the project's own.
+    project_sha256 : str
+        SHA-256 of the project file, recorded in the result.
+    year : int or None
+        The calendar year whose dates the scheme rules are read on (default: ``verdicts.assessment_year``).
+    matching : dict or None
+        Electricity source name -> the finest period a time series shows it matched (supplied by a matching
+        analysis; without it hourly rules cannot be judged).
+
+    Returns
+    -------
+    Prepared
+        Inventory, matrices, characterisation vectors, chosen schemes, heating values (MJ/kg LHV), demands and
+        the assessment period.
+
+    Raises
+    ------
+    InputError
+        For a year outside 2000 to 2100 or before commissioning, an unknown GWP set, boundary or scheme, a value
+        physics forbids, or a factor missing from the set.
     """
     params = project.model_dump()
     period = Period.year(checked_year(params, year, source))
@@ -294,13 +547,42 @@ def run_stages(params: dict, inputs, gwp: str, schemes: list[str] | None) -> Sta
 
 
 def demands_of(inventory: Inventory) -> list[str]:
-    """The demands solved for: the reference product, the plant gate product and hydrogen (each once)."""
+    """The demands solved for: the reference product, the plant gate product and hydrogen (each once).
+
+    Parameters
+    ----------
+    inventory : Inventory
+        The project's inventory.
+
+    Returns
+    -------
+    list of str
+        Activity keys, one unit of whose product is demanded in turn, the functional unit's first.
+    """
     return list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
 
 
 def stage_and_gas_sums(contributions, keys: list[str], flow_keys: list[str], inventory: Inventory) -> tuple[dict, dict]:
-    """kg CO2e by stage (in ``STAGES`` order) and by gas (without the flows counted apart) from
-    contributions shaped (..., flows, activities): one project's numbers or (draws, flows, activities)."""
+    """kg CO2e by stage (in ``STAGES`` order) and by gas (without the flows counted apart).
+
+    Parameters
+    ----------
+    contributions : ndarray
+        kg CO2e per functional unit shaped (..., flows, activities): one project's numbers or
+        (draws, flows, activities).
+    keys : list of str
+        Activity keys in the order of the last axis.
+    flow_keys : list of str
+        Flow keys in the order of the flows axis.
+    inventory : Inventory
+        The project's inventory (each activity's stage).
+
+    Returns
+    -------
+    tuple of (dict, dict)
+        Stage -> kg CO2e (stages the project models only) and flow -> kg CO2e (flows of ``APART_FLOWS`` left
+        out); numbers, or arrays over draws.
+    """
     by_activity = contributions.sum(axis=-2)
     by_stage: dict = {}
     for stage in STAGES:
@@ -312,8 +594,29 @@ def stage_and_gas_sums(contributions, keys: list[str], flow_keys: list[str], inv
 
 
 def checked_year(params: dict, year: int | None, source: str = "project") -> int:
-    """The assessment year (``verdicts.assessment_year``), refused outside 2000 to 2100 or before the
-    plant is in service."""
+    """The assessment year, refused outside 2000 to 2100 or before the plant is in service.
+
+    The year given, else ``verdicts.assessment_year``'s default.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters (``Project.model_dump``); ``project.commissioning`` is read.
+    year : int or None
+        The year asked for (``--year``), or None for the default.
+    source : str
+        The project's file, named in an error.
+
+    Returns
+    -------
+    int
+        The calendar year whose dates the scheme rules are read on.
+
+    Raises
+    ------
+    InputError
+        For a year outside 2000 to 2100, or a commissioning date after the end of the chosen year.
+    """
     if year is not None and not FIRST_YEAR <= year <= LAST_YEAR:
         raise InputError("--year", str(year), f"an assessment year from {FIRST_YEAR} to {LAST_YEAR}")
     commissioning = as_date(params["project"].get("commissioning", ""))
@@ -324,9 +627,23 @@ def checked_year(params: dict, year: int | None, source: str = "project") -> int
 
 
 def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
-    """(demand activity, product) of a scheme's basis: the delivered product where the rulebook
-    counts delivery (the project's own reference, as far as it models it), else the plant gate
-    or the hydrogen plant's gate."""
+    """(demand activity, product) of a scheme's basis.
+
+    The delivered product where the rulebook counts delivery (the project's own reference, as far as it models
+    it), else the plant gate or the hydrogen plant's gate.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``basis``: delivered, product or hydrogen_production).
+    inventory : Inventory
+        The project's inventory.
+
+    Returns
+    -------
+    tuple of (str, str)
+        The activity key whose one unit is the scheme's basis, and its product (ammonia or hydrogen).
+    """
     if scheme.basis == "delivered":
         return inventory.reference, inventory.reference_product
     if scheme.basis == "product":
@@ -335,15 +652,54 @@ def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
 
 
 def scheme_reading(prepared: Prepared, scheme: Scheme) -> Reading:
-    """The scheme's rules on this project before the threshold: counted electricity, findings, versions."""
+    """The scheme's rules on this project before the threshold: counted electricity, findings, versions.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project (its inventory, parameters, period and matching).
+    scheme : Scheme
+        The rulebook read.
+
+    Returns
+    -------
+    Reading
+        As ``read_rules`` gives it.
+    """
     return read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
 
 
 def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> Reading:
-    """The scheme's rules read on ``period``'s dates: the electricity counted at zero and charged as
-    grid electricity, the findings (eligibility, electricity, dates, boundary) and the rule versions
-    used. Used by every solver (bw2calc, stacked, Monte Carlo draws) so that they read the rules alike.
-    ``matching``: source name -> the interval of a time series that shows its generation."""
+    """The scheme's rules read on ``period``'s dates, before the threshold.
+
+    The electricity counted at zero and charged as grid electricity, the findings (eligibility, electricity,
+    dates, boundary) and the rule versions used. Used by every solver (bw2calc, stacked, Monte Carlo draws) so
+    that they read the rules alike.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    inventory : Inventory
+        The project's inventory (electricity sources and kinds, the stages modelled).
+    params : dict
+        The project's parameters (``Project.model_dump``).
+    period : Period
+        The assessment period whose dates the rules are read on.
+    matching : dict or None
+        Source name -> the interval of a time series that shows its generation.
+
+    Returns
+    -------
+    Reading
+        Counted-zero and charged-as-grid electricity, the findings in the order eligibility, electricity,
+        dates, boundary, and the rulebook's and rules' versions.
+
+    References
+    ----------
+    .. [1] The order of the steps and the rules applied: ``carbonledger.core.verdicts`` and the rulebooks of
+       ``factors/schemes``.
+    """
     reading = electricity_reading(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, period, matching)
     renewable = renewable_energy_findings(scheme, params, reading, inventory.electricity_sources, matching)
     reading.findings = eligibility_findings(scheme, params, period) + renewable + reading.findings
@@ -358,7 +714,29 @@ def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Perio
 
 
 def threshold_finding(scheme: Scheme, value: float) -> Finding:
-    """The value against the tiers: the tier met (its limit and source), or the loosest limit missed."""
+    """The value against the tiers: the tier met (its limit and source), or the loosest limit missed.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook whose thresholds apply.
+    value : float
+        The scheme's value, in the scheme's unit (``scheme.unit``).
+
+    Returns
+    -------
+    Finding
+        Step ``threshold``: met with the tier and its source, or not met against the loosest limit.
+
+    References
+    ----------
+    .. [1] 26 U.S.C. 45V(b)(2)(A) to (D): tiers at 4, 2.5, 1.5 and 0.45 kg CO2e/kg H2.
+    .. [2] Directive (EU) 2018/2001 Art. 29a(1) as amended by Directive (EU) 2023/2413 (70 % saving) and
+       Delegated Regulation (EU) 2023/1185, Annex (comparator 94 g CO2e/MJ): 28.2 g CO2e/MJ; the same limit for
+       low-carbon fuels, Directive (EU) 2024/1788 and Delegated Regulation (EU) 2025/2359.
+    .. [3] UK Low Carbon Hydrogen Standard, version 4: 20 g CO2e/MJ LHV (secondary).
+    .. [4] Basic Hydrogen Strategy (June 2023): 3.4 kg CO2e/kg H2 and 0.84 kg CO2e/kg NH3.
+    """
     tier = scheme.tier_met(value)
     unit = scheme.unit
     if tier is not None:
@@ -370,10 +748,26 @@ def threshold_finding(scheme: Scheme, value: float) -> Finding:
 
 
 def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
-    """The verdict of a scheme value under the scheme's findings: status, reasons, passes, tier,
-    limit and margin. A value under the limit qualifies only when no rule is broken or open; a
-    not-eligible check has no margin, tier or threshold sentence; an undetermined one says how much
-    room the terms it cannot judge have."""
+    """The verdict of a scheme value under the scheme's findings.
+
+    A value under the limit qualifies only when no rule is broken or open; a not-eligible check has no margin,
+    tier or threshold sentence; an undetermined one says how much room the terms it cannot judge have.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook whose thresholds apply.
+    value : float
+        The scheme's value, in the scheme's unit.
+    findings : list of Finding
+        The scheme's findings before the threshold (``Reading.findings``).
+
+    Returns
+    -------
+    dict
+        ``status``, ``reasons``, ``passes``, ``tier``, ``limit`` and ``margin`` (limit - value, in the
+        scheme's unit), as ``Check`` takes them.
+    """
     verdict = scheme.evaluate(value)
     status = status_of(findings, verdict["passes"])
     verdict["passes"] = status == Status.QUALIFIES
@@ -388,8 +782,21 @@ def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
 
 
 def scheme_characterisation(vector, scheme: Scheme):
-    """A scheme's GWP vector (one, or one per draw: draws x flows) from its GWP set's ``vector``; stored
-    biogenic CO2 counts -1 only where its rulebook nets it."""
+    """A scheme's GWP vector; stored biogenic CO2 counts -1 only where its rulebook nets it.
+
+    Parameters
+    ----------
+    vector : ndarray
+        The scheme's GWP set as ``characterisation`` gives it: kg CO2e per kg of each flow, (flows,) or
+        (draws, flows).
+    scheme : Scheme
+        The rulebook read (``nets_stored_biogenic_co2``).
+
+    Returns
+    -------
+    ndarray
+        ``vector`` itself, or a copy with -1 for ``co2_biogenic_stored``.
+    """
     if not scheme.nets_stored_biogenic_co2:
         return vector
     netted = np.array(vector, dtype=float, copy=True)
@@ -398,13 +805,43 @@ def scheme_characterisation(vector, scheme: Scheme):
 
 
 def scheme_value(scheme: Scheme, inventory: Inventory, keys: list[str], flow_keys, reading: Reading, vector, contributions, supply, figures: tuple, params: dict):
-    """The scheme's value per unit of its basis: the one sum for a score (numbers) and for Monte Carlo draws (arrays).
+    """The scheme's value per unit of its basis: the one sum for a score (numbers) and Monte Carlo draws (arrays).
 
-    ``vector``: the scheme's characterisation (``scheme_characterisation``); ``contributions``: kg CO2e by
-    (..., flow, activity) per basis unit under ``vector``; ``supply``: (..., activity) per basis unit;
-    ``figures``: (basis product, hydrogen LHV, ammonia LHV, hydrogen mass fraction). Own emissions of the
-    activities the scheme counts, plus failing electricity at the grid's intensity, in the scheme's
-    quantity, plus a producer's declared e_td where it counts.
+    Own emissions of the activities the scheme counts, plus failing electricity at the grid's intensity, in the
+    scheme's quantity, plus a producer's declared e_td where it counts.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    inventory : Inventory
+        The project's inventory.
+    keys : list of str
+        Activity keys in matrix column order.
+    flow_keys : sequence of str
+        Flow keys in matrix row order.
+    reading : Reading
+        The scheme's rules read on the project (``read_rules``).
+    vector : ndarray
+        The scheme's characterisation (``scheme_characterisation``), kg CO2e per kg of each flow.
+    contributions : ndarray
+        kg CO2e by (..., flow, activity) per basis unit under ``vector``.
+    supply : ndarray
+        Units of each activity per basis unit, (..., activity).
+    figures : tuple
+        (basis product, hydrogen LHV in MJ/kg, ammonia LHV in MJ/kg, hydrogen mass fraction in kg H2/kg NH3).
+    params : dict
+        The project's parameters (``Project.model_dump``).
+
+    Returns
+    -------
+    float or ndarray
+        The value in the scheme's quantity (``scheme.quantity``: kg CO2e/kg H2, g CO2e/MJ, ...).
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A: E = e_i + e_p + e_td + e_u - e_ccs, and
+       point 6 (electricity).
     """
     own = (contributions * ~scheme_mask(scheme, inventory, keys, reading)).sum(axis=(-2, -1))
     grid_kg = {grid: unit_intensity(inventory, grid, flow_keys, vector) for grid in set(reading.charged_as_grid.values())}
@@ -447,8 +884,29 @@ class CoProductRule:
 
 
 def co_product_rule(scheme: Scheme, params: dict) -> CoProductRule | None:
-    """The co-product rule of ``scheme`` read on a project (None: the route has no co-product). The one
-    decision that score (``co_product_checks``) and the Monte Carlo (``analyses.uncertainty.evaluate``) take."""
+    """The co-product rule of ``scheme`` read on a project (None: the route has no co-product).
+
+    The one decision that score (``co_product_checks``) and the Monte Carlo (``analyses.uncertainty.evaluate``)
+    take.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``co_products`` section).
+    params : dict
+        The project's parameters (``Project.model_dump``): the route and the project's co-product method.
+
+    Returns
+    -------
+    CoProductRule or None
+        The method required, the project's own, and whether the route can rescore with it.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A (co-products: energy content; economic
+       value without energy content; system expansion for rigid processes), from memory.
+    .. [2] ISO/TS 19870:2023, co-product handling is a choice the methodology or scheme fixes (from memory).
+    """
     route = HYDROGEN_ROUTES.get(params["hydrogen"]["route"])
     co = route.co_product if route else None
     if co is None:
@@ -470,6 +928,18 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
     data), the value keeps the project's method and the status is undetermined, saying why; a scheme
     that does not cover the route keeps the project's method. Every check states what was done
     under ``co_products``.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    checks : list of Check
+        The checks under the project's own co-product method (``scheme_checks``).
+
+    Returns
+    -------
+    list of Check
+        The same checks, rescored or made undetermined where the rule requires, each with ``co_products``.
 
     References
     ----------
@@ -513,7 +983,21 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
 
 
 def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
-    """Each chosen scheme's value and verdict under its own rulebook, from solved inventories."""
+    """Each chosen scheme's value and verdict under its own rulebook, from solved inventories.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    solutions : dict of str to Solution
+        The solved inventories by demand activity key.
+
+    Returns
+    -------
+    list of Check
+        One check per chosen scheme, in rulebook order: value in the scheme's unit, status, reasons, tier and
+        margin.
+    """
     inventory = prepared.inventory
     keys = prepared.matrices.activity_keys
     checks = []
@@ -561,7 +1045,31 @@ def _plain(value):
 
 
 def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
-    """The result of one project from its solved inventories: the one place figures are summed."""
+    """The result of one project from its solved inventories: the one place figures are summed.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    solutions : dict of str to Solution
+        The solved inventories by demand activity key (``solve_with_bw2calc`` or ``solve_stacked``).
+
+    Returns
+    -------
+    ScoreResult
+        kg CO2e per functional unit, by stage, gas and activity, the intensities, the scheme checks, the
+        exchanges and the factors used.
+
+    Raises
+    ------
+    InputError
+        When a figure is NaN or infinite (``finite_result``).
+
+    References
+    ----------
+    .. [1] Sand, M. et al. (2023), A multi-model assessment of the Global Warming Potential of hydrogen,
+       Communications Earth & Environment 4, 203: GWP100 11.6 of leaked hydrogen (``gwp_indirect.h2``).
+    """
     params, inventory, matrices, headline = prepared.params, prepared.inventory, prepared.matrices, prepared.headline
     main = solutions[inventory.reference]
     contributions = main.contributions(headline)
@@ -635,13 +1143,48 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
 
 
 def refuse_non_finite(source: str, field: str, value: float | None) -> None:
-    """A total or scheme value that is NaN or infinite is an error naming the project, never an output."""
+    """A total or scheme value that is NaN or infinite is an error naming the project, never an output.
+
+    Parameters
+    ----------
+    source : str
+        The project's file, named in the error.
+    field : str
+        The figure's name in the result (e.g. ``total``, ``by_stage.hydrogen_production``).
+    value : float or None
+        The figure; None is accepted.
+
+    Returns
+    -------
+    None
+
+    Raises
+    ------
+    InputError
+        When ``value`` is NaN or infinite.
+    """
     if value is not None and not np.isfinite(value):
         raise InputError(source, field, f"a finite result (the inputs give {value}; look for an infinite, missing or huge input or factor)")
 
 
 def finite_result(result: ScoreResult) -> ScoreResult:
-    """The result itself when its total, intensities, stages, gases and scheme values are all finite."""
+    """The result itself when its total, intensities, stages, gases and scheme values are all finite.
+
+    Parameters
+    ----------
+    result : ScoreResult
+        The assembled result.
+
+    Returns
+    -------
+    ScoreResult
+        ``result``, unchanged.
+
+    Raises
+    ------
+    InputError
+        Naming the first figure that is NaN or infinite.
+    """
     refuse_non_finite(result.project_file, "total", result.total)
     for key, value in result.intensity.model_dump().items():
         refuse_non_finite(result.project_file, f"intensity.{key}", value)
@@ -663,7 +1206,29 @@ def _check_agreement(prepared: Prepared, solutions: dict, bw_score: float, what:
 
 
 def solve_with_bw2calc(prepared: Prepared) -> dict:
-    """Solve one prepared project with bw2calc; the numpy characterisation must agree with it."""
+    """Solve one prepared project with bw2calc; the numpy characterisation must agree with it.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+
+    Returns
+    -------
+    dict of str to Solution
+        The solved inventory by demand activity key.
+
+    Raises
+    ------
+    InputError
+        When the total is NaN or infinite.
+    RuntimeError
+        When the numpy total and bw2calc's score differ beyond rtol 1e-9.
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
+    """
     solutions, bw_score = solve(prepared.matrices, prepared.demands, prepared.headline)
     _check_agreement(prepared, solutions, bw_score, "characterisation")
     return solutions
@@ -672,8 +1237,28 @@ def solve_with_bw2calc(prepared: Prepared) -> dict:
 def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[dict]:
     """Solve many prepared projects, one stacked numpy solve per matrix structure.
 
-    With ``check_with_bw2calc`` one member of every structure group is also solved with bw2calc
-    and must agree to 1e-9 (relative).
+    Parameters
+    ----------
+    prepared : list of Prepared
+        The prepared projects.
+    check_with_bw2calc : bool
+        Also solve one member of every structure group with bw2calc; it must agree to 1e-9 (relative).
+
+    Returns
+    -------
+    list of dict of str to Solution
+        The solved inventories by demand activity key, in the order of ``prepared``.
+
+    Raises
+    ------
+    InputError
+        When a checked total is NaN or infinite.
+    RuntimeError
+        When a checked member disagrees with bw2calc.
+
+    References
+    ----------
+    .. [1] Heijungs, R. and Suh, S. (2002). The Computational Structure of Life Cycle Assessment.
     """
     groups: dict[tuple, list[int]] = {}
     for number, ready in enumerate(prepared):
@@ -704,8 +1289,36 @@ def score_project(
 ) -> ScoreResult:
     """Score a validated project with a loaded factor set, solved by bw2calc.
 
-    ``boundary`` (cradle-to-gate, well-to-tank, well-to-wake) overrides the project's own;
-    ``year`` is the calendar year the scheme rules are read on (default this year).
+    Parameters
+    ----------
+    project : Project
+        The validated project.
+    factor_set : FactorSet
+        The loaded factor set.
+    gwp : str
+        GWP100 set of the headline result (ar4, ar5, ar6).
+    schemes : list of str or None
+        Scheme ids to check; None for every scheme that applies to the product.
+    source : str
+        Where the project comes from (its file), named in errors and in the result.
+    project_sha256 : str
+        SHA-256 of the project file, recorded in the result.
+    boundary : str or None
+        Cradle-to-gate, well-to-tank or well-to-wake; overrides the project's own.
+    year : int or None
+        The calendar year the scheme rules are read on (default: ``verdicts.assessment_year``).
+    matching : dict or None
+        Electricity source name -> the finest period a time series shows it matched.
+
+    Returns
+    -------
+    ScoreResult
+        kg CO2e per functional unit with its breakdowns, intensities and scheme checks.
+
+    Raises
+    ------
+    InputError
+        For an input ``prepare`` refuses, or a result that is NaN or infinite.
     """
     prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary, project_sha256=project_sha256, year=year, matching=matching)
     return assemble(prepared, solve_with_bw2calc(prepared))

@@ -88,8 +88,25 @@ FIRST_YEAR, LAST_YEAR = 2000, 2100  # assessment years the rulebooks are written
 
 
 def assessment_year(commissioning: dt.date | None, year: int | None, today: dt.date | None = None) -> int:
-    """The calendar year whose dates the rules are read on: ``year`` when given, else the first
-    full calendar year of operation after commissioning, else the current year."""
+    """The calendar year whose dates the rules are read on.
+
+    ``year`` when given, else the first full calendar year of operation after commissioning, else the current
+    year.
+
+    Parameters
+    ----------
+    commissioning : datetime.date or None
+        The date the plant is placed in service (``project.commissioning``), or None when not given.
+    year : int or None
+        The year asked for (``--year``), or None.
+    today : datetime.date or None
+        The current date (None: the system's), so that tests can fix it.
+
+    Returns
+    -------
+    int
+        The assessment year.
+    """
     if year is not None:
         return year
     if commissioning is None:
@@ -98,7 +115,18 @@ def assessment_year(commissioning: dt.date | None, year: int | None, today: dt.d
 
 
 def figure(value: float) -> str:
-    """A figure for a sentence: 4 significant digits, 0 within 1e-9 of zero."""
+    """A figure for a sentence: 4 significant digits, 0 within 1e-9 of zero.
+
+    Parameters
+    ----------
+    value : float
+        The figure, in whatever unit the sentence states.
+
+    Returns
+    -------
+    str
+        The figure written with 4 significant digits, or '0'.
+    """
     return "0" if abs(value) < ZERO else f"{value:.4g}"
 
 
@@ -107,7 +135,25 @@ def _where(source: str, grade: str) -> str:
 
 
 def add_years(day: dt.date, years: int) -> dt.date:
-    """The same calendar day ``years`` later (29 February -> 28 February)."""
+    """The same calendar day ``years`` later (29 February -> 28 February).
+
+    Parameters
+    ----------
+    day : datetime.date
+        The starting day.
+    years : int
+        Number of calendar years added.
+
+    Returns
+    -------
+    datetime.date
+        The same day and month ``years`` later; 28 February for 29 February in a common year.
+
+    References
+    ----------
+    .. [1] 26 U.S.C. 45V(a)(1): the 10-year period beginning on the date the facility was originally placed in
+       service (the credit period of rulebook ``us-45v``).
+    """
     try:
         return day.replace(year=day.year + years)
     except ValueError:
@@ -115,7 +161,27 @@ def add_years(day: dt.date, years: int) -> dt.date:
 
 
 def months_before(day: dt.date, months: int) -> dt.date:
-    """The same calendar day ``months`` earlier (the last day of a shorter month)."""
+    """The same calendar day ``months`` earlier (the last day of a shorter month).
+
+    Parameters
+    ----------
+    day : datetime.date
+        The starting day (the plant's commissioning).
+    months : int
+        Number of calendar months counted back.
+
+    Returns
+    -------
+    datetime.date
+        The same day of the month ``months`` earlier, or that month's last day when it is shorter.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 3(b) and Art. 5(a): generator in operation no
+       earlier than 36 months before the fuel plant.
+    .. [2] 26 CFR 1.45V-4(d)(3)(i): incrementality, generator placed in service no more than 36 months before
+       the hydrogen facility (secondary).
+    """
     month = day.month - 1 - months
     year = day.year + month // 12
     month = month % 12 + 1
@@ -131,7 +197,33 @@ def months_before(day: dt.date, months: int) -> dt.date:
 
 
 def eligibility_findings(scheme: Scheme, params: dict, period: Period) -> list[Finding]:
-    """The route the scheme covers, and the plant's place and dates against the scheme."""
+    """The route the scheme covers, and the plant's place and dates against the scheme.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``eligibility`` section; none gives no finding).
+    params : dict
+        The project's parameters (``Project.model_dump``): the route, ``project.construction_start``,
+        ``project.country``, ``project.commissioning`` and ``capture.claims_45q``.
+    period : Period
+        The assessment period (for the credit period).
+
+    Returns
+    -------
+    list of Finding
+        Step ``eligibility``: met, not met, or cannot be judged with the missing field named.
+
+    References
+    ----------
+    .. [1] Directive (EU) 2018/2001 Art. 2(36) as amended by Directive (EU) 2023/2413 (renewable fuels of
+       non-biological origin); Directive (EU) 2024/1788 Art. 2 (low-carbon hydrogen and fuels).
+    .. [2] 26 U.S.C. 45V(c)(2) (qualified clean hydrogen) and 45V(c)(2)(B)(i)(I) (produced in the United States
+       or a possession).
+    .. [3] 26 U.S.C. 45V(c)(3) as amended in 2025: construction begins before 1 January 2028.
+    .. [4] 26 U.S.C. 45V(a)(1) (10-year credit period) and 45V(d)(2) (no credit with a 45Q credit for the
+       capture equipment).
+    """
     rules = scheme.eligibility
     if rules is None:
         return []
@@ -188,8 +280,33 @@ def _credit_period_finding(rules, placed_in_service: dt.date | None, period: Per
 
 
 def grid_reference(sources: dict[str, str], kinds: dict[str, str], declared: dict, plant_zone: str) -> str | None:
-    """The electricity activity whose factor is the grid intensity of the plant's zone: a grid
-    source in the plant's zone, else the only grid source, else None."""
+    """The electricity activity whose factor is the grid intensity of the plant's zone.
+
+    A grid source in the plant's zone, else the only grid source, else None.
+
+    Parameters
+    ----------
+    sources : dict of str to str
+        Electricity activity key -> source name.
+    kinds : dict of str to str
+        Electricity activity key -> generator kind (renewable, low_carbon, grid, residual_mix, fossil).
+    declared : dict
+        Source name -> the source as the project declares it (``electricity.sources``).
+    plant_zone : str
+        The plant's bidding zone or region (``project.zone``); '' when not given.
+
+    Returns
+    -------
+    str or None
+        The grid source's activity key, or None when no grid source can stand for the plant's zone.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A point 6 and Part C: grid electricity at
+       the country or bidding-zone average.
+    .. [2] 26 CFR 1.45V-4(a)(2): electricity without qualifying certificates at the regional annual average
+       (secondary).
+    """
     grid = [key for key, name in sources.items() if kinds.get(key) in GRID_KINDS or declared[name].get("procurement") == "grid"]
     in_zone = [key for key in grid if plant_zone and declared[sources[key]].get("zone", "") == plant_zone]
     if in_zone:
@@ -294,14 +411,42 @@ def _source_rules(rules, scheme: Scheme, name: str, source: dict, kind: str, pro
 
 
 def electricity_reading(scheme: Scheme, params: dict, sources: dict[str, str], kinds: dict[str, str], period: Period, series_periods: dict[str, str] | None) -> Reading:
-    """Which electricity activities count zero, which are charged as grid electricity, the findings
-    per source and the rule versions read.
+    """Which electricity counts zero or is charged as grid electricity, the findings per source, the rules read.
 
-    ``sources``: electricity activity key -> source name; ``kinds``: key -> generator kind (from the
-    factor's namespace: renewable, low_carbon, grid, residual_mix, fossil); ``series_periods``:
-    source name -> the interval of a time series that shows its generation (None without one).
-    A source with no share and no generation in a series supplies nothing and is not judged. A
-    source a rule cannot judge is counted in its favour for the value (the verdict is undetermined).
+    A source with no share and no generation in a series supplies nothing and is not judged. A source a rule
+    cannot judge is counted in its favour for the value (the verdict is undetermined).
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``electricity_rules``; read only when it counts renewable electricity at zero).
+    params : dict
+        The project's parameters (``Project.model_dump``): ``electricity.sources`` and ``project``.
+    sources : dict of str to str
+        Electricity activity key -> source name.
+    kinds : dict of str to str
+        Key -> generator kind, from the factor's namespace: renewable, low_carbon, grid, residual_mix, fossil.
+    period : Period
+        The assessment period whose dates choose the temporal rule in force.
+    series_periods : dict of str to str or None
+        Source name -> the interval of a time series that shows its generation (None without one).
+
+    Returns
+    -------
+    Reading
+        The activities counted zero, those charged as grid (with the grid source's key), the findings
+        (step ``electricity``) and the versions of the temporal rules read.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 3 (direct connection), Art. 4(2) to (3)
+       (power purchase agreements), Art. 5(a) and (b) (additionality), Art. 6 (temporal correlation: same
+       calendar month until 31 December 2029, same hour from 1 January 2030), Art. 7 (geographic correlation),
+       Art. 11 (transition to 1 January 2038).
+    .. [2] Commission Delegated Regulation (EU) 2023/1185, Annex Part A point 6 (electricity that does not count
+       fully renewable is charged as grid electricity).
+    .. [3] 26 CFR 1.45V-4(d)(3)(i) to (iii): incrementality, deliverability, temporal matching (secondary).
+    .. [4] UK Low Carbon Hydrogen Standard, version 4: 30-minute matching units (secondary).
     """
     reading = Reading()
     rules = scheme.electricity_rules
@@ -351,6 +496,33 @@ def renewable_energy_findings(scheme: Scheme, params: dict, reading: Reading, so
     PPA or grid supply is grid electricity; a failing direct line is not). A low-carbon scheme does
     not cover electrolysis whose every kWh counts fully renewable. With a time series the matched
     share decides instead (``analyses.matching``).
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``eligibility`` section).
+    params : dict
+        The project's parameters (``Project.model_dump``): the route and ``electricity.sources``.
+    reading : Reading
+        The scheme's electricity rules read on the project (``electricity_reading``).
+    sources : dict of str to str
+        Electricity activity key -> source name.
+    series_periods : dict or None
+        Source name -> the interval of a time series that shows its generation (None without one).
+
+    Returns
+    -------
+    list of Finding
+        At most one finding, step ``eligibility``: not met, or a note on the share of output covered.
+
+    References
+    ----------
+    .. [1] Directive (EU) 2018/2001 Art. 2(36) and Art. 27(6), first subparagraph, as amended by Directive (EU)
+       2023/2413 (grid electricity at the country's average renewable share).
+    .. [2] Directive (EU) 2024/1788 Art. 2 (low-carbon: energy from non-renewable sources); Commission Q&A on the
+       hydrogen delegated acts, Q24.
+    .. [3] Commission Delegated Regulation (EU) 2023/1185, Annex Part A point 1 (one intensity for the whole
+       output).
     """
     rules = scheme.eligibility
     if rules is None or params["hydrogen"]["route"] != "electrolysis" or "electrolysis" not in rules.routes:
@@ -374,6 +546,23 @@ def renewable_energy_findings(scheme: Scheme, params: dict, reading: Reading, so
 
 
 def fully_renewable_finding(scheme: Scheme) -> Finding:
+    """Electrolysis whose every kWh counts fully renewable: not of the kind a low-carbon scheme covers.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``eligibility`` section: the energy it covers, source and grade).
+
+    Returns
+    -------
+    Finding
+        Step ``eligibility``, not met.
+
+    References
+    ----------
+    .. [1] Directive (EU) 2024/1788 Art. 2, definitions of low-carbon hydrogen and low-carbon fuels (energy
+       content derived from non-renewable sources); Commission Q&A on the hydrogen delegated acts, Q24.
+    """
     rules = scheme.eligibility
     return Finding("eligibility", NOT_MET, f"every kWh counts fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} {_where(rules.source, rules.grade)}")
 
@@ -385,8 +574,30 @@ DECLARABLE_TERM = "e_td"  # the EU formula's transport and distribution, which a
 
 
 def declared_e_td(scheme: Scheme, present_stages: set[str], project: dict) -> float | None:
-    """The e_td a producer selling at the gate declares (g CO2e/MJ) where it counts: a scheme whose value is
-    per MJ of delivered fuel and whose e_td term the project does not model; None otherwise."""
+    """The e_td a producer selling at the gate declares, where it counts.
+
+    It counts for a scheme whose value is per MJ of delivered fuel and whose e_td term the project does not
+    model.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (basis, quantity and boundary terms).
+    present_stages : set of str
+        The stages the project models.
+    project : dict
+        The project's ``project`` section (``declared_e_td_g_co2e_per_mj``).
+
+    Returns
+    -------
+    float or None
+        g CO2e/MJ, or None where no declared e_td counts.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A, term e_td of
+       E = e_i + e_p + e_td + e_u - e_ccs (point 16: storage and distribution of the finished fuel).
+    """
     declared = project.get("declared_e_td_g_co2e_per_mj")
     if declared is None or scheme.basis != "delivered" or scheme.quantity != "g_co2e_per_mj":
         return None
@@ -395,8 +606,38 @@ def declared_e_td(scheme: Scheme, present_stages: set[str], project: dict) -> fl
 
 
 def boundary_findings(scheme: Scheme, present_stages: set[str], reference_product: str, gate_product: str, project_boundary: str, project: dict | None = None) -> list[Finding]:
-    """The scheme's formula terms against the stages the project models at its boundary (a declared e_td counts
-    as modelled, with its evidence named)."""
+    """The scheme's formula terms against the stages the project models at its boundary.
+
+    A declared e_td counts as modelled, with its evidence named.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its ``boundary_terms``).
+    present_stages : set of str
+        The stages the project models.
+    reference_product : str
+        The product of the functional unit (ammonia or hydrogen), for a scheme on delivered fuel.
+    gate_product : str
+        The product at the plant gate, for a scheme at the gate.
+    project_boundary : str
+        The project's boundary (cradle-to-gate, well-to-tank, well-to-wake), named in the sentences.
+    project : dict or None
+        The project's ``project`` section (declared e_td and its evidence).
+
+    Returns
+    -------
+    list of Finding
+        One finding per term, step ``boundary``: met (counted, zero or declared) or cannot be judged (not
+        modelled at the project's boundary).
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A: E = e_i + e_p + e_td + e_u - e_ccs.
+    .. [2] Commission Delegated Regulation (EU) 2025/2359 (formula terms, with e_ccu), secondary.
+    .. [3] 26 U.S.C. 45V(c)(1): lifecycle greenhouse gas emissions, well-to-gate.
+    .. [4] UK Low Carbon Hydrogen Standard, version 4: up to the point of production.
+    """
     findings = []
     declared = declared_e_td(scheme, present_stages, project or {})
     for term in scheme.boundary_terms:
@@ -417,6 +658,23 @@ def boundary_findings(scheme: Scheme, present_stages: set[str], reference_produc
 
 
 def status_of(findings: list[Finding], threshold_met: bool) -> str:
+    """The status the findings and the threshold give, in the order the module's docstring states.
+
+    Not eligible when an eligibility rule is not met; fails when the value misses the loosest threshold;
+    undetermined when a rule cannot be judged; qualifies otherwise.
+
+    Parameters
+    ----------
+    findings : list of Finding
+        The scheme's findings before the threshold.
+    threshold_met : bool
+        Whether the value meets the loosest threshold.
+
+    Returns
+    -------
+    Status
+        ``Status.NOT_ELIGIBLE``, ``FAILS``, ``UNDETERMINED`` or ``QUALIFIES``.
+    """
     if any(f.step == "eligibility" and f.outcome == NOT_MET for f in findings):
         return Status.NOT_ELIGIBLE
     if not threshold_met:
@@ -427,12 +685,26 @@ def status_of(findings: list[Finding], threshold_met: bool) -> str:
 
 
 def ordered_reasons(status: str, findings: list[Finding], threshold: Finding | None) -> list[str]:
-    """Reasons as sentences, the deciding ones first. A not-eligible check has no threshold sentence and
-    gives only its eligibility findings.
+    """Reasons as sentences, the deciding ones first.
 
+    A not-eligible check has no threshold sentence and gives only its eligibility findings.
     fails: the electricity rules whose failure changed what a kWh is charged, then the threshold;
     undetermined: what cannot be judged; qualifies: the threshold; not eligible: the eligibility
     rules not met.
+
+    Parameters
+    ----------
+    status : str
+        The check's status (``status_of``).
+    findings : list of Finding
+        The scheme's findings before the threshold.
+    threshold : Finding or None
+        The threshold finding (``scoring.threshold_finding``).
+
+    Returns
+    -------
+    list of str
+        One sentence per finding, ``outcome: text``, the deciding ones first.
     """
     if status == Status.NOT_ELIGIBLE:  # the other rules are moot: only the eligibility findings are given
         first = [f for f in findings if f.step == "eligibility" and f.outcome == NOT_MET]
