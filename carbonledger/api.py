@@ -44,6 +44,7 @@ from .io.workbook.reader import (
     base_factor_set,
     factor_set_from_workbook,
     load_project_from_workbook,
+    series_from_workbook,
 )
 from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
@@ -250,11 +251,10 @@ def audit_workbook(
     spread = None
     if draws is not None:
         found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
-    series = matched = None
-    if from_workbook is None:  # the series file sits beside the project file
-        series = project_series(project, project_file)
-        if series is not None:
-            matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year).checks
+    matched = None
+    series = project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
+    if series is not None:  # the series file beside the project file, or the workbook's Intervals sheet
+        matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year).checks
     if draws is not None:
         spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
     workbook = build_workbook(
