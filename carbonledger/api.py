@@ -11,6 +11,7 @@ import functools
 import json
 import os
 import tempfile
+from dataclasses import dataclass
 from datetime import UTC, datetime
 from pathlib import Path
 
@@ -23,7 +24,7 @@ from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, matching_views, score_with_series, series_matched_periods
-from .analyses.periods import month_results, read_meters
+from .analyses.periods import metered_year, month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, RecalcPiece, load_portfolio, project_files, recalc_piece
 from .analyses.portfolio import recalc as recalc_portfolio
@@ -199,6 +200,19 @@ def compare(
     return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
 
 
+@dataclass
+class AuditWorkbook:
+    """An audit workbook and what it was written from; unpacks as (book, engine, spread)."""
+
+    book: object  # openpyxl Workbook
+    engine: ScoreResult  # the design project, scored by the engine
+    spread: UncertaintyResult | None = None  # the Monte Carlo of the Uncertainty sheet
+    metered_year: float | None = None  # with meters: every metered month together, output-weighted, in the engine's unit
+
+    def __iter__(self):
+        return iter((self.book, self.engine, self.spread))
+
+
 def audit_workbook(
     project_file: str | Path | None = None,
     *,
@@ -223,7 +237,8 @@ def audit_workbook(
     draws : with a number, a Monte Carlo of the project (its ``[uncertainty]`` table, ``distributions``
         laid over it, factor rows with pedigree scores) under the same settings, ``seed``, shown on an
         Uncertainty sheet; ``keep_draws`` keeps every draw on it (for a draws CSV named ``draws_csv``).
-    Returns (openpyxl Workbook, engine ScoreResult, UncertaintyResult or None).
+    Returns an ``AuditWorkbook``: it unpacks as (openpyxl Workbook, engine ScoreResult, UncertaintyResult or
+    None) and, with ``periods``, carries the metered year (the Periods sheet's year figure, from the engine).
     """
     overrides = _boundary_overrides(boundary, overrides)
     evidence: dict[str, str] = {}
@@ -261,7 +276,7 @@ def audit_workbook(
         engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence,
         uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched,
     )
-    return workbook, engine, spread
+    return AuditWorkbook(workbook, engine, spread, metered_year(meters, project.project.product, months) if months else None)
 
 
 def recalc(
