@@ -30,7 +30,7 @@ from .analyses.portfolio import Recalc, RecalcPiece, load_portfolio, project_fil
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.qualify import FRONT_BUDGETS, QualifyResult
 from .analyses.qualify import qualify as qualify_with
-from .analyses.sensitivity import Sensitivity
+from .analyses.sensitivity import SWING_PERCENT, Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
@@ -194,7 +194,7 @@ def compare(
             else:
                 found = load_uncertainty(path, distributions)
             if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
-                spreads.append("no distributions (no [uncertainty] table and no factor rows with pedigree scores)")
+                spreads.append("no distributions (no [uncertainty] table, no factor rows with pedigree scores, no factor row a default applies to)")
                 continue
             spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha, series=series, year=year))
     return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
@@ -548,12 +548,17 @@ def sensitivity(
     overrides: list[str] | None = None,
     boundary: str | None = None,
     year: int | None = None,
+    swing: float = SWING_PERCENT,
 ) -> Sensitivity:
     """Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total,
-    or of ``scheme``'s value, over the project's uncertain inputs."""
+    or of ``scheme``'s value, over the project's uncertain inputs (stated, or the defaults of the factor
+    rows), and the one-at-a-time move of every factor and numeric parameter by -``swing`` % and +``swing`` %."""
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file), year=year)
+    return sensitivity_of(
+        project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file), year=year,
+        swing_percent=swing,
+    )
 
 
 def analysis_record(
