@@ -42,7 +42,7 @@ def main() -> None:
         timings = []
         for _ in range(3):
             begin = time.perf_counter()
-            book, result = audit_workbook(hourly)
+            book, result, _ = audit_workbook(hourly)
             built = time.perf_counter()
             write_workbook_file(Path(folder) / "h.xlsx", book, force=True)
             timings.append((built - begin, time.perf_counter() - built))

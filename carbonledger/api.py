@@ -11,6 +11,7 @@ import functools
 import json
 import os
 import tempfile
+from dataclasses import dataclass
 from datetime import UTC, datetime
 from pathlib import Path
 
@@ -23,13 +24,13 @@ from .analyses.headroom import Headroom, headroom_summary
 from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, matching_views, score_with_series, series_matched_periods
-from .analyses.periods import month_results, read_meters
+from .analyses.periods import metered_year, month_results, read_meters
 from .analyses.plan import PlanResult, choose_threshold, plan_load
 from .analyses.portfolio import Recalc, RecalcPiece, load_portfolio, project_files, recalc_piece
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.qualify import FRONT_BUDGETS, QualifyResult
 from .analyses.qualify import qualify as qualify_with
-from .analyses.sensitivity import Sensitivity
+from .analyses.sensitivity import SWING_PERCENT, Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
@@ -44,6 +45,7 @@ from .io.workbook.reader import (
     base_factor_set,
     factor_set_from_workbook,
     load_project_from_workbook,
+    series_from_workbook,
 )
 from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
@@ -192,10 +194,23 @@ def compare(
             else:
                 found = load_uncertainty(path, distributions)
             if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
-                spreads.append("no distributions (no [uncertainty] table and no factor rows with pedigree scores)")
+                spreads.append("no distributions (no [uncertainty] table, no factor rows with pedigree scores, no factor row a default applies to)")
                 continue
             spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha, series=series, year=year))
     return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)
+
+
+@dataclass
+class AuditWorkbook:
+    """An audit workbook and what it was written from; unpacks as (book, engine, spread)."""
+
+    book: object  # openpyxl Workbook
+    engine: ScoreResult  # the design project, scored by the engine
+    spread: UncertaintyResult | None = None  # the Monte Carlo of the Uncertainty sheet
+    metered_year: float | None = None  # with meters: every metered month together, output-weighted, in the engine's unit
+
+    def __iter__(self):
+        return iter((self.book, self.engine, self.spread))
 
 
 def audit_workbook(
@@ -222,7 +237,8 @@ def audit_workbook(
     draws : with a number, a Monte Carlo of the project (its ``[uncertainty]`` table, ``distributions``
         laid over it, factor rows with pedigree scores) under the same settings, ``seed``, shown on an
         Uncertainty sheet; ``keep_draws`` keeps every draw on it (for a draws CSV named ``draws_csv``).
-    Returns (openpyxl Workbook, engine ScoreResult, UncertaintyResult or None).
+    Returns an ``AuditWorkbook``: it unpacks as (openpyxl Workbook, engine ScoreResult, UncertaintyResult or
+    None) and, with ``periods``, carries the metered year (the Periods sheet's year figure, from the engine).
     """
     overrides = _boundary_overrides(boundary, overrides)
     evidence: dict[str, str] = {}
@@ -250,18 +266,17 @@ def audit_workbook(
     spread = None
     if draws is not None:
         found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
-    series = matched = None
-    if from_workbook is None:  # the series file sits beside the project file
-        series = project_series(project, project_file)
-        if series is not None:
-            matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year).checks
+    matched = None
+    series = project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
+    if series is not None:  # the series file beside the project file, or the workbook's Intervals sheet
+        matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year).checks
     if draws is not None:
         spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
     workbook = build_workbook(
         engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence,
         uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched,
     )
-    return workbook, engine, spread
+    return AuditWorkbook(workbook, engine, spread, metered_year(meters, project.project.product, months) if months else None)
 
 
 def recalc(
@@ -533,12 +548,17 @@ def sensitivity(
     overrides: list[str] | None = None,
     boundary: str | None = None,
     year: int | None = None,
+    swing: float = SWING_PERCENT,
 ) -> Sensitivity:
     """Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total,
-    or of ``scheme``'s value, over the project's uncertain inputs."""
+    or of ``scheme``'s value, over the project's uncertain inputs (stated, or the defaults of the factor
+    rows), and the one-at-a-time move of every factor and numeric parameter by -``swing`` % and +``swing`` %."""
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, _boundary_overrides(boundary, overrides))
-    return sensitivity_of(project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file), year=year)
+    return sensitivity_of(
+        project, _factor_set(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file), year=year,
+        swing_percent=swing,
+    )
 
 
 def analysis_record(

@@ -28,7 +28,7 @@ def projects(tmp_path):
     return first, second, plain
 
 
-def test_bands_match_the_normal_percentiles_and_a_project_without_distributions_says_so(tmp_path):
+def test_bands_match_the_normal_percentiles_and_a_project_without_distributions_gets_the_defaults(tmp_path):
     first, second, plain = projects(tmp_path)
     result = run_cli("compare", first, second, plain, "--draws", "40000", "--scheme", "us-45v", "--format", "json", "--no-ledger")
     assert result.exit_code == 0, result.output
@@ -41,7 +41,12 @@ def test_bands_match_the_normal_percentiles_and_a_project_without_distributions_
     assert b["p5"] == pytest.approx(4.2 - 1.644854 * 0.5, rel=0.01) and b["p95"] == pytest.approx(4.2 + 1.644854 * 0.5, rel=0.01)
     assert b["probability_qualifies"]["us-45v"] == pytest.approx(0.3446, abs=4 * b["standard_error"]["us-45v"])
     assert a["probability_qualifies"]["us-45v"] == 0.0  # N(20, 2) is never under 4 (z = -8)
-    assert c is None and "no distributions" in data["projects"][2]["uncertainty_note"]
+    # plain states no distribution: its one factor row (EU-27 2018 grid, graded primary text) gets the default of
+    # its grade, pedigree (2,2,3,3,3) with basic GSD 1.05, GSD 1.12166 (tests/test_uncertainty_defaults.py by hand),
+    # and the note names it: median 50 x 281 / 1000 = 14.05 kg CO2e/kg H2
+    assert c["inputs"] == ["factor electricity.grid.eu27_2018"] and c["p50"] == pytest.approx(14.05, rel=0.005)
+    assert c["p95"] == pytest.approx(14.05 * 1.12166**1.644854, rel=0.01)
+    assert "source grades" in data["projects"][2]["uncertainty_note"] and "electricity.grid.eu27_2018" in data["projects"][2]["uncertainty_note"]
 
 
 def test_table_and_csv_show_the_band(tmp_path):

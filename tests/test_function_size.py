@@ -12,7 +12,10 @@ from pathlib import Path
 import pytest
 
 PACKAGE = Path(__file__).resolve().parent.parent / "carbonledger"
-FILES = ("analyses/plan.py", "analyses/lifetime.py", "io/workbook/intervals_sheet.py", "io/workbook/periods_sheet.py")
+FILES = (
+    "analyses/plan.py", "analyses/lifetime.py", "io/workbook/intervals_sheet.py", "io/workbook/periods_sheet.py",
+    "analyses/sensitivity.py", "io/sensitivity_output.py", "io/uncertainty_output.py", "model/pedigree.py",
+)
 MAX_LINES = 80
 MAX_COMPLEXITY = 15
 

@@ -1,4 +1,4 @@
-"""The run ledger records uncertainty, headroom and sensitivity runs (and the workbook's Monte Carlo).
+"""The run ledger records uncertainty, headroom, sensitivity and plan runs (and the workbook's Monte Carlo).
 
 What is checked: each run leaves one record of its kind with the project's sha256, the factor
 rows it read (the shipped EU-27 2018 grid row, 281 g CO2e/kWh, EEA indicator IND-353) and a
@@ -13,6 +13,7 @@ import json
 
 from carbonledger.io.ledger import project_history
 from tests.helpers import run_cli, write
+from tests.test_matching import PROJECT, day_rows, write_series
 from tests.test_uncertainty import LINEAR
 
 UNCERTAIN = """
@@ -64,3 +65,20 @@ def test_the_workbook_records_its_monte_carlo(tmp_path, _ledger_in_tmp):
     project = write(tmp_path / "linear.toml", LINEAR + UNCERTAIN)
     assert run_cli("workbook", project, "-o", tmp_path / "w.xlsx", "--draws", "200").exit_code == 0
     assert [(e["command"], e["kind"]) for e in project_history(project, _ledger_in_tmp)] == [("workbook", "score"), ("workbook", "uncertainty")]
+
+
+def test_plan_is_recorded_and_history_lists_it(tmp_path, _ledger_in_tmp):
+    """Issue 19 point 6: plan is recorded in the ledger (CARBONLEDGER_LEDGER, set by the fixture) like report and pack."""
+    project = write(tmp_path / "p.toml", PROJECT)
+    write_series(tmp_path, day_rows())
+    result = run_cli("plan", project, "--scheme", "eu-rfnbo", "--matching", "hour", "-o", tmp_path / "plan.csv")
+    assert result.exit_code == 0, result.output
+    assert run_cli("plan", project, "--scheme", "eu-rfnbo", "-o", tmp_path / "other.csv", "--no-ledger").exit_code == 0  # not recorded
+    runs = project_history(project, _ledger_in_tmp)
+    assert [(entry["command"], entry["kind"]) for entry in runs] == [("plan", "plan")]
+    figures = runs[0]["results"]
+    assert figures["scheme"] == "eu-rfnbo" and figures["matching"] == "hour" and figures["output"] == str(tmp_path / "plan.csv")
+    assert runs[0]["parameters"]["electrolysis"]["electricity_kwh_per_kg_h2"] == 50.0  # the project as read
+    history = run_cli("history", project)
+    assert history.exit_code == 0, history.output
+    assert "  plan  [plan]" in history.stdout and "operating plan for eu-rfnbo" in history.stdout

@@ -188,8 +188,11 @@ def test_a_project_with_an_uncertainty_table_still_scores(tmp_path):
     assert with_table.total == without.total
 
 
-def test_no_distribution_is_one_line():
-    assert_one_line_error(run_cli("uncertainty", DEMO / "blue_atr_ammonia.toml"))
+def test_no_distribution_is_one_line(tmp_path):
+    """A distribution on a factor the set does not know is refused in one line. (A project with no
+    distribution at all now runs on the defaults of its factor rows: tests/test_uncertainty_defaults.py.)"""
+    project = write(tmp_path / "p.toml", (DEMO / "blue_atr_ammonia.toml").read_text(encoding="utf-8") + '\n[uncertainty.factors."no.such.factor"]\ndistribution = "normal"\nmean = 1.0\nsd = 0.1\n')
+    assert_one_line_error(run_cli("uncertainty", project, "--draws", "100", "--no-ledger"))
 
 
 def test_stacked_draws_agree_with_bw2calcs_own_monte_carlo():

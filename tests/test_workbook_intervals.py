@@ -146,3 +146,42 @@ def test_libreoffice_recalculates_the_matching_of_the_hourly_demo(libreoffice_re
     _, recalculated = libreoffice_recalculated["intervals-hand"]
     summary = summary_rows(openpyxl.load_workbook(recalculated, data_only=True))
     assert summary["uk-lchs"][:4] == pytest.approx((400.0, 190.0, 0.475, 26.25), rel=1e-12)  # the hand figures above
+
+
+def sheet_rows(path: Path, name: str, first: int) -> list[tuple]:
+    ws = openpyxl.load_workbook(path)[name]
+    return list(ws.iter_rows(min_row=first, values_only=True))
+
+
+def test_from_workbook_keeps_the_intervals_of_the_hourly_demo(tmp_path):
+    """Issue 19 point 6: a workbook written with --from-workbook from the hourly demo's workbook keeps its
+    Intervals sheet, every cell from the header row down the same (8,760 hourly rows: times, use,
+    generation, grid intensity as inputs, the matching as formulas), and the Matching sheet below its title."""
+    first = write_workbook(DEMO / "hybrid_hourly_hydrogen.toml", tmp_path / "first.xlsx")
+    code, _, err = run_cli("workbook", "--from-workbook", str(first), "-o", str(tmp_path / "again.xlsx"), "--no-ledger")
+    assert code == 0, err
+    again = tmp_path / "again.xlsx"
+    assert openpyxl.load_workbook(again).sheetnames == openpyxl.load_workbook(first).sheetnames
+    original = sheet_rows(first, "Intervals", 3)
+    assert len(original) == 1 + 8760 and original[1][0].startswith("2026-01-01T00:00")  # header and one year of hours
+    assert sheet_rows(again, "Intervals", 3) == original
+    assert sheet_rows(again, "Matching", 2) == sheet_rows(first, "Matching", 2)
+
+
+def test_from_workbook_keeps_a_hydrogen_series_and_its_hand_figures(tmp_path):
+    """A series of hydrogen (kg) in 15-minute intervals is read back from the hydrogen column (the use
+    column is then a formula), and the hand-worked figures of test_matching_sheet_by_hand hold in the
+    workbook written from the first one: 190 of 400 kWh matched per interval, 240 per month."""
+    project = small_project(tmp_path / "hand", hand_rows())
+    first = write_workbook(project, tmp_path / "hand.xlsx")
+    code, _, err = run_cli("workbook", "--from-workbook", str(first), "-o", str(tmp_path / "again.xlsx"), "--no-ledger")
+    assert code == 0, err
+    summary = summary_rows(recalculate_with_formulas(tmp_path / "again.xlsx", tmp_path / "calc"))
+    assert summary["uk-lchs"][:4] == pytest.approx((400.0, 190.0, 0.475, 26.25), rel=1e-12)
+    assert summary["eu-rfnbo"][:4] == pytest.approx((400.0, 240.0, 0.6, 20.0), rel=1e-12)
+    rows = [f"2030-03-01T{q // 4:02d}:{15 * (q % 4):02d}+01:00,{0.5 + 0.1 * (q % 3)},{[40, 0, 10, 5][q % 4]},{[0, 12, 3, 0][q // 4]},{200 + 10 * q}" for q in range(16)]
+    hydrogen = small_project(tmp_path / "quarter", rows, "timestamp,hydrogen [kg],generation.solar [kWh],generation.wind [kWh],grid_intensity [g CO2e/kWh]")
+    first = write_workbook(hydrogen, tmp_path / "quarter.xlsx", "--year", "2030")
+    code, _, err = run_cli("workbook", "--from-workbook", str(first), "-o", str(tmp_path / "quarter-again.xlsx"), "--no-ledger", "--year", "2030")
+    assert code == 0, err
+    assert sheet_rows(tmp_path / "quarter-again.xlsx", "Intervals", 3) == sheet_rows(first, "Intervals", 3)

@@ -133,6 +133,7 @@ def assert_months_agree(values_workbook, project, meters) -> int:
     year = rows["all months (output-weighted)"]
     emissions = sum(r.total * rows[m][1] for m, r in zip(parsed.months, engine, strict=True))
     assert close(year[2], emissions / sum(rows[m][1] for m in parsed.months))
+    assert close(year[4], year[2])  # the engine's metered year, written beside the formula, equals it
     # each month is checked against every scheme: value equals the engine's, verdict its pass/fail
     stages = len(score(project).by_stage)
     for month, result in zip(parsed.months, engine, strict=True):
@@ -145,6 +146,32 @@ def assert_months_agree(values_workbook, project, meters) -> int:
         weighted = sum(r.checks[position].value * rows[m][1] for m, r in zip(parsed.months, engine, strict=True)) / sum(rows[m][1] for m in parsed.months)
         assert close(year[column], weighted), check.scheme
     return len(parsed.months)
+
+
+def test_the_metered_year_is_printed_and_formatted(tmp_path):
+    """Issue 19 point 3: with meters the command prints the metered year, not the design figure, and the
+    Periods sheet's year row shows it as a number with one decimal. Worked here from the meters CSV
+    itself: the year = sum over months of (the month's kg CO2e/t NH3 x its metered ammonia, t) / the
+    summed ammonia (the month figures are the sheet's engine column, checked against LibreOffice above)."""
+    import csv
+
+    import openpyxl
+
+    out = tmp_path / "periods.xlsx"
+    code, stdout, err = run_cli("workbook", str(DEMO / "blue_atr_ammonia.toml"), "-o", str(out), "--periods", str(DEMO / "blue_atr_ammonia_meters_2026.csv"), "--no-ledger")
+    assert code == 0, err
+    lines = [line for line in (DEMO / "blue_atr_ammonia_meters_2026.csv").read_text(encoding="utf-8").splitlines() if not line.startswith("#")]
+    ammonia_t = {row["month"]: float(row["ammonia [t]"]) for row in csv.DictReader(lines)}
+    ws = openpyxl.load_workbook(out)["Periods"]
+    rows = {row[0].value: row for row in ws.iter_rows(min_row=5, max_col=5) if row[0].value}
+    assert len(ammonia_t) == 12 and set(ammonia_t) <= set(rows)
+    year = sum(rows[month][4].value * t for month, t in ammonia_t.items()) / sum(ammonia_t.values())
+    design = score(DEMO / "blue_atr_ammonia.toml").total
+    assert abs(year - design) > 1.0  # the metered year differs from the design figure, so printing the wrong one shows
+    written = rows["all months (output-weighted)"]
+    assert close(written[4].value, year)
+    assert written[2].number_format == written[4].number_format == "#,##0.0"  # 564.5, not 17 digits
+    assert f"metered year {year:,.4g} kg CO2e/t NH3" in stdout and f"design {design:,.4g}" in stdout
 
 
 def test_volume_factor_is_near_pure_methane():

@@ -52,6 +52,14 @@ class UncertaintyBand(BaseModel):
     standard_error: dict[str, float]  # scheme id -> Monte Carlo standard error of that probability
 
 
+def default_note(spread) -> str:
+    """What a band drawn from default distributions rests on (empty for stated distributions)."""
+    if spread is None or not spread.default_basis:
+        return ""
+    named = [item.input for item in spread.inputs if item.default]
+    return f"default distributions from the source grades of {len(named)} factor rows ({', '.join(named)}): {spread.default_basis}"
+
+
 class ComparedProject(BaseModel):
     project: str
     project_file: str
@@ -198,7 +206,7 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
                 factors_from_memory=sorted(f.id for f in r.factors_used if f.from_memory),
                 factor_grades=r.factor_grades,
                 uncertainty=None if spread is None or isinstance(spread, str) else band_of(spread, quantity, schemes),
-                uncertainty_note=spread if isinstance(spread, str) else "",
+                uncertainty_note=spread if isinstance(spread, str) else default_note(spread),
             )
         )
     met = {stage for r in results for stage in r.by_stage}

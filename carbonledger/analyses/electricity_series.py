@@ -185,13 +185,16 @@ def _check_steps(utc: np.ndarray, offset: np.ndarray, stamps, path: str) -> int:
 
 def read_series(path: str | Path, project) -> ElectricitySeries:
     """Read and validate an electricity time series CSV against a validated project."""
+    path = Path(path)
+    if not path.exists():
+        raise InputError(str(path), "", "an existing time series CSV (electricity.time_series, relative to the project file)")
+    return parse_series(read_input_bytes(path, "time series CSV"), str(path), project)
+
+
+def parse_series(raw: bytes, where: str, project) -> ElectricitySeries:
+    """Validate the bytes of a time series CSV against a validated project (``where`` names it in errors)."""
     import pandas as pd
 
-    path = Path(path)
-    where = str(path)
-    if not path.exists():
-        raise InputError(where, "", "an existing time series CSV (electricity.time_series, relative to the project file)")
-    raw = read_input_bytes(path, "time series CSV")
     try:
         frame = pd.read_csv(io.BytesIO(raw), dtype=str, keep_default_na=False, comment="#", skipinitialspace=True, encoding="utf-8-sig")
     except (OSError, UnicodeDecodeError, pd.errors.ParserError, pd.errors.EmptyDataError) as error:

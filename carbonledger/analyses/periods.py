@@ -262,3 +262,16 @@ def month_results(meters: Meters, project, factor_set, *, gwp: str, design, sche
             _set(params, path, _get(params, path) * k_electricity)
         results.append(score_project(validate_project(params, source), factor_set, gwp=gwp, schemes=schemes, source=source))
     return results
+
+
+def output_quantity(product: str) -> str:
+    """The meter column that counts the functional unit's output: ammonia, else hydrogen."""
+    return "ammonia" if product == "ammonia" else "hydrogen"
+
+
+def metered_year(meters: Meters, product: str, results: list) -> float:
+    """The metered months together, output-weighted (what the Periods sheet's year row computes):
+    sum over months of (the month's figure per unit x its metered output) / the summed output."""
+    column = meters.column(output_quantity(product))
+    outputs = [values[column.header] * column.multiplier for values in meters.values]
+    return sum(result.total * output for result, output in zip(results, outputs, strict=True)) / sum(outputs)

@@ -6,6 +6,10 @@ drawn through its own distribution (the uniform sample is mapped through the qua
 functions). The indices assume independent inputs, so rank correlations are not imposed here.
 The tornado sets one input at a time to its 10th and its 90th percentile, every other input at
 the project's own value, and records the figure (the total, or a scheme's value with its limit).
+The swing (``--swing PERCENT``, default 10) needs no distribution: it moves each factor the project
+reads and each of its numeric parameters by -x % and +x % of its own value, one at a time, and records
+the total and every scheme's value (characterisation factors and physical properties held fixed, as
+``factors/uncertainty/grade_defaults.toml`` lists them).
 
 Both evaluate their points with the same stacked draws as the Monte Carlo.
 
@@ -27,11 +31,14 @@ from pydantic import BaseModel
 from ..about import CAUTION
 from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
-from ..model.distributions import Uncertainty
-from ..model.factors import FactorSet
-from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, draws_from_uniform, evaluate_in_blocks, limit_breaks, make_plan, no_usable_draw
+from ..model.distributions import Uncertainty, Uniform
+from ..model.factors import FactorSet, factors_root
+from ..model.pedigree import grade_defaults
+from ..model.project import parameter_table
+from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, checked_parameter, draws_from_uniform, evaluate_in_blocks, factors_used, limit_breaks, make_plan, no_usable_draw
 
 TORNADO_PERCENTILES = (0.10, 0.90)
+SWING_PERCENT = 10.0  # the default move of each input in the one-at-a-time swing, per cent of its own value
 
 
 class SobolIndex(BaseModel):
@@ -51,6 +58,33 @@ class TornadoBar(BaseModel):
     swing: float  # |at_high - at_low|
 
 
+class SwingFigure(BaseModel):
+    figure: str  # "total" or a scheme id
+    unit: str
+    at_minus: float | None  # the figure with the input at (1 - x) times its value; None: that value breaks a physical limit
+    at_plus: float | None
+    change_minus: float | None  # at_minus - the project's figure
+    change_plus: float | None
+
+
+class SwingBar(BaseModel):
+    input: str  # "parameter PATH" or "factor ID"
+    value: float  # the input's own value
+    unit: str
+    figures: list[SwingFigure]  # the total first, then each scheme
+
+
+class Swing(BaseModel):
+    """Each input moved alone by -x % and +x % of its own value, every other as the project states."""
+
+    percent: float
+    base: dict[str, float]  # figure -> its value with every input as stated
+    units: dict[str, str]
+    bars: list[SwingBar]  # largest change of the total first
+    unmoved: list[str]  # inputs whose move changes no figure
+    held_fixed: list[str]  # factors read but not moved (characterisation factors, physical properties)
+
+
 class Sensitivity(BaseModel):
     project: str
     project_file: str
@@ -64,6 +98,7 @@ class Sensitivity(BaseModel):
     evaluations_breaking_limits: int  # kept in the indices (the estimator needs every point), reported here
     sobol: list[SobolIndex]
     tornado: list[TornadoBar]  # largest swing first
+    swing: Swing | None = None  # the one-at-a-time move of every factor and numeric parameter by +-percent
     caution: str = CAUTION
 
     def summary_for_ledger(self) -> dict:
@@ -83,6 +118,8 @@ class Sensitivity(BaseModel):
             "seed": self.seed,
             "sobol": [index.model_dump() for index in self.sobol],
             "tornado": [{"input": bar.input, "swing": bar.swing} for bar in self.tornado],
+            "swing_percent": self.swing.percent if self.swing else None,
+            "swing": [{"input": bar.input, "change_minus": bar.figures[0].change_minus, "change_plus": bar.figures[0].change_plus} for bar in self.swing.bars] if self.swing else [],
         }
 
 
@@ -133,6 +170,93 @@ def _tornado(plan, names: list[str], scheme: str | None) -> tuple[float, list]:
     return float(tornado_values[0]), bars
 
 
+def check_swing(percent: float) -> None:
+    if isinstance(percent, bool) or not 0 < percent < 100:
+        raise InputError("--swing", str(percent), "a percentage above 0 and below 100")
+
+
+def _moved(value: float, fraction: float) -> Uniform:
+    """The range an input is moved over: from (1 - x) to (1 + x) times its value, in order."""
+    low, high = sorted((value * (1 - fraction), value * (1 + fraction)))
+    return Uniform(distribution="uniform", low=low, high=high)
+
+
+def swing_inputs(project, factor_set: FactorSet, used: dict, fraction: float, source: str) -> tuple[Uncertainty, dict, list[str]]:
+    """(the inputs to move, each as a uniform range of +-x %; their units; the factors held fixed).
+
+    Every numeric parameter with a unit and a value other than 0 that a distribution could move (a sole
+    electricity source's share cannot), and every factor row the project reads with a value other than
+    0, but characterisation factors and physical properties (``grade_defaults().held_fixed``)."""
+    parameters, units = {}, {}
+    for path, value, unit, _ in parameter_table(project):
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or unit in ("", "date"):
+            continue
+        try:
+            checked_parameter(project, factor_set, path, _moved(value, fraction), source)
+        except InputError:
+            continue
+        parameters[path], units[f"parameter {path}"] = _moved(value, fraction), unit
+    mapping = grade_defaults(factors_root())
+    factors, held = {}, []
+    for factor_id, row in sorted(used.items()):
+        if factor_id not in factor_set.factors or row.value == 0:
+            continue
+        if not mapping.applies_to(factor_id):
+            held.append(factor_id)
+            continue
+        factors[factor_id], units[f"factor {factor_id}"] = _moved(row.value, fraction), row.unit
+    return Uncertainty(parameters=parameters, factors=factors), units, held
+
+
+def _swing_draws(plan, names: list[str], fraction: float) -> Draws:
+    """Row 0 every input as stated; rows 1 + 2k and 2 + 2k input k at (1 - x) and (1 + x) times its value."""
+    drawn = _draws_at(plan, np.full((1 + 2 * len(names), len(plan.uncertainty.names())), np.nan))
+    for k, name in enumerate(names):
+        kind, key = name.split(" ", 1)
+        column = drawn.parameters[key] if kind == "parameter" else drawn.factors[key]
+        value = plan.fields[key][0] if kind == "parameter" else plan.factor_set.get(key).value
+        column[1 + 2 * k], column[2 + 2 * k] = value * (1 - fraction), value * (1 + fraction)
+    return drawn
+
+
+def _swing_figures(values: dict[str, np.ndarray], units: dict[str, str], k: int, broken: np.ndarray) -> list[SwingFigure]:
+    figures = []
+    for figure, column in values.items():
+        minus, plus = (None if broken[row] else float(column[row]) for row in (1 + 2 * k, 2 + 2 * k))
+        base = float(column[0])
+        figures.append(SwingFigure(figure=figure, unit=units[figure], at_minus=minus, at_plus=plus, change_minus=None if minus is None else minus - base, change_plus=None if plus is None else plus - base))
+    return figures
+
+
+def _moves_nothing(bar: SwingBar, base: dict[str, float]) -> bool:
+    return all(abs(change) <= 1e-12 * max(1.0, abs(base[f.figure])) for f in bar.figures for change in (f.change_minus, f.change_plus) if change is not None)
+
+
+def swing(project, factor_set: FactorSet, percent: float = SWING_PERCENT, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None, year=None) -> Swing:
+    """Each factor the project reads and each numeric parameter moved alone by -x % and +x % of its own
+    value (x = ``percent``), the others as the project states: the change of the total and of every scheme's
+    value. A move that breaks a physical limit (a share above 1) gives no figure (None)."""
+    check_swing(percent)
+    fraction = percent / 100
+    used = factors_used(project, factor_set, source, gwp, boundary)
+    inputs, input_units, held = swing_inputs(project, factor_set, used, fraction, source)
+    plan = make_plan(project, factor_set, inputs, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series, year=year)
+    names = inputs.names()
+    drawn = _swing_draws(plan, names, fraction)
+    outcome = evaluate_in_blocks(plan, drawn)
+    broken, _ = limit_breaks(plan, drawn, len(drawn.uniform))
+    values = {"total": np.asarray(outcome.total, dtype=float)} | {scheme.id: np.asarray(outcome.scheme_values[scheme.id], dtype=float) for scheme in outcome.schemes}
+    units = {"total": outcome.unit} | {scheme.id: scheme.unit for scheme in outcome.schemes}
+    base = {figure: float(column[0]) for figure, column in values.items()}
+    bars = []
+    for k, name in enumerate(names):
+        value = plan.fields[name.split(" ", 1)[1]][0] if name.startswith("parameter") else plan.factor_set.get(name.split(" ", 1)[1]).value
+        bars.append(SwingBar(input=name, value=value, unit=input_units[name], figures=_swing_figures(values, units, k, broken)))
+    moved = [bar for bar in bars if not _moves_nothing(bar, base)]
+    moved.sort(key=lambda bar: -max(abs(change or 0.0) for change in (bar.figures[0].change_minus, bar.figures[0].change_plus)))
+    return Swing(percent=percent, base=base, units=units, bars=moved, unmoved=[bar.input for bar in bars if _moves_nothing(bar, base)], held_fixed=held)
+
+
 def sensitivity(
     project,
     factor_set: FactorSet,
@@ -146,10 +270,13 @@ def sensitivity(
     boundary: str | None = None,
     series=None,
     year: int | None = None,
+    swing_percent: float = SWING_PERCENT,
 ) -> Sensitivity:
-    """Sobol indices and tornado of the total (or of ``scheme``'s value) over the uncertain inputs.
+    """Sobol indices and tornado of the total (or of ``scheme``'s value) over the uncertain inputs, and the
+    one-at-a-time swing of every factor and numeric parameter by +-``swing_percent`` (``swing``).
 
     ``series``: the project's electricity time series; scheme values then follow its matching."""
+    check_swing(swing_percent)
     from SALib.analyze import sobol as sobol_analysis
     from SALib.sample import sobol as sobol_sample
 
@@ -196,4 +323,5 @@ def sensitivity(
         evaluations_breaking_limits=int(broken.sum()),
         sobol=sobol,
         tornado=bars,
+        swing=swing(project, factor_set, swing_percent, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary, series=series, year=year),
     )

@@ -54,7 +54,8 @@ from ..core.scoring import (
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
-from ..model.factors import FactorSet, factor_row
+from ..model.factors import FactorSet, factor_row, factors_root
+from ..model.pedigree import grade_defaults
 from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
@@ -69,6 +70,7 @@ MAX_SEED = 2**32 - 1  # the seeds numpy and bw2calc both take
 MIN_CORRELATED_DRAWS = 10  # Iman-Conover needs the van der Waerden scores' correlation matrix to be positive definite
 MEMORY_PER_BLOCK_BYTES = 512 * 1024 * 1024  # the stacked matrices of one block of draws
 BLOCK = 20_000  # draws solved per stacked call (bounds memory; progress advances per block)
+GRADE_DEFAULT = "default of the source grade"  # how an input with a grade default is named (InputDistribution.default)
 
 
 # --- sampling -----------------------------------------------------------------------------
@@ -179,7 +181,7 @@ class Plan:
     series: Any = None  # the project's electricity time series: scheme values follow its matching
 
 
-def _checked_parameter(project, factor_set: FactorSet, path: str, distribution, source: str) -> tuple:
+def checked_parameter(project, factor_set: FactorSet, path: str, distribution, source: str) -> tuple:
     """(nominal value, pydantic field) of a parameter with a distribution, refused in one line where the
     distribution cannot apply: a text parameter takes a discrete choice of factor ids only, a number a
     numeric distribution, and a share needs other sources to take up the rest."""
@@ -210,13 +212,14 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
 
     Pedigree distributions take the value they describe as their median, and every factor the
     project uses whose row carries pedigree scores, and that has no distribution of its own,
-    gets its pedigree-matrix default (a lognormal around the row's value).
+    gets its pedigree-matrix default (a lognormal around the row's value); a run with no
+    distribution at all gets the defaults of the rows' source grades (``with_defaults``).
     """
     if boundary is not None and boundary not in BOUNDARIES:
         raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
     used = factors_used(project, factor_set, source, gwp, boundary)
-    uncertainty = with_pedigree_defaults(used, factor_set, uncertainty)
-    fields = {path: _checked_parameter(project, factor_set, path, distribution, source) for path, distribution in uncertainty.parameters.items()}
+    uncertainty = with_defaults(used, factor_set, uncertainty)
+    fields = {path: checked_parameter(project, factor_set, path, distribution, source) for path, distribution in uncertainty.parameters.items()}
     parameters = {path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}") for path, distribution in uncertainty.parameters.items()}
     factors = {}
     for factor_id, distribution in uncertainty.factors.items():
@@ -261,8 +264,32 @@ def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT
 
 
 def uncertain_inputs(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
-    """The distributions a run of the project would draw: ``uncertainty`` and the pedigree defaults of the factor rows it reads."""
-    return with_pedigree_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
+    """The distributions a run of the project would draw: ``uncertainty`` and the defaults of the factor rows it reads."""
+    return with_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
+
+
+def with_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
+    """``uncertainty`` with the pedigree defaults of the rows that carry scores and, when the run then has
+    no distribution at all, the defaults of the rows' source grades (``with_grade_defaults``)."""
+    return with_grade_defaults(used, factor_set, with_pedigree_defaults(used, factor_set, uncertainty))
+
+
+def with_grade_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
+    """For a run that states no distribution (no [uncertainty] table, no distributions file, no row with
+    pedigree scores): a pedigree lognormal around each factor row the project reads, with the scores of
+    the row's source grade (``factors/uncertainty/grade_defaults.toml``: this project's assumption, named
+    on every such input). GWP values and heating values are held fixed, and so is a value of 0 or below
+    (a lognormal has the sign of its median)."""
+    if uncertainty.parameters or uncertainty.factors:
+        return uncertainty
+    mapping = grade_defaults(factors_root())
+    added = {}
+    for factor_id, row in sorted(used.items()):
+        if factor_id in factor_set.factors and mapping.applies_to(factor_id) and row.value > 0:  # reference values are not rows of the set
+            grade = str(row.grade)
+            basis = f"{GRADE_DEFAULT} '{grade}' (carbonledger's assumption, common practice)"
+            added[factor_id] = Pedigree(distribution="pedigree", scores=mapping.scores[grade], basic_gsd=mapping.basic_gsd[grade], median=row.value, stated_in=row.origin or factor_set.name, basis=basis)
+    return uncertainty.model_copy(update={"factors": added}) if added else uncertainty
 
 
 def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
@@ -274,7 +301,7 @@ def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncer
             where = f"{row.origin or factor_set.name}: {factor_id}"
             if not row.value > 0:
                 raise InputError(where, "pedigree", f"a factor value > 0 for a pedigree (lognormal) distribution around it, got {row.value:g}")
-            added[factor_id] = Pedigree(distribution="pedigree", scores=row.pedigree, basic_gsd=row.basic_gsd or 1.0, median=row.value, stated_in=row.origin or factor_set.name)
+            added[factor_id] = Pedigree(distribution="pedigree", scores=row.pedigree, basic_gsd=row.basic_gsd or 1.0, median=row.value, stated_in=row.origin or factor_set.name, basis="the pedigree scores of the factor row")
     if not added:
         return uncertainty
     return uncertainty.model_copy(update={"factors": {**uncertainty.factors, **added}})
@@ -620,6 +647,7 @@ class InputDistribution(BaseModel):
     input: str
     distribution: dict[str, Any]
     stated_in: str = ""  # where a default distribution came from (a factor row's file); empty: the run's distributions
+    default: str = ""  # why the input got a default distribution (its row's pedigree scores, or its source grade); empty: stated by the run
     from_memory: bool = False  # the distribution rests on values recorded from memory (the pedigree variance table)
 
 
@@ -652,6 +680,7 @@ class UncertaintyResult(BaseModel):
     by_stage: dict[str, Summary]
     by_gas: dict[str, Summary]
     checks: list[CheckProbability]
+    default_basis: str = ""  # with defaults from source grades: what the grade -> pedigree mapping is and rests on
     project_sha256: str = ""
     _scheme_draws: dict = PrivateAttr(default_factory=dict)  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
     _draws: dict | None = PrivateAttr(default=None)  # every draw (inputs, total, scheme values), kept on request (keep_draws)
@@ -711,7 +740,7 @@ class UncertaintyResult(BaseModel):
 
 def input_distribution(name: str, distribution) -> InputDistribution:
     spec = distribution.model_dump()
-    return InputDistribution(input=name, distribution=spec, stated_in=getattr(distribution, "stated_in", ""), from_memory=bool(spec.get("from_memory", False)))
+    return InputDistribution(input=name, distribution=spec, stated_in=getattr(distribution, "stated_in", ""), default=getattr(distribution, "basis", ""), from_memory=bool(spec.get("from_memory", False)))
 
 
 def summary(values: np.ndarray) -> Summary:
@@ -825,6 +854,7 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
         by_stage={key: summary(value[used]) for key, value in outcome.by_stage.items()},
         by_gas={key: summary(value[used]) for key, value in outcome.by_gas.items()},
         checks=checks,
+        default_basis=grade_defaults(factors_root()).basis if any(item.default.startswith(GRADE_DEFAULT) for item in inputs) else "",
     )
     result._scheme_draws = {scheme.id: (np.asarray(outcome.scheme_values[scheme.id][used], dtype=float), [(t.tier, t.limit) for t in scheme.thresholds]) for scheme in outcome.schemes}
     result._parameters = params

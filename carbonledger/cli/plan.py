@@ -14,7 +14,8 @@ from ..analyses.plan import PlanResult, parse_part_load, plan_csv
 from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
-from .options import FactorsOption, ForceOption, FormatOption, GwpOption, OutputFormat, SetOption, YearOption, check_output_path, fail, render
+from ..io.ledger import ledger_for_run, record_run
+from .options import FactorsOption, ForceOption, FormatOption, GwpOption, LedgerOption, NoLedgerOption, OutputFormat, SetOption, YearOption, check_output_path, fail, render
 
 
 def summary(plan: PlanResult) -> dict:
@@ -47,6 +48,15 @@ def summary(plan: PlanResult) -> dict:
     if plan.margin is not None:
         figures.update(margin=plan.margin, baseline_margin=plan.baseline_margin)
     return figures
+
+
+def ledger_summary(figures: dict, output: Path) -> dict:
+    """What the run ledger keeps of a plan: its figures and a one-line headline (``history`` shows it)."""
+    headline = (
+        f"operating plan for {figures['scheme']} ({figures['tier']}, matching {figures['matching']}): {figures['hydrogen_kg'] / 1000:,.1f} t hydrogen"
+        f" ({figures['hydrogen_lost_share']:.1%} less than at rated power), value {figures['value']:.4g} {figures['unit']}, {figures['status'].replace('_', ' ')}; written to {output}"
+    )
+    return {"analysis": "plan", "headline": headline, "output": str(output), **figures}
 
 
 def table(figures: dict, output: Path) -> str:
@@ -84,9 +94,12 @@ def plan(
     year: YearOption = None,
     force: ForceOption = False,
     output_format: FormatOption = OutputFormat.table,
+    ledger: LedgerOption = None,
+    no_ledger: NoLedgerOption = False,
 ) -> None:
     """Plan the electrolyser load interval by interval: most hydrogen (or margin) while the project qualifies."""
     try:
+        where = ledger_for_run(ledger, not no_ledger)
         if output.exists() and not force:
             raise InputError(output, "--output", "a new file (it exists; pass --force to overwrite)")
         check_output_path(output, force, "--output")
@@ -103,6 +116,9 @@ def plan(
             csv=lambda: csv_text(("section", "key", "value", "unit"), [("plan", k, v, "") for k, v in figures.items() if k not in ("notes", "score_back_set")], caution=CAUTION),
         )
         atomic_write(output, lambda tmp: tmp.write_text(text, encoding="utf-8"), force=force)
+        if where is not None:
+            record = api.analysis_record("plan", project, ledger_summary(figures, output), factors=factors, gwp=gwp, schemes=[result.scheme], overrides=set_)
+            record_run("plan", [record], ledger=where)
     except InputError as error:
         fail(error)
     typer.echo(shown, nl=False)

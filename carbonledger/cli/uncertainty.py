@@ -11,6 +11,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
+from ..analyses.sensitivity import SWING_PERCENT, check_swing
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
@@ -169,15 +170,17 @@ def sensitivity(
     set_: SetOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
+    swing: Annotated[float, typer.Option("--swing", help="Also move each factor and numeric parameter alone by -PERCENT and +PERCENT of its own value: the change of the total and of every scheme's value.")] = SWING_PERCENT,
     output_format: FormatOption = OutputFormat.table,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
 ) -> None:
-    """Which inputs decide the result: Sobol indices (SALib) and a 10th/90th percentile tornado."""
+    """Which inputs decide the result: Sobol indices (SALib), a 10th/90th percentile tornado and a +-x % swing."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
-        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year)
+        check_swing(swing)
+        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year, swing=swing)
         text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
         if chart is not None:
             write_sensitivity_chart(result, chart, force=force)

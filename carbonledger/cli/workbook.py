@@ -29,6 +29,13 @@ from .options import (
 )
 
 
+def headline_figure(result, metered: float | None, periods: Path | None) -> str:
+    """The figure the command prints: with meters the metered year (the Periods sheet's year row), the design figure beside it."""
+    if metered is None:
+        return f"{result.total:,.4g} {result.unit}"
+    return f"metered year {metered:,.4g} {result.unit} ({periods.name}, output-weighted; design {result.total:,.4g})"
+
+
 def workbook(
     ctx: typer.Context,
     project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (or use --from-workbook).")] = None,
@@ -69,7 +76,7 @@ def workbook(
             raise InputError(output, "--output", "a file path, not a folder")
         if output.exists() and not force:
             raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
-        book, result, spread = api.audit_workbook(
+        audited = api.audit_workbook(
             project,
             from_workbook=from_workbook,
             factors=explicit(ctx, "factors", factors),
@@ -85,6 +92,7 @@ def workbook(
             keep_draws=csv_path is not None,
             draws_csv=csv_path.name if csv_path is not None else "",
         )
+        book, result, spread = audited
         write_workbook_file(output, book, force=force)
         if csv_path is not None:
             write_draws_csv(csv_path, spread, force=force)
@@ -94,7 +102,7 @@ def workbook(
                 record_run("workbook", [spread], ledger=where, kind="uncertainty")
     except InputError as error:
         fail(error)
-    typer.echo(f"wrote {output}: {result.total:,.4g} {result.unit} ({result.gwp_basis.upper()}, factor set {result.factor_set.name}); {result.caution}")
+    typer.echo(f"wrote {output}: {headline_figure(result, audited.metered_year, periods)} ({result.gwp_basis.upper()}, factor set {result.factor_set.name}); {result.caution}")
     if spread is not None:
         typer.echo(f"Uncertainty sheet: {spread.draws:,} draws, seed {spread.seed}: mean {spread.total.mean:,.4g}, p5 {spread.total.p5:,.4g}, p95 {spread.total.p95:,.4g} {spread.unit}")
     if csv_path is not None:

@@ -14,6 +14,7 @@ from .uncertainty_output import rows_to_csv
 def sensitivity_csv(result: Sensitivity) -> str:
     rows = [("sobol", item.input, key, getattr(item, key)) for item in result.sobol for key in ("first_order", "first_order_confidence", "total_order", "total_order_confidence")]
     rows += [("tornado", bar.input, key, getattr(bar, key)) for bar in result.tornado for key in ("low_input", "high_input", "at_low", "at_high", "swing")]
+    rows += swing_rows(result)
     rows += [
         ("run", "figure", "", result.figure),
         ("run", "unit", "", result.unit),
@@ -23,6 +24,55 @@ def sensitivity_csv(result: Sensitivity) -> str:
         ("run", "evaluations", "", result.evaluations),
     ]
     return rows_to_csv(("section", "input", "statistic", "value"), rows)
+
+
+def swing_rows(result: Sensitivity) -> list[tuple]:
+    """(section, input, statistic, value) rows of the swing: each figure at -x % and +x % and its change."""
+    if result.swing is None:
+        return []
+    swing = result.swing
+    x = f"{swing.percent:g} %"
+    rows = [("swing", bar.input, "value", bar.value) for bar in swing.bars]
+    for bar in swing.bars:
+        for f in bar.figures:
+            rows += [
+                ("swing", bar.input, f"{f.figure} at -{x}", "" if f.at_minus is None else f.at_minus),
+                ("swing", bar.input, f"{f.figure} at +{x}", "" if f.at_plus is None else f.at_plus),
+                ("swing", bar.input, f"{f.figure} change at -{x}", "" if f.change_minus is None else f.change_minus),
+                ("swing", bar.input, f"{f.figure} change at +{x}", "" if f.change_plus is None else f.change_plus),
+            ]
+    rows += [("swing", "project value", figure, value) for figure, value in swing.base.items()]
+    rows += [("swing", name, "moves no figure", "") for name in swing.unmoved]
+    rows += [("swing", name, "held fixed", "") for name in swing.held_fixed]
+    return rows
+
+
+def _change(value: float | None) -> str:
+    return "breaks a limit" if value is None else ("0" if value == 0 else f"{value:+.4g}")
+
+
+def swing_table(result: Sensitivity, console) -> None:
+    """The swing: for each input (largest change of the total first), each figure at -x % and +x % and the change."""
+    from rich.table import Table
+
+    swing = result.swing
+    if swing is None:
+        return
+    x = f"{swing.percent:g} %"
+    table = Table(title=f"Swing: each input alone at -{x} and +{x} of its own value, the others as the project states", title_justify="left")
+    for column in ("input (its value)", "figure", f"at -{x}", f"at +{x}", "change"):
+        table.add_column(column, justify="left" if column in ("input (its value)", "figure") else "right", overflow="fold")
+    console.print("Every input as stated: " + "; ".join(f"{figure} {display_number(value)} {swing.units[figure]}" for figure, value in swing.base.items()))
+    for bar in swing.bars:
+        for number, f in enumerate(bar.figures):
+            name = f"{bar.input} ({display_number(bar.value)} {bar.unit})" if number == 0 else ""
+            shown = [_change(None) if v is None else display_number(v) for v in (f.at_minus, f.at_plus)]
+            table.add_row(name, f"{f.figure} ({f.unit})", *shown, f"{_change(f.change_minus)} / {_change(f.change_plus)}", end_section=number == len(bar.figures) - 1)
+    console.print(table)
+    if swing.unmoved:
+        console.print(f"Moving these changes no figure: {', '.join(swing.unmoved)}")
+    if swing.held_fixed:
+        console.print(f"Held fixed (characterisation factors and physical properties): {', '.join(swing.held_fixed)}")
 
 
 def sensitivity_table(result: Sensitivity) -> str:
@@ -47,6 +97,7 @@ def sensitivity_table(result: Sensitivity) -> str:
         shown = [bar.low_input if isinstance(bar.low_input, str) else display_number(bar.low_input), bar.high_input if isinstance(bar.high_input, str) else display_number(bar.high_input)]
         tornado.add_row(bar.input, *shown, display_number(bar.at_low), display_number(bar.at_high), display_number(bar.swing))
     console.print(tornado)
+    swing_table(result, console)
     console.print(f"Caution: {result.caution}")
     return console.export_text()
 

@@ -31,6 +31,7 @@ def uncertainty_rows(result: UncertaintyResult) -> list[tuple]:
         ("run", "draws_breaking_limits", "", result.draws_breaking_limits, ""),
     ]
     rows += [("limit_break", item.field, item.expected, item.draws, "draws") for item in result.limit_breaks]
+    rows += input_rows(result)
 
     def add(section: str, key: str, summary, unit: str) -> None:
         if summary is not None:
@@ -56,6 +57,32 @@ def uncertainty_rows(result: UncertaintyResult) -> list[tuple]:
     return rows
 
 
+def input_rows(result: UncertaintyResult) -> list[tuple]:
+    """(section, key, statistic, value, unit) rows of the uncertain inputs: each distribution's figures and,
+    for a default, why the input got it (its row's pedigree scores, or its source grade) and where."""
+    rows: list[tuple] = []
+    for item in result.inputs:
+        rows += [("input", item.input, key, display_spec(value), "") for key, value in item.distribution.items() if value is not None]
+        if item.default:
+            rows += [("input", item.input, "default", item.default, ""), ("input", item.input, "stated_in", item.stated_in, "")]
+    if result.default_basis:
+        rows.append(("run", "default_distributions", "", result.default_basis, ""))
+    return rows
+
+
+def input_cell(item) -> str:
+    """An input's distribution in words: kind, figures, and a mark for a default (footnotes below the table)."""
+    spec = dict(item.distribution)
+    kind = spec.pop("distribution")
+    spec.pop("from_memory", None)
+    if item.default:
+        spec.pop("median", None)  # the factor's own value
+        where = f" [{item.default.split(' (')[0]}] †"
+    else:
+        where = f" (scores in {item.stated_in})" if item.stated_in else ""
+    return f"{kind} " + ", ".join(f"{k} {display_spec(v)}" for k, v in spec.items() if v is not None) + where + (" *" if item.from_memory else "")
+
+
 def rows_to_csv(header: tuple, rows: list[tuple]) -> str:
     """CSV through the one writer of every command: formula-looking text escaped, a caution row last."""
     return csv_text(header, rows, caution=CAUTION)
@@ -78,10 +105,8 @@ def display_spec(value) -> str:
     return str(value)
 
 
-def uncertainty_table(result: UncertaintyResult) -> str:
-    from rich.table import Table
-
-    console = console_for_text()
+def print_run(result: UncertaintyResult, console) -> None:
+    """The project, the run's settings and the draws left out for breaking a physical limit."""
     console.print(f"{result.project}  ({result.boundary}; {result.functional_unit})")
     console.print(
         f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
@@ -91,20 +116,36 @@ def uncertainty_table(result: UncertaintyResult) -> str:
         console.print(f"{result.draws_breaking_limits:,} draws break a physical limit and are left out (not clipped); statistics over {result.draws_used:,} draws:")
         for item in result.limit_breaks:
             console.print(f"  {item.field}: expected {item.expected}: {item.draws:,} draws")
+
+
+def print_inputs(result: UncertaintyResult, console) -> None:
+    """The uncertain inputs, the notes on defaults and from-memory values, and the rank correlations."""
+    from rich.table import Table
+
     inputs = Table(title="Uncertain inputs", title_justify="left")
     inputs.add_column("input")
     inputs.add_column("distribution")
     for item in result.inputs:
-        spec = dict(item.distribution)
-        kind = spec.pop("distribution")
-        spec.pop("from_memory", None)
-        where = f" (scores in {item.stated_in})" if item.stated_in else ""
-        inputs.add_row(item.input, f"{kind} " + ", ".join(f"{k} {display_spec(v)}" for k, v in spec.items() if v is not None) + where + (" *" if item.from_memory else ""))
+        inputs.add_row(item.input, input_cell(item))
     console.print(inputs)
+    defaults = [item for item in result.inputs if item.default]
+    if defaults:
+        folders = sorted({item.stated_in for item in defaults if item.stated_in})
+        console.print(f"† default distribution (no distribution stated for it): a lognormal around the factor row's own value ({', '.join(folders)})")
+    if result.default_basis:
+        console.print(f"  the source grade -> pedigree scores mapping: {result.default_basis}; factors/uncertainty/grade_defaults.toml")
     if any(item.from_memory for item in result.inputs):
         console.print("* pedigree variances recorded from memory of Weidema et al. (2013), ecoinvent Report 1 (v3); not yet checked against the report")
     for pair in result.correlations:
         console.print(f"rank correlation {pair['rank']:g}: {' and '.join(pair['inputs'])}")
+
+
+def uncertainty_table(result: UncertaintyResult) -> str:
+    from rich.table import Table
+
+    console = console_for_text()
+    print_run(result, console)
+    print_inputs(result, console)
     figures = Table(title="Result over the draws", title_justify="left")
     for column in ("figure", "mean", "std", "p5", "p50", "p95", "unit"):
         figures.add_column(column, justify="left" if column in ("figure", "unit") else "right")

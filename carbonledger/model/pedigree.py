@@ -17,6 +17,12 @@ References
    database version 3. Ecoinvent Report 1 (v3). St. Gallen: The ecoinvent Centre.
 .. [2] Ciroth, A., Muller, S., Weidema, B. and Lesage, P. (2016). Empirically based uncertainty
    factors for the pedigree matrix in ecoinvent. Int. J. Life Cycle Assess. 21(9), 1338-1348.
+.. [3] Weidema, B. P. and Wesnaes, M. S. (1996). Data quality management for life cycle inventories
+   - an example of using data quality indicators. J. Cleaner Prod. 4(3-4), 167-174.
+
+A run that states no distribution at all gives each factor row it reads the scores of its source
+grade (``factors/uncertainty/grade_defaults.toml``, ``grade_defaults``): that mapping is this
+project's assumption (common practice), not a published table, and every output names it.
 """
 
 from __future__ import annotations
@@ -29,6 +35,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..errors import InputError
+from .grades import Grade
 
 INDICATORS = ("reliability", "completeness", "temporal_correlation", "geographical_correlation", "further_technological_correlation")
 EXPECTED_SCORES = "five pedigree scores, each a whole number 1 to 5 (reliability, completeness, temporal, geographical, further technological correlation)"
@@ -126,4 +133,56 @@ def pedigree_gsd(scores: tuple[int, ...], table: PedigreeTable, basic_gsd: float
     return math.exp(math.sqrt(math.log(basic_gsd) ** 2 + pedigree_variance(scores, table)))
 
 
-__all__ = ["INDICATORS", "PedigreeTable", "pedigree_table", "parse_scores", "pedigree_variance", "pedigree_gsd"]
+@dataclass(frozen=True)
+class GradeDefaults:
+    """Default pedigree scores and basic uncertainty per source grade (this project's assumption)."""
+
+    scores: dict[str, tuple[int, ...]]  # grade -> five scores
+    basic_gsd: dict[str, float]  # grade -> basic uncertainty (GSD >= 1)
+    held_fixed: tuple[str, ...]  # factor ids, or their start before a dot, never drawn (characterisation factors, physical properties)
+    basis: str  # what the mapping is and rests on (named in every output)
+    from_memory: bool
+
+    def applies_to(self, factor_id: str) -> bool:
+        return not any(factor_id == held or factor_id.startswith(held + ".") for held in self.held_fixed)
+
+
+def grade_defaults(library: str | Path) -> GradeDefaults:
+    """The grade -> pedigree mapping of ``uncertainty/grade_defaults.toml`` in a factor library folder."""
+    return _read_grade_defaults(str(Path(library) / "uncertainty" / "grade_defaults.toml"))
+
+
+def _grade_entry(path: Path, grades: dict, grade: Grade) -> tuple[tuple[int, ...], float]:
+    entry = grades.get(grade.value)
+    if not isinstance(entry, dict):
+        raise InputError(path, f"grades.{grade.value}", "a table with the five pedigree scores of the grade")
+    scores = parse_scores(entry.get("scores"), str(path), f"grades.{grade.value}.scores")
+    basic = entry.get("basic_gsd", 1.0)
+    if isinstance(basic, bool) or not isinstance(basic, (int, float)) or not (math.isfinite(basic) and basic >= 1):
+        raise InputError(path, f"grades.{grade.value}.basic_gsd", f"a geometric standard deviation >= 1, got {basic!r}")
+    return scores, float(basic)
+
+
+@functools.cache
+def _read_grade_defaults(name: str) -> GradeDefaults:
+    path = Path(name)
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except OSError as error:
+        raise InputError(path, "", f"the grade defaults of the factor library ({error.strerror})") from None
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(path, "", f"valid TOML ({error})") from None
+    entries = {grade.value: _grade_entry(path, data.get("grades", {}), grade) for grade in Grade}
+    held = data.get("held_fixed", [])
+    if not isinstance(held, list) or not all(isinstance(item, str) for item in held):
+        raise InputError(path, "held_fixed", "a list of factor ids or their starts, e.g. [\"gwp\"]")
+    return GradeDefaults(
+        scores={grade: entry[0] for grade, entry in entries.items()},
+        basic_gsd={grade: entry[1] for grade, entry in entries.items()},
+        held_fixed=tuple(held),
+        basis=str(data.get("basis", "")),
+        from_memory=bool(data.get("from_memory", True)),
+    )
+
+
+__all__ = ["INDICATORS", "PedigreeTable", "pedigree_table", "parse_scores", "pedigree_variance", "pedigree_gsd", "GradeDefaults", "grade_defaults"]

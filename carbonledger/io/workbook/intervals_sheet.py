@@ -37,6 +37,17 @@ from .style import SHARE, header_row, page_setup, style_cell
 
 SUMMARY_TOP = 4
 INTERVAL_HEADER_ROW = 3
+# the headers of the series' own columns on the Intervals sheet, and the CSV column each one is read back as
+SERIES_HEADERS = {
+    "timestamp": ("interval start (local, with UTC offset)", "timestamp"),
+    "load": ("electricity use (kWh)", "electrolyser [kWh]"),
+    "hydrogen": ("hydrogen (kg), from the series", "hydrogen [kg]"),
+    "grid": ("grid intensity (g CO2e/kWh)", "grid_intensity [g CO2e/kWh]"),
+}
+
+
+def generation_header(source: str) -> str:
+    return f"generation, {source} (kWh)"
 
 
 def _stamp(local, offset: int) -> str:
@@ -85,16 +96,16 @@ def _interval_columns(series, groups) -> tuple[dict, list[str], dict, list]:
     """The Intervals sheet's columns: (column of each quantity, headers, the eligible generation column of
     each set of sources, and per matching group (eligible, labels, period sizes, its columns))."""
     column = {"timestamp": 1, "load": 2}
-    headers = ["interval start (local, with UTC offset)", "electricity use (kWh)"]
+    headers = [SERIES_HEADERS["timestamp"][0], SERIES_HEADERS["load"][0]]
     if series.load_kwh is None:
         column["hydrogen"] = 3
-        headers.append("hydrogen (kg), from the series")
+        headers.append(SERIES_HEADERS["hydrogen"][0])
     for name in series.generation_kwh:
         column[f"generation:{name}"] = len(headers) + 1
-        headers.append(f"generation, {name} (kWh)")
+        headers.append(generation_header(name))
     if series.grid_g_co2e_per_kwh is not None:
         column["grid"] = len(headers) + 1
-        headers.append("grid intensity (g CO2e/kWh)")
+        headers.append(SERIES_HEADERS["grid"][0])
     generation_column: dict[tuple[str, ...], int] = {}  # one column per distinct set of eligible sources
     for eligible, _, _ in groups:
         if len(eligible) == 1:

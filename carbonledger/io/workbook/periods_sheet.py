@@ -13,7 +13,7 @@ import dataclasses
 from dataclasses import dataclass
 from typing import Any
 
-from ...analyses.periods import CANONICAL, NM3_FACTOR, Meters, scaled_parameters
+from ...analyses.periods import CANONICAL, NM3_FACTOR, Meters, metered_year, output_quantity, scaled_parameters
 from ...core.inventory import build_inventory
 from ...core.scoring import intensities
 from ...model.statuses import Status
@@ -50,10 +50,6 @@ def plan_periods(meters: Meters, params: dict, model, factor_set, engine: list |
     if any(column.by_volume for column in meters.columns):
         nm3 = model.inputs.factor(NM3_FACTOR, "MJ/m3", "--periods natural_gas [Nm3]")
     return PeriodPlan(meters, nm3, engine or [None] * len(meters.months))
-
-
-def _output_quantity(product: str) -> str:
-    return "ammonia" if product == "ammonia" else "hydrogen"
 
 
 @dataclass
@@ -189,8 +185,9 @@ def _write_month_summary_row(ws, srow: int, month: str, figures: _MonthFigures, 
         put_value(ws, srow, column + 2, engine_checks[scheme.id].value if scheme.id in engine_checks else None)
 
 
-def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, check_column: int, results_cells, address: dict, year_format: str = "General") -> None:
-    """All months, output-weighted: sums of output and emissions, and the weighted stages and scheme values."""
+def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, check_column: int, results_cells, address: dict, engine_year: float | None = None) -> None:
+    """All months, output-weighted: sums of output and emissions, and the weighted stages and scheme values;
+    the engine's metered year beside the year's figure, both formatted as numbers."""
     from openpyxl.utils import get_column_letter
 
     last = year_row - 1
@@ -199,7 +196,9 @@ def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, che
     put_formula(ws, year_row, 2, Term(f"SUM(B{first_month_row}:B{last})"), address)
     put_formula(ws, year_row, 4, Term(f"SUM(D{first_month_row}:D{last})"), address)
     put_formula(ws, year_row, 3, Term(f"IF(B{year_row}=0,0,D{year_row}/B{year_row})"), address)
-    ws.cell(row=year_row, column=3).number_format = year_format  # the year's figure, never 17 digits
+    put_value(ws, year_row, 5, engine_year)
+    for column in (3, 5):
+        ws.cell(row=year_row, column=column).number_format = number_format(engine_year)  # the year's figure, never 17 digits
     for position in range(len(stages)):
         letter = get_column_letter(6 + position)
         weighted = sum_of(local(letter, r) * local("B", r) for r in range(first_month_row, last + 1))
@@ -241,15 +240,15 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
         ws.cell(row=top, column=1).font = font_bold()
         writer = _Writer(ws, address, top + 1)
         converted = _write_meters(writer, plan, meters.values[number])
-        figures = _write_month_figures(writer, converted, params, product, meters.column(_output_quantity(product)), gas_paths, design_supply, unit)
+        figures = _write_month_figures(writer, converted, params, product, meters.column(output_quantity(product)), gas_paths, design_supply, unit)
         symbolic = _month_parameters(params, input_cell, figures, gas_paths, electricity_paths)
         month_model = dataclasses.replace(model, inventory=build_inventory(symbolic, model.inputs))
         block = write_calculation_block(ws, month_model, list(chosen), address, top=figures.last_row + 2, title=f"Calculation for {month}")
         biosphere = _fill_from_block(ws, block, figures, design_amount, address)
         _write_month_summary_row(ws, first_month_row + number, month, figures, plan.engine[number], block, month_model, model, stages, chosen, check_column, results_cells, address, biosphere)
         top = block.end_row + 3
-    figures = [engine.total for engine in plan.engine if engine is not None]
-    _write_year_row(ws, year_row, first_month_row, stages, chosen, check_column, results_cells, address, number_format(sum(figures) / len(figures) if figures else None))
+    engine_year = metered_year(meters, product, plan.engine) if all(engine is not None for engine in plan.engine) else None
+    _write_year_row(ws, year_row, first_month_row, stages, chosen, check_column, results_cells, address, engine_year)
     set_widths(ws, {"A": 60, "B": 16, "C": 18, "D": 20, "E": 18})
 
 

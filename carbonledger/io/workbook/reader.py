@@ -10,6 +10,7 @@ Entry points for the library and the command line:
 
 - ``load_project_from_workbook(path, overrides)`` -> (Project, sha256 of the file, settings)
 - ``factor_set_from_workbook(path, base)`` -> the base set with the workbook's edited rows layered on
+- ``series_from_workbook(path, project)`` -> the electricity time series of its Intervals sheet (or None)
 - ``score_workbook(path, ...)`` -> ScoreResult, with the settings recorded on the cover as defaults
 """
 
@@ -21,6 +22,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from ...analyses.electricity_series import ElectricitySeries, parse_series
 from ...errors import InputError
 from ...model.factors import CITED_FIELDS, DEFAULT_SET, Factor, FactorSet, check_factor_value, load_factor_set
 from ...model.grades import Grade, parse_grade
@@ -28,6 +30,7 @@ from ...model.input_files import check_input_file
 from ...model.project import apply_overrides, parameter_table, parse_override
 from ...model.reference import molar_mass_g_per_mol
 from ...routes.project import validate_project
+from .intervals_sheet import INTERVAL_HEADER_ROW, SERIES_HEADERS, generation_header
 from .layout import (
     COVER,
     COVER_LABELS,
@@ -37,6 +40,7 @@ from .layout import (
     INPUT_COLUMNS,
     INPUT_HEADER_ROW,
     INPUTS,
+    INTERVALS,
     LEGACY_GRADE_TITLE,
     is_number,
     text_from_cell,
@@ -77,14 +81,14 @@ def check_size(path: Path) -> None:
         raise InputError(path, "", f"an audit workbook that unpacks to at most {MAX_UNPACKED_BYTES // 2**20} MB, got {unpacked / 2**20:.0f} MB")
 
 
-def _open(path: Path, data_only: bool = False):
+def _open(path: Path, data_only: bool = False, read_only: bool = False):
     from openpyxl import load_workbook
 
     if Path(path).exists():
         check_input_file(path, "audit workbook")
     check_size(path)
     try:
-        return load_workbook(path, data_only=data_only)
+        return load_workbook(path, data_only=data_only, read_only=read_only)
     except FileNotFoundError:
         raise InputError(path, "", "an existing audit workbook (.xlsx written by `carbonledger workbook`)") from None
     except Exception as error:  # openpyxl raises zipfile, KeyError, InvalidFileException...
@@ -304,3 +308,43 @@ def base_factor_set(settings: WorkbookSettings, factors: str | None):
         return load_factor_set(settings.factors_option)
     except InputError:
         return load_factor_set(DEFAULT_SET)
+
+
+def _series_columns(headers: list, project, where: str) -> dict[int, str]:
+    """Column number on the Intervals sheet -> the CSV column it is read back as (the series' own
+    columns: time, use or hydrogen, each source's generation, the grid intensity; formulas are left)."""
+    wanted = {label: csv_header for label, csv_header in SERIES_HEADERS.values()}
+    wanted |= {generation_header(name): f"generation.{name} [kWh]" for name in project.electricity.sources}
+    if SERIES_HEADERS["hydrogen"][0] in headers:
+        del wanted[SERIES_HEADERS["load"][0]]  # the use is then a formula: hydrogen x electricity per kg H2
+    found = {number: wanted[str(text)] for number, text in enumerate(headers) if str(text) in wanted}
+    if SERIES_HEADERS["timestamp"][1] not in found.values():
+        raise InputError(where, f"row {INTERVAL_HEADER_ROW}", f"the header '{SERIES_HEADERS['timestamp'][0]}' of an audit workbook's Intervals sheet")
+    return found
+
+
+def series_from_workbook(path: str | Path, project) -> ElectricitySeries | None:
+    """The electricity time series written on a workbook's Intervals sheet (None without the sheet),
+    validated as a time series CSV is, so that a workbook written from it keeps its Intervals sheet."""
+    path = Path(path)
+    workbook = _open(path, read_only=True)  # streamed: a year of 15-minute rows reads in seconds
+    try:
+        if INTERVALS not in workbook.sheetnames:
+            return None
+        where = f"{path} (sheet {INTERVALS})"
+        rows = workbook[INTERVALS].iter_rows(min_row=INTERVAL_HEADER_ROW, values_only=True)
+        columns = _series_columns(list(next(rows, ())), project, where)
+        lines = [",".join(columns.values())]
+        for row in rows:
+            if row and row[0] not in (None, ""):
+                lines.append(",".join(_csv_cell(row[number] if number < len(row) else None) for number in columns))
+    finally:
+        workbook.close()
+    series = parse_series("\n".join(lines).encode("utf-8"), where, project)
+    series.path = where
+    return series
+
+
+def _csv_cell(value) -> str:
+    """A cell as CSV text that reads back to the same number (repr of a float round-trips exactly)."""
+    return "" if value is None else repr(value) if isinstance(value, float) else str(value)

@@ -48,6 +48,34 @@ def _spec_text(spec: dict) -> str:
     return "; ".join(parts)
 
 
+def _write_inputs(ws, row: int, result: UncertaintyResult) -> int:
+    """The uncertain inputs, where each was stated (or why it got a default), correlations; returns the next row."""
+    row += 1
+    style_cell(put_text(ws, row, 1, "Uncertain inputs"), "title")
+    row += 1
+    for column, title in enumerate(("input", "distribution", "its parameters", "stated in", "from memory"), start=1):
+        put_text(ws, row, column, title)
+    header_row(ws, row, 5)
+    row += 1
+    for item in result.inputs:
+        put_text(ws, row, 1, item.input)
+        put_text(ws, row, 2, item.distribution.get("distribution"))
+        put_text(ws, row, 3, _spec_text(item.distribution))
+        stated = f"{item.stated_in}: {item.default}" if item.default else item.stated_in
+        put_text(ws, row, 4, stated or "the run's distributions (project [uncertainty] table or --distributions file)")
+        put_text(ws, row, 5, "yes: pedigree variances from memory of Weidema et al. (2013), ecoinvent Report 1 (v3)" if item.from_memory else "no")
+        row += 1
+    if result.default_basis:
+        put_text(ws, row, 1, f"Default distributions from the factor rows' source grades: {result.default_basis}")
+        row += 1
+    for pair in result.correlations:
+        put_text(ws, row, 1, "rank correlation")
+        put_text(ws, row, 2, f"{pair['rank']:g}")
+        put_text(ws, row, 3, " and ".join(pair["inputs"]))
+        row += 1
+    return row
+
+
 def write_uncertainty_sheet(ws, result: UncertaintyResult, draws_csv: str = "") -> None:
     """Fill ``ws`` with the distributions and the summary of ``result`` (values, not formulas)."""
     style_cell(put_text(ws, 1, 1, f"Uncertainty: Monte Carlo of {result.project}"), "title")
@@ -74,26 +102,7 @@ def write_uncertainty_sheet(ws, result: UncertaintyResult, draws_csv: str = "") 
         put_text(ws, row, 2, f"expected {item.expected}: {item.draws:,} draws")
         row += 1
 
-    row += 1
-    style_cell(put_text(ws, row, 1, "Uncertain inputs"), "title")
-    row += 1
-    for column, title in enumerate(("input", "distribution", "its parameters", "stated in", "from memory"), start=1):
-        put_text(ws, row, column, title)
-    header_row(ws, row, 5)
-    row += 1
-    for item in result.inputs:
-        put_text(ws, row, 1, item.input)
-        put_text(ws, row, 2, item.distribution.get("distribution"))
-        put_text(ws, row, 3, _spec_text(item.distribution))
-        put_text(ws, row, 4, item.stated_in or "the run's distributions (project [uncertainty] table or --distributions file)")
-        put_text(ws, row, 5, "yes: pedigree variances from memory of Weidema et al. (2013), ecoinvent Report 1 (v3)" if item.from_memory else "no")
-        row += 1
-    for pair in result.correlations:
-        put_text(ws, row, 1, "rank correlation")
-        put_text(ws, row, 2, f"{pair['rank']:g}")
-        put_text(ws, row, 3, " and ".join(pair["inputs"]))
-        row += 1
-
+    row = _write_inputs(ws, row, result)
     row += 1
     style_cell(put_text(ws, row, 1, "Result over the draws"), "title")
     row += 1
