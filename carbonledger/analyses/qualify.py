@@ -71,10 +71,11 @@ from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
 from ..model.levers import MAX_COMBINATIONS, Lever, Levers, is_share
-from ..model.project import apply_overrides, field_limits, parameter_field, path_key
+from ..model.project import apply_overrides, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
 from ..routes.project import validate_project
 from .matching import score_with_series
+from .shares import negative_shares, rebalanced_shares, rebalancing_problem
 from .uncertainty import Draws, Plan, draw, evaluate, limit_breaks, make_plan, params_with_draws, probability, statuses
 
 SOLVER = "SLSQP (scipy.optimize.minimize)"
@@ -189,10 +190,6 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
         limits = field_limits(info)
         unit = (info.json_schema_extra or {}).get("unit", "")
         item = Resolved(index, lever, nominal, unit)
-        if is_share(lever.parameter):
-            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != lever.parameter)
-            if not others > 0:
-                raise InputError(source, _where(index, "parameter"), "a share with other sources to take up the rest (the shares always sum to 1)")
         if lever.continuous:
             if not numeric:
                 raise InputError(source, _where(index, "range"), f"values for a numeric parameter; '{lever.parameter}' is {nominal!r} (give it values)")
@@ -212,7 +209,36 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
             item.choices = [float(v) if numeric else v for v in choices]
             item.choice_costs = [_discrete_cost(lever, value, nominal, numeric, source, index) for value in item.choices]
         resolved.append(item)
+    _check_shares(project, resolved, source)
     return resolved
+
+
+def source_of(path: str) -> str:
+    """The source an electricity share path belongs to."""
+    return split_path(path)[2]
+
+
+def absorbers_of(levers: list[Resolved]) -> dict[str, str]:
+    """Share path -> the source that takes up its difference, for the share levers that name one."""
+    return {item.path: item.lever.absorbed_by for item in levers if is_share(item.path) and item.lever.absorbed_by}
+
+
+def _check_shares(project, resolved: list[Resolved], source: str) -> None:
+    """Share levers that can be rebalanced together: every absorber a source no lever moves, something
+    left to take up the rest, and no share below 0 with every share lever at its lowest value."""
+    moving = [item for item in resolved if is_share(item.path)]
+    if not moving:
+        return
+    shares = {name: s.share for name, s in project.electricity.sources.items()}
+    absorbers = {source_of(path): name for path, name in absorbers_of(moving).items()}
+    problem = rebalancing_problem(shares, [source_of(item.path) for item in moving], absorbers)
+    if problem:
+        named = next((item for item in moving if item.lever.absorbed_by), moving[0])
+        raise InputError(source, _where(named.index, "absorbed_by" if named.lever.absorbed_by else "parameter"), problem)
+    lowest = {source_of(item.path): min(item.lever.range) if item.continuous else min(item.choices) for item in moving}
+    below = [name for name, negative in negative_shares(rebalanced_shares(shares, lowest, absorbers)).items() if negative]
+    if below:
+        raise InputError(source, "levers", f"electricity share levers whose shares can be rebalanced: at their lowest values ({', '.join(f'{name} {value:g}' for name, value in lowest.items())}) {', '.join(below)} would fall below 0")
 
 
 def _discrete_cost(lever: Lever, value, nominal, numeric: bool, source: str, index: int) -> float:
@@ -275,9 +301,14 @@ class Evaluator:
         self.plan, self.schemes, self.paths, self.nominal = plan, schemes, paths, nominal
         self.drawn, self.confidence = drawn, confidence
         self.reference, self.fixed = reference or {}, fixed or {}
+        self.shares = {path: value for path, value in self.fixed.items() if is_share(path)}  # set with the continuous levers, rebalanced together
         self.size = 1 if drawn is None else len(drawn.uniform)
         self.calls = 0
         self.blocked = self._blocked()
+
+    def central(self) -> Evaluator:
+        """The same candidates at the central value (no draws)."""
+        return Evaluator(self.plan, self.schemes, self.paths, self.nominal, None, None, self.reference, self.fixed)
 
     def _blocked(self) -> dict[str, str]:
         """Schemes whose rules (read before the threshold) keep them from qualifying at any value: id -> status."""
@@ -293,7 +324,8 @@ class Evaluator:
         """The inputs of every candidate point: the lever values, and (with draws) every draw, or the draws in ``rows``."""
         count = len(points)
         if central or self.drawn is None:
-            return Draws([], np.zeros((count, 0)), {path: points[:, n].astype(float) for n, path in enumerate(self.paths)}, {}, {})
+            fixed_shares = {path: np.full(count, value) for path, value in self.shares.items()}
+            return Draws([], np.zeros((count, 0)), {**fixed_shares, **{path: points[:, n].astype(float) for n, path in enumerate(self.paths)}}, {}, {})
         pick = slice(None) if rows is None else rows
         size = self.size if rows is None else len(rows)
         drawn = self.drawn
@@ -301,6 +333,8 @@ class Evaluator:
         for path, value in self.fixed.items():
             if path in parameters:
                 parameters[path] = moved(parameters[path], value, self.reference[path])
+            elif path in self.shares:
+                parameters[path] = np.full(count * size, value)
         for n, path in enumerate(self.paths):
             chosen = np.repeat(points[:, n].astype(float), size)
             parameters[path] = moved(parameters[path], chosen, self.reference[path]) if path in parameters else chosen
@@ -424,10 +458,11 @@ class Found:
 class Continuous:
     """The continuous part of one combination: levers scaled to [0, 1], costs as epigraphs."""
 
-    def __init__(self, evaluator: Evaluator, levers: list[Resolved], pieces: list[Piece]):
+    def __init__(self, evaluator: Evaluator, levers: list[Resolved], pieces: list[Piece], shares: tuple[np.ndarray, np.ndarray] | None = None):
         self.evaluator, self.levers, self.pieces = evaluator, levers, pieces
         self.low = np.array([piece.low for piece in pieces])
         self.width = np.array([piece.high - piece.low for piece in pieces])
+        self.shares = shares  # (A, b): the rebalanced shares A x + b, kept >= 0
         self.scale = max(1.0, sum(max(abs(piece.cost(piece.low)), abs(piece.cost(piece.high))) for piece in pieces))
         self.cache: dict[tuple, np.ndarray] = {}
         self.n = len(pieces)
@@ -471,6 +506,15 @@ class Continuous:
         matrix, offset = np.array(rows), np.array(offsets)
         return matrix, offset
 
+    def share_constraints(self, size: int) -> list[dict]:
+        """Every rebalanced share >= 0, linear in the scaled levers (the first n of ``size`` variables)."""
+        if self.shares is None:
+            return []
+        matrix, offset = self.shares
+        scaled = np.hstack([matrix * self.width[None, :], np.zeros((len(matrix), size - self.n))])
+        shift = matrix @ self.low + offset
+        return [{"type": "ineq", "fun": lambda v: scaled @ v + shift, "jac": lambda v: scaled}]
+
     def least_cost(self, start: np.ndarray, margin: float = MARGIN_TOLERANCE):
         """Minimise the cost subject to every margin >= ``margin``; returns (z, scipy result)."""
         from scipy.optimize import minimize
@@ -482,6 +526,7 @@ class Continuous:
         constraints = [
             {"type": "ineq", "fun": lambda v: matrix @ v + offset, "jac": lambda v: matrix},
             {"type": "ineq", "fun": lambda v: self.g(v[:n]) - margin, "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n))])},
+            *self.share_constraints(2 * n),
         ]
         result = minimize(
             lambda v: float(v[n:].sum()), np.concatenate([start, t0]), jac=lambda v: np.concatenate([np.zeros(n), np.ones(n)]),
@@ -505,6 +550,7 @@ class Continuous:
                 "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n)), -np.ones((len(self.g(v[:n])), 1))]),
             },
         ]
+        constraints += self.share_constraints(2 * n + 1)
         if budget is not None:
             constraints.append({"type": "ineq", "fun": lambda v: budget / self.scale - v[n : 2 * n].sum(), "jac": lambda v: np.concatenate([np.zeros(n), -np.ones(n), [0.0]])})
         span = [(-1e6, 1e6)] * n
@@ -585,12 +631,15 @@ class Search:
         return sorted(found, key=Combination.lower_bound)
 
     def lever_plan(self, project) -> Plan:
-        """A plan of the project for the continuous levers (their fields), holding the year, series and schemes."""
-        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.continuous}
-        return Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
+        """A plan of the project for the continuous levers and the share levers (their fields), holding the
+        year, series, schemes and the sources that take up the shares' differences."""
+        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.levers if lever.continuous or is_share(lever.path)}
+        plan = Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
+        plan.absorbers = absorbers_of(self.levers)
+        return plan
 
     def with_values(self, values: dict[str, Any]):
-        """The validated project with lever values set (a share lever rebalances the other sources in proportion)."""
+        """The validated project with lever values set (the share levers rebalanced together, ``analyses.shares``)."""
         base = self.project
         plan = self.lever_plan(base)
         plan.fields = {path: parameter_field(base, path, self.source) for path in values}
@@ -609,7 +658,10 @@ class Search:
         return self.evaluators[key]
 
     def _evaluator(self, combination: Combination) -> Evaluator:
-        project = self.with_values(combination.discrete) if combination.discrete else self.project
+        """Discrete values set in the project, but shares: those are set with the continuous levers' on every
+        candidate, so that all share levers are rebalanced together against the project as written."""
+        settled = {path: value for path, value in combination.discrete.items() if not is_share(path)}
+        project = self.with_values(settled) if settled else self.project
         plan = self.lever_plan(project)
         drawn = None
         if self.confidence is not None:
@@ -627,6 +679,24 @@ class Search:
             self.drawn = (draw(plan, self.draws, self.seed, self.sampling), list(plan.uncertainty.parameters))
         return self.drawn
 
+    def share_rows(self, combination: Combination) -> tuple[np.ndarray, np.ndarray] | None:
+        """(A, b): every source's rebalanced share as A x + b in the continuous levers' values x, with the
+        combination's discrete shares set (affine: read at x = 0 and at each unit vector)."""
+        paths = [lever.path for lever in self.continuous]
+        if not any(is_share(path) for path in paths):
+            return None
+        shares = {name: s.share for name, s in self.project.electricity.sources.items()}
+        fixed = {source_of(path): float(value) for path, value in combination.discrete.items() if is_share(path)}
+        absorbers = {source_of(path): name for path, name in absorbers_of(self.levers).items()}
+
+        def at(x: np.ndarray) -> np.ndarray:
+            moved = {**fixed, **{source_of(path): x[j] for j, path in enumerate(paths) if is_share(path)}}
+            return np.array(list(rebalanced_shares(shares, moved, absorbers).values()), dtype=float)
+
+        offset = at(np.zeros(len(paths)))
+        matrix = np.column_stack([at(row) - offset for row in np.eye(len(paths))])
+        return matrix, offset
+
     def start(self, problem: Continuous) -> np.ndarray:
         """The project's own values of the continuous levers, scaled (clipped into each piece)."""
         return problem.z_of([float(lever.project_value) for lever in self.continuous])
@@ -643,12 +713,12 @@ class Search:
             ok, p, se = evaluator.qualifies(np.zeros(0))
             margin = float(np.min(evaluator.constraint(np.zeros((1, 0)))[0]))
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se) if ok else None
-        problem = Continuous(evaluator, self.continuous, combination.pieces)
+        problem = Continuous(evaluator, self.continuous, combination.pieces, self.share_rows(combination))
         start = self.start(problem)
         iterations = 0
         central = None
         if evaluator.drawn is not None:  # start the draws' search from the answer at the central value
-            central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
+            central = Continuous(evaluator.central(), self.continuous, combination.pieces, problem.shares)
             guess, result = central.least_cost(start)
             iterations += int(result.nit)
             start = guess if np.min(central.g(guess)) >= 0 else start
@@ -687,7 +757,7 @@ class Search:
             margin = float(np.min(evaluator.constraint(np.zeros((1, 0)))[0]))
             ok, p, se = evaluator.qualifies(np.zeros(0))
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se)
-        problem = Continuous(evaluator, self.continuous, combination.pieces)
+        problem = Continuous(evaluator, self.continuous, combination.pieces, self.share_rows(combination))
         start = self.start(problem)
         if budget is not None:  # start from the cheapest point of each piece, which any budget that admits the piece affords
             start = problem.z_of([min((piece.low, piece.high, *_kinks(piece)), key=piece.cost) for piece in combination.pieces])
@@ -696,7 +766,7 @@ class Search:
         allowed = None if budget is None else budget - combination.discrete_cost
         iterations = 200
         if evaluator.drawn is not None:  # start from the central answer; a front point with draws gets FRONT_ITERATIONS
-            central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
+            central = Continuous(evaluator.central(), self.continuous, combination.pieces, problem.shares)
             start, _, result = central.best_margin(start, allowed)
             self.iterations += int(result.nit)
             iterations = FRONT_ITERATIONS if budget is not None else iterations

@@ -17,6 +17,10 @@ Its cost, in the file's ``currency`` per ``period`` (e.g. EUR per year), is one 
 - ``table``: ``[[value, cost], ...]``; between the values of a continuous lever the cost is
   interpolated linearly, and the table covers the lever's range.
 
+Electricity share levers move together: each difference from a source's share is taken up by the
+sources no lever moves, in proportion to their shares, or by the one source a lever names in
+``absorbed_by`` (``analyses.shares``).
+
 ``[sources.NAME]`` tables add electricity sources the levers may bring in; they join the project
 at share 0 (a lever on ``electricity.sources.NAME.share`` then moves them), with the same fields as
 a project's ``[electricity.sources.NAME]``.
@@ -89,7 +93,8 @@ class Lever(BaseModel):
     step: float | None = Field(None, gt=0)
     values: list[Value] | None = Field(None, min_length=1)
     cost: Cost
-    rebalance: Literal["proportional"] = "proportional"  # an electricity share: the other sources take up the rest in proportion
+    rebalance: Literal["proportional"] = "proportional"  # an electricity share: the sources no lever moves take up the rest in proportion
+    absorbed_by: str | None = Field(None, min_length=1)  # an electricity share: the one source that takes up the difference instead
     note: str = ""
 
     @field_validator("range", mode="before")
@@ -157,9 +162,9 @@ class Levers(BaseModel):
             if lever.parameter in seen:
                 raise ValueError(f"one lever per parameter, '{lever.parameter}' has two")
             seen.add(lever.parameter)
-        shares = [lever.parameter for lever in self.levers if is_share(lever.parameter)]
-        if len(shares) > 1:
-            raise ValueError(f"at most one electricity share lever (each takes its share from the others in proportion, so a second would move the first), got {', '.join(shares)}")
+        for lever in self.levers:
+            if lever.absorbed_by is not None and not is_share(lever.parameter):
+                raise ValueError(f"absorbed_by only on an electricity share lever, got it on '{lever.parameter}'")
         return self
 
     @property
