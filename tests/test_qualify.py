@@ -295,3 +295,65 @@ def test_share_levers_that_cannot_be_rebalanced_are_refused(tmp_path, body, fiel
     result = run_cli("qualify", GRID_H2, "--levers", levers, "--scheme", "japan-hydrogen")
     assert_one_line_error(result)
     assert str(levers) in result.stderr and f": {field}:" in result.stderr and words in result.stderr
+
+
+HOURLY = DEMO / "hybrid_hourly_hydrogen.toml"
+
+
+def test_an_operation_lever_alone_is_the_plan(tmp_path):
+    # Check: with the operation as the only lever, qualify's answer is the operating plan that
+    # `carbonledger plan` gives for the same scheme (same status, same hydrogen to the solver's
+    # tolerance), and its cost is, by hand, the price per kg times the hydrogen the plan gives up
+    # against running at rated power in every interval (8,760 h at 20 MW / 55.5 kWh/kg, invented demo).
+    levers = levers_file(tmp_path, 'schemes = ["uk-lchs"]\n[[levers]]\nkind = "operation"\ncost = { per_unit = 5.0 }\n')
+    found = api.qualify(HOURLY, levers, budgets=0)
+    planned, _ = api.plan(HOURLY, scheme="uk-lchs")
+    assert planned.status == "qualifies" and found.status == "qualifies"
+    assert found.checks[0].status == planned.status
+    assert found.operation["hydrogen_kg"] == pytest.approx(planned.hydrogen_kg.sum(), rel=1e-7)  # HiGHS primal feasibility tolerance 1e-7
+    assert found.operation["baseline_hydrogen_kg"] == pytest.approx(8760 * 20_000 / 55.5, rel=1e-12)
+    assert found.total_cost == pytest.approx(5.0 * (8760 * 20_000 / 55.5 - planned.hydrogen_kg.sum()), rel=1e-7)
+    assert found.checks[0].value == pytest.approx(planned.value, rel=1e-9)  # scored back with the plan's load as the series
+    assert "HiGHS" in found.solver["operation"] and found.operation["primal_feasibility_tolerance"] == 1e-7
+
+
+def test_an_operation_lever_needs_a_time_series(tmp_path):
+    levers = levers_file(tmp_path, 'schemes = ["japan-hydrogen"]\n[[levers]]\nkind = "operation"\ncost = { per_unit = 5.0 }\n')
+    result = run_cli("qualify", GRID_H2, "--levers", levers)
+    assert_one_line_error(result)
+    assert str(levers) in result.stderr and ": levers.0.kind:" in result.stderr and "time series" in result.stderr
+
+
+@pytest.mark.parametrize(
+    ("body", "field"),
+    [
+        ('[[levers]]\nkind = "operation"\nrange = [0, 1]\ncost = { per_unit = 5.0 }\n', "levers.0"),
+        ('[[levers]]\nkind = "operation"\ncost = { table = [[0, 1]] }\n', "levers.0"),
+        ('[[levers]]\nkind = "operation"\nmin_load = 1.5\ncost = { per_unit = 5.0 }\n', "levers.0.min_load"),
+        ('[[levers]]\nparameter = "electrolysis.electricity_kwh_per_kg_h2"\nrated_kw = 100\nrange = [50, 54]\ncost = { per_unit = 5.0 }\n', "levers.0"),
+        ('[[levers]]\nkind = "operation"\ncost = { per_unit = 5.0 }\n[[levers]]\nparameter = "electrolysis.electricity_kwh_per_kg_h2"\nrange = [50, 54]\ncost = { per_unit = 5.0 }\n', "levers.1.range"),
+    ],
+)
+def test_bad_operation_levers_are_one_line(tmp_path, body, field):
+    levers = levers_file(tmp_path, 'schemes = ["uk-lchs"]\n' + body)
+    result = run_cli("qualify", HOURLY, "--levers", levers)
+    assert_one_line_error(result)
+    assert str(levers) in result.stderr and f": {field}" in result.stderr
+
+
+def test_an_operation_lever_with_a_discrete_lever_equals_brute_force():
+    # Check: the shipped demo levers (an operation priced by the margin it gives up at an invented
+    # EUR 6/kg H2, and a stack of 51 kWh/kg for an invented EUR 400,000 a year): brute force runs
+    # `carbonledger plan` on each stack with --set and adds the stack's price to the margin given up.
+    levers = DEMO / "levers" / "hybrid_hourly_hydrogen.toml"
+    brute = []
+    for kwh, price in ((54.0, 0.0), (51.0, 400_000.0)):
+        planned, _ = api.plan(HOURLY, scheme="uk-lchs", hydrogen_price=6.0, overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh}"])
+        brute.append((price + planned.baseline_margin - planned.margin, kwh, planned))
+    cost, kwh, planned = min(brute, key=lambda item: item[0])
+    found = api.qualify(HOURLY, levers, budgets=0)
+    assert found.status == "qualifies"
+    assert found.levers["electrolysis.electricity_kwh_per_kg_h2"] == kwh
+    assert found.total_cost == pytest.approx(cost, rel=1e-7)
+    assert found.operation["hydrogen_kg"] == pytest.approx(planned.hydrogen_kg.sum(), rel=1e-7)
+    assert found.operation["objective"].startswith("margin")

@@ -38,8 +38,10 @@ Method
 A lever on a parameter that has a distribution moves its draws with it: each draw is multiplied
 by (lever value / project value) (shifted by the difference when the project value is 0).
 
-Not done: the electricity operation through the plan's linear program (``analyses.plan``) is not
-a lever yet; a time series is matched as ``score`` matches it, with the declared shares.
+An operation lever (``kind = "operation"``) is not searched here: for each combination of the
+discrete levers, ``analyses.operation`` plans the electrolyser's load by the linear program of
+``analyses.plan`` (HiGHS) and prices what it gives up; the cheapest is scored back with the plan's
+load as the series (``_operation_search``).
 
 References
 ----------
@@ -59,7 +61,7 @@ from __future__ import annotations
 import copy
 import itertools
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 import numpy as np
@@ -75,6 +77,7 @@ from ..model.project import apply_overrides, field_limits, parameter_field, path
 from ..model.rulebooks import select_schemes
 from ..routes.project import validate_project
 from .matching import score_with_series
+from .operation import operation_summary, plan_operation, planned_series
 from .shares import negative_shares, rebalanced_shares, rebalancing_problem
 from .uncertainty import Draws, Plan, draw, evaluate, limit_breaks, make_plan, params_with_draws, probability, statuses
 
@@ -185,6 +188,8 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
     """Check every lever against the project (path, physical limits, cost) and price it."""
     resolved = []
     for index, lever in enumerate(levers.levers):
+        if lever.kind == "operation":
+            continue
         nominal, info = parameter_field(project, lever.parameter, source, _where(index, "parameter"))
         numeric = isinstance(nominal, (int, float)) and not isinstance(nominal, bool)
         limits = field_limits(info)
@@ -900,6 +905,7 @@ class QualifyResult(BaseModel):
     solver: dict[str, Any]
     front: list[FrontPoint]
     notes: list[str]
+    operation: dict[str, Any] | None = None  # the operation lever: the plan's figures, objective, solver and tolerance
 
     def summary_for_ledger(self) -> dict:
         """The compact figures the run ledger keeps of a qualify search."""
@@ -908,7 +914,8 @@ class QualifyResult(BaseModel):
             changed = "; ".join(f"{c.parameter} = {c.value}" for c in self.changes if c.value != c.project_value) or "no change"
             headline = f"qualify for {', '.join(self.schemes)} {what}: {self.total_cost:,.6g} {self.cost_unit} ({changed})"
         else:
-            headline = f"qualify for {', '.join(self.schemes)} {what}: no solution within the levers' ranges (best margin {self.best_margin:.4g}, binding {self.binding_lever or 'none'})"
+            reached = f"best margin {self.best_margin:.4g}" if self.best_margin is not None else "no margin reached"
+            headline = f"qualify for {', '.join(self.schemes)} {what}: no solution within the levers' ranges ({reached}, binding {self.binding_lever or 'none'})"
         return {
             "analysis": "qualify",
             "headline": headline,
@@ -1035,43 +1042,111 @@ def qualify(
     chosen = select_schemes(rulebooks(), schemes, project.project.product)
     search = Search(project, factor_set, resolve_levers(project, levers, levers_source), chosen, source, levers_source, gwp, year, confidence, draws, seed, sampling, uncertainty, series)
     combinations = search.combinations()
-    best, reached, final, checks, notes = _search(search, combinations)
+    if levers.operation is not None:
+        check_operation(search, levers, combinations)
+        *found, operation = _operation_search(search, combinations, *levers.operation)
+        front: list[FrontPoint] = []
+    else:
+        found, operation = _search(search, combinations), None
+        front = _front(search, combinations, found[0], budgets)
+    return _result(search, levers, combinations, original, tuple(found), front, operation)
+
+
+def _result(search: Search, levers: Levers, combinations: list[Combination], original, found: tuple, front: list[FrontPoint], operation: dict | None) -> QualifyResult:
+    """The result of a search: ``found`` is (least-cost answer, largest-margin answer, its project, its checks, notes)."""
+    best, reached, final, checks, notes = found
+    confidence, chosen, uncertainty = search.confidence, search.schemes, search.uncertainty
     if levers.invented:
-        notes.append(f"every price in {levers_source} is invented for the demonstration")
+        notes.append(f"every price in {search.levers_source} is invented for the demonstration")
     if confidence is not None and any(lever.path in (uncertainty.parameters if uncertainty else {}) for lever in search.levers):
         notes.append("a lever on a parameter with a distribution moves its draws with it (each draw times lever value / project value)")
     answer = best or reached
-    front = _front(search, combinations, best, budgets)
     values = answer.values if answer else {}
+    solver = _solver(search, combinations, confidence, search.seed)
+    if operation is not None:
+        solver["operation"] = f"{operation['solver']}; primal feasibility tolerance {operation['primal_feasibility_tolerance']:g}, emissions cap {operation['cap_inside_limit']:g} (relative) inside the limit"
     return QualifyResult(
         carbonledger_version=__version__,
         caution=CAUTION,
         from_memory=any(s.from_memory or any(t.from_memory for t in s.thresholds) for s in chosen),
-        project=project.project.name,
-        project_file=source,
-        levers_file=levers_source,
+        project=search.project.project.name,
+        project_file=search.source,
+        levers_file=search.levers_source,
         schemes=[s.id for s in chosen],
-        year=year,
+        year=search.year,
         confidence=confidence,
-        draws=draws if confidence is not None else None,
-        seed=seed if confidence is not None else None,
+        draws=search.draws if confidence is not None else None,
+        seed=search.seed if confidence is not None else None,
         status="qualifies" if best is not None else "no_solution",
         total_cost=best.cost if best is not None else None,
         currency=levers.currency,
         cost_unit=levers.cost_unit,
         prices_invented=levers.invented,
         levers=values if best is not None else {},
-        changes=_changes(search, values),
+        changes=_changes(search, values) + ([_operation_change(operation, levers)] if operation is not None else []),
         checks=checks,
         probability=answer.probability if answer else None,
         standard_error=answer.standard_error if answer else None,
         score_back_set=score_back_set(original, final) if best is not None and final is not None else [],
         best_margin=answer.margin if answer else None,
         binding_lever=(reached.note or None) if best is None and reached is not None else None,
-        reason=_no_solution_reason(best, reached),
-        solver=_solver(search, combinations, confidence, seed),
+        reason=_no_solution_reason(best, reached) if levers.operation is None or best is not None else "no combination of the levers has an operation that qualifies: the plan's linear program finds none",
+        solver=solver,
         front=front,
         notes=notes,
+        operation=operation,
+    )
+
+
+MAX_OPERATION_COMBINATIONS = 64  # each combination is one plan: a linear program over every interval of the series
+
+
+def check_operation(search: Search, levers: Levers, combinations: list[Combination]) -> None:
+    """An operation lever needs a time series, one scheme, the central value and discrete other levers."""
+    index, _ = levers.operation
+    where = _where(index, "kind")
+    if search.series is None:
+        raise InputError(search.levers_source, where, "an operation lever on a project with an electricity time series (electricity.time_series in the project file): the plan's linear program decides the load in each interval of it")
+    if len(search.schemes) != 1:
+        raise InputError(search.levers_source, where, f"one scheme with an operation lever (the plan keeps one scheme's check qualifying), got {', '.join(s.id for s in search.schemes)}")
+    if search.confidence is not None:
+        raise InputError("--confidence", str(search.confidence), "no confidence with an operation lever (the plan's linear program works at the central value)")
+    for lever in search.continuous:
+        raise InputError(search.levers_source, _where(lever.index, "range"), "a step with an operation lever (the other levers are enumerated, and each combination's operation planned)")
+    if len(combinations) > MAX_OPERATION_COMBINATIONS:
+        raise InputError(search.levers_source, "levers", f"at most {MAX_OPERATION_COMBINATIONS} combinations of discrete values with an operation lever (each is a linear program over the series), got {len(combinations)}")
+
+
+def _operation_search(search: Search, combinations: list[Combination], index: int, lever: Lever) -> tuple:
+    """Every combination of the discrete levers with its least-cost operation (``analyses.operation``); the
+    cheapest that qualifies, scored back with the plan's load as the series. Returns the tuple of ``_search``
+    and the operation's summary."""
+    best = None
+    for combination in combinations:
+        project = search.with_values(combination.discrete) if combination.discrete else search.project
+        found = plan_operation(project, search.factor_set, search.series, search.schemes[0].id, lever, source=search.source, gwp=search.gwp, year=search.year, where=(search.levers_source, _where(index, "kind")))
+        search.solved += 1
+        if found is not None and (best is None or combination.discrete_cost + found.cost < best[2]):
+            best = (combination, found, combination.discrete_cost + found.cost)
+    if best is None:
+        return None, None, None, [], [f"no operation of any combination of the levers qualifies for {search.schemes[0].id}: the plan's linear program finds none"], None
+    combination, operation, cost = best
+    final = search.with_values(combination.discrete) if combination.discrete else search.project
+    checks, ok = _checks(replace(search, series=planned_series(search.series, operation.plan)), final, Found({}, cost, True, 0.0))
+    margin = min((c.limit - c.value) / abs(c.limit) for c in checks)
+    summary = operation_summary(operation, lever, search.series)
+    if not ok:
+        notes = ["the least-cost operation did not qualify when scored back with the plan's load (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported"]
+        return None, Found(dict(combination.discrete), cost, False, margin), final, checks, notes, summary
+    notes = [f"the operation was planned by the linear program of `carbonledger plan` (HiGHS) for {summary['scheme']}: {summary['hydrogen_kg']:,.0f} kg H2 against {summary['baseline_hydrogen_kg']:,.0f} at rated power in every interval; score it back with that plan's series (`carbonledger plan ... --output`)"]
+    return Found(dict(combination.discrete), cost, True, margin), None, final, checks, notes, summary
+
+
+def _operation_change(operation: dict, levers: Levers) -> LeverChange:
+    """The operation lever as a change: hydrogen made under the plan, against rated power in every interval."""
+    return LeverChange(
+        parameter="operation", unit="kg H2", project_value=operation["baseline_hydrogen_kg"], value=operation["hydrogen_kg"],
+        cost=operation["cost"], kind="operation", range=[0.0, operation["baseline_hydrogen_kg"]],
     )
 
 
