@@ -1151,18 +1151,22 @@ def _operation_change(operation: dict, levers: Levers) -> LeverChange:
 
 
 def with_sources(project, levers: Levers, levers_source: str):
-    """The project with the levers file's new electricity sources at share 0."""
-    if not levers.sources:
+    """The project with the levers file's new electricity sources at share 0, and its battery (capacity 0 unless given)."""
+    if not levers.sources and not levers.battery:
         return project
     data = _plain(project.model_dump())
     for name, fields in levers.sources.items():
         if name in data["electricity"]["sources"]:
             raise InputError(levers_source, f"sources.{name}", f"a new source name (the project already has '{name}')")
         data = apply_overrides(data, [(f"electricity.sources.{path_key(name)}", {**copy.deepcopy(fields), "share": 0.0})], levers_source)
+    if levers.battery:
+        if data["electricity"].get("battery"):
+            raise InputError(levers_source, "battery", "no battery table when the project has one (put a lever on electricity.battery.capacity_kwh)")
+        data["electricity"]["battery"] = {"capacity_kwh": 0.0, **copy.deepcopy(levers.battery)}
     try:
         return validate_project(data, levers_source)
     except InputError as error:
-        raise InputError(levers_source, error.field.replace("electricity.sources.", "sources.", 1), error.expected) from None
+        raise InputError(levers_source, error.field.replace("electricity.sources.", "sources.", 1).replace("electricity.battery", "battery", 1), error.expected) from None
 
 
 def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], bool]:

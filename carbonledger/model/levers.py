@@ -21,6 +21,9 @@ Electricity share levers move together: each difference from a source's share is
 sources no lever moves, in proportion to their shares, or by the one source a lever names in
 ``absorbed_by`` (``analyses.shares``).
 
+A ``[battery]`` table adds an ``[electricity.battery]`` to the project (same fields; ``capacity_kwh``
+0 unless given), so that a lever on ``electricity.battery.capacity_kwh`` can size it.
+
 ``[sources.NAME]`` tables add electricity sources the levers may bring in; they join the project
 at share 0 (a lever on ``electricity.sources.NAME.share`` then moves them), with the same fields as
 a project's ``[electricity.sources.NAME]``.
@@ -183,6 +186,7 @@ class Levers(BaseModel):
     note: str = ""
     invented: bool = False  # every price is invented (demo files): shown with the result
     sources: dict[str, dict[str, Any]] = {}
+    battery: dict[str, Any] = {}  # an [electricity.battery] the levers may size (capacity_kwh default 0)
     levers: list[Lever] = Field(min_length=1)
 
     @field_validator("levers", mode="before")
