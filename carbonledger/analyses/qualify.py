@@ -700,6 +700,9 @@ class Search:
 
         offset = at(np.zeros(len(paths)))
         matrix = np.column_stack([at(row) - offset for row in np.eye(len(paths))])
+        low, high = np.array([piece.low for piece in combination.pieces]), np.array([piece.high for piece in combination.pieces])
+        if (offset + np.minimum(matrix * low, matrix * high).sum(axis=1) >= 0).all():
+            return None  # no share can fall below 0 anywhere in the ranges: no constraint needed
         return matrix, offset
 
     def start(self, problem: Continuous) -> np.ndarray:
