@@ -19,7 +19,7 @@ from ..model.levers import Lever
 from .electricity_series import ElectricitySeries
 from .plan import PlanResult, plan_project
 
-SOLVER = "HiGHS (scipy.optimize.milp; linprog's interior point with a part-load curve), the linear program of `carbonledger plan`"
+SOLVER = "HiGHS through scipy.optimize.milp, the linear program of `carbonledger plan`"
 PRIMAL_TOLERANCE = 1e-7  # HiGHS's default primal feasibility tolerance (the plan keeps its cap 1e-6 inside the limit)
 CAP_INSIDE = 1e-6  # relative: the plan's emissions cap sits this far inside the limit (analyses.plan._plan_passes)
 MIP_GAP = 1e-3  # relative gap of the on/off decisions with a minimum stable load
