@@ -30,7 +30,9 @@ from carbonledger import api  # noqa: E402
 
 PROJECT = ROOT / "demo_projects" / "blue_atr_ammonia_shipped.toml"
 DISTRIBUTIONS = ROOT / "demo_projects" / "uncertainty" / "blue_atr_ammonia.toml"
-START = ["project.boundary=well-to-wake"]
+# The facts the US rule reads before its threshold (an invented what-if: the plant placed in the US,
+# no 45Q credit claimed); without them us-45v is undetermined whatever the levers, and nothing is searched.
+START = ["project.boundary=well-to-wake", 'project.country="US"', "capture.claims_45q=false"]
 LEVERS = """# INVENTED prices for the benchmark (not a quotation).
 currency = "EUR"
 period = "year"

@@ -25,7 +25,7 @@ from .analyses.headroom import headroom as headroom_of
 from .analyses.lifetime import LifetimeResult, lifetime_score
 from .analyses.matching import electricity_model, match, matched_checks, matching_views, score_with_series, series_matched_periods
 from .analyses.periods import metered_year, month_results, read_meters
-from .analyses.plan import PlanResult, choose_threshold, plan_load
+from .analyses.plan import PlanResult, plan_project
 from .analyses.portfolio import Recalc, RecalcPiece, load_portfolio, project_files, recalc_piece
 from .analyses.portfolio import recalc as recalc_portfolio
 from .analyses.qualify import FRONT_BUDGETS, QualifyResult
@@ -34,7 +34,7 @@ from .analyses.sensitivity import SWING_PERCENT, Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
-from .core.scoring import DEFAULT_GWP, assemble, judged, prepare, scheme_reading, score_project, solve_stacked, solve_with_bw2calc
+from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_stacked, solve_with_bw2calc
 from .errors import InputError
 from .io.ledger import LedgerRecord, RunTarget, factor_row, open_run, project_history, run_target, write_batch
 from .io.ledger_store import Location
@@ -52,8 +52,6 @@ from .model.distributions import Uncertainty, parse_uncertainty, read_distributi
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from .model.levers import read_levers
 from .model.project import boundary_id, parameter_table, read_project_file
-from .model.statuses import Status
-from .routes import routes_of
 from .routes.project import load_project
 
 __all__ = [
@@ -375,41 +373,11 @@ def plan(
     series = project_series(project, project_file)
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to plan against")
-    prepared = prepare(project, _factor_set(factors), gwp=gwp, schemes=[scheme], source=str(project_file), project_sha256=sha, year=year, matching=series_matched_periods(series))
-    solutions = solve_with_bw2calc(prepared)
-    check = assemble(prepared, solutions).checks[0]
-    rulebook = prepared.chosen[0]
-    model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
-    threshold = choose_threshold(rulebook, tier)
-    if rated_kw is None:
-        rated_kw = float(series.load(model.kwh_per_kg_h2).max()) * 60.0 / series.interval_minutes
-    if not rated_kw > 0:
-        raise InputError("--rated-kw", str(rated_kw), "a rated power > 0 kW (the series has no load to take it from)")
-    if matching not in (None, "rule") and matching not in ("interval", "hour", "month", "quarter", "year"):
-        raise InputError("--matching", matching, "one of rule, interval, hour, month, quarter, year")
-    result = plan_load(
-        series, model, rulebook,
-        value_declared=check.value, limit=threshold.limit, inclusive=threshold.inclusive, rated_kw=rated_kw, min_load=min_load,
-        part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
+    result = plan_project(
+        project, _factor_set(factors), series, scheme, source=str(project_file), project_sha256=sha, tier=tier, rated_kw=rated_kw, min_load=min_load,
+        part_load=part_load, hydrogen_price=hydrogen_price, matching=matching, gwp=gwp, year=year,
     )
-    result.tier = threshold.tier
-    verdict = judged(rulebook, result.value, scheme_reading(prepared, rulebook).findings)
-    result.status, result.deciding_reason = verdict["status"], verdict["reasons"][0]
-    result.qualifies = result.qualifies and result.status == Status.QUALIFIES
-    if part_load:
-        result.score_back = _score_back_overrides(project, model.kwh_per_kg_h2, result.kwh_per_kg_h2)
     return result, series
-
-
-def _score_back_overrides(project, design_kwh_per_kg: float, planned_kwh_per_kg: float) -> list[str]:
-    """The --set that scores a part-load plan back at the kWh/kg its curve implies: the hydrogen route's
-    electricity parameter moved by the difference from the design (the rest of the electricity per kg stays)."""
-    path = next((route.ageing for route in routes_of(project.model_dump()) if route.ageing), "")
-    if not path:
-        return []
-    section, name = path.split(".")
-    current = float(getattr(getattr(project, section), name))
-    return [f"{path}={current + planned_kwh_per_kg - design_kwh_per_kg:.12g}"]
 
 
 def matching_chart(

@@ -209,3 +209,151 @@ def test_costs_per_step_and_pieces_of_a_table():
     assert [(p.low, p.high) for p in pieces] == [(0.0, 0.5), (0.5, 1.0)]
     assert pieces[1].cost(0.75) == pytest.approx(11.0)
     assert len(convex_pieces(np.array([0.0, 0.5, 1.0]), np.array([10.0, 0.0, 10.0]))) == 1  # |x - 0.5| is convex: one piece
+
+
+GRID_H2 = DEMO / "grid_electrolysis_hydrogen.toml"
+PPA_SOURCES = (
+    '[sources.wind_ppa]\nfactor = "electricity.renewable.wind_onshore"\nprocurement = "ppa"\ncommissioned = 2027-03-01\nzone = "VENNOR-1"\nsupported = false\n'
+    '[sources.solar_ppa]\nfactor = "electricity.renewable.solar_pv_utility"\nprocurement = "ppa"\ncommissioned = 2027-03-01\nzone = "VENNOR-1"\nsupported = false\n'
+)
+
+
+def test_two_share_levers_equal_brute_force_enumeration(tmp_path):
+    # Check: a wind PPA share and a solar PPA share, the grid taking up both differences, each on a
+    # grid of 0, 0.15, ..., 0.9; brute force scores every pair whose shares fit (w + s <= 1, grid
+    # 1 - w - s) through `score` and keeps the cheapest that qualifies for Japan's criterion. Cost by
+    # hand: 400 million per unit of wind share and 300 million per unit of solar share (invented).
+    steps = [round(0.15 * n, 2) for n in range(7)]
+    levers = levers_file(
+        tmp_path,
+        'schemes = ["japan-hydrogen"]\n'
+        '[[levers]]\nparameter = "electricity.sources.wind_ppa.share"\nrange = [0.0, 0.9]\nstep = 0.15\nabsorbed_by = "grid"\ncost = { per_unit = 400_000_000 }\n'
+        '[[levers]]\nparameter = "electricity.sources.solar_ppa.share"\nrange = [0.0, 0.9]\nstep = 0.15\nabsorbed_by = "grid"\ncost = { per_unit = 300_000_000 }\n' + PPA_SOURCES,
+    )
+    added = PPA_SOURCES.replace("[sources.wind_ppa]", "[electricity.sources.wind_ppa]\nshare = 0.0").replace("[sources.solar_ppa]", "[electricity.sources.solar_ppa]\nshare = 0.0")
+    project = write(tmp_path / "project.toml", GRID_H2.read_text() + "\n" + added)
+    best = None
+    for wind, solar in itertools.product(steps, steps):
+        if wind + solar > 1 + 1e-12:
+            continue
+        sets = [f"electricity.sources.grid.share={1 - wind - solar!r}", f"electricity.sources.wind_ppa.share={wind}", f"electricity.sources.solar_ppa.share={solar}"]
+        check = api.score(project, schemes=["japan-hydrogen"], overrides=sets).checks[0]
+        cost = 400_000_000 * wind + 300_000_000 * solar
+        if check.status == "qualifies" and (best is None or cost < best[0]):
+            best = (cost, wind, solar)
+    assert best is not None
+    found = api.qualify(GRID_H2, levers, budgets=0)
+    assert found.status == "qualifies"
+    assert found.levers["electricity.sources.wind_ppa.share"] == pytest.approx(best[1], abs=1e-12)
+    assert found.levers["electricity.sources.solar_ppa.share"] == pytest.approx(best[2], abs=1e-12)
+    assert found.total_cost == pytest.approx(best[0], rel=1e-12)
+    grid = next(float(item.split("=")[1]) for item in found.score_back_set if item.startswith("electricity.sources.grid.share="))
+    assert grid == pytest.approx(1 - best[1] - best[2], abs=1e-12)  # the grid took up both differences
+
+
+def test_two_continuous_share_levers_equal_a_hand_written_linear_program(tmp_path):
+    # Check: the scheme value is affine in the shares (premise checked on a corner); with costs linear
+    # in the shares and the grid taking up the rest (w + s <= 1), the cheapest answer is the optimum of
+    # the linear program written out here and solved by HiGHS (scipy.optimize.linprog).
+    levers = levers_file(
+        tmp_path,
+        'schemes = ["japan-hydrogen"]\n'
+        '[[levers]]\nparameter = "electricity.sources.wind_ppa.share"\nrange = [0.0, 0.9]\ncost = { per_unit = 400_000_000 }\n'
+        '[[levers]]\nparameter = "electricity.sources.solar_ppa.share"\nrange = [0.0, 0.9]\ncost = { per_unit = 300_000_000 }\n' + PPA_SOURCES,
+    )
+    found = api.qualify(GRID_H2, levers, budgets=0)
+    sets = found.score_back_set
+
+    def value(wind: float, solar: float) -> float:
+        shares = [f"electricity.sources.grid.share={1 - wind - solar!r}", f"electricity.sources.wind_ppa.share={wind!r}", f"electricity.sources.solar_ppa.share={solar!r}"]
+        others = [item for item in sets if ".share=" not in item]
+        return api.score(GRID_H2, schemes=["japan-hydrogen"], overrides=others + shares).checks[0].value
+
+    v0, vw, vs = value(0.0, 0.0), value(0.5, 0.0), value(0.0, 0.5)
+    assert value(0.3, 0.4) == pytest.approx(v0 + 0.6 * (vw - v0) + 0.8 * (vs - v0), rel=1e-9)  # the premise: affine
+    a_w, a_s = (vw - v0) / 0.5, (vs - v0) / 0.5
+    lp = linprog([4e8, 3e8], A_ub=[[a_w, a_s], [1.0, 1.0]], b_ub=[3.4 - v0, 1.0], bounds=[(0, 0.9), (0, 0.9)], method="highs")  # 3.4 kg CO2e/kg H2: the limit the shipped rulebook states
+    assert lp.status == 0
+    assert found.levers["electricity.sources.wind_ppa.share"] == pytest.approx(lp.x[0], abs=1e-6)
+    assert found.levers["electricity.sources.solar_ppa.share"] == pytest.approx(lp.x[1], abs=1e-6)
+    assert found.total_cost == pytest.approx(lp.fun, rel=1e-6)
+
+
+@pytest.mark.parametrize(
+    ("body", "field", "words"),
+    [
+        ('[[levers]]\nparameter = "electricity.sources.wind_ppa.share"\nvalues = [0.6, 0.8]\ncost = { per_unit = 1 }\n'
+         '[[levers]]\nparameter = "electricity.sources.solar_ppa.share"\nvalues = [0.5, 0.7]\ncost = { per_unit = 1 }\n', "levers", "below 0"),
+        ('[[levers]]\nparameter = "electricity.sources.wind_ppa.share"\nrange = [0, 0.5]\nabsorbed_by = "battery"\ncost = { per_unit = 1 }\n', "levers.0.absorbed_by", "not a source"),
+        ('[[levers]]\nparameter = "electricity.sources.wind_ppa.share"\nrange = [0, 0.5]\ncost = { per_unit = 1 }\n'
+         '[[levers]]\nparameter = "electricity.sources.solar_ppa.share"\nrange = [0, 0.5]\ncost = { per_unit = 1 }\n'
+         '[[levers]]\nparameter = "electricity.sources.grid.share"\nrange = [0, 1]\ncost = { per_unit = 1 }\n', "levers.0.parameter", "other sources to take up"),
+    ],
+)
+def test_share_levers_that_cannot_be_rebalanced_are_refused(tmp_path, body, field, words):
+    levers = levers_file(tmp_path, body + PPA_SOURCES)
+    result = run_cli("qualify", GRID_H2, "--levers", levers, "--scheme", "japan-hydrogen")
+    assert_one_line_error(result)
+    assert str(levers) in result.stderr and f": {field}:" in result.stderr and words in result.stderr
+
+
+HOURLY = DEMO / "hybrid_hourly_hydrogen.toml"
+
+
+def test_an_operation_lever_alone_is_the_plan(tmp_path):
+    # Check: with the operation as the only lever, qualify's answer is the operating plan that
+    # `carbonledger plan` gives for the same scheme (same status, same hydrogen to the solver's
+    # tolerance), and its cost is, by hand, the price per kg times the hydrogen the plan gives up
+    # against running at rated power in every interval (8,760 h at 20 MW / 55.5 kWh/kg, invented demo).
+    levers = levers_file(tmp_path, 'schemes = ["uk-lchs"]\n[[levers]]\nkind = "operation"\ncost = { per_unit = 5.0 }\n')
+    found = api.qualify(HOURLY, levers, budgets=0)
+    planned, _ = api.plan(HOURLY, scheme="uk-lchs")
+    assert planned.status == "qualifies" and found.status == "qualifies"
+    assert found.checks[0].status == planned.status
+    assert found.operation["hydrogen_kg"] == pytest.approx(planned.hydrogen_kg.sum(), rel=1e-7)  # HiGHS primal feasibility tolerance 1e-7
+    assert found.operation["baseline_hydrogen_kg"] == pytest.approx(8760 * 20_000 / 55.5, rel=1e-12)
+    assert found.total_cost == pytest.approx(5.0 * (8760 * 20_000 / 55.5 - planned.hydrogen_kg.sum()), rel=1e-7)
+    assert found.checks[0].value == pytest.approx(planned.value, rel=1e-9)  # scored back with the plan's load as the series
+    assert "HiGHS" in found.solver["operation"] and found.operation["primal_feasibility_tolerance"] == 1e-7
+
+
+def test_an_operation_lever_needs_a_time_series(tmp_path):
+    levers = levers_file(tmp_path, 'schemes = ["japan-hydrogen"]\n[[levers]]\nkind = "operation"\ncost = { per_unit = 5.0 }\n')
+    result = run_cli("qualify", GRID_H2, "--levers", levers)
+    assert_one_line_error(result)
+    assert str(levers) in result.stderr and ": levers.0.kind:" in result.stderr and "time series" in result.stderr
+
+
+@pytest.mark.parametrize(
+    ("body", "field"),
+    [
+        ('[[levers]]\nkind = "operation"\nrange = [0, 1]\ncost = { per_unit = 5.0 }\n', "levers.0"),
+        ('[[levers]]\nkind = "operation"\ncost = { table = [[0, 1]] }\n', "levers.0"),
+        ('[[levers]]\nkind = "operation"\nmin_load = 1.5\ncost = { per_unit = 5.0 }\n', "levers.0.min_load"),
+        ('[[levers]]\nparameter = "electrolysis.electricity_kwh_per_kg_h2"\nrated_kw = 100\nrange = [50, 54]\ncost = { per_unit = 5.0 }\n', "levers.0"),
+        ('[[levers]]\nkind = "operation"\ncost = { per_unit = 5.0 }\n[[levers]]\nparameter = "electrolysis.electricity_kwh_per_kg_h2"\nrange = [50, 54]\ncost = { per_unit = 5.0 }\n', "levers.1.range"),
+    ],
+)
+def test_bad_operation_levers_are_one_line(tmp_path, body, field):
+    levers = levers_file(tmp_path, 'schemes = ["uk-lchs"]\n' + body)
+    result = run_cli("qualify", HOURLY, "--levers", levers)
+    assert_one_line_error(result)
+    assert str(levers) in result.stderr and f": {field}" in result.stderr
+
+
+def test_an_operation_lever_with_a_discrete_lever_equals_brute_force():
+    # Check: the shipped demo levers (an operation priced by the margin it gives up at an invented
+    # EUR 6/kg H2, and a stack of 51 kWh/kg for an invented EUR 400,000 a year): brute force runs
+    # `carbonledger plan` on each stack with --set and adds the stack's price to the margin given up.
+    levers = DEMO / "levers" / "hybrid_hourly_hydrogen.toml"
+    brute = []
+    for kwh, price in ((54.0, 0.0), (51.0, 400_000.0)):
+        planned, _ = api.plan(HOURLY, scheme="uk-lchs", hydrogen_price=6.0, overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh}"])
+        brute.append((price + planned.baseline_margin - planned.margin, kwh, planned))
+    cost, kwh, planned = min(brute, key=lambda item: item[0])
+    found = api.qualify(HOURLY, levers, budgets=0)
+    assert found.status == "qualifies"
+    assert found.levers["electrolysis.electricity_kwh_per_kg_h2"] == kwh
+    assert found.total_cost == pytest.approx(cost, rel=1e-7)
+    assert found.operation["hydrogen_kg"] == pytest.approx(planned.hydrogen_kg.sum(), rel=1e-7)
+    assert found.operation["objective"].startswith("margin")

@@ -5,8 +5,8 @@ still qualifies. The scheme value is scanned over the parameter's physical range
 limits; a parameter without an upper limit is scanned to 100 times its value) with the same
 stacked draws as the Monte Carlo, the crossing nearest the project's own value is bracketed and
 refined with ``scipy.optimize.brentq``, and the value found is verified by scoring the project at
-it with bw2calc (agreement to 1e-6 relative). A drawn share of one electricity source takes its
-share from the others in proportion, so the shares keep summing to one.
+it with bw2calc (agreement to 1e-6 relative). A share of one electricity source takes its
+share from the others in proportion (``analyses.shares``), so the shares keep summing to one.
 
 References
 ----------

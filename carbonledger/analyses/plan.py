@@ -42,9 +42,12 @@ from typing import Any
 
 import numpy as np
 
+from ..core.scoring import DEFAULT_GWP, assemble, judged, prepare, scheme_reading, solve_with_bw2calc
 from ..errors import InputError
+from ..model.statuses import Status
+from ..routes import routes_of
 from .electricity_series import ElectricitySeries
-from .matching import ElectricityModel, counted_intensity, match, period_labels
+from .matching import ElectricityModel, counted_intensity, electricity_model, match, period_labels, series_matched_periods
 
 
 @dataclass
@@ -485,6 +488,63 @@ def _plan_passes(program: _Program, scorer: _Scorer, series: ElectricitySeries, 
     if gap_note:
         notes.append(gap_note)
     return load, passes, notes
+
+
+def plan_project(
+    project,
+    factor_set,
+    series: ElectricitySeries,
+    scheme: str,
+    *,
+    source: str = "project",
+    project_sha256: str = "",
+    tier: str | None = None,
+    rated_kw: float | None = None,
+    min_load: float = 0.0,
+    part_load: list[tuple[float, float]] | None = None,
+    hydrogen_price: float | None = None,
+    matching: str | None = None,
+    gwp: str = DEFAULT_GWP,
+    year: int | None = None,
+) -> PlanResult:
+    """The operating plan of a validated project against its series (``plan_load``), scored once with
+    bw2calc for the declared value and judged by the one judgement (``core.scoring.judged``).
+    ``rated_kw`` None: the largest load in the series. Used by ``api.plan`` and by qualify's operation lever."""
+    prepared = prepare(project, factor_set, gwp=gwp, schemes=[scheme], source=source, project_sha256=project_sha256, year=year, matching=series_matched_periods(series))
+    solutions = solve_with_bw2calc(prepared)
+    check = assemble(prepared, solutions).checks[0]
+    rulebook = prepared.chosen[0]
+    model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))
+    threshold = choose_threshold(rulebook, tier)
+    if rated_kw is None:
+        rated_kw = float(series.load(model.kwh_per_kg_h2).max()) * 60.0 / series.interval_minutes
+    if not rated_kw > 0:
+        raise InputError("--rated-kw", str(rated_kw), "a rated power > 0 kW (the series has no load to take it from)")
+    if matching not in (None, "rule") and matching not in ("interval", "hour", "month", "quarter", "year"):
+        raise InputError("--matching", matching, "one of rule, interval, hour, month, quarter, year")
+    result = plan_load(
+        series, model, rulebook,
+        value_declared=check.value, limit=threshold.limit, inclusive=threshold.inclusive, rated_kw=rated_kw, min_load=min_load,
+        part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
+    )
+    result.tier = threshold.tier
+    verdict = judged(rulebook, result.value, scheme_reading(prepared, rulebook).findings)
+    result.status, result.deciding_reason = verdict["status"], verdict["reasons"][0]
+    result.qualifies = result.qualifies and result.status == Status.QUALIFIES
+    if part_load:
+        result.score_back = _score_back_overrides(project, model.kwh_per_kg_h2, result.kwh_per_kg_h2)
+    return result
+
+
+def _score_back_overrides(project, design_kwh_per_kg: float, planned_kwh_per_kg: float) -> list[str]:
+    """The --set that scores a part-load plan back at the kWh/kg its curve implies: the hydrogen route's
+    electricity parameter moved by the difference from the design (the rest of the electricity per kg stays)."""
+    path = next((route.ageing for route in routes_of(project.model_dump()) if route.ageing), "")
+    if not path:
+        return []
+    section, name = path.split(".")
+    current = float(getattr(getattr(project, section), name))
+    return [f"{path}={current + planned_kwh_per_kg - design_kwh_per_kg:.12g}"]
 
 
 def choose_threshold(scheme, tier: str | None):

@@ -38,8 +38,10 @@ Method
 A lever on a parameter that has a distribution moves its draws with it: each draw is multiplied
 by (lever value / project value) (shifted by the difference when the project value is 0).
 
-Not done: the electricity operation through the plan's linear program (``analyses.plan``) is not
-a lever yet; a time series is matched as ``score`` matches it, with the declared shares.
+An operation lever (``kind = "operation"``) is not searched here: for each combination of the
+discrete levers, ``analyses.operation`` plans the electrolyser's load by the linear program of
+``analyses.plan`` (HiGHS) and prices what it gives up; the cheapest is scored back with the plan's
+load as the series (``_operation_search``).
 
 References
 ----------
@@ -59,7 +61,7 @@ from __future__ import annotations
 import copy
 import itertools
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 import numpy as np
@@ -71,11 +73,13 @@ from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
 from ..model.levers import MAX_COMBINATIONS, Lever, Levers, is_share
-from ..model.project import apply_overrides, field_limits, parameter_field, path_key
+from ..model.project import apply_overrides, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
 from ..model.statuses import Status
 from ..routes.project import validate_project
 from .matching import score_with_series
+from .operation import operation_summary, plan_operation, planned_series
+from .shares import negative_shares, rebalanced_shares, rebalancing_problem
 from .uncertainty import Draws, Plan, draw, evaluate, limit_breaks, make_plan, params_with_draws, probability, statuses
 
 SOLVER = "SLSQP (scipy.optimize.minimize)"
@@ -185,15 +189,13 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
     """Check every lever against the project (path, physical limits, cost) and price it."""
     resolved = []
     for index, lever in enumerate(levers.levers):
+        if lever.kind == "operation":
+            continue
         nominal, info = parameter_field(project, lever.parameter, source, _where(index, "parameter"))
         numeric = isinstance(nominal, (int, float)) and not isinstance(nominal, bool)
         limits = field_limits(info)
         unit = (info.json_schema_extra or {}).get("unit", "")
         item = Resolved(index, lever, nominal, unit)
-        if is_share(lever.parameter):
-            others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != lever.parameter)
-            if not others > 0:
-                raise InputError(source, _where(index, "parameter"), "a share with other sources to take up the rest (the shares always sum to 1)")
         if lever.continuous:
             if not numeric:
                 raise InputError(source, _where(index, "range"), f"values for a numeric parameter; '{lever.parameter}' is {nominal!r} (give it values)")
@@ -213,7 +215,36 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
             item.choices = [float(v) if numeric else v for v in choices]
             item.choice_costs = [_discrete_cost(lever, value, nominal, numeric, source, index) for value in item.choices]
         resolved.append(item)
+    _check_shares(project, resolved, source)
     return resolved
+
+
+def source_of(path: str) -> str:
+    """The source an electricity share path belongs to."""
+    return split_path(path)[2]
+
+
+def absorbers_of(levers: list[Resolved]) -> dict[str, str]:
+    """Share path -> the source that takes up its difference, for the share levers that name one."""
+    return {item.path: item.lever.absorbed_by for item in levers if is_share(item.path) and item.lever.absorbed_by}
+
+
+def _check_shares(project, resolved: list[Resolved], source: str) -> None:
+    """Share levers that can be rebalanced together: every absorber a source no lever moves, something
+    left to take up the rest, and no share below 0 with every share lever at its lowest value."""
+    moving = [item for item in resolved if is_share(item.path)]
+    if not moving:
+        return
+    shares = {name: s.share for name, s in project.electricity.sources.items()}
+    absorbers = {source_of(path): name for path, name in absorbers_of(moving).items()}
+    problem = rebalancing_problem(shares, [source_of(item.path) for item in moving], absorbers)
+    if problem:
+        named = next((item for item in moving if item.lever.absorbed_by), moving[0])
+        raise InputError(source, _where(named.index, "absorbed_by" if named.lever.absorbed_by else "parameter"), problem)
+    lowest = {source_of(item.path): min(item.lever.range) if item.continuous else min(item.choices) for item in moving}
+    below = [name for name, negative in negative_shares(rebalanced_shares(shares, lowest, absorbers)).items() if negative]
+    if below:
+        raise InputError(source, "levers", f"electricity share levers whose shares can be rebalanced: at their lowest values ({', '.join(f'{name} {value:g}' for name, value in lowest.items())}) {', '.join(below)} would fall below 0")
 
 
 def _discrete_cost(lever: Lever, value, nominal, numeric: bool, source: str, index: int) -> float:
@@ -276,9 +307,14 @@ class Evaluator:
         self.plan, self.schemes, self.paths, self.nominal = plan, schemes, paths, nominal
         self.drawn, self.confidence = drawn, confidence
         self.reference, self.fixed = reference or {}, fixed or {}
+        self.shares = {path: value for path, value in self.fixed.items() if is_share(path)}  # set with the continuous levers, rebalanced together
         self.size = 1 if drawn is None else len(drawn.uniform)
         self.calls = 0
         self.blocked = self._blocked()
+
+    def central(self) -> Evaluator:
+        """The same candidates at the central value (no draws)."""
+        return Evaluator(self.plan, self.schemes, self.paths, self.nominal, None, None, self.reference, self.fixed)
 
     def _blocked(self) -> dict[str, str]:
         """Schemes whose rules (read before the threshold) keep them from qualifying at any value: id -> status."""
@@ -294,7 +330,8 @@ class Evaluator:
         """The inputs of every candidate point: the lever values, and (with draws) every draw, or the draws in ``rows``."""
         count = len(points)
         if central or self.drawn is None:
-            return Draws([], np.zeros((count, 0)), {path: points[:, n].astype(float) for n, path in enumerate(self.paths)}, {}, {})
+            fixed_shares = {path: np.full(count, value) for path, value in self.shares.items()}
+            return Draws([], np.zeros((count, 0)), {**fixed_shares, **{path: points[:, n].astype(float) for n, path in enumerate(self.paths)}}, {}, {})
         pick = slice(None) if rows is None else rows
         size = self.size if rows is None else len(rows)
         drawn = self.drawn
@@ -302,6 +339,8 @@ class Evaluator:
         for path, value in self.fixed.items():
             if path in parameters:
                 parameters[path] = moved(parameters[path], value, self.reference[path])
+            elif path in self.shares:
+                parameters[path] = np.full(count * size, value)
         for n, path in enumerate(self.paths):
             chosen = np.repeat(points[:, n].astype(float), size)
             parameters[path] = moved(parameters[path], chosen, self.reference[path]) if path in parameters else chosen
@@ -425,10 +464,11 @@ class Found:
 class Continuous:
     """The continuous part of one combination: levers scaled to [0, 1], costs as epigraphs."""
 
-    def __init__(self, evaluator: Evaluator, levers: list[Resolved], pieces: list[Piece]):
+    def __init__(self, evaluator: Evaluator, levers: list[Resolved], pieces: list[Piece], shares: tuple[np.ndarray, np.ndarray] | None = None):
         self.evaluator, self.levers, self.pieces = evaluator, levers, pieces
         self.low = np.array([piece.low for piece in pieces])
         self.width = np.array([piece.high - piece.low for piece in pieces])
+        self.shares = shares  # (A, b): the rebalanced shares A x + b, kept >= 0
         self.scale = max(1.0, sum(max(abs(piece.cost(piece.low)), abs(piece.cost(piece.high))) for piece in pieces))
         self.cache: dict[tuple, np.ndarray] = {}
         self.n = len(pieces)
@@ -472,6 +512,15 @@ class Continuous:
         matrix, offset = np.array(rows), np.array(offsets)
         return matrix, offset
 
+    def share_constraints(self, size: int) -> list[dict]:
+        """Every rebalanced share >= 0, linear in the scaled levers (the first n of ``size`` variables)."""
+        if self.shares is None:
+            return []
+        matrix, offset = self.shares
+        scaled = np.hstack([matrix * self.width[None, :], np.zeros((len(matrix), size - self.n))])
+        shift = matrix @ self.low + offset
+        return [{"type": "ineq", "fun": lambda v: scaled @ v + shift, "jac": lambda v: scaled}]
+
     def least_cost(self, start: np.ndarray, margin: float = MARGIN_TOLERANCE):
         """Minimise the cost subject to every margin >= ``margin``; returns (z, scipy result)."""
         from scipy.optimize import minimize
@@ -483,6 +532,7 @@ class Continuous:
         constraints = [
             {"type": "ineq", "fun": lambda v: matrix @ v + offset, "jac": lambda v: matrix},
             {"type": "ineq", "fun": lambda v: self.g(v[:n]) - margin, "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n))])},
+            *self.share_constraints(2 * n),
         ]
         result = minimize(
             lambda v: float(v[n:].sum()), np.concatenate([start, t0]), jac=lambda v: np.concatenate([np.zeros(n), np.ones(n)]),
@@ -506,6 +556,7 @@ class Continuous:
                 "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n)), -np.ones((len(self.g(v[:n])), 1))]),
             },
         ]
+        constraints += self.share_constraints(2 * n + 1)
         if budget is not None:
             constraints.append({"type": "ineq", "fun": lambda v: budget / self.scale - v[n : 2 * n].sum(), "jac": lambda v: np.concatenate([np.zeros(n), -np.ones(n), [0.0]])})
         span = [(-1e6, 1e6)] * n
@@ -586,12 +637,15 @@ class Search:
         return sorted(found, key=Combination.lower_bound)
 
     def lever_plan(self, project) -> Plan:
-        """A plan of the project for the continuous levers (their fields), holding the year, series and schemes."""
-        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.continuous}
-        return Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
+        """A plan of the project for the continuous levers and the share levers (their fields), holding the
+        year, series, schemes and the sources that take up the shares' differences."""
+        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.levers if lever.continuous or is_share(lever.path)}
+        plan = Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
+        plan.absorbers = absorbers_of(self.levers)
+        return plan
 
     def with_values(self, values: dict[str, Any]):
-        """The validated project with lever values set (a share lever rebalances the other sources in proportion)."""
+        """The validated project with lever values set (the share levers rebalanced together, ``analyses.shares``)."""
         base = self.project
         plan = self.lever_plan(base)
         plan.fields = {path: parameter_field(base, path, self.source) for path in values}
@@ -610,7 +664,10 @@ class Search:
         return self.evaluators[key]
 
     def _evaluator(self, combination: Combination) -> Evaluator:
-        project = self.with_values(combination.discrete) if combination.discrete else self.project
+        """Discrete values set in the project, but shares: those are set with the continuous levers' on every
+        candidate, so that all share levers are rebalanced together against the project as written."""
+        settled = {path: value for path, value in combination.discrete.items() if not is_share(path)}
+        project = self.with_values(settled) if settled else self.project
         plan = self.lever_plan(project)
         drawn = None
         if self.confidence is not None:
@@ -628,6 +685,27 @@ class Search:
             self.drawn = (draw(plan, self.draws, self.seed, self.sampling), list(plan.uncertainty.parameters))
         return self.drawn
 
+    def share_rows(self, combination: Combination) -> tuple[np.ndarray, np.ndarray] | None:
+        """(A, b): every source's rebalanced share as A x + b in the continuous levers' values x, with the
+        combination's discrete shares set (affine: read at x = 0 and at each unit vector)."""
+        paths = [lever.path for lever in self.continuous]
+        if not any(is_share(path) for path in paths):
+            return None
+        shares = {name: s.share for name, s in self.project.electricity.sources.items()}
+        fixed = {source_of(path): float(value) for path, value in combination.discrete.items() if is_share(path)}
+        absorbers = {source_of(path): name for path, name in absorbers_of(self.levers).items()}
+
+        def at(x: np.ndarray) -> np.ndarray:
+            moved = {**fixed, **{source_of(path): x[j] for j, path in enumerate(paths) if is_share(path)}}
+            return np.array(list(rebalanced_shares(shares, moved, absorbers).values()), dtype=float)
+
+        offset = at(np.zeros(len(paths)))
+        matrix = np.column_stack([at(row) - offset for row in np.eye(len(paths))])
+        low, high = np.array([piece.low for piece in combination.pieces]), np.array([piece.high for piece in combination.pieces])
+        if (offset + np.minimum(matrix * low, matrix * high).sum(axis=1) >= 0).all():
+            return None  # no share can fall below 0 anywhere in the ranges: no constraint needed
+        return matrix, offset
+
     def start(self, problem: Continuous) -> np.ndarray:
         """The project's own values of the continuous levers, scaled (clipped into each piece)."""
         return problem.z_of([float(lever.project_value) for lever in self.continuous])
@@ -644,12 +722,12 @@ class Search:
             ok, p, se = evaluator.qualifies(np.zeros(0))
             margin = float(np.min(evaluator.constraint(np.zeros((1, 0)))[0]))
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se) if ok else None
-        problem = Continuous(evaluator, self.continuous, combination.pieces)
+        problem = Continuous(evaluator, self.continuous, combination.pieces, self.share_rows(combination))
         start = self.start(problem)
         iterations = 0
         central = None
         if evaluator.drawn is not None:  # start the draws' search from the answer at the central value
-            central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
+            central = Continuous(evaluator.central(), self.continuous, combination.pieces, problem.shares)
             guess, result = central.least_cost(start)
             iterations += int(result.nit)
             start = guess if np.min(central.g(guess)) >= 0 else start
@@ -688,7 +766,7 @@ class Search:
             margin = float(np.min(evaluator.constraint(np.zeros((1, 0)))[0]))
             ok, p, se = evaluator.qualifies(np.zeros(0))
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se)
-        problem = Continuous(evaluator, self.continuous, combination.pieces)
+        problem = Continuous(evaluator, self.continuous, combination.pieces, self.share_rows(combination))
         start = self.start(problem)
         if budget is not None:  # start from the cheapest point of each piece, which any budget that admits the piece affords
             start = problem.z_of([min((piece.low, piece.high, *_kinks(piece)), key=piece.cost) for piece in combination.pieces])
@@ -697,7 +775,7 @@ class Search:
         allowed = None if budget is None else budget - combination.discrete_cost
         iterations = 200
         if evaluator.drawn is not None:  # start from the central answer; a front point with draws gets FRONT_ITERATIONS
-            central = Continuous(Evaluator(evaluator.plan, self.schemes, evaluator.paths, evaluator.nominal, None, None), self.continuous, combination.pieces)
+            central = Continuous(evaluator.central(), self.continuous, combination.pieces, problem.shares)
             start, _, result = central.best_margin(start, allowed)
             self.iterations += int(result.nit)
             iterations = FRONT_ITERATIONS if budget is not None else iterations
@@ -831,6 +909,7 @@ class QualifyResult(BaseModel):
     solver: dict[str, Any]
     front: list[FrontPoint]
     notes: list[str]
+    operation: dict[str, Any] | None = None  # the operation lever: the plan's figures, objective, solver and tolerance
 
     def summary_for_ledger(self) -> dict:
         """The compact figures the run ledger keeps of a qualify search."""
@@ -839,7 +918,8 @@ class QualifyResult(BaseModel):
             changed = "; ".join(f"{c.parameter} = {c.value}" for c in self.changes if c.value != c.project_value) or "no change"
             headline = f"qualify for {', '.join(self.schemes)} {what}: {self.total_cost:,.6g} {self.cost_unit} ({changed})"
         else:
-            headline = f"qualify for {', '.join(self.schemes)} {what}: no solution within the levers' ranges (best margin {self.best_margin:.4g}, binding {self.binding_lever or 'none'})"
+            reached = f"best margin {self.best_margin:.4g}" if self.best_margin is not None else "no margin reached"
+            headline = f"qualify for {', '.join(self.schemes)} {what}: no solution within the levers' ranges ({reached}, binding {self.binding_lever or 'none'})"
         return {
             "analysis": "qualify",
             "headline": headline,
@@ -966,59 +1046,131 @@ def qualify(
     chosen = select_schemes(rulebooks(), schemes, project.project.product)
     search = Search(project, factor_set, resolve_levers(project, levers, levers_source), chosen, source, levers_source, gwp, year, confidence, draws, seed, sampling, uncertainty, series)
     combinations = search.combinations()
-    best, reached, final, checks, notes = _search(search, combinations)
+    if levers.operation is not None:
+        check_operation(search, levers, combinations)
+        *found, operation = _operation_search(search, combinations, *levers.operation)
+        front: list[FrontPoint] = []
+    else:
+        found, operation = _search(search, combinations), None
+        front = _front(search, combinations, found[0], budgets)
+    return _result(search, levers, combinations, original, tuple(found), front, operation)
+
+
+def _result(search: Search, levers: Levers, combinations: list[Combination], original, found: tuple, front: list[FrontPoint], operation: dict | None) -> QualifyResult:
+    """The result of a search: ``found`` is (least-cost answer, largest-margin answer, its project, its checks, notes)."""
+    best, reached, final, checks, notes = found
+    confidence, chosen, uncertainty = search.confidence, search.schemes, search.uncertainty
     if levers.invented:
-        notes.append(f"every price in {levers_source} is invented for the demonstration")
+        notes.append(f"every price in {search.levers_source} is invented for the demonstration")
     if confidence is not None and any(lever.path in (uncertainty.parameters if uncertainty else {}) for lever in search.levers):
         notes.append("a lever on a parameter with a distribution moves its draws with it (each draw times lever value / project value)")
     answer = best or reached
-    front = _front(search, combinations, best, budgets)
     values = answer.values if answer else {}
+    solver = _solver(search, combinations, confidence, search.seed)
+    if operation is not None:
+        solver["operation"] = f"{operation['solver']}; primal feasibility tolerance {operation['primal_feasibility_tolerance']:g}, emissions cap {operation['cap_inside_limit']:g} (relative) inside the limit"
     return QualifyResult(
         carbonledger_version=__version__,
         caution=CAUTION,
         from_memory=any(s.from_memory or any(t.from_memory for t in s.thresholds) for s in chosen),
-        project=project.project.name,
-        project_file=source,
-        levers_file=levers_source,
+        project=search.project.project.name,
+        project_file=search.source,
+        levers_file=search.levers_source,
         schemes=[s.id for s in chosen],
-        year=year,
+        year=search.year,
         confidence=confidence,
-        draws=draws if confidence is not None else None,
-        seed=seed if confidence is not None else None,
+        draws=search.draws if confidence is not None else None,
+        seed=search.seed if confidence is not None else None,
         status="qualifies" if best is not None else "no_solution",
         total_cost=best.cost if best is not None else None,
         currency=levers.currency,
         cost_unit=levers.cost_unit,
         prices_invented=levers.invented,
         levers=values if best is not None else {},
-        changes=_changes(search, values),
+        changes=_changes(search, values) + ([_operation_change(operation, levers)] if operation is not None else []),
         checks=checks,
         probability=answer.probability if answer else None,
         standard_error=answer.standard_error if answer else None,
         score_back_set=score_back_set(original, final) if best is not None and final is not None else [],
         best_margin=answer.margin if answer else None,
         binding_lever=(reached.note or None) if best is None and reached is not None else None,
-        reason=_no_solution_reason(best, reached),
-        solver=_solver(search, combinations, confidence, seed),
+        reason=_no_solution_reason(best, reached) if levers.operation is None or best is not None else "no combination of the levers has an operation that qualifies: the plan's linear program finds none",
+        solver=solver,
         front=front,
         notes=notes,
+        operation=operation,
+    )
+
+
+MAX_OPERATION_COMBINATIONS = 64  # each combination is one plan: a linear program over every interval of the series
+
+
+def check_operation(search: Search, levers: Levers, combinations: list[Combination]) -> None:
+    """An operation lever needs a time series, one scheme, the central value and discrete other levers."""
+    index, _ = levers.operation
+    where = _where(index, "kind")
+    if search.series is None:
+        raise InputError(search.levers_source, where, "an operation lever on a project with an electricity time series (electricity.time_series in the project file): the plan's linear program decides the load in each interval of it")
+    if len(search.schemes) != 1:
+        raise InputError(search.levers_source, where, f"one scheme with an operation lever (the plan keeps one scheme's check qualifying), got {', '.join(s.id for s in search.schemes)}")
+    if search.confidence is not None:
+        raise InputError("--confidence", str(search.confidence), "no confidence with an operation lever (the plan's linear program works at the central value)")
+    for lever in search.continuous:
+        raise InputError(search.levers_source, _where(lever.index, "range"), "a step with an operation lever (the other levers are enumerated, and each combination's operation planned)")
+    if len(combinations) > MAX_OPERATION_COMBINATIONS:
+        raise InputError(search.levers_source, "levers", f"at most {MAX_OPERATION_COMBINATIONS} combinations of discrete values with an operation lever (each is a linear program over the series), got {len(combinations)}")
+
+
+def _operation_search(search: Search, combinations: list[Combination], index: int, lever: Lever) -> tuple:
+    """Every combination of the discrete levers with its least-cost operation (``analyses.operation``); the
+    cheapest that qualifies, scored back with the plan's load as the series. Returns the tuple of ``_search``
+    and the operation's summary."""
+    best = None
+    for combination in combinations:
+        project = search.with_values(combination.discrete) if combination.discrete else search.project
+        found = plan_operation(project, search.factor_set, search.series, search.schemes[0].id, lever, source=search.source, gwp=search.gwp, year=search.year, where=(search.levers_source, _where(index, "kind")))
+        search.solved += 1
+        if found is not None and (best is None or combination.discrete_cost + found.cost < best[2]):
+            best = (combination, found, combination.discrete_cost + found.cost)
+    if best is None:
+        return None, None, None, [], [f"no operation of any combination of the levers qualifies for {search.schemes[0].id}: the plan's linear program finds none"], None
+    combination, operation, cost = best
+    final = search.with_values(combination.discrete) if combination.discrete else search.project
+    checks, ok = _checks(replace(search, series=planned_series(search.series, operation.plan)), final, Found({}, cost, True, 0.0))
+    margin = min((c.limit - c.value) / abs(c.limit) for c in checks)
+    summary = operation_summary(operation, lever, search.series)
+    if not ok:
+        notes = ["the least-cost operation did not qualify when scored back with the plan's load (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported"]
+        return None, Found(dict(combination.discrete), cost, False, margin), final, checks, notes, summary
+    notes = [f"the operation was planned by the linear program of `carbonledger plan` (HiGHS) for {summary['scheme']}: {summary['hydrogen_kg']:,.0f} kg H2 against {summary['baseline_hydrogen_kg']:,.0f} at rated power in every interval; score it back with that plan's series (`carbonledger plan ... --output`)"]
+    return Found(dict(combination.discrete), cost, True, margin), None, final, checks, notes, summary
+
+
+def _operation_change(operation: dict, levers: Levers) -> LeverChange:
+    """The operation lever as a change: hydrogen made under the plan, against rated power in every interval."""
+    return LeverChange(
+        parameter="operation", unit="kg H2", project_value=operation["baseline_hydrogen_kg"], value=operation["hydrogen_kg"],
+        cost=operation["cost"], kind="operation", range=[0.0, operation["baseline_hydrogen_kg"]],
     )
 
 
 def with_sources(project, levers: Levers, levers_source: str):
-    """The project with the levers file's new electricity sources at share 0."""
-    if not levers.sources:
+    """The project with the levers file's new electricity sources at share 0, and its battery (capacity 0 unless given)."""
+    if not levers.sources and not levers.battery:
         return project
     data = _plain(project.model_dump())
     for name, fields in levers.sources.items():
         if name in data["electricity"]["sources"]:
             raise InputError(levers_source, f"sources.{name}", f"a new source name (the project already has '{name}')")
         data = apply_overrides(data, [(f"electricity.sources.{path_key(name)}", {**copy.deepcopy(fields), "share": 0.0})], levers_source)
+    if levers.battery:
+        if data["electricity"].get("battery"):
+            raise InputError(levers_source, "battery", "no battery table when the project has one (put a lever on electricity.battery.capacity_kwh)")
+        data["electricity"]["battery"] = {"capacity_kwh": 0.0, **copy.deepcopy(levers.battery)}
     try:
         return validate_project(data, levers_source)
     except InputError as error:
-        raise InputError(levers_source, error.field.replace("electricity.sources.", "sources.", 1), error.expected) from None
+        raise InputError(levers_source, error.field.replace("electricity.sources.", "sources.", 1).replace("electricity.battery", "battery", 1), error.expected) from None
 
 
 def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], bool]:

@@ -62,6 +62,7 @@ from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY
 from ..routes.project import validate_project
 from .matching import ElectricityModel, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, scheme_granularity, series_matched_periods
+from .shares import negative_shares, rebalanced_shares, rebalancing_problem
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
@@ -179,12 +180,13 @@ class Plan:
     year: int | None = None  # the assessment year (default: the first full year after commissioning, else this year)
     used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
     series: Any = None  # the project's electricity time series: scheme values follow its matching
+    absorbers: dict[str, str] = field(default_factory=dict)  # share path -> the source taking up its difference (default: the unmoved, in proportion)
 
 
 def checked_parameter(project, factor_set: FactorSet, path: str, distribution, source: str) -> tuple:
     """(nominal value, pydantic field) of a parameter with a distribution, refused in one line where the
     distribution cannot apply: a text parameter takes a discrete choice of factor ids only, a number a
-    numeric distribution, and a share needs other sources to take up the rest."""
+    numeric distribution (shares are checked together in ``make_plan``)."""
     where = f"uncertainty.parameters.{path}"
     nominal, info = parameter_field(project, path, source, where)
     if isinstance(nominal, str):
@@ -197,10 +199,6 @@ def checked_parameter(project, factor_set: FactorSet, path: str, distribution, s
         raise InputError(source, where, f"a numeric parameter, got '{path}' = {nominal!r}")
     elif not distribution.numeric_values():
         raise InputError(source, where, "numbers as the values of a discrete distribution of a numeric parameter")
-    if path.startswith("electricity.sources.") and path.endswith(".share"):
-        others = sum(s.share for name, s in project.electricity.sources.items() if f"electricity.sources.{path_key(name)}.share" != path)
-        if not others > 0:
-            raise InputError(source, where, "a share with other sources to take up the rest (the shares always sum to 1)")
     return nominal, info
 
 
@@ -220,6 +218,10 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
     used = factors_used(project, factor_set, source, gwp, boundary)
     uncertainty = with_defaults(used, factor_set, uncertainty)
     fields = {path: checked_parameter(project, factor_set, path, distribution, source) for path, distribution in uncertainty.parameters.items()}
+    shared = [path for path in uncertainty.parameters if is_share_path(path)]
+    problem = rebalancing_problem({name: s.share for name, s in project.electricity.sources.items()}, [split_path(path)[2] for path in shared], {})
+    if problem:
+        raise InputError(source, f"uncertainty.parameters.{shared[0]}", problem)
     parameters = {path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}") for path, distribution in uncertainty.parameters.items()}
     factors = {}
     for factor_id, distribution in uncertainty.factors.items():
@@ -355,15 +357,27 @@ def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
     if plan.boundary is not None:
         params["project"]["boundary"] = plan.boundary
     for path, values in parameters.items():
-        _set(params, path, values)
-        if path.startswith("electricity.sources.") and path.endswith(".share"):
-            name = split_path(path)[2]
-            sources = params["electricity"]["sources"]
-            nominal_share = plan.fields[path][0]
-            for other, item in sources.items():
-                if other != name:
-                    item["share"] = item["share"] * (1 - values) / (1 - nominal_share)
+        if not is_share_path(path):
+            _set(params, path, values)
+    sources = params["electricity"]["sources"]
+    for name, share in shares_with_draws(plan, parameters).items():
+        sources[name]["share"] = share
     return params
+
+
+def is_share_path(path: str) -> bool:
+    return path.startswith("electricity.sources.") and path.endswith(".share")
+
+
+def shares_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict[str, Any]:
+    """Every source's share with the drawn (or set) shares in place, rebalanced together (``analyses.shares``;
+    ``plan.absorbers``: share path -> the source that takes up its difference). Empty when no share moves."""
+    moved = {split_path(path)[2]: values for path, values in parameters.items() if is_share_path(path)}
+    if not moved:
+        return {}
+    shares = {name: source.share for name, source in plan.project.electricity.sources.items()}
+    absorbers = {split_path(path)[2]: name for path, name in plan.absorbers.items()}
+    return rebalanced_shares(shares, moved, absorbers)
 
 
 def _factor_draws(plan: Plan, draws: Draws) -> dict[str, np.ndarray]:
@@ -406,6 +420,8 @@ def limit_breaks(plan: Plan, draws: Draws, count: int) -> tuple[np.ndarray, list
             record(values < lower if lower_in else values <= lower, path, f"{'>=' if lower_in else '>'} {lower:g}")
         if upper is not None:
             record(values > upper if upper_in else values >= upper, path, f"{'<=' if upper_in else '<'} {upper:g}")
+    for name, mask in negative_shares(shares_with_draws(plan, draws.parameters)).items():
+        record(np.asarray(mask, dtype=bool), f"electricity.sources.{path_key(name)}.share", ">= 0 after the moved shares are taken up")
     for factor_id, values in draws.factors.items():
         nominal = plan.factor_set.get(factor_id).value
         record(np.sign(values) * np.sign(nominal) < 0, factor_id, f"the sign of the factor's value ({nominal:g})")

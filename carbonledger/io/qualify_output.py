@@ -48,6 +48,8 @@ def qualify_rows(result: QualifyResult) -> list[tuple]:
             rows.append((f"front:{number}", "probability", point.probability, ""))
     rows += [("score_back_set", str(number), item, "") for number, item in enumerate(result.score_back_set)]
     rows += [("solver", key, value, "") for key, value in result.solver.items()]
+    if result.operation is not None:
+        rows += [("operation", key, "" if value is None else ("; ".join(value) if isinstance(value, list) else value), "") for key, value in result.operation.items()]
     rows += [("note", str(number), note, "") for number, note in enumerate(result.notes)]
     return rows
 
@@ -93,6 +95,8 @@ def qualify_table(result: QualifyResult) -> str:
         console.print("Score it back with: " + " ".join(f"--set '{item}'" for item in result.score_back_set))
     solver = result.solver
     console.print(f"Solver: {solver['continuous']}, tolerance {solver['tolerance']:g}; discrete: {solver['discrete']} ({solver['combinations']} combinations, {solver['solved']} solved, {solver['pruned']} pruned).")
+    if result.operation is not None:
+        console.print(f"Operation lever solved by the plan's linear program: {solver['operation']}; objective {result.operation['objective']}, {result.operation['lost']:,.6g} {result.operation['lost_unit']} given up against rated power in every interval.")
     for note in result.notes:
         console.print(f"note: {note}")
     console.print(f"Caution: {result.caution}")

@@ -17,9 +17,22 @@ Its cost, in the file's ``currency`` per ``period`` (e.g. EUR per year), is one 
 - ``table``: ``[[value, cost], ...]``; between the values of a continuous lever the cost is
   interpolated linearly, and the table covers the lever's range.
 
+Electricity share levers move together: each difference from a source's share is taken up by the
+sources no lever moves, in proportion to their shares, or by the one source a lever names in
+``absorbed_by`` (``analyses.shares``).
+
+A ``[battery]`` table adds an ``[electricity.battery]`` to the project (same fields; ``capacity_kwh``
+0 unless given), so that a lever on ``electricity.battery.capacity_kwh`` can size it.
+
 ``[sources.NAME]`` tables add electricity sources the levers may bring in; they join the project
 at share 0 (a lever on ``electricity.sources.NAME.share`` then moves them), with the same fields as
 a project's ``[electricity.sources.NAME]``.
+
+An operation lever (``kind = "operation"``, at most one) has no parameter: on a project with an
+electricity time series, the electrolyser's load in every interval is planned by the linear program
+of ``carbonledger plan`` (``analyses.plan``) for each combination of the other (discrete) levers;
+its cost is ``cost.per_unit`` times the plan's objective lost against running at rated power in every
+interval: kg H2 not made, or, with ``hydrogen_price``, margin lost in the series' price currency.
 """
 
 from __future__ import annotations
@@ -82,15 +95,30 @@ class Cost(BaseModel):
         return self
 
 
+OPERATION_FIELDS = ("rated_kw", "min_load", "hydrogen_price")
+
+
 class Lever(BaseModel):
     model_config = ConfigDict(extra="forbid")
-    parameter: str = Field(min_length=1)
+    kind: Literal["parameter", "operation"] = "parameter"
+    parameter: str | None = Field(None, min_length=1)
     range: tuple[float, float] | None = None
     step: float | None = Field(None, gt=0)
     values: list[Value] | None = Field(None, min_length=1)
     cost: Cost
-    rebalance: Literal["proportional"] = "proportional"  # an electricity share: the other sources take up the rest in proportion
+    rebalance: Literal["proportional"] = "proportional"  # an electricity share: the sources no lever moves take up the rest in proportion
+    absorbed_by: str | None = Field(None, min_length=1)  # an electricity share: the one source that takes up the difference instead
     note: str = ""
+    # an operation lever (kind = "operation"): the electrolyser's load, interval by interval, planned by
+    # the linear program of `carbonledger plan` (analyses.plan) against the project's time series
+    rated_kw: float | None = Field(None, gt=0, le=1e8)  # default: the largest load in the series
+    min_load: float = Field(0.0, ge=0, le=1)  # minimum stable load, a fraction of rated power
+    hydrogen_price: float | None = Field(None, ge=0, le=1e6)  # per kg H2 in the series' price currency: the plan maximises margin
+
+    @field_validator("rated_kw", "min_load", "hydrogen_price", mode="before")
+    @classmethod
+    def _finite_option(cls, value: Any) -> Any:
+        return None if value is None else _number(value)
 
     @field_validator("range", mode="before")
     @classmethod
@@ -104,6 +132,13 @@ class Lever(BaseModel):
 
     @model_validator(mode="after")
     def _shape(self):
+        if self.kind == "operation":
+            return self._operation()
+        if self.parameter is None:
+            raise ValueError("a parameter path (or kind = \"operation\")")
+        given = [name for name in OPERATION_FIELDS if name in self.model_fields_set]
+        if given:
+            raise ValueError(f"{', '.join(given)} only on an operation lever (kind = \"operation\")")
         if self.values is not None and self.range is not None:
             raise ValueError("range or values, not both")
         if self.values is None and self.range is None and self.cost.table is None:
@@ -114,6 +149,16 @@ class Lever(BaseModel):
             raise ValueError("a step (cost.per_step prices each step of the range)")
         if self.values is not None and len(set(map(str, self.values))) != len(self.values):
             raise ValueError("values without repeats")
+        return self
+
+    def _operation(self):
+        """An operation lever: no parameter, no values; priced per unit of the plan's objective lost."""
+        given = [name for name in ("parameter", "range", "step", "values", "absorbed_by") if getattr(self, name) is not None]
+        if given:
+            raise ValueError(f"an operation lever without {', '.join(given)} (the plan's linear program decides the load)")
+        if self.cost.per_unit is None:
+            raise ValueError("cost.per_unit on an operation lever: the price of each kg H2 not made (or, with hydrogen_price, of each unit of the series' currency of margin lost)")
+        self.parameter = "operation"
         return self
 
     @property
@@ -141,6 +186,7 @@ class Levers(BaseModel):
     note: str = ""
     invented: bool = False  # every price is invented (demo files): shown with the result
     sources: dict[str, dict[str, Any]] = {}
+    battery: dict[str, Any] = {}  # an [electricity.battery] the levers may size (capacity_kwh default 0)
     levers: list[Lever] = Field(min_length=1)
 
     @field_validator("levers", mode="before")
@@ -157,14 +203,23 @@ class Levers(BaseModel):
             if lever.parameter in seen:
                 raise ValueError(f"one lever per parameter, '{lever.parameter}' has two")
             seen.add(lever.parameter)
-        shares = [lever.parameter for lever in self.levers if is_share(lever.parameter)]
-        if len(shares) > 1:
-            raise ValueError(f"at most one electricity share lever (each takes its share from the others in proportion, so a second would move the first), got {', '.join(shares)}")
+        for lever in self.levers:
+            if lever.absorbed_by is not None and not is_share(lever.parameter):
+                raise ValueError(f"absorbed_by only on an electricity share lever, got it on '{lever.parameter}'")
         return self
 
     @property
     def cost_unit(self) -> str:
         return f"{self.currency} per {self.period}"
+
+    @property
+    def operation(self) -> tuple[int, Lever] | None:
+        """The operation lever and its index, if the file has one."""
+        return next(((index, lever) for index, lever in enumerate(self.levers) if lever.kind == "operation"), None)
+
+    @property
+    def parameter_levers(self) -> list[Lever]:
+        return [lever for lever in self.levers if lever.kind == "parameter"]
 
 
 def is_share(path: str) -> bool:

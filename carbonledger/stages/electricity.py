@@ -66,3 +66,22 @@ def accounting_basis(factor_id: str) -> str:
        are reported apart, never blended (from memory).
     """
     return ACCOUNTING_BASIS.get(kind_of_source(factor_id), "")
+
+
+def battery_delivered_share(capacity_kwh, full_cycles_per_year, electricity_kwh_per_year):
+    """Share of the plant's electricity delivered from a battery: capacity x full cycles a year over the
+    plant's electricity use a year (a full cycle delivers the usable capacity once)."""
+    return capacity_kwh * full_cycles_per_year / electricity_kwh_per_year
+
+
+def charged_source_kwh_per_kwh(share, delivered_share, round_trip_efficiency):
+    """kWh bought from the source that charges a battery, per kWh the plant uses: its own share, plus
+    the battery's delivery divided by the round-trip efficiency (energy delivered / energy charged),
+    so the round-trip losses, delivered x (1 / efficiency - 1), are bought as extra electricity."""
+    return share + delivered_share / round_trip_efficiency
+
+
+def displaced_source_kwh_per_kwh(share, charged_share, delivered_share):
+    """kWh bought from each other source per kWh the plant uses: the battery's delivery displaces the
+    other sources in proportion to their shares (they supply 1 - charged share - delivered share together)."""
+    return share * (1 - charged_share - delivered_share) / (1 - charged_share)
