@@ -35,7 +35,7 @@ from ..model.distributions import Uncertainty, Uniform
 from ..model.factors import FactorSet, factors_root
 from ..model.pedigree import grade_defaults
 from ..model.project import parameter_table
-from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, checked_parameter, draws_from_uniform, evaluate_in_blocks, factors_used, limit_breaks, make_plan, no_usable_draw
+from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, checked_parameter, draws_from_uniform, evaluate_in_blocks, factors_used, is_share_path, limit_breaks, make_plan, no_usable_draw
 
 TORNADO_PERCENTILES = (0.10, 0.90)
 SWING_PERCENT = 10.0  # the default move of each input in the one-at-a-time swing, per cent of its own value
@@ -184,12 +184,14 @@ def _moved(value: float, fraction: float) -> Uniform:
 def swing_inputs(project, factor_set: FactorSet, used: dict, fraction: float, source: str) -> tuple[Uncertainty, dict, list[str]]:
     """(the inputs to move, each as a uniform range of +-x %; their units; the factors held fixed).
 
-    Every numeric parameter with a unit and a value other than 0 that a distribution could move (a sole
-    electricity source's share cannot), and every factor row the project reads with a value other than
-    0, but characterisation factors and physical properties (``grade_defaults().held_fixed``)."""
+    Every numeric parameter with a unit and a value other than 0 that a distribution could move, and every
+    factor row the project reads with a value other than 0, but characterisation factors and physical
+    properties (``grade_defaults().held_fixed``). Electricity shares are left out: they sum to 1, so moving
+    one alone moves another, which a one-at-a-time swing cannot say (a distribution or ``--set`` with
+    ``--rebalance`` can)."""
     parameters, units = {}, {}
     for path, value, unit, _ in parameter_table(project):
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or unit in ("", "date"):
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or unit in ("", "date") or is_share_path(path):
             continue
         try:
             checked_parameter(project, factor_set, path, _moved(value, fraction), source)
