@@ -53,7 +53,7 @@ from ..core.verdicts import Period, status_of
 from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row
-from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
+from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, rebalanced_shares, split_path
 from ..model.rulebooks import select_schemes
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
@@ -334,10 +334,10 @@ def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
         if path.startswith("electricity.sources.") and path.endswith(".share"):
             name = split_path(path)[2]
             sources = params["electricity"]["sources"]
-            nominal_share = plan.fields[path][0]
-            for other, item in sources.items():
-                if other != name:
-                    item["share"] = item["share"] * (1 - values) / (1 - nominal_share)
+            others = [other for other in sources if other != name]
+            shares = rebalanced_shares({key: item["share"] for key, item in sources.items()}, others)
+            for other in others:
+                sources[other]["share"] = shares[other]
     return params
 
 

@@ -35,6 +35,8 @@ from .options import (
     LedgerOption,
     NoLedgerOption,
     OutputFormat,
+    RebalanceOption,
+    RulebookOption,
     SchedulerOption,
     SchemeOption,
     SetOption,
@@ -43,6 +45,7 @@ from .options import (
     check_chart_path,
     fail,
     render,
+    with_rebalance,
 )
 
 
@@ -77,9 +80,11 @@ def uncertainty(
     sampling: SamplingOption = None,
     distributions: DistributionsOption = None,
     scheme: SchemeOption = None,
+    rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
     workers: WorkersOption = None,
@@ -91,6 +96,7 @@ def uncertainty(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
@@ -134,10 +140,12 @@ def headroom(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
     parameter: Annotated[list[str], typer.Option("--parameter", help="Parameter path as `carbonledger params` lists it (repeatable).")],
     scheme: Annotated[str, typer.Option("--scheme", help="Scheme id (see `carbonledger schemes`).")],
+    rulebook: RulebookOption = None,
     tier: Annotated[Optional[str], typer.Option("--tier", help="Tier name of the scheme; default its loosest threshold.")] = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
     output_format: FormatOption = OutputFormat.table,
@@ -145,6 +153,7 @@ def headroom(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """The value of each parameter at which a scheme's limit is met exactly (null with a reason when none)."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year)
@@ -159,6 +168,7 @@ def headroom(
 def sensitivity(
     project: Annotated[Path, typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions).")],
     scheme: Annotated[Optional[str], typer.Option("--scheme", help="Scheme id: analyse its value (limit marked on the chart); default the total.")] = None,
+    rulebook: RulebookOption = None,
     base_sample: Annotated[int, typer.Option("--base-sample", help="N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).")] = 1024,
     seed: SeedOption = DEFAULT_SEED,
     distributions: DistributionsOption = None,
@@ -167,6 +177,7 @@ def sensitivity(
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
     output_format: FormatOption = OutputFormat.table,
@@ -174,6 +185,7 @@ def sensitivity(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Which inputs decide the result: Sobol indices (SALib) and a 10th/90th percentile tornado."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
