@@ -13,8 +13,9 @@ import typer
 from .. import api
 from ..errors import InputError
 from ..io.chart_files import CHART_FORMATS
+from ..io.tables import user_rulebook_line
 from ..model.project import rebalance_override
-from ..model.rulebooks import reset_user_rulebooks, set_user_rulebooks
+from ..model.rulebooks import reset_user_rulebooks, set_user_rulebooks, user_rulebooks
 from .words import WordsGroup, words_for_types  # noqa: F401  (re-exported: the commands' groups use them)
 
 
@@ -85,7 +86,10 @@ def fail(error: InputError) -> None:
 def render(output_format: OutputFormat, *, table: Callable[[], str], json: Callable[[], str], csv: Callable[[], str]) -> str:
     """The output text of a command in the chosen format (every command offers all three)."""
     text = {OutputFormat.table: table, OutputFormat.json: json, OutputFormat.csv: csv}[output_format]()
-    return text if text.endswith("\n") else text + "\n"
+    text = text if text.endswith("\n") else text + "\n"
+    if output_format == OutputFormat.table:  # every table names the user rulebooks in use (a score's names them already)
+        text += "".join(line + "\n" for line in map(user_rulebook_line, user_rulebooks().values()) if line not in text)
+    return text
 
 
 def explicit(ctx: typer.Context, name: str, value):

@@ -182,9 +182,10 @@ def rebalanced_lines(shares: dict[str, float]) -> list[str]:
     return [f"electricity share rebalanced: {name} {display_number(share)}, 1 less the other sources' shares after --set (--rebalance {name})" for name, share in shares.items()]
 
 
-def user_rulebook_line(check) -> str:
-    """The mark of a check under a user rulebook: whose limits they are, and the file."""
-    return f"{check.scheme}: {USER_RULEBOOK}, read from {check.rulebook_file}: the limits are the user's own, not a shipped scheme's"
+def user_rulebook_line(scheme) -> str:
+    """The mark of a user rulebook (a ``Scheme``, or a ``Check`` under one): whose limits they are, and the file."""
+    scheme_id, file = (scheme.scheme, scheme.rulebook_file) if hasattr(scheme, "rulebook_file") else (scheme.id, scheme.user_file)
+    return f"{scheme_id}: {USER_RULEBOOK}, read from {file}: the limits are the user's own, not a shipped scheme's"
 
 
 def render(result: ScoreResult) -> str:
