@@ -242,3 +242,16 @@ def test_the_shipped_rulebooks_state_their_unit_as_their_quantity_takes_it():
 
     for scheme in load_schemes().values():  # the same check a user rulebook passes
         assert "".join(scheme.unit.split()).lower() in {"".join(u.split()).lower() for u in QUANTITY_UNITS[scheme.quantity]}
+
+
+def test_qualify_finds_the_grid_share_at_the_contract_limit_worked_by_hand():
+    # the grid share s where 53.5 x (s x 0.281 + (1 - s) x 0.011) = 2.0: s = (2.0 / 53.5 - 0.011) / (0.281 - 0.011)
+    grid, wind = factor_kg_per_kwh("electricity.grid.eu27_2018"), factor_kg_per_kwh("electricity.renewable.wind_onshore")
+    share = (CONTRACT_LIMIT / KWH_PER_KG_H2 - wind) / (grid - wind)  # 0.0977
+    levers = DEMO / "levers" / "grid_electrolysis_hydrogen.toml"
+    result = run_cli("qualify", GRID_H2, "--levers", levers, "--scheme", "offtake-contract", "--rulebook", OFFTAKE, "--front", "0", "--no-ledger", "--format", "json")
+    assert result.exit_code == 0, result.output
+    answer = json.loads(result.stdout)
+    found = dict(item.split("=", 1) for item in answer["score_back_set"])
+    assert float(found["electricity.sources.grid.share"]) == pytest.approx(share, rel=1e-6)
+    assert [(c["scheme"], c["status"]) for c in answer["checks"]] == [("offtake-contract", "qualifies")]
