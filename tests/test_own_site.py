@@ -217,6 +217,7 @@ def bad_rulebook(tmp_path, name: str, change) -> str:
     ("name", "change", "field", "words"),
     [
         ("unknown_key.toml", lambda t: t.replace("limit = 2.0\n", 'limit = 2.0\ncurrency = "EUR"\n'), "thresholds.0.currency", "no such key"),
+        ("misspelt_key.toml", lambda t: t.replace("limit = 2.0\n", "limt = 2.0\n"), "thresholds.0.limt", "did you mean 'limit'"),
         ("no_unit.toml", lambda t: t.replace('unit = "kg CO2e/kg H2"\n', ""), "unit", "'kg CO2e/kg H2'"),
         ("per_kwh.toml", lambda t: t.replace('unit = "kg CO2e/kg H2"', 'unit = "kg CO2e/kWh"'), "unit", "got 'kg CO2e/kWh'"),
         ("per_mj_in_kg.toml", lambda t: t.replace('quantity = "kg_co2e_per_kg_h2"', 'quantity = "g_co2e_per_mj"'), "unit", "quantity 'g_co2e_per_mj'"),

@@ -317,13 +317,29 @@ def read_rulebook(path: Path, text: str) -> Scheme:
     try:
         return Scheme.model_validate(data)
     except ValidationError as error:
-        first = error.errors()[0]
+        errors = error.errors()
+        # a misspelt key shows up twice: as unknown, and as the right key missing; name the unknown one
+        first = next((e for e in errors if e["type"] == "extra_forbidden"), errors[0])
         field = ".".join(str(p) for p in first["loc"])
         if first["type"] == "missing" and field == "unit":
             raise InputError(path, field, unit_expected(str(data.get("quantity", "")))) from None
+        if first["type"] == "extra_forbidden":
+            key = str(first["loc"][-1])
+            raise InputError(path, field, f"no such key in a rulebook{did_you_mean(key, rulebook_keys())} (the keys: see factors/schemes/*.toml)") from None
         expected = first["msg"].removeprefix("Value error, ")
-        expected = {"extra_forbidden": "no such key in a rulebook (see factors/schemes/*.toml for the keys)"}.get(first["type"], expected[:1].lower() + expected[1:])
-        raise InputError(path, field, expected) from None
+        raise InputError(path, field, expected[:1].lower() + expected[1:]) from None
+
+
+def rulebook_keys(model: type[BaseModel] | None = None) -> set[str]:
+    """Every key a rulebook may hold, at any level (for "did you mean")."""
+    keys: set[str] = set()
+    for name, info in (model or Scheme).model_fields.items():
+        keys.add(name)
+        for inner in (info.annotation, *getattr(info.annotation, "__args__", ())):
+            for nested in (inner, *getattr(inner, "__args__", ())):
+                if isinstance(nested, type) and issubclass(nested, BaseModel):
+                    keys |= rulebook_keys(nested)
+    return keys
 
 
 def load_user_rulebooks(paths: Sequence[str | Path], shipped: dict[str, Scheme]) -> dict[str, Scheme]:
