@@ -256,3 +256,14 @@ def test_qualify_finds_the_grid_share_at_the_contract_limit_worked_by_hand():
     found = dict(item.split("=", 1) for item in answer["score_back_set"])
     assert float(found["electricity.sources.grid.share"]) == pytest.approx(share, rel=1e-6)
     assert [(c["scheme"], c["status"]) for c in answer["checks"]] == [("offtake-contract", "qualifies")]
+
+
+def test_an_analysis_names_the_user_rulebook_in_its_table_and_json():
+    args = ("headroom", DEMO / "blue_smr_hydrogen.toml", "--scheme", "offtake-contract", "--parameter", "capture.capture_rate", "--rulebook", OFFTAKE, "--no-ledger")
+    table = run_cli(*args)
+    assert table.exit_code == 0, table.output
+    assert f"offtake-contract: user rulebook, read from {OFFTAKE}" in table.stdout
+    data = json.loads(run_cli(*args, "--format", "json").stdout)
+    assert data["user_rulebooks"] == [{"id": "offtake-contract", "file": str(OFFTAKE)}]
+    plain = json.loads(run_cli("headroom", DEMO / "blue_smr_hydrogen.toml", "--scheme", "us-45v", "--parameter", "capture.capture_rate", "--no-ledger", "--format", "json").stdout)
+    assert "user_rulebooks" not in plain

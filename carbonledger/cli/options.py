@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json as json_module
 from collections.abc import Callable
 from datetime import datetime, timedelta
 from enum import StrEnum
@@ -11,6 +12,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import api
+from ..core.results import strict_json
 from ..errors import InputError
 from ..io.chart_files import CHART_FORMATS
 from ..io.tables import user_rulebook_line
@@ -89,7 +91,20 @@ def render(output_format: OutputFormat, *, table: Callable[[], str], json: Calla
     text = text if text.endswith("\n") else text + "\n"
     if output_format == OutputFormat.table:  # every table names the user rulebooks in use (a score's names them already)
         text += "".join(line + "\n" for line in map(user_rulebook_line, user_rulebooks().values()) if line not in text)
+    if output_format == OutputFormat.json:
+        text = json_naming_user_rulebooks(text)
     return text
+
+
+def json_naming_user_rulebooks(text: str) -> str:
+    """A JSON object with ``user_rulebooks`` (id and file of each in use) at its top level; as it was without any."""
+    if not user_rulebooks():
+        return text
+    data = json_module.loads(text)
+    if not isinstance(data, dict):
+        return text
+    data["user_rulebooks"] = [{"id": scheme.id, "file": scheme.user_file} for scheme in user_rulebooks().values()]
+    return strict_json(data, "--rulebook") + "\n"
 
 
 def explicit(ctx: typer.Context, name: str, value):
