@@ -34,7 +34,7 @@ from .analyses.sensitivity import SWING_PERCENT, Sensitivity
 from .analyses.sensitivity import sensitivity as sensitivity_of
 from .analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo, uncertain_inputs
 from .core.results import ScoreResult
-from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, solve_stacked, solve_with_bw2calc
+from .core.scoring import DEFAULT_GWP, assemble, prepare, score_project, shipped_rulebooks, solve_stacked, solve_with_bw2calc
 from .errors import InputError
 from .io.ledger import LedgerRecord, RunTarget, factor_row, open_run, project_history, run_target, write_batch
 from .io.ledger_store import Location
@@ -51,7 +51,8 @@ from .io.workbook.writer import build_workbook
 from .model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from .model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from .model.levers import read_levers
-from .model.project import boundary_id, parameter_table, read_project_file
+from .model.project import boundary_id, parameter_table, read_project_file, rebalanced_sources
+from .model.rulebooks import load_user_rulebooks, using_rulebooks
 from .routes.project import load_project
 
 __all__ = [
@@ -74,7 +75,19 @@ __all__ = [
     "qualify",
     "sensitivity",
     "uncertainty_many",
+    "user_rulebooks",
+    "using_rulebooks",
 ]
+
+
+def user_rulebooks(paths: list[str | Path]):
+    """The user's own rulebooks (TOML files in the format of ``factors/schemes``), validated: id -> Scheme.
+    Use them with ``using_rulebooks``::
+
+        with api.using_rulebooks(api.user_rulebooks(["offtake_contract.toml"])):
+            result = api.score("project.toml")  # the contract's check beside the shipped schemes
+    """
+    return load_user_rulebooks(paths, shipped_rulebooks())
 
 
 def _factor_set(factors: str | Path | FactorSet) -> FactorSet:
@@ -107,7 +120,9 @@ def score(
     factors : factor set name, set folder, override CSV, or a loaded FactorSet.
     gwp : GWP100 set of the headline result ('ar4', 'ar5', 'ar6'); each scheme check uses its own.
     schemes : scheme ids to check; default all that apply to the product.
-    overrides : 'dotted.parameter=value' strings applied to the project before validation.
+    overrides : 'dotted.parameter=value' strings applied to the project before validation;
+        'electricity.sources.NAME.share=rest' (``--rebalance NAME``) gives that source 1 less the
+        other sources' shares after the others are set (refused when that is not from 0 to 1).
     boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
     matching : with an electricity time series, a granularity (interval, hour, month, quarter,
         year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
@@ -123,8 +138,18 @@ def score(
     if series is None:
         if matching not in (None, "declared"):
             raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
-        return score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matched_periods)
-    return score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching, year=year)
+        result = score_project(project, _factor_set(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matched_periods)
+    else:
+        result = score_with_series(project, _factor_set(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching, year=year)
+    return stating_rebalance(result, project, overrides)
+
+
+def stating_rebalance(result: ScoreResult, project, overrides: list[str] | None) -> ScoreResult:
+    """The result stating each electricity share that took up the difference to 1 (--rebalance)."""
+    names = rebalanced_sources(overrides)
+    if not names:
+        return result
+    return result.model_copy(update={"rebalanced_shares": {name: project.electricity.sources[name].share for name in names}})
 
 
 def score_workbook(
@@ -140,7 +165,8 @@ def score_workbook(
     """Score the inputs and factors of an audit workbook; options left None default to its cover."""
     project, sha, settings = load_project_from_workbook(path, _boundary_overrides(boundary, overrides))
     factor_set = factor_set_from_workbook(path, base_factor_set(settings, factors))
-    return score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha, year=year)
+    result = score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha, year=year)
+    return stating_rebalance(result, project, overrides)
 
 
 def load_any_project(path: str | Path, factor_set: FactorSet, overrides: list[str] | None = None):
@@ -683,6 +709,7 @@ def report_date() -> str:
 # --- the evidence pack ----------------------------------------------------------------------------
 
 PACK_PROJECT_FOLDER = "project"
+PACK_RULEBOOK_FOLDER = "rulebooks"  # the user rulebooks (--rulebook) in a pack
 
 
 def files_read_by(project, project_file: str | Path) -> dict[str, Path]:
@@ -713,19 +740,32 @@ def pack(
     year: int | None = None,
     ledger: str | Path | None = None,
     force: bool = False,
+    rulebooks: list[str | Path] | None = None,
 ) -> tuple[dict, ScoreResult]:
     """Write an evidence pack of a project: the project file and every file it reads, the factor
     overrides (a factor CSV or set folder given as ``factors``; a shipped set is named with its
-    sha256), the result as JSON, the audit workbook, the report, the project's records in the run
-    ledger, and a manifest with the sha256 of every file, the version and the assessment year.
+    sha256), the user's own rulebooks (``rulebooks``, checked beside the schemes), the result as
+    JSON, the audit workbook, the report, the project's records in the run ledger, and a manifest
+    with the sha256 of every file, the version and the assessment year.
     Returns the manifest and the result packed."""
-    project_file = Path(project_file)
+    packed_rulebooks = {}
+    for path in dict.fromkeys(Path(given) for given in rulebooks or []):
+        name = f"{PACK_RULEBOOK_FOLDER}/{path.name}"
+        if name in packed_rulebooks:
+            raise InputError(path, "--rulebook", f"a file name of its own in the pack ({packed_rulebooks[name]} has the name {path.name} too)")
+        packed_rulebooks[name] = path
+    with using_rulebooks(user_rulebooks(list(packed_rulebooks.values()))):
+        return _pack(Path(project_file), output, factors, gwp, schemes, year, ledger, force, packed_rulebooks)
+
+
+def _pack(project_file: Path, output, factors, gwp, schemes, year, ledger, force, packed_rulebooks: dict[str, Path]) -> tuple[dict, ScoreResult]:
     project, _ = load_project(project_file)
     factor_set = load_factor_set(factors)
     result = score(project_file, factors=factor_set, gwp=gwp, schemes=schemes, year=year)
     year = int(getattr(result, "assessment_year", None) or next((c.assessment_period for c in result.checks if c.assessment_period), None) or year or datetime.now(UTC).year)
     files = {f"{PACK_PROJECT_FOLDER}/{project_file.name}": project_file.read_bytes()}
     files.update({f"{PACK_PROJECT_FOLDER}/{name}": path.read_bytes() for name, path in files_read_by(project, project_file).items()})
+    files.update({name: path.read_bytes() for name, path in packed_rulebooks.items()})
     factors_in_pack = ""
     overrides = Path(factors)
     if overrides.is_file():
@@ -748,7 +788,7 @@ def pack(
         carbonledger_version=result.carbonledger_version,
         assessment_year=year,
         project=f"{PACK_PROJECT_FOLDER}/{project_file.name}",
-        options={"factors": factors_in_pack or factor_set.name, "gwp": gwp, "schemes": schemes or [], "year": year},
+        options={"factors": factors_in_pack or factor_set.name, "gwp": gwp, "schemes": schemes or [], "year": year, "rulebooks": list(packed_rulebooks)},
         factor_set={"name": factor_set.name, "sha256": factor_set.sha256},
         caution=CAUTION,
     )
@@ -784,7 +824,8 @@ def verify_pack(path: str | Path) -> list[tuple[str, object, object, bool]]:
         expected_sha = manifest.get("factor_set", {}).get("sha256")
         if not factors.startswith("factors/") and expected_sha and factor_set.sha256 != expected_sha:
             raise InputError(path, "factor_set", f"factor set '{factors}' with sha256 {expected_sha} as packed; this installation's has {factor_set.sha256}")
-        rescored = score(Path(folder) / manifest["project"], factors=factor_set, gwp=options.get("gwp", DEFAULT_GWP), schemes=options.get("schemes") or None, year=options.get("year"))
+        with using_rulebooks(user_rulebooks([Path(folder) / name for name in options.get("rulebooks", [])])):
+            rescored = score(Path(folder) / manifest["project"], factors=factor_set, gwp=options.get("gwp", DEFAULT_GWP), schemes=options.get("schemes") or None, year=options.get("year"))
     before = packed_figures(json.loads(packed.files["result.json"]))
     after = packed_figures(json.loads(rescored.to_json()))
     rows = []

@@ -93,11 +93,11 @@ def test_a_rulebook_that_nets_stored_biogenic_co2(tmp_path, monkeypatch):
     scheme.write_text(scheme.read_text().replace("nets_stored_biogenic_co2 = false", "nets_stored_biogenic_co2 = true"))
     plain = score(_project(tmp_path), schemes=["us-45v"])
     monkeypatch.setenv("CARBONLEDGER_FACTORS", str(factors))
-    scoring.rulebooks.cache_clear()
+    scoring.shipped_rulebooks.cache_clear()
     try:
         netted = score(_project(tmp_path), schemes=["us-45v"], factors=str(factors / "sets" / "default-2026"))
     finally:
-        scoring.rulebooks.cache_clear()
+        scoring.shipped_rulebooks.cache_clear()
     assert netted.total == pytest.approx(plain.total, rel=1e-12)
     assert plain.checks[0].value - netted.checks[0].value == pytest.approx(STORED, rel=1e-4)
 

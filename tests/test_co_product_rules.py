@@ -35,9 +35,9 @@ def covering(tmp_path, monkeypatch):
         path = factors / "schemes" / f"{name}.toml"
         path.write_text(path.read_text().replace('"biomethane_reforming"]', '"biomethane_reforming", "methane_pyrolysis", "chlor_alkali_by_product"]'))
     monkeypatch.setenv("CARBONLEDGER_FACTORS", str(factors))
-    scoring.rulebooks.cache_clear()
+    scoring.shipped_rulebooks.cache_clear()
     yield factors
-    scoring.rulebooks.cache_clear()
+    scoring.shipped_rulebooks.cache_clear()
 
 
 def test_every_rulebook_states_its_co_product_rule_with_a_source():

@@ -111,12 +111,12 @@ def test_a_rulebook_that_counts_construction_uses_the_average_with_it(tmp_path, 
     scheme = factors / "schemes" / "us-45v.toml"
     scheme.write_text(scheme.read_text().replace("counts_construction = false", "counts_construction = true"))
     monkeypatch.setenv("CARBONLEDGER_FACTORS", str(factors))
-    scoring.rulebooks.cache_clear()
+    scoring.shipped_rulebooks.cache_clear()
     try:
         project_folder = tmp_path / "p"
         result = _score(project_folder, SHORT_LIFE, {2030: 300, 2031: 200, 2032: 100})
     finally:
-        scoring.rulebooks.cache_clear()
+        scoring.shipped_rulebooks.cache_clear()
     us = next(s for s in result.schemes if s.scheme == "us-45v")
     assert us.counts_construction and us.lifetime_value == pytest.approx(15000 / 1450 + 1.0)
 

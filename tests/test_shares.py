@@ -1,4 +1,4 @@
-"""Electricity shares moved together (``analyses.shares``), checked against arithmetic written out by hand,
+"""Electricity shares moved together (``model.shares``), checked against arithmetic written out by hand,
 and the one place both Monte Carlo draws and the levers of ``qualify`` use it (``params_with_draws``)."""
 
 from __future__ import annotations
@@ -6,11 +6,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from carbonledger.analyses.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from carbonledger.analyses.uncertainty import Draws, limit_breaks, make_plan, params_with_draws
 from carbonledger.core.scoring import DEFAULT_GWP
 from carbonledger.model.distributions import parse_uncertainty
 from carbonledger.model.factors import load_factor_set
+from carbonledger.model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from carbonledger.routes.project import load_project
 from tests.helpers import DEMO
 

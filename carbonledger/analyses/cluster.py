@@ -18,6 +18,7 @@ import contextlib
 from collections.abc import Callable, Iterator
 
 from ..errors import InputError
+from ..model.rulebooks import user_rulebooks
 
 PIECES_PER_WORKER = 2
 
@@ -32,6 +33,8 @@ def dask_mapper(workers: int | None = None, scheduler: str | None = None) -> Ite
         raise InputError("--workers", str(workers), "either --workers (a local cluster) or --scheduler (an existing one), not both")
     if workers is not None and workers < 1:
         raise InputError("--workers", str(workers), "at least 1 worker")
+    if user_rulebooks():
+        raise InputError("--rulebook", next(iter(user_rulebooks().values())).user_file, "no --workers or --scheduler with a user rulebook (the workers read the shipped rulebooks only)")
     import logging
 
     try:

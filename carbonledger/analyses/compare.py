@@ -175,7 +175,7 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
     known = rulebooks()
     schemes = scheme_ids(schemes, known) or None
     if schemes:
-        results = [r.model_copy(update={"checks": [c for c in r.checks if c.scheme in schemes]}) for r in results]
+        results = [r.model_copy(update={"checks": [c for c in r.checks if c.scheme in schemes or c.user_rulebook]}) for r in results]
     boundaries = {r.boundary for r in results}
     if len(boundaries) > 1:
         listed = ", ".join(f"{r.project_file}: {r.boundary}" for r in results)

@@ -6,7 +6,7 @@ limits; a parameter without an upper limit is scanned to 100 times its value) wi
 stacked draws as the Monte Carlo, the crossing nearest the project's own value is bracketed and
 refined with ``scipy.optimize.brentq``, and the value found is verified by scoring the project at
 it with bw2calc (agreement to 1e-6 relative). A share of one electricity source takes its
-share from the others in proportion (``analyses.shares``), so the shares keep summing to one.
+share from the others in proportion (``model.shares``), so the shares keep summing to one.
 
 References
 ----------

@@ -75,11 +75,11 @@ from ..model.factors import FactorSet
 from ..model.levers import MAX_COMBINATIONS, Lever, Levers, is_share
 from ..model.project import apply_overrides, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
+from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..routes.project import validate_project
 from .matching import score_with_series
 from .operation import operation_summary, plan_operation, planned_series
-from .shares import negative_shares, rebalanced_shares, rebalancing_problem
 from .uncertainty import Draws, Plan, draw, evaluate, limit_breaks, make_plan, params_with_draws, probability, statuses
 
 SOLVER = "SLSQP (scipy.optimize.minimize)"
@@ -645,7 +645,7 @@ class Search:
         return plan
 
     def with_values(self, values: dict[str, Any]):
-        """The validated project with lever values set (the share levers rebalanced together, ``analyses.shares``)."""
+        """The validated project with lever values set (the share levers rebalanced together, ``model.shares``)."""
         base = self.project
         plan = self.lever_plan(base)
         plan.fields = {path: parameter_field(base, path, self.source) for path in values}

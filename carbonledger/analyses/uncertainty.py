@@ -57,12 +57,12 @@ from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row, factors_root
 from ..model.pedigree import grade_defaults
 from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
+from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY
 from ..routes.project import validate_project
 from .matching import ElectricityModel, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, scheme_granularity, series_matched_periods
-from .shares import negative_shares, rebalanced_shares, rebalancing_problem
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
@@ -370,7 +370,7 @@ def is_share_path(path: str) -> bool:
 
 
 def shares_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict[str, Any]:
-    """Every source's share with the drawn (or set) shares in place, rebalanced together (``analyses.shares``;
+    """Every source's share with the drawn (or set) shares in place, rebalanced together (``model.shares``;
     ``plan.absorbers``: share path -> the source that takes up its difference). Empty when no share moves."""
     moved = {split_path(path)[2]: values for path, values in parameters.items() if is_share_path(path)}
     if not moved:

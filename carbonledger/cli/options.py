@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json as json_module
 from collections.abc import Callable
 from datetime import datetime, timedelta
 from enum import StrEnum
@@ -10,8 +11,13 @@ from typing import Annotated, Optional
 
 import typer
 
+from .. import api
+from ..core.results import strict_json
 from ..errors import InputError
 from ..io.chart_files import CHART_FORMATS
+from ..io.tables import user_rulebook_line
+from ..model.project import rebalance_override
+from ..model.rulebooks import reset_user_rulebooks, set_user_rulebooks, user_rulebooks
 from .words import WordsGroup, words_for_types  # noqa: F401  (re-exported: the commands' groups use them)
 
 
@@ -24,6 +30,28 @@ class OutputFormat(StrEnum):
 FactorsOption = Annotated[str, typer.Option("--factors", metavar="SET", help="Factor set name, set folder, or override CSV over the default set.")]
 GwpOption = Annotated[str, typer.Option("--gwp", metavar="ar4|ar5|ar6", help="GWP100 set of the headline result: ar4, ar5 or ar6.")]
 SchemeOption = Annotated[Optional[list[str]], typer.Option("--scheme", metavar="ID", help="Scheme id to check (repeatable); default: all that apply.")]
+def use_rulebooks(ctx: typer.Context, paths: list[Path] | None) -> list[Path] | None:
+    """--rulebook: read and check the user's rulebooks before any work and put them in use for the
+    command (checked beside the shipped schemes); one line and exit 2 for a bad file."""
+    if not paths:
+        return paths
+    try:
+        found = api.user_rulebooks(paths)
+    except InputError as error:
+        fail(error)
+    token = set_user_rulebooks(found)
+    ctx.call_on_close(lambda: reset_user_rulebooks(token))
+    return paths
+
+
+RulebookOption = Annotated[
+    Optional[list[Path]],
+    typer.Option("--rulebook", metavar="FILE.toml", callback=use_rulebooks, help="A rulebook of your own (an offtake contract, a corporate target) in the format of the shipped ones: checked beside the schemes, marked user rulebook (repeatable)."),
+]
+RebalanceOption = Annotated[
+    Optional[str],
+    typer.Option("--rebalance", metavar="SOURCE", help="After the --set overrides, this electricity source's share takes up the difference so the shares sum to 1."),
+]
 SetOption = Annotated[Optional[list[str]], typer.Option("--set", metavar="PATH=VALUE", help="Override a project parameter: dotted.path=value (repeatable).")]
 FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
 LedgerOption = Annotated[Optional[str], typer.Option("--ledger", help="Run ledger: an SQLite file or a postgresql:// URL (password from libpq: PGPASSWORD, ~/.pgpass or a service file); default $CARBONLEDGER_LEDGER or a file in the user's data folder.")]
@@ -46,6 +74,11 @@ def end_of(until: datetime | None) -> datetime | None:
     return until + timedelta(days=1)
 
 
+def with_rebalance(overrides: list[str] | None, source: str | None) -> list[str] | None:
+    """The --set overrides with --rebalance SOURCE last: that source's share is 1 less the others'."""
+    return overrides if source is None else [*(overrides or []), rebalance_override(source)]
+
+
 def fail(error: InputError) -> None:
     """Print one line on stderr and exit 2."""
     typer.echo(f"error: {error}", err=True)
@@ -55,7 +88,23 @@ def fail(error: InputError) -> None:
 def render(output_format: OutputFormat, *, table: Callable[[], str], json: Callable[[], str], csv: Callable[[], str]) -> str:
     """The output text of a command in the chosen format (every command offers all three)."""
     text = {OutputFormat.table: table, OutputFormat.json: json, OutputFormat.csv: csv}[output_format]()
-    return text if text.endswith("\n") else text + "\n"
+    text = text if text.endswith("\n") else text + "\n"
+    if output_format == OutputFormat.table:  # every table names the user rulebooks in use (a score's names them already)
+        text += "".join(line + "\n" for line in map(user_rulebook_line, user_rulebooks().values()) if line not in text)
+    if output_format == OutputFormat.json:
+        text = json_naming_user_rulebooks(text)
+    return text
+
+
+def json_naming_user_rulebooks(text: str) -> str:
+    """A JSON object with ``user_rulebooks`` (id and file of each in use) at its top level; as it was without any."""
+    if not user_rulebooks():
+        return text
+    data = json_module.loads(text)
+    if not isinstance(data, dict):
+        return text
+    data["user_rulebooks"] = [{"id": scheme.id, "file": scheme.user_file} for scheme in user_rulebooks().values()]
+    return strict_json(data, "--rulebook") + "\n"
 
 
 def explicit(ctx: typer.Context, name: str, value):

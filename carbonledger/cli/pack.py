@@ -13,7 +13,7 @@ from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.pack import PackMismatch
 from ..io.tables import display_number, plain_table
-from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, SchemeOption, YearOption, fail
+from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, RulebookOption, SchemeOption, YearOption, fail
 
 PACK_MISMATCH_EXIT = 3
 NOT_REPRODUCED_EXIT = 1
@@ -25,6 +25,7 @@ def pack(
     factors: FactorsOption = "default-2026",
     gwp: GwpOption = "ar6",
     scheme: SchemeOption = None,
+    rulebook: RulebookOption = None,
     year: YearOption = None,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -33,7 +34,7 @@ def pack(
     """Write an evidence pack: the project and its files, factor overrides, result JSON, workbook, report, ledger records and a manifest of sha256."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        manifest, result = api.pack(project, output, factors=factors, gwp=gwp, schemes=scheme, year=year, ledger=ledger, force=force)
+        manifest, result = api.pack(project, output, factors=factors, gwp=gwp, schemes=scheme, year=year, ledger=ledger, force=force, rulebooks=rulebook)
         if where is not None:
             record_run("pack", [result], ledger=where)
     except InputError as error:

@@ -15,7 +15,23 @@ from ..errors import InputError
 from ..io.csv_text import csv_text
 from ..io.files import atomic_write
 from ..io.ledger import ledger_for_run, record_run
-from .options import FactorsOption, ForceOption, FormatOption, GwpOption, LedgerOption, NoLedgerOption, OutputFormat, SetOption, YearOption, check_output_path, fail, render
+from .options import (
+    FactorsOption,
+    ForceOption,
+    FormatOption,
+    GwpOption,
+    LedgerOption,
+    NoLedgerOption,
+    OutputFormat,
+    RebalanceOption,
+    RulebookOption,
+    SetOption,
+    YearOption,
+    check_output_path,
+    fail,
+    render,
+    with_rebalance,
+)
 
 
 def summary(plan: PlanResult) -> dict:
@@ -82,6 +98,7 @@ def plan(
     project: Annotated[Path, typer.Argument(help="Project TOML file with [electricity] time_series.")],
     scheme: Annotated[str, typer.Option("--scheme", help="Scheme id to qualify for.")],
     output: Annotated[Path, typer.Option("--output", "-o", help="Where to write the plan (a time series CSV that `score` reads).")],
+    rulebook: RulebookOption = None,
     tier: Annotated[Optional[str], typer.Option("--tier", help="Tier to reach (part of its name, or its limit); default the loosest.")] = None,
     rated_kw: Annotated[Optional[float], typer.Option("--rated-kw", help="Electrolyser rated power, kW; default the largest load in the series.")] = None,
     min_load: Annotated[float, typer.Option("--min-load", help="Minimum stable load, fraction of rated power (the plant may also stop).")] = 0.0,
@@ -91,6 +108,7 @@ def plan(
     factors: FactorsOption = "default-2026",
     gwp: GwpOption = "ar6",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     year: YearOption = None,
     force: ForceOption = False,
     output_format: FormatOption = OutputFormat.table,
@@ -98,6 +116,7 @@ def plan(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Plan the electrolyser load interval by interval: most hydrogen (or margin) while the project qualifies."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         if output.exists() and not force:

@@ -20,7 +20,7 @@ from ..io.score_chart import write_score_chart
 from ..io.tables import plain_table, score_csv
 from ..io.tables import render as render_score
 from ..model.project import parameter_table
-from ..model.rulebooks import load_schemes
+from ..model.rulebooks import load_schemes, user_rulebooks
 from ..routes.project import load_project
 from ..routes.starter import normalise_choice, placeholders_left, starter_choices, starter_project
 from .options import (
@@ -32,6 +32,8 @@ from .options import (
     LedgerOption,
     NoLedgerOption,
     OutputFormat,
+    RebalanceOption,
+    RulebookOption,
     SchemeOption,
     SetOption,
     YearOption,
@@ -39,6 +41,7 @@ from .options import (
     explicit,
     fail,
     render,
+    with_rebalance,
 )
 
 
@@ -46,9 +49,11 @@ def score(
     ctx: typer.Context,
     project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (or use --from-workbook).")] = None,
     scheme: SchemeOption = None,
+    rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     lifetime: Annotated[bool, typer.Option("--lifetime", help="Score every operating year of the project's [lifetime] and the lifetime average.")] = False,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -62,6 +67,7 @@ def score(
     matching: Annotated[Optional[str], typer.Option("--matching", help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared annual shares, as in the audit workbook).")] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         if (project is None) == (from_workbook is None):
@@ -110,9 +116,11 @@ def warn_placeholders(project: Path) -> None:
 def params(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
     """List every parameter path of a project with its value and unit."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         model, _ = load_project(project, set_)
     except InputError as error:
@@ -134,10 +142,10 @@ def params(
     )
 
 
-def schemes(output_format: FormatOption = OutputFormat.table) -> None:
+def schemes(output_format: FormatOption = OutputFormat.table, rulebook: RulebookOption = None) -> None:
     """List the scheme rulebooks: quantity, basis, GWP set, electricity rule and thresholds."""
     try:
-        books = load_schemes()
+        books = {**load_schemes(), **user_rulebooks()}
     except InputError as error:
         fail(error)
 

@@ -21,11 +21,14 @@ from .options import (
     LedgerOption,
     NoLedgerOption,
     OutputFormat,
+    RebalanceOption,
+    RulebookOption,
     SetOption,
     YearOption,
     check_chart_path,
     fail,
     render,
+    with_rebalance,
 )
 from .uncertainty import DistributionsOption, SamplingOption, SeedOption
 
@@ -34,6 +37,7 @@ def qualify(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
     levers: Annotated[Path, typer.Option("--levers", help="Levers TOML file: what may change, within which values, at what cost (docs/qualify.md).")],
     scheme: Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id that must qualify (repeatable); default: the levers file's `schemes`.")] = None,
+    rulebook: RulebookOption = None,
     year: YearOption = None,
     confidence: Annotated[Optional[float], typer.Option("--confidence", help="Share of Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; default: the central value.")] = None,
     draws: Annotated[int, typer.Option("--draws", help="Monte Carlo draws with --confidence (common to every candidate).")] = 2000,
@@ -46,11 +50,13 @@ def qualify(
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     output_format: FormatOption = OutputFormat.table,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """The cheapest lever values with which every named scheme qualifies (at the central value, or with a stated probability)."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)

@@ -13,7 +13,22 @@ from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, check_draws
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.report import PAPERS, print_pdf, render_report, write_report
-from .options import BoundaryOption, FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, SchemeOption, SetOption, YearOption, check_output_path, fail
+from .options import (
+    BoundaryOption,
+    FactorsOption,
+    ForceOption,
+    GwpOption,
+    LedgerOption,
+    NoLedgerOption,
+    RebalanceOption,
+    RulebookOption,
+    SchemeOption,
+    SetOption,
+    YearOption,
+    check_output_path,
+    fail,
+    with_rebalance,
+)
 
 
 def report(
@@ -22,9 +37,11 @@ def report(
     pdf: Annotated[Optional[Path], typer.Option("--pdf", help="Also print the report to this PDF file (headless Chromium).")] = None,
     paper: Annotated[str, typer.Option("--paper", help="Page size of the PDF: a4 or letter.")] = "a4",
     scheme: SchemeOption = None,
+    rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     force: ForceOption = False,
     year: YearOption = None,
@@ -35,6 +52,7 @@ def report(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Write the project report: summary and verdicts, stages and gases, scheme limits, hourly matching, spread of the result, lifetime, inputs, factors and their sources."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         if output.suffix.lower() not in (".html", ".htm"):
             raise InputError(output, "--output", f"a file ending in .html, got '{output.suffix or 'no suffix'}'")

@@ -36,6 +36,8 @@ from .options import (
     LedgerOption,
     NoLedgerOption,
     OutputFormat,
+    RebalanceOption,
+    RulebookOption,
     SchedulerOption,
     SchemeOption,
     SetOption,
@@ -44,6 +46,7 @@ from .options import (
     check_chart_path,
     fail,
     render,
+    with_rebalance,
 )
 
 
@@ -78,9 +81,11 @@ def uncertainty(
     sampling: SamplingOption = None,
     distributions: DistributionsOption = None,
     scheme: SchemeOption = None,
+    rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
     workers: WorkersOption = None,
@@ -92,6 +97,7 @@ def uncertainty(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Monte Carlo over the uncertain inputs: spread of every figure and the probability of each verdict."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
@@ -135,10 +141,12 @@ def headroom(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
     parameter: Annotated[list[str], typer.Option("--parameter", help="Parameter path as `carbonledger params` lists it (repeatable).")],
     scheme: Annotated[str, typer.Option("--scheme", help="Scheme id (see `carbonledger schemes`).")],
+    rulebook: RulebookOption = None,
     tier: Annotated[Optional[str], typer.Option("--tier", help="Tier name of the scheme; default its loosest threshold.")] = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
     output_format: FormatOption = OutputFormat.table,
@@ -146,6 +154,7 @@ def headroom(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """The value of each parameter at which a scheme's limit is met exactly (null with a reason when none)."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year)
@@ -160,6 +169,7 @@ def headroom(
 def sensitivity(
     project: Annotated[Path, typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions).")],
     scheme: Annotated[Optional[str], typer.Option("--scheme", help="Scheme id: analyse its value (limit marked on the chart); default the total.")] = None,
+    rulebook: RulebookOption = None,
     base_sample: Annotated[int, typer.Option("--base-sample", help="N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).")] = 1024,
     seed: SeedOption = DEFAULT_SEED,
     distributions: DistributionsOption = None,
@@ -168,6 +178,7 @@ def sensitivity(
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
     swing: Annotated[float, typer.Option("--swing", help="Also move each factor and numeric parameter alone by -PERCENT and +PERCENT of its own value: the change of the total and of every scheme's value.")] = SWING_PERCENT,
@@ -176,6 +187,7 @@ def sensitivity(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Which inputs decide the result: Sobol indices (SALib), a 10th/90th percentile tornado and a +-x % swing."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)

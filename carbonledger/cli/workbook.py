@@ -20,12 +20,15 @@ from .options import (
     GwpOption,
     LedgerOption,
     NoLedgerOption,
+    RebalanceOption,
+    RulebookOption,
     SchemeOption,
     SetOption,
     YearOption,
     check_output_path,
     explicit,
     fail,
+    with_rebalance,
 )
 
 
@@ -41,9 +44,11 @@ def workbook(
     project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (or use --from-workbook).")] = None,
     output: Annotated[Path, typer.Option("-o", "--output", help="Workbook to write (.xlsx).")] = ...,
     scheme: SchemeOption = None,
+    rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
+    rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     periods: Annotated[Optional[Path], typer.Option("--periods", help="CSV of metered monthly data: one calculation block per month and a yearly summary.")] = None,
     from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Read inputs and edited factors from an earlier audit workbook.")] = None,
@@ -57,6 +62,7 @@ def workbook(
     no_ledger: NoLedgerOption = False,
 ) -> None:
     """Write an audit workbook: inputs, cited factors, every exchange as a live formula, results, checks, chart."""
+    set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
         if draws is None and (draws_csv or distributions is not None):

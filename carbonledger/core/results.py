@@ -125,6 +125,8 @@ class Check(BaseModel):
     electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
     electricity_charged_as_grid: dict[str, str] = {}  # failing electricity activity -> grid activity whose intensity it is charged
     grade: str = ""  # the rulebook's grade: primary text, verbatim secondary, secondary, not yet verified
+    user_rulebook: bool = False  # the rulebook is the user's own (--rulebook), not a shipped one
+    rulebook_file: str = ""  # the file of a user rulebook
     # the co-product rule the rulebook requires, the project's own method and what the value used
     co_products: dict[str, Any] = {}
 
@@ -176,6 +178,7 @@ class ScoreResult(BaseModel):
     parameters: dict[str, Any]
     delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
     co_products: dict[str, Any] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
+    rebalanced_shares: dict[str, float] = {}  # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
 
     @computed_field
     @property

@@ -24,7 +24,7 @@ from ..errors import InputError, did_you_mean, match_id
 from ..model.factors import Factor, FactorSet
 from ..model.flows import APART_FLOWS, BIOGENIC_FLOWS, FLOWS, NON_GHG_FLOWS
 from ..model.project import as_date, boundary_id
-from ..model.rulebooks import Scheme, grade_note, load_schemes, select_schemes
+from ..model.rulebooks import Scheme, grade_note, load_schemes, select_schemes, user_rulebooks
 from ..model.statuses import Status
 from ..routes import HYDROGEN_ROUTES, STAGES
 from ..routes.project import validate_project
@@ -66,7 +66,7 @@ AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2c
 
 
 @functools.cache
-def rulebooks() -> dict[str, Scheme]:
+def shipped_rulebooks() -> dict[str, Scheme]:
     """Every rulebook of the factors folder, loaded once per process (an empty folder is an error).
 
     Returns
@@ -80,6 +80,11 @@ def rulebooks() -> dict[str, Scheme]:
         When the folder holds no rulebook, or a rulebook is not valid TOML or breaks the rulebook model.
     """
     return load_schemes()
+
+
+def rulebooks() -> dict[str, Scheme]:
+    """The shipped rulebooks and the user rulebooks in use (``model.rulebooks.using_rulebooks``)."""
+    return {**shipped_rulebooks(), **user_rulebooks()}
 
 
 def gwp_sets(factor_set: FactorSet) -> list[str]:
@@ -1026,6 +1031,8 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
                 electricity_counted_zero=sorted(reading.counted_zero),
                 electricity_charged_as_grid=dict(sorted(reading.charged_as_grid.items())),
                 grade=scheme.grade,
+                user_rulebook=bool(scheme.user_file),
+                rulebook_file=scheme.user_file,
                 **judged(scheme, value, reading.findings),
             )
         )

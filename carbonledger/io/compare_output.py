@@ -64,6 +64,8 @@ def comparison_rows(result: ComparisonResult) -> list[tuple[str, str, str, list]
         rows += [
             (f"check:{scheme}", "from_memory", "", [c.from_memory if c else "n/a" for c in checks]),
         ]
+        if any(c is not None and c.user_rulebook for c in checks):  # the user's own rulebook (--rulebook), with its file
+            rows.append((f"check:{scheme}", "user_rulebook", "", [c.rulebook_file if c else "n/a" for c in checks]))
         if any(c is not None and c.electricity_matching is not None for c in checks):
             rows += [
                 (f"check:{scheme}", "matching", "", [c.electricity_matching.granularity if c and c.electricity_matching else "declared shares" for c in checks]),

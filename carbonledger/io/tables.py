@@ -5,6 +5,7 @@ from __future__ import annotations
 import io
 
 from ..core.results import ScoreResult
+from ..model.rulebooks import USER_RULEBOOK
 from .csv_text import csv_text
 from .labels import INTENSITY_UNITS, factor_grades_sentence, gas_name, gwp_name, per_name, stage_name, status_name
 
@@ -41,6 +42,7 @@ def csv_rows(result: ScoreResult) -> list[tuple]:
         ("project", "factor_set_sha256", result.factor_set.sha256, "", ""),
         ("total", "total", result.total, result.unit, ""),
     ]
+    rows += [("rebalanced_share", f"electricity.sources.{name}.share", share, "fraction", "") for name, share in result.rebalanced_shares.items()]
     rows += [("intensity", key, value, INTENSITY_UNITS[key], "") for key, value in result.intensity.model_dump().items() if value is not None]
     rows.append(("hydrogen_production", "kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2, "kg CO2e/kg H2", ""))
     rows += [("by_stage", key, value, result.unit, "") for key, value in result.by_stage.items()]
@@ -60,6 +62,8 @@ def csv_rows(result: ScoreResult) -> list[tuple]:
             (section, "status", check.status, "", check.from_memory),
             (section, "assessment_period", check.assessment_period, "", check.from_memory),
         ]
+        if check.user_rulebook:
+            rows += [(section, "user_rulebook", True, "", check.from_memory), (section, "rulebook_file", check.rulebook_file, "", check.from_memory)]
         rows += [(section, "rule_version", version, "", check.from_memory) for version in check.rule_versions]
         rows += [(section, "reason", reason, "", check.from_memory) for reason in check.reasons]
         matching = check.electricity_matching
@@ -172,6 +176,17 @@ def _matching_tables(console, checks, Table) -> None:
     console.print(months)
 
 
+def rebalanced_lines(shares: dict[str, float]) -> list[str]:
+    """A line per electricity share that took up the difference to 1 (--rebalance)."""
+    return [f"electricity share rebalanced: {name} {display_number(share)}, 1 less the other sources' shares after --set (--rebalance {name})" for name, share in shares.items()]
+
+
+def user_rulebook_line(scheme) -> str:
+    """The mark of a user rulebook (a ``Scheme``, or a ``Check`` under one): whose limits they are, and the file."""
+    scheme_id, file = (scheme.scheme, scheme.rulebook_file) if hasattr(scheme, "rulebook_file") else (scheme.id, scheme.user_file)
+    return f"{scheme_id}: {USER_RULEBOOK}, read from {file}: the limits are the user's own, not a shipped scheme's"
+
+
 def render(result: ScoreResult) -> str:
     """A readable report of one result, as plain text."""
     from rich.table import Table
@@ -184,6 +199,8 @@ def render(result: ScoreResult) -> str:
         f"factors: {result.factor_set.name} (sha256 {result.factor_set.sha256[:12]})"
     )
     console.print(f"total: {display_number(result.total)} {result.unit}")
+    for line in rebalanced_lines(result.rebalanced_shares):
+        console.print(line)
     _print_breakdowns(console, result, Table)
     for note in _result_notes(result):
         console.print(note)
@@ -251,6 +268,9 @@ def _print_checks(console, result: ScoreResult, Table) -> None:
         table.add_row(check.scheme + (" *" if check.from_memory else ""), status_name(check.status), display_number(check.value),
                       display_number(check.limit), check.unit, check.tier or "-", gwp_name(check.gwp_basis))
     console.print(table)
+    for check in result.checks:
+        if check.user_rulebook:
+            console.print(user_rulebook_line(check))
     for check in result.checks:
         if check.reasons:  # the deciding reason comes first
             console.print(f"{check.scheme}: {status_name(check.status)}, because {check.reasons[0]}", highlight=False, markup=False)

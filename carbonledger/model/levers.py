@@ -19,7 +19,7 @@ Its cost, in the file's ``currency`` per ``period`` (e.g. EUR per year), is one 
 
 Electricity share levers move together: each difference from a source's share is taken up by the
 sources no lever moves, in proportion to their shares, or by the one source a lever names in
-``absorbed_by`` (``analyses.shares``).
+``absorbed_by`` (``model.shares``).
 
 A ``[battery]`` table adds an ``[electricity.battery]`` to the project (same fields; ``capacity_kwh``
 0 unless given), so that a lever on ``electricity.battery.capacity_kwh`` can size it.

@@ -25,6 +25,7 @@ from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationEr
 
 from ..errors import InputError, did_you_mean, match_id
 from .input_files import read_input_bytes
+from .shares import rest_of
 
 BOUNDARIES = ("cradle-to-gate", "well-to-tank", "well-to-wake")
 
@@ -262,12 +263,56 @@ def split_path(path: str, source: str = "parameter path") -> list[str]:
         raise InputError(source, path, 'a dotted parameter path, a name with a dot or a space in double quotes (electricity.sources."wind PPA no. 2".share)') from None
 
 
+REST = "rest"  # the value of a share override that takes up the difference to 1 (--rebalance SOURCE)
+
+
+def rebalance_override(name: str) -> str:
+    """The override that gives electricity source ``name`` 1 less the other sources' shares (--rebalance)."""
+    return f"electricity.sources.{path_key(name)}.share={REST}"
+
+
+def rest_source(path: str, value: Any) -> str | None:
+    """The electricity source of an override ``electricity.sources.NAME.share=rest``, else None."""
+    if value != REST:
+        return None
+    parts = split_path(path)
+    return parts[2] if len(parts) == 4 and parts[:2] == ["electricity", "sources"] and parts[3] == "share" else None
+
+
+def rebalanced_sources(overrides: list[str] | None) -> list[str]:
+    """The electricity sources whose share takes up the rest (--rebalance), in the order given."""
+    parsed = [parse_override(text) for text in overrides or []]
+    return [name for path, value in parsed if (name := rest_source(path, value)) is not None]
+
+
+def _take_up_rest(data: dict, name: str, source: str) -> None:
+    """Set electricity source ``name``'s share to 1 less the others' (after every other override), or
+    refuse in one line when that is not a share from 0 to 1."""
+    sources = data.get("electricity", {}).get("sources") if isinstance(data.get("electricity"), dict) else None
+    field = f"electricity.sources.{path_key(name)}.share"
+    if not isinstance(sources, dict) or not isinstance(sources.get(name), dict):
+        known = list(sources) if isinstance(sources, dict) else []
+        raise InputError(source, f"--rebalance {name}", f"the name of an electricity source of the project ({', '.join(known) or 'none'}){did_you_mean(name, known)}")
+    shares = {key: item.get("share") for key, item in sources.items() if isinstance(item, dict)}
+    if any(isinstance(share, bool) or not isinstance(share, (int, float)) for key, share in shares.items() if key != name):
+        return  # a share that is not a number: the model refuses it, naming it
+    rest = rest_of(shares, name)
+    if not -1e-12 <= rest <= 1 + 1e-12:
+        others = 1 - rest
+        raise InputError(source, field, f"a share from 0 to 1 after --rebalance {name} took up the difference: the other sources' shares add up to {others:g}, leaving {rest:g}")
+    sources[name]["share"] = min(max(rest, 0.0), 1.0)
+
+
 def apply_overrides(data: dict, overrides: list[tuple[str, Any]], source: str) -> dict:
-    """Set dotted paths in a raw project dict (a copy); the model then validates them."""
+    """Set dotted paths in a raw project dict (a copy); the model then validates them. A share set to
+    ``rest`` (``--rebalance SOURCE``) is set last: 1 less the other sources' shares."""
     import copy
 
     data = copy.deepcopy(data)
+    taking_up = [name for path, value in overrides if (name := rest_source(path, value)) is not None]
     for path, value in overrides:
+        if rest_source(path, value) is not None:
+            continue
         node = data
         parts = split_path(path, source)
         for part in parts[:-1]:
@@ -276,6 +321,8 @@ def apply_overrides(data: dict, overrides: list[tuple[str, Any]], source: str) -
                 raise InputError(source, path, f"a parameter path; '{part}' is a value, not a section")
             node = child
         node[parts[-1]] = value
+    for name in taking_up:
+        _take_up_rest(data, name, source)
     return data
 
 

@@ -26,17 +26,30 @@ from __future__ import annotations
 
 import datetime as dt
 import tomllib
+from collections.abc import Iterator, Sequence
+from contextlib import contextmanager
+from contextvars import ContextVar
 from pathlib import Path
 from typing import Literal
 
 import numpy as np
-from pydantic import BaseModel, ConfigDict, Field, ValidationError
+from pydantic import BaseModel, ConfigDict, Field, PrivateAttr, ValidationError, field_validator
 
 from ..errors import InputError, did_you_mean, match_id
 from .factors import factors_root
 from .grades import Grade
+from .input_files import read_input_bytes
 
 QUANTITIES = ("kg_co2e_per_kg_h2", "g_co2e_per_mj", "kg_co2e_per_t_nh3", "kg_co2e_per_kg_nh3")
+# the unit a quantity's limits may be written in (spaces and case ignored): the quantity's own unit, nothing converted
+QUANTITY_UNITS = {
+    "kg_co2e_per_kg_h2": ("kg CO2e/kg H2",),
+    "g_co2e_per_mj": ("g CO2e/MJ", "g CO2e/MJ H2", "g CO2e/MJ (LHV)", "g CO2e/MJ H2 (LHV)"),
+    "kg_co2e_per_t_nh3": ("kg CO2e/t NH3",),
+    "kg_co2e_per_kg_nh3": ("kg CO2e/kg NH3",),
+}
+USER_RULEBOOK = "user rulebook"  # the words that mark a rulebook the user gave (--rulebook) in every output
+MAX_RULEBOOK_BYTES = 1_000_000
 UNVERIFIED = Grade.NOT_YET_VERIFIED
 LIMIT_RTOL = 1e-9  # a value this close to a limit (relative) is at the limit: a published limit is not a float
 
@@ -222,6 +235,22 @@ class Scheme(Graded):
     nets_stored_biogenic_co2: bool = False  # captured and stored biogenic CO2 subtracted from the scheme value
     biogenic_co2_source: str = ""  # where the rulebook's treatment of stored biogenic CO2 is read
 
+    _user_file: str = PrivateAttr("")  # the file of a user rulebook (--rulebook); "" for a shipped one
+
+    @field_validator("unit")
+    @classmethod
+    def _unit_fits_quantity(cls, unit: str, info):
+        quantity = info.data.get("quantity")
+        accepted = QUANTITY_UNITS.get(quantity, ())
+        if accepted and _unit_key(unit) not in {_unit_key(text) for text in accepted}:
+            raise ValueError(f"{unit_expected(quantity)}, got {unit!r} (limits are not converted)")
+        return unit
+
+    @property
+    def user_file(self) -> str:
+        """The file of a user rulebook given with --rulebook; "" for a shipped rulebook."""
+        return self._user_file
+
     def loosest(self) -> Threshold:
         return max(self.thresholds, key=lambda t: t.limit)
 
@@ -254,6 +283,16 @@ class Scheme(Graded):
         return self.from_memory or any(t.from_memory for t in self.thresholds)
 
 
+def unit_expected(quantity: str) -> str:
+    """What a rulebook's ``unit`` must be for its ``quantity``, in words."""
+    accepted = " or ".join(repr(text) for text in QUANTITY_UNITS.get(quantity, ()))
+    return f"the unit of the thresholds' limits, that of quantity '{quantity}': {accepted}" if accepted else "the unit of the thresholds' limits"
+
+
+def _unit_key(unit: str) -> str:
+    return "".join(unit.split()).lower()
+
+
 def schemes_folder() -> Path:
     return factors_root() / "schemes"
 
@@ -264,16 +303,91 @@ def load_schemes(folder: Path | None = None) -> dict[str, Scheme]:
         raise InputError(folder, "", "a folder of scheme rulebooks (*.toml); none found (set CARBONLEDGER_FACTORS to a factor library with schemes/, or reinstall carbonledger)")
     schemes: dict[str, Scheme] = {}
     for path in sorted(folder.glob("*.toml")):
-        try:
-            data = tomllib.loads(path.read_text(encoding="utf-8"))
-            scheme = Scheme.model_validate(data)
-        except tomllib.TOMLDecodeError as error:
-            raise InputError(path, "", f"valid TOML ({error})") from None
-        except ValidationError as error:
-            first = error.errors()[0]
-            raise InputError(path, ".".join(str(p) for p in first["loc"]), first["msg"].lower()) from None
+        scheme = read_rulebook(path, path.read_text(encoding="utf-8"))
         schemes[scheme.id] = scheme
     return schemes
+
+
+def read_rulebook(path: Path, text: str) -> Scheme:
+    """A rulebook's TOML text validated by ``Scheme``; the first problem as one InputError line."""
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(path, "", f"valid TOML ({error})") from None
+    try:
+        return Scheme.model_validate(data)
+    except ValidationError as error:
+        errors = error.errors()
+        # a misspelt key shows up twice: as unknown, and as the right key missing; name the unknown one
+        first = next((e for e in errors if e["type"] == "extra_forbidden"), errors[0])
+        field = ".".join(str(p) for p in first["loc"])
+        if first["type"] == "missing" and field == "unit":
+            raise InputError(path, field, unit_expected(str(data.get("quantity", "")))) from None
+        if first["type"] == "extra_forbidden":
+            key = str(first["loc"][-1])
+            raise InputError(path, field, f"no such key in a rulebook{did_you_mean(key, rulebook_keys())} (the keys: see factors/schemes/*.toml)") from None
+        expected = first["msg"].removeprefix("Value error, ")
+        raise InputError(path, field, expected[:1].lower() + expected[1:]) from None
+
+
+def rulebook_keys(model: type[BaseModel] | None = None) -> set[str]:
+    """Every key a rulebook may hold, at any level (for "did you mean")."""
+    keys: set[str] = set()
+    for name, info in (model or Scheme).model_fields.items():
+        keys.add(name)
+        for inner in (info.annotation, *getattr(info.annotation, "__args__", ())):
+            for nested in (inner, *getattr(inner, "__args__", ())):
+                if isinstance(nested, type) and issubclass(nested, BaseModel):
+                    keys |= rulebook_keys(nested)
+    return keys
+
+
+def load_user_rulebooks(paths: Sequence[str | Path], shipped: dict[str, Scheme]) -> dict[str, Scheme]:
+    """The user's own rulebooks (--rulebook FILE.toml), validated as the shipped ones are, each marked
+    with its file and named as a user rulebook; an id that a shipped or another user rulebook has is refused."""
+    found: dict[str, Scheme] = {}
+    for path in dict.fromkeys(Path(given) for given in paths):  # a file given twice is read once
+        try:
+            scheme = read_rulebook(path, read_input_bytes(path, "rulebook", MAX_RULEBOOK_BYTES).decode("utf-8-sig"))
+        except InputError as error:  # the whole file: named by the option that gave it
+            raise InputError(path, error.field or "--rulebook", error.expected) from None
+        except UnicodeDecodeError:
+            raise InputError(path, "--rulebook", "a UTF-8 TOML rulebook (save it as UTF-8)") from None
+        taken = match_id(scheme.id, shipped) or match_id(scheme.id, found)
+        if taken is not None:
+            kind = "a shipped rulebook" if taken in shipped else f"the user rulebook {found[taken].user_file}"
+            raise InputError(path, "id", f"an id of its own; '{scheme.id}' is the id of {kind}")
+        scheme = scheme.model_copy(update={"name": f"{scheme.name} ({USER_RULEBOOK})"})
+        scheme._user_file = str(path)
+        found[scheme.id] = scheme
+    return found
+
+
+_USER_RULEBOOKS: ContextVar[dict[str, Scheme]] = ContextVar("user_rulebooks", default={})  # noqa: B039 (never mutated)
+
+
+def user_rulebooks() -> dict[str, Scheme]:
+    """The user rulebooks in use (``using_rulebooks``): id -> Scheme."""
+    return _USER_RULEBOOKS.get()
+
+
+def set_user_rulebooks(schemes: dict[str, Scheme]):
+    """Put user rulebooks in use; returns the token that ``reset_user_rulebooks`` takes."""
+    return _USER_RULEBOOKS.set(dict(schemes))
+
+
+def reset_user_rulebooks(token) -> None:
+    _USER_RULEBOOKS.reset(token)
+
+
+@contextmanager
+def using_rulebooks(schemes: dict[str, Scheme]) -> Iterator[dict[str, Scheme]]:
+    """Check the user rulebooks ``schemes`` beside the shipped ones inside the block."""
+    token = set_user_rulebooks(schemes)
+    try:
+        yield schemes
+    finally:
+        reset_user_rulebooks(token)
 
 
 def scheme_ids(requested: list[str] | None, all_schemes: dict[str, Scheme]) -> list[str]:
@@ -292,10 +406,11 @@ def select_schemes(all_schemes: dict[str, Scheme], requested: list[str] | None, 
     """The schemes to check: those requested (each must exist and fit the product), else all that apply."""
     if not requested:
         return [s for s in all_schemes.values() if product in s.products]
-    chosen = []
+    chosen: list[Scheme] = []
     for requested_id, scheme_id in zip(requested, scheme_ids(requested, all_schemes), strict=True):
         scheme = all_schemes[scheme_id]
         if product not in scheme.products:
             raise InputError("--scheme", requested_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})")
         chosen.append(scheme)
-    return chosen
+    added = [s for s in all_schemes.values() if s.user_file and product in s.products and s.id not in {c.id for c in chosen}]
+    return chosen + added  # a user rulebook is checked beside the schemes asked for

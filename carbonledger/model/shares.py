@@ -1,7 +1,7 @@
 """Electricity shares moved together: which sources take up the difference so the shares still sum to 1.
 
-One place for every analysis that moves shares (Monte Carlo draws of shares, the levers of
-``qualify``, ``headroom``): the moved sources take their new values at once, and each difference
+One place for everything that moves shares (``--set`` with ``--rebalance``, Monte Carlo draws of
+shares, the levers of ``qualify``, ``headroom``): the moved sources take their new values at once, and each difference
 from a moved source's own share is taken up either by one named source (``absorbers``: moved
 source -> absorbing source) or, by default, by the sources nobody moves, in proportion to their
 shares. For an unmoved source j with share s_j, moved shares v_i (project value n_i), the moved
@@ -46,6 +46,12 @@ def rebalancing_problem(shares: dict[str, float], moved: list[str], absorbers: d
     if pooled and not sum(share for name, share in shares.items() if name not in moved) > 0:
         return f"other sources to take up the rest of {', '.join(pooled)} (the shares always sum to 1; no unmoved source has a share above 0)"
     return ""
+
+
+def rest_of(shares: dict[str, Any], name: str) -> Any:
+    """The share left for source ``name``: 1 less the other sources' shares (``--rebalance``), a number
+    or an array of draws."""
+    return 1 - sum(share for other, share in shares.items() if other != name)
 
 
 def negative_shares(found: dict[str, Any]) -> dict[str, Any]:
