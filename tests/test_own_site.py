@@ -241,11 +241,15 @@ def test_the_shipped_rulebooks_state_their_unit_as_their_quantity_takes_it():
         assert "".join(scheme.unit.split()).lower() in {"".join(u.split()).lower() for u in QUANTITY_UNITS[scheme.quantity]}
 
 
-def test_qualify_finds_the_grid_share_at_the_contract_limit_worked_by_hand():
+def test_qualify_finds_the_grid_share_at_the_contract_limit_worked_by_hand(tmp_path):
     # the grid share s where 53.5 x (s x 0.281 + (1 - s) x 0.011) = 2.0: s = (2.0 / 53.5 - 0.011) / (0.281 - 0.011)
     grid, wind = factor_kg_per_kwh("electricity.grid.eu27_2018"), factor_kg_per_kwh("electricity.renewable.wind_onshore")
     share = (CONTRACT_LIMIT / KWH_PER_KG_H2 - wind) / (grid - wind)  # 0.0977
-    levers = DEMO / "levers" / "grid_electrolysis_hydrogen.toml"
+    demo = (DEMO / "levers" / "grid_electrolysis_hydrogen.toml").read_text(encoding="utf-8")
+    # the demo's wind PPA share lever alone (its other levers, the battery among them, are left out)
+    head, wind_lever = demo.split("[[levers]]")[0], demo.split("[[levers]]")[1]
+    wind_ppa = demo[demo.index("\n[sources.wind_ppa]"):demo.index("\n[battery]")]
+    levers = write(tmp_path / "wind_share_only.toml", head + "[[levers]]" + wind_lever + wind_ppa)
     result = run_cli("qualify", GRID_H2, "--levers", levers, "--scheme", "offtake-contract", "--rulebook", OFFTAKE, "--front", "0", "--no-ledger", "--format", "json")
     assert result.exit_code == 0, result.output
     answer = json.loads(result.stdout)
