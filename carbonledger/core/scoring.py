@@ -204,6 +204,7 @@ class Prepared:
     project_sha256: str = ""
     period: Period = field(default_factory=lambda: Period.year(dt.date.today().year))
     matching: dict | None = None
+    readings: dict = field(default_factory=dict)  # scheme id -> Reading, read once (``scheme_reading``)
 
 
 def prepare(
@@ -272,8 +273,12 @@ def basis_of(scheme: Scheme, inventory: Inventory) -> tuple[str, str]:
 
 
 def scheme_reading(prepared: Prepared, scheme: Scheme) -> Reading:
-    """The scheme's rules on this project before the threshold: counted electricity, findings, versions."""
-    return read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
+    """The scheme's rules on this project before the threshold: counted electricity, findings, versions
+    (read once per prepared project and scheme; a reading is never changed once made)."""
+    reading = prepared.readings.get(scheme.id)
+    if reading is None:
+        reading = prepared.readings[scheme.id] = read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
+    return reading
 
 
 def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> Reading:
@@ -517,7 +522,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
     supply = dict(zip(keys, main.supply, strict=True))
     exchanges = [
-        ExchangeRow(
+        ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
             activity=activity.key,
             stage=activity.stage,
             kind=exchange.kind,
@@ -608,21 +613,24 @@ def solve_with_bw2calc(prepared: Prepared) -> dict:
     return solutions
 
 
-def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[dict]:
+def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True, checked: set | None = None) -> list[dict]:
     """Solve many prepared projects, one stacked numpy solve per matrix structure.
 
     With ``check_with_bw2calc`` one member of every structure group is also solved with bw2calc
-    and must agree to 1e-9 (relative).
+    and must agree to 1e-9 (relative). ``checked``: structure keys already checked this way (a
+    portfolio solved a chunk at a time checks each structure once); the new ones are added to it.
     """
     groups: dict[tuple, list[int]] = {}
     for number, ready in enumerate(prepared):
         groups.setdefault(structure_key(ready.matrices, ready.demands), []).append(number)
+    checked = set() if checked is None else checked
     solutions: list[dict] = [{}] * len(prepared)
-    for members in groups.values():
+    for key, members in groups.items():
         solved = solve_many([prepared[n].matrices for n in members], prepared[members[0]].demands)
         for number, solution in zip(members, solved, strict=True):
             solutions[number] = solution
-        if check_with_bw2calc:
+        if check_with_bw2calc and key not in checked:
+            checked.add(key)
             reference = prepared[members[0]]
             _, bw_score = solve(reference.matrices, reference.demands, reference.headline)
             _check_agreement(reference, solutions[members[0]], bw_score, "stacked solve")
