@@ -255,8 +255,8 @@ def recalc_piece(piece: tuple) -> RecalcPiece:
             moving = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
             new_ready = prepare_projects([chunk[n] for n in moving], [new_set] * len(moving), [year] * len(moving), gwp, schemes)
             for n, ready in zip(moving, new_ready, strict=True):
-                if rules_read_alike(old_ready[n], ready):
-                    ready.readings = old_ready[n].readings
+                if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
+                    ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
             rescored = dict(zip(moving, solved_results([chunk[n] for n in moving], new_ready, True, checked), strict=True))
             result.old_scores += old_scores
             result.new_scores += [rescored.get(n) or score.model_copy(update={"factor_set": new_ref}) for n, score in enumerate(old_scores)]

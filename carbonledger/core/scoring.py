@@ -63,6 +63,7 @@ from .verdicts import (
 DEFAULT_GWP = "ar6"
 FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
 AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2calc's own score
+EXCHANGE_FIELDS = set(ExchangeRow.model_fields)  # every field of an exchange row is set: one set shared by all rows
 
 
 @functools.cache
@@ -523,6 +524,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     supply = dict(zip(keys, main.supply, strict=True))
     exchanges = [
         ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+            EXCHANGE_FIELDS,
             activity=activity.key,
             stage=activity.stage,
             kind=exchange.kind,
