@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import datetime as dt
 import functools
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -101,6 +102,24 @@ def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
     if any(isinstance(v, np.ndarray) and v.ndim for v in values):  # Monte Carlo draws of a GWP factor: (flows, draws)
         return np.stack(np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in values)))
     return np.array(values)  # numbers, or the workbook's symbolic cells
+
+
+SET_CHARACTERISATIONS: dict[tuple[str, str, str], tuple[np.ndarray, dict]] = {}  # (set sha256, gwp, where) -> vector, rows read
+
+
+def set_characterisation(inputs: NumericInputs, gwp: str, where: str = "--gwp") -> np.ndarray:
+    """``characterisation`` of a factor set's numbers, worked out once per set content and GWP set
+    (a portfolio prepares many projects under one set); the rows it reads are recorded in
+    ``inputs.used`` as if read again. The vector is shared: it is read-only."""
+    key = (inputs.factor_set.sha256, gwp, where)
+    if key not in SET_CHARACTERISATIONS:
+        reader = NumericInputs(inputs.factor_set, inputs.source)
+        vector = characterisation(reader, gwp, where)
+        vector.setflags(write=False)
+        SET_CHARACTERISATIONS[key] = (vector, dict(reader.used))
+    vector, used = SET_CHARACTERISATIONS[key]
+    inputs.used.update(used)
+    return vector
 
 
 def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:
@@ -237,11 +256,11 @@ def prepare(
     inventory = build_inventory(params, inputs)
     product = inventory.product
     chosen = select_schemes(rulebooks(), schemes, product)
-    headline = characterisation(inputs, gwp)
+    headline = set_characterisation(inputs, gwp)
     per_gwp = {gwp: headline}
     for scheme in chosen:
         if scheme.gwp not in per_gwp:
-            per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp")
+            per_gwp[scheme.gwp] = set_characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp")
     matrices = build_matrices(inventory)
     demands = list(dict.fromkeys([inventory.reference, inventory.gate, inventory.hydrogen]))
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
@@ -582,7 +601,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
 
 def refuse_non_finite(source: str, field: str, value: float | None) -> None:
     """A total or scheme value that is NaN or infinite is an error naming the project, never an output."""
-    if value is not None and not np.isfinite(value):
+    if value is not None and not math.isfinite(value):
         raise InputError(source, field, f"a finite result (the inputs give {value}; look for an infinite, missing or huge input or factor)")
 
 
