@@ -13,7 +13,6 @@ Run: python benchmarks/score.py [repeats]   (default 7 repeats of each process)
 from __future__ import annotations
 
 import resource
-import shutil
 import statistics
 import subprocess
 import sys
@@ -39,8 +38,10 @@ def in_process(repeats: int = 50) -> list[float]:
 
 
 def carbonledger_command() -> list[str]:
-    command = shutil.which("carbonledger")
-    return [command] if command else [sys.executable, "-m", "carbonledger"]
+    """The command of the environment running this benchmark (its console script beside this
+    interpreter), never another `carbonledger` found on the PATH (a shim, another checkout)."""
+    script = Path(sys.executable).parent / "carbonledger"
+    return [str(script)] if script.is_file() else [sys.executable, "-m", "carbonledger"]
 
 
 CPU: dict[str, list[float]] = {}  # command label -> CPU seconds of each run

@@ -34,6 +34,15 @@ from equations import equations  # noqa: E402  (beside this script)
 # The API reference: the facade and the modules a user or a contributor calls.
 PUBLIC_MODULES = (
     "carbonledger.api",
+    "carbonledger.api.scoring",
+    "carbonledger.api.workbooks",
+    "carbonledger.api.comparison",
+    "carbonledger.api.portfolios",
+    "carbonledger.api.operating_plan",
+    "carbonledger.api.monte_carlo",
+    "carbonledger.api.levers",
+    "carbonledger.api.reports",
+    "carbonledger.api.evidence_pack",
     "carbonledger.core.results",
     "carbonledger.core.scoring",
     "carbonledger.core.engine",

@@ -1,12 +1,15 @@
 """Portfolio recalculation: which projects move, by how much, and the exit codes."""
 
 import csv
+import importlib.util
 import io
 import json
+import random
 
 import pytest
-from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
 
+from carbonledger.analyses import portfolio
 from carbonledger.analyses.matching import score_with_series
 from carbonledger.analyses.portfolio import load_portfolio, recalc
 from carbonledger.analyses.portfolio import score_portfolio as score_many
@@ -95,6 +98,41 @@ def test_fast_path_equals_bw2calc_score_project():
             for fast, slow in zip(quick.checks, reference.checks, strict=True):
                 assert fast.value == pytest.approx(slow.value, rel=1e-9, abs=1e-12)
                 assert fast.passes == slow.passes
+
+
+def generated_portfolio(folder, count: int) -> list:
+    """``count`` invented projects from the generator of benchmarks/recalc.py (every route and option it varies)."""
+    spec = importlib.util.spec_from_file_location("recalc_benchmark", ROOT / "benchmarks" / "recalc.py")
+    generator = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(generator)
+    rng = random.Random(18)
+    for number in range(count):
+        write(folder / f"project_{number:03d}.toml", generator.project(number, rng))
+    return load_portfolio([folder])
+
+
+def test_recalc_fast_path_equals_score_project_on_a_generated_portfolio(tmp_path, monkeypatch):
+    """The fast path (projects scored a chunk at a time, stacked solves, a rescored project taking
+    its scheme readings from its first scoring) against bw2calc, one LCA per project and set
+    (``score_project``): every figure to 1e-9 relative, every status and reason the same."""
+    monkeypatch.setattr(portfolio, "CHUNK_PROJECTS", 7)  # several chunks, a structure met again in a later one
+    projects = generated_portfolio(tmp_path, 40)
+    old_set, new_set = load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision")
+    result = recalc(projects, old_set, new_set)
+    assert 0 < result.rescored < len(projects)  # both kinds: rescored, and kept (no grid electricity)
+    for item, old, new in zip(projects, result.old_scores, result.new_scores, strict=True):
+        for fast, factor_set in ((old, old_set), (new, new_set)):
+            slow = score_project(item.project, factor_set, source=item.path, project_sha256=item.sha256)
+            assert fast.total == pytest.approx(slow.total, rel=1e-9, abs=1e-12)
+            assert fast.by_stage.keys() == slow.by_stage.keys() and fast.by_gas.keys() == slow.by_gas.keys()
+            for figures, reference in ((fast.by_stage, slow.by_stage), (fast.by_gas, slow.by_gas), (fast.intensity.model_dump(), slow.intensity.model_dump())):
+                for key, value in reference.items():
+                    assert figures[key] == pytest.approx(value, rel=1e-9, abs=1e-12), key
+            assert [c.scheme for c in fast.checks] == [c.scheme for c in slow.checks]
+            for quick, check in zip(fast.checks, slow.checks, strict=True):
+                assert quick.value == pytest.approx(check.value, rel=1e-9, abs=1e-12)
+                assert (quick.status, quick.tier, quick.reasons) == (check.status, check.tier, check.reasons)
+            assert fast.factor_set.sha256 == factor_set.sha256
 
 
 def test_recalc_exit_codes_and_formats(tmp_path):

@@ -73,3 +73,25 @@ def test_the_command_list_reads_each_command_docstring():
         assert command.name == name
         assert command.help.split(".")[0][:30] == docstring(name).split(".")[0][:30]
         assert name in help_text
+
+
+def test_score_imports_no_analysis_it_does_not_run(tmp_path, monkeypatch):
+    """`carbonledger.api` is one module per command family, resolved lazily: `score` loads
+    api.scoring, never the other families nor the analyses and outputs behind them."""
+    monkeypatch.chdir(tmp_path)
+    loaded = modules_of("score", GREEN, "--format", "json", "--no-ledger")
+    assert "carbonledger.api.scoring" in loaded
+    others = ["workbooks", "comparison", "portfolios", "operating_plan", "monte_carlo", "levers", "reports", "evidence_pack"]
+    unused = {f"carbonledger.api.{name}" for name in others} | {
+        f"carbonledger.analyses.{name}" for name in ("qualify", "uncertainty", "headroom", "sensitivity", "plan", "lifetime", "compare", "cluster", "periods")
+    } | {"carbonledger.io.report", "carbonledger.io.workbook.writer", "carbonledger.io.workbook.reader", "carbonledger.model.levers", "carbonledger.model.distributions"}
+    assert sorted(loaded & unused) == []
+
+
+def test_the_api_facade_gives_every_public_name():
+    """Each name of ``carbonledger.api.__all__`` and ``WHERE`` resolves to the function of its module."""
+    import carbonledger.api as api
+
+    for name in {*api.__all__, *api.WHERE}:
+        assert getattr(api, name) is not None, name
+    assert api.score.__module__ == "carbonledger.api.scoring" and api.recalc.__module__ == "carbonledger.api.portfolios"

@@ -19,11 +19,13 @@ References
 
 from __future__ import annotations
 
+import contextlib
+import gc
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..core.results import FactorSetRef, ScoreResult
-from ..core.scoring import DEFAULT_GWP, assemble, prepare, rulebooks, solve_stacked
+from ..core.scoring import DEFAULT_GWP, Prepared, assemble, prepare, rulebooks, solve_stacked
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
@@ -75,6 +77,46 @@ def load_portfolio(paths: list[str | Path]) -> list[PortfolioProject]:
     return projects
 
 
+CHUNK_PROJECTS = 500  # projects prepared, solved and assembled at a time: what is held besides the results
+
+
+@contextlib.contextmanager
+def collector_paused():
+    """Pause Python's cyclic garbage collector while a portfolio is scored: scoring allocates many
+    small acyclic objects (freed by reference counting), and the collector's full passes over the
+    growing list of results cost a quarter of the time. It runs again (and collects) afterwards."""
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if was_enabled:
+            gc.enable()
+
+
+def prepare_projects(projects: list[PortfolioProject], sets: list[FactorSet], years: list, gwp: str, schemes: list[str] | None) -> list[Prepared]:
+    """Each project made ready to solve under its factor set and year (``core.scoring.prepare``), its
+    checks limited to ``schemes`` (validated ids) when given; a project with a time series is matched as `score` matches it."""
+    prepared = []
+    for item, one_set, one_year in zip(projects, sets, years, strict=True):
+        matching = series_matched_periods(item.series) if item.series is not None else None
+        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year, matching=matching)
+        if schemes:
+            ready.chosen = [s for s in ready.chosen if s.id in schemes]
+        prepared.append(ready)
+    return prepared
+
+
+def solved_results(projects: list[PortfolioProject], prepared: list[Prepared], check_with_bw2calc: bool, checked: set | None = None) -> list[ScoreResult]:
+    """The results of prepared projects, solved together by structure (``core.scoring.solve_stacked``:
+    each structure not in ``checked`` is also checked against bw2calc once)."""
+    results = []
+    for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, check_with_bw2calc, checked), strict=True):
+        result = assemble(ready, solutions)
+        results.append(result if item.series is None else matched_checks(ready, solutions, result, item.series))
+    return results
+
+
 def score_portfolio(
     projects: list[PortfolioProject],
     factor_set: FactorSet | list[FactorSet],
@@ -94,7 +136,8 @@ def score_portfolio(
 
     ``factor_set`` may also be a list with one set per project (e.g. one per operating year).
     ``schemes`` limits the checks to those ids (each project keeps the ones that apply to its
-    product); an unknown id is refused.
+    product); an unknown id is refused. Projects are prepared and solved ``CHUNK_PROJECTS`` at a
+    time; each matrix structure is checked against bw2calc once.
     """
     known = rulebooks()
     schemes = scheme_ids(schemes, known) or None
@@ -104,17 +147,13 @@ def score_portfolio(
         size = -(-len(projects) // chunks)
         pieces = [(projects[n : n + size], sets[n : n + size], gwp, schemes, check_with_bw2calc, years[n : n + size]) for n in range(0, len(projects), size)]
         return [result for part in mapper(score_chunk, pieces) for result in part]
-    prepared = []
-    for item, one_set, one_year in zip(projects, sets, years, strict=True):
-        matching = series_matched_periods(item.series) if item.series is not None else None
-        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year, matching=matching)
-        if schemes:
-            ready.chosen = [s for s in ready.chosen if s.id in schemes]
-        prepared.append(ready)
-    results = []
-    for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, check_with_bw2calc), strict=True):
-        result = assemble(ready, solutions)
-        results.append(result if item.series is None else matched_checks(ready, solutions, result, item.series))
+    results: list[ScoreResult] = []
+    checked: set = set()
+    with collector_paused():
+        for n in range(0, len(projects), CHUNK_PROJECTS):
+            part = slice(n, n + CHUNK_PROJECTS)
+            prepared = prepare_projects(projects[part], sets[part], years[part], gwp, schemes)
+            results += solved_results(projects[part], prepared, check_with_bw2calc, checked)
     return results
 
 
@@ -196,16 +235,74 @@ class RecalcPiece:
 def recalc_piece(piece: tuple) -> RecalcPiece:
     """Score a piece (projects, old set, new set, changed factor ids, gwp, schemes, year) under the
     old set, and rescore under the new set only the projects that use a changed factor; the others
-    keep their old result, under the new set's name."""
+    keep their old result, under the new set's name.
+
+    The piece is scored ``CHUNK_PROJECTS`` at a time. A rescored project reads each scheme's rules
+    once: the rules read nothing of the factor set, so its new scoring takes the old one's readings
+    (``core.scoring.scheme_reading``) when the two inventories give the rules the same electricity
+    sources, stages and products."""
     projects, old_set, new_set, changed_ids, gwp, schemes, year = piece
-    old_scores = score_portfolio(projects, old_set, gwp=gwp, schemes=schemes, year=year)
-    to_rescore = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
-    rescored = score_portfolio([projects[n] for n in to_rescore], new_set, gwp=gwp, schemes=schemes, year=year) if to_rescore else []
+    schemes = scheme_ids(schemes, rulebooks()) or None
     new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
-    new_scores = [score.model_copy(update={"factor_set": new_ref}) for score in old_scores]
-    for number, score in zip(to_rescore, rescored, strict=True):
-        new_scores[number] = score
-    return RecalcPiece(old_scores, new_scores, to_rescore)
+    result = RecalcPiece([], [], [])
+    checked: set = set()
+    with collector_paused():
+        for start in range(0, len(projects), CHUNK_PROJECTS):
+            chunk = projects[start : start + CHUNK_PROJECTS]
+            old_ready = prepare_projects(chunk, [old_set] * len(chunk), [year] * len(chunk), gwp, schemes)
+            old_scores = solved_results(chunk, old_ready, True, checked)
+            moving = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
+            new_ready = prepare_projects([chunk[n] for n in moving], [new_set] * len(moving), [year] * len(moving), gwp, schemes)
+            for n, ready in zip(moving, new_ready, strict=True):
+                if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
+                    ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
+            rescored = dict(zip(moving, solved_results([chunk[n] for n in moving], new_ready, True, checked), strict=True))
+            result.old_scores += old_scores
+            result.new_scores += [rescored.get(n) or score.model_copy(update={"factor_set": new_ref}) for n, score in enumerate(old_scores)]
+            result.rescored += [start + n for n in moving]
+    return result
+
+
+def rules_read_alike(old: Prepared, new: Prepared) -> bool:
+    """Whether a scheme's rules read the same on two preparations of one project (same options, year
+    and matching): what ``core.scoring.read_rules`` takes from the inventory is the same."""
+    def seen(ready: Prepared) -> tuple:
+        inventory = ready.inventory
+        stages = sorted({activity.stage for activity in inventory.activities.values()})
+        return (inventory.electricity_sources, inventory.electricity_kinds, stages, inventory.product, inventory.reference_product)
+
+    return (old.period, old.matching, old.params) == (new.period, new.matching, new.params) and seen(old) == seen(new)
+
+
+def recalc_rows(old_scores: list[ScoreResult], new_scores: list[ScoreResult], rescored: set[int]) -> list[RecalcRow]:
+    """One row per project and scheme, in project order: the old and new value and status."""
+    rows = []
+    for number, (old, new) in enumerate(zip(old_scores, new_scores, strict=True)):
+        new_checks = {check.scheme: check for check in new.checks}
+        factors_from_memory = new.from_memory["factors"]
+        for check in old.checks:
+            after = new_checks[check.scheme]
+            rows.append(
+                RecalcRow(
+                    project_file=old.project_file,
+                    project=old.project,
+                    scheme=check.scheme,
+                    unit=check.unit,
+                    limit=check.limit,
+                    old_value=check.value,
+                    new_value=after.value,
+                    change=after.value - check.value,
+                    old_passes=check.passes,
+                    new_passes=after.passes,
+                    status=status_of(check.status, after.status),
+                    rescored=number in rescored,
+                    rulebook_from_memory=after.from_memory,
+                    factors_from_memory=list(factors_from_memory),
+                    old_status=check.status,
+                    new_status=after.status,
+                )
+            )
+    return rows
 
 
 def recalc(
@@ -230,36 +327,12 @@ def recalc(
     changed = sorted({change.id for change in diff_sets(old_set, new_set)})
     size = max(1, -(-len(projects) // max(1, chunks)))
     pieces = [(projects[n : n + size], old_set, new_set, frozenset(changed), gwp, schemes, year) for n in range(0, len(projects), size)]
-    parts = mapper(run_piece, pieces) if mapper is not None and len(pieces) > 1 else [run_piece(piece) for piece in pieces]
-    old_scores = [score for part in parts for score in part.old_scores]
-    new_scores = [score for part in parts for score in part.new_scores]
-    to_rescore = [start + n for start, part in zip(range(0, len(projects), size), parts, strict=True) for n in part.rescored]
-    rescored_numbers = set(to_rescore)
-    rows = []
-    for number, (old, new) in enumerate(zip(old_scores, new_scores, strict=True)):
-        new_checks = {check.scheme: check for check in new.checks}
-        for check in old.checks:
-            after = new_checks[check.scheme]
-            rows.append(
-                RecalcRow(
-                    project_file=old.project_file,
-                    project=old.project,
-                    scheme=check.scheme,
-                    unit=check.unit,
-                    limit=check.limit,
-                    old_value=check.value,
-                    new_value=after.value,
-                    change=after.value - check.value,
-                    old_passes=check.passes,
-                    new_passes=after.passes,
-                    status=status_of(check.status, after.status),
-                    rescored=number in rescored_numbers,
-                    rulebook_from_memory=after.from_memory,
-                    factors_from_memory=new.from_memory["factors"],
-                    old_status=check.status,
-                    new_status=after.status,
-                )
-            )
+    with collector_paused():
+        parts = mapper(run_piece, pieces) if mapper is not None and len(pieces) > 1 else [run_piece(piece) for piece in pieces]
+        old_scores = [score for part in parts for score in part.old_scores]
+        new_scores = [score for part in parts for score in part.new_scores]
+        to_rescore = [start + n for start, part in zip(range(0, len(projects), size), parts, strict=True) for n in part.rescored]
+        rows = recalc_rows(old_scores, new_scores, set(to_rescore))
     order = {"now fails": 0, "now qualifies": 1}
     rows.sort(key=lambda row: order.get(row.status, 2))  # stable: project order kept within each group
     return Recalc(old_set.name, old_set.sha256, new_set.name, new_set.sha256, changed, rows, old_scores, new_scores, len(to_rescore))

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import datetime as dt
 import functools
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -63,6 +64,7 @@ from .verdicts import (
 DEFAULT_GWP = "ar6"
 FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
 AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2calc's own score
+EXCHANGE_FIELDS = set(ExchangeRow.model_fields)  # every field of an exchange row is set: one set shared by all rows
 
 
 @functools.cache
@@ -177,6 +179,24 @@ def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
     if any(isinstance(v, np.ndarray) and v.ndim for v in values):  # Monte Carlo draws of a GWP factor: (flows, draws)
         return np.stack(np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in values)))
     return np.array(values)  # numbers, or the workbook's symbolic cells
+
+
+SET_CHARACTERISATIONS: dict[tuple[str, str, str], tuple[np.ndarray, dict]] = {}  # (set sha256, gwp, where) -> vector, rows read
+
+
+def set_characterisation(inputs: NumericInputs, gwp: str, where: str = "--gwp") -> np.ndarray:
+    """``characterisation`` of a factor set's numbers, worked out once per set content and GWP set
+    (a portfolio prepares many projects under one set); the rows it reads are recorded in
+    ``inputs.used`` as if read again. The vector is shared: it is read-only."""
+    key = (inputs.factor_set.sha256, gwp, where)
+    if key not in SET_CHARACTERISATIONS:
+        reader = NumericInputs(inputs.factor_set, inputs.source)
+        vector = characterisation(reader, gwp, where)
+        vector.setflags(write=False)
+        SET_CHARACTERISATIONS[key] = (vector, dict(reader.used))
+    vector, used = SET_CHARACTERISATIONS[key]
+    inputs.used.update(used)
+    return vector
 
 
 def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:
@@ -433,6 +453,7 @@ class Prepared:
     project_sha256: str = ""
     period: Period = field(default_factory=lambda: Period.year(dt.date.today().year))
     matching: dict | None = None
+    readings: dict = field(default_factory=dict)  # scheme id -> Reading, read once (``scheme_reading``)
 
 
 def prepare(
@@ -539,11 +560,12 @@ def run_stages(params: dict, inputs, gwp: str, schemes: list[str] | None) -> Sta
     inventory = build_inventory(params, inputs)
     product = inventory.product
     chosen = select_schemes(rulebooks(), schemes, product)
-    headline = characterisation(inputs, gwp)
+    characterise = set_characterisation if type(inputs) is NumericInputs else characterisation  # draws and cells: their own
+    headline = characterise(inputs, gwp)
     per_gwp = {gwp: headline}
     for scheme in chosen:
         if scheme.gwp not in per_gwp:
-            per_gwp[scheme.gwp] = characterisation(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp")
+            per_gwp[scheme.gwp] = characterise(inputs, scheme.gwp, f"rulebook {scheme.id}: gwp")
     hydrogen_lhv = inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")
     ammonia = product == "ammonia"
     ammonia_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg") if ammonia else float("nan")
@@ -671,7 +693,10 @@ def scheme_reading(prepared: Prepared, scheme: Scheme) -> Reading:
     Reading
         As ``read_rules`` gives it.
     """
-    return read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
+    reading = prepared.readings.get(scheme.id)  # read once per prepared project and scheme, never changed once made
+    if reading is None:
+        reading = prepared.readings[scheme.id] = read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
+    return reading
 
 
 def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> Reading:
@@ -1093,7 +1118,8 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
     supply = dict(zip(keys, main.supply, strict=True))
     exchanges = [
-        ExchangeRow(
+        ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+            EXCHANGE_FIELDS,
             activity=activity.key,
             stage=activity.stage,
             kind=exchange.kind,
@@ -1170,7 +1196,7 @@ def refuse_non_finite(source: str, field: str, value: float | None) -> None:
     InputError
         When ``value`` is NaN or infinite.
     """
-    if value is not None and not np.isfinite(value):
+    if value is not None and not math.isfinite(value):
         raise InputError(source, field, f"a finite result (the inputs give {value}; look for an infinite, missing or huge input or factor)")
 
 
@@ -1241,7 +1267,7 @@ def solve_with_bw2calc(prepared: Prepared) -> dict:
     return solutions
 
 
-def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> list[dict]:
+def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True, checked: set | None = None) -> list[dict]:
     """Solve many prepared projects, one stacked numpy solve per matrix structure.
 
     Parameters
@@ -1250,6 +1276,9 @@ def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> 
         The prepared projects.
     check_with_bw2calc : bool
         Also solve one member of every structure group with bw2calc; it must agree to 1e-9 (relative).
+    checked : set or None
+        Structure keys already checked this way (a portfolio solved a chunk at a time checks each
+        structure once); the new ones are added to it.
 
     Returns
     -------
@@ -1270,12 +1299,14 @@ def solve_stacked(prepared: list[Prepared], check_with_bw2calc: bool = True) -> 
     groups: dict[tuple, list[int]] = {}
     for number, ready in enumerate(prepared):
         groups.setdefault(structure_key(ready.matrices, ready.demands), []).append(number)
+    checked = set() if checked is None else checked
     solutions: list[dict] = [{}] * len(prepared)
-    for members in groups.values():
+    for key, members in groups.items():
         solved = solve_many([prepared[n].matrices for n in members], prepared[members[0]].demands)
         for number, solution in zip(members, solved, strict=True):
             solutions[number] = solution
-        if check_with_bw2calc:
+        if check_with_bw2calc and key not in checked:
+            checked.add(key)
             reference = prepared[members[0]]
             _, bw_score = solve(reference.matrices, reference.demands, reference.headline)
             _check_agreement(reference, solutions[members[0]], bw_score, "stacked solve")

@@ -31,6 +31,7 @@ References
 from __future__ import annotations
 
 import datetime as dt
+import sys
 from dataclasses import dataclass, field
 
 from ..model.project import as_date
@@ -718,4 +719,4 @@ def ordered_reasons(status: str, findings: list[Finding], threshold: Finding | N
         first = [threshold]
     everything = findings + ([threshold] if threshold is not None else [])
     rest = [f for f in everything if f not in first]
-    return [f.sentence() for f in first + rest]
+    return [sys.intern(f.sentence()) for f in first + rest]  # a sentence many projects share is held once

@@ -75,6 +75,14 @@ def status_name(status: object) -> str:
     return STATUS_WORDS.get(value, value.replace("_", " "))
 
 
+def status_of(check) -> str:
+    """The verdict's status in words: ``check.status`` when the verdict rules provide it, else pass/fail."""
+    status = getattr(check, "status", None)
+    if status is None:
+        return "qualifies" if check.passes else "fails"
+    return status_name(status)
+
+
 def gwp_name(gwp: str) -> str:
     return gwp.upper()
 

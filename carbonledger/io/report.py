@@ -34,7 +34,7 @@ from ..core.scoring import rulebooks
 from ..errors import InputError
 from ..model.statuses import Status
 from .files import atomic_write
-from .labels import electricity_rule_name, factor_grades_sentence, gas_name, gwp_name, stage_name, status_name, unit_name, words
+from .labels import electricity_rule_name, factor_grades_sentence, gas_name, gwp_name, stage_name, status_name, status_of, unit_name, words
 from .palette import GAS_COLOURS, RAMP, STAGE_COLOURS
 from .tables import display_number
 
@@ -70,11 +70,6 @@ def text(value: Any) -> str:
 
 def number(value: float | None) -> str:
     return display_number(value).replace("-", "\u2212", 1) if value is not None and value < 0 else display_number(value)
-
-
-def status_of(check: Check) -> str:
-    """The verdict's status in words."""
-    return status_name(check.status)
 
 
 def reasons_of(check: Check) -> list[str]:

@@ -8,9 +8,8 @@ from pathlib import Path
 from ..core.results import ScoreResult
 from ..core.scoring import rulebooks
 from .chart_files import write_figure
-from .labels import gas_name, stage_name
+from .labels import gas_name, stage_name, status_of
 from .palette import AXIS, CHART_STYLE, GAS_COLOURS, INK, STAGE_COLOURS, STATUS_COLOURS, status_legend
-from .report import status_of
 from .tables import display_number
 
 

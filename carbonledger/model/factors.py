@@ -125,7 +125,17 @@ class FactorSet:
     def _sorted_ids(self) -> list[str]:
         return sorted(self.factors)
 
+    @functools.cached_property
+    def _ids_by_prefix(self) -> dict[str, list[str]]:
+        return {}
+
     def ids_with_prefix(self, prefix: str) -> list[str]:
+        """The ids that start with ``prefix``, in order (found once per set and prefix)."""
+        if prefix not in self._ids_by_prefix:
+            self._ids_by_prefix[prefix] = self._ids_starting(prefix)
+        return list(self._ids_by_prefix[prefix])
+
+    def _ids_starting(self, prefix: str) -> list[str]:
         ids = self._sorted_ids
         start = bisect.bisect_left(ids, prefix)
         end = start

@@ -12,6 +12,7 @@ to one and impossible values are refused with one line naming the file and the f
 from __future__ import annotations
 
 import datetime as dt
+import functools
 import json
 import re
 import tomllib
@@ -54,6 +55,12 @@ def _type_arguments(annotation: Any) -> set:
     return {annotation}
 
 
+@functools.cache
+def accepted_types(section: type[BaseModel], field_name: str) -> set:
+    """The plain types a section's field accepts (``_type_arguments`` of its annotation), worked out once."""
+    return _type_arguments(section.model_fields[field_name].annotation)
+
+
 def _iso_date(value: Any) -> str:
     """A calendar date as YYYY-MM-DD text (a TOML date or a string); '' when absent."""
     if value in (None, ""):
@@ -85,7 +92,7 @@ class Section(BaseModel):
     @field_validator("*", mode="before")
     @classmethod
     def _numbers_are_numbers(cls, value: Any, info: ValidationInfo) -> Any:
-        accepted = _type_arguments(cls.model_fields[info.field_name].annotation)
+        accepted = accepted_types(cls, info.field_name)
         if accepted & {float, int} and not accepted & {bool, str} and isinstance(value, (bool, str)):
             kind = "a truth value" if isinstance(value, bool) else "text"
             raise ValueError(f"a number, got {value!r} ({kind})")

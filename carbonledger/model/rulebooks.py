@@ -25,6 +25,7 @@ The temporal-correlation rules live here only; matching reads them from the rule
 from __future__ import annotations
 
 import datetime as dt
+import functools
 import tomllib
 from collections.abc import Iterator, Sequence
 from contextlib import contextmanager
@@ -65,6 +66,7 @@ class Graded(BaseModel):
         return self.grade == UNVERIFIED
 
 
+@functools.lru_cache(maxsize=4096)
 def grade_note(source: str, grade: str) -> str:
     """A source as reasons cite it: the grade is named unless it is the primary text."""
     return source if grade == Grade.PRIMARY_TEXT else f"{source}; {Grade(grade).value}"
@@ -73,6 +75,9 @@ def grade_note(source: str, grade: str) -> str:
 def at_or_under(value, limit: float, inclusive: bool):
     """value <= limit (inclusive) or value < limit, a value within LIMIT_RTOL of the limit counting as
     equal to it (numbers, or numpy arrays of draws element by element)."""
+    if isinstance(value, (float, int)):  # one number: the same comparison in plain floats (a portfolio makes many)
+        equal = abs(value - limit) <= LIMIT_RTOL * max(1.0, abs(limit))
+        return bool(equal or value < limit) if inclusive else bool(not equal and value < limit)
     value = np.asarray(value, dtype=float)
     equal = np.abs(value - limit) <= LIMIT_RTOL * max(1.0, abs(limit))
     met = (equal | (value < limit)) if inclusive else (~equal & (value < limit))

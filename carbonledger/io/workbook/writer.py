@@ -2,7 +2,7 @@
 
 A verifier changes an input or a factor and sees every result move. The formulas are not
 typed here: the stage code itself runs on symbolic cells (``formula.Term``), through
-``inventory.build_inventory``, ``api.characterisation`` and ``api.intensities``, so the
+``core.scoring.run_stages`` (inventory, characterisation, heating values), so the
 workbook and the engine share one source of arithmetic. The engine (bw2calc) stays the
 reference: its figures are written beside the formulas, labelled, for comparison.
 

@@ -1,0 +1,63 @@
+"""Comparing projects on one basis (with optional Monte Carlo bands)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from ..analyses.compare import ComparisonResult
+from ..analyses.compare import compare as compare_results
+from ..analyses.electricity_series import project_series
+from ..analyses.matching import score_with_series
+from ..analyses.uncertainty import DEFAULT_SEED, monte_carlo, uncertain_inputs
+from ..core.scoring import DEFAULT_GWP, score_project
+from ..errors import InputError
+from ..model.distributions import Uncertainty, read_distributions_file
+from ..model.factors import DEFAULT_SET, FactorSet
+from .monte_carlo import load_uncertainty
+from .scoring import boundary_overrides, factor_set_of
+from .workbooks import load_any_project
+
+
+def compare(
+    project_files: list[str | Path],
+    *,
+    boundary: str | None = None,
+    gwp: str = DEFAULT_GWP,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    schemes: list[str] | None = None,
+    basis: str = "auto",
+    draws: int | None = None,
+    seed: int = DEFAULT_SEED,
+    distributions: str | Path | None = None,
+    year: int | None = None,
+) -> ComparisonResult:
+    """Score several project files (or audit workbooks) with the same options and put them on one basis.
+
+    basis : 'auto', 't-nh3', 'kg-h2' or 'mj' (LHV of the delivered product).
+    draws : with a number, a Monte Carlo of each project (its ``[uncertainty]`` table and factor rows
+        with pedigree scores; the same ``seed`` for all) gives its 5th-95th percentile band; a project
+        without any distribution shows none, and says so. ``distributions`` (a distributions file)
+        is laid over every project's own table (a pedigree distribution of a parameter takes each
+        project's own value as its median).
+    """
+    if not project_files:
+        raise InputError("compare", "PROJECTS", "at least one project file")
+    factor_set = factor_set_of(factors)
+    results, spreads = [], []
+    for path in project_files:
+        project, sha, project_set = load_any_project(path, factor_set, boundary_overrides(boundary, None))
+        series = None if str(path).lower().endswith(".xlsx") else project_series(project, path)
+        if series is None:
+            results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha, year=year))
+        else:  # checks matched under each scheme's rule, as score gives them
+            results.append(score_with_series(project, project_set, series, gwp=gwp, source=str(path), project_sha256=sha, year=year))
+        if draws is not None:
+            if str(path).lower().endswith(".xlsx"):
+                found = read_distributions_file(distributions) if distributions is not None else Uncertainty()
+            else:
+                found = load_uncertainty(path, distributions)
+            if not uncertain_inputs(project, project_set, found, str(path), gwp).names():
+                spreads.append("no distributions (no [uncertainty] table, no factor rows with pedigree scores, no factor row a default applies to)")
+                continue
+            spreads.append(monte_carlo(project, project_set, found, draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, project_sha256=sha, series=series, year=year))
+    return compare_results(results, basis=basis, schemes=schemes, spreads=spreads if draws is not None else None)

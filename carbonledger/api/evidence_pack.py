@@ -1,0 +1,150 @@
+"""The evidence pack: write a project's pack and verify one by scoring it again."""
+
+from __future__ import annotations
+
+import json
+import tempfile
+from datetime import UTC, datetime
+from pathlib import Path
+
+from ..about import CAUTION
+from ..core.results import ScoreResult
+from ..core.scoring import DEFAULT_GWP
+from ..errors import InputError
+from ..io.ledger import project_history
+from ..io.pack import manifest_of, read_pack, unpack, workbook_bytes, write_pack
+from ..model.factors import DEFAULT_SET, load_factor_set
+from ..model.rulebooks import using_rulebooks
+from ..routes.project import load_project
+from .reports import report
+from .scoring import score, user_rulebooks
+from .workbooks import audit_workbook
+
+# --- the evidence pack ----------------------------------------------------------------------------
+
+PACK_PROJECT_FOLDER = "project"
+PACK_RULEBOOK_FOLDER = "rulebooks"  # the user rulebooks (--rulebook) in a pack
+
+
+def files_read_by(project, project_file: str | Path) -> dict[str, Path]:
+    """The files a project reads beside itself (its electricity time series, its grid trajectory
+    CSV), by their path relative to the project file; one outside the project's folder is refused."""
+    base = Path(project_file).resolve().parent
+    named = [("electricity.time_series", project.electricity.time_series)]
+    if project.lifetime is not None:
+        named.append(("lifetime.grid_trajectory_csv", project.lifetime.grid_trajectory_csv))
+    found = {}
+    for field, name in named:
+        if not name:
+            continue
+        path = (base / name).resolve()
+        if base not in path.parents:
+            raise InputError(project_file, field, f"a file in the project's folder or below it, to go in the pack (copy '{name}' beside the project file)")
+        found[path.relative_to(base).as_posix()] = path
+    return found
+
+
+def pack(
+    project_file: str | Path,
+    output: str | Path,
+    *,
+    factors: str | Path = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    year: int | None = None,
+    ledger: str | Path | None = None,
+    force: bool = False,
+    rulebooks: list[str | Path] | None = None,
+) -> tuple[dict, ScoreResult]:
+    """Write an evidence pack of a project: the project file and every file it reads, the factor
+    overrides (a factor CSV or set folder given as ``factors``; a shipped set is named with its
+    sha256), the user's own rulebooks (``rulebooks``, checked beside the schemes), the result as
+    JSON, the audit workbook, the report, the project's records in the run ledger, and a manifest
+    with the sha256 of every file, the version and the assessment year.
+    Returns the manifest and the result packed."""
+    packed_rulebooks = {}
+    for path in dict.fromkeys(Path(given) for given in rulebooks or []):
+        name = f"{PACK_RULEBOOK_FOLDER}/{path.name}"
+        if name in packed_rulebooks:
+            raise InputError(path, "--rulebook", f"a file name of its own in the pack ({packed_rulebooks[name]} has the name {path.name} too)")
+        packed_rulebooks[name] = path
+    with using_rulebooks(user_rulebooks(list(packed_rulebooks.values()))):
+        return _pack(Path(project_file), output, factors, gwp, schemes, year, ledger, force, packed_rulebooks)
+
+
+def _pack(project_file: Path, output, factors, gwp, schemes, year, ledger, force, packed_rulebooks: dict[str, Path]) -> tuple[dict, ScoreResult]:
+    project, _ = load_project(project_file)
+    factor_set = load_factor_set(factors)
+    result = score(project_file, factors=factor_set, gwp=gwp, schemes=schemes, year=year)
+    year = int(getattr(result, "assessment_year", None) or next((c.assessment_period for c in result.checks if c.assessment_period), None) or year or datetime.now(UTC).year)
+    files = {f"{PACK_PROJECT_FOLDER}/{project_file.name}": project_file.read_bytes()}
+    files.update({f"{PACK_PROJECT_FOLDER}/{name}": path.read_bytes() for name, path in files_read_by(project, project_file).items()})
+    files.update({name: path.read_bytes() for name, path in packed_rulebooks.items()})
+    factors_in_pack = ""
+    overrides = Path(factors)
+    if overrides.is_file():
+        factors_in_pack = f"factors/{overrides.name}"
+        files[factors_in_pack] = overrides.read_bytes()
+    elif overrides.is_dir():
+        factors_in_pack = f"factors/{overrides.name}"
+        files.update({f"{factors_in_pack}/{path.name}": path.read_bytes() for path in sorted(overrides.iterdir()) if path.is_file()})
+    files["result.json"] = result.to_json().encode("utf-8")
+    book, _, _ = audit_workbook(project_file, factors=str(factors), gwp=gwp, schemes=schemes, year=year)
+    files["workbook.xlsx"] = workbook_bytes(book)
+    files["report.html"] = report([project_file], factors=factor_set, gwp=gwp, schemes=schemes, year=year).encode("utf-8")
+    try:
+        records = project_history(project_file, ledger)
+    except InputError:  # no ledger yet: the pack says so
+        records = []
+    files["ledger.json"] = (json.dumps({"project_file": str(project_file.resolve()), "records": records}, indent=2, default=str) + "\n").encode("utf-8")
+    manifest = manifest_of(
+        files,
+        carbonledger_version=result.carbonledger_version,
+        assessment_year=year,
+        project=f"{PACK_PROJECT_FOLDER}/{project_file.name}",
+        options={"factors": factors_in_pack or factor_set.name, "gwp": gwp, "schemes": schemes or [], "year": year, "rulebooks": list(packed_rulebooks)},
+        factor_set={"name": factor_set.name, "sha256": factor_set.sha256},
+        caution=CAUTION,
+    )
+    write_pack(output, files, manifest, force=force)
+    return manifest, result
+
+
+def packed_figures(result: dict) -> dict[str, object]:
+    """The figures and statuses of a result's JSON that a re-score must reproduce: total, every
+    intensity, stage and gas, and each check's value, limit, status and tier."""
+    figures: dict[str, object] = {"total": result["total"]}
+    figures.update({f"intensity.{k}": v for k, v in result["intensity"].items()})
+    figures.update({f"by_stage.{k}": v for k, v in result["by_stage"].items()})
+    figures.update({f"by_gas.{k}": v for k, v in result["by_gas"].items()})
+    for check in result["checks"]:
+        for key in ("value", "limit", "status", "tier"):
+            figures[f"{check['scheme']}.{key}"] = check.get(key)
+    return figures
+
+
+def verify_pack(path: str | Path) -> list[tuple[str, object, object, bool]]:
+    """Check a pack against its manifest (``io.pack.PackMismatch`` names a file that does not
+    match), re-score its project in a fresh folder with the options it was packed with, and
+    compare every figure and status: [(figure, packed, re-scored, reproduced)]. Figures are
+    reproduced to a relative 1e-9; a shipped factor set must have the sha256 the pack names."""
+    packed = read_pack(path)
+    manifest, options = packed.manifest, packed.manifest.get("options", {})
+    with tempfile.TemporaryDirectory(prefix="carbonledger-verify-") as folder:
+        unpack(packed, Path(folder))
+        factors = options.get("factors", DEFAULT_SET)
+        in_pack = Path(folder) / factors
+        factor_set = load_factor_set(in_pack if factors.startswith("factors/") else factors)
+        expected_sha = manifest.get("factor_set", {}).get("sha256")
+        if not factors.startswith("factors/") and expected_sha and factor_set.sha256 != expected_sha:
+            raise InputError(path, "factor_set", f"factor set '{factors}' with sha256 {expected_sha} as packed; this installation's has {factor_set.sha256}")
+        with using_rulebooks(user_rulebooks([Path(folder) / name for name in options.get("rulebooks", [])])):
+            rescored = score(Path(folder) / manifest["project"], factors=factor_set, gwp=options.get("gwp", DEFAULT_GWP), schemes=options.get("schemes") or None, year=options.get("year"))
+    before = packed_figures(json.loads(packed.files["result.json"]))
+    after = packed_figures(json.loads(rescored.to_json()))
+    rows = []
+    for figure in sorted(set(before) | set(after)):
+        old, new = before.get(figure), after.get(figure)
+        same = old == new or (isinstance(old, (int, float)) and isinstance(new, (int, float)) and abs(old - new) <= 1e-9 * max(abs(old), abs(new), 1e-12))
+        rows.append((figure, old, new, same))
+    return rows

@@ -1,0 +1,104 @@
+"""The project report (self-contained HTML)."""
+
+from __future__ import annotations
+
+import os
+from datetime import UTC, datetime
+from pathlib import Path
+
+from ..about import CAUTION
+from ..analyses.electricity_series import project_series
+from ..analyses.lifetime import lifetime_score
+from ..analyses.matching import matched_checks, matching_views, series_matched_periods
+from ..analyses.portfolio import project_files
+from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, monte_carlo
+from ..core.scoring import DEFAULT_GWP, assemble, prepare, solve_stacked
+from ..errors import InputError
+from ..io.report import ProjectReport, render_report
+from ..model.factors import DEFAULT_SET, FactorSet
+from ..model.project import parameter_table, read_project_file
+from ..routes.project import load_project
+from .levers import qualify
+from .monte_carlo import load_uncertainty
+from .scoring import boundary_overrides, factor_set_of
+
+
+def report_items(
+    paths: list[str | Path],
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    year: int | None = None,
+    levers: str | Path | None = None,
+) -> list[ProjectReport]:
+    """What a report shows of each project (files, or folders of project files): its score, its
+    parameters with units and, where the project gives them, its operating years ([lifetime]), the
+    matching of its electricity time series ([electricity] time_series) and a Monte Carlo of
+    ``draws`` draws with ``seed`` ([uncertainty]); with ``levers`` (a levers file), what it takes
+    to qualify for ``schemes`` (default the levers file's) at the central value.
+
+    The one project is solved by the stacked numpy solver (``solve_stacked``, the solver of
+    ``recalc``, equal to bw2calc to 1e-9 on every demo: tests/test_recalc.py and
+    tests/test_report.py), so that a report does not pay bw2calc's import (about 1.9 s of CPU)."""
+    factor_set = factor_set_of(factors)
+    items = []
+    for path in project_files(list(paths)):
+        project, sha = load_project(path, boundary_overrides(boundary, overrides))
+        series = project_series(project, path)
+        matched = series_matched_periods(series) if series is not None else None
+        prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha, matching=matched, year=year)
+        solutions = solve_stacked([prepared], check_with_bw2calc=False)[0]
+        result = assemble(prepared, solutions)
+        views = []
+        if series is not None:
+            result = matched_checks(prepared, solutions, result, series)
+            views = matching_views(prepared, solutions, result, series)
+        life = None
+        if project.lifetime is not None:
+            life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
+        spread = None
+        if "uncertainty" in read_project_file(path)[0]:
+            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series, year=year)
+        found = qualify(path, levers, schemes=schemes, factors=factor_set, gwp=gwp, overrides=boundary_overrides(boundary, overrides), budgets=0, year=year) if levers is not None else None
+        items.append(ProjectReport(result, parameter_table(project), life, views, spread, found))
+    return items
+
+
+def report(
+    paths: list[str | Path],
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    generated: str | None = None,
+    paper: str | None = None,
+    draws: int = DEFAULT_DRAWS,
+    seed: int = DEFAULT_SEED,
+    year: int | None = None,
+    levers: str | Path | None = None,
+) -> str:
+    """The project report of one or several projects as one self-contained HTML text.
+
+    generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
+    paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
+    draws, seed : the Monte Carlo of a project with an [uncertainty] table (the seed is printed).
+    levers : a levers file: each project gets a section on what it takes to qualify.
+    """
+    if not paths:
+        raise InputError("report", "PROJECT", "at least one project file or folder")
+    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed, year=year, levers=levers)
+    return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
+
+
+def report_date() -> str:
+    """Today's date (UTC), or the date of $SOURCE_DATE_EPOCH for reproducible reports."""
+    epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
+    moment = datetime.fromtimestamp(int(epoch), UTC) if epoch.isdigit() else datetime.now(UTC)
+    return moment.date().isoformat()

@@ -1,0 +1,88 @@
+"""Scoring one project file: what `carbonledger score` calls (kept small, so the command starts fast)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from ..analyses.electricity_series import project_series
+from ..analyses.matching import score_with_series
+from ..core.results import ScoreResult
+from ..core.scoring import DEFAULT_GWP, score_project, shipped_rulebooks
+from ..errors import InputError
+from ..model.factors import DEFAULT_SET, FactorSet, load_factor_set
+from ..model.project import boundary_id, rebalanced_sources
+from ..model.rulebooks import load_user_rulebooks
+from ..routes.project import load_project
+
+
+def factor_set_of(factors: str | Path | FactorSet) -> FactorSet:
+    """A loaded factor set as it is, else the set a name, folder or override CSV gives."""
+    return factors if isinstance(factors, FactorSet) else load_factor_set(factors)
+
+
+def boundary_overrides(boundary: str | None, overrides: list[str] | None) -> list[str]:
+    """``boundary`` is ``project.boundary=...``: the project model validates it."""
+    boundary = boundary_id(boundary) if boundary is not None else None
+    return list(overrides or []) + ([f"project.boundary={boundary}"] if boundary else [])
+
+
+def score(
+    project_file: str | Path,
+    *,
+    factors: str | Path | FactorSet = DEFAULT_SET,
+    gwp: str = DEFAULT_GWP,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    year: int | None = None,
+    matching: str | None = None,
+    matched_periods: dict | None = None,
+) -> ScoreResult:
+    """Score a project file: carbon intensity, by stage and gas, with scheme checks.
+
+    Parameters
+    ----------
+    project_file : path of the project TOML.
+    factors : factor set name, set folder, override CSV, or a loaded FactorSet.
+    gwp : GWP100 set of the headline result ('ar4', 'ar5', 'ar6'); each scheme check uses its own.
+    schemes : scheme ids to check; default all that apply to the product.
+    overrides : 'dotted.parameter=value' strings applied to the project before validation;
+        'electricity.sources.NAME.share=rest' (``--rebalance NAME``) gives that source 1 less the
+        other sources' shares after the others are set (refused when that is not from 0 to 1).
+    boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
+    matching : with an electricity time series, a granularity (interval, hour, month, quarter,
+        year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
+        and score the declared annual shares (what the audit workbook holds); None: each scheme's rule.
+    year : the assessment year, whose dates the scheme rules are read on; default the first full
+        calendar year of operation after the project's commissioning date, else this year.
+    matched_periods : electricity source name -> finest period a time series shows it matched
+        ('hourly', 'half_hourly'), for projects without a series in the file; without it (and
+        without a series) hourly rules are undetermined.
+    """
+    project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
+    series = None if matching == "declared" else project_series(project, project_file)
+    if series is None:
+        if matching not in (None, "declared"):
+            raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
+        result = score_project(project, factor_set_of(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matched_periods)
+    else:
+        result = score_with_series(project, factor_set_of(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching, year=year)
+    return stating_rebalance(result, project, overrides)
+
+
+def stating_rebalance(result: ScoreResult, project, overrides: list[str] | None) -> ScoreResult:
+    """The result stating each electricity share that took up the difference to 1 (--rebalance)."""
+    names = rebalanced_sources(overrides)
+    if not names:
+        return result
+    return result.model_copy(update={"rebalanced_shares": {name: project.electricity.sources[name].share for name in names}})
+
+
+def user_rulebooks(paths: list[str | Path]):
+    """The user's own rulebooks (TOML files in the format of ``factors/schemes``), validated: id -> Scheme.
+    Use them with ``using_rulebooks``::
+
+        with api.using_rulebooks(api.user_rulebooks(["offtake_contract.toml"])):
+            result = api.score("project.toml")  # the contract's check beside the shipped schemes
+    """
+    return load_user_rulebooks(paths, shipped_rulebooks())
