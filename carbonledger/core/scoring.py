@@ -85,7 +85,13 @@ def shipped_rulebooks() -> dict[str, Scheme]:
 
 
 def rulebooks() -> dict[str, Scheme]:
-    """The shipped rulebooks and the user rulebooks in use (``model.rulebooks.using_rulebooks``)."""
+    """The shipped rulebooks and the user rulebooks in use (``model.rulebooks.using_rulebooks``).
+
+    Returns
+    -------
+    dict of str to Scheme
+        Every rulebook checked in this context, by scheme id.
+    """
     return {**shipped_rulebooks(), **user_rulebooks()}
 
 
@@ -187,7 +193,22 @@ SET_CHARACTERISATIONS: dict[tuple[str, str, str], tuple[np.ndarray, dict]] = {} 
 def set_characterisation(inputs: NumericInputs, gwp: str, where: str = "--gwp") -> np.ndarray:
     """``characterisation`` of a factor set's numbers, worked out once per set content and GWP set
     (a portfolio prepares many projects under one set); the rows it reads are recorded in
-    ``inputs.used`` as if read again. The vector is shared: it is read-only."""
+    ``inputs.used`` as if read again. The vector is shared: it is read-only.
+
+    Parameters
+    ----------
+    inputs : NumericInputs
+        Numeric inputs of the factor set (the rows read are recorded in ``inputs.used``).
+    gwp : str
+        The GWP100 set: ar4, ar5 or ar6.
+    where : str
+        Where the set was asked for, named in an error.
+
+    Returns
+    -------
+    ndarray
+        kg CO2e per kg of each flow, in the order of ``FLOWS`` (read-only).
+    """
     key = (inputs.factor_set.sha256, gwp, where)
     if key not in SET_CHARACTERISATIONS:
         reader = NumericInputs(inputs.factor_set, inputs.source)

@@ -76,7 +76,18 @@ class Electricity(Section):
 
 def mix_amounts(electricity_params: dict) -> dict:
     """kWh bought from each source per kWh the plant uses: the shares, or with a battery the charging
-    source's share plus the battery's delivery and losses, and the others displaced in proportion."""
+    source's share plus the battery's delivery and losses, and the others displaced in proportion.
+
+    Parameters
+    ----------
+    electricity_params : dict
+        The project's ``electricity`` section (sources with their shares, the optional battery), numbers or draws.
+
+    Returns
+    -------
+    dict of str to float or ndarray
+        Source name -> kWh bought per kWh the plant uses.
+    """
     sources, battery = electricity_params["sources"], electricity_params.get("battery")
     if not battery:
         return {name: source["share"] for name, source in sources.items()}
@@ -90,14 +101,46 @@ def mix_amounts(electricity_params: dict) -> dict:
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
-    """A battery delivers at most what the other sources supply, from a source with a share above 0 (as drawn)."""
+    """A battery delivers at most what the other sources supply, from a source with a share above 0 (as drawn).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters.
+    inputs : NumericInputs
+        Factor and reference values (not read here).
+    source : str
+        The project's file, named in the error.
+
+    Returns
+    -------
+    None
+
+    Raises
+    ------
+    InputError
+        When a battery limit is broken.
+    """
     for field, expected, ok in draw_limits(params, inputs):
         if not ok:
             raise InputError(source, field, expected)
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The battery's limits of ``Electricity`` on numbers or arrays of draws (shares and capacity may be levers or drawn)."""
+    """The battery's limits of ``Electricity`` on numbers or arrays of draws (shares and capacity may be levers or drawn).
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters, numbers or arrays of draws.
+    inputs : NumericInputs or DrawInputs
+        Factor and reference values (not read here).
+
+    Returns
+    -------
+    list of tuple
+        (field, what was expected, truth value or mask of draws that keep the limit).
+    """
     battery = params["electricity"].get("battery")
     if not battery:
         return []

@@ -70,18 +70,71 @@ def accounting_basis(factor_id: str) -> str:
 
 def battery_delivered_share(capacity_kwh, full_cycles_per_year, electricity_kwh_per_year):
     """Share of the plant's electricity delivered from a battery: capacity x full cycles a year over the
-    plant's electricity use a year (a full cycle delivers the usable capacity once)."""
+    plant's electricity use a year (a full cycle delivers the usable capacity once).
+
+    Parameters
+    ----------
+    capacity_kwh : float or ndarray
+        Usable capacity of the battery, kWh.
+    full_cycles_per_year : float
+        Full charge and discharge cycles a year, 1/year.
+    electricity_kwh_per_year : float
+        The plant's electricity use, kWh/year.
+
+    Returns
+    -------
+    float or ndarray
+        Delivered share, kWh from the battery per kWh the plant uses.
+
+    References
+    ----------
+    .. [1] Common practice: energy delivered a year = usable capacity x equivalent full cycles.
+    """
     return capacity_kwh * full_cycles_per_year / electricity_kwh_per_year
 
 
 def charged_source_kwh_per_kwh(share, delivered_share, round_trip_efficiency):
     """kWh bought from the source that charges a battery, per kWh the plant uses: its own share, plus
     the battery's delivery divided by the round-trip efficiency (energy delivered / energy charged),
-    so the round-trip losses, delivered x (1 / efficiency - 1), are bought as extra electricity."""
+    so the round-trip losses, delivered x (1 / efficiency - 1), are bought as extra electricity.
+
+    Parameters
+    ----------
+    share : float or ndarray
+        The charging source's own share of the plant's electricity, kWh/kWh.
+    delivered_share : float or ndarray
+        Share delivered from the battery (``battery_delivered_share``), kWh/kWh.
+    round_trip_efficiency : float
+        Energy delivered over energy charged, in (0, 1].
+
+    Returns
+    -------
+    float or ndarray
+        kWh bought from the charging source per kWh the plant uses.
+
+    References
+    ----------
+    .. [1] Common practice: round-trip efficiency = energy discharged / energy charged.
+    """
     return share + delivered_share / round_trip_efficiency
 
 
 def displaced_source_kwh_per_kwh(share, charged_share, delivered_share):
     """kWh bought from each other source per kWh the plant uses: the battery's delivery displaces the
-    other sources in proportion to their shares (they supply 1 - charged share - delivered share together)."""
+    other sources in proportion to their shares (they supply 1 - charged share - delivered share together).
+
+    Parameters
+    ----------
+    share : float or ndarray
+        This source's declared share, kWh/kWh.
+    charged_share : float or ndarray
+        The charging source's declared share, kWh/kWh (below 1).
+    delivered_share : float or ndarray
+        Share delivered from the battery, kWh/kWh.
+
+    Returns
+    -------
+    float or ndarray
+        kWh bought from this source per kWh the plant uses.
+    """
     return share * (1 - charged_share - delivered_share) / (1 - charged_share)
