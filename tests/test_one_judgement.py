@@ -17,7 +17,8 @@ import pytest
 
 from carbonledger import api
 from carbonledger.analyses.electricity_series import project_series
-from carbonledger.analyses.portfolio import PortfolioProject, score_portfolio
+from carbonledger.analyses.pipeline import PortfolioProject
+from carbonledger.analyses.portfolio import score_portfolio
 from carbonledger.model.factors import load_factor_set
 from carbonledger.routes.project import load_project
 

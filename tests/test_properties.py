@@ -5,7 +5,8 @@ from helpers import DEMO
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from carbonledger.analyses.portfolio import PortfolioProject, score_portfolio
+from carbonledger.analyses.pipeline import PortfolioProject
+from carbonledger.analyses.portfolio import score_portfolio
 from carbonledger.model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from carbonledger.routes.project import load_project
 

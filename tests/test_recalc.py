@@ -10,9 +10,10 @@ import pytest
 from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
 
 from carbonledger.analyses import portfolio
-from carbonledger.analyses.matching import score_with_series
+from carbonledger.analyses.pipeline import assess
 from carbonledger.analyses.portfolio import load_portfolio, recalc
 from carbonledger.analyses.portfolio import score_portfolio as score_many
+from carbonledger.core.assessment import Assessment
 from carbonledger.core.scoring import score_project
 from carbonledger.model.factors import load_factor_set
 
@@ -90,7 +91,7 @@ def test_fast_path_equals_bw2calc_score_project():
         factor_set = load_factor_set(name)
         for item, quick in zip(projects, score_many(projects, factor_set, check_with_bw2calc=False), strict=True):
             # a project with a time series: bw2calc, then its checks matched against the series, as `score` does
-            reference = score_project(item.project, factor_set) if item.series is None else score_with_series(item.project, factor_set, item.series)
+            reference = score_project(item.project, factor_set) if item.series is None else assess(Assessment(factor_set), item.project, series=item.series)
             assert quick.total == pytest.approx(reference.total, rel=1e-9, abs=1e-12)
             for stage, value in reference.by_stage.items():
                 assert quick.by_stage[stage] == pytest.approx(value, rel=1e-9, abs=1e-9)

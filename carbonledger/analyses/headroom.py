@@ -22,7 +22,8 @@ import numpy as np
 from pydantic import BaseModel
 
 from ..about import CAUTION
-from ..core.scoring import DEFAULT_GWP, rulebooks, score_project
+from ..core.assessment import Assessment
+from ..core.scoring import DEFAULT_GWP, rulebooks
 from ..core.verdicts import NOT_MET, UNKNOWN, status_of
 from ..errors import InputError
 from ..model.distributions import Uncertainty
@@ -31,7 +32,7 @@ from ..model.project import field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..model.statuses import Status
 from ..routes.project import validate_project
-from .matching import score_with_series
+from .pipeline import assess
 from .uncertainty import Draws, evaluate, limit_breaks, make_plan, params_with_draws
 
 SCAN_POINTS = 401
@@ -196,10 +197,7 @@ def verify(plan, path: str, value: float, scheme_id: str, source: str, gwp: str,
     params = params_with_draws(plan, {path: np.float64(value)})
     data: dict[str, Any] = _plain(params)
     project = validate_project(data, source)
-    if plan.series is not None:
-        result = score_with_series(project, plan.factor_set, plan.series, gwp=gwp, schemes=[scheme_id], source=source, year=year)
-    else:
-        result = score_project(project, plan.factor_set, gwp=gwp, schemes=[scheme_id], source=source, boundary=boundary, year=year)
+    result = assess(Assessment(plan.factor_set, gwp, (scheme_id,), boundary=boundary, year=year), project, source=source, series=plan.series)
     return next(check.value for check in result.checks if check.scheme == scheme_id)
 
 

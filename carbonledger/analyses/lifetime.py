@@ -43,7 +43,8 @@ from ..routes import routes_of
 from ..routes.project import validate_project
 from ..stages import lifetime as stage
 from .electricity_series import ElectricitySeries, project_series
-from .portfolio import PortfolioProject, score_portfolio
+from .pipeline import PortfolioProject
+from .portfolio import score_portfolio
 
 
 @dataclass

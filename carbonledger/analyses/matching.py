@@ -33,10 +33,9 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from ..core.results import Check, ElectricityMatching, MonthOfMatching, ScoreResult
-from ..core.scoring import DEFAULT_GWP, Prepared, assemble, charged_source_intensities, intensities, judged, prepare, scheme_reading, solve_with_bw2calc
+from ..core.scoring import Prepared, charged_source_intensities, intensities, judged, scheme_reading
 from ..core.verdicts import MET, NOT_MET, Finding, Period, fully_renewable_finding
 from ..errors import InputError
-from ..model.factors import FactorSet
 from ..model.rulebooks import PERIODS, grade_note
 from ..model.statuses import Status
 from .electricity_series import ElectricitySeries
@@ -480,23 +479,3 @@ def matched_values_of_draws(scheme, series: ElectricitySeries, model: Electricit
     return declared_values + model.value_per_total * model.basis_kwh * (intensity - model.declared_kg_per_kwh)
 
 
-def score_with_series(
-    project,
-    factor_set: FactorSet,
-    series: ElectricitySeries,
-    *,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    source: str = "project",
-    project_sha256: str = "",
-    matching: str | None = None,
-    year: int | None = None,
-) -> ScoreResult:
-    """Score a project, then match its electricity series under each scheme's temporal rule (or ``matching``).
-
-    The verdict rules learn from the series that every source with a generation column is matched
-    interval by interval (hourly, or half-hourly and finer), so an hourly rule can be judged.
-    """
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=project_sha256, year=year, matching=series_matched_periods(series))
-    solutions = solve_with_bw2calc(prepared)
-    return matched_checks(prepared, solutions, assemble(prepared, solutions), series, None if matching in (None, "rule") else matching)

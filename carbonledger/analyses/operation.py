@@ -6,7 +6,7 @@ with a hydrogen price, the most margin) while the scheme's value stays within it
 HiGHS. The lever's cost is ``cost.per_unit`` times what that plan gives up against running at rated
 power in every interval (the plan's own baseline): kg H2 not made, or margin lost in the series'
 price currency. A combination for which no plan qualifies is infeasible. The plan's load becomes the
-series' load, so the answer is scored back through ``score_with_series`` as ``score`` scores it.
+series' load, so the answer is scored back through ``analyses.pipeline.assess`` as ``score`` scores it.
 """
 
 from __future__ import annotations

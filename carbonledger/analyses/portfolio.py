@@ -24,27 +24,18 @@ import gc
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from ..core.assessment import Assessment
 from ..core.results import FactorSetRef, ScoreResult
-from ..core.scoring import DEFAULT_GWP, Prepared, assemble, prepare, rulebooks, solve_stacked
+from ..core.scoring import DEFAULT_GWP, Prepared, rulebooks
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
 from ..model.statuses import Status
 from ..routes.project import load_project
 from .electricity_series import project_series
-from .matching import matched_checks, series_matched_periods
+from .pipeline import PortfolioProject, assess_prepared, prepare_many
 
 STATUSES = ("now fails", "now qualifies", "now undetermined", "now not eligible", "still fails", "still qualifies", "still not eligible", "still undetermined")  # how a check moved
-
-
-@dataclass(frozen=True)
-class PortfolioProject:
-    """One validated project file of a portfolio."""
-
-    path: str
-    project: object  # the validated project model
-    sha256: str
-    series: object = None  # its electricity time series, if it gives one: checks are matched as `score` matches them
 
 
 def project_files(paths: list[str | Path]) -> list[Path]:
@@ -95,26 +86,17 @@ def collector_paused():
 
 
 def prepare_projects(projects: list[PortfolioProject], sets: list[FactorSet], years: list, gwp: str, schemes: list[str] | None) -> list[Prepared]:
-    """Each project made ready to solve under its factor set and year (``core.scoring.prepare``), its
-    checks limited to ``schemes`` (validated ids) when given; a project with a time series is matched as `score` matches it."""
-    prepared = []
-    for item, one_set, one_year in zip(projects, sets, years, strict=True):
-        matching = series_matched_periods(item.series) if item.series is not None else None
-        ready = prepare(item.project, one_set, gwp=gwp, source=item.path, project_sha256=item.sha256, year=one_year, matching=matching)
-        if schemes:
+    """Each project made ready to solve under its own assessment (its factor set and year), its checks
+    limited to ``schemes`` (validated ids; each project keeps those that apply to its product)."""
+    assessments: dict[tuple, Assessment] = {}  # one per factor set and year (its options are checked once)
+    for one_set, one_year in zip(sets, years, strict=True):
+        if (id(one_set), one_year) not in assessments:
+            assessments[(id(one_set), one_year)] = Assessment(one_set, gwp, year=one_year)
+    prepared = prepare_many([assessments[(id(one_set), one_year)] for one_set, one_year in zip(sets, years, strict=True)], projects)
+    if schemes:
+        for ready in prepared:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
-        prepared.append(ready)
     return prepared
-
-
-def solved_results(projects: list[PortfolioProject], prepared: list[Prepared], check_with_bw2calc: bool, checked: set | None = None) -> list[ScoreResult]:
-    """The results of prepared projects, solved together by structure (``core.scoring.solve_stacked``:
-    each structure not in ``checked`` is also checked against bw2calc once)."""
-    results = []
-    for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, check_with_bw2calc, checked), strict=True):
-        result = assemble(ready, solutions)
-        results.append(result if item.series is None else matched_checks(ready, solutions, result, item.series))
-    return results
 
 
 def score_portfolio(
@@ -153,7 +135,7 @@ def score_portfolio(
         for n in range(0, len(projects), CHUNK_PROJECTS):
             part = slice(n, n + CHUNK_PROJECTS)
             prepared = prepare_projects(projects[part], sets[part], years[part], gwp, schemes)
-            results += solved_results(projects[part], prepared, check_with_bw2calc, checked)
+            results += assess_prepared(projects[part], prepared, check_with_bw2calc, checked)
     return results
 
 
@@ -250,13 +232,13 @@ def recalc_piece(piece: tuple) -> RecalcPiece:
         for start in range(0, len(projects), CHUNK_PROJECTS):
             chunk = projects[start : start + CHUNK_PROJECTS]
             old_ready = prepare_projects(chunk, [old_set] * len(chunk), [year] * len(chunk), gwp, schemes)
-            old_scores = solved_results(chunk, old_ready, True, checked)
+            old_scores = assess_prepared(chunk, old_ready, True, checked)
             moving = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
             new_ready = prepare_projects([chunk[n] for n in moving], [new_set] * len(moving), [year] * len(moving), gwp, schemes)
             for n, ready in zip(moving, new_ready, strict=True):
                 if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
                     ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
-            rescored = dict(zip(moving, solved_results([chunk[n] for n in moving], new_ready, True, checked), strict=True))
+            rescored = dict(zip(moving, assess_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True))
             result.old_scores += old_scores
             result.new_scores += [rescored.get(n) or score.model_copy(update={"factor_set": new_ref}) for n, score in enumerate(old_scores)]
             result.rescored += [start + n for n in moving]

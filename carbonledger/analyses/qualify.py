@@ -8,7 +8,7 @@ the threshold, then the loosest threshold). A set of lever values qualifies when
 scheme's status is ``qualifies`` at the central value, or, with a confidence, when the share of the
 Monte Carlo draws in which every named scheme qualifies is at least the confidence. The answer is
 scored back through the scoring path of ``score`` (``core.scoring.score_project``, or
-``score_with_series``) with the same year: its checks' statuses are the ones reported.
+``analyses.pipeline.assess``) with the same year: its checks' statuses are the ones reported.
 
 Method
 ------
@@ -68,7 +68,8 @@ import numpy as np
 from pydantic import BaseModel
 
 from ..about import CAUTION, __version__
-from ..core.scoring import DEFAULT_GWP, rulebooks, score_project
+from ..core.assessment import Assessment
+from ..core.scoring import DEFAULT_GWP, rulebooks
 from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
@@ -78,8 +79,8 @@ from ..model.rulebooks import select_schemes
 from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..routes.project import validate_project
-from .matching import score_with_series
 from .operation import operation_summary, plan_operation, planned_series
+from .pipeline import assess
 from .uncertainty import Draws, Plan, draw, evaluate, limit_breaks, make_plan, params_with_draws, probability, statuses
 
 SOLVER = "SLSQP (scipy.optimize.minimize)"
@@ -1179,10 +1180,7 @@ def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], b
     scheme qualifying together in at least that share of the draws (``found`` takes that
     probability), and no scheme kept from qualifying by its rules at the answer."""
     ids = [s.id for s in search.schemes]
-    if search.series is not None:
-        result = score_with_series(final, search.factor_set, search.series, gwp=search.gwp, schemes=ids, source=search.source, year=search.year)
-    else:
-        result = score_project(final, search.factor_set, gwp=search.gwp, schemes=ids, source=search.source, year=search.year)
+    result = assess(Assessment(search.factor_set, search.gwp, tuple(ids), year=search.year), final, source=search.source, series=search.series)
     checks = [CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin) for c in result.checks]
     if search.confidence is None:
         return checks, all(check.status == Status.QUALIFIES for check in checks)

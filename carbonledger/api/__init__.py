@@ -65,7 +65,9 @@ WHERE = {
     "load_project": "carbonledger.routes.project",
     "load_factor_set": "carbonledger.model.factors",
     "project_series": "carbonledger.analyses.electricity_series",
-    "score_with_series": "carbonledger.analyses.matching",
+    "assess": "carbonledger.analyses.pipeline",
+    "assess_file": ".scoring",
+    "Assessment": "carbonledger.core.assessment",
     "DEFAULT_SEED": "carbonledger.analyses.uncertainty",
     "DEFAULT_DRAWS": "carbonledger.analyses.uncertainty",
 }

@@ -7,9 +7,10 @@ from pathlib import Path
 from ..analyses.compare import ComparisonResult
 from ..analyses.compare import compare as compare_results
 from ..analyses.electricity_series import project_series
-from ..analyses.matching import score_with_series
+from ..analyses.pipeline import assess
 from ..analyses.uncertainty import DEFAULT_SEED, monte_carlo, uncertain_inputs
-from ..core.scoring import DEFAULT_GWP, score_project
+from ..core.assessment import Assessment
+from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
 from ..model.distributions import Uncertainty, read_distributions_file
 from ..model.factors import DEFAULT_SET, FactorSet
@@ -47,10 +48,8 @@ def compare(
     for path in project_files:
         project, sha, project_set = load_any_project(path, factor_set, boundary_overrides(boundary, None))
         series = None if str(path).lower().endswith(".xlsx") else project_series(project, path)
-        if series is None:
-            results.append(score_project(project, project_set, gwp=gwp, source=str(path), project_sha256=sha, year=year))
-        else:  # checks matched under each scheme's rule, as score gives them
-            results.append(score_with_series(project, project_set, series, gwp=gwp, source=str(path), project_sha256=sha, year=year))
+        # checks matched under each scheme's rule where the project gives a series, as score gives them
+        results.append(assess(Assessment(project_set, gwp, year=year), project, source=str(path), project_sha256=sha, series=series))
         if draws is not None:
             if str(path).lower().endswith(".xlsx"):
                 found = read_distributions_file(distributions) if distributions is not None else Uncertainty()

@@ -4,15 +4,13 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from ..analyses.electricity_series import project_series
-from ..analyses.matching import score_with_series
+from ..analyses.pipeline import assess, read
+from ..core.assessment import Assessment
 from ..core.results import ScoreResult
-from ..core.scoring import DEFAULT_GWP, score_project, shipped_rulebooks
-from ..errors import InputError
+from ..core.scoring import DEFAULT_GWP, shipped_rulebooks
 from ..model.factors import DEFAULT_SET, FactorSet, load_factor_set
 from ..model.project import boundary_id, rebalanced_sources
 from ..model.rulebooks import load_user_rulebooks
-from ..routes.project import load_project
 
 
 def factor_set_of(factors: str | Path | FactorSet) -> FactorSet:
@@ -59,15 +57,31 @@ def score(
         ('hourly', 'half_hourly'), for projects without a series in the file; without it (and
         without a series) hourly rules are undetermined.
     """
-    project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
-    series = None if matching == "declared" else project_series(project, project_file)
-    if series is None:
-        if matching not in (None, "declared"):
-            raise InputError("--matching", matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
-        result = score_project(project, factor_set_of(factors), gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, year=year, matching=matched_periods)
-    else:
-        result = score_with_series(project, factor_set_of(factors), series, gwp=gwp, schemes=schemes, source=str(project_file), project_sha256=sha, matching=matching, year=year)
-    return stating_rebalance(result, project, overrides)
+    assessment = Assessment(factor_set_of(factors), gwp, tuple(schemes) if schemes else None, tuple(overrides or ()), boundary, year, matching)
+    return assess_file(assessment, project_file, matched_periods)
+
+
+def assess_file(assessment: Assessment, project_file: str | Path, matched_periods: dict | None = None) -> ScoreResult:
+    """Score a project file under an assessment's options (``analyses.pipeline``: read, prepare, solve,
+    judge, match its series), stating any share that took up the difference to 1 (``--rebalance``).
+
+    Parameters
+    ----------
+    assessment : Assessment
+        The run's options, built once (``Assessment(load_factor_set("default-2026"), gwp="ar6", year=2030)``).
+    project_file : str or Path
+        The project TOML file.
+    matched_periods : dict or None
+        Without a series in the file: electricity source name -> the finest period it is shown matched.
+
+    Returns
+    -------
+    ScoreResult
+        The result with its scheme checks.
+    """
+    project, sha, series = read(assessment, project_file)
+    result = assess(assessment, project, source=str(project_file), project_sha256=sha, series=series, matched_periods=matched_periods)
+    return stating_rebalance(result, project, list(assessment.overrides))
 
 
 def stating_rebalance(result: ScoreResult, project, overrides: list[str] | None) -> ScoreResult:

@@ -6,9 +6,10 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..analyses.electricity_series import project_series
-from ..analyses.matching import score_with_series
 from ..analyses.periods import metered_year, month_results, read_meters
+from ..analyses.pipeline import assess
 from ..analyses.uncertainty import DEFAULT_SEED, UncertaintyResult, monte_carlo
+from ..core.assessment import Assessment
 from ..core.results import ScoreResult
 from ..core.scoring import DEFAULT_GWP, score_project
 from ..errors import InputError
@@ -122,7 +123,7 @@ def audit_workbook(
     matched = None
     series = project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
     if series is not None:  # the series file beside the project file, or the workbook's Intervals sheet
-        matched = score_with_series(project, factor_set, series, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year).checks
+        matched = assess(Assessment(factor_set, gwp, tuple(schemes) if schemes else None, year=year), project, source=source, project_sha256=sha, series=series).checks
     if draws is not None:
         spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
     workbook = build_workbook(

@@ -96,4 +96,4 @@ class Assessment:
             Inventory, matrices, characterisation vectors and the schemes to check.
         """
         return prepare(project, self.factor_set, gwp=self.gwp, schemes=self.scheme_list, source=source,
-                       project_sha256=project_sha256, year=self.year, matching=matched_periods)
+                       project_sha256=project_sha256, boundary=self.boundary, year=self.year, matching=matched_periods)
