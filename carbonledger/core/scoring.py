@@ -1097,6 +1097,58 @@ def _plain(value):
     return value if isinstance(value, str) else float(value)
 
 
+def flows_apart(kg_by_flow, flow_keys: list[str]) -> tuple[dict[str, float], dict[str, float]]:
+    """The flows counted apart from the CO2e total: kg of NH3 and H2 (not greenhouse gases in the total)
+    and kg of biogenic CO2 released or captured and stored, per functional unit.
+
+    Parameters
+    ----------
+    kg_by_flow : ndarray
+        kg of each flow per functional unit, in the order of ``flow_keys``.
+    flow_keys : list of str
+        The flows of the inventory.
+
+    Returns
+    -------
+    tuple of dict
+        (non-greenhouse flows -> kg, biogenic flows -> kg).
+    """
+    kg = {flow: float(value) for flow, value in zip(flow_keys, kg_by_flow, strict=True)}
+    return {f: kg[f] for f in NON_GHG_FLOWS if f in kg}, {f: kg[f] for f in BIOGENIC_FLOWS if f in kg}
+
+
+def exchange_rows(inventory: Inventory, supply: dict) -> list[ExchangeRow]:
+    """Every exchange of the inventory with its activity's supply per functional unit, as the result lists them.
+
+    Parameters
+    ----------
+    inventory : Inventory
+        The project's activities and exchanges.
+    supply : dict of str to float
+        Units of each activity's product per functional unit.
+
+    Returns
+    -------
+    list of ExchangeRow
+        One row per exchange, in inventory order.
+    """
+    return [
+        ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+            EXCHANGE_FIELDS,
+            activity=activity.key,
+            stage=activity.stage,
+            kind=exchange.kind,
+            input=exchange.input,
+            label=exchange.label,
+            amount=float(exchange.amount),
+            unit=exchange.unit,
+            activity_supply=float(supply[activity.key]),
+        )
+        for activity in inventory.activities.values()
+        for exchange in activity.exchanges
+    ]
+
+
 def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     """The result of one project from its solved inventories: the one place figures are summed.
 
@@ -1132,31 +1184,14 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     stage_sums, gas_sums = stage_and_gas_sums(contributions, keys, matrices.flow_keys, inventory)
     by_stage = {stage: float(value) for stage, value in stage_sums.items()}
     by_gas = {flow: float(value) for flow, value in gas_sums.items()}
-    non_ghg = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in NON_GHG_FLOWS}
-    biogenic = {flow: float(v) for flow, v in zip(matrices.flow_keys, main.inventory.sum(axis=1), strict=True) if flow in BIOGENIC_FLOWS}
+    non_ghg, biogenic = flows_apart(main.inventory.sum(axis=1), matrices.flow_keys)
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
     leakage = non_ghg.get("h2", 0.0)
     leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
     supply = dict(zip(keys, main.supply, strict=True))
-    exchanges = [
-        ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
-            EXCHANGE_FIELDS,
-            activity=activity.key,
-            stage=activity.stage,
-            kind=exchange.kind,
-            input=exchange.input,
-            label=exchange.label,
-            amount=float(exchange.amount),
-            unit=exchange.unit,
-            activity_supply=float(supply[activity.key]),
-        )
-        for activity in inventory.activities.values()
-        for exchange in activity.exchanges
-    ]
+    exchanges = exchange_rows(inventory, supply)
     product, reference_product = inventory.product, inventory.reference_product
-    heating = {"hydrogen_lhv": prepared.hydrogen_lhv}
-    if product == "ammonia":
-        heating["ammonia_lhv"] = prepared.ammonia_lhv
+    heating = {"hydrogen_lhv": prepared.hydrogen_lhv, **({"ammonia_lhv": prepared.ammonia_lhv} if product == "ammonia" else {})}
     every = intensities(total, reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
     factor_set = prepared.factor_set
     return finite_result(ScoreResult(

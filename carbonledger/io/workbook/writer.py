@@ -171,11 +171,7 @@ def build_workbook(
     _write_inputs_sheet(inputs_ws, parameter_table(project), symbolic, input_cell, evidence or {})
     symbolic["project"]["boundary"] = result.boundary
 
-    model = symbolic_model(symbolic, factor_set, gwp, [s.id for s in chosen])
-    model.counted_zero = {check.scheme: set(check.electricity_counted_zero) for check in result.checks}
-    model.charged_as_grid = {check.scheme: dict(check.electricity_charged_as_grid) for check in result.checks}
-    model.declared_e_td = symbolic["project"].get("declared_e_td_g_co2e_per_mj")
-    check_acyclic(model.inventory, source)
+    model = _checked_symbolic_model(symbolic, factor_set, result, chosen)
     period_plan = None
     if meters is not None:
         period_plan = plan_periods(meters, params, model, factor_set, engine=month_results)
@@ -185,11 +181,7 @@ def build_workbook(
     results_cells = _write_results_sheet(results_ws, model, chosen, block, address, result)
     if period_plan is not None:
         write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, result.unit, chosen, results_cells)
-    matched = [check for check in matched_checks or [] if check.electricity_matching is not None]
-    series_source = ""
-    if series is not None and matched:
-        write_intervals_sheets(workbook.create_sheet(MATCHING), workbook.create_sheet(INTERVALS), series, matched, block, model.inventory.hydrogen)
-        series_source = f"{series.path} (sha256 {series.sha256})"
+    series_source = _write_matching_sheets(workbook, series, matched_checks, block, model)
     _write_cover(
         cover,
         result,
@@ -202,19 +194,45 @@ def build_workbook(
         series_source=series_source,
     )
     _style_calculation(calculation_ws, block, result)
-    for sheet in workbook.worksheets:
-        if sheet.title != INTERVALS:  # every interval cell is given its format as it is written
-            fill_missing_formats(sheet)
-    page_setup(cover)
-    page_setup(inputs_ws, title_rows=f"{INPUT_HEADER_ROW}:{INPUT_HEADER_ROW}")
-    page_setup(factors_ws, title_rows=f"{FACTOR_HEADER_ROW}:{FACTOR_HEADER_ROW}")
-    page_setup(calculation_ws, title_columns="A:A", pages_wide=2)
-    page_setup(results_ws, title_columns="A:A", pages_wide=2)
-    if period_plan is not None:
-        page_setup(workbook[PERIODS], title_columns="A:A", pages_wide=2)
+    _set_up_pages(workbook)
     if uncertainty is not None:
         write_uncertainty_sheet(workbook.create_sheet(UNCERTAINTY), uncertainty, draws_csv)
     return workbook
+
+
+def _write_matching_sheets(workbook, series, matched_checks, block: CalculationBlock, model: SymbolicModel) -> str:
+    """With a series and checks matched against it, the Matching and Intervals sheets; returns the
+    series' file and sha256 for the cover ('' without them)."""
+    matched = [check for check in matched_checks or [] if check.electricity_matching is not None]
+    if series is None or not matched:
+        return ""
+    write_intervals_sheets(workbook.create_sheet(MATCHING), workbook.create_sheet(INTERVALS), series, matched, block, model.inventory.hydrogen)
+    return f"{series.path} (sha256 {series.sha256})"
+
+
+def _checked_symbolic_model(symbolic: dict, factor_set, result: ScoreResult, chosen) -> SymbolicModel:
+    """The engine's arithmetic on the Inputs cells, with what the rules read at writing (electricity
+    counted zero or charged as grid, a declared e_td), refused when the supply chain has a loop."""
+    model = symbolic_model(symbolic, factor_set, result.gwp_basis, [s.id for s in chosen])
+    model.counted_zero = {check.scheme: set(check.electricity_counted_zero) for check in result.checks}
+    model.charged_as_grid = {check.scheme: dict(check.electricity_charged_as_grid) for check in result.checks}
+    model.declared_e_td = symbolic["project"].get("declared_e_td_g_co2e_per_mj")
+    check_acyclic(model.inventory, result.project_file)
+    return model
+
+
+def _set_up_pages(workbook) -> None:
+    """Every cell formatted (the Intervals sheet formats its own as it writes them) and each sheet's
+    print set-up: A4 landscape, header rows or the first column repeated, wide sheets on two pages."""
+    for sheet in workbook.worksheets:
+        if sheet.title != INTERVALS:
+            fill_missing_formats(sheet)
+    page_setup(workbook[COVER])
+    page_setup(workbook[INPUTS], title_rows=f"{INPUT_HEADER_ROW}:{INPUT_HEADER_ROW}")
+    page_setup(workbook[FACTORS], title_rows=f"{FACTOR_HEADER_ROW}:{FACTOR_HEADER_ROW}")
+    for name in (CALCULATION, RESULTS, PERIODS):
+        if name in workbook.sheetnames:
+            page_setup(workbook[name], title_columns="A:A", pages_wide=2)
 
 
 def _style_calculation(ws, block: CalculationBlock, result: ScoreResult) -> None:
