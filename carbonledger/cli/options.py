@@ -15,16 +15,13 @@ from .. import api
 from ..core.results import strict_json
 from ..errors import InputError
 from ..io.chart_files import CHART_FORMATS
+from ..io.formats import formats, output_text
 from ..io.tables import user_rulebook_line
 from ..model.project import rebalance_override
 from ..model.rulebooks import reset_user_rulebooks, set_user_rulebooks, user_rulebooks
 from .words import WordsGroup, words_for_types  # noqa: F401  (re-exported: the commands' groups use them)
 
-
-class OutputFormat(StrEnum):
-    table = "table"
-    json = "json"
-    csv = "csv"
+OutputFormat = StrEnum("OutputFormat", {name: name for name in formats()})  # io.formats: built-in and registered
 
 
 FactorsOption = Annotated[str, typer.Option("--factors", metavar="SET", help="Factor set name, set folder, or override CSV over the default set.")]
@@ -86,13 +83,10 @@ def fail(error: InputError) -> None:
 
 
 def render(output_format: OutputFormat, *, table: Callable[[], str], json: Callable[[], str], csv: Callable[[], str]) -> str:
-    """The output text of a command in the chosen format (every command offers all three)."""
-    text = {OutputFormat.table: table, OutputFormat.json: json, OutputFormat.csv: csv}[output_format]()
-    text = text if text.endswith("\n") else text + "\n"
+    """The output text of a command in the chosen format (``io.formats``: every command offers every format)."""
+    text = output_text(output_format, table=table, json_text=lambda: json_naming_user_rulebooks(json()), csv=csv)
     if output_format == OutputFormat.table:  # every table names the user rulebooks in use (a score's names them already)
         text += "".join(line + "\n" for line in map(user_rulebook_line, user_rulebooks().values()) if line not in text)
-    if output_format == OutputFormat.json:
-        text = json_naming_user_rulebooks(text)
     return text
 
 
