@@ -73,6 +73,9 @@ WHERE = {
 }
 
 __all__ = [
+    "Assessment",
+    "assess",
+    "assess_file",
     "score",
     "score_project",
     "score_workbook",
