@@ -34,12 +34,44 @@ def compare(
 ) -> ComparisonResult:
     """Score several project files (or audit workbooks) with the same options and put them on one basis.
 
-    basis : 'auto', 't-nh3', 'kg-h2' or 'mj' (LHV of the delivered product).
-    draws : with a number, a Monte Carlo of each project (its ``[uncertainty]`` table and factor rows
-        with pedigree scores; the same ``seed`` for all) gives its 5th-95th percentile band; a project
-        without any distribution shows none, and says so. ``distributions`` (a distributions file)
-        is laid over every project's own table (a pedigree distribution of a parameter takes each
-        project's own value as its median).
+    Parameters
+    ----------
+    project_files : list of str or Path
+        Project TOML files or audit workbooks (``.xlsx``, scored from their inputs and edited factors).
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake`` for every project; default each project's own
+        (the projects must then share one).
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline results.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    schemes : list of str or None
+        Scheme ids whose checks are compared; default every scheme that applies.
+    basis : str
+        ``auto`` (the products' own unit when all projects make the same product, else ``mj``), ``t-nh3``
+        (kg CO2e/t NH3), ``kg-h2`` (kg CO2e/kg H2) or ``mj`` (g CO2e/MJ, LHV of the delivered product).
+    draws : int or None
+        With a number, a Monte Carlo of each project of this many draws (its ``[uncertainty]`` table and factor
+        rows with pedigree scores) gives its 5th-95th percentile band; a project without any distribution shows
+        none, and says so. None: no bands.
+    seed : int
+        Seed of the random numbers, the same for every project (the same seed gives the same bands).
+    distributions : str, Path or None
+        A distributions file laid over every project's own table (a pedigree distribution of a parameter takes
+        each project's own value as its median).
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read; default each project's.
+
+    Returns
+    -------
+    ComparisonResult
+        The projects' figures on the common basis, their scheme checks and threshold lines, and with ``draws``
+        each project's band (or the reason it has none).
+
+    Raises
+    ------
+    InputError
+        When no project file is given.
     """
     if not project_files:
         raise InputError("compare", "PROJECTS", "at least one project file")

@@ -27,8 +27,27 @@ PACK_RULEBOOK_FOLDER = "rulebooks"  # the user rulebooks (--rulebook) in a pack
 
 
 def files_read_by(project, project_file: str | Path) -> dict[str, Path]:
-    """The files a project reads beside itself (its electricity time series, its grid trajectory
-    CSV), by their path relative to the project file; one outside the project's folder is refused."""
+    """The files a project reads beside itself, by their path relative to the project file.
+
+    Its electricity time series and its grid trajectory CSV; one outside the project's folder is refused.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project.
+    project_file : str or Path
+        The project TOML file (the files it names are relative to its folder).
+
+    Returns
+    -------
+    dict of str to Path
+        Relative path (POSIX) -> resolved path of every file the project reads.
+
+    Raises
+    ------
+    InputError
+        When a file the project reads is outside the project's folder (it could not go in the pack).
+    """
     base = Path(project_file).resolve().parent
     named = [("electricity.time_series", project.electricity.time_series)]
     if project.lifetime is not None:
@@ -56,12 +75,51 @@ def pack(
     force: bool = False,
     rulebooks: list[str | Path] | None = None,
 ) -> tuple[dict, ScoreResult]:
-    """Write an evidence pack of a project: the project file and every file it reads, the factor
-    overrides (a factor CSV or set folder given as ``factors``; a shipped set is named with its
-    sha256), the user's own rulebooks (``rulebooks``, checked beside the schemes), the result as
-    JSON, the audit workbook, the report, the project's records in the run ledger, and a manifest
+    """Write an evidence pack of a project.
+
+    The pack holds the project file and every file it reads, the factor overrides (a factor CSV or set
+    folder given as ``factors``; a shipped set is named with its sha256), the user's own rulebooks, the
+    result as JSON, the audit workbook, the report, the project's records in the run ledger, and a manifest
     with the sha256 of every file, the version and the assessment year.
-    Returns the manifest and the result packed."""
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file.
+    output : str or Path
+        The pack (zip) file to write.
+    factors : str or Path
+        Factor set name, set folder or override CSV (a folder or CSV goes in the pack).
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline result.
+    schemes : list of str or None
+        Scheme ids to check; default every scheme that applies.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read; the manifest records the
+        year the result was assessed on.
+    ledger : str, Path or None
+        The run ledger whose records of the project go in the pack; default ``$CARBONLEDGER_LEDGER``, else the
+        ledger in the user's data folder.
+    force : bool
+        Overwrite an existing pack file.
+    rulebooks : list of str or Path or None
+        The user's own rulebook TOML files, checked beside the schemes and packed.
+
+    Returns
+    -------
+    tuple of (dict, ScoreResult)
+        The manifest and the result packed.
+
+    Raises
+    ------
+    InputError
+        When two rulebook files have the same file name (they would take one place in the pack).
+
+    References
+    ----------
+    .. [1] PKWARE, APPNOTE.TXT - .ZIP File Format Specification (the zip container).
+    .. [2] FIPS 180-4, Secure Hash Standard (SHA-256).
+    """
     packed_rulebooks = {}
     for path in dict.fromkeys(Path(given) for given in rulebooks or []):
         name = f"{PACK_RULEBOOK_FOLDER}/{path.name}"
@@ -111,8 +169,19 @@ def _pack(project_file: Path, output, factors, gwp, schemes, year, ledger, force
 
 
 def packed_figures(result: dict) -> dict[str, object]:
-    """The figures and statuses of a result's JSON that a re-score must reproduce: total, every
-    intensity, stage and gas, and each check's value, limit, status and tier."""
+    """The figures and statuses of a result's JSON that a re-score must reproduce.
+
+    Parameters
+    ----------
+    result : dict
+        A result's JSON document (``ScoreResult.to_json()``, read back).
+
+    Returns
+    -------
+    dict of str to object
+        Figure name -> value: total, every intensity, stage and gas (in the result's units), and each check's
+        value, limit, status and tier (``<scheme>.<key>``).
+    """
     figures: dict[str, object] = {"total": result["total"]}
     figures.update({f"intensity.{k}": v for k, v in result["intensity"].items()})
     figures.update({f"by_stage.{k}": v for k, v in result["by_stage"].items()})
@@ -124,10 +193,33 @@ def packed_figures(result: dict) -> dict[str, object]:
 
 
 def verify_pack(path: str | Path) -> list[tuple[str, object, object, bool]]:
-    """Check a pack against its manifest (``io.pack.PackMismatch`` names a file that does not
-    match), re-score its project in a fresh folder with the options it was packed with, and
-    compare every figure and status: [(figure, packed, re-scored, reproduced)]. Figures are
-    reproduced to a relative 1e-9; a shipped factor set must have the sha256 the pack names."""
+    """Verify a pack: check it against its manifest, re-score its project and compare every figure and status.
+
+    The project is re-scored in a fresh folder with the options it was packed with. Figures are reproduced
+    to a relative 1e-9; a shipped factor set must have the sha256 the pack names.
+
+    Parameters
+    ----------
+    path : str or Path
+        The pack (zip) file.
+
+    Returns
+    -------
+    list of tuple of (str, object, object, bool)
+        One row per figure: (figure, packed, re-scored, reproduced).
+
+    Raises
+    ------
+    InputError
+        When the pack names a shipped factor set whose sha256 differs from this installation's.
+    io.pack.PackMismatch
+        When a file of the pack does not match its manifest (raised by ``io.pack.read_pack``; names the file).
+
+    References
+    ----------
+    .. [1] PKWARE, APPNOTE.TXT - .ZIP File Format Specification (the zip container).
+    .. [2] FIPS 180-4, Secure Hash Standard (SHA-256).
+    """
     packed = read_pack(path)
     manifest, options = packed.manifest, packed.manifest.get("options", {})
     with tempfile.TemporaryDirectory(prefix="carbonledger-verify-") as folder:

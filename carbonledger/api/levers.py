@@ -32,11 +32,59 @@ def qualify(
     gwp: str = DEFAULT_GWP,
     overrides: list[str] | None = None,
 ) -> QualifyResult:
-    """The least-cost values of the levers in ``levers_file`` with which every scheme in ``schemes``
-    (default: the levers file's ``schemes``) qualifies on ``year``'s rules: at the central value, or,
-    with ``confidence``, in at least that share of ``draws`` Monte Carlo draws (``seed``; the
-    project's ``[uncertainty]`` table with ``distributions`` laid over it). Also the cost/margin
-    front over ``budgets`` budgets (0: none). See docs/qualify.md."""
+    """The least-cost values of the levers with which every scheme qualifies, and the cost/margin front.
+
+    The levers of ``levers_file`` are set so that every scheme in ``schemes`` qualifies on ``year``'s rules:
+    at the central value, or, with ``confidence``, in at least that share of ``draws`` Monte Carlo draws.
+    See docs/qualify.md.
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file.
+    levers_file : str or Path
+        The levers file: the parameters that may move, their ranges and costs, and its ``schemes``.
+    schemes : list of str or None
+        Scheme ids that must qualify; default the levers file's ``schemes``.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+    confidence : float or None
+        Share of the Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; None: at
+        the central value.
+    draws : int
+        Monte Carlo draws with ``confidence`` (common to every candidate).
+    seed : int
+        Seed of the draws' random numbers (the same seed gives the same numbers).
+    sampling : str or None
+        ``random`` or ``latin_hypercube``; default the distributions' own (random).
+    distributions : str, Path or None
+        A distributions TOML laid over the project's own ``[uncertainty]`` table (read with ``confidence``).
+    budgets : int
+        Number of budgets of the cost/margin front (0: no front).
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``).
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+
+    Returns
+    -------
+    QualifyResult
+        The least-cost lever values (each in its parameter's unit) and their total cost (in the levers file's
+        currency per its period), each scheme's check there (scored back through ``score``), and the front.
+
+    References
+    ----------
+    .. [1] Kraft, D. (1988). A software package for sequential quadratic programming. DFVLR-FB 88-28
+       (SLSQP, the method of scipy.optimize.minimize used here).
+    .. [2] Charnes, A. and Cooper, W. W. (1959). Chance-constrained programming. Management Science
+       6(1), 73-79.
+    .. [3] Luedtke, J. and Ahmed, S. (2008). A sample approximation approach for optimization with
+       probabilistic constraints. SIAM Journal on Optimization 19(2), 674-699.
+    .. [4] Land, A. H. and Doig, A. G. (1960). An automatic method of solving discrete programming
+       problems. Econometrica 28(3), 497-520 (branch and bound).
+    """
     levers = read_levers(levers_file)
     project, _ = load_project(project_file, overrides)
     found = load_uncertainty(project_file, distributions) if confidence is not None else None

@@ -23,7 +23,26 @@ from .scoring import boundary_overrides, factor_set_of
 
 
 def load_uncertainty(project_file: str | Path, distributions: str | Path | None = None) -> Uncertainty:
-    """The distributions of a run: the project's ``[uncertainty]`` table with a distributions file laid over it."""
+    """The distributions of a run: the project's ``[uncertainty]`` table with a distributions file laid over it.
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file.
+    distributions : str, Path or None
+        A distributions TOML whose entries replace or add to the project's own.
+
+    Returns
+    -------
+    Uncertainty
+        The distributions by parameter path or factor id (empty when neither gives any; factor rows with
+        pedigree scores may add some in the analysis).
+
+    Raises
+    ------
+    InputError
+        When the project's ``uncertainty`` is not a table.
+    """
     data, _ = read_project_file(project_file)
     table = data.get("uncertainty")
     found = parse_uncertainty(table, str(project_file)) if isinstance(table, dict) else Uncertainty()
@@ -51,10 +70,47 @@ def uncertainty(
 ) -> UncertaintyResult:
     """Monte Carlo of a project: mean, spread and percentiles of every figure, probability of each verdict.
 
-    distributions : a distributions TOML laid over the project's own ``[uncertainty]`` table.
-    draws, seed : number of draws and the seed (the same seed gives the same numbers).
-    sampling : 'random' or 'latin_hypercube'; default the distributions' own (random).
-    progress : optional callable(number of draws done) for a progress bar.
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file.
+    distributions : str, Path or None
+        A distributions TOML laid over the project's own ``[uncertainty]`` table.
+    draws : int
+        Number of draws.
+    seed : int
+        Seed of the random numbers (the same seed gives the same numbers).
+    sampling : str or None
+        ``random`` or ``latin_hypercube``; default the distributions' own (random).
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline figures.
+    schemes : list of str or None
+        Scheme ids whose probability of qualifying is estimated; default every scheme that applies.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    progress : callable or None
+        Called with the number of draws done (for a progress bar).
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+
+    Returns
+    -------
+    UncertaintyResult
+        Mean, standard deviation and percentiles of the total, every intensity, stage and scheme value (in
+        their own units: kg CO2e per functional unit, g CO2e/MJ), each scheme's probability of qualifying, and
+        the draws left out for breaking a physical limit.
+
+    References
+    ----------
+    .. [1] McKay, M. D., Beckman, R. J. and Conover, W. J. (1979). A comparison of three methods
+       for selecting values of input variables in the analysis of output from a computer code.
+       Technometrics 21(2), 239-245 (Latin hypercube sampling).
+    .. [2] Iman, R. L. and Conover, W. J. (1982). A distribution-free approach to inducing rank
+       correlation among input variables. Communications in Statistics B 11(3), 311-334.
     """
     found = load_uncertainty(project_file, distributions)
     project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
@@ -76,8 +132,48 @@ def headroom(
     boundary: str | None = None,
     year: int | None = None,
 ) -> list[Headroom]:
-    """For each parameter path, the value at which the scheme's limit (or ``tier``) is met exactly,
-    or None with the reason (root finding within the parameter's physical range, verified by scoring)."""
+    """For each parameter path, the value at which the scheme's limit (or ``tier``) is met exactly.
+
+    Root finding within the parameter's physical range, verified by scoring; None with the reason where the
+    limit is not met within it.
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file.
+    parameters : list of str
+        Parameter paths (as ``carbonledger params`` lists them, e.g. ``capture.capture_rate``).
+    scheme : str
+        The scheme id whose limit is sought.
+    tier : str or None
+        A tier of the scheme; default its loosest threshold.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``).
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+
+    Returns
+    -------
+    list of Headroom
+        One per parameter: the value (in the parameter's own unit) at which the scheme value equals the limit
+        (in the scheme's unit), or None with the reason, and the side of it that qualifies.
+
+    Raises
+    ------
+    InputError
+        When no parameter path is given.
+
+    References
+    ----------
+    .. [1] Brent, R. P. (1973). Algorithms for Minimization without Derivatives, ch. 4.
+       Prentice-Hall (the root finder behind scipy.optimize.brentq).
+    """
     if not parameters:
         raise InputError("headroom", "--parameter", "at least one parameter path")
     project, _ = load_project(project_file, boundary_overrides(boundary, overrides))
@@ -100,9 +196,51 @@ def sensitivity(
     year: int | None = None,
     swing: float = SWING_PERCENT,
 ) -> Sensitivity:
-    """Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total,
-    or of ``scheme``'s value, over the project's uncertain inputs (stated, or the defaults of the factor
-    rows), and the one-at-a-time move of every factor and numeric parameter by -``swing`` % and +``swing`` %."""
+    """Which inputs decide the result: Sobol indices, a percentile tornado and a one-at-a-time swing.
+
+    Sobol first- and total-order indices (SALib) and a 10th/90th percentile tornado of the total, or of
+    ``scheme``'s value, over the project's uncertain inputs (stated, or the defaults of the factor rows), and
+    the one-at-a-time move of every factor and numeric parameter by -``swing`` % and +``swing`` %.
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file.
+    distributions : str, Path or None
+        A distributions TOML laid over the project's own ``[uncertainty]`` table.
+    scheme : str or None
+        The scheme id whose value is analysed; None: the total (kg CO2e per functional unit).
+    base_sample : int
+        N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).
+    seed : int
+        Seed of the scrambled Sobol sample and of the indices' bootstrap (the same seed gives the same indices).
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``).
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+    swing : float
+        The one-at-a-time move of each input, per cent of its own value.
+
+    Returns
+    -------
+    Sensitivity
+        The Sobol indices (dimensionless), the tornado bars and the swings (in the figure's unit).
+
+    References
+    ----------
+    .. [1] Sobol', I. M. (2001). Global sensitivity indices for nonlinear mathematical models and
+       their Monte Carlo estimates. Mathematics and Computers in Simulation 55, 271-280.
+    .. [2] Saltelli, A. et al. (2010). Variance based sensitivity analysis of model output. Design
+       and estimator for the total sensitivity index. Computer Physics Communications 181, 259-270.
+    .. [3] Herman, J. and Usher, W. (2017). SALib: An open-source Python library for sensitivity
+       analysis. Journal of Open Source Software 2(9), 97.
+    """
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, boundary_overrides(boundary, overrides))
     return sensitivity_of(
@@ -122,9 +260,35 @@ def analysis_record(
     overrides: list[str] | None = None,
     boundary: str | None = None,
 ) -> LedgerRecord:
-    """The run-ledger record of an analysis of one project (``kind`` 'sensitivity', 'headroom'):
-    the project as read (its sha256 and parameters), the factor set and the rows the project
-    reads, and the analysis's own ``summary`` (``Sensitivity.summary_for_ledger()``, ``headroom_summary``)."""
+    """The run-ledger record of an analysis of one project.
+
+    The project as read (its sha256 and parameters), the factor set and the rows the project reads, and
+    the analysis's own ``summary``.
+
+    Parameters
+    ----------
+    kind : str
+        The analysis: ``sensitivity`` or ``headroom``.
+    project_file : str or Path
+        The project TOML file analysed.
+    summary : dict
+        The analysis's summary for the ledger (``Sensitivity.summary_for_ledger()``, ``headroom_summary``).
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the analysis.
+    schemes : list of str or None
+        Scheme ids the analysis looked at.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+
+    Returns
+    -------
+    LedgerRecord
+        The record, not yet written.
+    """
     project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
     factor_set = factor_set_of(factors)
     used = factors_used(project, factor_set, str(project_file), gwp)
@@ -145,12 +309,38 @@ def analysis_record(
 
 
 def headroom_record(results: list[Headroom], project_file: str | Path, **options) -> LedgerRecord:
-    """The run-ledger record of a headroom search (``options`` as given to ``headroom``)."""
+    """The run-ledger record of a headroom search.
+
+    Parameters
+    ----------
+    results : list of Headroom
+        What ``headroom`` returned (one scheme; at least one parameter).
+    project_file : str or Path
+        The project TOML file searched.
+    **options
+        The options given to ``headroom`` (``factors``, ``gwp``, ``overrides``, ``boundary``).
+
+    Returns
+    -------
+    LedgerRecord
+        The record of kind ``headroom``, not yet written.
+    """
     return analysis_record("headroom", project_file, headroom_summary(results), schemes=[results[0].scheme], **options)
 
 
 def uncertainty_one(task: tuple) -> UncertaintyResult:
-    """One project's Monte Carlo from plain arguments (what a Dask worker runs)."""
+    """One project's Monte Carlo from plain arguments (what a Dask worker runs).
+
+    Parameters
+    ----------
+    task : tuple
+        (project file path, dict of the keyword arguments of ``uncertainty``).
+
+    Returns
+    -------
+    UncertaintyResult
+        The project's Monte Carlo, as ``uncertainty`` gives it.
+    """
     path, options = task
     return uncertainty(path, **options)
 
@@ -169,9 +359,50 @@ def uncertainty_many(
     workers: int | None = None,
     scheduler: str | None = None,
 ) -> list[UncertaintyResult]:
-    """Monte Carlo of every project of a portfolio (files or folders), each with its own
-    ``[uncertainty]`` table (and ``distributions`` laid over it) and the same seed; on a Dask
-    cluster with ``workers`` or ``scheduler``, with the same numbers as in one process."""
+    """Monte Carlo of every project of a portfolio (files or folders), each with its own ``[uncertainty]`` table.
+
+    Every project gets ``distributions`` laid over its own table and the same seed; on a Dask cluster with
+    ``workers`` or ``scheduler``, with the same numbers as in one process. Every bad input is found before
+    any work starts.
+
+    Parameters
+    ----------
+    paths : list of str or Path
+        Project TOML files, or folders of them.
+    distributions : str, Path or None
+        A distributions TOML laid over every project's own ``[uncertainty]`` table.
+    draws : int
+        Number of draws of each project.
+    seed : int
+        Seed of the random numbers, the same for every project.
+    sampling : str or None
+        ``random`` or ``latin_hypercube``; default the distributions' own (random).
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline figures.
+    schemes : list of str or None
+        Scheme ids whose probability of qualifying is estimated; default every scheme that applies.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default each project's own.
+    workers : int or None
+        Run on a local Dask cluster of this many worker processes.
+    scheduler : str or None
+        Run on an existing Dask scheduler at this address instead.
+
+    Returns
+    -------
+    list of UncertaintyResult
+        One per project file, in the order of the files found.
+
+    References
+    ----------
+    .. [1] McKay, M. D., Beckman, R. J. and Conover, W. J. (1979). A comparison of three methods
+       for selecting values of input variables in the analysis of output from a computer code.
+       Technometrics 21(2), 239-245 (Latin hypercube sampling).
+    .. [2] Iman, R. L. and Conover, W. J. (1982). A distribution-free approach to inducing rank
+       correlation among input variables. Communications in Statistics B 11(3), 311-334.
+    """
     files = project_files(paths)
     options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling, "factors": factors, "gwp": gwp, "schemes": schemes, "boundary": boundary}
     for path in files:  # every bad input is found before any work starts

@@ -30,14 +30,57 @@ def plan(
     overrides: list[str] | None = None,
     year: int | None = None,
 ) -> tuple[PlanResult, ElectricitySeries]:
-    """The operating plan of a project with an electricity time series: the load in every interval
-    that maximises hydrogen (or margin, with ``hydrogen_price`` and a price column) while the
-    project qualifies for ``scheme`` at ``tier`` (default: the loosest threshold).
+    """The operating plan of a project with an electricity time series.
 
-    rated_kw : electrolyser rated power (kW); default the largest load in the series.
-    min_load : minimum stable load as a fraction of rated power (0: can run at any load).
-    part_load : (load fraction, kWh/kg) points of a concave part-load efficiency curve.
-    matching : a granularity replacing the scheme's temporal rule (what-if); None: the rule.
+    The load in every interval that maximises hydrogen (or margin, with ``hydrogen_price`` and a price
+    column) while the project qualifies for ``scheme`` at ``tier`` (default: the loosest threshold).
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file, whose ``[electricity] time_series`` names the series CSV.
+    scheme : str
+        The scheme id to qualify for.
+    tier : str or None
+        A tier of the scheme (text contained in its name, or its limit in the scheme's unit); default the
+        loosest threshold.
+    rated_kw : float or None
+        Electrolyser rated power, kW; default the largest load in the series.
+    min_load : float
+        Minimum stable load, fraction of rated power (0 to 1; 0: can run at any load).
+    part_load : list of (float, float) or None
+        Points (load fraction of rated power, kWh/kg H2) of a concave part-load efficiency curve; None: the
+        project's design electricity per kg H2 at every load.
+    hydrogen_price : float or None
+        Hydrogen price per kg H2, in the currency of the series' price column (currency/MWh): maximise margin
+        instead of hydrogen.
+    matching : str or None
+        A granularity (``interval``, ``hour``, ``month``, ``quarter``, ``year``) replacing the scheme's temporal
+        rule (a what-if); None or ``rule``: the scheme's dated rule.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline result.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+
+    Returns
+    -------
+    tuple of (PlanResult, ElectricitySeries)
+        The plan (load, kWh, and hydrogen, kg H2, in every interval; the scheme value scored back, in the
+        scheme's unit; the matched share) and the series it was planned against.
+
+    Raises
+    ------
+    InputError
+        When the project names no electricity time series.
+
+    References
+    ----------
+    .. [1] Huangfu, Q. and Hall, J. A. J. (2018). Parallelizing the dual revised simplex method.
+       Mathematical Programming Computation 10, 119-142 (HiGHS).
     """
     project, sha = load_project(project_file, overrides)
     series = project_series(project, project_file)
@@ -64,8 +107,48 @@ def matching_chart(
     force: bool = False,
     year: int | None = None,
 ) -> Path:
-    """Chart one project's matching under a scheme (default the first that applies): monthly matched and
-    unmatched use, and the unmatched share by hour of day and month."""
+    """Chart one project's matching under a scheme (default the first that applies).
+
+    Monthly matched and unmatched use, and the unmatched share by hour of day and month.
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file, whose ``[electricity] time_series`` names the series CSV.
+    path : str or Path
+        The chart file to write, PNG or SVG by its suffix (written atomically).
+    scheme : str or None
+        The scheme id whose rule is charted; default the first that applies.
+    matching : str or None
+        A granularity (``interval``, ``hour``, ``month``, ``quarter``, ``year``) replacing the scheme's temporal
+        rule; None or ``rule``: the scheme's dated rule.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``).
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    force : bool
+        Overwrite an existing chart file.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+
+    Returns
+    -------
+    Path
+        The chart file written.
+
+    Raises
+    ------
+    InputError
+        When the project names no electricity time series.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 6 (temporal correlation).
+    .. [2] Final regulations under 26 U.S.C. 45V (January 2025), 26 CFR 1.45V-4 (energy attribute
+       certificates: annual, then hourly matching).
+    """
     project, sha = load_project(project_file, overrides)
     series = project_series(project, project_file)
     if series is None:

@@ -32,14 +32,40 @@ def recalc(
 ) -> Recalc:
     """Rescore a portfolio (files or folders of project files) under a new factor set.
 
-    workers : score on a local Dask cluster of this many worker processes.
-    scheduler : score on an existing Dask scheduler at this address instead.
-    ledger : record the run there: each worker writes its piece's records (old and new score of
-        each project) in one transaction as soon as it is scored. The run's key is derived from its
-        inputs (factor sets, projects and their sha256, options), so running the same recalc again
-        records nothing new. The run stays invisible until ``close_run(result.ledger_run)``, which
-        the command line calls once its output is written.
-    The results are the same as in one process. Scheme rules are read on ``year``'s dates.
+    The results are the same as in one process.
+
+    Parameters
+    ----------
+    paths : list of str or Path
+        Project TOML files, or folders of them.
+    old_factors : str, Path or FactorSet
+        The factor set the portfolio was scored with (name, set folder, override CSV or loaded set).
+    new_factors : str, Path or FactorSet
+        The factor set to rescore it with.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the results.
+    schemes : list of str or None
+        Scheme ids to check; default every scheme that applies.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+    workers : int or None
+        Score on a local Dask cluster of this many worker processes.
+    scheduler : str or None
+        Score on an existing Dask scheduler at this address instead.
+    ledger : Location or None
+        Record the run there: each worker writes its piece's records (old and new score of each project) in
+        one transaction as soon as it is scored. The run's key is derived from its inputs (factor sets,
+        projects and their sha256, options), so running the same recalc again records nothing new. The run
+        stays invisible until ``close_run(result.ledger_run)``, which the command line calls once its output
+        is written.
+    command : str
+        The command recorded with the run in the ledger (and part of its key).
+
+    Returns
+    -------
+    Recalc
+        Old and new score of every project (kg CO2e per functional unit), the changed factors, the number
+        rescored, and ``ledger_run``, where the run is recorded (None without ``ledger``).
     """
     projects = load_portfolio(paths)
     old_set, new_set = factor_set_of(old_factors), factor_set_of(new_factors)
@@ -62,8 +88,23 @@ def recalc(
 
 
 def recalc_and_record(target: RunTarget | None, piece: tuple) -> RecalcPiece:
-    """One piece of a recalc (what a worker runs), its records written in one batch when ``target``
-    is given: each project's old and new score, keyed by role and project path within the run."""
+    """One piece of a recalc (what a worker runs), its records written in one batch when ``target`` is given.
+
+    Each project's old and new score is recorded, keyed by role and project path within the run.
+
+    Parameters
+    ----------
+    target : RunTarget or None
+        The run being recorded (ledger, run key, command); None: nothing is written.
+    piece : tuple
+        One piece of the portfolio as ``analyses.portfolio.recalc_piece`` takes it: (projects, old set, new set,
+        changed factor ids, gwp, schemes, year).
+
+    Returns
+    -------
+    RecalcPiece
+        The old and new scores of the piece's projects.
+    """
     part = recalc_piece(piece)
     if target is not None:
         items = [(f"old {Path(s.project_file).resolve()}", s) for s in part.old_scores] + [(f"new {Path(s.project_file).resolve()}", s) for s in part.new_scores]
@@ -80,6 +121,32 @@ def lifetime(
     overrides: list[str] | None = None,
     boundary: str | None = None,
 ) -> LifetimeResult:
-    """Score every operating year of a project's [lifetime] and the lifetime average."""
+    """Score every operating year of a project's ``[lifetime]`` and the lifetime average.
+
+    Parameters
+    ----------
+    project_file : str or Path
+        The project TOML file, with a ``[lifetime]`` table.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the results.
+    schemes : list of str or None
+        Scheme ids to check each year against; default every scheme that applies.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+
+    Returns
+    -------
+    LifetimeResult
+        The score of each operating year and the lifetime average weighted by each year's output (kg CO2e per
+        functional unit), with and without the construction emissions spread over the lifetime output.
+
+    References
+    ----------
+    .. [1] ISO 14067:2018, 6.3 (capital goods).
+    """
     project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
     return lifetime_score(project, factor_set_of(factors), project_file=str(project_file), project_sha256=sha, gwp=gwp, schemes=schemes)

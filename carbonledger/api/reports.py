@@ -36,15 +36,46 @@ def report_items(
     year: int | None = None,
     levers: str | Path | None = None,
 ) -> list[ProjectReport]:
-    """What a report shows of each project (files, or folders of project files): its score, its
-    parameters with units and, where the project gives them, its operating years ([lifetime]), the
-    matching of its electricity time series ([electricity] time_series) and a Monte Carlo of
-    ``draws`` draws with ``seed`` ([uncertainty]); with ``levers`` (a levers file), what it takes
-    to qualify for ``schemes`` (default the levers file's) at the central value.
+    """What a report shows of each project (files, or folders of project files).
+
+    Its score, its parameters with units and, where the project gives them, its operating years
+    (``[lifetime]``), the matching of its electricity time series (``[electricity] time_series``) and a
+    Monte Carlo of ``draws`` draws with ``seed`` (``[uncertainty]``); with ``levers`` (a levers file), what
+    it takes to qualify for ``schemes`` (default the levers file's) at the central value.
 
     The one project is solved by the stacked numpy solver (``solve_stacked``, the solver of
     ``recalc``, equal to bw2calc to 1e-9 on every demo: tests/test_recalc.py and
-    tests/test_report.py), so that a report does not pay bw2calc's import (about 1.9 s of CPU)."""
+    tests/test_report.py), so that a report does not pay bw2calc's import (about 1.9 s of CPU).
+
+    Parameters
+    ----------
+    paths : list of str or Path
+        Project TOML files, or folders of them.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline results.
+    schemes : list of str or None
+        Scheme ids to check; default every scheme that applies.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied to every project before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default each project's own.
+    draws : int
+        Number of Monte Carlo draws of a project with an ``[uncertainty]`` table.
+    seed : int
+        Seed of the Monte Carlo's random numbers (printed on the report).
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+    levers : str, Path or None
+        A levers file: each project gets what it takes to qualify.
+
+    Returns
+    -------
+    list of ProjectReport
+        One per project: its score (kg CO2e per functional unit), its parameter table, and its lifetime,
+        matching views, Monte Carlo and qualify answer where it has them.
+    """
     factor_set = factor_set_of(factors)
     items = []
     for path in project_files(list(paths)):
@@ -86,10 +117,42 @@ def report(
 ) -> str:
     """The project report of one or several projects as one self-contained HTML text.
 
-    generated : the date printed on the report (ISO); default today (UTC), or $SOURCE_DATE_EPOCH.
-    paper : 'a4' or 'letter' to fix the printed page size (for a PDF); default the printer's.
-    draws, seed : the Monte Carlo of a project with an [uncertainty] table (the seed is printed).
-    levers : a levers file: each project gets a section on what it takes to qualify.
+    Parameters
+    ----------
+    paths : list of str or Path
+        Project TOML files, or folders of them.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline results.
+    schemes : list of str or None
+        Scheme ids to check; default every scheme that applies.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied to every project before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default each project's own.
+    generated : str or None
+        The date printed on the report (ISO 8601, YYYY-MM-DD); default today (UTC), or ``$SOURCE_DATE_EPOCH``.
+    paper : str or None
+        ``a4`` or ``letter`` to fix the printed page size (for a PDF); default the printer's.
+    draws : int
+        Number of Monte Carlo draws of a project with an ``[uncertainty]`` table.
+    seed : int
+        Seed of the Monte Carlo's random numbers (printed on the report).
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+    levers : str, Path or None
+        A levers file: each project gets a section on what it takes to qualify.
+
+    Returns
+    -------
+    str
+        The HTML text (no outside request), with the caution that results are screening estimates.
+
+    Raises
+    ------
+    InputError
+        When no project file or folder is given.
     """
     if not paths:
         raise InputError("report", "PROJECT", "at least one project file or folder")
@@ -98,7 +161,18 @@ def report(
 
 
 def report_date() -> str:
-    """Today's date (UTC), or the date of $SOURCE_DATE_EPOCH for reproducible reports."""
+    """Today's date (UTC), or the date of ``$SOURCE_DATE_EPOCH`` for reproducible reports.
+
+    Returns
+    -------
+    str
+        The date, ISO 8601 (YYYY-MM-DD).
+
+    References
+    ----------
+    .. [1] Reproducible Builds, "SOURCE_DATE_EPOCH specification",
+       https://reproducible-builds.org/specs/source-date-epoch/
+    """
     epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
     moment = datetime.fromtimestamp(int(epoch), UTC) if epoch.isdigit() else datetime.now(UTC)
     return moment.date().isoformat()

@@ -14,12 +14,39 @@ from ..model.rulebooks import load_user_rulebooks
 
 
 def factor_set_of(factors: str | Path | FactorSet) -> FactorSet:
-    """A loaded factor set as it is, else the set a name, folder or override CSV gives."""
+    """A loaded factor set as it is, else the set a name, folder or override CSV gives.
+
+    Parameters
+    ----------
+    factors : str, Path or FactorSet
+        Factor set name (``default-2026``), set folder, override CSV, or a loaded ``FactorSet``.
+
+    Returns
+    -------
+    FactorSet
+        The factor set, loaded and validated (``model.factors.load_factor_set``).
+    """
     return factors if isinstance(factors, FactorSet) else load_factor_set(factors)
 
 
 def boundary_overrides(boundary: str | None, overrides: list[str] | None) -> list[str]:
-    """``boundary`` is ``project.boundary=...``: the project model validates it."""
+    """The overrides of a run with the ``--boundary`` option added as ``project.boundary=...``.
+
+    The project model validates the boundary when the overrides are applied.
+
+    Parameters
+    ----------
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake`` (spellings ``boundary_id`` accepts); None: the
+        project's own.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings (``--set``).
+
+    Returns
+    -------
+    list of str
+        The overrides, then ``project.boundary=<id>`` when a boundary is given.
+    """
     boundary = boundary_id(boundary) if boundary is not None else None
     return list(overrides or []) + ([f"project.boundary={boundary}"] if boundary else [])
 
@@ -40,22 +67,37 @@ def score(
 
     Parameters
     ----------
-    project_file : path of the project TOML.
-    factors : factor set name, set folder, override CSV, or a loaded FactorSet.
-    gwp : GWP100 set of the headline result ('ar4', 'ar5', 'ar6'); each scheme check uses its own.
-    schemes : scheme ids to check; default all that apply to the product.
-    overrides : 'dotted.parameter=value' strings applied to the project before validation;
-        'electricity.sources.NAME.share=rest' (``--rebalance NAME``) gives that source 1 less the
+    project_file : str or Path
+        Path of the project TOML.
+    factors : str, Path or FactorSet
+        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
+    gwp : str
+        GWP100 set of the headline result (``ar4``, ``ar5``, ``ar6``); each scheme check uses its own.
+    schemes : list of str or None
+        Scheme ids to check; default all that apply to the product.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied to the project before validation;
+        ``electricity.sources.NAME.share=rest`` (``--rebalance NAME``) gives that source 1 less the
         other sources' shares after the others are set (refused when that is not from 0 to 1).
-    boundary : 'cradle-to-gate', 'well-to-tank' or 'well-to-wake'; default the project's own.
-    matching : with an electricity time series, a granularity (interval, hour, month, quarter,
-        year) that replaces every scheme's temporal rule (a what-if); 'declared': ignore the series
-        and score the declared annual shares (what the audit workbook holds); None: each scheme's rule.
-    year : the assessment year, whose dates the scheme rules are read on; default the first full
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    year : int or None
+        The assessment year (calendar year), on whose dates the scheme rules are read; default the first full
         calendar year of operation after the project's commissioning date, else this year.
-    matched_periods : electricity source name -> finest period a time series shows it matched
-        ('hourly', 'half_hourly'), for projects without a series in the file; without it (and
-        without a series) hourly rules are undetermined.
+    matching : str or None
+        With an electricity time series, a granularity (``interval``, ``hour``, ``month``, ``quarter``, ``year``)
+        that replaces every scheme's temporal rule (a what-if); ``declared``: ignore the series and score the
+        declared annual shares (what the audit workbook holds); None: each scheme's rule.
+    matched_periods : dict or None
+        Electricity source name -> finest period a time series shows it matched (``hourly``, ``half_hourly``),
+        for projects without a series in the file; without it (and without a series) hourly rules are
+        undetermined.
+
+    Returns
+    -------
+    ScoreResult
+        Total per functional unit (kg CO2e/t NH3 or kg CO2e/kg H2), intensities (kg CO2e/t NH3, kg CO2e/kg H2,
+        g CO2e/MJ LHV), by stage and by gas, with one check per scheme; a screening estimate, not a certification.
     """
     assessment = Assessment(factor_set_of(factors), gwp, tuple(schemes) if schemes else None, tuple(overrides or ()), boundary, year, matching)
     return assess_file(assessment, project_file, matched_periods)
@@ -85,7 +127,23 @@ def assess_file(assessment: Assessment, project_file: str | Path, matched_period
 
 
 def stating_rebalance(result: ScoreResult, project, overrides: list[str] | None) -> ScoreResult:
-    """The result stating each electricity share that took up the difference to 1 (--rebalance)."""
+    """The result stating each electricity share that took up the difference to 1 (``--rebalance``).
+
+    Parameters
+    ----------
+    result : ScoreResult
+        The scored result.
+    project : Project
+        The validated project it was scored from (the rebalanced shares are read from it).
+    overrides : list of str or None
+        The run's overrides; ``electricity.sources.NAME.share=rest`` names a rebalanced source.
+
+    Returns
+    -------
+    ScoreResult
+        The result as it is when no share was rebalanced, else a copy with ``rebalanced_shares``
+        (source name -> share, a fraction of the electricity from 0 to 1).
+    """
     names = rebalanced_sources(overrides)
     if not names:
         return result
@@ -93,10 +151,21 @@ def stating_rebalance(result: ScoreResult, project, overrides: list[str] | None)
 
 
 def user_rulebooks(paths: list[str | Path]):
-    """The user's own rulebooks (TOML files in the format of ``factors/schemes``), validated: id -> Scheme.
+    """The user's own rulebooks (TOML files in the format of ``factors/schemes``), validated.
+
     Use them with ``using_rulebooks``::
 
         with api.using_rulebooks(api.user_rulebooks(["offtake_contract.toml"])):
             result = api.score("project.toml")  # the contract's check beside the shipped schemes
+
+    Parameters
+    ----------
+    paths : list of str or Path
+        The rulebook TOML files.
+
+    Returns
+    -------
+    dict of str to Scheme
+        The validated rulebooks, by scheme id (an id of a shipped rulebook is refused).
     """
     return load_user_rulebooks(paths, shipped_rulebooks())

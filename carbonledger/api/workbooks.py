@@ -37,7 +37,32 @@ def score_workbook(
     boundary: str | None = None,
     year: int | None = None,
 ) -> ScoreResult:
-    """Score the inputs and factors of an audit workbook; options left None default to its cover."""
+    """Score the inputs and factors of an audit workbook; options left None default to its cover.
+
+    Parameters
+    ----------
+    path : str or Path
+        The audit workbook (``.xlsx``), possibly edited by a reviewer.
+    factors : str or None
+        Factor set name, set folder or override CSV under the workbook's edited factors; default the set
+        recorded on its cover.
+    gwp : str or None
+        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline result; default the cover's.
+    schemes : list of str or None
+        Scheme ids to check; default the cover's, else every scheme that applies.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied to the workbook's inputs before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the inputs' own.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+
+    Returns
+    -------
+    ScoreResult
+        The result of the workbook's inputs (kg CO2e per functional unit, by stage and gas, with scheme checks),
+        stating any rebalanced electricity share.
+    """
     project, sha, settings = load_project_from_workbook(path, boundary_overrides(boundary, overrides))
     factor_set = factor_set_from_workbook(path, base_factor_set(settings, factors))
     result = score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha, year=year)
@@ -45,8 +70,22 @@ def score_workbook(
 
 
 def load_any_project(path: str | Path, factor_set: FactorSet, overrides: list[str] | None = None):
-    """A project TOML file, or the inputs of an audit workbook (.xlsx) with its edited factors
-    layered over ``factor_set``: (project, sha256, factor set)."""
+    """A project TOML file, or the inputs of an audit workbook with its edited factors laid over ``factor_set``.
+
+    Parameters
+    ----------
+    path : str or Path
+        A project TOML file or an audit workbook (told apart by the ``.xlsx`` suffix).
+    factor_set : FactorSet
+        The loaded factor set of the run (a workbook's edited factor rows are laid over it).
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+
+    Returns
+    -------
+    tuple of (Project, str, FactorSet)
+        The validated project, the sha256 of the file it was read from (hex), and the factor set to score it with.
+    """
     if str(path).lower().endswith(".xlsx"):
         project, sha, _ = load_project_from_workbook(path, overrides)
         return project, sha, factor_set_from_workbook(path, factor_set)
@@ -88,11 +127,50 @@ def audit_workbook(
 
     Options left as None take the defaults (GWP100 AR6, the default factor set, every scheme that
     applies), or, with ``from_workbook``, the settings recorded on that workbook's cover.
-    draws : with a number, a Monte Carlo of the project (its ``[uncertainty]`` table, ``distributions``
-        laid over it, factor rows with pedigree scores) under the same settings, ``seed``, shown on an
-        Uncertainty sheet; ``keep_draws`` keeps every draw on it (for a draws CSV named ``draws_csv``).
-    Returns an ``AuditWorkbook``: it unpacks as (openpyxl Workbook, engine ScoreResult, UncertaintyResult or
-    None) and, with ``periods``, carries the metered year (the Periods sheet's year figure, from the engine).
+
+    Parameters
+    ----------
+    project_file : str, Path or None
+        The project TOML file; None with ``from_workbook``.
+    from_workbook : str, Path or None
+        An earlier audit workbook whose inputs, edited factors and cover settings are read back.
+    factors : str or None
+        Factor set name, set folder or override CSV; default ``default-2026``, or the cover's.
+    gwp : str or None
+        GWP100 set (``ar4``, ``ar5``, ``ar6``); default ``ar6``, or the cover's.
+    schemes : list of str or None
+        Scheme ids to check; default every scheme that applies, or the cover's.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings applied before validation.
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    periods : str, Path or None
+        A meters CSV of operating months, shown on a Periods sheet beside the design (cradle-to-gate only).
+    draws : int or None
+        With a number, a Monte Carlo of the project of this many draws (its ``[uncertainty]`` table,
+        ``distributions`` laid over it, factor rows with pedigree scores) under the same settings, shown on an
+        Uncertainty sheet. None: no Uncertainty sheet.
+    seed : int
+        Seed of the Monte Carlo's random numbers (the same seed gives the same numbers).
+    distributions : str, Path or None
+        A distributions TOML laid over the project's own ``[uncertainty]`` table.
+    keep_draws : bool
+        Keep every draw on the Uncertainty sheet (for a draws CSV).
+    draws_csv : str
+        Name of the CSV of the draws written beside the workbook, named on the sheet; empty: none.
+    year : int or None
+        The assessment year (calendar year) on whose dates the scheme rules are read.
+
+    Returns
+    -------
+    AuditWorkbook
+        Unpacks as (openpyxl Workbook, engine ScoreResult, UncertaintyResult or None); with ``periods`` it carries
+        the metered year (the Periods sheet's year figure, from the engine, in the engine's unit).
+
+    Raises
+    ------
+    InputError
+        When ``periods`` is given for a project not scored cradle-to-gate (meters describe the plant).
     """
     overrides = boundary_overrides(boundary, overrides)
     evidence: dict[str, str] = {}
