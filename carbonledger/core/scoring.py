@@ -39,6 +39,7 @@ from .results import (
     FactorSetRef,
     Intensity,
     ScoreResult,
+    constructed,
 )
 from .verdicts import (
     FIRST_YEAR,
@@ -65,6 +66,9 @@ DEFAULT_GWP = "ar6"
 FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
 AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2calc's own score
 EXCHANGE_FIELDS = set(ExchangeRow.model_fields)  # every field of an exchange row is set: one set shared by all rows
+CHECK_FIELDS = tuple(Check.model_fields)  # a check's fields in order (``check_of``)
+CHECK_SET = set(CHECK_FIELDS) - {"electricity_matching", "co_products"}  # those a check of ``scheme_checks`` sets
+SCHEME_FIELDS: dict[int, tuple] = {}  # id of a rulebook -> (the rulebook, its fields of a check)
 
 
 @functools.cache
@@ -1051,6 +1055,7 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     """
     inventory = prepared.inventory
     keys = prepared.matrices.activity_keys
+    period = prepared.period.label()
     checks = []
     for scheme in prepared.chosen:
         reading = scheme_reading(prepared, scheme)
@@ -1059,30 +1064,57 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         solution = solutions[basis_demand]
         figures = (basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
         value = float(scheme_value(scheme, inventory, keys, prepared.matrices.flow_keys, reading, vector, solution.contributions(vector), solution.supply, figures, prepared.params))
-        checks.append(
-            Check(
-                scheme=scheme.id,
-                name=scheme.name,
-                quantity=scheme.quantity,
-                basis=scheme.basis,
-                boundary=scheme.boundary,
-                gwp_basis=scheme.gwp,
-                electricity_rule=scheme.electricity,
-                unit=scheme.unit,
-                value=value,
-                from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
-                note=scheme.note,
-                assessment_period=prepared.period.label(),
-                rule_versions=reading.versions,
-                electricity_counted_zero=sorted(reading.counted_zero),
-                electricity_charged_as_grid=dict(sorted(reading.charged_as_grid.items())),
-                grade=scheme.grade,
-                user_rulebook=bool(scheme.user_file),
-                rulebook_file=scheme.user_file,
-                **judged(scheme, value, reading.findings),
-            )
-        )
+        checks.append(check_of(scheme, value, reading, period))
     return checks
+
+
+def scheme_check_fields(scheme: Scheme) -> dict:
+    """What every check of a scheme states whatever the project: its names, units, grade and file (made once per
+    rulebook object: rulebooks are frozen)."""
+    held = SCHEME_FIELDS.get(id(scheme))
+    if held is None or held[0] is not scheme:
+        held = SCHEME_FIELDS[id(scheme)] = (scheme, check_fields_of(scheme))
+    return held[1]
+
+
+def check_fields_of(scheme: Scheme) -> dict:
+    """The fields of a check that come from the rulebook alone (``scheme_check_fields``)."""
+    return {
+        "scheme": scheme.id, "name": scheme.name, "quantity": scheme.quantity, "basis": scheme.basis, "boundary": scheme.boundary,
+        "gwp_basis": scheme.gwp, "electricity_rule": scheme.electricity, "unit": scheme.unit, "note": scheme.note,
+        "from_memory": scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
+        "grade": scheme.grade, "user_rulebook": bool(scheme.user_file), "rulebook_file": scheme.user_file,
+    }
+
+
+def check_of(scheme: Scheme, value: float, reading: Reading, period: str) -> Check:
+    """A scheme's check of one project: its value judged under the reading's findings (``judged``).
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    value : float
+        The scheme's value, in the scheme's unit.
+    reading : Reading
+        The scheme's rules read on the project (``read_rules``).
+    period : str
+        The assessment period's label (a calendar year).
+
+    Returns
+    -------
+    Check
+        The check, every field of the type ``Check`` validates to (made without validating: a portfolio makes many).
+    """
+    verdict = judged(scheme, value, reading.findings)
+    values = {
+        **scheme_check_fields(scheme), "limit": float(verdict["limit"]), "value": value, "passes": bool(verdict["passes"]),
+        "margin": None if verdict["margin"] is None else float(verdict["margin"]), "tier": verdict["tier"], "electricity_matching": None,
+        "status": str(verdict["status"]), "reasons": list(verdict["reasons"]), "assessment_period": period, "rule_versions": list(reading.versions),
+        "electricity_counted_zero": sorted(reading.counted_zero), "electricity_charged_as_grid": dict(sorted(reading.charged_as_grid.items())),
+        "co_products": {},
+    }
+    return constructed(Check, {name: values[name] for name in CHECK_FIELDS}, CHECK_SET)
 
 
 def _factor_rows(used: dict) -> list[Factor]:
@@ -1133,16 +1165,19 @@ def exchange_rows(inventory: Inventory, supply: dict) -> list[ExchangeRow]:
         One row per exchange, in inventory order.
     """
     return [
-        ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+        constructed(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+            ExchangeRow,
+            {
+                "activity": activity.key,
+                "stage": activity.stage,
+                "kind": exchange.kind,
+                "input": exchange.input,
+                "label": exchange.label,
+                "amount": float(exchange.amount),
+                "unit": exchange.unit,
+                "activity_supply": float(supply[activity.key]),
+            },
             EXCHANGE_FIELDS,
-            activity=activity.key,
-            stage=activity.stage,
-            kind=exchange.kind,
-            input=exchange.input,
-            label=exchange.label,
-            amount=float(exchange.amount),
-            unit=exchange.unit,
-            activity_supply=float(supply[activity.key]),
         )
         for activity in inventory.activities.values()
         for exchange in activity.exchanges
