@@ -69,6 +69,7 @@ EXCHANGE_FIELDS = set(ExchangeRow.model_fields)  # every field of an exchange ro
 CHECK_FIELDS = tuple(Check.model_fields)  # a check's fields in order (``check_of``)
 CHECK_SET = set(CHECK_FIELDS) - {"electricity_matching", "co_products"}  # those a check of ``scheme_checks`` sets
 CHECK_AMENDED = CHECK_SET | {"co_products"}  # those of a check given its co-product rule (``amended``)
+CO_PRODUCT_STATEMENTS: dict[tuple, dict] = {}  # a check's co_products statement -> the one dict holding it (``amended``)
 SCHEME_FIELDS: dict[int, tuple] = {}  # id of a rulebook -> (the rulebook, its fields of a check)
 
 
@@ -1031,7 +1032,7 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
         else:
             sentence = f"cannot be judged: co-products: the rulebook requires {required} for the {rule.co_product} ({info['source']}); {rule.missing}; the value uses the project's {method}"
             out.append(amended(
-                check, status=Status.UNDETERMINED, passes=False, tier=None, reasons=[sentence, *check.reasons],
+                check, status=Status.UNDETERMINED.value, passes=False, tier=None, reasons=[sentence, *check.reasons],
                 co_products={**info, "applied": method, "note": sentence},
             ))
     return out
@@ -1054,6 +1055,8 @@ def amended(check: Check, **changes) -> Check:
     """
     values = dict(check.__dict__)
     values.update(changes)
+    if "co_products" in changes:  # text and truth values: the checks that state the same hold one dict
+        values["co_products"] = CO_PRODUCT_STATEMENTS.setdefault(tuple(changes["co_products"].items()), changes["co_products"])
     fields = check.model_fields_set | changes.keys()
     return constructed(Check, values, CHECK_AMENDED if fields == CHECK_AMENDED else fields)
 
@@ -1111,7 +1114,7 @@ def scheme_check_fields(scheme: Scheme) -> dict:
             "scheme": scheme.id, "name": scheme.name, "quantity": scheme.quantity, "basis": scheme.basis, "boundary": scheme.boundary,
             "gwp_basis": scheme.gwp, "electricity_rule": scheme.electricity, "unit": scheme.unit, "note": scheme.note,
             "from_memory": scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
-            "grade": scheme.grade, "user_rulebook": bool(scheme.user_file), "rulebook_file": scheme.user_file,
+            "grade": str(scheme.grade), "user_rulebook": bool(scheme.user_file), "rulebook_file": scheme.user_file,
         })
     return held[1]
 
