@@ -184,3 +184,20 @@ def test_a_project_with_a_time_series_is_rescored_with_its_matching_as_score_doe
         assert row.new_value == pytest.approx(after[scheme].value, rel=1e-9, abs=1e-12)
         assert (row.old_status, row.new_status) == (before[scheme].status, after[scheme].status)
     assert abs(rows["eu-rfnbo"].old_value - declared["eu-rfnbo"].value) > 1.0
+
+
+def test_results_made_without_validation_hold_what_validation_gives(tmp_path):
+    """Checks and exchange rows are made without pydantic's validation (``core.results.constructed``): each
+    must equal, field by field and type by type, the model pydantic validates from the same data."""
+    from carbonledger.core.results import Check, ExchangeRow
+
+    projects = generated_portfolio(tmp_path, 12)
+    result = recalc(projects, load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision"))
+    made = [(Check, check) for score in result.old_scores + result.new_scores for check in score.checks]
+    made += [(ExchangeRow, row) for score in result.old_scores + result.new_scores for row in score.exchanges]
+    assert {model for model, _ in made} == {Check, ExchangeRow}
+    for model, item in made:
+        validated = model.model_validate(item.model_dump())
+        assert list(item.__dict__) == list(validated.__dict__)  # every field, in the model's order
+        for name, value in validated.__dict__.items():
+            assert item.__dict__[name] == value and type(item.__dict__[name]) is type(value), (model.__name__, name)

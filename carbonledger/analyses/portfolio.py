@@ -59,12 +59,13 @@ def project_files(paths: list[str | Path]) -> list[Path]:
 
 
 def load_portfolio(paths: list[str | Path]) -> list[PortfolioProject]:
-    """Read and validate every project once."""
+    """Read and validate every project once (the cyclic collector paused: reading makes many small objects)."""
     projects = []
-    for path in project_files(paths):
-        project, sha = load_project(path)
-        series = project_series(project, path)
-        projects.append(PortfolioProject(str(path), project, sha, series))
+    with collector_paused():
+        for path in project_files(paths):
+            project, sha = load_project(path)
+            series = project_series(project, path)
+            projects.append(PortfolioProject(str(path), project, sha, series))
     return projects
 
 
@@ -239,10 +240,19 @@ def recalc_piece(piece: tuple) -> RecalcPiece:
                 if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
                     ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
             rescored = dict(zip(moving, assess_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True))
+            for n, score in rescored.items():
+                share_unchanged_rows(old_scores[n], score)
             result.old_scores += old_scores
             result.new_scores += [rescored.get(n) or score.model_copy(update={"factor_set": new_ref}) for n, score in enumerate(old_scores)]
             result.rescored += [start + n for n in moving]
     return result
+
+
+def share_unchanged_rows(old: ScoreResult, new: ScoreResult) -> None:
+    """The new result of a rescored project holds the old result's exchange rows where they are equal (the
+    amounts that no changed factor reaches): one object for both, so a portfolio's results take less memory."""
+    if len(old.exchanges) == len(new.exchanges):
+        new.exchanges[:] = [before if before.__dict__ == after.__dict__ else after for before, after in zip(old.exchanges, new.exchanges, strict=True)]
 
 
 def rules_read_alike(old: Prepared, new: Prepared) -> bool:

@@ -54,6 +54,35 @@ def strict_json(data: Any, where: str = "result") -> str:
         raise InputError(where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)") from None
 
 
+def constructed(model: type[BaseModel], values: dict[str, Any], fields_set: set[str]) -> BaseModel:
+    """An instance of ``model`` holding ``values`` as they are: no validation and no defaults filled in.
+
+    For the many exchange rows and checks a portfolio makes from plain text, floats and lists made by the
+    scoring itself: ``values`` must hold every field of the model, in the model's field order, already of the
+    field's type (what pydantic's ``model_construct`` sets, without its pass over every field).
+
+    Parameters
+    ----------
+    model : type of BaseModel
+        The model (without extra fields, private attributes or a post-init hook).
+    values : dict
+        Field name -> value, every field of ``model``.
+    fields_set : set of str
+        The fields counted as set (shared by the instances made alike).
+
+    Returns
+    -------
+    BaseModel
+        The instance.
+    """
+    instance = model.__new__(model)
+    object.__setattr__(instance, "__dict__", values)
+    object.__setattr__(instance, "__pydantic_fields_set__", fields_set)
+    object.__setattr__(instance, "__pydantic_extra__", None)
+    object.__setattr__(instance, "__pydantic_private__", None)
+    return instance
+
+
 class FactorSetRef(BaseModel):
     name: str
     sha256: str

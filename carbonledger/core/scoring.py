@@ -39,6 +39,7 @@ from .results import (
     FactorSetRef,
     Intensity,
     ScoreResult,
+    constructed,
 )
 from .verdicts import (
     FIRST_YEAR,
@@ -65,6 +66,11 @@ DEFAULT_GWP = "ar6"
 FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
 AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2calc's own score
 EXCHANGE_FIELDS = set(ExchangeRow.model_fields)  # every field of an exchange row is set: one set shared by all rows
+CHECK_FIELDS = tuple(Check.model_fields)  # a check's fields in order (``check_of``)
+CHECK_SET = set(CHECK_FIELDS) - {"electricity_matching", "co_products"}  # those a check of ``scheme_checks`` sets
+CHECK_AMENDED = CHECK_SET | {"co_products"}  # those of a check given its co-product rule (``amended``)
+CO_PRODUCT_STATEMENTS: dict[tuple, dict] = {}  # a check's co_products statement -> the one dict holding it (``amended``)
+SCHEME_FIELDS: dict[int, tuple] = {}  # id of a rulebook -> (the rulebook, its fields of a check)
 
 
 @functools.cache
@@ -632,11 +638,10 @@ def stage_and_gas_sums(contributions, keys: list[str], flow_keys: list[str], inv
         out); numbers, or arrays over draws.
     """
     by_activity = contributions.sum(axis=-2)
-    by_stage: dict = {}
-    for stage in STAGES:
-        members = [n for n, key in enumerate(keys) if inventory.activities[key].stage == stage]
-        if members:
-            by_stage[stage] = by_activity[..., members].sum(axis=-1)
+    columns: dict[str, list[int]] = {}  # stage -> its activities' columns, in key order
+    for number, key in enumerate(keys):
+        columns.setdefault(inventory.activities[key].stage, []).append(number)
+    by_stage = {stage: by_activity[..., columns[stage]].sum(axis=-1) for stage in STAGES if stage in columns}
     gases = contributions.sum(axis=-1)
     return by_stage, {flow: gases[..., n] for n, flow in enumerate(flow_keys) if flow not in APART_FLOWS}
 
@@ -1008,29 +1013,52 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
         }
         rule = co_product_rule(by_id[check.scheme], prepared.params)
         if rule is None:
-            out.append(check.model_copy(update={"co_products": {**info, "co_product": "", "applied": "no co-product"}}))
+            out.append(amended(check, co_products={**info, "co_product": "", "applied": "no co-product"}))
             continue
         method, required = rule.method, rule.required
         info.update({"co_product": rule.co_product, "scheme_rule": required, "project_method": method})
         if not rule.differs:
             why = "the rulebook states no co-product rule: the project's method is used" if required == "not_stated" else "the project's method is the scheme's rule"
-            out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
+            out.append(amended(check, co_products={**info, "applied": method, "note": why}))
         elif check.status == Status.NOT_ELIGIBLE:
-            out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}}))
+            out.append(amended(check, co_products={**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}))
         elif rule.upper_bound and check.status == Status.QUALIFIES:
             why = (f"the project gives the {rule.co_product} no share of the burden, so the value is an upper bound of the scheme's {required} "
                    "(an allocation or a credit for the displaced product can only lower it): it qualifies under the scheme's rule too, at this tier or a better one")
-            out.append(check.model_copy(update={"co_products": {**info, "applied": method, "note": why}}))
+            out.append(amended(check, co_products={**info, "applied": method, "note": why}))
         elif rule.rescore:
             rescored = _rescored_check(prepared, by_id[check.scheme], rule.parameter, required)
-            out.append(rescored.model_copy(update={"co_products": {**info, "applied": required, "note": f"scheme value rescored with {required}; the headline keeps the project's {method}"}}))
+            out.append(amended(rescored, co_products={**info, "applied": required, "note": f"scheme value rescored with {required}; the headline keeps the project's {method}"}))
         else:
             sentence = f"cannot be judged: co-products: the rulebook requires {required} for the {rule.co_product} ({info['source']}); {rule.missing}; the value uses the project's {method}"
-            out.append(check.model_copy(update={
-                "status": Status.UNDETERMINED, "passes": False, "tier": None, "reasons": [sentence, *check.reasons],
-                "co_products": {**info, "applied": method, "note": sentence},
-            }))
+            out.append(amended(
+                check, status=Status.UNDETERMINED.value, passes=False, tier=None, reasons=[sentence, *check.reasons],
+                co_products={**info, "applied": method, "note": sentence},
+            ))
     return out
+
+
+def amended(check: Check, **changes) -> Check:
+    """A copy of a scheme check with some fields changed (as ``model_copy(update=...)``, the fields set shared).
+
+    Parameters
+    ----------
+    check : Check
+        A check of ``scheme_checks``.
+    **changes
+        Field name -> new value, of the field's type.
+
+    Returns
+    -------
+    Check
+        The copy; ``check`` is unchanged.
+    """
+    values = dict(check.__dict__)
+    values.update(changes)
+    if "co_products" in changes:  # text and truth values: the checks that state the same hold one dict
+        values["co_products"] = CO_PRODUCT_STATEMENTS.setdefault(tuple(changes["co_products"].items()), changes["co_products"])
+    fields = check.model_fields_set | changes.keys()
+    return constructed(Check, values, CHECK_AMENDED if fields == CHECK_AMENDED else fields)
 
 
 def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
@@ -1051,6 +1079,7 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
     """
     inventory = prepared.inventory
     keys = prepared.matrices.activity_keys
+    period = prepared.period.label()
     checks = []
     for scheme in prepared.chosen:
         reading = scheme_reading(prepared, scheme)
@@ -1059,30 +1088,65 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         solution = solutions[basis_demand]
         figures = (basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
         value = float(scheme_value(scheme, inventory, keys, prepared.matrices.flow_keys, reading, vector, solution.contributions(vector), solution.supply, figures, prepared.params))
-        checks.append(
-            Check(
-                scheme=scheme.id,
-                name=scheme.name,
-                quantity=scheme.quantity,
-                basis=scheme.basis,
-                boundary=scheme.boundary,
-                gwp_basis=scheme.gwp,
-                electricity_rule=scheme.electricity,
-                unit=scheme.unit,
-                value=value,
-                from_memory=scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
-                note=scheme.note,
-                assessment_period=prepared.period.label(),
-                rule_versions=reading.versions,
-                electricity_counted_zero=sorted(reading.counted_zero),
-                electricity_charged_as_grid=dict(sorted(reading.charged_as_grid.items())),
-                grade=scheme.grade,
-                user_rulebook=bool(scheme.user_file),
-                rulebook_file=scheme.user_file,
-                **judged(scheme, value, reading.findings),
-            )
-        )
+        checks.append(check_of(scheme, value, reading, period))
     return checks
+
+
+def scheme_check_fields(scheme: Scheme) -> dict:
+    """What every check of a scheme states whatever the project: its names, units, grade and file.
+
+    Made once per rulebook object (rulebooks are frozen) and shared by its checks' values.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook.
+
+    Returns
+    -------
+    dict
+        Check field -> value: scheme, name, quantity, basis, boundary, gwp_basis, electricity_rule, unit, note,
+        from_memory (the rulebook or a threshold), grade, user_rulebook, rulebook_file.
+    """
+    held = SCHEME_FIELDS.get(id(scheme))
+    if held is None or held[0] is not scheme:
+        held = SCHEME_FIELDS[id(scheme)] = (scheme, {
+            "scheme": scheme.id, "name": scheme.name, "quantity": scheme.quantity, "basis": scheme.basis, "boundary": scheme.boundary,
+            "gwp_basis": scheme.gwp, "electricity_rule": scheme.electricity, "unit": scheme.unit, "note": scheme.note,
+            "from_memory": scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
+            "grade": str(scheme.grade), "user_rulebook": bool(scheme.user_file), "rulebook_file": scheme.user_file,
+        })
+    return held[1]
+
+
+def check_of(scheme: Scheme, value: float, reading: Reading, period: str) -> Check:
+    """A scheme's check of one project: its value judged under the reading's findings (``judged``).
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    value : float
+        The scheme's value, in the scheme's unit.
+    reading : Reading
+        The scheme's rules read on the project (``read_rules``).
+    period : str
+        The assessment period's label (a calendar year).
+
+    Returns
+    -------
+    Check
+        The check, every field of the type ``Check`` validates to (made without validating: a portfolio makes many).
+    """
+    verdict = judged(scheme, value, reading.findings)
+    values = {
+        **scheme_check_fields(scheme), "limit": float(verdict["limit"]), "value": value, "passes": bool(verdict["passes"]),
+        "margin": None if verdict["margin"] is None else float(verdict["margin"]), "tier": verdict["tier"], "electricity_matching": None,
+        "status": str(verdict["status"]), "reasons": list(verdict["reasons"]), "assessment_period": period, "rule_versions": list(reading.versions),
+        "electricity_counted_zero": sorted(reading.counted_zero), "electricity_charged_as_grid": dict(sorted(reading.charged_as_grid.items())),
+        "co_products": {},
+    }
+    return constructed(Check, {name: values[name] for name in CHECK_FIELDS}, CHECK_SET)
 
 
 def _factor_rows(used: dict) -> list[Factor]:
@@ -1133,16 +1197,19 @@ def exchange_rows(inventory: Inventory, supply: dict) -> list[ExchangeRow]:
         One row per exchange, in inventory order.
     """
     return [
-        ExchangeRow.model_construct(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+        constructed(  # plain text and floats made here: nothing to validate (a portfolio makes many)
+            ExchangeRow,
+            {
+                "activity": activity.key,
+                "stage": activity.stage,
+                "kind": exchange.kind,
+                "input": exchange.input,
+                "label": exchange.label,
+                "amount": float(exchange.amount),
+                "unit": exchange.unit,
+                "activity_supply": float(supply[activity.key]),
+            },
             EXCHANGE_FIELDS,
-            activity=activity.key,
-            stage=activity.stage,
-            kind=exchange.kind,
-            input=exchange.input,
-            label=exchange.label,
-            amount=float(exchange.amount),
-            unit=exchange.unit,
-            activity_supply=float(supply[activity.key]),
         )
         for activity in inventory.activities.values()
         for exchange in activity.exchanges
