@@ -106,6 +106,40 @@ class AuditWorkbook:
         return iter((self.book, self.engine, self.spread))
 
 
+def _workbook_inputs(project_file, from_workbook, factors, overrides: list[str]):
+    """(project, sha256, factor set, the earlier workbook's settings or None): from a project file, or
+    read back from an earlier workbook with its edited factors over the set its cover names."""
+    if from_workbook is None:
+        project, sha = load_project(project_file, overrides)
+        return project, sha, load_factor_set(factors or DEFAULT_SET), None
+    project, sha, settings = load_project_from_workbook(from_workbook, overrides)
+    return project, sha, factor_set_from_workbook(from_workbook, base_factor_set(settings, factors)), settings
+
+
+def _stated_distributions(project_file, from_workbook, distributions) -> Uncertainty:
+    """The distributions of a Monte Carlo for the Uncertainty sheet: the project's [uncertainty] table with
+    ``distributions`` laid over it, or, read back from a workbook, the distributions file alone."""
+    if from_workbook is None:
+        return load_uncertainty(project_file, distributions)
+    return read_distributions_file(distributions) if distributions is not None else Uncertainty()
+
+
+def _workbook_options(settings, gwp, schemes, factors, from_workbook, project_file) -> tuple:
+    """(GWP set, schemes, factors option, evidence, source): the options given, else an earlier workbook's
+    cover settings, else the defaults."""
+    if settings is None:
+        return gwp or DEFAULT_GWP, schemes, factors or DEFAULT_SET, {}, str(project_file)
+    return gwp or settings.gwp, schemes or settings.schemes or None, factors or settings.factors_option, settings.evidence, str(from_workbook)
+
+
+def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, schemes):
+    """(meters, month results) of a metered year; only a project scored cradle-to-gate (meters describe the plant)."""
+    if project.project.boundary != "cradle-to-gate":
+        raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
+    meters = read_meters(periods, project)
+    return meters, month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
+
+
 def audit_workbook(
     project_file: str | Path | None = None,
     *,
@@ -172,40 +206,16 @@ def audit_workbook(
     InputError
         When ``periods`` is given for a project not scored cradle-to-gate (meters describe the plant).
     """
-    overrides = boundary_overrides(boundary, overrides)
-    evidence: dict[str, str] = {}
-    if from_workbook is not None:
-        project, sha, settings = load_project_from_workbook(from_workbook, overrides)
-        factor_set = factor_set_from_workbook(from_workbook, base_factor_set(settings, factors))
-        gwp = gwp or settings.gwp
-        schemes = schemes or settings.schemes or None
-        factors_option = factors or settings.factors_option
-        evidence = settings.evidence
-        source = str(from_workbook)
-    else:
-        project, sha = load_project(project_file, overrides)
-        factors_option = factors or DEFAULT_SET
-        factor_set = load_factor_set(factors_option)
-        gwp = gwp or DEFAULT_GWP
-        source = str(project_file)
+    project, sha, factor_set, settings = _workbook_inputs(project_file, from_workbook, factors, boundary_overrides(boundary, overrides))
+    gwp, schemes, factors_option, evidence, source = _workbook_options(settings, gwp, schemes, factors, from_workbook, project_file)
     engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year)
-    meters = months = None
-    if periods is not None:
-        if project.project.boundary != "cradle-to-gate":
-            raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
-        meters = read_meters(periods, project)
-        months = month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
-    spread = None
-    if draws is not None:
-        found = load_uncertainty(project_file, distributions) if from_workbook is None else (read_distributions_file(distributions) if distributions is not None else Uncertainty())
-    matched = None
+    meters, months = _metered(periods, project, factor_set, gwp, engine, schemes) if periods is not None else (None, None)
     series = project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
-    if series is not None:  # the series file beside the project file, or the workbook's Intervals sheet
-        matched = assess(Assessment(factor_set, gwp, tuple(schemes) if schemes else None, year=year), project, source=source, project_sha256=sha, series=series).checks
-    if draws is not None:
-        spread = monte_carlo(project, factor_set, found, draws=draws, seed=seed, source=source, gwp=gwp, schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
-    workbook = build_workbook(
-        engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""), evidence=evidence,
-        uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched,
-    )
+    matched = None if series is None else assess(
+        Assessment(factor_set, gwp, tuple(schemes) if schemes else None, year=year), project, source=source, project_sha256=sha, series=series).checks
+    spread = None if draws is None else monte_carlo(
+        project, factor_set, _stated_distributions(project_file, from_workbook, distributions), draws=draws, seed=seed, source=source, gwp=gwp,
+        schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
+    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""),
+                              evidence=evidence, uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched)
     return AuditWorkbook(workbook, engine, spread, metered_year(meters, project.project.product, months) if months else None)
