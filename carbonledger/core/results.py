@@ -9,7 +9,7 @@ from __future__ import annotations
 import json
 from typing import Any
 
-from pydantic import BaseModel, computed_field
+from pydantic import BaseModel, ConfigDict, computed_field
 
 from ..errors import InputError
 from ..model.factors import Factor
@@ -54,18 +54,25 @@ def strict_json(data: Any, where: str = "result") -> str:
         raise InputError(where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)") from None
 
 
-class FactorSetRef(BaseModel):
+class Result(BaseModel):
+    """A part of a result; its validator is built when first used (``defer_build``): a command
+    builds only the schemas of the results it makes, keeping start-up lean (issue 18)."""
+
+    model_config = ConfigDict(defer_build=True)
+
+
+class FactorSetRef(Result):
     name: str
     sha256: str
 
 
-class Intensity(BaseModel):
+class Intensity(Result):
     kg_co2e_per_t_nh3: float | None
     kg_co2e_per_kg_h2: float
     g_co2e_per_mj: float
 
 
-class MonthOfMatching(BaseModel):
+class MonthOfMatching(Result):
     month: str  # YYYY-MM, local calendar as written in the series
     load_kwh: float
     matched_kwh: float
@@ -75,7 +82,7 @@ class MonthOfMatching(BaseModel):
     value: float  # the scheme's quantity for the month's production
 
 
-class ElectricityMatching(BaseModel):
+class ElectricityMatching(Result):
     """How a scheme matched the project's electricity use with its contracted generation, interval by interval."""
 
     granularity: str  # interval, hour, month, quarter, year (or the dated rule when it changes inside the series)
@@ -101,7 +108,7 @@ class ElectricityMatching(BaseModel):
     monthly: list[MonthOfMatching]
 
 
-class Check(BaseModel):
+class Check(Result):
     scheme: str
     name: str
     quantity: str
@@ -131,7 +138,7 @@ class Check(BaseModel):
     co_products: dict[str, Any] = {}
 
 
-class ExchangeRow(BaseModel):
+class ExchangeRow(Result):
     activity: str
     stage: str
     kind: str
@@ -142,7 +149,7 @@ class ExchangeRow(BaseModel):
     activity_supply: float  # units of the activity per functional unit
 
 
-class ScoreResult(BaseModel):
+class ScoreResult(Result):
     carbonledger_version: str
     caution: str
     project: str
