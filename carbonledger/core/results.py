@@ -9,7 +9,7 @@ from __future__ import annotations
 import json
 from typing import Any
 
-from pydantic import BaseModel, ConfigDict, computed_field
+from pydantic import BaseModel, computed_field
 
 from ..errors import InputError
 from ..model.factors import Factor
@@ -54,25 +54,18 @@ def strict_json(data: Any, where: str = "result") -> str:
         raise InputError(where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)") from None
 
 
-class Result(BaseModel):
-    """A part of a result; its validator is built when first used (``defer_build``): a command
-    builds only the schemas of the results it makes, keeping start-up lean (issue 18)."""
-
-    model_config = ConfigDict(defer_build=True)
-
-
-class FactorSetRef(Result):
+class FactorSetRef(BaseModel):
     name: str
     sha256: str
 
 
-class Intensity(Result):
+class Intensity(BaseModel):
     kg_co2e_per_t_nh3: float | None
     kg_co2e_per_kg_h2: float
     g_co2e_per_mj: float
 
 
-class MonthOfMatching(Result):
+class MonthOfMatching(BaseModel):
     month: str  # YYYY-MM, local calendar as written in the series
     load_kwh: float
     matched_kwh: float
@@ -82,7 +75,7 @@ class MonthOfMatching(Result):
     value: float  # the scheme's quantity for the month's production
 
 
-class ElectricityMatching(Result):
+class ElectricityMatching(BaseModel):
     """How a scheme matched the project's electricity use with its contracted generation, interval by interval."""
 
     granularity: str  # interval, hour, month, quarter, year (or the dated rule when it changes inside the series)
@@ -108,7 +101,7 @@ class ElectricityMatching(Result):
     monthly: list[MonthOfMatching]
 
 
-class Check(Result):
+class Check(BaseModel):
     scheme: str
     name: str
     quantity: str
@@ -138,7 +131,7 @@ class Check(Result):
     co_products: dict[str, Any] = {}
 
 
-class ExchangeRow(Result):
+class ExchangeRow(BaseModel):
     activity: str
     stage: str
     kind: str
@@ -149,7 +142,7 @@ class ExchangeRow(Result):
     activity_supply: float  # units of the activity per functional unit
 
 
-class ScoreResult(Result):
+class ScoreResult(BaseModel):
     carbonledger_version: str
     caution: str
     project: str

@@ -46,7 +46,7 @@ class Factor(BaseModel):
     left out of the JSON, the ledger and the set's sha256. The uncertainty columns appear only
     when given."""
 
-    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)  # validator built on first use
+    model_config = ConfigDict(frozen=True, extra="forbid")
 
     id: str
     value: float

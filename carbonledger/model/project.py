@@ -86,7 +86,7 @@ class Section(BaseModel):
     """A project-file section: unknown keys, infinities, NaN, and truth values or text given
     for a number are refused (TOML allows ``inf`` and ``nan``; ``true`` is not 1)."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False, defer_build=True)  # validator built on first use
+    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
 
     @field_validator("*", mode="before")
     @classmethod

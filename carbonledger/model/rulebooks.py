@@ -58,7 +58,7 @@ LIMIT_RTOL = 1e-9  # a value this close to a limit (relative) is at the limit: a
 class Graded(BaseModel):
     """A rule with its source and the grade of that source."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False, defer_build=True)  # validator built on first use
+    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
     grade: Grade = UNVERIFIED  # the grades of model.grades, shared with factor rows
 
     @property
