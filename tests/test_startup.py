@@ -16,10 +16,12 @@ import pytest
 from helpers import DEMO, run_cli
 
 from carbonledger.cli import COMMANDS, docstring, load_command
+from carbonledger.model.project import ProjectInfo
 
 GREEN = DEMO / "green_electrolysis_ammonia.toml"
 GREY = DEMO / "grey_smr_ammonia.toml"
-HEAVY = ("bw2calc", "matplotlib", "openpyxl", "CoolProp", "SALib", "dask", "scipy.optimize", "pandas", "chemicals", "pint", "formulas")
+SHIPPED = DEMO / "grey_smr_ammonia_shipped.toml"  # the project of benchmarks/score.py
+HEAVY = ("bw2calc", "matplotlib", "openpyxl", "CoolProp", "SALib", "dask", "scipy.optimize", "pandas", "chemicals", "pint", "formulas", "pycountry")
 
 PROBE = """
 import contextlib, io, json, sys
@@ -95,3 +97,20 @@ def test_the_api_facade_gives_every_public_name():
     for name in {*api.__all__, *api.WHERE}:
         assert getattr(api, name) is not None, name
     assert api.score.__module__ == "carbonledger.api.scoring" and api.recalc.__module__ == "carbonledger.api.portfolios"
+
+
+def test_the_shipped_score_in_json_loads_no_table_printer_nor_country_list(tmp_path, monkeypatch):
+    """The score of benchmarks/score.py (issue 18: at most 1.15 times `import bw2calc`): rich prints
+    tables only, pycountry is read only for a project naming a country (none of the demos does),
+    CoolProp and chemicals are test dependencies (the stored states are read instead)."""
+    monkeypatch.chdir(tmp_path)
+    loaded = modules_of("score", SHIPPED, "--format", "json", "--no-ledger")
+    assert sorted(name for name in ("rich", "pycountry", "CoolProp", "chemicals", "matplotlib", "openpyxl", "pint", "SALib", "dask", "highspy", "jinja2") if name in loaded) == []
+
+
+def test_a_project_naming_a_country_is_still_checked():
+    """pycountry, loaded on first use, still refuses a code ISO 3166-1 does not assign (XK is
+    user-assigned, not in the standard's list; PR is Puerto Rico's own alpha-2 code)."""
+    assert ProjectInfo(name="x", product="ammonia", country="pr").country == "PR"
+    with pytest.raises(ValueError, match="ISO 3166-1 alpha-2"):
+        ProjectInfo(name="x", product="ammonia", country="XK")

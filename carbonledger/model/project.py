@@ -21,7 +21,6 @@ import typing
 from pathlib import Path
 from typing import Annotated, Any, Literal, Optional
 
-import pycountry
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
 from ..errors import InputError, did_you_mean, match_id
@@ -117,6 +116,8 @@ class ProjectInfo(Section):
     def _iso_country(cls, value: str) -> str:
         if value == "":
             return value
+        import pycountry  # its country database is read only for a project that names a country (a lean start, issue 18)
+
         code = value.strip().upper()
         if len(code) != 2 or pycountry.countries.get(alpha_2=code) is None:
             raise ValueError(f"an ISO 3166-1 alpha-2 country code such as US, GB or PR, got {value!r}")
