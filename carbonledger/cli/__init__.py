@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import ast
 import functools
+import gc
 import importlib
 import sys
 from pathlib import Path
@@ -120,3 +121,5 @@ def main() -> None:
     except BrokenPipeError:  # e.g. piped into head
         sys.stderr.close()
         sys.exit(0)
+    finally:
+        gc.freeze()  # the process ends: its last collection skips the heap of the solver's libraries (about 0.3 s of CPU)
