@@ -87,14 +87,35 @@ def assess(assessment: Assessment, project, *, source: str = "project", project_
     ScoreResult
         The result with its scheme checks.
     """
+    return assess_solved(assessment, project, source=source, project_sha256=project_sha256, series=series, matched_periods=matched_periods)[2]
+
+
+def assess_solved(assessment: Assessment, project, *, source: str = "project", project_sha256: str = "", series: ElectricitySeries | None = None,
+                  matched_periods: dict | None = None, solver: str = "bw2calc") -> tuple[Prepared, dict, ScoreResult]:
+    """``assess``, returning also what the project was prepared and solved as, for an analysis that reads
+    them (the report's matching views).
+
+    Parameters
+    ----------
+    assessment, project, source, project_sha256, series, matched_periods
+        As ``assess`` takes them.
+    solver : str
+        ``bw2calc`` (the reference, as ``score`` solves) or ``numpy`` (the stacked solver alone, without
+        importing bw2calc: the report, which many projects share).
+
+    Returns
+    -------
+    tuple
+        (Prepared, the solved inventories by demand, ScoreResult).
+    """
     periods = series_matched_periods(series) if series is not None else matched_periods
     prepared = assessment.prepare(project, source=source, project_sha256=project_sha256, matched_periods=periods)
-    solutions = solve_with_bw2calc(prepared)
+    solutions = solve_with_bw2calc(prepared) if solver == "bw2calc" else solve_stacked([prepared], check_with_bw2calc=False)[0]
     result = assemble(prepared, solutions)
-    if series is None:
-        return result
-    granularity = None if assessment.matching in (None, "rule") else assessment.matching
-    return matched_checks(prepared, solutions, result, series, granularity)
+    if series is not None:
+        granularity = None if assessment.matching in (None, "rule") else assessment.matching
+        result = matched_checks(prepared, solutions, result, series, granularity)
+    return prepared, solutions, result
 
 
 def prepare_many(assessments: list[Assessment], projects: list[PortfolioProject]) -> list[Prepared]:

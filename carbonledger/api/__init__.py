@@ -34,7 +34,7 @@ WHERE = {
     "AuditWorkbook": ".workbooks",
     "PACK_RULEBOOK_FOLDER": ".evidence_pack",
     "factor_set_of": ".scoring",
-    "boundary_overrides": ".scoring",
+    "boundary_overrides": "carbonledger.model.project",
     "score_workbook": ".workbooks",
     "audit_workbook": ".workbooks",
     "load_any_project": ".workbooks",

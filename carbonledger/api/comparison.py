@@ -14,8 +14,9 @@ from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
 from ..model.distributions import Uncertainty, read_distributions_file
 from ..model.factors import DEFAULT_SET, FactorSet
+from ..model.project import boundary_overrides
 from .monte_carlo import load_uncertainty
-from .scoring import boundary_overrides, factor_set_of
+from .scoring import factor_set_of
 from .workbooks import load_any_project
 
 

@@ -17,9 +17,9 @@ from ..errors import InputError
 from ..io.ledger import LedgerRecord, factor_row
 from ..model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
 from ..model.factors import DEFAULT_SET, FactorSet
-from ..model.project import read_project_file
+from ..model.project import boundary_overrides, read_project_file
 from ..routes.project import load_project
-from .scoring import boundary_overrides, factor_set_of
+from .scoring import factor_set_of
 
 
 def load_uncertainty(project_file: str | Path, distributions: str | Path | None = None) -> Uncertainty:

@@ -13,8 +13,9 @@ from ..core.scoring import DEFAULT_GWP
 from ..io.ledger import RunTarget, open_run, run_target, write_batch
 from ..io.ledger_store import Location
 from ..model.factors import DEFAULT_SET, FactorSet
+from ..model.project import boundary_overrides
 from ..routes.project import load_project
-from .scoring import boundary_overrides, factor_set_of
+from .scoring import factor_set_of
 
 
 def recalc(

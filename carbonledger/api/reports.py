@@ -7,20 +7,20 @@ from datetime import UTC, datetime
 from pathlib import Path
 
 from ..about import CAUTION
-from ..analyses.electricity_series import project_series
 from ..analyses.lifetime import lifetime_score
-from ..analyses.matching import matched_checks, matching_views, series_matched_periods
+from ..analyses.matching import matching_views
+from ..analyses.pipeline import assess_solved, read
 from ..analyses.portfolio import project_files
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, monte_carlo
-from ..core.scoring import DEFAULT_GWP, assemble, prepare, solve_stacked
+from ..core.assessment import Assessment
+from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
 from ..io.report import ProjectReport, render_report
 from ..model.factors import DEFAULT_SET, FactorSet
 from ..model.project import parameter_table, read_project_file
-from ..routes.project import load_project
 from .levers import qualify
 from .monte_carlo import load_uncertainty
-from .scoring import boundary_overrides, factor_set_of
+from .scoring import factor_set_of
 
 
 def report_items(
@@ -77,25 +77,19 @@ def report_items(
         matching views, Monte Carlo and qualify answer where it has them.
     """
     factor_set = factor_set_of(factors)
+    assessment = Assessment(factor_set, gwp, tuple(schemes) if schemes else None, tuple(overrides or ()), boundary, year)
     items = []
     for path in project_files(list(paths)):
-        project, sha = load_project(path, boundary_overrides(boundary, overrides))
-        series = project_series(project, path)
-        matched = series_matched_periods(series) if series is not None else None
-        prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=str(path), project_sha256=sha, matching=matched, year=year)
-        solutions = solve_stacked([prepared], check_with_bw2calc=False)[0]
-        result = assemble(prepared, solutions)
-        views = []
-        if series is not None:
-            result = matched_checks(prepared, solutions, result, series)
-            views = matching_views(prepared, solutions, result, series)
+        project, sha, series = read(assessment, path)
+        prepared, solutions, result = assess_solved(assessment, project, source=str(path), project_sha256=sha, series=series, solver="numpy")
+        views = matching_views(prepared, solutions, result, series) if series is not None else []
         life = None
         if project.lifetime is not None:
             life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
             spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series, year=year)
-        found = qualify(path, levers, schemes=schemes, factors=factor_set, gwp=gwp, overrides=boundary_overrides(boundary, overrides), budgets=0, year=year) if levers is not None else None
+        found = qualify(path, levers, schemes=schemes, factors=factor_set, gwp=gwp, overrides=assessment.project_overrides, budgets=0, year=year) if levers is not None else None
         items.append(ProjectReport(result, parameter_table(project), life, views, spread, found))
     return items
 

@@ -9,7 +9,7 @@ from ..core.assessment import Assessment
 from ..core.results import ScoreResult
 from ..core.scoring import DEFAULT_GWP, shipped_rulebooks
 from ..model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from ..model.project import boundary_id, rebalanced_sources
+from ..model.project import rebalanced_sources
 from ..model.rulebooks import load_user_rulebooks
 
 
@@ -27,28 +27,6 @@ def factor_set_of(factors: str | Path | FactorSet) -> FactorSet:
         The factor set, loaded and validated (``model.factors.load_factor_set``).
     """
     return factors if isinstance(factors, FactorSet) else load_factor_set(factors)
-
-
-def boundary_overrides(boundary: str | None, overrides: list[str] | None) -> list[str]:
-    """The overrides of a run with the ``--boundary`` option added as ``project.boundary=...``.
-
-    The project model validates the boundary when the overrides are applied.
-
-    Parameters
-    ----------
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake`` (spellings ``boundary_id`` accepts); None: the
-        project's own.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings (``--set``).
-
-    Returns
-    -------
-    list of str
-        The overrides, then ``project.boundary=<id>`` when a boundary is given.
-    """
-    boundary = boundary_id(boundary) if boundary is not None else None
-    return list(overrides or []) + ([f"project.boundary={boundary}"] if boundary else [])
 
 
 def score(

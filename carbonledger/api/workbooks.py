@@ -22,9 +22,10 @@ from ..io.workbook.reader import (
 from ..io.workbook.writer import build_workbook
 from ..model.distributions import Uncertainty, read_distributions_file
 from ..model.factors import DEFAULT_SET, FactorSet, load_factor_set
+from ..model.project import boundary_overrides
 from ..routes.project import load_project
 from .monte_carlo import load_uncertainty
-from .scoring import boundary_overrides, stating_rebalance
+from .scoring import stating_rebalance
 
 
 def score_workbook(

@@ -13,7 +13,7 @@ from dataclasses import dataclass, field, replace
 
 from ..errors import InputError
 from ..model.factors import FactorSet
-from ..model.project import boundary_id
+from ..model.project import boundary_id, boundary_overrides
 from ..model.rulebooks import scheme_ids
 from .scoring import DEFAULT_GWP, Prepared, gwp_set, prepare, rulebooks
 from .verdicts import FIRST_YEAR, LAST_YEAR
@@ -65,7 +65,7 @@ class Assessment:
     @property
     def project_overrides(self) -> list[str]:
         """The overrides a project file is read with: the user's, then the boundary (``project.boundary``)."""
-        return list(self.overrides) + ([f"project.boundary={self.boundary}"] if self.boundary else [])
+        return boundary_overrides(self.boundary, list(self.overrides))
 
     @property
     def scheme_list(self) -> list[str] | None:

@@ -38,6 +38,28 @@ def boundary_id(boundary: str, where: str = "--boundary") -> str:
     return found
 
 
+def boundary_overrides(boundary: str | None, overrides: list[str] | None) -> list[str]:
+    """The overrides of a run with the ``--boundary`` option added as ``project.boundary=...``.
+
+    The project model validates the boundary when the overrides are applied.
+
+    Parameters
+    ----------
+    boundary : str or None
+        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake`` (spellings ``boundary_id`` accepts); None: the
+        project's own.
+    overrides : list of str or None
+        ``dotted.parameter=value`` strings (``--set``).
+
+    Returns
+    -------
+    list of str
+        The overrides, then ``project.boundary=<id>`` when a boundary is given.
+    """
+    boundary = boundary_id(boundary) if boundary is not None else None
+    return list(overrides or []) + ([f"project.boundary={boundary}"] if boundary else [])
+
+
 MAX_PROJECT_BYTES = 16 * 1024 * 1024  # a project file is a few kB; its series and meters live in their own files
 MAX_DEPTH = 16  # tables and arrays inside one another: a project needs 4
 
