@@ -73,10 +73,10 @@ from ..core.scoring import DEFAULT_GWP, rulebooks
 from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.factors import FactorSet
-from ..model.levers import MAX_COMBINATIONS, Lever, Levers, is_share
+from ..model.levers import MAX_COMBINATIONS, Lever, Levers
 from ..model.project import apply_overrides, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
-from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
+from ..model.shares import is_share_path, negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..routes.project import validate_project
 from .operation import operation_summary, plan_operation, planned_series
@@ -227,13 +227,13 @@ def source_of(path: str) -> str:
 
 def absorbers_of(levers: list[Resolved]) -> dict[str, str]:
     """Share path -> the source that takes up its difference, for the share levers that name one."""
-    return {item.path: item.lever.absorbed_by for item in levers if is_share(item.path) and item.lever.absorbed_by}
+    return {item.path: item.lever.absorbed_by for item in levers if is_share_path(item.path) and item.lever.absorbed_by}
 
 
 def _check_shares(project, resolved: list[Resolved], source: str) -> None:
     """Share levers that can be rebalanced together: every absorber a source no lever moves, something
     left to take up the rest, and no share below 0 with every share lever at its lowest value."""
-    moving = [item for item in resolved if is_share(item.path)]
+    moving = [item for item in resolved if is_share_path(item.path)]
     if not moving:
         return
     shares = {name: s.share for name, s in project.electricity.sources.items()}
@@ -308,7 +308,7 @@ class Evaluator:
         self.plan, self.schemes, self.paths, self.nominal = plan, schemes, paths, nominal
         self.drawn, self.confidence = drawn, confidence
         self.reference, self.fixed = reference or {}, fixed or {}
-        self.shares = {path: value for path, value in self.fixed.items() if is_share(path)}  # set with the continuous levers, rebalanced together
+        self.shares = {path: value for path, value in self.fixed.items() if is_share_path(path)}  # set with the continuous levers, rebalanced together
         self.size = 1 if drawn is None else len(drawn.uniform)
         self.calls = 0
         self.blocked = self._blocked()
@@ -640,7 +640,7 @@ class Search:
     def lever_plan(self, project) -> Plan:
         """A plan of the project for the continuous levers and the share levers (their fields), holding the
         year, series, schemes and the sources that take up the shares' differences."""
-        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.levers if lever.continuous or is_share(lever.path)}
+        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.levers if lever.continuous or is_share_path(lever.path)}
         plan = Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
         plan.absorbers = absorbers_of(self.levers)
         return plan
@@ -667,7 +667,7 @@ class Search:
     def _evaluator(self, combination: Combination) -> Evaluator:
         """Discrete values set in the project, but shares: those are set with the continuous levers' on every
         candidate, so that all share levers are rebalanced together against the project as written."""
-        settled = {path: value for path, value in combination.discrete.items() if not is_share(path)}
+        settled = {path: value for path, value in combination.discrete.items() if not is_share_path(path)}
         project = self.with_values(settled) if settled else self.project
         plan = self.lever_plan(project)
         drawn = None
@@ -690,14 +690,14 @@ class Search:
         """(A, b): every source's rebalanced share as A x + b in the continuous levers' values x, with the
         combination's discrete shares set (affine: read at x = 0 and at each unit vector)."""
         paths = [lever.path for lever in self.continuous]
-        if not any(is_share(path) for path in paths):
+        if not any(is_share_path(path) for path in paths):
             return None
         shares = {name: s.share for name, s in self.project.electricity.sources.items()}
-        fixed = {source_of(path): float(value) for path, value in combination.discrete.items() if is_share(path)}
+        fixed = {source_of(path): float(value) for path, value in combination.discrete.items() if is_share_path(path)}
         absorbers = {source_of(path): name for path, name in absorbers_of(self.levers).items()}
 
         def at(x: np.ndarray) -> np.ndarray:
-            moved = {**fixed, **{source_of(path): x[j] for j, path in enumerate(paths) if is_share(path)}}
+            moved = {**fixed, **{source_of(path): x[j] for j, path in enumerate(paths) if is_share_path(path)}}
             return np.array(list(rebalanced_shares(shares, moved, absorbers).values()), dtype=float)
 
         offset = at(np.zeros(len(paths)))

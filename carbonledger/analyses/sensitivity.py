@@ -35,7 +35,8 @@ from ..model.distributions import Uncertainty, Uniform
 from ..model.factors import FactorSet, factors_root
 from ..model.pedigree import grade_defaults
 from ..model.project import parameter_table
-from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, checked_parameter, draws_from_uniform, evaluate_in_blocks, factors_used, is_share_path, limit_breaks, make_plan, no_usable_draw
+from ..model.shares import is_share_path
+from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, checked_parameter, draws_from_uniform, evaluate_in_blocks, factors_used, limit_breaks, make_plan, no_usable_draw
 
 TORNADO_PERCENTILES = (0.10, 0.90)
 SWING_PERCENT = 10.0  # the default move of each input in the one-at-a-time swing, per cent of its own value

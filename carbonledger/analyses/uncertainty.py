@@ -57,7 +57,7 @@ from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row, factors_root
 from ..model.pedigree import grade_defaults
 from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
-from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
+from ..model.shares import is_share_path, negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY
@@ -363,10 +363,6 @@ def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
     for name, share in shares_with_draws(plan, parameters).items():
         sources[name]["share"] = share
     return params
-
-
-def is_share_path(path: str) -> bool:
-    return path.startswith("electricity.sources.") and path.endswith(".share")
 
 
 def shares_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict[str, Any]:

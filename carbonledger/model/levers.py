@@ -45,6 +45,7 @@ from pydantic import BaseModel, ConfigDict, Field, field_validator, model_valida
 
 from ..errors import InputError
 from .project import loads_toml, validate_with
+from .shares import is_share_path
 
 MAX_LEVERS = 20
 MAX_COMBINATIONS = 4096  # discrete values (and cost pieces) multiplied out
@@ -204,7 +205,7 @@ class Levers(BaseModel):
                 raise ValueError(f"one lever per parameter, '{lever.parameter}' has two")
             seen.add(lever.parameter)
         for lever in self.levers:
-            if lever.absorbed_by is not None and not is_share(lever.parameter):
+            if lever.absorbed_by is not None and not is_share_path(lever.parameter):
                 raise ValueError(f"absorbed_by only on an electricity share lever, got it on '{lever.parameter}'")
         return self
 
@@ -220,10 +221,6 @@ class Levers(BaseModel):
     @property
     def parameter_levers(self) -> list[Lever]:
         return [lever for lever in self.levers if lever.kind == "parameter"]
-
-
-def is_share(path: str) -> bool:
-    return path.startswith("electricity.sources.") and path.endswith(".share")
 
 
 def read_levers(path: str | Path) -> Levers:
