@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import contextlib
 import gc
+import os
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -39,23 +40,31 @@ STATUSES = ("now fails", "now qualifies", "now undetermined", "now not eligible"
 
 
 def project_files(paths: list[str | Path]) -> list[Path]:
-    """Project TOML files named directly, or found (``*.toml``, not recursive) in folders."""
-    found: list[Path] = []
+    """Project TOML files named directly, or found (``*.toml``, not recursive) in folders; a file
+    named twice (directly, through its folder or through a link) is read once."""
+    unique: dict[str, Path] = {}
     for item in paths:
         path = Path(item)
         if path.is_dir():
-            files = sorted(p for p in path.glob("*.toml") if p.is_file())
+            files = folder_projects(path)
             if not files:
                 raise InputError(path, "", "a folder holding project .toml files (none found)")
-            found += files
+            for real, found in files:
+                unique.setdefault(real, found)
         elif path.is_file():
-            found.append(path)
+            unique.setdefault(os.path.realpath(path), path)
         else:
             raise InputError(path, "", "a project .toml file or a folder of them (not found)")
-    unique: dict[Path, Path] = {}
-    for path in found:
-        unique.setdefault(path.resolve(), path)
     return list(unique.values())
+
+
+def folder_projects(folder: Path) -> list[tuple[str, Path]]:
+    """(real path, path) of the ``*.toml`` regular files of a folder, sorted by name: one directory
+    scan, the folder's real path found once and a link's only for a link."""
+    real_folder = os.path.realpath(folder)
+    with os.scandir(folder) as entries:
+        found = sorted((entry.name, entry.is_symlink()) for entry in entries if entry.name.endswith(".toml") and entry.is_file())
+    return [(os.path.realpath(folder / name) if link else os.path.join(real_folder, name), folder / name) for name, link in found]
 
 
 def load_portfolio(paths: list[str | Path]) -> list[PortfolioProject]:

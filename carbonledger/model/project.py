@@ -21,6 +21,7 @@ import typing
 from pathlib import Path
 from typing import Annotated, Any, Literal, Optional
 
+import rtoml
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, ValidationError, ValidationInfo, field_validator
 
 from ..errors import InputError, did_you_mean, match_id
@@ -255,15 +256,30 @@ def _depth(value: Any) -> int:
 
 
 def loads_toml(text: str, source: str | Path) -> dict:
-    """Parse TOML text (a leading byte-order mark ignored); bad or too deeply nested TOML is one InputError."""
+    """Parse TOML text (a leading byte-order mark ignored); bad or too deeply nested TOML is one InputError.
+
+    ``rtoml`` (a compiled TOML 1.0 parser) reads it, about seven times faster than the standard
+    library's ``tomllib``, which counts at portfolio scale; text it refuses is read again by
+    ``tomllib``, whose message (line and column) the error line gives, and which also reads what
+    ``rtoml`` cannot hold (integers beyond 64 bits)."""
+    text = text.removeprefix("\ufeff")
     try:
-        data = tomllib.loads(text.removeprefix("\ufeff"))
+        data = rtoml.loads(text)
+    except (rtoml.TomlParsingError, RecursionError, ValueError, OverflowError):
+        data = _loads_tomllib(text, source)
+    if _depth(data) > MAX_DEPTH:
+        raise InputError(source, "", f"TOML nested at most {MAX_DEPTH} levels deep")
+    return data
+
+
+def _loads_tomllib(text: str, source: str | Path) -> dict:
+    """``tomllib``'s reading of text ``rtoml`` refused: its result, or its error as one InputError."""
+    try:
+        data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
         raise InputError(source, "", f"valid TOML ({error})") from None
     except RecursionError:
         raise InputError(source, "", f"TOML nested at most {MAX_DEPTH} levels deep") from None
-    if _depth(data) > MAX_DEPTH:
-        raise InputError(source, "", f"TOML nested at most {MAX_DEPTH} levels deep")
     return data
 
 
