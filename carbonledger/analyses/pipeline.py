@@ -58,12 +58,23 @@ def read(assessment: Assessment, project_file: str | Path) -> tuple[object, str,
     project, sha = load_project(project_file, assessment.project_overrides)
     series = None if assessment.matching == "declared" else project_series(project, project_file)
     if series is None and assessment.matching not in (None, "declared", "rule"):
-        raise InputError("--matching", assessment.matching, f"a project with an electricity time series ([electricity] time_series in {project_file})")
+        raise InputError(
+            "--matching",
+            assessment.matching,
+            f"a project with an electricity time series ([electricity] time_series in {project_file})",
+        )
     return project, sha, series
 
 
-def assess(assessment: Assessment, project, *, source: str = "project", project_sha256: str = "", series: ElectricitySeries | None = None,
-           matched_periods: dict | None = None) -> ScoreResult:
+def assess(
+    assessment: Assessment,
+    project,
+    *,
+    source: str = "project",
+    project_sha256: str = "",
+    series: ElectricitySeries | None = None,
+    matched_periods: dict | None = None,
+) -> ScoreResult:
     """A validated project through the pipeline: prepare, solve with bw2calc, judge, match the series.
 
     Parameters
@@ -87,11 +98,26 @@ def assess(assessment: Assessment, project, *, source: str = "project", project_
     ScoreResult
         The result with its scheme checks.
     """
-    return assess_solved(assessment, project, source=source, project_sha256=project_sha256, series=series, matched_periods=matched_periods)[2]
+    return assess_solved(
+        assessment,
+        project,
+        source=source,
+        project_sha256=project_sha256,
+        series=series,
+        matched_periods=matched_periods,
+    )[2]
 
 
-def assess_solved(assessment: Assessment, project, *, source: str = "project", project_sha256: str = "", series: ElectricitySeries | None = None,
-                  matched_periods: dict | None = None, solver: str = "bw2calc") -> tuple[Prepared, dict, ScoreResult]:
+def assess_solved(
+    assessment: Assessment,
+    project,
+    *,
+    source: str = "project",
+    project_sha256: str = "",
+    series: ElectricitySeries | None = None,
+    matched_periods: dict | None = None,
+    solver: str = "bw2calc",
+) -> tuple[Prepared, dict, ScoreResult]:
     """``assess``, returning also what the project was prepared and solved as, for an analysis that reads
     them (the report's matching views).
 
@@ -110,7 +136,9 @@ def assess_solved(assessment: Assessment, project, *, source: str = "project", p
     """
     periods = series_matched_periods(series) if series is not None else matched_periods
     prepared = assessment.prepare(project, source=source, project_sha256=project_sha256, matched_periods=periods)
-    solutions = solve_with_bw2calc(prepared) if solver == "bw2calc" else solve_stacked([prepared], check_with_bw2calc=False)[0]
+    solutions = (
+        solve_with_bw2calc(prepared) if solver == "bw2calc" else solve_stacked([prepared], check_with_bw2calc=False)[0]
+    )
     result = assemble(prepared, solutions)
     if series is not None:
         granularity = None if assessment.matching in (None, "rule") else assessment.matching
@@ -122,13 +150,22 @@ def prepare_many(assessments: list[Assessment], projects: list[PortfolioProject]
     """Each project made ready to solve under its own assessment (a portfolio: one per project, e.g. per
     operating year), matched periods taken from its series as ``assess`` takes them."""
     return [
-        assessment.prepare(item.project, source=item.path, project_sha256=item.sha256,
-                           matched_periods=series_matched_periods(item.series) if item.series is not None else None)
+        assessment.prepare(
+            item.project,
+            source=item.path,
+            project_sha256=item.sha256,
+            matched_periods=series_matched_periods(item.series) if item.series is not None else None,
+        )
         for assessment, item in zip(assessments, projects, strict=True)
     ]
 
 
-def assess_prepared(projects: list[PortfolioProject], prepared: list[Prepared], check_with_bw2calc: bool = True, checked: set | None = None) -> list[ScoreResult]:
+def assess_prepared(
+    projects: list[PortfolioProject],
+    prepared: list[Prepared],
+    check_with_bw2calc: bool = True,
+    checked: set | None = None,
+) -> list[ScoreResult]:
     """Many prepared projects through the rest of the pipeline: solved together by matrix structure
     (``core.scoring.solve_stacked``; each structure not in ``checked`` also checked against bw2calc once),
     judged, and matched against their series.
@@ -150,7 +187,9 @@ def assess_prepared(projects: list[PortfolioProject], prepared: list[Prepared], 
         In the order of ``projects``.
     """
     results = []
-    for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, check_with_bw2calc, checked), strict=True):
+    for item, ready, solutions in zip(
+        projects, prepared, solve_stacked(prepared, check_with_bw2calc, checked), strict=True
+    ):
         result = assemble(ready, solutions)
         results.append(result if item.series is None else matched_checks(ready, solutions, result, item.series))
     return results

@@ -36,7 +36,16 @@ from ..routes.project import load_project
 from .electricity_series import project_series
 from .pipeline import PortfolioProject, assess_prepared, prepare_many
 
-STATUSES = ("now fails", "now qualifies", "now undetermined", "now not eligible", "still fails", "still qualifies", "still not eligible", "still undetermined")  # how a check moved
+STATUSES = (
+    "now fails",
+    "now qualifies",
+    "now undetermined",
+    "now not eligible",
+    "still fails",
+    "still qualifies",
+    "still not eligible",
+    "still undetermined",
+)  # how a check moved
 
 
 def project_files(paths: list[str | Path]) -> list[Path]:
@@ -63,8 +72,13 @@ def folder_projects(folder: Path) -> list[tuple[str, Path]]:
     scan, the folder's real path found once and a link's only for a link."""
     real_folder = os.path.realpath(folder)
     with os.scandir(folder) as entries:
-        found = sorted((entry.name, entry.is_symlink()) for entry in entries if entry.name.endswith(".toml") and entry.is_file())
-    return [(os.path.realpath(folder / name) if link else os.path.join(real_folder, name), folder / name) for name, link in found]
+        found = sorted(
+            (entry.name, entry.is_symlink()) for entry in entries if entry.name.endswith(".toml") and entry.is_file()
+        )
+    return [
+        (os.path.realpath(folder / name) if link else os.path.join(real_folder, name), folder / name)
+        for name, link in found
+    ]
 
 
 def load_portfolio(paths: list[str | Path]) -> list[PortfolioProject]:
@@ -95,14 +109,18 @@ def collector_paused():
             gc.enable()
 
 
-def prepare_projects(projects: list[PortfolioProject], sets: list[FactorSet], years: list, gwp: str, schemes: list[str] | None) -> list[Prepared]:
+def prepare_projects(
+    projects: list[PortfolioProject], sets: list[FactorSet], years: list, gwp: str, schemes: list[str] | None
+) -> list[Prepared]:
     """Each project made ready to solve under its own assessment (its factor set and year), its checks
     limited to ``schemes`` (validated ids; each project keeps those that apply to its product)."""
     assessments: dict[tuple, Assessment] = {}  # one per factor set and year (its options are checked once)
     for one_set, one_year in zip(sets, years, strict=True):
         if (id(one_set), one_year) not in assessments:
             assessments[(id(one_set), one_year)] = Assessment(one_set, gwp, year=one_year)
-    prepared = prepare_many([assessments[(id(one_set), one_year)] for one_set, one_year in zip(sets, years, strict=True)], projects)
+    prepared = prepare_many(
+        [assessments[(id(one_set), one_year)] for one_set, one_year in zip(sets, years, strict=True)], projects
+    )
     if schemes:
         for ready in prepared:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
@@ -137,7 +155,10 @@ def score_portfolio(
     years = year if isinstance(year, list) else [year] * len(projects)  # scheme rules read on each year's dates
     if mapper is not None and len(projects) > 1:
         size = -(-len(projects) // chunks)
-        pieces = [(projects[n : n + size], sets[n : n + size], gwp, schemes, check_with_bw2calc, years[n : n + size]) for n in range(0, len(projects), size)]
+        pieces = [
+            (projects[n : n + size], sets[n : n + size], gwp, schemes, check_with_bw2calc, years[n : n + size])
+            for n in range(0, len(projects), size)
+        ]
         return [result for part in mapper(score_chunk, pieces) for result in part]
     results: list[ScoreResult] = []
     checked: set = set()
@@ -188,7 +209,9 @@ class Recalc:
     old_scores: list[ScoreResult]
     new_scores: list[ScoreResult]
     rescored: int = 0  # projects that use a changed factor (the others kept their old result)
-    ledger_run: object = None  # where the run is being recorded (io.ledger.RunTarget), closed once the output is written
+    ledger_run: object = (
+        None  # where the run is being recorded (io.ledger.RunTarget), closed once the output is written
+    )
 
     @property
     def from_memory(self) -> dict[str, list[str]]:
@@ -243,16 +266,25 @@ def recalc_piece(piece: tuple) -> RecalcPiece:
             chunk = projects[start : start + CHUNK_PROJECTS]
             old_ready = prepare_projects(chunk, [old_set] * len(chunk), [year] * len(chunk), gwp, schemes)
             old_scores = assess_prepared(chunk, old_ready, True, checked)
-            moving = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
-            new_ready = prepare_projects([chunk[n] for n in moving], [new_set] * len(moving), [year] * len(moving), gwp, schemes)
+            moving = [
+                n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)
+            ]
+            new_ready = prepare_projects(
+                [chunk[n] for n in moving], [new_set] * len(moving), [year] * len(moving), gwp, schemes
+            )
             for n, ready in zip(moving, new_ready, strict=True):
                 if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
                     ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
-            rescored = dict(zip(moving, assess_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True))
+            rescored = dict(
+                zip(moving, assess_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True)
+            )
             for n, score in rescored.items():
                 share_unchanged_rows(old_scores[n], score)
             result.old_scores += old_scores
-            result.new_scores += [rescored.get(n) or score.model_copy(update={"factor_set": new_ref}) for n, score in enumerate(old_scores)]
+            result.new_scores += [
+                rescored.get(n) or score.model_copy(update={"factor_set": new_ref})
+                for n, score in enumerate(old_scores)
+            ]
             result.rescored += [start + n for n in moving]
     return result
 
@@ -261,16 +293,26 @@ def share_unchanged_rows(old: ScoreResult, new: ScoreResult) -> None:
     """The new result of a rescored project holds the old result's exchange rows where they are equal (the
     amounts that no changed factor reaches): one object for both, so a portfolio's results take less memory."""
     if len(old.exchanges) == len(new.exchanges):
-        new.exchanges[:] = [before if before.__dict__ == after.__dict__ else after for before, after in zip(old.exchanges, new.exchanges, strict=True)]
+        new.exchanges[:] = [
+            before if before.__dict__ == after.__dict__ else after
+            for before, after in zip(old.exchanges, new.exchanges, strict=True)
+        ]
 
 
 def rules_read_alike(old: Prepared, new: Prepared) -> bool:
     """Whether a scheme's rules read the same on two preparations of one project (same options, year
     and matching): what ``core.scoring.read_rules`` takes from the inventory is the same."""
+
     def seen(ready: Prepared) -> tuple:
         inventory = ready.inventory
         stages = sorted({activity.stage for activity in inventory.activities.values()})
-        return (inventory.electricity_sources, inventory.electricity_kinds, stages, inventory.product, inventory.reference_product)
+        return (
+            inventory.electricity_sources,
+            inventory.electricity_kinds,
+            stages,
+            inventory.product,
+            inventory.reference_product,
+        )
 
     return (old.period, old.matching, old.params) == (new.period, new.matching, new.params) and seen(old) == seen(new)
 
@@ -327,13 +369,32 @@ def recalc(
     """
     changed = sorted({change.id for change in diff_sets(old_set, new_set)})
     size = max(1, -(-len(projects) // max(1, chunks)))
-    pieces = [(projects[n : n + size], old_set, new_set, frozenset(changed), gwp, schemes, year) for n in range(0, len(projects), size)]
+    pieces = [
+        (projects[n : n + size], old_set, new_set, frozenset(changed), gwp, schemes, year)
+        for n in range(0, len(projects), size)
+    ]
     with collector_paused():
-        parts = mapper(run_piece, pieces) if mapper is not None and len(pieces) > 1 else [run_piece(piece) for piece in pieces]
+        parts = (
+            mapper(run_piece, pieces)
+            if mapper is not None and len(pieces) > 1
+            else [run_piece(piece) for piece in pieces]
+        )
         old_scores = [score for part in parts for score in part.old_scores]
         new_scores = [score for part in parts for score in part.new_scores]
-        to_rescore = [start + n for start, part in zip(range(0, len(projects), size), parts, strict=True) for n in part.rescored]
+        to_rescore = [
+            start + n for start, part in zip(range(0, len(projects), size), parts, strict=True) for n in part.rescored
+        ]
         rows = recalc_rows(old_scores, new_scores, set(to_rescore))
     order = {"now fails": 0, "now qualifies": 1}
     rows.sort(key=lambda row: order.get(row.status, 2))  # stable: project order kept within each group
-    return Recalc(old_set.name, old_set.sha256, new_set.name, new_set.sha256, changed, rows, old_scores, new_scores, len(to_rescore))
+    return Recalc(
+        old_set.name,
+        old_set.sha256,
+        new_set.name,
+        new_set.sha256,
+        changed,
+        rows,
+        old_scores,
+        new_scores,
+        len(to_rescore),
+    )

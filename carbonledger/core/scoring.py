@@ -63,13 +63,18 @@ from .verdicts import (
 )
 
 DEFAULT_GWP = "ar6"
-FUNCTIONAL_UNITS = {"ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"), "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2")}
+FUNCTIONAL_UNITS = {
+    "ammonia": ("1 t NH3 at the plant gate", "kg CO2e/t NH3"),
+    "hydrogen": ("1 kg H2 at the plant gate", "kg CO2e/kg H2"),
+}
 AGREEMENT = {"rtol": 1e-9, "atol": 1e-12}  # numpy characterisation against bw2calc's own score
 EXCHANGE_FIELDS = set(ExchangeRow.model_fields)  # every field of an exchange row is set: one set shared by all rows
 CHECK_FIELDS = tuple(Check.model_fields)  # a check's fields in order (``check_of``)
 CHECK_SET = set(CHECK_FIELDS) - {"electricity_matching", "co_products"}  # those a check of ``scheme_checks`` sets
 CHECK_AMENDED = CHECK_SET | {"co_products"}  # those of a check given its co-product rule (``amended``)
-CO_PRODUCT_STATEMENTS: dict[tuple, dict] = {}  # a check's co_products statement -> the one dict holding it (``amended``)
+CO_PRODUCT_STATEMENTS: dict[
+    tuple, dict
+] = {}  # a check's co_products statement -> the one dict holding it (``amended``)
 SCHEME_FIELDS: dict[int, tuple] = {}  # id of a rulebook -> (the rulebook, its fields of a check)
 
 
@@ -193,7 +198,9 @@ def characterisation(inputs, gwp: str, where: str = "--gwp") -> np.ndarray:
     return np.array(values)  # numbers, or the workbook's symbolic cells
 
 
-SET_CHARACTERISATIONS: dict[tuple[str, str, str], tuple[np.ndarray, dict]] = {}  # (set sha256, gwp, where) -> vector, rows read
+SET_CHARACTERISATIONS: dict[
+    tuple[str, str, str], tuple[np.ndarray, dict]
+] = {}  # (set sha256, gwp, where) -> vector, rows read
 
 
 def set_characterisation(inputs: NumericInputs, gwp: str, where: str = "--gwp") -> np.ndarray:
@@ -226,7 +233,9 @@ def set_characterisation(inputs: NumericInputs, gwp: str, where: str = "--gwp") 
     return vector
 
 
-def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float) -> dict[str, float | None]:
+def intensities(
+    total_per_unit: float, product: str, hydrogen_lhv: float, ammonia_lhv: float, hydrogen_fraction: float
+) -> dict[str, float | None]:
     """The same result per t NH3, per kg NH3, per kg H2 (contained, for ammonia) and per MJ (LHV).
 
     Parameters
@@ -270,7 +279,9 @@ def intensities(total_per_unit: float, product: str, hydrogen_lhv: float, ammoni
     }
 
 
-def zero_rated(scheme: Scheme, inventory: Inventory, activity_key: str, counted_zero=frozenset(), charged_as_grid=None) -> str:
+def zero_rated(
+    scheme: Scheme, inventory: Inventory, activity_key: str, counted_zero=frozenset(), charged_as_grid=None
+) -> str:
     """Why a scheme does not count an activity's own direct emissions ('' when it counts them).
 
     The factor id's name alone never zero-rates a source.
@@ -331,12 +342,18 @@ def unit_intensity(inventory: Inventory, activity_key: str, flow_keys, character
     """
     flow_index = {flow: number for number, flow in enumerate(flow_keys)}
     return sum(
-        (characterisation[..., flow_index[e.input]] * np.asarray(e.amount, dtype=float) for e in inventory.activities[activity_key].exchanges if e.kind == "biosphere"),
+        (
+            characterisation[..., flow_index[e.input]] * np.asarray(e.amount, dtype=float)
+            for e in inventory.activities[activity_key].exchanges
+            if e.kind == "biosphere"
+        ),
         0.0,
     )
 
 
-def charged_source_intensities(scheme: Scheme, inventory: Inventory, flow_keys, characterisation, reading: Reading) -> dict[str, object]:
+def charged_source_intensities(
+    scheme: Scheme, inventory: Inventory, flow_keys, characterisation, reading: Reading
+) -> dict[str, object]:
     """Each electricity source's intensity as the scheme charges it, by source name.
 
     Zero where its rules count it fully renewable, the grid source's where it fails them and the rulebook
@@ -372,7 +389,9 @@ def charged_source_intensities(scheme: Scheme, inventory: Inventory, flow_keys, 
         if key in reading.counted_zero:
             charged[name] = 0.0
         else:
-            charged[name] = unit_intensity(inventory, reading.charged_as_grid.get(key, key), flow_keys, characterisation)
+            charged[name] = unit_intensity(
+                inventory, reading.charged_as_grid.get(key, key), flow_keys, characterisation
+            )
     return charged
 
 
@@ -421,7 +440,9 @@ def scheme_mask(scheme: Scheme, inventory: Inventory, keys: list[str], reading: 
     ndarray of bool
         One entry per key: True where the activity's own emissions are left out (``zero_rated``).
     """
-    return np.array([bool(zero_rated(scheme, inventory, key, reading.counted_zero, reading.charged_as_grid)) for key in keys])
+    return np.array(
+        [bool(zero_rated(scheme, inventory, key, reading.counted_zero, reading.charged_as_grid)) for key in keys]
+    )
 
 
 def grid_charge(reading: Reading, keys: list[str], supply, unit_intensities: dict):
@@ -541,9 +562,26 @@ def prepare(
     staged = run_stages(params, inputs, gwp, schemes)
     inventory = staged.inventory
     matrices = build_matrices(inventory)
-    return Prepared(project, factor_set, params, inputs, inventory, staged.chosen, gwp, staged.headline, staged.per_gwp, matrices,
-                    demands_of(inventory), staged.hydrogen_lhv, staged.ammonia_lhv, staged.fraction, source, project_sha256, period,
-                    matching)
+    return Prepared(
+        project,
+        factor_set,
+        params,
+        inputs,
+        inventory,
+        staged.chosen,
+        gwp,
+        staged.headline,
+        staged.per_gwp,
+        matrices,
+        demands_of(inventory),
+        staged.hydrogen_lhv,
+        staged.ammonia_lhv,
+        staged.fraction,
+        source,
+        project_sha256,
+        period,
+        matching,
+    )
 
 
 @dataclass
@@ -587,7 +625,9 @@ def run_stages(params: dict, inputs, gwp: str, schemes: list[str] | None) -> Sta
     inventory = build_inventory(params, inputs)
     product = inventory.product
     chosen = select_schemes(rulebooks(), schemes, product)
-    characterise = set_characterisation if type(inputs) is NumericInputs else characterisation  # draws and cells: their own
+    characterise = (
+        set_characterisation if type(inputs) is NumericInputs else characterisation
+    )  # draws and cells: their own
     headline = characterise(inputs, gwp)
     per_gwp = {gwp: headline}
     for scheme in chosen:
@@ -675,7 +715,12 @@ def checked_year(params: dict, year: int | None, source: str = "project") -> int
     commissioning = as_date(params["project"].get("commissioning", ""))
     chosen = assessment_year(commissioning, year)
     if commissioning is not None and commissioning > dt.date(chosen, 12, 31):
-        raise InputError(source, "project.commissioning", f"a date in or before the assessment year {chosen} (the plant is placed in service {commissioning.isoformat()}; choose --year {assessment_year(commissioning, None)} or later)")
+        raise InputError(
+            source,
+            "project.commissioning",
+            f"a date in or before the assessment year {chosen} (the plant is placed in service "
+            f"{commissioning.isoformat()}; choose --year {assessment_year(commissioning, None)} or later)",
+        )
     return chosen
 
 
@@ -721,11 +766,15 @@ def scheme_reading(prepared: Prepared, scheme: Scheme) -> Reading:
     """
     reading = prepared.readings.get(scheme.id)  # read once per prepared project and scheme, never changed once made
     if reading is None:
-        reading = prepared.readings[scheme.id] = read_rules(scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching)
+        reading = prepared.readings[scheme.id] = read_rules(
+            scheme, prepared.inventory, prepared.params, prepared.period, prepared.matching
+        )
     return reading
 
 
-def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None) -> Reading:
+def read_rules(
+    scheme: Scheme, inventory: Inventory, params: dict, period: Period, matching: dict | None = None
+) -> Reading:
     """The scheme's rules read on ``period``'s dates, before the threshold.
 
     The electricity counted at zero and charged as grid electricity, the findings (eligibility, electricity,
@@ -756,14 +805,30 @@ def read_rules(scheme: Scheme, inventory: Inventory, params: dict, period: Perio
     .. [1] The order of the steps and the rules applied: ``carbonledger.core.verdicts`` and the rulebooks of
        ``factors/schemes``.
     """
-    reading = electricity_reading(scheme, params, inventory.electricity_sources, inventory.electricity_kinds, period, matching)
+    reading = electricity_reading(
+        scheme, params, inventory.electricity_sources, inventory.electricity_kinds, period, matching
+    )
     renewable = renewable_energy_findings(scheme, params, reading, inventory.electricity_sources, matching)
     reading.findings = eligibility_findings(scheme, params, period) + renewable + reading.findings
     commissioning = as_date(params["project"].get("commissioning", ""))
     if commissioning is not None and period.end < commissioning:
-        reading.findings.append(Finding("dates", NOTE, f"the plant is not in operation in {period.label()} (commissioning {commissioning.isoformat()}): the rules are read on {period.label()}'s dates; use --year for an operating year"))
+        reading.findings.append(
+            Finding(
+                "dates",
+                NOTE,
+                f"the plant is not in operation in {period.label()} (commissioning {commissioning.isoformat()}): the "
+                f"rules are read on {period.label()}'s dates; use --year for an operating year",
+            )
+        )
     present = {inventory.activities[key].stage for key in inventory.activities}
-    reading.findings += boundary_findings(scheme, present, inventory.reference_product, inventory.product, params["project"]["boundary"], params["project"])
+    reading.findings += boundary_findings(
+        scheme,
+        present,
+        inventory.reference_product,
+        inventory.product,
+        params["project"]["boundary"],
+        params["project"],
+    )
     if scheme.version:
         reading.versions.insert(0, scheme.version)
     return reading
@@ -797,10 +862,20 @@ def threshold_finding(scheme: Scheme, value: float) -> Finding:
     unit = scheme.unit
     if tier is not None:
         operator = "<=" if tier.inclusive else "<"
-        return Finding("threshold", MET, f"value {figure(value)} {unit} {operator} {tier.limit:g}: {tier.tier} [{grade_note(tier.source, tier.grade)}]")
+        return Finding(
+            "threshold",
+            MET,
+            f"value {figure(value)} {unit} {operator} {tier.limit:g}: {tier.tier} "
+            f"[{grade_note(tier.source, tier.grade)}]",
+        )
     loosest = scheme.loosest()
     operator = "<=" if loosest.inclusive else "<"
-    return Finding("threshold", NOT_MET, f"value {figure(value)} {unit} not {operator} {loosest.limit:g} ({loosest.tier}) [{grade_note(loosest.source, loosest.grade)}]")
+    return Finding(
+        "threshold",
+        NOT_MET,
+        f"value {figure(value)} {unit} not {operator} {loosest.limit:g} ({loosest.tier}) "
+        f"[{grade_note(loosest.source, loosest.grade)}]",
+    )
 
 
 def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
@@ -832,8 +907,16 @@ def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
     if status == Status.NOT_ELIGIBLE:
         verdict["margin"] = None
     if status == Status.UNDETERMINED:
-        room = f"qualifies if what cannot be judged adds at most {figure(verdict['margin'])} {scheme.unit} and meets its rule"
-        findings = [Finding(f.step, f.outcome, f"{f.text}; {room}", f.charged) if f.outcome == UNKNOWN and f.step == "boundary" else f for f in findings]
+        room = (
+            f"qualifies if what cannot be judged adds at most {figure(verdict['margin'])} {scheme.unit} and meets its "
+            "rule"
+        )
+        findings = [
+            Finding(f.step, f.outcome, f"{f.text}; {room}", f.charged)
+            if f.outcome == UNKNOWN and f.step == "boundary"
+            else f
+            for f in findings
+        ]
     return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_finding(scheme, value))}
 
 
@@ -860,7 +943,18 @@ def scheme_characterisation(vector, scheme: Scheme):
     return netted
 
 
-def scheme_value(scheme: Scheme, inventory: Inventory, keys: list[str], flow_keys, reading: Reading, vector, contributions, supply, figures: tuple, params: dict):
+def scheme_value(
+    scheme: Scheme,
+    inventory: Inventory,
+    keys: list[str],
+    flow_keys,
+    reading: Reading,
+    vector,
+    contributions,
+    supply,
+    figures: tuple,
+    params: dict,
+):
     """The scheme's value per unit of its basis: the one sum for a score (numbers) and Monte Carlo draws (arrays).
 
     Own emissions of the activities the scheme counts, plus failing electricity at the grid's intensity, in the
@@ -900,10 +994,14 @@ def scheme_value(scheme: Scheme, inventory: Inventory, keys: list[str], flow_key
        point 6 (electricity).
     """
     own = (contributions * ~scheme_mask(scheme, inventory, keys, reading)).sum(axis=(-2, -1))
-    grid_kg = {grid: unit_intensity(inventory, grid, flow_keys, vector) for grid in set(reading.charged_as_grid.values())}
+    grid_kg = {
+        grid: unit_intensity(inventory, grid, flow_keys, vector) for grid in set(reading.charged_as_grid.values())
+    }
     total = own + grid_charge(reading, keys, supply, grid_kg)
     basis_product, hydrogen_lhv, ammonia_lhv, fraction = figures
-    return intensities(total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity] + declared_addition(scheme, inventory, params)
+    return intensities(total, basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity] + declared_addition(
+        scheme, inventory, params
+    )
 
 
 def _rescored_check(prepared: Prepared, scheme: Scheme, parameter: str, method: str) -> Check:
@@ -913,9 +1011,15 @@ def _rescored_check(prepared: Prepared, scheme: Scheme, parameter: str, method: 
     data[section][name] = method
     variant = validate_project(data, prepared.source)
     ready = prepare(
-        variant, prepared.factor_set, gwp=prepared.gwp, schemes=[scheme.id], source=prepared.source,
-        boundary=prepared.params["project"]["boundary"], project_sha256=prepared.project_sha256,
-        year=prepared.period.start.year, matching=prepared.matching,
+        variant,
+        prepared.factor_set,
+        gwp=prepared.gwp,
+        schemes=[scheme.id],
+        source=prepared.source,
+        boundary=prepared.params["project"]["boundary"],
+        project_sha256=prepared.project_sha256,
+        year=prepared.period.start.year,
+        matching=prepared.matching,
     )
     return scheme_checks(ready, solve_with_bw2calc(ready))[0]
 
@@ -972,7 +1076,15 @@ def co_product_rule(scheme: Scheme, params: dict) -> CoProductRule | None:
     book = scheme.co_products
     required = book.for_co_product(co.carries_energy, co.rigid) if book else "not_stated"
     can = required in co.methods and not co.missing(params, required)
-    missing = "" if can else (f"the project lacks {co.missing(params, required)}" if required in co.methods else f"the route cannot apply {required}")
+    missing = (
+        ""
+        if can
+        else (
+            f"the project lacks {co.missing(params, required)}"
+            if required in co.methods
+            else f"the route cannot apply {required}"
+        )
+    )
     return CoProductRule(co.name, required, method, co.parameter, can, method == "none", missing)
 
 
@@ -1003,39 +1115,72 @@ def co_product_checks(prepared: Prepared, checks: list[Check]) -> list[Check]:
        choice the methodology or scheme fixes; results state it (from memory).
     """
     by_id = {scheme.id: scheme for scheme in prepared.chosen}
-    out = []
-    for check in checks:
-        book = by_id[check.scheme].co_products
-        info: dict = {
-            "scheme_rule": book.rule if book else "not_stated",
-            "source": book.source if book else "",
-            "from_memory": book.from_memory if book else False,
-        }
-        rule = co_product_rule(by_id[check.scheme], prepared.params)
-        if rule is None:
-            out.append(amended(check, co_products={**info, "co_product": "", "applied": "no co-product"}))
-            continue
-        method, required = rule.method, rule.required
-        info.update({"co_product": rule.co_product, "scheme_rule": required, "project_method": method})
-        if not rule.differs:
-            why = "the rulebook states no co-product rule: the project's method is used" if required == "not_stated" else "the project's method is the scheme's rule"
-            out.append(amended(check, co_products={**info, "applied": method, "note": why}))
-        elif check.status == Status.NOT_ELIGIBLE:
-            out.append(amended(check, co_products={**info, "applied": method, "note": "the scheme does not cover this route: its rule is not applied"}))
-        elif rule.upper_bound and check.status == Status.QUALIFIES:
-            why = (f"the project gives the {rule.co_product} no share of the burden, so the value is an upper bound of the scheme's {required} "
-                   "(an allocation or a credit for the displaced product can only lower it): it qualifies under the scheme's rule too, at this tier or a better one")
-            out.append(amended(check, co_products={**info, "applied": method, "note": why}))
-        elif rule.rescore:
-            rescored = _rescored_check(prepared, by_id[check.scheme], rule.parameter, required)
-            out.append(amended(rescored, co_products={**info, "applied": required, "note": f"scheme value rescored with {required}; the headline keeps the project's {method}"}))
-        else:
-            sentence = f"cannot be judged: co-products: the rulebook requires {required} for the {rule.co_product} ({info['source']}); {rule.missing}; the value uses the project's {method}"
-            out.append(amended(
-                check, status=Status.UNDETERMINED.value, passes=False, tier=None, reasons=[sentence, *check.reasons],
-                co_products={**info, "applied": method, "note": sentence},
-            ))
-    return out
+    return [co_product_check(prepared, by_id[check.scheme], check) for check in checks]
+
+
+def co_product_check(prepared: Prepared, scheme: Scheme, check: Check) -> Check:
+    """One check under its rulebook's co-product rule (``co_product_checks``), stating under
+    ``co_products`` what was done.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    scheme : Scheme
+        The check's rulebook.
+    check : Check
+        The check under the project's own co-product method.
+
+    Returns
+    -------
+    Check
+        The check amended, rescored or made undetermined.
+    """
+    book = scheme.co_products
+    info: dict = {
+        "scheme_rule": book.rule if book else "not_stated",
+        "source": book.source if book else "",
+        "from_memory": book.from_memory if book else False,
+    }
+    rule = co_product_rule(scheme, prepared.params)
+    if rule is None:
+        return amended(check, co_products={**info, "co_product": "", "applied": "no co-product"})
+    method, required = rule.method, rule.required
+    info.update({"co_product": rule.co_product, "scheme_rule": required, "project_method": method})
+    if not rule.differs:
+        why = (
+            "the rulebook states no co-product rule: the project's method is used"
+            if required == "not_stated"
+            else "the project's method is the scheme's rule"
+        )
+        return amended(check, co_products={**info, "applied": method, "note": why})
+    if check.status == Status.NOT_ELIGIBLE:
+        why = "the scheme does not cover this route: its rule is not applied"
+        return amended(check, co_products={**info, "applied": method, "note": why})
+    if rule.upper_bound and check.status == Status.QUALIFIES:
+        why = (
+            f"the project gives the {rule.co_product} no share of the burden, so the value is an upper bound of "
+            f"the scheme's {required} "
+            "(an allocation or a credit for the displaced product can only lower it): it qualifies under the "
+            "scheme's rule too, at this tier or a better one"
+        )
+        return amended(check, co_products={**info, "applied": method, "note": why})
+    if rule.rescore:
+        rescored = _rescored_check(prepared, scheme, rule.parameter, required)
+        why = f"scheme value rescored with {required}; the headline keeps the project's {method}"
+        return amended(rescored, co_products={**info, "applied": required, "note": why})
+    sentence = (
+        f"cannot be judged: co-products: the rulebook requires {required} for the {rule.co_product} "
+        f"({info['source']}); {rule.missing}; the value uses the project's {method}"
+    )
+    return amended(
+        check,
+        status=Status.UNDETERMINED.value,
+        passes=False,
+        tier=None,
+        reasons=[sentence, *check.reasons],
+        co_products={**info, "applied": method, "note": sentence},
+    )
 
 
 def amended(check: Check, **changes) -> Check:
@@ -1056,7 +1201,9 @@ def amended(check: Check, **changes) -> Check:
     values = dict(check.__dict__)
     values.update(changes)
     if "co_products" in changes:  # text and truth values: the checks that state the same hold one dict
-        values["co_products"] = CO_PRODUCT_STATEMENTS.setdefault(tuple(changes["co_products"].items()), changes["co_products"])
+        values["co_products"] = CO_PRODUCT_STATEMENTS.setdefault(
+            tuple(changes["co_products"].items()), changes["co_products"]
+        )
     fields = check.model_fields_set | changes.keys()
     return constructed(Check, values, CHECK_AMENDED if fields == CHECK_AMENDED else fields)
 
@@ -1087,7 +1234,20 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         vector = scheme_characterisation(prepared.per_gwp[scheme.gwp], scheme)
         solution = solutions[basis_demand]
         figures = (basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
-        value = float(scheme_value(scheme, inventory, keys, prepared.matrices.flow_keys, reading, vector, solution.contributions(vector), solution.supply, figures, prepared.params))
+        value = float(
+            scheme_value(
+                scheme,
+                inventory,
+                keys,
+                prepared.matrices.flow_keys,
+                reading,
+                vector,
+                solution.contributions(vector),
+                solution.supply,
+                figures,
+                prepared.params,
+            )
+        )
         checks.append(check_of(scheme, value, reading, period))
     return checks
 
@@ -1110,12 +1270,24 @@ def scheme_check_fields(scheme: Scheme) -> dict:
     """
     held = SCHEME_FIELDS.get(id(scheme))
     if held is None or held[0] is not scheme:
-        held = SCHEME_FIELDS[id(scheme)] = (scheme, {
-            "scheme": scheme.id, "name": scheme.name, "quantity": scheme.quantity, "basis": scheme.basis, "boundary": scheme.boundary,
-            "gwp_basis": scheme.gwp, "electricity_rule": scheme.electricity, "unit": scheme.unit, "note": scheme.note,
-            "from_memory": scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
-            "grade": str(scheme.grade), "user_rulebook": bool(scheme.user_file), "rulebook_file": scheme.user_file,
-        })
+        held = SCHEME_FIELDS[id(scheme)] = (
+            scheme,
+            {
+                "scheme": scheme.id,
+                "name": scheme.name,
+                "quantity": scheme.quantity,
+                "basis": scheme.basis,
+                "boundary": scheme.boundary,
+                "gwp_basis": scheme.gwp,
+                "electricity_rule": scheme.electricity,
+                "unit": scheme.unit,
+                "note": scheme.note,
+                "from_memory": scheme.from_memory or any(t.from_memory for t in scheme.thresholds),
+                "grade": str(scheme.grade),
+                "user_rulebook": bool(scheme.user_file),
+                "rulebook_file": scheme.user_file,
+            },
+        )
     return held[1]
 
 
@@ -1140,10 +1312,19 @@ def check_of(scheme: Scheme, value: float, reading: Reading, period: str) -> Che
     """
     verdict = judged(scheme, value, reading.findings)
     values = {
-        **scheme_check_fields(scheme), "limit": float(verdict["limit"]), "value": value, "passes": bool(verdict["passes"]),
-        "margin": None if verdict["margin"] is None else float(verdict["margin"]), "tier": verdict["tier"], "electricity_matching": None,
-        "status": str(verdict["status"]), "reasons": list(verdict["reasons"]), "assessment_period": period, "rule_versions": list(reading.versions),
-        "electricity_counted_zero": sorted(reading.counted_zero), "electricity_charged_as_grid": dict(sorted(reading.charged_as_grid.items())),
+        **scheme_check_fields(scheme),
+        "limit": float(verdict["limit"]),
+        "value": value,
+        "passes": bool(verdict["passes"]),
+        "margin": None if verdict["margin"] is None else float(verdict["margin"]),
+        "tier": verdict["tier"],
+        "electricity_matching": None,
+        "status": str(verdict["status"]),
+        "reasons": list(verdict["reasons"]),
+        "assessment_period": period,
+        "rule_versions": list(reading.versions),
+        "electricity_counted_zero": sorted(reading.counted_zero),
+        "electricity_charged_as_grid": dict(sorted(reading.charged_as_grid.items())),
         "co_products": {},
     }
     return constructed(Check, {name: values[name] for name in CHECK_FIELDS}, CHECK_SET)
@@ -1249,53 +1430,104 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     keys = matrices.activity_keys
     by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0), strict=True)}
     stage_sums, gas_sums = stage_and_gas_sums(contributions, keys, matrices.flow_keys, inventory)
-    by_stage = {stage: float(value) for stage, value in stage_sums.items()}
-    by_gas = {flow: float(value) for flow, value in gas_sums.items()}
-    non_ghg, biogenic = flows_apart(main.inventory.sum(axis=1), matrices.flow_keys)
     hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+    supply = dict(zip(keys, main.supply, strict=True))
+    heating = {
+        "hydrogen_lhv": prepared.hydrogen_lhv,
+        **({"ammonia_lhv": prepared.ammonia_lhv} if inventory.product == "ammonia" else {}),
+    }
+    every = intensities(
+        total, inventory.reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction
+    )
+    return finite_result(
+        ScoreResult(
+            **result_identity(prepared),
+            total=total,
+            intensity=Intensity(**{k: every[k] for k in Intensity.model_fields}),
+            hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
+            hydrogen_kg_per_unit=float(supply[inventory.hydrogen]),
+            gate_product_per_unit=float(supply[inventory.gate]),
+            hydrogen_mass_fraction=float(prepared.fraction),
+            by_stage={stage: float(value) for stage, value in stage_sums.items()},
+            by_gas={flow: float(value) for flow, value in gas_sums.items()},
+            **flows_counted_apart(prepared, main.inventory.sum(axis=1)),
+            by_activity=by_activity,
+            heating_values_mj_per_kg=heating,
+            factors_used=_factor_rows(prepared.inputs.used),
+            checks=co_product_checks(prepared, scheme_checks(prepared, solutions)),
+            exchanges=exchange_rows(inventory, supply),
+            parameters=params,
+            delivery=_plain(inventory.delivery),
+            co_products=_plain(inventory.co_products),
+        )
+    )
+
+
+def result_identity(prepared: Prepared) -> dict:
+    """What a result says of the project scored and how: names, file, year, boundary, units, GWP and factor set.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+
+    Returns
+    -------
+    dict
+        ``ScoreResult`` field -> value.
+    """
+    params, inventory, factor_set = prepared.params, prepared.inventory, prepared.factor_set
+    return {
+        "carbonledger_version": __version__,
+        "caution": CAUTION,
+        "project": params["project"]["name"],
+        "project_file": prepared.source,
+        "project_sha256": prepared.project_sha256,
+        "assessment_year": prepared.period.start.year,
+        "product": inventory.product,
+        "boundary": params["project"]["boundary"],
+        "functional_unit": inventory.functional_unit,
+        "reference_product": inventory.reference_product,
+        "unit": FUNCTIONAL_UNITS[inventory.reference_product][1],
+        "gwp_basis": prepared.gwp,
+        "factor_set": FactorSetRef(name=factor_set.name, sha256=factor_set.sha256),
+    }
+
+
+def flows_counted_apart(prepared: Prepared, kg_by_flow) -> dict:
+    """The result's flows outside the CO2e total: hydrogen leaked (kg, and its indirect kg CO2e), the
+    other non-greenhouse flows and the biogenic CO2 released and stored, per functional unit.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project (its inputs give the GWP of leaked hydrogen).
+    kg_by_flow : ndarray
+        kg of each flow per functional unit, in the order of the matrices' flow keys.
+
+    Returns
+    -------
+    dict
+        ``ScoreResult`` field -> value: hydrogen_leakage_kg, hydrogen_leakage_kg_co2e, non_ghg_kg,
+        biogenic_co2_kg.
+
+    References
+    ----------
+    .. [1] Sand, M. et al. (2023), A multi-model assessment of the Global Warming Potential of hydrogen,
+       Communications Earth & Environment 4, 203: GWP100 11.6 of leaked hydrogen (``gwp_indirect.h2``).
+    """
+    non_ghg, biogenic = flows_apart(kg_by_flow, prepared.matrices.flow_keys)
     leakage = non_ghg.get("h2", 0.0)
     leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
-    supply = dict(zip(keys, main.supply, strict=True))
-    exchanges = exchange_rows(inventory, supply)
-    product, reference_product = inventory.product, inventory.reference_product
-    heating = {"hydrogen_lhv": prepared.hydrogen_lhv, **({"ammonia_lhv": prepared.ammonia_lhv} if product == "ammonia" else {})}
-    every = intensities(total, reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
-    factor_set = prepared.factor_set
-    return finite_result(ScoreResult(
-        carbonledger_version=__version__,
-        caution=CAUTION,
-        project=params["project"]["name"],
-        project_file=prepared.source,
-        project_sha256=prepared.project_sha256,
-        assessment_year=prepared.period.start.year,
-        product=product,
-        boundary=params["project"]["boundary"],
-        functional_unit=inventory.functional_unit,
-        reference_product=reference_product,
-        unit=FUNCTIONAL_UNITS[reference_product][1],
-        gwp_basis=prepared.gwp,
-        factor_set=FactorSetRef(name=factor_set.name, sha256=factor_set.sha256),
-        total=total,
-        intensity=Intensity(**{k: every[k] for k in Intensity.model_fields}),
-        hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
-        hydrogen_kg_per_unit=float(supply[inventory.hydrogen]),
-        gate_product_per_unit=float(supply[inventory.gate]),
-        hydrogen_mass_fraction=float(prepared.fraction),
-        by_stage=by_stage,
-        by_gas=by_gas,
-        hydrogen_leakage_kg=leakage,
-        hydrogen_leakage_kg_co2e=float(leakage_co2e),
-        non_ghg_kg=non_ghg,
-        biogenic_co2_kg={"released": biogenic.get("co2_biogenic", 0.0), "captured_and_stored": biogenic.get("co2_biogenic_stored", 0.0)},
-        by_activity=by_activity,
-        heating_values_mj_per_kg=heating,
-        factors_used=_factor_rows(prepared.inputs.used),
-        checks=co_product_checks(prepared, scheme_checks(prepared, solutions)),
-        exchanges=exchanges,
-        parameters=params,
-        delivery=_plain(inventory.delivery),
-        co_products=_plain(inventory.co_products),
-    ))
+    return {
+        "hydrogen_leakage_kg": leakage,
+        "hydrogen_leakage_kg_co2e": float(leakage_co2e),
+        "non_ghg_kg": non_ghg,
+        "biogenic_co2_kg": {
+            "released": biogenic.get("co2_biogenic", 0.0),
+            "captured_and_stored": biogenic.get("co2_biogenic_stored", 0.0),
+        },
+    }
 
 
 def refuse_non_finite(source: str, field: str, value: float | None) -> None:
@@ -1320,7 +1552,11 @@ def refuse_non_finite(source: str, field: str, value: float | None) -> None:
         When ``value`` is NaN or infinite.
     """
     if value is not None and not math.isfinite(value):
-        raise InputError(source, field, f"a finite result (the inputs give {value}; look for an infinite, missing or huge input or factor)")
+        raise InputError(
+            source,
+            field,
+            f"a finite result (the inputs give {value}; look for an infinite, missing or huge input or factor)",
+        )
 
 
 def finite_result(result: ScoreResult) -> ScoreResult:
@@ -1344,7 +1580,9 @@ def finite_result(result: ScoreResult) -> ScoreResult:
     refuse_non_finite(result.project_file, "total", result.total)
     for key, value in result.intensity.model_dump().items():
         refuse_non_finite(result.project_file, f"intensity.{key}", value)
-    refuse_non_finite(result.project_file, "hydrogen_production_kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2)
+    refuse_non_finite(
+        result.project_file, "hydrogen_production_kg_co2e_per_kg_h2", result.hydrogen_production_kg_co2e_per_kg_h2
+    )
     for group, values in (("by_stage", result.by_stage), ("by_gas", result.by_gas)):
         for key, value in values.items():
             refuse_non_finite(result.project_file, f"{group}.{key}", value)
@@ -1481,5 +1719,15 @@ def score_project(
     InputError
         For an input ``prepare`` refuses, or a result that is NaN or infinite.
     """
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=schemes, source=source, boundary=boundary, project_sha256=project_sha256, year=year, matching=matching)
+    prepared = prepare(
+        project,
+        factor_set,
+        gwp=gwp,
+        schemes=schemes,
+        source=source,
+        boundary=boundary,
+        project_sha256=project_sha256,
+        year=year,
+        matching=matching,
+    )
     return assemble(prepared, solve_with_bw2calc(prepared))

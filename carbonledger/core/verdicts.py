@@ -231,49 +231,84 @@ def eligibility_findings(scheme: Scheme, params: dict, period: Period) -> list[F
     route = params["hydrogen"]["route"]
     where = _where(rules.source, rules.grade)
     project = params["project"]
-    findings = [Finding("eligibility", MET if route in rules.routes else NOT_MET, f"route {route} is {'' if route in rules.routes else 'not '}covered: {rules.energy} {where}")]
+    findings = [
+        Finding(
+            "eligibility",
+            MET if route in rules.routes else NOT_MET,
+            f"route {route} is {'' if route in rules.routes else 'not '}covered: {rules.energy} {where}",
+        )
+    ]
     if rules.construction_start_before is not None:
-        deadline = rules.construction_start_before.isoformat()
-        cited = _where(rules.construction_source or rules.source, rules.grade if not rules.construction_source else "secondary")
-        started = as_date(project.get("construction_start", ""))
-        if started is None:
-            findings.append(Finding("eligibility", UNKNOWN, f"construction must begin before {deadline}; project.construction_start is not given {cited}"))
-        else:
-            before = started < rules.construction_start_before
-            findings.append(Finding("eligibility", MET if before else NOT_MET, f"construction began {started.isoformat()}, {'' if before else 'not '}before {deadline} {cited}"))
+        findings.append(_construction_finding(rules, as_date(project.get("construction_start", ""))))
     if rules.countries_rule is not None:
         findings.append(_country_finding(rules, project.get("country", "")))
     if rules.credit_period_rule is not None and rules.credit_period_years:
         findings.append(_credit_period_finding(rules, as_date(project.get("commissioning", "")), period))
     if rules.excludes_capture_credit is not None and params.get("capture") is not None:
-        claims = params["capture"].get("claims_45q")
-        cited = _where(rules.excludes_capture_credit.source, rules.excludes_capture_credit.grade)
-        if claims is None:
-            findings.append(Finding("eligibility", UNKNOWN, f"no credit where the capture equipment earns a 45Q credit; capture.claims_45q is not given {cited}"))
-        else:
-            findings.append(Finding("eligibility", NOT_MET if claims else MET, f"the capture equipment {'earns' if claims else 'earns no'} 45Q credit {cited}"))
+        findings.append(_capture_credit_finding(rules, params["capture"].get("claims_45q")))
     return findings
+
+
+def _construction_finding(rules, started: dt.date | None) -> Finding:
+    """Whether construction began before the scheme's deadline (cannot be judged without the date)."""
+    deadline = rules.construction_start_before.isoformat()
+    cited = _where(
+        rules.construction_source or rules.source, rules.grade if not rules.construction_source else "secondary"
+    )
+    if started is None:
+        text = f"construction must begin before {deadline}; project.construction_start is not given {cited}"
+        return Finding("eligibility", UNKNOWN, text)
+    before = started < rules.construction_start_before
+    text = f"construction began {started.isoformat()}, {'' if before else 'not '}before {deadline} {cited}"
+    return Finding("eligibility", MET if before else NOT_MET, text)
+
+
+def _capture_credit_finding(rules, claims: bool | None) -> Finding:
+    """No credit where the capture equipment earns a 45Q credit (cannot be judged when not declared)."""
+    cited = _where(rules.excludes_capture_credit.source, rules.excludes_capture_credit.grade)
+    if claims is None:
+        text = f"no credit where the capture equipment earns a 45Q credit; capture.claims_45q is not given {cited}"
+        return Finding("eligibility", UNKNOWN, text)
+    text = f"the capture equipment {'earns' if claims else 'earns no'} 45Q credit {cited}"
+    return Finding("eligibility", NOT_MET if claims else MET, text)
 
 
 def _country_finding(rules, country: str) -> Finding:
     cited = _where(rules.countries_rule.source, rules.countries_rule.grade)
     if not country:
-        return Finding("eligibility", UNKNOWN, f"production must take place in {rules.countries_in_words}; project.country is not given {cited}")
+        return Finding(
+            "eligibility",
+            UNKNOWN,
+            f"production must take place in {rules.countries_in_words}; project.country is not given {cited}",
+        )
     inside = country in rules.countries
-    return Finding("eligibility", MET if inside else NOT_MET, f"production in country {country}, {'' if inside else 'not '}in {rules.countries_in_words} {cited}")
+    return Finding(
+        "eligibility",
+        MET if inside else NOT_MET,
+        f"production in country {country}, {'' if inside else 'not '}in {rules.countries_in_words} {cited}",
+    )
 
 
 def _credit_period_finding(rules, placed_in_service: dt.date | None, period: Period) -> Finding:
     years = rules.credit_period_years
     cited = _where(rules.credit_period_rule.source, rules.credit_period_rule.grade)
     if placed_in_service is None:
-        return Finding("eligibility", UNKNOWN, f"{years}-year credit period from the date placed in service; project.commissioning is not given {cited}")
+        return Finding(
+            "eligibility",
+            UNKNOWN,
+            f"{years}-year credit period from the date placed in service; project.commissioning is not given {cited}",
+        )
     last = add_years(placed_in_service, years) - dt.timedelta(days=1)
-    span = f"the {years}-year credit period from the date placed in service ({placed_in_service.isoformat()}) runs to {last.isoformat()}"
+    span = (
+        f"the {years}-year credit period from the date placed in service ({placed_in_service.isoformat()}) runs to "
+        f"{last.isoformat()}"
+    )
     if period.start > last:
         return Finding("eligibility", NOT_MET, f"{span}, before {period.label()} {cited}")
     if period.end > last:
-        return Finding("eligibility", MET, f"{span}: hydrogen produced after it in {period.label()} earns no credit {cited}")
+        return Finding(
+            "eligibility", MET, f"{span}: hydrogen produced after it in {period.label()} earns no credit {cited}"
+        )
     return Finding("eligibility", MET, f"{span}: {period.label()} is inside it {cited}")
 
 
@@ -308,7 +343,11 @@ def grid_reference(sources: dict[str, str], kinds: dict[str, str], declared: dic
     .. [2] 26 CFR 1.45V-4(a)(2): electricity without qualifying certificates at the regional annual average
        (secondary).
     """
-    grid = [key for key, name in sources.items() if kinds.get(key) in GRID_KINDS or declared[name].get("procurement") == "grid"]
+    grid = [
+        key
+        for key, name in sources.items()
+        if kinds.get(key) in GRID_KINDS or declared[name].get("procurement") == "grid"
+    ]
     in_zone = [key for key in grid if plant_zone and declared[sources[key]].get("zone", "") == plant_zone]
     if in_zone:
         return in_zone[0]
@@ -322,12 +361,28 @@ def _direct_connection(rules, source: dict, name: str, plant_commissioning: dt.d
     generator = as_date(source.get("commissioned", ""))
     if generator is None or plant_commissioning is None:
         missing = "commissioned" if generator is None else "project.commissioning"
-        return [Finding("electricity", UNKNOWN, f"{name}: direct connection to a generator in operation no earlier than {months} months before the plant; {missing} is not given {cited}")]
+        return [
+            Finding(
+                "electricity",
+                UNKNOWN,
+                f"{name}: direct connection to a generator in operation no earlier than {months} months before the "
+                f"plant; {missing} is not given {cited}",
+            )
+        ]
     ok = generator >= months_before(plant_commissioning, months)
-    return [Finding("electricity", MET if ok else NOT_MET, f"{name}: direct connection, generator in operation {generator.isoformat()}, plant {plant_commissioning.isoformat()} ({'within' if ok else 'more than'} {months} months earlier) {cited}")]
+    return [
+        Finding(
+            "electricity",
+            MET if ok else NOT_MET,
+            f"{name}: direct connection, generator in operation {generator.isoformat()}, plant "
+            f"{plant_commissioning.isoformat()} ({'within' if ok else 'more than'} {months} months earlier) {cited}",
+        )
+    ]
 
 
-def _additionality(rules, source: dict, name: str, plant_commissioning: dt.date | None, period: Period) -> list[Finding]:
+def _additionality(
+    rules, source: dict, name: str, plant_commissioning: dt.date | None, period: Period
+) -> list[Finding]:
     """Generator age against the plant's, and support, with the scheme's transition dates."""
     if rules.additionality_months is None:
         return []
@@ -338,25 +393,72 @@ def _additionality(rules, source: dict, name: str, plant_commissioning: dt.date 
         if transition is not None:
             exempt = _where(rules.additionality_transition_source or rules.additionality_source, rules.grade)
             if plant_commissioning is None:
-                return [Finding("electricity", UNKNOWN, f"{name}: additionality (36 months, no aid) unless the plant was in operation before {start.isoformat()} and the period ends by {transition.isoformat()}; project.commissioning is not given {exempt}")]
+                return [
+                    Finding(
+                        "electricity",
+                        UNKNOWN,
+                        f"{name}: additionality (36 months, no aid) unless the plant was in operation before "
+                        f"{start.isoformat()} and the period ends by {transition.isoformat()}; project.commissioning "
+                        f"is not given {exempt}",
+                    )
+                ]
             if plant_commissioning < start and period.end <= transition:
-                return [Finding("electricity", MET, f"{name}: plant in operation before {start.isoformat()}, exempt from additionality until {(transition + dt.timedelta(days=1)).isoformat()} {exempt}")]
+                return [
+                    Finding(
+                        "electricity",
+                        MET,
+                        f"{name}: plant in operation before {start.isoformat()}, exempt from additionality until "
+                        f"{(transition + dt.timedelta(days=1)).isoformat()} {exempt}",
+                    )
+                ]
             if plant_commissioning < start:
-                cited = f"{cited[:-1]}; the exemption for plants in operation before {start.isoformat()} ended {(transition + dt.timedelta(days=1)).isoformat()}]"
+                cited = (
+                    f"{cited[:-1]}; the exemption for plants in operation before {start.isoformat()} ended "
+                    f"{(transition + dt.timedelta(days=1)).isoformat()}]"
+                )
     findings = []
     generator = as_date(source.get("commissioned", ""))
     if generator is None or plant_commissioning is None:
         missing = "commissioned" if generator is None else "project.commissioning"
-        findings.append(Finding("electricity", UNKNOWN, f"{name}: additionality, generator in operation no earlier than {months} months before the plant; {missing} is not given {cited}"))
+        findings.append(
+            Finding(
+                "electricity",
+                UNKNOWN,
+                f"{name}: additionality, generator in operation no earlier than {months} months before the plant; "
+                f"{missing} is not given {cited}",
+            )
+        )
     else:
         ok = generator >= months_before(plant_commissioning, months)
-        findings.append(Finding("electricity", MET if ok else NOT_MET, f"{name}: additionality, generator in operation {generator.isoformat()}, plant {plant_commissioning.isoformat()} ({'within' if ok else 'more than'} {months} months earlier) {cited}"))
+        findings.append(
+            Finding(
+                "electricity",
+                MET if ok else NOT_MET,
+                f"{name}: additionality, generator in operation {generator.isoformat()}, plant "
+                f"{plant_commissioning.isoformat()} ({'within' if ok else 'more than'} {months} months earlier) "
+                f"{cited}",
+            )
+        )
     if rules.generator_without_support:
         supported = source.get("supported")
         if supported is None:
-            findings.append(Finding("electricity", UNKNOWN, f"{name}: additionality, generator without operating or investment aid; supported is not given {cited}"))
+            findings.append(
+                Finding(
+                    "electricity",
+                    UNKNOWN,
+                    f"{name}: additionality, generator without operating or investment aid; supported is not given "
+                    f"{cited}",
+                )
+            )
         else:
-            findings.append(Finding("electricity", NOT_MET if supported else MET, f"{name}: additionality, generator {'received' if supported else 'received no'} operating or investment aid {cited}"))
+            findings.append(
+                Finding(
+                    "electricity",
+                    NOT_MET if supported else MET,
+                    f"{name}: additionality, generator {'received' if supported else 'received no'} operating or "
+                    f"investment aid {cited}",
+                )
+            )
     return findings
 
 
@@ -364,38 +466,97 @@ def _geographic(rules, source: dict, name: str, plant_zone: str) -> Finding:
     cited = _where(rules.geographic_source or rules.source, rules.grade)
     zone = source.get("zone", "")
     if not zone or not plant_zone:
-        return Finding("electricity", UNKNOWN, f"{name}: geographic correlation, {rules.geographic}; zone of the {'generator' if not zone else 'plant'} is not given {cited}")
+        return Finding(
+            "electricity",
+            UNKNOWN,
+            f"{name}: geographic correlation, {rules.geographic}; zone of the {'generator' if not zone else 'plant'} "
+            f"is not given {cited}",
+        )
     if zone == plant_zone:
-        return Finding("electricity", MET, f"{name}: geographic correlation, {rules.geographic} (generator and plant in {zone}) {cited}")
+        return Finding(
+            "electricity",
+            MET,
+            f"{name}: geographic correlation, {rules.geographic} (generator and plant in {zone}) {cited}",
+        )
     if rules.other_zone == "cannot_be_judged":
-        return Finding("electricity", UNKNOWN, f"{name}: geographic correlation, generator in bidding zone {zone}, plant in {plant_zone}: allowed only under {rules.other_zone_alternatives} {cited}")
-    return Finding("electricity", NOT_MET, f"{name}: geographic correlation, {rules.geographic}: generator in {zone}, plant in {plant_zone} {cited}")
+        return Finding(
+            "electricity",
+            UNKNOWN,
+            f"{name}: geographic correlation, generator in bidding zone {zone}, plant in {plant_zone}: allowed only "
+            f"under {rules.other_zone_alternatives} {cited}",
+        )
+    return Finding(
+        "electricity",
+        NOT_MET,
+        f"{name}: geographic correlation, {rules.geographic}: generator in {zone}, plant in {plant_zone} {cited}",
+    )
 
 
 def _temporal(rule, name: str, source: dict, series_period: str | None, period: Period) -> Finding:
     if rule is None:
-        return Finding("electricity", UNKNOWN, f"{name}: no temporal-correlation rule of this rulebook is in force in {period.label()}")
+        return Finding(
+            "electricity",
+            UNKNOWN,
+            f"{name}: no temporal-correlation rule of this rulebook is in force in {period.label()}",
+        )
     cited = _where(f"{rule.source}, {rule.version}", rule.grade)
     required = rule.period.replace("_", "-")
     if series_period is not None:
-        return Finding("electricity", NOTE, f"{name}: temporal correlation, {required} in {period.label()}: judged interval by interval against the time series (see the matched share) {cited}")
+        return Finding(
+            "electricity",
+            NOTE,
+            f"{name}: temporal correlation, {required} in {period.label()}: judged interval by interval against the "
+            f"time series (see the matched share) {cited}",
+        )
     declared = source.get("matched")
     if declared is None:
-        return Finding("electricity", UNKNOWN, f"{name}: temporal correlation, {required} matching required in {period.label()}; electricity.sources.{name}.matched is not declared (or give a time series) {cited}")
+        return Finding(
+            "electricity",
+            UNKNOWN,
+            f"{name}: temporal correlation, {required} matching required in {period.label()}; "
+            f"electricity.sources.{name}.matched is not declared (or give a time series) {cited}",
+        )
     ok = PERIODS.index(declared) >= PERIODS.index(rule.period)
-    return Finding("electricity", MET if ok else NOT_MET, f"{name}: temporal correlation, {required} matching required in {period.label()}, {declared.replace('_', '-')} declared {cited}")
+    return Finding(
+        "electricity",
+        MET if ok else NOT_MET,
+        f"{name}: temporal correlation, {required} matching required in {period.label()}, {declared.replace('_', '-')} "
+        f"declared {cited}",
+    )
 
 
-def _source_rules(rules, scheme: Scheme, name: str, source: dict, kind: str, project: dict, period: Period, series_period: str | None) -> list[Finding]:
+def _source_rules(
+    rules, scheme: Scheme, name: str, source: dict, kind: str, project: dict, period: Period, series_period: str | None
+) -> list[Finding]:
     """Every electricity rule of the scheme read on one contracted source."""
     where = _where(rules.source, rules.grade)
     procurement = source.get("procurement")
     if kind not in rules.counts_at_zero:
-        return [Finding("electricity", NOT_MET, f"{name}: a {kind.replace('_', '-')} source does not count fully renewable under this scheme {where}")]
+        return [
+            Finding(
+                "electricity",
+                NOT_MET,
+                f"{name}: a {kind.replace('_', '-')} source does not count fully renewable under this scheme {where}",
+            )
+        ]
     if procurement is None:
-        return [Finding("electricity", UNKNOWN, f"{name}: how it is procured is not declared (electricity.sources.{name}.procurement); it counts only by {', '.join(rules.procurement)} {where}")]
+        return [
+            Finding(
+                "electricity",
+                UNKNOWN,
+                f"{name}: how it is procured is not declared (electricity.sources.{name}.procurement); it counts only "
+                f"by {', '.join(rules.procurement)} {where}",
+            )
+        ]
     if procurement not in rules.procurement:
-        return [Finding("electricity", NOT_MET, f"{name}: {procurement.replace('_', ' ')} is not accepted (only {', '.join(p.replace('_', ' ') for p in rules.procurement)}) {where}")]
+        return [
+            Finding(
+                "electricity",
+                NOT_MET,
+                f"{name}: {procurement.replace('_', ' ')} is not accepted (only "
+                f"{', '.join(p.replace('_', ' ') for p in rules.procurement)}) {where}",
+            )
+        ]
     plant_commissioning = as_date(project.get("commissioning", ""))
     direct = procurement == "direct_line"
     own = [Finding("electricity", MET, f"{name}: {kind} generation by {procurement.replace('_', ' ')} {where}")]
@@ -411,7 +572,14 @@ def _source_rules(rules, scheme: Scheme, name: str, source: dict, kind: str, pro
     return own
 
 
-def electricity_reading(scheme: Scheme, params: dict, sources: dict[str, str], kinds: dict[str, str], period: Period, series_periods: dict[str, str] | None) -> Reading:
+def electricity_reading(
+    scheme: Scheme,
+    params: dict,
+    sources: dict[str, str],
+    kinds: dict[str, str],
+    period: Period,
+    series_periods: dict[str, str] | None,
+) -> Reading:
     """Which electricity counts zero or is charged as grid electricity, the findings per source, the rules read.
 
     A source with no share and no generation in a series supplies nothing and is not judged. A source a rule
@@ -456,17 +624,15 @@ def electricity_reading(scheme: Scheme, params: dict, sources: dict[str, str], k
     declared = params["electricity"]["sources"]
     project = params["project"]
     series_periods = series_periods or {}
-    for day in (period.start, period.end):
-        rule = scheme.temporal_rule_on(day)
-        if rule is not None and f"temporal correlation {rule.period.replace('_', '-')} ({rule.version})" not in reading.versions:
-            reading.versions.append(f"temporal correlation {rule.period.replace('_', '-')} ({rule.version})")
+    reading.versions += temporal_rule_versions(scheme, period)
     grid = grid_reference(sources, kinds, declared, project.get("zone", ""))
     for key, name in sources.items():
         source, kind = declared[name], kinds.get(key, "other")
         supplies = source["share"] > 0 or name in series_periods
         if kind in GRID_KINDS or source.get("procurement") == "grid":
             if supplies:
-                reading.findings.append(Finding("electricity", NOTE, f"{name}: grid electricity ({source['share']:.0%} of the supply), charged at its factor, the grid intensity of its zone"))
+                text = f"{name}: grid electricity ({source['share']:.0%} of the supply), charged at its factor, the "
+                reading.findings.append(Finding("electricity", NOTE, text + "grid intensity of its zone"))
             continue
         if not supplies:
             continue
@@ -475,21 +641,73 @@ def electricity_reading(scheme: Scheme, params: dict, sources: dict[str, str], k
             reading.counted_zero.add(key)
             reading.findings += own
             continue
-        charge = _where(rules.source, rules.grade)
-        if rules.charge_failing == "grid" and grid is not None and grid != key:
-            reading.charged_as_grid[key] = grid
-            summary = Finding("electricity", NOT_MET, f"{name}: does not count fully renewable; {rules.non_qualifying}: charged at the factor of {sources[grid]} {charge}")
-        elif rules.charge_failing == "grid":
-            summary = Finding("electricity", UNKNOWN, f"{name}: does not count fully renewable and is {rules.non_qualifying}, but no grid source of the plant's zone is declared (add one with share 0): the value charges it at its own factor {charge}")
-        else:
-            summary = Finding("electricity", NOT_MET, f"{name}: does not count fully renewable; {rules.non_qualifying} {charge}")
+        charged_at = grid if rules.charge_failing == "grid" and grid is not None and grid != key else None
+        if charged_at is not None:
+            reading.charged_as_grid[key] = charged_at
+        summary = _failing_source_finding(rules, name, None if charged_at is None else sources[charged_at])
         reading.findings += [Finding(f.step, f.outcome, f.text, charged=f.outcome == NOT_MET) for f in own] + [summary]
     if rules.not_judged and reading.findings:
-        reading.findings.append(Finding("electricity", NOTE, f"not judged here: {rules.not_judged} {_where(rules.source, rules.grade)}"))
+        reading.findings.append(
+            Finding("electricity", NOTE, f"not judged here: {rules.not_judged} {_where(rules.source, rules.grade)}")
+        )
     return reading
 
 
-def renewable_energy_findings(scheme: Scheme, params: dict, reading: Reading, sources: dict[str, str], series_periods: dict | None) -> list[Finding]:
+def temporal_rule_versions(scheme: Scheme, period: Period) -> list[str]:
+    """The temporal-correlation rules in force on the first and the last day of the period, each named once.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read (its dated temporal rules).
+    period : Period
+        The assessment period.
+
+    Returns
+    -------
+    list of str
+        ``temporal correlation PERIOD (VERSION)`` for each rule in force, in date order.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1184, Art. 6 (monthly until 31 December 2029, hourly
+       from 1 January 2030).
+    """
+    versions: list[str] = []
+    for day in (period.start, period.end):
+        rule = scheme.temporal_rule_on(day)
+        if rule is not None:
+            name = f"temporal correlation {rule.period.replace('_', '-')} ({rule.version})"
+            if name not in versions:
+                versions.append(name)
+    return versions
+
+
+def _failing_source_finding(rules, name: str, grid_name: str | None) -> Finding:
+    """What a source that does not count fully renewable is charged: the grid source's factor (``grid_name``),
+    its own factor when the rule charges the grid but no grid source is declared (undetermined), or as the
+    rulebook says."""
+    charge = _where(rules.source, rules.grade)
+    if grid_name is not None:
+        return Finding(
+            "electricity",
+            NOT_MET,
+            f"{name}: does not count fully renewable; {rules.non_qualifying}: charged at the factor of "
+            f"{grid_name} {charge}",
+        )
+    if rules.charge_failing == "grid":
+        return Finding(
+            "electricity",
+            UNKNOWN,
+            f"{name}: does not count fully renewable and is {rules.non_qualifying}, but no grid source of the "
+            f"plant's zone is declared (add one with share 0): the value charges it at its own factor {charge}",
+        )
+    return Finding("electricity", NOT_MET, f"{name}: does not count fully renewable; {rules.non_qualifying} {charge}")
+
+
+def renewable_energy_findings(
+    scheme: Scheme, params: dict, reading: Reading, sources: dict[str, str], series_periods: dict | None
+) -> list[Finding]:
     """Eligibility that turns on whether the electricity counts fully renewable (electrolysis only).
 
     A scheme for renewable fuels covers electrolysis whose electricity counts fully renewable and,
@@ -535,12 +753,34 @@ def renewable_energy_findings(scheme: Scheme, params: dict, reading: Reading, so
     if rules.requires_counted_electricity and not counted:
         grid_electricity = [key for key in supplying if declared[sources[key]].get("procurement") != "direct_line"]
         if rules.grid_renewable_share and grid_electricity:
-            return [Finding("eligibility", NOTE, f"no electricity counts fully renewable: only the share of output set by the country's average renewable share of grid electricity is of the kind covered, at the intensity of the whole output {_where(rules.grid_renewable_share, rules.grade)}")]
+            return [
+                Finding(
+                    "eligibility",
+                    NOTE,
+                    "no electricity counts fully renewable: only the share of output set by the country's average "
+                    "renewable share of grid electricity is of the kind covered, at the intensity of the whole output "
+                    f"{_where(rules.grid_renewable_share, rules.grade)}",
+                )
+            ]
         failed = [f.text for f in reading.findings if f.charged]
         because = f"{'; '.join(failed)}; so " if failed else ""
-        return [Finding("eligibility", NOT_MET, f"{because}no electricity counts fully renewable and none is grid electricity: not of the kind covered: {rules.energy} {where}")]
+        return [
+            Finding(
+                "eligibility",
+                NOT_MET,
+                f"{because}no electricity counts fully renewable and none is grid electricity: not of the kind "
+                f"covered: {rules.energy} {where}",
+            )
+        ]
     if rules.requires_counted_electricity and len(counted) < len(supplying):
-        return [Finding("eligibility", NOTE, f"only the share of output made with the electricity counted fully renewable is of the kind covered; the rest is charged as stated {where}")]
+        return [
+            Finding(
+                "eligibility",
+                NOTE,
+                "only the share of output made with the electricity counted fully renewable is of the kind covered; "
+                f"the rest is charged as stated {where}",
+            )
+        ]
     if rules.excludes_counted_electricity and supplying and len(counted) == len(supplying) and not series_periods:
         return [fully_renewable_finding(scheme)]
     return []
@@ -565,13 +805,20 @@ def fully_renewable_finding(scheme: Scheme) -> Finding:
        content derived from non-renewable sources); Commission Q&A on the hydrogen delegated acts, Q24.
     """
     rules = scheme.eligibility
-    return Finding("eligibility", NOT_MET, f"every kWh counts fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} {_where(rules.source, rules.grade)}")
+    return Finding(
+        "eligibility",
+        NOT_MET,
+        f"every kWh counts fully renewable, so the energy is renewable, not of the kind covered: {rules.energy} "
+        f"{_where(rules.source, rules.grade)}",
+    )
 
 
 # ---- boundary and status ---------------------------------------------------------------------
 
 
-DECLARABLE_TERM = "e_td"  # the EU formula's transport and distribution, which a producer selling at the gate may declare
+DECLARABLE_TERM = (
+    "e_td"  # the EU formula's transport and distribution, which a producer selling at the gate may declare
+)
 
 
 def declared_e_td(scheme: Scheme, present_stages: set[str], project: dict) -> float | None:
@@ -606,7 +853,14 @@ def declared_e_td(scheme: Scheme, present_stages: set[str], project: dict) -> fl
     return declared if term is not None and not present_stages & set(term.stages) else None
 
 
-def boundary_findings(scheme: Scheme, present_stages: set[str], reference_product: str, gate_product: str, project_boundary: str, project: dict | None = None) -> list[Finding]:
+def boundary_findings(
+    scheme: Scheme,
+    present_stages: set[str],
+    reference_product: str,
+    gate_product: str,
+    project_boundary: str,
+    project: dict | None = None,
+) -> list[Finding]:
     """The scheme's formula terms against the stages the project models at its boundary.
 
     A declared e_td counts as modelled, with its evidence named.
@@ -645,16 +899,34 @@ def boundary_findings(scheme: Scheme, present_stages: set[str], reference_produc
         cited = _where(term.source or scheme.document, term.grade)
         product = reference_product if scheme.basis == "delivered" else gate_product
         if term.term == DECLARABLE_TERM and declared is not None:
-            evidence = (project or {}).get("declared_e_td_evidence") or "no evidence named (project.declared_e_td_evidence)"
-            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) declared by the producer: {figure(declared)} g CO2e/MJ added to the value (evidence: {evidence}) {cited}"))
+            evidence = (project or {}).get(
+                "declared_e_td_evidence"
+            ) or "no evidence named (project.declared_e_td_evidence)"
+            findings.append(
+                Finding(
+                    "boundary",
+                    MET,
+                    f"{term.term} ({term.meaning}) declared by the producer: {figure(declared)} g CO2e/MJ added to the "
+                    f"value (evidence: {evidence}) {cited}",
+                )
+            )
         elif product in term.zero_for:
             findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero for {product} {cited}"))
         elif present_stages & set(term.stages):
             findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) counted {cited}"))
         elif term.absent_means == "zero" or not term.stages:
-            findings.append(Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero: the project has none {cited}"))
+            findings.append(
+                Finding("boundary", MET, f"{term.term} ({term.meaning}) is zero: the project has none {cited}")
+            )
         else:
-            findings.append(Finding("boundary", UNKNOWN, f"{term.term} ({term.meaning}) is not modelled at the project's {project_boundary} boundary; the value leaves it out {cited}"))
+            findings.append(
+                Finding(
+                    "boundary",
+                    UNKNOWN,
+                    f"{term.term} ({term.meaning}) is not modelled at the project's {project_boundary} boundary; the "
+                    f"value leaves it out {cited}",
+                )
+            )
     return findings
 
 

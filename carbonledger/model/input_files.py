@@ -29,7 +29,9 @@ def check_input_file(path: str | Path, what: str, limit: int = MAX_INPUT_BYTES) 
         kind = "a folder" if stat.S_ISDIR(info.st_mode) else "a device, pipe or socket"
         raise InputError(path, "", f"a regular file as the {what}, got {kind}")
     if info.st_size > limit:
-        raise InputError(path, "", f"a {what} of at most {limit // (1024 * 1024)} MiB, got {info.st_size / (1024 * 1024):,.0f} MiB")
+        raise InputError(
+            path, "", f"a {what} of at most {limit // (1024 * 1024)} MiB, got {info.st_size / (1024 * 1024):,.0f} MiB"
+        )
     return path
 
 

@@ -126,20 +126,38 @@ class ProjectInfo(Section):
     product: Literal["ammonia", "hydrogen"] = P(description="Product leaving the plant gate")
     site: str = P("", description="Site (free text)")
     note: str = P("", description="Free text, e.g. where the numbers come from")
-    boundary: Literal[BOUNDARIES] = P("cradle-to-gate", description="System boundary of the headline result (--boundary overrides it)")
+    boundary: Literal[BOUNDARIES] = P(
+        "cradle-to-gate", description="System boundary of the headline result (--boundary overrides it)"
+    )
     zone: str = P("", description="Bidding zone or region of the plant (geographic correlation of electricity)")
-    country: str = P("", description="ISO 3166-1 alpha-2 code of the country or territory where the plant produces (US, GB, PR, ...; 45V asks for production in the United States)")
+    country: str = P(
+        "",
+        description="ISO 3166-1 alpha-2 code of the country or territory where the plant produces (US, GB, PR, ...; "
+        "45V asks for production in the United States)",
+    )
     construction_start: IsoDate = P("", "date", "Date construction of the plant began (YYYY-MM-DD)")
-    commissioning: IsoDate = P("", "date", "Date the plant came into operation, or was originally placed in service (YYYY-MM-DD)")
-    declared_e_td_g_co2e_per_mj: Optional[float] = P(None, "g CO2e/MJ", "For a producer who sells at the gate: the buyers' transport and distribution emissions (e_td of the EU formula) declared, when the project models no delivery", ge=0, le=1000)
-    declared_e_td_evidence: str = P("", description="Where the declared e_td comes from (buyers' statements, contracts, a delivery study)")
+    commissioning: IsoDate = P(
+        "", "date", "Date the plant came into operation, or was originally placed in service (YYYY-MM-DD)"
+    )
+    declared_e_td_g_co2e_per_mj: Optional[float] = P(
+        None,
+        "g CO2e/MJ",
+        "For a producer who sells at the gate: the buyers' transport and distribution emissions (e_td of the EU "
+        "formula) declared, when the project models no delivery",
+        ge=0,
+        le=1000,
+    )
+    declared_e_td_evidence: str = P(
+        "", description="Where the declared e_td comes from (buyers' statements, contracts, a delivery study)"
+    )
 
     @field_validator("country")
     @classmethod
     def _iso_country(cls, value: str) -> str:
         if value == "":
             return value
-        import pycountry  # its country database is read only for a project that names a country (a lean start, issue 18)
+        # its country database is read only for a project that names a country (a lean start, issue 18)
+        import pycountry
 
         code = value.strip().upper()
         if len(code) != 2 or pycountry.countries.get(alpha_2=code) is None:
@@ -153,17 +171,42 @@ class Lifetime(Section):
     # at most 200 years: longer than any plant runs, and it bounds the yearly loop and its output
     operating_years: int = P(unit="years", description="Years of operation (1 to 200)", ge=1, le=200)
     first_year: int = P(unit="calendar year", description="Calendar year of the first operating year", ge=1900, le=2200)
-    nameplate_output_t_per_year: float = P(unit="t product/year", description="Output at full load with new stacks (t NH3 or t H2)", gt=0)
-    capacity_factor: float = P(1.0, "fraction", "Annual capacity factor (share of the nameplate output produced)", gt=0, le=1)
-    efficiency_loss_per_year: float = P(0.0, "fraction/year", "Electrolysis: drop of stack efficiency per year of stack age", ge=0, lt=1)
-    stack_replacement_years: int | None = P(None, "years", "Electrolysis: stacks replaced every N years, which resets the efficiency loss (absent: never)", ge=1, le=200)
+    nameplate_output_t_per_year: float = P(
+        unit="t product/year", description="Output at full load with new stacks (t NH3 or t H2)", gt=0
+    )
+    capacity_factor: float = P(
+        1.0, "fraction", "Annual capacity factor (share of the nameplate output produced)", gt=0, le=1
+    )
+    efficiency_loss_per_year: float = P(
+        0.0, "fraction/year", "Electrolysis: drop of stack efficiency per year of stack age", ge=0, lt=1
+    )
+    stack_replacement_years: int | None = P(
+        None,
+        "years",
+        "Electrolysis: stacks replaced every N years, which resets the efficiency loss (absent: never)",
+        ge=1,
+        le=200,
+    )
     plant_construction_t_co2e: float = P(0.0, "t CO2e", "Construction (capital) emissions of the plant", ge=0)
-    renewables_construction_t_co2e: float = P(0.0, "t CO2e", "Construction emissions of dedicated renewable generation", ge=0)
+    renewables_construction_t_co2e: float = P(
+        0.0, "t CO2e", "Construction emissions of dedicated renewable generation", ge=0
+    )
     renewables_mw: float = P(0.0, "MW", "Dedicated renewable capacity, with renewables_construction_factor", ge=0)
-    renewables_construction_factor: str = P("", description="Factor id (t CO2e/MW) for the construction of the dedicated renewables")
+    renewables_construction_factor: str = P(
+        "", description="Factor id (t CO2e/MW) for the construction of the dedicated renewables"
+    )
     grid_source: str = P("grid", description="Name of the electricity source whose factor follows the trajectory")
-    grid_trajectory_csv: str = P("", description="Factor CSV of yearly grid factors (year column = calendar year), relative to the project file; with grid_trajectory_factors it gives the years after the last published one")
-    grid_trajectory_factors: str = P("", description="Region in the factor set whose rows REGION_YEAR (or REGION.YEAR) give the yearly grid factor, or 'region' for the grid source's own region; later years held at the last published year unless grid_trajectory_csv gives them")
+    grid_trajectory_csv: str = P(
+        "",
+        description="Factor CSV of yearly grid factors (year column = calendar year), relative to the project file; "
+        "with grid_trajectory_factors it gives the years after the last published one",
+    )
+    grid_trajectory_factors: str = P(
+        "",
+        description="Region in the factor set whose rows REGION_YEAR (or REGION.YEAR) give the yearly grid factor, or "
+        "'region' for the grid source's own region; later years held at the last published year unless "
+        "grid_trajectory_csv gives them",
+    )
 
 
 def _submodel(annotation: Any):
@@ -207,7 +250,11 @@ def _describe(error: dict, model: type[BaseModel] | None = None) -> tuple[str, s
         return field, f"a number {words} {limit}, got {error.get('input')!r}"
     if kind == "literal_error":
         known = [part.strip().strip("'") for part in str(context.get("expected", "")).replace(" or ", ", ").split(",")]
-        return field, f"{context.get('expected', 'a listed value')}, got {error.get('input')!r}{did_you_mean(str(error.get('input')), known)}"
+        return (
+            field,
+            f"{context.get('expected', 'a listed value')}, got "
+            f"{error.get('input')!r}{did_you_mean(str(error.get('input')), known)}",
+        )
     if kind in ("float_parsing", "float_type"):
         return field, f"a number, got {error.get('input')!r}"
     if kind == "finite_number":
@@ -236,7 +283,11 @@ def parse_override(text: str) -> tuple[str, Any]:
     except RecursionError:
         raise InputError("--set", path, f"a value nested at most {MAX_DEPTH} levels deep") from None
     if _depth(value) + path.count(".") > MAX_DEPTH:
-        raise InputError("--set", path[:60] + ("..." if len(path) > 60 else ""), f"a parameter path and value nested at most {MAX_DEPTH} levels deep")
+        raise InputError(
+            "--set",
+            path[:60] + ("..." if len(path) > 60 else ""),
+            f"a parameter path and value nested at most {MAX_DEPTH} levels deep",
+        )
     return path, value
 
 
@@ -291,7 +342,9 @@ def path_key(key: str) -> str:
     is letters, digits, ``_`` and ``-``, else a quoted string (``electricity.sources."wind PPA no. 2".share``)."""
     if _BARE_KEY.fullmatch(key):
         return key
-    return json.dumps(key, ensure_ascii=False).replace("\x7f", "\\u007f")  # a JSON string is a TOML basic string (DEL escaped)
+    return json.dumps(key, ensure_ascii=False).replace(
+        "\x7f", "\\u007f"
+    )  # a JSON string is a TOML basic string (DEL escaped)
 
 
 def split_path(path: str, source: str = "parameter path") -> list[str]:
@@ -306,7 +359,12 @@ def split_path(path: str, source: str = "parameter path") -> list[str]:
             parts.append(key)
         return parts
     except (tomllib.TOMLDecodeError, ValueError):
-        raise InputError(source, path, 'a dotted parameter path, a name with a dot or a space in double quotes (electricity.sources."wind PPA no. 2".share)') from None
+        raise InputError(
+            source,
+            path,
+            'a dotted parameter path, a name with a dot or a space in double quotes (electricity.sources."wind PPA no. '
+            '2".share)',
+        ) from None
 
 
 REST = "rest"  # the value of a share override that takes up the difference to 1 (--rebalance SOURCE)
@@ -338,14 +396,26 @@ def _take_up_rest(data: dict, name: str, source: str) -> None:
     field = f"electricity.sources.{path_key(name)}.share"
     if not isinstance(sources, dict) or not isinstance(sources.get(name), dict):
         known = list(sources) if isinstance(sources, dict) else []
-        raise InputError(source, f"--rebalance {name}", f"the name of an electricity source of the project ({', '.join(known) or 'none'}){did_you_mean(name, known)}")
+        raise InputError(
+            source,
+            f"--rebalance {name}",
+            "the name of an electricity source of the project "
+            f"({', '.join(known) or 'none'}){did_you_mean(name, known)}",
+        )
     shares = {key: item.get("share") for key, item in sources.items() if isinstance(item, dict)}
-    if any(isinstance(share, bool) or not isinstance(share, (int, float)) for key, share in shares.items() if key != name):
+    if any(
+        isinstance(share, bool) or not isinstance(share, (int, float)) for key, share in shares.items() if key != name
+    ):
         return  # a share that is not a number: the model refuses it, naming it
     rest = rest_of(shares, name)
     if not -1e-12 <= rest <= 1 + 1e-12:
         others = 1 - rest
-        raise InputError(source, field, f"a share from 0 to 1 after --rebalance {name} took up the difference: the other sources' shares add up to {others:g}, leaving {rest:g}")
+        raise InputError(
+            source,
+            field,
+            f"a share from 0 to 1 after --rebalance {name} took up the difference: the other sources' shares add up to "
+            f"{others:g}, leaving {rest:g}",
+        )
     sources[name]["share"] = min(max(rest, 0.0), 1.0)
 
 
@@ -388,7 +458,12 @@ def read_project_file(path: str | Path) -> tuple[dict, bytes]:
     path = Path(path)
     raw = read_input_bytes(path, "project file", MAX_PROJECT_BYTES)
     if raw.startswith(b"PK\x03\x04") or path.suffix.lower() in (".xlsx", ".xlsm"):
-        raise InputError(path, "", "a project TOML file; this is a workbook: read it with `--from-workbook` (e.g. carbonledger score --from-workbook FILE.xlsx)")
+        raise InputError(
+            path,
+            "",
+            "a project TOML file; this is a workbook: read it with `--from-workbook` (e.g. carbonledger score "
+            "--from-workbook FILE.xlsx)",
+        )
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:

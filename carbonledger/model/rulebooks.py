@@ -127,7 +127,9 @@ class Eligibility(Graded):
     countries_rule: DatedCondition | None = None
     credit_period_years: int | None = None  # years from the date the plant was placed in service
     credit_period_rule: DatedCondition | None = None
-    excludes_capture_credit: DatedCondition | None = None  # no credit where the capture equipment earns another credit (45Q)
+    excludes_capture_credit: DatedCondition | None = (
+        None  # no credit where the capture equipment earns another credit (45Q)
+    )
 
 
 class TemporalRule(Graded):
@@ -140,7 +142,9 @@ class TemporalRule(Graded):
     source: str = Field(min_length=1)
 
     def in_force(self, day: dt.date) -> bool:
-        return (self.applies_from is None or day >= self.applies_from) and (self.applies_until is None or day <= self.applies_until)
+        return (self.applies_from is None or day >= self.applies_from) and (
+            self.applies_until is None or day <= self.applies_until
+        )
 
 
 class ElectricityRules(Graded):
@@ -159,7 +163,9 @@ class ElectricityRules(Graded):
     charge_failing: Literal["grid", "own"] = "grid"
     additionality_months: int | None = None  # generator in operation no earlier than N months before the plant
     additionality_applies_from: dt.date | None = None
-    additionality_transition_until: dt.date | None = None  # plants in operation before applies_from are exempt until then (inclusive)
+    additionality_transition_until: dt.date | None = (
+        None  # plants in operation before applies_from are exempt until then (inclusive)
+    )
     additionality_transition_source: str = ""
     generator_without_support: bool = False  # generator received no operating or investment aid
     additionality_source: str = ""
@@ -181,7 +187,9 @@ class BoundaryTerm(Graded):
     meaning: str
     stages: list[str] = []
     zero_for: list[Literal["hydrogen", "ammonia"]] = []  # products for which the term is zero by nature
-    absent_means: Literal["zero", "not_modelled"] = "zero"  # a project without these stages: the term is zero, or not modelled
+    absent_means: Literal["zero", "not_modelled"] = (
+        "zero"  # a project without these stages: the term is zero, or not modelled
+    )
     source: str = ""
 
 
@@ -291,7 +299,11 @@ class Scheme(Graded):
 def unit_expected(quantity: str) -> str:
     """What a rulebook's ``unit`` must be for its ``quantity``, in words."""
     accepted = " or ".join(repr(text) for text in QUANTITY_UNITS.get(quantity, ()))
-    return f"the unit of the thresholds' limits, that of quantity '{quantity}': {accepted}" if accepted else "the unit of the thresholds' limits"
+    return (
+        f"the unit of the thresholds' limits, that of quantity '{quantity}': {accepted}"
+        if accepted
+        else "the unit of the thresholds' limits"
+    )
 
 
 def _unit_key(unit: str) -> str:
@@ -305,7 +317,12 @@ def schemes_folder() -> Path:
 def load_schemes(folder: Path | None = None) -> dict[str, Scheme]:
     folder = folder or schemes_folder()
     if not folder.is_dir() or not any(folder.glob("*.toml")):
-        raise InputError(folder, "", "a folder of scheme rulebooks (*.toml); none found (set CARBONLEDGER_FACTORS to a factor library with schemes/, or reinstall carbonledger)")
+        raise InputError(
+            folder,
+            "",
+            "a folder of scheme rulebooks (*.toml); none found (set CARBONLEDGER_FACTORS to a factor library with "
+            "schemes/, or reinstall carbonledger)",
+        )
     schemes: dict[str, Scheme] = {}
     for path in sorted(folder.glob("*.toml")):
         scheme = read_rulebook(path, path.read_text(encoding="utf-8"))
@@ -330,7 +347,11 @@ def read_rulebook(path: Path, text: str) -> Scheme:
             raise InputError(path, field, unit_expected(str(data.get("quantity", "")))) from None
         if first["type"] == "extra_forbidden":
             key = str(first["loc"][-1])
-            raise InputError(path, field, f"no such key in a rulebook{did_you_mean(key, rulebook_keys())} (the keys: see factors/schemes/*.toml)") from None
+            raise InputError(
+                path,
+                field,
+                f"no such key in a rulebook{did_you_mean(key, rulebook_keys())} (the keys: see factors/schemes/*.toml)",
+            ) from None
         expected = first["msg"].removeprefix("Value error, ")
         raise InputError(path, field, expected[:1].lower() + expected[1:]) from None
 
@@ -402,7 +423,9 @@ def scheme_ids(requested: list[str] | None, all_schemes: dict[str, Scheme]) -> l
     for scheme_id in requested or []:
         known = match_id(scheme_id, all_schemes)
         if known is None:
-            raise InputError("--scheme", scheme_id, f"one of {', '.join(all_schemes)}{did_you_mean(scheme_id, all_schemes)}")
+            raise InputError(
+                "--scheme", scheme_id, f"one of {', '.join(all_schemes)}{did_you_mean(scheme_id, all_schemes)}"
+            )
         found.append(known)
     return found
 
@@ -415,7 +438,11 @@ def select_schemes(all_schemes: dict[str, Scheme], requested: list[str] | None, 
     for requested_id, scheme_id in zip(requested, scheme_ids(requested, all_schemes), strict=True):
         scheme = all_schemes[scheme_id]
         if product not in scheme.products:
-            raise InputError("--scheme", requested_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})")
+            raise InputError(
+                "--scheme", requested_id, f"a scheme for product '{product}' (it covers {', '.join(scheme.products)})"
+            )
         chosen.append(scheme)
-    added = [s for s in all_schemes.values() if s.user_file and product in s.products and s.id not in {c.id for c in chosen}]
+    added = [
+        s for s in all_schemes.values() if s.user_file and product in s.products and s.id not in {c.id for c in chosen}
+    ]
     return chosen + added  # a user rulebook is checked beside the schemes asked for
