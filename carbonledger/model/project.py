@@ -114,8 +114,10 @@ class Section(BaseModel):
     @field_validator("*", mode="before")
     @classmethod
     def _numbers_are_numbers(cls, value: Any, info: ValidationInfo) -> Any:
+        if not isinstance(value, (bool, str)):  # most values: nothing to look up
+            return value
         accepted = accepted_types(cls, info.field_name)
-        if accepted & {float, int} and not accepted & {bool, str} and isinstance(value, (bool, str)):
+        if accepted & {float, int} and not accepted & {bool, str}:
             kind = "a truth value" if isinstance(value, bool) else "text"
             raise ValueError(f"a number, got {value!r} ({kind})")
         return value
@@ -292,18 +294,18 @@ def parse_override(text: str) -> tuple[str, Any]:
 
 
 def _depth(value: Any) -> int:
-    """How deeply tables and arrays nest inside ``value`` (a scalar: 0), without recursion."""
-    deepest, stack = 0, [(value, 0)]
-    while stack:
-        node, level = stack.pop()
-        children = node.values() if isinstance(node, dict) else node if isinstance(node, list) else None
-        if children is None:
-            continue
-        deepest = max(deepest, level + 1)
-        if deepest > MAX_DEPTH + 1:
-            break
-        stack.extend((child, level + 1) for child in children)
-    return deepest
+    """How deeply tables and arrays nest inside ``value`` (a scalar: 0), level by level without recursion,
+    stopping once past ``MAX_DEPTH``."""
+    deepest, level = 0, [value] if isinstance(value, (dict, list)) else []
+    while level and deepest <= MAX_DEPTH:
+        deepest += 1
+        level = [
+            child
+            for node in level
+            for child in (node.values() if isinstance(node, dict) else node)
+            if isinstance(child, (dict, list))
+        ]
+    return deepest + (1 if level else 0)
 
 
 def loads_toml(text: str, source: str | Path) -> dict:
