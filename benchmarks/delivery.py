@@ -10,12 +10,25 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_projects"
-SHIPPED = [DEMO / f"{n}.toml" for n in ("grey_smr_ammonia_shipped", "blue_atr_ammonia_shipped", "green_electrolysis_ammonia_shipped", "green_ammonia_cracked_hydrogen")]
+SHIPPED = [
+    DEMO / f"{n}.toml"
+    for n in (
+        "grey_smr_ammonia_shipped",
+        "blue_atr_ammonia_shipped",
+        "green_electrolysis_ammonia_shipped",
+        "green_ammonia_cracked_hydrogen",
+    )
+]
 
 
 def wall(args):
     start = time.perf_counter()
-    subprocess.run([sys.executable, "-m", "carbonledger", *map(str, args), "--no-ledger"], cwd=ROOT, check=True, capture_output=True)  # a benchmark records nothing
+    subprocess.run(
+        [sys.executable, "-m", "carbonledger", *map(str, args), "--no-ledger"],
+        cwd=ROOT,
+        check=True,
+        capture_output=True,
+    )  # a benchmark records nothing
     return time.perf_counter() - start
 
 
@@ -31,9 +44,15 @@ def main():
     start = time.perf_counter()
     compare(SHIPPED, boundary="well-to-wake")
     print(f"compare four projects after import: {(time.perf_counter() - start) * 1000:7.1f} ms")
-    print(f"process: score plant gate (json)      {wall(['score', DEMO / 'green_electrolysis_ammonia.toml', '--format', 'json']):5.2f} s")
+    print(
+        "process: score plant gate (json)      "
+        f"{wall(['score', DEMO / 'green_electrolysis_ammonia.toml', '--format', 'json']):5.2f} s"
+    )
     print(f"process: score delivered (json)       {wall(['score', SHIPPED[2], '--format', 'json']):5.2f} s")
-    print(f"process: compare four, well-to-wake   {wall(['compare', *SHIPPED, '--boundary', 'well-to-wake', '--format', 'json']):5.2f} s")
+    print(
+        "process: compare four, well-to-wake   "
+        f"{wall(['compare', *SHIPPED, '--boundary', 'well-to-wake', '--format', 'json']):5.2f} s"
+    )
 
 
 if __name__ == "__main__":

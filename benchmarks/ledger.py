@@ -3,9 +3,9 @@
 Prints, for each backend:
 - records per second written one per transaction (``record_run`` with one result: what
   ``score`` does), and in batches of 1,000 (``write_batch``: what recalc's workers do);
-- the end-to-end time (best of two, interleaved) of ``api.recalc`` over N invented projects (default 10,000) recording every
-  old and new score in the ledger, next to the same recalc without a ledger; the target is
-  PostgreSQL at most 1.3 times SQLite.
+- the end-to-end time (best of two, interleaved) of ``api.recalc`` over N invented projects
+  (default 10,000) recording every old and new score in the ledger, next to the same recalc without
+  a ledger; the target is PostgreSQL at most 1.3 times SQLite.
 
 PostgreSQL: a throwaway server started with initdb/pg_ctl (tests/pg_support.py, as a non-root
 user, fsync off like the tests' server), a new database for each timed recalc (a recalc run
@@ -41,12 +41,31 @@ def invented_projects(folder: Path, count: int) -> None:
 def sample_record(number: int):
     from carbonledger.io.ledger import LedgerRecord
 
-    checks = [{"scheme": s, "value": 1.0 + number % 9, "unit": "kg CO2e/kg H2", "limit": 4.0, "passes": True, "status": "qualifies", "tier": None} for s in ("us-45v", "eu-rfnbo", "uk-lchs")]
+    checks = [
+        {
+            "scheme": s,
+            "value": 1.0 + number % 9,
+            "unit": "kg CO2e/kg H2",
+            "limit": 4.0,
+            "passes": True,
+            "status": "qualifies",
+            "tier": None,
+        }
+        for s in ("us-45v", "eu-rfnbo", "uk-lchs")
+    ]
     return LedgerRecord(
-        f"/bench/project_{number}.toml", f"Benchmark project {number} (invented)", f"{number:064x}", "default-2026", "1" * 64, ["us-45v", "eu-rfnbo", "uk-lchs"],
-        "cradle-to-gate", "ar6", {"total": float(number), "unit": "kg CO2e/kg H2", "checks": checks}, {"electrolysis": {"electricity_kwh_per_kg_h2": 50 + number % 11}},
+        f"/bench/project_{number}.toml",
+        f"Benchmark project {number} (invented)",
+        f"{number:064x}",
+        "default-2026",
+        "1" * 64,
+        ["us-45v", "eu-rfnbo", "uk-lchs"],
+        "cradle-to-gate",
+        "ar6",
+        {"total": float(number), "unit": "kg CO2e/kg H2", "checks": checks},
+        {"electrolysis": {"electricity_kwh_per_kg_h2": 50 + number % 11}},
         [{"id": "electricity.grid.eu27_2018", "value": 281.0, "unit": "g CO2e/kWh"}],
-    )  # fmt: skip
+    )
 
 
 def records_per_second(where, single: int = 300, batched: int = 5000) -> tuple[float, float]:
@@ -97,11 +116,16 @@ def main(count: int = 10_000) -> None:
             backends["PostgreSQL"] = locate(postgres)
             for name in backends:
                 one, many = records_per_second(backends[name])
-                print(f"{name:<10} records/s: {one:8.0f} one per transaction (record_run), {many:8.0f} in batches of 1,000 (write_batch)")
+                print(
+                    f"{name:<10} records/s: {one:8.0f} one per transaction (record_run), {many:8.0f} in batches of "
+                    "1,000 (write_batch)"
+                )
             projects = folder / "projects"
             projects.mkdir()
             invented_projects(projects, count)
-            timed_recalc(projects, None)  # warms every cache the timed runs share (factor sets, bw2calc, the server's engine)
+            timed_recalc(
+                projects, None
+            )  # warms every cache the timed runs share (factor sets, bw2calc, the server's engine)
             baseline_runs, sqlite_runs, postgres_runs = [], [], []
             for repeat in range(2):  # interleaved, best of two each: the machine may be shared
                 baseline_runs.append(timed_recalc(projects, None)[0])
@@ -111,8 +135,14 @@ def main(count: int = 10_000) -> None:
                 seconds, records = timed_recalc(projects, locate(postgres))
                 postgres_runs.append(seconds)
             baseline, sqlite_s, postgres_s = min(baseline_runs), min(sqlite_runs), min(postgres_runs)
-            print(f"recalc of {count} projects (best of two): without a ledger {baseline:.1f} s; recording {records} records: SQLite {sqlite_s:.1f} s, PostgreSQL {postgres_s:.1f} s")
-            print(f"ledger's share of the recalc: SQLite {sqlite_s - baseline:+.1f} s, PostgreSQL {postgres_s - baseline:+.1f} s (differences below a few seconds are the machine's noise)")
+            print(
+                f"recalc of {count} projects (best of two): without a ledger {baseline:.1f} s; recording {records} "
+                f"records: SQLite {sqlite_s:.1f} s, PostgreSQL {postgres_s:.1f} s"
+            )
+            print(
+                f"ledger's share of the recalc: SQLite {sqlite_s - baseline:+.1f} s, PostgreSQL "
+                f"{postgres_s - baseline:+.1f} s (differences below a few seconds are the machine's noise)"
+            )
             print(f"PostgreSQL / SQLite, end to end: {postgres_s / sqlite_s:.2f} (target: at most 1.3)")
     finally:
         server.stop()

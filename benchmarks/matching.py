@@ -29,10 +29,18 @@ def synthetic(years: int, seed: int = 1):
 
 
 def time_matching(years: int, repeats: int) -> list[float]:
-    from carbonledger.analyses.matching import ElectricityModel, counted_intensity, match, monthly_intensities, scheme_granularity
+    from carbonledger.analyses.matching import (
+        ElectricityModel,
+        counted_intensity,
+        match,
+        monthly_intensities,
+        scheme_granularity,
+    )
 
     utc, local, load, supply, grid = synthetic(years)
-    model = ElectricityModel(1.0, 55.0, {"solar": 0.0, "wind": 0.0, "hydro": 0.0}, 0.0, 0.3, 1.0, ["solar", "wind", "hydro"])
+    model = ElectricityModel(
+        1.0, 55.0, {"solar": 0.0, "wind": 0.0, "hydro": 0.0}, 0.0, 0.3, 1.0, ["solar", "wind", "hydro"]
+    )
     rules = [scheme_granularity(s, local) for s in SCHEMES] + ["month", "quarter"]  # six schemes' rules
     months = local.astype("datetime64[M]")
     starts = np.flatnonzero(np.r_[True, months[1:] != months[:-1]])
@@ -74,14 +82,32 @@ def time_plan(repeats: int, min_load: float, part_load=None) -> list[float]:
 if __name__ == "__main__":
     time_matching(1, 1)  # warm imports
     one = time_matching(1, 20)
-    print(f"matching, 1 year hourly (8,760 intervals), 3 sources, 6 schemes' rules with monthly breakdown: median {statistics.median(one) * 1000:.1f} ms (target < 50 ms)")
+    print(
+        "matching, 1 year hourly (8,760 intervals), 3 sources, 6 schemes' rules with monthly breakdown: median "
+        f"{statistics.median(one) * 1000:.1f} ms (target < 50 ms)"
+    )
     thirty = time_matching(30, 3)
-    print(f"matching, 30 years hourly (262,800 intervals), 3 sources, 6 schemes' rules with monthly breakdown: median {statistics.median(thirty) * 1000:.0f} ms (target < 1 s)")
+    print(
+        "matching, 30 years hourly (262,800 intervals), 3 sources, 6 schemes' rules with monthly breakdown: median "
+        f"{statistics.median(thirty) * 1000:.0f} ms (target < 1 s)"
+    )
     demo = time_score_demo(5)
-    print(f"score of the hourly demo (read 8,760-row CSV, bw2calc solve, 4 schemes matched): median {statistics.median(demo) * 1000:.0f} ms")
+    print(
+        "score of the hourly demo (read 8,760-row CSV, bw2calc solve, 4 schemes matched): median "
+        f"{statistics.median(demo) * 1000:.0f} ms"
+    )
     linear = time_plan(2, 0.0)
-    print(f"plan, 1 year hourly, eu-rfnbo hourly, any load (linear program): median {statistics.median(linear):.2f} s (target < 10 s)")
+    print(
+        f"plan, 1 year hourly, eu-rfnbo hourly, any load (linear program): median {statistics.median(linear):.2f} s "
+        "(target < 10 s)"
+    )
     mixed = time_plan(1, 0.2)
-    print(f"plan, 1 year hourly, eu-rfnbo hourly, minimum stable load 20 % (mixed-integer): {statistics.median(mixed):.2f} s")
+    print(
+        "plan, 1 year hourly, eu-rfnbo hourly, minimum stable load 20 % (mixed-integer): "
+        f"{statistics.median(mixed):.2f} s"
+    )
     curve = time_plan(1, 0.2, [(0.2, 60.0), (0.5, 52.0), (1.0, 54.0)])
-    print(f"plan, 1 year hourly, eu-rfnbo hourly, minimum stable load 20 %, part-load curve (valued at the curve's kWh/kg): {statistics.median(curve):.2f} s")
+    print(
+        "plan, 1 year hourly, eu-rfnbo hourly, minimum stable load 20 %, part-load curve (valued at the curve's "
+        f"kWh/kg): {statistics.median(curve):.2f} s"
+    )

@@ -66,7 +66,12 @@ cost = { per_unit = 8_000_000 }
 [[levers]]
 parameter = "electricity.sources.grid.factor"
 values = ["electricity.grid.eu27_2018", "electricity.grid.france_2019", "electricity.grid.sweden_2019"]
-cost = { table = [["electricity.grid.eu27_2018", 0], ["electricity.grid.france_2019", 3_000_000], ["electricity.grid.sweden_2019", 5_000_000]] }
+[levers.cost]
+table = [
+    ["electricity.grid.eu27_2018", 0],
+    ["electricity.grid.france_2019", 3_000_000],
+    ["electricity.grid.sweden_2019", 5_000_000],
+]
 
 [[levers]]
 parameter = "capture.transport_storage_loss_fraction"
@@ -90,20 +95,43 @@ def main() -> None:
         levers.write_text(LEVERS, encoding="utf-8")
         options = {"schemes": ["eu-low-carbon", "us-45v"], "overrides": START, "year": 2028}
         api.score(PROJECT, overrides=START)  # imports bw2calc once, outside the timings
-        print("qualify on demo_projects/blue_atr_ammonia_shipped.toml (well-to-wake), 5 continuous + 2 discrete levers, eu-low-carbon and us-45v, rules of 2028")
-        for label, extra in (("central value", {}), (f"95 % confidence, {draws:,} draws", {"confidence": 0.95, "draws": draws, "distributions": DISTRIBUTIONS})):
+        print(
+            "qualify on demo_projects/blue_atr_ammonia_shipped.toml (well-to-wake), 5 continuous + 2 discrete levers, "
+            "eu-low-carbon and us-45v, rules of 2028"
+        )
+        for label, extra in (
+            ("central value", {}),
+            (f"95 % confidence, {draws:,} draws", {"confidence": 0.95, "draws": draws, "distributions": DISTRIBUTIONS}),
+        ):
             target = 5.0 if not extra else 60.0
-            (alone, alone_cpu), result = timed(lambda extra=extra: api.qualify(PROJECT, levers, budgets=0, **options, **extra))
+            (alone, alone_cpu), result = timed(
+                lambda extra=extra: api.qualify(PROJECT, levers, budgets=0, **options, **extra)
+            )
             print(f"  {label}: {alone:.2f} s wall, {alone_cpu:.2f} s CPU (target < {target:.0f} s)")
             if fronts:
-                (with_front, front_cpu), _ = timed(lambda extra=extra: api.qualify(PROJECT, levers, budgets=6, **options, **extra))
+                (with_front, front_cpu), _ = timed(
+                    lambda extra=extra: api.qualify(PROJECT, levers, budgets=6, **options, **extra)
+                )
                 print(f"    with a cost/margin front of 6 budgets: {with_front:.2f} s wall, {front_cpu:.2f} s CPU")
-            print(f"    status {result.status}, total cost {result.total_cost:,.0f} {result.cost_unit}" if result.total_cost is not None else f"    status {result.status}: {result.reason}")
-            print("    levers: " + ", ".join(f"{path}={value:.6g}" if isinstance(value, float) else f"{path}={value}" for path, value in result.levers.items()))
+            print(
+                f"    status {result.status}, total cost {result.total_cost:,.0f} {result.cost_unit}"
+                if result.total_cost is not None
+                else f"    status {result.status}: {result.reason}"
+            )
+            print(
+                "    levers: "
+                + ", ".join(
+                    f"{path}={value:.6g}" if isinstance(value, float) else f"{path}={value}"
+                    for path, value in result.levers.items()
+                )
+            )
             if result.probability is not None:
                 print(f"    probability {result.probability:.4f} (standard error {result.standard_error:.4f})")
             solver = result.solver
-            print(f"    {solver['combinations']} combinations, {solver['solved']} solved, {solver['pruned']} pruned, {solver['iterations']} SLSQP iterations, {solver['stacked_solves']} stacked solves")
+            print(
+                f"    {solver['combinations']} combinations, {solver['solved']} solved, {solver['pruned']} pruned, "
+                f"{solver['iterations']} SLSQP iterations, {solver['stacked_solves']} stacked solves"
+            )
 
 
 if __name__ == "__main__":

@@ -22,7 +22,12 @@ import time
 from pathlib import Path
 
 GRIDS = ["electricity.grid.eu27_2018", "electricity.grid.ireland_2015"]
-RENEWABLES = ["electricity.renewable.wind_onshore", "electricity.renewable.solar_pv_utility", "electricity.renewable.wind_offshore", "electricity.renewable.hydropower"]
+RENEWABLES = [
+    "electricity.renewable.wind_onshore",
+    "electricity.renewable.solar_pv_utility",
+    "electricity.renewable.wind_offshore",
+    "electricity.renewable.hydropower",
+]
 
 
 def electricity(rng: random.Random, grid_share: float) -> str:
@@ -30,28 +35,38 @@ def electricity(rng: random.Random, grid_share: float) -> str:
     if grid_share > 0:
         text += f'[electricity.sources.grid]\nshare = {grid_share}\nfactor = "{rng.choice(GRIDS)}"\n'
     if grid_share < 1:
-        text += f'[electricity.sources.renewable]\nshare = {round(1 - grid_share, 6)}\nfactor = "{rng.choice(RENEWABLES)}"\n'
+        text += (
+            f'[electricity.sources.renewable]\nshare = {round(1 - grid_share, 6)}\nfactor = '
+            f'"{rng.choice(RENEWABLES)}"\n'
+        )
     return text
 
 
 def ammonia(rng: random.Random, process_air: bool) -> str:
     nitrogen = "process_air" if process_air else "air_separation"
     return (
-        f'[ammonia]\nnitrogen_source = "{nitrogen}"\nair_separation_kwh_per_t_n2 = {0 if process_air else rng.uniform(90, 130):.1f}\n'
-        f"hydrogen_loss_allowance = {rng.uniform(0, 0.03):.4f}\nsynthesis_electricity_kwh_per_t_nh3 = {rng.uniform(100, 700):.1f}\n"
-        f"storage_electricity_kwh_per_t_nh3 = {rng.uniform(10, 40):.1f}\nstorage_loss_fraction = {rng.uniform(0, 0.003):.5f}\n"
+        f'[ammonia]\nnitrogen_source = "{nitrogen}"\nair_separation_kwh_per_t_n2 = '
+        f'{0 if process_air else rng.uniform(90, 130):.1f}\n'
+        f"hydrogen_loss_allowance = {rng.uniform(0, 0.03):.4f}\nsynthesis_electricity_kwh_per_t_nh3 = "
+        f"{rng.uniform(100, 700):.1f}\n"
+        f"storage_electricity_kwh_per_t_nh3 = {rng.uniform(10, 40):.1f}\nstorage_loss_fraction = "
+        f"{rng.uniform(0, 0.003):.5f}\n"
     )
 
 
 def project(number: int, rng: random.Random) -> str:
     kind = rng.choice(["green", "hybrid", "grid", "grey", "blue_smr", "blue_atr"])
     product = rng.choice(["ammonia", "hydrogen"])
-    head = f'# INVENTED benchmark project\n[project]\nname = "Benchmark project {number} ({kind}, invented)"\nproduct = "{product}"\n\n'
+    head = (
+        f'# INVENTED benchmark project\n[project]\nname = "Benchmark project {number} ({kind}, invented)"\nproduct = '
+        f'"{product}"\n\n'
+    )
     if kind in ("green", "hybrid", "grid"):
         grid_share = {"green": 0.0, "hybrid": round(rng.uniform(0.05, 0.5), 4), "grid": 1.0}[kind]
         body = (
             f'[hydrogen]\nroute = "electrolysis"\nconditioning_kwh_per_kg_h2 = {rng.uniform(0, 2):.3f}\n'
-            f'[electrolysis]\ntechnology = "{rng.choice(["alkaline", "pem"])}"\nelectricity_kwh_per_kg_h2 = {rng.uniform(48, 58):.3f}\n'
+            f'[electrolysis]\ntechnology = "{rng.choice(["alkaline", "pem"])}"\nelectricity_kwh_per_kg_h2 = '
+            f'{rng.uniform(48, 58):.3f}\n'
             + electricity(rng, grid_share)
         )
         if product == "ammonia":
@@ -60,14 +75,18 @@ def project(number: int, rng: random.Random) -> str:
     atr = kind == "blue_atr"
     body = (
         f'[hydrogen]\nroute = "{"autothermal_reforming" if atr else "steam_methane_reforming"}"\n'
-        f"[reforming]\nnatural_gas_gj_per_kg_h2 = {rng.uniform(0.155, 0.175):.4f}\nelectricity_kwh_per_kg_h2 = {rng.uniform(0.2, 2):.3f}\n"
+        f"[reforming]\nnatural_gas_gj_per_kg_h2 = {rng.uniform(0.155, 0.175):.4f}\nelectricity_kwh_per_kg_h2 = "
+        f"{rng.uniform(0.2, 2):.3f}\n"
         f"process_co2_share = {0.96 if atr else rng.uniform(0.55, 0.65):.3f}\n"
-        f"[natural_gas]\nmethane_emission_share = {rng.uniform(0.002, 0.03):.4f}\nmethane_emission_basis = \"methane_delivered\"\n"
+        f'[natural_gas]\nmethane_emission_share = {rng.uniform(0.002, 0.03):.4f}\nmethane_emission_basis = '
+        '"methane_delivered"\n'
     )
     if kind != "grey":
         body += (
-            f'[capture]\ncapture_rate = {rng.uniform(0.55, 0.95):.3f}\napplies_to = "{"process" if atr else "process_and_flue"}"\n'
-            f"compression_kwh_per_t_co2 = {rng.uniform(90, 130):.1f}\ntransport_storage_loss_fraction = {rng.uniform(0, 0.03):.4f}\n"
+            f'[capture]\ncapture_rate = {rng.uniform(0.55, 0.95):.3f}\napplies_to = '
+            f'"{"process" if atr else "process_and_flue"}"\n'
+            f"compression_kwh_per_t_co2 = {rng.uniform(90, 130):.1f}\ntransport_storage_loss_fraction = "
+            f"{rng.uniform(0, 0.03):.4f}\n"
         )
     body += electricity(rng, round(rng.uniform(0.3, 1.0), 4))
     if product == "ammonia":
@@ -88,7 +107,9 @@ def main(count: int = 1000) -> None:
     from carbonledger.model.factors import load_factor_set
 
     import_bw2calc()  # import cost reported apart
-    print(f"imports (bw2calc included): {time.perf_counter() - t0:.2f} s; peak memory after imports: {peak_mb():.0f} MB")
+    print(
+        f"imports (bw2calc included): {time.perf_counter() - t0:.2f} s; peak memory after imports: {peak_mb():.0f} MB"
+    )
     print(f"machine load (1-minute load average, 2 cores) at the start: {os.getloadavg()[0]:.1f}")
     rng = random.Random(2026)
     with tempfile.TemporaryDirectory() as folder:
@@ -102,24 +123,47 @@ def main(count: int = 1000) -> None:
         result = recalc(portfolio, old_set, new_set)
         done, cpu_done = time.perf_counter(), time.process_time()
         total, fast_peak = done - start, peak_mb()
-        print(f"projects: {count}; structures: {len({(s.product, tuple(s.by_stage)) for s in result.old_scores})} (by product and stages)")
+        print(
+            f"projects: {count}; structures: {len({(s.product, tuple(s.by_stage)) for s in result.old_scores})} (by "
+            "product and stages)"
+        )
         print(f"factor sets loaded: {loaded - start:.3f} s; projects read and validated once: {parsed - loaded:.3f} s")
-        print(f"recalc (score under old set, diff, rescore {result.rescored} projects that use a changed factor): {done - parsed:.3f} s")
-        print(f"fast path total: {total:.2f} s elapsed ({cpu_done - cpu_start:.2f} s CPU) for {count} projects = {total / count * 1000:.2f} ms per project (target for 10,000: under 8 s)")
-        print(f"fast path peak memory (whole process, imports included): {fast_peak:.0f} MB (target for 10,000: under 600 MB)")
+        print(
+            f"recalc (score under old set, diff, rescore {result.rescored} projects that use a changed factor): "
+            f"{done - parsed:.3f} s"
+        )
+        print(
+            f"fast path total: {total:.2f} s elapsed ({cpu_done - cpu_start:.2f} s CPU) for {count} projects = "
+            f"{total / count * 1000:.2f} ms per project (target for 10,000: under 8 s)"
+        )
+        print(
+            f"fast path peak memory (whole process, imports included): {fast_peak:.0f} MB (target for 10,000: under "
+            "600 MB)"
+        )
         print(f"newly failing project-scheme pairs: {len(result.newly_failing)}")
         from carbonledger.io.ledger import record_run
 
         ledger_start = time.perf_counter()
-        record_run("recalc (benchmark)", [*result.old_scores, *result.new_scores], ledger=Path(folder) / "ledger.sqlite", kind="recalc")
-        print(f"recording the run in a new ledger ({2 * count} records, one transaction): {time.perf_counter() - ledger_start:.2f} s")
+        record_run(
+            "recalc (benchmark)",
+            [*result.old_scores, *result.new_scores],
+            ledger=Path(folder) / "ledger.sqlite",
+            kind="recalc",
+        )
+        print(
+            f"recording the run in a new ledger ({2 * count} records, one transaction): "
+            f"{time.perf_counter() - ledger_start:.2f} s"
+        )
         sample = portfolio[:100]
         naive_start = time.perf_counter()
         for item in sample:
             score_project(item.project, old_set)
             score_project(item.project, new_set)
         naive = (time.perf_counter() - naive_start) / len(sample)
-        print(f"naive path, same run (one bw2calc LCA per project and set, 100 projects): {naive * 1000:.2f} ms per project, {naive * count:.1f} s for {count}")
+        print(
+            f"naive path, same run (one bw2calc LCA per project and set, 100 projects): {naive * 1000:.2f} ms per "
+            f"project, {naive * count:.1f} s for {count}"
+        )
         print(f"ratio naive / fast (whole fast path, reading included): {naive * count / total:.1f}")
         phases(portfolio[:1000], old_set)
         print(f"machine load at the end: {os.getloadavg()[0]:.1f}")
@@ -150,10 +194,18 @@ def phases(sample: list, factor_set) -> None:
             scheme_checks(one, solutions)  # the rules' readings kept from the run before
         t5 = time.perf_counter()
     per = {
-        "prepare": t1 - t0, "stacked solve": t2 - t1, "scheme rules read": (t4 - t3) - (t5 - t4),
-        "check values and verdicts": t5 - t4, "rest of the result": (t3 - t2) - (t4 - t3),
+        "prepare": t1 - t0,
+        "stacked solve": t2 - t1,
+        "scheme rules read": (t4 - t3) - (t5 - t4),
+        "check values and verdicts": t5 - t4,
+        "rest of the result": (t3 - t2) - (t4 - t3),
     }
-    print("one scoring, ms per project (" + str(n) + " projects): " + ", ".join(f"{k} {v / n * 1000:.2f}" for k, v in per.items()))
+    print(
+        "one scoring, ms per project ("
+        + str(n)
+        + " projects): "
+        + ", ".join(f"{k} {v / n * 1000:.2f}" for k, v in per.items())
+    )
 
 
 if __name__ == "__main__":

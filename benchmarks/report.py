@@ -35,7 +35,9 @@ def whole_process(repeats: int = 7, project: Path = GREEN) -> tuple[list[float],
         out = Path(folder) / "report.html"
         for _ in range(repeats):
             start = time.perf_counter()
-            subprocess.run([*args, "report", str(project), "-o", str(out), "--force"], check=True, capture_output=True, cwd=ROOT)
+            subprocess.run(
+                [*args, "report", str(project), "-o", str(out), "--force"], check=True, capture_output=True, cwd=ROOT
+            )
             times.append(time.perf_counter() - start)
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
     cpu = (after.ru_utime - before.ru_utime + after.ru_stime - before.ru_stime) / repeats
@@ -58,8 +60,17 @@ def render_only(repeats: int = 50) -> list[float]:
 
 if __name__ == "__main__":
     rendered = render_only()
-    print(f"render the HTML of one scored project: median {statistics.median(rendered) * 1000:.1f} ms, best {min(rendered) * 1000:.1f} ms")
+    print(
+        f"render the HTML of one scored project: median {statistics.median(rendered) * 1000:.1f} ms, best "
+        f"{min(rendered) * 1000:.1f} ms"
+    )
     runs, cpu = whole_process()
-    print(f"whole process `carbonledger report {GREEN.name} -o report.html`: median {statistics.median(runs):.2f} s, best {min(runs):.2f} s, CPU {cpu:.2f} s per run (target < 2 s)")
+    print(
+        f"whole process `carbonledger report {GREEN.name} -o report.html`: median {statistics.median(runs):.2f} s, "
+        f"best {min(runs):.2f} s, CPU {cpu:.2f} s per run (target < 2 s)"
+    )
     runs, cpu = whole_process(3, HOURLY)
-    print(f"whole process `carbonledger report {HOURLY.name} -o report.html` (matching, 10,000 draws): median {statistics.median(runs):.2f} s, best {min(runs):.2f} s, CPU {cpu:.2f} s per run")
+    print(
+        f"whole process `carbonledger report {HOURLY.name} -o report.html` (matching, 10,000 draws): median "
+        f"{statistics.median(runs):.2f} s, best {min(runs):.2f} s, CPU {cpu:.2f} s per run"
+    )

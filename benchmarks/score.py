@@ -88,18 +88,38 @@ def compile_package() -> None:
 def main(repeats: int = 7) -> None:
     compile_package()
     scores = in_process()
-    print(f"score one project after import: median {statistics.median(scores) * 1000:.1f} ms, best {min(scores) * 1000:.1f} ms (target < 20 ms)")
+    print(
+        f"score one project after import: median {statistics.median(scores) * 1000:.1f} ms, best "
+        f"{min(scores) * 1000:.1f} ms (target < 20 ms)"
+    )
     with tempfile.TemporaryDirectory() as folder:  # run outside the source tree, like a user
         cwd = Path(folder)
         imports, shipped = shipped_against_bw2calc(repeats, cwd)
         bw2calc_median, shipped_median = statistics.median(imports), statistics.median(shipped)
-        print(f'`python -c "import bw2calc"`: median {bw2calc_median:.2f} s, best {min(imports):.2f} s ({repeats} runs)')
-        print(f"whole process `carbonledger score {SHIPPED.name} --format json`: median {shipped_median:.2f} s, best {min(shipped):.2f} s ({repeats} runs)")
-        print(f"ratio of the medians (shipped score / bw2calc import): {shipped_median / bw2calc_median:.2f} (target <= 1.15)")
+        print(
+            f'`python -c "import bw2calc"`: median {bw2calc_median:.2f} s, best {min(imports):.2f} s ({repeats} runs)'
+        )
+        print(
+            f"whole process `carbonledger score {SHIPPED.name} --format json`: median {shipped_median:.2f} s, best "
+            f"{min(shipped):.2f} s ({repeats} runs)"
+        )
+        print(
+            f"ratio of the medians (shipped score / bw2calc import): {shipped_median / bw2calc_median:.2f} (target <= "
+            "1.15)"
+        )
         cpu_bw2calc, cpu_shipped = statistics.median(CPU["bw2calc"]), statistics.median(CPU["shipped"])
-        print(f"CPU time (user + system), medians: bw2calc import {cpu_bw2calc:.2f} s, shipped score {cpu_shipped:.2f} s, ratio {cpu_shipped / cpu_bw2calc:.2f} (target <= 1.15)")
-        green = [seconds([*carbonledger_command(), "score", str(GREEN), "--format", "json", "--no-ledger"], cwd) for _ in range(repeats)]
-        print(f"whole process `carbonledger score {GREEN.name} --format json`: median {statistics.median(green):.2f} s, best {min(green):.2f} s (target < 1.5 s)")
+        print(
+            f"CPU time (user + system), medians: bw2calc import {cpu_bw2calc:.2f} s, shipped score {cpu_shipped:.2f} "
+            f"s, ratio {cpu_shipped / cpu_bw2calc:.2f} (target <= 1.15)"
+        )
+        green = [
+            seconds([*carbonledger_command(), "score", str(GREEN), "--format", "json", "--no-ledger"], cwd)
+            for _ in range(repeats)
+        ]
+        print(
+            f"whole process `carbonledger score {GREEN.name} --format json`: median {statistics.median(green):.2f} s, "
+            f"best {min(green):.2f} s (target < 1.5 s)"
+        )
 
 
 if __name__ == "__main__":

@@ -34,7 +34,10 @@ def main(repeats: int = 9) -> None:
         bare.append(run([sys.executable, "-c", "pass"]))
         helps.append(run(help_args))
     for label, runs, target in (("python -c pass", bare, ""), ("carbonledger --help", helps, " (target < 0.3 s)")):
-        print(f"{label}: elapsed median {statistics.median(r[0] for r in runs):.3f} s{target}, CPU median {statistics.median(r[1] for r in runs):.3f} s ({repeats} runs)")
+        print(
+            f"{label}: elapsed median {statistics.median(r[0] for r in runs):.3f} s{target}, CPU median "
+            f"{statistics.median(r[1] for r in runs):.3f} s ({repeats} runs)"
+        )
 
 
 if __name__ == "__main__":

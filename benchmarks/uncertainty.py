@@ -21,7 +21,13 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from carbonledger.analyses.uncertainty import draw, evaluate, make_plan, monte_carlo, monte_carlo_with_bw2calc  # noqa: E402
+from carbonledger.analyses.uncertainty import (  # noqa: E402
+    draw,
+    evaluate,
+    make_plan,
+    monte_carlo,
+    monte_carlo_with_bw2calc,
+)
 from carbonledger.model.distributions import parse_uncertainty, read_distributions_file  # noqa: E402
 from carbonledger.model.factors import load_factor_set  # noqa: E402
 from carbonledger.routes.project import load_project  # noqa: E402
@@ -53,8 +59,13 @@ def main() -> None:
     full = read_distributions_file(ROOT / "demo_projects" / "uncertainty" / "blue_atr_ammonia.toml")
     monte_carlo(project, factor_set, full, draws=100)  # warm the imports (scipy, chemicals)
     seconds = best_of(3, lambda: monte_carlo(project, factor_set, full, draws=draws))
-    print(f"full chain, {len(full.parameters)} parameters + {len(full.factors)} factors uncertain, one rank correlation:")
-    print(f"  {draws:,} draws (draws, physical limits, stacked solve, summary and verdict probabilities): {seconds:.3f} s ({seconds / draws * 1e6:.1f} us per draw)")
+    print(
+        f"full chain, {len(full.parameters)} parameters + {len(full.factors)} factors uncertain, one rank correlation:"
+    )
+    print(
+        f"  {draws:,} draws (draws, physical limits, stacked solve, summary and verdict probabilities): {seconds:.3f} "
+        f"s ({seconds / draws * 1e6:.1f} us per draw)"
+    )
 
     plan = make_plan(project, factor_set, parse_uncertainty(FACTORS_ONLY, "benchmark"))
     ours = best_of(3, lambda: evaluate(plan, draw(plan, draws), draws))
@@ -64,7 +75,10 @@ def main() -> None:
     theirs = (time.perf_counter() - start) / bw_draws * draws
     print("same model, uncertainty on 4 factors only:")
     print(f"  stacked draws:             {draws:,} draws in {ours:.3f} s")
-    print(f"  bw2calc Monte Carlo:       {bw_draws:,} draws timed, {theirs / draws * 1e3:.2f} ms per draw -> {theirs:.1f} s for {draws:,} draws")
+    print(
+        f"  bw2calc Monte Carlo:       {bw_draws:,} draws timed, {theirs / draws * 1e3:.2f} ms per draw -> "
+        f"{theirs:.1f} s for {draws:,} draws"
+    )
     print(f"  speed-up: {theirs / ours:.0f} x")
 
 

@@ -59,8 +59,20 @@ def main(count: int, draws: int, workers: int) -> None:
         start = time.perf_counter()
         serial = api.uncertainty_many([folder], distributions=spec, draws=draws)
         serial_seconds = time.perf_counter() - start
-        print(f"{count} projects x {draws} draws, one process: {serial_seconds:.1f} s ({serial_seconds / count * 1000:.1f} ms per project); peak memory {peak_mb(resource.RUSAGE_SELF):.0f} MB")
-        options = {"distributions": spec, "draws": draws, "seed": api.DEFAULT_SEED, "sampling": None, "factors": "default-2026", "gwp": "ar6", "schemes": None, "boundary": None}
+        print(
+            f"{count} projects x {draws} draws, one process: {serial_seconds:.1f} s "
+            f"({serial_seconds / count * 1000:.1f} ms per project); peak memory {peak_mb(resource.RUSAGE_SELF):.0f} MB"
+        )
+        options = {
+            "distributions": spec,
+            "draws": draws,
+            "seed": api.DEFAULT_SEED,
+            "sampling": None,
+            "factors": "default-2026",
+            "gwp": "ar6",
+            "schemes": None,
+            "boundary": None,
+        }
         tasks = [(str(path), options) for path in project_files([folder])]
         start = time.perf_counter()
         with dask_mapper(workers, None) as (mapper, _):
@@ -72,8 +84,10 @@ def main(count: int, draws: int, workers: int) -> None:
             worker_peaks = sorted(default_client().run(peak_mb).values())
         same = [r.model_dump_json() for r in spread] == [r.model_dump_json() for r in serial]
         print(
-            f"same on a local Dask cluster of {workers} worker processes: {done - started:.1f} s ({(done - started) / count * 1000:.1f} ms per project; "
-            f"cluster start-up {started - start:.1f} s more); peak memory per worker {', '.join(f'{mb:.0f}' for mb in worker_peaks)} MB; "
+            f"same on a local Dask cluster of {workers} worker processes: {done - started:.1f} s "
+            f"({(done - started) / count * 1000:.1f} ms per project; "
+            f"cluster start-up {started - start:.1f} s more); peak memory per worker "
+            f"{', '.join(f'{mb:.0f}' for mb in worker_peaks)} MB; "
             f"this process {peak_mb():.0f} MB; results identical to the serial run: {same}"
         )
 

@@ -43,14 +43,22 @@ def text_cases(function) -> tuple[list[str], list[dict[str, str]]]:
     source = inspect.getsource(inspect.getmodule(function))
     options = {}
     for name in signature.parameters:
-        found = re.findall(rf'\b{name}\s*[!=]=\s*"([^"]+)"', source) + re.findall(rf'"([^"]+)"\s*[!=]=\s*{name}\b', source)
-        found += [item for group in re.findall(rf'\b{name}\s+(?:not\s+)?in\s+\(([^)]*)\)', source) for item in re.findall(r'"([^"]+)"', group)]
+        found = re.findall(rf'\b{name}\s*[!=]=\s*"([^"]+)"', source) + re.findall(
+            rf'"([^"]+)"\s*[!=]=\s*{name}\b', source
+        )
+        found += [
+            item
+            for group in re.findall(rf"\b{name}\s+(?:not\s+)?in\s+\(([^)]*)\)", source)
+            for item in re.findall(r'"([^"]+)"', group)
+        ]
         if found or signature.parameters[name].annotation in (str, "str"):
             options[name] = list(dict.fromkeys(found)) + [f"(other {name})"]
     texts = list(options)
     if not texts:
         return [], [{}]
-    cases = [dict(zip(texts, combination, strict=True)) for combination in itertools.product(*(options[n] for n in texts))]
+    cases = [
+        dict(zip(texts, combination, strict=True)) for combination in itertools.product(*(options[n] for n in texts))
+    ]
     for a, b in itertools.combinations(texts, 2):
         if re.search(rf"\b{a}\s*==\s*{b}\b|\b{b}\s*==\s*{a}\b", source):
             cases += [{**case, b: case[a]} for case in cases]
@@ -78,7 +86,11 @@ def equations(function) -> list[tuple[str, str]]:
         except TypeError:
             return []
         condition = ", ".join(
-            f"{k} = {v}" if not v.startswith("(other") else f"{k} otherwise" if v == f"(other {k})" else f"{k} = {v[7:-1]}"
+            f"{k} = {v}"
+            if not v.startswith("(other")
+            else f"{k} otherwise"
+            if v == f"(other {k})"
+            else f"{k} = {v[7:-1]}"
             for k, v in case.items()
         )
         pair = (condition, rf"\mathrm{{{name.replace('_', chr(92) + '_')}}} = {value.latex}")

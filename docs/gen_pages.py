@@ -79,28 +79,61 @@ def table(headers: list[str], rows: list[list]) -> str:
 
 
 def rulebooks_page() -> str:
-    parts = ["# Scheme rulebooks\n", "Generated from `factors/schemes/*.toml`. A rule recorded from memory has not yet been checked against the legal text.\n"]
+    parts = [
+        "# Scheme rulebooks\n",
+        "Generated from `factors/schemes/*.toml`. A rule recorded from memory has not yet been checked against the "
+        "legal text.\n",
+    ]
     for scheme in load_schemes().values():
         parts.append(f"\n## {scheme.name} (`{scheme.id}`)\n")
-        parts.append(table(["rule", "value"], [
-            ["document", scheme.document], ["year", scheme.year], ["products", ", ".join(scheme.products)], ["quantity", f"{scheme.quantity} [{scheme.unit}]"],
-            ["basis", scheme.basis], ["boundary", scheme.boundary], ["GWP100 set", scheme.gwp.upper()], ["electricity rule", scheme.electricity],
-            ["stages left out", ", ".join(scheme.excluded_stages) or "none"], ["counts construction", scheme.counts_construction], ["recorded from memory", scheme.from_memory],
-        ]))
-        parts.append("\n" + table(["tier", "limit", "comparison", "source", "from memory"], [
-            [t.tier, t.limit, "value <= limit" if t.inclusive else "value < limit", t.source, t.from_memory] for t in sorted(scheme.thresholds, key=lambda t: -t.limit)
-        ]))
+        parts.append(
+            table(
+                ["rule", "value"],
+                [
+                    ["document", scheme.document],
+                    ["year", scheme.year],
+                    ["products", ", ".join(scheme.products)],
+                    ["quantity", f"{scheme.quantity} [{scheme.unit}]"],
+                    ["basis", scheme.basis],
+                    ["boundary", scheme.boundary],
+                    ["GWP100 set", scheme.gwp.upper()],
+                    ["electricity rule", scheme.electricity],
+                    ["stages left out", ", ".join(scheme.excluded_stages) or "none"],
+                    ["counts construction", scheme.counts_construction],
+                    ["recorded from memory", scheme.from_memory],
+                ],
+            )
+        )
+        parts.append(
+            "\n"
+            + table(
+                ["tier", "limit", "comparison", "source", "from memory"],
+                [
+                    [t.tier, t.limit, "value <= limit" if t.inclusive else "value < limit", t.source, t.from_memory]
+                    for t in sorted(scheme.thresholds, key=lambda t: -t.limit)
+                ],
+            )
+        )
         if scheme.note:
             parts.append(f"\n{scheme.note}\n")
     return "\n".join(parts)
 
 
 def factors_page() -> str:
-    parts = ["# Factor library\n", "Generated from `factors/sets/*/factors.csv`. Every value cites its source and carries a source grade: primary text (read in the document itself or its official data file), verbatim secondary (a faithful copy of it), secondary (a summary or derived data set), not yet verified against the source document, or invented (demo values). `carbonledger factors grades` counts them by kind.\n"]
+    parts = [
+        "# Factor library\n",
+        "Generated from `factors/sets/*/factors.csv`. Every value cites its source and carries a source grade: "
+        "primary text (read in the document itself or its official data file), verbatim secondary (a faithful copy of "
+        "it), secondary (a summary or derived data set), not yet verified against the source document, or invented "
+        "(demo values). `carbonledger factors grades` counts them by kind.\n",
+    ]
     for name in available_sets():
         factor_set = load_factor_set(name)
         parts.append(f"\n## {factor_set.name}\n\n{factor_set.description}\n\nsha256 `{factor_set.sha256}`\n")
-        rows = [[f"`{f.id}`", f.value, f.unit, f.source, f.table, f.year, f.region, f.grade.words, f.note] for f in sorted(factor_set.factors.values(), key=lambda f: f.id)]
+        rows = [
+            [f"`{f.id}`", f.value, f.unit, f.source, f.table, f.year, f.region, f.grade.words, f.note]
+            for f in sorted(factor_set.factors.values(), key=lambda f: f.id)
+        ]
         parts.append(table(["id", "value", "unit", "source", "table", "year", "region", "source grade", "note"], rows))
     return "\n".join(parts)
 
@@ -110,14 +143,28 @@ def stage_modules() -> list[str]:
 
 
 def stage_functions(module) -> list:
-    return [f for name, f in inspect.getmembers(module, inspect.isfunction) if f.__module__ == module.__name__ and not name.startswith("_")]
+    return [
+        f
+        for name, f in inspect.getmembers(module, inspect.isfunction)
+        if f.__module__ == module.__name__ and not name.startswith("_")
+    ]
 
 
 def route_modules(route) -> list:
     """The module that declares a route and the route-package helpers it imports (marine fuels, ...)."""
     module = sys.modules[route.build.__module__]
-    helpers = [value for value in vars(module).values() if inspect.ismodule(value) and value.__name__.startswith("carbonledger.routes.")]
-    helpers += [sys.modules[value.__module__] for value in vars(module).values() if inspect.isfunction(value) and value.__module__.startswith("carbonledger.routes.") and value.__module__ != module.__name__]
+    helpers = [
+        value
+        for value in vars(module).values()
+        if inspect.ismodule(value) and value.__name__.startswith("carbonledger.routes.")
+    ]
+    helpers += [
+        sys.modules[value.__module__]
+        for value in vars(module).values()
+        if inspect.isfunction(value)
+        and value.__module__.startswith("carbonledger.routes.")
+        and value.__module__ != module.__name__
+    ]
     return [module] + [m for m in dict.fromkeys(helpers) if m is not module]
 
 
@@ -139,7 +186,12 @@ def factor_patterns(route) -> list[str]:
     found = []
     for module in route_modules(route):
         found += re.findall(r"""inputs\.factor\(\s*f?["']([^"']+)["']""", inspect.getsource(module))
-        found += [f"reference: {name}" for name in re.findall(r"inputs\.(molar_mass|latent_heat_\w+|formation_enthalpy_\w+)\(", inspect.getsource(module))]
+        found += [
+            f"reference: {name}"
+            for name in re.findall(
+                r"inputs\.(molar_mass|latent_heat_\w+|formation_enthalpy_\w+)\(", inspect.getsource(module)
+            )
+        ]
     return sorted(set(found))
 
 
@@ -167,7 +219,9 @@ def factors_read_in_demos() -> dict[str, dict[str, object]]:
             read.setdefault(self.route, {})[value.id] = value
             return super()._reference(value)
 
-    demos = sorted((ROOT / "demo_projects").glob("*.toml")) + sorted((ROOT / "demo_projects" / "portfolio").glob("*.toml"))
+    demos = sorted((ROOT / "demo_projects").glob("*.toml")) + sorted(
+        (ROOT / "demo_projects" / "portfolio").glob("*.toml")
+    )
     for path in demos:
         project, _ = load_project(path)
         params = project.model_dump()
@@ -201,7 +255,15 @@ def factor_table(rows: dict[str, object]) -> str:
         return "None read in the demo projects.\n"
     lines = []
     for factor_id, row in sorted(rows.items()):
-        lines.append([f"`{factor_id}`", getattr(row, "value", ""), getattr(row, "unit", ""), getattr(row, "source", ""), row.grade.words])
+        lines.append(
+            [
+                f"`{factor_id}`",
+                getattr(row, "value", ""),
+                getattr(row, "unit", ""),
+                getattr(row, "source", ""),
+                row.grade.words,
+            ]
+        )
     return table(["id", "value", "unit", "source", "source grade"], lines)
 
 
@@ -209,26 +271,40 @@ def stage_page(name: str, read: dict) -> str:
     module = importlib.import_module(f"carbonledger.stages.{name}")
     title = name.replace("_", " ").capitalize()
     users = used_by(name)
-    parts = [f"# Stage: {title}\n", f"Module `carbonledger.stages.{name}`. Generated from the code: the equations are the stage functions run on symbols.\n"]
+    parts = [
+        f"# Stage: {title}\n",
+        f"Module `carbonledger.stages.{name}`. Generated from the code: the equations are the stage functions run on "
+        "symbols.\n",
+    ]
     parts.append("## Equations\n")
     for function in stage_functions(module):
         parts.append(f"### `{function.__name__}`\n")
         parts.append(equation_block(function))
     parts.append("\n## Where it is used\n")
-    parts.append(", ".join(f"`{route.name}` ({route.kind.replace('_', ' ')})" for route in users) + "\n" if users else "Not called by a route module (used by analyses).\n")
+    parts.append(
+        ", ".join(f"`{route.name}` ({route.kind.replace('_', ' ')})" for route in users) + "\n"
+        if users
+        else "Not called by a route module (used by analyses).\n"
+    )
     parts.append("\n## Factors read by the routes that use it\n")
     merged: dict[str, object] = {}
     for route in users:
         merged.update(read.get(route.name, {}))
     parts.append(factor_table(merged))
     parts.append("\n## Functions, units and references\n")
-    parts.append(f"::: carbonledger.stages.{name}\n    options:\n      show_root_heading: false\n      heading_level: 3\n")
+    parts.append(
+        f"::: carbonledger.stages.{name}\n    options:\n      show_root_heading: false\n      heading_level: 3\n"
+    )
     return "\n".join(parts)
 
 
 def leg_page(route, read: dict) -> str:
     module = sys.modules[route.build.__module__]
-    parts = [f"# Delivery leg: {route.name.replace('_', ' ')}\n", f"{route.description}.\n", f"Module `{module.__name__}`; stages {', '.join(f'`{s}`' for s in route.stages)}.\n"]
+    parts = [
+        f"# Delivery leg: {route.name.replace('_', ' ')}\n",
+        f"{route.description}.\n",
+        f"Module `{module.__name__}`; stages {', '.join(f'`{s}`' for s in route.stages)}.\n",
+    ]
     parts.append("```text\n" + inspect.cleandoc(module.__doc__ or "") + "\n```\n")
     parts.append("## Parameters\n")
     rows = []
@@ -248,7 +324,14 @@ def leg_page(route, read: dict) -> str:
             parts.append(equation_block(getattr(stage_module, function_name)))
     parts.append("\n## Factors it reads\n")
     patterns = factor_patterns(route)
-    parts.append("As asked for in the code (`{...}` is the project's choice):\n\n" + ("".join(f"- `{pattern}`\n" for pattern in patterns) if patterns else "None: the leg reads no factor of its own (its electricity comes from the project's mix).\n"))
+    parts.append(
+        "As asked for in the code (`{...}` is the project's choice):\n\n"
+        + (
+            "".join(f"- `{pattern}`\n" for pattern in patterns)
+            if patterns
+            else "None: the leg reads no factor of its own (its electricity comes from the project's mix).\n"
+        )
+    )
     parts.append("\nAs read while the demo projects were built:\n\n" + factor_table(read.get(route.name, {})))
     parts.append("\n## References\n")
     for stage in stage_calls(route):
@@ -264,15 +347,27 @@ def reference_page(module: str) -> str:
 
 
 def methodology_index() -> str:
-    lines = ["# Methodology\n", "One page per stage module and per delivery leg of the route registry, generated from the code.\n", "## Stages\n"]
+    lines = [
+        "# Methodology\n",
+        "One page per stage module and per delivery leg of the route registry, generated from the code.\n",
+        "## Stages\n",
+    ]
     lines += [f"- [{name.replace('_', ' ').capitalize()}](stages/{name}.md)" for name in stage_modules()]
     lines += ["", "## Delivery legs\n"]
-    lines += [f"- [{route.name.replace('_', ' ').capitalize()}](legs/{route.name}.md): {route.description}" for route in routes.DELIVERY_LEGS]
+    lines += [
+        f"- [{route.name.replace('_', ' ').capitalize()}](legs/{route.name}.md): {route.description}"
+        for route in routes.DELIVERY_LEGS
+    ]
     return "\n".join(lines) + "\n"
 
 
 DEMO = ROOT / "demo_projects"
-SHIPPED = ("grey_smr_ammonia_shipped", "blue_atr_ammonia_shipped", "green_electrolysis_ammonia_shipped", "green_ammonia_cracked_hydrogen")
+SHIPPED = (
+    "grey_smr_ammonia_shipped",
+    "blue_atr_ammonia_shipped",
+    "green_electrolysis_ammonia_shipped",
+    "green_ammonia_cracked_hydrogen",
+)
 
 
 def demo_pictures() -> None:
@@ -306,33 +401,74 @@ def nav() -> list:
     """The site's navigation, with every generated page."""
     return [
         {"Home": "index.md"},
-        {"Getting started": [{"Quick start": "getting-started/index.md"}, {"Install and check": "getting-started/install.md"}]},
+        {
+            "Getting started": [
+                {"Quick start": "getting-started/index.md"},
+                {"Install and check": "getting-started/install.md"},
+            ]
+        },
         {"Your own site": "own-site.md"},
         {"Reading a verdict": "verdicts.md"},
-        {"Deliverables": [{"The project report": "deliverables/report.md"}, {"The audit workbook": "deliverables/workbook.md"}, {"Charts": "deliverables/charts.md"}, {"The evidence pack": "deliverables/pack.md"}]},
-        {"What-ifs": [
-            {"Comparing pathways": "what-ifs/compare.md"},
-            {"Hour by hour and the operating plan": "what-ifs/matching-and-plan.md"},
-            {"A revised factor set, recalc and history": "what-ifs/factor-revisions.md"},
-            {"Over the operating life": "what-ifs/lifetime.md"},
-            {"How sure: uncertainty": "what-ifs/uncertainty.md"},
-            {"Headroom": "what-ifs/headroom.md"},
-            {"Sensitivity": "what-ifs/sensitivity.md"},
-            {"Portfolios on a cluster": "what-ifs/portfolios.md"},
-        ]},
-        {"File formats": [{"The project file": "formats/project-file.md"}, {"Outputs: JSON and CSV": "formats/outputs.md"}, {"Bad input": "formats/bad-input.md"}]},
+        {
+            "Deliverables": [
+                {"The project report": "deliverables/report.md"},
+                {"The audit workbook": "deliverables/workbook.md"},
+                {"Charts": "deliverables/charts.md"},
+                {"The evidence pack": "deliverables/pack.md"},
+            ]
+        },
+        {
+            "What-ifs": [
+                {"Comparing pathways": "what-ifs/compare.md"},
+                {"Hour by hour and the operating plan": "what-ifs/matching-and-plan.md"},
+                {"A revised factor set, recalc and history": "what-ifs/factor-revisions.md"},
+                {"Over the operating life": "what-ifs/lifetime.md"},
+                {"How sure: uncertainty": "what-ifs/uncertainty.md"},
+                {"Headroom": "what-ifs/headroom.md"},
+                {"Sensitivity": "what-ifs/sensitivity.md"},
+                {"Portfolios on a cluster": "what-ifs/portfolios.md"},
+            ]
+        },
+        {
+            "File formats": [
+                {"The project file": "formats/project-file.md"},
+                {"Outputs: JSON and CSV": "formats/outputs.md"},
+                {"Bad input": "formats/bad-input.md"},
+            ]
+        },
         {"What it takes to qualify": "qualify.md"},
         {"A team's ledger": "ledger.md"},
-        {"Methodology": [
-            {"Routes and how results are computed": "methodology/routes.md"},
-            {"Delivery beyond the gate": "methodology/delivery.md"},
-            {"Stages and legs: overview": "generated/methodology/index.md"},
-            {"Stages": [{name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"} for name in stage_modules()]},
-            {"Delivery legs": [{route.name.replace("_", " ").capitalize(): f"generated/methodology/legs/{route.name}.md"} for route in routes.DELIVERY_LEGS]},
-        ]},
+        {
+            "Methodology": [
+                {"Routes and how results are computed": "methodology/routes.md"},
+                {"Delivery beyond the gate": "methodology/delivery.md"},
+                {"Stages and legs: overview": "generated/methodology/index.md"},
+                {
+                    "Stages": [
+                        {name.replace("_", " ").capitalize(): f"generated/methodology/stages/{name}.md"}
+                        for name in stage_modules()
+                    ]
+                },
+                {
+                    "Delivery legs": [
+                        {route.name.replace("_", " ").capitalize(): f"generated/methodology/legs/{route.name}.md"}
+                        for route in routes.DELIVERY_LEGS
+                    ]
+                },
+            ]
+        },
         {"Scheme rulebooks": "generated/rulebooks.md"},
         {"Factor library": "generated/factors.md"},
-        {"API reference": [{module.removeprefix("carbonledger.") if module != "carbonledger.routes" else "routes (registry)": f"generated/reference/{module}.md"} for module in PUBLIC_MODULES]},
+        {
+            "API reference": [
+                {
+                    module.removeprefix("carbonledger.")
+                    if module != "carbonledger.routes"
+                    else "routes (registry)": f"generated/reference/{module}.md"
+                }
+                for module in PUBLIC_MODULES
+            ]
+        },
     ]
 
 
@@ -342,7 +478,9 @@ def main() -> None:
     for name, text in pages().items():
         path = DOCS / name
         path.parent.mkdir(parents=True, exist_ok=True)
-        if not path.exists() or path.read_text(encoding="utf-8") != text:  # unchanged pages are left alone (mkdocs serve)
+        if (
+            not path.exists() or path.read_text(encoding="utf-8") != text
+        ):  # unchanged pages are left alone (mkdocs serve)
             path.write_text(text, encoding="utf-8")
             written += 1
     print(f"{written} pages written to {OUT}", file=sys.stderr)

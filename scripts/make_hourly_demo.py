@@ -55,7 +55,9 @@ def solar_kwh(times: pd.DatetimeIndex, rng: np.random.Generator) -> np.ndarray:
     hourly = np.clip(np.repeat(daily, 24) + rng.normal(0, 0.08, size=days * 24), 0.05, 1.0)
     ghi = clear * hourly
     parts = pvlib.irradiance.erbs(ghi, position["zenith"], times)
-    plane = pvlib.irradiance.get_total_irradiance(30, 180, position["apparent_zenith"], position["azimuth"], parts["dni"], ghi, parts["dhi"])
+    plane = pvlib.irradiance.get_total_irradiance(
+        30, 180, position["apparent_zenith"], position["azimuth"], parts["dni"], ghi, parts["dhi"]
+    )
     poa = np.nan_to_num(plane["poa_global"].to_numpy(), nan=0.0).clip(min=0)
     return SOLAR_MWP * 1000.0 * poa / 1000.0 * 0.86
 
@@ -85,7 +87,9 @@ def wind_speed(times: pd.DatetimeIndex, z: np.ndarray) -> np.ndarray:
 
 def main(out: Path = OUT) -> None:
     rng = np.random.default_rng(SEED)
-    times = pd.date_range(f"{YEAR}-01-01", periods=8760, freq="h", tz="UTC") - pd.Timedelta(hours=1)  # local midnight +01:00
+    times = pd.date_range(f"{YEAR}-01-01", periods=8760, freq="h", tz="UTC") - pd.Timedelta(
+        hours=1
+    )  # local midnight +01:00
     solar = solar_kwh(times, rng)
     wind = WIND_MW * 1000.0 * 0.9 * power_curve_fraction(wind_speed(times, autocorrelated(rng, len(times), 0.975)))
     offsets = offsets_hours(times)
@@ -95,7 +99,9 @@ def main(out: Path = OUT) -> None:
     grid = (
         300.0
         + 70.0 * np.cos(2 * np.pi * (day - 15) / 365.0)
-        - 90.0 * np.clip(np.sin(np.pi * (local_hour - 7) / 12.0), 0, None) * (1 + 0.5 * np.sin(2 * np.pi * (day - 80) / 365.0))
+        - 90.0
+        * np.clip(np.sin(np.pi * (local_hour - 7) / 12.0), 0, None)
+        * (1 + 0.5 * np.sin(2 * np.pi * (day - 80) / 365.0))
         + 45.0 * np.exp(-0.5 * ((local_hour - 19) / 1.5) ** 2)
         - 120.0 * grid_wind
         + rng.normal(0, 12, size=len(times))
@@ -115,9 +121,15 @@ def main(out: Path = OUT) -> None:
             "price [EUR/MWh]": price.round(2),
         }
     )
-    header = f"# INVENTED demo data (scripts/make_hourly_demo.py, seed {SEED}): solar, wind, grid intensity, price and load are invented, not measured.\n"
+    header = (
+        f"# INVENTED demo data (scripts/make_hourly_demo.py, seed {SEED}): solar, wind, grid intensity, price and load "
+        "are invented, not measured.\n"
+    )
     out.write_text(header + frame.to_csv(index=False, lineterminator="\n"), encoding="utf-8")
-    print(f"wrote {out}: {len(frame)} hours; solar {solar.sum() / 1e6:.1f} GWh, wind {wind.sum() / 1e6:.1f} GWh, load {load.sum() / 1e6:.1f} GWh, grid mean {grid.mean():.0f} g/kWh")
+    print(
+        f"wrote {out}: {len(frame)} hours; solar {solar.sum() / 1e6:.1f} GWh, wind {wind.sum() / 1e6:.1f} GWh, load "
+        f"{load.sum() / 1e6:.1f} GWh, grid mean {grid.mean():.0f} g/kWh"
+    )
 
 
 if __name__ == "__main__":
