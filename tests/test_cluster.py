@@ -25,8 +25,7 @@ def test_recalc_and_monte_carlo_on_two_worker_processes_match_the_serial_run(tmp
         assert chunks >= 2
         spread = recalc(projects, old, new, mapper=mapper, chunks=chunks)
         spread_draws = mapper(api.uncertainty_one, tasks)
-    assert [s.model_dump() for s in spread.new_scores] == [s.model_dump() for s in serial.new_scores]
-    assert [s.model_dump() for s in spread.old_scores] == [s.model_dump() for s in serial.old_scores]
+    assert spread.new_scores == serial.new_scores and spread.old_scores == serial.old_scores
     assert spread.rows == serial.rows and spread.rescored == serial.rescored > 0
     assert [r.model_dump() for r in spread_draws] == [r.model_dump() for r in serial_draws]
 

@@ -115,7 +115,7 @@ def generated_portfolio(folder, count: int) -> list:
 def test_recalc_fast_path_equals_score_project_on_a_generated_portfolio(tmp_path, monkeypatch):
     """The fast path (projects scored a chunk at a time, stacked solves, a rescored project taking
     its scheme readings from its first scoring) against bw2calc, one LCA per project and set
-    (``score_project``): every figure to 1e-9 relative, every status and reason the same."""
+    (``score_project``): every figure to 1e-9 relative, every status, tier and verdict the same."""
     monkeypatch.setattr(portfolio, "CHUNK_PROJECTS", 7)  # several chunks, a structure met again in a later one
     projects = generated_portfolio(tmp_path, 40)
     old_set, new_set = load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision")
@@ -132,8 +132,27 @@ def test_recalc_fast_path_equals_score_project_on_a_generated_portfolio(tmp_path
             assert [c.scheme for c in fast.checks] == [c.scheme for c in slow.checks]
             for quick, check in zip(fast.checks, slow.checks, strict=True):
                 assert quick.value == pytest.approx(check.value, rel=1e-9, abs=1e-12)
-                assert (quick.status, quick.tier, quick.reasons) == (check.status, check.tier, check.reasons)
+                assert (quick.status, quick.tier, quick.passes, quick.limit) == (check.status, check.tier, check.passes, check.limit)
             assert fast.factor_set.sha256 == factor_set.sha256
+
+
+def test_a_portfolios_figures_equal_those_of_the_full_result(tmp_path):
+    """A recalc makes each project's figures without its exchanges and sentences (``figures_of``): they must
+    equal, field by field, the figures of the full result of the same prepared and solved project (the
+    generated portfolio, the demos and the portfolio folder, which hold a time series and co-product rules)."""
+    from carbonledger.analyses.pipeline import figures_prepared, judged_result
+    from carbonledger.core.results import ResultFigures
+    from carbonledger.core.scoring import figures_of, solve_stacked
+
+    projects = generated_portfolio(tmp_path, 30) + load_portfolio([DEMO, PORTFOLIO])
+    for name in ("default-2026", "demo-2027-grid-revision"):
+        factor_set = load_factor_set(name)
+        prepared = portfolio.prepare_projects(projects, [factor_set] * len(projects), [None] * len(projects), "ar6", None)
+        full = [ResultFigures.of(judged_result(item, ready, solutions)) for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, False), strict=True)]
+        assert figures_prepared(projects, prepared, False) == full
+    lean = [figures_of(ready, solutions) for ready, solutions in zip(prepared, solve_stacked(prepared, False), strict=True)]
+    assert sum(figures is not None for figures in lean) >= 30  # most projects take the lean path
+    assert any(figures is None for figures in lean)  # and a co-product rule that differs takes the full one
 
 
 def test_recalc_exit_codes_and_formats(tmp_path):
@@ -192,9 +211,9 @@ def test_results_made_without_validation_hold_what_validation_gives(tmp_path):
     from carbonledger.core.results import Check, ExchangeRow
 
     projects = generated_portfolio(tmp_path, 12)
-    result = recalc(projects, load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision"))
-    made = [(Check, check) for score in result.old_scores + result.new_scores for check in score.checks]
-    made += [(ExchangeRow, row) for score in result.old_scores + result.new_scores for row in score.exchanges]
+    results = score_many(projects, load_factor_set("default-2026")) + score_many(projects, load_factor_set("demo-2027-grid-revision"))
+    made = [(Check, check) for score in results for check in score.checks]
+    made += [(ExchangeRow, row) for score in results for row in score.exchanges]
     assert {model for model, _ in made} == {Check, ExchangeRow}
     for model, item in made:
         validated = model.model_validate(item.model_dump())

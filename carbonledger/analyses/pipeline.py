@@ -15,8 +15,8 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..core.assessment import Assessment
-from ..core.results import ScoreResult
-from ..core.scoring import Prepared, assemble, solve_stacked, solve_with_bw2calc
+from ..core.results import ResultFigures, ScoreResult
+from ..core.scoring import Prepared, assemble, figures_of, solve_stacked, solve_with_bw2calc
 from ..errors import InputError
 from ..routes.project import load_project
 from .electricity_series import ElectricitySeries, project_series
@@ -186,10 +186,41 @@ def assess_prepared(
     list of ScoreResult
         In the order of ``projects``.
     """
-    results = []
-    for item, ready, solutions in zip(
-        projects, prepared, solve_stacked(prepared, check_with_bw2calc, checked), strict=True
-    ):
-        result = assemble(ready, solutions)
-        results.append(result if item.series is None else matched_checks(ready, solutions, result, item.series))
-    return results
+    solved = solve_stacked(prepared, check_with_bw2calc, checked)
+    return [
+        judged_result(item, ready, solutions) for item, ready, solutions in zip(projects, prepared, solved, strict=True)
+    ]
+
+
+def judged_result(item: PortfolioProject, ready: Prepared, solutions: dict) -> ScoreResult:
+    """One solved project's result: assembled, its checks matched against its series if it has one."""
+    result = assemble(ready, solutions)
+    return result if item.series is None else matched_checks(ready, solutions, result, item.series)
+
+
+def figures_prepared(
+    projects: list[PortfolioProject],
+    prepared: list[Prepared],
+    check_with_bw2calc: bool = True,
+    checked: set | None = None,
+) -> list[ResultFigures]:
+    """``assess_prepared`` for what a portfolio needs of each result (``ResultFigures``): made without the
+    exchanges, activities and sentences (``core.scoring.figures_of``), or taken from the full result where
+    only it decides (a time series to match, a co-product rule that differs from the project's method).
+
+    Parameters
+    ----------
+    projects, prepared, check_with_bw2calc, checked
+        As ``assess_prepared`` takes them.
+
+    Returns
+    -------
+    list of ResultFigures
+        In the order of ``projects``; each equal to ``ResultFigures.of`` the project's full result.
+    """
+    solved = solve_stacked(prepared, check_with_bw2calc, checked)
+    return [
+        (figures_of(ready, solutions) if item.series is None else None)
+        or ResultFigures.of(judged_result(item, ready, solutions))
+        for item, ready, solutions in zip(projects, prepared, solved, strict=True)
+    ]

@@ -26,7 +26,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..core.assessment import Assessment
-from ..core.results import FactorSetRef, ScoreResult
+from ..core.results import FactorSetRef, ResultFigures, ScoreResult
 from ..core.scoring import DEFAULT_GWP, Prepared, rulebooks
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
@@ -34,7 +34,7 @@ from ..model.rulebooks import scheme_ids
 from ..model.statuses import Status
 from ..routes.project import load_project
 from .electricity_series import project_series
-from .pipeline import PortfolioProject, assess_prepared, prepare_many
+from .pipeline import PortfolioProject, assess_prepared, figures_prepared, prepare_many
 
 STATUSES = (
     "now fails",
@@ -206,8 +206,8 @@ class Recalc:
     new_sha256: str
     changed_factors: list[str]
     rows: list[RecalcRow]
-    old_scores: list[ScoreResult]
-    new_scores: list[ScoreResult]
+    old_scores: list[ResultFigures]
+    new_scores: list[ResultFigures]
     rescored: int = 0  # projects that use a changed factor (the others kept their old result)
     ledger_run: object = (
         None  # where the run is being recorded (io.ledger.RunTarget), closed once the output is written
@@ -242,17 +242,18 @@ def status_of(old_status: str, new_status: str) -> str:
 class RecalcPiece:
     """The scores of one piece of a portfolio under the old and the new set (what a worker returns)."""
 
-    old_scores: list[ScoreResult]
-    new_scores: list[ScoreResult]
+    old_scores: list[ResultFigures]
+    new_scores: list[ResultFigures]
     rescored: list[int]  # positions in the piece of the projects that use a changed factor
 
 
 def recalc_piece(piece: tuple) -> RecalcPiece:
     """Score a piece (projects, old set, new set, changed factor ids, gwp, schemes, year) under the
     old set, and rescore under the new set only the projects that use a changed factor; the others
-    keep their old result, under the new set's name.
+    keep their old figures, under the new set's name.
 
-    The piece is scored ``CHUNK_PROJECTS`` at a time. A rescored project reads each scheme's rules
+    The piece is scored ``CHUNK_PROJECTS`` at a time, each project's figures made as the run ledger and
+    the rows need them (``pipeline.figures_prepared``). A rescored project reads each scheme's rules
     once: the rules read nothing of the factor set, so its new scoring takes the old one's readings
     (``core.scoring.scheme_reading``) when the two inventories give the rules the same electricity
     sources, stages and products."""
@@ -265,7 +266,7 @@ def recalc_piece(piece: tuple) -> RecalcPiece:
         for start in range(0, len(projects), CHUNK_PROJECTS):
             chunk = projects[start : start + CHUNK_PROJECTS]
             old_ready = prepare_projects(chunk, [old_set] * len(chunk), [year] * len(chunk), gwp, schemes)
-            old_scores = assess_prepared(chunk, old_ready, True, checked)
+            old_scores = figures_prepared(chunk, old_ready, True, checked)
             moving = [
                 n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)
             ]
@@ -276,27 +277,12 @@ def recalc_piece(piece: tuple) -> RecalcPiece:
                 if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
                     ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
             rescored = dict(
-                zip(moving, assess_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True)
+                zip(moving, figures_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True)
             )
-            for n, score in rescored.items():
-                share_unchanged_rows(old_scores[n], score)
             result.old_scores += old_scores
-            result.new_scores += [
-                rescored.get(n) or score.model_copy(update={"factor_set": new_ref})
-                for n, score in enumerate(old_scores)
-            ]
+            result.new_scores += [rescored.get(n) or score.under(new_ref) for n, score in enumerate(old_scores)]
             result.rescored += [start + n for n in moving]
     return result
-
-
-def share_unchanged_rows(old: ScoreResult, new: ScoreResult) -> None:
-    """The new result of a rescored project holds the old result's exchange rows where they are equal (the
-    amounts that no changed factor reaches): one object for both, so a portfolio's results take less memory."""
-    if len(old.exchanges) == len(new.exchanges):
-        new.exchanges[:] = [
-            before if before.__dict__ == after.__dict__ else after
-            for before, after in zip(old.exchanges, new.exchanges, strict=True)
-        ]
 
 
 def rules_read_alike(old: Prepared, new: Prepared) -> bool:
@@ -317,7 +303,9 @@ def rules_read_alike(old: Prepared, new: Prepared) -> bool:
     return (old.period, old.matching, old.params) == (new.period, new.matching, new.params) and seen(old) == seen(new)
 
 
-def recalc_rows(old_scores: list[ScoreResult], new_scores: list[ScoreResult], rescored: set[int]) -> list[RecalcRow]:
+def recalc_rows(
+    old_scores: list[ResultFigures], new_scores: list[ResultFigures], rescored: set[int]
+) -> list[RecalcRow]:
     """One row per project and scheme, in project order: the old and new value and status."""
     rows = []
     for number, (old, new) in enumerate(zip(old_scores, new_scores, strict=True)):

@@ -7,6 +7,7 @@ JSON documented in the manual (docs/formats/outputs.md).
 from __future__ import annotations
 
 import json
+from dataclasses import dataclass, replace
 from typing import Any
 
 from pydantic import BaseModel, computed_field
@@ -221,38 +222,133 @@ class ScoreResult(BaseModel):
         """Ids of the factors used that are not yet verified against their source document (grade
         "not yet verified"; kept for compatibility, ``factor_grades`` has every grade) and of the
         rulebooks checked that were recorded from memory."""
-        return {
-            "factors": [factor.id for factor in self.factors_used if factor.from_memory],
-            "rulebooks": [check.scheme for check in self.checks if check.from_memory],
-        }
+        return from_memory_of(self)
 
     def to_json(self) -> str:
         return strict_json(self.model_dump(mode="json"), self.project_file)
 
     def summary(self) -> dict:
         """The compact figures stored in the run ledger."""
-        return {
-            "assessment_year": self.assessment_year,
-            "total": self.total,
-            "unit": self.unit,
-            "intensity": self.intensity.model_dump(),
-            "by_stage": dict(self.by_stage),
-            "checks": [{"scheme": c.scheme, "value": c.value, "unit": c.unit, "limit": c.limit, "passes": c.passes, "status": c.status, "tier": c.tier} for c in self.checks],
-        }
+        return summary_of(self)
 
     def ledger_entry(self, kind: str = "score") -> dict:
         """What the run ledger stores of this result (plain values; the ledger imports no result type)."""
-        return {
-            "project_path": self.project_file,
-            "project_name": self.project,
-            "project_sha256": self.project_sha256,
-            "factor_set": self.factor_set.name,
-            "factor_set_sha256": self.factor_set.sha256,
-            "schemes": [check.scheme for check in self.checks],
-            "boundary": self.boundary,
-            "gwp": self.gwp_basis,
-            "results": self.summary(),
-            "parameters": self.parameters,
-            "factors_used": list(self.factors_used),  # model.factors.Factor rows: the ledger stores their plain values
-            "kind": kind,
-        }
+        return ledger_entry_of(self, kind)
+
+
+def from_memory_of(result) -> dict[str, list[str]]:
+    """Ids of a result's factors not yet verified and of its rulebooks recorded from memory (a ``ScoreResult``
+    or a ``ResultFigures``)."""
+    return {
+        "factors": [factor.id for factor in result.factors_used if factor.from_memory],
+        "rulebooks": [check.scheme for check in result.checks if check.from_memory],
+    }
+
+
+def summary_of(result) -> dict:
+    """The compact figures the run ledger stores of a result (a ``ScoreResult`` or a ``ResultFigures``)."""
+    return {
+        "assessment_year": result.assessment_year,
+        "total": result.total,
+        "unit": result.unit,
+        "intensity": result.intensity.model_dump(),
+        "by_stage": dict(result.by_stage),
+        "checks": [
+            {
+                "scheme": c.scheme,
+                "value": c.value,
+                "unit": c.unit,
+                "limit": c.limit,
+                "passes": c.passes,
+                "status": c.status,
+                "tier": c.tier,
+            }
+            for c in result.checks
+        ],
+    }
+
+
+def ledger_entry_of(result, kind: str) -> dict:
+    """What the run ledger stores of a result (a ``ScoreResult`` or a ``ResultFigures``): plain values."""
+    return {
+        "project_path": result.project_file,
+        "project_name": result.project,
+        "project_sha256": result.project_sha256,
+        "factor_set": result.factor_set.name,
+        "factor_set_sha256": result.factor_set.sha256,
+        "schemes": [check.scheme for check in result.checks],
+        "boundary": result.boundary,
+        "gwp": result.gwp_basis,
+        "results": summary_of(result),
+        "parameters": result.parameters,
+        "factors_used": list(result.factors_used),  # model.factors.Factor rows: the ledger stores their plain values
+        "kind": kind,
+    }
+
+
+@dataclass(frozen=True)
+class CheckFigures:
+    """A scheme check's figures and verdict, without its sentences (what a portfolio's rows and the run
+    ledger read of a ``Check``)."""
+
+    scheme: str
+    value: float
+    unit: str
+    limit: float
+    passes: bool
+    status: str
+    tier: str | None
+    from_memory: bool
+
+
+@dataclass(frozen=True)
+class ResultFigures:
+    """The figures of a scored project a portfolio needs (``analyses.portfolio.recalc``): the headline, the
+    intensities, stages and gases, the checks' values and verdicts, the parameters and factor rows; what the
+    run ledger stores of a ``ScoreResult``, without its exchanges, activities or sentences."""
+
+    project: str
+    project_file: str
+    project_sha256: str
+    assessment_year: int | None
+    product: str
+    boundary: str
+    unit: str
+    gwp_basis: str
+    factor_set: FactorSetRef
+    total: float
+    intensity: Intensity
+    hydrogen_production_kg_co2e_per_kg_h2: float
+    by_stage: dict[str, float]
+    by_gas: dict[str, float]
+    checks: tuple[CheckFigures, ...]
+    parameters: dict[str, Any]
+    factors_used: tuple[Factor, ...]
+
+    @classmethod
+    def of(cls, result: ScoreResult) -> ResultFigures:
+        """The figures of a full result."""
+        checks = tuple(
+            CheckFigures(c.scheme, c.value, c.unit, c.limit, c.passes, c.status, c.tier, c.from_memory)
+            for c in result.checks
+        )
+        names = [name for name in cls.__dataclass_fields__ if name not in ("checks", "factors_used")]
+        return cls(
+            **{name: getattr(result, name) for name in names}, checks=checks, factors_used=tuple(result.factors_used)
+        )
+
+    @property
+    def from_memory(self) -> dict[str, list[str]]:
+        return from_memory_of(self)
+
+    def summary(self) -> dict:
+        """The compact figures stored in the run ledger."""
+        return summary_of(self)
+
+    def ledger_entry(self, kind: str = "score") -> dict:
+        """What the run ledger stores of this result."""
+        return ledger_entry_of(self, kind)
+
+    def under(self, factor_set: FactorSetRef) -> ResultFigures:
+        """The same figures under another factor set's name (a project no changed factor reaches)."""
+        return replace(self, factor_set=factor_set)

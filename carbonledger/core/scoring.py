@@ -35,9 +35,11 @@ from .inputs import NumericInputs
 from .inventory import Inventory, build_inventory, check_physical_limits
 from .results import (
     Check,
+    CheckFigures,
     ExchangeRow,
     FactorSetRef,
     Intensity,
+    ResultFigures,
     ScoreResult,
     constructed,
 )
@@ -899,13 +901,8 @@ def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
         ``status``, ``reasons``, ``passes``, ``tier``, ``limit`` and ``margin`` (limit - value, in the
         scheme's unit), as ``Check`` takes them.
     """
-    verdict = scheme.evaluate(value)
-    status = status_of(findings, verdict["passes"])
-    verdict["passes"] = status == Status.QUALIFIES
-    if status != Status.QUALIFIES:
-        verdict["tier"] = None
-    if status == Status.NOT_ELIGIBLE:
-        verdict["margin"] = None
+    verdict = verdict_of(scheme, value, findings)
+    status = verdict["status"]
     if status == Status.UNDETERMINED:
         room = (
             f"qualifies if what cannot be judged adds at most {figure(verdict['margin'])} {scheme.unit} and meets its "
@@ -917,7 +914,40 @@ def judged(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
             else f
             for f in findings
         ]
-    return {**verdict, "status": status, "reasons": ordered_reasons(status, findings, threshold_finding(scheme, value))}
+    return {**verdict, "reasons": ordered_reasons(status, findings, threshold_finding(scheme, value))}
+
+
+def verdict_of(scheme: Scheme, value: float, findings: list[Finding]) -> dict:
+    """The status of a scheme value under the scheme's findings, without the sentences (``judged`` adds them).
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook whose thresholds apply.
+    value : float
+        The scheme's value, in the scheme's unit.
+    findings : list of Finding
+        The scheme's findings before the threshold (``Reading.findings``).
+
+    Returns
+    -------
+    dict
+        ``status``, ``passes`` (qualifies only), ``tier`` (only when it qualifies), ``limit`` (the loosest) and
+        ``margin`` (limit - value, in the scheme's unit; None when not eligible).
+
+    References
+    ----------
+    .. [1] The order of the steps: ``carbonledger.core.verdicts.status_of``.
+    """
+    verdict = scheme.evaluate(value)
+    status = status_of(findings, verdict["passes"])
+    verdict["status"] = status
+    verdict["passes"] = status == Status.QUALIFIES
+    if status != Status.QUALIFIES:
+        verdict["tier"] = None
+    if status == Status.NOT_ELIGIBLE:
+        verdict["margin"] = None
+    return verdict
 
 
 def scheme_characterisation(vector, scheme: Scheme):
@@ -1224,32 +1254,53 @@ def scheme_checks(prepared: Prepared, solutions: dict) -> list[Check]:
         One check per chosen scheme, in rulebook order: value in the scheme's unit, status, reasons, tier and
         margin.
     """
+    period = prepared.period.label()
+    return [check_of(scheme, value, reading, period) for scheme, value, reading in scheme_values(prepared, solutions)]
+
+
+def scheme_values(prepared: Prepared, solutions: dict) -> list[tuple[Scheme, float, Reading]]:
+    """Each chosen scheme's value under its own rulebook, with the reading of its rules.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    solutions : dict of str to Solution
+        The solved inventories by demand activity key.
+
+    Returns
+    -------
+    list of tuple
+        (scheme, value in the scheme's unit, ``Reading``) per chosen scheme, in rulebook order.
+
+    References
+    ----------
+    .. [1] Commission Delegated Regulation (EU) 2023/1185, Annex Part A: E = e_i + e_p + e_td + e_u - e_ccs
+       (``scheme_value``).
+    """
     inventory = prepared.inventory
     keys = prepared.matrices.activity_keys
-    period = prepared.period.label()
-    checks = []
+    values = []
     for scheme in prepared.chosen:
         reading = scheme_reading(prepared, scheme)
         basis_demand, basis_product = basis_of(scheme, inventory)
         vector = scheme_characterisation(prepared.per_gwp[scheme.gwp], scheme)
         solution = solutions[basis_demand]
         figures = (basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)
-        value = float(
-            scheme_value(
-                scheme,
-                inventory,
-                keys,
-                prepared.matrices.flow_keys,
-                reading,
-                vector,
-                solution.contributions(vector),
-                solution.supply,
-                figures,
-                prepared.params,
-            )
+        value = scheme_value(
+            scheme,
+            inventory,
+            keys,
+            prepared.matrices.flow_keys,
+            reading,
+            vector,
+            solution.contributions(vector),
+            solution.supply,
+            figures,
+            prepared.params,
         )
-        checks.append(check_of(scheme, value, reading, period))
-    return checks
+        values.append((scheme, float(value), reading))
+    return values
 
 
 def scheme_check_fields(scheme: Scheme) -> dict:
@@ -1423,35 +1474,24 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
     .. [1] Sand, M. et al. (2023), A multi-model assessment of the Global Warming Potential of hydrogen,
        Communications Earth & Environment 4, 203: GWP100 11.6 of leaked hydrogen (``gwp_indirect.h2``).
     """
-    params, inventory, matrices, headline = prepared.params, prepared.inventory, prepared.matrices, prepared.headline
+    params, inventory = prepared.params, prepared.inventory
     main = solutions[inventory.reference]
-    contributions = main.contributions(headline)
-    total = float(contributions.sum())
-    keys = matrices.activity_keys
-    by_activity = {key: float(v) for key, v in zip(keys, contributions.sum(axis=0), strict=True)}
-    stage_sums, gas_sums = stage_and_gas_sums(contributions, keys, matrices.flow_keys, inventory)
-    hydrogen_gate = float(solutions[inventory.hydrogen].contributions(headline).sum())
+    figures, contributions = headline_figures(prepared, solutions)
+    keys = prepared.matrices.activity_keys
     supply = dict(zip(keys, main.supply, strict=True))
     heating = {
         "hydrogen_lhv": prepared.hydrogen_lhv,
         **({"ammonia_lhv": prepared.ammonia_lhv} if inventory.product == "ammonia" else {}),
     }
-    every = intensities(
-        total, inventory.reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction
-    )
     return finite_result(
         ScoreResult(
             **result_identity(prepared),
-            total=total,
-            intensity=Intensity(**{k: every[k] for k in Intensity.model_fields}),
-            hydrogen_production_kg_co2e_per_kg_h2=hydrogen_gate,
+            **figures,
             hydrogen_kg_per_unit=float(supply[inventory.hydrogen]),
             gate_product_per_unit=float(supply[inventory.gate]),
             hydrogen_mass_fraction=float(prepared.fraction),
-            by_stage={stage: float(value) for stage, value in stage_sums.items()},
-            by_gas={flow: float(value) for flow, value in gas_sums.items()},
             **flows_counted_apart(prepared, main.inventory.sum(axis=1)),
-            by_activity=by_activity,
+            by_activity={key: float(v) for key, v in zip(keys, contributions.sum(axis=0), strict=True)},
             heating_values_mj_per_kg=heating,
             factors_used=_factor_rows(prepared.inputs.used),
             checks=co_product_checks(prepared, scheme_checks(prepared, solutions)),
@@ -1460,6 +1500,127 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
             delivery=_plain(inventory.delivery),
             co_products=_plain(inventory.co_products),
         )
+    )
+
+
+def headline_figures(prepared: Prepared, solutions: dict) -> tuple[dict, np.ndarray]:
+    """The headline of a result: kg CO2e per functional unit in total, as intensities, at the hydrogen plant's
+    gate, by stage and by gas, under the headline GWP set.
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    solutions : dict of str to Solution
+        The solved inventories by demand activity key.
+
+    Returns
+    -------
+    tuple
+        (``ScoreResult`` field -> value: total, intensity, hydrogen_production_kg_co2e_per_kg_h2, by_stage,
+        by_gas; the contributions of the functional unit, kg CO2e by flow and activity).
+    """
+    inventory, headline = prepared.inventory, prepared.headline
+    contributions = solutions[inventory.reference].contributions(headline)
+    total = float(contributions.sum())
+    stage_sums, gas_sums = stage_and_gas_sums(
+        contributions, prepared.matrices.activity_keys, prepared.matrices.flow_keys, inventory
+    )
+    every = intensities(
+        total, inventory.reference_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction
+    )
+    return {
+        "total": total,
+        "intensity": Intensity(**{k: every[k] for k in Intensity.model_fields}),
+        "hydrogen_production_kg_co2e_per_kg_h2": float(solutions[inventory.hydrogen].contributions(headline).sum()),
+        "by_stage": {stage: float(value) for stage, value in stage_sums.items()},
+        "by_gas": {flow: float(value) for flow, value in gas_sums.items()},
+    }, contributions
+
+
+def figures_of(prepared: Prepared, solutions: dict) -> ResultFigures | None:
+    """The figures a portfolio needs of a project (``ResultFigures``), made without the rest of a result:
+    the headline as ``assemble`` gives it, and each check's value and verdict as ``scheme_checks`` gives
+    them, without the sentences. None when a scheme's co-product rule differs from the project's method
+    (only ``assemble``'s ``co_product_checks`` decides that check).
+
+    Parameters
+    ----------
+    prepared : Prepared
+        The prepared project.
+    solutions : dict of str to Solution
+        The solved inventories by demand activity key.
+
+    Returns
+    -------
+    ResultFigures or None
+        The figures, equal to ``ResultFigures.of(assemble(prepared, solutions))``.
+
+    Raises
+    ------
+    InputError
+        When a figure is NaN or infinite (``finite_result``).
+    """
+    if any(
+        (rule := co_product_rule(scheme, prepared.params)) is not None and rule.differs for scheme in prepared.chosen
+    ):
+        return None
+    identity = result_identity(prepared)
+    figures, _ = headline_figures(prepared, solutions)
+    checks = tuple(
+        check_figures(scheme, value, reading) for scheme, value, reading in scheme_values(prepared, solutions)
+    )
+    return finite_result(
+        ResultFigures(
+            **{name: identity[name] for name in FIGURES_IDENTITY},
+            **figures,
+            checks=checks,
+            parameters=prepared.params,
+            factors_used=tuple(_factor_rows(prepared.inputs.used)),
+        )
+    )
+
+
+FIGURES_IDENTITY = (
+    "project",
+    "project_file",
+    "project_sha256",
+    "assessment_year",
+    "product",
+    "boundary",
+    "unit",
+    "gwp_basis",
+    "factor_set",
+)  # what ResultFigures takes of result_identity
+
+
+def check_figures(scheme: Scheme, value: float, reading: Reading) -> CheckFigures:
+    """A check's value and verdict as ``check_of`` makes them, without the sentences.
+
+    Parameters
+    ----------
+    scheme : Scheme
+        The rulebook read.
+    value : float
+        The scheme's value, in the scheme's unit.
+    reading : Reading
+        The scheme's rules read on the project (``read_rules``).
+
+    Returns
+    -------
+    CheckFigures
+        Scheme id, value, unit, loosest limit, passes, status, tier and whether the rulebook is from memory.
+    """
+    verdict = verdict_of(scheme, value, reading.findings)
+    return CheckFigures(
+        scheme.id,
+        value,
+        scheme.unit,
+        float(verdict["limit"]),
+        bool(verdict["passes"]),
+        str(verdict["status"]),
+        verdict["tier"],
+        scheme_check_fields(scheme)["from_memory"],
     )
 
 
