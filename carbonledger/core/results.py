@@ -237,8 +237,18 @@ class ScoreResult(BaseModel):
 
 
 def from_memory_of(result) -> dict[str, list[str]]:
-    """Ids of a result's factors not yet verified and of its rulebooks recorded from memory (a ``ScoreResult``
-    or a ``ResultFigures``)."""
+    """Ids of a result's factors not yet verified and of its rulebooks recorded from memory.
+
+    Parameters
+    ----------
+    result : ScoreResult or ResultFigures
+        The result (its ``factors_used`` and ``checks``).
+
+    Returns
+    -------
+    dict
+        ``factors`` and ``rulebooks`` -> lists of ids.
+    """
     return {
         "factors": [factor.id for factor in result.factors_used if factor.from_memory],
         "rulebooks": [check.scheme for check in result.checks if check.from_memory],
@@ -246,7 +256,19 @@ def from_memory_of(result) -> dict[str, list[str]]:
 
 
 def summary_of(result) -> dict:
-    """The compact figures the run ledger stores of a result (a ``ScoreResult`` or a ``ResultFigures``)."""
+    """The compact figures the run ledger stores of a result.
+
+    Parameters
+    ----------
+    result : ScoreResult or ResultFigures
+        The result.
+
+    Returns
+    -------
+    dict
+        Assessment year, total (kg CO2e per functional unit) and unit, intensities, stages and each check's
+        value, unit, limit, passes, status and tier.
+    """
     return {
         "assessment_year": result.assessment_year,
         "total": result.total,
@@ -269,7 +291,21 @@ def summary_of(result) -> dict:
 
 
 def ledger_entry_of(result, kind: str) -> dict:
-    """What the run ledger stores of a result (a ``ScoreResult`` or a ``ResultFigures``): plain values."""
+    """What the run ledger stores of a result: plain values (the ledger imports no result type).
+
+    Parameters
+    ----------
+    result : ScoreResult or ResultFigures
+        The result.
+    kind : str
+        The kind of run recorded (score, recalc, ...).
+
+    Returns
+    -------
+    dict
+        Project path, name and sha256, factor set and its sha256, schemes, boundary, GWP set, the
+        ``summary_of`` figures, parameters, factor rows and kind.
+    """
     return {
         "project_path": result.project_file,
         "project_name": result.project,
