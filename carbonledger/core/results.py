@@ -51,7 +51,9 @@ def strict_json(data: Any, where: str = "result") -> str:
     try:
         return json.dumps(data, indent=2, allow_nan=False, default=_plain_number)
     except ValueError:
-        raise InputError(where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)") from None
+        raise InputError(
+            where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)"
+        ) from None
 
 
 def constructed(model: type[BaseModel], values: dict[str, Any], fields_set: set[str]) -> BaseModel:
@@ -152,7 +154,9 @@ class Check(BaseModel):
     assessment_period: str = ""  # the dates the rules were read on (a calendar year)
     rule_versions: list[str] = []  # the version of each dated rule used
     electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
-    electricity_charged_as_grid: dict[str, str] = {}  # failing electricity activity -> grid activity whose intensity it is charged
+    electricity_charged_as_grid: dict[
+        str, str
+    ] = {}  # failing electricity activity -> grid activity whose intensity it is charged
     grade: str = ""  # the rulebook's grade: primary text, verbatim secondary, secondary, not yet verified
     user_rulebook: bool = False  # the rulebook is the user's own (--rulebook), not a shipped one
     rulebook_file: str = ""  # the file of a user rulebook
@@ -194,7 +198,8 @@ class ScoreResult(BaseModel):
     by_stage: dict[str, float]
     by_gas: dict[str, float]
     hydrogen_leakage_kg: float = 0.0  # kg H2 leaked or vented per functional unit (in non_ghg_kg too)
-    hydrogen_leakage_kg_co2e: float = 0.0  # its indirect effect with the GWP100 of hydrogen (factor gwp_indirect.h2): not in total, by_gas or any scheme value
+    # its indirect effect with the GWP100 of hydrogen (factor gwp_indirect.h2): not in total, by_gas or any scheme value
+    hydrogen_leakage_kg_co2e: float = 0.0
     non_ghg_kg: dict[str, float] = {}  # kg per functional unit of flows that are not greenhouse gases (ammonia slip)
     # kg CO2 of biomass carbon per functional unit: released, and captured and stored; counted apart (characterised
     # at zero, not in by_gas or total) and never netted against the total or a scheme value unless its rulebook says so
@@ -206,13 +211,18 @@ class ScoreResult(BaseModel):
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]
     delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
-    co_products: dict[str, Any] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
-    rebalanced_shares: dict[str, float] = {}  # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
+    co_products: dict[
+        str, Any
+    ] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
+    rebalanced_shares: dict[
+        str, float
+    ] = {}  # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
 
     @computed_field
     @property
     def factor_grades(self) -> dict[str, list[str]]:
-        """Ids of the factors used by source grade (primary text, verbatim secondary, secondary, not yet verified, invented)."""
+        """Ids of the factors used by source grade (primary text, verbatim secondary, secondary, not yet verified,
+        invented)."""
         return grades_of(self.factors_used)
 
     @computed_field
@@ -237,7 +247,18 @@ class ScoreResult(BaseModel):
             "unit": self.unit,
             "intensity": self.intensity.model_dump(),
             "by_stage": dict(self.by_stage),
-            "checks": [{"scheme": c.scheme, "value": c.value, "unit": c.unit, "limit": c.limit, "passes": c.passes, "status": c.status, "tier": c.tier} for c in self.checks],
+            "checks": [
+                {
+                    "scheme": c.scheme,
+                    "value": c.value,
+                    "unit": c.unit,
+                    "limit": c.limit,
+                    "passes": c.passes,
+                    "status": c.status,
+                    "tier": c.tier,
+                }
+                for c in self.checks
+            ],
         }
 
     def ledger_entry(self, kind: str = "score") -> dict:
