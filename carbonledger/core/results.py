@@ -154,9 +154,8 @@ class Check(BaseModel):
     assessment_period: str = ""  # the dates the rules were read on (a calendar year)
     rule_versions: list[str] = []  # the version of each dated rule used
     electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
-    electricity_charged_as_grid: dict[
-        str, str
-    ] = {}  # failing electricity activity -> grid activity whose intensity it is charged
+    # failing electricity activity -> grid activity whose intensity it is charged
+    electricity_charged_as_grid: dict[str, str] = {}
     grade: str = ""  # the rulebook's grade: primary text, verbatim secondary, secondary, not yet verified
     user_rulebook: bool = False  # the rulebook is the user's own (--rulebook), not a shipped one
     rulebook_file: str = ""  # the file of a user rulebook
@@ -211,12 +210,10 @@ class ScoreResult(BaseModel):
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]
     delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
-    co_products: dict[
-        str, Any
-    ] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
-    rebalanced_shares: dict[
-        str, float
-    ] = {}  # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
+    # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
+    co_products: dict[str, Any] = {}
+    # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
+    rebalanced_shares: dict[str, float] = {}
 
     @computed_field
     @property

@@ -153,9 +153,8 @@ class Pedigree(_Distribution):
     basic_gsd: float = Field(default=1.0, ge=1, description="basic uncertainty, a geometric standard deviation")
     median: float | None = Field(default=None, gt=0, description="default: the parameter's or factor's own value")
     stated_in: str = Field(default="", exclude=True)  # where the scores were written (a factor row's file)
-    basis: str = Field(
-        default="", exclude=True
-    )  # why a default distribution was given (a row's scores, its grade); empty when stated
+    # why a default distribution was given (a row's scores, its grade); empty when stated
+    basis: str = Field(default="", exclude=True)
 
     @field_validator("scores", mode="before")
     @classmethod

@@ -30,8 +30,9 @@ FLOW_WORDS = {
 FLOW_NAMES = {key: name for key, (name, _) in FLOW_WORDS.items()}
 FLOWS = {key: f"{name} ({note})" if note else name for key, (name, note) in FLOW_WORDS.items()}  # key -> full label
 NON_GHG_FLOWS = ("nh3", "h2")  # in the inventory, characterised at zero, left out of by_gas
+# carbon from biomass: counted apart, reported in biogenic_co2_kg
 BIOGENIC_FLOWS = (
     "co2_biogenic",
     "co2_biogenic_stored",
-)  # carbon from biomass: counted apart, reported in biogenic_co2_kg
+)
 APART_FLOWS = NON_GHG_FLOWS + BIOGENIC_FLOWS  # characterised at zero in the headline, left out of by_gas

@@ -109,17 +109,15 @@ class Lever(BaseModel):
     cost: Cost
     # an electricity share: the sources no lever moves take up the rest in proportion
     rebalance: Literal["proportional"] = "proportional"
-    absorbed_by: str | None = Field(
-        None, min_length=1
-    )  # an electricity share: the one source that takes up the difference instead
+    # an electricity share: the one source that takes up the difference instead
+    absorbed_by: str | None = Field(None, min_length=1)
     note: str = ""
     # an operation lever (kind = "operation"): the electrolyser's load, interval by interval, planned by
     # the linear program of `carbonledger plan` (analyses.plan) against the project's time series
     rated_kw: float | None = Field(None, gt=0, le=1e8)  # default: the largest load in the series
     min_load: float = Field(0.0, ge=0, le=1)  # minimum stable load, a fraction of rated power
-    hydrogen_price: float | None = Field(
-        None, ge=0, le=1e6
-    )  # per kg H2 in the series' price currency: the plan maximises margin
+    # per kg H2 in the series' price currency: the plan maximises margin
+    hydrogen_price: float | None = Field(None, ge=0, le=1e6)
 
     @field_validator("rated_kw", "min_load", "hydrogen_price", mode="before")
     @classmethod

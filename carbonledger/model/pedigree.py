@@ -148,9 +148,8 @@ class GradeDefaults:
 
     scores: dict[str, tuple[int, ...]]  # grade -> five scores
     basic_gsd: dict[str, float]  # grade -> basic uncertainty (GSD >= 1)
-    held_fixed: tuple[
-        str, ...
-    ]  # factor ids, or their start before a dot, never drawn (characterisation factors, physical properties)
+    # factor ids, or their start before a dot, never drawn (characterisation factors, physical properties)
+    held_fixed: tuple[str, ...]
     basis: str  # what the mapping is and rests on (named in every output)
     from_memory: bool
 

@@ -156,7 +156,6 @@ def load_project(path: str | Path, overrides: list[str] | None = None):
     data, raw = read_project_file(path)
     data.pop("uncertainty", None)  # distributions of inputs: read by the uncertainty analysis, not part of the model
     parsed = [parse_override(text) for text in overrides or []]
-    data = (
-        apply_overrides(data, parsed, str(path)) if parsed else data
-    )  # freshly read: no copy needed without overrides
+    # freshly read: no copy needed without overrides
+    data = apply_overrides(data, parsed, str(path)) if parsed else data
     return validate_project(data, str(path)), hashlib.sha256(raw).hexdigest()
