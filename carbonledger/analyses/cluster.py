@@ -30,17 +30,27 @@ def dask_mapper(workers: int | None = None, scheduler: str | None = None) -> Ite
         yield None, 1
         return
     if workers is not None and scheduler is not None:
-        raise InputError("--workers", str(workers), "either --workers (a local cluster) or --scheduler (an existing one), not both")
+        raise InputError(
+            "--workers", str(workers), "either --workers (a local cluster) or --scheduler (an existing one), not both"
+        )
     if workers is not None and workers < 1:
         raise InputError("--workers", str(workers), "at least 1 worker")
     if user_rulebooks():
-        raise InputError("--rulebook", next(iter(user_rulebooks().values())).user_file, "no --workers or --scheduler with a user rulebook (the workers read the shipped rulebooks only)")
+        raise InputError(
+            "--rulebook",
+            next(iter(user_rulebooks().values())).user_file,
+            "no --workers or --scheduler with a user rulebook (the workers read the shipped rulebooks only)",
+        )
     import logging
 
     try:
         from distributed import Client, LocalCluster
     except ImportError:
-        raise InputError("--workers" if workers is not None else "--scheduler", str(workers or scheduler), "Dask installed (pip install 'carbonledger[cluster]')") from None
+        raise InputError(
+            "--workers" if workers is not None else "--scheduler",
+            str(workers or scheduler),
+            "Dask installed (pip install 'carbonledger[cluster]')",
+        ) from None
 
     logging.getLogger("distributed").setLevel(logging.ERROR)
     with contextlib.ExitStack() as stack:
@@ -48,9 +58,13 @@ def dask_mapper(workers: int | None = None, scheduler: str | None = None) -> Ite
             try:
                 client = stack.enter_context(Client(scheduler, timeout="10s"))
             except (OSError, TimeoutError) as error:
-                raise InputError("--scheduler", scheduler, f"the address of a running Dask scheduler ({error})") from None
+                raise InputError(
+                    "--scheduler", scheduler, f"the address of a running Dask scheduler ({error})"
+                ) from None
         else:
-            cluster = stack.enter_context(LocalCluster(n_workers=workers, threads_per_worker=1, processes=True, dashboard_address=None))
+            cluster = stack.enter_context(
+                LocalCluster(n_workers=workers, threads_per_worker=1, processes=True, dashboard_address=None)
+            )
             client = stack.enter_context(Client(cluster))
         count = max(1, len(client.scheduler_info().get("workers", {})) or (workers or 1))
 

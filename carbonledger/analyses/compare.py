@@ -57,7 +57,10 @@ def default_note(spread) -> str:
     if spread is None or not spread.default_basis:
         return ""
     named = [item.input for item in spread.inputs if item.default]
-    return f"default distributions from the source grades of {len(named)} factor rows ({', '.join(named)}): {spread.default_basis}"
+    return (
+        f"default distributions from the source grades of {len(named)} "
+        f"factor rows ({', '.join(named)}): {spread.default_basis}"
+    )
 
 
 class ComparedProject(BaseModel):
@@ -76,7 +79,8 @@ class ComparedProject(BaseModel):
     checks: list[Check]
     factors_from_memory: list[str] = []  # ids of the factors used graded "not yet verified" against their document
     factor_grades: dict[str, list[str]] = {}  # ids of the factors used by source grade (model.grades.grades_of)
-    uncertainty: UncertaintyBand | None = None  # with --draws: the Monte Carlo band (None: no distributions, see uncertainty_note)
+    # with --draws: the Monte Carlo band (None: no distributions, see uncertainty_note)
+    uncertainty: UncertaintyBand | None = None
     uncertainty_note: str = ""
 
 
@@ -101,10 +105,13 @@ class ComparisonResult(BaseModel):
     @computed_field
     @property
     def from_memory(self) -> dict[str, list[str]]:
-        """Ids of the factors used (by any project) not yet verified against their document, and of the rulebooks checked recorded from memory."""
+        """Ids of the factors used (by any project) not yet verified against their document, and of the rulebooks
+        checked recorded from memory."""
         return {
             "factors": sorted({key for project in self.projects for key in project.factors_from_memory}),
-            "rulebooks": sorted({check.scheme for project in self.projects for check in project.checks if check.from_memory}),
+            "rulebooks": sorted(
+                {check.scheme for project in self.projects for check in project.checks if check.from_memory}
+            ),
         }
 
     def to_json(self) -> str:
@@ -135,7 +142,9 @@ def threshold_lines(results: list[ScoreResult], quantity: str) -> list[Threshold
             for threshold in scheme.thresholds:
                 limit = threshold.limit * factor
                 label = f"{scheme.id}: {threshold.tier} ({'<=' if threshold.inclusive else '<'} {limit:g})"
-                lines[(scheme.id, threshold.tier)] = ThresholdLine(scheme=scheme.id, tier=threshold.tier, limit=limit, label=label)
+                lines[(scheme.id, threshold.tier)] = ThresholdLine(
+                    scheme=scheme.id, tier=threshold.tier, limit=limit, label=label
+                )
     return sorted(lines.values(), key=lambda line: (line.limit, line.label))
 
 
@@ -158,7 +167,9 @@ def band_of(spread, quantity: str, schemes: list[str] | None) -> UncertaintyBand
     )
 
 
-def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[str] | None = None, spreads: list | None = None) -> ComparisonResult:
+def compare(
+    results: list[ScoreResult], *, basis: str = "auto", schemes: list[str] | None = None, spreads: list | None = None
+) -> ComparisonResult:
     """Put scored projects (same boundary, GWP set and factor set) on one basis.
 
     Parameters
@@ -175,7 +186,10 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
     known = rulebooks()
     schemes = scheme_ids(schemes, known) or None
     if schemes:
-        results = [r.model_copy(update={"checks": [c for c in r.checks if c.scheme in schemes or c.user_rulebook]}) for r in results]
+        results = [
+            r.model_copy(update={"checks": [c for c in r.checks if c.scheme in schemes or c.user_rulebook]})
+            for r in results
+        ]
     boundaries = {r.boundary for r in results}
     if len(boundaries) > 1:
         listed = ", ".join(f"{r.project_file}: {r.boundary}" for r in results)
@@ -187,7 +201,12 @@ def compare(results: list[ScoreResult], *, basis: str = "auto", schemes: list[st
         spread = spreads[number] if spreads is not None else None
         scale = _scale(r, quantity)
         if scale is None:
-            raise InputError(r.project_file, "--basis", f"a basis its functional unit ({r.functional_unit}) can be put on; {chosen} does not apply to {r.reference_product} (use mj or kg-h2)")
+            raise InputError(
+                r.project_file,
+                "--basis",
+                f"a basis its functional unit ({r.functional_unit}) can be put on; {chosen} "
+                f"does not apply to {r.reference_product} (use mj or kg-h2)",
+            )
         compared.append(
             ComparedProject(
                 project=r.project,
@@ -231,4 +250,6 @@ def _scale(result: ScoreResult, quantity: str) -> float | None:
     """Factor from the project's functional unit to the basis (the intensities are linear)."""
     lhv = result.heating_values_mj_per_kg
     fraction = result.hydrogen_mass_fraction if result.product == "ammonia" else 1.0
-    return intensities(1.0, result.reference_product, lhv["hydrogen_lhv"], lhv.get("ammonia_lhv", float("nan")), fraction)[quantity]
+    return intensities(
+        1.0, result.reference_product, lhv["hydrogen_lhv"], lhv.get("ammonia_lhv", float("nan")), fraction
+    )[quantity]

@@ -3,7 +3,8 @@
 The CSV has one row per interval (15, 30 or 60 minutes, one year or many) and the unit of each
 column in square brackets::
 
-    timestamp,electrolyser [kWh],generation.solar [kWh],generation.wind [kWh],grid_intensity [g CO2e/kWh],price [EUR/MWh]
+    timestamp,electrolyser [kWh],generation.solar [kWh],generation.wind [kWh],grid_intensity [g CO2e/kWh],price
+    [EUR/MWh]
     2026-01-01T00:00+01:00,20000,0,13250.5,312.4,81.2
 
 Columns:
@@ -42,7 +43,13 @@ from ..stages.electricity import kind_of_source
 _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]+?)\s*\[(?P<unit>[^\[\]]+)\]\s*$")
 _STAMP = re.compile(r"^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2}(\.\d+)?)?(?P<offset>Z|[+-]\d{2}:?\d{2})$")
 INTERVAL_MINUTES = (15, 30, 60)
-CANONICAL = {"electrolyser": "kWh", "hydrogen": "kg", "generation": "kWh", "grid_intensity": "g CO2e/kWh", "price": "1/MWh"}
+CANONICAL = {
+    "electrolyser": "kWh",
+    "hydrogen": "kg",
+    "generation": "kWh",
+    "grid_intensity": "g CO2e/kWh",
+    "price": "1/MWh",
+}
 EXAMPLE = "timestamp,electrolyser [kWh],generation.<source> [kWh],grid_intensity [g CO2e/kWh],price [EUR/MWh]"
 
 
@@ -80,29 +87,52 @@ def _parse_header(header: str, project, path: str) -> tuple[str, str, float, str
     """(quantity, source, multiplier to the canonical unit, unit as written) of one column."""
     match = _HEADER.match(header or "")
     if not match:
-        raise InputError(path, f"row 1, column '{header}'", f"a column name with its unit in brackets, e.g. 'electrolyser [kWh]' ({EXAMPLE})")
+        raise InputError(
+            path,
+            f"row 1, column '{header}'",
+            f"a column name with its unit in brackets, e.g. 'electrolyser [kWh]' ({EXAMPLE})",
+        )
     name, unit = match.group("name"), match.group("unit").strip()
     quantity, _, source = name.partition(".")
     sources = project.electricity.sources
     if quantity == "generation":
         if source not in sources:
-            raise InputError(path, f"row 1, column '{header}'", f"a source the project declares in [electricity.sources] ({', '.join(sources)}), got '{source}'")
+            raise InputError(
+                path,
+                f"row 1, column '{header}'",
+                f"a source the project declares in [electricity.sources] ({', '.join(sources)}), got '{source}'",
+            )
         if kind_of_source(sources[source].factor) == "grid":
-            raise InputError(path, f"row 1, column '{header}'", f"a contracted source, not the grid source '{source}' (the grid supplies what generation does not match; give its intensity as 'grid_intensity [g CO2e/kWh]')")
+            raise InputError(
+                path,
+                f"row 1, column '{header}'",
+                f"a contracted source, not the grid source '{source}' (the grid supplies what generation "
+                "does not match; give its intensity as 'grid_intensity [g CO2e/kWh]')",
+            )
     elif quantity not in CANONICAL or source:
-        raise InputError(path, f"row 1, column '{header}'", f"a known column ({EXAMPLE}; or 'hydrogen [kg]' instead of 'electrolyser')")
+        raise InputError(
+            path,
+            f"row 1, column '{header}'",
+            f"a known column ({EXAMPLE}; or 'hydrogen [kg]' instead of 'electrolyser')",
+        )
     if quantity == "price":
         per = unit.split("/")
         if len(per) != 2 or not per[0].strip():
-            raise InputError(path, f"row 1, column '{header}'", f"a price per energy, e.g. 'price [EUR/MWh]', got '{unit}'")
+            raise InputError(
+                path, f"row 1, column '{header}'", f"a price per energy, e.g. 'price [EUR/MWh]', got '{unit}'"
+            )
         try:
             return quantity, source, conversion_factor(f"1/{per[1].strip()}", "1/MWh"), unit
         except UnitMismatch:
-            raise InputError(path, f"row 1, column '{header}'", f"a price per energy unit (MWh, kWh), got '{unit}'") from None
+            raise InputError(
+                path, f"row 1, column '{header}'", f"a price per energy unit (MWh, kWh), got '{unit}'"
+            ) from None
     try:
         return quantity, source, conversion_factor(unit, CANONICAL[quantity]), unit
     except UnitMismatch:
-        raise InputError(path, f"row 1, column '{header}'", f"a unit convertible to {CANONICAL[quantity]}, got '{unit}'") from None
+        raise InputError(
+            path, f"row 1, column '{header}'", f"a unit convertible to {CANONICAL[quantity]}, got '{unit}'"
+        ) from None
 
 
 # The largest value of a column that is not a typing error, in the canonical units (CANONICAL): 10 TWh
@@ -112,7 +142,16 @@ def _parse_header(header: str, project, path: str) -> tuple[str, str, float, str
 UPPER = {"electrolyser": 1e10, "hydrogen": 1e9, "generation": 1e10, "grid_intensity": 1e4, "price": 1e6}
 
 
-def _numbers(values, path: str, header: str, *, first_row: int = 2, energy: bool = True, multiplier: float = 1.0, upper: float = float("inf")) -> np.ndarray:
+def _numbers(
+    values,
+    path: str,
+    header: str,
+    *,
+    first_row: int = 2,
+    energy: bool = True,
+    multiplier: float = 1.0,
+    upper: float = float("inf"),
+) -> np.ndarray:
     import pandas as pd
 
     numbers = pd.to_numeric(values, errors="coerce").to_numpy(dtype=float)
@@ -126,7 +165,11 @@ def _numbers(values, path: str, header: str, *, first_row: int = 2, energy: bool
     too_large = np.abs(numbers) * multiplier > upper
     if too_large.any():
         at = int(np.flatnonzero(too_large)[0])
-        raise InputError(path, f"row {at + first_row}, column '{header}'", f"a value of at most {upper / multiplier:g} in magnitude (a physical range), got {numbers[at]:g}")
+        raise InputError(
+            path,
+            f"row {at + first_row}, column '{header}'",
+            f"a value of at most {upper / multiplier:g} in magnitude (a physical range), got {numbers[at]:g}",
+        )
     return numbers * multiplier
 
 
@@ -142,7 +185,8 @@ def _times(stamps, path: str) -> tuple[np.ndarray, np.ndarray]:
         raise InputError(
             path,
             f"row {at + 2}, column 'timestamp'",
-            f"an ISO 8601 timestamp with its UTC offset, e.g. 2026-01-01T00:00+01:00, got '{stamps.iloc[at]}' (local time without an offset is ambiguous at daylight-saving changes)",
+            f"an ISO 8601 timestamp with its UTC offset, e.g. 2026-01-01T00:00+01:00, got '{stamps.iloc[at]}' "
+            "(local time without an offset is ambiguous at daylight-saving changes)",
         )
     utc = pd.to_datetime(text, format="ISO8601", utc=True, errors="coerce")
     bad = utc.isna().to_numpy()
@@ -164,22 +208,35 @@ def _check_steps(utc: np.ndarray, offset: np.ndarray, stamps, path: str) -> int:
     steps = np.diff(utc).astype(np.int64)
     interval = int(steps[0])
     if interval not in INTERVAL_MINUTES:
-        raise InputError(path, "row 3, column 'timestamp'", f"intervals of 15, 30 or 60 minutes, got {interval} minutes between rows 2 and 3")
+        raise InputError(
+            path,
+            "row 3, column 'timestamp'",
+            f"intervals of 15, 30 or 60 minutes, got {interval} minutes between rows 2 and 3",
+        )
     wrong = np.flatnonzero(steps != interval)
     if wrong.size:
         at = int(wrong[0])
         row = at + 3
         where = f"row {row}, column 'timestamp'"
         got = f"'{stamps.iloc[at + 1]}' after '{stamps.iloc[at]}'"
-        if offset[at] != offset[at + 1] or (steps[at] == 0 and offset[at] == offset[at + 1] and (np.diff(offset) != 0).any()):
-            raise InputError(path, where, f"consecutive {interval}-minute intervals, got {got}: a daylight-saving change written as local time (write each time with the offset in force, e.g. +02:00 in summer)")
+        if offset[at] != offset[at + 1] or (
+            steps[at] == 0 and offset[at] == offset[at + 1] and (np.diff(offset) != 0).any()
+        ):
+            raise InputError(
+                path,
+                where,
+                f"consecutive {interval}-minute intervals, got {got}: a daylight-saving change written "
+                "as local time (write each time with the offset in force, e.g. +02:00 in summer)",
+            )
         if steps[at] == 0:
             raise InputError(path, where, f"each interval once, got a duplicated interval {got}")
         if steps[at] < 0:
             raise InputError(path, where, f"intervals in time order, got {got}")
         missing = int(steps[at] // interval) - 1
         span = " (a year or more of data missing)" if steps[at] >= 365 * 24 * 60 else ""
-        raise InputError(path, where, f"consecutive {interval}-minute intervals, got {got}: {missing} interval(s) missing{span}")
+        raise InputError(
+            path, where, f"consecutive {interval}-minute intervals, got {got}: {missing} interval(s) missing{span}"
+        )
     return interval
 
 
@@ -187,7 +244,9 @@ def read_series(path: str | Path, project) -> ElectricitySeries:
     """Read and validate an electricity time series CSV against a validated project."""
     path = Path(path)
     if not path.exists():
-        raise InputError(str(path), "", "an existing time series CSV (electricity.time_series, relative to the project file)")
+        raise InputError(
+            str(path), "", "an existing time series CSV (electricity.time_series, relative to the project file)"
+        )
     return parse_series(read_input_bytes(path, "time series CSV"), str(path), project)
 
 
@@ -196,9 +255,15 @@ def parse_series(raw: bytes, where: str, project) -> ElectricitySeries:
     import pandas as pd
 
     try:
-        frame = pd.read_csv(io.BytesIO(raw), dtype=str, keep_default_na=False, comment="#", skipinitialspace=True, encoding="utf-8-sig")
+        frame = pd.read_csv(
+            io.BytesIO(raw), dtype=str, keep_default_na=False, comment="#", skipinitialspace=True, encoding="utf-8-sig"
+        )
     except (OSError, UnicodeDecodeError, pd.errors.ParserError, pd.errors.EmptyDataError) as error:
-        raise InputError(where, "", f"a readable UTF-8 CSV of intervals ({str(error).splitlines()[0] if str(error) else type(error).__name__})") from None
+        raise InputError(
+            where,
+            "",
+            f"a readable UTF-8 CSV of intervals ({str(error).splitlines()[0] if str(error) else type(error).__name__})",
+        ) from None
     headers = [str(h).strip() for h in frame.columns]
     if not headers or headers[0] != "timestamp":
         raise InputError(where, "row 1, column 1", f"'timestamp' as the first column ({EXAMPLE})")
@@ -213,15 +278,30 @@ def parse_series(raw: bytes, where: str, project) -> ElectricitySeries:
         raise InputError(where, "row 1", f"exactly one of 'electrolyser [kWh]' or 'hydrogen [kg]', got {len(loads)}")
     if not any(q == "generation" for q, _ in kinds):
         raise InputError(where, "row 1", "at least one 'generation.<source> [kWh]' column for a contracted source")
-    has_grid_source = any(kind_of_source(s.factor) == "grid" or ("generation", name) not in kinds for name, s in project.electricity.sources.items())
+    has_grid_source = any(
+        kind_of_source(s.factor) == "grid" or ("generation", name) not in kinds
+        for name, s in project.electricity.sources.items()
+    )
     if not has_grid_source and ("grid_intensity", "") not in kinds:
-        raise InputError(where, "row 1", "a 'grid_intensity [g CO2e/kWh]' column, or a source in [electricity.sources] without a generation column (the grid) to supply unmatched electricity")
+        raise InputError(
+            where,
+            "row 1",
+            "a 'grid_intensity [g CO2e/kWh]' column, or a source in [electricity.sources] "
+            "without a generation column (the grid) to supply unmatched electricity",
+        )
     stamps = frame.iloc[:, 0].astype(str)
     utc, offset = _times(stamps, where)
     interval = _check_steps(utc, offset, stamps, where)
     series = ElectricitySeries(where, utc, offset, interval, None, None, sha256=hashlib.sha256(raw).hexdigest())
     for header, (quantity, source, multiplier, unit) in columns.items():
-        values = _numbers(frame[frame.columns[headers.index(header)]], where, header, energy=quantity != "price", multiplier=multiplier, upper=UPPER[quantity])
+        values = _numbers(
+            frame[frame.columns[headers.index(header)]],
+            where,
+            header,
+            energy=quantity != "price",
+            multiplier=multiplier,
+            upper=UPPER[quantity],
+        )
         if quantity == "electrolyser":
             series.load_kwh = values
         elif quantity == "hydrogen":
@@ -234,7 +314,11 @@ def parse_series(raw: bytes, where: str, project) -> ElectricitySeries:
             series.price_per_mwh, series.price_unit = values, unit
     used = series.load_kwh if series.load_kwh is not None else series.hydrogen_kg
     if not used.sum() > 0:
-        raise InputError(where, f"column '{loads[0]}'", "some electricity use (or hydrogen) in at least one interval; the series has none")
+        raise InputError(
+            where,
+            f"column '{loads[0]}'",
+            "some electricity use (or hydrogen) in at least one interval; the series has none",
+        )
     return series
 
 

@@ -42,13 +42,18 @@ from .electricity_series import ElectricitySeries
 
 GRANULARITIES = ("interval", "hour", "month", "quarter", "year")  # fine to coarse
 _CODE = {name: number for number, name in enumerate(GRANULARITIES)}
-# a rulebook's temporal-correlation period -> the matching granularity (half-hourly: the series' own 30-minute intervals)
+# a rulebook's temporal-correlation period -> the matching granularity (half-hourly: the series' own 30-minute
+# intervals)
 RULE_GRANULARITY = {"annual": "year", "monthly": "month", "hourly": "hour", "half_hourly": "interval"}
 
 
 def temporal_rules_in_force(scheme, period: Period) -> list:
     """The rulebook's temporal-correlation rules in force on the assessment period's first and last day."""
-    return [rule for rule in dict.fromkeys(scheme.temporal_rule_on(day) for day in (period.start, period.end)) if rule is not None]
+    return [
+        rule
+        for rule in dict.fromkeys(scheme.temporal_rule_on(day) for day in (period.start, period.end))
+        if rule is not None
+    ]
 
 
 def scheme_granularity(scheme, period: Period) -> str:
@@ -181,7 +186,14 @@ def match(
     labels = period_labels(utc, local, granularity)
     per_interval, by_source = match_periods(load_kwh, supply, labels)
     name = granularity if isinstance(granularity, str) else "mixed"
-    return MatchResult(name, float(load_kwh.sum()), float(per_interval.sum()), dict(zip(names, by_source.tolist(), strict=False)), per_interval, int(labels[-1]) + 1)
+    return MatchResult(
+        name,
+        float(load_kwh.sum()),
+        float(per_interval.sum()),
+        dict(zip(names, by_source.tolist(), strict=False)),
+        per_interval,
+        int(labels[-1]) + 1,
+    )
 
 
 def eligible_sources(scheme, counted_zero: set[str], with_generation: list[str]) -> list[str]:
@@ -233,19 +245,43 @@ def electricity_model(prepared: Prepared, solutions: dict, scheme, with_generati
     keys = matrices.activity_keys
     sources = prepared.params["electricity"]["sources"]
     reading = scheme_reading(prepared, scheme)
-    counted = {name: float(value) for name, value in charged_source_intensities(scheme, inventory, matrices.flow_keys, prepared.per_gwp[scheme.gwp], reading).items()}
-    declared, grid_kg = declared_and_grid_intensity(counted, {name: source["share"] for name, source in sources.items()}, with_generation)
+    counted = {
+        name: float(value)
+        for name, value in charged_source_intensities(
+            scheme, inventory, matrices.flow_keys, prepared.per_gwp[scheme.gwp], reading
+        ).items()
+    }
+    declared, grid_kg = declared_and_grid_intensity(
+        counted, {name: source["share"] for name, source in sources.items()}, with_generation
+    )
     mix = keys.index("electricity_mix")
     basis_demand = inventory.gate if scheme.basis == "product" else inventory.hydrogen
     basis_product = inventory.product if scheme.basis == "product" else "hydrogen"
     basis_kwh = float(solutions[basis_demand].supply[mix])
     gate = solutions[inventory.gate]
     kwh_per_kg = float(gate.supply[mix]) / float(gate.supply[keys.index(inventory.hydrogen)])
-    per_total = intensities(1.0, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[scheme.quantity]
-    return ElectricityModel(basis_kwh, kwh_per_kg, counted, float(declared), float(grid_kg), float(per_total), eligible_sources(scheme, reading.counted_zero, with_generation), scheme_granularity(scheme, prepared.period))
+    per_total = intensities(1.0, basis_product, prepared.hydrogen_lhv, prepared.ammonia_lhv, prepared.fraction)[
+        scheme.quantity
+    ]
+    return ElectricityModel(
+        basis_kwh,
+        kwh_per_kg,
+        counted,
+        float(declared),
+        float(grid_kg),
+        float(per_total),
+        eligible_sources(scheme, reading.counted_zero, with_generation),
+        scheme_granularity(scheme, prepared.period),
+    )
 
 
-def counted_intensity(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, mask: np.ndarray | slice = slice(None)) -> tuple[float, float, float, float]:
+def counted_intensity(
+    result: MatchResult,
+    load_kwh: np.ndarray,
+    model: ElectricityModel,
+    grid_g_per_kwh: np.ndarray | None,
+    mask: np.ndarray | slice = slice(None),
+) -> tuple[float, float, float, float]:
     """(load, matched, unmatched kWh, counted kg CO2e/kWh) over the intervals in ``mask``.
 
     Matched energy from each source at the source's counted intensity (split in proportion to the
@@ -254,27 +290,56 @@ def counted_intensity(result: MatchResult, load_kwh: np.ndarray, model: Electric
     load = float(load_kwh[mask].sum())
     matched = float(result.matched_interval_kwh[mask].sum())
     unmatched_t = load_kwh[mask] - result.matched_interval_kwh[mask]
-    grid_kg = float(unmatched_t @ grid_g_per_kwh[mask]) / 1000.0 if grid_g_per_kwh is not None else float(unmatched_t.sum()) * model.grid_kg_per_kwh
+    grid_kg = (
+        float(unmatched_t @ grid_g_per_kwh[mask]) / 1000.0
+        if grid_g_per_kwh is not None
+        else float(unmatched_t.sum()) * model.grid_kg_per_kwh
+    )
     total_matched = sum(result.matched_by_source_kwh.values())
-    source_kg_per_kwh = sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
+    source_kg_per_kwh = (
+        sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched
+        if total_matched > 0
+        else 0.0
+    )
     kg = matched * source_kg_per_kwh + grid_kg
     return load, matched, load - matched, (kg / load if load > 0 else 0.0)
 
 
-def monthly_intensities(result: MatchResult, load_kwh: np.ndarray, model: ElectricityModel, grid_g_per_kwh: np.ndarray | None, starts: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def monthly_intensities(
+    result: MatchResult,
+    load_kwh: np.ndarray,
+    model: ElectricityModel,
+    grid_g_per_kwh: np.ndarray | None,
+    starts: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """``counted_intensity`` for consecutive blocks of intervals starting at ``starts`` (months), at once:
     (load kWh, matched kWh, counted kg CO2e/kWh) per block."""
     unmatched_t = load_kwh - result.matched_interval_kwh
     load = np.add.reduceat(load_kwh, starts)
     matched = np.add.reduceat(result.matched_interval_kwh, starts)
-    grid_kg = np.add.reduceat(unmatched_t * grid_g_per_kwh, starts) / 1000.0 if grid_g_per_kwh is not None else (load - matched) * model.grid_kg_per_kwh
+    grid_kg = (
+        np.add.reduceat(unmatched_t * grid_g_per_kwh, starts) / 1000.0
+        if grid_g_per_kwh is not None
+        else (load - matched) * model.grid_kg_per_kwh
+    )
     total_matched = sum(result.matched_by_source_kwh.values())
-    source_kg_per_kwh = sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched if total_matched > 0 else 0.0
+    source_kg_per_kwh = (
+        sum(kwh * model.counted_kg_per_kwh[name] for name, kwh in result.matched_by_source_kwh.items()) / total_matched
+        if total_matched > 0
+        else 0.0
+    )
     kg = matched * source_kg_per_kwh + grid_kg
     return load, matched, np.divide(kg, load, out=np.zeros_like(kg), where=load > 0)
 
 
-def matched_check(check: Check, scheme, series: ElectricitySeries, model: ElectricityModel, granularity: str | None = None, findings: list | None = None) -> Check:
+def matched_check(
+    check: Check,
+    scheme,
+    series: ElectricitySeries,
+    model: ElectricityModel,
+    granularity: str | None = None,
+    findings: list | None = None,
+) -> Check:
     """One scheme check redone with the series matched under the scheme's rule (or a granularity given for a what-if).
 
     With ``findings`` (the scheme's rules read on the project, ``core.scoring.scheme_reading``) the
@@ -282,7 +347,11 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     the project cannot follow keeps the check undetermined); without them only the threshold is read."""
     load = series.load(model.kwh_per_kg_h2)
     local = series.local
-    rule = describe(scheme) if granularity is None else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme)})"
+    rule = (
+        describe(scheme)
+        if granularity is None
+        else f"{granularity} (chosen for this run instead of the scheme's rule: {describe(scheme)})"
+    )
     granularity = model.granularity if granularity is None else granularity
     result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, local)
     total_load, matched, unmatched, intensity = counted_intensity(result, load, model, series.grid_g_co2e_per_kwh)
@@ -309,7 +378,9 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
     matching = ElectricityMatching(
         granularity=result.granularity if result.granularity != "mixed" else describe(scheme),
         rule=rule,
-        rule_sources=[rule.source for rule in (scheme.electricity_rules.temporal if scheme.electricity_rules is not None else [])],
+        rule_sources=[
+            rule.source for rule in (scheme.electricity_rules.temporal if scheme.electricity_rules is not None else [])
+        ],
         matched_share=result.matched_share,
         load_kwh=total_load,
         matched_kwh=matched,
@@ -323,7 +394,8 @@ def matched_check(check: Check, scheme, series: ElectricitySeries, model: Electr
         grid_intensity="series" if series.grid_g_co2e_per_kwh is not None else "grid source factor",
         series_file=series.path,
         series_sha256=series.sha256,
-        first_interval=f"{str(local[0])[:16]}{'+' if series.offset_minutes[0] >= 0 else '-'}{abs(int(series.offset_minutes[0])) // 60:02d}:{abs(int(series.offset_minutes[0])) % 60:02d}",
+        first_interval=f"{str(local[0])[:16]}{'+' if series.offset_minutes[0] >= 0 else '-'}"
+        f"{abs(int(series.offset_minutes[0])) // 60:02d}:{abs(int(series.offset_minutes[0])) % 60:02d}",
         intervals=series.intervals,
         interval_minutes=series.interval_minutes,
         periods=result.periods,
@@ -347,18 +419,38 @@ def matching_findings(scheme, model: ElectricityModel, result: MatchResult, rule
     rules = scheme.electricity_rules
     if rules is None or scheme.electricity != "renewable_at_zero":
         return []
-    cited = "; ".join(dict.fromkeys(grade_note(r.source, r.grade) for r in rules.temporal)) or grade_note(rules.source, rules.grade)
+    cited = "; ".join(dict.fromkeys(grade_note(r.source, r.grade) for r in rules.temporal)) or grade_note(
+        rules.source, rules.grade
+    )
     share = result.matched_share
     matched = share >= 1.0 - 1e-9
-    text = (f"temporal correlation, {model.granularity} matching ({rule}): {share:.1%} of the electricity matched with eligible generation "
-            f"({', '.join(model.eligible) or 'none eligible'}) in the same period; {'' if matched else f'the unmatched {1 - share:.1%} is {rules.non_qualifying}'} [{cited}]")
-    findings = [Finding("electricity", MET if matched else NOT_MET, text.replace("; [", " [") if matched else text, charged=not matched)]
-    if matched and scheme.eligibility is not None and scheme.eligibility.excludes_counted_electricity and model.eligible:
+    text = (
+        f"temporal correlation, {model.granularity} matching ({rule}): {share:.1%} "
+        "of the electricity matched with eligible generation "
+        f"({', '.join(model.eligible) or 'none eligible'}) in the same period; "
+        f"{'' if matched else f'the unmatched {1 - share:.1%} is {rules.non_qualifying}'} [{cited}]"
+    )
+    findings = [
+        Finding(
+            "electricity",
+            MET if matched else NOT_MET,
+            text.replace("; [", " [") if matched else text,
+            charged=not matched,
+        )
+    ]
+    if (
+        matched
+        and scheme.eligibility is not None
+        and scheme.eligibility.excludes_counted_electricity
+        and model.eligible
+    ):
         findings.insert(0, fully_renewable_finding(scheme))
     return findings
 
 
-def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None) -> ScoreResult:
+def matched_checks(
+    prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries, granularity: str | None = None
+) -> ScoreResult:
     """The scored result with every scheme check matched against the series under the scheme's rule.
 
     The headline total keeps the declared shares; each check's value, verdict and margin follow
@@ -373,11 +465,15 @@ def matched_checks(prepared: Prepared, solutions: dict, result: ScoreResult, ser
     for check in result.checks:
         scheme = schemes[check.scheme]
         model = electricity_model(prepared, solutions, scheme, with_generation)
-        checks.append(matched_check(check, scheme, series, model, granularity, scheme_reading(prepared, scheme).findings))
+        checks.append(
+            matched_check(check, scheme, series, model, granularity, scheme_reading(prepared, scheme).findings)
+        )
     return result.model_copy(update={"checks": checks})
 
 
-def unmatched_share_by_hour_and_month(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray) -> tuple[list[str], np.ndarray]:
+def unmatched_share_by_hour_and_month(
+    local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.ndarray
+) -> tuple[list[str], np.ndarray]:
     """(months, 24 x months array): unmatched / use in each local hour of day and calendar month (NaN without use)."""
     months = local.astype("datetime64[M]")
     names, column = np.unique(months, return_inverse=True)
@@ -408,7 +504,9 @@ class MatchingView:
     rule: str = ""  # the rulebook's dated rule in words (e.g. 'month until 2029-12-31, hour from 2030-01-01')
 
 
-def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries) -> list[MatchingView]:
+def matching_views(
+    prepared: Prepared, solutions: dict, result: ScoreResult, series: ElectricitySeries
+) -> list[MatchingView]:
     """The matching of every scheme check of a scored project under its own temporal rule, schemes
     with identical matched energy in every interval grouped into one view (for the report)."""
     with_generation = list(series.generation_kwh)
@@ -419,7 +517,14 @@ def matching_views(prepared: Prepared, solutions: dict, result: ScoreResult, ser
         model = electricity_model(prepared, solutions, scheme, with_generation)
         load = series.load(model.kwh_per_kg_h2)
         outcome = match(load, series.generation_kwh, model.eligible, model.granularity, series.utc, series.local)
-        same = next((view for view, a, b in found if np.array_equal(a, load) and np.array_equal(b, outcome.matched_interval_kwh)), None)
+        same = next(
+            (
+                view
+                for view, a, b in found
+                if np.array_equal(a, load) and np.array_equal(b, outcome.matched_interval_kwh)
+            ),
+            None,
+        )
         if same is not None:
             same.schemes.append(scheme.id)
             continue
@@ -447,7 +552,9 @@ def series_matched_periods(series: ElectricitySeries) -> dict | None:
     return {name: period for name in series.generation_kwh} if period else None
 
 
-def matched_values_of_draws(scheme, series: ElectricitySeries, model: ElectricityModel, declared_values: np.ndarray) -> np.ndarray:
+def matched_values_of_draws(
+    scheme, series: ElectricitySeries, model: ElectricityModel, declared_values: np.ndarray
+) -> np.ndarray:
     """Each draw's scheme value with the series matched under the scheme's rule: ``matched_check``'s
     arithmetic (``counted_intensity``) with a ``model`` whose figures are arrays over the draws.
 
@@ -474,8 +581,10 @@ def matched_values_of_draws(scheme, series: ElectricitySeries, model: Electricit
     for number, load in enumerate(loads):
         rows = which == number
         result = match(load, series.generation_kwh, model.eligible, granularity, series.utc, series.local)
-        these = replace(model, counted_kg_per_kwh={name: value[rows] for name, value in counted.items()}, grid_kg_per_kwh=grid_kg[rows])
+        these = replace(
+            model,
+            counted_kg_per_kwh={name: value[rows] for name, value in counted.items()},
+            grid_kg_per_kwh=grid_kg[rows],
+        )
         intensity[rows] = counted_intensity(result, load, these, series.grid_g_co2e_per_kwh)[3]
     return declared_values + model.value_per_total * model.basis_kwh * (intensity - model.declared_kg_per_kwh)
-
-

@@ -34,16 +34,42 @@ class Operation:
     cost: float  # lost x cost.per_unit, in the levers' currency
 
 
-def plan_operation(project, factor_set, series: ElectricitySeries, scheme: str, lever: Lever, *, source: str, gwp: str, year: int | None, where: tuple[str, str]) -> Operation | None:
+def plan_operation(
+    project,
+    factor_set,
+    series: ElectricitySeries,
+    scheme: str,
+    lever: Lever,
+    *,
+    source: str,
+    gwp: str,
+    year: int | None,
+    where: tuple[str, str],
+) -> Operation | None:
     """The least-cost operation that keeps ``scheme`` qualifying, or None when no plan qualifies.
     ``where``: the levers file and the lever's field, named when an option of the lever cannot plan."""
     try:
-        plan = plan_project(project, factor_set, series, scheme, source=source, rated_kw=lever.rated_kw, min_load=lever.min_load, hydrogen_price=lever.hydrogen_price, gwp=gwp, year=year)
+        plan = plan_project(
+            project,
+            factor_set,
+            series,
+            scheme,
+            source=source,
+            rated_kw=lever.rated_kw,
+            min_load=lever.min_load,
+            hydrogen_price=lever.hydrogen_price,
+            gwp=gwp,
+            year=year,
+        )
     except InputError as error:
         if error.source == "plan":  # the program has no plan that makes hydrogen and qualifies
             return None
         if error.source.startswith("--"):  # an option of the lever the plan cannot use
-            raise InputError(where[0], where[1], f"{error.expected} ({error.source.removeprefix('--').replace('-', '_')} {error.field})") from None
+            raise InputError(
+                where[0],
+                where[1],
+                f"{error.expected} ({error.source.removeprefix('--').replace('-', '_')} {error.field})",
+            ) from None
         raise
     if not plan.qualifies:
         return None
@@ -70,9 +96,13 @@ def operation_summary(found: Operation, lever: Lever, series: ElectricitySeries)
         "mip_rel_gap": MIP_GAP if lever.min_load > 0 else None,
         "scheme": plan.scheme,
         "tier": plan.tier,
-        "objective": "margin (hydrogen price x hydrogen - electricity price x load)" if lever.hydrogen_price is not None else "hydrogen",
+        "objective": "margin (hydrogen price x hydrogen - electricity price x load)"
+        if lever.hydrogen_price is not None
+        else "hydrogen",
         "lost": found.lost,
-        "lost_unit": f"{series.price_unit.split('/')[0].strip()} of margin" if lever.hydrogen_price is not None else "kg H2",
+        "lost_unit": f"{series.price_unit.split('/')[0].strip()} of margin"
+        if lever.hydrogen_price is not None
+        else "kg H2",
         "cost": found.cost,
         "rated_kw": plan.rated_kw,
         "min_load": lever.min_load,

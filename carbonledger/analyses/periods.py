@@ -52,7 +52,13 @@ CANONICAL = {"electricity": "kWh", "natural_gas": "GJ", "hydrogen": "kg", "ammon
 # ammonia: IEA statistics, facts of the trade, from memory) divided by ten or more would be a typing error.
 MONTHLY_MAXIMUM = {"electricity": 1e11, "natural_gas": 1e9, "hydrogen": 1e10, "ammonia": 1e8}
 NM3_MOST_GJ = 0.05  # GJ per Nm3: above the heating value of any natural gas (about 0.036-0.040 GJ/Nm3)
-DIMENSION_WORDS = {"electricity": "an energy unit (MWh, kWh, GWh)", "natural_gas": "an energy unit (GJ, MJ, TJ) or Nm3", "hydrogen": "a mass unit (t, kg)", "ammonia": "a mass unit (t, kg)"}
+DIMENSION_WORDS = {
+    "electricity": "an energy unit (MWh, kWh, GWh)",
+    "natural_gas": "an energy unit (GJ, MJ, TJ) or Nm3",
+    "hydrogen": "a mass unit (t, kg)",
+    "ammonia": "a mass unit (t, kg)",
+}
+
 
 @dataclass
 class MeterColumn:
@@ -78,7 +84,9 @@ class Meters:
 def scaled_parameters(params: dict) -> tuple[list[str], list[str]]:
     """The gas and electricity parameter paths a month's scale factors apply to (declared by the route modules)."""
     paths = metered_parameters(params)
-    return [p for p in paths["natural_gas"] if _get(params, p) is not None], [p for p in paths["electricity"] if _get(params, p) is not None]
+    return [p for p in paths["natural_gas"] if _get(params, p) is not None], [
+        p for p in paths["electricity"] if _get(params, p) is not None
+    ]
 
 
 def _get(tree: dict, path: str):
@@ -93,19 +101,31 @@ def _get(tree: dict, path: str):
 def _parse_column(header: str, project, path: str) -> MeterColumn:
     match = _HEADER.match(header or "")
     if not match:
-        raise InputError(path, f"column '{header}'", "a meter name with its unit in brackets, e.g. 'electricity.grid [MWh]'")
+        raise InputError(
+            path, f"column '{header}'", "a meter name with its unit in brackets, e.g. 'electricity.grid [MWh]'"
+        )
     name, unit = match.group("name"), match.group("unit").strip()
     quantity, _, source = name.partition(".")
     sources = project.electricity.sources
     if quantity == "electricity":
         if source not in sources:
-            raise InputError(path, f"column '{header}'", f"an electricity source of the project ({', '.join(sources)}), got '{source}'")
+            raise InputError(
+                path,
+                f"column '{header}'",
+                f"an electricity source of the project ({', '.join(sources)}), got '{source}'",
+            )
     elif quantity not in ("natural_gas", "hydrogen", "ammonia") or source:
-        raise InputError(path, f"column '{header}'", "a known meter: month, electricity.<source>, natural_gas, hydrogen, ammonia (unknown column)")
+        raise InputError(
+            path,
+            f"column '{header}'",
+            "a known meter: month, electricity.<source>, natural_gas, hydrogen, ammonia (unknown column)",
+        )
     if quantity == "ammonia" and project.project.product != "ammonia":
         raise InputError(path, f"column '{header}'", "no ammonia meter for a hydrogen project (unknown column)")
     if quantity == "natural_gas" and not project.uses_natural_gas():
-        raise InputError(path, f"column '{header}'", "no natural gas meter: the project burns no natural gas (unknown column)")
+        raise InputError(
+            path, f"column '{header}'", "no natural gas meter: the project burns no natural gas (unknown column)"
+        )
     if quantity == "natural_gas" and unit.replace(" ", "").lower() in NM3:
         return MeterColumn(header, quantity, source, unit, 1.0, by_volume=True)
     try:
@@ -138,7 +158,11 @@ def _meter_header(path: Path, header: list[str], project) -> list:
     for quantity, source in required:
         if (quantity, source) not in kinds:
             name = f"{quantity}.{source}" if source else quantity
-            raise InputError(path, "header", f"a column '{name} [{CANONICAL[quantity] if quantity != 'electricity' else 'MWh'}]' (missing)")
+            raise InputError(
+                path,
+                "header",
+                f"a column '{name} [{CANONICAL[quantity] if quantity != 'electricity' else 'MWh'}]' (missing)",
+            )
     return columns
 
 
@@ -154,7 +178,11 @@ def _meter_value(path: Path, where: str, text: str, column) -> float:
         raise InputError(path, where, f"a number >= 0, got {value:g}")
     most = MONTHLY_MAXIMUM[column.quantity] / (NM3_MOST_GJ if column.by_volume else column.multiplier)
     if value > most:
-        raise InputError(path, where, f"a month's amount of at most {most:g} {column.unit} (above any plant's, a physical range), got {value:g}")
+        raise InputError(
+            path,
+            where,
+            f"a month's amount of at most {most:g} {column.unit} (above any plant's, a physical range), got {value:g}",
+        )
     return value
 
 
@@ -165,12 +193,21 @@ def _meter_month(path: Path, line: int, row: list[str], columns: list, meters, p
     month = row[0].strip()
     if not _MONTH.match(month) or not 1 <= int(month[5:]) <= 12:
         raise InputError(path, f"line {line}, month", f"a month as YYYY-MM, got '{month}'")
-    values = {column.header: _meter_value(path, f"line {line}, {column.header}", text, column) for column, text in zip(columns, row[1:], strict=True)}
+    values = {
+        column.header: _meter_value(path, f"line {line}, {column.header}", text, column)
+        for column, text in zip(columns, row[1:], strict=True)
+    }
     output = meters.column("ammonia") if project.project.product == "ammonia" else meters.column("hydrogen")
     if values[output.header] <= 0:
-        raise InputError(path, f"line {line}, {output.header}", "a production > 0 in every month (the month's intensity divides by it)")
+        raise InputError(
+            path,
+            f"line {line}, {output.header}",
+            "a production > 0 in every month (the month's intensity divides by it)",
+        )
     if sum(values[c.header] for c in columns if c.quantity == "electricity") <= 0:
-        raise InputError(path, f"line {line}", "some electricity in every month (the shares of the sources divide by the total)")
+        raise InputError(
+            path, f"line {line}", "some electricity in every month (the shares of the sources divide by the total)"
+        )
     gas = meters.column("natural_gas")
     if gas is not None and values[gas.header] <= 0:
         raise InputError(path, f"line {line}, {gas.header}", "a gas use > 0 (the project burns natural gas)")
@@ -204,7 +241,11 @@ def read_meters(path: str | Path, project) -> Meters:
         if number < previous:
             raise InputError(path, "month", f"months in calendar order; {month} comes after {before} (out of order)")
         if number != previous + 1:
-            raise InputError(path, "month", f"consecutive months; {number - previous - 1} month(s) missing between {before} and {month}")
+            raise InputError(
+                path,
+                "month",
+                f"consecutive months; {number - previous - 1} month(s) missing between {before} and {month}",
+            )
     return meters
 
 
@@ -260,7 +301,9 @@ def month_results(meters: Meters, project, factor_set, *, gwp: str, design, sche
         k_electricity = figures["electricity_per_unit"] / _supply(at_gas, "electricity_mix")
         for path in scaled_parameters(params)[1]:
             _set(params, path, _get(params, path) * k_electricity)
-        results.append(score_project(validate_project(params, source), factor_set, gwp=gwp, schemes=schemes, source=source))
+        results.append(
+            score_project(validate_project(params, source), factor_set, gwp=gwp, schemes=schemes, source=source)
+        )
     return results
 
 

@@ -224,7 +224,9 @@ def solve(matrices: Matrices, demands: list[str], characterisation: np.ndarray) 
         for row, position in enumerate(flow_order):
             if position is not None:
                 inventory[row, :] = dense[position, activity_order]
-        solutions[demand] = Solution(demand, matrices.activity_keys, matrices.flow_keys, np.asarray(lca.supply_array)[activity_order], inventory)
+        solutions[demand] = Solution(
+            demand, matrices.activity_keys, matrices.flow_keys, np.asarray(lca.supply_array)[activity_order], inventory
+        )
     return solutions, first_score
 
 
@@ -308,7 +310,10 @@ def _scatter(values: np.ndarray, rows: np.ndarray, cols: np.ndarray, height: int
     count = values.shape[0]
     if values.shape[1] == 0:
         return np.zeros((count, height, width))
-    flat = (np.arange(count)[:, None] * (height * width) + (np.asarray(rows, dtype=np.int64) * width + np.asarray(cols, dtype=np.int64))[None, :]).ravel()
+    flat = (
+        np.arange(count)[:, None] * (height * width)
+        + (np.asarray(rows, dtype=np.int64) * width + np.asarray(cols, dtype=np.int64))[None, :]
+    ).ravel()
     return np.bincount(flat, weights=values.ravel(), minlength=count * height * width).reshape(count, height, width)
 
 
@@ -340,7 +345,9 @@ def solve_stacked_values(stacked: Matrices, demands: list[str]) -> tuple[np.ndar
     count, size = values.shape[0], len(stacked.activity_keys)
     column = {key: number for number, key in enumerate(stacked.activity_keys)}
     signs = np.where(stacked.technosphere_flip, -1.0, 1.0)
-    technosphere = _scatter(values * signs, stacked.technosphere_indices["row"], stacked.technosphere_indices["col"], size, size)
+    technosphere = _scatter(
+        values * signs, stacked.technosphere_indices["row"], stacked.technosphere_indices["col"], size, size
+    )
     rows = stacked.biosphere_indices["row"].astype(np.int64) - FLOW_ID_OFFSET
     biosphere = _scatter(stacked.biosphere_values, rows, stacked.biosphere_indices["col"], len(stacked.flow_keys), size)
     demand_vectors = np.zeros((count, size, len(demands)))
@@ -382,7 +389,9 @@ def solve_many(systems: list[Matrices], demands: list[str]) -> list[dict[str, So
         np.stack([system.technosphere_values for system in systems]),
         first.technosphere_flip,
         first.biosphere_indices,
-        np.stack([system.biosphere_values for system in systems]) if len(first.biosphere_indices) else np.zeros((len(systems), 0)),
+        np.stack([system.biosphere_values for system in systems])
+        if len(first.biosphere_indices)
+        else np.zeros((len(systems), 0)),
     )
     supply, biosphere = solve_stacked_values(stacked, demands)
     results = []

@@ -58,7 +58,12 @@ class NumericInputs:
         if where != "factor" and factor_id not in self.factor_set.factors:
             close = close_factor_ids(factor_id, self.factor_set.factors)
             hint = f"; did you mean {' or '.join(repr(c) for c in close)}?" if close else ""
-            raise InputError(self.source, where, f"a factor id known to set '{self.factor_set.name}', got '{factor_id}'{hint} (see `carbonledger factors list`)")
+            raise InputError(
+                self.source,
+                where,
+                f"a factor id known to set '{self.factor_set.name}', got "
+                f"'{factor_id}'{hint} (see `carbonledger factors list`)",
+            )
         return self.factor_set.get(factor_id, where)
 
     def factor(self, factor_id: str, unit: str, where: str = "factor"):
@@ -68,8 +73,15 @@ class NumericInputs:
             return row.value * conversion_factor(row.unit, unit)
         except UnitMismatch as error:
             if where != "factor":  # the project named a factor of the wrong kind: blame the project
-                raise InputError(self.source, where, f"a factor id whose unit converts to {unit}; '{factor_id}' is in {row.unit}{spelling_hint(row.unit)}") from None
-            raise InputError(row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}{spelling_hint(row.unit)}") from None
+                raise InputError(
+                    self.source,
+                    where,
+                    f"a factor id whose unit converts to {unit}; '{factor_id}' "
+                    f"is in {row.unit}{spelling_hint(row.unit)}",
+                ) from None
+            raise InputError(
+                row.origin or self.factor_set.name, factor_id, f"a value in {unit}: {error}{spelling_hint(row.unit)}"
+            ) from None
 
     def factor_unit(self, factor_id: str, where: str = "factor") -> str:
         return self._row(factor_id, where).unit

@@ -62,7 +62,9 @@ def build_inventory(params: dict, inputs) -> Inventory:
         activities += route.build(params, inputs, chain)
     gate = gate or chain.reference
     activities += chain.extra
-    functional_unit = f"1 {UNIT_OF_PRODUCT[chain.product]} " + ("at the plant gate" if chain.boundary == "cradle-to-gate" else f"delivered {chain.place}")
+    functional_unit = f"1 {UNIT_OF_PRODUCT[chain.product]} " + (
+        "at the plant gate" if chain.boundary == "cradle-to-gate" else f"delivered {chain.place}"
+    )
     if chain.boundary != "cradle-to-gate":
         if chain.product != product:
             functional_unit += ", cracked from ammonia"

@@ -52,7 +52,9 @@ def strict_json(data: Any, where: str = "result") -> str:
     try:
         return json.dumps(data, indent=2, allow_nan=False, default=_plain_number)
     except ValueError:
-        raise InputError(where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)") from None
+        raise InputError(
+            where, "result", "finite numbers only (a figure is NaN or infinite; nothing was written or recorded)"
+        ) from None
 
 
 def constructed(model: type[BaseModel], values: dict[str, Any], fields_set: set[str]) -> BaseModel:
@@ -153,7 +155,8 @@ class Check(BaseModel):
     assessment_period: str = ""  # the dates the rules were read on (a calendar year)
     rule_versions: list[str] = []  # the version of each dated rule used
     electricity_counted_zero: list[str] = []  # electricity activities the scheme counts at zero
-    electricity_charged_as_grid: dict[str, str] = {}  # failing electricity activity -> grid activity whose intensity it is charged
+    # failing electricity activity -> grid activity whose intensity it is charged
+    electricity_charged_as_grid: dict[str, str] = {}
     grade: str = ""  # the rulebook's grade: primary text, verbatim secondary, secondary, not yet verified
     user_rulebook: bool = False  # the rulebook is the user's own (--rulebook), not a shipped one
     rulebook_file: str = ""  # the file of a user rulebook
@@ -195,7 +198,8 @@ class ScoreResult(BaseModel):
     by_stage: dict[str, float]
     by_gas: dict[str, float]
     hydrogen_leakage_kg: float = 0.0  # kg H2 leaked or vented per functional unit (in non_ghg_kg too)
-    hydrogen_leakage_kg_co2e: float = 0.0  # its indirect effect with the GWP100 of hydrogen (factor gwp_indirect.h2): not in total, by_gas or any scheme value
+    # its indirect effect with the GWP100 of hydrogen (factor gwp_indirect.h2): not in total, by_gas or any scheme value
+    hydrogen_leakage_kg_co2e: float = 0.0
     non_ghg_kg: dict[str, float] = {}  # kg per functional unit of flows that are not greenhouse gases (ammonia slip)
     # kg CO2 of biomass carbon per functional unit: released, and captured and stored; counted apart (characterised
     # at zero, not in by_gas or total) and never netted against the total or a scheme value unless its rulebook says so
@@ -207,13 +211,16 @@ class ScoreResult(BaseModel):
     exchanges: list[ExchangeRow]
     parameters: dict[str, Any]
     delivery: dict[str, Any] = {}  # voyage and cracking figures (well-to-tank and well-to-wake)
-    co_products: dict[str, Any] = {}  # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
-    rebalanced_shares: dict[str, float] = {}  # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
+    # a co-product of the hydrogen route, its amount and how the burden was shared (project's choice)
+    co_products: dict[str, Any] = {}
+    # electricity source -> its share, 1 less the others' after the --set overrides (--rebalance)
+    rebalanced_shares: dict[str, float] = {}
 
     @computed_field
     @property
     def factor_grades(self) -> dict[str, list[str]]:
-        """Ids of the factors used by source grade (primary text, verbatim secondary, secondary, not yet verified, invented)."""
+        """Ids of the factors used by source grade (primary text, verbatim secondary, secondary, not yet verified,
+        invented)."""
         return grades_of(self.factors_used)
 
     @computed_field

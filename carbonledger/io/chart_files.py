@@ -18,7 +18,9 @@ CHART_FORMATS = ("png", "svg")
 CHART_SETTINGS = {"text.usetex": False, "text.parse_math": False, "svg.hashsalt": "carbonledger"}
 
 
-def write_figure(path: str | Path, make_figure: Callable[[], object], force: bool = False, *, svg_text: bool = False) -> Path:
+def write_figure(
+    path: str | Path, make_figure: Callable[[], object], force: bool = False, *, svg_text: bool = False
+) -> Path:
     """Draw ``make_figure()`` and save it to ``path``; ``svg_text`` keeps SVG text as text (searchable, read aloud)."""
     path = Path(path)
     kind = path.suffix.lower().lstrip(".")

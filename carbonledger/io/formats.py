@@ -30,7 +30,9 @@ def formats() -> tuple[str, ...]:
     return BUILT_IN + tuple(FROM_JSON)
 
 
-def output_text(output_format: str, *, table: Callable[[], str], json_text: Callable[[], str], csv: Callable[[], str]) -> str:
+def output_text(
+    output_format: str, *, table: Callable[[], str], json_text: Callable[[], str], csv: Callable[[], str]
+) -> str:
     """The output of a command in ``output_format``, ending with a new line: a built-in format from its own
     writer, a registered one from the JSON document."""
     output_format = str(output_format)

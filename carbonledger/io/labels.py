@@ -11,7 +11,27 @@ from ..model.flows import FLOW_NAMES
 from ..model.grades import GRADE_WORDS, Grade
 from ..model.statuses import Status
 
-WORDS = {"co2": "CO2", "co2e": "CO2e", "h2": "H2", "nh3": "NH3", "n2": "N2", "ch4": "CH4", "n2o": "N2O", "lhv": "LHV", "gj": "GJ", "kwh": "kWh", "mwh": "MWh", "mw": "MW", "mj": "MJ", "pem": "PEM", "atr": "ATR", "smr": "SMR", "ar4": "AR4", "ar5": "AR5", "ar6": "AR6"}
+WORDS = {
+    "co2": "CO2",
+    "co2e": "CO2e",
+    "h2": "H2",
+    "nh3": "NH3",
+    "n2": "N2",
+    "ch4": "CH4",
+    "n2o": "N2O",
+    "lhv": "LHV",
+    "gj": "GJ",
+    "kwh": "kWh",
+    "mwh": "MWh",
+    "mw": "MW",
+    "mj": "MJ",
+    "pem": "PEM",
+    "atr": "ATR",
+    "smr": "SMR",
+    "ar4": "AR4",
+    "ar5": "AR5",
+    "ar6": "AR6",
+}
 # The unit of each intensity (and scheme quantity), and what it is per.
 INTENSITY_UNITS = {
     "kg_co2e_per_t_nh3": "kg CO2e/t NH3",

@@ -131,8 +131,17 @@ def connect(ledger: str | Path | Location | None = None, *, create: bool = True)
             raise
         if version != SCHEMA_VERSION:
             db.close()
-            why = "an empty database" if version == 0 else f"ledger schema {version}, this carbonledger writes {SCHEMA_VERSION}"
-            raise InputError(where.shown, "--ledger", f"a carbonledger ledger of schema {SCHEMA_VERSION} ({why}: run `carbonledger ledger upgrade` on it once); nothing was written")
+            why = (
+                "an empty database"
+                if version == 0
+                else f"ledger schema {version}, this carbonledger writes {SCHEMA_VERSION}"
+            )
+            raise InputError(
+                where.shown,
+                "--ledger",
+                f"a carbonledger ledger of schema {SCHEMA_VERSION} ({why}: run `carbonledger "
+                "ledger upgrade` on it once); nothing was written",
+            )
         return db
     return _connect_file(where, create)
 
@@ -143,7 +152,9 @@ def _connect_file(where: Location, create: bool) -> SqliteDatabase:
         raise _refuse(path, "it is a folder")
     if not path.exists():
         if not create:
-            raise InputError(path, "--ledger", "an existing run ledger (none found; runs are recorded by score and recalc)")
+            raise InputError(
+                path, "--ledger", "an existing run ledger (none found; runs are recorded by score and recalc)"
+            )
         _create(path)
     try:
         with path.open("rb") as handle:
@@ -316,12 +327,17 @@ def to_record(result, kind: str = "score") -> LedgerRecord:
 
 _INSERT_CONTENT = "INSERT INTO {table} (sha256, json) VALUES (:sha256, :json) ON CONFLICT DO NOTHING"
 _INSERT_RECORD = (
-    "INSERT INTO records (run_id, sha256, " + ", ".join(name for name in RECORD_FIELDS if name != "run_key") + ") VALUES (:run_id, :sha256, "
-    + ", ".join(f":{name}" for name in RECORD_FIELDS if name != "run_key") + ") ON CONFLICT (run_id, item_key) DO NOTHING"
+    "INSERT INTO records (run_id, sha256, "
+    + ", ".join(name for name in RECORD_FIELDS if name != "run_key")
+    + ") VALUES (:run_id, :sha256, "
+    + ", ".join(f":{name}" for name in RECORD_FIELDS if name != "run_key")
+    + ") ON CONFLICT (run_id, item_key) DO NOTHING"
 )
 
 
-def _write_records(db, run_id: int, run_key: str, items: list[tuple[str, LedgerRecord]], who: Recorder, time: str) -> None:
+def _write_records(
+    db, run_id: int, run_key: str, items: list[tuple[str, LedgerRecord]], who: Recorder, time: str
+) -> None:
     """Insert records (with their parameter sets and factor lists) inside the caller's transaction.
 
     Content rows go in sha256 order and records in item-key order, so two transactions never
@@ -364,14 +380,17 @@ def _write_records(db, run_id: int, run_key: str, items: list[tuple[str, LedgerR
         del row["run_key"]
         rows.append(row)
     for table, content in (("parameter_sets", parameters), ("factor_lists", factors)):
-        db.run_many(_INSERT_CONTENT.format(table=table), [{"sha256": sha, "json": content[sha]} for sha in sorted(content)])
+        db.run_many(
+            _INSERT_CONTENT.format(table=table), [{"sha256": sha, "json": content[sha]} for sha in sorted(content)]
+        )
     db.run_many(_INSERT_RECORD, sorted(rows, key=lambda row: row["item_key"]))
 
 
 def _new_run(db, run_key: str, command: str, who: Recorder, time: str) -> tuple[int, int | None]:
     """The run's row (created unless its key is there): (id, record count or None while open)."""
     db.run(
-        "INSERT INTO runs (run_key, time, command, carbonledger_version, user_name, host) VALUES (:key, :time, :command, :version, :user, :host)"
+        "INSERT INTO runs (run_key, time, command, carbonledger_version, user_name, "
+        "host) VALUES (:key, :time, :command, :version, :user, :host)"
         " ON CONFLICT (run_key) DO NOTHING",
         {"key": run_key, "time": time, "command": command, "version": __version__, "user": who.user, "host": who.host},
     )
@@ -380,7 +399,9 @@ def _new_run(db, run_key: str, command: str, who: Recorder, time: str) -> tuple[
 
 def _close(db, run_id: int) -> int:
     count = db.rows("SELECT COUNT(*) FROM records WHERE run_id = :id", {"id": run_id})[0][0]
-    db.run("UPDATE runs SET record_count = :count WHERE id = :id AND record_count IS NULL", {"count": count, "id": run_id})
+    db.run(
+        "UPDATE runs SET record_count = :count WHERE id = :id AND record_count IS NULL", {"count": count, "id": run_id}
+    )
     return count
 
 
@@ -401,7 +422,9 @@ def _in_transaction(db, write, failed: str):
         db.close()
 
 
-def record_run(command: str, results: Iterable, *, ledger: str | Path | Location | None = None, kind: str = "score") -> int | None:
+def record_run(
+    command: str, results: Iterable, *, ledger: str | Path | Location | None = None, kind: str = "score"
+) -> int | None:
     """Record one run (any number of results) in one transaction; return the run id.
 
     ``results`` may hold any result with a ``ledger_entry(kind)`` method (ScoreResult,
@@ -457,7 +480,11 @@ def run_target(ledger: Location, inputs: dict, command: str, kind: str) -> RunTa
 def open_run(target: RunTarget) -> bool:
     """Create the run (not yet visible); True when a run with this key is already complete."""
     db = connect(target.ledger)
-    return _in_transaction(db, lambda: _new_run(db, target.run_key, target.command, target.who, now_text())[1] is not None, "the run was not opened")
+    return _in_transaction(
+        db,
+        lambda: _new_run(db, target.run_key, target.command, target.who, now_text())[1] is not None,
+        "the run was not opened",
+    )
 
 
 def write_batch(target: RunTarget, items: list[tuple[str, Any]]) -> None:
@@ -473,7 +500,9 @@ def write_batch(target: RunTarget, items: list[tuple[str, Any]]) -> None:
     def write() -> None:
         found = db.rows("SELECT id, record_count FROM runs WHERE run_key = :key", {"key": target.run_key})
         if not found:
-            raise InputError(target.ledger.shown, "--ledger", f"an open run {target.run_key[:12]} (not found; open_run first)")
+            raise InputError(
+                target.ledger.shown, "--ledger", f"an open run {target.run_key[:12]} (not found; open_run first)"
+            )
         run_id, count = found[0]
         if count is None:
             _write_records(db, run_id, target.run_key, records, target.who, now_text())
@@ -555,14 +584,23 @@ class RecordFilter:
             names = [f"p{n}" for n in range(len(self.projects))]
             clauses.append(f"r.project_path IN ({', '.join(':' + name for name in names)})")
             params.update(zip(names, self.projects, strict=True))
-        for clause, key, value in (("r.user_name = :user", "user", self.user), ("r.recorded_at >= :since", "since", self.since), ("r.recorded_at < :until", "until", self.until)):
+        for clause, key, value in (
+            ("r.user_name = :user", "user", self.user),
+            ("r.recorded_at >= :since", "since", self.since),
+            ("r.recorded_at < :until", "until", self.until),
+        ):
             if value is not None:
                 clauses.append(clause)
                 params[key] = value
         return " WHERE " + " AND ".join(clauses), params
 
 
-def record_filter(projects: Iterable[str | Path] = (), user: str | None = None, since: datetime | None = None, until: datetime | None = None) -> RecordFilter:
+def record_filter(
+    projects: Iterable[str | Path] = (),
+    user: str | None = None,
+    since: datetime | None = None,
+    until: datetime | None = None,
+) -> RecordFilter:
     """A RecordFilter from project paths and datetimes (naive datetimes are taken as UTC)."""
 
     def iso(moment: datetime | None) -> str | None:
@@ -575,25 +613,41 @@ def record_filter(projects: Iterable[str | Path] = (), user: str | None = None, 
 
 
 _ENTRY_COLUMNS = (
-    "record", "run", "run_key", "time", "command", "recorded_at", "user", "host", "carbonledger_version", "kind", "project_path", "project",
-    "project_sha256", "factor_set", "factor_set_sha256", "assessment_year", "schemes", "boundary", "gwp", "results", "parameters_sha256",
-    "factors_sha256", "sha256",
+    "record", "run", "run_key", "time", "command", "recorded_at", "user", "host", "carbonledger_version", "kind",
+    "project_path", "project", "project_sha256", "factor_set", "factor_set_sha256", "assessment_year", "schemes",
+    "boundary", "gwp", "results", "parameters_sha256", "factors_sha256", "sha256",
 )  # fmt: skip
 _ENTRY_SELECT = (
-    "SELECT r.id, r.run_id, runs.run_key, runs.time, runs.command, r.recorded_at, r.user_name, r.host, r.carbonledger_version, r.kind,"
-    " r.project_path, r.project_name, r.project_sha256, r.factor_set, r.factor_set_sha256, r.assessment_year, r.schemes, r.boundary, r.gwp,"
+    "SELECT r.id, r.run_id, runs.run_key, runs.time, runs.command, r.recorded_at, "
+    "r.user_name, r.host, r.carbonledger_version, r.kind,"
+    " r.project_path, r.project_name, r.project_sha256, r.factor_set, r.factor_set_sha256, "
+    "r.assessment_year, r.schemes, r.boundary, r.gwp,"
     " r.results, r.parameters_sha256, r.factors_sha256, r.sha256"
 )
 
 
-def read_records(ledger: str | Path | Location | None = None, where: RecordFilter = RecordFilter(), *, content: bool = True) -> list[dict]:
+def read_records(
+    ledger: str | Path | Location | None = None, where: RecordFilter = RecordFilter(), *, content: bool = True
+) -> list[dict]:
     """The records of complete runs that pass ``where``, oldest first; with ``content`` also
     their parameters and factor rows, and what changed since the project's record before."""
     db = connect(ledger, create=False)
     clause, params = where.where()
-    joins = " JOIN parameter_sets p ON p.sha256 = r.parameters_sha256 JOIN factor_lists f ON f.sha256 = r.factors_sha256" if content else ""
+    joins = (
+        " JOIN parameter_sets p ON p.sha256 = r.parameters_sha256 JOIN factor_lists f ON f.sha256 = r.factors_sha256"
+        if content
+        else ""
+    )
     try:
-        rows = db.rows(_ENTRY_SELECT + (", p.json, f.json" if content else "") + " FROM records r JOIN runs ON runs.id = r.run_id" + joins + clause + " ORDER BY r.id", params)
+        rows = db.rows(
+            _ENTRY_SELECT
+            + (", p.json, f.json" if content else "")
+            + " FROM records r JOIN runs ON runs.id = r.run_id"
+            + joins
+            + clause
+            + " ORDER BY r.id",
+            params,
+        )
     except db.errors as error:
         raise db.failure(error, "a readable run ledger") from None
     finally:
@@ -617,18 +671,24 @@ def _changes(previous: dict | None, entry: dict) -> dict | None:
         return None
     return {
         "project_file": previous["project_sha256"] != entry["project_sha256"],
-        "factor_set": None if previous["factor_set_sha256"] == entry["factor_set_sha256"] else {"old": previous["factor_set"], "new": entry["factor_set"]},
+        "factor_set": None
+        if previous["factor_set_sha256"] == entry["factor_set_sha256"]
+        else {"old": previous["factor_set"], "new": entry["factor_set"]},
         "gwp": None if previous["gwp"] == entry["gwp"] else {"old": previous["gwp"], "new": entry["gwp"]},
         "parameters": parameter_changes(previous["parameters"], entry["parameters"]),
         "factors": factor_changes(previous["factors_used"], entry["factors_used"]),
     }
 
 
-def project_history(project_file: str | Path, ledger: str | Path | Location | None = None, where: RecordFilter | None = None) -> list[dict]:
+def project_history(
+    project_file: str | Path, ledger: str | Path | Location | None = None, where: RecordFilter | None = None
+) -> list[dict]:
     """Every record of a project file (matched by its resolved path), oldest first, each with
     what changed since the one before: the project file, parameters, factor set, factor rows."""
     where = where or RecordFilter()
-    return read_records(ledger, RecordFilter((str(Path(project_file).resolve()),), where.user, where.since, where.until))
+    return read_records(
+        ledger, RecordFilter((str(Path(project_file).resolve()),), where.user, where.since, where.until)
+    )
 
 
 # ---------------------------------------------------------------------------------------------
@@ -652,12 +712,22 @@ def _digest(hashes: Iterable[str]) -> str:
 
 def _contents(db) -> tuple[list[tuple], list[dict], dict[str, dict[str, str]]]:
     """(complete runs, their records as RECORD_FIELDS dicts with sha256, content rows by table)."""
-    runs = db.rows("SELECT run_key, time, command, carbonledger_version, user_name, host, record_count FROM runs WHERE record_count IS NOT NULL ORDER BY id")
-    rows = db.rows(RECORD_SELECT.replace("SELECT ", "SELECT r.sha256, ", 1) + " WHERE runs.record_count IS NOT NULL ORDER BY r.id")
+    runs = db.rows(
+        "SELECT run_key, time, command, carbonledger_version, user_name, host, "
+        "record_count FROM runs WHERE record_count IS NOT NULL ORDER BY id"
+    )
+    rows = db.rows(
+        RECORD_SELECT.replace("SELECT ", "SELECT r.sha256, ", 1) + " WHERE runs.record_count IS NOT NULL ORDER BY r.id"
+    )
     records = [{"sha256": row[0], **dict(zip(RECORD_FIELDS, row[1:], strict=True))} for row in rows]
     blobs = {}
     for table, column in (("parameter_sets", "parameters_sha256"), ("factor_lists", "factors_sha256")):
-        blobs[table] = dict(db.rows(f"SELECT sha256, json FROM {table} WHERE sha256 IN (SELECT r.{column} FROM records r JOIN runs ON runs.id = r.run_id WHERE runs.record_count IS NOT NULL)"))
+        blobs[table] = dict(
+            db.rows(
+                f"SELECT sha256, json FROM {table} WHERE sha256 IN (SELECT r.{column} FROM records "
+                "r JOIN runs ON runs.id = r.run_id WHERE runs.record_count IS NOT NULL)"
+            )
+        )
     return runs, records, blobs
 
 
@@ -666,17 +736,33 @@ def _check_hashes(db, records: list[dict], blobs: dict[str, dict[str, str]], run
     and every run holds as many records as it says; else one line naming the ledger."""
     bad = next((row for row in records if record_sha256(row) != row["sha256"]), None)
     if bad is not None:
-        raise InputError(db.location.shown, "--ledger", f"records whose content matches their sha256 (record {bad['item_key']} of run {bad['run_key'][:12]} does not); nothing was copied")
+        raise InputError(
+            db.location.shown,
+            "--ledger",
+            f"records whose content matches their sha256 (record {bad['item_key']} "
+            f"of run {bad['run_key'][:12]} does not); nothing was copied",
+        )
     for table, content in blobs.items():
-        wrong = next((sha for sha, text in content.items() if hashlib.sha256(text.encode("utf-8")).hexdigest() != sha), None)
+        wrong = next(
+            (sha for sha, text in content.items() if hashlib.sha256(text.encode("utf-8")).hexdigest() != sha), None
+        )
         if wrong is not None:
-            raise InputError(db.location.shown, "--ledger", f"{table} rows that match their sha256 ({wrong[:12]} does not); nothing was copied")
+            raise InputError(
+                db.location.shown,
+                "--ledger",
+                f"{table} rows that match their sha256 ({wrong[:12]} does not); nothing was copied",
+            )
     counted: dict[str, int] = {}
     for row in records:
         counted[row["run_key"]] = counted.get(row["run_key"], 0) + 1
     short = next((run for run in runs if counted.get(run[0], 0) != run[6]), None)
     if short is not None:
-        raise InputError(db.location.shown, "--ledger", f"runs holding the records they count (run {short[0][:12]} says {short[6]}, holds {counted.get(short[0], 0)}); nothing was copied")
+        raise InputError(
+            db.location.shown,
+            "--ledger",
+            f"runs holding the records they count (run {short[0][:12]} says {short[6]}, "
+            f"holds {counted.get(short[0], 0)}); nothing was copied",
+        )
 
 
 def copy_ledger(source: str | Path | Location, target: str | Path | Location) -> CopyReport:
@@ -688,7 +774,9 @@ def copy_ledger(source: str | Path | Location, target: str | Path | Location) ->
     sha256s must be found in the target. Copying again adds nothing.
     """
     source, target = locate(source), locate(target)
-    if (source.path and target.path and source.path.resolve() == target.path.resolve()) or (source.url and source.url == target.url):
+    if (source.path and target.path and source.path.resolve() == target.path.resolve()) or (
+        source.url and source.url == target.url
+    ):
         raise InputError(target.shown, "--ledger", "a ledger other than the source; nothing was written")
     src = connect(source, create=False)
     try:
@@ -708,8 +796,12 @@ def copy_ledger(source: str | Path | Location, target: str | Path | Location) ->
             dst.run("DELETE FROM records WHERE run_id = (SELECT id FROM runs WHERE run_key = :key)", {"key": key})
             dst.run("DELETE FROM runs WHERE run_key = :key", {"key": key})
         dst.run_many(
-            "INSERT INTO runs (run_key, time, command, carbonledger_version, user_name, host) VALUES (:key, :time, :command, :version, :user, :host)",
-            [dict(zip(("key", "time", "command", "version", "user", "host"), run[:6], strict=True)) for run in new_runs],
+            "INSERT INTO runs (run_key, time, command, carbonledger_version, user_name, "
+            "host) VALUES (:key, :time, :command, :version, :user, :host)",
+            [
+                dict(zip(("key", "time", "command", "version", "user", "host"), run[:6], strict=True))
+                for run in new_runs
+            ],
         )
         ids = {key: run_id for run_id, key in dst.rows("SELECT id, run_key FROM runs")}
         copied = [row for row in records if row["run_key"] in new_keys]
@@ -717,14 +809,33 @@ def copy_ledger(source: str | Path | Location, target: str | Path | Location) ->
             column = "parameters_sha256" if table == "parameter_sets" else "factors_sha256"
             needed = sorted({row[column] for row in copied})
             dst.run_many(_INSERT_CONTENT.format(table=table), [{"sha256": sha, "json": content[sha]} for sha in needed])
-        dst.run_many(_INSERT_RECORD, [{**{k: v for k, v in row.items() if k != "run_key"}, "run_id": ids[row["run_key"]]} for row in copied])
-        dst.run_many("UPDATE runs SET record_count = :count WHERE run_key = :key", [{"count": run[6], "key": run[0]} for run in new_runs])
+        dst.run_many(
+            _INSERT_RECORD,
+            [{**{k: v for k, v in row.items() if k != "run_key"}, "run_id": ids[row["run_key"]]} for row in copied],
+        )
+        dst.run_many(
+            "UPDATE runs SET record_count = :count WHERE run_key = :key",
+            [{"count": run[6], "key": run[0]} for run in new_runs],
+        )
         target_runs, target_records, target_blobs = _contents(dst)
         _check_hashes(dst, target_records, target_blobs, target_runs)
         found = [row["sha256"] for row in target_records if row["run_key"] in {run[0] for run in runs}]
         if len(found) != len(records) or _digest(found) != _digest(row["sha256"] for row in records):
-            raise InputError(target.shown, "--ledger", f"a copy holding the source's {len(records)} records (found {len(found)}, or different sha256s); nothing was written")
+            raise InputError(
+                target.shown,
+                "--ledger",
+                f"a copy holding the source's {len(records)} records (found "
+                f"{len(found)}, or different sha256s); nothing was written",
+            )
         return len(new_runs), len(copied)
 
     runs_copied, records_copied = _in_transaction(dst, write, "nothing was copied")
-    return CopyReport(source.shown, target.shown, len(runs), len(records), runs_copied, records_copied, _digest(row["sha256"] for row in records))
+    return CopyReport(
+        source.shown,
+        target.shown,
+        len(runs),
+        len(records),
+        runs_copied,
+        records_copied,
+        _digest(row["sha256"] for row in records),
+    )

@@ -89,14 +89,21 @@ def locate(ledger: str | Path | Location | None = None) -> Location:
     shown = shown_url(text)
     scheme = text.split("://", 1)[0].lower()
     if scheme not in SERVER_SCHEMES:
-        raise InputError(shown, "--ledger", f"an SQLite file path or a postgresql:// URL (unknown scheme '{scheme}'); nothing was written")
+        raise InputError(
+            shown,
+            "--ledger",
+            f"an SQLite file path or a postgresql:// URL (unknown scheme '{scheme}'); nothing was written",
+        )
     try:
         password = urlsplit(text).password
     except ValueError as error:
         raise InputError(shown, "--ledger", f"a well-formed postgresql:// URL ({error}); nothing was written") from None
     if password:
         raise InputError(
-            shown, "--ledger", "a URL without a password (give it to libpq in PGPASSWORD, ~/.pgpass or a service file, never on the command line); nothing was written"
+            shown,
+            "--ledger",
+            "a URL without a password (give it to libpq in PGPASSWORD, ~/.pgpass "
+            "or a service file, never on the command line); nothing was written",
         )
     return Location(shown, url=text)
 
@@ -215,7 +222,13 @@ class ServerDatabase(Database):
     def tables(self) -> set[str]:
         # pg_class lists every table, view and sequence of the schema, whoever may read it
         # (information_schema shows only those the user has rights on)
-        return {row[0] for row in self.rows("SELECT c.relname FROM pg_catalog.pg_class c WHERE c.relnamespace = to_regnamespace(current_schema()) AND c.relkind IN ('r', 'p', 'v', 'm', 'f')")}
+        return {
+            row[0]
+            for row in self.rows(
+                "SELECT c.relname FROM pg_catalog.pg_class c WHERE c.relnamespace = to_regnamespace(current_schema()) "
+                "AND c.relkind IN ('r', 'p', 'v', 'm', 'f')"
+            )
+        }
 
     def close(self) -> None:
         self.rollback()
@@ -227,6 +240,12 @@ def open_server(location: Location) -> ServerDatabase:
     try:
         return ServerDatabase(location)
     except server_errors() as error:
-        raise InputError(location.shown, "--ledger", f"a PostgreSQL server that accepts the connection ({first_line(error)}); nothing was written") from None
+        raise InputError(
+            location.shown,
+            "--ledger",
+            f"a PostgreSQL server that accepts the connection ({first_line(error)}); nothing was written",
+        ) from None
     except ImportError as error:
-        raise InputError(location.shown, "--ledger", f"SQLAlchemy and psycopg installed for a PostgreSQL ledger ({error})") from None
+        raise InputError(
+            location.shown, "--ledger", f"SQLAlchemy and psycopg installed for a PostgreSQL ledger ({error})"
+        ) from None

@@ -33,14 +33,20 @@ def matching_figure(local: np.ndarray, load_kwh: np.ndarray, matched_kwh: np.nda
     bars.set_ylabel("electricity use, MWh")
     bars.legend(fontsize=8)
     bars.set_title("Electricity use by month", fontsize=10)
-    image = heat.imshow(share, aspect="auto", origin="lower", cmap=ramp_colormap(), vmin=0, vmax=1, interpolation="nearest")
+    image = heat.imshow(
+        share, aspect="auto", origin="lower", cmap=ramp_colormap(), vmin=0, vmax=1, interpolation="nearest"
+    )
     heat.set_xticks(positions, names, rotation=60, ha="right", fontsize=7)
     heat.set_yticks(range(0, 24, 3))
     heat.set_ylabel("local hour of day")
     heat.set_title("Unmatched share of use, by hour and month", fontsize=10)
     figure.colorbar(image, ax=heat, label="unmatched / use")
     figure.suptitle(title, fontsize=10)
-    figure.supxlabel("Screening estimate, not a certification: the scheme's official methodology and an accredited verifier take precedence.", fontsize=6.5)
+    figure.supxlabel(
+        "Screening estimate, not a certification: the scheme's official "
+        "methodology and an accredited verifier take precedence.",
+        fontsize=6.5,
+    )
     return figure
 
 

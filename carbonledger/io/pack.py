@@ -51,8 +51,14 @@ def write_pack(path: str | Path, files: dict[str, bytes], manifest: dict, force:
     def write(tmp: Path) -> None:
         with zipfile.ZipFile(tmp, "w", compression=zipfile.ZIP_DEFLATED) as archive:
             for name, data in sorted(files.items()):
-                archive.writestr(zipfile.ZipInfo(name, date_time=(2026, 1, 1, 0, 0, 0)), data, compress_type=zipfile.ZIP_DEFLATED)
-            archive.writestr(zipfile.ZipInfo(MANIFEST, date_time=(2026, 1, 1, 0, 0, 0)), json.dumps(manifest, indent=2, sort_keys=True) + "\n", compress_type=zipfile.ZIP_DEFLATED)
+                archive.writestr(
+                    zipfile.ZipInfo(name, date_time=(2026, 1, 1, 0, 0, 0)), data, compress_type=zipfile.ZIP_DEFLATED
+                )
+            archive.writestr(
+                zipfile.ZipInfo(MANIFEST, date_time=(2026, 1, 1, 0, 0, 0)),
+                json.dumps(manifest, indent=2, sort_keys=True) + "\n",
+                compress_type=zipfile.ZIP_DEFLATED,
+            )
 
     return atomic_write(path, write, force=force)
 
@@ -89,7 +95,12 @@ def read_pack(path: str | Path) -> Pack:
         if name not in files:
             raise PackMismatch(path, name, "listed in the manifest but missing from the pack")
         if sha256_of(files[name]) != expected:
-            raise PackMismatch(path, name, f"sha256 {sha256_of(files[name])} does not match the manifest's {expected} (the file was changed after packing)")
+            raise PackMismatch(
+                path,
+                name,
+                f"sha256 {sha256_of(files[name])} does not match the manifest's "
+                f"{expected} (the file was changed after packing)",
+            )
     for name in sorted(set(files) - set(listed)):
         raise PackMismatch(path, name, "in the pack but not in its manifest (added after packing)")
     return Pack(manifest, files)

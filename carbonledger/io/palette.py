@@ -16,9 +16,31 @@ TEAL = "#24566b"
 SAND = "#c9892b"
 AXIS = "#8b949b"
 MUTED = "#5d6870"
-STAGE_COLOURS = ("#24566b", "#c9892b", "#6f9a73", "#a4452f", "#5a6aa3", "#b9a35f", "#744f7e", "#3a8f8b", "#d17a57", "#7d8088")
-GAS_COLOURS = {"co2_fossil": "#24566b", "ch4_fossil": "#c9892b", "ch4_non_fossil": "#b9a35f", "n2o": "#744f7e", "co2e_precharacterised": "#6f9a73"}
-STATUS_COLOURS = {Status.QUALIFIES.words: "#2f6b45", Status.FAILS.words: "#a4452f", Status.NOT_ELIGIBLE.words: "#5b616c", Status.UNDETERMINED.words: "#8a6a10"}
+STAGE_COLOURS = (
+    "#24566b",
+    "#c9892b",
+    "#6f9a73",
+    "#a4452f",
+    "#5a6aa3",
+    "#b9a35f",
+    "#744f7e",
+    "#3a8f8b",
+    "#d17a57",
+    "#7d8088",
+)
+GAS_COLOURS = {
+    "co2_fossil": "#24566b",
+    "ch4_fossil": "#c9892b",
+    "ch4_non_fossil": "#b9a35f",
+    "n2o": "#744f7e",
+    "co2e_precharacterised": "#6f9a73",
+}
+STATUS_COLOURS = {
+    Status.QUALIFIES.words: "#2f6b45",
+    Status.FAILS.words: "#a4452f",
+    Status.NOT_ELIGIBLE.words: "#5b616c",
+    Status.UNDETERMINED.words: "#8a6a10",
+}
 MATCHED, UNMATCHED = "#6f9a73", "#cbc3b1"
 LOW, HIGH = TEAL, SAND  # a tornado's low and high ends
 # Heat map ramp: harbour-teal mist (all matched) through sandstone to deep brick (nothing matched).
@@ -41,7 +63,9 @@ def ramp_colormap():
     """The heat map's colours as a matplotlib colormap (matplotlib imported by the caller's chart)."""
     from matplotlib.colors import LinearSegmentedColormap
 
-    return LinearSegmentedColormap.from_list("carbonledger-unmatched", [(stop, tuple(c / 255 for c in rgb)) for stop, rgb in RAMP])
+    return LinearSegmentedColormap.from_list(
+        "carbonledger-unmatched", [(stop, tuple(c / 255 for c in rgb)) for stop, rgb in RAMP]
+    )
 
 
 def status_legend(figure, statuses) -> None:
@@ -51,4 +75,12 @@ def status_legend(figure, statuses) -> None:
 
     shown = [s for s in STATUS_COLOURS if s in set(statuses)]
     if shown:
-        figure.legend(handles=[Patch(color=STATUS_COLOURS[s], label=s) for s in shown], fontsize=7, loc="outside upper right", frameon=False, ncol=len(shown), title="bar colour: the scheme's status", title_fontsize=7)
+        figure.legend(
+            handles=[Patch(color=STATUS_COLOURS[s], label=s) for s in shown],
+            fontsize=7,
+            loc="outside upper right",
+            frameon=False,
+            ncol=len(shown),
+            title="bar colour: the scheme's status",
+            title_fontsize=7,
+        )

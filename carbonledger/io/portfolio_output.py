@@ -56,7 +56,13 @@ def recalc_json(recalc) -> str:
 
 
 def recalc_csv(recalc) -> str:
-    rows = [tuple("; ".join(value) if isinstance(value, list) else value for value in (getattr(row, key) for key in RECALC_COLUMNS)) for row in recalc.rows]
+    rows = [
+        tuple(
+            "; ".join(value) if isinstance(value, list) else value
+            for value in (getattr(row, key) for key in RECALC_COLUMNS)
+        )
+        for row in recalc.rows
+    ]
     return csv_text(RECALC_COLUMNS, rows, caution=CAUTION)
 
 
@@ -84,10 +90,27 @@ def recalc_table(recalc) -> str:
             for row in recalc.rows
             if row.status == status
         ]
-        body += f"{status} ({len(rows)})\n" + plain_table(["project", "scheme", "old", "new", "change", "unit", "limit"], rows, {"old", "new", "change", "limit"}, wrap={"project", "unit"}) + "\n"
+        body += (
+            f"{status} ({len(rows)})\n"
+            + plain_table(
+                ["project", "scheme", "old", "new", "change", "unit", "limit"],
+                rows,
+                {"old", "new", "change", "limit"},
+                wrap={"project", "unit"},
+            )
+            + "\n"
+        )
     newly = recalc.newly_failing
-    tail = f"\n{len(newly)} project-scheme pairs now fail" + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "") + "\n"
-    flags = (FROM_MEMORY_RULEBOOK + "\n" if any(row.rulebook_from_memory for row in recalc.rows) else "") + _flagged_factors(recalc.from_memory["factors"]) + "\n"
+    tail = (
+        f"\n{len(newly)} project-scheme pairs now fail"
+        + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "")
+        + "\n"
+    )
+    flags = (
+        (FROM_MEMORY_RULEBOOK + "\n" if any(row.rulebook_from_memory for row in recalc.rows) else "")
+        + _flagged_factors(recalc.from_memory["factors"])
+        + "\n"
+    )
     return head + body + tail + flags + f"Caution: {CAUTION}\n"
 
 
@@ -95,8 +118,18 @@ def recalc_table(recalc) -> str:
 
 
 def sets_table(sets: list[dict]) -> str:
-    rows = [[s["name"], s["date"], s["sha256"][:12], s["base"] or "-", s["description"][:70] + ("..." if len(s["description"]) > 70 else "")] for s in sets]
-    return plain_table(["name", "date", "sha256", "base", "description"], rows, wrap={"description"})  # the start of the sha256 (JSON and CSV: all 64 characters)
+    rows = [
+        [
+            s["name"],
+            s["date"],
+            s["sha256"][:12],
+            s["base"] or "-",
+            s["description"][:70] + ("..." if len(s["description"]) > 70 else ""),
+        ]
+        for s in sets
+    ]
+    # the start of the sha256 (JSON and CSV: all 64 characters)
+    return plain_table(["name", "date", "sha256", "base", "description"], rows, wrap={"description"})
 
 
 def diff_rows(changes) -> list[dict]:
@@ -130,9 +163,25 @@ def diff_table(old_name: str, new_name: str, changes) -> str:
     grades: dict[str, int] = {}
     for r in diff_rows(changes):
         grades[r["grade"]] = grades.get(r["grade"], 0) + 1
-    head = f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, {sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} removed\n"
-    body = plain_table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}, wrap={"id", "unit", "source"}) if rows else ""
-    graded = ("Source grades of the rows listed: " + "; ".join(f"{words}: {count}" for words, count in grades.items()) + "\n") if grades else ""
+    head = (
+        f"factor set {old_name} -> {new_name}: {sum(1 for c in changes if c.kind == 'changed')} changed, "
+        f"{sum(1 for c in changes if c.kind == 'added')} added, {sum(1 for c in changes if c.kind == 'removed')} "
+        "removed\n"
+    )
+    body = (
+        plain_table(["kind", "id", "old", "new", "unit", "source"], rows, {"old", "new"}, wrap={"id", "unit", "source"})
+        if rows
+        else ""
+    )
+    graded = (
+        (
+            "Source grades of the rows listed: "
+            + "; ".join(f"{words}: {count}" for words, count in grades.items())
+            + "\n"
+        )
+        if grades
+        else ""
+    )
     return head + body + graded + f"Caution: {CAUTION}\n"
 
 
@@ -149,6 +198,27 @@ def lifetime_json(result) -> str:
 YEAR_MARKS = {Status.FAILS: " x", Status.UNDETERMINED: " ?", Status.NOT_ELIGIBLE: " n/e"}
 
 
+LIFETIME_COLUMNS = (
+    "year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total",
+    "total_unit",
+)  # fmt: skip
+
+
+def _lifetime_average_row(result, construction: str, blank_cells: int) -> tuple:
+    """The CSV row of the lifetime average ``without`` or ``with`` construction: the output-weighted
+    average of the total and of each scheme's value, each scheme's status, and the rulebooks recorded
+    from memory."""
+    average = f"average_{construction}_construction"
+    return (
+        (f"lifetime_{construction}_construction", "", "", result.lifetime_output_t, "", "")
+        + (getattr(result, average), result.unit)
+        + tuple(getattr(s, average) for s in result.schemes)
+        + tuple(s.status for s in result.schemes)
+        + ("",) * blank_cells
+        + ("; ".join(result.from_memory["rulebooks"]),)
+    )
+
+
 def lifetime_csv(result) -> str:
     """One row per operating year, then the two lifetime averages; the ``not_yet_verified`` column
     lists the factors of each year not yet verified against the source document, and on the
@@ -156,54 +226,103 @@ def lifetime_csv(result) -> str:
     schemes = [s.scheme for s in result.schemes]
     series = bool(result.time_series)
     extra = ("series_year", "grid_profile_scale") + tuple(f"{s}_matched_share" for s in schemes) if series else ()
-    header = ("year", "stack_age_years", "efficiency_fraction", "output_t", "grid_factor", "grid_factor_unit", "total", "total_unit") + tuple(schemes) + tuple(f"{s}_status" for s in schemes) + extra + ("not_yet_verified",)
+    header = LIFETIME_COLUMNS + tuple(schemes) + tuple(f"{s}_status" for s in schemes) + extra + ("not_yet_verified",)
 
     def series_cells(y) -> tuple:
         if not series:
             return ()
-        return (y.series_year, "" if y.grid_profile_scale is None else y.grid_profile_scale) + tuple(y.matched_share.get(s, "") for s in schemes)
+        return (y.series_year, "" if y.grid_profile_scale is None else y.grid_profile_scale) + tuple(
+            y.matched_share.get(s, "") for s in schemes
+        )
 
     rows = [
-        (y.year, y.stack_age_years, y.efficiency_fraction, y.output_t, "" if y.grid_factor is None else y.grid_factor, y.grid_factor_unit, y.total, result.unit)
+        (
+            y.year,
+            y.stack_age_years,
+            y.efficiency_fraction,
+            y.output_t,
+            "" if y.grid_factor is None else y.grid_factor,
+            y.grid_factor_unit,
+            y.total,
+            result.unit,
+        )
         + tuple(y.scheme_values[s] for s in schemes)
         + tuple(y.statuses.get(s, "") for s in schemes)
         + series_cells(y)
         + ("; ".join(y.factors_from_memory),)
         for y in result.years
     ]
-    rulebooks = "; ".join(result.from_memory["rulebooks"])
-    blank = ("",) * len(extra)
-    rows.append(("lifetime_without_construction", "", "", result.lifetime_output_t, "", "", result.average_without_construction, result.unit) + tuple(s.average_without_construction for s in result.schemes) + tuple(s.status for s in result.schemes) + blank + (rulebooks,))
-    rows.append(("lifetime_with_construction", "", "", result.lifetime_output_t, "", "", result.average_with_construction, result.unit) + tuple(s.average_with_construction for s in result.schemes) + tuple(s.status for s in result.schemes) + blank + (rulebooks,))
+    rows.append(_lifetime_average_row(result, "without", len(extra)))
+    rows.append(_lifetime_average_row(result, "with", len(extra)))
     return csv_text(header, rows, caution=CAUTION)
 
 
 def lifetime_table(result) -> str:
-    schemes = result.schemes
     lines = [
         f"{result.project}  ({result.product}, lifetime {result.operating_years} years)",
         f"project file: {result.project_file}",
-        f"factors: {result.factor_set} (sha256 {result.factor_set_sha256[:12]})   GWP100 of the total: {result.gwp.upper()}"
+        f"factors: {result.factor_set} (sha256 {result.factor_set_sha256[:12]}) "
+        f"  GWP100 of the total: {result.gwp.upper()}"
         + (f"   grid trajectory: {result.trajectory_source}" if result.trajectory_source else ""),
     ]
     if result.time_series:
         lines.append(f"electricity time series: {result.time_series}; scheme values matched under each year's rule")
     lines.append("")
     headers = ["year", "stack age", "efficiency", "output t", "grid", f"total {result.unit}"]
-    rows = [[str(y.year), str(y.stack_age_years), f"{y.efficiency_fraction:.3f}", f"{y.output_t:,.0f}", "-" if y.grid_factor is None else f"{y.grid_factor:g}", display_number(y.total)] for y in result.years]
+    rows = [
+        [
+            str(y.year),
+            str(y.stack_age_years),
+            f"{y.efficiency_fraction:.3f}",
+            f"{y.output_t:,.0f}",
+            "-" if y.grid_factor is None else f"{y.grid_factor:g}",
+            display_number(y.total),
+        ]
+        for y in result.years
+    ]
     lines.append(plain_table(headers, rows, set(headers) - {"year"}))
-    # each scheme's value by year, in its own unit (a second table, so that both fit the terminal)
+    lines += _scheme_years_lines(result)
+    lines.append("")
+    lines += _lifetime_scheme_lines(result)
+    lines.append(f"Caution: {CAUTION}")
+    return "\n".join(lines) + "\n"
+
+
+def _scheme_years_lines(result) -> list[str]:
+    """Each scheme's value by year, in its own unit (a second table, so that both fit the terminal),
+    its marks, and the lifetime output and averages."""
+    schemes = result.schemes
+    lines = []
     headers = ["year"] + [s.scheme for s in schemes]
-    rows = [[str(y.year)] + [display_number(y.scheme_values[s.scheme]) + YEAR_MARKS.get(y.statuses.get(s.scheme, ""), "") for s in schemes] for y in result.years]
+    rows = [
+        [str(y.year)]
+        + [
+            display_number(y.scheme_values[s.scheme]) + YEAR_MARKS.get(y.statuses.get(s.scheme, ""), "")
+            for s in schemes
+        ]
+        for y in result.years
+    ]
     lines.append("Scheme values by year: " + "; ".join(f"{s.scheme} in {s.unit}" for s in schemes))
     lines.append(plain_table(headers, rows, set(headers) - {"year"}))
-    lines.append("x = fails that year (threshold missed, construction added where the rulebook counts it, or a rule broken); ? = a rule cannot be judged; n/e = not eligible")
+    lines.append(
+        "x = fails that year (threshold missed, construction added where the rulebook "
+        "counts it, or a rule broken); ? = a rule cannot be judged; n/e = not eligible"
+    )
     lines.append(
         f"lifetime output {result.lifetime_output_t:,.0f} t; construction {result.construction_t_co2e:,.0f} t CO2e = "
         f"{display_number(result.construction_kg_co2e_per_unit)} {result.unit}"
     )
-    lines.append(f"lifetime average (output-weighted): {display_number(result.average_without_construction)} {result.unit} without construction, {display_number(result.average_with_construction)} with")
-    lines.append("")
+    lines.append(
+        f"lifetime average (output-weighted): {display_number(result.average_without_construction)} {result.unit} "
+        f"without construction, {display_number(result.average_with_construction)} with"
+    )
+    return lines
+
+
+def _lifetime_scheme_lines(result) -> list[str]:
+    """The lifetime value of each scheme against its limit, the years it missed, and its notes."""
+    schemes = result.schemes
+    lines = []
     rows = [
         [
             s.scheme + (" *" if s.from_memory else ""),
@@ -215,15 +334,26 @@ def lifetime_table(result) -> str:
         ]
         for s in schemes
     ]
-    lines.append(plain_table(["scheme", "lifetime value", "limit", "unit", "status", "years missed"], rows, {"lifetime value", "limit"}, wrap={"unit", "status", "years missed"}))
+    lines.append(
+        plain_table(
+            ["scheme", "lifetime value", "limit", "unit", "status", "years missed"],
+            rows,
+            {"lifetime value", "limit"},
+            wrap={"unit", "status", "years missed"},
+        )
+    )
     counting = [s.scheme for s in schemes if s.counts_construction]
-    lines.append(f"Construction counted in the lifetime value by: {', '.join(counting) or 'none of these rulebooks'}; each scheme's averages without and with construction are in the JSON and CSV.")
-    lines.append("* each rulebook's construction rule (counts_construction in factors/schemes/*.toml) is recorded from memory")
+    lines.append(
+        f"Construction counted in the lifetime value by: {', '.join(counting) or 'none of these rulebooks'}; "
+        "each scheme's averages without and with construction are in the JSON and CSV."
+    )
+    lines.append(
+        "* each rulebook's construction rule (counts_construction in factors/schemes/*.toml) is recorded from memory"
+    )
     if any(s.from_memory for s in schemes):
         lines.append(FROM_MEMORY_RULEBOOK)
     lines.append(_flagged_factors(result.from_memory["factors"]))
-    lines.append(f"Caution: {CAUTION}")
-    return "\n".join(lines) + "\n"
+    return lines
 
 
 # --- history -------------------------------------------------------------------------------------
@@ -270,10 +400,15 @@ def history_table(project_file: str, history: list[dict]) -> str:
         year_value = entry.get("assessment_year") or entry["results"].get("assessment_year")
         year = f"  assessment year {year_value}" if year_value else ""
         lines.append(
-            f"#{entry['record']}  {entry['time']}  {entry['command']}  [{entry['kind']}]  factors {entry['factor_set']} ({entry['factor_set_sha256'][:8]})"
+            f"#{entry['record']}  {entry['time']}  {entry['command']}  [{entry['kind']}] "
+            f" factors {entry['factor_set']} ({entry['factor_set_sha256'][:8]})"
             f"  GWP {entry['gwp'].upper()}  file {entry['project_sha256'][:8]}{year}"
         )
-        lines.append(f"    by {entry.get('user') or 'unknown user'} on {entry.get('host') or 'unknown host'}, carbonledger {entry['carbonledger_version']}" + ("" if project_file else f"; project {entry['project']} ({entry['project_path']})"))
+        lines.append(
+            f"    by {entry.get('user') or 'unknown user'} on {entry.get('host') or 'unknown host'}, "
+            f"carbonledger {entry['carbonledger_version']}"
+            + ("" if project_file else f"; project {entry['project']} ({entry['project_path']})")
+        )
         results = entry["results"]
         if "headline" in results:  # an analysis run (uncertainty, sensitivity, headroom): its own one-line summary
             lines.append(f"    {results['headline']}")
@@ -283,12 +418,21 @@ def history_table(project_file: str, history: list[dict]) -> str:
         for check in results["checks"]:
             key = (entry["project_path"], check["scheme"])
             old = previous_checks.get(key)
-            change = 0.0 if old is None or abs(check["value"] - old) <= 1e-9 * max(1.0, abs(old)) else check["value"] - old
+            change = (
+                0.0 if old is None or abs(check["value"] - old) <= 1e-9 * max(1.0, abs(old)) else check["value"] - old
+            )
             delta = "" if old is None else f"  ({change:+.4g})"
-            lines.append(f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} {check.get('status', 'qualifies' if check.get('passes') else 'fails').replace('_', ' ')}{delta}")
+            lines.append(
+                f"    {check['scheme']:<15} {display_number(check['value']):>10} {check['unit']:<20} "
+                f"{check.get('status', 'qualifies' if check.get('passes') else 'fails').replace('_', ' ')}{delta}"
+            )
             previous_checks[key] = check["value"]
         last_year = previous_year.get(entry["project_path"])
-        year_change = f"assessment year {last_year} -> {year_value} (the rules in force that year)" if last_year and year_value and year_value != last_year else ""
+        year_change = (
+            f"assessment year {last_year} -> {year_value} (the rules in force that year)"
+            if last_year and year_value and year_value != last_year
+            else ""
+        )
         previous_year[entry["project_path"]] = year_value or last_year
         for reason in _why(entry["changes"], year_change):
             lines.append(f"    why: {reason}")
@@ -301,9 +445,9 @@ def history_table(project_file: str, history: list[dict]) -> str:
 
 
 EXPORT_HEADER = (
-    "record_sha256", "run_key", "recorded_at", "user", "host", "carbonledger_version", "command", "kind", "project", "project_path",
-    "project_sha256", "factor_set", "factor_set_sha256", "assessment_year", "boundary", "gwp", "total", "unit", "scheme", "value",
-    "check_unit", "limit", "status", "passes", "tier",
+    "record_sha256", "run_key", "recorded_at", "user", "host", "carbonledger_version", "command", "kind", "project",
+    "project_path", "project_sha256", "factor_set", "factor_set_sha256", "assessment_year", "boundary", "gwp", "total",
+    "unit", "scheme", "value", "check_unit", "limit", "status", "passes", "tier",
 )  # fmt: skip
 
 
@@ -311,8 +455,22 @@ def export_rows(entries: list[dict]) -> list[tuple]:
     """One row per record and scheme check (a record without checks gives one row), for a BI tool."""
     rows = []
     for e in entries:
-        head = (e["sha256"], e["run_key"], e["recorded_at"], e["user"], e["host"], e["carbonledger_version"], e["command"], e["kind"], e["project"], e["project_path"],
-                e["project_sha256"], e["factor_set"], e["factor_set_sha256"], e["assessment_year"], e["boundary"], e["gwp"], e["results"].get("total"), e["results"].get("unit"))  # fmt: skip
+        head = (e["sha256"], e["run_key"], e["recorded_at"], e["user"], e["host"], e["carbonledger_version"],
+                e["command"], e["kind"], e["project"], e["project_path"], e["project_sha256"], e["factor_set"],
+                e["factor_set_sha256"], e["assessment_year"], e["boundary"], e["gwp"], e["results"].get("total"),
+                e["results"].get("unit"))  # fmt: skip
         checks = e["results"].get("checks") or [{}]
-        rows += [head + (c.get("scheme"), c.get("value"), c.get("unit"), c.get("limit"), c.get("status"), c.get("passes"), c.get("tier")) for c in checks]
+        rows += [
+            head
+            + (
+                c.get("scheme"),
+                c.get("value"),
+                c.get("unit"),
+                c.get("limit"),
+                c.get("status"),
+                c.get("passes"),
+                c.get("tier"),
+            )
+            for c in checks
+        ]
     return rows

@@ -62,9 +62,16 @@ def input_rows(result: UncertaintyResult) -> list[tuple]:
     for a default, why the input got it (its row's pedigree scores, or its source grade) and where."""
     rows: list[tuple] = []
     for item in result.inputs:
-        rows += [("input", item.input, key, display_spec(value), "") for key, value in item.distribution.items() if value is not None]
+        rows += [
+            ("input", item.input, key, display_spec(value), "")
+            for key, value in item.distribution.items()
+            if value is not None
+        ]
         if item.default:
-            rows += [("input", item.input, "default", item.default, ""), ("input", item.input, "stated_in", item.stated_in, "")]
+            rows += [
+                ("input", item.input, "default", item.default, ""),
+                ("input", item.input, "stated_in", item.stated_in, ""),
+            ]
     if result.default_basis:
         rows.append(("run", "default_distributions", "", result.default_basis, ""))
     return rows
@@ -80,7 +87,12 @@ def input_cell(item) -> str:
         where = f" [{item.default.split(' (')[0]}] †"
     else:
         where = f" (scores in {item.stated_in})" if item.stated_in else ""
-    return f"{kind} " + ", ".join(f"{k} {display_spec(v)}" for k, v in spec.items() if v is not None) + where + (" *" if item.from_memory else "")
+    return (
+        f"{kind} "
+        + ", ".join(f"{k} {display_spec(v)}" for k, v in spec.items() if v is not None)
+        + where
+        + (" *" if item.from_memory else "")
+    )
 
 
 def rows_to_csv(header: tuple, rows: list[tuple]) -> str:
@@ -109,11 +121,16 @@ def print_run(result: UncertaintyResult, console) -> None:
     """The project, the run's settings and the draws left out for breaking a physical limit."""
     console.print(f"{result.project}  ({result.boundary}; {result.functional_unit})")
     console.print(
-        f"Monte Carlo: {result.draws:,} draws, seed {result.seed} (rerun with --seed {result.seed} for the same numbers), "
-        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {gwp_name(result.gwp_basis)}; factors {result.factor_set['name']}"
+        f"Monte Carlo: {result.draws:,} draws, seed {result.seed} "
+        f"(rerun with --seed {result.seed} for the same numbers), "
+        f"sampling {result.sampling.replace('_', ' ')}; GWP100 {gwp_name(result.gwp_basis)}; "
+        f"factors {result.factor_set['name']}"
     )
     if result.draws_breaking_limits:
-        console.print(f"{result.draws_breaking_limits:,} draws break a physical limit and are left out (not clipped); statistics over {result.draws_used:,} draws:")
+        console.print(
+            f"{result.draws_breaking_limits:,} draws break a physical limit and are "
+            f"left out (not clipped); statistics over {result.draws_used:,} draws:"
+        )
         for item in result.limit_breaks:
             console.print(f"  {item.field}: expected {item.expected}: {item.draws:,} draws")
 
@@ -131,11 +148,20 @@ def print_inputs(result: UncertaintyResult, console) -> None:
     defaults = [item for item in result.inputs if item.default]
     if defaults:
         folders = sorted({item.stated_in for item in defaults if item.stated_in})
-        console.print(f"† default distribution (no distribution stated for it): a lognormal around the factor row's own value ({', '.join(folders)})")
+        console.print(
+            "† default distribution (no distribution stated for it): a lognormal "
+            f"around the factor row's own value ({', '.join(folders)})"
+        )
     if result.default_basis:
-        console.print(f"  the source grade -> pedigree scores mapping: {result.default_basis}; factors/uncertainty/grade_defaults.toml")
+        console.print(
+            f"  the source grade -> pedigree scores mapping: {result.default_basis}; "
+            "factors/uncertainty/grade_defaults.toml"
+        )
     if any(item.from_memory for item in result.inputs):
-        console.print("* pedigree variances recorded from memory of Weidema et al. (2013), ecoinvent Report 1 (v3); not yet checked against the report")
+        console.print(
+            "* pedigree variances recorded from memory of Weidema et al. (2013), "
+            "ecoinvent Report 1 (v3); not yet checked against the report"
+        )
     for pair in result.correlations:
         console.print(f"rank correlation {pair['rank']:g}: {' and '.join(pair['inputs'])}")
 
@@ -152,7 +178,9 @@ def uncertainty_table(result: UncertaintyResult) -> str:
 
     def add(label: str, summary, unit: str) -> None:
         if summary is not None:
-            figures.add_row(label, *(display_number(getattr(summary, k)) for k in ("mean", "std", "p5", "p50", "p95")), unit)
+            figures.add_row(
+                label, *(display_number(getattr(summary, k)) for k in ("mean", "std", "p5", "p50", "p95")), unit
+            )
 
     add("total", result.total, result.unit)
     for key, summary in result.intensity.items():
@@ -166,9 +194,15 @@ def uncertainty_table(result: UncertaintyResult) -> str:
     if result.checks:
         checks = Table(title="Probability of each verdict (Monte Carlo standard error)", title_justify="left")
         for column in ("scheme", "limit", "mean value", "p5", "p95", "unit", "qualifies", "best tier met"):
-            checks.add_column(column, justify="right" if column in ("limit", "mean value", "p5", "p95", "qualifies") else "left")
+            checks.add_column(
+                column, justify="right" if column in ("limit", "mean value", "p5", "p95", "qualifies") else "left"
+            )
         for check in result.checks:
-            tiers = "; ".join(f"{name}: {item.probability:.1%}" for name, item in check.tiers.items() if item.probability > 0 and len(check.tiers) > 2)
+            tiers = "; ".join(
+                f"{name}: {item.probability:.1%}"
+                for name, item in check.tiers.items()
+                if item.probability > 0 and len(check.tiers) > 2
+            )
             checks.add_row(
                 check.scheme + (" *" if check.from_memory else ""),
                 display_number(check.limit),
@@ -181,12 +215,19 @@ def uncertainty_table(result: UncertaintyResult) -> str:
             )
         console.print(checks)
         for check in result.checks:  # the draws that do not qualify, by verdict (an undetermined draw met the limit)
-            others = "; ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0)
+            others = "; ".join(
+                f"{name.replace('_', ' ')} {item.probability:.1%}"
+                for name, item in check.statuses.items()
+                if name != "qualifies" and item.probability > 0
+            )
             if others:
                 console.print(f"{check.scheme}: {others}")
         if any(check.from_memory for check in result.checks):
             console.print("* rulebook or threshold not yet verified against the source document")
-    console.print(f"Caution: {result.caution} Probabilities hold only for the distributions given; they are not a verifier's finding.")
+    console.print(
+        f"Caution: {result.caution} Probabilities hold only for the "
+        "distributions given; they are not a verifier's finding."
+    )
     return console.export_text()
 
 
@@ -202,8 +243,23 @@ def headroom_json(results: list[Headroom]) -> str:
 
 
 def headroom_csv(results: list[Headroom]) -> str:
-    keys = ("parameter", "unit", "project_value", "value", "qualifies_when", "scheme", "tier", "limit", "scheme_unit", "project_scheme_value", "verified_scheme_value", "reason")
-    return rows_to_csv(keys, [tuple("" if getattr(item, k) is None else getattr(item, k) for k in keys) for item in results])
+    keys = (
+        "parameter",
+        "unit",
+        "project_value",
+        "value",
+        "qualifies_when",
+        "scheme",
+        "tier",
+        "limit",
+        "scheme_unit",
+        "project_scheme_value",
+        "verified_scheme_value",
+        "reason",
+    )
+    return rows_to_csv(
+        keys, [tuple("" if getattr(item, k) is None else getattr(item, k) for k in keys) for item in results]
+    )
 
 
 def headroom_table(results: list[Headroom]) -> str:
@@ -211,7 +267,10 @@ def headroom_table(results: list[Headroom]) -> str:
 
     console = plain_console()
     first = results[0]
-    console.print(f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; the project scores {display_number(first.project_scheme_value)}")
+    console.print(
+        f"Headroom under {first.scheme} ({first.tier}): limit {display_number(first.limit)} {first.scheme_unit}; "
+        f"the project scores {display_number(first.project_scheme_value)}"
+    )
     table = Table(title="Value of each parameter at which the limit is met exactly", title_justify="left")
     for column in ("parameter", "project value", "headroom value", "unit", "qualifies", "note"):
         table.add_column(column, justify="right" if "value" in column else "left", no_wrap=column == "parameter")
@@ -226,7 +285,8 @@ def headroom_table(results: list[Headroom]) -> str:
         )
     console.print(table)
     console.print(
-        "Each value is found by root finding (scipy brentq) within the parameter's physical range and checked by scoring the project at it; other parameters stay as the project states them."
+        "Each value is found by root finding (scipy brentq) within the parameter's physical range and "
+        "checked by scoring the project at it; other parameters stay as the project states them."
     )
     console.print(f"Caution: {first.caution}")
     return console.export_text()
@@ -246,12 +306,23 @@ def portfolio_uncertainty_table(results: list[UncertaintyResult]) -> str:
 
     console = plain_console()
     first = results[0]
-    console.print(f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, sampling {first.sampling.replace('_', ' ')}; GWP100 {gwp_name(first.gwp_basis)}")
+    console.print(
+        f"Monte Carlo of {len(results)} projects: {first.draws:,} draws each, seed {first.seed}, "
+        f"sampling {first.sampling.replace('_', ' ')}; GWP100 {gwp_name(first.gwp_basis)}"
+    )
     table = Table(title="Total and probability of qualifying per project and scheme", title_justify="left")
     for column in ("project", "total mean", "p5", "p95", "unit", "scheme", "qualifies", "draws left out"):
-        table.add_column(column, justify="right" if column in ("total mean", "p5", "p95", "qualifies", "draws left out") else "left")
+        table.add_column(
+            column, justify="right" if column in ("total mean", "p5", "p95", "qualifies", "draws left out") else "left"
+        )
     for result in results:
-        head = [result.project, display_number(result.total.mean), display_number(result.total.p5), display_number(result.total.p95), result.unit]
+        head = [
+            result.project,
+            display_number(result.total.mean),
+            display_number(result.total.p5),
+            display_number(result.total.p95),
+            result.unit,
+        ]
         checks = result.checks or [None]
         for number, check in enumerate(checks):
             cells = head if number == 0 else [""] * len(head)
@@ -280,14 +351,35 @@ def uncertainty_figure(result: UncertaintyResult):
         axis.hist(values, bins=60, color=TEAL, alpha=0.85)
         for tier, limit in thresholds:
             axis.axvline(limit, color=INK, linestyle="--", linewidth=0.9)
-            axis.annotate(f"{tier}: {display_number(limit)}", (limit, 0.97), xycoords=("data", "axes fraction"), rotation=90, ha="right", va="top", fontsize=6.5)
-        others = ", ".join(f"{name.replace('_', ' ')} {item.probability:.1%}" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0)
-        axis.set_title(f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})" + (f"; {others}" if others else ""), fontsize=9)
+            axis.annotate(
+                f"{tier}: {display_number(limit)}",
+                (limit, 0.97),
+                xycoords=("data", "axes fraction"),
+                rotation=90,
+                ha="right",
+                va="top",
+                fontsize=6.5,
+            )
+        others = ", ".join(
+            f"{name.replace('_', ' ')} {item.probability:.1%}"
+            for name, item in check.statuses.items()
+            if name != "qualifies" and item.probability > 0
+        )
+        axis.set_title(
+            f"{check.scheme}: qualifies in {check.probability_qualifies:.1%} of draws (± {check.standard_error:.1%})"
+            + (f"; {others}" if others else ""),
+            fontsize=9,
+        )
         axis.set_xlabel(check.unit, fontsize=8)
         axis.set_ylabel("draws", fontsize=8)
-    figure.suptitle(f"{result.project}\n{result.draws_used:,} draws (seed {result.seed}), each scheme on its own rulebook", fontsize=9)
+    figure.suptitle(
+        f"{result.project}\n{result.draws_used:,} draws (seed {result.seed}), each scheme on its own rulebook",
+        fontsize=9,
+    )
     figure.supxlabel(
-        "Dashed lines: scheme thresholds. Screening estimate, not a certification: the scheme's official methodology, an accredited verifier and local regulation take precedence.", fontsize=6
+        "Dashed lines: scheme thresholds. Screening estimate, not a certification: the scheme's "
+        "official methodology, an accredited verifier and local regulation take precedence.",
+        fontsize=6,
     )
     return figure
 

@@ -90,7 +90,20 @@ def numbers_only(value, field: str, text_allowed: bool = False):
 class _Distribution(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
 
-    @field_validator("mean", "sd", "median", "gsd", "low", "mode", "high", "basic_gsd", "values", "weights", mode="before", check_fields=False)
+    @field_validator(
+        "mean",
+        "sd",
+        "median",
+        "gsd",
+        "low",
+        "mode",
+        "high",
+        "basic_gsd",
+        "values",
+        "weights",
+        mode="before",
+        check_fields=False,
+    )
     @classmethod
     def _numbers_are_numbers(cls, value, info):
         return numbers_only(value, info.field_name, text_allowed=info.field_name == "values")
@@ -140,7 +153,8 @@ class Pedigree(_Distribution):
     basic_gsd: float = Field(default=1.0, ge=1, description="basic uncertainty, a geometric standard deviation")
     median: float | None = Field(default=None, gt=0, description="default: the parameter's or factor's own value")
     stated_in: str = Field(default="", exclude=True)  # where the scores were written (a factor row's file)
-    basis: str = Field(default="", exclude=True)  # why a default distribution was given (a row's scores, its grade); empty when stated
+    # why a default distribution was given (a row's scores, its grade); empty when stated
+    basis: str = Field(default="", exclude=True)
 
     @field_validator("scores", mode="before")
     @classmethod
@@ -259,7 +273,9 @@ class Discrete(_Distribution):
         return self.values[int(np.argmax(self.probabilities()))]
 
 
-Distribution = Annotated[Union[Normal, Lognormal, Pedigree, Triangular, Uniform, Discrete], Field(discriminator="distribution")]
+Distribution = Annotated[
+    Union[Normal, Lognormal, Pedigree, Triangular, Uniform, Discrete], Field(discriminator="distribution")
+]
 
 
 class Correlation(BaseModel):
@@ -302,7 +318,9 @@ def parse_uncertainty(data: dict, source: str, prefix: str = "uncertainty") -> U
         return Uncertainty.model_validate(data)
     except ValidationError as error:
         first = error.errors()[0]
-        loc = [str(part) for part in first["loc"] if part not in KINDS and not str(part).startswith(("list[", "tuple["))]
+        loc = [
+            str(part) for part in first["loc"] if part not in KINDS and not str(part).startswith(("list[", "tuple["))
+        ]
         field = ".".join([part for part in [prefix, *loc] if part])
         kind = first["type"]
         context = first.get("ctx") or {}
@@ -312,10 +330,14 @@ def parse_uncertainty(data: dict, source: str, prefix: str = "uncertainty") -> U
         elif kind == "value_error":
             expected = str(context.get("error", first["msg"]))
         elif kind == "extra_forbidden":
-            expected = "no such key (distribution, mean, sd, median, gsd, low, mode, high, values, weights, scores, basic_gsd)"
+            expected = (
+                "no such key (distribution, mean, sd, median, gsd, low, mode, high, values, weights, scores, basic_gsd)"
+            )
         elif kind == "union_tag_invalid":
             expected = (
-                f"distribution one of {', '.join(KINDS)}, got {first.get('input', {}).get('distribution')!r}" if isinstance(first.get("input"), dict) else first["msg"]
+                f"distribution one of {', '.join(KINDS)}, got {first.get('input', {}).get('distribution')!r}"
+                if isinstance(first.get("input"), dict)
+                else first["msg"]
             )
         elif kind == "missing":
             expected = "a value is required"
@@ -338,4 +360,13 @@ def read_distributions_file(path: str | Path) -> Uncertainty:
     return parse_uncertainty(data["uncertainty"] if nested else data, str(path), prefix="uncertainty" if nested else "")
 
 
-__all__ = ["Uncertainty", "Distribution", "Pedigree", "KINDS", "Correlation", "parse_uncertainty", "read_distributions_file", "SAMPLINGS"]
+__all__ = [
+    "Uncertainty",
+    "Distribution",
+    "Pedigree",
+    "KINDS",
+    "Correlation",
+    "parse_uncertainty",
+    "read_distributions_file",
+    "SAMPLINGS",
+]

@@ -34,7 +34,15 @@ class Expr:
     __slots__ = ("op", "args", "literal", "leaf", "leaf_precedence", "_printed")
     __array_priority__ = 1000  # numpy defers to the reflected operators
 
-    def __init__(self, leaf: str = "", precedence: int = ATOM, *, op: str = "leaf", args: tuple = (), literal: float | None = None):
+    def __init__(
+        self,
+        leaf: str = "",
+        precedence: int = ATOM,
+        *,
+        op: str = "leaf",
+        args: tuple = (),
+        literal: float | None = None,
+    ):
         self.op, self.args, self.literal = op, args, literal
         self.leaf, self.leaf_precedence = leaf, precedence
         self._printed = None
@@ -233,7 +241,11 @@ def _latex(node: Expr) -> tuple[str, int]:
     if op == "mul":
         right = args[1]
         negative_product = latex_text(right)[1] == PRODUCT and latex_text(right)[0].startswith("-")
-        return rf"{_latex_wrapped(args[0], PRODUCT)} \cdot {_latex_wrapped(right, PRODUCT + 1 if negative_product else PRODUCT)}", PRODUCT
+        return (
+            rf"{_latex_wrapped(args[0], PRODUCT)} \cdot "
+            rf"{_latex_wrapped(right, PRODUCT + 1 if negative_product else PRODUCT)}",
+            PRODUCT,
+        )
     if op == "div":
         return rf"\frac{{{latex_text(args[0])[0]}}}{{{latex_text(args[1])[0]}}}", ATOM
     if op == "pow":

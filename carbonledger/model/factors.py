@@ -5,7 +5,8 @@ optionally ``base`` = the set it updates) and one or more CSV files (``factors.c
 ``grid-electricity.csv``) with the columns of ``FACTOR_COLUMNS``. Every ``*.csv`` of the folder is
 read, in sorted order; an id may appear in only one of them. Every row must name its source and
 carries a ``grade`` (``model.grades``: primary text, verbatim secondary, secondary, not yet verified,
-invented), which every output shows; a value not checked against its document is "not yet verified". A set with a ``base`` holds only
+invented), which every output shows; a value not checked against its document is "not yet verified". A set with a
+``base`` holds only
 the rows it changes or adds; a partial override CSV (a user's own rows, each with a source)
 can be layered on top of any set with the same rules.
 
@@ -58,7 +59,8 @@ class Factor(BaseModel):
     note: str = ""
     grade: Grade = Grade.NOT_YET_VERIFIED  # how sure the value is: the text it was read in (model.grades)
     origin: str = Field("", exclude=True)  # the file the row was read from
-    pedigree: tuple[int, ...] | None = None  # five data-quality scores 1..5, for a default lognormal (model/pedigree.py)
+    # five data-quality scores 1..5, for a default lognormal (model/pedigree.py)
+    pedigree: tuple[int, ...] | None = None
     basic_gsd: float | None = None  # basic uncertainty (geometric standard deviation) with the pedigree scores
 
     @model_validator(mode="before")
@@ -70,7 +72,11 @@ class Factor(BaseModel):
             data = dict(data)
             flag = data.pop("from_memory")
             grade = data.get("grade")
-            data["grade"] = parse_grade(None if grade is None else str(grade), str(flag).lower() if flag is not None else "", str(data.get("id", "factor row")))
+            data["grade"] = parse_grade(
+                None if grade is None else str(grade),
+                str(flag).lower() if flag is not None else "",
+                str(data.get("id", "factor row")),
+            )
         return data
 
     @computed_field
@@ -119,7 +125,11 @@ class FactorSet:
         try:
             return self.factors[factor_id]
         except KeyError:
-            raise InputError(self.name, where, f"a factor id known to set '{self.name}', got '{factor_id}'{did_you_mean(factor_id, self.factors)}") from None
+            raise InputError(
+                self.name,
+                where,
+                f"a factor id known to set '{self.name}', got '{factor_id}'{did_you_mean(factor_id, self.factors)}",
+            ) from None
 
     @functools.cached_property
     def _sorted_ids(self) -> list[str]:
@@ -165,7 +175,18 @@ def available_sets() -> list[str]:
 
 _GASES = ("CO2e", "CO2", "CH4", "N2O")
 _ENERGY = ("J", "kJ", "MJ", "GJ", "TJ", "PJ", "Wh", "kWh", "MWh", "GWh")
-_MJ = {"J": 1e-6, "kJ": 1e-3, "MJ": 1.0, "GJ": 1e3, "TJ": 1e6, "PJ": 1e9, "Wh": 3.6e-3, "kWh": 3.6, "MWh": 3.6e3, "GWh": 3.6e6}
+_MJ = {
+    "J": 1e-6,
+    "kJ": 1e-3,
+    "MJ": 1.0,
+    "GJ": 1e3,
+    "TJ": 1e6,
+    "PJ": 1e9,
+    "Wh": 3.6e-3,
+    "kWh": 3.6,
+    "MWh": 3.6e3,
+    "GWh": 3.6e6,
+}
 _KG = {"mg": 1e-6, "g": 1e-3, "kg": 1.0, "t": 1e3, "Mg": 1e3, "Gg": 1e6}
 # Upper ends of the physical ranges, in canonical units. Facts of the trade: the largest GWP100 of
 # IPCC AR6 WG1 Table 7.SM.7 is about 25,000 (SF6); burning pure carbon releases 0.11 kg CO2/MJ
@@ -233,7 +254,12 @@ def read_csv_text(path: str | Path, what: str) -> str:
     try:
         return raw.decode("utf-8-sig")
     except UnicodeDecodeError as error:
-        raise InputError(path, "", f"a UTF-8 CSV (save as CSV UTF-8); byte {error.start} is not UTF-8 (the file looks like Windows-1252 or another encoding)") from None
+        raise InputError(
+            path,
+            "",
+            f"a UTF-8 CSV (save as CSV UTF-8); byte {error.start} is not UTF-8 "
+            "(the file looks like Windows-1252 or another encoding)",
+        ) from None
 
 
 def read_factor_rows(path: Path) -> list[Factor]:
@@ -251,7 +277,11 @@ def read_factor_rows(path: Path) -> list[Factor]:
         raise InputError(path, "header", f"columns {', '.join(FACTOR_COLUMNS)}; missing {', '.join(missing)}")
     unknown = [column for column in header if column not in FACTOR_COLUMNS + UNCERTAINTY_COLUMNS + LEGACY_COLUMNS]
     if unknown:
-        raise InputError(path, "header", f"only the columns {', '.join(FACTOR_COLUMNS + UNCERTAINTY_COLUMNS)}; unknown {', '.join(unknown)}")
+        raise InputError(
+            path,
+            "header",
+            f"only the columns {', '.join(FACTOR_COLUMNS + UNCERTAINTY_COLUMNS)}; unknown {', '.join(unknown)}",
+        )
     rows: list[Factor] = []
     seen: set[str] = set()
     for number, row in enumerate(records, start=2):
@@ -302,7 +332,11 @@ def _uncertainty_columns(row: dict, factor_id: str, where: str) -> dict:
     gsd_text = (row.get("basic_gsd") or "").strip()
     if not scores_text:
         if gsd_text:
-            raise InputError(where, "basic_gsd", f"pedigree scores beside a basic uncertainty for '{factor_id}' (or an empty basic_gsd)")
+            raise InputError(
+                where,
+                "basic_gsd",
+                f"pedigree scores beside a basic uncertainty for '{factor_id}' (or an empty basic_gsd)",
+            )
         return {}
     scores = parse_scores(scores_text, where)
     basic_gsd = None
@@ -312,7 +346,9 @@ def _uncertainty_columns(row: dict, factor_id: str, where: str) -> dict:
         except ValueError:
             basic_gsd = float("nan")
         if not (math.isfinite(basic_gsd) and basic_gsd >= 1):
-            raise InputError(where, "basic_gsd", f"a geometric standard deviation >= 1 for '{factor_id}', got '{gsd_text}'")
+            raise InputError(
+                where, "basic_gsd", f"a geometric standard deviation >= 1 for '{factor_id}', got '{gsd_text}'"
+            )
     return {"pedigree": scores, "basic_gsd": basic_gsd}
 
 
@@ -326,7 +362,9 @@ def read_set_rows(folder: Path) -> list[Factor]:
     for path in paths:
         for factor in read_factor_rows(path):
             if factor.id in first_file:
-                raise InputError(path, "id", f"a unique id in the set, '{factor.id}' is also in {first_file[factor.id].name}")
+                raise InputError(
+                    path, "id", f"a unique id in the set, '{factor.id}' is also in {first_file[factor.id].name}"
+                )
             first_file[factor.id] = path
             rows.append(factor)
     return rows
@@ -395,7 +433,11 @@ def load_factor_set(name_or_path: str | Path = DEFAULT_SET, overrides=(), _chain
         factor_set = _cached_set(str((factors_root() / "sets" / name).resolve()), _chain)
     else:
         known = ", ".join(available_sets()) or "none found"
-        raise InputError(text, "--factors", f"a factor set name ({known}), a set folder or an override CSV{did_you_mean(text, available_sets())}")
+        raise InputError(
+            text,
+            "--factors",
+            f"a factor set name ({known}), a set folder or an override CSV{did_you_mean(text, available_sets())}",
+        )
     for override in overrides:
         factor_set = apply_override(factor_set, override)
     return factor_set

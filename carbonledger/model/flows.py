@@ -15,14 +15,24 @@ FLOW_WORDS = {
     "ch4_fossil": ("Methane (CH4), fossil", ""),
     "ch4_non_fossil": ("Methane (CH4), non-fossil", ""),
     "n2o": ("Nitrous oxide (N2O)", ""),
-    "co2e_precharacterised": ("Life-cycle CO2e (already characterised)", "given by a life-cycle factor, not split by gas"),
+    "co2e_precharacterised": (
+        "Life-cycle CO2e (already characterised)",
+        "given by a life-cycle factor, not split by gas",
+    ),
     "nh3": ("NH3 (ammonia slip)", "not a greenhouse gas, reported separately"),
     "h2": ("H2 (hydrogen leakage)", "an indirect greenhouse effect, reported separately, in no scheme value"),
     "co2_biogenic": ("CO2, biogenic, released", "counted apart at zero, reported separately"),
-    "co2_biogenic_stored": ("CO2, biogenic, captured and stored", "reported separately; never netted unless a rulebook says so"),
+    "co2_biogenic_stored": (
+        "CO2, biogenic, captured and stored",
+        "reported separately; never netted unless a rulebook says so",
+    ),
 }
 FLOW_NAMES = {key: name for key, (name, _) in FLOW_WORDS.items()}
 FLOWS = {key: f"{name} ({note})" if note else name for key, (name, note) in FLOW_WORDS.items()}  # key -> full label
 NON_GHG_FLOWS = ("nh3", "h2")  # in the inventory, characterised at zero, left out of by_gas
-BIOGENIC_FLOWS = ("co2_biogenic", "co2_biogenic_stored")  # carbon from biomass: counted apart, reported in biogenic_co2_kg
+# carbon from biomass: counted apart, reported in biogenic_co2_kg
+BIOGENIC_FLOWS = (
+    "co2_biogenic",
+    "co2_biogenic_stored",
+)
 APART_FLOWS = NON_GHG_FLOWS + BIOGENIC_FLOWS  # characterised at zero in the headline, left out of by_gas

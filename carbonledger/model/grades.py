@@ -74,10 +74,20 @@ def parse_grade(grade_text: str | None, from_memory_text: str | None, where: str
     words = {grade.value: grade for grade in Grade} | {GRADE_WORDS[grade]: grade for grade in Grade}
     found = match_id(" ".join(text.replace("_", " ").split()), words)
     if found is None:
-        raise InputError(where, "grade", f"one of {', '.join(repr(g.value) for g in Grade)}, got '{text}'{did_you_mean(text, [g.value for g in Grade])}")
+        raise InputError(
+            where,
+            "grade",
+            f"one of {', '.join(repr(g.value) for g in Grade)}, got "
+            f"'{text}'{did_you_mean(text, [g.value for g in Grade])}",
+        )
     grade = words[found]
     if legacy and (legacy in _TRUE) != (grade is Grade.NOT_YET_VERIFIED):
-        raise InputError(where, "from_memory", f"a from_memory that agrees with grade '{grade}' (true only for 'not yet verified'), or an empty from_memory; got '{from_memory_text}'")
+        raise InputError(
+            where,
+            "from_memory",
+            f"a from_memory that agrees with grade '{grade}' (true only for 'not "
+            f"yet verified'), or an empty from_memory; got '{from_memory_text}'",
+        )
     return grade
 
 

@@ -107,14 +107,17 @@ class Lever(BaseModel):
     step: float | None = Field(None, gt=0)
     values: list[Value] | None = Field(None, min_length=1)
     cost: Cost
-    rebalance: Literal["proportional"] = "proportional"  # an electricity share: the sources no lever moves take up the rest in proportion
-    absorbed_by: str | None = Field(None, min_length=1)  # an electricity share: the one source that takes up the difference instead
+    # an electricity share: the sources no lever moves take up the rest in proportion
+    rebalance: Literal["proportional"] = "proportional"
+    # an electricity share: the one source that takes up the difference instead
+    absorbed_by: str | None = Field(None, min_length=1)
     note: str = ""
     # an operation lever (kind = "operation"): the electrolyser's load, interval by interval, planned by
     # the linear program of `carbonledger plan` (analyses.plan) against the project's time series
     rated_kw: float | None = Field(None, gt=0, le=1e8)  # default: the largest load in the series
     min_load: float = Field(0.0, ge=0, le=1)  # minimum stable load, a fraction of rated power
-    hydrogen_price: float | None = Field(None, ge=0, le=1e6)  # per kg H2 in the series' price currency: the plan maximises margin
+    # per kg H2 in the series' price currency: the plan maximises margin
+    hydrogen_price: float | None = Field(None, ge=0, le=1e6)
 
     @field_validator("rated_kw", "min_load", "hydrogen_price", mode="before")
     @classmethod
@@ -136,10 +139,10 @@ class Lever(BaseModel):
         if self.kind == "operation":
             return self._operation()
         if self.parameter is None:
-            raise ValueError("a parameter path (or kind = \"operation\")")
+            raise ValueError('a parameter path (or kind = "operation")')
         given = [name for name in OPERATION_FIELDS if name in self.model_fields_set]
         if given:
-            raise ValueError(f"{', '.join(given)} only on an operation lever (kind = \"operation\")")
+            raise ValueError(f'{", ".join(given)} only on an operation lever (kind = "operation")')
         if self.values is not None and self.range is not None:
             raise ValueError("range or values, not both")
         if self.values is None and self.range is None and self.cost.table is None:
@@ -154,11 +157,18 @@ class Lever(BaseModel):
 
     def _operation(self):
         """An operation lever: no parameter, no values; priced per unit of the plan's objective lost."""
-        given = [name for name in ("parameter", "range", "step", "values", "absorbed_by") if getattr(self, name) is not None]
+        given = [
+            name for name in ("parameter", "range", "step", "values", "absorbed_by") if getattr(self, name) is not None
+        ]
         if given:
-            raise ValueError(f"an operation lever without {', '.join(given)} (the plan's linear program decides the load)")
+            raise ValueError(
+                f"an operation lever without {', '.join(given)} (the plan's linear program decides the load)"
+            )
         if self.cost.per_unit is None:
-            raise ValueError("cost.per_unit on an operation lever: the price of each kg H2 not made (or, with hydrogen_price, of each unit of the series' currency of margin lost)")
+            raise ValueError(
+                "cost.per_unit on an operation lever: the price of each kg H2 not made (or, "
+                "with hydrogen_price, of each unit of the series' currency of margin lost)"
+            )
         self.parameter = "operation"
         return self
 

@@ -37,8 +37,17 @@ from pathlib import Path
 from ..errors import InputError
 from .grades import Grade
 
-INDICATORS = ("reliability", "completeness", "temporal_correlation", "geographical_correlation", "further_technological_correlation")
-EXPECTED_SCORES = "five pedigree scores, each a whole number 1 to 5 (reliability, completeness, temporal, geographical, further technological correlation)"
+INDICATORS = (
+    "reliability",
+    "completeness",
+    "temporal_correlation",
+    "geographical_correlation",
+    "further_technological_correlation",
+)
+EXPECTED_SCORES = (
+    "five pedigree scores, each a whole number 1 to 5 (reliability, completeness, "
+    "temporal, geographical, further technological correlation)"
+)
 
 
 @dataclass(frozen=True)
@@ -139,7 +148,8 @@ class GradeDefaults:
 
     scores: dict[str, tuple[int, ...]]  # grade -> five scores
     basic_gsd: dict[str, float]  # grade -> basic uncertainty (GSD >= 1)
-    held_fixed: tuple[str, ...]  # factor ids, or their start before a dot, never drawn (characterisation factors, physical properties)
+    # factor ids, or their start before a dot, never drawn (characterisation factors, physical properties)
+    held_fixed: tuple[str, ...]
     basis: str  # what the mapping is and rests on (named in every output)
     from_memory: bool
 
@@ -175,7 +185,7 @@ def _read_grade_defaults(name: str) -> GradeDefaults:
     entries = {grade.value: _grade_entry(path, data.get("grades", {}), grade) for grade in Grade}
     held = data.get("held_fixed", [])
     if not isinstance(held, list) or not all(isinstance(item, str) for item in held):
-        raise InputError(path, "held_fixed", "a list of factor ids or their starts, e.g. [\"gwp\"]")
+        raise InputError(path, "held_fixed", 'a list of factor ids or their starts, e.g. ["gwp"]')
     return GradeDefaults(
         scores={grade: entry[0] for grade, entry in entries.items()},
         basic_gsd={grade: entry[1] for grade, entry in entries.items()},
@@ -185,4 +195,13 @@ def _read_grade_defaults(name: str) -> GradeDefaults:
     )
 
 
-__all__ = ["INDICATORS", "PedigreeTable", "pedigree_table", "parse_scores", "pedigree_variance", "pedigree_gsd", "GradeDefaults", "grade_defaults"]
+__all__ = [
+    "INDICATORS",
+    "PedigreeTable",
+    "pedigree_table",
+    "parse_scores",
+    "pedigree_variance",
+    "pedigree_gsd",
+    "GradeDefaults",
+    "grade_defaults",
+]

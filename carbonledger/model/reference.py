@@ -101,7 +101,8 @@ def ammonia_latent_heat() -> ReferenceValue:
         value=molar_j_per_mol / molar_mass_g_per_mol("NH3"),
         unit="kJ/kg",
         source=(
-            f"chemicals {_chemicals_version()} (CRC Handbook of Chemistry and Physics, 95th ed. 2014, enthalpy of vaporization "
+            f"chemicals {_chemicals_version()} (CRC Handbook of Chemistry "
+            "and Physics, 95th ed. 2014, enthalpy of vaporization "
             f"at the normal boiling point {boiling_point_k:.2f} K: {molar_j_per_mol / 1000:.2f} kJ/mol, "
             "divided by the molar mass of NH3)"
         ),
@@ -119,7 +120,8 @@ def ammonia_formation_enthalpy() -> ReferenceValue:
         id="reference.formation_enthalpy.ammonia_gas",
         value=_ammonia_formation_enthalpy_j_per_mol() / 1000.0,
         unit="kJ/mol",
-        source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, default method: Active Thermochemical Tables)",
+        source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, "
+        "default method: Active Thermochemical Tables)",
     )
 
 
@@ -154,7 +156,8 @@ def hydrogen_latent_heat() -> ReferenceValue:
         id="reference.latent_heat.hydrogen",
         value=(states["h_vapour"] - states["h_liquid"]) / 1000.0,
         unit="kJ/kg",
-        source=f"CoolProp {stored.COOLPROP_VERSION} (PropsSI, saturated normal hydrogen at 101325 Pa: h_vapour - h_liquid; stored)",
+        source=f"CoolProp {stored.COOLPROP_VERSION} (PropsSI, saturated normal "
+        "hydrogen at 101325 Pa: h_vapour - h_liquid; stored)",
         grade=Grade.SECONDARY,
     )
 
@@ -185,7 +188,8 @@ def co2_formation_enthalpy() -> ReferenceValue:
         id="reference.formation_enthalpy.co2_gas",
         value=_co2_formation_enthalpy_j_per_mol() / 1000.0,
         unit="kJ/mol",
-        source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, default method: Active Thermochemical Tables)",
+        source=f"chemicals {_chemicals_version()} (chemicals.reaction.Hfg, "
+        "default method: Active Thermochemical Tables)",
     )
 
 
@@ -239,6 +243,7 @@ def water_splitting_gibbs(temperature_k: float, steam: bool) -> ReferenceValue:
         id=f"reference.water_splitting_gibbs.{'steam_' + format(temperature_k, 'g') + 'k' if steam else 'liquid_298k'}",
         value=water_splitting_gibbs_j_per_mol(temperature_k, steam) / 1000.0,
         unit="kJ/mol H2",
-        source=f"chemicals {_chemicals_version()} (reaction.Hfg/Hfl/S0g/S0l at 298.15 K; heat_capacity TRC ideal-gas correlations), {where}",
+        source=f"chemicals {_chemicals_version()} (reaction.Hfg/Hfl/S0g/S0l at "
+        f"298.15 K; heat_capacity TRC ideal-gas correlations), {where}",
         grade=Grade.SECONDARY,
     )

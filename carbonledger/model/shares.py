@@ -19,7 +19,9 @@ from __future__ import annotations
 from typing import Any
 
 
-def rebalanced_shares(shares: dict[str, float], moved: dict[str, Any], absorbers: dict[str, str] | None = None) -> dict[str, Any]:
+def rebalanced_shares(
+    shares: dict[str, float], moved: dict[str, Any], absorbers: dict[str, str] | None = None
+) -> dict[str, Any]:
     """Every source's share after the moved sources take their values (``moved``: name -> value,
     numbers or arrays). ``shares``: the sources' shares before (name -> share). Sources that take
     up a difference in proportion need unmoved shares summing above 0 (``check_rebalancing``)."""
@@ -29,7 +31,9 @@ def rebalanced_shares(shares: dict[str, float], moved: dict[str, Any], absorbers
     pooled = sum(value - shares[name] for name, value in moved.items() if name not in absorbers)
     found = dict(moved)
     for name, share in unmoved.items():
-        own = sum(value - shares[moved_name] for moved_name, value in moved.items() if absorbers.get(moved_name) == name)
+        own = sum(
+            value - shares[moved_name] for moved_name, value in moved.items() if absorbers.get(moved_name) == name
+        )
         found[name] = share - own - (share / total * pooled if total > 0 else 0.0 * pooled)
     return found
 
@@ -39,12 +43,18 @@ def rebalancing_problem(shares: dict[str, float], moved: list[str], absorbers: d
     exist or is moved itself, or differences taken up in proportion with no unmoved share above 0."""
     for name, absorber in absorbers.items():
         if absorber not in shares:
-            return f"'{absorber}' (taking up {name}'s difference) is not a source of the project: one of {', '.join(sorted(shares))}"
+            return (
+                f"'{absorber}' (taking up {name}'s difference) is not a source "
+                f"of the project: one of {', '.join(sorted(shares))}"
+            )
         if absorber in moved:
             return f"'{absorber}' (taking up {name}'s difference) is moved itself"
     pooled = [name for name in moved if name not in absorbers]
     if pooled and not sum(share for name, share in shares.items() if name not in moved) > 0:
-        return f"other sources to take up the rest of {', '.join(pooled)} (the shares always sum to 1; no unmoved source has a share above 0)"
+        return (
+            f"other sources to take up the rest of {', '.join(pooled)} (the "
+            "shares always sum to 1; no unmoved source has a share above 0)"
+        )
     return ""
 
 

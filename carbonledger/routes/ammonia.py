@@ -10,12 +10,22 @@ from .base import Activity, Route, SectionError, burn_natural_gas
 
 
 class Ammonia(Section):
-    nitrogen_source: Literal["air_separation", "process_air"] = P(description="Air separation unit, or process air in a secondary reformer")
+    nitrogen_source: Literal["air_separation", "process_air"] = P(
+        description="Air separation unit, or process air in a secondary reformer"
+    )
     air_separation_kwh_per_t_n2: float = P(0.0, "kWh/t N2", "Electricity of the air separation unit", ge=0)
-    hydrogen_loss_allowance: float = P(0.0, "fraction", "Hydrogen and nitrogen above stoichiometry (purge and losses)", ge=0, lt=1)
-    synthesis_electricity_kwh_per_t_nh3: float = P(unit="kWh/t NH3", description="Synthesis loop electricity (compressors, refrigeration)", ge=0)
-    synthesis_natural_gas_gj_per_t_nh3: float = P(0.0, "GJ (LHV)/t NH3", "Natural gas burnt for the synthesis loop (steam, start-up)", ge=0)
-    storage_electricity_kwh_per_t_nh3: float = P(0.0, "kWh/t NH3", "Refrigerated storage and loading (reliquefaction of boil-off)", ge=0)
+    hydrogen_loss_allowance: float = P(
+        0.0, "fraction", "Hydrogen and nitrogen above stoichiometry (purge and losses)", ge=0, lt=1
+    )
+    synthesis_electricity_kwh_per_t_nh3: float = P(
+        unit="kWh/t NH3", description="Synthesis loop electricity (compressors, refrigeration)", ge=0
+    )
+    synthesis_natural_gas_gj_per_t_nh3: float = P(
+        0.0, "GJ (LHV)/t NH3", "Natural gas burnt for the synthesis loop (steam, start-up)", ge=0
+    )
+    storage_electricity_kwh_per_t_nh3: float = P(
+        0.0, "kWh/t NH3", "Refrigerated storage and loading (reliquefaction of boil-off)", ge=0
+    )
     storage_loss_fraction: float = P(0.0, "fraction", "Ammonia lost in storage and loading", ge=0, lt=1)
 
 
@@ -46,21 +56,37 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     a = params["ammonia"]
     m_h2, m_n2, m_nh3 = inputs.molar_mass("H2"), inputs.molar_mass("N2"), inputs.molar_mass("NH3")
     synthesis = Activity("ammonia_synthesis", "ammonia_synthesis", "ammonia, synthesis loop", "t NH3")
-    hydrogen_kg = ammonia.with_loss_allowance(ammonia.stoichiometric_hydrogen_kg_per_t_nh3(m_h2, m_nh3), a["hydrogen_loss_allowance"])
+    hydrogen_kg = ammonia.with_loss_allowance(
+        ammonia.stoichiometric_hydrogen_kg_per_t_nh3(m_h2, m_nh3), a["hydrogen_loss_allowance"]
+    )
     synthesis.consume("hydrogen_production", hydrogen_kg, "hydrogen, stoichiometric plus loss allowance", "kg H2")
     activities = [synthesis]
     if a["nitrogen_source"] == "air_separation":
-        nitrogen_kg = ammonia.with_loss_allowance(ammonia.stoichiometric_nitrogen_kg_per_t_nh3(m_n2, m_nh3), a["hydrogen_loss_allowance"])
+        nitrogen_kg = ammonia.with_loss_allowance(
+            ammonia.stoichiometric_nitrogen_kg_per_t_nh3(m_n2, m_nh3), a["hydrogen_loss_allowance"]
+        )
         synthesis.consume("air_separation", nitrogen_kg, "nitrogen, stoichiometric plus loss allowance", "kg N2")
         asu = Activity("air_separation", "nitrogen_supply", "nitrogen, air separation", "kg N2")
-        asu.consume("electricity_mix", ammonia.air_separation_kwh_per_kg_n2(a["air_separation_kwh_per_t_n2"]), "electricity, air separation", "kWh")
+        asu.consume(
+            "electricity_mix",
+            ammonia.air_separation_kwh_per_kg_n2(a["air_separation_kwh_per_t_n2"]),
+            "electricity, air separation",
+            "kWh",
+        )
         activities.append(asu)
     synthesis.consume("electricity_mix", a["synthesis_electricity_kwh_per_t_nh3"], "electricity, synthesis loop", "kWh")
     if params.get("natural_gas") is not None:
         burn_natural_gas(synthesis, inputs, a["synthesis_natural_gas_gj_per_t_nh3"], "synthesis loop")
     store = Activity("ammonia_storage", "ammonia_storage", "ammonia, refrigerated storage and loading", "t NH3")
-    store.consume("ammonia_synthesis", ammonia.ammonia_produced_per_t_delivered(a["storage_loss_fraction"]), "ammonia into storage (losses included)", "t NH3")
-    store.consume("electricity_mix", a["storage_electricity_kwh_per_t_nh3"], "electricity, refrigeration and loading", "kWh")
+    store.consume(
+        "ammonia_synthesis",
+        ammonia.ammonia_produced_per_t_delivered(a["storage_loss_fraction"]),
+        "ammonia into storage (losses included)",
+        "t NH3",
+    )
+    store.consume(
+        "electricity_mix", a["storage_electricity_kwh_per_t_nh3"], "electricity, refrigeration and loading", "kWh"
+    )
     activities.append(store)
     chain.reference, chain.product = "ammonia_storage", "ammonia"
     return activities
@@ -83,7 +109,11 @@ def metered(params: dict) -> dict[str, list[str]]:
     """
     return {
         "natural_gas": ["ammonia.synthesis_natural_gas_gj_per_t_nh3"],
-        "electricity": ["ammonia.air_separation_kwh_per_t_n2", "ammonia.synthesis_electricity_kwh_per_t_nh3", "ammonia.storage_electricity_kwh_per_t_nh3"],
+        "electricity": [
+            "ammonia.air_separation_kwh_per_t_n2",
+            "ammonia.synthesis_electricity_kwh_per_t_nh3",
+            "ammonia.storage_electricity_kwh_per_t_nh3",
+        ],
     }
 
 
@@ -146,7 +176,8 @@ def starter(product: str, process_air: bool = False) -> str:
     """
     return f"""
 [ammonia]
-nitrogen_source = "{'process_air' if process_air else 'air_separation'}"     # air_separation | process_air (secondary reformer)
+nitrogen_source = "{"process_air" if process_air else "air_separation"}"     \
+# air_separation | process_air (secondary reformer)
 air_separation_kwh_per_t_n2 = {0 if process_air else 110}
 hydrogen_loss_allowance = 0.01       # feed above stoichiometry (purge, losses)
 synthesis_electricity_kwh_per_t_nh3 = {120 if process_air else 500}

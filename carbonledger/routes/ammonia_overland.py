@@ -19,7 +19,9 @@ from .road_fuels import burn_road_fuel, road_fuel_factors, road_fuels
 class AmmoniaPipeline(Section):
     destination: str = P("pipeline end", description="Where the pipeline delivers the ammonia (free text)")
     length_km: float = P(unit="km", description="Pipeline length", gt=0, le=20000)
-    pumping_kwh_per_t_km: float = P(0.0, "kWh/(t NH3 x km)", "Pumping electricity per tonne and km, from the project's mix", ge=0)
+    pumping_kwh_per_t_km: float = P(
+        0.0, "kWh/(t NH3 x km)", "Pumping electricity per tonne and km, from the project's mix", ge=0
+    )
     loss_share: float = P(0.0, "fraction", "Share of the ammonia fed in that is lost on the way", ge=0, lt=1)
 
 
@@ -27,9 +29,15 @@ class AmmoniaRail(Section):
     destination: str = P("rail terminal", description="Where the trains deliver the ammonia (free text)")
     distance_km: float = P(unit="km", description="Rail distance, one way", gt=0, le=20000)
     fuel: str = P("diesel", description="Locomotive fuel: a rail fuel of the factor set")
-    fuel_g_per_t_km: float = P(unit="g fuel/(t NH3 x km)", description="Locomotive fuel per tonne of ammonia and km, laden", ge=0)
-    return_fuel_ratio: float = P(1.0, "fraction of the laden trip's fuel", "Fuel of the return trip with empty tank wagons", ge=0)
-    loss_share: float = P(0.0, "fraction", "Share of the ammonia loaded that is lost (loading, transit, unloading)", ge=0, lt=1)
+    fuel_g_per_t_km: float = P(
+        unit="g fuel/(t NH3 x km)", description="Locomotive fuel per tonne of ammonia and km, laden", ge=0
+    )
+    return_fuel_ratio: float = P(
+        1.0, "fraction of the laden trip's fuel", "Fuel of the return trip with empty tank wagons", ge=0
+    )
+    loss_share: float = P(
+        0.0, "fraction", "Share of the ammonia loaded that is lost (loading, transit, unloading)", ge=0, lt=1
+    )
 
 
 def _needs_ammonia(section: str):
@@ -65,8 +73,14 @@ def build_pipeline(params: dict, inputs, chain) -> list[Activity]:
     pipe = Activity("ammonia_piped", "ammonia_pipeline", f"ammonia, piped to {leg['destination']}", "t NH3")
     into = hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"])
     pipe.consume(chain.reference, into, "ammonia fed into the pipeline (losses included)", "t NH3")
-    pipe.consume("electricity_mix", leg["pumping_kwh_per_t_km"] * leg["length_km"] * into, "electricity, pumping", "kWh")
-    pipe.emit("nh3", 1000.0 * hydrogen_delivery.lost_per_unit_delivered(leg["loss_share"]), "ammonia lost from the pipeline (not a GHG)")
+    pipe.consume(
+        "electricity_mix", leg["pumping_kwh_per_t_km"] * leg["length_km"] * into, "electricity, pumping", "kWh"
+    )
+    pipe.emit(
+        "nh3",
+        1000.0 * hydrogen_delivery.lost_per_unit_delivered(leg["loss_share"]),
+        "ammonia lost from the pipeline (not a GHG)",
+    )
     chain.reference, chain.place = pipe.key, f"at {leg['destination']}"
     return [pipe]
 
@@ -97,8 +111,20 @@ def build_rail(params: dict, inputs, chain) -> list[Activity]:
     into = hydrogen_delivery.intake_per_unit_delivered(leg["loss_share"])
     train.consume(chain.reference, into, "ammonia loaded (losses included)", "t NH3")
     fuel_kg = leg["fuel_g_per_t_km"] * leg["distance_km"] * into * (1.0 + leg["return_fuel_ratio"]) / 1000.0
-    burn_road_fuel(train, "ammonia_rail", leg["fuel"], road_fuel_factors(inputs, leg["fuel"], "ammonia_rail.fuel", "rail_fuel"), fuel_kg, "locomotive, laden and return trips", chain.extra)
-    train.emit("nh3", 1000.0 * hydrogen_delivery.lost_per_unit_delivered(leg["loss_share"]), "ammonia lost in rail carriage (not a GHG)")
+    burn_road_fuel(
+        train,
+        "ammonia_rail",
+        leg["fuel"],
+        road_fuel_factors(inputs, leg["fuel"], "ammonia_rail.fuel", "rail_fuel"),
+        fuel_kg,
+        "locomotive, laden and return trips",
+        chain.extra,
+    )
+    train.emit(
+        "nh3",
+        1000.0 * hydrogen_delivery.lost_per_unit_delivered(leg["loss_share"]),
+        "ammonia lost in rail carriage (not a GHG)",
+    )
     chain.reference, chain.place = train.key, f"at {leg['destination']}"
     chain.figures["ammonia_rail"] = {"fuel_kg_per_t_nh3": fuel_kg}
     return [train]
@@ -130,14 +156,21 @@ def check_rail(params: dict, inputs, source: str) -> None:
     """
     fuels = road_fuels(inputs.factor_set, "rail_fuel")
     if params["ammonia_rail"]["fuel"] not in fuels:
-        raise InputError(source, "ammonia_rail.fuel", f"a rail fuel with factors in set '{inputs.factor_set.name}' ({', '.join(fuels) or 'none'}), got '{params['ammonia_rail']['fuel']}'")
+        raise InputError(
+            source,
+            "ammonia_rail.fuel",
+            f"a rail fuel with factors in set '{inputs.factor_set.name}' ({', '.join(fuels) or 'none'}), "
+            f"got '{params['ammonia_rail']['fuel']}'",
+        )
 
 
 AMMONIA_PIPELINE = Route(
     name="ammonia_pipeline",
     kind="delivery_leg",
     stages=("ammonia_pipeline",),
-    applies=lambda params: params.get("ammonia_pipeline") is not None and params["project"]["boundary"] != "cradle-to-gate",
+    applies=lambda params: (
+        params.get("ammonia_pipeline") is not None and params["project"]["boundary"] != "cradle-to-gate"
+    ),
     build=build_pipeline,
     optional_sections={"ammonia_pipeline": AmmoniaPipeline},
     validate=_needs_ammonia("ammonia_pipeline"),

@@ -77,7 +77,8 @@ class Chain:
     figures: dict = field(default_factory=dict)
     electricity_kinds: dict = field(default_factory=dict)
     electricity_sources: dict = field(default_factory=dict)  # electricity activity key -> source name
-    electricity: str = "electricity_mix"  # the activity a leg draws electricity from where it is (after cracking: the destination's)
+    # the activity a leg draws electricity from where it is (after cracking: the destination's)
+    electricity: str = "electricity_mix"
 
 
 @dataclass(frozen=True)

@@ -25,12 +25,26 @@ from .reforming import methane_feed_draw_limits, refuse_below_the_energy_balance
 class BiomethaneReforming(Section):
     biomethane_gj_per_kg_h2: float = P(unit="GJ (LHV)/kg H2", description="Biomethane as feed and fuel", gt=0)
     electricity_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity bought by the hydrogen plant", ge=0)
-    process_co2_share: float = P(unit="fraction", description="Share of the CO2 in the concentrated process stream (the rest is dilute flue CO2)", ge=0, le=1)
-    upstream_factor: str = P(description="Factor id (g CO2e/MJ) of supplying the biomethane, e.g. biomethane.upstream.biowaste_closed_digestate_offgas_combustion")
-    capture_rate: float = P(0.0, "fraction", "Fraction of the CO2 in the captured streams that is captured (0: no capture)", ge=0, le=1)
-    capture_applies_to: Literal["process", "process_and_flue"] = P("process", description="CO2 streams the capture rate applies to")
+    process_co2_share: float = P(
+        unit="fraction",
+        description="Share of the CO2 in the concentrated process stream (the rest is dilute flue CO2)",
+        ge=0,
+        le=1,
+    )
+    upstream_factor: str = P(
+        description="Factor id (g CO2e/MJ) of supplying the biomethane, e.g. "
+        "biomethane.upstream.biowaste_closed_digestate_offgas_combustion"
+    )
+    capture_rate: float = P(
+        0.0, "fraction", "Fraction of the CO2 in the captured streams that is captured (0: no capture)", ge=0, le=1
+    )
+    capture_applies_to: Literal["process", "process_and_flue"] = P(
+        "process", description="CO2 streams the capture rate applies to"
+    )
     compression_kwh_per_t_co2: float = P(0.0, "kWh/t CO2", "Electricity to capture, dry and compress the CO2", ge=0)
-    transport_storage_loss_fraction: float = P(0.0, "fraction", "Share of the captured CO2 lost in transport and storage", ge=0, le=1)
+    transport_storage_loss_fraction: float = P(
+        0.0, "fraction", "Share of the captured CO2 lost in transport and storage", ge=0, le=1
+    )
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
@@ -63,15 +77,28 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     gas_gj = b["biomethane_gj_per_kg_h2"]
     upstream = inputs.factor(b["upstream_factor"], "g CO2e/MJ", "biomethane_reforming.upstream_factor")
     supply = Activity("biomethane_supply", "biomethane_supply", "biomethane, produced, upgraded and delivered", "GJ")
-    supply.emit("co2e_precharacterised", biomethane.upstream_kg_co2e_per_kg_h2(1.0, upstream), "life-cycle CO2e of supplying the biomethane")
+    supply.emit(
+        "co2e_precharacterised",
+        biomethane.upstream_kg_co2e_per_kg_h2(1.0, upstream),
+        "life-cycle CO2e of supplying the biomethane",
+    )
 
     plant = Activity("hydrogen_production", "hydrogen_production", "hydrogen, biomethane reforming", "kg H2")
     plant.consume("biomethane_supply", gas_gj, "biomethane, feed and fuel", "GJ")
     fuel_gj = reforming.fuel_gas_gj_per_kg_h2(gas_gj, b["process_co2_share"])
-    plant.emit("ch4_non_fossil", fuel_gj * combustion_kg_per_gj(inputs, "ch4"), "CH4 from burning the fuel gas (non-fossil)")
+    plant.emit(
+        "ch4_non_fossil", fuel_gj * combustion_kg_per_gj(inputs, "ch4"), "CH4 from burning the fuel gas (non-fossil)"
+    )
     plant.emit("n2o", fuel_gj * combustion_kg_per_gj(inputs, "n2o"), "N2O from burning the fuel gas")
-    plant.consume("electricity_mix", b["electricity_kwh_per_kg_h2"] + params["hydrogen"]["conditioning_kwh_per_kg_h2"], "electricity, plant and conditioning", "kWh")
-    per_gj = biomethane.biogenic_co2_kg_per_gj(inputs.molar_mass("CO2"), inputs.molar_mass("CH4"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
+    plant.consume(
+        "electricity_mix",
+        b["electricity_kwh_per_kg_h2"] + params["hydrogen"]["conditioning_kwh_per_kg_h2"],
+        "electricity, plant and conditioning",
+        "kWh",
+    )
+    per_gj = biomethane.biogenic_co2_kg_per_gj(
+        inputs.molar_mass("CO2"), inputs.molar_mass("CH4"), inputs.factor("heating_value.methane.lhv", "MJ/kg")
+    )
     direct = reforming.direct_co2_kg_per_kg_h2(gas_gj, per_gj)
     process = reforming.process_co2_kg_per_kg_h2(direct, b["process_co2_share"])
     flue = reforming.flue_co2_kg_per_kg_h2(direct, b["process_co2_share"])
@@ -80,10 +107,22 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     # the capture activity is always built (with nothing captured at a capture rate of 0), so that the
     # structure never depends on a number (the workbook runs this on formula cells)
     plant.consume("biogenic_co2_capture", captured, "biogenic CO2 captured", "kg CO2")
-    unit = Activity("biogenic_co2_capture", "co2_capture_and_storage", "biogenic CO2 capture, compression, transport and storage", "kg CO2")
-    unit.consume("electricity_mix", capture.compression_electricity_kwh_per_kg_co2(b["compression_kwh_per_t_co2"]), "electricity, capture and compression", "kWh")
+    unit = Activity(
+        "biogenic_co2_capture",
+        "co2_capture_and_storage",
+        "biogenic CO2 capture, compression, transport and storage",
+        "kg CO2",
+    )
+    unit.consume(
+        "electricity_mix",
+        capture.compression_electricity_kwh_per_kg_co2(b["compression_kwh_per_t_co2"]),
+        "electricity, capture and compression",
+        "kWh",
+    )
     loss = b["transport_storage_loss_fraction"]
-    unit.emit("co2_biogenic", biomethane.lost_kg(1.0, loss), "biogenic CO2 lost in transport and storage (counted apart)")
+    unit.emit(
+        "co2_biogenic", biomethane.lost_kg(1.0, loss), "biogenic CO2 lost in transport and storage (counted apart)"
+    )
     unit.emit("co2_biogenic_stored", biomethane.stored_kg(1.0, loss), "biogenic CO2 stored (stated apart; not netted)")
     return [supply, plant, unit]
 
@@ -143,7 +182,9 @@ def draw_limits(params: dict, inputs) -> list:
         bool array over the draws.
     """
     b = params["biomethane_reforming"]
-    return methane_feed_draw_limits("biomethane_reforming", b["biomethane_gj_per_kg_h2"], b["electricity_kwh_per_kg_h2"], inputs)
+    return methane_feed_draw_limits(
+        "biomethane_reforming", b["biomethane_gj_per_kg_h2"], b["electricity_kwh_per_kg_h2"], inputs
+    )
 
 
 def metered(params: dict) -> dict[str, list[str]]:
@@ -182,8 +223,10 @@ def starter(product: str) -> str:
 biomethane_gj_per_kg_h2 = 0.165          # feed and fuel, lower heating value (at least 0.1 GJ: 1 mol CH4 per 4 mol H2)
 electricity_kwh_per_kg_h2 = 0.5
 process_co2_share = 0.6                  # share of the CO2 in the concentrated process stream
-upstream_factor = "biomethane.upstream.biowaste_closed_digestate_offgas_combustion"   # `carbonledger factors list --prefix biomethane.`
-capture_rate = 0.0                       # of the CO2 in the streams named by capture_applies_to (biogenic CO2, stated apart)
+upstream_factor = "biomethane.upstream.biowaste_closed_digestate_offgas_combustion"   \
+# `carbonledger factors list --prefix biomethane.`
+capture_rate = 0.0                       \
+# of the CO2 in the streams named by capture_applies_to (biogenic CO2, stated apart)
 capture_applies_to = "process"           # process | process_and_flue
 compression_kwh_per_t_co2 = 110
 transport_storage_loss_fraction = 0.02

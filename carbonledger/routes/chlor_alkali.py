@@ -16,11 +16,20 @@ from .electricity import starter as electricity_starter
 
 
 class ChlorAlkali(Section):
-    cell_electricity_kwh_per_kg_h2: float = P(unit="kWh/kg H2", description="Electricity of the cells and their plant per kg of hydrogen made (membrane cells: about 2,500 kWh per t Cl2)", gt=0)
-    allocation: Literal["none", "mass", "economic"] = P("none", description="How the cell's burden is shared with chlorine and sodium hydroxide")
+    cell_electricity_kwh_per_kg_h2: float = P(
+        unit="kWh/kg H2",
+        description="Electricity of the cells and their plant per kg of hydrogen "
+        "made (membrane cells: about 2,500 kWh per t Cl2)",
+        gt=0,
+    )
+    allocation: Literal["none", "mass", "economic"] = P(
+        "none", description="How the cell's burden is shared with chlorine and sodium hydroxide"
+    )
     hydrogen_price_per_kg: float = P(0.0, "currency/kg", "economic: price of the hydrogen", ge=0)
     chlorine_price_per_kg: float = P(0.0, "currency/kg", "economic: price of the chlorine", ge=0)
-    sodium_hydroxide_price_per_kg: float = P(0.0, "currency/kg", "economic: price of the sodium hydroxide (as 100 % NaOH)", ge=0)
+    sodium_hydroxide_price_per_kg: float = P(
+        0.0, "currency/kg", "economic: price of the sodium hydroxide (as 100 % NaOH)", ge=0
+    )
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
@@ -57,11 +66,24 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     if c["allocation"] == "mass":
         share = chlor_alkali.hydrogen_share_by_mass(chlorine, caustic)
     elif c["allocation"] == "economic":
-        share = chlor_alkali.hydrogen_share_by_value(chlorine, caustic, c["hydrogen_price_per_kg"], c["chlorine_price_per_kg"], c["sodium_hydroxide_price_per_kg"])
+        share = chlor_alkali.hydrogen_share_by_value(
+            chlorine,
+            caustic,
+            c["hydrogen_price_per_kg"],
+            c["chlorine_price_per_kg"],
+            c["sodium_hydroxide_price_per_kg"],
+        )
     else:
         share = 1.0
-    plant = Activity("hydrogen_production", "hydrogen_production", "hydrogen, by-product of chlor-alkali electrolysis", "kg H2")
-    plant.consume("electricity_mix", c["cell_electricity_kwh_per_kg_h2"] * share + params["hydrogen"]["conditioning_kwh_per_kg_h2"], "electricity, cells (hydrogen's share) and conditioning", "kWh")
+    plant = Activity(
+        "hydrogen_production", "hydrogen_production", "hydrogen, by-product of chlor-alkali electrolysis", "kg H2"
+    )
+    plant.consume(
+        "electricity_mix",
+        c["cell_electricity_kwh_per_kg_h2"] * share + params["hydrogen"]["conditioning_kwh_per_kg_h2"],
+        "electricity, cells (hydrogen's share) and conditioning",
+        "kWh",
+    )
     chain.figures["co_products"] = {
         "co_product": "chlorine and sodium hydroxide",
         "kg_per_kg_h2": {"chlorine": chlorine, "sodium_hydroxide": caustic},
@@ -100,12 +122,16 @@ def check_limits(params: dict, inputs, source: str) -> None:
     .. [1] Two electrons per H2 at the reversible cell voltage (Faraday's law); see
        ``carbonledger.stages.chlor_alkali`` (cell voltage recorded from memory).
     """
-    least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2"))
+    least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(
+        chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2")
+    )
     got = params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"]
     if got < least:
         raise InputError(
-            source, "chlor_alkali.cell_electricity_kwh_per_kg_h2",
-            f"at least {least:.1f} kWh/kg H2 (two electrons per H2 at the reversible cell voltage {chlor_alkali.STANDARD_CELL_POTENTIAL_V:.3f} V; recorded from memory), got {got:g}",
+            source,
+            "chlor_alkali.cell_electricity_kwh_per_kg_h2",
+            f"at least {least:.1f} kWh/kg H2 (two electrons per H2 at the reversible cell voltage "
+            f"{chlor_alkali.STANDARD_CELL_POTENTIAL_V:.3f} V; recorded from memory), got {got:g}",
         )
 
 
@@ -128,8 +154,16 @@ def draw_limits(params: dict, inputs) -> list:
         ``(field, expected, ok)``: the parameter path, what was expected in words, and a bool or a
         bool array over the draws.
     """
-    least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2"))
-    return [("chlor_alkali.cell_electricity_kwh_per_kg_h2", "at least the electricity of the reversible cell voltage", params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"] >= least)]
+    least = chlor_alkali.least_cell_electricity_kwh_per_kg_h2(
+        chlor_alkali.STANDARD_CELL_POTENTIAL_V, inputs.molar_mass("H2")
+    )
+    return [
+        (
+            "chlor_alkali.cell_electricity_kwh_per_kg_h2",
+            "at least the electricity of the reversible cell voltage",
+            params["chlor_alkali"]["cell_electricity_kwh_per_kg_h2"] >= least,
+        )
+    ]
 
 
 def validate(project) -> None:
@@ -151,8 +185,13 @@ def validate(project) -> None:
         Naming the field and what was expected.
     """
     c = project.chlor_alkali
-    if c.allocation == "economic" and not (c.hydrogen_price_per_kg > 0 and c.chlorine_price_per_kg > 0 and c.sodium_hydroxide_price_per_kg > 0):
-        raise SectionError("chlor_alkali.hydrogen_price_per_kg", "prices above 0 for hydrogen, chlorine and sodium hydroxide, for allocation 'economic'")
+    if c.allocation == "economic" and not (
+        c.hydrogen_price_per_kg > 0 and c.chlorine_price_per_kg > 0 and c.sodium_hydroxide_price_per_kg > 0
+    ):
+        raise SectionError(
+            "chlor_alkali.hydrogen_price_per_kg",
+            "prices above 0 for hydrogen, chlorine and sodium hydroxide, for allocation 'economic'",
+        )
 
 
 def metered(params: dict) -> dict[str, list[str]]:
@@ -213,7 +252,14 @@ ROUTE = Route(
         methods=("none", "mass", "economic"),
         carries_energy=False,  # neither has a heating value
         rigid=True,  # 2 NaCl + 2 H2O -> Cl2 + H2 + 2 NaOH: fixed ratio
-        missing=lambda params, method: "chlor_alkali prices of hydrogen, chlorine and sodium hydroxide"
-        if method == "economic" and not all(params["chlor_alkali"][k] > 0 for k in ("hydrogen_price_per_kg", "chlorine_price_per_kg", "sodium_hydroxide_price_per_kg")) else "",
+        missing=lambda params, method: (
+            "chlor_alkali prices of hydrogen, chlorine and sodium hydroxide"
+            if method == "economic"
+            and not all(
+                params["chlor_alkali"][k] > 0
+                for k in ("hydrogen_price_per_kg", "chlorine_price_per_kg", "sodium_hydroxide_price_per_kg")
+            )
+            else ""
+        ),
     ),
 )

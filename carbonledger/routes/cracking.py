@@ -16,12 +16,26 @@ from .marine_fuels import burn_ammonia
 
 
 class Cracking(Section):
-    hydrogen_recovery_fraction: float = P(unit="fraction", description="Hydrogen recovered as product per hydrogen cracked (purification losses)", gt=0, le=1)
+    hydrogen_recovery_fraction: float = P(
+        unit="fraction",
+        description="Hydrogen recovered as product per hydrogen cracked (purification losses)",
+        gt=0,
+        le=1,
+    )
     heat_source: Literal["ammonia", "hydrogen", "natural_gas"] = P(description="Fuel burnt for the cracker's heat")
-    heat_to_reactor_efficiency: float = P(unit="fraction", description="Share of the fuel heat (LHV) that reaches the reaction and the feed vaporiser", gt=0, le=1)
+    heat_to_reactor_efficiency: float = P(
+        unit="fraction",
+        description="Share of the fuel heat (LHV) that reaches the reaction and the feed vaporiser",
+        gt=0,
+        le=1,
+    )
     burner_n2o_g_per_kg_ammonia: float = P(0.0, "g N2O/kg NH3 burnt", "N2O from burning ammonia for heat", ge=0)
-    electricity_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity of the cracker (pumps, purification, compression)", ge=0)
-    electricity_factor: str = P("", description="Factor id of the electricity at the destination (needed when electricity_kwh_per_kg_h2 > 0)")
+    electricity_kwh_per_kg_h2: float = P(
+        0.0, "kWh/kg H2", "Electricity of the cracker (pumps, purification, compression)", ge=0
+    )
+    electricity_factor: str = P(
+        "", description="Factor id of the electricity at the destination (needed when electricity_kwh_per_kg_h2 > 0)"
+    )
 
 
 def cracking_figures(c: dict, inputs) -> dict[str, Any]:
@@ -50,7 +64,9 @@ def cracking_figures(c: dict, inputs) -> dict[str, Any]:
     m_nh3, m_h2 = inputs.molar_mass("NH3"), inputs.molar_mass("H2")
     feed = cracking.ammonia_kg_per_kg_h2_cracked(m_nh3, m_h2)
     enthalpy = cracking.reaction_enthalpy_mj_per_kg_h2(inputs.formation_enthalpy_ammonia(), m_h2)
-    heat = cracking.heat_mj_per_kg_h2_cracked(enthalpy, feed, inputs.latent_heat_ammonia(), c["heat_to_reactor_efficiency"])
+    heat = cracking.heat_mj_per_kg_h2_cracked(
+        enthalpy, feed, inputs.latent_heat_ammonia(), c["heat_to_reactor_efficiency"]
+    )
     burnt = cracking.hydrogen_burnt_share(heat, inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), c["heat_source"])
     return {
         "ammonia_kg_per_kg_h2_cracked": feed,
@@ -90,12 +106,20 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     """
     c = params["cracking"]
     figures = cracking_figures(c, inputs)
-    cracked = cracking.hydrogen_cracked_kg_per_kg_delivered(c["hydrogen_recovery_fraction"], figures["hydrogen_burnt_per_kg_h2_cracked"])
+    cracked = cracking.hydrogen_cracked_kg_per_kg_delivered(
+        c["hydrogen_recovery_fraction"], figures["hydrogen_burnt_per_kg_h2_cracked"]
+    )
     heat = figures["heat_mj_per_kg_h2_cracked"]
-    ammonia_burnt_kg = cracking.fuel_heat_mj_per_kg_delivered(heat, cracked, c["heat_source"], "ammonia") / inputs.factor("heating_value.ammonia.lhv", "MJ/kg")
+    ammonia_burnt_kg = cracking.fuel_heat_mj_per_kg_delivered(
+        heat, cracked, c["heat_source"], "ammonia"
+    ) / inputs.factor("heating_value.ammonia.lhv", "MJ/kg")
     gas_gj = cracking.fuel_heat_mj_per_kg_delivered(heat, cracked, c["heat_source"], "natural_gas") / 1000.0
     ammonia_kg = cracked * figures["ammonia_kg_per_kg_h2_cracked"] + ammonia_burnt_kg
-    figures.update(hydrogen_cracked_kg_per_kg_delivered=cracked, ammonia_kg_per_kg_h2_delivered=ammonia_kg, ammonia_burnt_for_heat_kg_per_kg_h2=ammonia_burnt_kg)
+    figures.update(
+        hydrogen_cracked_kg_per_kg_delivered=cracked,
+        ammonia_kg_per_kg_h2_delivered=ammonia_kg,
+        ammonia_burnt_for_heat_kg_per_kg_h2=ammonia_burnt_kg,
+    )
     plant = Activity("hydrogen_delivered", "cracking", f"hydrogen, cracked from ammonia {chain.place}", "kg H2")
     plant.consume(chain.reference, ammonia_kg / 1000.0, "ammonia cracked and burnt for heat", "t NH3")
     burn_ammonia(plant, ammonia_burnt_kg, c["burner_n2o_g_per_kg_ammonia"], 0.0, "cracker burner")
@@ -151,7 +175,8 @@ def check_limits(params: dict, inputs, source: str) -> None:
         raise InputError(
             source,
             "cracking.hydrogen_recovery_fraction",
-            f"a recovery above the hydrogen burnt for heat ({figures['hydrogen_burnt_per_kg_h2_cracked']:.3f} kg per kg cracked), got {c['hydrogen_recovery_fraction']:g}",
+            f"a recovery above the hydrogen burnt for heat ({figures['hydrogen_burnt_per_kg_h2_cracked']:.3f} "
+            f"kg per kg cracked), got {c['hydrogen_recovery_fraction']:g}",
         )
 
 
@@ -178,7 +203,13 @@ def draw_limits(params: dict, inputs) -> list:
     if params["project"]["boundary"] == "cradle-to-gate":
         return []
     burnt = cracking_figures(c, inputs)["hydrogen_burnt_per_kg_h2_cracked"]
-    return [("cracking.hydrogen_recovery_fraction", "a recovery above the hydrogen burnt for heat", c["hydrogen_recovery_fraction"] > burnt)]
+    return [
+        (
+            "cracking.hydrogen_recovery_fraction",
+            "a recovery above the hydrogen burnt for heat",
+            c["hydrogen_recovery_fraction"] > burnt,
+        )
+    ]
 
 
 def validate(project) -> None:
@@ -204,13 +235,25 @@ def validate(project) -> None:
     if crack is None:
         return
     if project.project.product != "ammonia":
-        raise SectionError("cracking", "no [cracking] section for product 'hydrogen' (delivery is modelled for ammonia)")
+        raise SectionError(
+            "cracking", "no [cracking] section for product 'hydrogen' (delivery is modelled for ammonia)"
+        )
     if crack.electricity_kwh_per_kg_h2 > 0 and not crack.electricity_factor:
         raise SectionError("cracking.electricity_factor", "a factor id for the cracker's electricity")
-    after = [f"{name}.{field}" for name, field in (("hydrogen_pipeline", "compression_kwh_per_kg_h2"), ("hydrogen_truck", "compression_kwh_per_kg_h2"), ("liquid_hydrogen", "liquefaction_kwh_per_kg_h2"))
-             if getattr(project, name, None) is not None and getattr(getattr(project, name), field) > 0]
+    after = [
+        f"{name}.{field}"
+        for name, field in (
+            ("hydrogen_pipeline", "compression_kwh_per_kg_h2"),
+            ("hydrogen_truck", "compression_kwh_per_kg_h2"),
+            ("liquid_hydrogen", "liquefaction_kwh_per_kg_h2"),
+        )
+        if getattr(project, name, None) is not None and getattr(getattr(project, name), field) > 0
+    ]
     if after and not crack.electricity_factor:
-        raise SectionError("cracking.electricity_factor", f"a factor id for the electricity at the destination, which {', '.join(after)} after the cracker use")
+        raise SectionError(
+            "cracking.electricity_factor",
+            f"a factor id for the electricity at the destination, which {', '.join(after)} after the cracker use",
+        )
 
 
 def uses_natural_gas(project) -> bool:

@@ -16,7 +16,9 @@ class ElectricitySource(Section):
     share: float = P(unit="fraction", description="Share of the electricity bought", ge=0, le=1)
     factor: str = P(description="Factor id of the source's emission factor")
     procurement: Optional[Literal["direct_line", "ppa", "certificates", "grid"]] = P(
-        None, description="How the electricity is procured: direct_line | ppa | certificates | grid (schemes decide what counts)"
+        None,
+        description="How the electricity is procured: direct_line | ppa "
+        "| certificates | grid (schemes decide what counts)",
     )
     commissioned: IsoDate = P("", "date", "Date the generator came into operation (YYYY-MM-DD; additionality)")
     zone: str = P("", description="Bidding zone or region of the generator (geographic correlation)")
@@ -31,17 +33,38 @@ class Battery(Section):
     source alone would not cover its use, displacing the other sources; its round-trip losses are bought
     from the charging source as extra electricity (``stages.electricity``)."""
 
-    charged_from: str = P(description="The source whose electricity the battery stores (a source of [electricity.sources] with a share above 0)")
+    charged_from: str = P(
+        description="The source whose electricity the battery stores (a source "
+        "of [electricity.sources] with a share above 0)"
+    )
     capacity_kwh: float = P(0.0, "kWh", "Usable energy capacity", ge=0)
-    full_cycles_per_year: float = P(unit="1/year", description="Full charge-discharge cycles a year (each delivers the usable capacity once)", gt=0, le=8760)
-    round_trip_efficiency: float = P(unit="fraction", description="Energy delivered over energy charged (no default: from the battery's data sheet)", gt=0, le=1)
-    electricity_kwh_per_year: float = P(unit="kWh/year", description="The plant's electricity use a year (the battery delivers a share of it)", gt=0)
+    full_cycles_per_year: float = P(
+        unit="1/year",
+        description="Full charge-discharge cycles a year (each delivers the usable capacity once)",
+        gt=0,
+        le=8760,
+    )
+    round_trip_efficiency: float = P(
+        unit="fraction",
+        description="Energy delivered over energy charged (no default: from the battery's data sheet)",
+        gt=0,
+        le=1,
+    )
+    electricity_kwh_per_year: float = P(
+        unit="kWh/year", description="The plant's electricity use a year (the battery delivers a share of it)", gt=0
+    )
 
 
 class Electricity(Section):
-    sources: dict[str, ElectricitySource] = Field(min_length=1, max_length=100, description="Named sources of electricity (at most 100)")
+    sources: dict[str, ElectricitySource] = Field(
+        min_length=1, max_length=100, description="Named sources of electricity (at most 100)"
+    )
     battery: Optional[Battery] = Field(None, description="A battery charged from one source (optional)")
-    time_series: str = P("", description="CSV of intervals (electricity use, contracted generation, grid intensity, price), relative to the project file; scheme checks then match hour by hour or as each rule says")
+    time_series: str = P(
+        "",
+        description="CSV of intervals (electricity use, contracted generation, grid intensity, price), relative "
+        "to the project file; scheme checks then match hour by hour or as each rule says",
+    )
 
     @model_validator(mode="after")
     def _shares_sum_to_one(self):
@@ -59,19 +82,32 @@ class Electricity(Section):
             )
         return self
 
-
     def _battery_fits(self) -> None:
         battery = self.battery
         if battery.charged_from not in self.sources:
-            raise ValueError(f"battery.charged_from naming a source of [electricity.sources] ({', '.join(self.sources)}), got '{battery.charged_from}'{did_you_mean(battery.charged_from, self.sources)}")
+            raise ValueError(
+                f"battery.charged_from naming a source of [electricity.sources] ({', '.join(self.sources)}), "
+                f"got '{battery.charged_from}'{did_you_mean(battery.charged_from, self.sources)}"
+            )
         if self.time_series:
-            raise ValueError("a battery without a time_series (the hour-by-hour matching does not model storage; the series' own load and generation decide)")
+            raise ValueError(
+                "a battery without a time_series (the hour-by-hour matching does "
+                "not model storage; the series' own load and generation decide)"
+            )
         charged = self.sources[battery.charged_from].share
-        delivered = electricity.battery_delivered_share(battery.capacity_kwh, battery.full_cycles_per_year, battery.electricity_kwh_per_year)
+        delivered = electricity.battery_delivered_share(
+            battery.capacity_kwh, battery.full_cycles_per_year, battery.electricity_kwh_per_year
+        )
         if delivered > 0 and not 0 < charged < 1:
-            raise ValueError(f"battery.charged_from a source with a share above 0 and below 1 (it stores that source's electricity for the hours the others would supply), '{battery.charged_from}' has {charged:g}")
+            raise ValueError(
+                "battery.charged_from a source with a share above 0 and below 1 (it stores that source's electricity "
+                f"for the hours the others would supply), '{battery.charged_from}' has {charged:g}"
+            )
         if delivered > 1 - charged + 1e-12:
-            raise ValueError(f"a battery delivering at most what the other sources supply ({1 - charged:g} of the electricity), got capacity x cycles / electricity a year = {delivered:g}")
+            raise ValueError(
+                f"a battery delivering at most what the other sources supply ({1 - charged:g} of "
+                f"the electricity), got capacity x cycles / electricity a year = {delivered:g}"
+            )
 
 
 def mix_amounts(electricity_params: dict) -> dict:
@@ -91,10 +127,13 @@ def mix_amounts(electricity_params: dict) -> dict:
     sources, battery = electricity_params["sources"], electricity_params.get("battery")
     if not battery:
         return {name: source["share"] for name, source in sources.items()}
-    delivered = electricity.battery_delivered_share(battery["capacity_kwh"], battery["full_cycles_per_year"], battery["electricity_kwh_per_year"])
+    delivered = electricity.battery_delivered_share(
+        battery["capacity_kwh"], battery["full_cycles_per_year"], battery["electricity_kwh_per_year"]
+    )
     charged = sources[battery["charged_from"]]["share"]
     return {
-        name: electricity.charged_source_kwh_per_kwh(charged, delivered, battery["round_trip_efficiency"]) if name == battery["charged_from"]
+        name: electricity.charged_source_kwh_per_kwh(charged, delivered, battery["round_trip_efficiency"])
+        if name == battery["charged_from"]
         else electricity.displaced_source_kwh_per_kwh(source["share"], charged, delivered)
         for name, source in sources.items()
     }
@@ -127,7 +166,8 @@ def check_limits(params: dict, inputs, source: str) -> None:
 
 
 def draw_limits(params: dict, inputs) -> list:
-    """The battery's limits of ``Electricity`` on numbers or arrays of draws (shares and capacity may be levers or drawn).
+    """The battery's limits of ``Electricity`` on numbers or arrays of draws (shares and capacity may be
+    levers or drawn).
 
     Parameters
     ----------
@@ -144,11 +184,22 @@ def draw_limits(params: dict, inputs) -> list:
     battery = params["electricity"].get("battery")
     if not battery:
         return []
-    delivered = electricity.battery_delivered_share(battery["capacity_kwh"], battery["full_cycles_per_year"], battery["electricity_kwh_per_year"])
+    delivered = electricity.battery_delivered_share(
+        battery["capacity_kwh"], battery["full_cycles_per_year"], battery["electricity_kwh_per_year"]
+    )
     charged = params["electricity"]["sources"][battery["charged_from"]]["share"]
     return [
-        ("electricity.battery.capacity_kwh", "a battery delivering at most what the other sources supply (capacity x cycles / electricity a year <= 1 - the charging source's share)", delivered <= 1 - charged + 1e-12),
-        ("electricity.battery.charged_from", "a charging source with a share above 0 and below 1 when the battery delivers", (delivered == 0) | ((charged > 0) & (charged < 1))),
+        (
+            "electricity.battery.capacity_kwh",
+            "a battery delivering at most what the other sources supply (capacity "
+            "x cycles / electricity a year <= 1 - the charging source's share)",
+            delivered <= 1 - charged + 1e-12,
+        ),
+        (
+            "electricity.battery.charged_from",
+            "a charging source with a share above 0 and below 1 when the battery delivers",
+            (delivered == 0) | ((charged > 0) & (charged < 1)),
+        ),
     ]
 
 
@@ -185,7 +236,12 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         flow, kg_per_kwh = electricity_flow(inputs, source["factor"], f"electricity.sources.{name}.factor")
         supply = Activity(key, "electricity_supply", f"electricity, {name}", "kWh")
         supply.emit(flow, kg_per_kwh, f"generation of electricity, {name}")
-        mix.consume(key, amounts[name], f"share of {name}" + (" (with the battery)" if params["electricity"].get("battery") else ""), "kWh")
+        mix.consume(
+            key,
+            amounts[name],
+            f"share of {name}" + (" (with the battery)" if params["electricity"].get("battery") else ""),
+            "kWh",
+        )
         activities.append(supply)
         chain.electricity_kinds[key] = electricity.kind_of_source(source["factor"])
         chain.electricity_sources[key] = name

@@ -15,10 +15,16 @@ from .electricity import starter as electricity_starter
 
 class Electrolysis(Section):
     technology: Literal["alkaline", "pem", "solid_oxide"] = P(description="Electrolyser technology")
-    electricity_kwh_per_kg_h2: float = P(unit="kWh/kg H2", description="System electricity, stack and balance of plant", gt=0)
+    electricity_kwh_per_kg_h2: float = P(
+        unit="kWh/kg H2", description="System electricity, stack and balance of plant", gt=0
+    )
     heat_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Heat (solid oxide: steam raising and stack heat)", ge=0)
-    operating_temperature_c: float = P(800.0, "°C", "Solid oxide: stack temperature, sets the Gibbs-energy floor on electricity", ge=500, le=1000)
-    heat_source: Literal["recovered", "natural_gas", "electricity"] = P("recovered", description="Where the heat comes from; recovered heat carries no burden")
+    operating_temperature_c: float = P(
+        800.0, "°C", "Solid oxide: stack temperature, sets the Gibbs-energy floor on electricity", ge=500, le=1000
+    )
+    heat_source: Literal["recovered", "natural_gas", "electricity"] = P(
+        "recovered", description="Where the heat comes from; recovered heat carries no burden"
+    )
     heat_boiler_efficiency: float = P(0.9, "fraction", "Boiler efficiency when heat comes from natural gas", gt=0, le=1)
     water_litres_per_kg_h2: float = P(0.0, "L/kg H2", "Raw water drawn (0: water treatment not counted)", ge=0)
     water_treatment_kwh_per_m3: float = P(0.0, "kWh/m3", "Electricity to treat or desalinate raw water", ge=0)
@@ -46,7 +52,12 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         The activities it adds; their exchanges are amounts per unit of each activity (kg H2).
     """
     e = params["electrolysis"]
-    plant = Activity("hydrogen_production", "hydrogen_production", f"hydrogen, {e['technology'].replace('_', ' ')} electrolysis", "kg H2")
+    plant = Activity(
+        "hydrogen_production",
+        "hydrogen_production",
+        f"hydrogen, {e['technology'].replace('_', ' ')} electrolysis",
+        "kg H2",
+    )
     water_kwh = electrolysis.water_treatment_kwh_per_kg_h2(e["water_litres_per_kg_h2"], e["water_treatment_kwh_per_m3"])
     heat_kwh = e["heat_kwh_per_kg_h2"] if e["heat_source"] == "electricity" else 0.0 * e["heat_kwh_per_kg_h2"]
     plant.consume(
@@ -56,7 +67,12 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         "kWh",
     )
     if e["heat_source"] == "natural_gas":
-        burn_natural_gas(plant, inputs, electrolysis.heat_gas_gj_per_kg_h2(e["heat_kwh_per_kg_h2"], e["heat_boiler_efficiency"]), "boiler for electrolyser heat")
+        burn_natural_gas(
+            plant,
+            inputs,
+            electrolysis.heat_gas_gj_per_kg_h2(e["heat_kwh_per_kg_h2"], e["heat_boiler_efficiency"]),
+            "boiler for electrolyser heat",
+        )
     return [plant]
 
 
@@ -90,21 +106,39 @@ def check_limits(params: dict, inputs, source: str) -> None:
     .. [2] Chase (1998), NIST-JANAF Thermochemical Tables: Gibbs energy of formation of water.
     """
     e = params["electrolysis"]
-    floor = electrolysis.energy_floor_kwh_per_kg_h2(e["technology"], inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"))
+    floor = electrolysis.energy_floor_kwh_per_kg_h2(
+        e["technology"],
+        inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"),
+        inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"),
+    )
     energy = e["electricity_kwh_per_kg_h2"] + e["heat_kwh_per_kg_h2"]
     if energy < floor:
         basis = "lower" if e["technology"] == "solid_oxide" else "higher"
-        raise InputError(source, "electrolysis.electricity_kwh_per_kg_h2", f"electricity plus heat of at least {floor:.2f} kWh/kg H2 (the {basis} heating value of hydrogen), got {energy:g}")
+        raise InputError(
+            source,
+            "electrolysis.electricity_kwh_per_kg_h2",
+            f"electricity plus heat of at least {floor:.2f} kWh/kg H2 "
+            f"(the {basis} heating value of hydrogen), got {energy:g}",
+        )
     steam = e["technology"] == "solid_oxide"
     gibbs = water_splitting_gibbs(e["operating_temperature_c"] + 273.15 if steam else 298.15, steam)
     least_electricity = electrolysis.gibbs_floor_kwh_per_kg_h2(gibbs.value * 1000.0, inputs.molar_mass("H2"))
     if e["electricity_kwh_per_kg_h2"] < least_electricity:
         where = f"steam at {e['operating_temperature_c']:g} °C" if steam else "liquid water at 25 °C"
-        raise InputError(source, "electrolysis.electricity_kwh_per_kg_h2", f"at least {least_electricity:.2f} kWh/kg H2 of electricity (Gibbs energy of water splitting, {where}; heat can supply only the T dS share), got {e['electricity_kwh_per_kg_h2']:g}")
+        raise InputError(
+            source,
+            "electrolysis.electricity_kwh_per_kg_h2",
+            f"at least {least_electricity:.2f} kWh/kg H2 of electricity (Gibbs energy of water splitting, "
+            f"{where}; heat can supply only the T dS share), got {e['electricity_kwh_per_kg_h2']:g}",
+        )
     water = e["water_litres_per_kg_h2"]
     least_water = electrolysis.stoichiometric_water_kg_per_kg_h2(inputs.molar_mass("H2O"), inputs.molar_mass("H2"))
     if 0 < water < least_water:
-        raise InputError(source, "electrolysis.water_litres_per_kg_h2", f"0 (not counted) or at least {least_water:.2f} L/kg H2 (stoichiometric water), got {water:g}")
+        raise InputError(
+            source,
+            "electrolysis.water_litres_per_kg_h2",
+            f"0 (not counted) or at least {least_water:.2f} L/kg H2 (stoichiometric water), got {water:g}",
+        )
 
 
 def draw_limits(params: dict, inputs) -> list:
@@ -127,12 +161,24 @@ def draw_limits(params: dict, inputs) -> list:
         bool array over the draws.
     """
     e = params["electrolysis"]
-    floor = electrolysis.energy_floor_kwh_per_kg_h2(e["technology"], inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"))
+    floor = electrolysis.energy_floor_kwh_per_kg_h2(
+        e["technology"],
+        inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"),
+        inputs.factor("heating_value.hydrogen.hhv", "MJ/kg"),
+    )
     least_water = electrolysis.stoichiometric_water_kg_per_kg_h2(inputs.molar_mass("H2O"), inputs.molar_mass("H2"))
     water = e["water_litres_per_kg_h2"]
     return [
-        ("electrolysis.electricity_kwh_per_kg_h2", "electricity plus heat of at least the heating value of hydrogen", e["electricity_kwh_per_kg_h2"] + e["heat_kwh_per_kg_h2"] >= floor),
-        ("electrolysis.water_litres_per_kg_h2", "0 (not counted) or at least stoichiometric water", (water == 0) | (water >= least_water)),
+        (
+            "electrolysis.electricity_kwh_per_kg_h2",
+            "electricity plus heat of at least the heating value of hydrogen",
+            e["electricity_kwh_per_kg_h2"] + e["heat_kwh_per_kg_h2"] >= floor,
+        ),
+        (
+            "electrolysis.water_litres_per_kg_h2",
+            "0 (not counted) or at least stoichiometric water",
+            (water == 0) | (water >= least_water),
+        ),
     ]
 
 
@@ -152,7 +198,10 @@ def metered(params: dict) -> dict[str, list[str]]:
         operation in a period scales.
     """
     e = params["electrolysis"]
-    paths = {"natural_gas": [], "electricity": ["electrolysis.electricity_kwh_per_kg_h2", "electrolysis.water_treatment_kwh_per_m3"]}
+    paths = {
+        "natural_gas": [],
+        "electricity": ["electrolysis.electricity_kwh_per_kg_h2", "electrolysis.water_treatment_kwh_per_m3"],
+    }
     if e["heat_source"] in ("natural_gas", "electricity"):
         paths[e["heat_source"]].append("electrolysis.heat_kwh_per_kg_h2")
     return paths
@@ -210,7 +259,8 @@ def starter(product: str) -> str:
     str
         TOML text of the sections, with example numbers for ``carbonledger init`` to mark as placeholders.
     """
-    return """
+    return (
+        """
 [electrolysis]
 technology = "pem"                   # alkaline | pem | solid_oxide
 electricity_kwh_per_kg_h2 = 54.0     # system electricity; at least the physical floor
@@ -219,7 +269,10 @@ heat_kwh_per_kg_h2 = 0.0
 heat_source = "recovered"            # recovered | natural_gas | electricity
 water_litres_per_kg_h2 = 0.0         # 0: water treatment not counted
 water_treatment_kwh_per_m3 = 0.0
-""" + electricity_starter(product) + (ammonia_starter(product) if product == "ammonia" else "")
+"""
+        + electricity_starter(product)
+        + (ammonia_starter(product) if product == "ammonia" else "")
+    )
 
 
 ROUTE = Route(

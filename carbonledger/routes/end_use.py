@@ -17,10 +17,16 @@ from .marine_fuels import burn_ammonia, burn_marine_fuel, fuel_factors, marine_f
 
 class EndUse(Section):
     converter: Literal["engine", "turbine"] = P(description="Where the delivered ammonia is burnt")
-    n2o_g_per_kg_ammonia: float = P(unit="g N2O/kg NH3", description="N2O formed in combustion (engine or turbine data)", ge=0)
-    ammonia_slip_g_per_kg_ammonia: float = P(unit="g NH3/kg NH3", description="Ammonia passing unburnt (reported, not a GHG)", ge=0)
+    n2o_g_per_kg_ammonia: float = P(
+        unit="g N2O/kg NH3", description="N2O formed in combustion (engine or turbine data)", ge=0
+    )
+    ammonia_slip_g_per_kg_ammonia: float = P(
+        unit="g NH3/kg NH3", description="Ammonia passing unburnt (reported, not a GHG)", ge=0
+    )
     pilot_fuel: str = P("", description="Pilot fuel (a marine fuel of the factor set); empty for none")
-    pilot_fuel_energy_share: float = P(0.0, "fraction of fuel energy", "Share of the fuel energy from the pilot fuel", ge=0, lt=1)
+    pilot_fuel_energy_share: float = P(
+        0.0, "fraction of fuel energy", "Share of the fuel energy from the pilot fuel", ge=0, lt=1
+    )
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
@@ -59,7 +65,9 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         burn_ammonia(use, 1000.0, u["n2o_g_per_kg_ammonia"], u["ammonia_slip_g_per_kg_ammonia"], u["converter"])
         if u["pilot_fuel"]:
             pilot = fuel_factors(inputs, u["pilot_fuel"], "", "end_use.pilot_fuel")
-            pilot_kg = 1000.0 * end_use.pilot_fuel_kg_per_kg_ammonia(inputs.factor("heating_value.ammonia.lhv", "MJ/kg"), pilot["lhv"], u["pilot_fuel_energy_share"])
+            pilot_kg = 1000.0 * end_use.pilot_fuel_kg_per_kg_ammonia(
+                inputs.factor("heating_value.ammonia.lhv", "MJ/kg"), pilot["lhv"], u["pilot_fuel_energy_share"]
+            )
             burn_marine_fuel(use, "end_use", u["pilot_fuel"], pilot, pilot_kg, "pilot fuel", chain.extra)
     chain.reference = use.key
     return [use]
@@ -90,12 +98,23 @@ def check_limits(params: dict, inputs, source: str) -> None:
         Naming the file, the field and what was expected, for the first limit broken.
     """
     use = params.get("end_use")
-    if params["project"]["boundary"] == "well-to-wake" and use is None and params["project"]["product"] == "ammonia" and not params.get("cracking"):
-        raise InputError(source, "end_use", "an [end_use] section (converter, N2O and ammonia slip) for boundary 'well-to-wake'")
+    if (
+        params["project"]["boundary"] == "well-to-wake"
+        and use is None
+        and params["project"]["product"] == "ammonia"
+        and not params.get("cracking")
+    ):
+        raise InputError(
+            source, "end_use", "an [end_use] section (converter, N2O and ammonia slip) for boundary 'well-to-wake'"
+        )
     if use and use["pilot_fuel"]:
         fuels = marine_fuels(inputs.factor_set)[:-1]
         if use["pilot_fuel"] not in fuels:
-            raise InputError(source, "end_use.pilot_fuel", f"a marine fuel of set '{inputs.factor_set.name}' ({', '.join(fuels)}), got '{use['pilot_fuel']}'")
+            raise InputError(
+                source,
+                "end_use.pilot_fuel",
+                f"a marine fuel of set '{inputs.factor_set.name}' ({', '.join(fuels)}), got '{use['pilot_fuel']}'",
+            )
 
 
 def validate(project) -> None:

@@ -1,7 +1,8 @@
 """Delivery leg: hydrogen compressed into a pipeline and carried to the destination.
 
 Builds ``hydrogen_piped`` (stage ``hydrogen_pipeline``, per kg H2 delivered): hydrogen taken in
-(leaks included), compressor electricity where the hydrogen is (the project's mix, or the destination's after cracking), hydrogen leaked (reported as
+(leaks included), compressor electricity where the hydrogen is (the project's mix, or the destination's after cracking),
+hydrogen leaked (reported as
 hydrogen leakage, never in a scheme value).
 """
 
@@ -16,8 +17,12 @@ from .base import Activity, Route, SectionError
 class HydrogenPipeline(Section):
     destination: str = P("pipeline end", description="Where the pipeline delivers the hydrogen (free text)")
     length_km: float = P(unit="km", description="Pipeline length from the plant to the destination", gt=0, le=20000)
-    compression_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity of the compressors (inlet and boosters), from the project's mix", ge=0)
-    leakage_share_per_100_km: float = P(0.0, "fraction per 100 km", "Share of the hydrogen fed in that leaks per 100 km of pipeline", ge=0, lt=1)
+    compression_kwh_per_kg_h2: float = P(
+        0.0, "kWh/kg H2", "Electricity of the compressors (inlet and boosters), from the project's mix", ge=0
+    )
+    leakage_share_per_100_km: float = P(
+        0.0, "fraction per 100 km", "Share of the hydrogen fed in that leaks per 100 km of pipeline", ge=0, lt=1
+    )
 
 
 def loss_share(leg: dict):
@@ -60,7 +65,12 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     leg = params["hydrogen_pipeline"]
     lost = loss_share(leg)
     pipe = Activity("hydrogen_piped", "hydrogen_pipeline", f"hydrogen, piped to {leg['destination']}", "kg H2")
-    pipe.consume(chain.reference, hydrogen_delivery.intake_per_unit_delivered(lost), "hydrogen fed into the pipeline (leaks included)", "kg H2")
+    pipe.consume(
+        chain.reference,
+        hydrogen_delivery.intake_per_unit_delivered(lost),
+        "hydrogen fed into the pipeline (leaks included)",
+        "kg H2",
+    )
     pipe.consume(chain.electricity, leg["compression_kwh_per_kg_h2"], "electricity, compression", "kWh")
     pipe.emit("h2", hydrogen_delivery.lost_per_unit_delivered(lost), "hydrogen leaked from the pipeline")
     chain.reference, chain.place = pipe.key, f"at {leg['destination']}"
@@ -94,7 +104,11 @@ def check_limits(params: dict, inputs, source: str) -> None:
     """
     lost = loss_share(params["hydrogen_pipeline"])
     if not lost < 1.0:
-        raise InputError(source, "hydrogen_pipeline.leakage_share_per_100_km", f"leaks that leave hydrogen to deliver (the whole pipeline loses {lost:.0%})")
+        raise InputError(
+            source,
+            "hydrogen_pipeline.leakage_share_per_100_km",
+            f"leaks that leave hydrogen to deliver (the whole pipeline loses {lost:.0%})",
+        )
 
 
 def validate(project) -> None:
@@ -116,14 +130,19 @@ def validate(project) -> None:
         Naming the field and what was expected.
     """
     if project.hydrogen_pipeline is not None and project.project.product == "ammonia" and project.cracking is None:
-        raise SectionError("hydrogen_pipeline", "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])")
+        raise SectionError(
+            "hydrogen_pipeline",
+            "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])",
+        )
 
 
 ROUTE = Route(
     name="hydrogen_pipeline",
     kind="delivery_leg",
     stages=("hydrogen_pipeline",),
-    applies=lambda params: params.get("hydrogen_pipeline") is not None and params["project"]["boundary"] != "cradle-to-gate",
+    applies=lambda params: (
+        params.get("hydrogen_pipeline") is not None and params["project"]["boundary"] != "cradle-to-gate"
+    ),
     build=build,
     optional_sections={"hydrogen_pipeline": HydrogenPipeline},
     validate=validate,

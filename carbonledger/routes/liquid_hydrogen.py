@@ -1,6 +1,7 @@
 """Delivery leg: hydrogen liquefied and carried as a liquid by ship or truck.
 
-Builds ``hydrogen_liquefied`` (stage ``liquefaction``: electricity where the hydrogen is, the project's mix or the destination's after cracking) and
+Builds ``hydrogen_liquefied`` (stage ``liquefaction``: electricity where the hydrogen is, the project's mix or the
+destination's after cracking) and
 ``liquid_hydrogen_delivered`` (stage ``liquid_hydrogen_carriage``, per kg H2 delivered): cargo
 loaded (boil-off included), the carrier's fuel with its well-to-tank supply, boil-off vented
 (reported as hydrogen leakage, in no scheme value). Boil-off is the heat leaking into the tank
@@ -24,7 +25,11 @@ from .road_fuels import burn_road_fuel, road_fuel_factors, road_fuels
 
 class LiquidHydrogen(Section):
     destination: str = P("liquid hydrogen terminal", description="Where the liquid hydrogen is delivered (free text)")
-    liquefaction_kwh_per_kg_h2: float = P(unit="kWh/kg H2", description="Electricity of the liquefier (cooling, ortho-para conversion), from the project's mix", gt=0)
+    liquefaction_kwh_per_kg_h2: float = P(
+        unit="kWh/kg H2",
+        description="Electricity of the liquefier (cooling, ortho-para conversion), from the project's mix",
+        gt=0,
+    )
     carrier: Literal["truck", "ship"] = P(description="Liquid hydrogen carried by road tanker or by ship")
     cargo_kg_h2: float = P(unit="kg H2 per trip", description="Liquid hydrogen loaded per trip", gt=0)
     transit_hours: float = P(unit="h", description="Hours the cargo spends in the tank, loading to unloading", gt=0)
@@ -53,7 +58,9 @@ def boil_off(leg: dict, inputs):
     ----------
     .. [1] Hydrogen states from CoolProp (Leachman et al., J. Phys. Chem. Ref. Data 38 (2009) 721-748).
     """
-    return hydrogen_delivery.boil_off_share(leg["tank_heat_ingress_kw"], leg["transit_hours"], inputs.latent_heat_hydrogen(), leg["cargo_kg_h2"])
+    return hydrogen_delivery.boil_off_share(
+        leg["tank_heat_ingress_kw"], leg["transit_hours"], inputs.latent_heat_hydrogen(), leg["cargo_kg_h2"]
+    )
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
@@ -82,13 +89,39 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     liquefier.consume(chain.reference, 1.0, "hydrogen gas liquefied", "kg H2")
     liquefier.consume(chain.electricity, leg["liquefaction_kwh_per_kg_h2"], "electricity, liquefaction", "kWh")
     lost = boil_off(leg, inputs)
-    carriage = Activity("liquid_hydrogen_delivered", "liquid_hydrogen_carriage", f"liquid hydrogen, carried by {leg['carrier']} to {leg['destination']}", "kg H2")
-    carriage.consume(liquefier.key, hydrogen_delivery.intake_per_unit_delivered(lost), "liquid hydrogen loaded (boil-off included)", "kg H2")
+    carriage = Activity(
+        "liquid_hydrogen_delivered",
+        "liquid_hydrogen_carriage",
+        f"liquid hydrogen, carried by {leg['carrier']} to {leg['destination']}",
+        "kg H2",
+    )
+    carriage.consume(
+        liquefier.key,
+        hydrogen_delivery.intake_per_unit_delivered(lost),
+        "liquid hydrogen loaded (boil-off included)",
+        "kg H2",
+    )
     fuel_kg = leg["fuel_kg_per_trip"] / (leg["cargo_kg_h2"] * (1.0 - lost))
     if leg["carrier"] == "truck":
-        burn_road_fuel(carriage, "liquid_hydrogen_carriage", leg["fuel"], road_fuel_factors(inputs, leg["fuel"], "liquid_hydrogen.fuel"), fuel_kg, "road tanker", chain.extra)
+        burn_road_fuel(
+            carriage,
+            "liquid_hydrogen_carriage",
+            leg["fuel"],
+            road_fuel_factors(inputs, leg["fuel"], "liquid_hydrogen.fuel"),
+            fuel_kg,
+            "road tanker",
+            chain.extra,
+        )
     else:
-        burn_marine_fuel(carriage, "liquid_hydrogen_carriage", leg["fuel"], fuel_factors(inputs, leg["fuel"], "", "liquid_hydrogen.fuel"), fuel_kg, "ship", chain.extra)
+        burn_marine_fuel(
+            carriage,
+            "liquid_hydrogen_carriage",
+            leg["fuel"],
+            fuel_factors(inputs, leg["fuel"], "", "liquid_hydrogen.fuel"),
+            fuel_kg,
+            "ship",
+            chain.extra,
+        )
     carriage.emit("h2", hydrogen_delivery.lost_per_unit_delivered(lost), "boil-off vented")
     chain.reference, chain.place = carriage.key, f"at {leg['destination']}"
     chain.figures["liquid_hydrogen"] = {"boil_off_share": lost, "latent_heat_kj_per_kg": inputs.latent_heat_hydrogen()}
@@ -144,15 +177,29 @@ def check_limits(params: dict, inputs, source: str) -> None:
     leg = params["liquid_hydrogen"]
     known = road_fuels(inputs.factor_set) if leg["carrier"] == "truck" else marine_fuels(inputs.factor_set)[:-1]
     if leg["fuel"] not in known:
-        raise InputError(source, "liquid_hydrogen.fuel", f"a {'road' if leg['carrier'] == 'truck' else 'marine'} fuel with factors in set '{inputs.factor_set.name}' ({', '.join(known)}), got '{leg['fuel']}'")
+        raise InputError(
+            source,
+            "liquid_hydrogen.fuel",
+            f"a {'road' if leg['carrier'] == 'truck' else 'marine'} fuel with factors in "
+            f"set '{inputs.factor_set.name}' ({', '.join(known)}), got '{leg['fuel']}'",
+        )
     if params["project"]["boundary"] == "cradle-to-gate":
         return
     floor = ideal_liquefaction_work_kwh_per_kg()
     if leg["liquefaction_kwh_per_kg_h2"] < floor:
-        raise InputError(source, "liquid_hydrogen.liquefaction_kwh_per_kg_h2", f"at least {floor:.2f} kWh/kg H2 (the ideal work to liquefy hydrogen from 25 degC, 1 atm), got {leg['liquefaction_kwh_per_kg_h2']:g}")
+        raise InputError(
+            source,
+            "liquid_hydrogen.liquefaction_kwh_per_kg_h2",
+            f"at least {floor:.2f} kWh/kg H2 (the ideal work to liquefy hydrogen "
+            f"from 25 degC, 1 atm), got {leg['liquefaction_kwh_per_kg_h2']:g}",
+        )
     lost = boil_off(leg, inputs)
     if not lost < 1.0:
-        raise InputError(source, "liquid_hydrogen.tank_heat_ingress_kw", f"a heat ingress that leaves cargo to deliver (boil-off {lost:.0%} of the cargo)")
+        raise InputError(
+            source,
+            "liquid_hydrogen.tank_heat_ingress_kw",
+            f"a heat ingress that leaves cargo to deliver (boil-off {lost:.0%} of the cargo)",
+        )
 
 
 def validate(project) -> None:
@@ -174,14 +221,18 @@ def validate(project) -> None:
         Naming the field and what was expected.
     """
     if project.liquid_hydrogen is not None and project.project.product == "ammonia" and project.cracking is None:
-        raise SectionError("liquid_hydrogen", "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])")
+        raise SectionError(
+            "liquid_hydrogen", "hydrogen to carry: product 'hydrogen', or ammonia cracked back to hydrogen ([cracking])"
+        )
 
 
 ROUTE = Route(
     name="liquid_hydrogen",
     kind="delivery_leg",
     stages=("liquefaction", "liquid_hydrogen_carriage"),
-    applies=lambda params: params.get("liquid_hydrogen") is not None and params["project"]["boundary"] != "cradle-to-gate",
+    applies=lambda params: (
+        params.get("liquid_hydrogen") is not None and params["project"]["boundary"] != "cradle-to-gate"
+    ),
     build=build,
     optional_sections={"liquid_hydrogen": LiquidHydrogen},
     validate=validate,

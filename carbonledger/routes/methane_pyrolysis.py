@@ -23,10 +23,20 @@ from .natural_gas import starter as natural_gas_starter
 
 class Pyrolysis(Section):
     natural_gas_gj_per_kg_h2: float = P(unit="GJ (LHV)/kg H2", description="Natural gas as feed and fuel", gt=0)
-    electricity_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity of the reactor (plasma or resistive heating) and the plant", ge=0)
-    carbon_kg_per_kg_h2: float = P(unit="kg C/kg H2", description="Solid carbon leaving the plant per kg of hydrogen", ge=0)
-    carbon_allocation: Literal["none", "mass", "energy", "system_expansion"] = P("none", description="How the burden is shared with the carbon co-product")
-    displaced_product_factor: str = P("", description="Factor id (kg CO2e/kg) of the product the carbon displaces: used by system_expansion, and by a scheme whose rulebook requires it")
+    electricity_kwh_per_kg_h2: float = P(
+        0.0, "kWh/kg H2", "Electricity of the reactor (plasma or resistive heating) and the plant", ge=0
+    )
+    carbon_kg_per_kg_h2: float = P(
+        unit="kg C/kg H2", description="Solid carbon leaving the plant per kg of hydrogen", ge=0
+    )
+    carbon_allocation: Literal["none", "mass", "energy", "system_expansion"] = P(
+        "none", description="How the burden is shared with the carbon co-product"
+    )
+    displaced_product_factor: str = P(
+        "",
+        description="Factor id (kg CO2e/kg) of the product the carbon displaces: used "
+        "by system_expansion, and by a scheme whose rulebook requires it",
+    )
 
 
 def hydrogen_share(params: dict, inputs):
@@ -56,7 +66,9 @@ def hydrogen_share(params: dict, inputs):
         return pyrolysis.hydrogen_share_by_mass(carbon)
     if p["carbon_allocation"] == "energy":
         carbon_lhv = pyrolysis.carbon_lhv_mj_per_kg(inputs.formation_enthalpy_co2(), inputs.molar_mass("C"))
-        return pyrolysis.hydrogen_share_by_energy(carbon, inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), carbon_lhv)
+        return pyrolysis.hydrogen_share_by_energy(
+            carbon, inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), carbon_lhv
+        )
     return 1.0
 
 
@@ -93,13 +105,25 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     plant.consume("natural_gas_supply", gas_gj * share, "natural gas, feed and fuel", "GJ")
     # the reactor's electricity is shared with the carbon; conditioning (purifying and compressing the hydrogen
     # after the split) is the hydrogen's own, as for chlor-alkali by-product hydrogen
-    plant.consume("electricity_mix", p["electricity_kwh_per_kg_h2"] * share + params["hydrogen"]["conditioning_kwh_per_kg_h2"], "electricity, reactor and plant (hydrogen's share) and conditioning", "kWh")
-    direct = pyrolysis.direct_co2_kg_per_kg_h2(gas_gj * combustion_kg_per_gj(inputs, "co2"), p["carbon_kg_per_kg_h2"], inputs.molar_mass("CO2"), inputs.molar_mass("C"))
+    plant.consume(
+        "electricity_mix",
+        p["electricity_kwh_per_kg_h2"] * share + params["hydrogen"]["conditioning_kwh_per_kg_h2"],
+        "electricity, reactor and plant (hydrogen's share) and conditioning",
+        "kWh",
+    )
+    direct = pyrolysis.direct_co2_kg_per_kg_h2(
+        gas_gj * combustion_kg_per_gj(inputs, "co2"),
+        p["carbon_kg_per_kg_h2"],
+        inputs.molar_mass("CO2"),
+        inputs.molar_mass("C"),
+    )
     plant.emit("co2_fossil", direct * share, "CO2 from the gas carbon not kept as solid carbon")
     plant.emit("ch4_fossil", gas_gj * combustion_kg_per_gj(inputs, "ch4") * share, "CH4 from burning gas and off-gas")
     plant.emit("n2o", gas_gj * combustion_kg_per_gj(inputs, "n2o") * share, "N2O from burning gas and off-gas")
     if p["carbon_allocation"] == "system_expansion":
-        credit = p["carbon_kg_per_kg_h2"] * inputs.factor(p["displaced_product_factor"], "kg CO2e/kg", "pyrolysis.displaced_product_factor")
+        credit = p["carbon_kg_per_kg_h2"] * inputs.factor(
+            p["displaced_product_factor"], "kg CO2e/kg", "pyrolysis.displaced_product_factor"
+        )
         plant.emit("co2e_precharacterised", -credit, "credit for the product the carbon displaces (system expansion)")
     chain.figures["co_products"] = {
         "co_product": "solid carbon",
@@ -140,19 +164,34 @@ def check_limits(params: dict, inputs, source: str) -> None:
     """
     p = params["pyrolysis"]
     m_ch4, m_h2, m_c, m_co2 = (inputs.molar_mass(f) for f in ("CH4", "H2", "C", "CO2"))
-    least_gas = pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2) * inputs.factor("heating_value.methane.lhv", "MJ/kg") / 1000.0
+    least_gas = (
+        pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2)
+        * inputs.factor("heating_value.methane.lhv", "MJ/kg")
+        / 1000.0
+    )
     if p["natural_gas_gj_per_kg_h2"] < least_gas:
-        raise InputError(source, "pyrolysis.natural_gas_gj_per_kg_h2", f"at least {least_gas:.4f} GJ/kg H2 (1 mol CH4 per 2 mol H2), got {p['natural_gas_gj_per_kg_h2']:g}")
+        raise InputError(
+            source,
+            "pyrolysis.natural_gas_gj_per_kg_h2",
+            f"at least {least_gas:.4f} GJ/kg H2 (1 mol CH4 per 2 mol H2), got {p['natural_gas_gj_per_kg_h2']:g}",
+        )
     most_carbon = pyrolysis.stoichiometric_carbon_kg_per_kg_h2(m_c, m_h2)
     carbon_in_gas = p["natural_gas_gj_per_kg_h2"] * combustion_kg_per_gj(inputs, "co2") * m_c / m_co2
     limit = min(most_carbon, carbon_in_gas)
     if p["carbon_kg_per_kg_h2"] > limit:
-        raise InputError(source, "pyrolysis.carbon_kg_per_kg_h2", f"at most {limit:.3f} kg C/kg H2 (the carbon the gas brings, and the stoichiometric {most_carbon:.3f}), got {p['carbon_kg_per_kg_h2']:g}")
+        raise InputError(
+            source,
+            "pyrolysis.carbon_kg_per_kg_h2",
+            f"at most {limit:.3f} kg C/kg H2 (the carbon the gas brings, and the "
+            f"stoichiometric {most_carbon:.3f}), got {p['carbon_kg_per_kg_h2']:g}",
+        )
     energy_in, energy_out = _energy_balance(p, inputs)
     if energy_in < energy_out:
         raise InputError(
-            source, "pyrolysis.natural_gas_gj_per_kg_h2",
-            f"gas plus electricity of at least the heating value of the hydrogen and its carbon, {energy_out:.1f} MJ/kg H2 (energy balance, no imported heat), got {energy_in:.1f} MJ",
+            source,
+            "pyrolysis.natural_gas_gj_per_kg_h2",
+            f"gas plus electricity of at least the heating value of the hydrogen and its carbon, {energy_out:.1f} "
+            f"MJ/kg H2 (energy balance, no imported heat), got {energy_in:.1f} MJ",
         )
 
 
@@ -160,7 +199,9 @@ def _energy_balance(p: dict, inputs):
     """(energy bought, heating value of the products), MJ (LHV) per kg H2."""
     energy_in = reforming.energy_in_mj_per_kg_h2(p["natural_gas_gj_per_kg_h2"], p["electricity_kwh_per_kg_h2"])
     carbon_lhv = pyrolysis.carbon_lhv_mj_per_kg(inputs.formation_enthalpy_co2(), inputs.molar_mass("C"))
-    return energy_in, pyrolysis.energy_out_mj_per_kg_h2(inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), p["carbon_kg_per_kg_h2"], carbon_lhv)
+    return energy_in, pyrolysis.energy_out_mj_per_kg_h2(
+        inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"), p["carbon_kg_per_kg_h2"], carbon_lhv
+    )
 
 
 def draw_limits(params: dict, inputs) -> list:
@@ -184,14 +225,30 @@ def draw_limits(params: dict, inputs) -> list:
     """
     p = params["pyrolysis"]
     m_ch4, m_h2, m_c, m_co2 = (inputs.molar_mass(f) for f in ("CH4", "H2", "C", "CO2"))
-    least_gas = pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2) * inputs.factor("heating_value.methane.lhv", "MJ/kg") / 1000.0
+    least_gas = (
+        pyrolysis.stoichiometric_methane_kg_per_kg_h2(m_ch4, m_h2)
+        * inputs.factor("heating_value.methane.lhv", "MJ/kg")
+        / 1000.0
+    )
     carbon_in_gas = p["natural_gas_gj_per_kg_h2"] * combustion_kg_per_gj(inputs, "co2") * m_c / m_co2
     carbon = p["carbon_kg_per_kg_h2"]
     energy_in, energy_out = _energy_balance(p, inputs)
     return [
-        ("pyrolysis.natural_gas_gj_per_kg_h2", "at least the stoichiometric floor (1 mol CH4 per 2 mol H2)", p["natural_gas_gj_per_kg_h2"] >= least_gas),
-        ("pyrolysis.carbon_kg_per_kg_h2", "at most the carbon the gas brings and the stoichiometric carbon", (carbon <= pyrolysis.stoichiometric_carbon_kg_per_kg_h2(m_c, m_h2)) & (carbon <= carbon_in_gas)),
-        ("pyrolysis.natural_gas_gj_per_kg_h2", "gas plus electricity of at least the heating value of the hydrogen and its carbon (energy balance)", energy_in >= energy_out),
+        (
+            "pyrolysis.natural_gas_gj_per_kg_h2",
+            "at least the stoichiometric floor (1 mol CH4 per 2 mol H2)",
+            p["natural_gas_gj_per_kg_h2"] >= least_gas,
+        ),
+        (
+            "pyrolysis.carbon_kg_per_kg_h2",
+            "at most the carbon the gas brings and the stoichiometric carbon",
+            (carbon <= pyrolysis.stoichiometric_carbon_kg_per_kg_h2(m_c, m_h2)) & (carbon <= carbon_in_gas),
+        ),
+        (
+            "pyrolysis.natural_gas_gj_per_kg_h2",
+            "gas plus electricity of at least the heating value of the hydrogen and its carbon (energy balance)",
+            energy_in >= energy_out,
+        ),
     ]
 
 
@@ -215,7 +272,10 @@ def validate(project) -> None:
     """
     p = project.pyrolysis
     if p.carbon_allocation == "system_expansion" and not p.displaced_product_factor:
-        raise SectionError("pyrolysis.displaced_product_factor", "a factor id (kg CO2e/kg) of the product the carbon displaces, for carbon_allocation 'system_expansion'")
+        raise SectionError(
+            "pyrolysis.displaced_product_factor",
+            "a factor id (kg CO2e/kg) of the product the carbon displaces, for carbon_allocation 'system_expansion'",
+        )
 
 
 def metered(params: dict) -> dict[str, list[str]]:
@@ -233,7 +293,10 @@ def metered(params: dict) -> dict[str, list[str]]:
         ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
         operation in a period scales.
     """
-    return {"natural_gas": ["pyrolysis.natural_gas_gj_per_kg_h2"], "electricity": ["pyrolysis.electricity_kwh_per_kg_h2"]}
+    return {
+        "natural_gas": ["pyrolysis.natural_gas_gj_per_kg_h2"],
+        "electricity": ["pyrolysis.electricity_kwh_per_kg_h2"],
+    }
 
 
 def starter(product: str) -> str:
@@ -279,7 +342,10 @@ ROUTE = Route(
         methods=("none", "mass", "energy", "system_expansion"),
         carries_energy=True,  # carbon has a heating value (graphite burnt to CO2)
         rigid=True,  # CH4 -> C + 2 H2: the carbon per kg H2 follows the methane split
-        missing=lambda params, method: "pyrolysis.displaced_product_factor (the product the carbon displaces)"
-        if method == "system_expansion" and not params["pyrolysis"]["displaced_product_factor"] else "",
+        missing=lambda params, method: (
+            "pyrolysis.displaced_product_factor (the product the carbon displaces)"
+            if method == "system_expansion" and not params["pyrolysis"]["displaced_product_factor"]
+            else ""
+        ),
     ),
 )

@@ -14,9 +14,16 @@ from .base import Activity, Route
 
 
 class NaturalGas(Section):
-    methane_emission_share: float = P(unit="fraction", description="Methane emitted upstream (production, processing, transmission), as a share on the basis of methane_emission_basis", ge=0, lt=1)
+    methane_emission_share: float = P(
+        unit="fraction",
+        description="Methane emitted upstream (production, processing, transmission), "
+        "as a share on the basis of methane_emission_basis",
+        ge=0,
+        lt=1,
+    )
     methane_emission_basis: Literal[natural_gas.METHANE_EMISSION_BASES] = P(
-        description="What the share is of: methane_delivered | methane_produced (a published methane intensity of production) | gas_delivered_by_mass"
+        description="What the share is of: methane_delivered | methane_produced (a published "
+        "methane intensity of production) | gas_delivered_by_mass"
     )
     upstream_co2_factor: str = P("natural_gas.upstream_co2", description="Factor id of upstream CO2 (non-methane)")
 
@@ -56,7 +63,11 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         inputs.factor("natural_gas.methane_mass_fraction", "kg CH4/kg"),
     )
     activity.emit("ch4_fossil", leak, "methane lost upstream")
-    activity.emit("co2_fossil", inputs.factor(gas["upstream_co2_factor"], "kg CO2/GJ", "natural_gas.upstream_co2_factor"), "upstream CO2 (processing, compression, flaring)")
+    activity.emit(
+        "co2_fossil",
+        inputs.factor(gas["upstream_co2_factor"], "kg CO2/GJ", "natural_gas.upstream_co2_factor"),
+        "upstream CO2 (processing, compression, flaring)",
+    )
     return [activity]
 
 

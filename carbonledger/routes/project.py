@@ -32,12 +32,16 @@ Hydrogen = create_model(
     "Hydrogen",
     __base__=Section,
     route=(Literal[tuple(HYDROGEN_ROUTES)], P(description="Hydrogen production route")),
-    conditioning_kwh_per_kg_h2=(float, P(0.0, "kWh/kg H2", "Compression and purification to the delivery specification", ge=0)),
+    conditioning_kwh_per_kg_h2=(
+        float,
+        P(0.0, "kWh/kg H2", "Compression and purification to the delivery specification", ge=0),
+    ),
 )
 
 
 class _ProjectRules(Section):
-    """Rules across sections: the chosen route's sections present, other routes' absent, then each module's own rules."""
+    """Rules across sections: the chosen route's sections present, other routes' absent, then each module's
+    own rules."""
 
     @model_validator(mode="after")
     def _sections_fit_the_routes(self):
@@ -54,25 +58,43 @@ class _ProjectRules(Section):
             if module.kind != "hydrogen_route" or module is route:
                 module.validate(self)
         self._lifetime_fits()
-        if self.natural_gas is None and any(module.uses_natural_gas(self) for module in REGISTRY if module.kind != "hydrogen_route" or module is route):
-            raise SectionError("natural_gas", "a [natural_gas] section with methane_emission_share and methane_emission_basis, since the project burns natural gas")
+        if self.natural_gas is None and any(
+            module.uses_natural_gas(self) for module in REGISTRY if module.kind != "hydrogen_route" or module is route
+        ):
+            raise SectionError(
+                "natural_gas",
+                "a [natural_gas] section with methane_emission_share and methane_emission_basis, "
+                "since the project burns natural gas",
+            )
         return self
 
     def _lifetime_fits(self) -> None:
         life = self.lifetime
         if life is None:
             return
-        if (life.grid_trajectory_csv or life.grid_trajectory_factors) and life.grid_source not in self.electricity.sources:
-            raise SectionError("lifetime.grid_source", f"the name of an electricity source ({', '.join(self.electricity.sources)}), got '{life.grid_source}'")
+        if (
+            life.grid_trajectory_csv or life.grid_trajectory_factors
+        ) and life.grid_source not in self.electricity.sources:
+            raise SectionError(
+                "lifetime.grid_source",
+                f"the name of an electricity source ({', '.join(self.electricity.sources)}), got '{life.grid_source}'",
+            )
         if bool(life.renewables_mw) != bool(life.renewables_construction_factor):
-            raise SectionError("lifetime.renewables_mw", "renewables_mw and renewables_construction_factor given together")
+            raise SectionError(
+                "lifetime.renewables_mw", "renewables_mw and renewables_construction_factor given together"
+            )
         oldest = (life.stack_replacement_years or life.operating_years) - 1
         if life.efficiency_loss_per_year * oldest >= 1:
-            raise SectionError("lifetime.efficiency_loss_per_year", f"a loss that leaves some efficiency at a stack age of {oldest} years")
+            raise SectionError(
+                "lifetime.efficiency_loss_per_year",
+                f"a loss that leaves some efficiency at a stack age of {oldest} years",
+            )
 
     def uses_natural_gas(self) -> bool:
         route = HYDROGEN_ROUTES[self.hydrogen.route]
-        return any(module.uses_natural_gas(self) for module in REGISTRY if module.kind != "hydrogen_route" or module is route)
+        return any(
+            module.uses_natural_gas(self) for module in REGISTRY if module.kind != "hydrogen_route" or module is route
+        )
 
 
 _route_sections = {name: (Optional[model], None) for name, model in owned_sections().items() if name != "electricity"}
@@ -134,5 +156,6 @@ def load_project(path: str | Path, overrides: list[str] | None = None):
     data, raw = read_project_file(path)
     data.pop("uncertainty", None)  # distributions of inputs: read by the uncertainty analysis, not part of the model
     parsed = [parse_override(text) for text in overrides or []]
-    data = apply_overrides(data, parsed, str(path)) if parsed else data  # freshly read: no copy needed without overrides
+    # freshly read: no copy needed without overrides
+    data = apply_overrides(data, parsed, str(path)) if parsed else data
     return validate_project(data, str(path)), hashlib.sha256(raw).hexdigest()

@@ -20,17 +20,36 @@ from .natural_gas import starter as natural_gas_starter
 
 class Reforming(Section):
     natural_gas_gj_per_kg_h2: float = P(unit="GJ (LHV)/kg H2", description="Natural gas as feed and fuel", gt=0)
-    electricity_kwh_per_kg_h2: float = P(0.0, "kWh/kg H2", "Electricity bought by the hydrogen plant (oxygen plant included for ATR)", ge=0)
-    process_co2_share: float = P(unit="fraction", description="Share of the direct CO2 that is concentrated process CO2 (the rest is dilute flue CO2)", ge=0, le=1)
+    electricity_kwh_per_kg_h2: float = P(
+        0.0, "kWh/kg H2", "Electricity bought by the hydrogen plant (oxygen plant included for ATR)", ge=0
+    )
+    process_co2_share: float = P(
+        unit="fraction",
+        description="Share of the direct CO2 that is concentrated process CO2 (the rest is dilute flue CO2)",
+        ge=0,
+        le=1,
+    )
 
 
 class Capture(Section):
-    capture_rate: float = P(unit="fraction", description="Fraction of the CO2 in the captured streams that is captured", ge=0, le=1)
+    capture_rate: float = P(
+        unit="fraction", description="Fraction of the CO2 in the captured streams that is captured", ge=0, le=1
+    )
     applies_to: Literal["process", "process_and_flue"] = P(description="CO2 streams the capture rate applies to")
-    compression_kwh_per_t_co2: float = P(unit="kWh/t CO2", description="Electricity to capture, dry and compress the CO2", ge=0)
-    extra_natural_gas_gj_per_t_co2: float = P(0.0, "GJ (LHV)/t CO2", "Natural gas burnt for capture (solvent regeneration)", ge=0)
-    transport_storage_loss_fraction: float = P(unit="fraction", description="Share of the captured CO2 lost in transport and storage", ge=0, le=1)
-    claims_45q: Optional[bool] = P(None, description="Whether a 26 U.S.C. 45Q credit is allowed for this capture equipment for the year or an earlier year (45V(d)(2) then denies 45V)")
+    compression_kwh_per_t_co2: float = P(
+        unit="kWh/t CO2", description="Electricity to capture, dry and compress the CO2", ge=0
+    )
+    extra_natural_gas_gj_per_t_co2: float = P(
+        0.0, "GJ (LHV)/t CO2", "Natural gas burnt for capture (solvent regeneration)", ge=0
+    )
+    transport_storage_loss_fraction: float = P(
+        unit="fraction", description="Share of the captured CO2 lost in transport and storage", ge=0, le=1
+    )
+    claims_45q: Optional[bool] = P(
+        None,
+        description="Whether a 26 U.S.C. 45Q credit is allowed for this capture equipment "
+        "for the year or an earlier year (45V(d)(2) then denies 45V)",
+    )
 
 
 def build(params: dict, inputs, chain) -> list[Activity]:
@@ -66,7 +85,12 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     fuel_gj = reforming.fuel_gas_gj_per_kg_h2(gas_gj, ref["process_co2_share"])
     plant.emit("ch4_fossil", fuel_gj * combustion_kg_per_gj(inputs, "ch4"), "CH4 from burning the fuel gas")
     plant.emit("n2o", fuel_gj * combustion_kg_per_gj(inputs, "n2o"), "N2O from burning the fuel gas")
-    plant.consume("electricity_mix", ref["electricity_kwh_per_kg_h2"] + params["hydrogen"]["conditioning_kwh_per_kg_h2"], "electricity, plant and conditioning", "kWh")
+    plant.consume(
+        "electricity_mix",
+        ref["electricity_kwh_per_kg_h2"] + params["hydrogen"]["conditioning_kwh_per_kg_h2"],
+        "electricity, plant and conditioning",
+        "kWh",
+    )
     direct = reforming.direct_co2_kg_per_kg_h2(gas_gj, combustion_kg_per_gj(inputs, "co2"))
     process = reforming.process_co2_kg_per_kg_h2(direct, ref["process_co2_share"])
     flue = reforming.flue_co2_kg_per_kg_h2(direct, ref["process_co2_share"])
@@ -79,7 +103,12 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     plant.consume("co2_capture", captured, "CO2 captured", "kg CO2")
 
     unit = Activity("co2_capture", "co2_capture_and_storage", "CO2 capture and compression", "kg CO2")
-    unit.consume("electricity_mix", capture.compression_electricity_kwh_per_kg_co2(cap["compression_kwh_per_t_co2"]), "electricity, capture and compression", "kWh")
+    unit.consume(
+        "electricity_mix",
+        capture.compression_electricity_kwh_per_kg_co2(cap["compression_kwh_per_t_co2"]),
+        "electricity, capture and compression",
+        "kWh",
+    )
     extra_gj = capture.capture_gas_gj_per_kg_co2(cap["extra_natural_gas_gj_per_t_co2"])
     extra_co2 = extra_gj * combustion_kg_per_gj(inputs, "co2")
     extra_captured = extra_co2 * capture.captured_flue_share(cap["capture_rate"], cap["applies_to"])
@@ -90,7 +119,11 @@ def build(params: dict, inputs, chain) -> list[Activity]:
     unit.consume("co2_transport_storage", 1.0 + extra_captured, "CO2 sent to transport and storage", "kg CO2")
 
     storage = Activity("co2_transport_storage", "co2_capture_and_storage", "CO2 transport and storage", "kg CO2")
-    storage.emit("co2_fossil", capture.transport_storage_leak_kg_per_kg_co2(cap["transport_storage_loss_fraction"]), "CO2 lost in transport and storage")
+    storage.emit(
+        "co2_fossil",
+        capture.transport_storage_leak_kg_per_kg_co2(cap["transport_storage_loss_fraction"]),
+        "CO2 lost in transport and storage",
+    )
     return [plant, unit, storage]
 
 
@@ -123,9 +156,13 @@ def refuse_below_the_methane_floor(gas_gj_per_kg_h2: float, inputs, source: str,
     ----------
     .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
     """
-    floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
+    floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(
+        inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg")
+    )
     if gas_gj_per_kg_h2 < floor:
-        raise InputError(source, field, f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas_gj_per_kg_h2:g}")
+        raise InputError(
+            source, field, f"at least {floor:.4f} GJ/kg H2 (1 mol CH4 per 4 mol H2), got {gas_gj_per_kg_h2:g}"
+        )
 
 
 def check_limits(params: dict, inputs, source: str) -> None:
@@ -159,7 +196,9 @@ def check_limits(params: dict, inputs, source: str) -> None:
     """
     gas = params["reforming"]["natural_gas_gj_per_kg_h2"]
     refuse_below_the_methane_floor(gas, inputs, source, "reforming.natural_gas_gj_per_kg_h2")
-    refuse_below_the_energy_balance(gas, params["reforming"]["electricity_kwh_per_kg_h2"], inputs, source, "reforming.natural_gas_gj_per_kg_h2")
+    refuse_below_the_energy_balance(
+        gas, params["reforming"]["electricity_kwh_per_kg_h2"], inputs, source, "reforming.natural_gas_gj_per_kg_h2"
+    )
 
 
 def draw_limits(params: dict, inputs) -> list:
@@ -182,7 +221,9 @@ def draw_limits(params: dict, inputs) -> list:
         bool array over the draws.
     """
     ref = params["reforming"]
-    return methane_feed_draw_limits("reforming", ref["natural_gas_gj_per_kg_h2"], ref["electricity_kwh_per_kg_h2"], inputs)
+    return methane_feed_draw_limits(
+        "reforming", ref["natural_gas_gj_per_kg_h2"], ref["electricity_kwh_per_kg_h2"], inputs
+    )
 
 
 def methane_feed_draw_limits(section: str, gas_gj_per_kg_h2, electricity_kwh_per_kg_h2, inputs) -> list:
@@ -211,16 +252,24 @@ def methane_feed_draw_limits(section: str, gas_gj_per_kg_h2, electricity_kwh_per
     .. [1] Stoichiometry CH4 + 2 H2O -> CO2 + 4 H2: at most 4 mol H2 per mol CH4 (common practice).
     .. [2] US DOE HyARC, Lower and Higher Heating Values of Fuels (hydrogen LHV).
     """
-    floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg"))
+    floor = reforming.stoichiometric_gas_floor_gj_per_kg_h2(
+        inputs.molar_mass("CH4"), inputs.molar_mass("H2"), inputs.factor("heating_value.methane.lhv", "MJ/kg")
+    )
     energy_in = reforming.energy_in_mj_per_kg_h2(gas_gj_per_kg_h2, electricity_kwh_per_kg_h2)
     field = f"{section}.{'biomethane' if section == 'biomethane_reforming' else 'natural_gas'}_gj_per_kg_h2"
     return [
         (field, "at least the stoichiometric floor (1 mol CH4 per 4 mol H2)", gas_gj_per_kg_h2 >= floor),
-        (field, "gas plus electricity of at least the hydrogen's lower heating value (energy balance)", energy_in >= inputs.factor("heating_value.hydrogen.lhv", "MJ/kg")),
+        (
+            field,
+            "gas plus electricity of at least the hydrogen's lower heating value (energy balance)",
+            energy_in >= inputs.factor("heating_value.hydrogen.lhv", "MJ/kg"),
+        ),
     ]
 
 
-def refuse_below_the_energy_balance(gas_gj_per_kg_h2: float, electricity_kwh_per_kg_h2: float, inputs, source: str, field: str) -> None:
+def refuse_below_the_energy_balance(
+    gas_gj_per_kg_h2: float, electricity_kwh_per_kg_h2: float, inputs, source: str, field: str
+) -> None:
     """Gas plus electricity bought at least the hydrogen's lower heating value (first law, no imported heat).
 
     Parameters
@@ -255,7 +304,13 @@ def refuse_below_the_energy_balance(gas_gj_per_kg_h2: float, electricity_kwh_per
     energy_in = reforming.energy_in_mj_per_kg_h2(gas_gj_per_kg_h2, electricity_kwh_per_kg_h2)
     if energy_in < hydrogen_lhv:
         least = (hydrogen_lhv - energy_in) / 1000.0 + gas_gj_per_kg_h2
-        raise InputError(source, field, f"gas plus electricity of at least the hydrogen's lower heating value, {hydrogen_lhv:g} MJ/kg (energy balance, no imported heat): at least {least:.4f} GJ/kg H2 with this electricity, got {gas_gj_per_kg_h2:g}")
+        raise InputError(
+            source,
+            field,
+            f"gas plus electricity of at least the hydrogen's lower heating value, {hydrogen_lhv:g} MJ/kg (energy "
+            f"balance, no imported heat): at least {least:.4f} GJ/kg "
+            f"H2 with this electricity, got {gas_gj_per_kg_h2:g}",
+        )
 
 
 def metered(params: dict) -> dict[str, list[str]]:
@@ -273,7 +328,10 @@ def metered(params: dict) -> dict[str, list[str]]:
         ``natural_gas`` and ``electricity`` -> the parameter paths (``section.field``) that metered
         operation in a period scales.
     """
-    paths = {"natural_gas": ["reforming.natural_gas_gj_per_kg_h2"], "electricity": ["reforming.electricity_kwh_per_kg_h2"]}
+    paths = {
+        "natural_gas": ["reforming.natural_gas_gj_per_kg_h2"],
+        "electricity": ["reforming.electricity_kwh_per_kg_h2"],
+    }
     if params.get("capture") is not None:
         paths["electricity"].append("capture.compression_kwh_per_t_co2")
     return paths
@@ -311,7 +369,8 @@ applies_to = "{applies_to}"     # process | process_and_flue
 compression_kwh_per_t_co2 = 110
 extra_natural_gas_gj_per_t_co2 = {0.0 if atr else 1.0}   # gas burnt for solvent regeneration, if any
 transport_storage_loss_fraction = 0.02
-# claims_45q = false             # true if a 26 U.S.C. 45Q credit is allowed for this capture equipment (45V then denies its credit)
+# claims_45q = false             \
+# true if a 26 U.S.C. 45Q credit is allowed for this capture equipment (45V then denies its credit)
 """
         out += natural_gas_starter(product) + electricity_starter(product, grid=True)
         if product == "ammonia":

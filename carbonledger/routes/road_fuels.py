@@ -57,7 +57,9 @@ def road_fuel_factors(inputs, fuel: str, where: str, namespace: str = "road_fuel
     } | {"lhv": lhv, "well_to_tank": inputs.factor(f"{namespace}.{fuel}.well_to_tank", "g CO2e/MJ", where)}
 
 
-def burn_road_fuel(activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]) -> None:
+def burn_road_fuel(
+    activity: Activity, stage: str, fuel: str, factors: dict, fuel_kg, label: str, extra: list[Activity]
+) -> None:
     """Fuel bought (its well-to-tank supply activity, shared in ``extra``) and burnt in an engine.
 
     Parameters

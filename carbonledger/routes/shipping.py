@@ -25,24 +25,53 @@ from .marine_fuels import (
 
 class Shipping(Section):
     destination: str = P("destination port", description="Port where the ammonia is delivered (free text)")
-    distance_nautical_miles: float = P(unit="nautical miles", description="Laden leg, loading port to destination", gt=0)
+    distance_nautical_miles: float = P(
+        unit="nautical miles", description="Laden leg, loading port to destination", gt=0
+    )
     cargo_t_per_voyage: float = P(unit="t NH3", description="Ammonia loaded per voyage", gt=0)
     speed_knots: float = P(unit="knots", description="Service speed at sea", gt=0)
-    fuel: str = P(description="Main fuel: a marine fuel of the factor set (heavy_fuel_oil, very_low_sulphur_fuel_oil, marine_gas_oil, lng) or ammonia")
-    engine: str = P("", description="LNG only: engine type, for its methane slip (otto_dual_fuel_medium_speed, otto_dual_fuel_slow_speed, diesel_dual_fuel_slow_speed, lean_burn_spark_ignited)")
-    fuel_t_per_day_at_sea: float = P(0.0, "t fuel/day", "Main fuel per day at sea, laden (give this or fuel_g_per_tonne_nautical_mile)", ge=0)
-    fuel_g_per_tonne_nautical_mile: float = P(0.0, "g fuel/(t cargo x nautical mile)", "Main fuel per tonne of cargo per nautical mile, laden leg", ge=0)
-    ballast_return_fuel_ratio: float = P(unit="fraction of the laden leg's fuel", description="Fuel of the ballast return leg (0: the ship returns with other cargo)", ge=0)
+    fuel: str = P(
+        description="Main fuel: a marine fuel of the factor set (heavy_fuel_oil, "
+        "very_low_sulphur_fuel_oil, marine_gas_oil, lng) or ammonia"
+    )
+    engine: str = P(
+        "",
+        description="LNG only: engine type, for its methane slip (otto_dual_fuel_medium_speed, "
+        "otto_dual_fuel_slow_speed, diesel_dual_fuel_slow_speed, lean_burn_spark_ignited)",
+    )
+    fuel_t_per_day_at_sea: float = P(
+        0.0, "t fuel/day", "Main fuel per day at sea, laden (give this or fuel_g_per_tonne_nautical_mile)", ge=0
+    )
+    fuel_g_per_tonne_nautical_mile: float = P(
+        0.0, "g fuel/(t cargo x nautical mile)", "Main fuel per tonne of cargo per nautical mile, laden leg", ge=0
+    )
+    ballast_return_fuel_ratio: float = P(
+        unit="fraction of the laden leg's fuel",
+        description="Fuel of the ballast return leg (0: the ship returns with other cargo)",
+        ge=0,
+    )
     port_days: float = P(0.0, "days", "Days in port per voyage (loading and unloading)", ge=0)
     port_fuel_t_per_day: float = P(0.0, "t fuel/day", "Main fuel per day in port", ge=0)
-    pilot_fuel: str = P("", description="Pilot fuel of an ammonia or dual-fuel engine (a marine fuel of the factor set); empty for none")
-    pilot_fuel_energy_share: float = P(0.0, "fraction of fuel energy", "Share of the engine's fuel energy from the pilot fuel", ge=0, lt=1)
-    ammonia_n2o_g_per_kg: float = P(0.0, "g N2O/kg NH3 burnt", "N2O from ammonia burnt aboard (ammonia fuel, burnt boil-off)", ge=0)
-    ammonia_slip_g_per_kg: float = P(0.0, "g NH3/kg NH3 burnt", "Ammonia passing the engine unburnt (reported, not a GHG)", ge=0)
+    pilot_fuel: str = P(
+        "", description="Pilot fuel of an ammonia or dual-fuel engine (a marine fuel of the factor set); empty for none"
+    )
+    pilot_fuel_energy_share: float = P(
+        0.0, "fraction of fuel energy", "Share of the engine's fuel energy from the pilot fuel", ge=0, lt=1
+    )
+    ammonia_n2o_g_per_kg: float = P(
+        0.0, "g N2O/kg NH3 burnt", "N2O from ammonia burnt aboard (ammonia fuel, burnt boil-off)", ge=0
+    )
+    ammonia_slip_g_per_kg: float = P(
+        0.0, "g NH3/kg NH3 burnt", "Ammonia passing the engine unburnt (reported, not a GHG)", ge=0
+    )
     tank_heat_ingress_kw: float = P(0.0, "kW", "Heat leaking into the refrigerated cargo tanks while laden", ge=0)
-    boil_off_handling: Literal["reliquefaction", "burnt"] = P("reliquefaction", description="Boil-off reliquefied on board (generator fuel) or burnt (cargo lost)")
+    boil_off_handling: Literal["reliquefaction", "burnt"] = P(
+        "reliquefaction", description="Boil-off reliquefied on board (generator fuel) or burnt (cargo lost)"
+    )
     reliquefaction_kwh_per_kg_boil_off: float = P(0.0, "kWh/kg NH3", "Electricity to reliquefy boil-off", ge=0)
-    generator_fuel_g_per_kwh: float = P(0.0, "g fuel/kWh", "Specific fuel consumption of the generators (main fuel)", ge=0)
+    generator_fuel_g_per_kwh: float = P(
+        0.0, "g fuel/kWh", "Specific fuel consumption of the generators (main fuel)", ge=0
+    )
 
 
 def voyage_figures(ship: dict, inputs) -> dict[str, Any]:
@@ -66,14 +95,26 @@ def voyage_figures(ship: dict, inputs) -> dict[str, Any]:
     .. [1] Latent heat of ammonia at 1 atm: CRC Handbook through the ``chemicals`` library.
     """
     days = shipping.days_at_sea(ship["distance_nautical_miles"], ship["speed_knots"])
-    laden = shipping.laden_leg_fuel_t(ship["fuel_t_per_day_at_sea"], days, ship["fuel_g_per_tonne_nautical_mile"], ship["cargo_t_per_voyage"], ship["distance_nautical_miles"])
-    main = shipping.voyage_fuel_t(laden, ship["ballast_return_fuel_ratio"], ship["port_days"], ship["port_fuel_t_per_day"])
+    laden = shipping.laden_leg_fuel_t(
+        ship["fuel_t_per_day_at_sea"],
+        days,
+        ship["fuel_g_per_tonne_nautical_mile"],
+        ship["cargo_t_per_voyage"],
+        ship["distance_nautical_miles"],
+    )
+    main = shipping.voyage_fuel_t(
+        laden, ship["ballast_return_fuel_ratio"], ship["port_days"], ship["port_fuel_t_per_day"]
+    )
     figures: dict[str, Any] = {"destination": ship["destination"], "days_at_sea_laden": days, "fuel": ship["fuel"]}
     latent = inputs.latent_heat_ammonia()
-    boil_off = shipping.boil_off_t(ship["tank_heat_ingress_kw"], shipping.HOURS_PER_DAY * (days + ship["port_days"]), latent)
+    boil_off = shipping.boil_off_t(
+        ship["tank_heat_ingress_kw"], shipping.HOURS_PER_DAY * (days + ship["port_days"]), latent
+    )
     figures["latent_heat_kj_per_kg"] = latent
     reliquefied = ship["boil_off_handling"] == "reliquefaction"
-    relique_fuel = shipping.reliquefaction_fuel_t(boil_off, ship["reliquefaction_kwh_per_kg_boil_off"], ship["generator_fuel_g_per_kwh"])
+    relique_fuel = shipping.reliquefaction_fuel_t(
+        boil_off, ship["reliquefaction_kwh_per_kg_boil_off"], ship["generator_fuel_g_per_kwh"]
+    )
     main = main + (relique_fuel if reliquefied else 0.0 * relique_fuel)
     lost = 0.0 * boil_off if reliquefied else boil_off
     figures.update(
@@ -120,23 +161,41 @@ def build(params: dict, inputs, chain) -> list[Activity]:
         return shipping.per_tonne_delivered(amount, delivered)
 
     voyage = Activity("ammonia_delivered", "shipping", f"ammonia, shipped to {ship['destination']}", "t NH3")
-    voyage.consume(chain.reference, per_t(ship["cargo_t_per_voyage"]), "ammonia loaded as cargo (boil-off lost included)", "t NH3")
+    voyage.consume(
+        chain.reference, per_t(ship["cargo_t_per_voyage"]), "ammonia loaded as cargo (boil-off lost included)", "t NH3"
+    )
     main_t = figures["main_fuel_t_per_voyage"]
     if ship["fuel"] == AMMONIA_FUEL:
         main_lhv = inputs.factor("heating_value.ammonia.lhv", "MJ/kg")
         voyage.consume(chain.reference, per_t(main_t), "ammonia bunkered as fuel (from the project's plant)", "t NH3")
-        burn_ammonia(voyage, per_t(main_t) * 1000.0, ship["ammonia_n2o_g_per_kg"], ship["ammonia_slip_g_per_kg"], "ship's engines")
+        burn_ammonia(
+            voyage,
+            per_t(main_t) * 1000.0,
+            ship["ammonia_n2o_g_per_kg"],
+            ship["ammonia_slip_g_per_kg"],
+            "ship's engines",
+        )
     else:
         factors = fuel_factors(inputs, ship["fuel"], ship["engine"], "shipping.fuel")
         main_lhv = factors["lhv"]
-        burn_marine_fuel(voyage, "shipping", ship["fuel"], factors, per_t(main_t) * 1000.0, "ship's engines", chain.extra)
+        burn_marine_fuel(
+            voyage, "shipping", ship["fuel"], factors, per_t(main_t) * 1000.0, "ship's engines", chain.extra
+        )
     if ship["pilot_fuel"]:
         pilot = fuel_factors(inputs, ship["pilot_fuel"], "", "shipping.pilot_fuel")
         pilot_t = shipping.pilot_fuel_t(main_t, main_lhv, pilot["lhv"], ship["pilot_fuel_energy_share"])
         figures["pilot_fuel_t_per_voyage"] = pilot_t
-        burn_marine_fuel(voyage, "shipping", ship["pilot_fuel"], pilot, per_t(pilot_t) * 1000.0, "pilot fuel", chain.extra)
+        burn_marine_fuel(
+            voyage, "shipping", ship["pilot_fuel"], pilot, per_t(pilot_t) * 1000.0, "pilot fuel", chain.extra
+        )
     if ship["boil_off_handling"] == "burnt":
-        burn_ammonia(voyage, per_t(figures["boil_off_t_per_voyage"]) * 1000.0, ship["ammonia_n2o_g_per_kg"], ship["ammonia_slip_g_per_kg"], "boil-off burnt")
+        burn_ammonia(
+            voyage,
+            per_t(figures["boil_off_t_per_voyage"]) * 1000.0,
+            ship["ammonia_n2o_g_per_kg"],
+            ship["ammonia_slip_g_per_kg"],
+            "boil-off burnt",
+        )
     chain.reference, chain.place = voyage.key, f"at {ship['destination']}"
     chain.figures["voyage"] = figures
     return [voyage]
@@ -170,18 +229,40 @@ def check_limits(params: dict, inputs, source: str) -> None:
     factor_set = inputs.factor_set
     fuels = marine_fuels(factor_set)
     if ship["fuel"] not in fuels:
-        raise InputError(source, "shipping.fuel", f"a fuel with factors in set '{factor_set.name}' ({', '.join(fuels)}), got '{ship['fuel']}'")
+        raise InputError(
+            source,
+            "shipping.fuel",
+            f"a fuel with factors in set '{factor_set.name}' ({', '.join(fuels)}), got '{ship['fuel']}'",
+        )
     if ship["fuel"] == "lng" and ship["engine"] not in lng_engines(factor_set):
-        raise InputError(source, "shipping.engine", f"an LNG engine type with a methane slip factor ({', '.join(lng_engines(factor_set))}), got '{ship['engine']}'")
+        raise InputError(
+            source,
+            "shipping.engine",
+            f"an LNG engine type with a methane slip factor ({', '.join(lng_engines(factor_set))}), "
+            f"got '{ship['engine']}'",
+        )
     if ship["fuel"] != "lng" and ship["engine"]:
-        raise InputError(source, "shipping.engine", f"no engine type for fuel '{ship['fuel']}' (it only selects the methane slip of LNG)")
+        raise InputError(
+            source,
+            "shipping.engine",
+            f"no engine type for fuel '{ship['fuel']}' (it only selects the methane slip of LNG)",
+        )
     if ship["pilot_fuel"] and ship["pilot_fuel"] not in fuels[:-1]:
-        raise InputError(source, "shipping.pilot_fuel", f"a marine fuel of set '{factor_set.name}' ({', '.join(fuels[:-1])}), got '{ship['pilot_fuel']}'")
+        raise InputError(
+            source,
+            "shipping.pilot_fuel",
+            f"a marine fuel of set '{factor_set.name}' ({', '.join(fuels[:-1])}), got '{ship['pilot_fuel']}'",
+        )
     if params["project"]["boundary"] == "cradle-to-gate":
         return
     figures = voyage_figures(ship, inputs)
     if not figures["cargo_delivered_t_per_voyage"] > 0:
-        raise InputError(source, "shipping.tank_heat_ingress_kw", f"a heat ingress that leaves cargo to deliver (boil-off {figures['boil_off_t_per_voyage']:.0f} t of {ship['cargo_t_per_voyage']:g} t loaded)")
+        raise InputError(
+            source,
+            "shipping.tank_heat_ingress_kw",
+            f"a heat ingress that leaves cargo to deliver (boil-off {figures['boil_off_t_per_voyage']:.0f} "
+            f"t of {ship['cargo_t_per_voyage']:g} t loaded)",
+        )
 
 
 def draw_limits(params: dict, inputs) -> list:
@@ -206,7 +287,13 @@ def draw_limits(params: dict, inputs) -> list:
     if params["project"]["boundary"] == "cradle-to-gate":
         return []
     figures = voyage_figures(params["shipping"], inputs)
-    return [("shipping.tank_heat_ingress_kw", "a heat ingress that leaves cargo to deliver", figures["cargo_delivered_t_per_voyage"] > 0)]
+    return [
+        (
+            "shipping.tank_heat_ingress_kw",
+            "a heat ingress that leaves cargo to deliver",
+            figures["cargo_delivered_t_per_voyage"] > 0,
+        )
+    ]
 
 
 def validate(project) -> None:
@@ -232,15 +319,27 @@ def validate(project) -> None:
     if ship is None:
         return
     if project.project.product != "ammonia":
-        raise SectionError("shipping", "no [shipping] section for product 'hydrogen' (delivery is modelled for ammonia)")
+        raise SectionError(
+            "shipping", "no [shipping] section for product 'hydrogen' (delivery is modelled for ammonia)"
+        )
     if (ship.fuel_t_per_day_at_sea > 0) == (ship.fuel_g_per_tonne_nautical_mile > 0):
-        raise SectionError("shipping.fuel_t_per_day_at_sea", "either fuel_t_per_day_at_sea or fuel_g_per_tonne_nautical_mile above 0, not both")
+        raise SectionError(
+            "shipping.fuel_t_per_day_at_sea",
+            "either fuel_t_per_day_at_sea or fuel_g_per_tonne_nautical_mile above 0, not both",
+        )
     if ship.fuel == "lng" and not ship.engine:
         raise SectionError("shipping.engine", "an engine type for fuel 'lng' (its methane slip depends on it)")
     if bool(ship.pilot_fuel) != (ship.pilot_fuel_energy_share > 0):
         raise SectionError("shipping.pilot_fuel_energy_share", "a share above 0 together with a pilot_fuel, or neither")
-    if ship.tank_heat_ingress_kw > 0 and ship.boil_off_handling == "reliquefaction" and not (ship.reliquefaction_kwh_per_kg_boil_off > 0 and ship.generator_fuel_g_per_kwh > 0):
-        raise SectionError("shipping.reliquefaction_kwh_per_kg_boil_off", "reliquefaction_kwh_per_kg_boil_off and generator_fuel_g_per_kwh above 0 to reliquefy the boil-off")
+    if (
+        ship.tank_heat_ingress_kw > 0
+        and ship.boil_off_handling == "reliquefaction"
+        and not (ship.reliquefaction_kwh_per_kg_boil_off > 0 and ship.generator_fuel_g_per_kwh > 0)
+    ):
+        raise SectionError(
+            "shipping.reliquefaction_kwh_per_kg_boil_off",
+            "reliquefaction_kwh_per_kg_boil_off and generator_fuel_g_per_kwh above 0 to reliquefy the boil-off",
+        )
 
 
 ROUTE = Route(

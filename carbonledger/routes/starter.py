@@ -127,4 +127,8 @@ def placeholders_left(text: str) -> list[int]:
     list of int
         Line numbers, from 1.
     """
-    return [number for number, line in enumerate(text.splitlines(), 1) if _NUMBER_LINE.match(line) and PLACEHOLDER in line.split("=", 1)[1]]
+    return [
+        number
+        for number, line in enumerate(text.splitlines(), 1)
+        if _NUMBER_LINE.match(line) and PLACEHOLDER in line.split("=", 1)[1]
+    ]

@@ -61,7 +61,9 @@ def captured_co2_kg_per_kg_h2(process_co2, flue_co2, capture_rate, applies_to: s
     float or ndarray
         CO2 captured, kg CO2 per kg H2.
     """
-    return process_co2 * captured_process_share(capture_rate, applies_to) + flue_co2 * captured_flue_share(capture_rate, applies_to)
+    return process_co2 * captured_process_share(capture_rate, applies_to) + flue_co2 * captured_flue_share(
+        capture_rate, applies_to
+    )
 
 
 def compression_electricity_kwh_per_kg_co2(compression_kwh_per_t_co2):

@@ -137,4 +137,6 @@ def hydrogen_share_by_value(chlorine_kg, sodium_hydroxide_kg, hydrogen_price, ch
     ----------
     .. [1] ISO 14044:2006, 4.3.4 (allocation by economic value when physical relationships do not apply).
     """
-    return hydrogen_price / (hydrogen_price + chlorine_kg * chlorine_price + sodium_hydroxide_kg * sodium_hydroxide_price)
+    return hydrogen_price / (
+        hydrogen_price + chlorine_kg * chlorine_price + sodium_hydroxide_kg * sodium_hydroxide_price
+    )

@@ -60,7 +60,9 @@ def reaction_enthalpy_mj_per_kg_h2(formation_enthalpy_nh3_kj_per_mol, molar_mass
     return -2.0 * formation_enthalpy_nh3_kj_per_mol / (3.0 * molar_mass_h2_g_per_mol)
 
 
-def heat_mj_per_kg_h2_cracked(reaction_enthalpy, ammonia_kg_per_kg_h2, latent_heat_kj_per_kg, heat_to_reactor_efficiency):
+def heat_mj_per_kg_h2_cracked(
+    reaction_enthalpy, ammonia_kg_per_kg_h2, latent_heat_kj_per_kg, heat_to_reactor_efficiency
+):
     """Fuel heat per kg H2 cracked: reaction plus vaporisation of the liquid feed [2]_, over efficiency.
 
     Parameters

@@ -48,4 +48,6 @@ def pilot_fuel_kg_per_kg_ammonia(ammonia_lhv_mj_per_kg, pilot_fuel_lhv_mj_per_kg
     ----------
     .. [1] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: lower calorific value of the pilot fuel.
     """
-    return ammonia_lhv_mj_per_kg * pilot_fuel_energy_share / ((1.0 - pilot_fuel_energy_share) * pilot_fuel_lhv_mj_per_kg)
+    return (
+        ammonia_lhv_mj_per_kg * pilot_fuel_energy_share / ((1.0 - pilot_fuel_energy_share) * pilot_fuel_lhv_mj_per_kg)
+    )

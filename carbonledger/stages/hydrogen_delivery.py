@@ -118,7 +118,9 @@ def boil_off_share(tank_heat_ingress_kw, hours_with_cargo, latent_heat_kj_per_kg
     return tank_heat_ingress_kw * hours_with_cargo * SECONDS_PER_HOUR / latent_heat_kj_per_kg / cargo_kg
 
 
-def ideal_liquefaction_work_kwh_per_kg(h_liquid_kj_per_kg, s_liquid_kj_per_kg_k, h_ambient_kj_per_kg, s_ambient_kj_per_kg_k, ambient_temperature_k):
+def ideal_liquefaction_work_kwh_per_kg(
+    h_liquid_kj_per_kg, s_liquid_kj_per_kg_k, h_ambient_kj_per_kg, s_ambient_kj_per_kg_k, ambient_temperature_k
+):
     """Least work to liquefy 1 kg of hydrogen from ambient conditions, kWh/kg [1]_.
 
     Parameters
@@ -144,4 +146,7 @@ def ideal_liquefaction_work_kwh_per_kg(h_liquid_kj_per_kg, s_liquid_kj_per_kg_k,
     .. [1] w_min = (h_liquid - h_0) - T_0 (s_liquid - s_0): Barron, Cryogenic Systems, 2nd ed., Oxford University
        Press, 1985, ch. 3.
     """
-    return ((h_liquid_kj_per_kg - h_ambient_kj_per_kg) - ambient_temperature_k * (s_liquid_kj_per_kg_k - s_ambient_kj_per_kg_k)) / KJ_PER_KWH
+    return (
+        (h_liquid_kj_per_kg - h_ambient_kj_per_kg)
+        - ambient_temperature_k * (s_liquid_kj_per_kg_k - s_ambient_kj_per_kg_k)
+    ) / KJ_PER_KWH

@@ -32,7 +32,9 @@ def gas_mass_kg_per_gj(net_calorific_value_tj_per_gg):
 METHANE_EMISSION_BASES = ("methane_delivered", "methane_produced", "gas_delivered_by_mass")
 
 
-def methane_emitted_kg_ch4_per_gj(methane_emission_share, methane_emission_basis, net_calorific_value_tj_per_gg, methane_mass_fraction):
+def methane_emitted_kg_ch4_per_gj(
+    methane_emission_share, methane_emission_basis, net_calorific_value_tj_per_gg, methane_mass_fraction
+):
     """Methane emitted upstream per GJ (LHV) of gas delivered, from a share on a named basis.
 
     Parameters
@@ -65,7 +67,11 @@ def methane_emitted_kg_ch4_per_gj(methane_emission_share, methane_emission_basis
     gas_kg = gas_mass_kg_per_gj(net_calorific_value_tj_per_gg)
     if methane_emission_basis == "gas_delivered_by_mass":
         return methane_emission_share * gas_kg
-    per_methane_delivered = methane_emission_share / (1.0 - methane_emission_share) if methane_emission_basis == "methane_produced" else methane_emission_share
+    per_methane_delivered = (
+        methane_emission_share / (1.0 - methane_emission_share)
+        if methane_emission_basis == "methane_produced"
+        else methane_emission_share
+    )
     return per_methane_delivered * gas_kg * methane_mass_fraction
 
 

@@ -106,7 +106,9 @@ def co2_from_carbon_kg(carbon_kg, molar_mass_co2_g_per_mol, molar_mass_c_g_per_m
     return carbon_kg * molar_mass_co2_g_per_mol / molar_mass_c_g_per_mol
 
 
-def direct_co2_kg_per_kg_h2(gas_co2_kg_per_kg_h2, carbon_kg_per_kg_h2, molar_mass_co2_g_per_mol, molar_mass_c_g_per_mol):
+def direct_co2_kg_per_kg_h2(
+    gas_co2_kg_per_kg_h2, carbon_kg_per_kg_h2, molar_mass_co2_g_per_mol, molar_mass_c_g_per_mol
+):
     """CO2 released per kg H2: the CO2 the gas would give if burnt, less the carbon kept solid.
 
     Parameters
@@ -125,7 +127,9 @@ def direct_co2_kg_per_kg_h2(gas_co2_kg_per_kg_h2, carbon_kg_per_kg_h2, molar_mas
     float or ndarray
         CO2 released, kg CO2 per kg H2.
     """
-    return gas_co2_kg_per_kg_h2 - co2_from_carbon_kg(carbon_kg_per_kg_h2, molar_mass_co2_g_per_mol, molar_mass_c_g_per_mol)
+    return gas_co2_kg_per_kg_h2 - co2_from_carbon_kg(
+        carbon_kg_per_kg_h2, molar_mass_co2_g_per_mol, molar_mass_c_g_per_mol
+    )
 
 
 def hydrogen_share_by_mass(carbon_kg_per_kg_h2):

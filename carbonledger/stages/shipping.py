@@ -42,7 +42,9 @@ def days_at_sea(distance_nautical_miles, speed_knots):
     return distance_nautical_miles / speed_knots / HOURS_PER_DAY
 
 
-def laden_leg_fuel_t(fuel_t_per_day_at_sea, days_laden, fuel_g_per_tonne_nautical_mile, cargo_t, distance_nautical_miles):
+def laden_leg_fuel_t(
+    fuel_t_per_day_at_sea, days_laden, fuel_g_per_tonne_nautical_mile, cargo_t, distance_nautical_miles
+):
     """Fuel burnt on the laden leg, t: per-day use times days, plus per tonne-nautical-mile use.
 
     Parameters
@@ -111,7 +113,12 @@ def pilot_fuel_t(main_fuel_t, main_fuel_lhv_mj_per_kg, pilot_fuel_lhv_mj_per_kg,
     ----------
     .. [2] Regulation (EU) 2023/1805 (FuelEU Maritime), Annex II: lower calorific values.
     """
-    return main_fuel_t * main_fuel_lhv_mj_per_kg * pilot_fuel_energy_share / ((1.0 - pilot_fuel_energy_share) * pilot_fuel_lhv_mj_per_kg)
+    return (
+        main_fuel_t
+        * main_fuel_lhv_mj_per_kg
+        * pilot_fuel_energy_share
+        / ((1.0 - pilot_fuel_energy_share) * pilot_fuel_lhv_mj_per_kg)
+    )
 
 
 def boil_off_t(tank_heat_ingress_kw, hours_with_cargo, latent_heat_kj_per_kg):

@@ -37,9 +37,11 @@ class SymbolicModel:
     hydrogen_lhv: Any
     ammonia_lhv: Any
     hydrogen_fraction: Any
-    counted_zero: dict = field(default_factory=dict)  # scheme id -> electricity activities its rules count at zero (from the engine's checks)
+    # scheme id -> electricity activities its rules count at zero (from the engine's checks)
+    counted_zero: dict = field(default_factory=dict)
     declared_e_td: Any = None  # the Inputs cell of project.declared_e_td_g_co2e_per_mj (None: not declared)
-    charged_as_grid: dict = field(default_factory=dict)  # scheme id -> {failing electricity activity: grid activity whose intensity it is charged}
+    # scheme id -> {failing electricity activity: grid activity whose intensity it is charged}
+    charged_as_grid: dict = field(default_factory=dict)
 
 
 def basis_product_of(scheme, inventory: Inventory) -> str:
@@ -55,7 +57,9 @@ def symbolic_model(params_symbolic: dict, factor_set, gwp: str, schemes: list[st
     inputs = SymbolicInputs(factor_set)
     staged = run_stages(params_symbolic, inputs, gwp, schemes)
     per_gwp = {name: list(vector) for name, vector in staged.per_gwp.items()}
-    return SymbolicModel(staged.inventory, inputs, per_gwp[gwp], per_gwp, staged.hydrogen_lhv, staged.ammonia_lhv, staged.fraction)
+    return SymbolicModel(
+        staged.inventory, inputs, per_gwp[gwp], per_gwp, staged.hydrogen_lhv, staged.ammonia_lhv, staged.fraction
+    )
 
 
 def consumers_of(inventory: Inventory) -> dict[str, list[tuple[str, int]]]:
@@ -78,7 +82,7 @@ def check_acyclic(inventory: Inventory, source: str) -> list[str]:
         if state.get(key) == 2:
             return
         if state.get(key) == 1:
-            loop = " -> ".join(path[path.index(key):] + (key,))
+            loop = " -> ".join(path[path.index(key) :] + (key,))
             raise InputError(source, "inventory", f"a supply chain without loops for the workbook; found {loop}")
         state[key] = 1
         for consumer, _ in consumers[key]:
@@ -120,8 +124,6 @@ EXCHANGE_COLUMNS = (
 )
 
 
-
-
 ACTIVITY_COLUMNS = (
     "activity",
     "stage",
@@ -133,8 +135,9 @@ ACTIVITY_COLUMNS = (
 )
 
 
-def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str, str], *, top: int, title: str,
-                            scale_column: dict | None = None) -> CalculationBlock:
+def write_calculation_block(
+    ws, model: SymbolicModel, chosen, address: dict[str, str], *, top: int, title: str, scale_column: dict | None = None
+) -> CalculationBlock:
     """Activities with supply formulas, then one row per exchange; returns where things are.
 
     ``scale_column`` optionally maps a supplier key to a cell (Term) that multiplies every
@@ -149,7 +152,9 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
         row += 1
         block.activity_row[key] = row
     row += 2  # the exchange header; exchange rows first (their addresses are needed by the supply formulas)
-    headers = list(EXCHANGE_COLUMNS) + [f"kg CO2e per unit of basis, {scheme.id} ({scheme.gwp.upper()})" for scheme in chosen]
+    headers = list(EXCHANGE_COLUMNS) + [
+        f"kg CO2e per unit of basis, {scheme.id} ({scheme.gwp.upper()})" for scheme in chosen
+    ]
     for column, text in enumerate(headers, start=1):
         put_text(ws, row, column, text)
     bold_row(ws, row, len(headers))
@@ -165,7 +170,9 @@ def write_calculation_block(ws, model: SymbolicModel, chosen, address: dict[str,
         if exchange.kind == "biosphere":
             _write_scheme_cells(ws, row, model, chosen, block, key, index, address, exchange_row)
     _write_activity_rows(ws, inventory, block, address, exchange_row)
-    set_widths(ws, {"A": 26, "B": 24, "C": 10, "D": 26, "E": 52, "F": 22, "G": 18, "H": 18, "I": 18, "J": 12, "K": 18, "L": 18})
+    set_widths(
+        ws, {"A": 26, "B": 24, "C": 10, "D": 26, "E": 52, "F": 22, "G": 18, "H": 18, "I": 18, "J": 12, "K": 18, "L": 18}
+    )
     for position in range(len(chosen)):
         ws.column_dimensions[get_column_letter(len(EXCHANGE_COLUMNS) + 1 + position)].width = 20
     block.end_row = row
@@ -176,8 +183,13 @@ def _write_block_heading(ws, top: int, title: str) -> int:
     """The block's title, the supply equation in words and the activity header; returns the header's row."""
     put_text(ws, top, 1, title)
     ws.cell(row=top, column=1).font = font_bold()
-    put_text(ws, top + 1, 1, "Supply: units of each activity's product per functional unit = demand + sum over consumers of "
-                             "(amount consumed per unit of the consumer x supply of the consumer).")
+    put_text(
+        ws,
+        top + 1,
+        1,
+        "Supply: units of each activity's product per functional unit = demand + sum over consumers of "
+        "(amount consumed per unit of the consumer x supply of the consumer).",
+    )
     row = top + 3
     for column, text in enumerate(ACTIVITY_COLUMNS, start=1):
         put_text(ws, row, column, text)
@@ -185,12 +197,22 @@ def _write_block_heading(ws, top: int, title: str) -> int:
     return row
 
 
-def _write_exchange_row(ws, row: int, model: SymbolicModel, block: CalculationBlock, key: str, exchange, address,
-                        scale_column: dict | None) -> None:
+def _write_exchange_row(
+    ws, row: int, model: SymbolicModel, block: CalculationBlock, key: str, exchange, address, scale_column: dict | None
+) -> None:
     """One exchange: words, its amount (scaled by a metered cell where asked), and for an emission its kg CO2e."""
     activity = model.inventory.activities[key]
-    for column, text in enumerate((key, activity.stage, "input" if exchange.kind == "technosphere" else "emission",
-                                   exchange.input, exchange.label, exchange.unit), start=1):
+    for column, text in enumerate(
+        (
+            key,
+            activity.stage,
+            "input" if exchange.kind == "technosphere" else "emission",
+            exchange.input,
+            exchange.label,
+            exchange.unit,
+        ),
+        start=1,
+    ):
         put_text(ws, row, column, text)
     amount = exchange.amount
     if scale_column and exchange.kind == "technosphere" and exchange.input in scale_column:
@@ -208,13 +230,27 @@ def _write_exchange_row(ws, row: int, model: SymbolicModel, block: CalculationBl
 
 def _grid_intensity(model: SymbolicModel, grid_key: str, gwp: str, exchange_row: dict):
     """kg CO2e per kWh of the grid source under a GWP set: its emission amounts (column G) x GWP."""
-    emissions = [(index, e) for index, e in enumerate(model.inventory.activities[grid_key].exchanges) if e.kind == "biosphere"]
-    return sum_of(local("G", exchange_row[(grid_key, index)]) * model.per_gwp[gwp][FLOW_INDEX[e.input]] for index, e in emissions)
+    emissions = [
+        (index, e) for index, e in enumerate(model.inventory.activities[grid_key].exchanges) if e.kind == "biosphere"
+    ]
+    return sum_of(
+        local("G", exchange_row[(grid_key, index)]) * model.per_gwp[gwp][FLOW_INDEX[e.input]] for index, e in emissions
+    )
 
 
-def _write_scheme_cells(ws, row: int, model: SymbolicModel, chosen, block: CalculationBlock, key: str, index: int, address,
-                        exchange_row: dict) -> None:
-    """An emission's kg CO2e per unit of each scheme's basis: zero-rated (with the reason), charged at the grid, or counted."""
+def _write_scheme_cells(
+    ws,
+    row: int,
+    model: SymbolicModel,
+    chosen,
+    block: CalculationBlock,
+    key: str,
+    index: int,
+    address,
+    exchange_row: dict,
+) -> None:
+    """An emission's kg CO2e per unit of each scheme's basis: zero-rated (with the reason), charged at the grid, or
+    counted."""
     inventory = model.inventory
     activity = inventory.activities[key]
     exchange = activity.exchanges[index]
@@ -225,13 +261,21 @@ def _write_scheme_cells(ws, row: int, model: SymbolicModel, chosen, block: Calcu
         charged = model.charged_as_grid.get(scheme.id, {})
         basis_supply = {"product": local("G", arow), "delivered": local("E", arow)}.get(scheme.basis, local("F", arow))
         if key in charged and index == first_emission:  # a failing source: its kWh at the grid source's intensity
-            put_formula(ws, row, column, basis_supply * _grid_intensity(model, charged[key], scheme.gwp, exchange_row), address)
+            put_formula(
+                ws, row, column, basis_supply * _grid_intensity(model, charged[key], scheme.gwp, exchange_row), address
+            )
             continue
         reason = zero_rated(scheme, inventory, key, model.counted_zero.get(scheme.id, ()), charged)
         if reason:
             put_text(ws, row, column, reason)
             continue
-        put_formula(ws, row, column, local("G", row) * basis_supply * model.per_gwp[scheme.gwp][FLOW_INDEX[exchange.input]], address)
+        put_formula(
+            ws,
+            row,
+            column,
+            local("G", row) * basis_supply * model.per_gwp[scheme.gwp][FLOW_INDEX[exchange.input]],
+            address,
+        )
 
 
 def _write_activity_rows(ws, inventory: Inventory, block: CalculationBlock, address, exchange_row: dict) -> None:
@@ -241,10 +285,16 @@ def _write_activity_rows(ws, inventory: Inventory, block: CalculationBlock, addr
         arow = block.activity_row[key]
         for column, text in enumerate((key, activity.stage, activity.name, activity.unit), start=1):
             put_text(ws, arow, column, text)
-        for column, letter, demand in ((5, "E", inventory.reference), (6, "F", inventory.hydrogen), (7, "G", inventory.gate)):
+        for column, letter, demand in (
+            (5, "E", inventory.reference),
+            (6, "F", inventory.hydrogen),
+            (7, "G", inventory.gate),
+        ):
             terms = [Term("1")] if key == demand else []
-            terms += [local("G", exchange_row[(consumer, index)]) * local(letter, block.activity_row[consumer])
-                      for consumer, index in consumers[key]]
+            terms += [
+                local("G", exchange_row[(consumer, index)]) * local(letter, block.activity_row[consumer])
+                for consumer, index in consumers[key]
+            ]
             put_formula(ws, arow, column, sum_of(terms), address)
 
 
@@ -258,7 +308,11 @@ def cell_of(block: CalculationBlock, column: str, row: int) -> Term:
 def stage_sums(block: CalculationBlock, inventory: Inventory, column: str) -> dict[str, Term]:
     present = {activity.stage for activity in inventory.activities.values()}
     return {
-        stage: sum_of(cell_of(block, column, row) for row, key, exchange in block.exchange_rows if exchange.kind == "biosphere" and inventory.activities[key].stage == stage)
+        stage: sum_of(
+            cell_of(block, column, row)
+            for row, key, exchange in block.exchange_rows
+            if exchange.kind == "biosphere" and inventory.activities[key].stage == stage
+        )
         for stage in STAGES
         if stage in present
     }
@@ -266,8 +320,10 @@ def stage_sums(block: CalculationBlock, inventory: Inventory, column: str) -> di
 
 def gas_sums(block: CalculationBlock, column: str) -> dict[str, Term]:
     return {
-        flow: sum_of(cell_of(block, column, row) for row, _, exchange in block.exchange_rows if exchange.kind == "biosphere" and exchange.input == flow)
+        flow: sum_of(
+            cell_of(block, column, row)
+            for row, _, exchange in block.exchange_rows
+            if exchange.kind == "biosphere" and exchange.input == flow
+        )
         for flow in FLOWS
     }
-
-

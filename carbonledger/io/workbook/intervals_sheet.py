@@ -181,7 +181,9 @@ def _write_matched(cells: _FastCells, group_columns: list, load: str, first: int
         place["letter"] = get_column_letter(place["matched"])
 
 
-def _write_monthly_table(main, series, checks, matched_letters: dict, load: str, first: int, month_header: int) -> list[str]:
+def _write_monthly_table(
+    main, series, checks, matched_letters: dict, load: str, first: int, month_header: int
+) -> list[str]:
     """Use and, per scheme, matched energy and share by local calendar month; returns the headers."""
     from openpyxl.utils import get_column_letter
 
@@ -191,7 +193,11 @@ def _write_monthly_table(main, series, checks, matched_letters: dict, load: str,
     month_ends = np.r_[month_starts[1:], series.intervals] - 1
     month_headers = ["month", "electricity use (kWh)"]
     for check in checks:
-        month_headers += [f"{check.scheme}: matched (kWh)", f"{check.scheme}: unmatched (kWh)", f"{check.scheme}: matched share"]
+        month_headers += [
+            f"{check.scheme}: matched (kWh)",
+            f"{check.scheme}: unmatched (kWh)",
+            f"{check.scheme}: matched share",
+        ]
     put_text(main, month_header - 1, 1, "By month (local calendar): sums over the intervals below.")
     for position, text in enumerate(month_headers, start=1):
         put_text(main, month_header, position, text)
@@ -199,28 +205,62 @@ def _write_monthly_table(main, series, checks, matched_letters: dict, load: str,
     for number, (start, end) in enumerate(zip(month_starts, month_ends, strict=True)):
         row = month_header + 1 + number
         put_text(main, row, 1, str(months[start]))
-        style_cell(main.cell(row=row, column=2, value=f"=SUM({at}{load}{first + start}:{load}{first + end})"), "formula", "#,##0.000")
+        style_cell(
+            main.cell(row=row, column=2, value=f"=SUM({at}{load}{first + start}:{load}{first + end})"),
+            "formula",
+            "#,##0.000",
+        )
         for position, check in enumerate(checks):
             matched_letter = matched_letters[check.scheme]
             base = 3 + 3 * position
             matched_cell = get_column_letter(base)
-            style_cell(main.cell(row=row, column=base, value=f"=SUM({at}{matched_letter}{first + start}:{matched_letter}{first + end})"), "formula", "#,##0.000")
-            style_cell(main.cell(row=row, column=base + 1, value=f"=B{row}-{matched_cell}{row}"), "formula", "#,##0.000")
-            style_cell(main.cell(row=row, column=base + 2, value=f"=IF(B{row}=0,0,{matched_cell}{row}/B{row})"), "formula", SHARE)
+            style_cell(
+                main.cell(
+                    row=row,
+                    column=base,
+                    value=f"=SUM({at}{matched_letter}{first + start}:{matched_letter}{first + end})",
+                ),
+                "formula",
+                "#,##0.000",
+            )
+            style_cell(
+                main.cell(row=row, column=base + 1, value=f"=B{row}-{matched_cell}{row}"), "formula", "#,##0.000"
+            )
+            style_cell(
+                main.cell(row=row, column=base + 2, value=f"=IF(B{row}=0,0,{matched_cell}{row}/B{row})"),
+                "formula",
+                SHARE,
+            )
     return month_headers
 
 
 SUMMARY_HEADERS = (
-    "scheme", "matching (the scheme's rule)", "eligible sources", "matching columns", "electricity use (kWh)", "matched (kWh)",
-    "matched share", "grid electricity (kWh/kg H2)", "matched share, engine at writing", "grid kWh/kg H2, engine at writing",
+    "scheme",
+    "matching (the scheme's rule)",
+    "eligible sources",
+    "matching columns",
+    "electricity use (kWh)",
+    "matched (kWh)",
+    "matched share",
+    "grid electricity (kWh/kg H2)",
+    "matched share, engine at writing",
+    "grid kWh/kg H2, engine at writing",
 )
 
 
-def _write_summary(main, checks, group_of: dict, matched_letters: dict, load: str, first: int, last: int, kwh_per_kg: str) -> dict[str, int]:
+def _write_summary(
+    main, checks, group_of: dict, matched_letters: dict, load: str, first: int, last: int, kwh_per_kg: str
+) -> dict[str, int]:
     """Per scheme: use, matched energy and share, grid electricity per kg H2, and the engine's figures."""
     at = f"{INTERVALS}!"
     summary_header = SUMMARY_TOP + 1
-    put_text(main, SUMMARY_TOP, 1, "Per scheme: matched share = matched / use; grid electricity per kg H2 = (1 - matched share) x electricity per kg H2.")
+    put_text(
+        main,
+        SUMMARY_TOP,
+        1,
+        "Per scheme: matched share = matched / use; grid electricity "
+        "per kg H2 = (1 - matched share) x electricity per kg H2.",
+    )
     for position, text in enumerate(SUMMARY_HEADERS, start=1):
         put_text(main, summary_header, position, text)
     header_row(main, summary_header, len(SUMMARY_HEADERS))
@@ -235,7 +275,11 @@ def _write_summary(main, checks, group_of: dict, matched_letters: dict, load: st
         put_text(main, row, 3, ", ".join(matching.eligible_sources) or "none")
         put_text(main, row, 4, f"matching {group_of[check.scheme] + 1}")
         style_cell(main.cell(row=row, column=5, value=f"=SUM({at}{load}{first}:{load}{last})"), "formula", "#,##0.0")
-        style_cell(main.cell(row=row, column=6, value=f"=SUM({at}{matched_letter}{first}:{matched_letter}{last})"), "formula", "#,##0.0")
+        style_cell(
+            main.cell(row=row, column=6, value=f"=SUM({at}{matched_letter}{first}:{matched_letter}{last})"),
+            "formula",
+            "#,##0.0",
+        )
         style_cell(main.cell(row=row, column=7, value=f"=IF(E{row}=0,0,F{row}/E{row})"), "formula", SHARE)
         style_cell(main.cell(row=row, column=8, value=f"=(1-G{row})*{kwh_per_kg}"), "formula", "#,##0.000")
         style_cell(main.cell(row=row, column=9, value=matching.matched_share), "engine", SHARE)
@@ -245,14 +289,37 @@ def _write_summary(main, checks, group_of: dict, matched_letters: dict, load: st
 
 def _write_titles(main, intervals_ws, series, block, hydrogen_key: str, kwh_row: int) -> str:
     """The two sheets' titles and the electricity per kg H2 from the Calculation sheet; returns its cell."""
-    put_text(intervals_ws, 1, 1, f"Electricity time series {series.path}: one row per interval ({series.interval_minutes} minutes, local time as written) and its matching with contracted generation, as live formulas.")
-    put_text(intervals_ws, 2, 1, "In each matching period: matched = MIN(use, eligible generation); an interval of a longer period is matched in the period's proportion. Generation beyond the use of one period does not carry to another. Sums on the Matching sheet.")
+    put_text(
+        intervals_ws,
+        1,
+        1,
+        f"Electricity time series {series.path}: one row per interval ({series.interval_minutes} minutes, "
+        "local time as written) and its matching with contracted generation, as live formulas.",
+    )
+    put_text(
+        intervals_ws,
+        2,
+        1,
+        "In each matching period: matched = MIN(use, eligible generation); an interval "
+        "of a longer period is matched in the period's proportion. Generation beyond "
+        "the use of one period does not carry to another. Sums on the Matching sheet.",
+    )
     style_cell(intervals_ws.cell(row=1, column=1), "title")
-    put_text(main, 1, 1, f"Matching of the electricity time series {series.path} with contracted generation, per scheme: sums over the Intervals sheet.")
+    put_text(
+        main,
+        1,
+        1,
+        f"Matching of the electricity time series {series.path} with contracted "
+        "generation, per scheme: sums over the Intervals sheet.",
+    )
     style_cell(main.cell(row=1, column=1), "title")
     put_text(main, kwh_row, 1, "electricity per kg H2 at the plant gate (kWh/kg), from the Calculation sheet")
     mix, hydrogen = block.activity_row["electricity_mix"], block.activity_row[hydrogen_key]
-    style_cell(main.cell(row=kwh_row, column=2, value=f"={CALCULATION}!$G${mix}/{CALCULATION}!$G${hydrogen}"), "formula", "#,##0.000")
+    style_cell(
+        main.cell(row=kwh_row, column=2, value=f"={CALCULATION}!$G${mix}/{CALCULATION}!$G${hydrogen}"),
+        "formula",
+        "#,##0.000",
+    )
     return f"$B${kwh_row}"
 
 

@@ -16,7 +16,14 @@ from ...model.project import split_path
 from ...model.statuses import Status
 from .cells import Term, resolve
 
-INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = "Inputs", "Factors", "Calculation", "Results", "Cover", "Periods"
+INPUTS, FACTORS, CALCULATION, RESULTS, COVER, PERIODS = (
+    "Inputs",
+    "Factors",
+    "Calculation",
+    "Results",
+    "Cover",
+    "Periods",
+)
 MATCHING, INTERVALS = "Matching", "Intervals"  # with an electricity time series
 INPUT_HEADER_ROW = 4
 FACTOR_HEADER_ROW = 4
@@ -45,7 +52,12 @@ def cell_text(text: Any, where: str = "") -> str:
     hold is refused (one line naming ``where``), never cut."""
     text = _CONTROL.sub(lambda match: chr(0x2400 + ord(match.group())), str(text))
     if len(text) > EXCEL_CELL_CHARACTERS:
-        raise InputError("workbook", where or "text", f"text of at most {EXCEL_CELL_CHARACTERS:,} characters (the most a spreadsheet cell holds), got {len(text):,}; shorten it")
+        raise InputError(
+            "workbook",
+            where or "text",
+            f"text of at most {EXCEL_CELL_CHARACTERS:,} characters (the most "
+            f"a spreadsheet cell holds), got {len(text):,}; shorten it",
+        )
     return text
 
 
@@ -130,5 +142,7 @@ def verdict_formula(value: str, operator: str, limit: str, status: str) -> str:
     """The live verdict: the threshold on the live value, within the rules read at writing
     (``status``: not eligible stays so whatever the value; undetermined stays undetermined), in
     the words of every output: qualifies, fails, not eligible, undetermined."""
-    ok, no, off, open_ = (f'"{s.words}"' for s in (Status.QUALIFIES, Status.FAILS, Status.NOT_ELIGIBLE, Status.UNDETERMINED))
+    ok, no, off, open_ = (
+        f'"{s.words}"' for s in (Status.QUALIFIES, Status.FAILS, Status.NOT_ELIGIBLE, Status.UNDETERMINED)
+    )
     return f"IF({status}={off},{off},IF({value}{operator}{limit},IF({status}={open_},{open_},{ok}),{no}))"

@@ -99,36 +99,72 @@ def _write_meters(writer: _Writer, plan: PeriodPlan, values: dict) -> dict[tuple
         if meter.by_volume:
             put_formula(ws, row, 4, local("B", row) * plan.nm3_factor / 1000.0, address)
         else:
-            put_formula(ws, row, 4, local("B", row) * meter.multiplier if meter.multiplier != 1.0 else local("B", row), address)
+            put_formula(
+                ws, row, 4, local("B", row) * meter.multiplier if meter.multiplier != 1.0 else local("B", row), address
+            )
         put_text(ws, row, 5, CANONICAL[meter.quantity])
         converted[(meter.quantity, meter.source)] = local("D", row)
     return converted
 
 
-def _write_month_figures(writer: _Writer, converted: dict, params: dict, product: str, output_column, gas_paths, design_supply: dict, unit: str) -> _MonthFigures:
+def _write_month_figures(
+    writer: _Writer,
+    converted: dict,
+    params: dict,
+    product: str,
+    output_column,
+    gas_paths,
+    design_supply: dict,
+    unit: str,
+) -> _MonthFigures:
     """Output, electricity shares, metered use per functional unit and the scale factors of one month."""
     output_unit = "t NH3" if product == "ammonia" else "kg H2"
-    output = writer.line("functional units produced", converted[(output_column.quantity, "")] if product == "hydrogen" else converted[("ammonia", "")], output_unit)
-    electricity = writer.line("electricity, total", sum_of(t for (q, _), t in converted.items() if q == "electricity"), "kWh")
-    shares = {name: writer.line(f"share of electricity from {name}", converted[("electricity", name)] / electricity, "fraction") for name in params["electricity"]["sources"]}
-    electricity_per_unit = writer.line("electricity per functional unit, metered", electricity / output, f"kWh/{output_unit}")
+    output = writer.line(
+        "functional units produced",
+        converted[(output_column.quantity, "")] if product == "hydrogen" else converted[("ammonia", "")],
+        output_unit,
+    )
+    electricity = writer.line(
+        "electricity, total", sum_of(t for (q, _), t in converted.items() if q == "electricity"), "kWh"
+    )
+    shares = {
+        name: writer.line(
+            f"share of electricity from {name}", converted[("electricity", name)] / electricity, "fraction"
+        )
+        for name in params["electricity"]["sources"]
+    }
+    electricity_per_unit = writer.line(
+        "electricity per functional unit, metered", electricity / output, f"kWh/{output_unit}"
+    )
     k_gas = None
     if gas_paths and ("natural_gas", "") in converted:
-        gas_per_unit = writer.line("natural gas per functional unit, metered", converted[("natural_gas", "")] / output, f"GJ/{output_unit}")
-        design_gas = writer.line("natural gas per functional unit, design", design_supply["natural_gas_supply"], f"GJ/{output_unit}")
+        gas_per_unit = writer.line(
+            "natural gas per functional unit, metered", converted[("natural_gas", "")] / output, f"GJ/{output_unit}"
+        )
+        design_gas = writer.line(
+            "natural gas per functional unit, design", design_supply["natural_gas_supply"], f"GJ/{output_unit}"
+        )
         k_gas = writer.line("k_gas = metered / design", gas_per_unit / design_gas, "")
-    writer.line("electricity per functional unit of the design's consumers at this month's gas use", None, f"kWh/{output_unit}")
+    writer.line(
+        "electricity per functional unit of the design's consumers at this month's gas use", None, f"kWh/{output_unit}"
+    )
     consumers_row = writer.row  # filled in once the block's rows are known
-    k_electricity = writer.line("k_electricity = metered / design consumers", electricity_per_unit / local("D", consumers_row), "")
+    k_electricity = writer.line(
+        "k_electricity = metered / design consumers", electricity_per_unit / local("D", consumers_row), ""
+    )
     writer.line("kg CO2e per functional unit, this month", None, unit)
     total_row = writer.row
     writer.line("kg CO2e in the month", local("D", total_row) * output, "kg CO2e")
     emissions_row = writer.row
     hydrogen_row = None
     if ("hydrogen", "") in converted and product == "ammonia":
-        writer.line("hydrogen per t NH3, metered (cross-check, not used)", converted[("hydrogen", "")] / output, "kg H2/t NH3")
+        writer.line(
+            "hydrogen per t NH3, metered (cross-check, not used)", converted[("hydrogen", "")] / output, "kg H2/t NH3"
+        )
         hydrogen_row = writer.row
-    return _MonthFigures(output, shares, k_gas, k_electricity, consumers_row, total_row, emissions_row, hydrogen_row, writer.row)
+    return _MonthFigures(
+        output, shares, k_gas, k_electricity, consumers_row, total_row, emissions_row, hydrogen_row, writer.row
+    )
 
 
 def _month_parameters(params: dict, input_cell: dict, figures: _MonthFigures, gas_paths, electricity_paths) -> dict:
@@ -163,7 +199,22 @@ def _fill_from_block(ws, block, figures: _MonthFigures, design_amount: dict, add
     return biosphere
 
 
-def _write_month_summary_row(ws, srow: int, month: str, figures: _MonthFigures, engine, block, month_model, model, stages, chosen, check_column: int, results_cells, address: dict, biosphere: list[int]) -> None:
+def _write_month_summary_row(
+    ws,
+    srow: int,
+    month: str,
+    figures: _MonthFigures,
+    engine,
+    block,
+    month_model,
+    model,
+    stages,
+    chosen,
+    check_column: int,
+    results_cells,
+    address: dict,
+    biosphere: list[int],
+) -> None:
     """The month's row of the summary: output, intensity, emissions, stages and each scheme's value and verdict."""
     put_text(ws, srow, 1, month)
     put_formula(ws, srow, 2, figures.output, address)
@@ -177,15 +228,28 @@ def _write_month_summary_row(ws, srow: int, month: str, figures: _MonthFigures, 
     for position, scheme in enumerate(chosen):
         column = check_column + 3 * position
         letter = block.scheme_column[scheme.id]
-        scheme_total = Term(f"SUM({letter}{biosphere[0]}:{letter}{biosphere[-1]})") if biosphere else Term("0")  # SUM skips zero-rated rows (text)
+        # SUM skips zero-rated rows (text)
+        scheme_total = Term(f"SUM({letter}{biosphere[0]}:{letter}{biosphere[-1]})") if biosphere else Term("0")
         basis_product = basis_product_of(scheme, month_model.inventory)
-        value = intensities(scheme_total, basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
+        value = intensities(
+            scheme_total, basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction
+        )[scheme.quantity]
         put_formula(ws, srow, column, value, address)
         _verdict(ws, srow, column, scheme, results_cells, address)
         put_value(ws, srow, column + 2, engine_checks[scheme.id].value if scheme.id in engine_checks else None)
 
 
-def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, check_column: int, results_cells, address: dict, engine_year: float | None = None) -> None:
+def _write_year_row(
+    ws,
+    year_row: int,
+    first_month_row: int,
+    stages,
+    chosen,
+    check_column: int,
+    results_cells,
+    address: dict,
+    engine_year: float | None = None,
+) -> None:
     """All months, output-weighted: sums of output and emissions, and the weighted stages and scheme values;
     the engine's metered year beside the year's figure, both formatted as numbers."""
     from openpyxl.utils import get_column_letter
@@ -198,7 +262,8 @@ def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, che
     put_formula(ws, year_row, 3, Term(f"IF(B{year_row}=0,0,D{year_row}/B{year_row})"), address)
     put_value(ws, year_row, 5, engine_year)
     for column in (3, 5):
-        ws.cell(row=year_row, column=column).number_format = number_format(engine_year)  # the year's figure, never 17 digits
+        # the year's figure, never 17 digits
+        ws.cell(row=year_row, column=column).number_format = number_format(engine_year)
     for position in range(len(stages)):
         letter = get_column_letter(6 + position)
         weighted = sum_of(local(letter, r) * local("B", r) for r in range(first_month_row, last + 1))
@@ -211,7 +276,47 @@ def _write_year_row(ws, year_row: int, first_month_row: int, stages, chosen, che
         _verdict(ws, year_row, column, scheme, results_cells, address)
 
 
-def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, model, design_block, address: dict, unit: str, chosen=(), results_cells: dict | None = None) -> None:
+def _write_summary_header(ws, meters_path, header_row: int, output_unit: str, unit: str, stages: list, chosen) -> int:
+    """The sheet's two lines of explanation and the header of the month summary; returns the first
+    column of the scheme checks."""
+    put_text(
+        ws,
+        1,
+        1,
+        f"Metered periods from {meters_path}: one calculation block per month below, "
+        "the summary here. Output-weighted: year = sum of emissions / sum of output.",
+    )
+    put_text(
+        ws,
+        2,
+        1,
+        "Each month: electricity shares from the meters; gas and electricity parameters = design value x the month's "
+        "scale factor, so the month's gas and electricity per functional unit equal the metered figures.",
+    )
+    summary_header = ["month", f"output ({output_unit})", f"{unit}", "kg CO2e in the month", "engine at writing"] + [
+        f"{stage} ({unit})" for stage in stages
+    ]
+    check_column = 6 + len(stages)  # per scheme: value, verdict against the Results sheet's threshold, engine value
+    for scheme in chosen:
+        summary_header += [f"{scheme.id} [{scheme.unit}]", f"{scheme.id} verdict", f"{scheme.id}, engine at writing"]
+    for column, text in enumerate(summary_header, start=1):
+        put_text(ws, header_row, column, text)
+    bold_row(ws, header_row, len(summary_header))
+    return check_column
+
+
+def write_periods_sheet(
+    ws,
+    plan: PeriodPlan,
+    params: dict,
+    input_cell: dict,
+    model,
+    design_block,
+    address: dict,
+    unit: str,
+    chosen=(),
+    results_cells: dict | None = None,
+) -> None:
     meters = plan.meters
     inventory = model.inventory
     product = inventory.product
@@ -219,41 +324,58 @@ def write_periods_sheet(ws, plan: PeriodPlan, params: dict, input_cell: dict, mo
     output_unit = "t NH3" if product == "ammonia" else "kg H2"
     stages = list(stage_sums(design_block, inventory, "K"))
 
-    put_text(ws, 1, 1, f"Metered periods from {meters.path}: one calculation block per month below, the summary here. Output-weighted: year = sum of emissions / sum of output.")
-    put_text(ws, 2, 1, "Each month: electricity shares from the meters; gas and electricity parameters = design value x the month's scale factor, so the month's gas and electricity per functional unit equal the metered figures.")
     header_row = 4
-    summary_header = ["month", f"output ({output_unit})", f"{unit}", "kg CO2e in the month", "engine at writing"] + [f"{stage} ({unit})" for stage in stages]
-    check_column = 6 + len(stages)  # per scheme: value, verdict against the Results sheet's threshold, engine value
-    for scheme in chosen:
-        summary_header += [f"{scheme.id} [{scheme.unit}]", f"{scheme.id} verdict", f"{scheme.id}, engine at writing"]
-    for column, text in enumerate(summary_header, start=1):
-        put_text(ws, header_row, column, text)
-    bold_row(ws, header_row, len(summary_header))
+    check_column = _write_summary_header(ws, meters.path, header_row, output_unit, unit, stages, chosen)
     first_month_row = header_row + 1
     year_row = first_month_row + len(meters.months)
     top = year_row + 3
 
     design_supply = {key: ref(CALCULATION, "E", row) for key, row in design_block.activity_row.items()}
-    design_amount = {(key, exchange_index(design_block, row)): ref(CALCULATION, "G", row) for row, key, _ in design_block.exchange_rows}
+    design_amount = {
+        (key, exchange_index(design_block, row)): ref(CALCULATION, "G", row)
+        for row, key, _ in design_block.exchange_rows
+    }
     for number, month in enumerate(meters.months):
         put_text(ws, top, 1, f"Period {month}")
         ws.cell(row=top, column=1).font = font_bold()
         writer = _Writer(ws, address, top + 1)
         converted = _write_meters(writer, plan, meters.values[number])
-        figures = _write_month_figures(writer, converted, params, product, meters.column(output_quantity(product)), gas_paths, design_supply, unit)
+        figures = _write_month_figures(
+            writer, converted, params, product, meters.column(output_quantity(product)), gas_paths, design_supply, unit
+        )
         symbolic = _month_parameters(params, input_cell, figures, gas_paths, electricity_paths)
         month_model = dataclasses.replace(model, inventory=build_inventory(symbolic, model.inputs))
-        block = write_calculation_block(ws, month_model, list(chosen), address, top=figures.last_row + 2, title=f"Calculation for {month}")
+        block = write_calculation_block(
+            ws, month_model, list(chosen), address, top=figures.last_row + 2, title=f"Calculation for {month}"
+        )
         biosphere = _fill_from_block(ws, block, figures, design_amount, address)
-        _write_month_summary_row(ws, first_month_row + number, month, figures, plan.engine[number], block, month_model, model, stages, chosen, check_column, results_cells, address, biosphere)
+        _write_month_summary_row(
+            ws,
+            first_month_row + number,
+            month,
+            figures,
+            plan.engine[number],
+            block,
+            month_model,
+            model,
+            stages,
+            chosen,
+            check_column,
+            results_cells,
+            address,
+            biosphere,
+        )
         top = block.end_row + 3
-    engine_year = metered_year(meters, product, plan.engine) if all(engine is not None for engine in plan.engine) else None
+    engine_year = (
+        metered_year(meters, product, plan.engine) if all(engine is not None for engine in plan.engine) else None
+    )
     _write_year_row(ws, year_row, first_month_row, stages, chosen, check_column, results_cells, address, engine_year)
     set_widths(ws, {"A": 60, "B": 16, "C": 18, "D": 20, "E": 18})
 
 
 def _verdict(ws, row: int, value_column: int, scheme, results_cells: dict | None, address: dict) -> None:
-    """The status (qualifies, fails, not eligible, undetermined) of the value in ``value_column`` against the scheme's loosest threshold on the Results sheet."""
+    """The status (qualifies, fails, not eligible, undetermined) of the value in ``value_column`` against the scheme's
+    loosest threshold on the Results sheet."""
     from openpyxl.utils import get_column_letter
 
     loosest = scheme.loosest()

@@ -71,14 +71,21 @@ def check_size(path: Path) -> None:
     except OSError:
         return  # not there: openpyxl's error names it
     if size > MAX_WORKBOOK_BYTES:
-        raise InputError(path, "", f"an audit workbook of at most {MAX_WORKBOOK_BYTES // 2**20} MB, got {size / 2**20:.1f} MB")
+        raise InputError(
+            path, "", f"an audit workbook of at most {MAX_WORKBOOK_BYTES // 2**20} MB, got {size / 2**20:.1f} MB"
+        )
     try:
         with zipfile.ZipFile(path) as archive:
             unpacked = sum(member.file_size for member in archive.infolist())
     except (zipfile.BadZipFile, OSError):
         return  # not a zip: openpyxl's error names it
     if unpacked > MAX_UNPACKED_BYTES:
-        raise InputError(path, "", f"an audit workbook that unpacks to at most {MAX_UNPACKED_BYTES // 2**20} MB, got {unpacked / 2**20:.0f} MB")
+        raise InputError(
+            path,
+            "",
+            f"an audit workbook that unpacks to at most {MAX_UNPACKED_BYTES // 2**20} "
+            f"MB, got {unpacked / 2**20:.0f} MB",
+        )
 
 
 def _open(path: Path, data_only: bool = False, read_only: bool = False):
@@ -92,7 +99,9 @@ def _open(path: Path, data_only: bool = False, read_only: bool = False):
     except FileNotFoundError:
         raise InputError(path, "", "an existing audit workbook (.xlsx written by `carbonledger workbook`)") from None
     except Exception as error:  # openpyxl raises zipfile, KeyError, InvalidFileException...
-        raise InputError(path, "", f"an .xlsx audit workbook written by `carbonledger workbook` ({type(error).__name__})") from None
+        raise InputError(
+            path, "", f"an .xlsx audit workbook written by `carbonledger workbook` ({type(error).__name__})"
+        ) from None
 
 
 def _sheet(workbook, name: str, path: Path):
@@ -108,7 +117,11 @@ def _check_header(ws, row: int, expected: tuple[str, ...], path: Path) -> None:
         found = ws.cell(row=row, column=column).value
         if (found or "") != title:
             cell = f"{get_column_letter(column)}{row}"
-            raise InputError(path, f"sheet {ws.title}, cell {cell}", f"the column header '{title}' (rows were moved or deleted), got {found!r}")
+            raise InputError(
+                path,
+                f"sheet {ws.title}, cell {cell}",
+                f"the column header '{title}' (rows were moved or deleted), got {found!r}",
+            )
 
 
 class _CachedValues:
@@ -130,7 +143,12 @@ def _cell_value(ws, cell: str, cached: _CachedValues, path: Path, name: str):
     if isinstance(value, str) and ws[cell].data_type == "f":
         formula, value = value, cached.get(ws.title, cell)
         if value is None:
-            raise InputError(path, f"sheet {ws.title}, cell {cell} ({name})", f"a number; the cell holds the formula {formula!r} with no saved value (save the workbook in a spreadsheet program, or type the number)")
+            raise InputError(
+                path,
+                f"sheet {ws.title}, cell {cell} ({name})",
+                f"a number; the cell holds the formula {formula!r} with no saved value "
+                "(save the workbook in a spreadsheet program, or type the number)",
+            )
     return text_from_cell(value)
 
 
@@ -144,9 +162,13 @@ def read_settings(workbook, path: Path) -> WorkbookSettings:
             found[labels[label]] = text_from_cell(ws.cell(row=row, column=2).value)
     for key in ("gwp", "factors_option"):
         if not found.get(key):
-            raise InputError(path, f"sheet {COVER}", f"the row '{COVER_LABELS[key]}' written by `carbonledger workbook`")
+            raise InputError(
+                path, f"sheet {COVER}", f"the row '{COVER_LABELS[key]}' written by `carbonledger workbook`"
+            )
     schemes = [text.strip() for text in str(found.get("schemes") or "").split(",") if text.strip()]
-    return WorkbookSettings(str(found["gwp"]), schemes, str(found["factors_option"]), str(found.get("factor_set") or ""))
+    return WorkbookSettings(
+        str(found["gwp"]), schemes, str(found["factors_option"]), str(found.get("factor_set") or "")
+    )
 
 
 def _named_rows(ws, header_row: int):
@@ -206,9 +228,18 @@ def load_project_from_workbook(path: str | Path, overrides: list[str] | None = N
         if value is None or value == "" or name in overridden:
             continue  # an optional parameter without a value: an empty cell or no row is right
         if name in emptied:
-            raise InputError(path, f"sheet {INPUTS}, cell {cells[name]} ({name})", f"a value (the cell is empty; the default {value!r} is not taken silently: type it to use it)")
+            raise InputError(
+                path,
+                f"sheet {INPUTS}, cell {cells[name]} ({name})",
+                f"a value (the cell is empty; the default {value!r} is not taken silently: type it to use it)",
+            )
         if name not in cells:
-            raise InputError(path, f"sheet {INPUTS} ({name})", f"a row for this parameter (it was deleted; the default {value!r} is not taken silently: write a new workbook from the project file)")
+            raise InputError(
+                path,
+                f"sheet {INPUTS} ({name})",
+                f"a row for this parameter (it was deleted; the default {value!r} is "
+                "not taken silently: write a new workbook from the project file)",
+            )
     return project, hashlib.sha256(path.read_bytes()).hexdigest(), settings
 
 
@@ -239,7 +270,10 @@ def read_factor_rows(workbook, path: Path) -> list[tuple[dict, str]]:
         value = _cell_value(ws, f"B{row}", cached, path, factor_id)
         if not is_number(value):
             raise InputError(path, f"sheet {FACTORS}, cell B{row} ({factor_id})", f"a number, got {value!r}")
-        record = {name: text_from_cell(ws.cell(row=row, column=column).value) for column, name in enumerate(CITED_FIELDS, start=1)}
+        record = {
+            name: text_from_cell(ws.cell(row=row, column=column).value)
+            for column, name in enumerate(CITED_FIELDS, start=1)
+        }
         record["id"], record["value"] = factor_id, float(value)
         rows.append((record, f"B{row}"))
     return rows
@@ -254,7 +288,9 @@ def factor_set_from_workbook(path: str | Path, base):
     path = Path(path)
     workbook = _open(path)
     grade_column = CITED_FIELDS.index("grade") + 1
-    legacy = _sheet(workbook, FACTORS, path).cell(row=FACTOR_HEADER_ROW, column=grade_column).value == LEGACY_GRADE_TITLE
+    legacy = (
+        _sheet(workbook, FACTORS, path).cell(row=FACTOR_HEADER_ROW, column=grade_column).value == LEGACY_GRADE_TITLE
+    )
     changed: dict[str, Factor] = {}
     for record, cell in read_factor_rows(workbook, path):
         factor_id = record["id"]
@@ -262,13 +298,19 @@ def factor_set_from_workbook(path: str | Path, base):
             formula = factor_id.rsplit(".", 1)[1].upper()
             library = molar_mass_g_per_mol(formula)
             if abs(record["value"] - library) > 1e-9 * library:
-                raise InputError(path, f"sheet {FACTORS}, cell {cell} ({factor_id})", f"the reference-library value {library!r} (molar masses are not read back from the workbook)")
+                raise InputError(
+                    path,
+                    f"sheet {FACTORS}, cell {cell} ({factor_id})",
+                    f"the reference-library value {library!r} (molar masses are not read back from the workbook)",
+                )
             continue
         known = base.factors.get(factor_id)
         unit = str(record["unit"] or "").strip()
         if known is not None and known.value == record["value"] and known.unit == unit:
             continue
-        check_factor_value(factor_id, record["value"], unit or (known.unit if known else ""), f"{path}: sheet {FACTORS}, cell {cell}")
+        check_factor_value(
+            factor_id, record["value"], unit or (known.unit if known else ""), f"{path}: sheet {FACTORS}, cell {cell}"
+        )
         year = record["year"]
         changed[factor_id] = Factor(
             id=factor_id,
@@ -278,8 +320,12 @@ def factor_set_from_workbook(path: str | Path, base):
             table=str(record["table"] or ""),
             year=int(year) if is_number(year) else None,
             region=str(record["region"] or ""),
-            note=(str(record["note"] or "") + f" [value edited in workbook {path.name}, sheet {FACTORS}, cell {cell}]").strip(),
-            grade=_edited_grade(record, known, f"{path}: sheet {FACTORS}, cell {_column_letter(grade_column)}{cell[1:]}", legacy),
+            note=(
+                str(record["note"] or "") + f" [value edited in workbook {path.name}, sheet {FACTORS}, cell {cell}]"
+            ).strip(),
+            grade=_edited_grade(
+                record, known, f"{path}: sheet {FACTORS}, cell {_column_letter(grade_column)}{cell[1:]}", legacy
+            ),
             origin=f"{path}: sheet {FACTORS}",
         )
     if not changed:
@@ -319,7 +365,11 @@ def _series_columns(headers: list, project, where: str) -> dict[int, str]:
         del wanted[SERIES_HEADERS["load"][0]]  # the use is then a formula: hydrogen x electricity per kg H2
     found = {number: wanted[str(text)] for number, text in enumerate(headers) if str(text) in wanted}
     if SERIES_HEADERS["timestamp"][1] not in found.values():
-        raise InputError(where, f"row {INTERVAL_HEADER_ROW}", f"the header '{SERIES_HEADERS['timestamp'][0]}' of an audit workbook's Intervals sheet")
+        raise InputError(
+            where,
+            f"row {INTERVAL_HEADER_ROW}",
+            f"the header '{SERIES_HEADERS['timestamp'][0]}' of an audit workbook's Intervals sheet",
+        )
     return found
 
 

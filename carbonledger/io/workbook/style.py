@@ -100,7 +100,7 @@ def wrap_columns(ws, letters: str, first_row: int) -> None:
     lines: dict[int, int] = {}
     for letter in letters:
         width = ws.column_dimensions[letter].width or 10
-        for cell in ws[letter][first_row - 1:]:
+        for cell in ws[letter][first_row - 1 :]:
             cell.alignment = Alignment(wrap_text=True, vertical="top")
             if isinstance(cell.value, str) and not cell.value.startswith("="):
                 needed = math.ceil(len(cell.value) * 1.1 / max(width - 1, 1))
@@ -121,11 +121,13 @@ def fill_missing_formats(ws) -> None:
                 continue
             if isinstance(value, (int, float)):
                 cell.number_format = number_format(value)
-            elif isinstance(value, str) and value.startswith("=") and not value.startswith('=IF(') and '"' not in value:
+            elif isinstance(value, str) and value.startswith("=") and not value.startswith("=IF(") and '"' not in value:
                 cell.number_format = "#,##0.000"
 
 
-def page_setup(ws, *, title_rows: str | None = None, title_columns: str | None = None, pages_wide: int = 1, align: bool = True) -> None:
+def page_setup(
+    ws, *, title_rows: str | None = None, title_columns: str | None = None, pages_wide: int = 1, align: bool = True
+) -> None:
     """A4 landscape, margins for binding and a footer that prints whole, header rows repeated on
     every page, the used range and every chart in the print area, ``pages_wide`` pages across and
     as many down as needed. ``align``: every cell on the top of its row (a label and its value read
@@ -169,6 +171,19 @@ def align_cells(ws) -> None:
         previous = None
         for cell in row:
             current = cell.alignment
-            after_number = isinstance(cell.value, str) and not cell.value.startswith("=") and (isinstance(previous, (int, float)) and not isinstance(previous, bool) or (isinstance(previous, str) and previous.startswith("=")))
-            cell.alignment = Alignment(horizontal=current.horizontal, vertical="top", wrap_text=current.wrap_text, indent=max(current.indent or 0, 1 if after_number else 0))
+            after_number = (
+                isinstance(cell.value, str)
+                and not cell.value.startswith("=")
+                and (
+                    isinstance(previous, (int, float))
+                    and not isinstance(previous, bool)
+                    or (isinstance(previous, str) and previous.startswith("="))
+                )
+            )
+            cell.alignment = Alignment(
+                horizontal=current.horizontal,
+                vertical="top",
+                wrap_text=current.wrap_text,
+                indent=max(current.indent or 0, 1 if after_number else 0),
+            )
             previous = cell.value

@@ -23,8 +23,29 @@ from .layout import put_text, put_value, set_widths
 from .style import header_row, number_format, page_setup, style_cell, wrap_columns
 
 UNCERTAINTY = "Uncertainty"
-SUMMARY_COLUMNS = ("figure", "mean", "standard deviation", "5th percentile", "median (50th)", "95th percentile", "standard error of the mean", "unit")
-CHECK_COLUMNS = ("scheme", "limit", "unit", "mean value", "5th percentile", "95th percentile", "probability of qualifying", "standard error", "other statuses", "best tier met", "from memory")
+SUMMARY_COLUMNS = (
+    "figure",
+    "mean",
+    "standard deviation",
+    "5th percentile",
+    "median (50th)",
+    "95th percentile",
+    "standard error of the mean",
+    "unit",
+)
+CHECK_COLUMNS = (
+    "scheme",
+    "limit",
+    "unit",
+    "mean value",
+    "5th percentile",
+    "95th percentile",
+    "probability of qualifying",
+    "standard error",
+    "other statuses",
+    "best tier met",
+    "from memory",
+)
 
 
 def _number(ws, row: int, column: int, value, number: str | None = None):
@@ -37,7 +58,9 @@ def _number(ws, row: int, column: int, value, number: str | None = None):
 
 
 def _spec_text(spec: dict) -> str:
-    shown = {key: value for key, value in spec.items() if key not in ("distribution", "from_memory") and value is not None}
+    shown = {
+        key: value for key, value in spec.items() if key not in ("distribution", "from_memory") and value is not None
+    }
     parts = []
     for key, value in shown.items():
         if isinstance(value, (list, tuple)):
@@ -63,7 +86,14 @@ def _write_inputs(ws, row: int, result: UncertaintyResult) -> int:
         put_text(ws, row, 3, _spec_text(item.distribution))
         stated = f"{item.stated_in}: {item.default}" if item.default else item.stated_in
         put_text(ws, row, 4, stated or "the run's distributions (project [uncertainty] table or --distributions file)")
-        put_text(ws, row, 5, "yes: pedigree variances from memory of Weidema et al. (2013), ecoinvent Report 1 (v3)" if item.from_memory else "no")
+        put_text(
+            ws,
+            row,
+            5,
+            "yes: pedigree variances from memory of Weidema et al. (2013), ecoinvent Report 1 (v3)"
+            if item.from_memory
+            else "no",
+        )
         row += 1
     if result.default_basis:
         put_text(ws, row, 1, f"Default distributions from the factor rows' source grades: {result.default_basis}")
@@ -72,6 +102,37 @@ def _write_inputs(ws, row: int, result: UncertaintyResult) -> int:
         put_text(ws, row, 1, "rank correlation")
         put_text(ws, row, 2, f"{pair['rank']:g}")
         put_text(ws, row, 3, " and ".join(pair["inputs"]))
+        row += 1
+    return row
+
+
+def _write_checks(ws, row: int, result: UncertaintyResult) -> int:
+    """The probability of each verdict over the draws, one row per scheme check; returns the next row."""
+    row += 1
+    style_cell(put_text(ws, row, 1, "Probability of each verdict (with its Monte Carlo standard error)"), "title")
+    row += 1
+    for column, title in enumerate(CHECK_COLUMNS, start=1):
+        put_text(ws, row, column, title)
+    header_row(ws, row, len(CHECK_COLUMNS))
+    row += 1
+    for check in result.checks:
+        put_text(ws, row, 1, f"{check.scheme}: {check.name}")
+        _number(ws, row, 2, check.limit)
+        put_text(ws, row, 3, check.unit)
+        _number(ws, row, 4, check.value.mean)
+        _number(ws, row, 5, check.value.p5)
+        _number(ws, row, 6, check.value.p95)
+        _number(ws, row, 7, check.probability_qualifies, "0.00%")
+        _number(ws, row, 8, check.standard_error, "0.00%")
+        others = [
+            f"{name.replace('_', ' ')} {item.probability:.2%} (± {item.standard_error:.2%})"
+            for name, item in check.statuses.items()
+            if name != "qualifies" and item.probability > 0
+        ]
+        put_text(ws, row, 9, "; ".join(others) or "none")
+        tiers = [f"{name}: {item.probability:.2%}" for name, item in check.tiers.items() if item.probability > 0]
+        put_text(ws, row, 10, "; ".join(tiers) if len(check.tiers) > 2 else "-")
+        put_text(ws, row, 11, "yes" if check.from_memory else "no")
         row += 1
     return row
 
@@ -90,7 +151,10 @@ def write_uncertainty_sheet(ws, result: UncertaintyResult, draws_csv: str = "") 
         ("GWP100 set of the headline result", result.gwp_basis.upper()),
         ("Factor set", f"{result.factor_set['name']} (sha256 {result.factor_set['sha256']})"),
         ("Draws CSV beside this workbook", draws_csv or "not written (ask for it with --draws-csv)"),
-        ("Caution", f"{result.caution} Probabilities hold only for the distributions below; they are not a verifier's finding."),
+        (
+            "Caution",
+            f"{result.caution} Probabilities hold only for the distributions below; they are not a verifier's finding.",
+        ),
     ]
     row = 3
     for label, value in run:
@@ -111,7 +175,11 @@ def write_uncertainty_sheet(ws, result: UncertaintyResult, draws_csv: str = "") 
     header_row(ws, row, len(SUMMARY_COLUMNS))
     row += 1
     figures = [("Total per functional unit", result.total, result.unit)]
-    figures += [(INTENSITY_LABELS.get(key, key), summary, INTENSITY_UNITS.get(key, key)) for key, summary in result.intensity.items() if summary is not None]
+    figures += [
+        (INTENSITY_LABELS.get(key, key), summary, INTENSITY_UNITS.get(key, key))
+        for key, summary in result.intensity.items()
+        if summary is not None
+    ]
     figures += [(f"Stage: {stage_name(key)}", summary, result.unit) for key, summary in result.by_stage.items()]
     figures += [(f"Gas: {key.replace('_', ' ')}", summary, result.unit) for key, summary in result.by_gas.items()]
     for label, summary, unit in figures:
@@ -122,28 +190,7 @@ def write_uncertainty_sheet(ws, result: UncertaintyResult, draws_csv: str = "") 
         row += 1
 
     if result.checks:
-        row += 1
-        style_cell(put_text(ws, row, 1, "Probability of each verdict (with its Monte Carlo standard error)"), "title")
-        row += 1
-        for column, title in enumerate(CHECK_COLUMNS, start=1):
-            put_text(ws, row, column, title)
-        header_row(ws, row, len(CHECK_COLUMNS))
-        row += 1
-        for check in result.checks:
-            put_text(ws, row, 1, f"{check.scheme}: {check.name}")
-            _number(ws, row, 2, check.limit)
-            put_text(ws, row, 3, check.unit)
-            _number(ws, row, 4, check.value.mean)
-            _number(ws, row, 5, check.value.p5)
-            _number(ws, row, 6, check.value.p95)
-            _number(ws, row, 7, check.probability_qualifies, "0.00%")
-            _number(ws, row, 8, check.standard_error, "0.00%")
-            others = [f"{name.replace('_', ' ')} {item.probability:.2%} (± {item.standard_error:.2%})" for name, item in check.statuses.items() if name != "qualifies" and item.probability > 0]
-            put_text(ws, row, 9, "; ".join(others) or "none")
-            tiers = [f"{name}: {item.probability:.2%}" for name, item in check.tiers.items() if item.probability > 0]
-            put_text(ws, row, 10, "; ".join(tiers) if len(check.tiers) > 2 else "-")
-            put_text(ws, row, 11, "yes" if check.from_memory else "no")
-            row += 1
+        row = _write_checks(ws, row, result)
 
     set_widths(ws, {"A": 46, "B": 16, "C": 30, "D": 16, "E": 14, "F": 14, "G": 14, "H": 16, "I": 30, "J": 30, "K": 10})
     wrap_columns(ws, "ACIJ", 3)

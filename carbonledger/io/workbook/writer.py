@@ -48,7 +48,17 @@ from ...model.factors import CITED_FIELDS
 from ...model.project import parameter_table
 from ...model.statuses import Status
 from ..files import atomic_write
-from ..labels import INTENSITY_LABELS, INTENSITY_UNITS, electricity_rule_name, gas_name, gwp_name, lower_words, stage_name, status_name, unit_name
+from ..labels import (
+    INTENSITY_LABELS,
+    INTENSITY_UNITS,
+    electricity_rule_name,
+    gas_name,
+    gwp_name,
+    lower_words,
+    stage_name,
+    status_name,
+    unit_name,
+)
 from .calculation import (
     CalculationBlock,
     SymbolicModel,
@@ -117,9 +127,19 @@ def _name_cell(workbook, prefix: str, key: str, sheet: str, row: int) -> Term:
     return Term(name)
 
 
-
-
 # the workbook -------------------------------------------------------------------------------
+def _new_workbook():
+    """An empty workbook dated for reproducible builds, with its Cover, Inputs, Factors, Calculation and
+    Results sheets (returned after it, in that order)."""
+    from openpyxl import Workbook
+
+    workbook = Workbook()
+    workbook.properties.created = workbook.properties.modified = written_at()
+    cover = workbook.active
+    cover.title = COVER
+    return workbook, cover, *(workbook.create_sheet(name) for name in (INPUTS, FACTORS, CALCULATION, RESULTS))
+
+
 def build_workbook(
     result: ScoreResult,
     project,
@@ -137,33 +157,23 @@ def build_workbook(
 ):
     """The audit workbook of a scored project, as an openpyxl Workbook (not yet saved).
 
-    ``result`` is the engine's ScoreResult of ``project`` under ``factor_set``: the writer never
-    scores. Its options (GWP set, schemes, boundary) decide the formulas, and its figures are
-    written beside them for comparison. With ``meters`` (``analyses.periods.read_meters``) the
-    Periods sheet is added, with ``month_results`` (``analyses.periods.month_results``) beside it.
-    ``evidence`` (parameter path -> text, as read back from an earlier workbook) fills the
-    Inputs sheet's evidence column, so a workbook written again keeps it. With ``uncertainty``
-    (an ``analyses.uncertainty.UncertaintyResult`` of the same project) the Uncertainty sheet is
+    ``result`` is the engine's ScoreResult of ``project`` under ``factor_set``: the writer never scores. Its options
+    (GWP set, schemes, boundary) decide the formulas, and its figures are written beside them for comparison. With
+    ``meters`` (``analyses.periods.read_meters``) the Periods sheet is added, with ``month_results``
+    (``analyses.periods.month_results``) beside it. ``evidence`` (parameter path -> text, as read back from an
+    earlier workbook) fills the Inputs sheet's evidence column, so a workbook written again keeps it. With
+    ``uncertainty`` (an ``analyses.uncertainty.UncertaintyResult`` of the same project) the Uncertainty sheet is
     added; ``draws_csv`` names the CSV of its draws written beside the workbook, if any. With ``series``
-    (``analyses.electricity_series.ElectricitySeries``) and ``matched_checks`` (the engine's checks
-    with ``electricity_matching``, scored against that series), the Matching and Intervals sheets
-    are added; the other sheets keep the declared annual shares.
+    (``analyses.electricity_series.ElectricitySeries``) and ``matched_checks`` (the engine's checks with
+    ``electricity_matching``, scored against that series), the Matching and Intervals sheets are added; the other
+    sheets keep the declared annual shares.
     """
-    from openpyxl import Workbook
-
     books = rulebooks()
     chosen = [books[check.scheme] for check in result.checks]
     gwp, source = result.gwp_basis, result.project_file
     params = copy_tree(result.parameters)
 
-    workbook = Workbook()
-    workbook.properties.created = workbook.properties.modified = written_at()
-    cover = workbook.active
-    cover.title = COVER
-    inputs_ws = workbook.create_sheet(INPUTS)
-    factors_ws = workbook.create_sheet(FACTORS)
-    calculation_ws = workbook.create_sheet(CALCULATION)
-    results_ws = workbook.create_sheet(RESULTS)
+    workbook, cover, inputs_ws, factors_ws, calculation_ws, results_ws = _new_workbook()
 
     # Inputs: every parameter; numbers become cell references in the symbolic parameters.
     symbolic = copy_tree(params)
@@ -172,15 +182,27 @@ def build_workbook(
     symbolic["project"]["boundary"] = result.boundary
 
     model = _checked_symbolic_model(symbolic, factor_set, result, chosen)
-    period_plan = None
-    if meters is not None:
-        period_plan = plan_periods(meters, params, model, factor_set, engine=month_results)
+    # the plan reads its factors before the Factors sheet lists the factors used
+    period_plan = plan_periods(meters, params, model, factor_set, engine=month_results) if meters is not None else None
 
     address = _write_factors_sheet(factors_ws, model.inputs.used)
-    block = write_calculation_block(calculation_ws, model, chosen, address, top=1, title="Calculation: every exchange as a live formula")
+    block = write_calculation_block(
+        calculation_ws, model, chosen, address, top=1, title="Calculation: every exchange as a live formula"
+    )
     results_cells = _write_results_sheet(results_ws, model, chosen, block, address, result)
     if period_plan is not None:
-        write_periods_sheet(workbook.create_sheet(PERIODS), period_plan, params, input_cell, model, block, address, result.unit, chosen, results_cells)
+        write_periods_sheet(
+            workbook.create_sheet(PERIODS),
+            period_plan,
+            params,
+            input_cell,
+            model,
+            block,
+            address,
+            result.unit,
+            chosen,
+            results_cells,
+        )
     series_source = _write_matching_sheets(workbook, series, matched_checks, block, model)
     _write_cover(
         cover,
@@ -206,7 +228,14 @@ def _write_matching_sheets(workbook, series, matched_checks, block: CalculationB
     matched = [check for check in matched_checks or [] if check.electricity_matching is not None]
     if series is None or not matched:
         return ""
-    write_intervals_sheets(workbook.create_sheet(MATCHING), workbook.create_sheet(INTERVALS), series, matched, block, model.inventory.hydrogen)
+    write_intervals_sheets(
+        workbook.create_sheet(MATCHING),
+        workbook.create_sheet(INTERVALS),
+        series,
+        matched,
+        block,
+        model.inventory.hydrogen,
+    )
     return f"{series.path} (sha256 {series.sha256})"
 
 
@@ -254,7 +283,11 @@ def _style_calculation(ws, block: CalculationBlock, result: ScoreResult) -> None
         amount = engine.amount if engine else None
         style_cell(ws.cell(row=row, column=7), "formula", number_format(amount))
         style_cell(ws.cell(row=row, column=8), "formula", number_format(supply.get(key)))
-        style_cell(ws.cell(row=row, column=9), "formula", number_format(amount * supply.get(key, 1.0) if amount is not None else None))
+        style_cell(
+            ws.cell(row=row, column=9),
+            "formula",
+            number_format(amount * supply.get(key, 1.0) if amount is not None else None),
+        )
         if exchange.kind == "biosphere":
             style_cell(ws.cell(row=row, column=10), "formula", "#,##0.0")
             for column in range(11, ws.max_column + 1):
@@ -264,14 +297,24 @@ def _style_calculation(ws, block: CalculationBlock, result: ScoreResult) -> None
     ws.freeze_panes = ws.cell(row=first_activity, column=2)
 
 
-
-
 def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], evidence: dict[str, str]) -> None:
-    put_text(ws, 1, 1, "Inputs: every project parameter. Edit a value here and every formula follows; "
-             "`carbonledger score --from-workbook` reads this sheet back.")
-    put_text(ws, 2, 1, "Record in the evidence column the meter, invoice or design document behind each value. Numbers are named cells (p_<parameter path>). "
-             "Text options (route, technology, sources, factor ids) fix the structure of the calculation: after changing one, write a new workbook with "
-             "`carbonledger workbook --from-workbook`.")
+    put_text(
+        ws,
+        1,
+        1,
+        "Inputs: every project parameter. Edit a value here and every formula follows; "
+        "`carbonledger score --from-workbook` reads this sheet back.",
+    )
+    put_text(
+        ws,
+        2,
+        1,
+        "Record in the evidence column the meter, invoice or design document "
+        "behind each value. Numbers are named cells (p_<parameter path>). "
+        "Text options (route, technology, sources, factor ids) fix the structure "
+        "of the calculation: after changing one, write a new workbook with "
+        "`carbonledger workbook --from-workbook`.",
+    )
     for column, title in enumerate(INPUT_COLUMNS, start=1):
         put_text(ws, INPUT_HEADER_ROW, column, title)
     header_row(ws, INPUT_HEADER_ROW, len(INPUT_COLUMNS))
@@ -309,8 +352,20 @@ def _put_factor_field(ws, row: int, column: int, name: str, item) -> None:
 
 
 def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
-    put_text(ws, 1, 1, "Factors: every factor the calculation uses, with its source and source grade (primary text, verbatim secondary, secondary, not yet verified against the source document, invented).")
-    put_text(ws, 2, 1, "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; molar masses (reference.*) come from the chemicals library and are not.")
+    put_text(
+        ws,
+        1,
+        1,
+        "Factors: every factor the calculation uses, with its source and source grade (primary text, "
+        "verbatim secondary, secondary, not yet verified against the source document, invented).",
+    )
+    put_text(
+        ws,
+        2,
+        1,
+        "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; "
+        "molar masses (reference.*) come from the chemicals library and are not.",
+    )
     for column, title in enumerate(FACTOR_COLUMNS, start=1):
         put_text(ws, FACTOR_HEADER_ROW, column, title)
     header_row(ws, FACTOR_HEADER_ROW, len(FACTOR_COLUMNS))
@@ -341,8 +396,29 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
     threshold_rows, last_threshold_row = _write_thresholds_table(ws, thresholds_header, chosen)
     _write_checks_table(ws, checks_header, model, chosen, block, address, engine, threshold_rows, cells)
     longest_name = max((len(scheme.name) for scheme in chosen), default=20)
-    set_widths(ws, {"A": 40, "B": min(max(24, longest_name + 2), 64), "C": 18, "D": 18, "E": 18, "F": 20, "G": 18, "H": 16, "I": 14,
-                    "J": 13, "K": 13, "L": 10, "M": 14, "N": 28, "O": 10, "P": 14, "Q": 16, "R": 90})
+    set_widths(
+        ws,
+        {
+            "A": 40,
+            "B": min(max(24, longest_name + 2), 64),
+            "C": 18,
+            "D": 18,
+            "E": 18,
+            "F": 20,
+            "G": 18,
+            "H": 16,
+            "I": 14,
+            "J": 13,
+            "K": 13,
+            "L": 10,
+            "M": 14,
+            "N": 28,
+            "O": 10,
+            "P": 14,
+            "Q": 16,
+            "R": 90,
+        },
+    )
     ws.row_dimensions[checks_header].height = 45
     ws.freeze_panes = ws.cell(row=5, column=2)
     style_cell(ws.cell(row=1, column=1), "title")
@@ -353,11 +429,21 @@ def _write_results_sheet(ws, model: SymbolicModel, chosen, block: CalculationBlo
 def _write_results_heading(ws, model: SymbolicModel, engine) -> None:
     """The title, the caution and what the last column holds."""
     functional_unit, _ = FUNCTIONAL_UNITS[model.inventory.product]
-    put_text(ws, 1, 1, f"Results per functional unit ({functional_unit}), GWP100 {engine.gwp_basis.upper()}: "
-                       "live formulas over the Calculation sheet.")
+    put_text(
+        ws,
+        1,
+        1,
+        f"Results per functional unit ({functional_unit}), GWP100 {engine.gwp_basis.upper()}: "
+        "live formulas over the Calculation sheet.",
+    )
     put_text(ws, 2, 1, CAUTION)
-    put_text(ws, 3, 1, "The last column holds the figure carbonledger's engine (bw2calc) computed when the workbook "
-                       "was written, for comparison only.")
+    put_text(
+        ws,
+        3,
+        1,
+        "The last column holds the figure carbonledger's engine (bw2calc) computed when the workbook "
+        "was written, for comparison only.",
+    )
 
 
 def _table_header(ws, row: int, texts) -> None:
@@ -401,10 +487,14 @@ def _write_gas_table(ws, row: int, block: CalculationBlock, address, engine, uni
     return row
 
 
-def _write_intensity_table(ws, row: int, model: SymbolicModel, block: CalculationBlock, address, engine, total, cells: dict) -> int:
+def _write_intensity_table(
+    ws, row: int, model: SymbolicModel, block: CalculationBlock, address, engine, total, cells: dict
+) -> int:
     """The intensities of the ``total`` cell and the hydrogen plant gate figure from ``row``; returns the last row."""
     _table_header(ws, row, ("intensity", "value", "unit", "engine at writing"))
-    figures = intensities(total, model.inventory.reference_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)
+    figures = intensities(
+        total, model.inventory.reference_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction
+    )
     engine_figures = engine.intensity.model_dump()
     for key, term in figures.items():
         if term is None:
@@ -447,29 +537,52 @@ def _write_thresholds_table(ws, header: int, chosen) -> tuple[dict[str, list[tup
 
 
 CHECK_COLUMNS = (
-    "scheme", "name", "basis", "GWP100 set", "electricity rule", "stages left out", "quantity", "unit",
-    "kg CO2e per unit of basis", "value", "threshold (loosest tier)", "status (live)", "margin (threshold - value)",
-    "best tier met", "from memory", "engine value at writing", "status (rules read at writing)", "reasons (rule and source)",
+    "scheme",
+    "name",
+    "basis",
+    "GWP100 set",
+    "electricity rule",
+    "stages left out",
+    "quantity",
+    "unit",
+    "kg CO2e per unit of basis",
+    "value",
+    "threshold (loosest tier)",
+    "status (live)",
+    "margin (threshold - value)",
+    "best tier met",
+    "from memory",
+    "engine value at writing",
+    "status (rules read at writing)",
+    "reasons (rule and source)",
 )
 
 
-def _write_checks_table(ws, header: int, model: SymbolicModel, chosen, block, address, engine, threshold_rows, cells: dict) -> None:
+def _write_checks_table(
+    ws, header: int, model: SymbolicModel, chosen, block, address, engine, threshold_rows, cells: dict
+) -> None:
     """One row per scheme: its live value, status, margin and tier beside the engine's at writing."""
     _table_header(ws, header, CHECK_COLUMNS)
     engine_checks = {check.scheme: check for check in engine.checks}
     for row, scheme in enumerate(chosen, start=header + 1):
-        _write_check_row(ws, row, model, scheme, block, address, engine, engine_checks.get(scheme.id), threshold_rows[scheme.id])
+        _write_check_row(
+            ws, row, model, scheme, block, address, engine, engine_checks.get(scheme.id), threshold_rows[scheme.id]
+        )
         cells[f"check:{scheme.id}"] = row
 
 
 def _scheme_value_term(row: int, model: SymbolicModel, scheme, block: CalculationBlock, engine) -> tuple[Term, Term]:
-    """The scheme's kg CO2e per unit of basis (a sum over its Calculation column) and its value in the scheme's quantity."""
+    """The scheme's kg CO2e per unit of basis (a sum over its Calculation column) and its value in the scheme's
+    quantity."""
     rows = [r for r, _, e in block.exchange_rows if e.kind == "biosphere"]
     column = block.scheme_column[scheme.id]
     scheme_total = Term(f"SUM({block.sheet}!${column}${rows[0]}:${column}${rows[-1]})") if rows else Term("0")
     basis_product = basis_product_of(scheme, model.inventory)
-    value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[scheme.quantity]
-    if declared_addition(scheme, model.inventory, engine.parameters):  # a producer's declared e_td (g CO2e/MJ), an input cell
+    value = intensities(local("I", row), basis_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction)[
+        scheme.quantity
+    ]
+    # a producer's declared e_td (g CO2e/MJ), an input cell
+    if declared_addition(scheme, model.inventory, engine.parameters):
         value = value + Term.of(model.declared_e_td)
     return scheme_total, value
 
@@ -477,7 +590,8 @@ def _scheme_value_term(row: int, model: SymbolicModel, scheme, block: Calculatio
 def _live_status(ws, row: int, scheme, engine_check, co_product_note: str, address) -> None:
     """Column L: the live verdict formula, or the fixed words when the scheme's co-product rule decides."""
     if co_product_note.startswith("cannot be judged"):
-        put_text(ws, row, 12, Status.UNDETERMINED.words)  # the scheme's co-product rule cannot be applied: undetermined whatever the value
+        # the scheme's co-product rule cannot be applied: undetermined whatever the value
+        put_text(ws, row, 12, Status.UNDETERMINED.words)
     elif co_product_note.startswith("scheme value rescored"):
         # the scheme's co-product rule differs from the project's: the live value keeps the project's method, the
         # engine value (column P) and status (Q) are the scheme's; the reasons say so
@@ -498,8 +612,16 @@ def _tier_formula(row: int, tiers: list[tuple[int, Any]]) -> Term:
 
 def _write_check_row(ws, row: int, model: SymbolicModel, scheme, block, address, engine, engine_check, tiers) -> None:
     """One scheme's check: words, live formulas, and the engine's value, status and reasons at writing."""
-    words = (scheme.id, scheme.name, lower_words(scheme.basis), gwp_name(scheme.gwp), electricity_rule_name(scheme.electricity),
-             ", ".join(stage_name(s) for s in scheme.excluded_stages) or "none", unit_name(scheme.quantity), scheme.unit)
+    words = (
+        scheme.id,
+        scheme.name,
+        lower_words(scheme.basis),
+        gwp_name(scheme.gwp),
+        electricity_rule_name(scheme.electricity),
+        ", ".join(stage_name(s) for s in scheme.excluded_stages) or "none",
+        unit_name(scheme.quantity),
+        scheme.unit,
+    )
     for number, text in enumerate(words, start=1):
         put_text(ws, row, number, text)
     scheme_total, value = _scheme_value_term(row, model, scheme, block, engine)
@@ -553,7 +675,9 @@ def _figure(ws, row: int, term, address, engine_value) -> None:
     style_cell(ws.cell(row=row, column=4), "engine", shown)
 
 
-def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source, series_source: str = "") -> None:
+def _write_cover(
+    ws, engine, factor_set, *, gwp, chosen, factors_option, source, meters_source, series_source: str = ""
+) -> None:
     put_text(ws, 1, 1, "carbonledger audit workbook")
     ws.cell(row=1, column=1).font = font_bold()
     put_text(ws, 2, 1, f"Caution: {CAUTION}")
@@ -588,10 +712,21 @@ def _write_cover(ws, engine, factor_set, *, gwp, chosen, factors_option, source,
         "How to read this workbook:",
         "Inputs: the project parameters. Factors: every factor used, with its source.",
         "Calculation: the supply of each activity per functional unit and one row per exchange, all live formulas.",
-        "Results: totals by stage and gas, intensities, each scheme's check under its own GWP set and electricity rule, and a chart.",
-        "Change an input or a factor and every figure follows. The engine's own figures are shown beside the formulas for comparison.",
-        *(("Matching and Intervals: the electricity time series, one row per interval, matched with contracted generation under each scheme's temporal rule (live formulas); Calculation and Results keep the declared annual shares.",) if series_source else ()),
-        "Scheme checks use each scheme's rulebook as carbonledger reads it; the scheme's official methodology and an accredited verifier decide.",
+        "Results: totals by stage and gas, intensities, each scheme's check "
+        "under its own GWP set and electricity rule, and a chart.",
+        "Change an input or a factor and every figure follows. The engine's "
+        "own figures are shown beside the formulas for comparison.",
+        *(
+            (
+                "Matching and Intervals: the electricity time series, one row per interval, "
+                "matched with contracted generation under each scheme's temporal rule (live "
+                "formulas); Calculation and Results keep the declared annual shares.",
+            )
+            if series_source
+            else ()
+        ),
+        "Scheme checks use each scheme's rulebook as carbonledger reads it; the "
+        "scheme's official methodology and an accredited verifier decide.",
     )
     for text in guide:
         put_text(ws, row, 1, text)
@@ -618,7 +753,8 @@ def written_at() -> _dt.datetime:
 
     References
     ----------
-    .. [1] Reproducible Builds, "SOURCE_DATE_EPOCH specification", https://reproducible-builds.org/specs/source-date-epoch/
+    .. [1] Reproducible Builds, "SOURCE_DATE_EPOCH specification",
+    https://reproducible-builds.org/specs/source-date-epoch/
     """
     epoch = os.environ.get("SOURCE_DATE_EPOCH", "")
     moment = _dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch.isdigit() else _dt.datetime.now(_dt.UTC)
