@@ -200,3 +200,20 @@ def test_lifetime_runs_are_recorded_with_their_lifetime_values(_ledger_in_tmp):
     # the trajectory rows (invented, 281 g CO2e/kWh in 2027) are stored with the factors used
     assert {"id": "trajectory.2027", "value": 281.0}.items() <= next(r for r in first["factors_used"] if r["id"] == "trajectory.2027").items()
     assert second["kind"] == "score"
+
+
+def test_a_relative_project_path_is_keyed_from_the_folder_it_was_named_in(tmp_path, monkeypatch):
+    """The ledger keys a project by its absolute path (resolved once per folder and name): the same relative
+    name given in two folders is two projects (POSIX path resolution, common practice)."""
+    from carbonledger import api
+    from carbonledger.io.ledger import to_record
+
+    result = api.score(DEMO / "green_electrolysis_ammonia.toml")
+    (tmp_path / "a").mkdir()
+    (tmp_path / "b").mkdir()
+    named = result.model_copy(update={"project_file": "p.toml"})
+    monkeypatch.chdir(tmp_path / "a")
+    first = to_record(named).project_path
+    monkeypatch.chdir(tmp_path / "b")
+    second = to_record(named).project_path
+    assert (first, second) == (str((tmp_path / "a" / "p.toml").resolve()), str((tmp_path / "b" / "p.toml").resolve()))

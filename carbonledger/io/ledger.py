@@ -292,11 +292,25 @@ def factor_row(item) -> dict:
     return plain_factor_row(Factor.model_validate(item))
 
 
-@functools.lru_cache(maxsize=65536)
+_STORED_ROWS: dict[int, tuple[Factor, dict]] = {}
+
+
 def _stored_row(row: Factor) -> dict:
     """Rows are frozen and shared by every result scored with one factor set: a portfolio of
-    thousands of results turns each distinct row into plain values once."""
-    return plain_factor_row(row)
+    thousands of results turns each distinct row into plain values once (held by the row's identity,
+    which costs nothing to look up, where hashing a row hashes every field)."""
+    held = _STORED_ROWS.get(id(row))
+    if held is None or held[0] is not row:
+        if len(_STORED_ROWS) > 65536:
+            _STORED_ROWS.clear()
+        held = _STORED_ROWS[id(row)] = (row, plain_factor_row(row))
+    return held[1]
+
+
+@functools.lru_cache(maxsize=65536)
+def _resolved(cwd: str, path: str) -> str:
+    """The absolute path the ledger keys a project by (a recalc records each project twice)."""
+    return str(Path(cwd, path).resolve())
 
 
 _RECORD_KEYS = {item.name for item in fields(LedgerRecord)}
@@ -318,7 +332,7 @@ def to_record(result, kind: str = "score") -> LedgerRecord:
     if isinstance(result, LedgerRecord):
         return result
     entry = result.ledger_entry(kind)
-    entry["project_path"] = str(Path(entry["project_path"]).resolve())
+    entry["project_path"] = _resolved(os.getcwd(), str(entry["project_path"]))
     entry["factors_used"] = [factor_row(row) for row in entry["factors_used"]]
     entry["assessment_year"] = assessment_year(result, entry)
     entry["carbonledger_version"] = str(getattr(result, "carbonledger_version", None) or __version__)
@@ -346,8 +360,11 @@ def _write_records(
     factors: dict[str, str] = {}
     factor_cache: dict[tuple, tuple[str, str]] = {}
     rows = []
+    parameters_cache: dict[int, tuple[str, str]] = {}  # by identity: a rescored project's two records share one dict
     for item_key, record in items:
-        parameters_json, parameters_sha = _canonical(record.parameters)
+        if id(record.parameters) not in parameters_cache:
+            parameters_cache[id(record.parameters)] = _canonical(record.parameters)
+        parameters_json, parameters_sha = parameters_cache[id(record.parameters)]
         parameters[parameters_sha] = parameters_json
         cache_key = (record.factor_set_sha256, tuple(row.get("id") for row in record.factors_used))
         if cache_key not in factor_cache:
