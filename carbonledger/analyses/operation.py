@@ -14,6 +14,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import Any
 
+from ..core.assessment import Assessment
 from ..errors import InputError
 from ..model.levers import Lever
 from .electricity_series import ElectricitySeries
@@ -38,7 +39,7 @@ def plan_operation(project, factor_set, series: ElectricitySeries, scheme: str, 
     """The least-cost operation that keeps ``scheme`` qualifying, or None when no plan qualifies.
     ``where``: the levers file and the lever's field, named when an option of the lever cannot plan."""
     try:
-        plan = plan_project(project, factor_set, series, scheme, source=source, rated_kw=lever.rated_kw, min_load=lever.min_load, hydrogen_price=lever.hydrogen_price, gwp=gwp, year=year)
+        plan = plan_project(project, Assessment(factor_set, gwp, year=year), series, scheme, source=source, rated_kw=lever.rated_kw, min_load=lever.min_load, hydrogen_price=lever.hydrogen_price)
     except InputError as error:
         if error.source == "plan":  # the program has no plan that makes hydrogen and qualifies
             return None
