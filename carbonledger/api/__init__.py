@@ -37,6 +37,7 @@ WHERE = {
     "factor_set_of": ".scoring",
     "boundary_overrides": "carbonledger.model.project",
     "score_workbook": ".workbooks",
+    "cover_assessment": ".workbooks",
     "audit_workbook": ".workbooks",
     "load_any_project": ".workbooks",
     "compare": ".comparison",
