@@ -60,7 +60,7 @@ def main(count: int, draws: int, workers: int) -> None:
         serial = api.uncertainty_many([folder], distributions=spec, draws=draws)
         serial_seconds = time.perf_counter() - start
         print(f"{count} projects x {draws} draws, one process: {serial_seconds:.1f} s ({serial_seconds / count * 1000:.1f} ms per project); peak memory {peak_mb(resource.RUSAGE_SELF):.0f} MB")
-        options = {"distributions": spec, "draws": draws, "seed": api.DEFAULT_SEED, "sampling": None, "factors": "default-2026", "gwp": "ar6", "schemes": None, "boundary": None}
+        options = {"distributions": spec, "draws": draws, "seed": api.DEFAULT_SEED, "sampling": None, "assessment": api.Assessment(api.load_factor_set())}
         tasks = [(str(path), options) for path in project_files([folder])]
         start = time.perf_counter()
         with dask_mapper(workers, None) as (mapper, _):

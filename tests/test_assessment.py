@@ -7,7 +7,7 @@ assessment year)."""
 from __future__ import annotations
 
 import pytest
-from helpers import DEMO
+from helpers import DEMO, assessment_with
 
 from carbonledger import api
 from carbonledger.analyses.pipeline import assess, read
@@ -47,7 +47,7 @@ def test_the_pipeline_gives_what_score_gives():
     assessment = Assessment(FACTORS, gwp="ar5", boundary="well-to-wake", year=2031)
     project, sha, series = read(assessment, BLUE)
     through_pipeline = assess(assessment, project, source=str(BLUE), project_sha256=sha, series=series)
-    through_api = api.score(BLUE, factors=FACTORS, gwp="ar5", boundary="well-to-wake", year=2031)
+    through_api = api.score(BLUE, assessment=assessment_with(factors=FACTORS, gwp="ar5", boundary="well-to-wake", year=2031))
     assert through_pipeline.total == through_api.total
     assert [(c.scheme, c.status, c.value) for c in through_pipeline.checks] == [(c.scheme, c.status, c.value) for c in through_api.checks]
     assert through_pipeline.boundary == "well-to-wake" and through_pipeline.assessment_year == 2031
@@ -59,7 +59,7 @@ def test_one_assessment_moved_to_another_year_reads_the_rules_of_that_year():
     assessment = Assessment(FACTORS, schemes=("eu-rfnbo",), year=2029)
     granularity = {}
     for year in (2029, 2031):
-        result = api.assess_file(assessment.but(year=year), HOURLY)
+        result = api.score(HOURLY, assessment.but(year=year))
         granularity[year] = result.checks[0].electricity_matching.granularity
     assert granularity == {2029: "month", 2031: "hour"}
 
