@@ -143,9 +143,9 @@ def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, scheme
 
 def audit_workbook(
     project_file: str | Path | None = None,
+    assessment: Assessment | None = None,
     *,
     from_workbook: str | Path | None = None,
-    assessment: Assessment | None = None,
     periods: str | Path | None = None,
     draws: int | None = None,
     seed: int = DEFAULT_SEED,
@@ -162,11 +162,11 @@ def audit_workbook(
     ----------
     project_file : str, Path or None
         The project TOML file; None with ``from_workbook``.
-    from_workbook : str, Path or None
-        An earlier audit workbook whose inputs, edited factors and cover settings are read back.
     assessment : Assessment or None
         The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year); None: the
         defaults (``api.scoring.assessment_or_default``).
+    from_workbook : str, Path or None
+        An earlier audit workbook whose inputs, edited factors and cover settings are read back.
     periods : str, Path or None
         A meters CSV of operating months, shown on a Periods sheet beside the design (cradle-to-gate only).
     draws : int or None
