@@ -222,7 +222,7 @@ def test_compare_reads_audit_workbooks(tmp_path):
             row[1].value = 0.02
     book.save(book_path)
     result = compare([DEMO / "blue_atr_ammonia.toml", book_path])
-    expected = score(DEMO / "grey_smr_ammonia.toml", overrides=["natural_gas.methane_emission_share=0.02"])
+    expected = score(DEMO / "grey_smr_ammonia.toml", assessment_with(overrides=["natural_gas.methane_emission_share=0.02"]))
     assert result.projects[1].total == pytest.approx(expected.total, rel=1e-12)
     assert run("compare", DEMO / "blue_atr_ammonia.toml", "--from-workbook", book_path).exit_code == 0
 

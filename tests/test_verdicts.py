@@ -245,7 +245,7 @@ def test_the_default_assessment_year_is_the_first_full_year_of_operation():
 )
 def test_bad_declarations_are_one_line_errors(options, field, expected):
     with pytest.raises(InputError) as error:
-        score(CRACKED, **options)
+        score(CRACKED, assessment_with(**options))
     assert field in str(error.value) and expected in str(error.value)
 
 
