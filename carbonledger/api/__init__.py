@@ -9,7 +9,7 @@ One module per command family, so that a command imports only what it uses (``ca
 score`` loads ``api.scoring`` and none of the analyses):
 
 - ``api.scoring``: score, and the shared edges (assessment_or_default, factor_set_of, boundary_overrides);
-- ``api.workbooks``: audit_workbook, score_workbook, load_any_project;
+- ``api.workbooks``: audit_workbook, score_workbook, cover_assessment, load_any_project;
 - ``api.comparison``: compare;
 - ``api.portfolios``: recalc (recalc_and_record), lifetime;
 - ``api.operating_plan``: plan, matching_chart;
