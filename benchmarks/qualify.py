@@ -93,8 +93,11 @@ def main() -> None:
     with tempfile.TemporaryDirectory() as folder:
         levers = Path(folder) / "levers.toml"
         levers.write_text(LEVERS, encoding="utf-8")
-        options = {"schemes": ["eu-low-carbon", "us-45v"], "overrides": START, "year": 2028}
-        api.score(PROJECT, overrides=START)  # imports bw2calc once, outside the timings
+        assessment = api.Assessment(
+            api.load_factor_set(), schemes=("eu-low-carbon", "us-45v"), overrides=tuple(START), year=2028
+        )
+        options = {"assessment": assessment}
+        api.score(PROJECT, assessment.but(schemes=None, year=None))  # imports bw2calc once, outside the timings
         print(
             "qualify on demo_projects/blue_atr_ammonia_shipped.toml (well-to-wake), 5 continuous + 2 discrete levers, "
             "eu-low-carbon and us-45v, rules of 2028"

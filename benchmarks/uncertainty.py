@@ -28,6 +28,7 @@ from carbonledger.analyses.uncertainty import (  # noqa: E402
     monte_carlo,
     monte_carlo_with_bw2calc,
 )
+from carbonledger.core.assessment import Assessment  # noqa: E402
 from carbonledger.model.distributions import parse_uncertainty, read_distributions_file  # noqa: E402
 from carbonledger.model.factors import load_factor_set  # noqa: E402
 from carbonledger.routes.project import load_project  # noqa: E402
@@ -55,10 +56,10 @@ def main() -> None:
     draws = int(sys.argv[1]) if len(sys.argv) > 1 else 10_000
     bw_draws = int(sys.argv[2]) if len(sys.argv) > 2 else 500
     project, _ = load_project(ROOT / "demo_projects" / "blue_atr_ammonia.toml")
-    factor_set = load_factor_set("default-2026")
+    assessment = Assessment(load_factor_set("default-2026"))  # the run's options: the default set, AR6
     full = read_distributions_file(ROOT / "demo_projects" / "uncertainty" / "blue_atr_ammonia.toml")
-    monte_carlo(project, factor_set, full, draws=100)  # warm the imports (scipy, chemicals)
-    seconds = best_of(3, lambda: monte_carlo(project, factor_set, full, draws=draws))
+    monte_carlo(project, assessment, full, draws=100)  # warm the imports (scipy, chemicals)
+    seconds = best_of(3, lambda: monte_carlo(project, assessment, full, draws=draws))
     print(
         f"full chain, {len(full.parameters)} parameters + {len(full.factors)} factors uncertain, one rank correlation:"
     )
@@ -67,7 +68,7 @@ def main() -> None:
         f"s ({seconds / draws * 1e6:.1f} us per draw)"
     )
 
-    plan = make_plan(project, factor_set, parse_uncertainty(FACTORS_ONLY, "benchmark"))
+    plan = make_plan(project, assessment, parse_uncertainty(FACTORS_ONLY, "benchmark"))
     ours = best_of(3, lambda: evaluate(plan, draw(plan, draws), draws))
     monte_carlo_with_bw2calc(plan, 5)  # warm bw2calc's import
     start = time.perf_counter()

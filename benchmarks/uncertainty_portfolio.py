@@ -68,10 +68,7 @@ def main(count: int, draws: int, workers: int) -> None:
             "draws": draws,
             "seed": api.DEFAULT_SEED,
             "sampling": None,
-            "factors": "default-2026",
-            "gwp": "ar6",
-            "schemes": None,
-            "boundary": None,
+            "assessment": api.Assessment(api.load_factor_set()),
         }
         tasks = [(str(path), options) for path in project_files([folder])]
         start = time.perf_counter()

@@ -378,7 +378,8 @@ def demo_pictures() -> None:
     from carbonledger.io.score_chart import write_score_chart
 
     OUT.mkdir(parents=True, exist_ok=True)
-    comparison = api.compare([DEMO / f"{name}.toml" for name in SHIPPED], boundary="well-to-tank", basis="mj")
+    well_to_tank = api.Assessment(api.load_factor_set(), boundary="well-to-tank")
+    comparison = api.compare([DEMO / f"{name}.toml" for name in SHIPPED], well_to_tank, basis="mj")
     write_chart(comparison, OUT / "compare_demo.svg", force=True)
     write_score_chart(api.score(DEMO / "blue_atr_ammonia.toml"), OUT / "score_demo.svg", force=True)
 

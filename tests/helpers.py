@@ -29,3 +29,11 @@ def write(path: Path, text: str) -> Path:
     path.parent.mkdir(parents=True, exist_ok=True)
     path.write_text(text, encoding="utf-8")
     return path
+
+
+def assessment_with(factors="default-2026", gwp: str = "ar6", schemes=None, overrides=None, boundary=None, year=None, matching=None):
+    """An ``Assessment`` from the options a test names (a factor set name, folder, CSV or loaded set; lists for
+    schemes and overrides), as the command line builds one."""
+    from carbonledger.api import Assessment, factor_set_of
+
+    return Assessment(factor_set_of(factors), gwp, tuple(schemes) if schemes else None, tuple(overrides or ()), boundary, year, matching)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from carbonledger.api import score
+from carbonledger.api import Assessment, load_factor_set, score
 
 ROOT = Path(__file__).resolve().parent.parent
 SNAPSHOT = ROOT / "tests" / "snapshots" / "demo_results.json"
@@ -18,9 +18,10 @@ def demos() -> list[Path]:
 def demo_figures() -> dict:
     """{demo path (relative) | boundary: figures}; each project in its default assessment year."""
     out = {}
+    factor_set = load_factor_set()
     for path in demos():
         for boundary in BOUNDARIES:
-            r = score(path, boundary=boundary)
+            r = score(path, Assessment(factor_set, boundary=boundary))
             out[f"{path.relative_to(ROOT).as_posix()}|{boundary}"] = {
                 "assessment_year": r.assessment_year,
                 "total": r.total,

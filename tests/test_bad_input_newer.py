@@ -27,7 +27,7 @@ import zipfile
 from pathlib import Path
 
 import pytest
-from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, run_cli, write
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger import api
 
@@ -274,7 +274,7 @@ def test_draw_blocks_shrink_so_a_large_system_stays_within_memory(tmp_path):
     from carbonledger.routes.project import load_project
 
     project, _ = load_project(_many_sources(tmp_path, 100))
-    plan = make_plan(project, load_factor_set("default-2026"), Uncertainty.model_validate({"factors": {"electricity.grid.eu27_2018": {"distribution": "normal", "mean": 281.0, "sd": 28.0}}}))
+    plan = make_plan(project, assessment_with(factors=load_factor_set("default-2026")), Uncertainty.model_validate({"factors": {"electricity.grid.eu27_2018": {"distribution": "normal", "mean": 281.0, "sd": 28.0}}}))
     block = draws_per_block(plan)
     activities = 100 + 1  # one per source and the plant, at least
     assert 1 <= block and block * 8 * activities**2 <= MEMORY_PER_BLOCK_BYTES

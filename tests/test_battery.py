@@ -7,6 +7,7 @@ Every battery figure is invented for the tests."""
 from __future__ import annotations
 
 import pytest
+from helpers import assessment_with
 from scipy.optimize import linprog
 
 from carbonledger import api
@@ -59,11 +60,11 @@ def test_a_battery_worked_by_hand(tmp_path):
     without = api.score(write(tmp_path / "plain.toml", PROJECT))
     assert without.total == pytest.approx(KWH_PER_KG * (0.4 * WIND_G + 0.6 * GRID_G) / 1000, rel=1e-12)
     # a battery of efficiency 1 delivering the same share is the wind share moved to 0.6 (no losses)
-    lossless = api.score(project, overrides=["electricity.battery.round_trip_efficiency=1"])
+    lossless = api.score(project, assessment=assessment_with(overrides=["electricity.battery.round_trip_efficiency=1"]))
     moved = api.score(write(tmp_path / "moved.toml", PROJECT.replace("share = 0.6", "share = 0.4").replace("share = 0.4\nfactor = \"electricity.renewable", "share = 0.6\nfactor = \"electricity.renewable")))
     assert lossless.total == pytest.approx(moved.total, rel=1e-12)
     # losses raise the electricity bought: a lower efficiency never lowers the total
-    worse = api.score(project, overrides=["electricity.battery.round_trip_efficiency=0.5"])
+    worse = api.score(project, assessment=assessment_with(overrides=["electricity.battery.round_trip_efficiency=0.5"]))
     assert worse.total > with_battery.total
 
 

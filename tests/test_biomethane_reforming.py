@@ -18,7 +18,7 @@ import json
 import shutil
 
 import pytest
-from helpers import ROOT, assert_one_line_error, run_cli, write
+from helpers import ROOT, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger.api import score
 
@@ -60,7 +60,7 @@ def _project(tmp_path, capture=0.9):
 
 
 def test_worked_example_by_hand(tmp_path):
-    result = score(_project(tmp_path), schemes=["us-45v"])
+    result = score(_project(tmp_path), assessment=assessment_with(schemes=["us-45v"]))
     counted = COUNTED_NO_CAPTURE + CAPTURED * 110 / 1000 * 11 / 1000  # plus the capture compression electricity
     assert result.total == pytest.approx(counted, rel=1e-4)
     assert result.biogenic_co2_kg["released"] == pytest.approx(RELEASED, rel=1e-4)
@@ -74,8 +74,8 @@ def test_worked_example_by_hand(tmp_path):
 def test_captured_biogenic_co2_is_never_netted(tmp_path):
     """Capture adds only its compression electricity: the 4.79 kg stored CO2 is not subtracted from the
     total or from a scheme value (no shipped rulebook nets it)."""
-    with_capture = score(_project(tmp_path, 0.9), schemes=["us-45v"])
-    without = score(_project(tmp_path, 0.0), schemes=["us-45v"])
+    with_capture = score(_project(tmp_path, 0.9), assessment=assessment_with(schemes=["us-45v"]))
+    without = score(_project(tmp_path, 0.0), assessment=assessment_with(schemes=["us-45v"]))
     assert without.total == pytest.approx(COUNTED_NO_CAPTURE, rel=1e-4)
     assert with_capture.total > without.total
     assert with_capture.checks[0].value > without.checks[0].value
@@ -91,11 +91,11 @@ def test_a_rulebook_that_nets_stored_biogenic_co2(tmp_path, monkeypatch):
     shutil.copytree(ROOT / "factors", factors)
     scheme = factors / "schemes" / "us-45v.toml"
     scheme.write_text(scheme.read_text().replace("nets_stored_biogenic_co2 = false", "nets_stored_biogenic_co2 = true"))
-    plain = score(_project(tmp_path), schemes=["us-45v"])
+    plain = score(_project(tmp_path), assessment=assessment_with(schemes=["us-45v"]))
     monkeypatch.setenv("CARBONLEDGER_FACTORS", str(factors))
     scoring.shipped_rulebooks.cache_clear()
     try:
-        netted = score(_project(tmp_path), schemes=["us-45v"], factors=str(factors / "sets" / "default-2026"))
+        netted = score(_project(tmp_path), assessment=assessment_with(schemes=["us-45v"], factors=str(factors / "sets" / "default-2026")))
     finally:
         scoring.shipped_rulebooks.cache_clear()
     assert netted.total == pytest.approx(plain.total, rel=1e-12)

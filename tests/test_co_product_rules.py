@@ -14,7 +14,7 @@ import json
 import shutil
 
 import pytest
-from helpers import DEMO, FACTOR_HEADER, ROOT, run_cli, write
+from helpers import DEMO, FACTOR_HEADER, ROOT, assessment_with, run_cli, write
 
 from carbonledger.api import score
 from carbonledger.model.rulebooks import load_schemes
@@ -55,7 +55,7 @@ def test_every_rulebook_states_its_co_product_rule_with_a_source():
 def test_scheme_rule_the_route_cannot_apply_without_data_is_undetermined(covering):
     """45V wants system expansion for the carbon (it carries energy); the demo chose energy allocation and
     names no displaced product: the 45V value keeps energy allocation and the verdict cannot be judged."""
-    result = score(PYROLYSIS, schemes=["us-45v"])
+    result = score(PYROLYSIS, assessment=assessment_with(schemes=["us-45v"]))
     check = result.checks[0]
     assert check.co_products["scheme_rule"] == "system_expansion" and check.co_products["applied"] == "energy"
     assert check.status == "undetermined" and "displaced_product_factor" in check.reasons[0]
@@ -69,9 +69,9 @@ def test_scheme_value_uses_the_scheme_rule_and_the_headline_the_project_choice(c
     override = write(tmp_path / "displaced.csv", FACTOR_HEADER + "product.carbon_black_invented,1.5,kg CO2e/kg,INVENTED for a test,,2026,,invented,false\n")
     # grid electricity only, so that 45V (AR5, renewables at zero) equals the AR5 headline of the same method
     named = ["pyrolysis.displaced_product_factor=product.carbon_black_invented", "electricity.sources.grid.share=1.0", "electricity.sources.wind.share=0.0"]
-    result = score(PYROLYSIS, schemes=["us-45v"], factors=str(override), overrides=named)
-    unallocated = score(PYROLYSIS, schemes=["us-45v"], gwp="ar5", factors=str(override), overrides=[*named, 'pyrolysis.carbon_allocation="none"'])
-    energy = score(PYROLYSIS, schemes=["us-45v"], factors=str(override), overrides=named)
+    result = score(PYROLYSIS, assessment=assessment_with(schemes=["us-45v"], factors=str(override), overrides=named))
+    unallocated = score(PYROLYSIS, assessment=assessment_with(schemes=["us-45v"], gwp="ar5", factors=str(override), overrides=[*named, 'pyrolysis.carbon_allocation="none"']))
+    energy = score(PYROLYSIS, assessment=assessment_with(schemes=["us-45v"], factors=str(override), overrides=named))
     check = result.checks[0]
     assert check.co_products["applied"] == "system_expansion" and check.co_products["project_method"] == "energy"
     assert check.value == pytest.approx(unallocated.total - 2.85 * 1.5, rel=1e-9)
@@ -81,14 +81,14 @@ def test_scheme_value_uses_the_scheme_rule_and_the_headline_the_project_choice(c
 
 def test_economic_rule_for_chlorine_needs_prices(covering):
     """UK LCHS: chlorine and sodium hydroxide carry no energy, so economic value; the demo shares by mass."""
-    result = score(CHLOR_ALKALI, schemes=["uk-lchs"])
+    result = score(CHLOR_ALKALI, assessment=assessment_with(schemes=["uk-lchs"]))
     check = result.checks[0]
     assert check.co_products["scheme_rule"] == "economic" and check.co_products["applied"] == "mass"
     assert check.status == "undetermined" and "prices" in check.reasons[0]
     prices = ["chlor_alkali.hydrogen_price_per_kg=4.0", "chlor_alkali.chlorine_price_per_kg=0.25", "chlor_alkali.sodium_hydroxide_price_per_kg=0.4"]
-    by_mass = score(CHLOR_ALKALI, schemes=["uk-lchs"], overrides=prices)
-    by_value = score(CHLOR_ALKALI, schemes=["uk-lchs"], overrides=[*prices, 'chlor_alkali.allocation="economic"'])
-    unallocated = score(CHLOR_ALKALI, schemes=["uk-lchs"], overrides=[*prices, 'chlor_alkali.allocation="none"'])
+    by_mass = score(CHLOR_ALKALI, assessment=assessment_with(schemes=["uk-lchs"], overrides=prices))
+    by_value = score(CHLOR_ALKALI, assessment=assessment_with(schemes=["uk-lchs"], overrides=[*prices, 'chlor_alkali.allocation="economic"']))
+    unallocated = score(CHLOR_ALKALI, assessment=assessment_with(schemes=["uk-lchs"], overrides=[*prices, 'chlor_alkali.allocation="none"']))
     rescored = by_mass.checks[0]
     assert rescored.co_products["applied"] == "economic"
     assert by_mass.total == pytest.approx(result.total, rel=1e-12)  # the headline keeps mass allocation
@@ -102,7 +102,7 @@ def test_economic_rule_for_chlorine_needs_prices(covering):
 
 
 def test_not_stated_keeps_the_project_choice_and_says_so(covering):
-    result = score(PYROLYSIS, schemes=["japan-hydrogen"])
+    result = score(PYROLYSIS, assessment=assessment_with(schemes=["japan-hydrogen"]))
     info = result.checks[0].co_products
     assert info["scheme_rule"] == "not_stated" and info["applied"] == "energy" and "no co-product rule" in info["note"]
 

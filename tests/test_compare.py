@@ -8,6 +8,7 @@ import xml.etree.ElementTree as ET
 from pathlib import Path
 
 import pytest
+from helpers import assessment_with
 from typer.testing import CliRunner
 
 from carbonledger.api import compare
@@ -25,7 +26,7 @@ def run(*args):
 
 
 def test_compare_same_product_stays_per_tonne_and_stages_sum():
-    result = compare(SHIPPED, boundary="well-to-tank")
+    result = compare(SHIPPED, assessment=assessment_with(boundary="well-to-tank"))
     assert result.basis == "t-nh3" and result.unit == "kg CO2e/t NH3"
     for project in result.projects:
         assert project.value == pytest.approx(project.total)
@@ -35,7 +36,7 @@ def test_compare_same_product_stays_per_tonne_and_stages_sum():
 
 
 def test_mixed_products_are_put_per_mj_of_lhv():
-    result = compare(SHIPPED[:1] + [CRACKED], boundary="well-to-tank")
+    result = compare(SHIPPED[:1] + [CRACKED], assessment=assessment_with(boundary="well-to-tank"))
     assert result.basis == "mj"
     ammonia, hydrogen = result.projects
     # Per MJ: kg CO2e/t NH3 x 1000 g/kg / (1000 kg x 18.6 MJ/kg), ammonia LHV 18.6 MJ/kg (IEA AMF)
@@ -79,10 +80,10 @@ def test_png_chart_is_valid_with_one_bar_per_project(tmp_path):
     assert out.exit_code == 0, out.output
     assert chart.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature (PNG specification, ISO/IEC 15948)
     assert matplotlib.image.imread(chart).ndim == 3
-    figure = comparison_figure(compare(SHIPPED, boundary="well-to-tank"))
+    figure = comparison_figure(compare(SHIPPED, assessment=assessment_with(boundary="well-to-tank")))
     axes = figure.axes[0]
     assert all(len(container.patches) == len(SHIPPED) for container in axes.containers)
-    names = [score.project for score in compare(SHIPPED, boundary="well-to-tank").projects]
+    names = [score.project for score in compare(SHIPPED, assessment=assessment_with(boundary="well-to-tank")).projects]
     assert [t.get_text().replace("\n", " ") for t in axes.get_xticklabels()] == names  # each bar named by its project, in words
     assert "kg CO2e/t NH3" in axes.get_ylabel()
 
@@ -221,7 +222,7 @@ def test_compare_reads_audit_workbooks(tmp_path):
             row[1].value = 0.02
     book.save(book_path)
     result = compare([DEMO / "blue_atr_ammonia.toml", book_path])
-    expected = score(DEMO / "grey_smr_ammonia.toml", overrides=["natural_gas.methane_emission_share=0.02"])
+    expected = score(DEMO / "grey_smr_ammonia.toml", assessment_with(overrides=["natural_gas.methane_emission_share=0.02"]))
     assert result.projects[1].total == pytest.approx(expected.total, rel=1e-12)
     assert run("compare", DEMO / "blue_atr_ammonia.toml", "--from-workbook", book_path).exit_code == 0
 

@@ -4,6 +4,7 @@ did not write: IMO conversion factors, handbook properties of ammonia, and hand 
 from pathlib import Path
 
 import pytest
+from helpers import assessment_with
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
@@ -246,7 +247,7 @@ pilot_fuel_energy_share = 0.05
 """
     path = write_project(tmp_path, body, boundary="well-to-wake")
     wake = score(path)
-    tank = score(path, boundary="well-to-tank")
+    tank = score(path, assessment=assessment_with(boundary="well-to-tank"))
     pilot_kg = 1000 * 18.6 * 0.05 / (0.95 * 42.7)  # per t NH3: 5 % of the fuel energy from gas oil (LCV 0.0427 MJ/g, Regulation (EU) 2023/1805 Annex II)
     expected = (
         1.0 * GWP_AR6_N2O  # 1 g N2O/kg x 1000 kg = 1 kg N2O
@@ -268,8 +269,8 @@ def test_scheme_checks_keep_their_own_basis_whatever_the_boundary(tmp_path):
     # project's boundary; the EU rulebooks count transport and distribution (e_td, Delegated
     # Regulation (EU) 2023/1185 Annex Part A), so their value grows with the modelled voyage.
     path = write_project(tmp_path, VOYAGE)
-    gate = score(path, boundary="cradle-to-gate")
-    delivered = score(path, boundary="well-to-tank")
+    gate = score(path, assessment=assessment_with(boundary="cradle-to-gate"))
+    delivered = score(path, assessment=assessment_with(boundary="well-to-tank"))
     assert delivered.total > gate.total
     def gate_based(result):
         return [(c.scheme, c.value) for c in result.checks if c.basis != "delivered"]
@@ -285,7 +286,7 @@ def test_scheme_checks_keep_their_own_basis_whatever_the_boundary(tmp_path):
 @pytest.mark.parametrize("path", sorted(DEMO.glob("*.toml")), ids=lambda p: p.stem)
 def test_well_to_wake_at_least_well_to_tank_at_least_cradle_to_gate(path):
     # Compared per MJ (LHV) of the product, the one unit every boundary and product shares.
-    values = [score(path, boundary=b) for b in ("cradle-to-gate", "well-to-tank", "well-to-wake")]
+    values = [score(path, assessment=assessment_with(boundary=b)) for b in ("cradle-to-gate", "well-to-tank", "well-to-wake")]
     gate, tank, wake = (v.intensity.g_co2e_per_mj for v in values)
     assert gate <= tank + 1e-9 and tank <= wake + 1e-9
     for result in values:
@@ -335,7 +336,7 @@ def test_unknown_fuel_is_refused_with_the_field(tmp_path):
 
 def test_well_to_wake_without_end_use_is_refused(tmp_path):
     with pytest.raises(InputError) as error:
-        score(write_project(tmp_path, VOYAGE), boundary="well-to-wake")
+        score(write_project(tmp_path, VOYAGE), assessment=assessment_with(boundary="well-to-wake"))
     assert error.value.field == "end_use"
 
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 import csv
 
 import pytest
-from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
+from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger.api import score
 from carbonledger.core.inputs import NumericInputs
@@ -193,10 +193,8 @@ def test_residual_mix_is_not_zero_rated_as_renewable(tmp_path):
     # the same declaration for both: a direct line to a generator commissioned in 2025 (the EU rule's
     # Art. 3 and 5, Delegated Regulation (EU) 2023/1184); only a renewable generator is then counted at zero
     declared = ['electricity.sources.grid.procurement="direct_line"', "electricity.sources.grid.commissioned=2025-06-01"]
-    residual = score(project, factors=override, schemes=["eu-rfnbo"],
-                     overrides=["electricity.sources.grid.factor=electricity.residual_mix.testland_2023", *declared])
-    wind = score(project, factors=override, schemes=["eu-rfnbo"],
-                 overrides=["electricity.sources.grid.factor=electricity.renewable.wind_onshore", *declared])
+    residual = score(project, assessment=assessment_with(factors=override, schemes=["eu-rfnbo"], overrides=["electricity.sources.grid.factor=electricity.residual_mix.testland_2023", *declared]))
+    wind = score(project, assessment=assessment_with(factors=override, schemes=["eu-rfnbo"], overrides=["electricity.sources.grid.factor=electricity.renewable.wind_onshore", *declared]))
     assert residual.checks[0].value > 0
     assert wind.checks[0].value == pytest.approx(0.0, abs=1e-12)
 

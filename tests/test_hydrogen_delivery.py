@@ -8,7 +8,7 @@ from __future__ import annotations
 import json
 
 import pytest
-from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, run_cli, write
+from helpers import DEMO, FACTOR_HEADER, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger.api import score
 from carbonledger.model.factors import load_factor_set
@@ -26,7 +26,7 @@ def value(factor_id: str) -> float:
 
 
 def test_pipeline_and_truck_worked_example():
-    gate = score(PIPED, boundary="cradle-to-gate")
+    gate = score(PIPED, assessment=assessment_with(boundary="cradle-to-gate"))
     delivered = score(PIPED)
     # the project's electricity mix: 70 % onshore wind, 30 % utility solar (IPCC AR5 WGIII Annex III medians, g CO2e/kWh)
     mix = (0.7 * value("electricity.renewable.wind_onshore") + 0.3 * value("electricity.renewable.solar_pv_utility")) / 1000.0
@@ -52,14 +52,14 @@ def test_pipeline_and_truck_worked_example():
 
 def test_hydrogen_leakage_is_reported_apart_and_in_no_scheme_value(tmp_path):
     delivered = score(PIPED)
-    gate = score(PIPED, boundary="cradle-to-gate")
+    gate = score(PIPED, assessment=assessment_with(boundary="cradle-to-gate"))
     # Sand et al. (2023), GWP100 of hydrogen 11.6 (from memory, flagged in the factor row)
     assert delivered.hydrogen_leakage_kg_co2e == pytest.approx(delivered.hydrogen_leakage_kg * 11.6, rel=1e-9)
     assert "h2" not in delivered.by_gas and sum(delivered.by_gas.values()) == pytest.approx(delivered.total, rel=1e-12)
     assert gate.hydrogen_leakage_kg == 0.0 and gate.hydrogen_leakage_kg_co2e == 0.0
     # a tenfold GWP of hydrogen moves the leakage line only: not the total, not a scheme value
     override = write(tmp_path / "h2.csv", FACTOR_HEADER + "gwp_indirect.h2,116,kg CO2e/kg H2,Ten times Sand et al. (2023) for this test,,,,test value,false\n")
-    tenfold = score(PIPED, factors=override)
+    tenfold = score(PIPED, assessment=assessment_with(factors=override))
     assert tenfold.hydrogen_leakage_kg_co2e == pytest.approx(10 * delivered.hydrogen_leakage_kg_co2e, rel=1e-9)
     assert tenfold.total == delivered.total
     assert [c.value for c in tenfold.checks] == [c.value for c in delivered.checks]
@@ -164,7 +164,7 @@ loss_share = 0.002
 """
     path = write_project(grey + legs)
     gate = score(path)
-    delivered = score(path, boundary="well-to-tank")
+    delivered = score(path, assessment=assessment_with(boundary="well-to-tank"))
     grid = value(next(f.id for f in gate.factors_used if f.id.startswith("electricity.grid."))) / 1000.0  # kg CO2 per kWh, one grid source
     into_pipe, into_rail = 1.0 / (1.0 - 0.001), 1.0 / (1.0 - 0.002)
     # locomotive fuel: 5 g/t-km x 400 km x 1.8 (return at 80 %) per tonne loaded = 3.6 kg per t loaded

@@ -4,7 +4,7 @@ import json
 import shutil
 
 import pytest
-from helpers import FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
+from helpers import FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger.analyses.lifetime import lifetime_score
 from carbonledger.errors import InputError
@@ -54,7 +54,7 @@ def _score(tmp_path, lifetime_text, trajectory=None, **options):
         _trajectory(tmp_path, trajectory)
     path = write(tmp_path / "project.toml", PROJECT.format(lifetime=lifetime_text))
     project, sha = load_project(path)
-    return lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha, **options)
+    return lifetime_score(project, assessment_with(factors=load_factor_set("default-2026")), project_file=str(path), project_sha256=sha, **options)
 
 
 def test_lifetime_average_is_the_output_weighted_mean(tmp_path):
@@ -124,7 +124,7 @@ def test_a_rulebook_that_counts_construction_uses_the_average_with_it(tmp_path, 
 def test_trajectory_from_a_factor_set_with_years():
     path = PORTFOLIO / "vennor_hybrid_hydrogen.toml"
     project, _ = load_project(path, ["lifetime.grid_trajectory_csv=''", "lifetime.grid_trajectory_factors='electricity.grid.vennor_bay'"])
-    result = lifetime_score(project, load_factor_set("demo-2027-grid-revision"), project_file=str(path))
+    result = lifetime_score(project, assessment_with(factors=load_factor_set("demo-2027-grid-revision")), project_file=str(path))
     # the invented demo trajectory: 300 g CO2e/kWh in 2027, 80 in 2036
     assert result.years[0].grid_factor == 300 and result.years[-1].grid_factor == 80
     # 2027: 13.78 kWh/kg from the grid x 0.300 kg/kWh = 4.134 kg CO2e/kg H2 under 45V (wind at zero)
@@ -176,7 +176,7 @@ def test_lifetime_follows_the_published_years_of_its_region(tmp_path):
     text = PROJECT.format(lifetime=CHILE).replace("electricity.grid.eu27_2018", "electricity.grid.chile_2024")
     path = write(tmp_path / "project.toml", text)
     project, sha = load_project(path)
-    result = lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+    result = lifetime_score(project, assessment_with(factors=load_factor_set("default-2026")), project_file=str(path), project_sha256=sha)
     published = {2022: 372.80, 2023: 303.82, 2024: 259.87, 2025: 259.87, 2026: 259.87}
     for year in result.years:
         assert year.grid_factor == pytest.approx(published[year.year], rel=1e-12)
@@ -192,18 +192,18 @@ def test_later_years_from_the_project_trajectory(tmp_path):
     text = PROJECT.format(lifetime=CHILE + 'grid_trajectory_csv = "grid.csv"\n').replace("electricity.grid.eu27_2018", "electricity.grid.chile_2024")
     path = write(tmp_path / "project.toml", text)
     project, sha = load_project(path)
-    result = lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+    result = lifetime_score(project, assessment_with(factors=load_factor_set("default-2026")), project_file=str(path), project_sha256=sha)
     assert [y.grid_factor for y in result.years] == pytest.approx([372.80, 303.82, 259.87, 200, 150])
     _trajectory(tmp_path, {2025: 200})
     with pytest.raises(InputError, match="missing 2026"):
-        lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+        lifetime_score(project, assessment_with(factors=load_factor_set("default-2026")), project_file=str(path), project_sha256=sha)
 
 
 def test_region_needs_a_yearly_grid_id(tmp_path):
     path = write(tmp_path / "project.toml", PROJECT.format(lifetime=CHILE).replace("electricity.grid.eu27_2018", "electricity.renewable.wind_onshore"))
     project, sha = load_project(path)
     with pytest.raises(InputError, match="ending in _YEAR"):
-        lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+        lifetime_score(project, assessment_with(factors=load_factor_set("default-2026")), project_file=str(path), project_sha256=sha)
 
 
 SERIES_PROJECT = """\
@@ -248,7 +248,7 @@ def _series_score(tmp_path, rows, trajectory=(300, 150)):
     _trajectory(tmp_path, dict(zip((2029, 2030), trajectory, strict=True)))
     path = write(tmp_path / "project.toml", SERIES_PROJECT)
     project, sha = load_project(path)
-    return lifetime_score(project, load_factor_set("default-2026"), project_file=str(path), project_sha256=sha)
+    return lifetime_score(project, assessment_with(factors=load_factor_set("default-2026")), project_file=str(path), project_sha256=sha)
 
 
 def test_lifetime_repeats_a_one_year_series_under_each_years_rule_and_scales_the_grid_profile(tmp_path):

@@ -6,6 +6,7 @@ import datetime as dt
 
 import numpy as np
 import pytest
+from helpers import assessment_with
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -206,7 +207,7 @@ def test_demo_hourly_project_fails_hourly_and_passes_monthly():
     assert monthly["eu-rfnbo"].electricity_matching.granularity == "month"  # 2026: monthly rule
     # under the limit with monthly matching (the verdict may still wait on a rule the value cannot show) ...
     assert monthly["eu-rfnbo"].value <= monthly["eu-rfnbo"].limit and monthly["eu-rfnbo"].status != "fails"
-    hourly = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml", matching="hour").checks}
+    hourly = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml", assessment=assessment_with(matching="hour")).checks}
     assert hourly["eu-rfnbo"].electricity_matching.matched_share < monthly["eu-rfnbo"].electricity_matching.matched_share
     # ... over it hour by hour, and so it fails
     assert hourly["eu-rfnbo"].value > hourly["eu-rfnbo"].limit and hourly["eu-rfnbo"].status == "fails"
@@ -342,8 +343,8 @@ def test_the_assessment_year_not_the_series_dates_chooses_the_eu_rule_through_sc
     solar = [150, 150, 150, 0, 0, 0, 0, 200]
     rows = [[s, 100, solar[number], 0] for number, s in enumerate(stamps("2029-12-31T19:00", 8))]
     write_series(tmp_path, rows)
-    monthly = next(c for c in api.score(tmp_path / "p.toml", year=2029).checks if c.scheme == "eu-rfnbo").electricity_matching
-    hourly = next(c for c in api.score(tmp_path / "p.toml", year=2030).checks if c.scheme == "eu-rfnbo").electricity_matching
+    monthly = next(c for c in api.score(tmp_path / "p.toml", assessment=assessment_with(year=2029)).checks if c.scheme == "eu-rfnbo").electricity_matching
+    hourly = next(c for c in api.score(tmp_path / "p.toml", assessment=assessment_with(year=2030)).checks if c.scheme == "eu-rfnbo").electricity_matching
     assert monthly.granularity == "month" and monthly.periods == 2 and monthly.matched_share == pytest.approx(0.75)
     assert hourly.granularity == "hour" and hourly.periods == 8 and hourly.matched_share == pytest.approx(0.5)
     assert monthly.rule == hourly.rule == "month until 2029-12-31, hour from 2030-01-01"
@@ -355,7 +356,7 @@ def test_a_matched_check_is_judged_at_its_matched_value():
     # value under the limit with no open rule qualifies; the threshold sentence quotes the matched
     # value; a check that does not qualify has no pass and no tier (as every other check).
     result = api.score(DEMO / "hybrid_hourly_hydrogen.toml")
-    declared = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml", matching="declared").checks}
+    declared = {c.scheme: c for c in api.score(DEMO / "hybrid_hourly_hydrogen.toml", assessment=assessment_with(matching="declared")).checks}
     moved = 0
     for check in result.checks:
         assert check.passes == (check.status == "qualifies"), check.scheme

@@ -4,7 +4,7 @@ rule, each with the arithmetic written out."""
 from __future__ import annotations
 
 import pytest
-from helpers import FACTOR_HEADER, assert_one_line_error, run_cli, write
+from helpers import FACTOR_HEADER, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger.api import score
 from carbonledger.model.factors import load_factor_set
@@ -69,8 +69,8 @@ def test_allocation_scales_the_hydrogen_production_burden(write_project, allocat
 
 def test_system_expansion_credits_the_displaced_product(write_project, tmp_path):
     override = write(tmp_path / "displaced.csv", FACTOR_HEADER + "carbon_black.invented,1.5,kg CO2e/kg,Invented for this test,,,,invented value,false\n")
-    expanded = score(project(write_project, allocation="system_expansion", extra='displaced_product_factor = "carbon_black.invented"'), factors=override)
-    whole = score(project(write_project), factors=override)
+    expanded = score(project(write_project, allocation="system_expansion", extra='displaced_product_factor = "carbon_black.invented"'), assessment=assessment_with(factors=override))
+    whole = score(project(write_project), assessment=assessment_with(factors=override))
     assert expanded.total == pytest.approx(whole.total - 2.9 * 1.5, rel=1e-12)
 
 

@@ -13,6 +13,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+from helpers import assessment_with
 
 from carbonledger.api import score
 from carbonledger.errors import InputError
@@ -28,7 +29,7 @@ def test_pyrolysis_conditioning_is_not_shared_with_the_carbon():
     # Mass allocation (ISO 14044 4.3.4.2, physical relationship): hydrogen's share = 1 kg / (1 + 2.9 kg carbon) = 0.25641.
     # Electricity of the plant: 12 kWh x 0.25641 (reactor, shared) + 1.0 kWh (conditioning, the hydrogen's own) = 4.07692 kWh/kg H2.
     overrides = ["pyrolysis.carbon_allocation=mass", "pyrolysis.electricity_kwh_per_kg_h2=12", "pyrolysis.carbon_kg_per_kg_h2=2.9", "hydrogen.conditioning_kwh_per_kg_h2=1.0"]
-    result = score(DEMO / "turquoise_pyrolysis_hydrogen.toml", overrides=overrides)
+    result = score(DEMO / "turquoise_pyrolysis_hydrogen.toml", assessment=assessment_with(overrides=overrides))
     assert exchange(result, "hydrogen_production", "electricity_mix").amount == pytest.approx(12 / 3.9 + 1.0, rel=1e-12)
     # the chlor-alkali route does the same: 88 kWh of cells x its share + 3.0 kWh of conditioning
     chlor = score(DEMO / "chlor_alkali_by_product_hydrogen.toml")
@@ -63,7 +64,7 @@ def test_a_hydrogen_leg_after_cracking_draws_the_destinations_electricity(tmp_pa
     # Trucked on with 2.0 kWh/kg H2 of compression after the cracker: the destination's electricity,
     # electricity.grid.eu27_2018 (281 g CO2e/kWh, EEA IND-353): 2.0 x 0.281 = 0.562 kg CO2e per kg H2 trucked,
     # not the origin's counted wind and solar.
-    result = score(trucked(tmp_path), year=2029)
+    result = score(trucked(tmp_path), assessment=assessment_with(year=2029))
     truck = exchange(result, "hydrogen_trucked", "electricity_at_destination")
     assert truck.amount == pytest.approx(2.0, rel=1e-12)
     assert not [e for e in result.exchanges if e.activity == "hydrogen_trucked" and e.input == "electricity_mix"]
@@ -75,5 +76,5 @@ def test_a_hydrogen_leg_after_cracking_draws_the_destinations_electricity(tmp_pa
 
 def test_a_hydrogen_leg_after_cracking_needs_the_destinations_electricity_factor(tmp_path):
     with pytest.raises(InputError) as error:
-        score(trucked(tmp_path, keep_factor=False), year=2029)
+        score(trucked(tmp_path, keep_factor=False), assessment=assessment_with(year=2029))
     assert "cracking.electricity_factor" in str(error.value) and "hydrogen_truck.compression_kwh_per_kg_h2" in str(error.value)

@@ -14,6 +14,7 @@ import tomllib
 from pathlib import Path
 
 import pytest
+from helpers import assessment_with
 
 from carbonledger import api
 from carbonledger.analyses.electricity_series import project_series
@@ -50,12 +51,12 @@ def statuses(result) -> dict[str, str]:
 
 @pytest.mark.parametrize("name, path, year, factors", PROJECTS, ids=[p[0] for p in PROJECTS])
 def test_score_compare_and_report_agree(name, path, year, factors):
-    scored = api.score(path, year=year, factors=factors)
+    scored = api.score(path, assessment=assessment_with(year=year, factors=factors))
     expected = statuses(scored)
     assert expected, name
-    compared = api.compare([path], year=year, factors=factors)
+    compared = api.compare([path], assessment=assessment_with(year=year, factors=factors))
     assert statuses(compared.projects[0]) == expected
-    reported = api.report_items([path], year=year, factors=factors, draws=200)
+    reported = api.report_items([path], draws=200, assessment=assessment_with(year=year, factors=factors))
     assert statuses(reported[0].result) == expected
     assert reported[0].result.assessment_year == scored.assessment_year
 
@@ -70,14 +71,14 @@ def test_recalc_judges_each_project_as_score_does():
         portfolio.append(PortfolioProject(str(path), project, sha, project_series(project, path)))
     results = score_portfolio(portfolio, factor_set, year=[year for _, _, year in items])
     for (name, path, year), result in zip(items, results, strict=True):
-        assert statuses(result) == statuses(api.score(path, year=year)), name
+        assert statuses(result) == statuses(api.score(path, assessment=assessment_with(year=year))), name
 
 
 @pytest.mark.parametrize("stem", ["blue_atr_ammonia", "green_ammonia_cracked_hydrogen", "turquoise_pyrolysis_hydrogen"])
 def test_the_workbook_records_the_statuses_of_score(stem):
     path = ROOT / "demo_projects" / f"{stem}.toml"
-    _, engine, _ = api.audit_workbook(path, year=2030)
-    assert statuses(engine) == statuses(api.score(path, year=2030))
+    _, engine, _ = api.audit_workbook(path, assessment=assessment_with(year=2030))
+    assert statuses(engine) == statuses(api.score(path, assessment=assessment_with(year=2030)))
 
 
 def test_headroom_of_a_scheme_the_project_is_not_eligible_for_has_no_value():
@@ -90,9 +91,9 @@ def test_headroom_of_a_scheme_the_project_is_not_eligible_for_has_no_value():
 
 def test_the_plan_states_the_status_score_gives_its_value():
     path = ROOT / "demo_projects" / "hybrid_hourly_hydrogen.toml"
-    result, _ = api.plan(path, scheme="japan-hydrogen", year=2029)
+    result, _ = api.plan(path, scheme="japan-hydrogen", assessment=assessment_with(year=2029))
     assert result.status in ("qualifies", "fails", "not_eligible", "undetermined")
-    expected = {c.scheme: c.status for c in api.score(path, year=2029).checks}["japan-hydrogen"]
+    expected = {c.scheme: c.status for c in api.score(path, assessment=assessment_with(year=2029)).checks}["japan-hydrogen"]
     # japan-hydrogen reads no electricity rule, so the plan's status is the score's whenever both meet the limit
     assert (result.status == "qualifies") == (expected == "qualifies" and result.qualifies)
 
@@ -101,7 +102,7 @@ def test_monte_carlo_draws_take_the_status_of_the_rules():
     # a draw that meets the limit is undetermined where a rule cannot be judged, as score says (45V: no country)
     path = ROOT / "demo_projects" / "portfolio" / "vennor_hybrid_hydrogen.toml"
     assert {c.scheme: c.status for c in api.score(path).checks}["us-45v"] == "undetermined"
-    result = api.uncertainty(path, draws=400, seed=1, schemes=["us-45v"]) if "uncertainty" in path.read_text() else None
+    result = api.uncertainty(path, draws=400, seed=1, assessment=assessment_with(schemes=["us-45v"])) if "uncertainty" in path.read_text() else None
     if result is not None:
         check = result.checks[0]
         assert check.probability_qualifies == 0.0 and check.statuses["undetermined"].probability > 0

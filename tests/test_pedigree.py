@@ -17,6 +17,7 @@ import math
 
 import numpy as np
 import pytest
+from helpers import assessment_with
 
 from carbonledger import api
 from carbonledger.model.factors import factors_root, load_factor_set
@@ -50,7 +51,7 @@ def test_scores_are_read_in_the_usual_notations(text, expected):
 def test_a_factor_row_with_pedigree_scores_gives_a_lognormal_in_the_monte_carlo(tmp_path):
     override = write(tmp_path / "scored.csv", FACTOR_HEADER.strip() + ",pedigree,basic_gsd\n" + GRID_ROW + ',"(2,3,1,2,4)",1.05\n')
     project = write(tmp_path / "linear.toml", LINEAR)  # no [uncertainty] table: the row's scores are the only uncertainty
-    result = api.uncertainty(project, factors=str(override), draws=100_000, seed=5)
+    result = api.uncertainty(project, draws=100_000, seed=5, assessment=assessment_with(factors=str(override)))
     # total = 50 kWh/kg x F / 1000 with F lognormal (median 281 g/kWh, GSD 1.23222 by hand above):
     # median 50 x 281 / 1000 = 14.05 kg CO2e/kg H2; 95th percentile 14.05 x 1.23222^1.644854 = 19.8158
     gsd = 1.23222
@@ -125,7 +126,7 @@ def test_pedigree_draws_agree_with_bw2calc(tmp_path):
 
     override = write(tmp_path / "scored.csv", FACTOR_HEADER.strip() + ",pedigree,basic_gsd\n" + GRID_ROW + ',"(3,3,3,3,3)",\n')
     project, _ = load_project(write(tmp_path / "linear.toml", LINEAR))
-    plan = make_plan(project, load_factor_set(override), Uncertainty(), source="linear")
+    plan = make_plan(project, assessment_with(factors=load_factor_set(override)), Uncertainty(), source="linear")
     ours = evaluate_in_blocks(plan, draw(plan, 2000, DEFAULT_SEED)).total
     theirs = monte_carlo_with_bw2calc(plan, 500, seed=DEFAULT_SEED)
     # means within three standard errors, two-sample Kolmogorov-Smirnov not rejected at 1 %

@@ -11,6 +11,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+from helpers import assessment_with
 
 from carbonledger.api import score
 from carbonledger.errors import InputError
@@ -35,24 +36,24 @@ def test_low_temperature_electrolysis_needs_the_gibbs_energy_as_electricity(tech
     # 1 kWh/kg electricity plus 40 kWh/kg heat passes the HHV floor (39.41 kWh/kg) but not the
     # Gibbs floor on electricity, 32.7 kWh/kg H2 (JANAF, liquid water at 25 degC).
     with pytest.raises(InputError) as error:
-        score(GRID, overrides=[f"electrolysis.technology={technology}", "electrolysis.electricity_kwh_per_kg_h2=1", "electrolysis.heat_kwh_per_kg_h2=40"])
+        score(GRID, assessment=assessment_with(overrides=[f"electrolysis.technology={technology}", "electrolysis.electricity_kwh_per_kg_h2=1", "electrolysis.heat_kwh_per_kg_h2=40"]))
     assert "electrolysis.electricity_kwh_per_kg_h2" in str(error.value) and "32.68" in str(error.value)
-    score(GRID, overrides=[f"electrolysis.technology={technology}", "electrolysis.electricity_kwh_per_kg_h2=33", "electrolysis.heat_kwh_per_kg_h2=7"])
+    score(GRID, assessment=assessment_with(overrides=[f"electrolysis.technology={technology}", "electrolysis.electricity_kwh_per_kg_h2=33", "electrolysis.heat_kwh_per_kg_h2=7"]))
 
 
 def test_solid_oxide_floor_follows_its_temperature():
     # Steam at 1000 K (726.85 degC): 192.59 kJ/mol (JANAF) / 2.016 g/mol / 3600 = 26.53 kWh/kg H2.
     hotter = ["electrolysis.technology=solid_oxide", "electrolysis.operating_temperature_c=726.85", "electrolysis.heat_kwh_per_kg_h2=10"]
     with pytest.raises(InputError) as error:
-        score(GRID, overrides=hotter + ["electrolysis.electricity_kwh_per_kg_h2=26.3"])
+        score(GRID, assessment=assessment_with(overrides=hotter + ["electrolysis.electricity_kwh_per_kg_h2=26.3"]))
     assert "26.5" in str(error.value)
-    score(GRID, overrides=hotter + ["electrolysis.electricity_kwh_per_kg_h2=26.8"])
+    score(GRID, assessment=assessment_with(overrides=hotter + ["electrolysis.electricity_kwh_per_kg_h2=26.8"]))
 
 
 def test_reforming_cannot_make_more_energy_than_it_buys():
     # First law, no imported heat: 0.0996 GJ gas + 0.4 kWh (1.44 MJ) = 101 MJ < 119.96 MJ/kg, the
     # hydrogen's lower heating value (US DOE HyARC table).
     with pytest.raises(InputError) as error:
-        score(BLUE, overrides=["reforming.natural_gas_gj_per_kg_h2=0.0996"])
+        score(BLUE, assessment=assessment_with(overrides=["reforming.natural_gas_gj_per_kg_h2=0.0996"]))
     assert "reforming.natural_gas_gj_per_kg_h2" in str(error.value) and "119.96" in str(error.value)
-    score(BLUE, overrides=["reforming.natural_gas_gj_per_kg_h2=0.120"])
+    score(BLUE, assessment=assessment_with(overrides=["reforming.natural_gas_gj_per_kg_h2=0.120"]))

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from helpers import assessment_with
 
 from carbonledger import api
 from carbonledger.analyses.electricity_series import ElectricitySeries
@@ -119,11 +120,11 @@ def test_the_plan_scored_back_qualifies(tmp_path):
         rows.append([stamp, 100, round(solar, 3), round(rng.uniform(0, 40), 3), round(200 + 80 * np.cos(np.pi * hour / 12), 3)])
     (tmp_path / "p.toml").write_text(PROJECT, encoding="utf-8")
     write_series(tmp_path, rows, "timestamp,electrolyser [kWh],generation.solar [kWh],generation.wind [kWh],grid_intensity [g CO2e/kWh]")
-    before = {c.scheme: c for c in api.score(tmp_path / "p.toml", matching="hour").checks}
+    before = {c.scheme: c for c in api.score(tmp_path / "p.toml", assessment=assessment_with(matching="hour")).checks}
     assert not before["eu-rfnbo"].passes  # running flat out fails hourly, so the plan has work to do
     result = run_cli("plan", tmp_path / "p.toml", "--scheme", "eu-rfnbo", "--matching", "hour", "--min-load", "0.2", "-o", tmp_path / "plan.csv")
     assert result.exit_code == 0, result.output
-    after = api.score(tmp_path / "p.toml", overrides=[f"electricity.time_series={tmp_path / 'plan.csv'}"], matching="hour", schemes=["eu-rfnbo"]).checks[0]
+    after = api.score(tmp_path / "p.toml", assessment=assessment_with(overrides=[f"electricity.time_series={tmp_path / 'plan.csv'}"], matching="hour", schemes=["eu-rfnbo"])).checks[0]
     # under the limit hour by hour (this bare project declares no procurement, so the verdict waits on those rules)
     assert after.value <= after.limit and after.status != "fails" and after.electricity_matching.load_kwh > 0
     again = run_cli("plan", tmp_path / "p.toml", "--scheme", "eu-rfnbo", "-o", tmp_path / "plan.csv")
@@ -131,7 +132,7 @@ def test_the_plan_scored_back_qualifies(tmp_path):
     # monthly matching with the grid's hourly intensity: the bilinear case, solved by repeated passes
     monthly = run_cli("plan", tmp_path / "p.toml", "--scheme", "us-45v", "--tier", "0.45", "--matching", "month", "-o", tmp_path / "month.csv")
     assert monthly.exit_code == 0, monthly.output
-    check = api.score(tmp_path / "p.toml", overrides=[f"electricity.time_series={tmp_path / 'month.csv'}"], matching="month", schemes=["us-45v"]).checks[0]
+    check = api.score(tmp_path / "p.toml", assessment=assessment_with(overrides=[f"electricity.time_series={tmp_path / 'month.csv'}"], matching="month", schemes=["us-45v"])).checks[0]
     # under the 100 % tier's limit, less than 0.45 kg CO2e/kg H2 (26 U.S.C. 45V(b)(2)(D)); the tier is
     # named only when the verdict qualifies, and this bare project declares no construction date
     assert check.value < 0.45 and check.status != "fails"
@@ -178,6 +179,6 @@ def test_part_load_plan_scored_back_at_its_own_kwh_per_kg_qualifies(tmp_path):
     # the project has no conditioning electricity, so the electrolysis parameter is the plan's own kWh/kg
     assert figures["score_back_set"] == [f"electrolysis.electricity_kwh_per_kg_h2={figures['kwh_per_kg_h2']:.12g}"]
     overrides = [f"electricity.time_series={tmp_path / 'plan.csv'}", *figures["score_back_set"]]
-    after = api.score(tmp_path / "p.toml", overrides=overrides, matching="hour", schemes=["eu-rfnbo"]).checks[0]
+    after = api.score(tmp_path / "p.toml", assessment=assessment_with(overrides=overrides, matching="hour", schemes=["eu-rfnbo"])).checks[0]
     assert after.margin >= 0 and after.status != "fails"  # threshold met; the bare project declares no procurement
     assert after.value == pytest.approx(figures["value"], rel=1e-6)  # score reads the plan back to the plan's own value

@@ -11,6 +11,7 @@ import json
 
 import numpy as np
 import pytest
+from helpers import assessment_with
 from scipy.optimize import linprog
 
 from carbonledger import api
@@ -25,14 +26,14 @@ def levers_file(tmp_path, body: str, name: str = "levers.toml"):
 
 
 def uk_value(overrides: list[str]) -> float:
-    return next(c.value for c in api.score(SMR, schemes=["uk-lchs"], overrides=overrides).checks if c.scheme == "uk-lchs")
+    return next(c.value for c in api.score(SMR, assessment=assessment_with(schemes=["uk-lchs"], overrides=overrides)).checks if c.scheme == "uk-lchs")
 
 
 def test_one_continuous_lever_is_the_headroom_root(tmp_path):
     # Check: with one lever priced per unit of change, the cheapest qualifying value is where the
     # limit is met exactly, which `headroom` finds by Brent's root finding (an independent method).
     levers = levers_file(tmp_path, '[[levers]]\nparameter = "capture.capture_rate"\nrange = [0.9, 0.999]\ncost = { per_unit = 1_000_000 }\n')
-    found = api.qualify(SMR, levers, schemes=["uk-lchs"], budgets=0)
+    found = api.qualify(SMR, levers, budgets=0, assessment=assessment_with(schemes=["uk-lchs"]))
     root = api.headroom(SMR, ["capture.capture_rate"], "uk-lchs")[0].value
     assert found.status == "qualifies"
     assert found.levers["capture.capture_rate"] == pytest.approx(root, abs=1e-7)  # the solver's tolerance (SLSQP ftol 1e-10, margin 1e-9 of the limit)
@@ -60,7 +61,7 @@ def test_two_linear_levers_equal_a_hand_written_linear_program(tmp_path):
     # minimise c1 (x1 - 0.9) + c2 (0.008 - x2)  subject to  v0 + a1 (x1 - 0.9) + a2 (x2 - 0.008) <= 20
     lp = linprog([c1, -c2], A_ub=[[a1, a2]], b_ub=[LIMIT_UK - v0 + a1 * x0[0] + a2 * x0[1]], bounds=[(0.9, 0.98), (0.001, 0.008)], method="highs")
     assert lp.status == 0
-    found = api.qualify(SMR, levers, schemes=["uk-lchs"], overrides=base, budgets=0)
+    found = api.qualify(SMR, levers, budgets=0, assessment=assessment_with(schemes=["uk-lchs"], overrides=base))
     assert found.status == "qualifies"
     assert found.levers["capture.capture_rate"] == pytest.approx(lp.x[0], abs=1e-6)
     assert found.levers["natural_gas.methane_emission_share"] == pytest.approx(lp.x[1], abs=1e-7)
@@ -85,12 +86,12 @@ def test_discrete_levers_equal_brute_force_enumeration(tmp_path):
     )
     best = None
     for m, c, g in itertools.product(methane, capture, grid):
-        result = api.score(SMR, schemes=["uk-lchs"], overrides=[f"natural_gas.methane_emission_share={m}", f"capture.capture_rate={c}", f'electricity.sources.grid.factor="{g}"'])
+        result = api.score(SMR, assessment=assessment_with(schemes=["uk-lchs"], overrides=[f"natural_gas.methane_emission_share={m}", f"capture.capture_rate={c}", f'electricity.sources.grid.factor="{g}"']))
         cost = methane[m] + capture[c] + grid[g]
         if result.checks[0].status == "qualifies" and (best is None or cost < best[0]):
             best = (cost, {"natural_gas.methane_emission_share": m, "capture.capture_rate": c, "electricity.sources.grid.factor": g})
     assert best is not None
-    found = api.qualify(SMR, levers, schemes=["uk-lchs"], budgets=0)
+    found = api.qualify(SMR, levers, budgets=0, assessment=assessment_with(schemes=["uk-lchs"]))
     assert found.status == "qualifies"
     assert found.total_cost == pytest.approx(best[0])
     assert found.levers == best[1]
@@ -140,7 +141,7 @@ def test_no_solution_names_the_best_margin_and_the_binding_lever(tmp_path):
     # Check: capture alone cannot bring the SMR demo under 20 g/MJ below a capture rate of 0.95
     # (headroom puts the root above 0.99): the answer says so, with the margin and the lever that binds.
     levers = levers_file(tmp_path, '[[levers]]\nparameter = "capture.capture_rate"\nrange = [0.9, 0.95]\ncost = { per_unit = 1_000_000 }\n')
-    found = api.qualify(SMR, levers, schemes=["uk-lchs"], budgets=0)
+    found = api.qualify(SMR, levers, budgets=0, assessment=assessment_with(schemes=["uk-lchs"]))
     at_bound = uk_value(["capture.capture_rate=0.95"])
     assert found.status == "no_solution" and found.total_cost is None and found.score_back_set == []
     assert found.binding_lever == "capture.capture_rate"
@@ -237,7 +238,7 @@ def test_two_share_levers_equal_brute_force_enumeration(tmp_path):
         if wind + solar > 1 + 1e-12:
             continue
         sets = [f"electricity.sources.grid.share={1 - wind - solar!r}", f"electricity.sources.wind_ppa.share={wind}", f"electricity.sources.solar_ppa.share={solar}"]
-        check = api.score(project, schemes=["japan-hydrogen"], overrides=sets).checks[0]
+        check = api.score(project, assessment=assessment_with(schemes=["japan-hydrogen"], overrides=sets)).checks[0]
         cost = 400_000_000 * wind + 300_000_000 * solar
         if check.status == "qualifies" and (best is None or cost < best[0]):
             best = (cost, wind, solar)
@@ -267,7 +268,7 @@ def test_two_continuous_share_levers_equal_a_hand_written_linear_program(tmp_pat
     def value(wind: float, solar: float) -> float:
         shares = [f"electricity.sources.grid.share={1 - wind - solar!r}", f"electricity.sources.wind_ppa.share={wind!r}", f"electricity.sources.solar_ppa.share={solar!r}"]
         others = [item for item in sets if ".share=" not in item]
-        return api.score(GRID_H2, schemes=["japan-hydrogen"], overrides=others + shares).checks[0].value
+        return api.score(GRID_H2, assessment=assessment_with(schemes=["japan-hydrogen"], overrides=others + shares)).checks[0].value
 
     v0, vw, vs = value(0.0, 0.0), value(0.5, 0.0), value(0.0, 0.5)
     assert value(0.3, 0.4) == pytest.approx(v0 + 0.6 * (vw - v0) + 0.8 * (vs - v0), rel=1e-9)  # the premise: affine
@@ -348,7 +349,7 @@ def test_an_operation_lever_with_a_discrete_lever_equals_brute_force():
     levers = DEMO / "levers" / "hybrid_hourly_hydrogen.toml"
     brute = []
     for kwh, price in ((54.0, 0.0), (51.0, 400_000.0)):
-        planned, _ = api.plan(HOURLY, scheme="uk-lchs", hydrogen_price=6.0, overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh}"])
+        planned, _ = api.plan(HOURLY, scheme="uk-lchs", hydrogen_price=6.0, assessment=assessment_with(overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh}"]))
         brute.append((price + planned.baseline_margin - planned.margin, kwh, planned))
     cost, kwh, planned = min(brute, key=lambda item: item[0])
     found = api.qualify(HOURLY, levers, budgets=0)

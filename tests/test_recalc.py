@@ -7,7 +7,7 @@ import json
 import random
 
 import pytest
-from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, run_cli, write
+from helpers import DEMO, FACTOR_HEADER, PORTFOLIO, ROOT, assert_one_line_error, assessment_with, run_cli, write
 
 from carbonledger.analyses import portfolio
 from carbonledger.analyses.pipeline import assess
@@ -196,8 +196,8 @@ def test_a_project_with_a_time_series_is_rescored_with_its_matching_as_score_doe
     old, new = load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision")
     rows = {row.scheme: row for row in recalc(projects, old, new).rows}
     before = {c.scheme: c for c in api.score(path).checks}
-    after = {c.scheme: c for c in api.score(path, factors="demo-2027-grid-revision").checks}
-    declared = {c.scheme: c for c in api.score(path, matching="declared").checks}
+    after = {c.scheme: c for c in api.score(path, assessment=assessment_with(factors="demo-2027-grid-revision")).checks}
+    declared = {c.scheme: c for c in api.score(path, assessment=assessment_with(matching="declared")).checks}
     for scheme, row in rows.items():
         assert row.old_value == pytest.approx(before[scheme].value, rel=1e-9, abs=1e-12)
         assert row.new_value == pytest.approx(after[scheme].value, rel=1e-9, abs=1e-12)

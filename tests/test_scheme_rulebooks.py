@@ -1,6 +1,7 @@
 """Scheme thresholds against their legal text, and the tier logic."""
 
 import pytest
+from helpers import assessment_with
 
 from carbonledger.model.rulebooks import load_schemes, schemes_folder
 
@@ -47,7 +48,7 @@ def test_eu_rfnbo_limit_per_kg_of_hydrogen():
 
     from carbonledger.api import score
 
-    result = score(DEMO / "grid_electrolysis_hydrogen.toml", schemes=["eu-rfnbo"])
+    result = score(DEMO / "grid_electrolysis_hydrogen.toml", assessment_with(schemes=["eu-rfnbo"]))
     (check,) = result.checks
     assert check.value == pytest.approx(result.intensity.kg_co2e_per_kg_h2 * 1000 / 119.96, rel=1e-9)
     assert check.limit * 119.96 / 1000 == pytest.approx(3.38, abs=0.005)

@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from helpers import assessment_with
 
 from carbonledger.analyses.uncertainty import Draws, limit_breaks, make_plan, params_with_draws
 from carbonledger.core.scoring import DEFAULT_GWP
@@ -49,7 +50,7 @@ def test_draws_of_two_shares_sum_to_one_and_leave_out_what_cannot():
         "electricity.sources.grid.share": {"distribution": "uniform", "low": 0.1, "high": 0.6},
         "electricity.sources.solar.share": {"distribution": "uniform", "low": 0.1, "high": 0.6},
     }}, "test")
-    plan = make_plan(project, load_factor_set(), uncertainty, gwp=DEFAULT_GWP)
+    plan = make_plan(project, assessment_with(factors=load_factor_set(), gwp=DEFAULT_GWP), uncertainty)
     grid, solar = np.array([0.3, 0.6]), np.array([0.2, 0.5])
     params = params_with_draws(plan, {"electricity.sources.grid.share": grid, "electricity.sources.solar.share": solar})
     sources = params["electricity"]["sources"]

@@ -13,6 +13,7 @@ import json
 
 import numpy as np
 import pytest
+from helpers import assessment_with
 from scipy.stats import spearmanr
 
 from carbonledger import api
@@ -85,7 +86,7 @@ mean = 84.0
 sd = 10.0
 """,
     )
-    result = api.uncertainty(path, draws=100_000, seed=3, schemes=["us-45v"])
+    result = api.uncertainty(path, draws=100_000, seed=3, assessment=assessment_with(schemes=["us-45v"]))
     check = result.checks[0]
     # value = 50 kWh x F / 1000 ~ N(4.2, 0.5^2) kg CO2e/kg H2; the loosest 45V tier is 4.0 kg:
     # P(value <= 4.0) = Phi((4.0 - 4.2) / 0.5) = Phi(-0.4) = 0.3446 (standard normal table).
@@ -152,7 +153,7 @@ def test_rank_correlation_is_imposed_and_latin_hypercube_keeps_the_marginals():
         },
         "test",
     )
-    plan = make_plan(project, load_factor_set("default-2026"), uncertainty)
+    plan = make_plan(project, assessment_with(factors=load_factor_set("default-2026")), uncertainty)
     drawn = draw(plan, 5000, seed=1, sampling="latin_hypercube")
     gas = drawn.parameters["reforming.natural_gas_gj_per_kg_h2"]
     power = drawn.parameters["reforming.electricity_kwh_per_kg_h2"]
@@ -216,7 +217,7 @@ def test_stacked_draws_agree_with_bw2calcs_own_monte_carlo():
         },
         "test",
     )
-    plan = make_plan(project, load_factor_set("default-2026"), uncertainty)
+    plan = make_plan(project, assessment_with(factors=load_factor_set("default-2026")), uncertainty)
     count = 800
     theirs = monte_carlo_with_bw2calc(plan, count, seed=1)
     ours = evaluate(plan, draw(plan, count, seed=2), count).total
@@ -232,7 +233,7 @@ def test_a_factor_in_several_entries_is_refused_for_the_bw2calc_cross_check():
     project, _ = load_project(DEMO / "blue_atr_ammonia.toml")
     uncertainty = parse_uncertainty({"factors": {"combustion.natural_gas.co2": {"distribution": "uniform", "low": 55000, "high": 57500}}}, "test")
     with pytest.raises(Exception, match="drives one matrix entry"):
-        bw2calc_entries(make_plan(project, load_factor_set("default-2026"), uncertainty))
+        bw2calc_entries(make_plan(project, assessment_with(factors=load_factor_set("default-2026")), uncertainty))
 
 
 def test_route_limits_on_draws_agree_with_the_checks_a_score_runs():
@@ -254,7 +255,7 @@ def test_route_limits_on_draws_agree_with_the_checks_a_score_runs():
         "test",
     )
     factor_set = load_factor_set("default-2026")
-    plan = make_plan(project, factor_set, uncertainty)
+    plan = make_plan(project, assessment_with(factors=factor_set), uncertainty)
     drawn = draw(plan, 300, seed=4)
     broken, reasons = limit_breaks(plan, drawn, 300)
     assert 0 < broken.sum() < 300 and {r["field"] for r in reasons} == {"cracking.hydrogen_recovery_fraction", "shipping.tank_heat_ingress_kw"}
@@ -293,7 +294,7 @@ values = ["electricity.grid.eu27_2018", "electricity.grid.test_high"]
 weights = [0.7, 0.3]
 """,
     )
-    result = api.uncertainty(path, draws=20_000, seed=1, factors=override)
+    result = api.uncertainty(path, draws=20_000, seed=1, assessment=assessment_with(factors=override))
     low = 50 * load_factor_set("default-2026").get("electricity.grid.eu27_2018").value / 1000
     # two outcomes: 50 kWh x 281 or x 600 g/kWh; mean = 0.7 low + 0.3 x 30.0 kg CO2e/kg H2
     standard_error = np.sqrt(0.21 / 20_000) * (30.0 - low)
@@ -334,17 +335,17 @@ def test_draws_of_a_project_with_a_time_series_follow_the_matching_as_score_does
         },
         "test",
     )
-    plan = make_plan(project, factor_set, uncertainty, source=str(path), series=api.project_series(project, path))
+    plan = make_plan(project, assessment_with(factors=factor_set), uncertainty, source=str(path), series=api.project_series(project, path))
     drawn = draw(plan, 3, seed=4)
     outcome = evaluate(plan, drawn, 3)
-    declared = evaluate(make_plan(project, factor_set, uncertainty, source=str(path)), drawn, 3)
+    declared = evaluate(make_plan(project, assessment_with(factors=factor_set), uncertainty, source=str(path)), drawn, 3)
     differs = 0
     for number in range(3):
         kwh = float(drawn.parameters["electrolysis.electricity_kwh_per_kg_h2"][number])
         grid = float(drawn.factors["electricity.grid.eu27_2018"][number])
         factors = dict(factor_set.factors)
         factors["electricity.grid.eu27_2018"] = factors["electricity.grid.eu27_2018"].model_copy(update={"value": grid})
-        by_hand = api.score(path, factors=FactorSet(name="drawn", factors=factors), overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh!r}"])
+        by_hand = api.score(path, assessment=assessment_with(factors=FactorSet(name="drawn", factors=factors), overrides=[f"electrolysis.electricity_kwh_per_kg_h2={kwh!r}"]))
         for check in by_hand.checks:
             assert outcome.scheme_values[check.scheme][number] == pytest.approx(check.value, rel=1e-9, abs=1e-9), check.scheme
             differs += abs(declared.scheme_values[check.scheme][number] - check.value) > 1e-6
@@ -370,12 +371,12 @@ def test_each_draw_of_a_co_product_or_biogenic_route_equals_score_with_its_input
     project, _ = load_project(project_file)
     factor_set = load_factor_set("default-2026")
     uncertainty = parse_uncertainty({"parameters": {path: {"distribution": "uniform", "low": low, "high": high}}}, "test")
-    plan = make_plan(project, factor_set, uncertainty, source=str(project_file), year=2030)
+    plan = make_plan(project, assessment_with(factors=factor_set, year=2030), uncertainty, source=str(project_file))
     drawn = draw(plan, 3, seed=11)
     outcome = evaluate(plan, drawn, 3)
     for number in range(3):
         value = float(drawn.parameters[path][number])
-        by_hand = api.score(project_file, overrides=[f"{path}={value!r}"], year=2030)
+        by_hand = api.score(project_file, assessment=assessment_with(overrides=[f"{path}={value!r}"], year=2030))
         for check in by_hand.checks:
             assert outcome.scheme_values[check.scheme][number] == pytest.approx(check.value, rel=1e-9, abs=1e-9), check.scheme
             scheme = next(s for s in outcome.schemes if s.id == check.scheme)

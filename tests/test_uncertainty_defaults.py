@@ -17,6 +17,7 @@ import json
 import math
 
 import pytest
+from helpers import assessment_with
 
 from carbonledger import api
 from carbonledger.model.factors import factors_root
@@ -50,7 +51,7 @@ def test_the_default_gsd_of_each_grade_follows_the_pedigree_formula(grade, relia
     by_hand = math.exp(math.sqrt(BASIC + RELIABILITY[reliability - 1] + COMPLETENESS_2 + TEMPORAL_3 + GEOGRAPHICAL_3 + TECHNOLOGICAL_3))
     assert by_hand == pytest.approx(gsd, abs=1e-6)
     project, override = write_linear_with_grade(grade, tmp_path)
-    result = api.uncertainty(project, factors=str(override), draws=20, seed=1)
+    result = api.uncertainty(project, draws=20, seed=1, assessment=assessment_with(factors=str(override)))
     (item,) = result.inputs
     assert item.distribution["gsd"] == pytest.approx(gsd, abs=1e-6) and grade in item.default
     assert "assumption" in mapping.basis and "not a published" in mapping.basis and mapping.from_memory

@@ -15,7 +15,7 @@ import json
 from pathlib import Path
 
 import pytest
-from helpers import run_cli
+from helpers import assessment_with, run_cli
 
 from carbonledger.api import score
 from carbonledger.core.scoring import rulebooks
@@ -92,7 +92,7 @@ def test_electricity_failing_a_rule_is_charged_at_the_grid_not_at_its_own_factor
     # A 2015 wind farm for a 2029 plant is not incremental / additional (36 months): its 50 kWh/kg H2 are charged
     # at the zone's grid, 50 x 0.281 = 14.05 kg CO2e/kg H2, not at the wind factor, 50 x 0.011 = 0.55.
     path = project(tmp_path, wind_commissioned="2015-06-01")
-    result = score(path, year=2029)
+    result = score(path, assessment=assessment_with(year=2029))
     us = check(result, "us-45v")
     assert us.value == pytest.approx(50 * EU_GRID_KG_PER_KWH, rel=1e-9)
     assert us.status == "fails" and us.margin == pytest.approx(4.0 - 14.05, rel=1e-9)
@@ -101,7 +101,7 @@ def test_electricity_failing_a_rule_is_charged_at_the_grid_not_at_its_own_factor
     rfnbo = check(result, "eu-rfnbo")  # per MJ: 14050 g / 119.96 MJ
     assert rfnbo.value == pytest.approx(50 * EU_GRID_KG_PER_KWH * 1000 / H2_LHV, rel=1e-9)
     # a new wind farm (in operation 9 months before the plant) counts zero under both
-    fresh = score(path.parent / project(tmp_path, wind_commissioned="2028-06-01").name, year=2029)
+    fresh = score(path.parent / project(tmp_path, wind_commissioned="2028-06-01").name, assessment=assessment_with(year=2029))
     assert check(fresh, "us-45v").value == pytest.approx(0.0, abs=1e-12) and check(fresh, "us-45v").tier.startswith("100 %")
     # Japan's criterion counts every source at its life-cycle factor whatever its procurement (secondary)
     assert check(fresh, "japan-hydrogen").value == pytest.approx(50 * WIND_KG_PER_KWH, rel=1e-9)
@@ -112,11 +112,11 @@ def test_rfnbo_grid_electricity_share_under_art_27_6(tmp_path):
     # country's average renewable share, so a plant none of whose electricity counts fully renewable is still
     # covered for that share, at the intensity of the whole output (2023/1185 Annex Part A point 1): judged on the
     # value, here 117.1 g CO2e/MJ > 28.2: fails (not "not eligible").
-    c = check(score(project(tmp_path, wind_commissioned="2015-06-01"), year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    c = check(score(project(tmp_path, wind_commissioned="2015-06-01"), assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert c.status == "fails"
     assert any("Art. 27(6)" in r for r in c.reasons)
     # a direct line that fails Art. 3 is not grid electricity: nothing is an RFNBO
-    direct = check(score(project(tmp_path, wind_commissioned="2025-01-01", procurement="direct_line"), year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    direct = check(score(project(tmp_path, wind_commissioned="2025-01-01", procurement="direct_line"), assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert direct.status == "not_eligible" and "36 months" in direct.reasons[0] and "Art. 3" in direct.reasons[0]
     assert direct.margin is None and direct.tier is None and not any(r.startswith(("met: value", "not met: value")) for r in direct.reasons)
 
@@ -127,8 +127,8 @@ def test_art_11_exempts_plants_in_operation_before_2028_until_1_january_2038(tmp
     # that come into operation before 1 January 2028. An old, supported wind farm for a 2027 plant counts in 2037
     # and is charged at the grid in 2038.
     path = project(tmp_path, wind_commissioned="1999-01-01", supported="true", commissioning="2027-06-01", matched="hourly")
-    in_2037 = check(score(path, year=2037, schemes=["eu-rfnbo"]), "eu-rfnbo")
-    in_2038 = check(score(path, year=2038, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    in_2037 = check(score(path, assessment=assessment_with(year=2037, schemes=["eu-rfnbo"])), "eu-rfnbo")
+    in_2038 = check(score(path, assessment=assessment_with(year=2038, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert in_2037.status == "qualifies" and any("exempt from additionality until 2038-01-01" in r and "Art. 11" in r for r in in_2037.reasons)
     assert in_2038.status == "fails" and "additionality" in in_2038.reasons[0]
 
@@ -137,9 +137,9 @@ def test_direct_connection_judges_the_generator_age_only_and_counts_calendar_day
     # 2023/1184 Art. 3(b) (verbatim secondary): in operation no earlier than 36 months before the plant; no aid test
     # (Commission Q&A Q9). "Not earlier than 36 months" by calendar day: 2026-03-01 for a 2029-03-01 plant is allowed,
     # 2026-02-28 is not.
-    aided = check(score(project(tmp_path, procurement="direct_line", supported="true", wind_commissioned="2026-03-01"), year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    aided = check(score(project(tmp_path, procurement="direct_line", supported="true", wind_commissioned="2026-03-01"), assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert aided.status == "qualifies"
-    early = check(score(project(tmp_path, procurement="direct_line", wind_commissioned="2026-02-28"), year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    early = check(score(project(tmp_path, procurement="direct_line", wind_commissioned="2026-02-28"), assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert early.status == "not_eligible"
     assert months_before(dt.date(2029, 3, 1), 36) == dt.date(2026, 3, 1)
     assert months_before(dt.date(2029, 5, 31), 3) == dt.date(2029, 2, 28)
@@ -149,7 +149,7 @@ def test_another_bidding_zone_is_undetermined_under_the_eu_rules_and_fails_45v_d
     # 2023/1184 Art. 7(b) and (c) (verbatim secondary) allow an interconnected offshore zone or a neighbouring zone
     # with an equal or higher day-ahead price: not declared, so undetermined, the reason naming the rule.
     # 45V deliverability (26 CFR 1.45V-4(d)(3)(ii); secondary): another region is not met, charged at the grid.
-    result = score(project(tmp_path, zone="VENNOR-2"), year=2029)
+    result = score(project(tmp_path, zone="VENNOR-2"), assessment=assessment_with(year=2029))
     eu = check(result, "eu-rfnbo")
     assert eu.status == "undetermined" and "bidding zone VENNOR-2" in eu.reasons[0] and "Art. 7" in eu.reasons[0]
     us = check(result, "us-45v")
@@ -160,8 +160,8 @@ def test_a_declared_period_coarser_than_the_rule_in_force_is_not_met(tmp_path):
     # 2023/1184 Art. 6: same calendar month until 31 December 2029, same one-hour period from 1 January 2030
     # (verbatim secondary). Declared monthly: met in 2029, not met in 2030 (charged at the grid).
     path = project(tmp_path, commissioning="2029-01-01", matched="monthly")
-    assert check(score(path, year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo").status == "qualifies"
-    later = check(score(path, year=2030, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    assert check(score(path, assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo").status == "qualifies"
+    later = check(score(path, assessment=assessment_with(year=2030, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert later.status == "fails" and "hourly matching required in 2030, monthly declared" in later.reasons[0]
     assert any("same one-hour period from 1 January 2030" in v for v in later.rule_versions)
 
@@ -172,19 +172,19 @@ def test_45v_credit_period_country_and_45q(tmp_path):
     # (c)(2)(B)(i)(I): produced in the United States or a possession; (d)(2): no 45V where the capture equipment
     # earns 45Q (read in copies of the US Code: verbatim secondary).
     path = project(tmp_path, matched="hourly")  # hourly matching from 2030 (1.45V-4(d)(3)(iii); secondary)
-    assert check(score(path, year=2039, schemes=["us-45v"]), "us-45v").status == "qualifies"  # 2039-01-01 to -02-28 in the period
-    over = check(score(path, year=2040, schemes=["us-45v"]), "us-45v")
+    assert check(score(path, assessment=assessment_with(year=2039, schemes=["us-45v"])), "us-45v").status == "qualifies"  # 2039-01-01 to -02-28 in the period
+    over = check(score(path, assessment=assessment_with(year=2040, schemes=["us-45v"])), "us-45v")
     assert over.status == "not_eligible" and "10-year credit period" in over.reasons[0] and "2039-02-28" in over.reasons[0]
     assert add_years(dt.date(2028, 2, 29), 10) == dt.date(2038, 2, 28)
-    abroad = check(score(project(tmp_path, country='"GB"', matched="hourly"), year=2030, schemes=["us-45v"]), "us-45v")
+    abroad = check(score(project(tmp_path, country='"GB"', matched="hourly"), assessment=assessment_with(year=2030, schemes=["us-45v"])), "us-45v")
     assert abroad.status == "not_eligible" and "country GB" in abroad.reasons[0]
-    territory = check(score(project(tmp_path, country='"PR"', matched="hourly"), year=2030, schemes=["us-45v"]), "us-45v")
+    territory = check(score(project(tmp_path, country='"PR"', matched="hourly"), assessment=assessment_with(year=2030, schemes=["us-45v"])), "us-45v")
     assert territory.status == "qualifies"  # Puerto Rico is a possession of the United States
-    unknown = check(score(project(tmp_path, country='""', matched="hourly"), year=2030, schemes=["us-45v"]), "us-45v")
+    unknown = check(score(project(tmp_path, country='""', matched="hourly"), assessment=assessment_with(year=2030, schemes=["us-45v"])), "us-45v")
     assert unknown.status == "undetermined" and "project.country is not given" in unknown.reasons[0]
     blue = BLUE.read_text(encoding="utf-8").replace("[capture]", "[capture]\nclaims_45q = true", 1).replace("[project]", '[project]\ncountry = "US"', 1)
     (tmp_path / "blue.toml").write_text(blue, encoding="utf-8")
-    claimed = check(score(tmp_path / "blue.toml", year=2029, schemes=["us-45v"]), "us-45v")
+    claimed = check(score(tmp_path / "blue.toml", assessment=assessment_with(year=2029, schemes=["us-45v"])), "us-45v")
     assert claimed.status == "not_eligible" and "45Q" in claimed.reasons[0]
 
 
@@ -206,19 +206,19 @@ def test_low_carbon_fuels_use_the_ar5_values_of_2020_1044_and_nuclear_under_a_pp
     assert rulebooks()["eu-low-carbon"].gwp == "ar5" and rulebooks()["eu-rfnbo"].gwp == "ar4"
     nuclear = project(tmp_path).read_text(encoding="utf-8").replace("electricity.renewable.wind_onshore", "electricity.low_carbon.nuclear")
     (tmp_path / "nuclear.toml").write_text(nuclear, encoding="utf-8")
-    c = check(score(tmp_path / "nuclear.toml", year=2029, schemes=["eu-low-carbon"]), "eu-low-carbon")
+    c = check(score(tmp_path / "nuclear.toml", assessment=assessment_with(year=2029, schemes=["eu-low-carbon"])), "eu-low-carbon")
     assert c.value == pytest.approx(50 * EU_GRID_KG_PER_KWH * 1000 / H2_LHV, rel=1e-9) and c.status == "fails"
     # Directive (EU) 2024/1788: low-carbon hydrogen takes its energy from non-renewable sources; fully renewable
     # electrolysis is an RFNBO instead
-    renewable = check(score(project(tmp_path), year=2029, schemes=["eu-low-carbon"]), "eu-low-carbon")
+    renewable = check(score(project(tmp_path), assessment=assessment_with(year=2029, schemes=["eu-low-carbon"])), "eu-low-carbon")
     assert renewable.status == "not_eligible" and "fully renewable" in renewable.reasons[0]
 
 
 def test_japan_ammonia_counts_the_upstream_gas_chain():
     # The 2024 criteria under the Hydrogen Society Promotion Act are reported to count upstream emissions
     # (secondary): a higher methane loss raises the ammonia value.
-    low = check(score(DEMO / "blue_atr_ammonia.toml", schemes=["japan-ammonia"], year=2029), "japan-ammonia")
-    high = check(score(DEMO / "blue_atr_ammonia.toml", schemes=["japan-ammonia"], year=2029, overrides=["natural_gas.methane_emission_share=0.03"]), "japan-ammonia")
+    low = check(score(DEMO / "blue_atr_ammonia.toml", assessment=assessment_with(schemes=["japan-ammonia"], year=2029)), "japan-ammonia")
+    high = check(score(DEMO / "blue_atr_ammonia.toml", assessment=assessment_with(schemes=["japan-ammonia"], year=2029, overrides=["natural_gas.methane_emission_share=0.03"])), "japan-ammonia")
     assert high.value > low.value
 
 
@@ -245,7 +245,7 @@ def test_the_default_assessment_year_is_the_first_full_year_of_operation():
 )
 def test_bad_declarations_are_one_line_errors(options, field, expected):
     with pytest.raises(InputError) as error:
-        score(CRACKED, **options)
+        score(CRACKED, assessment_with(**options))
     assert field in str(error.value) and expected in str(error.value)
 
 
@@ -257,7 +257,7 @@ def test_every_rule_names_its_source_and_grade_and_schemes_json_shows_them():
         if rules:
             assert rules["grade"] and all(r["grade"] and r["source"] for r in rules["temporal"])
         assert all(t["grade"] and t["source"] for t in book["thresholds"])
-    reasons = check(score(CRACKED, year=2029), "eu-rfnbo").reasons
+    reasons = check(score(CRACKED, assessment=assessment_with(year=2029)), "eu-rfnbo").reasons
     assert any("verbatim secondary" in r for r in reasons) and not any("from memory" in r for r in reasons)
 
 
@@ -282,14 +282,14 @@ def test_a_producer_selling_at_the_gate_can_declare_its_buyers_e_td(tmp_path):
     # counted wind). A declared e_td of 2.5 g CO2e/MJ is added to the value and gives a verdict.
     gate = project(tmp_path).read_text(encoding="utf-8").replace('boundary = "well-to-tank"', 'boundary = "cradle-to-gate"')
     (tmp_path / "gate.toml").write_text(gate, encoding="utf-8")
-    open_ = check(score(tmp_path / "gate.toml", year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    open_ = check(score(tmp_path / "gate.toml", assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert open_.status == "undetermined" and open_.reasons[0].startswith("cannot be judged: e_td")
     assert "qualifies if what cannot be judged adds at most 28.2 g CO2e/MJ" in open_.reasons[0]
     declared = gate.replace("[hydrogen]", 'declared_e_td_g_co2e_per_mj = 2.5\ndeclared_e_td_evidence = "buyers\' statement (invented)"\n\n[hydrogen]', 1)
     (tmp_path / "declared.toml").write_text(declared, encoding="utf-8")
-    c = check(score(tmp_path / "declared.toml", year=2029, schemes=["eu-rfnbo"]), "eu-rfnbo")
+    c = check(score(tmp_path / "declared.toml", assessment=assessment_with(year=2029, schemes=["eu-rfnbo"])), "eu-rfnbo")
     assert c.status == "qualifies" and c.value == pytest.approx(open_.value + 2.5, rel=1e-12)
     assert any("declared by the producer: 2.5 g CO2e/MJ" in r and "buyers' statement (invented)" in r for r in c.reasons)
     with pytest.raises(InputError) as error:
-        score(tmp_path / "declared.toml", overrides=["project.declared_e_td_g_co2e_per_mj=-1"])
+        score(tmp_path / "declared.toml", assessment=assessment_with(overrides=["project.declared_e_td_g_co2e_per_mj=-1"]))
     assert "project.declared_e_td_g_co2e_per_mj" in str(error.value)

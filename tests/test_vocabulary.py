@@ -7,7 +7,7 @@ from __future__ import annotations
 import re
 
 import pytest
-from helpers import DEMO, PORTFOLIO, run_cli
+from helpers import DEMO, PORTFOLIO, assessment_with, run_cli
 
 from carbonledger.analyses.portfolio import STATUSES
 from carbonledger.io.labels import gas_name, per_name, status_name, unit_name
@@ -132,7 +132,7 @@ def test_compare_chart_names_each_limit_once_in_its_legend():
     from carbonledger.io.compare_output import comparison_figure
 
     shipped = [DEMO / f"{name}.toml" for name in ("grey_smr_ammonia_shipped", "blue_atr_ammonia_shipped")]
-    figure = comparison_figure(api.compare(shipped, boundary="well-to-tank", basis="mj"))
+    figure = comparison_figure(api.compare(shipped, basis="mj", assessment=assessment_with(boundary="well-to-tank")))
     axes = figure.axes[0]
     limits = [line for line in axes.get_lines() if line.get_label().startswith("limit ")]
     assert len(limits) == len({round(line.get_ydata()[0], 9) for line in limits}) >= 1

@@ -8,6 +8,7 @@ from pathlib import Path
 
 import openpyxl
 import pytest
+from helpers import assessment_with
 from workbook_support import DEMO, LIBREOFFICE_JOBS, VERDICT_WORDS, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 from carbonledger.api import score
@@ -105,7 +106,7 @@ FORMULAS_DEMOS = [DEMO / f"{name}.toml" for name in ("blue_atr_ammonia_shipped",
 def test_formulas_library_recalculates_the_engine_figures(project, tmp_path):
     out = without_interval_sheets(write(project, tmp_path / f"{project.stem}.xlsx"))
     # the Calculation and Results sheets hold the declared annual shares; the interval matching is on its own sheets
-    assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), score(project, matching="declared"))
+    assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), score(project, assessment=assessment_with(matching="declared")))
 
 
 def without_interval_sheets(path: Path) -> Path:
@@ -124,7 +125,7 @@ def without_interval_sheets(path: Path) -> Path:
 def test_agreement_holds_for_other_gwp_sets_and_a_chosen_scheme(tmp_path):
     project = DEMO / "blue_smr_hydrogen.toml"
     out = write(project, tmp_path / "b.xlsx", "--gwp", "ar4", "--scheme", "us-45v", "--set", "natural_gas.methane_emission_share=0.02")
-    result = score(project, gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_emission_share=0.02"])
+    result = score(project, assessment=assessment_with(gwp="ar4", schemes=["us-45v"], overrides=["natural_gas.methane_emission_share=0.02"]))
     assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), result)
 
 
@@ -143,7 +144,7 @@ for _project in DEMOS:
 @pytest.mark.parametrize("project", DEMOS, ids=lambda p: p.stem)
 def test_libreoffice_recalculates_the_engine_figures(project, libreoffice_recalculated):
     _, recalculated = libreoffice_recalculated[f"demo-{project.stem}"]
-    assert_agrees(openpyxl.load_workbook(recalculated, data_only=True), score(project, matching="declared"))
+    assert_agrees(openpyxl.load_workbook(recalculated, data_only=True), score(project, assessment=assessment_with(matching="declared")))
 
 
 # every exchange is a formula --------------------------------------------------------------
@@ -187,7 +188,7 @@ def test_round_trip_with_an_edited_input(tmp_path):
     import json
 
     from_workbook = json.loads(text)
-    expected = score(project, gwp="ar5", overrides=["electrolysis.electricity_kwh_per_kg_h2=49.5"])
+    expected = score(project, assessment=assessment_with(gwp="ar5", overrides=["electrolysis.electricity_kwh_per_kg_h2=49.5"]))
     assert from_workbook["gwp_basis"] == "ar5"  # the cover's setting, not the command's default
     assert close(from_workbook["total"], expected.total)
     assert from_workbook["by_stage"] == pytest.approx(expected.by_stage, rel=1e-12)
@@ -323,7 +324,7 @@ def test_boundary_option(tmp_path):
 def test_well_to_wake_workbook_recalculates_the_engine_figures(tmp_path):
     project = DEMO / "grey_smr_ammonia_shipped.toml"
     out = write(project, tmp_path / "wake.xlsx", "--boundary", "well-to-wake")
-    assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), score(project, boundary="well-to-wake"))
+    assert_agrees(recalculate_with_formulas(out, tmp_path / "calc"), score(project, assessment=assessment_with(boundary="well-to-wake")))
 
 
 def test_cover_states_what_a_verifier_needs(tmp_path):
@@ -408,7 +409,7 @@ def test_round_trip_through_a_workbook_saved_by_libreoffice(libreoffice_recalcul
     code, text, err = run_cli("score", "--from-workbook", str(saved_by_libreoffice), "--format", "json")
     assert code == 0, err
     data = json.loads(text)
-    expected = score(DEMO / "blue_atr_ammonia.toml", gwp="ar5")
+    expected = score(DEMO / "blue_atr_ammonia.toml", assessment=assessment_with(gwp="ar5"))
     assert close(data["total"], expected.total) and data["factor_set"]["sha256"] == expected.factor_set.sha256
 
 

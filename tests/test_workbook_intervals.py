@@ -9,6 +9,7 @@ from pathlib import Path
 
 import openpyxl
 import pytest
+from helpers import assessment_with
 from workbook_support import DEMO, LIBREOFFICE_JOBS, libreoffice_job, recalculate_with_formulas, run_cli, sheet
 
 from carbonledger.api import score
@@ -121,7 +122,7 @@ def test_hydrogen_series_and_sub_hourly_intervals_under_an_hourly_rule(tmp_path)
     header = "timestamp,hydrogen [kg],generation.solar [kWh],generation.wind [kWh],grid_intensity [g CO2e/kWh]"
     project = small_project(tmp_path / "quarter", rows, header)
     values = recalculate_with_formulas(write_workbook(project, tmp_path / "quarter.xlsx", "--year", "2030"), tmp_path / "calc")
-    result = score(project, year=2030)
+    result = score(project, assessment=assessment_with(year=2030))
     rfnbo = next(check for check in result.checks if check.scheme == "eu-rfnbo").electricity_matching
     assert rfnbo.granularity == "hour" and rfnbo.periods == 4
     assert_matching_agrees(values, result)

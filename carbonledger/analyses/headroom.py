@@ -23,11 +23,10 @@ from pydantic import BaseModel
 
 from ..about import CAUTION
 from ..core.assessment import Assessment
-from ..core.scoring import DEFAULT_GWP, rulebooks
+from ..core.scoring import rulebooks
 from ..core.verdicts import NOT_MET, UNKNOWN, status_of
 from ..errors import InputError
 from ..model.distributions import Uncertainty
-from ..model.factors import FactorSet
 from ..model.project import field_limits, parameter_field
 from ..model.rulebooks import select_schemes
 from ..model.statuses import Status
@@ -112,18 +111,16 @@ def search_range(nominal: float, info) -> tuple[float, float]:
 
 def headroom(
     project,
-    factor_set: FactorSet,
+    assessment: Assessment,
     path: str,
     scheme_id: str,
     tier: str | None = None,
     *,
     source: str = "project",
-    gwp: str = DEFAULT_GWP,
-    boundary: str | None = None,
     series=None,
-    year: int | None = None,
 ) -> Headroom:
-    """The value of ``path`` at which ``scheme_id`` (its loosest tier, or ``tier``) is met exactly.
+    """The value of ``path`` at which ``scheme_id`` (its loosest tier, or ``tier``) is met exactly, under the
+    assessment's factor set, GWP set, boundary and year (its schemes are replaced by ``scheme_id``).
 
     ``series``: the project's electricity time series; the scheme value then follows its matching."""
     from scipy.optimize import brentq
@@ -139,7 +136,7 @@ def headroom(
         if not found:
             raise InputError("--tier", tier, f"a tier of {scheme.id}: {'; '.join(t.tier for t in scheme.thresholds)}")
         threshold = found[0]
-    plan = make_plan(project, factor_set, Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, gwp=gwp, schemes=[scheme.id], boundary=boundary, series=series, year=year)
+    plan = make_plan(project, assessment.but(schemes=(scheme.id,)), Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, series=series)
     probe = _Probe(plan, path, scheme.id)
     findings = probe.findings()
     rules_say = status_of(findings, True)  # the verdict of a value that meets the limit, by the one judgement
@@ -181,7 +178,7 @@ def headroom(
     step = 1e-6 * max(abs(high - low), 1e-12)
     below, above = probe(np.array([max(value - step, low), min(value + step, high)])) - threshold.limit
     qualifies_when = "below" if below < above else "above"
-    verified = verify(plan, path, value, scheme.id, source, gwp, boundary, plan.year)
+    verified = verify(plan, path, value, scheme.id, source)
     difference = abs(verified - threshold.limit) / abs(threshold.limit)
     if difference > VERIFY_RTOL:
         raise RuntimeError(f"headroom of {path} under {scheme.id} failed its check: scored {verified} at {value}, limit {threshold.limit}")
@@ -192,12 +189,12 @@ def headroom(
     return Headroom(**base, value=value, reason=reason, qualifies_when=qualifies_when, verified_scheme_value=verified, relative_difference=difference)
 
 
-def verify(plan, path: str, value: float, scheme_id: str, source: str, gwp: str, boundary: str | None, year: int | None = None) -> float:
+def verify(plan, path: str, value: float, scheme_id: str, source: str) -> float:
     """The scheme value from a full score (validated project, bw2calc solve, matched series) at the value found."""
     params = params_with_draws(plan, {path: np.float64(value)})
     data: dict[str, Any] = _plain(params)
     project = validate_project(data, source)
-    result = assess(Assessment(plan.factor_set, gwp, (scheme_id,), boundary=boundary, year=year), project, source=source, series=plan.series)
+    result = assess(plan.assessment, project, source=source, series=plan.series)
     return next(check.value for check in result.checks if check.scheme == scheme_id)
 
 

@@ -34,7 +34,8 @@ from pathlib import Path
 
 import numpy as np
 
-from ..core.scoring import gwp_set, intensities, rulebooks
+from ..core.assessment import Assessment
+from ..core.scoring import intensities, rulebooks
 from ..errors import InputError
 from ..model.factors import Factor, FactorSet, factor_row, read_factor_rows
 from ..model.statuses import Status
@@ -436,15 +437,14 @@ def _factors_used(first, trajectory: dict) -> list[dict]:
 
 def lifetime_score(
     project,
-    factor_set: FactorSet,
+    assessment: Assessment,
     *,
     project_file: str = "project",
     project_sha256: str = "",
-    gwp: str = "ar6",
-    schemes: list[str] | None = None,
 ) -> LifetimeResult:
-    """Score every operating year of a project and average over its life (see module notes)."""
-    gwp = gwp_set(gwp, factor_set)
+    """Score every operating year of a project and average over its life (see module notes), under the
+    assessment's factor set, GWP set and schemes (each year's scheme rules are those of its calendar year)."""
+    factor_set, gwp = assessment.factor_set, assessment.gwp
     life = project.lifetime
     if life is None:
         raise InputError(project_file, "lifetime", "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime")
@@ -462,7 +462,7 @@ def lifetime_score(
         base = factor_set.factors.get(grid_factor_id)
         per_year, scales, source_years, series_use = yearly_series(series, calendar_years, trajectory, base, trajectory_origin or factor_set.name)
         year_projects = [replace(item, series=one_series) for item, one_series in zip(year_projects, per_year, strict=True)]
-    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=schemes, year=calendar_years)  # each year's scheme rules
+    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=assessment.scheme_list, year=calendar_years)  # each year's scheme rules
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)

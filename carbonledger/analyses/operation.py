@@ -14,6 +14,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import Any
 
+from ..core.assessment import Assessment
 from ..errors import InputError
 from ..model.levers import Lever
 from .electricity_series import ElectricitySeries
@@ -51,15 +52,13 @@ def plan_operation(
     try:
         plan = plan_project(
             project,
-            factor_set,
+            Assessment(factor_set, gwp, year=year),
             series,
             scheme,
             source=source,
             rated_kw=lever.rated_kw,
             min_load=lever.min_load,
             hydrogen_price=lever.hydrogen_price,
-            gwp=gwp,
-            year=year,
         )
     except InputError as error:
         if error.source == "plan":  # the program has no plan that makes hydrogen and qualifies

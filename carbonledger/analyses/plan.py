@@ -42,7 +42,8 @@ from typing import Any
 
 import numpy as np
 
-from ..core.scoring import DEFAULT_GWP, assemble, judged, prepare, scheme_reading, solve_with_bw2calc
+from ..core.assessment import Assessment
+from ..core.scoring import assemble, judged, scheme_reading, solve_with_bw2calc
 from ..errors import InputError
 from ..model.statuses import Status
 from ..routes import routes_of
@@ -492,7 +493,7 @@ def _plan_passes(program: _Program, scorer: _Scorer, series: ElectricitySeries, 
 
 def plan_project(
     project,
-    factor_set,
+    assessment: Assessment,
     series: ElectricitySeries,
     scheme: str,
     *,
@@ -503,14 +504,14 @@ def plan_project(
     min_load: float = 0.0,
     part_load: list[tuple[float, float]] | None = None,
     hydrogen_price: float | None = None,
-    matching: str | None = None,
-    gwp: str = DEFAULT_GWP,
-    year: int | None = None,
 ) -> PlanResult:
     """The operating plan of a validated project against its series (``plan_load``), scored once with
-    bw2calc for the declared value and judged by the one judgement (``core.scoring.judged``).
+    bw2calc for the declared value and judged by the one judgement (``core.scoring.judged``), under the
+    assessment's factor set, GWP set, boundary, year and matching (a granularity replacing the scheme's
+    temporal rule, or None for its dated rule); its schemes are replaced by ``scheme``.
     ``rated_kw`` None: the largest load in the series. Used by ``api.plan`` and by qualify's operation lever."""
-    prepared = prepare(project, factor_set, gwp=gwp, schemes=[scheme], source=source, project_sha256=project_sha256, year=year, matching=series_matched_periods(series))
+    matching = assessment.matching
+    prepared = assessment.but(schemes=(scheme,)).prepare(project, source=source, project_sha256=project_sha256, matched_periods=series_matched_periods(series))
     solutions = solve_with_bw2calc(prepared)
     check = assemble(prepared, solutions).checks[0]
     rulebook = prepared.chosen[0]

@@ -69,10 +69,9 @@ from pydantic import BaseModel
 
 from ..about import CAUTION, __version__
 from ..core.assessment import Assessment
-from ..core.scoring import DEFAULT_GWP, rulebooks
+from ..core.scoring import rulebooks
 from ..errors import InputError
 from ..model.distributions import Uncertainty
-from ..model.factors import FactorSet
 from ..model.levers import MAX_COMBINATIONS, Lever, Levers
 from ..model.project import apply_overrides, field_limits, parameter_field, path_key, split_path
 from ..model.rulebooks import select_schemes
@@ -594,20 +593,17 @@ class Search:
     """Everything one run of qualify needs: levers, combinations, evaluators."""
 
     project: Any
-    factor_set: FactorSet
+    assessment: Assessment  # factor set, GWP set, boundary, year; its schemes are the ones to qualify for
     levers: list[Resolved]
     schemes: list
     source: str
     levers_source: str
-    gwp: str
-    year: int | None
     confidence: float | None
     draws: int
     seed: int
     sampling: str | None
     uncertainty: Uncertainty | None
     series: Any
-    boundary: str | None = None
     solved: int = 0
     pruned: int = 0
     iterations: int = 0
@@ -641,7 +637,7 @@ class Search:
         """A plan of the project for the continuous levers and the share levers (their fields), holding the
         year, series, schemes and the sources that take up the shares' differences."""
         fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.levers if lever.continuous or is_share_path(lever.path)}
-        plan = Plan(project, self.factor_set, Uncertainty(), self.source, self.gwp, [s.id for s in self.schemes], self.boundary, fields, year=self.year, series=self.series)
+        plan = Plan(project, self.assessment, Uncertainty(), self.source, fields, series=self.series)
         plan.absorbers = absorbers_of(self.levers)
         return plan
 
@@ -682,7 +678,7 @@ class Search:
     def draws_of_project(self) -> tuple[Draws, list[str]]:
         """The Monte Carlo draws of the project as written (its distributions, the seed), drawn once."""
         if self.drawn is None:
-            plan = make_plan(self.project, self.factor_set, self.uncertainty or Uncertainty(), source=self.source, gwp=self.gwp, schemes=[s.id for s in self.schemes], boundary=self.boundary, series=self.series)
+            plan = make_plan(self.project, self.assessment, self.uncertainty or Uncertainty(), source=self.source, series=self.series)
             self.drawn = (draw(plan, self.draws, self.seed, self.sampling), list(plan.uncertainty.parameters))
         return self.drawn
 
@@ -1012,14 +1008,11 @@ def _solver(search, combinations, confidence, seed) -> dict:
 
 def qualify(
     project,
-    factor_set: FactorSet,
+    assessment: Assessment,
     levers: Levers,
-    schemes: list[str],
     *,
     source: str = "project",
     levers_source: str = "levers",
-    gwp: str = DEFAULT_GWP,
-    year: int | None = None,
     confidence: float | None = None,
     draws: int = 2000,
     seed: int = 0,
@@ -1029,7 +1022,8 @@ def qualify(
     budgets: int = FRONT_BUDGETS,
     original=None,
 ) -> QualifyResult:
-    """The least-cost lever values with which every scheme in ``schemes`` qualifies.
+    """The least-cost lever values with which every scheme of the assessment qualifies (on its factor set,
+    GWP set, boundary and year).
 
     project : the validated project (``original``: the project as written, for the score-back set;
         default ``project``). The levers file's ``[sources]`` are added here at share 0.
@@ -1040,12 +1034,14 @@ def qualify(
     check_confidence(confidence)
     if confidence is not None and draws < 2:
         raise InputError("--draws", str(draws), "at least 2 draws")
+    schemes = assessment.scheme_list
     if not schemes:
         raise InputError("--scheme", "", "at least one scheme id (or `schemes` in the levers file)")
     original = original or project
     project = with_sources(project, levers, levers_source)
     chosen = select_schemes(rulebooks(), schemes, project.project.product)
-    search = Search(project, factor_set, resolve_levers(project, levers, levers_source), chosen, source, levers_source, gwp, year, confidence, draws, seed, sampling, uncertainty, series)
+    assessment = assessment.but(schemes=tuple(s.id for s in chosen))
+    search = Search(project, assessment, resolve_levers(project, levers, levers_source), chosen, source, levers_source, confidence, draws, seed, sampling, uncertainty, series)
     combinations = search.combinations()
     if levers.operation is not None:
         check_operation(search, levers, combinations)
@@ -1078,7 +1074,7 @@ def _result(search: Search, levers: Levers, combinations: list[Combination], ori
         project_file=search.source,
         levers_file=search.levers_source,
         schemes=[s.id for s in chosen],
-        year=search.year,
+        year=search.assessment.year,
         confidence=confidence,
         draws=search.draws if confidence is not None else None,
         seed=search.seed if confidence is not None else None,
@@ -1129,7 +1125,7 @@ def _operation_search(search: Search, combinations: list[Combination], index: in
     best = None
     for combination in combinations:
         project = search.with_values(combination.discrete) if combination.discrete else search.project
-        found = plan_operation(project, search.factor_set, search.series, search.schemes[0].id, lever, source=search.source, gwp=search.gwp, year=search.year, where=(search.levers_source, _where(index, "kind")))
+        found = plan_operation(project, search.assessment.factor_set, search.series, search.schemes[0].id, lever, source=search.source, gwp=search.assessment.gwp, year=search.assessment.year, where=(search.levers_source, _where(index, "kind")))
         search.solved += 1
         if found is not None and (best is None or combination.discrete_cost + found.cost < best[2]):
             best = (combination, found, combination.discrete_cost + found.cost)
@@ -1179,8 +1175,7 @@ def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], b
     whether it qualifies: every status ``qualifies`` at the central value; with a confidence, every
     scheme qualifying together in at least that share of the draws (``found`` takes that
     probability), and no scheme kept from qualifying by its rules at the answer."""
-    ids = [s.id for s in search.schemes]
-    result = assess(Assessment(search.factor_set, search.gwp, tuple(ids), year=search.year), final, source=search.source, series=search.series)
+    result = assess(search.assessment, final, source=search.source, series=search.series)
     checks = [CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin) for c in result.checks]
     if search.confidence is None:
         return checks, all(check.status == Status.QUALIFIES for check in checks)

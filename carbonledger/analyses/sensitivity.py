@@ -29,7 +29,7 @@ import numpy as np
 from pydantic import BaseModel
 
 from ..about import CAUTION
-from ..core.scoring import DEFAULT_GWP
+from ..core.assessment import Assessment
 from ..errors import InputError
 from ..model.distributions import Uncertainty, Uniform
 from ..model.factors import FactorSet, factors_root
@@ -145,7 +145,7 @@ def _draws_at(plan, u: np.ndarray) -> Draws:
             else:
                 drawn.parameters[name][keep] = nominal
         else:
-            drawn.factors[name][keep] = plan.factor_set.get(name).value
+            drawn.factors[name][keep] = plan.assessment.factor_set.get(name).value
     return drawn
 
 
@@ -217,7 +217,7 @@ def _swing_draws(plan, names: list[str], fraction: float) -> Draws:
     for k, name in enumerate(names):
         kind, key = name.split(" ", 1)
         column = drawn.parameters[key] if kind == "parameter" else drawn.factors[key]
-        value = plan.fields[key][0] if kind == "parameter" else plan.factor_set.get(key).value
+        value = plan.fields[key][0] if kind == "parameter" else plan.assessment.factor_set.get(key).value
         column[1 + 2 * k], column[2 + 2 * k] = value * (1 - fraction), value * (1 + fraction)
     return drawn
 
@@ -235,15 +235,15 @@ def _moves_nothing(bar: SwingBar, base: dict[str, float]) -> bool:
     return all(abs(change) <= 1e-12 * max(1.0, abs(base[f.figure])) for f in bar.figures for change in (f.change_minus, f.change_plus) if change is not None)
 
 
-def swing(project, factor_set: FactorSet, percent: float = SWING_PERCENT, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None, year=None) -> Swing:
+def swing(project, assessment: Assessment, percent: float = SWING_PERCENT, *, source: str = "project", series=None) -> Swing:
     """Each factor the project reads and each numeric parameter moved alone by -x % and +x % of its own
     value (x = ``percent``), the others as the project states: the change of the total and of every scheme's
     value. A move that breaks a physical limit (a share above 1) gives no figure (None)."""
     check_swing(percent)
     fraction = percent / 100
-    used = factors_used(project, factor_set, source, gwp, boundary)
-    inputs, input_units, held = swing_inputs(project, factor_set, used, fraction, source)
-    plan = make_plan(project, factor_set, inputs, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series, year=year)
+    used = factors_used(project, assessment, source)
+    inputs, input_units, held = swing_inputs(project, assessment.factor_set, used, fraction, source)
+    plan = make_plan(project, assessment, inputs, source=source, series=series)
     names = inputs.names()
     drawn = _swing_draws(plan, names, fraction)
     outcome = evaluate_in_blocks(plan, drawn)
@@ -253,7 +253,7 @@ def swing(project, factor_set: FactorSet, percent: float = SWING_PERCENT, *, sou
     base = {figure: float(column[0]) for figure, column in values.items()}
     bars = []
     for k, name in enumerate(names):
-        value = plan.fields[name.split(" ", 1)[1]][0] if name.startswith("parameter") else plan.factor_set.get(name.split(" ", 1)[1]).value
+        value = plan.fields[name.split(" ", 1)[1]][0] if name.startswith("parameter") else plan.assessment.factor_set.get(name.split(" ", 1)[1]).value
         bars.append(SwingBar(input=name, value=value, unit=input_units[name], figures=_swing_figures(values, units, k, broken)))
     moved = [bar for bar in bars if not _moves_nothing(bar, base)]
     moved.sort(key=lambda bar: -max(abs(change or 0.0) for change in (bar.figures[0].change_minus, bar.figures[0].change_plus)))
@@ -262,28 +262,28 @@ def swing(project, factor_set: FactorSet, percent: float = SWING_PERCENT, *, sou
 
 def sensitivity(
     project,
-    factor_set: FactorSet,
+    assessment: Assessment,
     uncertainty: Uncertainty,
     *,
     scheme: str | None = None,
     base_sample: int = 1024,
     seed: int = DEFAULT_SEED,
     source: str = "project",
-    gwp: str = DEFAULT_GWP,
-    boundary: str | None = None,
     series=None,
-    year: int | None = None,
     swing_percent: float = SWING_PERCENT,
 ) -> Sensitivity:
     """Sobol indices and tornado of the total (or of ``scheme``'s value) over the uncertain inputs, and the
-    one-at-a-time swing of every factor and numeric parameter by +-``swing_percent`` (``swing``).
+    one-at-a-time swing of every factor and numeric parameter by +-``swing_percent`` (``swing``), under the
+    assessment's options (its schemes replaced by ``scheme`` when one is given).
 
     ``series``: the project's electricity time series; scheme values then follow its matching."""
     check_swing(swing_percent)
     from SALib.analyze import sobol as sobol_analysis
     from SALib.sample import sobol as sobol_sample
 
-    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary, series=series, year=year)
+    if scheme:
+        assessment = assessment.but(schemes=(scheme,))
+    plan = make_plan(project, assessment, uncertainty, source=source, series=series)
     names = plan.uncertainty.names()
     if not names:
         raise InputError(source, "uncertainty", "at least one distribution")
@@ -326,5 +326,5 @@ def sensitivity(
         evaluations_breaking_limits=int(broken.sum()),
         sobol=sobol,
         tornado=bars,
-        swing=swing(project, factor_set, swing_percent, source=source, gwp=gwp, schemes=[scheme] if scheme else None, boundary=boundary, series=series, year=year),
+        swing=swing(project, assessment, swing_percent, source=source, series=series),
     )

@@ -32,11 +32,11 @@ import numpy as np
 from pydantic import BaseModel, PrivateAttr
 
 from ..about import CAUTION, __version__
+from ..core.assessment import Assessment
 from ..core.engine import build_matrices, build_stacked_matrices, datapackage, import_bw2calc, solve_stacked_values
 from ..core.inputs import DrawInputs, NumericInputs
 from ..core.inventory import build_inventory, check_physical_limits
 from ..core.scoring import (
-    DEFAULT_GWP,
     FUNCTIONAL_UNITS,
     basis_of,
     characterisation,
@@ -56,7 +56,7 @@ from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row, factors_root
 from ..model.pedigree import grade_defaults
-from ..model.project import BOUNDARIES, field_limits, parameter_field, path_key, split_path
+from ..model.project import field_limits, parameter_field, path_key, split_path
 from ..model.shares import is_share_path, negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
@@ -167,17 +167,13 @@ class Draws:
 
 @dataclass
 class Plan:
-    """A project ready for draws: validated model, factor set, distributions and options."""
+    """A project ready for draws: validated model, the run's assessment, distributions and their fields."""
 
     project: Any
-    factor_set: FactorSet
+    assessment: Assessment  # factor set, GWP set, schemes, boundary and assessment year of the run
     uncertainty: Uncertainty
     source: str = "project"
-    gwp: str = DEFAULT_GWP
-    schemes: list[str] | None = None
-    boundary: str | None = None
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
-    year: int | None = None  # the assessment year (default: the first full year after commissioning, else this year)
     used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
     series: Any = None  # the project's electricity time series: scheme values follow its matching
     absorbers: dict[str, str] = field(default_factory=dict)  # share path -> the source taking up its difference (default: the unmoved, in proportion)
@@ -202,7 +198,7 @@ def checked_parameter(project, factor_set: FactorSet, path: str, distribution, s
     return nominal, info
 
 
-def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, source: str = "project", gwp: str = DEFAULT_GWP, schemes=None, boundary=None, series=None, year: int | None = None) -> Plan:
+def make_plan(project, assessment: Assessment, uncertainty: Uncertainty, *, source: str = "project", series=None) -> Plan:
     """Check every distribution against the project and the factor set (one InputError line).
 
     ``series``: the project's electricity time series (``analyses.electricity_series``); with it,
@@ -213,9 +209,8 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
     gets its pedigree-matrix default (a lognormal around the row's value); a run with no
     distribution at all gets the defaults of the rows' source grades (``with_defaults``).
     """
-    if boundary is not None and boundary not in BOUNDARIES:
-        raise InputError("--boundary", boundary, f"one of {', '.join(BOUNDARIES)}")
-    used = factors_used(project, factor_set, source, gwp, boundary)
+    factor_set = assessment.factor_set
+    used = factors_used(project, assessment, source)
     uncertainty = with_defaults(used, factor_set, uncertainty)
     fields = {path: checked_parameter(project, factor_set, path, distribution, source) for path, distribution in uncertainty.parameters.items()}
     shared = [path for path in uncertainty.parameters if is_share_path(path)]
@@ -237,7 +232,7 @@ def make_plan(project, factor_set: FactorSet, uncertainty: Uncertainty, *, sourc
             raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
     if not uncertainty.parameters and not uncertainty.factors:
         raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
-    plan = Plan(project, factor_set, uncertainty, source, gwp, schemes, boundary, fields, year=year, series=series)
+    plan = Plan(project, assessment, uncertainty, source, fields, series=series)
     plan.used_rows = [factor_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
     return plan
@@ -252,22 +247,23 @@ def _median_of(distribution, value, source: str, where: str):
     return distribution.with_median(float(value))
 
 
-def factors_used(project, factor_set: FactorSet, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> dict:
+def factors_used(project, assessment: Assessment, source: str) -> dict:
     """The factor rows and reference values a score of the project reads (id -> row), found by
-    building its inventory once (the rows of the schemes' own GWP sets are not among them)."""
+    building its inventory once under the assessment's factor set, boundary and GWP set (the rows of
+    the schemes' own GWP sets are not among them)."""
     params = copy.deepcopy(project.model_dump())
-    if boundary is not None:
-        params["project"]["boundary"] = boundary
-    inputs = NumericInputs(factor_set, source)
+    if assessment.boundary is not None:
+        params["project"]["boundary"] = assessment.boundary
+    inputs = NumericInputs(assessment.factor_set, source)
     check_physical_limits(params, inputs, source)
     build_inventory(params, inputs)
-    characterisation(inputs, gwp)
+    characterisation(inputs, assessment.gwp)
     return dict(inputs.used)
 
 
-def uncertain_inputs(project, factor_set: FactorSet, uncertainty: Uncertainty, source: str, gwp: str = DEFAULT_GWP, boundary: str | None = None) -> Uncertainty:
+def uncertain_inputs(project, assessment: Assessment, uncertainty: Uncertainty, source: str) -> Uncertainty:
     """The distributions a run of the project would draw: ``uncertainty`` and the defaults of the factor rows it reads."""
-    return with_defaults(factors_used(project, factor_set, source, gwp, boundary), factor_set, uncertainty)
+    return with_defaults(factors_used(project, assessment, source), assessment.factor_set, uncertainty)
 
 
 def with_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertainty) -> Uncertainty:
@@ -354,8 +350,8 @@ def _set(params: dict, path: str, value) -> None:
 def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
     """The project's parameters with draws in place; another source's share takes up the rest of a drawn share."""
     params = copy.deepcopy(plan.project.model_dump())
-    if plan.boundary is not None:
-        params["project"]["boundary"] = plan.boundary
+    if plan.assessment.boundary is not None:
+        params["project"]["boundary"] = plan.assessment.boundary
     for path, values in parameters.items():
         if not is_share_path(path):
             _set(params, path, values)
@@ -380,10 +376,10 @@ def _factor_draws(plan: Plan, draws: Draws) -> dict[str, np.ndarray]:
     """Factor draws in each factor's own unit, with the chosen factor ids of factor parameters resolved."""
     factors = dict(draws.factors)
     for path, (nominal_id, chosen) in draws.factor_choices.items():
-        nominal = plan.factor_set.get(nominal_id)
+        nominal = plan.assessment.factor_set.get(nominal_id)
         values = np.empty(len(chosen))
         for choice in set(chosen):
-            row = plan.factor_set.get(choice)
+            row = plan.assessment.factor_set.get(choice)
             try:
                 scale = conversion_factor(row.unit, nominal.unit)
             except UnitMismatch:
@@ -419,7 +415,7 @@ def limit_breaks(plan: Plan, draws: Draws, count: int) -> tuple[np.ndarray, list
     for name, mask in negative_shares(shares_with_draws(plan, draws.parameters)).items():
         record(np.asarray(mask, dtype=bool), f"electricity.sources.{path_key(name)}.share", ">= 0 after the moved shares are taken up")
     for factor_id, values in draws.factors.items():
-        nominal = plan.factor_set.get(factor_id).value
+        nominal = plan.assessment.factor_set.get(factor_id).value
         record(np.sign(values) * np.sign(nominal) < 0, factor_id, f"the sign of the factor's value ({nominal:g})")
     if draws.parameters or draws.factors or draws.factor_choices:
         route_broken = _route_checks(plan, draws, count, ~broken)
@@ -436,7 +432,7 @@ def _route_checks(plan: Plan, draws: Draws, count: int, candidates: np.ndarray) 
     project's own values, before the draws are built.
     """
     params = params_with_draws(plan, draws.parameters)
-    inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
+    inputs = DrawInputs(plan.assessment.factor_set, _factor_draws(plan, draws), plan.source)
     found: dict[tuple, np.ndarray] = {}
     for route in REGISTRY:
         owns = [name for name in {**route.sections, **route.optional_sections} if params.get(name) is not None]
@@ -482,7 +478,7 @@ def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.n
         data = plan.project.model_dump()
         section, name = rule.parameter.split(".")
         data[section][name] = rule.required
-        variant = replace(plan, project=validate_project(data, plan.source), schemes=[scheme.id])
+        variant = replace(plan, project=validate_project(data, plan.source), assessment=plan.assessment.but(schemes=(scheme.id,)))
         return np.where(keep, values, evaluate(variant, draws, count).scheme_values[scheme.id]), open_draws
     return values, ~keep
 
@@ -511,16 +507,16 @@ def _matched_draws(plan: Plan, scheme, reading, inventory, keys, flow_keys, gwp_
 def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     """Build the inventory once with arrays of draws and solve every draw stacked."""
     params = params_with_draws(plan, draws.parameters)
-    inputs = DrawInputs(plan.factor_set, _factor_draws(plan, draws), plan.source)
-    check_physical_limits(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source), plan.source)
-    staged = run_stages(params, inputs, plan.gwp, plan.schemes)
+    inputs = DrawInputs(plan.assessment.factor_set, _factor_draws(plan, draws), plan.source)
+    check_physical_limits(params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source), plan.source)
+    staged = run_stages(params, inputs, plan.assessment.gwp, plan.assessment.scheme_list)
     inventory, chosen, product = staged.inventory, staged.chosen, staged.inventory.product
 
     def per_draw(vector: np.ndarray) -> np.ndarray:
         return np.broadcast_to(vector.T if vector.ndim == 2 else vector, (count, len(vector)))
 
     per_gwp = {gwp: per_draw(vector) for gwp, vector in staged.per_gwp.items()}
-    headline = per_gwp[plan.gwp]
+    headline = per_gwp[plan.assessment.gwp]
     stacked = build_stacked_matrices(inventory, count)
     demands = demands_of(inventory)
     supply, biosphere = solve_stacked_values(stacked, demands)
@@ -540,7 +536,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
     scheme_values, scheme_findings, co_product_open = {}, {}, {}
     nominal = params_with_draws(plan, {})
-    period = Period.year(checked_year(nominal, plan.year, plan.source))
+    period = Period.year(checked_year(nominal, plan.assessment.year, plan.source))
     matched_periods = series_matched_periods(plan.series) if plan.series is not None else None
     for scheme in chosen:
         reading = read_rules(scheme, inventory, nominal, period, matched_periods)
@@ -607,7 +603,7 @@ def draws_per_block(plan: Plan) -> int:
     """How many draws one stacked solve takes: ``BLOCK``, fewer when the system is large, so that the
     stacked matrices (draws x activities x activities, 8 bytes each, a few copies) stay within
     ``MEMORY_PER_BLOCK_BYTES`` whatever the number of electricity sources."""
-    activities = len(build_inventory(params_with_draws(plan, {}), NumericInputs(plan.factor_set, plan.source)).activities)
+    activities = len(build_inventory(params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source)).activities)
     return int(max(1, min(BLOCK, MEMORY_PER_BLOCK_BYTES // (4 * 8 * activities**2))))
 
 
@@ -851,8 +847,8 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
         boundary=outcome.boundary,
         functional_unit=outcome.functional_unit,
         unit=outcome.unit,
-        gwp_basis=plan.gwp,
-        factor_set={"name": plan.factor_set.name, "sha256": plan.factor_set.sha256},
+        gwp_basis=plan.assessment.gwp,
+        factor_set={"name": plan.assessment.factor_set.name, "sha256": plan.assessment.factor_set.sha256},
         draws=count,
         seed=seed,
         sampling=sampling,
@@ -878,30 +874,27 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
 
 def monte_carlo(
     project,
-    factor_set: FactorSet,
+    assessment: Assessment,
     uncertainty: Uncertainty,
     *,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
     sampling: str | None = None,
     source: str = "project",
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    boundary: str | None = None,
     progress: Callable[[int], None] | None = None,
     keep_draws: bool = False,
     project_sha256: str = "",
     series=None,
-    year: int | None = None,
 ) -> UncertaintyResult:
-    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain.
+    """Monte Carlo of one project: ``draws`` draws of its uncertain inputs through the whole chain,
+    under the assessment's factor set, GWP set, schemes, boundary and year.
 
     keep_draws : keep every draw on the result (``draw_columns()``, for a draws CSV).
     series : the project's electricity time series; every scheme value of every draw is then
         matched under the scheme's rule, as ``score`` does.
     """
     check_draws(draws, seed)
-    plan = make_plan(project, factor_set, uncertainty, source=source, gwp=gwp, schemes=schemes, boundary=boundary, series=series, year=year)
+    plan = make_plan(project, assessment, uncertainty, source=source, series=series)
     chosen_sampling = sampling or uncertainty.sampling
     drawn = draw(plan, draws, seed, chosen_sampling)
     outcome = evaluate_in_blocks(plan, drawn, progress)
@@ -940,11 +933,11 @@ def bw2calc_entries(plan: Plan):
     if plan.uncertainty.parameters or plan.uncertainty.correlations:
         raise InputError(plan.source, "uncertainty", "distributions on factors only, without correlations, for the bw2calc cross-check")
     params = params_with_draws(plan, {})
-    inputs = NumericInputs(plan.factor_set, plan.source)
+    inputs = NumericInputs(plan.assessment.factor_set, plan.source)
     check_physical_limits(params, inputs, plan.source)
     inventory = build_inventory(params, inputs)
     matrices = build_matrices(inventory)
-    headline = characterisation(inputs, plan.gwp)
+    headline = characterisation(inputs, plan.assessment.gwp)
     _, bwp = import_bw2calc()
     rows = {
         "technosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.technosphere_values for nan in [float("nan")]],
@@ -955,10 +948,10 @@ def bw2calc_entries(plan: Plan):
     for factor_id, distribution in plan.uncertainty.factors.items():
         if distribution.distribution not in STATS_ARRAYS_TYPES:
             raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, pedigree, uniform or triangular for the bw2calc cross-check")
-        value = plan.factor_set.get(factor_id).value
-        doubled = DrawInputs(plan.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
+        value = plan.assessment.factor_set.get(factor_id).value
+        doubled = DrawInputs(plan.assessment.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
         stacked = build_stacked_matrices(build_inventory(params_with_draws(plan, {}), doubled), 2)
-        gwp_values = characterisation(doubled, plan.gwp)
+        gwp_values = characterisation(doubled, plan.assessment.gwp)
         changed = {
             "technosphere": stacked.technosphere_values,
             "biosphere": stacked.biosphere_values,

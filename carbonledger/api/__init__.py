@@ -1,14 +1,15 @@
 """The library API: what the command line calls, and what a notebook user calls directly.
 
-Each function takes file paths and options, loads and validates them at the edge, and calls
-the core and the analyses; none of them prints. ``score`` returns a ``ScoreResult``; ``compare``
+Each function takes file paths, one ``Assessment`` (the options of the run: factor set, GWP set,
+schemes, overrides, boundary, year, matching; None for the defaults) and the options of its own
+analysis, loads and validates them at the edge, and calls the core and the analyses; none of them prints. ``score`` returns a ``ScoreResult``; ``compare``
 a ``ComparisonResult``; ``audit_workbook`` an openpyxl workbook and the engine's result.
 
 One module per command family, so that a command imports only what it uses (``carbonledger
 score`` loads ``api.scoring`` and none of the analyses):
 
-- ``api.scoring``: score, and the shared edges (factor_set_of, boundary_overrides);
-- ``api.workbooks``: audit_workbook, score_workbook, load_any_project;
+- ``api.scoring``: score, and the shared edges (assessment_or_default, factor_set_of, boundary_overrides);
+- ``api.workbooks``: audit_workbook, score_workbook, cover_assessment, load_any_project;
 - ``api.comparison``: compare;
 - ``api.portfolios``: recalc (recalc_and_record), lifetime;
 - ``api.operating_plan``: plan, matching_chart;
@@ -36,6 +37,7 @@ WHERE = {
     "factor_set_of": ".scoring",
     "boundary_overrides": "carbonledger.model.project",
     "score_workbook": ".workbooks",
+    "cover_assessment": ".workbooks",
     "audit_workbook": ".workbooks",
     "load_any_project": ".workbooks",
     "compare": ".comparison",
@@ -66,7 +68,7 @@ WHERE = {
     "load_factor_set": "carbonledger.model.factors",
     "project_series": "carbonledger.analyses.electricity_series",
     "assess": "carbonledger.analyses.pipeline",
-    "assess_file": ".scoring",
+    "assessment_or_default": ".scoring",
     "Assessment": "carbonledger.core.assessment",
     "DEFAULT_SEED": "carbonledger.analyses.uncertainty",
     "DEFAULT_DRAWS": "carbonledger.analyses.uncertainty",
@@ -75,7 +77,6 @@ WHERE = {
 __all__ = [
     "Assessment",
     "assess",
-    "assess_file",
     "score",
     "score_project",
     "score_workbook",

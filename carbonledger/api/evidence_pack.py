@@ -8,6 +8,7 @@ from datetime import UTC, datetime
 from pathlib import Path
 
 from ..about import CAUTION
+from ..core.assessment import Assessment
 from ..core.results import ScoreResult
 from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
@@ -17,7 +18,7 @@ from ..model.factors import DEFAULT_SET, load_factor_set
 from ..model.rulebooks import using_rulebooks
 from ..routes.project import load_project
 from .reports import report
-from .scoring import score, user_rulebooks
+from .scoring import assessment_or_default, requested_as, score, user_rulebooks
 from .workbooks import audit_workbook
 
 # --- the evidence pack ----------------------------------------------------------------------------
@@ -66,11 +67,8 @@ def files_read_by(project, project_file: str | Path) -> dict[str, Path]:
 def pack(
     project_file: str | Path,
     output: str | Path,
+    assessment: Assessment | None = None,
     *,
-    factors: str | Path = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    year: int | None = None,
     ledger: str | Path | None = None,
     force: bool = False,
     rulebooks: list[str | Path] | None = None,
@@ -78,7 +76,7 @@ def pack(
     """Write an evidence pack of a project.
 
     The pack holds the project file and every file it reads, the factor overrides (a factor CSV or set
-    folder given as ``factors``; a shipped set is named with its sha256), the user's own rulebooks, the
+    folder of the assessment's set; a shipped set is named with its sha256), the user's own rulebooks, the
     result as JSON, the audit workbook, the report, the project's records in the run ledger, and a manifest
     with the sha256 of every file, the version and the assessment year.
 
@@ -88,15 +86,9 @@ def pack(
         The project TOML file.
     output : str or Path
         The pack (zip) file to write.
-    factors : str or Path
-        Factor set name, set folder or override CSV (a folder or CSV goes in the pack).
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline result.
-    schemes : list of str or None
-        Scheme ids to check; default every scheme that applies.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read; the manifest records the
-        year the result was assessed on.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year; a factor CSV or set folder of the user's goes in the pack); None: the
+        defaults (``api.scoring.assessment_or_default``).
     ledger : str, Path or None
         The run ledger whose records of the project go in the pack; default ``$CARBONLEDGER_LEDGER``, else the
         ledger in the user's data folder.
@@ -127,19 +119,20 @@ def pack(
             raise InputError(path, "--rulebook", f"a file name of its own in the pack ({packed_rulebooks[name]} has the name {path.name} too)")
         packed_rulebooks[name] = path
     with using_rulebooks(user_rulebooks(list(packed_rulebooks.values()))):
-        return _pack(Path(project_file), output, factors, gwp, schemes, year, ledger, force, packed_rulebooks)
+        return _pack(Path(project_file), output, assessment_or_default(assessment), ledger, force, packed_rulebooks)
 
 
-def _pack(project_file: Path, output, factors, gwp, schemes, year, ledger, force, packed_rulebooks: dict[str, Path]) -> tuple[dict, ScoreResult]:
-    project, _ = load_project(project_file)
-    factor_set = load_factor_set(factors)
-    result = score(project_file, factors=factor_set, gwp=gwp, schemes=schemes, year=year)
-    year = int(getattr(result, "assessment_year", None) or next((c.assessment_period for c in result.checks if c.assessment_period), None) or year or datetime.now(UTC).year)
+def _pack(project_file: Path, output, assessment: Assessment, ledger, force, packed_rulebooks: dict[str, Path]) -> tuple[dict, ScoreResult]:
+    project, _ = load_project(project_file, assessment.project_overrides)
+    factor_set = assessment.factor_set
+    result = score(project_file, assessment)
+    year = int(getattr(result, "assessment_year", None) or next((c.assessment_period for c in result.checks if c.assessment_period), None) or assessment.year or datetime.now(UTC).year)
+    assessment = assessment.but(year=year)
     files = {f"{PACK_PROJECT_FOLDER}/{project_file.name}": project_file.read_bytes()}
     files.update({f"{PACK_PROJECT_FOLDER}/{name}": path.read_bytes() for name, path in files_read_by(project, project_file).items()})
     files.update({name: path.read_bytes() for name, path in packed_rulebooks.items()})
     factors_in_pack = ""
-    overrides = Path(factors)
+    overrides = Path(requested_as(factor_set))
     if overrides.is_file():
         factors_in_pack = f"factors/{overrides.name}"
         files[factors_in_pack] = overrides.read_bytes()
@@ -147,9 +140,9 @@ def _pack(project_file: Path, output, factors, gwp, schemes, year, ledger, force
         factors_in_pack = f"factors/{overrides.name}"
         files.update({f"{factors_in_pack}/{path.name}": path.read_bytes() for path in sorted(overrides.iterdir()) if path.is_file()})
     files["result.json"] = result.to_json().encode("utf-8")
-    book, _, _ = audit_workbook(project_file, factors=str(factors), gwp=gwp, schemes=schemes, year=year)
+    book, _, _ = audit_workbook(project_file, assessment)
     files["workbook.xlsx"] = workbook_bytes(book)
-    files["report.html"] = report([project_file], factors=factor_set, gwp=gwp, schemes=schemes, year=year).encode("utf-8")
+    files["report.html"] = report([project_file], assessment).encode("utf-8")
     try:
         records = project_history(project_file, ledger)
     except InputError:  # no ledger yet: the pack says so
@@ -160,7 +153,8 @@ def _pack(project_file: Path, output, factors, gwp, schemes, year, ledger, force
         carbonledger_version=result.carbonledger_version,
         assessment_year=year,
         project=f"{PACK_PROJECT_FOLDER}/{project_file.name}",
-        options={"factors": factors_in_pack or factor_set.name, "gwp": gwp, "schemes": schemes or [], "year": year, "rulebooks": list(packed_rulebooks)},
+        options={"factors": factors_in_pack or factor_set.name, "gwp": assessment.gwp, "schemes": list(assessment.schemes or []), "year": year, "rulebooks": list(packed_rulebooks),
+                 **({"overrides": list(assessment.overrides)} if assessment.overrides else {}), **({"boundary": assessment.boundary} if assessment.boundary else {})},
         factor_set={"name": factor_set.name, "sha256": factor_set.sha256},
         caution=CAUTION,
     )
@@ -231,7 +225,8 @@ def verify_pack(path: str | Path) -> list[tuple[str, object, object, bool]]:
         if not factors.startswith("factors/") and expected_sha and factor_set.sha256 != expected_sha:
             raise InputError(path, "factor_set", f"factor set '{factors}' with sha256 {expected_sha} as packed; this installation's has {factor_set.sha256}")
         with using_rulebooks(user_rulebooks([Path(folder) / name for name in options.get("rulebooks", [])])):
-            rescored = score(Path(folder) / manifest["project"], factors=factor_set, gwp=options.get("gwp", DEFAULT_GWP), schemes=options.get("schemes") or None, year=options.get("year"))
+            packed_as = Assessment(factor_set, options.get("gwp", DEFAULT_GWP), tuple(options.get("schemes") or ()) or None, tuple(options.get("overrides", ())), options.get("boundary"), options.get("year"))
+            rescored = score(Path(folder) / manifest["project"], packed_as)
     before = packed_figures(json.loads(packed.files["result.json"]))
     after = packed_figures(json.loads(rescored.to_json()))
     rows = []

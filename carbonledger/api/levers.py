@@ -8,33 +8,28 @@ from ..analyses.electricity_series import project_series
 from ..analyses.qualify import FRONT_BUDGETS, QualifyResult
 from ..analyses.qualify import qualify as qualify_with
 from ..analyses.uncertainty import DEFAULT_SEED
-from ..core.scoring import DEFAULT_GWP
-from ..model.factors import DEFAULT_SET, FactorSet
+from ..core.assessment import Assessment
 from ..model.levers import read_levers
 from ..routes.project import load_project
 from .monte_carlo import load_uncertainty
-from .scoring import factor_set_of
+from .scoring import assessment_or_default
 
 
 def qualify(
     project_file: str | Path,
     levers_file: str | Path,
+    assessment: Assessment | None = None,
     *,
-    schemes: list[str] | None = None,
-    year: int | None = None,
     confidence: float | None = None,
     draws: int = 2000,
     seed: int = DEFAULT_SEED,
     sampling: str | None = None,
     distributions: str | Path | None = None,
     budgets: int = FRONT_BUDGETS,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    overrides: list[str] | None = None,
 ) -> QualifyResult:
     """The least-cost values of the levers with which every scheme qualifies, and the cost/margin front.
 
-    The levers of ``levers_file`` are set so that every scheme in ``schemes`` qualifies on ``year``'s rules:
+    The levers of ``levers_file`` are set so that every scheme of the assessment qualifies on its year's rules:
     at the central value, or, with ``confidence``, in at least that share of ``draws`` Monte Carlo draws.
     See docs/qualify.md.
 
@@ -44,10 +39,10 @@ def qualify(
         The project TOML file.
     levers_file : str or Path
         The levers file: the parameters that may move, their ranges and costs, and its ``schemes``.
-    schemes : list of str or None
-        Scheme ids that must qualify; default the levers file's ``schemes``.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, the schemes that must qualify, overrides, boundary,
+        assessment year); its schemes default to the levers file's ``schemes``; None: the defaults
+        (``api.scoring.assessment_or_default``).
     confidence : float or None
         Share of the Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; None: at
         the central value.
@@ -61,12 +56,6 @@ def qualify(
         A distributions TOML laid over the project's own ``[uncertainty]`` table (read with ``confidence``).
     budgets : int
         Number of budgets of the cost/margin front (0: no front).
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``).
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
 
     Returns
     -------
@@ -85,10 +74,13 @@ def qualify(
     .. [4] Land, A. H. and Doig, A. G. (1960). An automatic method of solving discrete programming
        problems. Econometrica 28(3), 497-520 (branch and bound).
     """
+    assessment = assessment_or_default(assessment)
     levers = read_levers(levers_file)
-    project, _ = load_project(project_file, overrides)
+    if not assessment.schemes:
+        assessment = assessment.but(schemes=tuple(levers.schemes))
+    project, _ = load_project(project_file, assessment.project_overrides)
     found = load_uncertainty(project_file, distributions) if confidence is not None else None
     return qualify_with(
-        project, factor_set_of(factors), levers, list(schemes or levers.schemes), source=str(project_file), levers_source=str(levers_file), gwp=gwp, year=year,
+        project, assessment, levers, source=str(project_file), levers_source=str(levers_file),
         confidence=confidence, draws=draws, seed=seed, sampling=sampling, uncertainty=found, series=project_series(project, project_file), budgets=budgets,
     )

@@ -12,14 +12,13 @@ from ..analyses.portfolio import project_files
 from ..analyses.sensitivity import SWING_PERCENT, Sensitivity
 from ..analyses.sensitivity import sensitivity as sensitivity_of
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, UncertaintyResult, factors_used, monte_carlo
-from ..core.scoring import DEFAULT_GWP
+from ..core.assessment import Assessment
 from ..errors import InputError
 from ..io.ledger import LedgerRecord, factor_row
 from ..model.distributions import Uncertainty, parse_uncertainty, read_distributions_file
-from ..model.factors import DEFAULT_SET, FactorSet
-from ..model.project import boundary_overrides, read_project_file
+from ..model.project import read_project_file
 from ..routes.project import load_project
-from .scoring import factor_set_of
+from .scoring import assessment_or_default
 
 
 def load_uncertainty(project_file: str | Path, distributions: str | Path | None = None) -> Uncertainty:
@@ -60,13 +59,8 @@ def uncertainty(
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
     sampling: str | None = None,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
+    assessment: Assessment | None = None,
     progress=None,
-    year: int | None = None,
 ) -> UncertaintyResult:
     """Monte Carlo of a project: mean, spread and percentiles of every figure, probability of each verdict.
 
@@ -82,20 +76,11 @@ def uncertainty(
         Seed of the random numbers (the same seed gives the same numbers).
     sampling : str or None
         ``random`` or ``latin_hypercube``; default the distributions' own (random).
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline figures.
-    schemes : list of str or None
-        Scheme ids whose probability of qualifying is estimated; default every scheme that applies.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes (whose probability of qualifying is estimated), overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
     progress : callable or None
         Called with the number of draws done (for a progress bar).
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
 
     Returns
     -------
@@ -112,11 +97,12 @@ def uncertainty(
     .. [2] Iman, R. L. and Conover, W. J. (1982). A distribution-free approach to inducing rank
        correlation among input variables. Communications in Statistics B 11(3), 311-334.
     """
+    assessment = assessment_or_default(assessment)
     found = load_uncertainty(project_file, distributions)
-    project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
+    project, sha = load_project(project_file, assessment.project_overrides)
     return monte_carlo(
-        project, factor_set_of(factors), found, draws=draws, seed=seed, sampling=sampling, source=str(project_file), gwp=gwp, schemes=schemes,
-        progress=progress, project_sha256=sha, series=project_series(project, project_file), year=year,
+        project, assessment, found, draws=draws, seed=seed, sampling=sampling, source=str(project_file),
+        progress=progress, project_sha256=sha, series=project_series(project, project_file),
     )
 
 
@@ -126,11 +112,7 @@ def headroom(
     scheme: str,
     *,
     tier: str | None = None,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
-    year: int | None = None,
+    assessment: Assessment | None = None,
 ) -> list[Headroom]:
     """For each parameter path, the value at which the scheme's limit (or ``tier``) is met exactly.
 
@@ -147,16 +129,10 @@ def headroom(
         The scheme id whose limit is sought.
     tier : str or None
         A tier of the scheme; default its loosest threshold.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``).
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
+        Its schemes are not read: ``scheme`` is the one searched.
 
     Returns
     -------
@@ -176,10 +152,10 @@ def headroom(
     """
     if not parameters:
         raise InputError("headroom", "--parameter", "at least one parameter path")
-    project, _ = load_project(project_file, boundary_overrides(boundary, overrides))
-    factor_set = factor_set_of(factors)
+    assessment = assessment_or_default(assessment)
+    project, _ = load_project(project_file, assessment.project_overrides)
     series = project_series(project, project_file)
-    return [headroom_of(project, factor_set, path, scheme, tier, source=str(project_file), gwp=gwp, series=series, year=year) for path in parameters]
+    return [headroom_of(project, assessment, path, scheme, tier, source=str(project_file), series=series) for path in parameters]
 
 
 def sensitivity(
@@ -189,11 +165,7 @@ def sensitivity(
     scheme: str | None = None,
     base_sample: int = 1024,
     seed: int = DEFAULT_SEED,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
-    year: int | None = None,
+    assessment: Assessment | None = None,
     swing: float = SWING_PERCENT,
 ) -> Sensitivity:
     """Which inputs decide the result: Sobol indices, a percentile tornado and a one-at-a-time swing.
@@ -214,16 +186,9 @@ def sensitivity(
         N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).
     seed : int
         Seed of the scrambled Sobol sample and of the indices' bootstrap (the same seed gives the same indices).
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``).
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes (replaced by ``scheme`` when it is given), overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
     swing : float
         The one-at-a-time move of each input, per cent of its own value.
 
@@ -241,10 +206,11 @@ def sensitivity(
     .. [3] Herman, J. and Usher, W. (2017). SALib: An open-source Python library for sensitivity
        analysis. Journal of Open Source Software 2(9), 97.
     """
+    assessment = assessment_or_default(assessment)
     found = load_uncertainty(project_file, distributions)
-    project, _ = load_project(project_file, boundary_overrides(boundary, overrides))
+    project, _ = load_project(project_file, assessment.project_overrides)
     return sensitivity_of(
-        project, factor_set_of(factors), found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), gwp=gwp, series=project_series(project, project_file), year=year,
+        project, assessment, found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), series=project_series(project, project_file),
         swing_percent=swing,
     )
 
@@ -253,12 +219,7 @@ def analysis_record(
     kind: str,
     project_file: str | Path,
     summary: dict,
-    *,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
+    assessment: Assessment | None = None,
 ) -> LedgerRecord:
     """The run-ledger record of an analysis of one project.
 
@@ -273,34 +234,28 @@ def analysis_record(
         The project TOML file analysed.
     summary : dict
         The analysis's summary for the ledger (``Sensitivity.summary_for_ledger()``, ``headroom_summary``).
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the analysis.
-    schemes : list of str or None
-        Scheme ids the analysis looked at.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes the analysis looked at, overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
 
     Returns
     -------
     LedgerRecord
         The record, not yet written.
     """
-    project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
-    factor_set = factor_set_of(factors)
-    used = factors_used(project, factor_set, str(project_file), gwp)
+    assessment = assessment_or_default(assessment)
+    factor_set = assessment.factor_set
+    project, sha = load_project(project_file, assessment.project_overrides)
+    used = factors_used(project, assessment, str(project_file))
     return LedgerRecord(
         project_path=str(Path(project_file).resolve()),
         project_name=project.project.name,
         project_sha256=sha,
         factor_set=factor_set.name,
         factor_set_sha256=factor_set.sha256,
-        schemes=list(schemes or []),
+        schemes=list(assessment.schemes or []),
         boundary=project.project.boundary,
-        gwp=gwp,
+        gwp=assessment.gwp,
         results=summary,
         parameters=project.model_dump(),
         factors_used=[factor_row(row) for _, row in sorted(used.items())],
@@ -308,7 +263,7 @@ def analysis_record(
     )
 
 
-def headroom_record(results: list[Headroom], project_file: str | Path, **options) -> LedgerRecord:
+def headroom_record(results: list[Headroom], project_file: str | Path, assessment: Assessment | None = None) -> LedgerRecord:
     """The run-ledger record of a headroom search.
 
     Parameters
@@ -317,15 +272,15 @@ def headroom_record(results: list[Headroom], project_file: str | Path, **options
         What ``headroom`` returned (one scheme; at least one parameter).
     project_file : str or Path
         The project TOML file searched.
-    **options
-        The options given to ``headroom`` (``factors``, ``gwp``, ``overrides``, ``boundary``).
+    assessment : Assessment or None
+        The assessment given to ``headroom`` (its schemes are replaced by the one searched).
 
     Returns
     -------
     LedgerRecord
         The record of kind ``headroom``, not yet written.
     """
-    return analysis_record("headroom", project_file, headroom_summary(results), schemes=[results[0].scheme], **options)
+    return analysis_record("headroom", project_file, headroom_summary(results), assessment_or_default(assessment).but(schemes=(results[0].scheme,)))
 
 
 def uncertainty_one(task: tuple) -> UncertaintyResult:
@@ -352,10 +307,7 @@ def uncertainty_many(
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
     sampling: str | None = None,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    boundary: str | None = None,
+    assessment: Assessment | None = None,
     workers: int | None = None,
     scheduler: str | None = None,
 ) -> list[UncertaintyResult]:
@@ -377,14 +329,9 @@ def uncertainty_many(
         Seed of the random numbers, the same for every project.
     sampling : str or None
         ``random`` or ``latin_hypercube``; default the distributions' own (random).
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline figures.
-    schemes : list of str or None
-        Scheme ids whose probability of qualifying is estimated; default every scheme that applies.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default each project's own.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes (whose probability of qualifying is estimated), overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
     workers : int or None
         Run on a local Dask cluster of this many worker processes.
     scheduler : str or None
@@ -404,7 +351,7 @@ def uncertainty_many(
        correlation among input variables. Communications in Statistics B 11(3), 311-334.
     """
     files = project_files(paths)
-    options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling, "factors": factors, "gwp": gwp, "schemes": schemes, "boundary": boundary}
+    options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling, "assessment": assessment_or_default(assessment)}
     for path in files:  # every bad input is found before any work starts
         load_uncertainty(path, distributions)
     tasks = [(str(path), options) for path in files]

@@ -7,12 +7,12 @@ from pathlib import Path
 from ..analyses.electricity_series import ElectricitySeries, project_series
 from ..analyses.matching import electricity_model, match, series_matched_periods
 from ..analyses.plan import PlanResult, plan_project
-from ..core.scoring import DEFAULT_GWP, prepare, solve_with_bw2calc
+from ..core.assessment import Assessment
+from ..core.scoring import solve_with_bw2calc
 from ..errors import InputError
 from ..io.matching_chart import write_matching_chart
-from ..model.factors import DEFAULT_SET, FactorSet
 from ..routes.project import load_project
-from .scoring import factor_set_of
+from .scoring import assessment_or_default
 
 
 def plan(
@@ -24,11 +24,7 @@ def plan(
     min_load: float = 0.0,
     part_load: list[tuple[float, float]] | None = None,
     hydrogen_price: float | None = None,
-    matching: str | None = None,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    overrides: list[str] | None = None,
-    year: int | None = None,
+    assessment: Assessment | None = None,
 ) -> tuple[PlanResult, ElectricitySeries]:
     """The operating plan of a project with an electricity time series.
 
@@ -54,17 +50,11 @@ def plan(
     hydrogen_price : float or None
         Hydrogen price per kg H2, in the currency of the series' price column (currency/MWh): maximise margin
         instead of hydrogen.
-    matching : str or None
-        A granularity (``interval``, ``hour``, ``month``, ``quarter``, ``year``) replacing the scheme's temporal
-        rule (a what-if); None or ``rule``: the scheme's dated rule.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline result.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, overrides, boundary, assessment year, and ``matching``: a
+        granularity, ``interval``, ``hour``, ``month``, ``quarter`` or ``year``, replacing the scheme's temporal
+        rule as a what-if, None or ``rule`` for the scheme's dated rule); its schemes are not read (``scheme``
+        is planned for). None: the defaults (``api.scoring.assessment_or_default``).
 
     Returns
     -------
@@ -82,13 +72,14 @@ def plan(
     .. [1] Huangfu, Q. and Hall, J. A. J. (2018). Parallelizing the dual revised simplex method.
        Mathematical Programming Computation 10, 119-142 (HiGHS).
     """
-    project, sha = load_project(project_file, overrides)
+    assessment = assessment_or_default(assessment)
+    project, sha = load_project(project_file, assessment.project_overrides)
     series = project_series(project, project_file)
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to plan against")
     result = plan_project(
-        project, factor_set_of(factors), series, scheme, source=str(project_file), project_sha256=sha, tier=tier, rated_kw=rated_kw, min_load=min_load,
-        part_load=part_load, hydrogen_price=hydrogen_price, matching=matching, gwp=gwp, year=year,
+        project, assessment, series, scheme, source=str(project_file), project_sha256=sha, tier=tier, rated_kw=rated_kw, min_load=min_load,
+        part_load=part_load, hydrogen_price=hydrogen_price,
     )
     return result, series
 
@@ -100,12 +91,8 @@ def matching_chart(
     path: str | Path,
     *,
     scheme: str | None = None,
-    matching: str | None = None,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    overrides: list[str] | None = None,
+    assessment: Assessment | None = None,
     force: bool = False,
-    year: int | None = None,
 ) -> Path:
     """Chart one project's matching under a scheme (default the first that applies).
 
@@ -119,19 +106,12 @@ def matching_chart(
         The chart file to write, PNG or SVG by its suffix (written atomically).
     scheme : str or None
         The scheme id whose rule is charted; default the first that applies.
-    matching : str or None
-        A granularity (``interval``, ``hour``, ``month``, ``quarter``, ``year``) replacing the scheme's temporal
-        rule; None or ``rule``: the scheme's dated rule.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``).
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, overrides, boundary, assessment year, and ``matching``: a
+        granularity replacing the scheme's temporal rule, None or ``rule`` for its dated rule); its schemes
+        are not read. None: the defaults (``api.scoring.assessment_or_default``).
     force : bool
         Overwrite an existing chart file.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
 
     Returns
     -------
@@ -149,11 +129,13 @@ def matching_chart(
     .. [2] Final regulations under 26 U.S.C. 45V (January 2025), 26 CFR 1.45V-4 (energy attribute
        certificates: annual, then hourly matching).
     """
-    project, sha = load_project(project_file, overrides)
+    assessment = assessment_or_default(assessment)
+    matching = assessment.matching
+    project, sha = load_project(project_file, assessment.project_overrides)
     series = project_series(project, project_file)
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to chart the matching of")
-    prepared = prepare(project, factor_set_of(factors), gwp=gwp, schemes=[scheme] if scheme else None, source=str(project_file), project_sha256=sha, year=year, matching=series_matched_periods(series))
+    prepared = assessment.but(schemes=(scheme,) if scheme else None).prepare(project, source=str(project_file), project_sha256=sha, matched_periods=series_matched_periods(series))
     solutions = solve_with_bw2calc(prepared)
     rulebook = prepared.chosen[0]
     model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))

@@ -9,29 +9,25 @@ from ..analyses.cluster import dask_mapper
 from ..analyses.lifetime import LifetimeResult, lifetime_score
 from ..analyses.portfolio import Recalc, RecalcPiece, load_portfolio, recalc_piece
 from ..analyses.portfolio import recalc as recalc_portfolio
-from ..core.scoring import DEFAULT_GWP
+from ..core.assessment import Assessment
 from ..io.ledger import RunTarget, open_run, run_target, write_batch
 from ..io.ledger_store import Location
-from ..model.factors import DEFAULT_SET, FactorSet
-from ..model.project import boundary_overrides
+from ..model.factors import FactorSet
 from ..routes.project import load_project
-from .scoring import factor_set_of
+from .scoring import assessment_or_default, factor_set_of
 
 
 def recalc(
     paths: list[str | Path],
     old_factors: str | Path | FactorSet,
-    new_factors: str | Path | FactorSet,
+    assessment: Assessment | None = None,
     *,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    year: int | None = None,
     workers: int | None = None,
     scheduler: str | None = None,
     ledger: Location | None = None,
     command: str = "recalc",
 ) -> Recalc:
-    """Rescore a portfolio (files or folders of project files) under a new factor set.
+    """Rescore a portfolio (files or folders of project files) under a new factor set: the assessment's.
 
     The results are the same as in one process.
 
@@ -41,14 +37,11 @@ def recalc(
         Project TOML files, or folders of them.
     old_factors : str, Path or FactorSet
         The factor set the portfolio was scored with (name, set folder, override CSV or loaded set).
-    new_factors : str, Path or FactorSet
-        The factor set to rescore it with.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the results.
-    schemes : list of str or None
-        Scheme ids to check; default every scheme that applies.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
+    assessment : Assessment or None
+        The run's options: its factor set is the new set the portfolio is rescored with; its GWP100 set,
+        schemes and assessment year apply to the old and the new scores alike. Each project is read as
+        written (the assessment's overrides, boundary and matching are not applied). None: the defaults
+        (``api.scoring.assessment_or_default``: the default set is the new set).
     workers : int or None
         Score on a local Dask cluster of this many worker processes.
     scheduler : str or None
@@ -68,8 +61,10 @@ def recalc(
         Old and new score of every project (kg CO2e per functional unit), the changed factors, the number
         rescored, and ``ledger_run``, where the run is recorded (None without ``ledger``).
     """
+    assessment = assessment_or_default(assessment)
+    gwp, schemes, year = assessment.gwp, assessment.scheme_list, assessment.year
     projects = load_portfolio(paths)
-    old_set, new_set = factor_set_of(old_factors), factor_set_of(new_factors)
+    old_set, new_set = factor_set_of(old_factors), assessment.factor_set
     target = None
     if ledger is not None:
         inputs = {
@@ -115,12 +110,7 @@ def recalc_and_record(target: RunTarget | None, piece: tuple) -> RecalcPiece:
 
 def lifetime(
     project_file: str | Path,
-    *,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
+    assessment: Assessment | None = None,
 ) -> LifetimeResult:
     """Score every operating year of a project's ``[lifetime]`` and the lifetime average.
 
@@ -128,16 +118,10 @@ def lifetime(
     ----------
     project_file : str or Path
         The project TOML file, with a ``[lifetime]`` table.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the results.
-    schemes : list of str or None
-        Scheme ids to check each year against; default every scheme that applies.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, the schemes checked each year, overrides, boundary); each
+        operating year is judged on its own calendar year's rules (the assessment's year is not read).
+        None: the defaults (``api.scoring.assessment_or_default``).
 
     Returns
     -------
@@ -149,5 +133,6 @@ def lifetime(
     ----------
     .. [1] ISO 14067:2018, 6.3 (capital goods).
     """
-    project, sha = load_project(project_file, boundary_overrides(boundary, overrides))
-    return lifetime_score(project, factor_set_of(factors), project_file=str(project_file), project_sha256=sha, gwp=gwp, schemes=schemes)
+    assessment = assessment_or_default(assessment)
+    project, sha = load_project(project_file, assessment.project_overrides)
+    return lifetime_score(project, assessment, project_file=str(project_file), project_sha256=sha)

@@ -13,27 +13,20 @@ from ..analyses.pipeline import assess_solved, read
 from ..analyses.portfolio import project_files
 from ..analyses.uncertainty import DEFAULT_DRAWS, DEFAULT_SEED, monte_carlo
 from ..core.assessment import Assessment
-from ..core.scoring import DEFAULT_GWP
 from ..errors import InputError
 from ..io.report import ProjectReport, render_report
-from ..model.factors import DEFAULT_SET, FactorSet
 from ..model.project import parameter_table, read_project_file
 from .levers import qualify
 from .monte_carlo import load_uncertainty
-from .scoring import factor_set_of
+from .scoring import assessment_or_default
 
 
 def report_items(
     paths: list[str | Path],
+    assessment: Assessment | None = None,
     *,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
-    year: int | None = None,
     levers: str | Path | None = None,
 ) -> list[ProjectReport]:
     """What a report shows of each project (files, or folders of project files).
@@ -41,7 +34,7 @@ def report_items(
     Its score, its parameters with units and, where the project gives them, its operating years
     (``[lifetime]``), the matching of its electricity time series (``[electricity] time_series``) and a
     Monte Carlo of ``draws`` draws with ``seed`` (``[uncertainty]``); with ``levers`` (a levers file), what
-    it takes to qualify for ``schemes`` (default the levers file's) at the central value.
+    it takes to qualify for the assessment's schemes (default the levers file's) at the central value.
 
     The one project is solved by the stacked numpy solver (``solve_stacked``, the solver of
     ``recalc``, equal to bw2calc to 1e-9 on every demo: tests/test_recalc.py and
@@ -51,22 +44,13 @@ def report_items(
     ----------
     paths : list of str or Path
         Project TOML files, or folders of them.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline results.
-    schemes : list of str or None
-        Scheme ids to check; default every scheme that applies.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied to every project before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default each project's own.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
     draws : int
         Number of Monte Carlo draws of a project with an ``[uncertainty]`` table.
     seed : int
         Seed of the Monte Carlo's random numbers (printed on the report).
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
     levers : str, Path or None
         A levers file: each project gets what it takes to qualify.
 
@@ -76,8 +60,7 @@ def report_items(
         One per project: its score (kg CO2e per functional unit), its parameter table, and its lifetime,
         matching views, Monte Carlo and qualify answer where it has them.
     """
-    factor_set = factor_set_of(factors)
-    assessment = Assessment(factor_set, gwp, tuple(schemes) if schemes else None, tuple(overrides or ()), boundary, year)
+    assessment = assessment_or_default(assessment)
     items = []
     for path in project_files(list(paths)):
         project, sha, series = read(assessment, path)
@@ -85,28 +68,23 @@ def report_items(
         views = matching_views(prepared, solutions, result, series) if series is not None else []
         life = None
         if project.lifetime is not None:
-            life = lifetime_score(project, factor_set, project_file=str(path), project_sha256=sha, gwp=gwp, schemes=schemes)
+            life = lifetime_score(project, assessment, project_file=str(path), project_sha256=sha)
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
-            spread = monte_carlo(project, factor_set, load_uncertainty(path), draws=draws, seed=seed, source=str(path), gwp=gwp, schemes=schemes, series=series, year=year)
-        found = qualify(path, levers, schemes=schemes, factors=factor_set, gwp=gwp, overrides=assessment.project_overrides, budgets=0, year=year) if levers is not None else None
+            spread = monte_carlo(project, assessment, load_uncertainty(path), draws=draws, seed=seed, source=str(path), series=series)
+        found = qualify(path, levers, assessment, budgets=0) if levers is not None else None
         items.append(ProjectReport(result, parameter_table(project), life, views, spread, found))
     return items
 
 
 def report(
     paths: list[str | Path],
+    assessment: Assessment | None = None,
     *,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
     generated: str | None = None,
     paper: str | None = None,
     draws: int = DEFAULT_DRAWS,
     seed: int = DEFAULT_SEED,
-    year: int | None = None,
     levers: str | Path | None = None,
 ) -> str:
     """The project report of one or several projects as one self-contained HTML text.
@@ -115,16 +93,9 @@ def report(
     ----------
     paths : list of str or Path
         Project TOML files, or folders of them.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline results.
-    schemes : list of str or None
-        Scheme ids to check; default every scheme that applies.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied to every project before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default each project's own.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
     generated : str or None
         The date printed on the report (ISO 8601, YYYY-MM-DD); default today (UTC), or ``$SOURCE_DATE_EPOCH``.
     paper : str or None
@@ -133,8 +104,6 @@ def report(
         Number of Monte Carlo draws of a project with an ``[uncertainty]`` table.
     seed : int
         Seed of the Monte Carlo's random numbers (printed on the report).
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
     levers : str, Path or None
         A levers file: each project gets a section on what it takes to qualify.
 
@@ -150,7 +119,7 @@ def report(
     """
     if not paths:
         raise InputError("report", "PROJECT", "at least one project file or folder")
-    items = report_items(paths, factors=factors, gwp=gwp, schemes=schemes, overrides=overrides, boundary=boundary, draws=draws, seed=seed, year=year, levers=levers)
+    items = report_items(paths, assessment, draws=draws, seed=seed, levers=levers)
     return render_report(items, generated=generated or report_date(), caution=CAUTION, paper=paper)
 
 

@@ -7,8 +7,8 @@ from pathlib import Path
 from ..analyses.pipeline import assess, read
 from ..core.assessment import Assessment
 from ..core.results import ScoreResult
-from ..core.scoring import DEFAULT_GWP, shipped_rulebooks
-from ..model.factors import DEFAULT_SET, FactorSet, load_factor_set
+from ..core.scoring import shipped_rulebooks
+from ..model.factors import DEFAULT_SET, FactorSet, factors_root, load_factor_set
 from ..model.project import rebalanced_sources
 from ..model.rulebooks import load_user_rulebooks
 
@@ -29,43 +29,63 @@ def factor_set_of(factors: str | Path | FactorSet) -> FactorSet:
     return factors if isinstance(factors, FactorSet) else load_factor_set(factors)
 
 
-def score(
-    project_file: str | Path,
-    *,
-    factors: str | Path | FactorSet = DEFAULT_SET,
-    gwp: str = DEFAULT_GWP,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
-    year: int | None = None,
-    matching: str | None = None,
-    matched_periods: dict | None = None,
-) -> ScoreResult:
-    """Score a project file: carbon intensity, by stage and gas, with scheme checks.
+def requested_as(factor_set: FactorSet) -> str:
+    """The ``--factors`` a loaded set answers to: its last layer when that lies outside the factor library
+    (an override CSV or a set folder of the user's, as given), else the set's name.
+
+    Parameters
+    ----------
+    factor_set : FactorSet
+        A loaded factor set (``FactorSet.layers`` lists the folders and CSV files it was read from).
+
+    Returns
+    -------
+    str
+        The path of the user's layer, or the name of a shipped set.
+    """
+    last = Path(factor_set.layers[-1]) if factor_set.layers else None
+    if last is None or factors_root().resolve() in last.resolve().parents:
+        return factor_set.name
+    return str(last)
+
+
+def assessment_or_default(assessment: Assessment | None) -> Assessment:
+    """The assessment given, else the default one: the default factor set, GWP100 of AR6, every scheme
+    that applies, each project's own boundary and assessment year.
+
+    Parameters
+    ----------
+    assessment : Assessment or None
+        The run's options, built once; None for the defaults.
+
+    Returns
+    -------
+    Assessment
+        The options every api function reads (``core.assessment.Assessment``).
+    """
+    return assessment if assessment is not None else Assessment(load_factor_set(DEFAULT_SET))
+
+
+def score(project_file: str | Path, assessment: Assessment | None = None, *, matched_periods: dict | None = None) -> ScoreResult:
+    """Score a project file under an assessment's options: carbon intensity, by stage and gas, with scheme checks
+    (``analyses.pipeline``: read, prepare, solve, judge, match its series), stating any share that took up
+    the difference to 1 (``--rebalance``).
+
+    Build the options once and pass them to every call::
+
+        assessment = api.Assessment(api.load_factor_set("default-2026"), gwp="ar5", year=2030)
+        result = api.score("project.toml", assessment)
 
     Parameters
     ----------
     project_file : str or Path
         Path of the project TOML.
-    factors : str, Path or FactorSet
-        Factor set name, set folder, override CSV, or a loaded ``FactorSet``.
-    gwp : str
-        GWP100 set of the headline result (``ar4``, ``ar5``, ``ar6``); each scheme check uses its own.
-    schemes : list of str or None
-        Scheme ids to check; default all that apply to the product.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied to the project before validation;
-        ``electricity.sources.NAME.share=rest`` (``--rebalance NAME``) gives that source 1 less the
-        other sources' shares after the others are set (refused when that is not from 0 to 1).
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
-    year : int or None
-        The assessment year (calendar year), on whose dates the scheme rules are read; default the first full
-        calendar year of operation after the project's commissioning date, else this year.
-    matching : str or None
-        With an electricity time series, a granularity (``interval``, ``hour``, ``month``, ``quarter``, ``year``)
-        that replaces every scheme's temporal rule (a what-if); ``declared``: ignore the series and score the
-        declared annual shares (what the audit workbook holds); None: each scheme's rule.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set of the headline result, schemes, ``dotted.parameter=value``
+        overrides, boundary, assessment year, matching); None: the default factor set, AR6, every scheme that
+        applies, the project's own boundary and year, each scheme's temporal rule. An override
+        ``electricity.sources.NAME.share=rest`` (``--rebalance NAME``) gives that source 1 less the other
+        sources' shares after the others are set (refused when that is not from 0 to 1).
     matched_periods : dict or None
         Electricity source name -> finest period a time series shows it matched (``hourly``, ``half_hourly``),
         for projects without a series in the file; without it (and without a series) hourly rules are
@@ -77,28 +97,7 @@ def score(
         Total per functional unit (kg CO2e/t NH3 or kg CO2e/kg H2), intensities (kg CO2e/t NH3, kg CO2e/kg H2,
         g CO2e/MJ LHV), by stage and by gas, with one check per scheme; a screening estimate, not a certification.
     """
-    assessment = Assessment(factor_set_of(factors), gwp, tuple(schemes) if schemes else None, tuple(overrides or ()), boundary, year, matching)
-    return assess_file(assessment, project_file, matched_periods)
-
-
-def assess_file(assessment: Assessment, project_file: str | Path, matched_periods: dict | None = None) -> ScoreResult:
-    """Score a project file under an assessment's options (``analyses.pipeline``: read, prepare, solve,
-    judge, match its series), stating any share that took up the difference to 1 (``--rebalance``).
-
-    Parameters
-    ----------
-    assessment : Assessment
-        The run's options, built once (``Assessment(load_factor_set("default-2026"), gwp="ar6", year=2030)``).
-    project_file : str or Path
-        The project TOML file.
-    matched_periods : dict or None
-        Without a series in the file: electricity source name -> the finest period it is shown matched.
-
-    Returns
-    -------
-    ScoreResult
-        The result with its scheme checks.
-    """
+    assessment = assessment_or_default(assessment)
     project, sha, series = read(assessment, project_file)
     result = assess(assessment, project, source=str(project_file), project_sha256=sha, series=series, matched_periods=matched_periods)
     return stating_rebalance(result, project, list(assessment.overrides))

@@ -11,7 +11,7 @@ from ..analyses.pipeline import assess
 from ..analyses.uncertainty import DEFAULT_SEED, UncertaintyResult, monte_carlo
 from ..core.assessment import Assessment
 from ..core.results import ScoreResult
-from ..core.scoring import DEFAULT_GWP, score_project
+from ..core.scoring import score_project
 from ..errors import InputError
 from ..io.workbook.reader import (
     base_factor_set,
@@ -21,42 +21,49 @@ from ..io.workbook.reader import (
 )
 from ..io.workbook.writer import build_workbook
 from ..model.distributions import Uncertainty, read_distributions_file
-from ..model.factors import DEFAULT_SET, FactorSet, load_factor_set
-from ..model.project import boundary_overrides
+from ..model.factors import FactorSet
 from ..routes.project import load_project
 from .monte_carlo import load_uncertainty
-from .scoring import stating_rebalance
+from .scoring import assessment_or_default, requested_as, stating_rebalance
 
 
-def score_workbook(
-    path: str | Path,
-    *,
-    factors: str | None = None,
-    gwp: str | None = None,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
-    year: int | None = None,
-) -> ScoreResult:
-    """Score the inputs and factors of an audit workbook; options left None default to its cover.
+def cover_assessment(path: str | Path, factors: str | None = None, gwp: str | None = None, schemes: list[str] | None = None) -> Assessment:
+    """The assessment recorded on an audit workbook's cover (factor set as requested, GWP100 set, schemes),
+    any of them replaced by the one given: what ``score --from-workbook`` and ``workbook --from-workbook``
+    assess unless told otherwise.
+
+    Parameters
+    ----------
+    path : str or Path
+        The audit workbook (``.xlsx``).
+    factors : str or None
+        Factor set name, set folder or override CSV; default the set recorded on the cover (the default set
+        when that cannot be found here).
+    gwp : str or None
+        GWP100 set (``ar4``, ``ar5``, ``ar6``); default the cover's.
+    schemes : list of str or None
+        Scheme ids to check; default the cover's, else every scheme that applies.
+
+    Returns
+    -------
+    Assessment
+        The options (its factor set is the base set: the workbook's edited factors are laid over it when
+        the workbook is scored).
+    """
+    _, _, settings = load_project_from_workbook(path)
+    return Assessment(base_factor_set(settings, factors), gwp or settings.gwp, tuple(schemes or settings.schemes or ()) or None)
+
+
+def score_workbook(path: str | Path, assessment: Assessment | None = None) -> ScoreResult:
+    """Score the inputs and factors of an audit workbook under an assessment (default: its cover's).
 
     Parameters
     ----------
     path : str or Path
         The audit workbook (``.xlsx``), possibly edited by a reviewer.
-    factors : str or None
-        Factor set name, set folder or override CSV under the workbook's edited factors; default the set
-        recorded on its cover.
-    gwp : str or None
-        GWP100 set (``ar4``, ``ar5``, ``ar6``) of the headline result; default the cover's.
-    schemes : list of str or None
-        Scheme ids to check; default the cover's, else every scheme that applies.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied to the workbook's inputs before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the inputs' own.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
+    assessment : Assessment or None
+        The run's options; its factor set is the base under the workbook's edited factors, its overrides
+        apply to the workbook's inputs. None: ``cover_assessment(path)``, the settings on its cover.
 
     Returns
     -------
@@ -64,10 +71,11 @@ def score_workbook(
         The result of the workbook's inputs (kg CO2e per functional unit, by stage and gas, with scheme checks),
         stating any rebalanced electricity share.
     """
-    project, sha, settings = load_project_from_workbook(path, boundary_overrides(boundary, overrides))
-    factor_set = factor_set_from_workbook(path, base_factor_set(settings, factors))
-    result = score_project(project, factor_set, gwp=gwp or settings.gwp, schemes=schemes or settings.schemes or None, source=str(path), project_sha256=sha, year=year)
-    return stating_rebalance(result, project, overrides)
+    assessment = assessment or cover_assessment(path)
+    project, sha, _ = load_project_from_workbook(path, assessment.project_overrides)
+    factor_set = factor_set_from_workbook(path, assessment.factor_set)
+    result = score_project(project, factor_set, gwp=assessment.gwp, schemes=assessment.scheme_list, source=str(path), project_sha256=sha, year=assessment.year)
+    return stating_rebalance(result, project, list(assessment.overrides))
 
 
 def load_any_project(path: str | Path, factor_set: FactorSet, overrides: list[str] | None = None):
@@ -107,14 +115,14 @@ class AuditWorkbook:
         return iter((self.book, self.engine, self.spread))
 
 
-def _workbook_inputs(project_file, from_workbook, factors, overrides: list[str]):
-    """(project, sha256, factor set, the earlier workbook's settings or None): from a project file, or
-    read back from an earlier workbook with its edited factors over the set its cover names."""
+def _workbook_inputs(project_file, from_workbook, assessment: Assessment):
+    """(project, sha256, factor set, evidence, source): from a project file, or read back from an earlier
+    workbook with its edited factors over the assessment's set (and the evidence its cover records)."""
     if from_workbook is None:
-        project, sha = load_project(project_file, overrides)
-        return project, sha, load_factor_set(factors or DEFAULT_SET), None
-    project, sha, settings = load_project_from_workbook(from_workbook, overrides)
-    return project, sha, factor_set_from_workbook(from_workbook, base_factor_set(settings, factors)), settings
+        project, sha = load_project(project_file, assessment.project_overrides)
+        return project, sha, assessment.factor_set, {}, str(project_file)
+    project, sha, settings = load_project_from_workbook(from_workbook, assessment.project_overrides)
+    return project, sha, factor_set_from_workbook(from_workbook, assessment.factor_set), settings.evidence, str(from_workbook)
 
 
 def _stated_distributions(project_file, from_workbook, distributions) -> Uncertainty:
@@ -123,14 +131,6 @@ def _stated_distributions(project_file, from_workbook, distributions) -> Uncerta
     if from_workbook is None:
         return load_uncertainty(project_file, distributions)
     return read_distributions_file(distributions) if distributions is not None else Uncertainty()
-
-
-def _workbook_options(settings, gwp, schemes, factors, from_workbook, project_file) -> tuple:
-    """(GWP set, schemes, factors option, evidence, source): the options given, else an earlier workbook's
-    cover settings, else the defaults."""
-    if settings is None:
-        return gwp or DEFAULT_GWP, schemes, factors or DEFAULT_SET, {}, str(project_file)
-    return gwp or settings.gwp, schemes or settings.schemes or None, factors or settings.factors_option, settings.evidence, str(from_workbook)
 
 
 def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, schemes):
@@ -143,42 +143,30 @@ def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, scheme
 
 def audit_workbook(
     project_file: str | Path | None = None,
+    assessment: Assessment | None = None,
     *,
     from_workbook: str | Path | None = None,
-    factors: str | None = None,
-    gwp: str | None = None,
-    schemes: list[str] | None = None,
-    overrides: list[str] | None = None,
-    boundary: str | None = None,
     periods: str | Path | None = None,
     draws: int | None = None,
     seed: int = DEFAULT_SEED,
     distributions: str | Path | None = None,
     keep_draws: bool = False,
     draws_csv: str = "",
-    year: int | None = None,
 ):
     """The audit workbook of a project file, or of the inputs read back from an earlier workbook.
 
-    Options left as None take the defaults (GWP100 AR6, the default factor set, every scheme that
-    applies), or, with ``from_workbook``, the settings recorded on that workbook's cover.
+    Without an assessment: the defaults (GWP100 AR6, the default factor set, every scheme that applies),
+    or, with ``from_workbook``, the settings recorded on that workbook's cover (``cover_assessment``).
 
     Parameters
     ----------
     project_file : str, Path or None
         The project TOML file; None with ``from_workbook``.
+    assessment : Assessment or None
+        The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year); None: the
+        defaults (``api.scoring.assessment_or_default``).
     from_workbook : str, Path or None
         An earlier audit workbook whose inputs, edited factors and cover settings are read back.
-    factors : str or None
-        Factor set name, set folder or override CSV; default ``default-2026``, or the cover's.
-    gwp : str or None
-        GWP100 set (``ar4``, ``ar5``, ``ar6``); default ``ar6``, or the cover's.
-    schemes : list of str or None
-        Scheme ids to check; default every scheme that applies, or the cover's.
-    overrides : list of str or None
-        ``dotted.parameter=value`` strings applied before validation.
-    boundary : str or None
-        ``cradle-to-gate``, ``well-to-tank`` or ``well-to-wake``; default the project's own.
     periods : str, Path or None
         A meters CSV of operating months, shown on a Periods sheet beside the design (cradle-to-gate only).
     draws : int or None
@@ -193,8 +181,6 @@ def audit_workbook(
         Keep every draw on the Uncertainty sheet (for a draws CSV).
     draws_csv : str
         Name of the CSV of the draws written beside the workbook, named on the sheet; empty: none.
-    year : int or None
-        The assessment year (calendar year) on whose dates the scheme rules are read.
 
     Returns
     -------
@@ -207,16 +193,18 @@ def audit_workbook(
     InputError
         When ``periods`` is given for a project not scored cradle-to-gate (meters describe the plant).
     """
-    project, sha, factor_set, settings = _workbook_inputs(project_file, from_workbook, factors, boundary_overrides(boundary, overrides))
-    gwp, schemes, factors_option, evidence, source = _workbook_options(settings, gwp, schemes, factors, from_workbook, project_file)
+    if assessment is None:
+        assessment = cover_assessment(from_workbook) if from_workbook is not None else assessment_or_default(None)
+    project, sha, factor_set, evidence, source = _workbook_inputs(project_file, from_workbook, assessment)
+    gwp, schemes, year = assessment.gwp, assessment.scheme_list, assessment.year
     engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year)
     meters, months = _metered(periods, project, factor_set, gwp, engine, schemes) if periods is not None else (None, None)
     series = project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
-    matched = None if series is None else assess(
-        Assessment(factor_set, gwp, tuple(schemes) if schemes else None, year=year), project, source=source, project_sha256=sha, series=series).checks
+    scored = assessment.but(factor_set=factor_set, overrides=(), boundary=None, matching=None)  # the project as read, its edited factors
+    matched = None if series is None else assess(scored, project, source=source, project_sha256=sha, series=series).checks
     spread = None if draws is None else monte_carlo(
-        project, factor_set, _stated_distributions(project_file, from_workbook, distributions), draws=draws, seed=seed, source=source, gwp=gwp,
-        schemes=schemes, keep_draws=keep_draws, project_sha256=sha, series=series, year=year)
-    workbook = build_workbook(engine, project, factor_set, factors_option=factors_option, meters=meters, month_results=months, meters_source=str(periods or ""),
+        project, scored, _stated_distributions(project_file, from_workbook, distributions), draws=draws, seed=seed, source=source,
+        keep_draws=keep_draws, project_sha256=sha, series=series)
+    workbook = build_workbook(engine, project, factor_set, factors_option=requested_as(assessment.factor_set), meters=meters, month_results=months, meters_source=str(periods or ""),
                               evidence=evidence, uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched)
     return AuditWorkbook(workbook, engine, spread, metered_year(meters, project.project.product, months) if months else None)

@@ -28,6 +28,7 @@ from .options import (
     RulebookOption,
     SchemeOption,
     YearOption,
+    assessment_of,
     check_chart_path,
     fail,
     render,
@@ -61,7 +62,7 @@ def compare(
             check_draws(draws, seed)
         if draws is None and distributions is not None:
             raise InputError("compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)")
-        result = api.compare(list(projects or []) + list(from_workbook or []), boundary=boundary, gwp=gwp, factors=factors, schemes=scheme, basis=basis, draws=draws, seed=seed, distributions=distributions, year=year)
+        result = api.compare(list(projects or []) + list(from_workbook or []), assessment_of(factors, gwp, scheme, None, boundary, year), basis=basis, draws=draws, seed=seed, distributions=distributions)
         text = render(output_format, table=lambda: render_comparison(result), json=result.to_json, csv=lambda: comparison_csv(result))
         if chart is not None:
             write_chart(result, chart, force=force)

@@ -76,6 +76,19 @@ def with_rebalance(overrides: list[str] | None, source: str | None) -> list[str]
     return overrides if source is None else [*(overrides or []), rebalance_override(source)]
 
 
+def assessment_of(factors, gwp: str | None, schemes: list[str] | None = None, overrides: list[str] | None = None,
+                  boundary: str | None = None, year: int | None = None, matching: str | None = None, *, cover: Path | None = None):
+    """The command's common options as one ``Assessment``, built (and checked) once and passed to the api.
+    ``factors``: a set name, folder or override CSV, or a loaded set. ``cover``: an audit workbook whose cover settings stand for a factor set, GWP set or schemes not given
+    (``factors``/``gwp`` None: not given on the command line; without a cover, the defaults)."""
+    if cover is not None:
+        found = api.cover_assessment(cover, factors, gwp, schemes)
+        return found.but(overrides=tuple(overrides or ()), boundary=boundary, year=year, matching=matching)
+    chosen = api.factor_set_of(factors) if factors is not None else api.load_factor_set()
+    return api.Assessment(chosen, schemes=tuple(schemes) if schemes else None, overrides=tuple(overrides or ()), boundary=boundary, year=year, matching=matching,
+                          **({"gwp": gwp} if gwp is not None else {}))
+
+
 def fail(error: InputError) -> None:
     """Print one line on stderr and exit 2."""
     typer.echo(f"error: {error}", err=True)

@@ -13,7 +13,7 @@ from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.pack import PackMismatch
 from ..io.tables import display_number, plain_table
-from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, RulebookOption, SchemeOption, YearOption, fail
+from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, RulebookOption, SchemeOption, YearOption, assessment_of, fail
 
 PACK_MISMATCH_EXIT = 3
 NOT_REPRODUCED_EXIT = 1
@@ -34,7 +34,7 @@ def pack(
     """Write an evidence pack: the project and its files, factor overrides, result JSON, workbook, report, ledger records and a manifest of sha256."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        manifest, result = api.pack(project, output, factors=factors, gwp=gwp, schemes=scheme, year=year, ledger=ledger, force=force, rulebooks=rulebook)
+        manifest, result = api.pack(project, output, assessment_of(factors, gwp, scheme, year=year), ledger=ledger, force=force, rulebooks=rulebook)
         if where is not None:
             record_run("pack", [result], ledger=where)
     except InputError as error:

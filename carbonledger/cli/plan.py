@@ -27,6 +27,7 @@ from .options import (
     RulebookOption,
     SetOption,
     YearOption,
+    assessment_of,
     check_output_path,
     fail,
     render,
@@ -122,9 +123,10 @@ def plan(
         if output.exists() and not force:
             raise InputError(output, "--output", "a new file (it exists; pass --force to overwrite)")
         check_output_path(output, force, "--output")
+        assessment = assessment_of(factors, gwp, None, set_, year=year, matching=matching)
         result, series = api.plan(
             project, scheme=scheme, tier=tier, rated_kw=rated_kw, min_load=min_load, part_load=parse_part_load(part_load),
-            hydrogen_price=hydrogen_price, matching=matching, factors=factors, gwp=gwp, overrides=set_, year=year,
+            hydrogen_price=hydrogen_price, assessment=assessment,
         )
         text = plan_csv(series, result)
         figures = summary(result)
@@ -136,7 +138,7 @@ def plan(
         )
         atomic_write(output, lambda tmp: tmp.write_text(text, encoding="utf-8"), force=force)
         if where is not None:
-            record = api.analysis_record("plan", project, ledger_summary(figures, output), factors=factors, gwp=gwp, schemes=[result.scheme], overrides=set_)
+            record = api.analysis_record("plan", project, ledger_summary(figures, output), assessment.but(schemes=(result.scheme,)))
             record_run("plan", [record], ledger=where)
     except InputError as error:
         fail(error)

@@ -37,6 +37,7 @@ from .options import (
     SchemeOption,
     SetOption,
     YearOption,
+    assessment_of,
     check_chart_path,
     explicit,
     fail,
@@ -79,16 +80,17 @@ def score(
         if lifetime:
             if from_workbook is not None:
                 raise InputError("--lifetime", "--from-workbook", "a project TOML file (lifetime scoring reads the project's [lifetime] section)")
-            result = api.lifetime(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary)
+            result = api.lifetime(project, assessment_of(factors, gwp, scheme, set_, boundary))
             text = render(output_format, table=lambda: lifetime_table(result), json=lambda: lifetime_json(result), csv=lambda: lifetime_csv(result))
             command, kind = "score --lifetime", "lifetime"
         else:
             if from_workbook is not None:
-                result = api.score_workbook(from_workbook, factors=explicit(ctx, "factors", factors), gwp=explicit(ctx, "gwp", gwp), schemes=scheme, overrides=set_, boundary=boundary, year=year)
+                result = api.score_workbook(from_workbook, assessment_of(explicit(ctx, "factors", factors), explicit(ctx, "gwp", gwp), scheme, set_, boundary, year, cover=from_workbook))
             else:
-                result = api.score(project, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, matching=matching, year=year)
+                assessment = assessment_of(factors, gwp, scheme, set_, boundary, year, matching)
+                result = api.score(project, assessment)
                 if matching_chart is not None:
-                    api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, matching=matching, factors=factors, gwp=gwp, overrides=set_, force=force, year=year)
+                    api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, assessment=assessment.but(boundary=None), force=force)
             text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
             command, kind = "score", "score"
             if chart is not None:

@@ -25,6 +25,7 @@ from .options import (
     RulebookOption,
     SetOption,
     YearOption,
+    assessment_of,
     check_chart_path,
     fail,
     render,
@@ -63,15 +64,16 @@ def qualify(
         check_confidence(confidence)  # before any file is read
         if chart is not None and front < 2:
             raise InputError(chart, "--chart", "a front of at least 2 budgets (--front)")
+        assessment = assessment_of(factors, gwp, scheme, set_, year=year)
         result = api.qualify(
-            project, levers, schemes=scheme, year=year, confidence=confidence, draws=draws, seed=seed, sampling=sampling.value if sampling else None,
-            distributions=distributions, budgets=front, factors=factors, gwp=gwp, overrides=set_,
+            project, levers, assessment, confidence=confidence, draws=draws, seed=seed, sampling=sampling.value if sampling else None,
+            distributions=distributions, budgets=front,
         )
         text = render(output_format, table=lambda: qualify_table(result), json=lambda: qualify_json(result), csv=lambda: qualify_csv(result))
         if chart is not None:
             write_front_chart(result, chart, force=force)
         if where is not None:
-            record = api.analysis_record("qualify", project, result.summary_for_ledger(), factors=factors, gwp=gwp, schemes=result.schemes, overrides=set_)
+            record = api.analysis_record("qualify", project, result.summary_for_ledger(), assessment.but(schemes=tuple(result.schemes)))
             record_run("qualify", [record], ledger=where)
     except InputError as error:
         fail(error)

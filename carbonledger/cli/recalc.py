@@ -35,6 +35,7 @@ from .options import (
     UserOption,
     WorkersOption,
     YearOption,
+    assessment_of,
     end_of,
     fail,
     render,
@@ -62,7 +63,9 @@ def recalc(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         command = f"recalc --from {from_set} --to {to_set}"
-        result = api.recalc(projects, _named(from_set, "--from"), _named(to_set, "--to"), gwp=gwp, schemes=scheme, year=year, workers=workers, scheduler=scheduler, ledger=where, command=command)
+        old_set = _named(from_set, "--from")
+        assessment = assessment_of(_named(to_set, "--to"), gwp, scheme, year=year)  # the new set is the assessment's
+        result = api.recalc(projects, old_set, assessment, workers=workers, scheduler=scheduler, ledger=where, command=command)
         text = render(output_format, table=lambda: recalc_table(result), json=lambda: recalc_json(result), csv=lambda: recalc_csv(result))
         if result.ledger_run is not None:
             close_run(result.ledger_run)  # the workers wrote the records; the run is visible from now on

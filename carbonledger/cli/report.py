@@ -25,6 +25,7 @@ from .options import (
     SchemeOption,
     SetOption,
     YearOption,
+    assessment_of,
     check_output_path,
     fail,
     with_rebalance,
@@ -66,7 +67,7 @@ def report(
             check_output_path(target, force, "--output" if target == output else "--pdf")
         if pdf is not None and pdf.suffix.lower() != ".pdf":
             raise InputError(pdf, "--pdf", f"a file ending in .pdf, got '{pdf.suffix or 'no suffix'}'")
-        items = api.report_items(projects, factors=factors, gwp=gwp, schemes=scheme, overrides=set_, boundary=boundary, draws=draws, seed=seed, year=year, levers=levers)
+        items = api.report_items(projects, assessment_of(factors, gwp, scheme, set_, boundary, year), draws=draws, seed=seed, levers=levers)
         generated = api.report_date()
         if pdf is not None:
             print_pdf(render_report(items, generated=generated, caution=CAUTION, paper=paper.lower()), pdf, force=force)

@@ -43,6 +43,7 @@ from .options import (
     SetOption,
     WorkersOption,
     YearOption,
+    assessment_of,
     check_chart_path,
     fail,
     render,
@@ -107,16 +108,12 @@ def uncertainty(
             "draws": draws,
             "seed": seed,
             "sampling": sampling.value if sampling else None,
-            "factors": factors,
-            "gwp": gwp,
-            "schemes": scheme,
-            "boundary": boundary,
-            "year": year,
+            "assessment": assessment_of(factors, gwp, scheme, set_, boundary, year),
         }
         single = len(project) == 1 and project[0].is_file() and workers is None and scheduler is None
         if single:
             with progress_bar(draws, "Monte Carlo draws", output_format) as advance:
-                result = api.uncertainty(project[0], overrides=set_, progress=advance, **options)
+                result = api.uncertainty(project[0], progress=advance, **options)
             text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
             if chart is not None:
                 write_uncertainty_chart(result, chart, force=force)
@@ -157,10 +154,11 @@ def headroom(
     set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        results = api.headroom(project, parameter, scheme, tier=tier, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year)
+        assessment = assessment_of(factors, gwp, None, set_, boundary, year)
+        results = api.headroom(project, parameter, scheme, tier=tier, assessment=assessment)
         text = render(output_format, table=lambda: headroom_table(results), json=lambda: headroom_json(results), csv=lambda: headroom_csv(results))
         if where is not None:
-            record_run("headroom", [api.headroom_record(results, project, factors=factors, gwp=gwp, overrides=set_, boundary=boundary)], ledger=where)
+            record_run("headroom", [api.headroom_record(results, project, assessment)], ledger=where)
     except InputError as error:
         fail(error)
     typer.echo(text, nl=False)
@@ -192,12 +190,13 @@ def sensitivity(
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
         check_swing(swing)
-        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, factors=factors, gwp=gwp, overrides=set_, boundary=boundary, year=year, swing=swing)
+        assessment = assessment_of(factors, gwp, [scheme] if scheme else None, set_, boundary, year)
+        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, assessment=assessment, swing=swing)
         text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
         if chart is not None:
             write_sensitivity_chart(result, chart, force=force)
         if where is not None:
-            record = api.analysis_record("sensitivity", project, result.summary_for_ledger(), factors=factors, gwp=gwp, schemes=[scheme] if scheme else None, overrides=set_, boundary=boundary)
+            record = api.analysis_record("sensitivity", project, result.summary_for_ledger(), assessment)
             record_run("sensitivity", [record], ledger=where)
     except InputError as error:
         fail(error)

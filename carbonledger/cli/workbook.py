@@ -25,6 +25,7 @@ from .options import (
     SchemeOption,
     SetOption,
     YearOption,
+    assessment_of,
     check_output_path,
     explicit,
     fail,
@@ -82,16 +83,13 @@ def workbook(
             raise InputError(output, "--output", "a file path, not a folder")
         if output.exists() and not force:
             raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        # with --from-workbook, a factor set or GWP set not given on the command line is the cover's
+        assessment = assessment_of(explicit(ctx, "factors", factors), explicit(ctx, "gwp", gwp), scheme, set_, boundary, year, cover=from_workbook)
         audited = api.audit_workbook(
             project,
+            assessment,
             from_workbook=from_workbook,
-            factors=explicit(ctx, "factors", factors),
-            gwp=explicit(ctx, "gwp", gwp),
-            schemes=scheme,
-            overrides=set_,
-            boundary=boundary,
             periods=periods,
-            year=year,
             draws=draws,
             seed=seed,
             distributions=distributions,
