@@ -59,7 +59,10 @@ class Headroom(BaseModel):
 def headroom_summary(results: list[Headroom]) -> dict:
     """The compact figures the run ledger keeps of a headroom search (one or several parameters)."""
     first = results[0]
-    found = "; ".join(f"{r.parameter} = {r.value:.6g} {r.unit}" if r.value is not None else f"{r.parameter}: none ({r.reason})" for r in results)
+    found = "; ".join(
+        f"{r.parameter} = {r.value:.6g} {r.unit}" if r.value is not None else f"{r.parameter}: none ({r.reason})"
+        for r in results
+    )
     return {
         "analysis": "headroom",
         "headline": f"headroom under {first.scheme} ({first.tier}, limit {first.limit:g} {first.scheme_unit}): {found}",
@@ -67,7 +70,17 @@ def headroom_summary(results: list[Headroom]) -> dict:
         "tier": first.tier,
         "limit": first.limit,
         "unit": first.scheme_unit,
-        "parameters": [{"parameter": r.parameter, "unit": r.unit, "project_value": r.project_value, "value": r.value, "qualifies_when": r.qualifies_when, "reason": r.reason} for r in results],
+        "parameters": [
+            {
+                "parameter": r.parameter,
+                "unit": r.unit,
+                "project_value": r.project_value,
+                "value": r.value,
+                "qualifies_when": r.qualifies_when,
+                "reason": r.reason,
+            }
+            for r in results
+        ],
     }
 
 
@@ -136,7 +149,13 @@ def headroom(
         if not found:
             raise InputError("--tier", tier, f"a tier of {scheme.id}: {'; '.join(t.tier for t in scheme.thresholds)}")
         threshold = found[0]
-    plan = make_plan(project, assessment.but(schemes=(scheme.id,)), Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}), source=source, series=series)
+    plan = make_plan(
+        project,
+        assessment.but(schemes=(scheme.id,)),
+        Uncertainty(parameters={path: {"distribution": "uniform", "low": 0, "high": 1}}),
+        source=source,
+        series=series,
+    )
     probe = _Probe(plan, path, scheme.id)
     findings = probe.findings()
     rules_say = status_of(findings, True)  # the verdict of a value that meets the limit, by the one judgement
@@ -159,8 +178,19 @@ def headroom(
     }
     if rules_say == Status.NOT_ELIGIBLE:
         first = next(f.text for f in findings if f.step == "eligibility" and f.outcome == NOT_MET)
-        return Headroom(**base, value=None, reason=f"not eligible whatever the value: {first}", qualifies_when="", verified_scheme_value=None, relative_difference=None)
-    crossings = [n for n in range(len(grid) - 1) if allowed[n] and allowed[n + 1] and np.sign(values[n]) != np.sign(values[n + 1])]
+        return Headroom(
+            **base,
+            value=None,
+            reason=f"not eligible whatever the value: {first}",
+            qualifies_when="",
+            verified_scheme_value=None,
+            relative_difference=None,
+        )
+    crossings = [
+        n
+        for n in range(len(grid) - 1)
+        if allowed[n] and allowed[n + 1] and np.sign(values[n]) != np.sign(values[n + 1])
+    ]
     exact = [n for n in range(len(grid)) if allowed[n] and values[n] == 0]
     if not crossings and not exact:
         qualifies = values[allowed] <= 0
@@ -170,10 +200,21 @@ def headroom(
             reason = f"no value in the physical range [{low:g}, {high:g}] {unit} meets the limit"
         else:
             reason = "the limit is met only across a physical limit of the route"
-        return Headroom(**base, value=None, reason=reason, qualifies_when="", verified_scheme_value=None, relative_difference=None)
+        return Headroom(
+            **base, value=None, reason=reason, qualifies_when="", verified_scheme_value=None, relative_difference=None
+        )
     roots = [float(grid[n]) for n in exact]
     for n in crossings:
-        roots.append(brentq(lambda x: float(probe(np.array([x]))[0]) - threshold.limit, grid[n], grid[n + 1], xtol=1e-15, rtol=4 * np.finfo(float).eps, maxiter=200))
+        roots.append(
+            brentq(
+                lambda x: float(probe(np.array([x]))[0]) - threshold.limit,
+                grid[n],
+                grid[n + 1],
+                xtol=1e-15,
+                rtol=4 * np.finfo(float).eps,
+                maxiter=200,
+            )
+        )
     value = min(roots, key=lambda x: abs(x - float(nominal)))
     step = 1e-6 * max(abs(high - low), 1e-12)
     below, above = probe(np.array([max(value - step, low), min(value + step, high)])) - threshold.limit
@@ -181,12 +222,24 @@ def headroom(
     verified = verify(plan, path, value, scheme.id, source)
     difference = abs(verified - threshold.limit) / abs(threshold.limit)
     if difference > VERIFY_RTOL:
-        raise RuntimeError(f"headroom of {path} under {scheme.id} failed its check: scored {verified} at {value}, limit {threshold.limit}")
+        raise RuntimeError(
+            f"headroom of {path} under {scheme.id} failed its check: scored {verified} at {value}, limit "
+            f"{threshold.limit}"
+        )
     extent = "largest" if qualifies_when == "below" else "smallest"
-    reason = f"the {extent} value that meets the limit" + (f" ({len(roots)} crossings in range; the one nearest the project's value)" if len(roots) > 1 else "")
+    reason = f"the {extent} value that meets the limit" + (
+        f" ({len(roots)} crossings in range; the one nearest the project's value)" if len(roots) > 1 else ""
+    )
     if rules_say == Status.UNDETERMINED:
         reason += f"; the check stays undetermined there: {next(f.text for f in findings if f.outcome == UNKNOWN)}"
-    return Headroom(**base, value=value, reason=reason, qualifies_when=qualifies_when, verified_scheme_value=verified, relative_difference=difference)
+    return Headroom(
+        **base,
+        value=value,
+        reason=reason,
+        qualifies_when=qualifies_when,
+        verified_scheme_value=verified,
+        relative_difference=difference,
+    )
 
 
 def verify(plan, path: str, value: float, scheme_id: str, source: str) -> float:

@@ -8,7 +8,8 @@ is weighted by each year's output; construction emissions are spread over the li
 and added for the schemes whose rulebook counts them (``counts_construction``).
 
 With an electricity time series (``[electricity] time_series``) every year's scheme checks are
-matched against the series under the rule in force in that year (``portfolio.score_portfolio`` with each year's series, as ``score`` matches them):
+matched against the series under the rule in force in that year (``portfolio.score_portfolio`` with each year's series,
+as ``score`` matches them):
 
 - a series of one calendar year is repeated: each operating year gets the same intervals at the
   same minute from the start of the year (local time; offsets as written), so the dated rules
@@ -58,10 +59,14 @@ class LifetimeYear:
     grid_factor_unit: str
     total: float
     scheme_values: dict[str, float]
-    passes: dict[str, bool]  # the year qualifies under each scheme's rule (construction added where the rulebook counts it)
+    passes: dict[
+        str, bool
+    ]  # the year qualifies under each scheme's rule (construction added where the rulebook counts it)
     factors_from_memory: list[str] = field(default_factory=list)  # ids of that year's factors recorded from memory
     grid_factor_id: str = ""  # the trajectory row used this year
-    grid_factor_year: int | None = None  # its year: earlier than the operating year when held at the last published year
+    grid_factor_year: int | None = (
+        None  # its year: earlier than the operating year when held at the last published year
+    )
     series_year: int | None = None  # calendar year of the time series intervals used (None: no series)
     grid_profile_scale: float | None = None  # F(Y) / F_0 applied to the series' grid intensity profile
     matched_share: dict[str, float] = field(default_factory=dict)  # per scheme, with a time series
@@ -148,7 +153,15 @@ class LifetimeResult:
             "total_with_construction": self.average_with_construction,
             "unit": self.unit,
             "checks": [
-                {"scheme": s.scheme, "value": s.lifetime_value, "unit": s.unit, "limit": s.limit, "passes": s.passes, "status": s.status, "years_missed": s.years_missed}
+                {
+                    "scheme": s.scheme,
+                    "value": s.lifetime_value,
+                    "unit": s.unit,
+                    "limit": s.limit,
+                    "passes": s.passes,
+                    "status": s.status,
+                    "years_missed": s.years_missed,
+                }
                 for s in self.schemes
             ],
         }
@@ -202,7 +215,9 @@ def _by_year(rows: list[Factor], origin: str) -> dict[int, Factor]:
     return by_year
 
 
-def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet, grid_factor_id: str = "") -> tuple[dict[int, Factor], str]:
+def read_trajectory(
+    project_file: str | Path, lifetime, factor_set: FactorSet, grid_factor_id: str = ""
+) -> tuple[dict[int, Factor], str]:
     """Grid factor rows by calendar year of operation, and where they come from ({} when none is given).
 
     ``grid_trajectory_factors`` names a region of the factor set (``electricity.grid.chile``, or ``region``
@@ -224,11 +239,19 @@ def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet, g
         if prefix == "region":
             prefix = region_of(grid_factor_id)
             if not prefix:
-                raise InputError(project_file, "lifetime.grid_trajectory_factors", f"'region' with a grid factor id ending in _YEAR, got '{grid_factor_id}'")
+                raise InputError(
+                    project_file,
+                    "lifetime.grid_trajectory_factors",
+                    f"'region' with a grid factor id ending in _YEAR, got '{grid_factor_id}'",
+                )
         origin = f"factor set {factor_set.name}, rows {prefix.rstrip('._')}_YEAR or .YEAR"
         published = _by_year(published_rows(factor_set, prefix), origin)
         if not published:
-            raise InputError(project_file, "lifetime.grid_trajectory_factors", f"rows '{prefix.rstrip('._')}_YEAR' or '.YEAR' in factor set '{factor_set.name}' (none found)")
+            raise InputError(
+                project_file,
+                "lifetime.grid_trajectory_factors",
+                f"rows '{prefix.rstrip('._')}_YEAR' or '.YEAR' in factor set '{factor_set.name}' (none found)",
+            )
         origins.insert(0, origin)
     if not origins:
         return {}, ""
@@ -244,7 +267,11 @@ def read_trajectory(project_file: str | Path, lifetime, factor_set: FactorSet, g
     missing = [year for year in wanted if year not in by_year]
     if missing:
         shown = ", ".join(str(y) for y in missing[:8]) + (" ..." if len(missing) > 8 else "")
-        raise InputError(" and ".join(origins), "year", f"a grid factor for every operating year {wanted[0]}-{wanted[-1]}; missing {shown}")
+        raise InputError(
+            " and ".join(origins),
+            "year",
+            f"a grid factor for every operating year {wanted[0]}-{wanted[-1]}; missing {shown}",
+        )
     documents = sorted({row.source for row in by_year.values()})
     held = sorted(year for year, row in by_year.items() if row.year != year)
     text = "; ".join(origins)
@@ -265,7 +292,9 @@ def series_of_year(series: ElectricitySeries, year: int, repeated: bool, scale: 
     one-year series moved to that year, same minute from the local start of the year; grid profile x ``scale``."""
     if repeated:
         start = series.local.astype("datetime64[Y]")
-        local = (start + (year - int(series_years(series)[0]))).astype("datetime64[m]") + (series.local - start.astype("datetime64[m]"))
+        local = (start + (year - int(series_years(series)[0]))).astype("datetime64[m]") + (
+            series.local - start.astype("datetime64[m]")
+        )
         mask = slice(None)
         utc = local - series.offset_minutes.astype("timedelta64[m]")
     else:
@@ -292,10 +321,14 @@ def _g_per_kwh(row: Factor, origin: str) -> float:
     try:
         return row.value * conversion_factor(row.unit, "g CO2e/kWh")
     except UnitMismatch:
-        raise InputError(origin, row.id, f"a grid factor convertible to g CO2e/kWh to scale the series' grid profile, got {row.unit}") from None
+        raise InputError(
+            origin, row.id, f"a grid factor convertible to g CO2e/kWh to scale the series' grid profile, got {row.unit}"
+        ) from None
 
 
-def yearly_series(series: ElectricitySeries, years: list[int], trajectory: dict[int, Factor], base: Factor | None, origin: str) -> tuple[list[ElectricitySeries], list[float | None], list[int], str]:
+def yearly_series(
+    series: ElectricitySeries, years: list[int], trajectory: dict[int, Factor], base: Factor | None, origin: str
+) -> tuple[list[ElectricitySeries], list[float | None], list[int], str]:
     """The series of every operating year, the grid profile scale of each, the calendar year whose intervals
     each uses, and a line saying how the series was used."""
     present = sorted(set(series_years(series).tolist()))
@@ -308,15 +341,35 @@ def yearly_series(series: ElectricitySeries, years: list[int], trajectory: dict[
             if not f0 > 0:
                 raise InputError(origin, reference.id, "a grid factor > 0 to scale the series' grid profile by")
             scales = [_g_per_kwh(trajectory[year], origin) / f0 for year in years]
-        how = f"{series.path}: calendar year {own} repeated in every operating year" + (f", grid profile scaled by the trajectory (F(year) / F({own}) from {'the trajectory' if own in trajectory else 'the grid source factor ' + reference.id})" if scales[0] is not None else "")
-        return [series_of_year(series, year, True, 1.0 if scale is None else scale) for year, scale in zip(years, scales, strict=True)], scales, [own] * len(years), how
+        how = f"{series.path}: calendar year {own} repeated in every operating year" + (
+            f", grid profile scaled by the trajectory (F(year) / F({own}) from "
+            f"{'the trajectory' if own in trajectory else 'the grid source factor ' + reference.id})"
+            if scales[0] is not None
+            else ""
+        )
+        return (
+            [
+                series_of_year(series, year, True, 1.0 if scale is None else scale)
+                for year, scale in zip(years, scales, strict=True)
+            ],
+            scales,
+            [own] * len(years),
+            how,
+        )
     missing = [year for year in years if year not in present]
     if missing:
         raise InputError(
-            series.path, "timestamp",
-            f"intervals in every operating year {years[0]}-{years[-1]} (a series of one calendar year is repeated; one of several years is read year by year), missing {', '.join(str(y) for y in missing[:8])}",
+            series.path,
+            "timestamp",
+            f"intervals in every operating year {years[0]}-{years[-1]} (a series of one calendar year is repeated; "
+            f"one of several years is read year by year), missing {', '.join(str(y) for y in missing[:8])}",
         )
-    return [series_of_year(series, year, False) for year in years], [None] * len(years), list(years), f"{series.path}: read year by year ({present[0]}-{present[-1]})"
+    return (
+        [series_of_year(series, year, False) for year in years],
+        [None] * len(years),
+        list(years),
+        f"{series.path}: read year by year ({present[0]}-{present[-1]})",
+    )
 
 
 def _ageing_parameter(project) -> str:
@@ -329,7 +382,16 @@ def _with_value(data: dict, path: str, value) -> dict:
     return {**data, section: {**data[section], name: value}}
 
 
-def _year_variants(project, life, factor_set: FactorSet, trajectory: dict, grid_factor_id: str, efficiency: np.ndarray, project_file: str, project_sha256: str):
+def _year_variants(
+    project,
+    life,
+    factor_set: FactorSet,
+    trajectory: dict,
+    grid_factor_id: str,
+    efficiency: np.ndarray,
+    project_file: str,
+    project_sha256: str,
+):
     """One project per operating year (the ageing parameter aged) and one factor set per year (the grid
     source's factor replaced by the year's trajectory row): (projects, factor sets, calendar years)."""
     data = project.model_dump(exclude_none=True)
@@ -341,11 +403,21 @@ def _year_variants(project, life, factor_set: FactorSet, trajectory: dict, grid_
         year_data = data
         if ageing:
             section, name = ageing.split(".")
-            year_data = _with_value(data, ageing, stage.electricity_kwh_per_kg_h2_aged(data[section][name], float(efficiency[index])))
+            year_data = _with_value(
+                data, ageing, stage.electricity_kwh_per_kg_h2_aged(data[section][name], float(efficiency[index]))
+            )
         year_projects.append(PortfolioProject(project_file, validate_project(year_data, project_file), project_sha256))
         if trajectory:
             replaced = trajectory[year].model_copy(update={"id": grid_factor_id})
-            year_sets.append(FactorSet(f"{factor_set.name}+grid {year}", factor_set.description, factor_set.date, {**factor_set.factors, grid_factor_id: replaced}, factor_set.layers))
+            year_sets.append(
+                FactorSet(
+                    f"{factor_set.name}+grid {year}",
+                    factor_set.description,
+                    factor_set.date,
+                    {**factor_set.factors, grid_factor_id: replaced},
+                    factor_set.layers,
+                )
+            )
         else:
             year_sets.append(factor_set)
     return year_projects, year_sets, calendar_years
@@ -367,15 +439,33 @@ def _construction_per_basis_unit(rulebook, first, construction_per_gate_unit: fl
     if rulebook.basis == "product":
         basis_product, per_basis_unit = first.product, construction_per_gate_unit
     elif rulebook.basis == "delivered":
-        basis_product, per_basis_unit = first.reference_product, construction_per_gate_unit * first.gate_product_per_unit
+        basis_product, per_basis_unit = (
+            first.reference_product,
+            construction_per_gate_unit * first.gate_product_per_unit,
+        )
     else:
-        basis_product, per_basis_unit = "hydrogen", construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit
+        basis_product, per_basis_unit = (
+            "hydrogen",
+            construction_per_gate_unit * first.gate_product_per_unit / first.hydrogen_kg_per_unit,
+        )
     hydrogen_lhv = first.heating_values_mj_per_kg["hydrogen_lhv"]
     ammonia_lhv = first.heating_values_mj_per_kg.get("ammonia_lhv", float("nan"))
-    return float(intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, first.hydrogen_mass_fraction)[rulebook.quantity])
+    return float(
+        intensities(per_basis_unit, basis_product, hydrogen_lhv, ammonia_lhv, first.hydrogen_mass_fraction)[
+            rulebook.quantity
+        ]
+    )
 
 
-def _scheme_over_life(number: int, rulebook, scores: list, units: np.ndarray, construction_per_gate_unit: float, first_year: int, yearly_status: list[dict[str, str]]) -> LifetimeScheme:
+def _scheme_over_life(
+    number: int,
+    rulebook,
+    scores: list,
+    units: np.ndarray,
+    construction_per_gate_unit: float,
+    first_year: int,
+    yearly_status: list[dict[str, str]],
+) -> LifetimeScheme:
     """One scheme's lifetime value and status, and each year's status (filled into ``yearly_status``)."""
     first = scores[0]
     check = first.checks[number]
@@ -408,7 +498,9 @@ def _scheme_over_life(number: int, rulebook, scores: list, units: np.ndarray, co
     )
 
 
-def _lifetime_year(score, year: int, grid, age: float, efficiency: float, output_t: float, statuses: dict[str, str], series_year, scale) -> LifetimeYear:
+def _lifetime_year(
+    score, year: int, grid, age: float, efficiency: float, output_t: float, statuses: dict[str, str], series_year, scale
+) -> LifetimeYear:
     return LifetimeYear(
         year=year,
         stack_age_years=int(age),
@@ -425,14 +517,20 @@ def _lifetime_year(score, year: int, grid, age: float, efficiency: float, output
         grid_factor_year=grid.year if grid else None,
         series_year=series_year,
         grid_profile_scale=scale,
-        matched_share={check.scheme: check.electricity_matching.matched_share for check in score.checks if check.electricity_matching is not None},
+        matched_share={
+            check.scheme: check.electricity_matching.matched_share
+            for check in score.checks
+            if check.electricity_matching is not None
+        },
     )
 
 
 def _factors_used(first, trajectory: dict) -> list[dict]:
     """The factors the first year used, and every trajectory row, once per year (as plain rows with their grade)."""
     rows = sorted({row.year: row for row in trajectory.values()}.values(), key=lambda row: row.year)
-    return [factor_row(factor) for factor in first.factors_used] + [factor_row(row.model_copy(update={"id": f"trajectory.{row.year}"})) for row in rows]
+    return [factor_row(factor) for factor in first.factors_used] + [
+        factor_row(row.model_copy(update={"id": f"trajectory.{row.year}"})) for row in rows
+    ]
 
 
 def lifetime_score(
@@ -447,22 +545,38 @@ def lifetime_score(
     factor_set, gwp = assessment.factor_set, assessment.gwp
     life = project.lifetime
     if life is None:
-        raise InputError(project_file, "lifetime", "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime")
-    grid_factor_id = project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
+        raise InputError(
+            project_file,
+            "lifetime",
+            "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime",
+        )
+    grid_factor_id = (
+        project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
+    )
     trajectory, trajectory_origin = read_trajectory(project_file, life, factor_set, grid_factor_id)
     ages = stage.stack_age_years(np.arange(life.operating_years), life.stack_replacement_years or life.operating_years)
-    efficiency = stage.efficiency_fraction_of_new(life.efficiency_loss_per_year if _ageing_parameter(project) else 0.0, ages)
+    efficiency = stage.efficiency_fraction_of_new(
+        life.efficiency_loss_per_year if _ageing_parameter(project) else 0.0, ages
+    )
     outputs = stage.annual_output_t(life.nameplate_output_t_per_year, life.capacity_factor, efficiency)
-    year_projects, year_sets, calendar_years = _year_variants(project, life, factor_set, trajectory, grid_factor_id, efficiency, project_file, project_sha256)
+    year_projects, year_sets, calendar_years = _year_variants(
+        project, life, factor_set, trajectory, grid_factor_id, efficiency, project_file, project_sha256
+    )
     series = project_series(project, project_file)
     scales: list[float | None] = [None] * len(calendar_years)
     source_years: list[int | None] = [None] * len(calendar_years)
     series_use = ""
     if series is not None:  # each year matched against its own year of the series
         base = factor_set.factors.get(grid_factor_id)
-        per_year, scales, source_years, series_use = yearly_series(series, calendar_years, trajectory, base, trajectory_origin or factor_set.name)
-        year_projects = [replace(item, series=one_series) for item, one_series in zip(year_projects, per_year, strict=True)]
-    scores = score_portfolio(year_projects, year_sets, gwp=gwp, schemes=assessment.scheme_list, year=calendar_years)  # each year's scheme rules
+        per_year, scales, source_years, series_use = yearly_series(
+            series, calendar_years, trajectory, base, trajectory_origin or factor_set.name
+        )
+        year_projects = [
+            replace(item, series=one_series) for item, one_series in zip(year_projects, per_year, strict=True)
+        ]
+    scores = score_portfolio(
+        year_projects, year_sets, gwp=gwp, schemes=assessment.scheme_list, year=calendar_years
+    )  # each year's scheme rules
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
@@ -474,9 +588,24 @@ def lifetime_score(
     average = float(stage.output_weighted_mean(np.array([score.total for score in scores]), units))
     books = rulebooks()
     yearly_status: list[dict[str, str]] = [{} for _ in scores]
-    lifetime_schemes = [_scheme_over_life(number, books[check.scheme], scores, units, construction_per_gate_unit, life.first_year, yearly_status) for number, check in enumerate(first.checks)]
+    lifetime_schemes = [
+        _scheme_over_life(
+            number, books[check.scheme], scores, units, construction_per_gate_unit, life.first_year, yearly_status
+        )
+        for number, check in enumerate(first.checks)
+    ]
     years = [
-        _lifetime_year(score, life.first_year + index, trajectory.get(life.first_year + index) if trajectory else None, ages[index], efficiency[index], outputs[index], yearly_status[index], source_years[index], scales[index])
+        _lifetime_year(
+            score,
+            life.first_year + index,
+            trajectory.get(life.first_year + index) if trajectory else None,
+            ages[index],
+            efficiency[index],
+            outputs[index],
+            yearly_status[index],
+            source_years[index],
+            scales[index],
+        )
         for index, score in enumerate(scores)
     ]
     return LifetimeResult(

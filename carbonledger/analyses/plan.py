@@ -48,7 +48,14 @@ from ..errors import InputError
 from ..model.statuses import Status
 from ..routes import routes_of
 from .electricity_series import ElectricitySeries
-from .matching import ElectricityModel, counted_intensity, electricity_model, match, period_labels, series_matched_periods
+from .matching import (
+    ElectricityModel,
+    counted_intensity,
+    electricity_model,
+    match,
+    period_labels,
+    series_matched_periods,
+)
 
 
 @dataclass
@@ -98,7 +105,9 @@ class PlanResult:
         return len(self.load_kwh) * self.interval_minutes / 60.0
 
 
-def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, through_origin: bool = False) -> tuple[np.ndarray, np.ndarray, float]:
+def part_load_segments(
+    points: list[tuple[float, float]], rated_kwh: float, through_origin: bool = False
+) -> tuple[np.ndarray, np.ndarray, float]:
     """Slopes a_j (kg/kWh) and intercepts b_j (kg) of the hydrogen output through (load fraction, kWh/kg) points.
 
     Returns (a, b, least fraction). The output must be concave (falling marginal output), as a
@@ -106,11 +115,15 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
     segment from zero load to the first point (a plant that may run at any load).
     """
     if not all(np.isfinite(number) and number > 0 for point in points for number in point):
-        raise InputError("--part-load", str(points), "points FRACTION:KWH_PER_KG of positive finite numbers (no nan or inf)")
+        raise InputError(
+            "--part-load", str(points), "points FRACTION:KWH_PER_KG of positive finite numbers (no nan or inf)"
+        )
     points = sorted(points)
     fractions = np.array([f for f, _ in points])
     if len(points) < 2 or fractions[-1] != 1.0 or fractions[0] <= 0 or (np.diff(fractions) <= 0).any():
-        raise InputError("--part-load", str(points), "two or more points FRACTION:KWH_PER_KG with fractions rising to 1.0")
+        raise InputError(
+            "--part-load", str(points), "two or more points FRACTION:KWH_PER_KG with fractions rising to 1.0"
+        )
     kwh = fractions * rated_kwh
     kg = kwh / np.array([e for _, e in points])
     slopes = np.diff(kg) / np.diff(kwh)
@@ -118,8 +131,14 @@ def part_load_segments(points: list[tuple[float, float]], rated_kwh: float, thro
     if through_origin:
         slopes, intercepts = np.r_[kg[0] / kwh[0], slopes], np.r_[0.0, intercepts]
     if (np.diff(slopes) > 1e-12).any():
-        hint = " (from zero load; give --min-load at the first point if the plant cannot run below it)" if through_origin else ""
-        raise InputError("--part-load", str(points), f"a concave output curve: marginal hydrogen per kWh falling as load rises{hint}")
+        hint = (
+            " (from zero load; give --min-load at the first point if the plant cannot run below it)"
+            if through_origin
+            else ""
+        )
+        raise InputError(
+            "--part-load", str(points), f"a concave output curve: marginal hydrogen per kWh falling as load rises{hint}"
+        )
     return slopes, intercepts, float(fractions[0])
 
 
@@ -141,10 +160,19 @@ def interior_point_lp(objective, constraints, lower, upper):
     above, below = np.isfinite(high) & ~equal, np.isfinite(low) & ~equal
     inequalities = sparse.vstack([matrix[above], -matrix[below]]).tocsr()
     equalities = {"A_eq": matrix[equal], "b_eq": low[equal]} if equal.any() else {}
-    return linprog(objective, A_ub=inequalities, b_ub=np.r_[high[above], -low[below]], bounds=np.c_[lower, upper], method="highs-ipm", **equalities)
+    return linprog(
+        objective,
+        A_ub=inequalities,
+        b_ub=np.r_[high[above], -low[below]],
+        bounds=np.c_[lower, upper],
+        method="highs-ipm",
+        **equalities,
+    )
 
 
-def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, least_kwh, time_limit_s, mip_gap, linear=None):
+def _relax_and_fix(
+    objective, constraints, integrality, lower, upper, layout, least_kwh, time_limit_s, mip_gap, linear=None
+):
     """Solve the linear relaxation, keep on/off where it runs at or above the minimum load (on) or not at
     all (off), and round the intervals it runs below the minimum load: all off, or all on at least at the
     minimum load, each repaired by a linear program; the better feasible one wins. The relaxation bounds
@@ -153,6 +181,7 @@ def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, le
 
     p0, on0, n = layout
     continuous = np.zeros_like(integrality)
+
     def solve_linear(low, high):
         if linear is not None:
             return linear(objective, constraints, low, high)
@@ -175,11 +204,21 @@ def _relax_and_fix(objective, constraints, integrality, lower, upper, layout, le
         if trial.x is not None and (best is None or trial.fun < best.fun):
             best = trial
     if best is None:
-        best = milp(objective, constraints=constraints, integrality=integrality, bounds=Bounds(lower, upper), options={"time_limit": time_limit_s, "mip_rel_gap": mip_gap})
+        best = milp(
+            objective,
+            constraints=constraints,
+            integrality=integrality,
+            bounds=Bounds(lower, upper),
+            options={"time_limit": time_limit_s, "mip_rel_gap": mip_gap},
+        )
         if best.x is None:
             return best, ""
     gap = (best.fun - relaxed.fun) / abs(relaxed.fun) if relaxed.fun else 0.0
-    return best, f"on/off taken from the linear relaxation ({int(between.sum())} of {n} intervals rounded); within {gap:.3%} of the relaxation's bound"
+    return (
+        best,
+        f"on/off taken from the linear relaxation ({int(between.sum())} of {n} intervals rounded); within {gap:.3%} "
+        "of the relaxation's bound",
+    )
 
 
 def check_plan_options(rated_kw: float, min_load: float, hydrogen_price: float | None) -> None:
@@ -189,7 +228,9 @@ def check_plan_options(rated_kw: float, min_load: float, hydrogen_price: float |
     if not 0 <= min_load <= 1:
         raise InputError("--min-load", str(min_load), "a fraction of rated power from 0 to 1")
     if hydrogen_price is not None and not (np.isfinite(hydrogen_price) and 0 <= hydrogen_price <= 1e6):
-        raise InputError("--hydrogen-price", str(hydrogen_price), "a price per kg from 0 to 1e+06 (currency of the price column)")
+        raise InputError(
+            "--hydrogen-price", str(hydrogen_price), "a price per kg from 0 to 1e+06 (currency of the price column)"
+        )
 
 
 def _period_data(series: ElectricitySeries, supply: np.ndarray, labels: np.ndarray, counted: np.ndarray):
@@ -214,7 +255,12 @@ class Blocks:
 
     @classmethod
     def of(cls, intervals: int, periods: int, curve: bool, binary: bool) -> Blocks:
-        sizes = {"load": intervals, "hydrogen": intervals if curve else 0, "on": intervals if binary else 0, "matched": periods}
+        sizes = {
+            "load": intervals,
+            "hydrogen": intervals if curve else 0,
+            "on": intervals if binary else 0,
+            "matched": periods,
+        }
         start, found = 0, {}
         for name, count in sizes.items():
             found[name] = slice(start, start + count)
@@ -231,20 +277,28 @@ def _rows(terms: list[tuple[np.ndarray, np.ndarray]], rows: np.ndarray, size: in
     from scipy import sparse
 
     values = np.concatenate([np.broadcast_to(v, c.shape) for v, c in terms])
-    return sparse.csr_array((values, (np.tile(rows, len(terms)), np.concatenate([c for _, c in terms]))), shape=(count, size))
+    return sparse.csr_array(
+        (values, (np.tile(rows, len(terms)), np.concatenate([c for _, c in terms]))), shape=(count, size)
+    )
 
 
-def _output_segments(part_load, rated: float, min_load: float, kwh_per_kg_h2: float) -> tuple[np.ndarray, np.ndarray, bool]:
+def _output_segments(
+    part_load, rated: float, min_load: float, kwh_per_kg_h2: float
+) -> tuple[np.ndarray, np.ndarray, bool]:
     """Slopes and intercepts of hydrogen per interval, and whether a part-load curve gives them."""
     if not part_load:
         return np.array([1.0 / kwh_per_kg_h2]), np.array([0.0]), False
     slopes, intercepts, least = part_load_segments(part_load, rated, through_origin=min_load == 0)
     if min_load > 0 and least > min_load + 1e-12:
-        raise InputError("--part-load", str(part_load), f"a first point at or below the minimum stable load {min_load:g}")
+        raise InputError(
+            "--part-load", str(part_load), f"a first point at or below the minimum stable load {min_load:g}"
+        )
     return slopes, intercepts, True
 
 
-def _fixed_constraints(blocks: Blocks, labels: np.ndarray, periods: int, slopes, intercepts, curve: bool, rated: float, min_load: float):
+def _fixed_constraints(
+    blocks: Blocks, labels: np.ndarray, periods: int, slopes, intercepts, curve: bool, rated: float, min_load: float
+):
     """The rows that do not change between passes: hydrogen under each curve segment, the load within
     its on/off bounds, and the matched energy within the period's load. Returns (matrix, lower, upper)."""
     from scipy import sparse
@@ -271,18 +325,28 @@ def _fixed_constraints(blocks: Blocks, labels: np.ndarray, periods: int, slopes,
         add(_rows([(1.0, load), (-min_load * rated, on)], index, blocks.size, n), 0.0, np.inf)
     # matched within the period's load: m_P - sum_{t in P} p_t <= 0
     matched_rows = sparse.csr_array(
-        (np.r_[np.ones(periods), -np.ones(n)], (np.r_[np.arange(periods), labels], np.r_[blocks.columns(blocks.matched), load])), shape=(periods, blocks.size)
+        (
+            np.r_[np.ones(periods), -np.ones(n)],
+            (np.r_[np.arange(periods), labels], np.r_[blocks.columns(blocks.matched), load]),
+        ),
+        shape=(periods, blocks.size),
     )
     add(matched_rows, -np.inf, 0.0)
     return sparse.vstack(matrices).tocsr(), np.concatenate(lower), np.concatenate(upper)
 
 
-def _objective(blocks: Blocks, series: ElectricitySeries, hydrogen_price: float | None, slopes, curve: bool) -> np.ndarray:
+def _objective(
+    blocks: Blocks, series: ElectricitySeries, hydrogen_price: float | None, slopes, curve: bool
+) -> np.ndarray:
     """Minimised: minus hydrogen, or minus margin (hydrogen price x hydrogen - electricity price x load)."""
     objective = np.zeros(blocks.size)
     if hydrogen_price is not None:
         if series.price_per_mwh is None:
-            raise InputError("--hydrogen-price", str(hydrogen_price), "a series with a 'price [<currency>/MWh]' column to weigh margin")
+            raise InputError(
+                "--hydrogen-price",
+                str(hydrogen_price),
+                "a series with a 'price [<currency>/MWh]' column to weigh margin",
+            )
         objective[blocks.load] = series.price_per_mwh / 1000.0
         if curve:
             objective[blocks.hydrogen] = -hydrogen_price
@@ -326,7 +390,10 @@ class _Program:
         matched = blocks.columns(blocks.matched)
         if self.curve:
             entries = np.r_[charge[self.labels], -cap * self.design * np.ones(n), self.cbar - charge]
-            rows, columns = np.r_[self.year_of, self.year_of, self.year_of[self.starts]], np.r_[blocks.columns(blocks.load), blocks.columns(blocks.hydrogen), matched]
+            rows, columns = (
+                np.r_[self.year_of, self.year_of, self.year_of[self.starts]],
+                np.r_[blocks.columns(blocks.load), blocks.columns(blocks.hydrogen), matched],
+            )
         else:
             entries = np.r_[charge[self.labels] - cap, self.cbar - charge]
             rows, columns = np.r_[self.year_of, self.year_of[self.starts]], np.r_[blocks.columns(blocks.load), matched]
@@ -338,18 +405,47 @@ class _Program:
         from scipy.optimize import Bounds, LinearConstraint, milp
 
         matrix = sparse.vstack([self.fixed, self.year_rows(charge, cap)]).tocsr()
-        constraints = LinearConstraint(matrix, np.r_[self.fixed_lower, np.full(self.years, -np.inf)], np.r_[self.fixed_upper, np.zeros(self.years)])
+        constraints = LinearConstraint(
+            matrix, np.r_[self.fixed_lower, np.full(self.years, -np.inf)], np.r_[self.fixed_upper, np.zeros(self.years)]
+        )
         n = len(self.labels)
         if self.binary and n > FULL_MIXED_INTEGER_UP_TO:
             layout = (self.blocks.load.start, self.blocks.on.start, n)
-            return _relax_and_fix(self.objective, constraints, self.integrality, self.lower, self.upper, layout, self.least_kwh, time_limit_s, mip_gap, interior_point_lp if self.curve else None)
+            return _relax_and_fix(
+                self.objective,
+                constraints,
+                self.integrality,
+                self.lower,
+                self.upper,
+                layout,
+                self.least_kwh,
+                time_limit_s,
+                mip_gap,
+                interior_point_lp if self.curve else None,
+            )
         if self.curve and not self.binary:
             return interior_point_lp(self.objective, constraints, self.lower, self.upper), ""
         limits = {"time_limit": time_limit_s, "mip_rel_gap": mip_gap} if self.binary else {}
-        return milp(self.objective, constraints=constraints, integrality=self.integrality, bounds=Bounds(self.lower, self.upper), options=limits), ""
+        return milp(
+            self.objective,
+            constraints=constraints,
+            integrality=self.integrality,
+            bounds=Bounds(self.lower, self.upper),
+            options=limits,
+        ), ""
 
 
-def _program(series: ElectricitySeries, model: ElectricityModel, rule, labels, eligible, rated: float, min_load: float, part_load, hydrogen_price) -> tuple[_Program, np.ndarray, np.ndarray]:
+def _program(
+    series: ElectricitySeries,
+    model: ElectricityModel,
+    rule,
+    labels,
+    eligible,
+    rated: float,
+    min_load: float,
+    part_load,
+    hydrogen_price,
+) -> tuple[_Program, np.ndarray, np.ndarray]:
     """The program of a plan, with the output segments (slopes, intercepts) it uses."""
     n = series.intervals
     supply = np.array([series.generation_kwh[s] for s in eligible]).reshape(len(eligible), n)
@@ -358,7 +454,9 @@ def _program(series: ElectricitySeries, model: ElectricityModel, rule, labels, e
     slopes, intercepts, curve = _output_segments(part_load, rated, min_load, model.kwh_per_kg_h2)
     binary = min_load > 0
     blocks = Blocks.of(n, len(starts), curve, binary)
-    fixed, fixed_lower, fixed_upper = _fixed_constraints(blocks, labels, len(starts), slopes, intercepts, curve, rated, min_load)
+    fixed, fixed_lower, fixed_upper = _fixed_constraints(
+        blocks, labels, len(starts), slopes, intercepts, curve, rated, min_load
+    )
     upper = np.zeros(blocks.size)
     upper[blocks.load], upper[blocks.hydrogen], upper[blocks.on], upper[blocks.matched] = rated, np.inf, 1.0, generation
     integrality = np.zeros(blocks.size)
@@ -366,8 +464,23 @@ def _program(series: ElectricitySeries, model: ElectricityModel, rule, labels, e
     years = series.local.astype("datetime64[Y]").astype(np.int64)
     year_values, year_of = np.unique(years, return_inverse=True)
     program = _Program(
-        blocks, fixed, fixed_lower, fixed_upper, _objective(blocks, series, hydrogen_price, slopes, curve), np.zeros(blocks.size), upper, integrality,
-        labels, starts, cbar, year_of, len(year_values), curve, binary, model.kwh_per_kg_h2, min_load * rated,
+        blocks,
+        fixed,
+        fixed_lower,
+        fixed_upper,
+        _objective(blocks, series, hydrogen_price, slopes, curve),
+        np.zeros(blocks.size),
+        upper,
+        integrality,
+        labels,
+        starts,
+        cbar,
+        year_of,
+        len(year_values),
+        curve,
+        binary,
+        model.kwh_per_kg_h2,
+        min_load * rated,
     )
     return program, slopes, intercepts
 
@@ -376,7 +489,9 @@ def _hydrogen_output(slopes, intercepts):
     """Hydrogen (kg) per interval at given loads: the curve (on from any load above zero), or load / design kWh/kg."""
 
     def output(load: np.ndarray) -> np.ndarray:
-        return np.clip(np.minimum.reduce([a * load + b * (load > 0) for a, b in zip(slopes, intercepts, strict=False)]), 0, None)
+        return np.clip(
+            np.minimum.reduce([a * load + b * (load > 0) for a, b in zip(slopes, intercepts, strict=False)]), 0, None
+        )
 
     return output
 
@@ -407,13 +522,21 @@ def plan_load(
     if slope <= 0:
         raise InputError("--scheme", scheme.id, "a scheme whose value depends on the project's electricity")
     cap_at_limit = model.declared_kg_per_kwh + (limit - value_declared) / slope
-    program, slopes, intercepts = _program(series, model, rule, labels, eligible, rated, min_load, part_load, hydrogen_price)
+    program, slopes, intercepts = _program(
+        series, model, rule, labels, eligible, rated, min_load, part_load, hydrogen_price
+    )
     output = _hydrogen_output(slopes, intercepts)
     scorer = _Scorer(series, model, eligible, rule, output, program.curve)
     load, passes, notes = _plan_passes(program, scorer, series, scheme.id, cap_at_limit, time_limit_s, mip_gap)
     if not load.sum() > 0:
-        reason = "no interval runs at a positive margin under the limit" if hydrogen_price is not None else "the limit is out of reach at any load"
-        raise InputError("plan", scheme.id, f"a plan that makes hydrogen and qualifies; the best plan runs no interval ({reason})")
+        reason = (
+            "no interval runs at a positive margin under the limit"
+            if hydrogen_price is not None
+            else "the limit is out of reach at any load"
+        )
+        raise InputError(
+            "plan", scheme.id, f"a plan that makes hydrogen and qualifies; the best plan runs no interval ({reason})"
+        )
     hydrogen = output(load)
 
     def scheme_value(loads):
@@ -431,8 +554,26 @@ def plan_load(
     qualifies = value <= limit + 1e-9 * max(1.0, abs(limit)) if inclusive else value < limit
     name = granularity or (rule if isinstance(rule, str) else "dated rule")
     return PlanResult(
-        scheme.id, "", limit, scheme.unit, name, rated, load, hydrogen, float(value), float(share), base_h2, float(base_value), float(base_share),
-        bool(qualifies), margin, base_margin, passes, notes, series.interval_minutes, model.kwh_per_kg_h2,
+        scheme.id,
+        "",
+        limit,
+        scheme.unit,
+        name,
+        rated,
+        load,
+        hydrogen,
+        float(value),
+        float(share),
+        base_h2,
+        float(base_value),
+        float(base_share),
+        bool(qualifies),
+        margin,
+        base_margin,
+        passes,
+        notes,
+        series.interval_minutes,
+        model.kwh_per_kg_h2,
     )
 
 
@@ -453,29 +594,57 @@ class _Scorer:
         return float(load.sum()) / made / self.model.kwh_per_kg_h2 if self.curve and made > 0 else 1.0
 
     def intensity(self, load: np.ndarray, mask: np.ndarray | slice = slice(None)) -> tuple[float, float]:
-        """Counted intensity of the plan's electricity over ``mask`` (kg CO2e/kWh, scaled by e / e_d) and the matched share."""
+        """Counted intensity of the plan's electricity over ``mask`` (kg CO2e/kWh, scaled by e / e_d) and the matched
+        share."""
         scored = match(load, self.series.generation_kwh, self.eligible, self.rule, self.series.utc, self.series.local)
         counted = counted_intensity(scored, load, self.model, self.series.grid_g_co2e_per_kwh, mask)[3]
         return counted * self.scale(load[mask], self.output(load)[mask]), scored.matched_share
 
 
-def _plan_passes(program: _Program, scorer: _Scorer, series: ElectricitySeries, scheme_id: str, cap_at_limit: float, time_limit_s: float, mip_gap: float):
+def _plan_passes(
+    program: _Program,
+    scorer: _Scorer,
+    series: ElectricitySeries,
+    scheme_id: str,
+    cap_at_limit: float,
+    time_limit_s: float,
+    mip_gap: float,
+):
     """Solve, score back each year through the matching, and repeat with the plan's own period grid
     intensities (and, from the third pass, a tighter cap) until every year meets the cap. Returns
     (load, passes, notes)."""
     n = series.intervals
-    grid = series.grid_g_co2e_per_kwh / 1000.0 if series.grid_g_co2e_per_kwh is not None else np.full(n, scorer.model.grid_kg_per_kwh)
+    grid = (
+        series.grid_g_co2e_per_kwh / 1000.0
+        if series.grid_g_co2e_per_kwh is not None
+        else np.full(n, scorer.model.grid_kg_per_kwh)
+    )
     starts = program.starts
-    cap = cap_at_limit - 1e-6 * max(abs(cap_at_limit), 0.1)  # a hair inside the limit: HiGHS meets constraints to about 1e-7
+    cap = cap_at_limit - 1e-6 * max(
+        abs(cap_at_limit), 0.1
+    )  # a hair inside the limit: HiGHS meets constraints to about 1e-7
     period_grid = np.add.reduceat(grid, starts) / np.diff(np.r_[starts, n])  # first guess: plain mean per period
     single = np.diff(np.r_[starts, n]) == 1
     tightening, notes, gap_note, load, passes = 0.0, [], "", None, 0
     for passes in range(1, 9):
-        solved, gap_note = program.solve(np.where(single, grid[starts], period_grid), cap - tightening, time_limit_s, mip_gap)
+        solved, gap_note = program.solve(
+            np.where(single, grid[starts], period_grid), cap - tightening, time_limit_s, mip_gap
+        )
         if solved.x is None:
-            raise InputError("plan", scheme_id, f"a feasible plan ({solved.message}); the limit may be out of reach even at minimum stable load")
+            raise InputError(
+                "plan",
+                scheme_id,
+                f"a feasible plan ({solved.message}); the limit may be out of reach even at minimum stable load",
+            )
         load = np.clip(solved.x[program.blocks.load], 0, program.upper[program.blocks.load])
-        worst = max((scorer.intensity(load, program.year_of == year)[0] - cap for year in range(program.years) if load[program.year_of == year].sum() > 0), default=-np.inf)
+        worst = max(
+            (
+                scorer.intensity(load, program.year_of == year)[0] - cap
+                for year in range(program.years)
+                if load[program.year_of == year].sum() > 0
+            ),
+            default=-np.inf,
+        )
         if worst + cap <= cap_at_limit:
             break
         with np.errstate(invalid="ignore", divide="ignore"):
@@ -511,7 +680,9 @@ def plan_project(
     temporal rule, or None for its dated rule); its schemes are replaced by ``scheme``.
     ``rated_kw`` None: the largest load in the series. Used by ``api.plan`` and by qualify's operation lever."""
     matching = assessment.matching
-    prepared = assessment.but(schemes=(scheme,)).prepare(project, source=source, project_sha256=project_sha256, matched_periods=series_matched_periods(series))
+    prepared = assessment.but(schemes=(scheme,)).prepare(
+        project, source=source, project_sha256=project_sha256, matched_periods=series_matched_periods(series)
+    )
     solutions = solve_with_bw2calc(prepared)
     check = assemble(prepared, solutions).checks[0]
     rulebook = prepared.chosen[0]
@@ -524,9 +695,17 @@ def plan_project(
     if matching not in (None, "rule") and matching not in ("interval", "hour", "month", "quarter", "year"):
         raise InputError("--matching", matching, "one of rule, interval, hour, month, quarter, year")
     result = plan_load(
-        series, model, rulebook,
-        value_declared=check.value, limit=threshold.limit, inclusive=threshold.inclusive, rated_kw=rated_kw, min_load=min_load,
-        part_load=part_load, hydrogen_price=hydrogen_price, granularity=None if matching in (None, "rule") else matching,
+        series,
+        model,
+        rulebook,
+        value_declared=check.value,
+        limit=threshold.limit,
+        inclusive=threshold.inclusive,
+        rated_kw=rated_kw,
+        min_load=min_load,
+        part_load=part_load,
+        hydrogen_price=hydrogen_price,
+        granularity=None if matching in (None, "rule") else matching,
     )
     result.tier = threshold.tier
     verdict = judged(rulebook, result.value, scheme_reading(prepared, rulebook).findings)
@@ -559,7 +738,9 @@ def choose_threshold(scheme, tier: str | None):
     named = by_limit or [t for t in scheme.thresholds if tier.lower() in t.tier.lower()]
     if len(named) == 1:
         return named[0]
-    raise InputError("--tier", tier, "one of " + "; ".join(f"'{t.tier}' (limit {t.limit:g})" for t in scheme.thresholds))
+    raise InputError(
+        "--tier", tier, "one of " + "; ".join(f"'{t.tier}' (limit {t.limit:g})" for t in scheme.thresholds)
+    )
 
 
 def parse_part_load(text: str | None) -> list[tuple[float, float]] | None:
@@ -571,7 +752,9 @@ def parse_part_load(text: str | None) -> list[tuple[float, float]] | None:
         try:
             fraction, kwh = (float(part) for part in item.split(":"))
         except ValueError:
-            raise InputError("--part-load", text, "points FRACTION:KWH_PER_KG separated by commas, e.g. 0.2:58,0.5:52,1:54") from None
+            raise InputError(
+                "--part-load", text, "points FRACTION:KWH_PER_KG separated by commas, e.g. 0.2:58,0.5:52,1:54"
+            ) from None
         points.append((fraction, kwh))
     return points
 
@@ -583,7 +766,10 @@ def plan_csv(series: ElectricitySeries, plan: PlanResult) -> str:
     import pandas as pd
 
     local = series.local
-    stamps = [f"{str(t)[:16]}{'+' if o >= 0 else '-'}{abs(int(o)) // 60:02d}:{abs(int(o)) % 60:02d}" for t, o in zip(local, series.offset_minutes, strict=False)]
+    stamps = [
+        f"{str(t)[:16]}{'+' if o >= 0 else '-'}{abs(int(o)) // 60:02d}:{abs(int(o)) % 60:02d}"
+        for t, o in zip(local, series.offset_minutes, strict=False)
+    ]
     columns = {"timestamp": stamps, "electrolyser [kWh]": plan.load_kwh.round(6)}
     for name, values in series.generation_kwh.items():
         columns[f"generation.{name} [kWh]"] = values
@@ -592,7 +778,10 @@ def plan_csv(series: ElectricitySeries, plan: PlanResult) -> str:
     if series.price_per_mwh is not None:
         columns[f"price [{series.price_unit.split('/')[0].strip()}/MWh]"] = series.price_per_mwh
     buffer = io.StringIO()
-    buffer.write(f"# operating plan for {plan.scheme} (limit {plan.limit:g} {plan.unit}, matching {plan.granularity}); hydrogen {plan.hydrogen_kg.sum():.1f} kg at {plan.kwh_per_kg_h2:.6g} kWh/kg\n")
+    buffer.write(
+        f"# operating plan for {plan.scheme} (limit {plan.limit:g} {plan.unit}, matching {plan.granularity}); hydrogen "
+        f"{plan.hydrogen_kg.sum():.1f} kg at {plan.kwh_per_kg_h2:.6g} kWh/kg\n"
+    )
     if plan.score_back:
         buffer.write(f"# score it back at the part-load curve's kWh/kg: --set {' --set '.join(plan.score_back)}\n")
     pd.DataFrame(columns).to_csv(buffer, index=False, lineterminator="\n")

@@ -138,7 +138,9 @@ def _where(lever_index: int, name: str) -> str:
     return f"levers.{lever_index}.{name}"
 
 
-def _breakpoints(resolved_lever: Lever, nominal: float, low: float, high: float, source: str, index: int) -> tuple[np.ndarray, np.ndarray]:
+def _breakpoints(
+    resolved_lever: Lever, nominal: float, low: float, high: float, source: str, index: int
+) -> tuple[np.ndarray, np.ndarray]:
     """The cost of a continuous lever as points (value, cost), linear between them, over [low, high]."""
     cost = resolved_lever.cost
     if cost.per_unit is not None:
@@ -147,7 +149,11 @@ def _breakpoints(resolved_lever: Lever, nominal: float, low: float, high: float,
     pairs = []
     for number, (value, price) in enumerate(cost.table or []):
         if isinstance(value, bool) or not isinstance(value, (int, float)):
-            raise InputError(source, _where(index, f"cost.table.{number}"), f"a number as the value of a continuous lever, got {value!r}")
+            raise InputError(
+                source,
+                _where(index, f"cost.table.{number}"),
+                f"a number as the value of a continuous lever, got {value!r}",
+            )
         pairs.append((float(value), float(price)))
     pairs.sort()
     xs = np.array([x for x, _ in pairs])
@@ -155,7 +161,11 @@ def _breakpoints(resolved_lever: Lever, nominal: float, low: float, high: float,
     if len(set(xs)) != len(xs):
         raise InputError(source, _where(index, "cost.table"), "each value once")
     if xs[0] > low or xs[-1] < high:
-        raise InputError(source, _where(index, "cost.table"), f"values that cover the lever's range [{low:g}, {high:g}], got [{xs[0]:g}, {xs[-1]:g}]")
+        raise InputError(
+            source,
+            _where(index, "cost.table"),
+            f"values that cover the lever's range [{low:g}, {high:g}], got [{xs[0]:g}, {xs[-1]:g}]",
+        )
     inside = xs[(xs > low) & (xs < high)]
     points = np.concatenate([[low], inside, [high]])
     return points, np.interp(points, xs, cs)
@@ -182,7 +192,10 @@ def _within(value: float, limits: tuple) -> bool:
 
 def _limits_text(limits: tuple) -> str:
     lower, lower_in, upper, upper_in = limits
-    return f"{'[' if lower_in else '('}{'-inf' if lower is None else f'{lower:g}'}, {'inf' if upper is None else f'{upper:g}'}{']' if upper_in else ')'}"
+    return (
+        f"{'[' if lower_in else '('}{'-inf' if lower is None else f'{lower:g}'}, "
+        f"{'inf' if upper is None else f'{upper:g}'}{']' if upper_in else ')'}"
+    )
 
 
 def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
@@ -198,22 +211,44 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
         item = Resolved(index, lever, nominal, unit)
         if lever.continuous:
             if not numeric:
-                raise InputError(source, _where(index, "range"), f"values for a numeric parameter; '{lever.parameter}' is {nominal!r} (give it values)")
+                raise InputError(
+                    source,
+                    _where(index, "range"),
+                    f"values for a numeric parameter; '{lever.parameter}' is {nominal!r} (give it values)",
+                )
             low, high = lever.range
             if not (_within(low, limits) and _within(high, limits)):
-                raise InputError(source, _where(index, "range"), f"a range within the parameter's physical limits {_limits_text(limits)}, got [{low:g}, {high:g}]")
+                raise InputError(
+                    source,
+                    _where(index, "range"),
+                    f"a range within the parameter's physical limits {_limits_text(limits)}, got [{low:g}, {high:g}]",
+                )
             if lever.cost.per_step is not None:
-                raise InputError(source, _where(index, "cost.per_step"), "a lever with a step (a continuous lever is priced per_unit or by a table)")
+                raise InputError(
+                    source,
+                    _where(index, "cost.per_step"),
+                    "a lever with a step (a continuous lever is priced per_unit or by a table)",
+                )
             item.pieces = convex_pieces(*_breakpoints(lever, float(nominal), low, high, source, index))
         else:
             choices = lever.choices()
             for value in choices:
                 if numeric != (isinstance(value, (int, float)) and not isinstance(value, bool)):
-                    raise InputError(source, _where(index, "values"), f"values of the parameter's kind ({'numbers' if numeric else 'text'}), got {value!r}")
+                    raise InputError(
+                        source,
+                        _where(index, "values"),
+                        f"values of the parameter's kind ({'numbers' if numeric else 'text'}), got {value!r}",
+                    )
                 if numeric and not _within(float(value), limits):
-                    raise InputError(source, _where(index, "values"), f"values within the parameter's physical limits {_limits_text(limits)}, got {value!r}")
+                    raise InputError(
+                        source,
+                        _where(index, "values"),
+                        f"values within the parameter's physical limits {_limits_text(limits)}, got {value!r}",
+                    )
             item.choices = [float(v) if numeric else v for v in choices]
-            item.choice_costs = [_discrete_cost(lever, value, nominal, numeric, source, index) for value in item.choices]
+            item.choice_costs = [
+                _discrete_cost(lever, value, nominal, numeric, source, index) for value in item.choices
+            ]
         resolved.append(item)
     _check_shares(project, resolved, source)
     return resolved
@@ -240,23 +275,43 @@ def _check_shares(project, resolved: list[Resolved], source: str) -> None:
     problem = rebalancing_problem(shares, [source_of(item.path) for item in moving], absorbers)
     if problem:
         named = next((item for item in moving if item.lever.absorbed_by), moving[0])
-        raise InputError(source, _where(named.index, "absorbed_by" if named.lever.absorbed_by else "parameter"), problem)
+        raise InputError(
+            source, _where(named.index, "absorbed_by" if named.lever.absorbed_by else "parameter"), problem
+        )
     lowest = {source_of(item.path): min(item.lever.range) if item.continuous else min(item.choices) for item in moving}
-    below = [name for name, negative in negative_shares(rebalanced_shares(shares, lowest, absorbers)).items() if negative]
+    below = [
+        name for name, negative in negative_shares(rebalanced_shares(shares, lowest, absorbers)).items() if negative
+    ]
     if below:
-        raise InputError(source, "levers", f"electricity share levers whose shares can be rebalanced: at their lowest values ({', '.join(f'{name} {value:g}' for name, value in lowest.items())}) {', '.join(below)} would fall below 0")
+        raise InputError(
+            source,
+            "levers",
+            "electricity share levers whose shares can be rebalanced: at their lowest values "
+            f"({', '.join(f'{name} {value:g}' for name, value in lowest.items())}) {', '.join(below)} would fall "
+            "below 0",
+        )
 
 
 def _discrete_cost(lever: Lever, value, nominal, numeric: bool, source: str, index: int) -> float:
     cost = lever.cost
     if cost.table is not None:
         for table_value, price in cost.table:
-            same = math.isclose(float(table_value), value, rel_tol=1e-12, abs_tol=1e-15) if numeric and not isinstance(table_value, (str, bool)) else table_value == value
+            same = (
+                math.isclose(float(table_value), value, rel_tol=1e-12, abs_tol=1e-15)
+                if numeric and not isinstance(table_value, (str, bool))
+                else table_value == value
+            )
             if same:
                 return float(price)
-        raise InputError(source, _where(index, "cost.table"), f"a cost for every value of the lever, none for {value!r}")
+        raise InputError(
+            source, _where(index, "cost.table"), f"a cost for every value of the lever, none for {value!r}"
+        )
     if not numeric:
-        raise InputError(source, _where(index, "cost"), "a cost table for a lever of text values (per_unit and per_step need numbers)")
+        raise InputError(
+            source,
+            _where(index, "cost"),
+            "a cost table for a lever of text values (per_unit and per_step need numbers)",
+        )
     change = abs(value - float(nominal))
     if cost.per_unit is not None:
         return cost.per_unit * change
@@ -275,7 +330,10 @@ class Combination:
     discrete_cost: float
 
     def lower_bound(self) -> float:
-        return self.discrete_cost + sum(min(piece.cost(piece.low), piece.cost(piece.high), *(piece.cost(x) for x in _kinks(piece))) for piece in self.pieces)
+        return self.discrete_cost + sum(
+            min(piece.cost(piece.low), piece.cost(piece.high), *(piece.cost(x) for x in _kinks(piece)))
+            for piece in self.pieces
+        )
 
 
 def _kinks(piece: Piece) -> list[float]:
@@ -303,11 +361,23 @@ class Evaluator:
     ``fixed``: the numeric discrete lever values of the combination.
     """
 
-    def __init__(self, plan: Plan, schemes: list, paths: list[str], nominal: dict[str, float], drawn: Draws | None, confidence: float | None, reference=None, fixed=None):
+    def __init__(
+        self,
+        plan: Plan,
+        schemes: list,
+        paths: list[str],
+        nominal: dict[str, float],
+        drawn: Draws | None,
+        confidence: float | None,
+        reference=None,
+        fixed=None,
+    ):
         self.plan, self.schemes, self.paths, self.nominal = plan, schemes, paths, nominal
         self.drawn, self.confidence = drawn, confidence
         self.reference, self.fixed = reference or {}, fixed or {}
-        self.shares = {path: value for path, value in self.fixed.items() if is_share_path(path)}  # set with the continuous levers, rebalanced together
+        self.shares = {
+            path: value for path, value in self.fixed.items() if is_share_path(path)
+        }  # set with the continuous levers, rebalanced together
         self.size = 1 if drawn is None else len(drawn.uniform)
         self.calls = 0
         self.blocked = self._blocked()
@@ -318,7 +388,11 @@ class Evaluator:
 
     def _blocked(self) -> dict[str, str]:
         """Schemes whose rules (read before the threshold) keep them from qualifying at any value: id -> status."""
-        outcome = evaluate(self.plan, self._draws(np.array([[self.nominal[p] for p in self.paths]]).reshape(1, len(self.paths)), central=True), 1)
+        outcome = evaluate(
+            self.plan,
+            self._draws(np.array([[self.nominal[p] for p in self.paths]]).reshape(1, len(self.paths)), central=True),
+            1,
+        )
         found = {}
         for scheme in self.schemes:
             at_any_value = statuses(scheme, np.array([-1e300]), outcome.scheme_findings.get(scheme.id))
@@ -327,11 +401,18 @@ class Evaluator:
         return found
 
     def _draws(self, points: np.ndarray, central: bool = False, rows: np.ndarray | None = None) -> Draws:
-        """The inputs of every candidate point: the lever values, and (with draws) every draw, or the draws in ``rows``."""
+        """The inputs of every candidate point: the lever values, and (with draws) every draw, or the draws in
+        ``rows``."""
         count = len(points)
         if central or self.drawn is None:
             fixed_shares = {path: np.full(count, value) for path, value in self.shares.items()}
-            return Draws([], np.zeros((count, 0)), {**fixed_shares, **{path: points[:, n].astype(float) for n, path in enumerate(self.paths)}}, {}, {})
+            return Draws(
+                [],
+                np.zeros((count, 0)),
+                {**fixed_shares, **{path: points[:, n].astype(float) for n, path in enumerate(self.paths)}},
+                {},
+                {},
+            )
         pick = slice(None) if rows is None else rows
         size = self.size if rows is None else len(rows)
         drawn = self.drawn
@@ -344,7 +425,9 @@ class Evaluator:
         for n, path in enumerate(self.paths):
             chosen = np.repeat(points[:, n].astype(float), size)
             parameters[path] = moved(parameters[path], chosen, self.reference[path]) if path in parameters else chosen
-        choices = {path: (nominal, np.tile(chosen[pick], count)) for path, (nominal, chosen) in drawn.factor_choices.items()}
+        choices = {
+            path: (nominal, np.tile(chosen[pick], count)) for path, (nominal, chosen) in drawn.factor_choices.items()
+        }
         factors = {factor_id: np.tile(values[pick], count) for factor_id, values in drawn.factors.items()}
         return Draws(drawn.names, np.zeros((count * size, 0)), parameters, choices, factors)
 
@@ -369,7 +452,9 @@ class Evaluator:
             for scheme in self.schemes:
                 values = np.asarray(outcome.scheme_values[scheme.id], dtype=float)
                 limit = scheme.loosest().limit
-                rel.append(np.nan_to_num((limit - values) / abs(limit), nan=BLOCKED))  # a value that is not a number never qualifies
+                rel.append(
+                    np.nan_to_num((limit - values) / abs(limit), nan=BLOCKED)
+                )  # a value that is not a number never qualifies
                 ok.append(statuses(scheme, values, outcome.scheme_findings.get(scheme.id))["qualifies"] & ~broken)
             shape = (len(block), size, len(self.schemes))
             margins.append(np.stack(rel, axis=-1).reshape(shape))
@@ -408,7 +493,9 @@ class Evaluator:
             out[n, 0] = worst[n][rows].mean()
         return out, deciding
 
-    def constraint_gradient(self, point: np.ndarray, steps: np.ndarray, known: tuple | None = None) -> tuple[np.ndarray, np.ndarray]:
+    def constraint_gradient(
+        self, point: np.ndarray, steps: np.ndarray, known: tuple | None = None
+    ) -> tuple[np.ndarray, np.ndarray]:
         """The constraint at ``point`` and its forward differences along each lever (``steps`` in lever units).
 
         With draws, the ranked margins move with the draws that hold them for a small enough step,
@@ -464,7 +551,13 @@ class Found:
 class Continuous:
     """The continuous part of one combination: levers scaled to [0, 1], costs as epigraphs."""
 
-    def __init__(self, evaluator: Evaluator, levers: list[Resolved], pieces: list[Piece], shares: tuple[np.ndarray, np.ndarray] | None = None):
+    def __init__(
+        self,
+        evaluator: Evaluator,
+        levers: list[Resolved],
+        pieces: list[Piece],
+        shares: tuple[np.ndarray, np.ndarray] | None = None,
+    ):
         self.evaluator, self.levers, self.pieces = evaluator, levers, pieces
         self.low = np.array([piece.low for piece in pieces])
         self.width = np.array([piece.high - piece.low for piece in pieces])
@@ -528,20 +621,37 @@ class Continuous:
         matrix, offset = self._epigraph()
         n = self.n
         t0 = np.array([piece.cost(value) for piece, value in zip(self.pieces, self.x(start), strict=True)]) / self.scale
-        span = [(min(piece.cost(piece.low), piece.cost(piece.high), *(piece.cost(x) for x in _kinks(piece))) / self.scale - 1.0, max(piece.cost(piece.low), piece.cost(piece.high)) / self.scale + 1.0) for piece in self.pieces]
+        span = [
+            (
+                min(piece.cost(piece.low), piece.cost(piece.high), *(piece.cost(x) for x in _kinks(piece))) / self.scale
+                - 1.0,
+                max(piece.cost(piece.low), piece.cost(piece.high)) / self.scale + 1.0,
+            )
+            for piece in self.pieces
+        ]
         constraints = [
             {"type": "ineq", "fun": lambda v: matrix @ v + offset, "jac": lambda v: matrix},
-            {"type": "ineq", "fun": lambda v: self.g(v[:n]) - margin, "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n))])},
+            {
+                "type": "ineq",
+                "fun": lambda v: self.g(v[:n]) - margin,
+                "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n))]),
+            },
             *self.share_constraints(2 * n),
         ]
         result = minimize(
-            lambda v: float(v[n:].sum()), np.concatenate([start, t0]), jac=lambda v: np.concatenate([np.zeros(n), np.ones(n)]),
-            method="SLSQP", bounds=[(0.0, 1.0)] * n + span, constraints=constraints, options={"ftol": SOLVER_TOLERANCE, "maxiter": 200},
+            lambda v: float(v[n:].sum()),
+            np.concatenate([start, t0]),
+            jac=lambda v: np.concatenate([np.zeros(n), np.ones(n)]),
+            method="SLSQP",
+            bounds=[(0.0, 1.0)] * n + span,
+            constraints=constraints,
+            options={"ftol": SOLVER_TOLERANCE, "maxiter": 200},
         )
         return np.clip(result.x[:n], 0.0, 1.0), result
 
     def best_margin(self, start: np.ndarray, budget: float | None = None, iterations: int = 200):
-        """Maximise the smallest margin (within ``budget`` of continuous cost when given); returns (z, margin, result)."""
+        """Maximise the smallest margin (within ``budget`` of continuous cost when given); returns (z, margin,
+        result)."""
         from scipy.optimize import minimize
 
         matrix, offset = self._epigraph()
@@ -549,20 +659,37 @@ class Continuous:
         t0 = np.array([piece.cost(value) for piece, value in zip(self.pieces, self.x(start), strict=True)]) / self.scale
         m0 = float(np.min(self.g(start)))
         constraints = [
-            {"type": "ineq", "fun": lambda v: matrix @ v[: 2 * n] + offset, "jac": lambda v: np.hstack([matrix, np.zeros((len(matrix), 1))])},
+            {
+                "type": "ineq",
+                "fun": lambda v: matrix @ v[: 2 * n] + offset,
+                "jac": lambda v: np.hstack([matrix, np.zeros((len(matrix), 1))]),
+            },
             {
                 "type": "ineq",
                 "fun": lambda v: self.g(v[:n]) - v[-1],
-                "jac": lambda v: np.hstack([self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n)), -np.ones((len(self.g(v[:n])), 1))]),
+                "jac": lambda v: np.hstack(
+                    [self.g_jacobian(v[:n])[1], np.zeros((len(self.g(v[:n])), n)), -np.ones((len(self.g(v[:n])), 1))]
+                ),
             },
         ]
         constraints += self.share_constraints(2 * n + 1)
         if budget is not None:
-            constraints.append({"type": "ineq", "fun": lambda v: budget / self.scale - v[n : 2 * n].sum(), "jac": lambda v: np.concatenate([np.zeros(n), -np.ones(n), [0.0]])})
+            constraints.append(
+                {
+                    "type": "ineq",
+                    "fun": lambda v: budget / self.scale - v[n : 2 * n].sum(),
+                    "jac": lambda v: np.concatenate([np.zeros(n), -np.ones(n), [0.0]]),
+                }
+            )
         span = [(-1e6, 1e6)] * n
         result = minimize(
-            lambda v: -v[-1], np.concatenate([start, t0, [m0]]), jac=lambda v: np.concatenate([np.zeros(2 * n), [-1.0]]),
-            method="SLSQP", bounds=[(0.0, 1.0)] * n + span + [(-10.0, 10.0)], constraints=constraints, options={"ftol": SOLVER_TOLERANCE, "maxiter": iterations},
+            lambda v: -v[-1],
+            np.concatenate([start, t0, [m0]]),
+            jac=lambda v: np.concatenate([np.zeros(2 * n), [-1.0]]),
+            method="SLSQP",
+            bounds=[(0.0, 1.0)] * n + span + [(-10.0, 10.0)],
+            constraints=constraints,
+            options={"ftol": SOLVER_TOLERANCE, "maxiter": iterations},
         )
         z = np.clip(result.x[:n], 0.0, 1.0)
         if budget is not None and self.cost(z) > budget + 1e-9 * self.scale:
@@ -622,9 +749,16 @@ class Search:
 
     def combinations(self) -> list[Combination]:
         discrete, continuous = self.discrete, self.continuous
-        count = math.prod(len(lever.choices) for lever in discrete) * math.prod(len(lever.pieces) for lever in continuous)
+        count = math.prod(len(lever.choices) for lever in discrete) * math.prod(
+            len(lever.pieces) for lever in continuous
+        )
         if count > MAX_COMBINATIONS:
-            raise InputError(self.levers_source, "levers", f"at most {MAX_COMBINATIONS} combinations of discrete values (and pieces of non-convex costs), got {count}")
+            raise InputError(
+                self.levers_source,
+                "levers",
+                f"at most {MAX_COMBINATIONS} combinations of discrete values (and pieces of non-convex costs), got "
+                f"{count}",
+            )
         found = []
         for values in itertools.product(*(range(len(lever.choices)) for lever in discrete)):
             chosen = {lever.path: lever.choices[n] for lever, n in zip(discrete, values, strict=True)}
@@ -636,7 +770,11 @@ class Search:
     def lever_plan(self, project) -> Plan:
         """A plan of the project for the continuous levers and the share levers (their fields), holding the
         year, series, schemes and the sources that take up the shares' differences."""
-        fields = {lever.path: parameter_field(project, lever.path, self.source) for lever in self.levers if lever.continuous or is_share_path(lever.path)}
+        fields = {
+            lever.path: parameter_field(project, lever.path, self.source)
+            for lever in self.levers
+            if lever.continuous or is_share_path(lever.path)
+        }
         plan = Plan(project, self.assessment, Uncertainty(), self.source, fields, series=self.series)
         plan.absorbers = absorbers_of(self.levers)
         return plan
@@ -646,12 +784,18 @@ class Search:
         base = self.project
         plan = self.lever_plan(base)
         plan.fields = {path: parameter_field(base, path, self.source) for path in values}
-        params = params_with_draws(plan, {path: (np.float64(value) if isinstance(value, float) else value) for path, value in values.items()})
+        params = params_with_draws(
+            plan, {path: (np.float64(value) if isinstance(value, float) else value) for path, value in values.items()}
+        )
         try:
             return validate_project(_plain(params), self.source)
         except InputError as error:
             where = ", ".join(f"{path}={value!r}" for path, value in values.items())
-            raise InputError(self.levers_source, "levers", f"lever values the project accepts ({where}): {error.field}: {error.expected}") from None
+            raise InputError(
+                self.levers_source,
+                "levers",
+                f"lever values the project accepts ({where}): {error.field}: {error.expected}",
+            ) from None
 
     def evaluator(self, combination: Combination) -> Evaluator:
         """The evaluator of a combination's discrete values (kept: its checks of the rules run once)."""
@@ -671,14 +815,29 @@ class Search:
             drawn, uncertain = self.draws_of_project()
             plan.fields.update({path: parameter_field(project, path, self.source) for path in uncertain})
         nominal = {lever.path: float(parameter_field(project, lever.path, self.source)[0]) for lever in self.continuous}
-        reference = {lever.path: float(lever.project_value) for lever in self.levers if isinstance(lever.project_value, (int, float)) and not isinstance(lever.project_value, bool)}
+        reference = {
+            lever.path: float(lever.project_value)
+            for lever in self.levers
+            if isinstance(lever.project_value, (int, float)) and not isinstance(lever.project_value, bool)
+        }
         fixed = {path: float(value) for path, value in combination.discrete.items() if path in reference}
-        return Evaluator(plan, self.schemes, [lever.path for lever in self.continuous], nominal, drawn, self.confidence, reference, fixed)
+        return Evaluator(
+            plan,
+            self.schemes,
+            [lever.path for lever in self.continuous],
+            nominal,
+            drawn,
+            self.confidence,
+            reference,
+            fixed,
+        )
 
     def draws_of_project(self) -> tuple[Draws, list[str]]:
         """The Monte Carlo draws of the project as written (its distributions, the seed), drawn once."""
         if self.drawn is None:
-            plan = make_plan(self.project, self.assessment, self.uncertainty or Uncertainty(), source=self.source, series=self.series)
+            plan = make_plan(
+                self.project, self.assessment, self.uncertainty or Uncertainty(), source=self.source, series=self.series
+            )
             self.drawn = (draw(plan, self.draws, self.seed, self.sampling), list(plan.uncertainty.parameters))
         return self.drawn
 
@@ -698,7 +857,10 @@ class Search:
 
         offset = at(np.zeros(len(paths)))
         matrix = np.column_stack([at(row) - offset for row in np.eye(len(paths))])
-        low, high = np.array([piece.low for piece in combination.pieces]), np.array([piece.high for piece in combination.pieces])
+        low, high = (
+            np.array([piece.low for piece in combination.pieces]),
+            np.array([piece.high for piece in combination.pieces]),
+        )
         if (offset + np.minimum(matrix * low, matrix * high).sum(axis=1) >= 0).all():
             return None  # no share can fall below 0 anywhere in the ranges: no constraint needed
         return matrix, offset
@@ -748,7 +910,10 @@ class Search:
         ok, p, se = evaluator.qualifies(problem.x(z))
         if not ok:
             return None
-        values = {**combination.discrete, **{lever.path: float(v) for lever, v in zip(self.continuous, problem.x(z), strict=True)}}
+        values = {
+            **combination.discrete,
+            **{lever.path: float(v) for lever, v in zip(self.continuous, problem.x(z), strict=True)},
+        }
         margin = float(np.min(problem.g(z)))
         return Found(values, combination.discrete_cost + problem.cost(z), True, margin, p, se, iterations)
 
@@ -765,8 +930,12 @@ class Search:
             return Found(dict(combination.discrete), combination.discrete_cost, ok, margin, p, se)
         problem = Continuous(evaluator, self.continuous, combination.pieces, self.share_rows(combination))
         start = self.start(problem)
-        if budget is not None:  # start from the cheapest point of each piece, which any budget that admits the piece affords
-            start = problem.z_of([min((piece.low, piece.high, *_kinks(piece)), key=piece.cost) for piece in combination.pieces])
+        if (
+            budget is not None
+        ):  # start from the cheapest point of each piece, which any budget that admits the piece affords
+            start = problem.z_of(
+                [min((piece.low, piece.high, *_kinks(piece)), key=piece.cost) for piece in combination.pieces]
+            )
             if combination.discrete_cost + problem.cost(start) > budget + 1e-9 * max(1.0, abs(budget)):
                 return None
         allowed = None if budget is None else budget - combination.discrete_cost
@@ -779,7 +948,10 @@ class Search:
         z, margin, result = problem.best_margin(start, allowed, iterations)
         self.iterations += int(result.nit)
         ok, p, se = evaluator.qualifies(problem.x(z))
-        values = {**combination.discrete, **{lever.path: float(v) for lever, v in zip(self.continuous, problem.x(z), strict=True)}}
+        values = {
+            **combination.discrete,
+            **{lever.path: float(v) for lever, v in zip(self.continuous, problem.x(z), strict=True)},
+        }
         found = Found(values, combination.discrete_cost + problem.cost(z), ok, margin, p, se)
         found.note = self.binding(problem, z)
         return found
@@ -792,7 +964,8 @@ class Search:
         return self.largest[key]
 
     def binding(self, problem: Continuous, z: np.ndarray) -> str:
-        """The continuous lever at a bound of its range whose widening raises the margin most (per unit of its range)."""
+        """The continuous lever at a bound of its range whose widening raises the margin most (per unit of its
+        range)."""
         values, jacobian = problem.g_jacobian(z)
         gain = jacobian[int(np.argmin(values))]
         best, lever_found = 0.0, ""
@@ -910,13 +1083,25 @@ class QualifyResult(BaseModel):
 
     def summary_for_ledger(self) -> dict:
         """The compact figures the run ledger keeps of a qualify search."""
-        what = f"at {self.confidence:.0%} confidence over {self.draws:,} draws" if self.confidence is not None else "at the central value"
+        what = (
+            f"at {self.confidence:.0%} confidence over {self.draws:,} draws"
+            if self.confidence is not None
+            else "at the central value"
+        )
         if self.status == "qualifies":
-            changed = "; ".join(f"{c.parameter} = {c.value}" for c in self.changes if c.value != c.project_value) or "no change"
-            headline = f"qualify for {', '.join(self.schemes)} {what}: {self.total_cost:,.6g} {self.cost_unit} ({changed})"
+            changed = (
+                "; ".join(f"{c.parameter} = {c.value}" for c in self.changes if c.value != c.project_value)
+                or "no change"
+            )
+            headline = (
+                f"qualify for {', '.join(self.schemes)} {what}: {self.total_cost:,.6g} {self.cost_unit} ({changed})"
+            )
         else:
             reached = f"best margin {self.best_margin:.4g}" if self.best_margin is not None else "no margin reached"
-            headline = f"qualify for {', '.join(self.schemes)} {what}: no solution within the levers' ranges ({reached}, binding {self.binding_lever or 'none'})"
+            headline = (
+                f"qualify for {', '.join(self.schemes)} {what}: no solution within the levers' ranges ({reached}, "
+                f"binding {self.binding_lever or 'none'})"
+            )
         return {
             "analysis": "qualify",
             "headline": headline,
@@ -949,7 +1134,11 @@ def _search(search, combinations) -> tuple:
         final = search.with_values(best.values)
         checks, ok = _checks(search, final, best)
         if not ok:
-            notes.append("the least-cost answer on the draws' path did not qualify when scored back (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported")
+            notes.append(
+                "the least-cost answer on the draws' path did not qualify when scored back ("
+                + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks)
+                + "); it is not reported"
+            )
             best = None
     if best is None:
         for combination in combinations:
@@ -960,7 +1149,14 @@ def _search(search, combinations) -> tuple:
             final = search.with_values(reached.values)
             checks, _ = _checks(search, final, reached)
     for label, blocked in search.blocked.items():
-        notes.append(f"{label}: " + "; ".join(f"{scheme} is {status.replace('_', ' ')} whatever the value (its rules, read before the threshold, decide)" for scheme, status in blocked.items()))
+        notes.append(
+            f"{label}: "
+            + "; ".join(
+                f"{scheme} is {status.replace('_', ' ')} whatever the value (its rules, read before the threshold, "
+                "decide)"
+                for scheme, status in blocked.items()
+            )
+        )
     return best, reached, final, checks, notes
 
 
@@ -968,8 +1164,12 @@ def _changes(search, values: dict) -> list:
     """Each lever's value and cost at the answer (the project's value where the answer leaves it)."""
     return [
         LeverChange(
-            parameter=lever.path, unit=lever.unit, project_value=lever.project_value, value=values.get(lever.path, lever.project_value),
-            cost=lever.cost(values[lever.path]) if lever.path in values else 0.0, kind="continuous" if lever.continuous else "discrete",
+            parameter=lever.path,
+            unit=lever.unit,
+            project_value=lever.project_value,
+            value=values.get(lever.path, lever.project_value),
+            cost=lever.cost(values[lever.path]) if lever.path in values else 0.0,
+            kind="continuous" if lever.continuous else "discrete",
             range=list(lever.lever.range) if lever.continuous else list(lever.choices),
         )
         for lever in search.levers
@@ -981,7 +1181,9 @@ def _no_solution_reason(best, reached) -> str:
         return ""
     if reached is None:
         return "no combination of lever values can qualify: every one is blocked by a rule read before the threshold"
-    return f"no lever values within the ranges qualify; the best smallest margin reached is {reached.margin:.4g}" + (f", with {reached.note} at a bound of its range" if reached.note else "")
+    return f"no lever values within the ranges qualify; the best smallest margin reached is {reached.margin:.4g}" + (
+        f", with {reached.note} at a bound of its range" if reached.note else ""
+    )
 
 
 def check_confidence(confidence: float | None) -> None:
@@ -996,13 +1198,17 @@ def _solver(search, combinations, confidence, seed) -> dict:
         "continuous": SOLVER if search.continuous else "none",
         "tolerance": SOLVER_TOLERANCE,
         "margin_tolerance": MARGIN_TOLERANCE,
-        "discrete": "enumeration, cheapest lower bound first, with branch and bound" if search.discrete or len(combinations) > 1 else "none",
+        "discrete": "enumeration, cheapest lower bound first, with branch and bound"
+        if search.discrete or len(combinations) > 1
+        else "none",
         "combinations": len(combinations),
         "solved": search.solved,
         "pruned": search.pruned,
         "iterations": search.iterations,
         "stacked_solves": sum(evaluator.calls for evaluator in search.evaluators.values()),
-        "constraint": "every scheme's status is qualifies at the central value" if confidence is None else f"every scheme qualifies in at least {confidence:.6g} of the draws (common random numbers, seed {seed})",
+        "constraint": "every scheme's status is qualifies at the central value"
+        if confidence is None
+        else f"every scheme qualifies in at least {confidence:.6g} of the draws (common random numbers, seed {seed})",
     }
 
 
@@ -1041,7 +1247,20 @@ def qualify(
     project = with_sources(project, levers, levers_source)
     chosen = select_schemes(rulebooks(), schemes, project.project.product)
     assessment = assessment.but(schemes=tuple(s.id for s in chosen))
-    search = Search(project, assessment, resolve_levers(project, levers, levers_source), chosen, source, levers_source, confidence, draws, seed, sampling, uncertainty, series)
+    search = Search(
+        project,
+        assessment,
+        resolve_levers(project, levers, levers_source),
+        chosen,
+        source,
+        levers_source,
+        confidence,
+        draws,
+        seed,
+        sampling,
+        uncertainty,
+        series,
+    )
     combinations = search.combinations()
     if levers.operation is not None:
         check_operation(search, levers, combinations)
@@ -1053,19 +1272,36 @@ def qualify(
     return _result(search, levers, combinations, original, tuple(found), front, operation)
 
 
-def _result(search: Search, levers: Levers, combinations: list[Combination], original, found: tuple, front: list[FrontPoint], operation: dict | None) -> QualifyResult:
-    """The result of a search: ``found`` is (least-cost answer, largest-margin answer, its project, its checks, notes)."""
+def _result(
+    search: Search,
+    levers: Levers,
+    combinations: list[Combination],
+    original,
+    found: tuple,
+    front: list[FrontPoint],
+    operation: dict | None,
+) -> QualifyResult:
+    """The result of a search: ``found`` is (least-cost answer, largest-margin answer, its project, its checks,
+    notes)."""
     best, reached, final, checks, notes = found
     confidence, chosen, uncertainty = search.confidence, search.schemes, search.uncertainty
     if levers.invented:
         notes.append(f"every price in {search.levers_source} is invented for the demonstration")
-    if confidence is not None and any(lever.path in (uncertainty.parameters if uncertainty else {}) for lever in search.levers):
-        notes.append("a lever on a parameter with a distribution moves its draws with it (each draw times lever value / project value)")
+    if confidence is not None and any(
+        lever.path in (uncertainty.parameters if uncertainty else {}) for lever in search.levers
+    ):
+        notes.append(
+            "a lever on a parameter with a distribution moves its draws with it (each draw times lever value / project "
+            "value)"
+        )
     answer = best or reached
     values = answer.values if answer else {}
     solver = _solver(search, combinations, confidence, search.seed)
     if operation is not None:
-        solver["operation"] = f"{operation['solver']}; primal feasibility tolerance {operation['primal_feasibility_tolerance']:g}, emissions cap {operation['cap_inside_limit']:g} (relative) inside the limit"
+        solver["operation"] = (
+            f"{operation['solver']}; primal feasibility tolerance {operation['primal_feasibility_tolerance']:g}, "
+            f"emissions cap {operation['cap_inside_limit']:g} (relative) inside the limit"
+        )
     return QualifyResult(
         carbonledger_version=__version__,
         caution=CAUTION,
@@ -1091,7 +1327,9 @@ def _result(search: Search, levers: Levers, combinations: list[Combination], ori
         score_back_set=score_back_set(original, final) if best is not None and final is not None else [],
         best_margin=answer.margin if answer else None,
         binding_lever=(reached.note or None) if best is None and reached is not None else None,
-        reason=_no_solution_reason(best, reached) if levers.operation is None or best is not None else "no combination of the levers has an operation that qualifies: the plan's linear program finds none",
+        reason=_no_solution_reason(best, reached)
+        if levers.operation is None or best is not None
+        else "no combination of the levers has an operation that qualifies: the plan's linear program finds none",
         solver=solver,
         front=front,
         notes=notes,
@@ -1107,15 +1345,39 @@ def check_operation(search: Search, levers: Levers, combinations: list[Combinati
     index, _ = levers.operation
     where = _where(index, "kind")
     if search.series is None:
-        raise InputError(search.levers_source, where, "an operation lever on a project with an electricity time series (electricity.time_series in the project file): the plan's linear program decides the load in each interval of it")
+        raise InputError(
+            search.levers_source,
+            where,
+            "an operation lever on a project with an electricity time series (electricity.time_series in the project "
+            "file): the plan's linear program decides the load in each interval of it",
+        )
     if len(search.schemes) != 1:
-        raise InputError(search.levers_source, where, f"one scheme with an operation lever (the plan keeps one scheme's check qualifying), got {', '.join(s.id for s in search.schemes)}")
+        raise InputError(
+            search.levers_source,
+            where,
+            "one scheme with an operation lever (the plan keeps one scheme's check qualifying), got "
+            f"{', '.join(s.id for s in search.schemes)}",
+        )
     if search.confidence is not None:
-        raise InputError("--confidence", str(search.confidence), "no confidence with an operation lever (the plan's linear program works at the central value)")
+        raise InputError(
+            "--confidence",
+            str(search.confidence),
+            "no confidence with an operation lever (the plan's linear program works at the central value)",
+        )
     for lever in search.continuous:
-        raise InputError(search.levers_source, _where(lever.index, "range"), "a step with an operation lever (the other levers are enumerated, and each combination's operation planned)")
+        raise InputError(
+            search.levers_source,
+            _where(lever.index, "range"),
+            "a step with an operation lever (the other levers are enumerated, and each combination's operation "
+            "planned)",
+        )
     if len(combinations) > MAX_OPERATION_COMBINATIONS:
-        raise InputError(search.levers_source, "levers", f"at most {MAX_OPERATION_COMBINATIONS} combinations of discrete values with an operation lever (each is a linear program over the series), got {len(combinations)}")
+        raise InputError(
+            search.levers_source,
+            "levers",
+            f"at most {MAX_OPERATION_COMBINATIONS} combinations of discrete values with an operation lever (each is a "
+            f"linear program over the series), got {len(combinations)}",
+        )
 
 
 def _operation_search(search: Search, combinations: list[Combination], index: int, lever: Lever) -> tuple:
@@ -1125,49 +1387,95 @@ def _operation_search(search: Search, combinations: list[Combination], index: in
     best = None
     for combination in combinations:
         project = search.with_values(combination.discrete) if combination.discrete else search.project
-        found = plan_operation(project, search.assessment.factor_set, search.series, search.schemes[0].id, lever, source=search.source, gwp=search.assessment.gwp, year=search.assessment.year, where=(search.levers_source, _where(index, "kind")))
+        found = plan_operation(
+            project,
+            search.assessment.factor_set,
+            search.series,
+            search.schemes[0].id,
+            lever,
+            source=search.source,
+            gwp=search.assessment.gwp,
+            year=search.assessment.year,
+            where=(search.levers_source, _where(index, "kind")),
+        )
         search.solved += 1
         if found is not None and (best is None or combination.discrete_cost + found.cost < best[2]):
             best = (combination, found, combination.discrete_cost + found.cost)
     if best is None:
-        return None, None, None, [], [f"no operation of any combination of the levers qualifies for {search.schemes[0].id}: the plan's linear program finds none"], None
+        return (
+            None,
+            None,
+            None,
+            [],
+            [
+                f"no operation of any combination of the levers qualifies for {search.schemes[0].id}: the plan's "
+                "linear program finds none"
+            ],
+            None,
+        )
     combination, operation, cost = best
     final = search.with_values(combination.discrete) if combination.discrete else search.project
-    checks, ok = _checks(replace(search, series=planned_series(search.series, operation.plan)), final, Found({}, cost, True, 0.0))
+    checks, ok = _checks(
+        replace(search, series=planned_series(search.series, operation.plan)), final, Found({}, cost, True, 0.0)
+    )
     margin = min((c.limit - c.value) / abs(c.limit) for c in checks)
     summary = operation_summary(operation, lever, search.series)
     if not ok:
-        notes = ["the least-cost operation did not qualify when scored back with the plan's load (" + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks) + "); it is not reported"]
+        notes = [
+            "the least-cost operation did not qualify when scored back with the plan's load ("
+            + "; ".join(f"{c.scheme}: {c.status.replace('_', ' ')}" for c in checks)
+            + "); it is not reported"
+        ]
         return None, Found(dict(combination.discrete), cost, False, margin), final, checks, notes, summary
-    notes = [f"the operation was planned by the linear program of `carbonledger plan` (HiGHS) for {summary['scheme']}: {summary['hydrogen_kg']:,.0f} kg H2 against {summary['baseline_hydrogen_kg']:,.0f} at rated power in every interval; score it back with that plan's series (`carbonledger plan ... --output`)"]
+    notes = [
+        f"the operation was planned by the linear program of `carbonledger plan` (HiGHS) for {summary['scheme']}: "
+        f"{summary['hydrogen_kg']:,.0f} kg H2 against {summary['baseline_hydrogen_kg']:,.0f} at rated power in every "
+        "interval; score it back with that plan's series (`carbonledger plan ... --output`)"
+    ]
     return Found(dict(combination.discrete), cost, True, margin), None, final, checks, notes, summary
 
 
 def _operation_change(operation: dict, levers: Levers) -> LeverChange:
     """The operation lever as a change: hydrogen made under the plan, against rated power in every interval."""
     return LeverChange(
-        parameter="operation", unit="kg H2", project_value=operation["baseline_hydrogen_kg"], value=operation["hydrogen_kg"],
-        cost=operation["cost"], kind="operation", range=[0.0, operation["baseline_hydrogen_kg"]],
+        parameter="operation",
+        unit="kg H2",
+        project_value=operation["baseline_hydrogen_kg"],
+        value=operation["hydrogen_kg"],
+        cost=operation["cost"],
+        kind="operation",
+        range=[0.0, operation["baseline_hydrogen_kg"]],
     )
 
 
 def with_sources(project, levers: Levers, levers_source: str):
-    """The project with the levers file's new electricity sources at share 0, and its battery (capacity 0 unless given)."""
+    """The project with the levers file's new electricity sources at share 0, and its battery (capacity 0 unless
+    given)."""
     if not levers.sources and not levers.battery:
         return project
     data = _plain(project.model_dump())
     for name, fields in levers.sources.items():
         if name in data["electricity"]["sources"]:
             raise InputError(levers_source, f"sources.{name}", f"a new source name (the project already has '{name}')")
-        data = apply_overrides(data, [(f"electricity.sources.{path_key(name)}", {**copy.deepcopy(fields), "share": 0.0})], levers_source)
+        data = apply_overrides(
+            data, [(f"electricity.sources.{path_key(name)}", {**copy.deepcopy(fields), "share": 0.0})], levers_source
+        )
     if levers.battery:
         if data["electricity"].get("battery"):
-            raise InputError(levers_source, "battery", "no battery table when the project has one (put a lever on electricity.battery.capacity_kwh)")
+            raise InputError(
+                levers_source,
+                "battery",
+                "no battery table when the project has one (put a lever on electricity.battery.capacity_kwh)",
+            )
         data["electricity"]["battery"] = {"capacity_kwh": 0.0, **copy.deepcopy(levers.battery)}
     try:
         return validate_project(data, levers_source)
     except InputError as error:
-        raise InputError(levers_source, error.field.replace("electricity.sources.", "sources.", 1).replace("electricity.battery", "battery", 1), error.expected) from None
+        raise InputError(
+            levers_source,
+            error.field.replace("electricity.sources.", "sources.", 1).replace("electricity.battery", "battery", 1),
+            error.expected,
+        ) from None
 
 
 def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], bool]:
@@ -1176,11 +1484,16 @@ def _checks(search: Search, final, found: Found) -> tuple[list[CheckAtAnswer], b
     scheme qualifying together in at least that share of the draws (``found`` takes that
     probability), and no scheme kept from qualifying by its rules at the answer."""
     result = assess(search.assessment, final, source=search.source, series=search.series)
-    checks = [CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin) for c in result.checks]
+    checks = [
+        CheckAtAnswer(scheme=c.scheme, status=c.status, value=c.value, limit=c.limit, unit=c.unit, margin=c.margin)
+        for c in result.checks
+    ]
     if search.confidence is None:
         return checks, all(check.status == Status.QUALIFIES for check in checks)
     discrete = {lever.path for lever in search.discrete}
-    evaluator = search.evaluator(Combination({path: value for path, value in found.values.items() if path in discrete}, [], 0.0))
+    evaluator = search.evaluator(
+        Combination({path: value for path, value in found.values.items() if path in discrete}, [], 0.0)
+    )
     point = np.array([found.values[path] for path in evaluator.paths], dtype=float)
     for item, hits in zip(checks, evaluator.scheme_probabilities(point), strict=True):
         item.probability, item.standard_error = hits.probability, hits.standard_error
@@ -1195,7 +1508,10 @@ def _front(search: Search, combinations: list[Combination], best: Found | None, 
     if best is not None and best.cost > 0:
         top = 1.5 * best.cost
     else:
-        top = sum(max(max(piece.cost(piece.low), piece.cost(piece.high)) for piece in lever.pieces) for lever in search.continuous)
+        top = sum(
+            max(max(piece.cost(piece.low), piece.cost(piece.high)) for piece in lever.pieces)
+            for lever in search.continuous
+        )
         top = max(0.0, top + sum(max(lever.choice_costs) for lever in search.discrete))
     sweep = sorted(set(np.linspace(0.0, top, budgets).tolist() + ([best.cost] if best is not None else [])))
     unbounded = [(combination, search.largest_margin(combination)) for combination in combinations]
@@ -1212,5 +1528,14 @@ def _front(search: Search, combinations: list[Combination], best: Found | None, 
             if found is not None and (reached is None or found.margin > reached.margin):
                 reached = found
         if reached is not None:
-            points.append(FrontPoint(budget=budget, total_cost=reached.cost, margin=reached.margin, qualifies=reached.qualifies, probability=reached.probability, levers=reached.values))
+            points.append(
+                FrontPoint(
+                    budget=budget,
+                    total_cost=reached.cost,
+                    margin=reached.margin,
+                    qualifies=reached.qualifies,
+                    probability=reached.probability,
+                    levers=reached.values,
+                )
+            )
     return points

@@ -36,7 +36,19 @@ from ..model.factors import FactorSet, factors_root
 from ..model.pedigree import grade_defaults
 from ..model.project import parameter_table
 from ..model.shares import is_share_path
-from .uncertainty import DEFAULT_SEED, MAX_DRAWS, Draws, check_seed, checked_parameter, draws_from_uniform, evaluate_in_blocks, factors_used, limit_breaks, make_plan, no_usable_draw
+from .uncertainty import (
+    DEFAULT_SEED,
+    MAX_DRAWS,
+    Draws,
+    check_seed,
+    checked_parameter,
+    draws_from_uniform,
+    evaluate_in_blocks,
+    factors_used,
+    limit_breaks,
+    make_plan,
+    no_usable_draw,
+)
 
 TORNADO_PERCENTILES = (0.10, 0.90)
 SWING_PERCENT = 10.0  # the default move of each input in the one-at-a-time swing, per cent of its own value
@@ -62,7 +74,9 @@ class TornadoBar(BaseModel):
 class SwingFigure(BaseModel):
     figure: str  # "total" or a scheme id
     unit: str
-    at_minus: float | None  # the figure with the input at (1 - x) times its value; None: that value breaks a physical limit
+    at_minus: (
+        float | None
+    )  # the figure with the input at (1 - x) times its value; None: that value breaks a physical limit
     at_plus: float | None
     change_minus: float | None  # at_minus - the project's figure
     change_plus: float | None
@@ -105,7 +119,10 @@ class Sensitivity(BaseModel):
     def summary_for_ledger(self) -> dict:
         """The compact figures the run ledger keeps of a sensitivity run."""
         top = max(self.sobol, key=lambda index: index.total_order) if self.sobol else None
-        headline = f"Sobol indices of {self.figure} ({self.unit}) over {len(self.sobol)} inputs, N = {self.base_sample}, seed {self.seed}"
+        headline = (
+            f"Sobol indices of {self.figure} ({self.unit}) over {len(self.sobol)} inputs, N = {self.base_sample}, seed "
+            f"{self.seed}"
+        )
         if top is not None:
             headline += f": largest total-order index {top.total_order:.3f} ({top.input})"
         return {
@@ -120,7 +137,16 @@ class Sensitivity(BaseModel):
             "sobol": [index.model_dump() for index in self.sobol],
             "tornado": [{"input": bar.input, "swing": bar.swing} for bar in self.tornado],
             "swing_percent": self.swing.percent if self.swing else None,
-            "swing": [{"input": bar.input, "change_minus": bar.figures[0].change_minus, "change_plus": bar.figures[0].change_plus} for bar in self.swing.bars] if self.swing else [],
+            "swing": [
+                {
+                    "input": bar.input,
+                    "change_minus": bar.figures[0].change_minus,
+                    "change_plus": bar.figures[0].change_plus,
+                }
+                for bar in self.swing.bars
+            ]
+            if self.swing
+            else [],
         }
 
 
@@ -163,10 +189,21 @@ def _tornado(plan, names: list[str], scheme: str | None) -> tuple[float, list]:
         if name.startswith("parameter") and key in tornado_draws.factor_choices:
             low_input, high_input = (str(tornado_draws.factor_choices[key][1][row]) for row in (1 + 2 * n, 2 + 2 * n))
         else:
-            column = tornado_draws.parameters.get(key) if name.startswith("parameter") else tornado_draws.factors.get(key)
+            column = (
+                tornado_draws.parameters.get(key) if name.startswith("parameter") else tornado_draws.factors.get(key)
+            )
             low_input, high_input = float(column[1 + 2 * n]), float(column[2 + 2 * n])
         at_low, at_high = float(tornado_values[1 + 2 * n]), float(tornado_values[2 + 2 * n])
-        bars.append(TornadoBar(input=name, low_input=low_input, high_input=high_input, at_low=at_low, at_high=at_high, swing=abs(at_high - at_low)))
+        bars.append(
+            TornadoBar(
+                input=name,
+                low_input=low_input,
+                high_input=high_input,
+                at_low=at_low,
+                at_high=at_high,
+                swing=abs(at_high - at_low),
+            )
+        )
     bars.sort(key=lambda bar: -bar.swing)
     return float(tornado_values[0]), bars
 
@@ -182,7 +219,9 @@ def _moved(value: float, fraction: float) -> Uniform:
     return Uniform(distribution="uniform", low=low, high=high)
 
 
-def swing_inputs(project, factor_set: FactorSet, used: dict, fraction: float, source: str) -> tuple[Uncertainty, dict, list[str]]:
+def swing_inputs(
+    project, factor_set: FactorSet, used: dict, fraction: float, source: str
+) -> tuple[Uncertainty, dict, list[str]]:
     """(the inputs to move, each as a uniform range of +-x %; their units; the factors held fixed).
 
     Every numeric parameter with a unit and a value other than 0 that a distribution could move, and every
@@ -192,7 +231,13 @@ def swing_inputs(project, factor_set: FactorSet, used: dict, fraction: float, so
     ``--rebalance`` can)."""
     parameters, units = {}, {}
     for path, value, unit, _ in parameter_table(project):
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or value == 0 or unit in ("", "date") or is_share_path(path):
+        if (
+            isinstance(value, bool)
+            or not isinstance(value, (int, float))
+            or value == 0
+            or unit in ("", "date")
+            or is_share_path(path)
+        ):
             continue
         try:
             checked_parameter(project, factor_set, path, _moved(value, fraction), source)
@@ -222,20 +267,38 @@ def _swing_draws(plan, names: list[str], fraction: float) -> Draws:
     return drawn
 
 
-def _swing_figures(values: dict[str, np.ndarray], units: dict[str, str], k: int, broken: np.ndarray) -> list[SwingFigure]:
+def _swing_figures(
+    values: dict[str, np.ndarray], units: dict[str, str], k: int, broken: np.ndarray
+) -> list[SwingFigure]:
     figures = []
     for figure, column in values.items():
         minus, plus = (None if broken[row] else float(column[row]) for row in (1 + 2 * k, 2 + 2 * k))
         base = float(column[0])
-        figures.append(SwingFigure(figure=figure, unit=units[figure], at_minus=minus, at_plus=plus, change_minus=None if minus is None else minus - base, change_plus=None if plus is None else plus - base))
+        figures.append(
+            SwingFigure(
+                figure=figure,
+                unit=units[figure],
+                at_minus=minus,
+                at_plus=plus,
+                change_minus=None if minus is None else minus - base,
+                change_plus=None if plus is None else plus - base,
+            )
+        )
     return figures
 
 
 def _moves_nothing(bar: SwingBar, base: dict[str, float]) -> bool:
-    return all(abs(change) <= 1e-12 * max(1.0, abs(base[f.figure])) for f in bar.figures for change in (f.change_minus, f.change_plus) if change is not None)
+    return all(
+        abs(change) <= 1e-12 * max(1.0, abs(base[f.figure]))
+        for f in bar.figures
+        for change in (f.change_minus, f.change_plus)
+        if change is not None
+    )
 
 
-def swing(project, assessment: Assessment, percent: float = SWING_PERCENT, *, source: str = "project", series=None) -> Swing:
+def swing(
+    project, assessment: Assessment, percent: float = SWING_PERCENT, *, source: str = "project", series=None
+) -> Swing:
     """Each factor the project reads and each numeric parameter moved alone by -x % and +x % of its own
     value (x = ``percent``), the others as the project states: the change of the total and of every scheme's
     value. A move that breaks a physical limit (a share above 1) gives no figure (None)."""
@@ -248,16 +311,33 @@ def swing(project, assessment: Assessment, percent: float = SWING_PERCENT, *, so
     drawn = _swing_draws(plan, names, fraction)
     outcome = evaluate_in_blocks(plan, drawn)
     broken, _ = limit_breaks(plan, drawn, len(drawn.uniform))
-    values = {"total": np.asarray(outcome.total, dtype=float)} | {scheme.id: np.asarray(outcome.scheme_values[scheme.id], dtype=float) for scheme in outcome.schemes}
+    values = {"total": np.asarray(outcome.total, dtype=float)} | {
+        scheme.id: np.asarray(outcome.scheme_values[scheme.id], dtype=float) for scheme in outcome.schemes
+    }
     units = {"total": outcome.unit} | {scheme.id: scheme.unit for scheme in outcome.schemes}
     base = {figure: float(column[0]) for figure, column in values.items()}
     bars = []
     for k, name in enumerate(names):
-        value = plan.fields[name.split(" ", 1)[1]][0] if name.startswith("parameter") else plan.assessment.factor_set.get(name.split(" ", 1)[1]).value
-        bars.append(SwingBar(input=name, value=value, unit=input_units[name], figures=_swing_figures(values, units, k, broken)))
+        value = (
+            plan.fields[name.split(" ", 1)[1]][0]
+            if name.startswith("parameter")
+            else plan.assessment.factor_set.get(name.split(" ", 1)[1]).value
+        )
+        bars.append(
+            SwingBar(input=name, value=value, unit=input_units[name], figures=_swing_figures(values, units, k, broken))
+        )
     moved = [bar for bar in bars if not _moves_nothing(bar, base)]
-    moved.sort(key=lambda bar: -max(abs(change or 0.0) for change in (bar.figures[0].change_minus, bar.figures[0].change_plus)))
-    return Swing(percent=percent, base=base, units=units, bars=moved, unmoved=[bar.input for bar in bars if _moves_nothing(bar, base)], held_fixed=held)
+    moved.sort(
+        key=lambda bar: -max(abs(change or 0.0) for change in (bar.figures[0].change_minus, bar.figures[0].change_plus))
+    )
+    return Swing(
+        percent=percent,
+        base=base,
+        units=units,
+        bars=moved,
+        unmoved=[bar.input for bar in bars if _moves_nothing(bar, base)],
+        held_fixed=held,
+    )
 
 
 def sensitivity(
@@ -288,10 +368,17 @@ def sensitivity(
     if not names:
         raise InputError(source, "uncertainty", "at least one distribution")
     if base_sample < 2 or base_sample & (base_sample - 1):
-        raise InputError("--base-sample", str(base_sample), "a power of 2 (Sobol sequences keep their balance at powers of 2)")
+        raise InputError(
+            "--base-sample", str(base_sample), "a power of 2 (Sobol sequences keep their balance at powers of 2)"
+        )
     check_seed(seed)
     if base_sample * (len(names) + 2) > MAX_DRAWS:
-        raise InputError("--base-sample", str(base_sample), f"a sample of at most {MAX_DRAWS:,} evaluations, N x (inputs + 2) = {base_sample * (len(names) + 2):,} with {len(names)} inputs")
+        raise InputError(
+            "--base-sample",
+            str(base_sample),
+            f"a sample of at most {MAX_DRAWS:,} evaluations, N x (inputs + 2) = {base_sample * (len(names) + 2):,} "
+            f"with {len(names)} inputs",
+        )
     problem = {"num_vars": len(names), "names": names, "bounds": [[0.0, 1.0]] * len(names)}
     u = np.clip(sobol_sample.sample(problem, base_sample, calc_second_order=False, seed=seed), 1e-12, 1 - 1e-12)
     drawn = draws_from_uniform(plan, u)

@@ -62,7 +62,14 @@ from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY
 from ..routes.project import validate_project
-from .matching import ElectricityModel, declared_and_grid_intensity, eligible_sources, matched_values_of_draws, scheme_granularity, series_matched_periods
+from .matching import (
+    ElectricityModel,
+    declared_and_grid_intensity,
+    eligible_sources,
+    matched_values_of_draws,
+    scheme_granularity,
+    series_matched_periods,
+)
 
 DEFAULT_SEED = 20261202
 DEFAULT_DRAWS = 10_000
@@ -91,8 +98,17 @@ def check_seed(seed: int) -> None:
 
 def no_usable_draw(source: str, count: int, reasons: list[dict]) -> InputError:
     """The refusal of a run whose every draw breaks a physical limit (statistics over no draw mean nothing)."""
-    first = max(reasons, key=lambda reason: reason["draws"]) if reasons else {"field": "uncertainty", "expected": "a physical value"}
-    return InputError(source, "uncertainty", f"distributions that leave at least one draw within the physical limits; all {count:,} draws break one (most often {first['field']}: expected {first['expected']})")
+    first = (
+        max(reasons, key=lambda reason: reason["draws"])
+        if reasons
+        else {"field": "uncertainty", "expected": "a physical value"}
+    )
+    return InputError(
+        source,
+        "uncertainty",
+        f"distributions that leave at least one draw within the physical limits; all {count:,} draws break one (most "
+        f"often {first['field']}: expected {first['expected']})",
+    )
 
 
 def uniform_draws(count: int, dimensions: int, seed: int, sampling: str) -> np.ndarray:
@@ -106,7 +122,9 @@ def uniform_draws(count: int, dimensions: int, seed: int, sampling: str) -> np.n
         u = qmc.LatinHypercube(d=dimensions, seed=rng).random(count)
     else:
         u = rng.random((count, dimensions))
-    return np.clip(u, 1e-12, 1 - 1e-12)  # the quantile functions of unbounded distributions need u strictly inside (0, 1)
+    return np.clip(
+        u, 1e-12, 1 - 1e-12
+    )  # the quantile functions of unbounded distributions need u strictly inside (0, 1)
 
 
 def rank_correlated(u: np.ndarray, target: np.ndarray, seed: int) -> np.ndarray:
@@ -141,13 +159,19 @@ def correlation_matrix(uncertainty: Uncertainty, names: list[str], source: str) 
     for number, pair in enumerate(uncertainty.correlations):
         for name in pair.inputs:
             if name not in index:
-                raise InputError(source, f"uncertainty.correlations.{number}.inputs", f"inputs that have a distribution, got '{name}'")
+                raise InputError(
+                    source,
+                    f"uncertainty.correlations.{number}.inputs",
+                    f"inputs that have a distribution, got '{name}'",
+                )
         a, b = (index[name] for name in pair.inputs)
         if a == b:
             raise InputError(source, f"uncertainty.correlations.{number}.inputs", "two different inputs")
         matrix[a, b] = matrix[b, a] = pair.rank
     if np.linalg.eigvalsh(matrix).min() <= 0:
-        raise InputError(source, "uncertainty.correlations", "rank correlations that can hold together (a positive definite matrix)")
+        raise InputError(
+            source, "uncertainty.correlations", "rank correlations that can hold together (a positive definite matrix)"
+        )
     return matrix
 
 
@@ -161,7 +185,9 @@ class Draws:
     names: list[str]  # "parameter PATH" / "factor ID"
     uniform: np.ndarray  # (draws, inputs) in (0, 1)
     parameters: dict[str, np.ndarray]  # path -> draws (numbers)
-    factor_choices: dict[str, tuple[str, np.ndarray]]  # parameter path of a factor id -> (nominal id, chosen id per draw)
+    factor_choices: dict[
+        str, tuple[str, np.ndarray]
+    ]  # parameter path of a factor id -> (nominal id, chosen id per draw)
     factors: dict[str, np.ndarray]  # factor id -> draws in the factor's own unit
 
 
@@ -176,7 +202,9 @@ class Plan:
     fields: dict[str, Any] = field(default_factory=dict)  # parameter path -> (nominal, pydantic field)
     used_rows: list = field(default_factory=list)  # factor rows the project reads, as plain dicts (for the ledger)
     series: Any = None  # the project's electricity time series: scheme values follow its matching
-    absorbers: dict[str, str] = field(default_factory=dict)  # share path -> the source taking up its difference (default: the unmoved, in proportion)
+    absorbers: dict[str, str] = field(
+        default_factory=dict
+    )  # share path -> the source taking up its difference (default: the unmoved, in proportion)
 
 
 def checked_parameter(project, factor_set: FactorSet, path: str, distribution, source: str) -> tuple:
@@ -188,7 +216,12 @@ def checked_parameter(project, factor_set: FactorSet, path: str, distribution, s
     if isinstance(nominal, str):
         factor_ids = path.endswith("factor") or nominal in factor_set.factors
         if distribution.distribution != "discrete" or distribution.numeric_values() or not factor_ids:
-            raise InputError(source, where, f"a numeric parameter, or a discrete choice of factor ids for a factor parameter; '{path}' is the text '{nominal}'")
+            raise InputError(
+                source,
+                where,
+                f"a numeric parameter, or a discrete choice of factor ids for a factor parameter; '{path}' is the "
+                f"text '{nominal}'",
+            )
         for choice in distribution.values:
             factor_set.get(choice, where)
     elif isinstance(nominal, bool) or not isinstance(nominal, (int, float)):
@@ -198,7 +231,9 @@ def checked_parameter(project, factor_set: FactorSet, path: str, distribution, s
     return nominal, info
 
 
-def make_plan(project, assessment: Assessment, uncertainty: Uncertainty, *, source: str = "project", series=None) -> Plan:
+def make_plan(
+    project, assessment: Assessment, uncertainty: Uncertainty, *, source: str = "project", series=None
+) -> Plan:
     """Check every distribution against the project and the factor set (one InputError line).
 
     ``series``: the project's electricity time series (``analyses.electricity_series``); with it,
@@ -212,16 +247,26 @@ def make_plan(project, assessment: Assessment, uncertainty: Uncertainty, *, sour
     factor_set = assessment.factor_set
     used = factors_used(project, assessment, source)
     uncertainty = with_defaults(used, factor_set, uncertainty)
-    fields = {path: checked_parameter(project, factor_set, path, distribution, source) for path, distribution in uncertainty.parameters.items()}
+    fields = {
+        path: checked_parameter(project, factor_set, path, distribution, source)
+        for path, distribution in uncertainty.parameters.items()
+    }
     shared = [path for path in uncertainty.parameters if is_share_path(path)]
-    problem = rebalancing_problem({name: s.share for name, s in project.electricity.sources.items()}, [split_path(path)[2] for path in shared], {})
+    problem = rebalancing_problem(
+        {name: s.share for name, s in project.electricity.sources.items()}, [split_path(path)[2] for path in shared], {}
+    )
     if problem:
         raise InputError(source, f"uncertainty.parameters.{shared[0]}", problem)
-    parameters = {path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}") for path, distribution in uncertainty.parameters.items()}
+    parameters = {
+        path: _median_of(distribution, fields[path][0], source, f"uncertainty.parameters.{path}")
+        for path, distribution in uncertainty.parameters.items()
+    }
     factors = {}
     for factor_id, distribution in uncertainty.factors.items():
         if factor_id in factor_set.factors:
-            distribution = _median_of(distribution, factor_set.factors[factor_id].value, source, f"uncertainty.factors.{factor_id}")
+            distribution = _median_of(
+                distribution, factor_set.factors[factor_id].value, source, f"uncertainty.factors.{factor_id}"
+            )
         factors[factor_id] = distribution
     uncertainty = uncertainty.model_copy(update={"parameters": parameters, "factors": factors})
     for factor_id, distribution in uncertainty.factors.items():
@@ -231,7 +276,12 @@ def make_plan(project, assessment: Assessment, uncertainty: Uncertainty, *, sour
         if not distribution.numeric_values():
             raise InputError(source, where, "numbers as the values of a discrete distribution of a factor")
     if not uncertainty.parameters and not uncertainty.factors:
-        raise InputError(source, "uncertainty", "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows with pedigree scores)")
+        raise InputError(
+            source,
+            "uncertainty",
+            "at least one distribution (an [uncertainty] table in the project, --distributions FILE, or factor rows "
+            "with pedigree scores)",
+        )
     plan = Plan(project, assessment, uncertainty, source, fields, series=series)
     plan.used_rows = [factor_row(row) for _, row in sorted(used.items())]
     correlation_matrix(uncertainty, uncertainty.names(), source)
@@ -262,7 +312,8 @@ def factors_used(project, assessment: Assessment, source: str) -> dict:
 
 
 def uncertain_inputs(project, assessment: Assessment, uncertainty: Uncertainty, source: str) -> Uncertainty:
-    """The distributions a run of the project would draw: ``uncertainty`` and the defaults of the factor rows it reads."""
+    """The distributions a run of the project would draw: ``uncertainty`` and the defaults of the factor rows it
+    reads."""
     return with_defaults(factors_used(project, assessment, source), assessment.factor_set, uncertainty)
 
 
@@ -283,10 +334,19 @@ def with_grade_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncertai
     mapping = grade_defaults(factors_root())
     added = {}
     for factor_id, row in sorted(used.items()):
-        if factor_id in factor_set.factors and mapping.applies_to(factor_id) and row.value > 0:  # reference values are not rows of the set
+        if (
+            factor_id in factor_set.factors and mapping.applies_to(factor_id) and row.value > 0
+        ):  # reference values are not rows of the set
             grade = str(row.grade)
             basis = f"{GRADE_DEFAULT} '{grade}' (carbonledger's assumption, common practice)"
-            added[factor_id] = Pedigree(distribution="pedigree", scores=mapping.scores[grade], basic_gsd=mapping.basic_gsd[grade], median=row.value, stated_in=row.origin or factor_set.name, basis=basis)
+            added[factor_id] = Pedigree(
+                distribution="pedigree",
+                scores=mapping.scores[grade],
+                basic_gsd=mapping.basic_gsd[grade],
+                median=row.value,
+                stated_in=row.origin or factor_set.name,
+                basis=basis,
+            )
     return uncertainty.model_copy(update={"factors": added}) if added else uncertainty
 
 
@@ -298,8 +358,19 @@ def with_pedigree_defaults(used: dict, factor_set: FactorSet, uncertainty: Uncer
         if getattr(row, "pedigree", None) and factor_id not in uncertainty.factors:
             where = f"{row.origin or factor_set.name}: {factor_id}"
             if not row.value > 0:
-                raise InputError(where, "pedigree", f"a factor value > 0 for a pedigree (lognormal) distribution around it, got {row.value:g}")
-            added[factor_id] = Pedigree(distribution="pedigree", scores=row.pedigree, basic_gsd=row.basic_gsd or 1.0, median=row.value, stated_in=row.origin or factor_set.name, basis="the pedigree scores of the factor row")
+                raise InputError(
+                    where,
+                    "pedigree",
+                    f"a factor value > 0 for a pedigree (lognormal) distribution around it, got {row.value:g}",
+                )
+            added[factor_id] = Pedigree(
+                distribution="pedigree",
+                scores=row.pedigree,
+                basic_gsd=row.basic_gsd or 1.0,
+                median=row.value,
+                stated_in=row.origin or factor_set.name,
+                basis="the pedigree scores of the factor row",
+            )
     if not added:
         return uncertainty
     return uncertainty.model_copy(update={"factors": {**uncertainty.factors, **added}})
@@ -312,7 +383,12 @@ def draw(plan: Plan, count: int, seed: int = DEFAULT_SEED, sampling: str | None 
     u = uniform_draws(count, len(names), seed, sampling or uncertainty.sampling)
     target = correlation_matrix(uncertainty, names, plan.source)
     if target is not None and count < max(MIN_CORRELATED_DRAWS, 2 * len(names)):
-        raise InputError("--draws", str(count), f"at least {max(MIN_CORRELATED_DRAWS, 2 * len(names))} draws to impose rank correlations on {len(names)} inputs")
+        raise InputError(
+            "--draws",
+            str(count),
+            f"at least {max(MIN_CORRELATED_DRAWS, 2 * len(names))} draws to impose rank correlations on {len(names)} "
+            "inputs",
+        )
     if target is not None:
         u = rank_correlated(u, target, seed)
     return draws_from_uniform(plan, u)
@@ -383,7 +459,11 @@ def _factor_draws(plan: Plan, draws: Draws) -> dict[str, np.ndarray]:
             try:
                 scale = conversion_factor(row.unit, nominal.unit)
             except UnitMismatch:
-                raise InputError(plan.source, f"uncertainty.parameters.{path}", f"factor ids in units convertible to {nominal.unit}, got '{choice}' in {row.unit}") from None
+                raise InputError(
+                    plan.source,
+                    f"uncertainty.parameters.{path}",
+                    f"factor ids in units convertible to {nominal.unit}, got '{choice}' in {row.unit}",
+                ) from None
             own = factors.get(choice)
             values[chosen == choice] = (own[chosen == choice] if own is not None else row.value) * scale
         factors[nominal_id] = values
@@ -413,7 +493,11 @@ def limit_breaks(plan: Plan, draws: Draws, count: int) -> tuple[np.ndarray, list
         if upper is not None:
             record(values > upper if upper_in else values >= upper, path, f"{'<=' if upper_in else '<'} {upper:g}")
     for name, mask in negative_shares(shares_with_draws(plan, draws.parameters)).items():
-        record(np.asarray(mask, dtype=bool), f"electricity.sources.{path_key(name)}.share", ">= 0 after the moved shares are taken up")
+        record(
+            np.asarray(mask, dtype=bool),
+            f"electricity.sources.{path_key(name)}.share",
+            ">= 0 after the moved shares are taken up",
+        )
     for factor_id, values in draws.factors.items():
         nominal = plan.assessment.factor_set.get(factor_id).value
         record(np.sign(values) * np.sign(nominal) < 0, factor_id, f"the sign of the factor's value ({nominal:g})")
@@ -454,16 +538,22 @@ class Outcome:
     by_stage: dict[str, np.ndarray]
     by_gas: dict[str, np.ndarray]
     scheme_values: dict[str, np.ndarray]
-    scheme_findings: dict[str, list]  # the rules read before the threshold (eligibility, electricity, boundary): the same for every draw
+    scheme_findings: dict[
+        str, list
+    ]  # the rules read before the threshold (eligibility, electricity, boundary): the same for every draw
     schemes: list
     unit: str
     functional_unit: str
     boundary: str
     product: str
-    co_product_open: dict = field(default_factory=dict)  # scheme id -> draws left undetermined by a co-product rule the route cannot apply
+    co_product_open: dict = field(
+        default_factory=dict
+    )  # scheme id -> draws left undetermined by a co-product rule the route cannot apply
 
 
-def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.ndarray, findings: list, nominal: dict) -> tuple[np.ndarray, np.ndarray]:
+def co_product_values(
+    plan: Plan, draws: Draws, count: int, scheme, values: np.ndarray, findings: list, nominal: dict
+) -> tuple[np.ndarray, np.ndarray]:
     """A scheme's draws under its co-product rule, decided as ``core.scoring.co_product_checks`` decides a
     score (``co_product_rule``): (values, draws left undetermined). A draw that qualifies with the project
     giving the co-product no burden keeps its value (an upper bound); otherwise the draws are rescored with
@@ -473,31 +563,57 @@ def co_product_values(plan: Plan, draws: Draws, count: int, scheme, values: np.n
     open_draws = np.zeros(count, dtype=bool)
     if rule is None or not rule.differs or status_of(findings, True) == Status.NOT_ELIGIBLE:
         return values, open_draws
-    keep = np.asarray(scheme.loosest().met_by(values), dtype=bool) & (status_of(findings, True) == Status.QUALIFIES) if rule.upper_bound else open_draws
+    keep = (
+        np.asarray(scheme.loosest().met_by(values), dtype=bool) & (status_of(findings, True) == Status.QUALIFIES)
+        if rule.upper_bound
+        else open_draws
+    )
     if rule.rescore:
         data = plan.project.model_dump()
         section, name = rule.parameter.split(".")
         data[section][name] = rule.required
-        variant = replace(plan, project=validate_project(data, plan.source), assessment=plan.assessment.but(schemes=(scheme.id,)))
+        variant = replace(
+            plan, project=validate_project(data, plan.source), assessment=plan.assessment.but(schemes=(scheme.id,))
+        )
         return np.where(keep, values, evaluate(variant, draws, count).scheme_values[scheme.id]), open_draws
     return values, ~keep
 
 
-def _matched_draws(plan: Plan, scheme, reading, inventory, keys, flow_keys, gwp_vector, supply, column, basis_demand, figures, params, period, values) -> np.ndarray:
-    """A scheme's draws with the project's time series matched under the rule of the assessment year, as score matches them."""
+def _matched_draws(
+    plan: Plan,
+    scheme,
+    reading,
+    inventory,
+    keys,
+    flow_keys,
+    gwp_vector,
+    supply,
+    column,
+    basis_demand,
+    figures,
+    params,
+    period,
+    values,
+) -> np.ndarray:
+    """A scheme's draws with the project's time series matched under the rule of the assessment year, as score matches
+    them."""
     count = len(values)
     basis_product, hydrogen_lhv, ammonia_lhv, fraction = figures
     mix, gate = keys.index("electricity_mix"), column[inventory.gate]
     sources = params["electricity"]["sources"]
     counted_kg = charged_source_intensities(scheme, inventory, flow_keys, gwp_vector, reading)
-    declared, grid_mix_kg = declared_and_grid_intensity(counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh)
+    declared, grid_mix_kg = declared_and_grid_intensity(
+        counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh
+    )
     model = ElectricityModel(
         basis_kwh=supply[:, mix, column[basis_demand]],
         kwh_per_kg_h2=supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
         counted_kg_per_kwh=counted_kg,
         declared_kg_per_kwh=declared,
         grid_kg_per_kwh=grid_mix_kg,
-        value_per_total=intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[scheme.quantity],
+        value_per_total=intensities(np.ones(count), basis_product, hydrogen_lhv, ammonia_lhv, fraction)[
+            scheme.quantity
+        ],
         eligible=eligible_sources(scheme, reading.counted_zero, list(plan.series.generation_kwh)),
         granularity=scheme_granularity(scheme, period),
     )
@@ -508,7 +624,9 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     """Build the inventory once with arrays of draws and solve every draw stacked."""
     params = params_with_draws(plan, draws.parameters)
     inputs = DrawInputs(plan.assessment.factor_set, _factor_draws(plan, draws), plan.source)
-    check_physical_limits(params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source), plan.source)
+    check_physical_limits(
+        params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source), plan.source
+    )
     staged = run_stages(params, inputs, plan.assessment.gwp, plan.assessment.scheme_list)
     inventory, chosen, product = staged.inventory, staged.chosen, staged.inventory.product
 
@@ -544,11 +662,39 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         basis_demand, basis_product = basis_of(scheme, inventory)
         gwp_vector = scheme_characterisation(per_gwp[scheme.gwp], scheme)
         figures = (basis_product, hydrogen_lhv, ammonia_lhv, fraction)
-        value = scheme_value(scheme, inventory, keys, stacked.flow_keys, reading, gwp_vector, contributions(basis_demand, gwp_vector), supply[:, :, column[basis_demand]], figures, nominal)
+        value = scheme_value(
+            scheme,
+            inventory,
+            keys,
+            stacked.flow_keys,
+            reading,
+            gwp_vector,
+            contributions(basis_demand, gwp_vector),
+            supply[:, :, column[basis_demand]],
+            figures,
+            nominal,
+        )
         values = np.broadcast_to(value, (count,))
         if plan.series is not None:
-            values = _matched_draws(plan, scheme, reading, inventory, keys, stacked.flow_keys, gwp_vector, supply, column, basis_demand, figures, params, period, values)
-        scheme_values[scheme.id], co_product_open[scheme.id] = co_product_values(plan, draws, count, scheme, values, reading.findings, nominal)
+            values = _matched_draws(
+                plan,
+                scheme,
+                reading,
+                inventory,
+                keys,
+                stacked.flow_keys,
+                gwp_vector,
+                supply,
+                column,
+                basis_demand,
+                figures,
+                params,
+                period,
+                values,
+            )
+        scheme_values[scheme.id], co_product_open[scheme.id] = co_product_values(
+            plan, draws, count, scheme, values, reading.findings, nominal
+        )
     return Outcome(
         total=total,
         intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
@@ -581,7 +727,10 @@ def _join(outcomes: list[Outcome]) -> Outcome:
         return first
 
     def cat(key):
-        return {k: (None if v is None else np.concatenate([getattr(o, key)[k] for o in outcomes])) for k, v in getattr(first, key).items()}
+        return {
+            k: (None if v is None else np.concatenate([getattr(o, key)[k] for o in outcomes]))
+            for k, v in getattr(first, key).items()
+        }
 
     return Outcome(
         np.concatenate([o.total for o in outcomes]),
@@ -603,7 +752,9 @@ def draws_per_block(plan: Plan) -> int:
     """How many draws one stacked solve takes: ``BLOCK``, fewer when the system is large, so that the
     stacked matrices (draws x activities x activities, 8 bytes each, a few copies) stay within
     ``MEMORY_PER_BLOCK_BYTES`` whatever the number of electricity sources."""
-    activities = len(build_inventory(params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source)).activities)
+    activities = len(
+        build_inventory(params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source)).activities
+    )
     return int(max(1, min(BLOCK, MEMORY_PER_BLOCK_BYTES // (4 * 8 * activities**2))))
 
 
@@ -655,7 +806,9 @@ class InputDistribution(BaseModel):
     input: str
     distribution: dict[str, Any]
     stated_in: str = ""  # where a default distribution came from (a factor row's file); empty: the run's distributions
-    default: str = ""  # why the input got a default distribution (its row's pedigree scores, or its source grade); empty: stated by the run
+    # why the input got a default distribution (its row's pedigree scores, or its source grade); empty: stated by
+    # the run
+    default: str = ""
     from_memory: bool = False  # the distribution rests on values recorded from memory (the pedigree variance table)
 
 
@@ -690,8 +843,12 @@ class UncertaintyResult(BaseModel):
     checks: list[CheckProbability]
     default_basis: str = ""  # with defaults from source grades: what the grade -> pedigree mapping is and rests on
     project_sha256: str = ""
-    _scheme_draws: dict = PrivateAttr(default_factory=dict)  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
-    _draws: dict | None = PrivateAttr(default=None)  # every draw (inputs, total, scheme values), kept on request (keep_draws)
+    _scheme_draws: dict = PrivateAttr(
+        default_factory=dict
+    )  # scheme id -> (values of the draws used, [(tier, limit)]); for charts, not in JSON
+    _draws: dict | None = PrivateAttr(
+        default=None
+    )  # every draw (inputs, total, scheme values), kept on request (keep_draws)
     _parameters: dict = PrivateAttr(default_factory=dict)  # the project's validated parameters (for the ledger)
     _factors_used: list = PrivateAttr(default_factory=list)  # factor rows the project reads (for the ledger)
 
@@ -709,10 +866,13 @@ class UncertaintyResult(BaseModel):
 
     def summary_for_ledger(self) -> dict:
         """The compact figures the run ledger keeps of a Monte Carlo run."""
-        probabilities = "; ".join(f"{c.scheme} qualifies {c.probability_qualifies:.1%} (± {c.standard_error:.1%})" for c in self.checks)
+        probabilities = "; ".join(
+            f"{c.scheme} qualifies {c.probability_qualifies:.1%} (± {c.standard_error:.1%})" for c in self.checks
+        )
         return {
             "analysis": "uncertainty",
-            "headline": f"Monte Carlo, {self.draws:,} draws, seed {self.seed}: total mean {self.total.mean:.6g} (p5 {self.total.p5:.6g}, p95 {self.total.p95:.6g}) {self.unit}"
+            "headline": f"Monte Carlo, {self.draws:,} draws, seed {self.seed}: total mean {self.total.mean:.6g} (p5 "
+                        f"{self.total.p5:.6g}, p95 {self.total.p95:.6g}) {self.unit}"
             + (f"; {probabilities}" if probabilities else ""),
             "draws": self.draws,
             "seed": self.seed,
@@ -723,7 +883,16 @@ class UncertaintyResult(BaseModel):
             "total_spread": self.total.model_dump(),
             "inputs": [item.input for item in self.inputs],
             "checks": [
-                {"scheme": c.scheme, "unit": c.unit, "limit": c.limit, "value": c.value.mean, "p5": c.value.p5, "p95": c.value.p95, "probability_qualifies": c.probability_qualifies, "standard_error": c.standard_error}
+                {
+                    "scheme": c.scheme,
+                    "unit": c.unit,
+                    "limit": c.limit,
+                    "value": c.value.mean,
+                    "p5": c.value.p5,
+                    "p95": c.value.p95,
+                    "probability_qualifies": c.probability_qualifies,
+                    "standard_error": c.standard_error,
+                }
                 for c in self.checks
             ],
         }
@@ -748,7 +917,13 @@ class UncertaintyResult(BaseModel):
 
 def input_distribution(name: str, distribution) -> InputDistribution:
     spec = distribution.model_dump()
-    return InputDistribution(input=name, distribution=spec, stated_in=getattr(distribution, "stated_in", ""), default=getattr(distribution, "basis", ""), from_memory=bool(spec.get("from_memory", False)))
+    return InputDistribution(
+        input=name,
+        distribution=spec,
+        stated_in=getattr(distribution, "stated_in", ""),
+        default=getattr(distribution, "basis", ""),
+        from_memory=bool(spec.get("from_memory", False)),
+    )
 
 
 def summary(values: np.ndarray) -> Summary:
@@ -759,7 +934,14 @@ def summary(values: np.ndarray) -> Summary:
         return Summary(mean=nan, std=nan, p5=nan, p50=nan, p95=nan, standard_error=nan)
     p5, p50, p95 = np.percentile(values, [5, 50, 95])
     std = float(values.std(ddof=1)) if count > 1 else 0.0
-    return Summary(mean=float(values.mean()), std=std, p5=float(p5), p50=float(p50), p95=float(p95), standard_error=std / np.sqrt(count))
+    return Summary(
+        mean=float(values.mean()),
+        std=std,
+        p5=float(p5),
+        p50=float(p50),
+        p95=float(p95),
+        standard_error=std / np.sqrt(count),
+    )
 
 
 def probability(hits: np.ndarray) -> Probability:
@@ -768,7 +950,9 @@ def probability(hits: np.ndarray) -> Probability:
     return Probability(probability=p, standard_error=float(np.sqrt(p * (1 - p) / count)) if count else float("nan"))
 
 
-def statuses(scheme, values: np.ndarray, findings: list | None = None, co_product_open: np.ndarray | None = None) -> dict[str, np.ndarray]:
+def statuses(
+    scheme, values: np.ndarray, findings: list | None = None, co_product_open: np.ndarray | None = None
+) -> dict[str, np.ndarray]:
     """Each draw's status under a scheme: the rules read before the threshold are the same for
     every draw (``findings``: a scheme the project is not eligible for is so whatever the value;
     an open rule leaves a draw that meets the threshold undetermined), then the loosest threshold;
@@ -780,7 +964,12 @@ def statuses(scheme, values: np.ndarray, findings: list | None = None, co_produc
         return {Status.QUALIFIES: none, Status.FAILS: none, Status.NOT_ELIGIBLE: ~none, Status.UNDETERMINED: none}
     open_rule = status_of(findings, True) == Status.UNDETERMINED
     forced = none if co_product_open is None else np.asarray(co_product_open, dtype=bool)
-    return {Status.QUALIFIES: met & ~open_rule & ~forced, Status.FAILS: ~met & ~forced, Status.NOT_ELIGIBLE: none, Status.UNDETERMINED: (met & open_rule) | forced}
+    return {
+        Status.QUALIFIES: met & ~open_rule & ~forced,
+        Status.FAILS: ~met & ~forced,
+        Status.NOT_ELIGIBLE: none,
+        Status.UNDETERMINED: (met & open_rule) | forced,
+    }
 
 
 def best_tiers(scheme, values: np.ndarray) -> np.ndarray:
@@ -807,7 +996,9 @@ def draw_columns(plan: Plan, draws: Draws, outcome: Outcome, used: np.ndarray) -
     return columns
 
 
-def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str, keep_draws: bool = False) -> UncertaintyResult:
+def summarise(
+    plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: str, keep_draws: bool = False
+) -> UncertaintyResult:
     count = len(draws.uniform)
     broken, reasons = limit_breaks(plan, draws, count)
     if broken.all():
@@ -816,7 +1007,12 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
     checks = []
     for scheme in outcome.schemes:
         values = outcome.scheme_values[scheme.id][used]
-        by_status = statuses(scheme, values, outcome.scheme_findings.get(scheme.id), outcome.co_product_open.get(scheme.id, np.zeros(len(used), dtype=bool))[used])
+        by_status = statuses(
+            scheme,
+            values,
+            outcome.scheme_findings.get(scheme.id),
+            outcome.co_product_open.get(scheme.id, np.zeros(len(used), dtype=bool))[used],
+        )
         status = {name: probability(hits) for name, hits in by_status.items()}
         tiers = np.where(by_status[Status.QUALIFIES], best_tiers(scheme, values), "none")
         tier_names = [t.tier for t in sorted(scheme.thresholds, key=lambda t: t.limit)] + ["none"]
@@ -862,9 +1058,17 @@ def summarise(plan: Plan, draws: Draws, outcome: Outcome, seed: int, sampling: s
         by_stage={key: summary(value[used]) for key, value in outcome.by_stage.items()},
         by_gas={key: summary(value[used]) for key, value in outcome.by_gas.items()},
         checks=checks,
-        default_basis=grade_defaults(factors_root()).basis if any(item.default.startswith(GRADE_DEFAULT) for item in inputs) else "",
+        default_basis=grade_defaults(factors_root()).basis
+        if any(item.default.startswith(GRADE_DEFAULT) for item in inputs)
+        else "",
     )
-    result._scheme_draws = {scheme.id: (np.asarray(outcome.scheme_values[scheme.id][used], dtype=float), [(t.tier, t.limit) for t in scheme.thresholds]) for scheme in outcome.schemes}
+    result._scheme_draws = {
+        scheme.id: (
+            np.asarray(outcome.scheme_values[scheme.id][used], dtype=float),
+            [(t.tier, t.limit) for t in scheme.thresholds],
+        )
+        for scheme in outcome.schemes
+    }
     result._parameters = params
     result._factors_used = plan.used_rows
     if keep_draws:
@@ -905,7 +1109,13 @@ def monte_carlo(
 
 # --- the same Monte Carlo in bw2calc -------------------------------------------------------
 
-STATS_ARRAYS_TYPES = {"lognormal": 2, "pedigree": 2, "normal": 3, "uniform": 4, "triangular": 5}  # stats_arrays uncertainty type ids
+STATS_ARRAYS_TYPES = {
+    "lognormal": 2,
+    "pedigree": 2,
+    "normal": 3,
+    "uniform": 4,
+    "triangular": 5,
+}  # stats_arrays uncertainty type ids
 
 
 def _uncertainty_row(distribution, scale: float, value: float) -> tuple:
@@ -931,7 +1141,11 @@ def bw2calc_entries(plan: Plan):
     other way, or two factors in one entry, cannot be written as an entry distribution.
     """
     if plan.uncertainty.parameters or plan.uncertainty.correlations:
-        raise InputError(plan.source, "uncertainty", "distributions on factors only, without correlations, for the bw2calc cross-check")
+        raise InputError(
+            plan.source,
+            "uncertainty",
+            "distributions on factors only, without correlations, for the bw2calc cross-check",
+        )
     params = params_with_draws(plan, {})
     inputs = NumericInputs(plan.assessment.factor_set, plan.source)
     check_physical_limits(params, inputs, plan.source)
@@ -940,14 +1154,20 @@ def bw2calc_entries(plan: Plan):
     headline = characterisation(inputs, plan.assessment.gwp)
     _, bwp = import_bw2calc()
     rows = {
-        "technosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.technosphere_values for nan in [float("nan")]],
+        "technosphere": [
+            (0, v, nan, nan, nan, nan, False) for v in matrices.technosphere_values for nan in [float("nan")]
+        ],
         "biosphere": [(0, v, nan, nan, nan, nan, False) for v in matrices.biosphere_values for nan in [float("nan")]],
         "characterization": [(0, v, nan, nan, nan, nan, False) for v in headline for nan in [float("nan")]],
     }
     taken: set = set()
     for factor_id, distribution in plan.uncertainty.factors.items():
         if distribution.distribution not in STATS_ARRAYS_TYPES:
-            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "normal, lognormal, pedigree, uniform or triangular for the bw2calc cross-check")
+            raise InputError(
+                plan.source,
+                f"uncertainty.factors.{factor_id}",
+                "normal, lognormal, pedigree, uniform or triangular for the bw2calc cross-check",
+            )
         value = plan.assessment.factor_set.get(factor_id).value
         doubled = DrawInputs(plan.assessment.factor_set, {factor_id: np.array([value, 2 * value])}, plan.source)
         stacked = build_stacked_matrices(build_inventory(params_with_draws(plan, {}), doubled), 2)
@@ -957,14 +1177,30 @@ def bw2calc_entries(plan: Plan):
             "biosphere": stacked.biosphere_values,
             "characterization": gwp_values.T if gwp_values.ndim == 2 else np.vstack([gwp_values, gwp_values]),
         }
-        entries = [(matrix, entry) for matrix, values in changed.items() for entry in np.flatnonzero(~np.isclose(values[0], values[1], rtol=1e-12, atol=0))]
+        entries = [
+            (matrix, entry)
+            for matrix, values in changed.items()
+            for entry in np.flatnonzero(~np.isclose(values[0], values[1], rtol=1e-12, atol=0))
+        ]
         if len(entries) != 1:
             # bw2calc samples every entry on its own: a factor in several entries would not be the same model
-            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", f"a factor that drives one matrix entry for the bw2calc cross-check, it drives {len(entries)}")
+            raise InputError(
+                plan.source,
+                f"uncertainty.factors.{factor_id}",
+                f"a factor that drives one matrix entry for the bw2calc cross-check, it drives {len(entries)}",
+            )
         matrix, entry = entries[0]
         values = changed[matrix]
-        if (matrix, entry) in taken or not np.isclose(values[1][entry], 2 * values[0][entry], rtol=1e-9) or not values[0][entry] > 0:
-            raise InputError(plan.source, f"uncertainty.factors.{factor_id}", "a factor that enters its matrix entry in proportion, alone, for the bw2calc cross-check")
+        if (
+            (matrix, entry) in taken
+            or not np.isclose(values[1][entry], 2 * values[0][entry], rtol=1e-9)
+            or not values[0][entry] > 0
+        ):
+            raise InputError(
+                plan.source,
+                f"uncertainty.factors.{factor_id}",
+                "a factor that enters its matrix entry in proportion, alone, for the bw2calc cross-check",
+            )
         taken.add((matrix, entry))
         rows[matrix][entry] = _uncertainty_row(distribution, values[0][entry] / value, values[0][entry])
     distributions = {matrix: np.array(items, dtype=bwp.UNCERTAINTY_DTYPE) for matrix, items in rows.items()}
@@ -980,7 +1216,12 @@ def monte_carlo_with_bw2calc(plan: Plan, draws: int, seed: int = DEFAULT_SEED) -
     totals = np.empty(draws)
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
-        lca = bw2calc.LCA({column[inventory.reference]: 1.0}, data_objs=[datapackage(matrices, headline, distributions)], use_distributions=True, seed_override=seed)
+        lca = bw2calc.LCA(
+            {column[inventory.reference]: 1.0},
+            data_objs=[datapackage(matrices, headline, distributions)],
+            use_distributions=True,
+            seed_override=seed,
+        )
         lca.lci()
         lca.lcia()
         totals[0] = lca.score

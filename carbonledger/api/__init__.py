@@ -2,7 +2,8 @@
 
 Each function takes file paths, one ``Assessment`` (the options of the run: factor set, GWP set,
 schemes, overrides, boundary, year, matching; None for the defaults) and the options of its own
-analysis, loads and validates them at the edge, and calls the core and the analyses; none of them prints. ``score`` returns a ``ScoreResult``; ``compare``
+analysis, loads and validates them at the edge, and calls the core and the analyses; none of them prints. ``score``
+returns a ``ScoreResult``; ``compare``
 a ``ComparisonResult``; ``audit_workbook`` an openpyxl workbook and the engine's result.
 
 One module per command family, so that a command imports only what it uses (``carbonledger
@@ -13,7 +14,8 @@ score`` loads ``api.scoring`` and none of the analyses):
 - ``api.comparison``: compare;
 - ``api.portfolios``: recalc (recalc_and_record), lifetime;
 - ``api.operating_plan``: plan, matching_chart;
-- ``api.monte_carlo``: uncertainty, uncertainty_many, headroom, sensitivity, load_uncertainty, ledger records of analyses;
+- ``api.monte_carlo``: uncertainty, uncertainty_many, headroom, sensitivity, load_uncertainty, ledger records of
+analyses;
 - ``api.levers``: qualify;
 - ``api.reports``: report, report_items;
 - ``api.evidence_pack``: pack, verify_pack.

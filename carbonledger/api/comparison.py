@@ -76,7 +76,16 @@ def compare(
             else:
                 found = load_uncertainty(path, distributions)
             if not uncertain_inputs(project, own, found, str(path)).names():
-                spreads.append("no distributions (no [uncertainty] table, no factor rows with pedigree scores, no factor row a default applies to)")
+                spreads.append(
+                    "no distributions (no [uncertainty] table, no factor rows with pedigree scores, no factor row a "
+                    "default applies to)"
+                )
                 continue
-            spreads.append(monte_carlo(project, own, found, draws=draws, seed=seed, source=str(path), project_sha256=sha, series=series))
-    return compare_results(results, basis=basis, schemes=assessment.scheme_list, spreads=spreads if draws is not None else None)
+            spreads.append(
+                monte_carlo(
+                    project, own, found, draws=draws, seed=seed, source=str(path), project_sha256=sha, series=series
+                )
+            )
+    return compare_results(
+        results, basis=basis, schemes=assessment.scheme_list, spreads=spreads if draws is not None else None
+    )

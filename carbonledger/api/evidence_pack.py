@@ -59,7 +59,12 @@ def files_read_by(project, project_file: str | Path) -> dict[str, Path]:
             continue
         path = (base / name).resolve()
         if base not in path.parents:
-            raise InputError(project_file, field, f"a file in the project's folder or below it, to go in the pack (copy '{name}' beside the project file)")
+            raise InputError(
+                project_file,
+                field,
+                f"a file in the project's folder or below it, to go in the pack (copy '{name}' beside the project "
+                "file)",
+            )
         found[path.relative_to(base).as_posix()] = path
     return found
 
@@ -87,7 +92,8 @@ def pack(
     output : str or Path
         The pack (zip) file to write.
     assessment : Assessment or None
-        The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year; a factor CSV or set folder of the user's goes in the pack); None: the
+        The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year; a factor CSV or set
+        folder of the user's goes in the pack); None: the
         defaults (``api.scoring.assessment_or_default``).
     ledger : str, Path or None
         The run ledger whose records of the project go in the pack; default ``$CARBONLEDGER_LEDGER``, else the
@@ -116,20 +122,36 @@ def pack(
     for path in dict.fromkeys(Path(given) for given in rulebooks or []):
         name = f"{PACK_RULEBOOK_FOLDER}/{path.name}"
         if name in packed_rulebooks:
-            raise InputError(path, "--rulebook", f"a file name of its own in the pack ({packed_rulebooks[name]} has the name {path.name} too)")
+            raise InputError(
+                path,
+                "--rulebook",
+                f"a file name of its own in the pack ({packed_rulebooks[name]} has the name {path.name} too)",
+            )
         packed_rulebooks[name] = path
     with using_rulebooks(user_rulebooks(list(packed_rulebooks.values()))):
         return _pack(Path(project_file), output, assessment_or_default(assessment), ledger, force, packed_rulebooks)
 
 
-def _pack(project_file: Path, output, assessment: Assessment, ledger, force, packed_rulebooks: dict[str, Path]) -> tuple[dict, ScoreResult]:
+def _pack(
+    project_file: Path, output, assessment: Assessment, ledger, force, packed_rulebooks: dict[str, Path]
+) -> tuple[dict, ScoreResult]:
     project, _ = load_project(project_file, assessment.project_overrides)
     factor_set = assessment.factor_set
     result = score(project_file, assessment)
-    year = int(getattr(result, "assessment_year", None) or next((c.assessment_period for c in result.checks if c.assessment_period), None) or assessment.year or datetime.now(UTC).year)
+    year = int(
+        getattr(result, "assessment_year", None)
+        or next((c.assessment_period for c in result.checks if c.assessment_period), None)
+        or assessment.year
+        or datetime.now(UTC).year
+    )
     assessment = assessment.but(year=year)
     files = {f"{PACK_PROJECT_FOLDER}/{project_file.name}": project_file.read_bytes()}
-    files.update({f"{PACK_PROJECT_FOLDER}/{name}": path.read_bytes() for name, path in files_read_by(project, project_file).items()})
+    files.update(
+        {
+            f"{PACK_PROJECT_FOLDER}/{name}": path.read_bytes()
+            for name, path in files_read_by(project, project_file).items()
+        }
+    )
     files.update({name: path.read_bytes() for name, path in packed_rulebooks.items()})
     factors_in_pack = ""
     overrides = Path(requested_as(factor_set))
@@ -138,7 +160,13 @@ def _pack(project_file: Path, output, assessment: Assessment, ledger, force, pac
         files[factors_in_pack] = overrides.read_bytes()
     elif overrides.is_dir():
         factors_in_pack = f"factors/{overrides.name}"
-        files.update({f"{factors_in_pack}/{path.name}": path.read_bytes() for path in sorted(overrides.iterdir()) if path.is_file()})
+        files.update(
+            {
+                f"{factors_in_pack}/{path.name}": path.read_bytes()
+                for path in sorted(overrides.iterdir())
+                if path.is_file()
+            }
+        )
     files["result.json"] = result.to_json().encode("utf-8")
     book, _, _ = audit_workbook(project_file, assessment)
     files["workbook.xlsx"] = workbook_bytes(book)
@@ -147,14 +175,23 @@ def _pack(project_file: Path, output, assessment: Assessment, ledger, force, pac
         records = project_history(project_file, ledger)
     except InputError:  # no ledger yet: the pack says so
         records = []
-    files["ledger.json"] = (json.dumps({"project_file": str(project_file.resolve()), "records": records}, indent=2, default=str) + "\n").encode("utf-8")
+    files["ledger.json"] = (
+        json.dumps({"project_file": str(project_file.resolve()), "records": records}, indent=2, default=str) + "\n"
+    ).encode("utf-8")
     manifest = manifest_of(
         files,
         carbonledger_version=result.carbonledger_version,
         assessment_year=year,
         project=f"{PACK_PROJECT_FOLDER}/{project_file.name}",
-        options={"factors": factors_in_pack or factor_set.name, "gwp": assessment.gwp, "schemes": list(assessment.schemes or []), "year": year, "rulebooks": list(packed_rulebooks),
-                 **({"overrides": list(assessment.overrides)} if assessment.overrides else {}), **({"boundary": assessment.boundary} if assessment.boundary else {})},
+        options={
+            "factors": factors_in_pack or factor_set.name,
+            "gwp": assessment.gwp,
+            "schemes": list(assessment.schemes or []),
+            "year": year,
+            "rulebooks": list(packed_rulebooks),
+            **({"overrides": list(assessment.overrides)} if assessment.overrides else {}),
+            **({"boundary": assessment.boundary} if assessment.boundary else {}),
+        },
         factor_set={"name": factor_set.name, "sha256": factor_set.sha256},
         caution=CAUTION,
     )
@@ -223,15 +260,31 @@ def verify_pack(path: str | Path) -> list[tuple[str, object, object, bool]]:
         factor_set = load_factor_set(in_pack if factors.startswith("factors/") else factors)
         expected_sha = manifest.get("factor_set", {}).get("sha256")
         if not factors.startswith("factors/") and expected_sha and factor_set.sha256 != expected_sha:
-            raise InputError(path, "factor_set", f"factor set '{factors}' with sha256 {expected_sha} as packed; this installation's has {factor_set.sha256}")
+            raise InputError(
+                path,
+                "factor_set",
+                f"factor set '{factors}' with sha256 {expected_sha} as packed; this installation's has "
+                f"{factor_set.sha256}",
+            )
         with using_rulebooks(user_rulebooks([Path(folder) / name for name in options.get("rulebooks", [])])):
-            packed_as = Assessment(factor_set, options.get("gwp", DEFAULT_GWP), tuple(options.get("schemes") or ()) or None, tuple(options.get("overrides", ())), options.get("boundary"), options.get("year"))
+            packed_as = Assessment(
+                factor_set,
+                options.get("gwp", DEFAULT_GWP),
+                tuple(options.get("schemes") or ()) or None,
+                tuple(options.get("overrides", ())),
+                options.get("boundary"),
+                options.get("year"),
+            )
             rescored = score(Path(folder) / manifest["project"], packed_as)
     before = packed_figures(json.loads(packed.files["result.json"]))
     after = packed_figures(json.loads(rescored.to_json()))
     rows = []
     for figure in sorted(set(before) | set(after)):
         old, new = before.get(figure), after.get(figure)
-        same = old == new or (isinstance(old, (int, float)) and isinstance(new, (int, float)) and abs(old - new) <= 1e-9 * max(abs(old), abs(new), 1e-12))
+        same = old == new or (
+            isinstance(old, (int, float))
+            and isinstance(new, (int, float))
+            and abs(old - new) <= 1e-9 * max(abs(old), abs(new), 1e-12)
+        )
         rows.append((figure, old, new, same))
     return rows

@@ -81,6 +81,16 @@ def qualify(
     project, _ = load_project(project_file, assessment.project_overrides)
     found = load_uncertainty(project_file, distributions) if confidence is not None else None
     return qualify_with(
-        project, assessment, levers, source=str(project_file), levers_source=str(levers_file),
-        confidence=confidence, draws=draws, seed=seed, sampling=sampling, uncertainty=found, series=project_series(project, project_file), budgets=budgets,
+        project,
+        assessment,
+        levers,
+        source=str(project_file),
+        levers_source=str(levers_file),
+        confidence=confidence,
+        draws=draws,
+        seed=seed,
+        sampling=sampling,
+        uncertainty=found,
+        series=project_series(project, project_file),
+        budgets=budgets,
     )

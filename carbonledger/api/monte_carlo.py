@@ -77,7 +77,8 @@ def uncertainty(
     sampling : str or None
         ``random`` or ``latin_hypercube``; default the distributions' own (random).
     assessment : Assessment or None
-        The run's options (factor set, GWP100 set, schemes (whose probability of qualifying is estimated), overrides, boundary, assessment year); None: the
+        The run's options (factor set, GWP100 set, schemes (whose probability of qualifying is estimated), overrides,
+        boundary, assessment year); None: the
         defaults (``api.scoring.assessment_or_default``).
     progress : callable or None
         Called with the number of draws done (for a progress bar).
@@ -101,8 +102,16 @@ def uncertainty(
     found = load_uncertainty(project_file, distributions)
     project, sha = load_project(project_file, assessment.project_overrides)
     return monte_carlo(
-        project, assessment, found, draws=draws, seed=seed, sampling=sampling, source=str(project_file),
-        progress=progress, project_sha256=sha, series=project_series(project, project_file),
+        project,
+        assessment,
+        found,
+        draws=draws,
+        seed=seed,
+        sampling=sampling,
+        source=str(project_file),
+        progress=progress,
+        project_sha256=sha,
+        series=project_series(project, project_file),
     )
 
 
@@ -155,7 +164,10 @@ def headroom(
     assessment = assessment_or_default(assessment)
     project, _ = load_project(project_file, assessment.project_overrides)
     series = project_series(project, project_file)
-    return [headroom_of(project, assessment, path, scheme, tier, source=str(project_file), series=series) for path in parameters]
+    return [
+        headroom_of(project, assessment, path, scheme, tier, source=str(project_file), series=series)
+        for path in parameters
+    ]
 
 
 def sensitivity(
@@ -187,7 +199,8 @@ def sensitivity(
     seed : int
         Seed of the scrambled Sobol sample and of the indices' bootstrap (the same seed gives the same indices).
     assessment : Assessment or None
-        The run's options (factor set, GWP100 set, schemes (replaced by ``scheme`` when it is given), overrides, boundary, assessment year); None: the
+        The run's options (factor set, GWP100 set, schemes (replaced by ``scheme`` when it is given), overrides,
+        boundary, assessment year); None: the
         defaults (``api.scoring.assessment_or_default``).
     swing : float
         The one-at-a-time move of each input, per cent of its own value.
@@ -210,7 +223,14 @@ def sensitivity(
     found = load_uncertainty(project_file, distributions)
     project, _ = load_project(project_file, assessment.project_overrides)
     return sensitivity_of(
-        project, assessment, found, scheme=scheme, base_sample=base_sample, seed=seed, source=str(project_file), series=project_series(project, project_file),
+        project,
+        assessment,
+        found,
+        scheme=scheme,
+        base_sample=base_sample,
+        seed=seed,
+        source=str(project_file),
+        series=project_series(project, project_file),
         swing_percent=swing,
     )
 
@@ -235,7 +255,8 @@ def analysis_record(
     summary : dict
         The analysis's summary for the ledger (``Sensitivity.summary_for_ledger()``, ``headroom_summary``).
     assessment : Assessment or None
-        The run's options (factor set, GWP100 set, schemes the analysis looked at, overrides, boundary, assessment year); None: the
+        The run's options (factor set, GWP100 set, schemes the analysis looked at, overrides, boundary, assessment
+        year); None: the
         defaults (``api.scoring.assessment_or_default``).
 
     Returns
@@ -263,7 +284,9 @@ def analysis_record(
     )
 
 
-def headroom_record(results: list[Headroom], project_file: str | Path, assessment: Assessment | None = None) -> LedgerRecord:
+def headroom_record(
+    results: list[Headroom], project_file: str | Path, assessment: Assessment | None = None
+) -> LedgerRecord:
     """The run-ledger record of a headroom search.
 
     Parameters
@@ -280,7 +303,12 @@ def headroom_record(results: list[Headroom], project_file: str | Path, assessmen
     LedgerRecord
         The record of kind ``headroom``, not yet written.
     """
-    return analysis_record("headroom", project_file, headroom_summary(results), assessment_or_default(assessment).but(schemes=(results[0].scheme,)))
+    return analysis_record(
+        "headroom",
+        project_file,
+        headroom_summary(results),
+        assessment_or_default(assessment).but(schemes=(results[0].scheme,)),
+    )
 
 
 def uncertainty_one(task: tuple) -> UncertaintyResult:
@@ -330,7 +358,8 @@ def uncertainty_many(
     sampling : str or None
         ``random`` or ``latin_hypercube``; default the distributions' own (random).
     assessment : Assessment or None
-        The run's options (factor set, GWP100 set, schemes (whose probability of qualifying is estimated), overrides, boundary, assessment year); None: the
+        The run's options (factor set, GWP100 set, schemes (whose probability of qualifying is estimated), overrides,
+        boundary, assessment year); None: the
         defaults (``api.scoring.assessment_or_default``).
     workers : int or None
         Run on a local Dask cluster of this many worker processes.
@@ -351,7 +380,13 @@ def uncertainty_many(
        correlation among input variables. Communications in Statistics B 11(3), 311-334.
     """
     files = project_files(paths)
-    options = {"distributions": distributions, "draws": draws, "seed": seed, "sampling": sampling, "assessment": assessment_or_default(assessment)}
+    options = {
+        "distributions": distributions,
+        "draws": draws,
+        "seed": seed,
+        "sampling": sampling,
+        "assessment": assessment_or_default(assessment),
+    }
     for path in files:  # every bad input is found before any work starts
         load_uncertainty(path, distributions)
     tasks = [(str(path), options) for path in files]

@@ -78,12 +78,19 @@ def plan(
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to plan against")
     result = plan_project(
-        project, assessment, series, scheme, source=str(project_file), project_sha256=sha, tier=tier, rated_kw=rated_kw, min_load=min_load,
-        part_load=part_load, hydrogen_price=hydrogen_price,
+        project,
+        assessment,
+        series,
+        scheme,
+        source=str(project_file),
+        project_sha256=sha,
+        tier=tier,
+        rated_kw=rated_kw,
+        min_load=min_load,
+        part_load=part_load,
+        hydrogen_price=hydrogen_price,
     )
     return result, series
-
-
 
 
 def matching_chart(
@@ -135,7 +142,9 @@ def matching_chart(
     series = project_series(project, project_file)
     if series is None:
         raise InputError(project_file, "electricity.time_series", "a time series CSV to chart the matching of")
-    prepared = assessment.but(schemes=(scheme,) if scheme else None).prepare(project, source=str(project_file), project_sha256=sha, matched_periods=series_matched_periods(series))
+    prepared = assessment.but(schemes=(scheme,) if scheme else None).prepare(
+        project, source=str(project_file), project_sha256=sha, matched_periods=series_matched_periods(series)
+    )
     solutions = solve_with_bw2calc(prepared)
     rulebook = prepared.chosen[0]
     model = electricity_model(prepared, solutions, rulebook, list(series.generation_kwh))

@@ -78,7 +78,17 @@ def recalc(
         target = run_target(ledger, inputs, command, "recalc")
     writing = target if target is not None and not open_run(target) else None
     with dask_mapper(workers, scheduler) as (mapper, chunks):
-        result = recalc_portfolio(projects, old_set, new_set, gwp=gwp, schemes=schemes, year=year, mapper=mapper, chunks=chunks, run_piece=functools.partial(recalc_and_record, writing))
+        result = recalc_portfolio(
+            projects,
+            old_set,
+            new_set,
+            gwp=gwp,
+            schemes=schemes,
+            year=year,
+            mapper=mapper,
+            chunks=chunks,
+            run_piece=functools.partial(recalc_and_record, writing),
+        )
     result.ledger_run = target
     return result
 
@@ -103,7 +113,9 @@ def recalc_and_record(target: RunTarget | None, piece: tuple) -> RecalcPiece:
     """
     part = recalc_piece(piece)
     if target is not None:
-        items = [(f"old {Path(s.project_file).resolve()}", s) for s in part.old_scores] + [(f"new {Path(s.project_file).resolve()}", s) for s in part.new_scores]
+        items = [(f"old {Path(s.project_file).resolve()}", s) for s in part.old_scores] + [
+            (f"new {Path(s.project_file).resolve()}", s) for s in part.new_scores
+        ]
         write_batch(target, items)
     return part
 

@@ -64,14 +64,18 @@ def report_items(
     items = []
     for path in project_files(list(paths)):
         project, sha, series = read(assessment, path)
-        prepared, solutions, result = assess_solved(assessment, project, source=str(path), project_sha256=sha, series=series, solver="numpy")
+        prepared, solutions, result = assess_solved(
+            assessment, project, source=str(path), project_sha256=sha, series=series, solver="numpy"
+        )
         views = matching_views(prepared, solutions, result, series) if series is not None else []
         life = None
         if project.lifetime is not None:
             life = lifetime_score(project, assessment, project_file=str(path), project_sha256=sha)
         spread = None
         if "uncertainty" in read_project_file(path)[0]:
-            spread = monte_carlo(project, assessment, load_uncertainty(path), draws=draws, seed=seed, source=str(path), series=series)
+            spread = monte_carlo(
+                project, assessment, load_uncertainty(path), draws=draws, seed=seed, source=str(path), series=series
+            )
         found = qualify(path, levers, assessment, budgets=0) if levers is not None else None
         items.append(ProjectReport(result, parameter_table(project), life, views, spread, found))
     return items

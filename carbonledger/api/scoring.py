@@ -66,7 +66,9 @@ def assessment_or_default(assessment: Assessment | None) -> Assessment:
     return assessment if assessment is not None else Assessment(load_factor_set(DEFAULT_SET))
 
 
-def score(project_file: str | Path, assessment: Assessment | None = None, *, matched_periods: dict | None = None) -> ScoreResult:
+def score(
+    project_file: str | Path, assessment: Assessment | None = None, *, matched_periods: dict | None = None
+) -> ScoreResult:
     """Score a project file under an assessment's options: carbon intensity, by stage and gas, with scheme checks
     (``analyses.pipeline``: read, prepare, solve, judge, match its series), stating any share that took up
     the difference to 1 (``--rebalance``).
@@ -99,7 +101,14 @@ def score(project_file: str | Path, assessment: Assessment | None = None, *, mat
     """
     assessment = assessment_or_default(assessment)
     project, sha, series = read(assessment, project_file)
-    result = assess(assessment, project, source=str(project_file), project_sha256=sha, series=series, matched_periods=matched_periods)
+    result = assess(
+        assessment,
+        project,
+        source=str(project_file),
+        project_sha256=sha,
+        series=series,
+        matched_periods=matched_periods,
+    )
     return stating_rebalance(result, project, list(assessment.overrides))
 
 
@@ -124,7 +133,9 @@ def stating_rebalance(result: ScoreResult, project, overrides: list[str] | None)
     names = rebalanced_sources(overrides)
     if not names:
         return result
-    return result.model_copy(update={"rebalanced_shares": {name: project.electricity.sources[name].share for name in names}})
+    return result.model_copy(
+        update={"rebalanced_shares": {name: project.electricity.sources[name].share for name in names}}
+    )
 
 
 def user_rulebooks(paths: list[str | Path]):

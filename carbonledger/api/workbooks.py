@@ -27,7 +27,9 @@ from .monte_carlo import load_uncertainty
 from .scoring import assessment_or_default, requested_as, stating_rebalance
 
 
-def cover_assessment(path: str | Path, factors: str | None = None, gwp: str | None = None, schemes: list[str] | None = None) -> Assessment:
+def cover_assessment(
+    path: str | Path, factors: str | None = None, gwp: str | None = None, schemes: list[str] | None = None
+) -> Assessment:
     """The assessment recorded on an audit workbook's cover (factor set as requested, GWP100 set, schemes),
     any of them replaced by the one given: what ``score --from-workbook`` and ``workbook --from-workbook``
     assess unless told otherwise.
@@ -51,7 +53,9 @@ def cover_assessment(path: str | Path, factors: str | None = None, gwp: str | No
         the workbook is scored).
     """
     _, _, settings = load_project_from_workbook(path)
-    return Assessment(base_factor_set(settings, factors), gwp or settings.gwp, tuple(schemes or settings.schemes or ()) or None)
+    return Assessment(
+        base_factor_set(settings, factors), gwp or settings.gwp, tuple(schemes or settings.schemes or ()) or None
+    )
 
 
 def score_workbook(path: str | Path, assessment: Assessment | None = None) -> ScoreResult:
@@ -74,7 +78,15 @@ def score_workbook(path: str | Path, assessment: Assessment | None = None) -> Sc
     assessment = assessment or cover_assessment(path)
     project, sha, _ = load_project_from_workbook(path, assessment.project_overrides)
     factor_set = factor_set_from_workbook(path, assessment.factor_set)
-    result = score_project(project, factor_set, gwp=assessment.gwp, schemes=assessment.scheme_list, source=str(path), project_sha256=sha, year=assessment.year)
+    result = score_project(
+        project,
+        factor_set,
+        gwp=assessment.gwp,
+        schemes=assessment.scheme_list,
+        source=str(path),
+        project_sha256=sha,
+        year=assessment.year,
+    )
     return stating_rebalance(result, project, list(assessment.overrides))
 
 
@@ -109,7 +121,9 @@ class AuditWorkbook:
     book: object  # openpyxl Workbook
     engine: ScoreResult  # the design project, scored by the engine
     spread: UncertaintyResult | None = None  # the Monte Carlo of the Uncertainty sheet
-    metered_year: float | None = None  # with meters: every metered month together, output-weighted, in the engine's unit
+    metered_year: float | None = (
+        None  # with meters: every metered month together, output-weighted, in the engine's unit
+    )
 
     def __iter__(self):
         return iter((self.book, self.engine, self.spread))
@@ -122,7 +136,13 @@ def _workbook_inputs(project_file, from_workbook, assessment: Assessment):
         project, sha = load_project(project_file, assessment.project_overrides)
         return project, sha, assessment.factor_set, {}, str(project_file)
     project, sha, settings = load_project_from_workbook(from_workbook, assessment.project_overrides)
-    return project, sha, factor_set_from_workbook(from_workbook, assessment.factor_set), settings.evidence, str(from_workbook)
+    return (
+        project,
+        sha,
+        factor_set_from_workbook(from_workbook, assessment.factor_set),
+        settings.evidence,
+        str(from_workbook),
+    )
 
 
 def _stated_distributions(project_file, from_workbook, distributions) -> Uncertainty:
@@ -136,7 +156,12 @@ def _stated_distributions(project_file, from_workbook, distributions) -> Uncerta
 def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, schemes):
     """(meters, month results) of a metered year; only a project scored cradle-to-gate (meters describe the plant)."""
     if project.project.boundary != "cradle-to-gate":
-        raise InputError(periods, "--periods", f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; pass --boundary cradle-to-gate")
+        raise InputError(
+            periods,
+            "--periods",
+            f"a project scored cradle-to-gate (meters describe the plant), got boundary '{project.project.boundary}'; "
+            "pass --boundary cradle-to-gate",
+        )
     meters = read_meters(periods, project)
     return meters, month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
 
@@ -198,13 +223,47 @@ def audit_workbook(
     project, sha, factor_set, evidence, source = _workbook_inputs(project_file, from_workbook, assessment)
     gwp, schemes, year = assessment.gwp, assessment.scheme_list, assessment.year
     engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year)
-    meters, months = _metered(periods, project, factor_set, gwp, engine, schemes) if periods is not None else (None, None)
-    series = project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
-    scored = assessment.but(factor_set=factor_set, overrides=(), boundary=None, matching=None)  # the project as read, its edited factors
-    matched = None if series is None else assess(scored, project, source=source, project_sha256=sha, series=series).checks
-    spread = None if draws is None else monte_carlo(
-        project, scored, _stated_distributions(project_file, from_workbook, distributions), draws=draws, seed=seed, source=source,
-        keep_draws=keep_draws, project_sha256=sha, series=series)
-    workbook = build_workbook(engine, project, factor_set, factors_option=requested_as(assessment.factor_set), meters=meters, month_results=months, meters_source=str(periods or ""),
-                              evidence=evidence, uncertainty=spread, draws_csv=draws_csv, series=series, matched_checks=matched)
-    return AuditWorkbook(workbook, engine, spread, metered_year(meters, project.project.product, months) if months else None)
+    meters, months = (
+        _metered(periods, project, factor_set, gwp, engine, schemes) if periods is not None else (None, None)
+    )
+    series = (
+        project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
+    )
+    scored = assessment.but(
+        factor_set=factor_set, overrides=(), boundary=None, matching=None
+    )  # the project as read, its edited factors
+    matched = (
+        None if series is None else assess(scored, project, source=source, project_sha256=sha, series=series).checks
+    )
+    spread = (
+        None
+        if draws is None
+        else monte_carlo(
+            project,
+            scored,
+            _stated_distributions(project_file, from_workbook, distributions),
+            draws=draws,
+            seed=seed,
+            source=source,
+            keep_draws=keep_draws,
+            project_sha256=sha,
+            series=series,
+        )
+    )
+    workbook = build_workbook(
+        engine,
+        project,
+        factor_set,
+        factors_option=requested_as(assessment.factor_set),
+        meters=meters,
+        month_results=months,
+        meters_source=str(periods or ""),
+        evidence=evidence,
+        uncertainty=spread,
+        draws_csv=draws_csv,
+        series=series,
+        matched_checks=matched,
+    )
+    return AuditWorkbook(
+        workbook, engine, spread, metered_year(meters, project.project.product, months) if months else None
+    )

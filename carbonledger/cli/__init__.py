@@ -68,7 +68,11 @@ def docstring(name: str) -> str:
     """The docstring of a command's function, read from its module's source (nothing imported)."""
     module_name, function_name = COMMANDS[name]
     tree = ast.parse((Path(__file__).parent / f"{module_name}.py").read_text(encoding="utf-8"))
-    return next(ast.get_docstring(node) or "" for node in tree.body if isinstance(node, ast.FunctionDef) and node.name == function_name)
+    return next(
+        ast.get_docstring(node) or ""
+        for node in tree.body
+        if isinstance(node, ast.FunctionDef) and node.name == function_name
+    )
 
 
 class LazyGroup(WordsGroup):
@@ -98,7 +102,8 @@ app = typer.Typer(
     add_completion=False,
     no_args_is_help=True,
     rich_markup_mode=None,
-    help="Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for screening and reporting support, not a certification.",
+    help="Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for "
+         "screening and reporting support, not a certification.",
 )
 
 
@@ -110,9 +115,12 @@ def _version(value: bool) -> None:
 
 @app.callback()
 def _main(
-    version: Annotated[bool, typer.Option("--version", callback=_version, is_eager=True, help="Print the version and exit.")] = False,
+    version: Annotated[
+        bool, typer.Option("--version", callback=_version, is_eager=True, help="Print the version and exit.")
+    ] = False,
 ) -> None:
-    """Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for screening and reporting support, not a certification."""
+    """Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for screening
+    and reporting support, not a certification."""
 
 
 def main() -> None:
@@ -122,4 +130,5 @@ def main() -> None:
         sys.stderr.close()
         sys.exit(0)
     finally:
-        gc.freeze()  # the process ends: its last collection skips the heap of the solver's libraries (about 0.3 s of CPU)
+        # the process ends: its last collection skips the heap of the solver's libraries (about 0.3 s of CPU)
+        gc.freeze()

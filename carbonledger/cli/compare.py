@@ -36,20 +36,52 @@ from .options import (
 
 
 def compare(
-    projects: Annotated[Optional[list[Path]], typer.Argument(help="Project TOML files or audit workbooks (.xlsx).")] = None,
+    projects: Annotated[
+        Optional[list[Path]], typer.Argument(help="Project TOML files or audit workbooks (.xlsx).")
+    ] = None,
     boundary: BoundaryOption = None,
     scheme: SchemeOption = None,
     rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     output_format: FormatOption = OutputFormat.table,
-    basis: Annotated[str, typer.Option("--basis", help="auto, t-nh3, kg-h2 or mj (LHV); auto: the products' own unit when all agree, else MJ.")] = "auto",
-    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")] = None,
+    basis: Annotated[
+        str,
+        typer.Option(
+            "--basis", help="auto, t-nh3, kg-h2 or mj (LHV); auto: the products' own unit when all agree, else MJ."
+        ),
+    ] = "auto",
+    chart: Annotated[
+        Optional[Path], typer.Option("--chart", help="Write a stacked bar chart by stage: FILE.png or FILE.svg.")
+    ] = None,
     force: ForceOption = False,
-    from_workbook: Annotated[Optional[list[Path]], typer.Option("--from-workbook", help="An audit workbook to compare, its inputs and edited factors read back (repeatable).")] = None,
-    draws: Annotated[Optional[int], typer.Option("--draws", help="Monte Carlo of each project with N draws (its [uncertainty] table): 5th-95th percentile band, probability of qualifying; error bars on --chart.")] = None,
-    seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")] = DEFAULT_SEED,
-    distributions: Annotated[Optional[Path], typer.Option("--distributions", help="With --draws: distributions TOML laid over every project's [uncertainty] table.")] = None,
+    from_workbook: Annotated[
+        Optional[list[Path]],
+        typer.Option(
+            "--from-workbook",
+            help="An audit workbook to compare, its inputs and edited factors read back (repeatable).",
+        ),
+    ] = None,
+    draws: Annotated[
+        Optional[int],
+        typer.Option(
+            "--draws",
+            help="Monte Carlo of each project with N draws (its [uncertainty] table): 5th-95th percentile band, "
+                 "probability of qualifying; error bars on --chart.",
+        ),
+    ] = None,
+    seed: Annotated[
+        int,
+        typer.Option(
+            "--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers."
+        ),
+    ] = DEFAULT_SEED,
+    distributions: Annotated[
+        Optional[Path],
+        typer.Option(
+            "--distributions", help="With --draws: distributions TOML laid over every project's [uncertainty] table."
+        ),
+    ] = None,
     year: YearOption = None,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -61,9 +93,23 @@ def compare(
         if draws is not None:
             check_draws(draws, seed)
         if draws is None and distributions is not None:
-            raise InputError("compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)")
-        result = api.compare(list(projects or []) + list(from_workbook or []), assessment_of(factors, gwp, scheme, None, boundary, year), basis=basis, draws=draws, seed=seed, distributions=distributions)
-        text = render(output_format, table=lambda: render_comparison(result), json=result.to_json, csv=lambda: comparison_csv(result))
+            raise InputError(
+                "compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)"
+            )
+        result = api.compare(
+            list(projects or []) + list(from_workbook or []),
+            assessment_of(factors, gwp, scheme, None, boundary, year),
+            basis=basis,
+            draws=draws,
+            seed=seed,
+            distributions=distributions,
+        )
+        text = render(
+            output_format,
+            table=lambda: render_comparison(result),
+            json=result.to_json,
+            csv=lambda: comparison_csv(result),
+        )
         if chart is not None:
             write_chart(result, chart, force=force)
         if where is not None:

@@ -39,17 +39,27 @@ def factors_list(
         factor_set = load_factor_set(factors)
     except InputError as error:
         fail(error)
-    show_factors(factor_set, [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)], output_format)
+    show_factors(
+        factor_set, [f for key, f in sorted(factor_set.factors.items()) if key.startswith(prefix)], output_format
+    )
 
 
 def matches(factor, words: list[str]) -> bool:
     """Every word of the search appears (case ignored) in the factor's id, region, source, table or note."""
-    text = " ".join(str(part) for part in (factor.id.replace("_", " "), factor.id, factor.region, factor.source, factor.table, factor.note)).lower()
+    text = " ".join(
+        str(part)
+        for part in (factor.id.replace("_", " "), factor.id, factor.region, factor.source, factor.table, factor.note)
+    ).lower()
     return all(word in text for word in words)
 
 
 def factors_search(
-    text: Annotated[str, typer.Argument(help="Words to find in a factor's id, region, source or note, e.g. 'germany 2024' or 'egrid erct'.")],
+    text: Annotated[
+        str,
+        typer.Argument(
+            help="Words to find in a factor's id, region, source or note, e.g. 'germany 2024' or 'egrid erct'."
+        ),
+    ],
     factors: FactorsOption = "default-2026",
     output_format: FormatOption = OutputFormat.table,
 ) -> None:
@@ -61,7 +71,11 @@ def factors_search(
     words = text.lower().split()
     rows = [f for _, f in sorted(factor_set.factors.items()) if matches(f, words)]
     if not rows:
-        typer.echo(f"No factor of set {factor_set.name} mentions '{text}' in its id, region, source or note; `carbonledger factors list` lists them all.", err=True)
+        typer.echo(
+            f"No factor of set {factor_set.name} mentions '{text}' in its id, region, source or note; `carbonledger "
+            "factors list` lists them all.",
+            err=True,
+        )
     show_factors(factor_set, rows, output_format)
 
 
@@ -77,11 +91,19 @@ def show_factors(factor_set, rows: list, output_format: OutputFormat) -> None:
 
     def table() -> str:
         head = f"factor set {factor_set.name} (sha256 {factor_set.sha256[:12]})"
-        body = plain_table(["id", "value", "grade", "source"], [[f.id, f"{f.value:g} {f.unit}", f.grade.value, f.source] for f in rows], set(), wrap={"value", "source"})
+        body = plain_table(
+            ["id", "value", "grade", "source"],
+            [[f.id, f"{f.value:g} {f.unit}", f.grade.value, f.source] for f in rows],
+            set(),
+            wrap={"value", "source"},
+        )
         legend = f"Source grades: {'; '.join(f'{g.value}: {GRADE_MEANING[g]}' for g in Grade)}."
         summary = factor_grades_sentence(grades_of(rows), len(rows)).replace("factors used", "factors listed")
         width = terminal_width()
-        notes = [textwrap.fill(line, width) for line in [summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"]]
+        notes = [
+            textwrap.fill(line, width)
+            for line in [summary, legend] + ([basis_note] if basis_note else []) + [f"Caution: {CAUTION}"]
+        ]
         return "\n".join([head, body.rstrip("\n"), *notes])
 
     def json_text() -> str:
@@ -91,8 +113,18 @@ def show_factors(factor_set, rows: list, output_format: OutputFormat) -> None:
                 "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256},
                 "factor_grades": grades_of(rows),
                 "from_memory": {"factors": [f.id for f in rows if f.from_memory]},
-                "factors": [{**_listed(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})} for f in rows],
-                **({"accounting_bases": {f"electricity.{kind}.": text for kind, text in ACCOUNTING_BASIS.items()}, "note": basis_note} if basis_note else {}),
+                "factors": [
+                    {**_listed(f), **({"accounting_basis": accounting_basis(f.id)} if accounting_basis(f.id) else {})}
+                    for f in rows
+                ],
+                **(
+                    {
+                        "accounting_bases": {f"electricity.{kind}.": text for kind, text in ACCOUNTING_BASIS.items()},
+                        "note": basis_note,
+                    }
+                    if basis_note
+                    else {}
+                ),
             },
             factor_set.name,
         )
@@ -102,7 +134,9 @@ def show_factors(factor_set, rows: list, output_format: OutputFormat) -> None:
             output_format,
             table=table,
             json=json_text,
-            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(f, column) for column in FACTOR_COLUMNS) for f in rows], caution=CAUTION),
+            csv=lambda: csv_text(
+                FACTOR_COLUMNS, [tuple(getattr(f, column) for column in FACTOR_COLUMNS) for f in rows], caution=CAUTION
+            ),
         ),
         nl=False,
     )
@@ -129,7 +163,13 @@ def factors_show(
         ("source grade", f"{factor.grade.value}: {GRADE_MEANING[factor.grade]}"),
         ("file", factor.origin),
         *(
-            [("pedigree scores", f"({','.join(str(v) for v in factor.pedigree)}) reliability, completeness, temporal, geographical, further technological; basic GSD {factor.basic_gsd or 1:g}")]
+            [
+                (
+                    "pedigree scores",
+                    f"({','.join(str(v) for v in factor.pedigree)}) reliability, completeness, temporal, "
+                    f"geographical, further technological; basic GSD {factor.basic_gsd or 1:g}",
+                )
+            ]
             if factor.pedigree
             else []
         ),
@@ -140,7 +180,9 @@ def factors_show(
             output_format,
             table=lambda: "\n".join(f"{label:>26}: {value}" for label, value in shown),
             json=lambda: strict_json({"caution": CAUTION, **_listed(factor)}, factor.id),
-            csv=lambda: csv_text(FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)], caution=CAUTION),
+            csv=lambda: csv_text(
+                FACTOR_COLUMNS, [tuple(getattr(factor, column) for column in FACTOR_COLUMNS)], caution=CAUTION
+            ),
         ),
         nl=False,
     )
@@ -154,7 +196,12 @@ def factors_sets(output_format: FormatOption = OutputFormat.table) -> None:
         fail(error)
     keys = ("name", "date", "sha256", "base", "factors", "description")
     typer.echo(
-        render(output_format, table=lambda: sets_table(sets), json=lambda: strict_json(sets, "factors sets"), csv=lambda: csv_text(keys, [tuple(s[k] for k in keys) for s in sets])),
+        render(
+            output_format,
+            table=lambda: sets_table(sets),
+            json=lambda: strict_json(sets, "factors sets"),
+            csv=lambda: csv_text(keys, [tuple(s[k] for k in keys) for s in sets]),
+        ),
         nl=False,
     )
 
@@ -177,7 +224,12 @@ def factors_diff(
             output_format,
             table=lambda: diff_table(old_set.name, new_set.name, changes),
             json=lambda: strict_json(
-                {"caution": CAUTION, "old": {"name": old_set.name, "sha256": old_set.sha256}, "new": {"name": new_set.name, "sha256": new_set.sha256}, "changes": rows},
+                {
+                    "caution": CAUTION,
+                    "old": {"name": old_set.name, "sha256": old_set.sha256},
+                    "new": {"name": new_set.name, "sha256": new_set.sha256},
+                    "changes": rows,
+                },
                 f"{old} -> {new}",
             ),
             csv=lambda: csv_text(keys, [tuple(r.get(k, "") for k in keys) for r in rows], caution=CAUTION),
@@ -203,12 +255,20 @@ def factors_grades(
             kind[row.grade.value] += 1
     totals = {grade.value: sum(kind[grade.value] for kind in counts.values()) for grade in Grade}
     header = ("kind", *(grade.value for grade in Grade), "rows")
-    rows = [(kind, *by_grade.values(), sum(by_grade.values())) for kind, by_grade in counts.items()] + [("all", *totals.values(), sum(totals.values()))]
+    rows = [(kind, *by_grade.values(), sum(by_grade.values())) for kind, by_grade in counts.items()] + [
+        ("all", *totals.values(), sum(totals.values()))
+    ]
 
     def table() -> str:
         widths = [max(len(str(row[i])) for row in (header, *rows)) for i in range(len(header))]
         lines = [f"factor set {factor_set.name} (sha256 {factor_set.sha256}): rows by kind and source grade"]
-        lines += ["  ".join(str(cell).rjust(w) if i else str(cell).ljust(w) for i, (cell, w) in enumerate(zip(row, widths, strict=True))) for row in (header, *rows)]
+        lines += [
+            "  ".join(
+                str(cell).rjust(w) if i else str(cell).ljust(w)
+                for i, (cell, w) in enumerate(zip(row, widths, strict=True))
+            )
+            for row in (header, *rows)
+        ]
         lines.append(f"Source grades: {'; '.join(f'{g.value}: {GRADE_MEANING[g]}' for g in Grade)}.")
         return "\n".join(lines + [f"Caution: {CAUTION}"]) + "\n"
 
@@ -216,7 +276,15 @@ def factors_grades(
         render(
             output_format,
             table=table,
-            json=lambda: strict_json({"caution": CAUTION, "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256}, "grades": counts, "all": totals}, factor_set.name),
+            json=lambda: strict_json(
+                {
+                    "caution": CAUTION,
+                    "factor_set": {"name": factor_set.name, "sha256": factor_set.sha256},
+                    "grades": counts,
+                    "all": totals,
+                },
+                factor_set.name,
+            ),
             csv=lambda: csv_text(header, rows, caution=CAUTION),
         ),
         nl=False,

@@ -19,7 +19,13 @@ from ..io.ledger_store import locate
 from ..io.portfolio_output import EXPORT_HEADER, export_rows
 from .options import ForceOption, LedgerOption, SinceOption, UntilOption, UserOption, WordsGroup, end_of, fail
 
-LedgerArgument = Annotated[Optional[str], typer.Argument(help="An SQLite file or a postgresql:// URL; default $CARBONLEDGER_LEDGER or the file in the user's data folder.")]
+LedgerArgument = Annotated[
+    Optional[str],
+    typer.Argument(
+        help="An SQLite file or a postgresql:// URL; default $CARBONLEDGER_LEDGER or the file in the user's data "
+             "folder."
+    ),
+]
 
 
 class ExportFormat(StrEnum):
@@ -34,17 +40,32 @@ def upgrade(ledger: LedgerArgument = None) -> None:
         before, after = upgrade_ledger(where)
     except InputError as error:
         fail(error)
-    done = "already at schema" if before == after else "created with schema" if before == 0 else f"upgraded from schema {before} to"
+    done = (
+        "already at schema"
+        if before == after
+        else "created with schema"
+        if before == 0
+        else f"upgraded from schema {before} to"
+    )
     typer.echo(f"ledger {where}: {done} {after}")
 
 
 def export(
-    project: Annotated[Optional[list[Path]], typer.Option("--project", help="Only these project files, or the projects in these folders (repeatable).")] = None,
+    project: Annotated[
+        Optional[list[Path]],
+        typer.Option("--project", help="Only these project files, or the projects in these folders (repeatable)."),
+    ] = None,
     user: UserOption = None,
     since: SinceOption = None,
     until: UntilOption = None,
-    output_format: Annotated[ExportFormat, typer.Option("--format", help="csv (one row per record and scheme check) or json (one object per record).")] = ExportFormat.csv,
-    output: Annotated[Optional[Path], typer.Option("--output", "-o", help="Write to this file (atomically) instead of standard output.")] = None,
+    output_format: Annotated[
+        ExportFormat,
+        typer.Option("--format", help="csv (one row per record and scheme check) or json (one object per record)."),
+    ] = ExportFormat.csv,
+    output: Annotated[
+        Optional[Path],
+        typer.Option("--output", "-o", help="Write to this file (atomically) instead of standard output."),
+    ] = None,
     force: ForceOption = False,
     ledger: LedgerOption = None,
 ) -> None:
@@ -68,15 +89,26 @@ def export(
 
 def copy(
     source: Annotated[str, typer.Argument(help="The ledger to copy from (SQLite file or postgresql:// URL).")],
-    target: Annotated[str, typer.Argument(help="The ledger to copy into (a new SQLite file is created; a PostgreSQL ledger must exist: `ledger upgrade URL`).")],
+    target: Annotated[
+        str,
+        typer.Argument(
+            help="The ledger to copy into (a new SQLite file is created; a PostgreSQL ledger must exist: `ledger "
+                 "upgrade URL`)."
+        ),
+    ],
 ) -> None:
     """Copy every complete run and record to another ledger, checked by count and sha256 on both sides."""
     try:
         report = copy_ledger(source, target)
     except InputError as error:
         fail(error)
-    typer.echo(f"copied {report.runs_copied} runs ({report.records_copied} records) from {report.source} to {report.target}")
-    typer.echo(f"checked: {report.target} holds all {report.records} records of the {report.runs} runs of {report.source}, each matching its sha256")
+    typer.echo(
+        f"copied {report.runs_copied} runs ({report.records_copied} records) from {report.source} to {report.target}"
+    )
+    typer.echo(
+        f"checked: {report.target} holds all {report.records} records of the {report.runs} runs of {report.source}, "
+        "each matching its sha256"
+    )
     typer.echo(f"sha256 of their sorted record hashes, on both sides: {report.sha256}")
 
 

@@ -24,9 +24,19 @@ from .words import WordsGroup, words_for_types  # noqa: F401  (re-exported: the 
 OutputFormat = StrEnum("OutputFormat", {name: name for name in formats()})  # io.formats: built-in and registered
 
 
-FactorsOption = Annotated[str, typer.Option("--factors", metavar="SET", help="Factor set name, set folder, or override CSV over the default set.")]
-GwpOption = Annotated[str, typer.Option("--gwp", metavar="ar4|ar5|ar6", help="GWP100 set of the headline result: ar4, ar5 or ar6.")]
-SchemeOption = Annotated[Optional[list[str]], typer.Option("--scheme", metavar="ID", help="Scheme id to check (repeatable); default: all that apply.")]
+FactorsOption = Annotated[
+    str,
+    typer.Option("--factors", metavar="SET", help="Factor set name, set folder, or override CSV over the default set."),
+]
+GwpOption = Annotated[
+    str, typer.Option("--gwp", metavar="ar4|ar5|ar6", help="GWP100 set of the headline result: ar4, ar5 or ar6.")
+]
+SchemeOption = Annotated[
+    Optional[list[str]],
+    typer.Option("--scheme", metavar="ID", help="Scheme id to check (repeatable); default: all that apply."),
+]
+
+
 def use_rulebooks(ctx: typer.Context, paths: list[Path] | None) -> list[Path] | None:
     """--rulebook: read and check the user's rulebooks before any work and put them in use for the
     command (checked beside the shipped schemes); one line and exit 2 for a bad file."""
@@ -43,24 +53,84 @@ def use_rulebooks(ctx: typer.Context, paths: list[Path] | None) -> list[Path] | 
 
 RulebookOption = Annotated[
     Optional[list[Path]],
-    typer.Option("--rulebook", metavar="FILE.toml", callback=use_rulebooks, help="A rulebook of your own (an offtake contract, a corporate target) in the format of the shipped ones: checked beside the schemes, marked user rulebook (repeatable)."),
+    typer.Option(
+        "--rulebook",
+        metavar="FILE.toml",
+        callback=use_rulebooks,
+        help="A rulebook of your own (an offtake contract, a corporate target) in the format of the shipped ones: "
+             "checked beside the schemes, marked user rulebook (repeatable).",
+    ),
 ]
 RebalanceOption = Annotated[
     Optional[str],
-    typer.Option("--rebalance", metavar="SOURCE", help="After the --set overrides, this electricity source's share takes up the difference so the shares sum to 1."),
+    typer.Option(
+        "--rebalance",
+        metavar="SOURCE",
+        help="After the --set overrides, this electricity source's share takes up the difference so the shares sum to "
+             "1.",
+    ),
 ]
-SetOption = Annotated[Optional[list[str]], typer.Option("--set", metavar="PATH=VALUE", help="Override a project parameter: dotted.path=value (repeatable).")]
+SetOption = Annotated[
+    Optional[list[str]],
+    typer.Option("--set", metavar="PATH=VALUE", help="Override a project parameter: dotted.path=value (repeatable)."),
+]
 FormatOption = Annotated[OutputFormat, typer.Option("--format", help="table, json or csv.")]
-LedgerOption = Annotated[Optional[str], typer.Option("--ledger", help="Run ledger: an SQLite file or a postgresql:// URL (password from libpq: PGPASSWORD, ~/.pgpass or a service file); default $CARBONLEDGER_LEDGER or a file in the user's data folder.")]
+LedgerOption = Annotated[
+    Optional[str],
+    typer.Option(
+        "--ledger",
+        help="Run ledger: an SQLite file or a postgresql:// URL (password from libpq: PGPASSWORD, ~/.pgpass or a "
+             "service file); default $CARBONLEDGER_LEDGER or a file in the user's data folder.",
+    ),
+]
 NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
-BoundaryOption = Annotated[Optional[str], typer.Option("--boundary", metavar="BOUNDARY", help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.")]
-WorkersOption = Annotated[Optional[int], typer.Option("--workers", help="Run on a local Dask cluster of N worker processes.")]
-SchedulerOption = Annotated[Optional[str], typer.Option("--scheduler", metavar="ADDRESS", help="Run on an existing Dask scheduler at this address (tcp://HOST:PORT).")]
-YearOption = Annotated[Optional[int], typer.Option("--year", metavar="YEAR", help="Assessment year: the scheme rules in force that year decide (temporal matching, additionality, credit period); default the first full calendar year after the project's commissioning date, else this year.")]
+BoundaryOption = Annotated[
+    Optional[str],
+    typer.Option(
+        "--boundary",
+        metavar="BOUNDARY",
+        help="cradle-to-gate, well-to-tank or well-to-wake; default: the project's own.",
+    ),
+]
+WorkersOption = Annotated[
+    Optional[int], typer.Option("--workers", help="Run on a local Dask cluster of N worker processes.")
+]
+SchedulerOption = Annotated[
+    Optional[str],
+    typer.Option(
+        "--scheduler", metavar="ADDRESS", help="Run on an existing Dask scheduler at this address (tcp://HOST:PORT)."
+    ),
+]
+YearOption = Annotated[
+    Optional[int],
+    typer.Option(
+        "--year",
+        metavar="YEAR",
+        help="Assessment year: the scheme rules in force that year decide (temporal matching, additionality, credit "
+             "period); default the first full calendar year after the project's commissioning date, else this year.",
+    ),
+]
 _TIMES = ["%Y-%m-%d", "%Y-%m-%dT%H:%M", "%Y-%m-%dT%H:%M:%S"]
-UserOption = Annotated[Optional[str], typer.Option("--user", help="Only the records made by this user (as recorded: $CARBONLEDGER_USER or the login name).")]
-SinceOption = Annotated[Optional[datetime], typer.Option("--since", formats=_TIMES, help="Only records made at or after this time (UTC): YYYY-MM-DD or YYYY-MM-DDTHH:MM.")]
-UntilOption = Annotated[Optional[datetime], typer.Option("--until", formats=_TIMES, help="Only records made before this time (UTC); a date alone includes that whole day.")]
+UserOption = Annotated[
+    Optional[str],
+    typer.Option(
+        "--user", help="Only the records made by this user (as recorded: $CARBONLEDGER_USER or the login name)."
+    ),
+]
+SinceOption = Annotated[
+    Optional[datetime],
+    typer.Option(
+        "--since", formats=_TIMES, help="Only records made at or after this time (UTC): YYYY-MM-DD or YYYY-MM-DDTHH:MM."
+    ),
+]
+UntilOption = Annotated[
+    Optional[datetime],
+    typer.Option(
+        "--until",
+        formats=_TIMES,
+        help="Only records made before this time (UTC); a date alone includes that whole day.",
+    ),
+]
 ForceOption = Annotated[bool, typer.Option("--force", help="Overwrite an existing output file.")]
 
 
@@ -76,17 +146,34 @@ def with_rebalance(overrides: list[str] | None, source: str | None) -> list[str]
     return overrides if source is None else [*(overrides or []), rebalance_override(source)]
 
 
-def assessment_of(factors, gwp: str | None, schemes: list[str] | None = None, overrides: list[str] | None = None,
-                  boundary: str | None = None, year: int | None = None, matching: str | None = None, *, cover: Path | None = None):
+def assessment_of(
+    factors,
+    gwp: str | None,
+    schemes: list[str] | None = None,
+    overrides: list[str] | None = None,
+    boundary: str | None = None,
+    year: int | None = None,
+    matching: str | None = None,
+    *,
+    cover: Path | None = None,
+):
     """The command's common options as one ``Assessment``, built (and checked) once and passed to the api.
-    ``factors``: a set name, folder or override CSV, or a loaded set. ``cover``: an audit workbook whose cover settings stand for a factor set, GWP set or schemes not given
+    ``factors``: a set name, folder or override CSV, or a loaded set. ``cover``: an audit workbook whose cover settings
+    stand for a factor set, GWP set or schemes not given
     (``factors``/``gwp`` None: not given on the command line; without a cover, the defaults)."""
     if cover is not None:
         found = api.cover_assessment(cover, factors, gwp, schemes)
         return found.but(overrides=tuple(overrides or ()), boundary=boundary, year=year, matching=matching)
     chosen = api.factor_set_of(factors) if factors is not None else api.load_factor_set()
-    return api.Assessment(chosen, schemes=tuple(schemes) if schemes else None, overrides=tuple(overrides or ()), boundary=boundary, year=year, matching=matching,
-                          **({"gwp": gwp} if gwp is not None else {}))
+    return api.Assessment(
+        chosen,
+        schemes=tuple(schemes) if schemes else None,
+        overrides=tuple(overrides or ()),
+        boundary=boundary,
+        year=year,
+        matching=matching,
+        **({"gwp": gwp} if gwp is not None else {}),
+    )
 
 
 def fail(error: InputError) -> None:
@@ -95,10 +182,14 @@ def fail(error: InputError) -> None:
     raise typer.Exit(2)
 
 
-def render(output_format: OutputFormat, *, table: Callable[[], str], json: Callable[[], str], csv: Callable[[], str]) -> str:
+def render(
+    output_format: OutputFormat, *, table: Callable[[], str], json: Callable[[], str], csv: Callable[[], str]
+) -> str:
     """The output text of a command in the chosen format (``io.formats``: every command offers every format)."""
     text = output_text(output_format, table=table, json_text=lambda: json_naming_user_rulebooks(json()), csv=csv)
-    if output_format == OutputFormat.table:  # every table names the user rulebooks in use (a score's names them already)
+    if (
+        output_format == OutputFormat.table
+    ):  # every table names the user rulebooks in use (a score's names them already)
         text += "".join(line + "\n" for line in map(user_rulebook_line, user_rulebooks().values()) if line not in text)
     return text
 
@@ -127,7 +218,9 @@ def check_chart_path(chart: Path | None, force: bool) -> None:
     if chart.suffix.lower().lstrip(".") not in CHART_FORMATS:
         raise InputError(chart, "--chart", f"a file ending in .png or .svg, got '{chart.suffix or 'no suffix'}'")
     if chart.exists() and not force:
-        raise InputError(chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+        raise InputError(
+            chart, "--chart", "a path that does not exist yet (the file exists; pass --force to overwrite it)"
+        )
     check_output_path(chart, force, "--chart")
 
 

@@ -13,7 +13,18 @@ from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.pack import PackMismatch
 from ..io.tables import display_number, plain_table
-from .options import FactorsOption, ForceOption, GwpOption, LedgerOption, NoLedgerOption, RulebookOption, SchemeOption, YearOption, assessment_of, fail
+from .options import (
+    FactorsOption,
+    ForceOption,
+    GwpOption,
+    LedgerOption,
+    NoLedgerOption,
+    RulebookOption,
+    SchemeOption,
+    YearOption,
+    assessment_of,
+    fail,
+)
 
 PACK_MISMATCH_EXIT = 3
 NOT_REPRODUCED_EXIT = 1
@@ -21,7 +32,9 @@ NOT_REPRODUCED_EXIT = 1
 
 def pack(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
-    output: Annotated[Path, typer.Option("-o", "--output", metavar="PACK.zip", help="The evidence pack to write (a zip).")],
+    output: Annotated[
+        Path, typer.Option("-o", "--output", metavar="PACK.zip", help="The evidence pack to write (a zip).")
+    ],
     factors: FactorsOption = "default-2026",
     gwp: GwpOption = "ar6",
     scheme: SchemeOption = None,
@@ -31,15 +44,26 @@ def pack(
     no_ledger: NoLedgerOption = False,
     force: ForceOption = False,
 ) -> None:
-    """Write an evidence pack: the project and its files, factor overrides, result JSON, workbook, report, ledger records and a manifest of sha256."""
+    """Write an evidence pack: the project and its files, factor overrides, result JSON, workbook, report, ledger
+    records and a manifest of sha256."""
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        manifest, result = api.pack(project, output, assessment_of(factors, gwp, scheme, year=year), ledger=ledger, force=force, rulebooks=rulebook)
+        manifest, result = api.pack(
+            project,
+            output,
+            assessment_of(factors, gwp, scheme, year=year),
+            ledger=ledger,
+            force=force,
+            rulebooks=rulebook,
+        )
         if where is not None:
             record_run("pack", [result], ledger=where)
     except InputError as error:
         fail(error)
-    typer.echo(f"wrote {output}: {len(manifest['files'])} files and their sha256, carbonledger {manifest['carbonledger_version']}, assessment year {manifest['assessment_year']}")
+    typer.echo(
+        f"wrote {output}: {len(manifest['files'])} files and their sha256, carbonledger "
+        f"{manifest['carbonledger_version']}, assessment year {manifest['assessment_year']}"
+    )
     typer.echo(f"Caution: {CAUTION}")
 
 
@@ -57,14 +81,30 @@ def verify(
     differing = [row for row in rows if not row[3]]
 
     def shown(value) -> str:
-        return display_number(value) if isinstance(value, (int, float)) and not isinstance(value, bool) else str(value if value is not None else "-")
+        return (
+            display_number(value)
+            if isinstance(value, (int, float)) and not isinstance(value, bool)
+            else str(value if value is not None else "-")
+        )
 
     typer.echo(f"{pack_file}: every file matches its manifest (sha256).")
     if differing:
-        typer.echo(plain_table(["figure", "packed", "re-scored"], [[name, shown(old), shown(new)] for name, old, new, _ in differing], {"packed", "re-scored"}), nl=False)
-        typer.echo(f"NOT reproduced: {len(differing)} of {len(rows)} figures and statuses differ from the packed result.")
+        typer.echo(
+            plain_table(
+                ["figure", "packed", "re-scored"],
+                [[name, shown(old), shown(new)] for name, old, new, _ in differing],
+                {"packed", "re-scored"},
+            ),
+            nl=False,
+        )
+        typer.echo(
+            f"NOT reproduced: {len(differing)} of {len(rows)} figures and statuses differ from the packed result."
+        )
     else:
-        typer.echo(f"Reproduced: all {len(rows)} figures and statuses (total, intensities, stages, gases, each scheme's value, limit, status and tier) re-scored in a fresh folder equal the packed result.")
+        typer.echo(
+            f"Reproduced: all {len(rows)} figures and statuses (total, intensities, stages, gases, each scheme's "
+            "value, limit, status and tier) re-scored in a fresh folder equal the packed result."
+        )
     typer.echo(f"Caution: {CAUTION}")
     if differing:
         raise typer.Exit(NOT_REPRODUCED_EXIT)

@@ -55,17 +55,45 @@ def score(
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
     rebalance: RebalanceOption = None,
-    lifetime: Annotated[bool, typer.Option("--lifetime", help="Score every operating year of the project's [lifetime] and the lifetime average.")] = False,
+    lifetime: Annotated[
+        bool,
+        typer.Option(
+            "--lifetime", help="Score every operating year of the project's [lifetime] and the lifetime average."
+        ),
+    ] = False,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
     boundary: BoundaryOption = None,
     year: YearOption = None,
-    from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover).")] = None,
-    chart: Annotated[Optional[Path], typer.Option("--chart", help="Also write a chart of stages, gases and scheme limits: FILE.png or FILE.svg.")] = None,
+    from_workbook: Annotated[
+        Optional[Path],
+        typer.Option(
+            "--from-workbook", help="Score the inputs and factors of an audit workbook (options default to its cover)."
+        ),
+    ] = None,
+    chart: Annotated[
+        Optional[Path],
+        typer.Option("--chart", help="Also write a chart of stages, gases and scheme limits: FILE.png or FILE.svg."),
+    ] = None,
     force: ForceOption = False,
-    matching_chart: Annotated[Optional[Path], typer.Option("--matching-chart", help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked (monthly matched/unmatched use, unmatched share by hour and month).")] = None,
-    matching: Annotated[Optional[str], typer.Option("--matching", help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared annual shares, as in the audit workbook).")] = None,
+    matching_chart: Annotated[
+        Optional[Path],
+        typer.Option(
+            "--matching-chart",
+            help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked "
+                 "(monthly matched/unmatched use, unmatched share by hour and month).",
+        ),
+    ] = None,
+    matching: Annotated[
+        Optional[str],
+        typer.Option(
+            "--matching",
+            help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, "
+                 "month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared "
+                 "annual shares, as in the audit workbook).",
+        ),
+    ] = None,
 ) -> None:
     """Score a project: total, intensities, by stage, by gas, scheme checks."""
     set_ = with_rebalance(set_, rebalance)
@@ -79,19 +107,47 @@ def score(
             check_chart_path(chart, force)
         if lifetime:
             if from_workbook is not None:
-                raise InputError("--lifetime", "--from-workbook", "a project TOML file (lifetime scoring reads the project's [lifetime] section)")
+                raise InputError(
+                    "--lifetime",
+                    "--from-workbook",
+                    "a project TOML file (lifetime scoring reads the project's [lifetime] section)",
+                )
             result = api.lifetime(project, assessment_of(factors, gwp, scheme, set_, boundary))
-            text = render(output_format, table=lambda: lifetime_table(result), json=lambda: lifetime_json(result), csv=lambda: lifetime_csv(result))
+            text = render(
+                output_format,
+                table=lambda: lifetime_table(result),
+                json=lambda: lifetime_json(result),
+                csv=lambda: lifetime_csv(result),
+            )
             command, kind = "score --lifetime", "lifetime"
         else:
             if from_workbook is not None:
-                result = api.score_workbook(from_workbook, assessment_of(explicit(ctx, "factors", factors), explicit(ctx, "gwp", gwp), scheme, set_, boundary, year, cover=from_workbook))
+                result = api.score_workbook(
+                    from_workbook,
+                    assessment_of(
+                        explicit(ctx, "factors", factors),
+                        explicit(ctx, "gwp", gwp),
+                        scheme,
+                        set_,
+                        boundary,
+                        year,
+                        cover=from_workbook,
+                    ),
+                )
             else:
                 assessment = assessment_of(factors, gwp, scheme, set_, boundary, year, matching)
                 result = api.score(project, assessment)
                 if matching_chart is not None:
-                    api.matching_chart(project, matching_chart, scheme=scheme[0] if scheme else None, assessment=assessment.but(boundary=None), force=force)
-            text = render(output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result))
+                    api.matching_chart(
+                        project,
+                        matching_chart,
+                        scheme=scheme[0] if scheme else None,
+                        assessment=assessment.but(boundary=None),
+                        force=force,
+                    )
+            text = render(
+                output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result)
+            )
             command, kind = "score", "score"
             if chart is not None:
                 write_score_chart(result, chart, force=force)
@@ -112,7 +168,11 @@ def warn_placeholders(project: Path) -> None:
     lines = placeholders_left(project.read_text(encoding="utf-8-sig"))
     if lines:
         shown = ", ".join(map(str, lines[:12])) + (", ..." if len(lines) > 12 else "")
-        typer.echo(f"warning: {project}: {len(lines)} numbers are still the starter's placeholders (lines {shown}): replace each with the plant's own figure and delete its '# placeholder' mark", err=True)
+        typer.echo(
+            f"warning: {project}: {len(lines)} numbers are still the starter's placeholders (lines {shown}): replace "
+            "each with the plant's own figure and delete its '# placeholder' mark",
+            err=True,
+        )
 
 
 def params(
@@ -130,14 +190,19 @@ def params(
     rows = parameter_table(model)
 
     def table() -> str:
-        shown = [[path, "not given" if value is None or value == "" else str(value), unit, description] for path, value, unit, description in rows]
+        shown = [
+            [path, "not given" if value is None or value == "" else str(value), unit, description]
+            for path, value, unit, description in rows
+        ]
         return plain_table(["parameter", "value", "unit", "meaning"], shown, wrap={"value", "unit", "meaning"})
 
     typer.echo(
         render(
             output_format,
             table=table,
-            json=lambda: strict_json([{"path": p, "value": v, "unit": u, "description": d} for p, v, u, d in rows], str(project)),
+            json=lambda: strict_json(
+                [{"path": p, "value": v, "unit": u, "description": d} for p, v, u, d in rows], str(project)
+            ),
             csv=lambda: csv_text(("section", "key", "value", "unit"), [("parameter", p, v, u) for p, v, u, _ in rows]),
         ),
         nl=False,
@@ -154,43 +219,98 @@ def schemes(output_format: FormatOption = OutputFormat.table, rulebook: Rulebook
     def table() -> str:
         lines = []
         for s in books.values():
-            tiers = "; ".join(f"{'<=' if t.inclusive else '<'} {t.limit:g}: {t.tier}" for t in sorted(s.thresholds, key=lambda t: -t.limit))
+            tiers = "; ".join(
+                f"{'<=' if t.inclusive else '<'} {t.limit:g}: {t.tier}"
+                for t in sorted(s.thresholds, key=lambda t: -t.limit)
+            )
             lines += [
                 f"{s.id}{' *' if s.from_memory or any(t.from_memory for t in s.thresholds) else ''}: {s.name}",
-                f"    products {', '.join(s.products)}; limits in {s.unit} of the {s.basis.replace('_', ' ')} product; boundary {s.boundary}",
-                f"    GWP100 {gwp_name(s.gwp)}; electricity: {electricity_rule_name(s.electricity)}; thresholds {tiers}",
+                f"    products {', '.join(s.products)}; limits in {s.unit} of the {s.basis.replace('_', ' ')} "
+                f"product; boundary {s.boundary}",
+                f"    GWP100 {gwp_name(s.gwp)}; electricity: {electricity_rule_name(s.electricity)}; thresholds "
+                f"{tiers}",
                 f"    source: {s.document}",
             ]
             if s.version:
                 lines.append(f"    version read: {s.version}")
             if s.eligibility is not None:
-                lines.append(f"    eligible routes: {', '.join(s.eligibility.routes)}" + (f"; construction before {s.eligibility.construction_start_before.isoformat()}" if s.eligibility.construction_start_before else ""))
+                lines.append(
+                    f"    eligible routes: {', '.join(s.eligibility.routes)}"
+                    + (
+                        f"; construction before {s.eligibility.construction_start_before.isoformat()}"
+                        if s.eligibility.construction_start_before
+                        else ""
+                    )
+                )
             if s.electricity_rules is not None and s.electricity == "renewable_at_zero":
                 rules = s.electricity_rules
-                matching = "; ".join(f"{t.period.replace('_', '-')} {('from ' + t.applies_from.isoformat()) if t.applies_from else ''}{(' until ' + t.applies_until.isoformat()) if t.applies_until else ''}".strip() for t in rules.temporal)
-                lines.append(f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: {matching or 'none stated'}")
+                matching = "; ".join(t.in_words() for t in rules.temporal)
+                lines.append(
+                    f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: "
+                    f"{matching or 'none stated'}"
+                )
             if s.boundary_terms:
                 lines.append(f"    formula terms: {', '.join(t.term for t in s.boundary_terms)}")
         return "\n".join(lines + ["* not yet verified against the source document", f"Caution: {CAUTION}"])
 
     def csv() -> str:
-        header = ("scheme", "name", "tier", "limit", "inclusive", "unit", "quantity", "basis", "gwp", "electricity", "from_memory", "source")
+        header = (
+            "scheme",
+            "name",
+            "tier",
+            "limit",
+            "inclusive",
+            "unit",
+            "quantity",
+            "basis",
+            "gwp",
+            "electricity",
+            "from_memory",
+            "source",
+        )
         rows = []
         for s in books.values():
             for t in s.thresholds:
-                rows.append((s.id, s.name, t.tier, t.limit, t.inclusive, s.unit, s.quantity, s.basis, s.gwp, s.electricity, s.from_memory or t.from_memory, t.source))
+                rows.append(
+                    (
+                        s.id,
+                        s.name,
+                        t.tier,
+                        t.limit,
+                        t.inclusive,
+                        s.unit,
+                        s.quantity,
+                        s.basis,
+                        s.gwp,
+                        s.electricity,
+                        s.from_memory or t.from_memory,
+                        t.source,
+                    )
+                )
         return csv_text(header, rows, caution=CAUTION)
 
     def json_text() -> str:
         flagged = [s.id for s in books.values() if s.from_memory or any(t.from_memory for t in s.thresholds)]
-        return strict_json({"caution": CAUTION, "from_memory": {"rulebooks": flagged}, "schemes": [s.model_dump(mode="json") for s in books.values()]}, "schemes")
+        return strict_json(
+            {
+                "caution": CAUTION,
+                "from_memory": {"rulebooks": flagged},
+                "schemes": [s.model_dump(mode="json") for s in books.values()],
+            },
+            "schemes",
+        )
 
     typer.echo(render(output_format, table=table, json=json_text, csv=csv), nl=False)
 
 
 def init(
     path: Annotated[Path, typer.Argument(help="Where to write the starter project file.")],
-    route: Annotated[str, typer.Option("--route", help="A hydrogen route (hyphens or underscores): " + ", ".join(starter_choices()) + ".")],
+    route: Annotated[
+        str,
+        typer.Option(
+            "--route", help="A hydrogen route (hyphens or underscores): " + ", ".join(starter_choices()) + "."
+        ),
+    ],
     product: Annotated[str, typer.Option("--product", help="ammonia or hydrogen.")] = "ammonia",
     force: Annotated[bool, typer.Option("--force", help="Overwrite an existing file.")] = False,
 ) -> None:

@@ -36,17 +36,38 @@ from .uncertainty import DistributionsOption, SamplingOption, SeedOption
 
 def qualify(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
-    levers: Annotated[Path, typer.Option("--levers", help="Levers TOML file: what may change, within which values, at what cost (docs/qualify.md).")],
-    scheme: Annotated[Optional[list[str]], typer.Option("--scheme", help="Scheme id that must qualify (repeatable); default: the levers file's `schemes`.")] = None,
+    levers: Annotated[
+        Path,
+        typer.Option(
+            "--levers", help="Levers TOML file: what may change, within which values, at what cost (docs/qualify.md)."
+        ),
+    ],
+    scheme: Annotated[
+        Optional[list[str]],
+        typer.Option(
+            "--scheme", help="Scheme id that must qualify (repeatable); default: the levers file's `schemes`."
+        ),
+    ] = None,
     rulebook: RulebookOption = None,
     year: YearOption = None,
-    confidence: Annotated[Optional[float], typer.Option("--confidence", help="Share of Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; default: the central value.")] = None,
-    draws: Annotated[int, typer.Option("--draws", help="Monte Carlo draws with --confidence (common to every candidate).")] = 2000,
+    confidence: Annotated[
+        Optional[float],
+        typer.Option(
+            "--confidence",
+            help="Share of Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; default: "
+                 "the central value.",
+        ),
+    ] = None,
+    draws: Annotated[
+        int, typer.Option("--draws", help="Monte Carlo draws with --confidence (common to every candidate).")
+    ] = 2000,
     seed: SeedOption = DEFAULT_SEED,
     sampling: SamplingOption = None,
     distributions: DistributionsOption = None,
     front: Annotated[int, typer.Option("--front", help="Budgets in the cost/margin front (0: none).")] = FRONT_BUDGETS,
-    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write the cost/margin front: FILE.png or FILE.svg.")] = None,
+    chart: Annotated[
+        Optional[Path], typer.Option("--chart", help="Write the cost/margin front: FILE.png or FILE.svg.")
+    ] = None,
     force: ForceOption = False,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
@@ -56,7 +77,8 @@ def qualify(
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
 ) -> None:
-    """The cheapest lever values with which every named scheme qualifies (at the central value, or with a stated probability)."""
+    """The cheapest lever values with which every named scheme qualifies (at the central value, or with a stated
+    probability)."""
     set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
@@ -66,14 +88,28 @@ def qualify(
             raise InputError(chart, "--chart", "a front of at least 2 budgets (--front)")
         assessment = assessment_of(factors, gwp, scheme, set_, year=year)
         result = api.qualify(
-            project, levers, assessment, confidence=confidence, draws=draws, seed=seed, sampling=sampling.value if sampling else None,
-            distributions=distributions, budgets=front,
+            project,
+            levers,
+            assessment,
+            confidence=confidence,
+            draws=draws,
+            seed=seed,
+            sampling=sampling.value if sampling else None,
+            distributions=distributions,
+            budgets=front,
         )
-        text = render(output_format, table=lambda: qualify_table(result), json=lambda: qualify_json(result), csv=lambda: qualify_csv(result))
+        text = render(
+            output_format,
+            table=lambda: qualify_table(result),
+            json=lambda: qualify_json(result),
+            csv=lambda: qualify_csv(result),
+        )
         if chart is not None:
             write_front_chart(result, chart, force=force)
         if where is not None:
-            record = api.analysis_record("qualify", project, result.summary_for_ledger(), assessment.but(schemes=tuple(result.schemes)))
+            record = api.analysis_record(
+                "qualify", project, result.summary_for_ledger(), assessment.but(schemes=tuple(result.schemes))
+            )
             record_run("qualify", [record], ledger=where)
     except InputError as error:
         fail(error)

@@ -47,11 +47,15 @@ NEW_FAILURE_EXIT_CODE = 3
 def recalc(
     projects: Annotated[list[Path], typer.Argument(help="Project TOML files or folders of them.")],
     to_set: Annotated[str, typer.Option("--to", help="The new factor set (name, folder or override CSV).")],
-    from_set: Annotated[str, typer.Option("--from", help="Factor set the projects were scored with (name, folder or override CSV).")] = "default-2026",
+    from_set: Annotated[
+        str, typer.Option("--from", help="Factor set the projects were scored with (name, folder or override CSV).")
+    ] = "default-2026",
     scheme: SchemeOption = None,
     rulebook: RulebookOption = None,
     gwp: GwpOption = "ar6",
-    fail_on_new_failures: Annotated[bool, typer.Option("--fail-on-new-failures", help="Exit with code 3 when any project newly fails a scheme.")] = False,
+    fail_on_new_failures: Annotated[
+        bool, typer.Option("--fail-on-new-failures", help="Exit with code 3 when any project newly fails a scheme.")
+    ] = False,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
     output_format: FormatOption = OutputFormat.table,
@@ -65,8 +69,15 @@ def recalc(
         command = f"recalc --from {from_set} --to {to_set}"
         old_set = _named(from_set, "--from")
         assessment = assessment_of(_named(to_set, "--to"), gwp, scheme, year=year)  # the new set is the assessment's
-        result = api.recalc(projects, old_set, assessment, workers=workers, scheduler=scheduler, ledger=where, command=command)
-        text = render(output_format, table=lambda: recalc_table(result), json=lambda: recalc_json(result), csv=lambda: recalc_csv(result))
+        result = api.recalc(
+            projects, old_set, assessment, workers=workers, scheduler=scheduler, ledger=where, command=command
+        )
+        text = render(
+            output_format,
+            table=lambda: recalc_table(result),
+            json=lambda: recalc_json(result),
+            csv=lambda: recalc_csv(result),
+        )
         if result.ledger_run is not None:
             close_run(result.ledger_run)  # the workers wrote the records; the run is visible from now on
     except InputError as error:
@@ -85,7 +96,10 @@ def _named(option_value: str, option: str):
 
 
 def history(
-    project: Annotated[Optional[Path], typer.Argument(help="Project TOML file (matched by its full path); default: every project in the ledger.")] = None,
+    project: Annotated[
+        Optional[Path],
+        typer.Argument(help="Project TOML file (matched by its full path); default: every project in the ledger."),
+    ] = None,
     user: UserOption = None,
     since: SinceOption = None,
     until: UntilOption = None,
@@ -97,19 +111,60 @@ def history(
         entries = read_records(ledger, record_filter([project] if project else [], user, since, end_of(until)))
     except InputError as error:
         fail(error)
-    header = ("record", "time", "command", "kind", "factor_set", "factor_set_sha256", "project_sha256", "scheme", "value", "unit", "passes", "status", "factors_not_yet_verified", "project", "user", "host", "carbonledger_version", "assessment_year")
+    header = (
+        "record",
+        "time",
+        "command",
+        "kind",
+        "factor_set",
+        "factor_set_sha256",
+        "project_sha256",
+        "scheme",
+        "value",
+        "unit",
+        "passes",
+        "status",
+        "factors_not_yet_verified",
+        "project",
+        "user",
+        "host",
+        "carbonledger_version",
+        "assessment_year",
+    )
     rows = [
-        (e["record"], e["time"], e["command"], e["kind"], e["factor_set"], e["factor_set_sha256"], e["project_sha256"], c["scheme"], c["value"], c["unit"], c.get("passes", ""), c.get("status", ""), "; ".join(flagged_factors(e)),
-         e["project"], e["user"], e["host"], e["carbonledger_version"], e["assessment_year"])  # fmt: skip
+        (
+            e["record"],
+            e["time"],
+            e["command"],
+            e["kind"],
+            e["factor_set"],
+            e["factor_set_sha256"],
+            e["project_sha256"],
+            c["scheme"],
+            c["value"],
+            c["unit"],
+            c.get("passes", ""),
+            c.get("status", ""),
+            "; ".join(flagged_factors(e)),
+            e["project"],
+            e["user"],
+            e["host"],
+            e["carbonledger_version"],
+            e["assessment_year"],
+        )  # fmt: skip
         for e in entries
-        for c in e["results"].get("checks", [])  # an uncertainty record gives each scheme's mean value; sensitivity and headroom records have no checks
+        for c in e["results"].get(
+            "checks", []
+        )  # an uncertainty record gives each scheme's mean value; sensitivity and headroom records have no checks
     ]
     shown = str(project) if project else ""
     typer.echo(
         render(
             output_format,
             table=lambda: history_table(shown, entries),
-            json=lambda: strict_json({"caution": CAUTION, "project_file": shown or None, "records": entries}, shown or "history"),
+            json=lambda: strict_json(
+                {"caution": CAUTION, "project_file": shown or None, "records": entries}, shown or "history"
+            ),
             csv=lambda: csv_text(header, rows, caution=CAUTION),
         ),
         nl=False,

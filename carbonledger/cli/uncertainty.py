@@ -56,10 +56,24 @@ class Sampling(str, Enum):
     latin_hypercube = "latin_hypercube"
 
 
-DistributionsOption = Annotated[Optional[Path], typer.Option("--distributions", help="Distributions TOML laid over the project's [uncertainty] table (parameter paths and factor ids).")]
+DistributionsOption = Annotated[
+    Optional[Path],
+    typer.Option(
+        "--distributions",
+        help="Distributions TOML laid over the project's [uncertainty] table (parameter paths and factor ids).",
+    ),
+]
 DrawsOption = Annotated[int, typer.Option("--draws", help="Number of Monte Carlo draws.")]
-SeedOption = Annotated[int, typer.Option("--seed", help=f"Seed of the random draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")]
-SamplingOption = Annotated[Optional[Sampling], typer.Option("--sampling", help="random or latin_hypercube; default: the distributions' own (random).")]
+SeedOption = Annotated[
+    int,
+    typer.Option(
+        "--seed", help=f"Seed of the random draws (default {DEFAULT_SEED}); the same seed gives the same numbers."
+    ),
+]
+SamplingOption = Annotated[
+    Optional[Sampling],
+    typer.Option("--sampling", help="random or latin_hypercube; default: the distributions' own (random)."),
+]
 
 
 @contextlib.contextmanager
@@ -76,7 +90,12 @@ def progress_bar(total: int, label: str, output_format: OutputFormat):
 
 
 def uncertainty(
-    project: Annotated[list[Path], typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions), or several files or folders.")],
+    project: Annotated[
+        list[Path],
+        typer.Argument(
+            help="Project TOML file (its [uncertainty] table gives distributions), or several files or folders."
+        ),
+    ],
     draws: DrawsOption = DEFAULT_DRAWS,
     seed: SeedOption = DEFAULT_SEED,
     sampling: SamplingOption = None,
@@ -91,7 +110,13 @@ def uncertainty(
     year: YearOption = None,
     workers: WorkersOption = None,
     scheduler: SchedulerOption = None,
-    chart: Annotated[Optional[Path], typer.Option("--chart", help="One project: write a histogram of each scheme's value with its thresholds, FILE.png or FILE.svg.")] = None,
+    chart: Annotated[
+        Optional[Path],
+        typer.Option(
+            "--chart",
+            help="One project: write a histogram of each scheme's value with its thresholds, FILE.png or FILE.svg.",
+        ),
+    ] = None,
     force: ForceOption = False,
     output_format: FormatOption = OutputFormat.table,
     ledger: LedgerOption = None,
@@ -114,7 +139,12 @@ def uncertainty(
         if single:
             with progress_bar(draws, "Monte Carlo draws", output_format) as advance:
                 result = api.uncertainty(project[0], progress=advance, **options)
-            text = render(output_format, table=lambda: uncertainty_table(result), json=result.to_json, csv=lambda: uncertainty_csv(result))
+            text = render(
+                output_format,
+                table=lambda: uncertainty_table(result),
+                json=result.to_json,
+                csv=lambda: uncertainty_csv(result),
+            )
             if chart is not None:
                 write_uncertainty_chart(result, chart, force=force)
             results = [result]
@@ -124,7 +154,12 @@ def uncertainty(
             if set_:
                 raise InputError("--set", set_[0], "no --set with several projects (set values in each project file)")
             results = api.uncertainty_many(project, workers=workers, scheduler=scheduler, **options)
-            text = render(output_format, table=lambda: portfolio_uncertainty_table(results), json=lambda: portfolio_uncertainty_json(results), csv=lambda: portfolio_uncertainty_csv(results))
+            text = render(
+                output_format,
+                table=lambda: portfolio_uncertainty_table(results),
+                json=lambda: portfolio_uncertainty_json(results),
+                csv=lambda: portfolio_uncertainty_csv(results),
+            )
         if where is not None:
             record_run("uncertainty", results, ledger=where, kind="uncertainty")
     except InputError as error:
@@ -136,10 +171,14 @@ def uncertainty(
 
 def headroom(
     project: Annotated[Path, typer.Argument(help="Project TOML file.")],
-    parameter: Annotated[list[str], typer.Option("--parameter", help="Parameter path as `carbonledger params` lists it (repeatable).")],
+    parameter: Annotated[
+        list[str], typer.Option("--parameter", help="Parameter path as `carbonledger params` lists it (repeatable).")
+    ],
     scheme: Annotated[str, typer.Option("--scheme", help="Scheme id (see `carbonledger schemes`).")],
     rulebook: RulebookOption = None,
-    tier: Annotated[Optional[str], typer.Option("--tier", help="Tier name of the scheme; default its loosest threshold.")] = None,
+    tier: Annotated[
+        Optional[str], typer.Option("--tier", help="Tier name of the scheme; default its loosest threshold.")
+    ] = None,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
     set_: SetOption = None,
@@ -156,7 +195,12 @@ def headroom(
         where = ledger_for_run(ledger, not no_ledger)
         assessment = assessment_of(factors, gwp, None, set_, boundary, year)
         results = api.headroom(project, parameter, scheme, tier=tier, assessment=assessment)
-        text = render(output_format, table=lambda: headroom_table(results), json=lambda: headroom_json(results), csv=lambda: headroom_csv(results))
+        text = render(
+            output_format,
+            table=lambda: headroom_table(results),
+            json=lambda: headroom_json(results),
+            csv=lambda: headroom_csv(results),
+        )
         if where is not None:
             record_run("headroom", [api.headroom_record(results, project, assessment)], ledger=where)
     except InputError as error:
@@ -166,12 +210,19 @@ def headroom(
 
 def sensitivity(
     project: Annotated[Path, typer.Argument(help="Project TOML file (its [uncertainty] table gives distributions).")],
-    scheme: Annotated[Optional[str], typer.Option("--scheme", help="Scheme id: analyse its value (limit marked on the chart); default the total.")] = None,
+    scheme: Annotated[
+        Optional[str],
+        typer.Option("--scheme", help="Scheme id: analyse its value (limit marked on the chart); default the total."),
+    ] = None,
     rulebook: RulebookOption = None,
-    base_sample: Annotated[int, typer.Option("--base-sample", help="N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).")] = 1024,
+    base_sample: Annotated[
+        int, typer.Option("--base-sample", help="N of the Sobol sample, a power of 2 (evaluations: N x (inputs + 2)).")
+    ] = 1024,
     seed: SeedOption = DEFAULT_SEED,
     distributions: DistributionsOption = None,
-    chart: Annotated[Optional[Path], typer.Option("--chart", help="Write the tornado and Sobol chart: FILE.png or FILE.svg.")] = None,
+    chart: Annotated[
+        Optional[Path], typer.Option("--chart", help="Write the tornado and Sobol chart: FILE.png or FILE.svg.")
+    ] = None,
     force: ForceOption = False,
     gwp: GwpOption = "ar6",
     factors: FactorsOption = "default-2026",
@@ -179,7 +230,14 @@ def sensitivity(
     rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
     year: YearOption = None,
-    swing: Annotated[float, typer.Option("--swing", help="Also move each factor and numeric parameter alone by -PERCENT and +PERCENT of its own value: the change of the total and of every scheme's value.")] = SWING_PERCENT,
+    swing: Annotated[
+        float,
+        typer.Option(
+            "--swing",
+            help="Also move each factor and numeric parameter alone by -PERCENT and +PERCENT of its own value: the "
+                 "change of the total and of every scheme's value.",
+        ),
+    ] = SWING_PERCENT,
     output_format: FormatOption = OutputFormat.table,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -191,8 +249,21 @@ def sensitivity(
         check_chart_path(chart, force)
         check_swing(swing)
         assessment = assessment_of(factors, gwp, [scheme] if scheme else None, set_, boundary, year)
-        result = api.sensitivity(project, distributions=distributions, scheme=scheme, base_sample=base_sample, seed=seed, assessment=assessment, swing=swing)
-        text = render(output_format, table=lambda: sensitivity_table(result), json=lambda: result.model_dump_json(indent=2), csv=lambda: sensitivity_csv(result))
+        result = api.sensitivity(
+            project,
+            distributions=distributions,
+            scheme=scheme,
+            base_sample=base_sample,
+            seed=seed,
+            assessment=assessment,
+            swing=swing,
+        )
+        text = render(
+            output_format,
+            table=lambda: sensitivity_table(result),
+            json=lambda: result.model_dump_json(indent=2),
+            csv=lambda: sensitivity_csv(result),
+        )
         if chart is not None:
             write_sensitivity_chart(result, chart, force=force)
         if where is not None:

@@ -34,7 +34,8 @@ from .options import (
 
 
 def headline_figure(result, metered: float | None, periods: Path | None) -> str:
-    """The figure the command prints: with meters the metered year (the Periods sheet's year row), the design figure beside it."""
+    """The figure the command prints: with meters the metered year (the Periods sheet's year row), the design figure
+    beside it."""
     if metered is None:
         return f"{result.total:,.4g} {result.unit}"
     return f"metered year {metered:,.4g} {result.unit} ({periods.name}, output-weighted; design {result.total:,.4g})"
@@ -51,13 +52,43 @@ def workbook(
     set_: SetOption = None,
     rebalance: RebalanceOption = None,
     boundary: BoundaryOption = None,
-    periods: Annotated[Optional[Path], typer.Option("--periods", help="CSV of metered monthly data: one calculation block per month and a yearly summary.")] = None,
-    from_workbook: Annotated[Optional[Path], typer.Option("--from-workbook", help="Read inputs and edited factors from an earlier audit workbook.")] = None,
-    draws: Annotated[Optional[int], typer.Option("--draws", help="Add an Uncertainty sheet: a Monte Carlo of N draws over the project's [uncertainty] table (and --distributions).")] = None,
-    seed: Annotated[int, typer.Option("--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers.")] = DEFAULT_SEED,
-    distributions: Annotated[Optional[Path], typer.Option("--distributions", help="Distributions TOML laid over the project's [uncertainty] table (with --draws).")] = None,
+    periods: Annotated[
+        Optional[Path],
+        typer.Option(
+            "--periods", help="CSV of metered monthly data: one calculation block per month and a yearly summary."
+        ),
+    ] = None,
+    from_workbook: Annotated[
+        Optional[Path],
+        typer.Option("--from-workbook", help="Read inputs and edited factors from an earlier audit workbook."),
+    ] = None,
+    draws: Annotated[
+        Optional[int],
+        typer.Option(
+            "--draws",
+            help="Add an Uncertainty sheet: a Monte Carlo of N draws over the project's [uncertainty] table (and "
+                 "--distributions).",
+        ),
+    ] = None,
+    seed: Annotated[
+        int,
+        typer.Option(
+            "--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers."
+        ),
+    ] = DEFAULT_SEED,
+    distributions: Annotated[
+        Optional[Path],
+        typer.Option(
+            "--distributions", help="Distributions TOML laid over the project's [uncertainty] table (with --draws)."
+        ),
+    ] = None,
     year: YearOption = None,
-    draws_csv: Annotated[bool, typer.Option("--draws-csv", help="With --draws: also write every draw to OUTPUT.draws.csv beside the workbook.")] = False,
+    draws_csv: Annotated[
+        bool,
+        typer.Option(
+            "--draws-csv", help="With --draws: also write every draw to OUTPUT.draws.csv beside the workbook."
+        ),
+    ] = False,
     force: ForceOption = False,
     ledger: LedgerOption = None,
     no_ledger: NoLedgerOption = False,
@@ -67,24 +98,44 @@ def workbook(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         if draws is None and (draws_csv or distributions is not None):
-            raise InputError("workbook", "--draws", "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)")
+            raise InputError(
+                "workbook",
+                "--draws",
+                "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)",
+            )
         if draws is not None:
             check_draws(draws, seed)
         csv_path = draws_csv_path(output) if draws_csv else None
         if csv_path is not None and csv_path.exists() and not force:
-            raise InputError(csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)")
+            raise InputError(
+                csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)"
+            )
         if csv_path is not None:
             check_output_path(csv_path, force, "--draws-csv")
         if (project is None) == (from_workbook is None):
-            raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
+            raise InputError(
+                "workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)"
+            )
         if output.suffix.lower() != ".xlsx":
-            raise InputError(output, "--output", f"a file ending in .xlsx (an Excel workbook), got '{output.suffix or 'no suffix'}'")
+            raise InputError(
+                output, "--output", f"a file ending in .xlsx (an Excel workbook), got '{output.suffix or 'no suffix'}'"
+            )
         if output.is_dir():
             raise InputError(output, "--output", "a file path, not a folder")
         if output.exists() and not force:
-            raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+            raise InputError(
+                output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)"
+            )
         # with --from-workbook, a factor set or GWP set not given on the command line is the cover's
-        assessment = assessment_of(explicit(ctx, "factors", factors), explicit(ctx, "gwp", gwp), scheme, set_, boundary, year, cover=from_workbook)
+        assessment = assessment_of(
+            explicit(ctx, "factors", factors),
+            explicit(ctx, "gwp", gwp),
+            scheme,
+            set_,
+            boundary,
+            year,
+            cover=from_workbook,
+        )
         audited = api.audit_workbook(
             project,
             assessment,
@@ -106,8 +157,14 @@ def workbook(
                 record_run("workbook", [spread], ledger=where, kind="uncertainty")
     except InputError as error:
         fail(error)
-    typer.echo(f"wrote {output}: {headline_figure(result, audited.metered_year, periods)} ({result.gwp_basis.upper()}, factor set {result.factor_set.name}); {result.caution}")
+    typer.echo(
+        f"wrote {output}: {headline_figure(result, audited.metered_year, periods)} ({result.gwp_basis.upper()}, factor "
+        f"set {result.factor_set.name}); {result.caution}"
+    )
     if spread is not None:
-        typer.echo(f"Uncertainty sheet: {spread.draws:,} draws, seed {spread.seed}: mean {spread.total.mean:,.4g}, p5 {spread.total.p5:,.4g}, p95 {spread.total.p95:,.4g} {spread.unit}")
+        typer.echo(
+            f"Uncertainty sheet: {spread.draws:,} draws, seed {spread.seed}: mean {spread.total.mean:,.4g}, p5 "
+            f"{spread.total.p5:,.4g}, p95 {spread.total.p95:,.4g} {spread.unit}"
+        )
     if csv_path is not None:
         typer.echo(f"wrote {csv_path}")

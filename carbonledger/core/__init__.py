@@ -1,1 +1,2 @@
-"""The calculation core: inventory (from the route registry) -> matrices -> solve -> one scoring path -> one result type."""
+"""The calculation core: inventory (from the route registry) -> matrices -> solve -> one scoring path -> one result
+type."""

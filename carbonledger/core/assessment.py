@@ -76,7 +76,9 @@ class Assessment:
         """The same assessment with some options changed (e.g. another year or scheme)."""
         return replace(self, **changes)
 
-    def prepare(self, project, *, source: str = "project", project_sha256: str = "", matched_periods: dict | None = None) -> Prepared:
+    def prepare(
+        self, project, *, source: str = "project", project_sha256: str = "", matched_periods: dict | None = None
+    ) -> Prepared:
         """A validated project made ready to solve under these options (``core.scoring.prepare``).
 
         Parameters
@@ -95,5 +97,14 @@ class Assessment:
         Prepared
             Inventory, matrices, characterisation vectors and the schemes to check.
         """
-        return prepare(project, self.factor_set, gwp=self.gwp, schemes=self.scheme_list, source=source,
-                       project_sha256=project_sha256, boundary=self.boundary, year=self.year, matching=matched_periods)
+        return prepare(
+            project,
+            self.factor_set,
+            gwp=self.gwp,
+            schemes=self.scheme_list,
+            source=source,
+            project_sha256=project_sha256,
+            boundary=self.boundary,
+            year=self.year,
+            matching=matched_periods,
+        )

@@ -146,6 +146,15 @@ class TemporalRule(Graded):
             self.applies_until is None or day <= self.applies_until
         )
 
+    def in_words(self) -> str:
+        """The period and the dates the rule is in force: 'monthly until 2029-12-31', 'hourly from 2030-01-01'."""
+        words = [self.period.replace("_", "-")]
+        if self.applies_from is not None:
+            words.append(f"from {self.applies_from.isoformat()}")
+        if self.applies_until is not None:
+            words.append(f"until {self.applies_until.isoformat()}")
+        return " ".join(words)
+
 
 class ElectricityRules(Graded):
     """When a kWh counts as fully renewable (or low-carbon) under the scheme, and what the others are charged.
