@@ -136,19 +136,11 @@ def headroom(
     assessment's factor set, GWP set, boundary and year (its schemes are replaced by ``scheme_id``).
 
     ``series``: the project's electricity time series; the scheme value then follows its matching."""
-    from scipy.optimize import brentq
-
     nominal, info = parameter_field(project, path, source, "--parameter")
     if isinstance(nominal, (bool, str)) or not isinstance(nominal, (int, float)):
         raise InputError("--parameter", path, f"a numeric parameter, got {nominal!r}")
     scheme = select_schemes(rulebooks(), [scheme_id], project.project.product)[0]
-    if tier is None:
-        threshold = scheme.loosest()
-    else:
-        found = [t for t in scheme.thresholds if t.tier == tier]
-        if not found:
-            raise InputError("--tier", tier, f"a tier of {scheme.id}: {'; '.join(t.tier for t in scheme.thresholds)}")
-        threshold = found[0]
+    threshold = threshold_of(scheme, tier)
     plan = make_plan(
         project,
         assessment.but(schemes=(scheme.id,)),
@@ -186,34 +178,11 @@ def headroom(
             verified_scheme_value=None,
             relative_difference=None,
         )
-    crossings = [
-        n
-        for n in range(len(grid) - 1)
-        if allowed[n] and allowed[n + 1] and np.sign(values[n]) != np.sign(values[n + 1])
-    ]
-    exact = [n for n in range(len(grid)) if allowed[n] and values[n] == 0]
-    if not crossings and not exact:
-        qualifies = values[allowed] <= 0
-        if qualifies.all():
-            reason = f"every value in the physical range [{low:g}, {high:g}] {unit} meets the limit"
-        elif not qualifies.any():
-            reason = f"no value in the physical range [{low:g}, {high:g}] {unit} meets the limit"
-        else:
-            reason = "the limit is met only across a physical limit of the route"
+    roots = limit_crossings(probe, grid, values, allowed, threshold.limit)
+    if not roots:
+        reason = no_crossing_reason(values[allowed] <= 0, low, high, unit)
         return Headroom(
             **base, value=None, reason=reason, qualifies_when="", verified_scheme_value=None, relative_difference=None
-        )
-    roots = [float(grid[n]) for n in exact]
-    for n in crossings:
-        roots.append(
-            brentq(
-                lambda x: float(probe(np.array([x]))[0]) - threshold.limit,
-                grid[n],
-                grid[n + 1],
-                xtol=1e-15,
-                rtol=4 * np.finfo(float).eps,
-                maxiter=200,
-            )
         )
     value = min(roots, key=lambda x: abs(x - float(nominal)))
     step = 1e-6 * max(abs(high - low), 1e-12)
@@ -240,6 +209,46 @@ def headroom(
         verified_scheme_value=verified,
         relative_difference=difference,
     )
+
+
+def threshold_of(scheme, tier: str | None):
+    """The scheme's tier named ``tier`` (its loosest when None), or one InputError line naming the tiers."""
+    if tier is None:
+        return scheme.loosest()
+    found = [t for t in scheme.thresholds if t.tier == tier]
+    if not found:
+        raise InputError("--tier", tier, f"a tier of {scheme.id}: {'; '.join(t.tier for t in scheme.thresholds)}")
+    return found[0]
+
+
+def limit_crossings(probe, grid: np.ndarray, values: np.ndarray, allowed: np.ndarray, limit: float) -> list[float]:
+    """The parameter values where the scheme value meets the limit: the scan's points at the limit, and a
+    root (Brent's method) in every interval of the scan where value - limit changes sign, both ends allowed."""
+    from scipy.optimize import brentq
+
+    roots = [float(grid[n]) for n in range(len(grid)) if allowed[n] and values[n] == 0]
+    for n in range(len(grid) - 1):
+        if allowed[n] and allowed[n + 1] and np.sign(values[n]) != np.sign(values[n + 1]):
+            roots.append(
+                brentq(
+                    lambda x: float(probe(np.array([x]))[0]) - limit,
+                    grid[n],
+                    grid[n + 1],
+                    xtol=1e-15,
+                    rtol=4 * np.finfo(float).eps,
+                    maxiter=200,
+                )
+            )
+    return roots
+
+
+def no_crossing_reason(qualifies: np.ndarray, low: float, high: float, unit: str) -> str:
+    """Why no value of the range meets the limit exactly: all meet it, none does, or only across a physical limit."""
+    if qualifies.all():
+        return f"every value in the physical range [{low:g}, {high:g}] {unit} meets the limit"
+    if not qualifies.any():
+        return f"no value in the physical range [{low:g}, {high:g}] {unit} meets the limit"
+    return "the limit is met only across a physical limit of the route"
 
 
 def verify(plan, path: str, value: float, scheme_id: str, source: str) -> float:

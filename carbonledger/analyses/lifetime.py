@@ -533,6 +533,36 @@ def _factors_used(first, trajectory: dict) -> list[dict]:
     ]
 
 
+def _life_of(project, project_file: str):
+    """The project's [lifetime] section, or one InputError line asking for it."""
+    if project.lifetime is None:
+        raise InputError(
+            project_file,
+            "lifetime",
+            "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime",
+        )
+    return project.lifetime
+
+
+def _units_and_construction(life, factor_set, outputs: np.ndarray, first) -> tuple[np.ndarray, float, float]:
+    """Functional units made each year (plant output in gate units, t NH3 or kg H2, over the gate product per
+    functional unit), the construction emissions (t CO2e) and their share per gate unit (kg CO2e)."""
+    gate_units = outputs * (1000.0 if first.product == "hydrogen" else 1.0)
+    construction_t = _construction_t_co2e(life, factor_set)
+    per_gate_unit = float(stage.construction_kg_co2e_per_unit(construction_t, gate_units.sum()))
+    return gate_units / first.gate_product_per_unit, construction_t, per_gate_unit
+
+
+def _with_yearly_series(year_projects: list, series, calendar_years: list[int], trajectory, base, origin: str):
+    """Each operating year's project with its own year of the electricity time series (``yearly_series``), the
+    grid scale and source year of each, and how the series was used; without a series, the projects as they are."""
+    if series is None:
+        return year_projects, [None] * len(calendar_years), [None] * len(calendar_years), ""
+    per_year, scales, source_years, series_use = yearly_series(series, calendar_years, trajectory, base, origin)
+    year_projects = [replace(item, series=one) for item, one in zip(year_projects, per_year, strict=True)]
+    return year_projects, scales, source_years, series_use
+
+
 def lifetime_score(
     project,
     assessment: Assessment,
@@ -543,13 +573,7 @@ def lifetime_score(
     """Score every operating year of a project and average over its life (see module notes), under the
     assessment's factor set, GWP set and schemes (each year's scheme rules are those of its calendar year)."""
     factor_set, gwp = assessment.factor_set, assessment.gwp
-    life = project.lifetime
-    if life is None:
-        raise InputError(
-            project_file,
-            "lifetime",
-            "a [lifetime] section (operating_years, first_year, nameplate_output_t_per_year) for --lifetime",
-        )
+    life = _life_of(project, project_file)
     grid_factor_id = (
         project.electricity.sources[life.grid_source].factor if life.grid_source in project.electricity.sources else ""
     )
@@ -562,28 +586,21 @@ def lifetime_score(
     year_projects, year_sets, calendar_years = _year_variants(
         project, life, factor_set, trajectory, grid_factor_id, efficiency, project_file, project_sha256
     )
-    series = project_series(project, project_file)
-    scales: list[float | None] = [None] * len(calendar_years)
-    source_years: list[int | None] = [None] * len(calendar_years)
-    series_use = ""
-    if series is not None:  # each year matched against its own year of the series
-        base = factor_set.factors.get(grid_factor_id)
-        per_year, scales, source_years, series_use = yearly_series(
-            series, calendar_years, trajectory, base, trajectory_origin or factor_set.name
-        )
-        year_projects = [
-            replace(item, series=one_series) for item, one_series in zip(year_projects, per_year, strict=True)
-        ]
+    year_projects, scales, source_years, series_use = _with_yearly_series(
+        year_projects,
+        project_series(project, project_file),
+        calendar_years,
+        trajectory,
+        factor_set.factors.get(grid_factor_id),
+        trajectory_origin or factor_set.name,
+    )
     scores = score_portfolio(
         year_projects, year_sets, gwp=gwp, schemes=assessment.scheme_list, year=calendar_years
     )  # each year's scheme rules
     first = scores[0]
     # plant output per year in gate units (t NH3, or kg H2), then in functional units (what the
     # totals are per: t NH3 or kg H2 at the gate, or delivered, or cracked to hydrogen)
-    gate_units = outputs * (1000.0 if first.product == "hydrogen" else 1.0)
-    units = gate_units / first.gate_product_per_unit
-    construction_t = _construction_t_co2e(life, factor_set)
-    construction_per_gate_unit = float(stage.construction_kg_co2e_per_unit(construction_t, gate_units.sum()))
+    units, construction_t, construction_per_gate_unit = _units_and_construction(life, factor_set, outputs, first)
     construction_per_unit = construction_per_gate_unit * first.gate_product_per_unit
     average = float(stage.output_weighted_mean(np.array([score.total for score in scores]), units))
     books = rulebooks()
@@ -596,17 +613,11 @@ def lifetime_score(
     ]
     years = [
         _lifetime_year(
-            score,
-            life.first_year + index,
-            trajectory.get(life.first_year + index) if trajectory else None,
-            ages[index],
-            efficiency[index],
-            outputs[index],
-            yearly_status[index],
-            source_years[index],
-            scales[index],
+            score, life.first_year + index, trajectory.get(life.first_year + index) if trajectory else None, *figures
         )
-        for index, score in enumerate(scores)
+        for index, (score, *figures) in enumerate(
+            zip(scores, ages, efficiency, outputs, yearly_status, source_years, scales, strict=True)
+        )
     ]
     return LifetimeResult(
         project=project.project.name,

@@ -652,6 +652,45 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
     keys = stacked.activity_keys
     by_stage, by_gas = stage_and_gas_sums(main, keys, stacked.flow_keys, inventory)
     every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
+    figures = (hydrogen_lhv, ammonia_lhv, fraction)
+    scheme_values, scheme_findings, co_product_open = _scheme_draws(
+        plan, draws, count, chosen, params, (inventory, stacked, supply, column, per_gwp), contributions, figures
+    )
+    return Outcome(
+        total=total,
+        intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
+        by_stage=by_stage,
+        by_gas=by_gas,
+        scheme_values=scheme_values,
+        scheme_findings=scheme_findings,
+        schemes=chosen,
+        unit=FUNCTIONAL_UNITS[inventory.reference_product][1],
+        functional_unit=inventory.functional_unit,
+        boundary=params["project"]["boundary"],
+        product=product,
+        co_product_open=co_product_open,
+    )
+
+
+def _scheme_draws(
+    plan: Plan,
+    draws: Draws,
+    count: int,
+    chosen: list,
+    params: dict,
+    solved: tuple,
+    contributions,
+    lhv_and_fraction: tuple,
+) -> tuple[dict, dict, dict]:
+    """Each chosen scheme's value in every draw, as ``score`` gives it: the rules read on the project's own
+    values, the series matched under the rule of the assessment year, the co-product rule applied.
+
+    ``solved`` is (inventory, stacked matrices, supply by draw, demand columns, GWP vectors by set and draw);
+    ``contributions(demand, gwp_vector)`` kg CO2e by draw, flow and activity; ``lhv_and_fraction`` the
+    hydrogen and ammonia LHV (MJ/kg) and the hydrogen mass fraction. Returns (values, findings, draws left
+    undetermined by a co-product rule) by scheme id."""
+    inventory, stacked, supply, column, per_gwp = solved
+    keys = stacked.activity_keys
     scheme_values, scheme_findings, co_product_open = {}, {}, {}
     nominal = params_with_draws(plan, {})
     period = Period.year(checked_year(nominal, plan.assessment.year, plan.source))
@@ -661,7 +700,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         scheme_findings[scheme.id] = reading.findings
         basis_demand, basis_product = basis_of(scheme, inventory)
         gwp_vector = scheme_characterisation(per_gwp[scheme.gwp], scheme)
-        figures = (basis_product, hydrogen_lhv, ammonia_lhv, fraction)
+        figures = (basis_product, *lhv_and_fraction)
         value = scheme_value(
             scheme,
             inventory,
@@ -695,20 +734,7 @@ def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
         scheme_values[scheme.id], co_product_open[scheme.id] = co_product_values(
             plan, draws, count, scheme, values, reading.findings, nominal
         )
-    return Outcome(
-        total=total,
-        intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
-        by_stage=by_stage,
-        by_gas=by_gas,
-        scheme_values=scheme_values,
-        scheme_findings=scheme_findings,
-        schemes=chosen,
-        unit=FUNCTIONAL_UNITS[inventory.reference_product][1],
-        functional_unit=inventory.functional_unit,
-        boundary=params["project"]["boundary"],
-        product=product,
-        co_product_open=co_product_open,
-    )
+    return scheme_values, scheme_findings, co_product_open
 
 
 def _take(draws: Draws, rows: slice) -> Draws:
@@ -872,7 +898,7 @@ class UncertaintyResult(BaseModel):
         return {
             "analysis": "uncertainty",
             "headline": f"Monte Carlo, {self.draws:,} draws, seed {self.seed}: total mean {self.total.mean:.6g} (p5 "
-                        f"{self.total.p5:.6g}, p95 {self.total.p95:.6g}) {self.unit}"
+            f"{self.total.p5:.6g}, p95 {self.total.p95:.6g}) {self.unit}"
             + (f"; {probabilities}" if probabilities else ""),
             "draws": self.draws,
             "seed": self.seed,
