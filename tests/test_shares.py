@@ -61,3 +61,21 @@ def test_draws_of_two_shares_sum_to_one_and_leave_out_what_cannot():
     broken, reasons = limit_breaks(plan, draws, 2)
     assert broken.tolist() == [False, True]
     assert any(reason["field"] == "electricity.sources.wind.share" for reason in reasons)
+
+
+@pytest.mark.parametrize(
+    ("path", "source"),
+    [
+        ("electricity.sources.grid.share", "grid"),
+        ('electricity.sources."wind PPA no. 2".share', "wind PPA no. 2"),  # a quoted key holds dots (TOML 1.0.0, Keys)
+        ("electricity.sources.grid.factor", None),
+        ("electricity.sources.grid.extra.share", None),  # five parts: not a source's share
+        ("hydrogen.share", None),
+    ],
+)
+def test_the_source_a_share_path_names(path, source):
+    from carbonledger.model.project import is_share_path, rest_source, share_source
+
+    assert share_source(path) == source
+    assert is_share_path(path) == (source is not None)
+    assert rest_source(path, "rest") == source and rest_source(path, 0.5) is None

@@ -73,9 +73,9 @@ from ..core.scoring import rulebooks
 from ..errors import InputError
 from ..model.distributions import Uncertainty
 from ..model.levers import MAX_COMBINATIONS, Lever, Levers
-from ..model.project import apply_overrides, field_limits, parameter_field, path_key, split_path
+from ..model.project import apply_overrides, field_limits, is_share_path, parameter_field, path_key, share_source
 from ..model.rulebooks import select_schemes
-from ..model.shares import is_share_path, negative_shares, rebalanced_shares, rebalancing_problem
+from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..routes.project import validate_project
 from .operation import operation_summary, plan_operation, planned_series
@@ -254,11 +254,6 @@ def resolve_levers(project, levers: Levers, source: str) -> list[Resolved]:
     return resolved
 
 
-def source_of(path: str) -> str:
-    """The source an electricity share path belongs to."""
-    return split_path(path)[2]
-
-
 def absorbers_of(levers: list[Resolved]) -> dict[str, str]:
     """Share path -> the source that takes up its difference, for the share levers that name one."""
     return {item.path: item.lever.absorbed_by for item in levers if is_share_path(item.path) and item.lever.absorbed_by}
@@ -271,14 +266,16 @@ def _check_shares(project, resolved: list[Resolved], source: str) -> None:
     if not moving:
         return
     shares = {name: s.share for name, s in project.electricity.sources.items()}
-    absorbers = {source_of(path): name for path, name in absorbers_of(moving).items()}
-    problem = rebalancing_problem(shares, [source_of(item.path) for item in moving], absorbers)
+    absorbers = {share_source(path): name for path, name in absorbers_of(moving).items()}
+    problem = rebalancing_problem(shares, [share_source(item.path) for item in moving], absorbers)
     if problem:
         named = next((item for item in moving if item.lever.absorbed_by), moving[0])
         raise InputError(
             source, _where(named.index, "absorbed_by" if named.lever.absorbed_by else "parameter"), problem
         )
-    lowest = {source_of(item.path): min(item.lever.range) if item.continuous else min(item.choices) for item in moving}
+    lowest = {
+        share_source(item.path): min(item.lever.range) if item.continuous else min(item.choices) for item in moving
+    }
     below = [
         name for name, negative in negative_shares(rebalanced_shares(shares, lowest, absorbers)).items() if negative
     ]
@@ -848,11 +845,13 @@ class Search:
         if not any(is_share_path(path) for path in paths):
             return None
         shares = {name: s.share for name, s in self.project.electricity.sources.items()}
-        fixed = {source_of(path): float(value) for path, value in combination.discrete.items() if is_share_path(path)}
-        absorbers = {source_of(path): name for path, name in absorbers_of(self.levers).items()}
+        fixed = {
+            share_source(path): float(value) for path, value in combination.discrete.items() if is_share_path(path)
+        }
+        absorbers = {share_source(path): name for path, name in absorbers_of(self.levers).items()}
 
         def at(x: np.ndarray) -> np.ndarray:
-            moved = {**fixed, **{source_of(path): x[j] for j, path in enumerate(paths) if is_share_path(path)}}
+            moved = {**fixed, **{share_source(path): x[j] for j, path in enumerate(paths) if is_share_path(path)}}
             return np.array(list(rebalanced_shares(shares, moved, absorbers).values()), dtype=float)
 
         offset = at(np.zeros(len(paths)))

@@ -34,8 +34,7 @@ from ..errors import InputError
 from ..model.distributions import Uncertainty, Uniform
 from ..model.factors import FactorSet, factors_root
 from ..model.pedigree import grade_defaults
-from ..model.project import parameter_table
-from ..model.shares import is_share_path
+from ..model.project import is_share_path, parameter_table
 from .uncertainty import (
     DEFAULT_SEED,
     MAX_DRAWS,

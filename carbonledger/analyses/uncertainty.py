@@ -56,8 +56,8 @@ from ..errors import InputError
 from ..model.distributions import Pedigree, Uncertainty
 from ..model.factors import FactorSet, factor_row, factors_root
 from ..model.pedigree import grade_defaults
-from ..model.project import field_limits, parameter_field, path_key, split_path
-from ..model.shares import is_share_path, negative_shares, rebalanced_shares, rebalancing_problem
+from ..model.project import field_limits, is_share_path, parameter_field, path_key, share_source, split_path
+from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import REGISTRY
@@ -253,7 +253,7 @@ def make_plan(
     }
     shared = [path for path in uncertainty.parameters if is_share_path(path)]
     problem = rebalancing_problem(
-        {name: s.share for name, s in project.electricity.sources.items()}, [split_path(path)[2] for path in shared], {}
+        {name: s.share for name, s in project.electricity.sources.items()}, [share_source(path) for path in shared], {}
     )
     if problem:
         raise InputError(source, f"uncertainty.parameters.{shared[0]}", problem)
@@ -440,11 +440,11 @@ def params_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict:
 def shares_with_draws(plan: Plan, parameters: dict[str, np.ndarray]) -> dict[str, Any]:
     """Every source's share with the drawn (or set) shares in place, rebalanced together (``model.shares``;
     ``plan.absorbers``: share path -> the source that takes up its difference). Empty when no share moves."""
-    moved = {split_path(path)[2]: values for path, values in parameters.items() if is_share_path(path)}
+    moved = {share_source(path): values for path, values in parameters.items() if is_share_path(path)}
     if not moved:
         return {}
     shares = {name: source.share for name, source in plan.project.electricity.sources.items()}
-    absorbers = {split_path(path)[2]: name for path, name in plan.absorbers.items()}
+    absorbers = {share_source(path): name for path, name in plan.absorbers.items()}
     return rebalanced_shares(shares, moved, absorbers)
 
 

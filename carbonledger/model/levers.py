@@ -44,8 +44,7 @@ from typing import Any, Literal
 from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
 
 from ..errors import InputError
-from .project import loads_toml, validate_with
-from .shares import is_share_path
+from .project import is_share_path, loads_toml, validate_with
 
 MAX_LEVERS = 20
 MAX_COMBINATIONS = 4096  # discrete values (and cost pieces) multiplied out

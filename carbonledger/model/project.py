@@ -377,12 +377,23 @@ def rebalance_override(name: str) -> str:
     return f"electricity.sources.{path_key(name)}.share={REST}"
 
 
-def rest_source(path: str, value: Any) -> str | None:
-    """The electricity source of an override ``electricity.sources.NAME.share=rest``, else None."""
-    if value != REST:
+def share_source(path: str) -> str | None:
+    """The electricity source whose share a parameter path names (``electricity.sources.NAME.share``, NAME
+    quoted as ``path_key`` writes it), else None."""
+    if not (path.startswith("electricity.sources.") and path.endswith(".share")):
         return None
     parts = split_path(path)
     return parts[2] if len(parts) == 4 and parts[:2] == ["electricity", "sources"] and parts[3] == "share" else None
+
+
+def is_share_path(path: str) -> bool:
+    """Whether a parameter path is an electricity source's share (``share_source``)."""
+    return share_source(path) is not None
+
+
+def rest_source(path: str, value: Any) -> str | None:
+    """The electricity source of an override ``electricity.sources.NAME.share=rest``, else None."""
+    return share_source(path) if value == REST else None
 
 
 def rebalanced_sources(overrides: list[str] | None) -> list[str]:

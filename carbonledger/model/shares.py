@@ -58,11 +58,6 @@ def rebalancing_problem(shares: dict[str, float], moved: list[str], absorbers: d
     return ""
 
 
-def is_share_path(path: str) -> bool:
-    """Whether a parameter path is an electricity source's share (``electricity.sources.NAME.share``)."""
-    return path.startswith("electricity.sources.") and path.endswith(".share")
-
-
 def rest_of(shares: dict[str, Any], name: str) -> Any:
     """The share left for source ``name``: 1 less the other sources' shares (``--rebalance``), a number
     or an array of draws."""
