@@ -4,7 +4,7 @@ Generates the projects (invented, varied routes and parameters) in a temporary f
 times ``carbonledger.analyses.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading
 and validating every file once, scoring under the old set, diffing the sets, rescoring the
 projects that use a changed factor (stacked solves per matrix structure, one bw2calc check per
-structure). For comparison it also times the naive path (``api.score_project`` with one bw2calc
+structure). For comparison it also times the naive path (``analyses.pipeline.assess`` with one bw2calc
 LCA per project and set) on a sample in the same run, and prints the ratio, the peak memory
 and the machine's load. Prints figures only; nothing is asserted.
 
@@ -101,9 +101,10 @@ def peak_mb() -> float:
 
 def main(count: int = 1000) -> None:
     t0 = time.perf_counter()
+    from carbonledger.analyses.pipeline import assess
     from carbonledger.analyses.portfolio import load_portfolio, recalc
+    from carbonledger.core.assessment import Assessment
     from carbonledger.core.engine import import_bw2calc
-    from carbonledger.core.scoring import score_project
     from carbonledger.model.factors import load_factor_set
 
     import_bw2calc()  # import cost reported apart
@@ -157,8 +158,8 @@ def main(count: int = 1000) -> None:
         sample = portfolio[:100]
         naive_start = time.perf_counter()
         for item in sample:
-            score_project(item.project, old_set)
-            score_project(item.project, new_set)
+            assess(Assessment(old_set), item.project)
+            assess(Assessment(new_set), item.project)
         naive = (time.perf_counter() - naive_start) / len(sample)
         print(
             f"naive path, same run (one bw2calc LCA per project and set, 100 projects): {naive * 1000:.2f} ms per "

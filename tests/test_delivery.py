@@ -8,7 +8,9 @@ from helpers import assessment_with
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from carbonledger.api import score, score_project
+from carbonledger.analyses.pipeline import assess
+from carbonledger.api import score
+from carbonledger.core.assessment import Assessment
 from carbonledger.errors import InputError
 from carbonledger.model.factors import load_factor_set
 from carbonledger.model.reference import ammonia_formation_enthalpy, ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
@@ -320,8 +322,8 @@ def _shipped_project(distance):
 @settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(st.floats(min_value=100, max_value=12000), st.floats(min_value=0, max_value=8000))
 def test_longer_voyages_never_lower_the_score(distance, extra):
-    short = score_project(_shipped_project(distance), _FACTORS, boundary="well-to-wake")
-    long = score_project(_shipped_project(distance + extra), _FACTORS, boundary="well-to-wake")
+    short = assess(Assessment(_FACTORS, boundary="well-to-wake"), _shipped_project(distance))
+    long = assess(Assessment(_FACTORS, boundary="well-to-wake"), _shipped_project(distance + extra))
     assert long.total >= short.total - 1e-9 * short.total
 
 

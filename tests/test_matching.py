@@ -172,10 +172,11 @@ def test_a_finer_granularity_never_matches_more(count, seed, step):
 def test_a_project_without_series_scores_exactly_as_before():
     path = DEMO / "grid_electrolysis_hydrogen.toml"
     project, sha = load_project(path)
-    from carbonledger.core.scoring import score_project
+    from carbonledger.analyses.pipeline import assess
+    from carbonledger.core.assessment import Assessment
     from carbonledger.model.factors import load_factor_set
 
-    before = score_project(project, load_factor_set("default-2026"), source=str(path), project_sha256=sha)
+    before = assess(Assessment(load_factor_set("default-2026")), project, source=str(path), project_sha256=sha)
     after = api.score(path)
     assert after.model_dump() == before.model_dump()
     assert all(check.electricity_matching is None for check in after.checks)

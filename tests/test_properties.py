@@ -16,7 +16,7 @@ DEFAULT = load_factor_set(DEFAULT_SET)
 
 
 def total(path, overrides, factor_set=DEFAULT):
-    # the stacked solve (equal to bw2calc's, tests/test_recalc.py::test_fast_path_equals_bw2calc_score_project) keeps hundreds of examples quick
+    # the stacked solve (equal to bw2calc's, tests/test_recalc.py::test_fast_path_equals_bw2calc_one_project_at_a_time) keeps hundreds of examples quick
     project, _ = load_project(path, overrides)
     return score_portfolio([PortfolioProject(str(path), project, "")], factor_set, check_with_bw2calc=False)[0].total
 

@@ -14,7 +14,6 @@ from carbonledger.analyses.pipeline import assess
 from carbonledger.analyses.portfolio import load_portfolio, recalc
 from carbonledger.analyses.portfolio import score_portfolio as score_many
 from carbonledger.core.assessment import Assessment
-from carbonledger.core.scoring import score_project
 from carbonledger.model.factors import load_factor_set
 
 # EEA indicator IND-353: EU-27 2018 average 281 g CO2e/kWh (the value in default-2026).
@@ -84,14 +83,14 @@ def test_newly_failing_rows_come_first(grid_update):
     assert statuses[:count] == ["now fails"] * count
 
 
-def test_fast_path_equals_bw2calc_score_project():
+def test_fast_path_equals_bw2calc_one_project_at_a_time():
     """The stacked numpy solve against bw2calc (one LCA per project), to 1e-9 relative."""
     projects = load_portfolio([DEMO, PORTFOLIO])
     for name in ("default-2026", "demo-2027-grid-revision"):
         factor_set = load_factor_set(name)
         for item, quick in zip(projects, score_many(projects, factor_set, check_with_bw2calc=False), strict=True):
             # a project with a time series: bw2calc, then its checks matched against the series, as `score` does
-            reference = score_project(item.project, factor_set) if item.series is None else assess(Assessment(factor_set), item.project, series=item.series)
+            reference = assess(Assessment(factor_set), item.project, series=item.series)
             assert quick.total == pytest.approx(reference.total, rel=1e-9, abs=1e-12)
             for stage, value in reference.by_stage.items():
                 assert quick.by_stage[stage] == pytest.approx(value, rel=1e-9, abs=1e-9)
@@ -112,10 +111,10 @@ def generated_portfolio(folder, count: int) -> list:
     return load_portfolio([folder])
 
 
-def test_recalc_fast_path_equals_score_project_on_a_generated_portfolio(tmp_path, monkeypatch):
+def test_recalc_fast_path_equals_one_project_at_a_time_on_a_generated_portfolio(tmp_path, monkeypatch):
     """The fast path (projects scored a chunk at a time, stacked solves, a rescored project taking
     its scheme readings from its first scoring) against bw2calc, one LCA per project and set
-    (``score_project``): every figure to 1e-9 relative, every status, tier and verdict the same."""
+    (``pipeline.assess``): every figure to 1e-9 relative, every status, tier and verdict the same."""
     monkeypatch.setattr(portfolio, "CHUNK_PROJECTS", 7)  # several chunks, a structure met again in a later one
     projects = generated_portfolio(tmp_path, 40)
     old_set, new_set = load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision")
@@ -123,7 +122,7 @@ def test_recalc_fast_path_equals_score_project_on_a_generated_portfolio(tmp_path
     assert 0 < result.rescored < len(projects)  # both kinds: rescored, and kept (no grid electricity)
     for item, old, new in zip(projects, result.old_scores, result.new_scores, strict=True):
         for fast, factor_set in ((old, old_set), (new, new_set)):
-            slow = score_project(item.project, factor_set, source=item.path, project_sha256=item.sha256)
+            slow = assess(Assessment(factor_set), item.project, source=item.path, project_sha256=item.sha256)
             assert fast.total == pytest.approx(slow.total, rel=1e-9, abs=1e-12)
             assert fast.by_stage.keys() == slow.by_stage.keys() and fast.by_gas.keys() == slow.by_gas.keys()
             for figures, reference in ((fast.by_stage, slow.by_stage), (fast.by_gas, slow.by_gas), (fast.intensity.model_dump(), slow.intensity.model_dump())):
