@@ -90,7 +90,9 @@ def timed_recalc(folder: Path, where) -> tuple[float, int]:
     from carbonledger.io.ledger import close_run
 
     start = time.perf_counter()
-    result = api.recalc([folder], "default-2026", api.Assessment(api.load_factor_set("demo-2027-grid-revision")), ledger=where)
+    result = api.recalc(
+        [folder], "default-2026", api.Assessment(api.load_factor_set("demo-2027-grid-revision")), ledger=where
+    )
     if result.ledger_run is not None:
         close_run(result.ledger_run)
     return time.perf_counter() - start, len(result.old_scores) + len(result.new_scores)

@@ -36,7 +36,7 @@ def electricity(rng: random.Random, grid_share: float) -> str:
         text += f'[electricity.sources.grid]\nshare = {grid_share}\nfactor = "{rng.choice(GRIDS)}"\n'
     if grid_share < 1:
         text += (
-            f'[electricity.sources.renewable]\nshare = {round(1 - grid_share, 6)}\nfactor = '
+            f"[electricity.sources.renewable]\nshare = {round(1 - grid_share, 6)}\nfactor = "
             f'"{rng.choice(RENEWABLES)}"\n'
         )
     return text
@@ -46,7 +46,7 @@ def ammonia(rng: random.Random, process_air: bool) -> str:
     nitrogen = "process_air" if process_air else "air_separation"
     return (
         f'[ammonia]\nnitrogen_source = "{nitrogen}"\nair_separation_kwh_per_t_n2 = '
-        f'{0 if process_air else rng.uniform(90, 130):.1f}\n'
+        f"{0 if process_air else rng.uniform(90, 130):.1f}\n"
         f"hydrogen_loss_allowance = {rng.uniform(0, 0.03):.4f}\nsynthesis_electricity_kwh_per_t_nh3 = "
         f"{rng.uniform(100, 700):.1f}\n"
         f"storage_electricity_kwh_per_t_nh3 = {rng.uniform(10, 40):.1f}\nstorage_loss_fraction = "
@@ -66,8 +66,7 @@ def project(number: int, rng: random.Random) -> str:
         body = (
             f'[hydrogen]\nroute = "electrolysis"\nconditioning_kwh_per_kg_h2 = {rng.uniform(0, 2):.3f}\n'
             f'[electrolysis]\ntechnology = "{rng.choice(["alkaline", "pem"])}"\nelectricity_kwh_per_kg_h2 = '
-            f'{rng.uniform(48, 58):.3f}\n'
-            + electricity(rng, grid_share)
+            f"{rng.uniform(48, 58):.3f}\n" + electricity(rng, grid_share)
         )
         if product == "ammonia":
             body += ammonia(rng, False)
@@ -78,12 +77,12 @@ def project(number: int, rng: random.Random) -> str:
         f"[reforming]\nnatural_gas_gj_per_kg_h2 = {rng.uniform(0.155, 0.175):.4f}\nelectricity_kwh_per_kg_h2 = "
         f"{rng.uniform(0.2, 2):.3f}\n"
         f"process_co2_share = {0.96 if atr else rng.uniform(0.55, 0.65):.3f}\n"
-        f'[natural_gas]\nmethane_emission_share = {rng.uniform(0.002, 0.03):.4f}\nmethane_emission_basis = '
+        f"[natural_gas]\nmethane_emission_share = {rng.uniform(0.002, 0.03):.4f}\nmethane_emission_basis = "
         '"methane_delivered"\n'
     )
     if kind != "grey":
         body += (
-            f'[capture]\ncapture_rate = {rng.uniform(0.55, 0.95):.3f}\napplies_to = '
+            f"[capture]\ncapture_rate = {rng.uniform(0.55, 0.95):.3f}\napplies_to = "
             f'"{"process" if atr else "process_and_flue"}"\n'
             f"compression_kwh_per_t_co2 = {rng.uniform(90, 130):.1f}\ntransport_storage_loss_fraction = "
             f"{rng.uniform(0, 0.03):.4f}\n"

@@ -13,7 +13,12 @@ from carbonledger.api import score
 from carbonledger.core.assessment import Assessment
 from carbonledger.errors import InputError
 from carbonledger.model.factors import load_factor_set
-from carbonledger.model.reference import ammonia_formation_enthalpy, ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
+from carbonledger.model.reference import (
+    ammonia_formation_enthalpy,
+    ammonia_latent_heat,
+    ammonia_vaporisation_at_normal_boiling_point,
+    molar_mass_g_per_mol,
+)
 from carbonledger.routes.project import validate_project
 
 ROOT = Path(__file__).resolve().parent.parent

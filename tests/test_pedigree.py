@@ -120,7 +120,13 @@ def test_pedigree_draws_agree_with_bw2calc(tmp_path):
     """The same pedigree lognormal in bw2calc's own Monte Carlo (stats_arrays type 2) gives the same distribution."""
     from scipy.stats import ks_2samp
 
-    from carbonledger.analyses.uncertainty import DEFAULT_SEED, draw, evaluate_in_blocks, make_plan, monte_carlo_with_bw2calc
+    from carbonledger.analyses.uncertainty import (
+        DEFAULT_SEED,
+        draw,
+        evaluate_in_blocks,
+        make_plan,
+        monte_carlo_with_bw2calc,
+    )
     from carbonledger.model.distributions import Uncertainty
     from carbonledger.routes.project import load_project
 

@@ -4,7 +4,11 @@ from pathlib import Path
 
 import pytest
 
-from carbonledger.model.reference import ammonia_latent_heat, ammonia_vaporisation_at_normal_boiling_point, molar_mass_g_per_mol
+from carbonledger.model.reference import (
+    ammonia_latent_heat,
+    ammonia_vaporisation_at_normal_boiling_point,
+    molar_mass_g_per_mol,
+)
 from carbonledger.stages import ammonia, electrolysis, reforming
 
 pytestmark = pytest.mark.xdist_group("coolprop")  # CoolProp takes about 4 s to import: one worker imports it

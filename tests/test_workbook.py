@@ -9,7 +9,16 @@ from pathlib import Path
 import openpyxl
 import pytest
 from helpers import assessment_with
-from workbook_support import DEMO, LIBREOFFICE_JOBS, VERDICT_WORDS, labelled, libreoffice_job, recalculate_with_formulas, run_cli, sheet
+from workbook_support import (
+    DEMO,
+    LIBREOFFICE_JOBS,
+    VERDICT_WORDS,
+    labelled,
+    libreoffice_job,
+    recalculate_with_formulas,
+    run_cli,
+    sheet,
+)
 
 from carbonledger.api import score
 from carbonledger.io.labels import INTENSITY_LABELS, gas_name, stage_name
