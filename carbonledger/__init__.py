@@ -17,7 +17,7 @@ __all__ = ["CAUTION", "__version__", "score", "compare", "load_project", "load_f
 
 
 def __getattr__(name):  # lazy: keep `import carbonledger` cheap for the command line
-    if name in {"score", "compare", "load_project", "load_factor_set", "audit_workbook", "score_project"}:
+    if name in {"score", "compare", "load_project", "load_factor_set", "audit_workbook"}:
         from . import api
 
         return getattr(api, name)

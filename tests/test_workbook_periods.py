@@ -9,6 +9,7 @@ from workbook_support import DEMO, VERDICT_WORDS, libreoffice_job, recalculate_w
 
 from carbonledger.analyses.periods import month_results, read_meters
 from carbonledger.api import score
+from carbonledger.core.assessment import Assessment
 from carbonledger.model.factors import load_factor_set
 from carbonledger.routes.project import load_project
 
@@ -117,7 +118,7 @@ def assert_months_agree(values_workbook, project, meters) -> int:
     model, _ = load_project(project)
     factor_set = load_factor_set()
     parsed = read_meters(meters, model)
-    engine = month_results(parsed, model, factor_set, gwp="ar6", design=score(project))
+    engine = month_results(parsed, model, Assessment(factor_set, "ar6"), design=score(project))
     rows = summary(values_workbook)
     volume_factor = factor_set.get("natural_gas.net_calorific_value_volume").value
     for month, values, result in zip(parsed.months, parsed.values, engine, strict=True):

@@ -170,20 +170,10 @@ def headroom(
     }
     if rules_say == Status.NOT_ELIGIBLE:
         first = next(f.text for f in findings if f.step == "eligibility" and f.outcome == NOT_MET)
-        return Headroom(
-            **base,
-            value=None,
-            reason=f"not eligible whatever the value: {first}",
-            qualifies_when="",
-            verified_scheme_value=None,
-            relative_difference=None,
-        )
+        return no_value(base, f"not eligible whatever the value: {first}")
     roots = limit_crossings(probe, grid, values, allowed, threshold.limit)
     if not roots:
-        reason = no_crossing_reason(values[allowed] <= 0, low, high, unit)
-        return Headroom(
-            **base, value=None, reason=reason, qualifies_when="", verified_scheme_value=None, relative_difference=None
-        )
+        return no_value(base, no_crossing_reason(values[allowed] <= 0, low, high, unit))
     value = min(roots, key=lambda x: abs(x - float(nominal)))
     step = 1e-6 * max(abs(high - low), 1e-12)
     below, above = probe(np.array([max(value - step, low), min(value + step, high)])) - threshold.limit
@@ -208,6 +198,13 @@ def headroom(
         qualifies_when=qualifies_when,
         verified_scheme_value=verified,
         relative_difference=difference,
+    )
+
+
+def no_value(base: dict, reason: str) -> Headroom:
+    """A headroom without a value (not eligible, or no value of the range meets the limit exactly), and why."""
+    return Headroom(
+        **base, value=None, reason=reason, qualifies_when="", verified_scheme_value=None, relative_difference=None
     )
 
 

@@ -34,13 +34,14 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ..core.scoring import score_project
+from ..core.assessment import Assessment
 from ..errors import InputError
 from ..model.factors import read_csv_text
 from ..model.project import split_path
 from ..model.units import UnitMismatch, conversion_factor
 from ..routes import metered_parameters
 from ..routes.project import validate_project
+from .pipeline import assess
 
 _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]+?)\s*\[(?P<unit>[^\[\]]+)\]\s*$")
 _MONTH = re.compile(r"^(\d{4})-(\d{2})$")
@@ -291,19 +292,18 @@ def _set(tree: dict, path: str, value) -> None:
     node[parts[-1]] = value
 
 
-def month_results(meters: Meters, project, factor_set, *, gwp: str, design, schemes=None) -> list:
-    """The engine's (bw2calc) result of every metered month, for comparison with the workbook."""
+def month_results(meters: Meters, project, assessment: Assessment, *, design) -> list:
+    """The engine's (bw2calc) result of every metered month under the assessment's factor set, GWP set, schemes
+    and year, for comparison with the workbook."""
     results = []
     for number, month in enumerate(meters.months):
         source = f"{meters.path}: month {month} (parameters derived from the meters)"
-        figures, params = month_parameters(meters, number, project, factor_set, design)
-        at_gas = score_project(validate_project(params, source), factor_set, gwp=gwp, schemes=schemes, source=source)
+        figures, params = month_parameters(meters, number, project, assessment.factor_set, design)
+        at_gas = assess(assessment, validate_project(params, source), source=source)
         k_electricity = figures["electricity_per_unit"] / _supply(at_gas, "electricity_mix")
         for path in scaled_parameters(params)[1]:
             _set(params, path, _get(params, path) * k_electricity)
-        results.append(
-            score_project(validate_project(params, source), factor_set, gwp=gwp, schemes=schemes, source=source)
-        )
+        results.append(assess(assessment, validate_project(params, source), source=source))
     return results
 
 

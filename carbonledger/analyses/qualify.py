@@ -7,8 +7,8 @@ each point's status under each scheme is ``analyses.uncertainty.statuses`` (the 
 the threshold, then the loosest threshold). A set of lever values qualifies when every named
 scheme's status is ``qualifies`` at the central value, or, with a confidence, when the share of the
 Monte Carlo draws in which every named scheme qualifies is at least the confidence. The answer is
-scored back through the scoring path of ``score`` (``core.scoring.score_project``, or
-``analyses.pipeline.assess``) with the same year: its checks' statuses are the ones reported.
+scored back through the scoring path of ``score`` (``analyses.pipeline.assess``) with the same year: its checks'
+statuses are the ones reported.
 
 Method
 ------

@@ -11,7 +11,6 @@ from ..analyses.pipeline import assess
 from ..analyses.uncertainty import DEFAULT_SEED, UncertaintyResult, monte_carlo
 from ..core.assessment import Assessment
 from ..core.results import ScoreResult
-from ..core.scoring import score_project
 from ..errors import InputError
 from ..io.workbook.reader import (
     base_factor_set,
@@ -78,15 +77,7 @@ def score_workbook(path: str | Path, assessment: Assessment | None = None) -> Sc
     assessment = assessment or cover_assessment(path)
     project, sha, _ = load_project_from_workbook(path, assessment.project_overrides)
     factor_set = factor_set_from_workbook(path, assessment.factor_set)
-    result = score_project(
-        project,
-        factor_set,
-        gwp=assessment.gwp,
-        schemes=assessment.scheme_list,
-        source=str(path),
-        project_sha256=sha,
-        year=assessment.year,
-    )
+    result = assess(assessment.but(factor_set=factor_set), project, source=str(path), project_sha256=sha)
     return stating_rebalance(result, project, list(assessment.overrides))
 
 
@@ -153,7 +144,19 @@ def _stated_distributions(project_file, from_workbook, distributions) -> Uncerta
     return read_distributions_file(distributions) if distributions is not None else Uncertainty()
 
 
-def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, schemes):
+def _series_and_matched(project, project_file, from_workbook, assessment: Assessment, source: str, sha: str):
+    """The project's electricity time series (from its file, or read back from the workbook's Intervals sheet)
+    and its checks matched against it, as ``score`` matches them; (None, None) without a series."""
+    if from_workbook is None:
+        series = project_series(project, project_file)
+    else:
+        series = series_from_workbook(from_workbook, project)
+    if series is None:
+        return None, None
+    return series, assess(assessment, project, source=source, project_sha256=sha, series=series).checks
+
+
+def _metered(periods, project, assessment: Assessment, engine: ScoreResult):
     """(meters, month results) of a metered year; only a project scored cradle-to-gate (meters describe the plant)."""
     if project.project.boundary != "cradle-to-gate":
         raise InputError(
@@ -163,7 +166,7 @@ def _metered(periods, project, factor_set, gwp: str, engine: ScoreResult, scheme
             "pass --boundary cradle-to-gate",
         )
     meters = read_meters(periods, project)
-    return meters, month_results(meters, project, factor_set, gwp=gwp, design=engine, schemes=schemes)
+    return meters, month_results(meters, project, assessment, design=engine)
 
 
 def audit_workbook(
@@ -180,16 +183,13 @@ def audit_workbook(
 ):
     """The audit workbook of a project file, or of the inputs read back from an earlier workbook.
 
-    Without an assessment: the defaults (GWP100 AR6, the default factor set, every scheme that applies),
-    or, with ``from_workbook``, the settings recorded on that workbook's cover (``cover_assessment``).
-
     Parameters
     ----------
     project_file : str, Path or None
         The project TOML file; None with ``from_workbook``.
     assessment : Assessment or None
         The run's options (factor set, GWP100 set, schemes, overrides, boundary, assessment year); None: the
-        defaults (``api.scoring.assessment_or_default``).
+        defaults (AR6, the default set, every scheme that applies) or, with ``from_workbook``, its cover's.
     from_workbook : str, Path or None
         An earlier audit workbook whose inputs, edited factors and cover settings are read back.
     periods : str, Path or None
@@ -221,35 +221,15 @@ def audit_workbook(
     if assessment is None:
         assessment = cover_assessment(from_workbook) if from_workbook is not None else assessment_or_default(None)
     project, sha, factor_set, evidence, source = _workbook_inputs(project_file, from_workbook, assessment)
-    gwp, schemes, year = assessment.gwp, assessment.scheme_list, assessment.year
-    engine = score_project(project, factor_set, gwp=gwp, schemes=schemes, source=source, project_sha256=sha, year=year)
-    meters, months = (
-        _metered(periods, project, factor_set, gwp, engine, schemes) if periods is not None else (None, None)
-    )
-    series = (
-        project_series(project, project_file) if from_workbook is None else series_from_workbook(from_workbook, project)
-    )
-    scored = assessment.but(
-        factor_set=factor_set, overrides=(), boundary=None, matching=None
-    )  # the project as read, its edited factors
-    matched = (
-        None if series is None else assess(scored, project, source=source, project_sha256=sha, series=series).checks
-    )
-    spread = (
-        None
-        if draws is None
-        else monte_carlo(
-            project,
-            scored,
-            _stated_distributions(project_file, from_workbook, distributions),
-            draws=draws,
-            seed=seed,
-            source=source,
-            keep_draws=keep_draws,
-            project_sha256=sha,
-            series=series,
-        )
-    )
+    scored = assessment.but(factor_set=factor_set, overrides=(), boundary=None, matching=None)  # the project as read
+    engine = assess(scored, project, source=source, project_sha256=sha)  # the declared shares, as the sheets hold them
+    meters, months = _metered(periods, project, scored, engine) if periods is not None else (None, None)
+    series, matched = _series_and_matched(project, project_file, from_workbook, scored, source, sha)
+    spread = None
+    if draws is not None:
+        stated = _stated_distributions(project_file, from_workbook, distributions)
+        options = {"draws": draws, "seed": seed, "source": source, "keep_draws": keep_draws}
+        spread = monte_carlo(project, scored, stated, project_sha256=sha, series=series, **options)
     workbook = build_workbook(
         engine,
         project,

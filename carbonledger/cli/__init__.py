@@ -103,7 +103,7 @@ app = typer.Typer(
     no_args_is_help=True,
     rich_markup_mode=None,
     help="Carbon intensity of hydrogen and ammonia routes, with cited factors and scheme checks. Estimates for "
-         "screening and reporting support, not a certification.",
+    "screening and reporting support, not a certification.",
 )
 
 

@@ -67,7 +67,7 @@ def compare(
         typer.Option(
             "--draws",
             help="Monte Carlo of each project with N draws (its [uncertainty] table): 5th-95th percentile band, "
-                 "probability of qualifying; error bars on --chart.",
+            "probability of qualifying; error bars on --chart.",
         ),
     ] = None,
     seed: Annotated[
@@ -90,12 +90,7 @@ def compare(
     try:
         where = ledger_for_run(ledger, not no_ledger)
         check_chart_path(chart, force)
-        if draws is not None:
-            check_draws(draws, seed)
-        if draws is None and distributions is not None:
-            raise InputError(
-                "compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)"
-            )
+        _check_draws_options(draws, seed, distributions)
         result = api.compare(
             list(projects or []) + list(from_workbook or []),
             assessment_of(factors, gwp, scheme, None, boundary, year),
@@ -119,3 +114,13 @@ def compare(
     typer.echo(text, nl=False)
     if chart is not None:
         typer.echo(f"wrote {chart}", err=True)
+
+
+def _check_draws_options(draws: int | None, seed: int, distributions: Path | None) -> None:
+    """The uncertainty band's options: a valid number of draws and seed, and no distributions without draws."""
+    if draws is not None:
+        check_draws(draws, seed)
+    if draws is None and distributions is not None:
+        raise InputError(
+            "compare", "--distributions", "--draws N as well (the distributions are drawn for the uncertainty band)"
+        )

@@ -23,7 +23,7 @@ LedgerArgument = Annotated[
     Optional[str],
     typer.Argument(
         help="An SQLite file or a postgresql:// URL; default $CARBONLEDGER_LEDGER or the file in the user's data "
-             "folder."
+        "folder."
     ),
 ]
 
@@ -93,7 +93,7 @@ def copy(
         str,
         typer.Argument(
             help="The ledger to copy into (a new SQLite file is created; a PostgreSQL ledger must exist: `ledger "
-                 "upgrade URL`)."
+            "upgrade URL`)."
         ),
     ],
 ) -> None:

@@ -58,7 +58,7 @@ RulebookOption = Annotated[
         metavar="FILE.toml",
         callback=use_rulebooks,
         help="A rulebook of your own (an offtake contract, a corporate target) in the format of the shipped ones: "
-             "checked beside the schemes, marked user rulebook (repeatable).",
+        "checked beside the schemes, marked user rulebook (repeatable).",
     ),
 ]
 RebalanceOption = Annotated[
@@ -67,7 +67,7 @@ RebalanceOption = Annotated[
         "--rebalance",
         metavar="SOURCE",
         help="After the --set overrides, this electricity source's share takes up the difference so the shares sum to "
-             "1.",
+        "1.",
     ),
 ]
 SetOption = Annotated[
@@ -80,7 +80,7 @@ LedgerOption = Annotated[
     typer.Option(
         "--ledger",
         help="Run ledger: an SQLite file or a postgresql:// URL (password from libpq: PGPASSWORD, ~/.pgpass or a "
-             "service file); default $CARBONLEDGER_LEDGER or a file in the user's data folder.",
+        "service file); default $CARBONLEDGER_LEDGER or a file in the user's data folder.",
     ),
 ]
 NoLedgerOption = Annotated[bool, typer.Option("--no-ledger", help="Do not record this run in the ledger.")]
@@ -107,7 +107,7 @@ YearOption = Annotated[
         "--year",
         metavar="YEAR",
         help="Assessment year: the scheme rules in force that year decide (temporal matching, additionality, credit "
-             "period); default the first full calendar year after the project's commissioning date, else this year.",
+        "period); default the first full calendar year after the project's commissioning date, else this year.",
     ),
 ]
 _TIMES = ["%Y-%m-%d", "%Y-%m-%dT%H:%M", "%Y-%m-%dT%H:%M:%S"]
@@ -176,6 +176,14 @@ def assessment_of(
     )
 
 
+def workbook_assessment(ctx: typer.Context, factors, gwp, schemes, overrides, boundary, year, cover: Path):
+    """``assessment_of`` for a command reading an audit workbook (``--from-workbook``): a factor set or GWP set
+    not given on the command line is the cover's."""
+    return assessment_of(
+        explicit(ctx, "factors", factors), explicit(ctx, "gwp", gwp), schemes, overrides, boundary, year, cover=cover
+    )
+
+
 def fail(error: InputError) -> None:
     """Print one line on stderr and exit 2."""
     typer.echo(f"error: {error}", err=True)
@@ -192,6 +200,11 @@ def render(
     ):  # every table names the user rulebooks in use (a score's names them already)
         text += "".join(line + "\n" for line in map(user_rulebook_line, user_rulebooks().values()) if line not in text)
     return text
+
+
+def render_result(output_format: OutputFormat, result, table: Callable, json: Callable, csv: Callable) -> str:
+    """``render`` of one result by three functions of it (its table, JSON and CSV)."""
+    return render(output_format, table=lambda: table(result), json=lambda: json(result), csv=lambda: csv(result))
 
 
 def json_naming_user_rulebooks(text: str) -> str:

@@ -140,7 +140,7 @@ def plan(
         typer.Option(
             "--part-load",
             help="Part-load curve: FRACTION:KWH_PER_KG points (the project's electricity per kg H2 at that load), "
-                 "e.g. 0.2:58,0.5:52,1:54; the scheme value uses the kWh/kg the curve implies at the planned loads.",
+            "e.g. 0.2:58,0.5:52,1:54; the scheme value uses the kWh/kg the curve implies at the planned loads.",
         ),
     ] = None,
     hydrogen_price: Annotated[
@@ -170,8 +170,6 @@ def plan(
     set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        if output.exists() and not force:
-            raise InputError(output, "--output", "a new file (it exists; pass --force to overwrite)")
         check_output_path(output, force, "--output")
         assessment = assessment_of(factors, gwp, None, set_, year=year, matching=matching)
         result, series = api.plan(
@@ -186,16 +184,8 @@ def plan(
         )
         text = plan_csv(series, result)
         figures = summary(result)
-        shown = render(  # everything is rendered before the plan file is written: a refusal never follows a write
-            output_format,
-            table=lambda: table(figures, output),
-            json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False),
-            csv=lambda: csv_text(
-                ("section", "key", "value", "unit"),
-                [("plan", k, v, "") for k, v in figures.items() if k not in ("notes", "score_back_set")],
-                caution=CAUTION,
-            ),
-        )
+        # everything is rendered before the plan file is written: a refusal never follows a write
+        shown = _plan_text(output_format, figures, output)
         atomic_write(output, lambda tmp: tmp.write_text(text, encoding="utf-8"), force=force)
         if where is not None:
             record = api.analysis_record(
@@ -205,3 +195,17 @@ def plan(
     except InputError as error:
         fail(error)
     typer.echo(shown, nl=False)
+
+
+def _plan_text(output_format: OutputFormat, figures: dict, output: Path) -> str:
+    """The plan's figures in the chosen format (the plan itself goes to its CSV file)."""
+    return render(
+        output_format,
+        table=lambda: table(figures, output),
+        json=lambda: json.dumps({**figures, "caution": CAUTION}, indent=2, allow_nan=False),
+        csv=lambda: csv_text(
+            ("section", "key", "value", "unit"),
+            [("plan", k, v, "") for k, v in figures.items() if k not in ("notes", "score_back_set")],
+            caution=CAUTION,
+        ),
+    )

@@ -39,10 +39,11 @@ from .options import (
     YearOption,
     assessment_of,
     check_chart_path,
-    explicit,
     fail,
     render,
+    render_result,
     with_rebalance,
+    workbook_assessment,
 )
 
 
@@ -82,7 +83,7 @@ def score(
         typer.Option(
             "--matching-chart",
             help="With an electricity time series: write a PNG/SVG of the matching under the first scheme checked "
-                 "(monthly matched/unmatched use, unmatched share by hour and month).",
+            "(monthly matched/unmatched use, unmatched share by hour and month).",
         ),
     ] = None,
     matching: Annotated[
@@ -90,8 +91,8 @@ def score(
         typer.Option(
             "--matching",
             help="With an electricity time series: rule (each scheme's dated rule, the default), or interval, hour, "
-                 "month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared "
-                 "annual shares, as in the audit workbook).",
+            "month, quarter, year for every scheme (a what-if), or declared (ignore the series: the declared "
+            "annual shares, as in the audit workbook).",
         ),
     ] = None,
 ) -> None:
@@ -99,52 +100,14 @@ def score(
     set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        if (project is None) == (from_workbook is None):
-            raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
-        if chart is not None:
-            if lifetime:
-                raise InputError("--chart", str(chart), "a single score (not with --lifetime)")
-            check_chart_path(chart, force)
+        _check_score_options(project, from_workbook, chart, lifetime, force)
         if lifetime:
-            if from_workbook is not None:
-                raise InputError(
-                    "--lifetime",
-                    "--from-workbook",
-                    "a project TOML file (lifetime scoring reads the project's [lifetime] section)",
-                )
             result = api.lifetime(project, assessment_of(factors, gwp, scheme, set_, boundary))
-            text = render(
-                output_format,
-                table=lambda: lifetime_table(result),
-                json=lambda: lifetime_json(result),
-                csv=lambda: lifetime_csv(result),
-            )
+            text = render_result(output_format, result, lifetime_table, lifetime_json, lifetime_csv)
             command, kind = "score --lifetime", "lifetime"
         else:
-            if from_workbook is not None:
-                result = api.score_workbook(
-                    from_workbook,
-                    assessment_of(
-                        explicit(ctx, "factors", factors),
-                        explicit(ctx, "gwp", gwp),
-                        scheme,
-                        set_,
-                        boundary,
-                        year,
-                        cover=from_workbook,
-                    ),
-                )
-            else:
-                assessment = assessment_of(factors, gwp, scheme, set_, boundary, year, matching)
-                result = api.score(project, assessment)
-                if matching_chart is not None:
-                    api.matching_chart(
-                        project,
-                        matching_chart,
-                        scheme=scheme[0] if scheme else None,
-                        assessment=assessment.but(boundary=None),
-                        force=force,
-                    )
+            options = (factors, gwp, scheme, set_, boundary, year, matching)
+            result = _single_score(ctx, project, from_workbook, options, matching_chart, force)
             text = render(
                 output_format, table=lambda: render_score(result), json=result.to_json, csv=lambda: score_csv(result)
             )
@@ -160,6 +123,44 @@ def score(
         typer.echo(f"wrote {chart}", err=True)
     if project is not None:
         warn_placeholders(project)
+
+
+def _check_score_options(project, from_workbook, chart, lifetime: bool, force: bool) -> None:
+    """``score``'s options that cannot go together, refused before any work: one project source, a chart of a
+    single score, lifetime scoring from a project file."""
+    if (project is None) == (from_workbook is None):
+        raise InputError("score", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
+    if chart is not None:
+        if lifetime:
+            raise InputError("--chart", str(chart), "a single score (not with --lifetime)")
+        check_chart_path(chart, force)
+    if lifetime and from_workbook is not None:
+        raise InputError(
+            "--lifetime",
+            "--from-workbook",
+            "a project TOML file (lifetime scoring reads the project's [lifetime] section)",
+        )
+
+
+def _single_score(ctx, project, from_workbook, options: tuple, matching_chart, force: bool):
+    """One score of a project file (with its matching chart when asked) or of an audit workbook's inputs;
+    ``options`` are (factors, gwp, schemes, overrides, boundary, year, matching) as given."""
+    factors, gwp, scheme, set_, boundary, year, matching = options
+    if from_workbook is not None:
+        return api.score_workbook(
+            from_workbook, workbook_assessment(ctx, factors, gwp, scheme, set_, boundary, year, from_workbook)
+        )
+    assessment = assessment_of(factors, gwp, scheme, set_, boundary, year, matching)
+    result = api.score(project, assessment)
+    if matching_chart is not None:
+        api.matching_chart(
+            project,
+            matching_chart,
+            scheme=scheme[0] if scheme else None,
+            assessment=assessment.but(boundary=None),
+            force=force,
+        )
+    return result
 
 
 def warn_placeholders(project: Path) -> None:
@@ -215,92 +216,102 @@ def schemes(output_format: FormatOption = OutputFormat.table, rulebook: Rulebook
         books = {**load_schemes(), **user_rulebooks()}
     except InputError as error:
         fail(error)
+    text = render(
+        output_format,
+        table=lambda: _schemes_table(books),
+        json=lambda: _schemes_json(books),
+        csv=lambda: _schemes_csv(books),
+    )
+    typer.echo(text, nl=False)
 
-    def table() -> str:
-        lines = []
-        for s in books.values():
-            tiers = "; ".join(
-                f"{'<=' if t.inclusive else '<'} {t.limit:g}: {t.tier}"
-                for t in sorted(s.thresholds, key=lambda t: -t.limit)
+
+def _schemes_table(books: dict) -> str:
+    """The rulebooks as text, one block each, with the caution."""
+    lines = []
+    for s in books.values():
+        tiers = "; ".join(
+            f"{'<=' if t.inclusive else '<'} {t.limit:g}: {t.tier}"
+            for t in sorted(s.thresholds, key=lambda t: -t.limit)
+        )
+        lines += [
+            f"{s.id}{' *' if s.from_memory or any(t.from_memory for t in s.thresholds) else ''}: {s.name}",
+            f"    products {', '.join(s.products)}; limits in {s.unit} of the {s.basis.replace('_', ' ')} "
+            f"product; boundary {s.boundary}",
+            f"    GWP100 {gwp_name(s.gwp)}; electricity: {electricity_rule_name(s.electricity)}; thresholds {tiers}",
+            f"    source: {s.document}",
+        ]
+        if s.version:
+            lines.append(f"    version read: {s.version}")
+        if s.eligibility is not None:
+            lines.append(
+                f"    eligible routes: {', '.join(s.eligibility.routes)}"
+                + (
+                    f"; construction before {s.eligibility.construction_start_before.isoformat()}"
+                    if s.eligibility.construction_start_before
+                    else ""
+                )
             )
-            lines += [
-                f"{s.id}{' *' if s.from_memory or any(t.from_memory for t in s.thresholds) else ''}: {s.name}",
-                f"    products {', '.join(s.products)}; limits in {s.unit} of the {s.basis.replace('_', ' ')} "
-                f"product; boundary {s.boundary}",
-                f"    GWP100 {gwp_name(s.gwp)}; electricity: {electricity_rule_name(s.electricity)}; thresholds "
-                f"{tiers}",
-                f"    source: {s.document}",
-            ]
-            if s.version:
-                lines.append(f"    version read: {s.version}")
-            if s.eligibility is not None:
-                lines.append(
-                    f"    eligible routes: {', '.join(s.eligibility.routes)}"
-                    + (
-                        f"; construction before {s.eligibility.construction_start_before.isoformat()}"
-                        if s.eligibility.construction_start_before
-                        else ""
-                    )
-                )
-            if s.electricity_rules is not None and s.electricity == "renewable_at_zero":
-                rules = s.electricity_rules
-                matching = "; ".join(t.in_words() for t in rules.temporal)
-                lines.append(
-                    f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: "
-                    f"{matching or 'none stated'}"
-                )
-            if s.boundary_terms:
-                lines.append(f"    formula terms: {', '.join(t.term for t in s.boundary_terms)}")
-        return "\n".join(lines + ["* not yet verified against the source document", f"Caution: {CAUTION}"])
+        if s.electricity_rules is not None and s.electricity == "renewable_at_zero":
+            rules = s.electricity_rules
+            matching = "; ".join(t.in_words() for t in rules.temporal)
+            lines.append(
+                f"    counts zero: {', '.join(rules.counts_at_zero)} by {', '.join(rules.procurement)}; matching: "
+                f"{matching or 'none stated'}"
+            )
+        if s.boundary_terms:
+            lines.append(f"    formula terms: {', '.join(t.term for t in s.boundary_terms)}")
+    return "\n".join(lines + ["* not yet verified against the source document", f"Caution: {CAUTION}"])
 
-    def csv() -> str:
-        header = (
-            "scheme",
-            "name",
-            "tier",
-            "limit",
-            "inclusive",
-            "unit",
-            "quantity",
-            "basis",
-            "gwp",
-            "electricity",
-            "from_memory",
-            "source",
-        )
-        rows = []
-        for s in books.values():
-            for t in s.thresholds:
-                rows.append(
-                    (
-                        s.id,
-                        s.name,
-                        t.tier,
-                        t.limit,
-                        t.inclusive,
-                        s.unit,
-                        s.quantity,
-                        s.basis,
-                        s.gwp,
-                        s.electricity,
-                        s.from_memory or t.from_memory,
-                        t.source,
-                    )
+
+def _schemes_csv(books: dict) -> str:
+    """One CSV row per rulebook threshold, with the caution."""
+    header = (
+        "scheme",
+        "name",
+        "tier",
+        "limit",
+        "inclusive",
+        "unit",
+        "quantity",
+        "basis",
+        "gwp",
+        "electricity",
+        "from_memory",
+        "source",
+    )
+    rows = []
+    for s in books.values():
+        for t in s.thresholds:
+            rows.append(
+                (
+                    s.id,
+                    s.name,
+                    t.tier,
+                    t.limit,
+                    t.inclusive,
+                    s.unit,
+                    s.quantity,
+                    s.basis,
+                    s.gwp,
+                    s.electricity,
+                    s.from_memory or t.from_memory,
+                    t.source,
                 )
-        return csv_text(header, rows, caution=CAUTION)
+            )
+    return csv_text(header, rows, caution=CAUTION)
 
-    def json_text() -> str:
-        flagged = [s.id for s in books.values() if s.from_memory or any(t.from_memory for t in s.thresholds)]
-        return strict_json(
-            {
-                "caution": CAUTION,
-                "from_memory": {"rulebooks": flagged},
-                "schemes": [s.model_dump(mode="json") for s in books.values()],
-            },
-            "schemes",
-        )
 
-    typer.echo(render(output_format, table=table, json=json_text, csv=csv), nl=False)
+def _schemes_json(books: dict) -> str:
+    """Every rulebook as JSON, the unverified ones listed."""
+    flagged = [s.id for s in books.values() if s.from_memory or any(t.from_memory for t in s.thresholds)]
+    return strict_json(
+        {
+            "caution": CAUTION,
+            "from_memory": {"rulebooks": flagged},
+            "schemes": [s.model_dump(mode="json") for s in books.values()],
+        },
+        "schemes",
+    )
 
 
 def init(

@@ -28,7 +28,7 @@ from .options import (
     assessment_of,
     check_chart_path,
     fail,
-    render,
+    render_result,
     with_rebalance,
 )
 from .uncertainty import DistributionsOption, SamplingOption, SeedOption
@@ -55,7 +55,7 @@ def qualify(
         typer.Option(
             "--confidence",
             help="Share of Monte Carlo draws in which every scheme must qualify, strictly between 0 and 1; default: "
-                 "the central value.",
+            "the central value.",
         ),
     ] = None,
     draws: Annotated[
@@ -98,12 +98,7 @@ def qualify(
             distributions=distributions,
             budgets=front,
         )
-        text = render(
-            output_format,
-            table=lambda: qualify_table(result),
-            json=lambda: qualify_json(result),
-            csv=lambda: qualify_csv(result),
-        )
+        text = render_result(output_format, result, qualify_table, qualify_json, qualify_csv)
         if chart is not None:
             write_front_chart(result, chart, force=force)
         if where is not None:

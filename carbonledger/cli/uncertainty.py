@@ -235,7 +235,7 @@ def sensitivity(
         typer.Option(
             "--swing",
             help="Also move each factor and numeric parameter alone by -PERCENT and +PERCENT of its own value: the "
-                 "change of the total and of every scheme's value.",
+            "change of the total and of every scheme's value.",
         ),
     ] = SWING_PERCENT,
     output_format: FormatOption = OutputFormat.table,

@@ -27,9 +27,9 @@ from .options import (
     YearOption,
     assessment_of,
     check_output_path,
-    explicit,
     fail,
     with_rebalance,
+    workbook_assessment,
 )
 
 
@@ -67,7 +67,7 @@ def workbook(
         typer.Option(
             "--draws",
             help="Add an Uncertainty sheet: a Monte Carlo of N draws over the project's [uncertainty] table (and "
-                 "--distributions).",
+            "--distributions).",
         ),
     ] = None,
     seed: Annotated[
@@ -97,45 +97,11 @@ def workbook(
     set_ = with_rebalance(set_, rebalance)
     try:
         where = ledger_for_run(ledger, not no_ledger)
-        if draws is None and (draws_csv or distributions is not None):
-            raise InputError(
-                "workbook",
-                "--draws",
-                "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)",
-            )
-        if draws is not None:
-            check_draws(draws, seed)
-        csv_path = draws_csv_path(output) if draws_csv else None
-        if csv_path is not None and csv_path.exists() and not force:
-            raise InputError(
-                csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)"
-            )
-        if csv_path is not None:
-            check_output_path(csv_path, force, "--draws-csv")
-        if (project is None) == (from_workbook is None):
-            raise InputError(
-                "workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)"
-            )
-        if output.suffix.lower() != ".xlsx":
-            raise InputError(
-                output, "--output", f"a file ending in .xlsx (an Excel workbook), got '{output.suffix or 'no suffix'}'"
-            )
-        if output.is_dir():
-            raise InputError(output, "--output", "a file path, not a folder")
-        if output.exists() and not force:
-            raise InputError(
-                output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)"
-            )
-        # with --from-workbook, a factor set or GWP set not given on the command line is the cover's
-        assessment = assessment_of(
-            explicit(ctx, "factors", factors),
-            explicit(ctx, "gwp", gwp),
-            scheme,
-            set_,
-            boundary,
-            year,
-            cover=from_workbook,
-        )
+        csv_path = _checked_paths(project, from_workbook, output, draws, seed, draws_csv, distributions, force)
+        if from_workbook is not None:
+            assessment = workbook_assessment(ctx, factors, gwp, scheme, set_, boundary, year, from_workbook)
+        else:
+            assessment = assessment_of(factors, gwp, scheme, set_, boundary, year)
         audited = api.audit_workbook(
             project,
             assessment,
@@ -148,17 +114,16 @@ def workbook(
             draws_csv=csv_path.name if csv_path is not None else "",
         )
         book, result, spread = audited
-        write_workbook_file(output, book, force=force)
-        if csv_path is not None:
-            write_draws_csv(csv_path, spread, force=force)
-        if where is not None:
-            record_run("workbook", [result], ledger=where)
-            if spread is not None:
-                record_run("workbook", [spread], ledger=where, kind="uncertainty")
+        _write_and_record(output, book, csv_path, result, spread, where, force)
     except InputError as error:
         fail(error)
+    _say_written(output, result, audited.metered_year, periods, spread, csv_path)
+
+
+def _say_written(output: Path, result, metered_year, periods, spread, csv_path) -> None:
+    """What was written: the workbook with its headline figure, the Uncertainty sheet's spread, the draws CSV."""
     typer.echo(
-        f"wrote {output}: {headline_figure(result, audited.metered_year, periods)} ({result.gwp_basis.upper()}, factor "
+        f"wrote {output}: {headline_figure(result, metered_year, periods)} ({result.gwp_basis.upper()}, factor "
         f"set {result.factor_set.name}); {result.caution}"
     )
     if spread is not None:
@@ -168,3 +133,46 @@ def workbook(
         )
     if csv_path is not None:
         typer.echo(f"wrote {csv_path}")
+
+
+def _checked_paths(project, from_workbook, output: Path, draws, seed: int, draws_csv: bool, distributions, force: bool):
+    """Every option of ``workbook`` that names a file, checked before anything is read or written: one project
+    source, an .xlsx output that is not a folder and is not overwritten without --force, the draws options
+    together. Returns the path of the draws CSV (None without --draws-csv)."""
+    if draws is None and (draws_csv or distributions is not None):
+        raise InputError(
+            "workbook",
+            "--draws",
+            "a number of draws with --draws-csv or --distributions (they belong to the Uncertainty sheet)",
+        )
+    if draws is not None:
+        check_draws(draws, seed)
+    csv_path = draws_csv_path(output) if draws_csv else None
+    if csv_path is not None and csv_path.exists() and not force:
+        raise InputError(
+            csv_path, "", "a path that does not exist yet (the draws CSV exists; pass --force to overwrite it)"
+        )
+    if csv_path is not None:
+        check_output_path(csv_path, force, "--draws-csv")
+    if (project is None) == (from_workbook is None):
+        raise InputError("workbook", "PROJECT", "either a project TOML file or --from-workbook WORKBOOK (one of them)")
+    if output.suffix.lower() != ".xlsx":
+        raise InputError(
+            output, "--output", f"a file ending in .xlsx (an Excel workbook), got '{output.suffix or 'no suffix'}'"
+        )
+    if output.is_dir():
+        raise InputError(output, "--output", "a file path, not a folder")
+    if output.exists() and not force:
+        raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+    return csv_path
+
+
+def _write_and_record(output: Path, book, csv_path, result, spread, where, force: bool) -> None:
+    """Write the workbook (and the draws CSV), then record the score (and the Monte Carlo) in the ledger."""
+    write_workbook_file(output, book, force=force)
+    if csv_path is not None:
+        write_draws_csv(csv_path, spread, force=force)
+    if where is not None:
+        record_run("workbook", [result], ledger=where)
+        if spread is not None:
+            record_run("workbook", [spread], ledger=where, kind="uncertainty")
