@@ -209,9 +209,8 @@ class Recalc:
     old_scores: list[ResultFigures]
     new_scores: list[ResultFigures]
     rescored: int = 0  # projects that use a changed factor (the others kept their old result)
-    ledger_run: object = (
-        None  # where the run is being recorded (io.ledger.RunTarget), closed once the output is written
-    )
+    # where the run is being recorded (io.ledger.RunTarget), closed once the output is written
+    ledger_run: object = None
 
     @property
     def from_memory(self) -> dict[str, list[str]]:

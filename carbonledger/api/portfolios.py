@@ -58,8 +58,9 @@ def recalc(
     Returns
     -------
     Recalc
-        Old and new score of every project (kg CO2e per functional unit), the changed factors, the number
-        rescored, and ``ledger_run``, where the run is recorded (None without ``ledger``).
+        The old and new figures of every project (``core.results.ResultFigures``: kg CO2e per functional
+        unit, stages, gases, each check's value and verdict), one row per project and scheme, the changed
+        factors, the number rescored, and ``ledger_run``, where the run is recorded (None without ``ledger``).
     """
     assessment = assessment_or_default(assessment)
     gwp, schemes, year = assessment.gwp, assessment.scheme_list, assessment.year
@@ -109,7 +110,7 @@ def recalc_and_record(target: RunTarget | None, piece: tuple) -> RecalcPiece:
     Returns
     -------
     RecalcPiece
-        The old and new scores of the piece's projects.
+        The old and new figures (``ResultFigures``) of the piece's projects.
     """
     part = recalc_piece(piece)
     if target is not None:
