@@ -64,9 +64,8 @@ class LifetimeYear:
     ]  # the year qualifies under each scheme's rule (construction added where the rulebook counts it)
     factors_from_memory: list[str] = field(default_factory=list)  # ids of that year's factors recorded from memory
     grid_factor_id: str = ""  # the trajectory row used this year
-    grid_factor_year: int | None = (
-        None  # its year: earlier than the operating year when held at the last published year
-    )
+    # its year: earlier than the operating year when held at the last published year
+    grid_factor_year: int | None = None
     series_year: int | None = None  # calendar year of the time series intervals used (None: no series)
     grid_profile_scale: float | None = None  # F(Y) / F_0 applied to the series' grid intensity profile
     matched_share: dict[str, float] = field(default_factory=dict)  # per scheme, with a time series

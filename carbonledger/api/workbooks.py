@@ -112,9 +112,8 @@ class AuditWorkbook:
     book: object  # openpyxl Workbook
     engine: ScoreResult  # the design project, scored by the engine
     spread: UncertaintyResult | None = None  # the Monte Carlo of the Uncertainty sheet
-    metered_year: float | None = (
-        None  # with meters: every metered month together, output-weighted, in the engine's unit
-    )
+    # with meters: every metered month together, output-weighted, in the engine's unit
+    metered_year: float | None = None
 
     def __iter__(self):
         return iter((self.book, self.engine, self.spread))

@@ -816,9 +816,8 @@ def fully_renewable_finding(scheme: Scheme) -> Finding:
 # ---- boundary and status ---------------------------------------------------------------------
 
 
-DECLARABLE_TERM = (
-    "e_td"  # the EU formula's transport and distribution, which a producer selling at the gate may declare
-)
+# the EU formula's transport and distribution, which a producer selling at the gate may declare
+DECLARABLE_TERM = "e_td"
 
 
 def declared_e_td(scheme: Scheme, present_stages: set[str], project: dict) -> float | None:

@@ -127,9 +127,8 @@ class Eligibility(Graded):
     countries_rule: DatedCondition | None = None
     credit_period_years: int | None = None  # years from the date the plant was placed in service
     credit_period_rule: DatedCondition | None = None
-    excludes_capture_credit: DatedCondition | None = (
-        None  # no credit where the capture equipment earns another credit (45Q)
-    )
+    # no credit where the capture equipment earns another credit (45Q)
+    excludes_capture_credit: DatedCondition | None = None
 
 
 class TemporalRule(Graded):
@@ -172,9 +171,8 @@ class ElectricityRules(Graded):
     charge_failing: Literal["grid", "own"] = "grid"
     additionality_months: int | None = None  # generator in operation no earlier than N months before the plant
     additionality_applies_from: dt.date | None = None
-    additionality_transition_until: dt.date | None = (
-        None  # plants in operation before applies_from are exempt until then (inclusive)
-    )
+    # plants in operation before applies_from are exempt until then (inclusive)
+    additionality_transition_until: dt.date | None = None
     additionality_transition_source: str = ""
     generator_without_support: bool = False  # generator received no operating or investment aid
     additionality_source: str = ""
@@ -196,9 +194,8 @@ class BoundaryTerm(Graded):
     meaning: str
     stages: list[str] = []
     zero_for: list[Literal["hydrogen", "ammonia"]] = []  # products for which the term is zero by nature
-    absent_means: Literal["zero", "not_modelled"] = (
-        "zero"  # a project without these stages: the term is zero, or not modelled
-    )
+    # a project without these stages: the term is zero, or not modelled
+    absent_means: Literal["zero", "not_modelled"] = "zero"
     source: str = ""
 
 
