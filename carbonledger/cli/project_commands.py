@@ -216,12 +216,7 @@ def schemes(output_format: FormatOption = OutputFormat.table, rulebook: Rulebook
         books = {**load_schemes(), **user_rulebooks()}
     except InputError as error:
         fail(error)
-    text = render(
-        output_format,
-        table=lambda: _schemes_table(books),
-        json=lambda: _schemes_json(books),
-        csv=lambda: _schemes_csv(books),
-    )
+    text = render_result(output_format, books, _schemes_table, _schemes_json, _schemes_csv)
     typer.echo(text, nl=False)
 
 

@@ -39,6 +39,7 @@ from .options import (
     end_of,
     fail,
     render,
+    render_result,
 )
 
 NEW_FAILURE_EXIT_CODE = 3
@@ -72,12 +73,7 @@ def recalc(
         result = api.recalc(
             projects, old_set, assessment, workers=workers, scheduler=scheduler, ledger=where, command=command
         )
-        text = render(
-            output_format,
-            table=lambda: recalc_table(result),
-            json=lambda: recalc_json(result),
-            csv=lambda: recalc_csv(result),
-        )
+        text = render_result(output_format, result, recalc_table, recalc_json, recalc_csv)
         if result.ledger_run is not None:
             close_run(result.ledger_run)  # the workers wrote the records; the run is visible from now on
     except InputError as error:

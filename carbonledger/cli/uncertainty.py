@@ -47,6 +47,7 @@ from .options import (
     check_chart_path,
     fail,
     render,
+    render_result,
     with_rebalance,
 )
 
@@ -154,11 +155,12 @@ def uncertainty(
             if set_:
                 raise InputError("--set", set_[0], "no --set with several projects (set values in each project file)")
             results = api.uncertainty_many(project, workers=workers, scheduler=scheduler, **options)
-            text = render(
+            text = render_result(
                 output_format,
-                table=lambda: portfolio_uncertainty_table(results),
-                json=lambda: portfolio_uncertainty_json(results),
-                csv=lambda: portfolio_uncertainty_csv(results),
+                results,
+                portfolio_uncertainty_table,
+                portfolio_uncertainty_json,
+                portfolio_uncertainty_csv,
             )
         if where is not None:
             record_run("uncertainty", results, ledger=where, kind="uncertainty")
