@@ -1572,26 +1572,13 @@ def figures_of(prepared: Prepared, solutions: dict) -> ResultFigures | None:
     )
     return finite_result(
         ResultFigures(
-            **{name: identity[name] for name in FIGURES_IDENTITY},
+            **{name: value for name, value in identity.items() if name in ResultFigures.__dataclass_fields__},
             **figures,
             checks=checks,
             parameters=prepared.params,
             factors_used=tuple(_factor_rows(prepared.inputs.used)),
         )
     )
-
-
-FIGURES_IDENTITY = (
-    "project",
-    "project_file",
-    "project_sha256",
-    "assessment_year",
-    "product",
-    "boundary",
-    "unit",
-    "gwp_basis",
-    "factor_set",
-)  # what ResultFigures takes of result_identity
 
 
 def check_figures(scheme: Scheme, value: float, reading: Reading) -> CheckFigures:
