@@ -10,7 +10,7 @@ from ..analyses.lifetime import LifetimeResult, lifetime_score
 from ..analyses.portfolio import Recalc, RecalcPiece, load_portfolio, recalc_piece
 from ..analyses.portfolio import recalc as recalc_portfolio
 from ..core.assessment import Assessment
-from ..io.ledger import RunTarget, open_run, run_target, write_batch
+from ..io.ledger import RunTarget, open_run, project_key, run_target, write_batch
 from ..io.ledger_store import Location
 from ..model.factors import FactorSet
 from ..routes.project import load_project
@@ -74,7 +74,7 @@ def recalc(
             "gwp": gwp,
             "schemes": sorted(schemes or []),
             "year": year,
-            "projects": [[str(Path(p.path).resolve()), p.sha256, getattr(p.series, "sha256", "")] for p in projects],
+            "projects": [[project_key(p.path), p.sha256, getattr(p.series, "sha256", "")] for p in projects],
         }
         target = run_target(ledger, inputs, command, "recalc")
     writing = target if target is not None and not open_run(target) else None
@@ -114,8 +114,8 @@ def recalc_and_record(target: RunTarget | None, piece: tuple) -> RecalcPiece:
     """
     part = recalc_piece(piece)
     if target is not None:
-        items = [(f"old {Path(s.project_file).resolve()}", s) for s in part.old_scores] + [
-            (f"new {Path(s.project_file).resolve()}", s) for s in part.new_scores
+        items = [(f"old {project_key(s.project_file)}", s) for s in part.old_scores] + [
+            (f"new {project_key(s.project_file)}", s) for s in part.new_scores
         ]
         write_batch(target, items)
     return part

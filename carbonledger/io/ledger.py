@@ -307,9 +307,14 @@ def _stored_row(row: Factor) -> dict:
     return held[1]
 
 
+def project_key(path: str | Path) -> str:
+    """The absolute path the ledger keys a project by, from the current folder (a recalc names each project in
+    its run key and in two records: worked out once per folder and name)."""
+    return _resolved(os.getcwd(), str(path))
+
+
 @functools.lru_cache(maxsize=65536)
 def _resolved(cwd: str, path: str) -> str:
-    """The absolute path the ledger keys a project by (a recalc records each project twice)."""
     return str(Path(cwd, path).resolve())
 
 
@@ -332,7 +337,7 @@ def to_record(result, kind: str = "score") -> LedgerRecord:
     if isinstance(result, LedgerRecord):
         return result
     entry = result.ledger_entry(kind)
-    entry["project_path"] = _resolved(os.getcwd(), str(entry["project_path"]))
+    entry["project_path"] = project_key(entry["project_path"])
     entry["factors_used"] = [factor_row(row) for row in entry["factors_used"]]
     entry["assessment_year"] = assessment_year(result, entry)
     entry["carbonledger_version"] = str(getattr(result, "carbonledger_version", None) or __version__)
@@ -626,7 +631,7 @@ def record_filter(
         moment = moment if moment.tzinfo else moment.replace(tzinfo=UTC)
         return moment.astimezone(UTC).isoformat(timespec="milliseconds")
 
-    return RecordFilter(tuple(str(Path(p).resolve()) for p in projects), user, iso(since), iso(until))
+    return RecordFilter(tuple(project_key(p) for p in projects), user, iso(since), iso(until))
 
 
 _ENTRY_COLUMNS = (
@@ -703,9 +708,7 @@ def project_history(
     """Every record of a project file (matched by its resolved path), oldest first, each with
     what changed since the one before: the project file, parameters, factor set, factor rows."""
     where = where or RecordFilter()
-    return read_records(
-        ledger, RecordFilter((str(Path(project_file).resolve()),), where.user, where.since, where.until)
-    )
+    return read_records(ledger, RecordFilter((project_key(project_file),), where.user, where.since, where.until))
 
 
 # ---------------------------------------------------------------------------------------------
