@@ -160,10 +160,7 @@ def _checked_paths(project, from_workbook, output: Path, draws, seed: int, draws
         raise InputError(
             output, "--output", f"a file ending in .xlsx (an Excel workbook), got '{output.suffix or 'no suffix'}'"
         )
-    if output.is_dir():
-        raise InputError(output, "--output", "a file path, not a folder")
-    if output.exists() and not force:
-        raise InputError(output, "", "a path that does not exist yet (the file exists; pass --force to overwrite it)")
+    check_output_path(output, force, "--output")
     return csv_path
 
 
