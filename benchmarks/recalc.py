@@ -1,12 +1,12 @@
 """Benchmark: recalculate a portfolio of 1,000 (or N, e.g. 10,000) varied projects under a new factor set.
 
-Generates the projects (invented, varied routes and parameters) in a temporary folder, then
-times ``carbonledger.analyses.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading
-and validating every file once, scoring under the old set, diffing the sets, rescoring the
-projects that use a changed factor (stacked solves per matrix structure, one bw2calc check per
-structure). For comparison it also times the naive path (``analyses.pipeline.assess`` with one bw2calc
-LCA per project and set) on a sample in the same run, and prints the ratio, the peak memory
-and the machine's load. Prints figures only; nothing is asserted.
+Generates the projects (invented, varied routes and parameters) in a temporary folder, then times
+``carbonledger.analyses.portfolio.recalc`` from default-2026 to demo-2027-grid-revision: reading and validating
+every file once, scoring under the old set, diffing the sets, rescoring the projects that use a changed factor
+(projects of one shape built and solved as arrays, the first of each also scored alone and checked against the
+arrays; one bw2calc check per matrix structure). For comparison it also times the naive path
+(``analyses.pipeline.assess`` with one bw2calc LCA per project and set) on a sample in the same run, and prints
+the ratio, the peak memory and the machine's load. Prints figures only; nothing is asserted.
 
     python benchmarks/recalc.py [N]
 """
@@ -165,46 +165,41 @@ def main(count: int = 1000) -> None:
             f"project, {naive * count:.1f} s for {count}"
         )
         print(f"ratio naive / fast (whole fast path, reading included): {naive * count / total:.1f}")
-        phases(portfolio[:1000], old_set)
+        phases(portfolio, old_set)
         print(f"machine load at the end: {os.getloadavg()[0]:.1f}")
 
 
-def phases(sample: list, factor_set) -> None:
-    """Where one scoring's time goes (ms per project, on a sample): prepare (inventory and matrices), the
-    stacked solve, reading the scheme rules, the checks' values and verdicts, and the rest of the result."""
-    from carbonledger.analyses.portfolio import collector_paused, prepare_projects
-    from carbonledger.core.scoring import assemble, scheme_checks, solve_stacked
+def phases(projects: list, factor_set) -> None:
+    """Where one scoring of the portfolio goes (``portfolio.figures_many`` under one set): how many shapes,
+    how many projects went through arrays and how many were scored alone, and the time of each part."""
+    from carbonledger.analyses import portfolio as module
+    from carbonledger.core.assessment import Assessment
 
-    n = len(sample)
-    with collector_paused():
-        t0 = time.perf_counter()
-        ready = prepare_projects(sample, [factor_set] * n, [None] * n, "ar6", None)
-        t1 = time.perf_counter()
-        solved = solve_stacked(ready, False)
-        t2 = time.perf_counter()
-        for one, solutions in zip(ready, solved, strict=True):
-            assemble(one, solutions)
-        t3 = time.perf_counter()
-        for one in ready:
-            one.readings.clear()
-        for one, solutions in zip(ready, solved, strict=True):
-            scheme_checks(one, solutions)
-        t4 = time.perf_counter()
-        for one, solutions in zip(ready, solved, strict=True):
-            scheme_checks(one, solutions)  # the rules' readings kept from the run before
-        t5 = time.perf_counter()
-    per = {
-        "prepare": t1 - t0,
-        "stacked solve": t2 - t1,
-        "scheme rules read": (t4 - t3) - (t5 - t4),
-        "check values and verdicts": t5 - t4,
-        "rest of the result": (t3 - t2) - (t4 - t3),
-    }
+    spent = {"arrays": 0.0, "arrays_projects": 0, "passes": 0}
+    real = module.group_figures
+
+    def timed(template, first, members):
+        began = time.perf_counter()
+        result = real(template, first, members)
+        spent["arrays"] += time.perf_counter() - began
+        spent["passes"] += 1
+        spent["arrays_projects"] += len(members) if result is not None else 0
+        return result
+
+    module.group_figures = timed
+    try:
+        with module.collector_paused():
+            began = time.perf_counter()
+            module.figures_many(Assessment(factor_set, "ar6"), projects)
+            whole = time.perf_counter() - began
+    finally:
+        module.group_figures = real
+    alone = len(projects) - spent["arrays_projects"]
     print(
-        "one scoring, ms per project ("
-        + str(n)
-        + " projects): "
-        + ", ".join(f"{k} {v / n * 1000:.2f}" for k, v in per.items())
+        f"one scoring of the {len(projects)} projects: {whole:.2f} s; {spent['passes']} array passes scored "
+        f"{spent['arrays_projects']} projects in {spent['arrays']:.2f} s; the first of each shape "
+        f"also alone; {alone} only alone (a shape of fewer than {module.MIN_GROUP}, a time series or a differing "
+        "co-product rule)"
     )
 
 

@@ -146,8 +146,9 @@ def test_a_portfolios_figures_equal_those_of_the_full_result(tmp_path):
     projects = generated_portfolio(tmp_path, 30) + load_portfolio([DEMO, PORTFOLIO])
     for name in ("default-2026", "demo-2027-grid-revision"):
         factor_set = load_factor_set(name)
-        prepared = portfolio.prepare_projects(projects, [factor_set] * len(projects), [None] * len(projects), "ar6", None)
+        prepared = portfolio.prepare_projects(projects, [Assessment(factor_set, "ar6")] * len(projects), None)
         full = [ResultFigures.of(judged_result(item, ready, solutions)) for item, ready, solutions in zip(projects, prepared, solve_stacked(prepared, False), strict=True)]
+        prepared = portfolio.prepare_projects(projects, [Assessment(factor_set, "ar6")] * len(projects), None)  # afresh: what the full result read is not shared
         assert figures_prepared(projects, prepared, False) == full
     lean = [figures_of(ready, solutions) for ready, solutions in zip(prepared, solve_stacked(prepared, False), strict=True)]
     assert sum(figures is not None for figures in lean) >= 30  # most projects take the lean path

@@ -27,7 +27,8 @@ from pathlib import Path
 
 from ..core.assessment import Assessment
 from ..core.results import FactorSetRef, ResultFigures, ScoreResult
-from ..core.scoring import DEFAULT_GWP, Prepared, rulebooks
+from ..core.scoring import DEFAULT_GWP, Prepared, co_product_rule, project_params, rulebooks
+from ..core.stacked import BLOCK_MEMBERS, Member, group_figures, shape_of
 from ..errors import InputError
 from ..model.factors import FactorSet, diff_sets
 from ..model.rulebooks import scheme_ids
@@ -110,21 +111,25 @@ def collector_paused():
 
 
 def prepare_projects(
-    projects: list[PortfolioProject], sets: list[FactorSet], years: list, gwp: str, schemes: list[str] | None
+    projects: list[PortfolioProject], assessments: list[Assessment], schemes: list[str] | None
 ) -> list[Prepared]:
     """Each project made ready to solve under its own assessment (its factor set and year), its checks
     limited to ``schemes`` (validated ids; each project keeps those that apply to its product)."""
-    assessments: dict[tuple, Assessment] = {}  # one per factor set and year (its options are checked once)
-    for one_set, one_year in zip(sets, years, strict=True):
-        if (id(one_set), one_year) not in assessments:
-            assessments[(id(one_set), one_year)] = Assessment(one_set, gwp, year=one_year)
-    prepared = prepare_many(
-        [assessments[(id(one_set), one_year)] for one_set, one_year in zip(sets, years, strict=True)], projects
-    )
+    prepared = prepare_many(assessments, projects)
     if schemes:
         for ready in prepared:
             ready.chosen = [s for s in ready.chosen if s.id in schemes]
     return prepared
+
+
+def assessments_of(sets: list[FactorSet], years: list, gwp: str) -> list[Assessment]:
+    """One assessment per project from its factor set and year, made once per set and year (its options are
+    checked once)."""
+    made: dict[tuple, Assessment] = {}
+    for one_set, one_year in zip(sets, years, strict=True):
+        if (id(one_set), one_year) not in made:
+            made[(id(one_set), one_year)] = Assessment(one_set, gwp, year=one_year)
+    return [made[(id(one_set), one_year)] for one_set, one_year in zip(sets, years, strict=True)]
 
 
 def score_portfolio(
@@ -165,7 +170,7 @@ def score_portfolio(
     with collector_paused():
         for n in range(0, len(projects), CHUNK_PROJECTS):
             part = slice(n, n + CHUNK_PROJECTS)
-            prepared = prepare_projects(projects[part], sets[part], years[part], gwp, schemes)
+            prepared = prepare_projects(projects[part], assessments_of(sets[part], years[part], gwp), schemes)
             results += assess_prepared(projects[part], prepared, check_with_bw2calc, checked)
     return results
 
@@ -249,57 +254,101 @@ class RecalcPiece:
 def recalc_piece(piece: tuple) -> RecalcPiece:
     """Score a piece (projects, old set, new set, changed factor ids, gwp, schemes, year) under the
     old set, and rescore under the new set only the projects that use a changed factor; the others
-    keep their old figures, under the new set's name.
-
-    The piece is scored ``CHUNK_PROJECTS`` at a time, each project's figures made as the run ledger and
-    the rows need them (``pipeline.figures_prepared``). A rescored project reads each scheme's rules
-    once: the rules read nothing of the factor set, so its new scoring takes the old one's readings
-    (``core.scoring.scheme_reading``) when the two inventories give the rules the same electricity
-    sources, stages and products."""
+    keep their old figures, under the new set's name (``figures_many`` scores each set)."""
     projects, old_set, new_set, changed_ids, gwp, schemes, year = piece
     schemes = scheme_ids(schemes, rulebooks()) or None
     new_ref = FactorSetRef(name=new_set.name, sha256=new_set.sha256)
-    result = RecalcPiece([], [], [])
     checked: set = set()
     with collector_paused():
-        for start in range(0, len(projects), CHUNK_PROJECTS):
-            chunk = projects[start : start + CHUNK_PROJECTS]
-            old_ready = prepare_projects(chunk, [old_set] * len(chunk), [year] * len(chunk), gwp, schemes)
-            old_scores = figures_prepared(chunk, old_ready, True, checked)
-            moving = [
-                n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)
-            ]
-            new_ready = prepare_projects(
-                [chunk[n] for n in moving], [new_set] * len(moving), [year] * len(moving), gwp, schemes
-            )
-            for n, ready in zip(moving, new_ready, strict=True):
-                if rules_read_alike(old_ready[n], ready):  # the same rules, and the same parameters held once
-                    ready.readings, ready.params = old_ready[n].readings, old_ready[n].params
-            rescored = dict(
-                zip(moving, figures_prepared([chunk[n] for n in moving], new_ready, True, checked), strict=True)
-            )
-            result.old_scores += old_scores
-            result.new_scores += [rescored.get(n) or score.under(new_ref) for n, score in enumerate(old_scores)]
-            result.rescored += [start + n for n in moving]
-    return result
-
-
-def rules_read_alike(old: Prepared, new: Prepared) -> bool:
-    """Whether a scheme's rules read the same on two preparations of one project (same options, year
-    and matching): what ``core.scoring.read_rules`` takes from the inventory is the same."""
-
-    def seen(ready: Prepared) -> tuple:
-        inventory = ready.inventory
-        stages = sorted({activity.stage for activity in inventory.activities.values()})
-        return (
-            inventory.electricity_sources,
-            inventory.electricity_kinds,
-            stages,
-            inventory.product,
-            inventory.reference_product,
+        shaped = shaped_projects(projects, None)
+        old_scores = figures_many(Assessment(old_set, gwp, year=year), projects, schemes, checked, shaped)
+        moving = [n for n, score in enumerate(old_scores) if changed_ids.intersection(f.id for f in score.factors_used)]
+        new_scores = figures_many(
+            Assessment(new_set, gwp, year=year),
+            [projects[n] for n in moving],
+            schemes,
+            checked,
+            [shaped[n] for n in moving],
         )
+        rescored = dict(zip(moving, new_scores, strict=True))
+    new_scores = [rescored.get(n) or score.under(new_ref) for n, score in enumerate(old_scores)]
+    return RecalcPiece(old_scores, new_scores, moving)
 
-    return (old.period, old.matching, old.params) == (new.period, new.matching, new.params) and seen(old) == seen(new)
+
+def shaped_projects(projects: list[PortfolioProject], boundary: str | None) -> list[tuple[dict, tuple] | None]:
+    """Each project's parameters under ``boundary`` and its shape (``core.stacked.shape_of``); None for a
+    project with a time series (scored alone: its checks follow the series)."""
+    shaped: list[tuple[dict, tuple] | None] = []
+    for item in projects:
+        params = None if item.series is not None else project_params(item.project, boundary)
+        shaped.append(None if params is None else (params, shape_of(params)))
+    return shaped
+
+
+MIN_GROUP = 3  # projects of one shape scored as arrays; fewer are scored one by one
+
+
+def figures_many(
+    assessment: Assessment,
+    projects: list[PortfolioProject],
+    schemes: list[str] | None = None,
+    checked: set | None = None,
+    shaped: list[tuple[dict, tuple] | None] | None = None,
+) -> list[ResultFigures]:
+    """The figures of many projects under one assessment, each equal to the project's own score's.
+
+    Projects of one shape (``core.stacked.shape_of``: the same texts, ids and switches, numbers of the same
+    sign) are scored as arrays, ``core.stacked.BLOCK_MEMBERS`` at a time: the first alone, the rest with it
+    (``core.stacked.group_figures``). A project with a time series, in a group smaller than ``MIN_GROUP``, whose
+    scheme's co-product rule differs from its method, or of a route the arrays cannot build, is prepared and
+    solved with others of its matrix structure (``pipeline.figures_prepared``), ``CHUNK_PROJECTS`` at a time.
+
+    Parameters
+    ----------
+    assessment : Assessment
+        The factor set, GWP set and year (the schemes are limited by ``schemes``).
+    projects : list of PortfolioProject
+        The validated projects.
+    schemes : list of str or None
+        Scheme ids to check (each project keeps those that apply to its product); None for all.
+    checked : set or None
+        Matrix structures already checked against bw2calc (one member of every new structure is).
+    shaped : list or None
+        Each project's parameters and shape (``shaped_projects`` under the assessment's boundary), when the
+        caller has them (a recalc scores the same projects under two sets).
+
+    Returns
+    -------
+    list of ResultFigures
+        In the order of ``projects``.
+    """
+    checked = set() if checked is None else checked
+    shaped = shaped_projects(projects, assessment.boundary) if shaped is None else shaped
+    figures: list = [None] * len(projects)
+    shapes: dict[tuple, list[int]] = {}
+    for number, one in enumerate(shaped):
+        if one is not None:
+            shapes.setdefault(one[1], []).append(number)
+    for members in shapes.values():
+        for start in range(0, len(members) if len(members) >= MIN_GROUP else 0, BLOCK_MEMBERS):
+            part = members[start : start + BLOCK_MEMBERS]
+            ready = prepare_projects([projects[part[0]]], [assessment], schemes)[0]
+            first = figures_prepared([projects[part[0]]], [ready], True, checked)[0]
+            if any((rule := co_product_rule(s, ready.params)) is not None and rule.differs for s in ready.chosen):
+                break
+            group = [Member(shaped[n][0], projects[n].path, projects[n].sha256) for n in part]
+            for number, one in zip(part, group_figures(ready, first, group) or [], strict=False):
+                figures[number] = one
+    alone = [number for number, one in enumerate(figures) if one is None]
+    for start in range(0, len(alone), CHUNK_PROJECTS):
+        part = [projects[n] for n in alone[start : start + CHUNK_PROJECTS]]
+        for number, one in zip(
+            alone[start : start + CHUNK_PROJECTS],
+            figures_prepared(part, prepare_projects(part, [assessment] * len(part), schemes), True, checked),
+            strict=True,
+        ):
+            figures[number] = one
+    return figures
 
 
 def recalc_rows(

@@ -33,9 +33,9 @@ from pydantic import BaseModel, PrivateAttr
 
 from ..about import CAUTION, __version__
 from ..core.assessment import Assessment
-from ..core.engine import build_matrices, build_stacked_matrices, datapackage, import_bw2calc, solve_stacked_values
+from ..core.engine import build_matrices, build_stacked_matrices, datapackage, import_bw2calc
 from ..core.inputs import DrawInputs, NumericInputs
-from ..core.inventory import build_inventory, check_physical_limits
+from ..core.inventory import build_inventory, check_physical_limits, limit_checkers
 from ..core.scoring import (
     FUNCTIONAL_UNITS,
     basis_of,
@@ -43,13 +43,17 @@ from ..core.scoring import (
     charged_source_intensities,
     checked_year,
     co_product_rule,
-    demands_of,
     intensities,
     read_rules,
     run_stages,
     scheme_characterisation,
-    scheme_value,
-    stage_and_gas_sums,
+)
+from ..core.stacked import (
+    StackedSolution,
+    headline_arrays,
+    per_system,
+    scheme_value_arrays,
+    solve_stacked_inventory,
 )
 from ..core.verdicts import Period, status_of
 from ..errors import InputError
@@ -60,7 +64,6 @@ from ..model.project import field_limits, is_share_path, parameter_field, path_k
 from ..model.shares import negative_shares, rebalanced_shares, rebalancing_problem
 from ..model.statuses import Status
 from ..model.units import UnitMismatch, conversion_factor
-from ..routes import REGISTRY
 from ..routes.project import validate_project
 from .matching import (
     ElectricityModel,
@@ -518,9 +521,8 @@ def _route_checks(plan: Plan, draws: Draws, count: int, candidates: np.ndarray) 
     params = params_with_draws(plan, draws.parameters)
     inputs = DrawInputs(plan.assessment.factor_set, _factor_draws(plan, draws), plan.source)
     found: dict[tuple, np.ndarray] = {}
-    for route in REGISTRY:
-        owns = [name for name in {**route.sections, **route.optional_sections} if params.get(name) is not None]
-        if route.draw_limits is None or not (route.applies(params) or owns):
+    for route in limit_checkers(params):
+        if route.draw_limits is None:
             continue
         for where, expected, ok in route.draw_limits(params, inputs):
             broken = ~np.broadcast_to(np.asarray(ok, dtype=bool), (count,)) & candidates
@@ -583,31 +585,28 @@ def _matched_draws(
     plan: Plan,
     scheme,
     reading,
-    inventory,
-    keys,
-    flow_keys,
+    solved: StackedSolution,
     gwp_vector,
-    supply,
-    column,
-    basis_demand,
-    figures,
+    lhv_and_fraction: tuple,
     params,
     period,
     values,
 ) -> np.ndarray:
-    """A scheme's draws with the project's time series matched under the rule of the assessment year, as score matches
-    them."""
-    count = len(values)
-    basis_product, hydrogen_lhv, ammonia_lhv, fraction = figures
-    mix, gate = keys.index("electricity_mix"), column[inventory.gate]
+    """A scheme's draws with the project's time series matched under the rule of the assessment year, as score
+    matches them."""
+    count, inventory = len(values), solved.inventory
+    keys, flow_keys = solved.matrices.activity_keys, solved.matrices.flow_keys
+    basis_demand, basis_product = basis_of(scheme, inventory)
+    hydrogen_lhv, ammonia_lhv, fraction = lhv_and_fraction
+    mix, gate = keys.index("electricity_mix"), solved.supply_of(inventory.gate)
     sources = params["electricity"]["sources"]
     counted_kg = charged_source_intensities(scheme, inventory, flow_keys, gwp_vector, reading)
     declared, grid_mix_kg = declared_and_grid_intensity(
         counted_kg, {name: source["share"] for name, source in sources.items()}, plan.series.generation_kwh
     )
     model = ElectricityModel(
-        basis_kwh=supply[:, mix, column[basis_demand]],
-        kwh_per_kg_h2=supply[:, mix, gate] / supply[:, keys.index(inventory.hydrogen), gate],
+        basis_kwh=solved.supply_of(basis_demand)[:, mix],
+        kwh_per_kg_h2=gate[:, mix] / gate[:, keys.index(inventory.hydrogen)],
         counted_kg_per_kwh=counted_kg,
         declared_kg_per_kwh=declared,
         grid_kg_per_kwh=grid_mix_kg,
@@ -621,53 +620,40 @@ def _matched_draws(
 
 
 def evaluate(plan: Plan, draws: Draws, count: int) -> Outcome:
-    """Build the inventory once with arrays of draws and solve every draw stacked."""
+    """Build the inventory once with arrays of draws and solve every draw stacked (``core.stacked``)."""
     params = params_with_draws(plan, draws.parameters)
     inputs = DrawInputs(plan.assessment.factor_set, _factor_draws(plan, draws), plan.source)
     check_physical_limits(
         params_with_draws(plan, {}), NumericInputs(plan.assessment.factor_set, plan.source), plan.source
     )
     staged = run_stages(params, inputs, plan.assessment.gwp, plan.assessment.scheme_list)
-    inventory, chosen, product = staged.inventory, staged.chosen, staged.inventory.product
-
-    def per_draw(vector: np.ndarray) -> np.ndarray:
-        return np.broadcast_to(vector.T if vector.ndim == 2 else vector, (count, len(vector)))
-
-    per_gwp = {gwp: per_draw(vector) for gwp, vector in staged.per_gwp.items()}
-    headline = per_gwp[plan.assessment.gwp]
-    stacked = build_stacked_matrices(inventory, count)
-    demands = demands_of(inventory)
-    supply, biosphere = solve_stacked_values(stacked, demands)
-    column = {demand: number for number, demand in enumerate(demands)}
-
-    def contributions(demand: str, gwp_vector: np.ndarray) -> np.ndarray:
-        """kg CO2e by draw, flow and activity."""
-        return gwp_vector[:, :, None] * biosphere * supply[:, None, :, column[demand]]
-
-    hydrogen_lhv = np.asarray(staged.hydrogen_lhv, dtype=float)
-    ammonia_lhv = np.asarray(staged.ammonia_lhv, dtype=float)
-    fraction = staged.fraction
-    main = contributions(inventory.reference, headline)
-    total = main.sum(axis=(1, 2))
-    keys = stacked.activity_keys
-    by_stage, by_gas = stage_and_gas_sums(main, keys, stacked.flow_keys, inventory)
-    every = intensities(total, inventory.reference_product, hydrogen_lhv, ammonia_lhv, fraction)
-    figures = (hydrogen_lhv, ammonia_lhv, fraction)
+    inventory, chosen = staged.inventory, staged.chosen
+    per_gwp = {gwp: per_system(vector, count) for gwp, vector in staged.per_gwp.items()}
+    solved = solve_stacked_inventory(inventory, count)
+    lhv_and_fraction = (
+        np.asarray(staged.hydrogen_lhv, dtype=float),
+        np.asarray(staged.ammonia_lhv, dtype=float),
+        staged.fraction,
+    )
+    headline = headline_arrays(solved, per_gwp[plan.assessment.gwp], lhv_and_fraction)
     scheme_values, scheme_findings, co_product_open = _scheme_draws(
-        plan, draws, count, chosen, params, (inventory, stacked, supply, column, per_gwp), contributions, figures
+        plan, draws, count, chosen, params, solved, per_gwp, lhv_and_fraction
     )
     return Outcome(
-        total=total,
-        intensity={key: (None if value is None else np.broadcast_to(value, (count,))) for key, value in every.items()},
-        by_stage=by_stage,
-        by_gas=by_gas,
+        total=headline["total"],
+        intensity={
+            key: (None if value is None else np.broadcast_to(value, (count,)))
+            for key, value in headline["intensity"].items()
+        },
+        by_stage=headline["by_stage"],
+        by_gas=headline["by_gas"],
         scheme_values=scheme_values,
         scheme_findings=scheme_findings,
         schemes=chosen,
         unit=FUNCTIONAL_UNITS[inventory.reference_product][1],
         functional_unit=inventory.functional_unit,
         boundary=params["project"]["boundary"],
-        product=product,
+        product=inventory.product,
         co_product_open=co_product_open,
     )
 
@@ -678,19 +664,17 @@ def _scheme_draws(
     count: int,
     chosen: list,
     params: dict,
-    solved: tuple,
-    contributions,
+    solved: StackedSolution,
+    per_gwp: dict,
     lhv_and_fraction: tuple,
 ) -> tuple[dict, dict, dict]:
     """Each chosen scheme's value in every draw, as ``score`` gives it: the rules read on the project's own
     values, the series matched under the rule of the assessment year, the co-product rule applied.
 
-    ``solved`` is (inventory, stacked matrices, supply by draw, demand columns, GWP vectors by set and draw);
-    ``contributions(demand, gwp_vector)`` kg CO2e by draw, flow and activity; ``lhv_and_fraction`` the
-    hydrogen and ammonia LHV (MJ/kg) and the hydrogen mass fraction. Returns (values, findings, draws left
-    undetermined by a co-product rule) by scheme id."""
-    inventory, stacked, supply, column, per_gwp = solved
-    keys = stacked.activity_keys
+    ``solved`` holds the draws' solved systems; ``per_gwp`` the GWP vectors by set and draw;
+    ``lhv_and_fraction`` the hydrogen and ammonia LHV (MJ/kg) and the hydrogen mass fraction. Returns (values,
+    findings, draws left undetermined by a co-product rule) by scheme id."""
+    inventory = solved.inventory
     scheme_values, scheme_findings, co_product_open = {}, {}, {}
     nominal = params_with_draws(plan, {})
     period = Period.year(checked_year(nominal, plan.assessment.year, plan.source))
@@ -698,39 +682,10 @@ def _scheme_draws(
     for scheme in chosen:
         reading = read_rules(scheme, inventory, nominal, period, matched_periods)
         scheme_findings[scheme.id] = reading.findings
-        basis_demand, basis_product = basis_of(scheme, inventory)
         gwp_vector = scheme_characterisation(per_gwp[scheme.gwp], scheme)
-        figures = (basis_product, *lhv_and_fraction)
-        value = scheme_value(
-            scheme,
-            inventory,
-            keys,
-            stacked.flow_keys,
-            reading,
-            gwp_vector,
-            contributions(basis_demand, gwp_vector),
-            supply[:, :, column[basis_demand]],
-            figures,
-            nominal,
-        )
-        values = np.broadcast_to(value, (count,))
+        values = scheme_value_arrays(solved, scheme, reading, gwp_vector, lhv_and_fraction, nominal)
         if plan.series is not None:
-            values = _matched_draws(
-                plan,
-                scheme,
-                reading,
-                inventory,
-                keys,
-                stacked.flow_keys,
-                gwp_vector,
-                supply,
-                column,
-                basis_demand,
-                figures,
-                params,
-                period,
-                values,
-            )
+            values = _matched_draws(plan, scheme, reading, solved, gwp_vector, lhv_and_fraction, params, period, values)
         scheme_values[scheme.id], co_product_open[scheme.id] = co_product_values(
             plan, draws, count, scheme, values, reading.findings, nominal
         )

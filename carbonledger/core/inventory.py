@@ -110,7 +110,25 @@ def check_physical_limits(params: dict, inputs, source: str) -> None:
     InputError
         Naming the file, the field and what was expected, for the first limit broken.
     """
-    for route in REGISTRY:
-        owns = [name for name in {**route.sections, **route.optional_sections} if params.get(name) is not None]
-        if route.applies(params) or owns:
-            route.check_limits(params, inputs, source)
+    for route in limit_checkers(params):
+        route.check_limits(params, inputs, source)
+
+
+def limit_checkers(params: dict) -> list:
+    """The route modules that check a project's limits: those that apply to it or whose section it has.
+
+    Parameters
+    ----------
+    params : dict
+        The project's parameters by section (``Project.model_dump()``).
+
+    Returns
+    -------
+    list of Route
+        In registry order (the same for every project of one shape, ``core.stacked.shape_of``).
+    """
+    return [
+        route
+        for route in REGISTRY
+        if route.applies(params) or any(params.get(name) is not None for name in route.section_names)
+    ]

@@ -554,11 +554,9 @@ def prepare(
         For a year outside 2000 to 2100 or before commissioning, an unknown GWP set, boundary or scheme, a value
         physics forbids, or a factor missing from the set.
     """
-    params = project.model_dump()
+    params = project_params(project, boundary)
     period = Period.year(checked_year(params, year, source))
     gwp = gwp_set(gwp, factor_set)
-    if boundary is not None:
-        params["project"]["boundary"] = boundary_id(boundary)
     inputs = NumericInputs(factor_set, source)
     check_physical_limits(params, inputs, source)
     staged = run_stages(params, inputs, gwp, schemes)
@@ -584,6 +582,27 @@ def prepare(
         period,
         matching,
     )
+
+
+def project_params(project, boundary: str | None = None) -> dict:
+    """A validated project's parameters as the stages read them (``Project.model_dump``), with the run's boundary.
+
+    Parameters
+    ----------
+    project : Project
+        The validated project.
+    boundary : str or None
+        Cradle-to-gate, well-to-tank or well-to-wake; overrides the project's own.
+
+    Returns
+    -------
+    dict
+        A new nested dict of the project's sections.
+    """
+    params = project.model_dump()
+    if boundary is not None:
+        params["project"]["boundary"] = boundary_id(boundary)
+    return params
 
 
 @dataclass
@@ -1381,8 +1400,19 @@ def check_of(scheme: Scheme, value: float, reading: Reading, period: str) -> Che
     return constructed(Check, {name: values[name] for name in CHECK_FIELDS}, CHECK_SET)
 
 
-def _factor_rows(used: dict) -> list[Factor]:
-    """The factor rows and reference values used, by id: rows are frozen, so results cite them as they are."""
+def factor_rows(used: dict) -> list[Factor]:
+    """The factor rows and reference values used, by id: rows are frozen, so results cite them as they are.
+
+    Parameters
+    ----------
+    used : dict
+        Factor or reference id -> its row, as ``NumericInputs.used`` records them.
+
+    Returns
+    -------
+    list of Factor
+        The rows in id order.
+    """
     return [used[key] for key in sorted(used)]
 
 
@@ -1493,7 +1523,7 @@ def assemble(prepared: Prepared, solutions: dict) -> ScoreResult:
             **flows_counted_apart(prepared, main.inventory.sum(axis=1)),
             by_activity={key: float(v) for key, v in zip(keys, contributions.sum(axis=0), strict=True)},
             heating_values_mj_per_kg=heating,
-            factors_used=_factor_rows(prepared.inputs.used),
+            factors_used=factor_rows(prepared.inputs.used),
             checks=co_product_checks(prepared, scheme_checks(prepared, solutions)),
             exchanges=exchange_rows(inventory, supply),
             parameters=params,
@@ -1567,6 +1597,7 @@ def figures_of(prepared: Prepared, solutions: dict) -> ResultFigures | None:
         return None
     identity = result_identity(prepared)
     figures, _ = headline_figures(prepared, solutions)
+    flows_counted_apart(prepared, solutions[prepared.inventory.reference].inventory.sum(axis=1))  # reads its factors
     checks = tuple(
         check_figures(scheme, value, reading) for scheme, value, reading in scheme_values(prepared, solutions)
     )
@@ -1576,7 +1607,7 @@ def figures_of(prepared: Prepared, solutions: dict) -> ResultFigures | None:
             **figures,
             checks=checks,
             parameters=prepared.params,
-            factors_used=tuple(_factor_rows(prepared.inputs.used)),
+            factors_used=tuple(factor_rows(prepared.inputs.used)),
         )
     )
 
@@ -1642,6 +1673,9 @@ def result_identity(prepared: Prepared) -> dict:
     }
 
 
+LEAKED_HYDROGEN_GWP = "gwp_indirect.h2"  # read only where hydrogen leaks
+
+
 def flows_counted_apart(prepared: Prepared, kg_by_flow) -> dict:
     """The result's flows outside the CO2e total: hydrogen leaked (kg, and its indirect kg CO2e), the
     other non-greenhouse flows and the biogenic CO2 released and stored, per functional unit.
@@ -1666,7 +1700,7 @@ def flows_counted_apart(prepared: Prepared, kg_by_flow) -> dict:
     """
     non_ghg, biogenic = flows_apart(kg_by_flow, prepared.matrices.flow_keys)
     leakage = non_ghg.get("h2", 0.0)
-    leakage_co2e = leakage * prepared.inputs.factor("gwp_indirect.h2", "kg CO2e/kg H2") if leakage > 0 else 0.0
+    leakage_co2e = leakage * prepared.inputs.factor(LEAKED_HYDROGEN_GWP, "kg CO2e/kg H2") if leakage > 0 else 0.0
     return {
         "hydrogen_leakage_kg": leakage,
         "hydrogen_leakage_kg_co2e": float(leakage_co2e),

@@ -10,6 +10,7 @@ validation, periods, ``init`` and lifetime loop over it.
 
 from __future__ import annotations
 
+import functools
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any
@@ -137,6 +138,11 @@ class Route:
     starter_variants: dict[str, Callable[..., str]] = field(default_factory=dict)
     description: str = ""
     co_product: CoProduct | None = None  # a co-product whose burden share a scheme's rulebook may decide
+
+    @functools.cached_property
+    def section_names(self) -> tuple[str, ...]:
+        """The sections it owns and takes, named once."""
+        return tuple({**self.sections, **self.optional_sections})
 
 
 def combustion_kg_per_gj(inputs, gas: str) -> Any:
