@@ -220,3 +220,26 @@ def test_results_made_without_validation_hold_what_validation_gives(tmp_path):
         assert list(item.__dict__) == list(validated.__dict__)  # every field, in the model's order
         for name, value in validated.__dict__.items():
             assert item.__dict__[name] == value and type(item.__dict__[name]) is type(value), (model.__name__, name)
+
+
+def test_a_large_recalc_table_lists_the_moves_and_counts_the_rest(monkeypatch):
+    """A portfolio of thousands gives tens of thousands of rows: the table lists every row whose status moved
+    and counts the unchanged ones by status and scheme (their number equals the CSV's rows of that status);
+    the closing line names the pairs that now fail only when they are few."""
+    from carbonledger.io import portfolio_output
+
+    result = recalc(load_portfolio([DEMO, PORTFOLIO]), load_factor_set("default-2026"), load_factor_set("demo-2027-grid-revision"), year=2028)
+    rows = list(csv.DictReader(io.StringIO(portfolio_output.recalc_csv(result))))[:-1]  # the caution row last
+    monkeypatch.setattr(portfolio_output, "UNCHANGED_ROWS_SHOWN", 5)
+    text = portfolio_output.recalc_table(result)
+    for status in {row["status"] for row in rows if row["status"].startswith("still")}:
+        count = sum(row["status"] == status for row in rows)
+        assert f"{status} ({count:,})\n" in text
+        block = text.split(f"{status} ({count:,})\n")[1].split("\n\n")[0]
+        assert sum(int(line.split(": ")[1].split(" ")[0].replace(",", "")) for line in block.splitlines()) == count
+    moved = [row for row in rows if row["status"].startswith("now")]
+    assert moved and all(row["project"].split(",")[0] in text for row in moved)
+    assert "--format csv or json lists every row" in text
+    assert "1 project-scheme pairs now fail: Vennor Bay hybrid hydrogen" in text  # one pair, named (as in the manual's walk-through)
+    monkeypatch.setattr(portfolio_output, "NEWLY_FAILING_NAMED", 0)
+    assert "1 project-scheme pairs now fail\n" in portfolio_output.recalc_table(result)

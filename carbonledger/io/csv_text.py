@@ -39,8 +39,11 @@ def csv_text(header: Iterable, rows: Iterable[Iterable], *, caution: str | None 
     all_rows = [header, *(list(row) for row in rows)]
     if caution is not None:
         all_rows.append(["caution", caution] + [""] * max(0, len(header) - 2))
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\r\n")
     for row in all_rows:
-        buffer = io.StringIO()
-        csv.writer(buffer, lineterminator="\r\n").writerow([spreadsheet_safe(value) for value in row])
+        writer.writerow([spreadsheet_safe(value) for value in row])
         lines.append(buffer.getvalue()[:-2] + "\n")
+        buffer.seek(0)
+        buffer.truncate()
     return "".join(lines)

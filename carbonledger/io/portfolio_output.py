@@ -66,7 +66,14 @@ def recalc_csv(recalc) -> str:
     return csv_text(RECALC_COLUMNS, rows, caution=CAUTION)
 
 
+NEWLY_FAILING_NAMED = 20  # the closing line names the pairs that now fail up to this many (the table lists them all)
+UNCHANGED_ROWS_SHOWN = 200  # beyond this many unchanged rows the table counts them by scheme (csv and json list all)
+
+
 def recalc_table(recalc) -> str:
+    """The recalc as text: one table per change of status, "now fails" first. The rows whose status moved are
+    always listed; the unchanged ("still ...") ones too when they are at most ``UNCHANGED_ROWS_SHOWN``, else
+    counted by status and scheme (a portfolio of thousands: every row is in ``--format csv`` or ``json``)."""
     rescored = recalc.rescored
     head = (
         f"recalc: {len(recalc.old_scores)} projects, factors {recalc.old_set} (sha256 {recalc.old_sha256[:12]}) -> "
@@ -74,44 +81,66 @@ def recalc_table(recalc) -> str:
         f"{len(recalc.changed_factors)} factor rows differ; {rescored} projects use one of them and were rescored, "
         f"the others kept their result\n\n"
     )
-    # one table per change of status, "now fails" first: a status column would leave no room for the project's name
-    body = ""
-    for status in dict.fromkeys(row.status for row in recalc.rows):
-        rows = [
-            [
-                row.project,
-                row.scheme + (" *" if row.rulebook_from_memory else ""),
-                display_number(row.old_value),
-                display_number(row.new_value),
-                f"{row.change:+.4g}",
-                row.unit,
-                display_number(row.limit),
-            ]
-            for row in recalc.rows
-            if row.status == status
-        ]
-        body += (
-            f"{status} ({len(rows)})\n"
-            + plain_table(
-                ["project", "scheme", "old", "new", "change", "unit", "limit"],
-                rows,
-                {"old", "new", "change", "limit"},
-                wrap={"project", "unit"},
-            )
-            + "\n"
-        )
-    newly = recalc.newly_failing
-    tail = (
-        f"\n{len(newly)} project-scheme pairs now fail"
-        + (": " + "; ".join(f"{r.project} ({r.scheme})" for r in newly) if newly else "")
-        + "\n"
+    groups: dict[str, list] = {}
+    for row in recalc.rows:
+        groups.setdefault(row.status, []).append(row)
+    unchanged = sum(len(rows) for status, rows in groups.items() if status.startswith("still"))
+    counted = unchanged > UNCHANGED_ROWS_SHOWN
+    # one table per change of status: a status column would leave no room for the project's name
+    body = "".join(
+        _counted_rows(status, rows) if counted and status.startswith("still") else _status_table(status, rows)
+        for status, rows in groups.items()
     )
+    if counted:
+        body += f"({unchanged:,} unchanged rows counted by scheme; --format csv or json lists every row)\n"
+    newly = recalc.newly_failing
+    named = "; ".join(f"{r.project} ({r.scheme})" for r in newly) if 0 < len(newly) <= NEWLY_FAILING_NAMED else ""
+    tail = f"\n{len(newly)} project-scheme pairs now fail" + (f": {named}" if named else "") + "\n"
     flags = (
         (FROM_MEMORY_RULEBOOK + "\n" if any(row.rulebook_from_memory for row in recalc.rows) else "")
         + _flagged_factors(recalc.from_memory["factors"])
         + "\n"
     )
     return head + body + tail + flags + f"Caution: {CAUTION}\n"
+
+
+def _status_table(status: str, rows: list) -> str:
+    """The rows of one change of status as a table: project, scheme, old and new value, change, unit, limit."""
+    cells = [
+        [
+            row.project,
+            row.scheme + (" *" if row.rulebook_from_memory else ""),
+            display_number(row.old_value),
+            display_number(row.new_value),
+            f"{row.change:+.4g}",
+            row.unit,
+            display_number(row.limit),
+        ]
+        for row in rows
+    ]
+    return (
+        f"{status} ({len(cells)})\n"
+        + plain_table(
+            ["project", "scheme", "old", "new", "change", "unit", "limit"],
+            cells,
+            {"old", "new", "change", "limit"},
+            wrap={"project", "unit"},
+        )
+        + "\n"
+    )
+
+
+def _counted_rows(status: str, rows: list) -> str:
+    """The rows of one change of status counted by scheme, with the largest change of value."""
+    by_scheme: dict[str, list] = {}
+    for row in rows:
+        by_scheme.setdefault(row.scheme + (" *" if row.rulebook_from_memory else ""), []).append(row)
+    lines = [
+        f"  {scheme}: {len(members):,} (largest change {max((r.change for r in members), key=abs):+.4g} "
+        f"{members[0].unit})"
+        for scheme, members in by_scheme.items()
+    ]
+    return f"{status} ({len(rows):,})\n" + "\n".join(lines) + "\n\n"
 
 
 # --- factor sets ---------------------------------------------------------------------------------
