@@ -55,3 +55,22 @@ def test_a_file_named_through_its_folder_a_link_and_itself_is_listed_once(tmp_pa
     (tmp_path / "sub").mkdir()
     found = project_files([tmp_path, tmp_path / "b.toml", tmp_path / "sub" / ".." / "a.toml"])
     assert [path.name for path in found] == ["a.toml", "b.toml"]
+
+
+def test_a_file_is_read_whole_at_its_size_and_refused_beyond_the_limit(tmp_path, monkeypatch):
+    """read_input_bytes reads the size the file had when checked; a file that grew since (simulated by
+    checking it smaller) is still read whole, and one that grew past the limit is refused in one line."""
+    from carbonledger.errors import InputError
+    from carbonledger.model import input_files
+
+    path = tmp_path / "project.toml"
+    path.write_bytes(b"x" * 1000)
+    assert input_files.read_input_bytes(path, "project file") == b"x" * 1000
+    real = input_files._checked
+    monkeypatch.setattr(input_files, "_checked", lambda p, what, limit: (real(p, what, limit)[0], 10))
+    assert input_files.read_input_bytes(path, "project file") == b"x" * 1000  # grew after the check: all of it
+    with pytest.raises(InputError, match="at most"):
+        input_files.read_input_bytes(path, "project file", limit=500)
+    monkeypatch.undo()
+    with pytest.raises(InputError, match="at most 0 MiB"):
+        input_files.read_input_bytes(path, "project file", limit=999)

@@ -16,6 +16,7 @@ from ..io.compare_output import (
     write_chart,
 )
 from ..io.ledger import ledger_for_run, record_run
+from .draw_options import SeedOption
 from .options import (
     BoundaryOption,
     FactorsOption,
@@ -70,12 +71,7 @@ def compare(
             "probability of qualifying; error bars on --chart.",
         ),
     ] = None,
-    seed: Annotated[
-        int,
-        typer.Option(
-            "--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers."
-        ),
-    ] = DEFAULT_SEED,
+    seed: SeedOption = DEFAULT_SEED,
     distributions: Annotated[
         Optional[Path],
         typer.Option(

@@ -13,6 +13,7 @@ from ..analyses.uncertainty import DEFAULT_SEED
 from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.qualify_output import qualify_csv, qualify_json, qualify_table, write_front_chart
+from .draw_options import DistributionsOption, SamplingOption, SeedOption
 from .options import (
     FactorsOption,
     ForceOption,
@@ -31,7 +32,6 @@ from .options import (
     render_result,
     with_rebalance,
 )
-from .uncertainty import DistributionsOption, SamplingOption, SeedOption
 
 
 def qualify(

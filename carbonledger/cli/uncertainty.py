@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import contextlib
 import sys
-from enum import Enum
 from pathlib import Path
 from typing import Annotated, Optional
 
@@ -27,6 +26,7 @@ from ..io.uncertainty_output import (
     uncertainty_table,
     write_uncertainty_chart,
 )
+from .draw_options import DistributionsOption, DrawsOption, SamplingOption, SeedOption
 from .options import (
     BoundaryOption,
     FactorsOption,
@@ -50,31 +50,6 @@ from .options import (
     render_result,
     with_rebalance,
 )
-
-
-class Sampling(str, Enum):
-    random = "random"
-    latin_hypercube = "latin_hypercube"
-
-
-DistributionsOption = Annotated[
-    Optional[Path],
-    typer.Option(
-        "--distributions",
-        help="Distributions TOML laid over the project's [uncertainty] table (parameter paths and factor ids).",
-    ),
-]
-DrawsOption = Annotated[int, typer.Option("--draws", help="Number of Monte Carlo draws.")]
-SeedOption = Annotated[
-    int,
-    typer.Option(
-        "--seed", help=f"Seed of the random draws (default {DEFAULT_SEED}); the same seed gives the same numbers."
-    ),
-]
-SamplingOption = Annotated[
-    Optional[Sampling],
-    typer.Option("--sampling", help="random or latin_hypercube; default: the distributions' own (random)."),
-]
 
 
 @contextlib.contextmanager

@@ -13,6 +13,7 @@ from ..errors import InputError
 from ..io.ledger import ledger_for_run, record_run
 from ..io.workbook.uncertainty_sheet import draws_csv_path, write_draws_csv
 from ..io.workbook.writer import write_workbook_file
+from .draw_options import SeedOption
 from .options import (
     BoundaryOption,
     FactorsOption,
@@ -70,12 +71,7 @@ def workbook(
             "--distributions).",
         ),
     ] = None,
-    seed: Annotated[
-        int,
-        typer.Option(
-            "--seed", help=f"Seed of the draws (default {DEFAULT_SEED}); the same seed gives the same numbers."
-        ),
-    ] = DEFAULT_SEED,
+    seed: SeedOption = DEFAULT_SEED,
     distributions: Annotated[
         Optional[Path],
         typer.Option(

@@ -20,6 +20,11 @@ MAX_INPUT_BYTES = 256 * 1024 * 1024
 
 def check_input_file(path: str | Path, what: str, limit: int = MAX_INPUT_BYTES) -> Path:
     """``path`` when it is a regular file of at most ``limit`` bytes (nothing is read), else one InputError."""
+    return _checked(path, what, limit)[0]
+
+
+def _checked(path: str | Path, what: str, limit: int) -> tuple[Path, int]:
+    """(path, size in bytes) of a regular file of at most ``limit`` bytes, else one InputError."""
     path = Path(path)
     try:
         info = path.stat()
@@ -32,11 +37,14 @@ def check_input_file(path: str | Path, what: str, limit: int = MAX_INPUT_BYTES) 
         raise InputError(
             path, "", f"a {what} of at most {limit // (1024 * 1024)} MiB, got {info.st_size / (1024 * 1024):,.0f} MiB"
         )
-    return path
+    return path, info.st_size
 
 
 def read_input_bytes(path: str | Path, what: str, limit: int = MAX_INPUT_BYTES) -> bytes:
     """The bytes of ``path`` when it is a regular file of at most ``limit`` bytes.
+
+    The file is read at the size it had when checked (one byte more shows it grew, and the rest is read up
+    to the limit): reading ``limit`` bytes at once would make Python set aside the whole limit for each file.
 
     Parameters
     ----------
@@ -44,10 +52,12 @@ def read_input_bytes(path: str | Path, what: str, limit: int = MAX_INPUT_BYTES) 
     what : what the file should be, for the message ("project file", "time series CSV").
     limit : the largest size accepted, bytes.
     """
-    path = check_input_file(path, what, limit)
+    path, size = _checked(path, what, limit)
     try:
         with path.open("rb") as handle:
-            raw = handle.read(limit + 1)
+            raw = handle.read(size + 1)
+            if len(raw) > size:  # grew since it was checked
+                raw += handle.read(limit + 1 - len(raw))
     except OSError as error:
         raise InputError(path, "", f"a readable {what} ({error.strerror})") from None
     if len(raw) > limit:  # grew while read
