@@ -157,22 +157,13 @@ def sensitivity_figure(result: Sensitivity):
     plt.rcParams.update(CHART_STYLE)
     figure, (left, right) = plt.subplots(1, 2, figsize=(12, height), layout="constrained", width_ratios=[3, 2])
     for row, bar in enumerate(result.tornado[::-1]):
-        left.barh(
-            row,
-            bar.at_low - result.base,
-            left=result.base,
-            color=LOW,
-            height=0.6,
-            label="input at its 10th percentile" if row == 0 else None,
-        )
-        left.barh(
-            row,
-            bar.at_high - result.base,
-            left=result.base,
-            color=HIGH,
-            height=0.6,
-            label="input at its 90th percentile" if row == 0 else None,
-        )
+        for value, colour, label in (
+            (bar.at_low, LOW, "input at its 10th percentile"),
+            (bar.at_high, HIGH, "input at its 90th percentile"),
+        ):
+            left.barh(
+                row, value - result.base, left=result.base, color=colour, height=0.6, label=label if row == 0 else None
+            )
     left.axvline(result.base, color=AXIS, linewidth=0.8)
     if result.limit is not None:
         left.axvline(

@@ -33,7 +33,7 @@ import numpy as np
 
 from ...analyses.matching import period_labels
 from .layout import CALCULATION, INTERVALS, MATCHING, put_text
-from .style import SHARE, header_row, page_setup, style_cell
+from .style import SHARE, header_texts, page_setup, style_cell
 
 SUMMARY_TOP = 4
 INTERVAL_HEADER_ROW = 3
@@ -199,9 +199,7 @@ def _write_monthly_table(
             f"{check.scheme}: matched share",
         ]
     put_text(main, month_header - 1, 1, "By month (local calendar): sums over the intervals below.")
-    for position, text in enumerate(month_headers, start=1):
-        put_text(main, month_header, position, text)
-    header_row(main, month_header, len(month_headers))
+    header_texts(main, month_header, month_headers)
     for number, (start, end) in enumerate(zip(month_starts, month_ends, strict=True)):
         row = month_header + 1 + number
         put_text(main, row, 1, str(months[start]))
@@ -261,9 +259,7 @@ def _write_summary(
         "Per scheme: matched share = matched / use; grid electricity "
         "per kg H2 = (1 - matched share) x electricity per kg H2.",
     )
-    for position, text in enumerate(SUMMARY_HEADERS, start=1):
-        put_text(main, summary_header, position, text)
-    header_row(main, summary_header, len(SUMMARY_HEADERS))
+    header_texts(main, summary_header, SUMMARY_HEADERS)
     rows: dict[str, int] = {}
     for number, check in enumerate(checks):
         row = summary_header + 1 + number
@@ -336,9 +332,7 @@ def write_intervals_sheets(ws, intervals_ws, series, checks, block, hydrogen_key
     kwh_per_kg = _write_titles(main, intervals_ws, series, block, hydrogen_key, kwh_row=3)
     column, headers, generation_column, group_columns = _interval_columns(series, groups)
     letter = {key: get_column_letter(value) for key, value in column.items()}
-    for position, text in enumerate(headers, start=1):
-        put_text(intervals_ws, INTERVAL_HEADER_ROW, position, text)
-    header_row(intervals_ws, INTERVAL_HEADER_ROW, len(headers))
+    header_texts(intervals_ws, INTERVAL_HEADER_ROW, headers)
     _write_interval_inputs(cells, series, column, letter, first, kwh_per_kg)
     _write_eligible_generation(cells, generation_column, letter, first, n)
     _write_matched(cells, group_columns, letter["load"], first, n)

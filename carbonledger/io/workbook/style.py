@@ -14,6 +14,8 @@ from __future__ import annotations
 
 import math
 
+from .layout import put_text
+
 INK, TEAL, SAND, SLATE = "FF1D2A33", "FF24566B", "FF7A4E0F", "FF5B616C"
 INPUT_FILL, FACTOR_FILL, HEADER_FILL = "FFF6ECD9", "FFE4EEF0", "FF24566B"
 SHARE = "0.0%"
@@ -89,6 +91,13 @@ def style_cell(cell, kind: str, number: str | None = None) -> None:
 def header_row(ws, row: int, columns: int) -> None:
     for column in range(1, columns + 1):
         style_cell(ws.cell(row=row, column=column), "header")
+
+
+def header_texts(ws, row: int, texts) -> None:
+    """One header row of a table: ``texts`` from column 1 (as text), in the header style."""
+    for column, text in enumerate(texts, start=1):
+        put_text(ws, row, column, text)
+    header_row(ws, row, len(texts))
 
 
 def wrap_columns(ws, letters: str, first_row: int) -> None:

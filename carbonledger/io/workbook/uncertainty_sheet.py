@@ -20,7 +20,7 @@ from ..csv_text import spreadsheet_safe
 from ..files import atomic_write
 from ..labels import INTENSITY_LABELS, INTENSITY_UNITS, stage_name
 from .layout import put_text, put_value, set_widths
-from .style import header_row, number_format, page_setup, style_cell, wrap_columns
+from .style import header_texts, number_format, page_setup, style_cell, wrap_columns
 
 UNCERTAINTY = "Uncertainty"
 SUMMARY_COLUMNS = (
@@ -76,9 +76,7 @@ def _write_inputs(ws, row: int, result: UncertaintyResult) -> int:
     row += 1
     style_cell(put_text(ws, row, 1, "Uncertain inputs"), "title")
     row += 1
-    for column, title in enumerate(("input", "distribution", "its parameters", "stated in", "from memory"), start=1):
-        put_text(ws, row, column, title)
-    header_row(ws, row, 5)
+    header_texts(ws, row, ("input", "distribution", "its parameters", "stated in", "from memory"))
     row += 1
     for item in result.inputs:
         put_text(ws, row, 1, item.input)
@@ -111,9 +109,7 @@ def _write_checks(ws, row: int, result: UncertaintyResult) -> int:
     row += 1
     style_cell(put_text(ws, row, 1, "Probability of each verdict (with its Monte Carlo standard error)"), "title")
     row += 1
-    for column, title in enumerate(CHECK_COLUMNS, start=1):
-        put_text(ws, row, column, title)
-    header_row(ws, row, len(CHECK_COLUMNS))
+    header_texts(ws, row, CHECK_COLUMNS)
     row += 1
     for check in result.checks:
         put_text(ws, row, 1, f"{check.scheme}: {check.name}")
@@ -170,9 +166,7 @@ def write_uncertainty_sheet(ws, result: UncertaintyResult, draws_csv: str = "") 
     row += 1
     style_cell(put_text(ws, row, 1, "Result over the draws"), "title")
     row += 1
-    for column, title in enumerate(SUMMARY_COLUMNS, start=1):
-        put_text(ws, row, column, title)
-    header_row(ws, row, len(SUMMARY_COLUMNS))
+    header_texts(ws, row, SUMMARY_COLUMNS)
     row += 1
     figures = [("Total per functional unit", result.total, result.unit)]
     figures += [

@@ -104,6 +104,7 @@ from .style import (
     YEAR,
     fill_missing_formats,
     header_row,
+    header_texts,
     input_format,
     number_format,
     page_setup,
@@ -315,9 +316,7 @@ def _write_inputs_sheet(ws, rows, symbolic: dict, input_cell: dict[str, Term], e
         "of the calculation: after changing one, write a new workbook with "
         "`carbonledger workbook --from-workbook`.",
     )
-    for column, title in enumerate(INPUT_COLUMNS, start=1):
-        put_text(ws, INPUT_HEADER_ROW, column, title)
-    header_row(ws, INPUT_HEADER_ROW, len(INPUT_COLUMNS))
+    header_texts(ws, INPUT_HEADER_ROW, INPUT_COLUMNS)
     row = INPUT_HEADER_ROW
     for path, value, unit, description in rows:
         row += 1
@@ -366,9 +365,7 @@ def _write_factors_sheet(ws, used: dict) -> dict[str, str]:
         "Values are named cells (f_<factor id>). Edited values are read back by --from-workbook; "
         "molar masses (reference.*) come from the chemicals library and are not.",
     )
-    for column, title in enumerate(FACTOR_COLUMNS, start=1):
-        put_text(ws, FACTOR_HEADER_ROW, column, title)
-    header_row(ws, FACTOR_HEADER_ROW, len(FACTOR_COLUMNS))
+    header_texts(ws, FACTOR_HEADER_ROW, FACTOR_COLUMNS)
     address: dict[str, str] = {}
     row = FACTOR_HEADER_ROW
     for key in sorted(used):
@@ -446,17 +443,10 @@ def _write_results_heading(ws, model: SymbolicModel, engine) -> None:
     )
 
 
-def _table_header(ws, row: int, texts) -> None:
-    """One header row of a results table."""
-    for column, text in enumerate(texts, start=1):
-        put_text(ws, row, column, text)
-    header_row(ws, row, len(texts))
-
-
 def _write_stage_table(ws, block: CalculationBlock, inventory, address, engine, unit: str, cells: dict) -> int:
     """Stage sums, their shares and the total (from row 5); returns the total's row."""
     row = 5
-    _table_header(ws, row, ("stage", unit, "share of total", "engine at writing"))
+    header_texts(ws, row, ("stage", unit, "share of total", "engine at writing"))
     stages = stage_sums(block, inventory, block.headline_column)
     first_stage = row + 1
     total_row = first_stage + len(stages)
@@ -478,7 +468,7 @@ def _write_stage_table(ws, block: CalculationBlock, inventory, address, engine, 
 
 def _write_gas_table(ws, row: int, block: CalculationBlock, address, engine, unit: str, cells: dict) -> int:
     """Sums by gas from ``row``; returns the last row written."""
-    _table_header(ws, row, ("gas", unit, "", "engine at writing"))
+    header_texts(ws, row, ("gas", unit, "", "engine at writing"))
     for flow, term in gas_sums(block, block.headline_column).items():
         row += 1
         put_text(ws, row, 1, gas_name(flow))
@@ -491,7 +481,7 @@ def _write_intensity_table(
     ws, row: int, model: SymbolicModel, block: CalculationBlock, address, engine, total, cells: dict
 ) -> int:
     """The intensities of the ``total`` cell and the hydrogen plant gate figure from ``row``; returns the last row."""
-    _table_header(ws, row, ("intensity", "value", "unit", "engine at writing"))
+    header_texts(ws, row, ("intensity", "value", "unit", "engine at writing"))
     figures = intensities(
         total, model.inventory.reference_product, model.hydrogen_lhv, model.ammonia_lhv, model.hydrogen_fraction
     )
@@ -520,7 +510,7 @@ def _write_thresholds_table(ws, header: int, chosen) -> tuple[dict[str, list[tup
     threshold_rows: dict[str, list[tuple[int, Any]]] = {}
     row = header
     put_text(ws, row - 1, 1, "Thresholds (edit a limit and the checks above follow)")
-    _table_header(ws, row, ("scheme", "tier", "limit", "comparison", "unit", "legal source", "from memory"))
+    header_texts(ws, row, ("scheme", "tier", "limit", "comparison", "unit", "legal source", "from memory"))
     for scheme in chosen:
         for threshold in sorted(scheme.thresholds, key=lambda t: t.limit):
             row += 1
@@ -562,7 +552,7 @@ def _write_checks_table(
     ws, header: int, model: SymbolicModel, chosen, block, address, engine, threshold_rows, cells: dict
 ) -> None:
     """One row per scheme: its live value, status, margin and tier beside the engine's at writing."""
-    _table_header(ws, header, CHECK_COLUMNS)
+    header_texts(ws, header, CHECK_COLUMNS)
     engine_checks = {check.scheme: check for check in engine.checks}
     for row, scheme in enumerate(chosen, start=header + 1):
         _write_check_row(
