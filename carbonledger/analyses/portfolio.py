@@ -329,16 +329,18 @@ def figures_many(
     for number, one in enumerate(shaped):
         if one is not None:
             shapes.setdefault(one[1], []).append(number)
-    for members in shapes.values():
-        for start in range(0, len(members) if len(members) >= MIN_GROUP else 0, BLOCK_MEMBERS):
+    for members in (members for members in shapes.values() if len(members) >= MIN_GROUP):
+        for start in range(0, len(members), BLOCK_MEMBERS):
             part = members[start : start + BLOCK_MEMBERS]
             ready = prepare_projects([projects[part[0]]], [assessment], schemes)[0]
-            first = figures_prepared([projects[part[0]]], [ready], True, checked)[0]
+            figures[part[0]] = figures_prepared([projects[part[0]]], [ready], True, checked)[0]
             if any((rule := co_product_rule(s, ready.params)) is not None and rule.differs for s in ready.chosen):
-                break
+                break  # only the full result decides such a check: the others of the shape are scored alone
             group = [Member(shaped[n][0], projects[n].path, projects[n].sha256) for n in part]
-            for number, one in zip(part, group_figures(ready, first, group) or [], strict=False):
-                figures[number] = one
+            grouped = group_figures(ready, figures[part[0]], group)
+            if grouped is not None:
+                for number, one in zip(part, grouped, strict=True):
+                    figures[number] = one
     alone = [number for number, one in enumerate(figures) if one is None]
     for start in range(0, len(alone), CHUNK_PROJECTS):
         part = [projects[n] for n in alone[start : start + CHUNK_PROJECTS]]
